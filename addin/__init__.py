@@ -1,0 +1,1 @@
+"""stillair add-in: everything spreadsheet-shaped, a thin skin over :mod:`engine`."""

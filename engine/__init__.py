@@ -1,0 +1,11 @@
+"""stillair engine: still-air heat transfer as pure numerics.
+
+Temperatures in degrees Celsius at every public interface (kelvin only inside), SI units
+otherwise.  The public names mirror the spreadsheet cell functions in snake_case.
+"""
+
+from .validity import *  # noqa: F401,F403
+from .correlations import *  # noqa: F401,F403
+from .external import *  # noqa: F401,F403
+
+__version__ = "0.1.0"

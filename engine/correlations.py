@@ -1,0 +1,285 @@
+"""The correlation registry: one mechanism for every Nusselt correlation.
+
+A correlation is a small pure function of numpy arrays, registered with :func:`correlation`
+together with its source, its equation, its validity ranges and the cases it serves.  Everything
+else is done here once for all of them:
+
+* argument checking (Ra >= 0, Pr > 0, aspect > 0, tilt in [0, 180], case names),
+* broadcasting of array arguments and scalar results for scalar inputs,
+* the conduction floor Nu >= 1 where the geometry has one (cavities),
+* the validity check against the published ranges, with a note naming the bound crossed,
+* the "auto" choice: the first correlation in the geometry's written preference order whose
+  ranges cover the case; if none covers it, the geometry's fallback, with the note.
+
+Geometries and their inputs (all lower-case keyword arguments of the registered functions):
+
+=========  =======================================  ==============================================
+geometry   inputs                                   case
+=========  =======================================  ==============================================
+vplate     ra, pr                                   --
+hplate     ra, pr                                   hot-up, hot-down, cold-up, cold-down
+tplate     ra, pr, tilt (deg from vertical)         hot-up, hot-down, cold-up, cold-down
+hcyl       ra, pr                                   --
+sphere     ra, pr                                   --
+vcyl       ra, pr, slenderness (height/diameter)    --
+cavity     ra, pr, aspect (height/gap), tilt (deg   --
+           from horizontal, 0 heated from below)
+=========  =======================================  ==============================================
+
+Ra is always based on the geometry's own length (plate height, area/perimeter, diameter, gap).
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, field
+from typing import Callable, Mapping, Sequence
+
+import numpy as np
+
+from .validity import (
+    CorrelationRangeWarning,
+    InputError,
+    Range,
+    require_between,
+    require_choice,
+    require_nonnegative,
+    require_positive,
+    unwrap,
+)
+
+__all__ = [
+    "Correlation",
+    "Geometry",
+    "NusseltResult",
+    "GEOMETRIES",
+    "CORRELATIONS",
+    "correlation",
+    "define_geometry",
+    "get_correlation",
+    "methods_for",
+    "nusselt",
+    "nusselt_value",
+    "PLATE_CASES",
+]
+
+PLATE_CASES = ("hot-up", "hot-down", "cold-up", "cold-down")
+# A heated face looking up and a cooled face looking down both drive an unstable, rising
+# (or falling) plume off the face; the other two cases trap the fluid against the face.
+UNSTABLE_CASES = ("hot-up", "cold-down")
+STABLE_CASES = ("hot-down", "cold-up")
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """A family of correlations sharing inputs and an "auto" preference order.
+
+    ``auto_order`` maps a case (or ``None`` for geometries without cases) to the method names
+    tried in order; ``fallback`` maps a case to the method used when none of them covers the
+    inputs.  ``floor`` is the smallest physical Nusselt number (1 for conduction across a
+    cavity), or None where a formula may legitimately go below 1 (external flows, where Nu is
+    based on an arbitrary length).
+    """
+
+    name: str
+    inputs: tuple[str, ...]
+    description: str
+    cases: tuple[str, ...] = ()
+    auto_order: Mapping[str | None, tuple[str, ...]] = field(default_factory=dict)
+    fallback: Mapping[str | None, str | Callable[[Mapping[str, np.ndarray]], np.ndarray]] = field(
+        default_factory=dict)
+    floor: float | None = None
+
+
+@dataclass(frozen=True)
+class Correlation:
+    """One published correlation, as the registry stores it."""
+
+    geometry: str
+    method: str
+    function: Callable[..., np.ndarray]
+    title: str
+    source: str
+    equation: str
+    validity: tuple[Range, ...]
+    cases: tuple[str, ...] = ()
+    notes: str = ""
+
+    def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
+        inside = np.ones(shape, dtype=bool)
+        for bound in self.validity:
+            inside &= bound.inside(inputs)
+        return inside
+
+    def notes_for(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        """Per element: "" when inside every range, else the first bound crossed."""
+        shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
+        notes = np.full(shape, "", dtype=object)
+        for bound in reversed(self.validity):  # first listed bound wins
+            values = np.broadcast_to(bound.values(inputs), shape)
+            outside = ~np.broadcast_to(bound.inside(inputs), shape)
+            for index in zip(*np.nonzero(outside)):
+                notes[index] = (f"{self.method}: {bound.violation(float(values[index]))}"
+                                f" (valid {bound.describe()})")
+        return notes
+
+    def describe_validity(self) -> str:
+        return "; ".join(bound.describe() for bound in self.validity) or "no stated limits"
+
+
+@dataclass
+class NusseltResult:
+    """Nu with the method that produced it and whether the inputs were inside its range."""
+
+    nu: np.ndarray
+    method: np.ndarray
+    in_range: np.ndarray
+    note: np.ndarray
+
+    def scalar(self) -> "NusseltResult":
+        return NusseltResult(unwrap(self.nu), unwrap(self.method), unwrap(self.in_range), unwrap(self.note))
+
+    @property
+    def notes(self) -> list[str]:
+        """The distinct non-empty notes, in order of first appearance."""
+        seen: list[str] = []
+        for note in np.atleast_1d(self.note).ravel():
+            if note and note not in seen:
+                seen.append(note)
+        return seen
+
+
+GEOMETRIES: dict[str, Geometry] = {}
+CORRELATIONS: dict[tuple[str, str], Correlation] = {}
+
+
+def define_geometry(geometry: Geometry) -> Geometry:
+    GEOMETRIES[geometry.name] = geometry
+    return geometry
+
+
+def correlation(*, geometry: str, method: str, title: str, source: str, equation: str,
+                validity: Sequence[Range] = (), cases: Sequence[str] = (), notes: str = ""):
+    """Register a correlation function ``f(**inputs) -> Nu`` under (geometry, method)."""
+
+    def register(function):
+        key = (geometry, method)
+        if key in CORRELATIONS:
+            raise RuntimeError(f"correlation {key} registered twice")
+        if geometry not in GEOMETRIES:
+            raise RuntimeError(f"unknown geometry {geometry!r}; define it first")
+        CORRELATIONS[key] = Correlation(
+            geometry=geometry, method=method, function=function, title=title, source=source,
+            equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes)
+        return function
+
+    return register
+
+
+def methods_for(geometry: str, case: str | None = None) -> list[str]:
+    """Method names registered for a geometry (and case), in registration order."""
+    return [c.method for (g, _), c in CORRELATIONS.items()
+            if g == geometry and (case is None or not c.cases or case in c.cases)]
+
+
+def get_correlation(geometry: str, method: str) -> Correlation:
+    try:
+        return CORRELATIONS[(geometry, method)]
+    except KeyError:
+        raise KeyError(f"no correlation {method!r} for {geometry}") from None
+
+
+_INPUT_CHECKS: dict[str, Callable[[str, np.ndarray], np.ndarray]] = {
+    "ra": lambda fn, v: require_nonnegative(fn, "Ra", v),
+    "pr": lambda fn, v: require_positive(fn, "Pr", v),
+    "aspect": lambda fn, v: require_positive(fn, "aspect", v),
+    "slenderness": lambda fn, v: require_positive(fn, "slenderness", v),
+    "tilt": lambda fn, v: require_between(fn, "tilt", v, 0.0, 180.0, "deg"),
+}
+_PLATE_TILT_CHECK = lambda fn, v: require_between(fn, "tilt", v, 0.0, 90.0, "deg")
+
+
+def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, object]) -> dict:
+    inputs = {}
+    for name in geometry.inputs:
+        if name not in raw:
+            raise InputError(function_name, name, None, "given")
+        check = _PLATE_TILT_CHECK if (geometry.name == "tplate" and name == "tilt") else _INPUT_CHECKS[name]
+        inputs[name] = check(function_name, raw[name])
+    arrays = np.broadcast_arrays(*inputs.values())
+    return {name: array for name, array in zip(inputs, arrays)}
+
+
+def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str:
+    if method is None:
+        return "auto"
+    allowed = ["auto"] + methods_for(geometry.name, case)
+    return require_choice(function_name, "method", method, allowed)
+
+
+def nusselt(geometry: str, method: str | None = "auto", case: str | None = None, *,
+            function_name: str | None = None, warn: bool = False, **inputs) -> NusseltResult:
+    """Evaluate Nu for ``geometry`` by ``method`` (or "auto") with full validity information.
+
+    This never raises for inputs outside a correlation's range (that is a note), only for
+    inputs no correlation can take (negative Ra, unknown case, unknown method).  With
+    ``warn=True`` a :class:`CorrelationRangeWarning` is issued listing every note.
+    """
+    geo = GEOMETRIES[geometry]
+    function_name = function_name or f"nu_{geometry}"
+    if geo.cases:
+        case = require_choice(function_name, "case", case, geo.cases)
+    else:
+        case = None
+    method = _resolve_method(function_name, geo, method, case)
+    arrays = _checked_inputs(function_name, geo, inputs)
+    shape = next(iter(arrays.values())).shape if arrays else ()
+
+    if method == "auto":
+        chosen = _auto_choice(geo, case, arrays, shape)
+    else:
+        chosen = np.full(shape, method, dtype=object)
+
+    nu = np.empty(shape, dtype=float)
+    notes = np.full(shape, "", dtype=object)
+    in_range = np.ones(shape, dtype=bool)
+    for name in dict.fromkeys(chosen.ravel()):
+        corr = CORRELATIONS[(geometry, name)]
+        mask = chosen == name
+        subset = {k: v[mask] for k, v in arrays.items()}
+        args = dict(subset, case=case) if geo.cases else subset
+        nu[mask] = np.asarray(corr.function(**args), dtype=float)
+        sub_notes = corr.notes_for(subset)
+        notes[mask] = sub_notes
+        in_range[mask] = sub_notes == ""
+    if geo.floor is not None:
+        nu = np.maximum(nu, geo.floor)
+    result = NusseltResult(nu=nu, method=chosen, in_range=in_range, note=notes)
+    if warn and not np.all(in_range):
+        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
+                      CorrelationRangeWarning, stacklevel=3)
+    return result
+
+
+def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inputs):
+    """Nu alone (float for scalar inputs), warning when any input is outside the range."""
+    return unwrap(nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu)
+
+
+def _auto_choice(geo: Geometry, case, arrays, shape) -> np.ndarray:
+    order = geo.auto_order.get(case, ())
+    fallback = geo.fallback[case]
+    if callable(fallback):
+        chosen = np.array(np.broadcast_to(fallback(arrays), shape), dtype=object)
+    else:
+        chosen = np.full(shape, fallback, dtype=object)
+    undecided = np.ones(shape, dtype=bool)
+    for name in order:
+        corr = CORRELATIONS[(geo.name, name)]
+        covered = corr.inside(arrays) & undecided
+        chosen[covered] = name
+        undecided &= ~covered
+        if not undecided.any():
+            break
+    return chosen

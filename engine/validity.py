@@ -1,0 +1,200 @@
+"""Input checking, validity ranges and the messages both produce.
+
+Every public engine function checks its arguments through the helpers here, so a wrong input
+always produces the same shape of message, naming the function, the argument, the value and what
+is allowed (``h_cavity: gap must be > 0 m, got -0.01``).  The cell layer re-words only the
+function name (``H_CAVITY``).
+
+Validity ranges of correlations are :class:`Range` objects.  A value outside a correlation's range
+is *not* an error: the number is still computed, and the range note travels with it
+(:class:`CorrelationRangeWarning` from the plain Python functions, a note in cells, CLI and the
+network result).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Callable, Mapping
+
+import numpy as np
+
+__all__ = [
+    "StillairError",
+    "InputError",
+    "CorrelationRangeWarning",
+    "Range",
+    "as_float_array",
+    "require_finite",
+    "require_positive",
+    "require_nonnegative",
+    "require_between",
+    "require_choice",
+    "format_value",
+    "unwrap",
+]
+
+ABSOLUTE_ZERO_C = -273.15
+
+
+class StillairError(ValueError):
+    """Base class of every error stillair raises on purpose."""
+
+
+class InputError(StillairError):
+    """An argument outside what the function accepts.
+
+    The parts are kept so that the cell layer can rebuild the message with the cell function's
+    own name.
+    """
+
+    def __init__(self, function: str, argument: str, value, allowed: str):
+        self.function = function
+        self.argument = argument
+        self.value = value
+        self.allowed = allowed
+        super().__init__(self.render(function))
+
+    def render(self, function_name: str) -> str:
+        return f"{function_name}: {self.argument} must be {self.allowed}, got {format_value(self.value)}"
+
+
+class CorrelationRangeWarning(UserWarning):
+    """A correlation was evaluated outside its published validity range."""
+
+
+def format_value(value) -> str:
+    """Short, readable rendering of a scalar or array for error messages."""
+    if isinstance(value, str):
+        return repr(value)
+    array = np.asarray(value) if not isinstance(value, (list, tuple)) or _is_numeric(value) else None
+    if array is None:
+        return repr(value)
+    if array.ndim == 0:
+        item = array.item()
+        if isinstance(item, float):
+            return f"{item:.6g}"
+        return repr(item) if isinstance(item, str) else str(item)
+    return f"array of {array.size} values"
+
+
+def _is_numeric(value) -> bool:
+    try:
+        np.asarray(value, dtype=float)
+    except (TypeError, ValueError):
+        return False
+    return True
+
+
+def as_float_array(function: str, argument: str, value) -> np.ndarray:
+    """Convert ``value`` to a float array, rejecting text, None and booleans by name."""
+    if value is None:
+        raise InputError(function, argument, value, "a number")
+    if isinstance(value, (bool, np.bool_)):
+        raise InputError(function, argument, value, "a number, not a logical value")
+    if isinstance(value, str):
+        raise InputError(function, argument, value, "a number, not text")
+    try:
+        array = np.asarray(value, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(function, argument, value, "a number") from None
+    return array
+
+
+def require_finite(function: str, argument: str, value) -> np.ndarray:
+    array = as_float_array(function, argument, value)
+    if not np.all(np.isfinite(array)):
+        bad = array[~np.isfinite(array)].flat[0] if array.ndim else array
+        raise InputError(function, argument, bad, "a finite number")
+    return array
+
+
+def _first_bad(array: np.ndarray, bad: np.ndarray):
+    return array[bad].flat[0] if array.ndim else array.item()
+
+
+def require_positive(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    array = require_finite(function, argument, value)
+    bad = ~(array > 0)
+    if np.any(bad):
+        raise InputError(function, argument, _first_bad(array, bad), f"> 0{_unit(unit)}")
+    return array
+
+
+def require_nonnegative(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    array = require_finite(function, argument, value)
+    bad = ~(array >= 0)
+    if np.any(bad):
+        raise InputError(function, argument, _first_bad(array, bad), f">= 0{_unit(unit)}")
+    return array
+
+
+def require_between(function: str, argument: str, value, low: float, high: float,
+                    unit: str = "", low_open: bool = False, high_open: bool = False) -> np.ndarray:
+    array = require_finite(function, argument, value)
+    above_low = array > low if low_open else array >= low
+    below_high = array < high if high_open else array <= high
+    bad = ~(above_low & below_high)
+    if np.any(bad):
+        left = "(" if low_open else "["
+        right = ")" if high_open else "]"
+        allowed = f"in {left}{format_value(low)}, {format_value(high)}{right}{_unit(unit)}"
+        raise InputError(function, argument, _first_bad(array, bad), allowed)
+    return array
+
+
+def require_choice(function: str, argument: str, value, choices) -> str:
+    if not isinstance(value, str) or value.strip().lower() not in choices:
+        raise InputError(function, argument, value, "one of " + ", ".join(f'"{c}"' for c in choices))
+    return value.strip().lower()
+
+
+def _unit(unit: str) -> str:
+    return f" {unit}" if unit else ""
+
+
+def unwrap(array):
+    """Return a Python float for 0-d results, the array otherwise."""
+    array = np.asarray(array)
+    if array.ndim == 0:
+        item = array.item()
+        return item
+    return array
+
+
+@dataclass(frozen=True)
+class Range:
+    """A closed validity interval of one quantity, as published with a correlation.
+
+    ``quantity`` is the name shown in notes ("Ra", "Pr", "aspect", "tilt", "Ra*Pr/(0.2+Pr)").
+    ``of`` computes the quantity from the correlation's inputs when it is not an input itself;
+    by default the input of the same name (lower case) is used.  Bounds are inclusive: papers
+    state them loosely and a reviewer should not be warned at the exact published bound.
+    """
+
+    quantity: str
+    low: float = -math.inf
+    high: float = math.inf
+    of: Callable[[Mapping[str, np.ndarray]], np.ndarray] | None = None
+
+    def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        if self.of is not None:
+            return np.asarray(self.of(inputs), dtype=float)
+        return np.asarray(inputs[self.quantity.lower()], dtype=float)
+
+    def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        values = self.values(inputs)
+        return (values >= self.low) & (values <= self.high)
+
+    def describe(self) -> str:
+        if math.isinf(self.low):
+            return f"{self.quantity} <= {format_value(self.high)}"
+        if math.isinf(self.high):
+            return f"{self.quantity} >= {format_value(self.low)}"
+        return f"{format_value(self.low)} <= {self.quantity} <= {format_value(self.high)}"
+
+    def violation(self, value: float) -> str:
+        """Text for one value outside the range, naming the bound it crosses."""
+        if value < self.low:
+            return f"{self.quantity} = {format_value(value)} below {format_value(self.low)}"
+        return f"{self.quantity} = {format_value(value)} above {format_value(self.high)}"
