@@ -1,0 +1,225 @@
+"""Natural-convection heat-transfer coefficients in one call.
+
+Each function goes the whole way a hand calculation goes: film temperature, gas properties there,
+Ra on the geometry's length, the case (which way the surface faces and whether it is hotter or
+colder than the fluid), Nu from the chosen correlation with its validity note, and
+h = Nu k / L.  :func:`surface_convection` and :func:`cavity_convection` return all of these as a
+:class:`ConvectionResult`; the ``h_*`` functions return h alone and warn when a correlation was
+used outside its range.
+
+Cavity orientation: ``t1`` is the surface on the underside of the layer.  ``tilt`` is the layer's
+angle from the horizontal (90 vertical).  When t1 >= t2 the layer is heated from below and the
+correlations see ``tilt``; when t1 < t2 it is heated from above and they see 180 - tilt.  A vertical
+layer is the same either way.  This keeps a roof cavity right when summer reverses the heat flow.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass
+
+import numpy as np
+
+from .correlations import nusselt
+from .groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
+from .validity import CorrelationRangeWarning, require_between, require_choice, require_positive, unwrap
+
+__all__ = [
+    "ConvectionResult",
+    "surface_convection",
+    "cavity_convection",
+    "h_vplate",
+    "h_hplate",
+    "h_tplate",
+    "h_hcyl",
+    "h_sphere",
+    "h_vcyl",
+    "h_cavity",
+    "FACINGS",
+]
+
+FACINGS = ("up", "down")
+
+
+@dataclass(frozen=True)
+class ConvectionResult:
+    """Everything a checker wants to see beside a convection coefficient."""
+
+    h: np.ndarray            # W/(m²·K)
+    nu: np.ndarray
+    ra: np.ndarray
+    gr: np.ndarray
+    pr: np.ndarray
+    t_film: np.ndarray       # °C, where the properties were taken
+    conductivity: np.ndarray  # W/(m·K) at t_film
+    length: np.ndarray       # m, the length Ra and h are based on
+    method: np.ndarray
+    case: np.ndarray
+    in_range: np.ndarray
+    note: np.ndarray
+
+    @property
+    def notes(self) -> list[str]:
+        seen: list[str] = []
+        for note in np.atleast_1d(self.note).ravel():
+            if note and note not in seen:
+                seen.append(note)
+        return seen
+
+    def scalar(self) -> "ConvectionResult":
+        return ConvectionResult(**{name: unwrap(getattr(self, name)) for name in self.__dataclass_fields__})
+
+
+def _plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
+    """hot-up / hot-down / cold-up / cold-down from the facing and the sign of Ts - Tf.
+
+    At delta T = 0 every case gives the same Ra = 0 limit; "hot" is used by convention.
+    """
+    delta_t = np.asarray(delta_t)
+    return np.where(delta_t >= 0, f"hot-{facing}", f"cold-{facing}").astype(object).reshape(delta_t.shape)
+
+
+_SURFACE_GEOMETRIES = {
+    # geometry: (name of its length argument, needs facing, needs tilt)
+    "vplate": ("height", False, False),
+    "hplate": ("length", True, False),
+    "tplate": ("length", True, True),
+    "hcyl": ("diameter", False, False),
+    "sphere": ("diameter", False, False),
+    "vcyl": ("height", False, False),
+}
+
+
+def _collect(results, shape):
+    """Merge per-case NusseltResults (mask, result) into full arrays."""
+    nu = np.empty(shape)
+    method = np.empty(shape, dtype=object)
+    note = np.empty(shape, dtype=object)
+    in_range = np.empty(shape, dtype=bool)
+    for mask, result in results:
+        nu[mask], method[mask], note[mask], in_range[mask] = result.nu, result.method, result.note, result.in_range
+    return nu, method, note, in_range
+
+
+def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, tilt=None, diameter=None,
+                       gas="air", pressure=DEFAULT_PRESSURE, method="auto", property_temperature=None,
+                       ideal_expansion=False, function_name=None) -> ConvectionResult:
+    """Convection from a surface at ``t_surface`` to still fluid at ``t_fluid`` (°C).
+
+    ``geometry`` is one of vplate, hplate, tplate, hcyl, sphere, vcyl; ``length`` is the
+    geometry's length (height, area/perimeter or diameter).  ``facing`` ("up"/"down") is needed
+    for horizontal and tilted plates, ``tilt`` (degrees from vertical) for tilted plates and
+    ``diameter`` for vertical cylinders.
+    """
+    function_name = function_name or f"h_{geometry}"
+    length_name, needs_facing, needs_tilt = _SURFACE_GEOMETRIES[geometry]
+    length = require_positive(function_name, length_name, length, "m")
+    props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
+                                          property_temperature=property_temperature,
+                                          ideal_expansion=ideal_expansion, function_name=function_name)
+    delta_t = np.subtract(t_surface, t_fluid, dtype=float)
+    gr, ra = buoyancy_groups(props, beta, delta_t, length)
+    shape = np.broadcast(ra, props.prandtl).shape
+    ra, pr = np.broadcast_to(ra, shape), np.broadcast_to(props.prandtl, shape)
+    inputs = {"ra": ra, "pr": pr}
+    if needs_tilt:
+        inputs["tilt"] = np.broadcast_to(require_between(function_name, "tilt", tilt, 0.0, 90.0, "deg"), shape)
+    if geometry == "vcyl":
+        diameter = require_positive(function_name, "diameter", diameter, "m")
+        inputs["slenderness"] = np.broadcast_to(length / diameter, shape)
+    if needs_facing:
+        facing = require_choice(function_name, "facing", facing, FACINGS)
+        case = _plate_case(facing, np.broadcast_to(delta_t, shape))
+        parts = []
+        for case_name in dict.fromkeys(case.ravel()):
+            mask = case == case_name
+            parts.append((mask, nusselt(geometry, method, case_name, function_name=function_name,
+                                        **{k: v[mask] for k, v in inputs.items()})))
+        nu, chosen, note, in_range = _collect(parts, shape)
+    else:
+        case = np.full(shape, "", dtype=object)
+        result = nusselt(geometry, method, function_name=function_name, **inputs)
+        nu, chosen, note, in_range = result.nu, result.method, result.note, result.in_range
+    h = nu * props.conductivity / length
+    return ConvectionResult(h=h, nu=nu, ra=ra, gr=np.broadcast_to(gr, shape), pr=pr,
+                            t_film=np.broadcast_to(t_film, shape),
+                            conductivity=np.broadcast_to(props.conductivity, shape),
+                            length=np.broadcast_to(length, shape), method=chosen, case=case,
+                            in_range=in_range, note=note)
+
+
+def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
+                      property_temperature=None, ideal_expansion=False,
+                      function_name="h_cavity") -> ConvectionResult:
+    """Convection across a closed gas layer between surfaces at t1 (underside) and t2 (°C).
+
+    h = Nu k / gap is the coefficient of q = h (t1 - t2) per unit area of the layer.
+    """
+    gap = require_positive(function_name, "gap", gap, "m")
+    height = require_positive(function_name, "height", height, "m")
+    tilt = require_between(function_name, "tilt", tilt, 0.0, 180.0, "deg")
+    props, t_film, beta = film_properties(t1, t2, gas, pressure, property_temperature=property_temperature,
+                                          ideal_expansion=ideal_expansion, function_name=function_name)
+    delta_t = np.subtract(t1, t2, dtype=float)
+    gr, ra = buoyancy_groups(props, beta, delta_t, gap)
+    shape = np.broadcast(ra, props.prandtl, height, tilt).shape
+    effective_tilt = np.where(delta_t >= 0, tilt, 180.0 - tilt)
+    result = nusselt("cavity", method, function_name=function_name,
+                     ra=np.broadcast_to(ra, shape), pr=np.broadcast_to(props.prandtl, shape),
+                     aspect=np.broadcast_to(height / gap, shape), tilt=np.broadcast_to(effective_tilt, shape))
+    h = result.nu * props.conductivity / gap
+    return ConvectionResult(h=np.broadcast_to(h, shape), nu=result.nu, ra=np.broadcast_to(ra, shape),
+                            gr=np.broadcast_to(gr, shape), pr=np.broadcast_to(props.prandtl, shape),
+                            t_film=np.broadcast_to(t_film, shape),
+                            conductivity=np.broadcast_to(props.conductivity, shape),
+                            length=np.broadcast_to(gap, shape), method=result.method,
+                            case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
+
+
+def _h_only(result: ConvectionResult, function_name: str):
+    if not np.all(result.in_range):
+        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
+                      CorrelationRangeWarning, stacklevel=3)
+    return unwrap(result.h)
+
+
+def h_vplate(ts, tf, height, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a vertical plate of ``height`` (m) at ts in still gas at tf (°C)."""
+    return _h_only(surface_convection("vplate", ts, tf, height, gas=gas, pressure=pressure, method=method,
+                                      function_name="h_vplate"), "h_vplate")
+
+
+def h_hplate(ts, tf, length, facing, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a horizontal plate, ``length`` = area/perimeter (m), face looking "up" or "down"."""
+    return _h_only(surface_convection("hplate", ts, tf, length, facing=facing, gas=gas, pressure=pressure,
+                                      method=method, function_name="h_hplate"), "h_hplate")
+
+
+def h_tplate(ts, tf, length, tilt, facing, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a plate tilted ``tilt`` degrees from vertical, face looking "up" or "down"."""
+    return _h_only(surface_convection("tplate", ts, tf, length, facing=facing, tilt=tilt, gas=gas,
+                                      pressure=pressure, method=method, function_name="h_tplate"), "h_tplate")
+
+
+def h_hcyl(ts, tf, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a long horizontal cylinder (pipe) of outside ``diameter`` (m)."""
+    return _h_only(surface_convection("hcyl", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
+                                      function_name="h_hcyl"), "h_hcyl")
+
+
+def h_sphere(ts, tf, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a sphere of ``diameter`` (m)."""
+    return _h_only(surface_convection("sphere", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
+                                      function_name="h_sphere"), "h_sphere")
+
+
+def h_vcyl(ts, tf, height, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h of a vertical cylinder of ``height`` and ``diameter`` (m), Ra on the height."""
+    return _h_only(surface_convection("vcyl", ts, tf, height, diameter=diameter, gas=gas, pressure=pressure,
+                                      method=method, function_name="h_vcyl"), "h_vcyl")
+
+
+def h_cavity(t1, t2, gap, height, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+    """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
+    return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
+                                     function_name="h_cavity"), "h_cavity")
