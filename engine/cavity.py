@@ -1,0 +1,422 @@
+"""Enclosed cavities: natural convection across a closed rectangular gas layer.
+
+A layer of gap L between two isothermal walls, height H along the walls (aspect A = H/L), the
+other side walls adiabatic.  Ra = g beta (T1 - T2) L^3 / (nu alpha) is based on the gap, and so is
+Nu = h L / k, the coefficient of q = h (T1 - T2) per unit wall area.  Nu = 1 is pure conduction
+across the gap, the physical floor: every value below 1 a formula gives is raised to 1 (the
+geometry's ``floor``); each correlation says below where its formula does that.
+
+Tilt is the layer's angle from the HORIZONTAL: 0 = horizontal layer heated from below (the
+Rayleigh-Benard layer), 90 = vertical layer (the default), 180 = horizontal layer heated from
+above (stable, pure conduction).  Between 90 and 180 the hot wall is on top.
+
+How the correlations fit together
+---------------------------------
+* Horizontal and tilted layers heated from below, 0 <= tilt <= 75 deg: ``hollands`` (Hollands et
+  al. 1975 horizontal form, 1976 tilted form; they coincide at tilt 0), ``globe-dropkin``
+  (horizontal only, high Ra).
+* Vertical layers: ``elsherbiny``, ``catton``, ``macgregor-emery``, ``wright``.  Each computes its
+  vertical value Nu(90) and then applies ONE shared tilt treatment (:func:`tilt_from_vertical`):
+  Ayyaswamy & Catton (1973) Nu(t) = Nu(90) (sin t)^(1/4) for the critical tilt t* <= t <= 90, and
+  Arnold, Catton & Edwards (1976) Nu(t) = 1 + (Nu(90) - 1) sin t for 90 <= t <= 180.  Both give
+  Nu(90) at 90.  Below t* (see :func:`cavity_critical_tilt`) the vertical methods are out of range;
+  the Ayyaswamy-Catton formula is still evaluated there, with a note.
+* ``en673``: the glazing standard's Nu = A (Gr Pr)^n at its three tabulated tilts.
+* ``conduction``: Nu = 1.
+
+The "auto" rule (:data:`AUTO_RULE`) is written below; :func:`cavity_method` reports its choice.
+
+Caution: a cavity Nusselt number is one input to a heat-loss or surface-temperature estimate;
+where condensation, mould, touchable surfaces or equipment ratings depend on the result, check it
+against local codes, the manufacturer's ratings and licensed practice.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .correlations import (
+    Geometry,
+    correlation,
+    define_geometry,
+    nusselt,
+    nusselt_value,
+)
+from .validity import Range, require_positive, unwrap
+
+__all__ = ["nu_cavity", "cavity_method", "cavity_critical_tilt", "tilt_from_vertical",
+           "CRITICAL_TILT_TABLE", "AUTO_RULE"]
+
+AUTO_RULE = (
+    "auto picks the first method whose published ranges cover the case, in this order: "
+    "conduction (heated from above, or below the onset of convection: Ra cos(tilt) <= 1708 and "
+    "Ra sin(tilt) <= 1e3), hollands (0-75 deg, H/L >= 12), globe-dropkin (horizontal, "
+    "3e5 <= Ra <= 7e9), then the vertical correlations with the shared tilt treatment "
+    "(critical tilt to 180 deg): elsherbiny, catton, macgregor-emery, wright.  If none covers "
+    "the case: hollands below 75 deg, elsherbiny from 75 deg, with the out-of-range note.  "
+    "en673 is never chosen by auto (it is the glazing standard's own procedure; ask for it).")
+
+#: Critical tilt t* (deg from horizontal, heated from below) against aspect H/L, below which the
+#: vertical-layer flow gives way to the Benard cells of the heated-from-below layer.
+#: Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., Table 9.3 (after
+#: Hollands/Catton); from memory: H/L 1, 3, 6, 12, > 12 -> 25, 53, 60, 67, 70 deg.
+CRITICAL_TILT_TABLE = ((1.0, 25.0), (3.0, 53.0), (6.0, 60.0), (12.0, 67.0))
+CRITICAL_TILT_TALL = 70.0  # H/L > 12
+
+RAYLEIGH_ONSET = 1708.0  # Ra cos(tilt) at the onset of Benard cells (rigid walls), Hollands 1976
+CONDUCTION_VERTICAL_RA = 1e3  # vertical-layer conduction regime: ElSherbiny Nu_ct - 1 < 1e-4
+
+
+def cavity_critical_tilt(aspect):
+    """Critical tilt t* (deg from horizontal) of a layer of aspect H/L, from Incropera Table 9.3.
+
+    Linear interpolation in the table for 1 <= H/L <= 12; 70 deg for H/L > 12 (the table's
+    "> 12" row, so t* steps from 67 to 70 deg just above 12, as tabulated); 25 deg below H/L = 1
+    (the table's first row held: the table has no entry there).
+    """
+    aspect = require_positive("cavity_critical_tilt", "aspect", aspect)
+    return unwrap(_critical_tilt(aspect))
+
+
+def _critical_tilt(aspect):
+    table_aspect, table_tilt = zip(*CRITICAL_TILT_TABLE)
+    return np.where(aspect > table_aspect[-1], CRITICAL_TILT_TALL,
+                    np.interp(aspect, table_aspect, table_tilt))
+
+
+def tilt_from_vertical(nu_vertical, tilt):
+    """The shared tilt treatment of a vertical-layer Nusselt number Nu(90).
+
+    * t* <= tilt <= 90: Ayyaswamy & Catton (1973), Nu = Nu(90) (sin tilt)^(1/4)
+      (Incropera 6th ed. eq. 9.58, from memory of the number);
+    * 90 <= tilt <= 180: Arnold, Catton & Edwards (1976), Nu = 1 + (Nu(90) - 1) sin tilt
+      (Incropera 6th ed. eq. 9.59, from memory of the number).
+
+    Both give Nu(90) at 90 (continuous), and Arnold's gives conduction at 180.
+    """
+    radians = np.radians(tilt)
+    sine = np.sin(radians)
+    return np.where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
+
+
+# --- validity quantities (Range(of=...)) ------------------------------------------------------
+
+def _ra_cos(inputs):
+    return inputs["ra"] * np.cos(np.radians(inputs["tilt"]))
+
+
+def _ra_sin(inputs):
+    return inputs["ra"] * np.sin(np.radians(inputs["tilt"]))
+
+
+def _catton_x(inputs):
+    return inputs["ra"] * inputs["pr"] / (0.2 + inputs["pr"])
+
+
+def _only_in_band(band, quantity, stand_in):
+    """``of`` for a Range that binds only in one band of a two-band correlation.
+
+    Inside the band the real quantity is checked; elsewhere a stand-in value inside the range is
+    returned, so the Range passes there (the other band's own Range does the checking).  This
+    keeps two-band correlations on the one validity mechanism.
+    """
+    return lambda inputs: np.where(band(inputs), quantity(inputs), stand_in)
+
+
+def _input(name):
+    return lambda inputs: inputs[name]
+
+
+TILT_FROM_CRITICAL = Range(
+    "tilt - critical tilt", low=0.0,
+    of=lambda inputs: inputs["tilt"] - _critical_tilt(inputs["aspect"]))
+"""The vertical methods' tilt range: from the critical tilt t*(aspect) up to 180 deg."""
+
+
+# --- geometry ---------------------------------------------------------------------------------
+
+def _auto_fallback(inputs):
+    """Method used when no correlation's ranges cover the case (always with the note)."""
+    return np.where(inputs["tilt"] < 75.0, "hollands", "elsherbiny").astype(object)
+
+
+define_geometry(Geometry(
+    name="cavity", inputs=("ra", "pr", "aspect", "tilt"),
+    description="enclosed rectangular gas layer, Ra and Nu on the gap L, aspect = H/L, tilt in "
+                "deg from the horizontal (0 heated from below, 90 vertical, 180 heated from "
+                "above). " + AUTO_RULE,
+    auto_order={None: ("conduction", "hollands", "globe-dropkin", "elsherbiny", "catton",
+                       "macgregor-emery", "wright")},
+    fallback={None: _auto_fallback},
+    floor=1.0))
+
+
+def _vertical_correlation(*, method, title, source, equation, validity, notes=""):
+    """Register a vertical-layer correlation ``nu90(ra, pr, aspect)`` with the shared tilt treatment.
+
+    The registered function is Nu(tilt) = tilt_from_vertical(nu90, tilt); its ranges are the
+    published vertical ones plus the tilt range from the critical tilt to 180 deg.
+    """
+
+    def register(nu_vertical):
+        def nu_tilted(ra, pr, aspect, tilt):
+            return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt)
+
+        nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"
+        nu_tilted.__doc__ = nu_vertical.__doc__
+        nu_tilted.vertical = nu_vertical
+        correlation(
+            geometry="cavity", method=method, title=title, source=source,
+            equation=equation + "; tilted: Nu(t) = Nu(90) (sin t)^(1/4) for t* <= t <= 90 "
+                                "(Ayyaswamy & Catton), Nu(t) = 1 + (Nu(90) - 1) sin t for "
+                                "90 <= t <= 180 (Arnold, Catton & Edwards)",
+            validity=tuple(validity) + (TILT_FROM_CRITICAL,), notes=notes)(nu_tilted)
+        return nu_vertical
+
+    return register
+
+
+_TILT_SOURCES = ("; tilt: I. Catton, Natural convection in enclosures, Proc. 6th Int. Heat Transfer "
+                 "Conf. 6 (1978) 13-31 (Ayyaswamy & Catton 1973, Arnold, Catton & Edwards 1976), "
+                 "Incropera et al. 6th ed. eqs. 9.58-9.59 and Table 9.3")
+
+# --- vertical layers --------------------------------------------------------------------------
+
+_CATTON_SHORT = lambda inputs: inputs["aspect"] < 2.0   # eq. 9.53 band, 1 <= H/L < 2
+
+
+@_vertical_correlation(
+    method="catton", title="Catton, vertical cavity (two aspect bands)",
+    source="I. Catton, Proc. 6th Int. Heat Transfer Conf. 6 (1978) 13-31, as given in Incropera "
+           "et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.52 (2 <= H/L <= 10) "
+           "and 9.53 (1 <= H/L < 2)" + _TILT_SOURCES,
+    equation="Nu(90) = 0.22 (Pr Ra/(0.2+Pr))^0.28 (H/L)^(-1/4) for H/L >= 2; "
+             "0.18 (Pr Ra/(0.2+Pr))^0.29 for H/L < 2",
+    validity=[
+        Range("aspect", 1.0, 10.0),
+        Range("Pr", high=1e5),
+        Range("Pr [H/L < 2]", low=1e-3, of=_only_in_band(_CATTON_SHORT, _input("pr"), 1e-3)),
+        Range("Ra [H/L >= 2]", 1e3, 1e10,
+              of=_only_in_band(lambda i: ~_CATTON_SHORT(i), _input("ra"), 1e3)),
+        Range("Ra*Pr/(0.2+Pr) [H/L < 2]", low=1e3, of=_only_in_band(_CATTON_SHORT, _catton_x, 1e3)),
+    ],
+    notes="One method, band chosen by aspect: eq. 9.53 for H/L < 2, eq. 9.52 from H/L = 2 up "
+          "(the bands meet at 2, where the value steps up by about 9 % at Ra ~ 1e5).  The "
+          "formula gives Nu < 1 (raised to 1) below Ra Pr/(0.2+Pr) ~ 4e2 (H/L = 2) to ~ 1.7e3 "
+          "(H/L = 10), the latter inside the published Ra range.")
+def catton_vertical(ra, pr, aspect):
+    """Catton's vertical-cavity correlation, band by aspect (Incropera 6th ed. eqs. 9.52-9.53)."""
+    x = ra * pr / (0.2 + pr)
+    return np.where(aspect < 2.0, 0.18 * x ** 0.29, 0.22 * x ** 0.28 * aspect ** -0.25)
+
+
+def _macgregor_laminar_band(inputs):
+    """Eq. 9.54 band: 10 <= H/L and Ra <= 1e7 (its published box); eq. 9.55 elsewhere."""
+    return (inputs["aspect"] >= 10.0) & (inputs["ra"] <= 1e7)
+
+
+@_vertical_correlation(
+    method="macgregor-emery", title="MacGregor and Emery, vertical cavity (two ranges)",
+    source="R.K. MacGregor, A.F. Emery, J. Heat Transfer 91 (1969) 391-403, as given in "
+           "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.54-9.55"
+           + _TILT_SOURCES,
+    equation="Nu(90) = 0.42 Ra^(1/4) Pr^0.012 (H/L)^(-0.3) for H/L >= 10 and Ra <= 1e7; "
+             "0.046 Ra^(1/3) otherwise",
+    validity=[
+        Range("aspect", 1.0, 40.0),
+        Range("Pr", 1.0, 2e4),
+        Range("Ra", 1e4, 1e9),
+        Range("Pr [0.046 Ra^(1/3) band]", high=20.0,
+              of=_only_in_band(lambda i: ~_macgregor_laminar_band(i), _input("pr"), 20.0)),
+        Range("Ra [0.046 Ra^(1/3) band]", low=1e6,
+              of=_only_in_band(lambda i: ~_macgregor_laminar_band(i), _input("ra"), 1e6)),
+    ],
+    notes="The published Prandtl range starts at Pr = 1: air (Pr ~ 0.71) and the other fill "
+          "gases are OUTSIDE it and always carry a note (auto therefore never picks this method "
+          "for gases).  Where the two published boxes overlap (10 <= H/L <= 40, 1e6 <= Ra <= "
+          "1e7) eq. 9.54 is used; the value steps at Ra = 1e7 (-16 % at H/L = 10, +27 % at "
+          "H/L = 40) and at H/L = 10 (+45 % at Ra = 1e6).  The formulas stay above 1 inside "
+          "the published ranges.")
+def macgregor_emery_vertical(ra, pr, aspect):
+    """MacGregor & Emery's vertical-cavity correlations (Incropera 6th ed. eqs. 9.54-9.55)."""
+    laminar = 0.42 * ra ** 0.25 * pr ** 0.012 * aspect ** -0.3
+    turbulent = 0.046 * ra ** (1.0 / 3.0)
+    return np.where((aspect >= 10.0) & (ra <= 1e7), laminar, turbulent)
+
+
+@_vertical_correlation(
+    method="elsherbiny", title="ElSherbiny, Raithby and Hollands, vertical air layer",
+    source="S.M. ElSherbiny, G.D. Raithby, K.G.T. Hollands, Heat transfer by natural convection "
+           "across vertical and inclined air layers, J. Heat Transfer 104 (1982) 96-102, "
+           "vertical-layer equations (from memory)" + _TILT_SOURCES,
+    equation="Nu(90) = max(Nu_ct, Nu_l, Nu_t); Nu_ct = [1 + (0.104 Ra^0.293/(1 + (6310/Ra)^1.36))^3]"
+             "^(1/3), Nu_l = 0.242 (Ra/A)^0.273, Nu_t = 0.0605 Ra^(1/3)",
+    validity=[Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7)],
+    notes="Data for air.  The exponent of Nu_l is written 0.273 here (the Raithby-Hollands "
+          "handbook form, from memory); ISO 15099 transcribes the same term with 0.272 (from "
+          "memory) - the two differ by < 1 % in range.  Nu_ct >= 1 always, so the formula never "
+          "goes below conduction.")
+def elsherbiny_vertical(ra, pr, aspect):
+    """ElSherbiny, Raithby & Hollands (1982), vertical layers: the largest of three regimes."""
+    with np.errstate(divide="ignore"):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
+        conduction_transition = (1.0 + (0.104 * ra ** 0.293 / (1.0 + (6310.0 / ra) ** 1.36)) ** 3) ** (1.0 / 3.0)
+    laminar_boundary_layer = 0.242 * (ra / aspect) ** 0.273
+    turbulent = 0.0605 * ra ** (1.0 / 3.0)
+    return np.maximum(conduction_transition, np.maximum(laminar_boundary_layer, turbulent))
+
+
+def _wright_bands(ra):
+    """Wright (1996): three Ra bands, Nu_1 of ISO 15099's vertical-cavity equations."""
+    return np.where(ra > 5e4, 0.0673838 * ra ** (1.0 / 3.0),
+                    np.where(ra > 1e4, 0.028154 * ra ** 0.4134,
+                             1.0 + 1.7596678e-10 * ra ** 2.2984755))
+
+
+@_vertical_correlation(
+    method="wright", title="Wright, vertical glazing cavity (as adopted in ISO 15099)",
+    source="J.L. Wright, A correlation to quantify convective heat transfer between vertical "
+           "window glazings, ASHRAE Transactions 102(1) (1996) 940-946; combined with the "
+           "aspect term as in ISO 15099:2003 §5.3.3.2 (from memory)" + _TILT_SOURCES,
+    equation="Nu(90) = max(Nu_1, Nu_2); Nu_1 = 0.0673838 Ra^(1/3) (Ra > 5e4), "
+             "0.028154 Ra^0.4134 (1e4 < Ra <= 5e4), 1 + 1.7596678e-10 Ra^2.2984755 (Ra <= 1e4); "
+             "Nu_2 = 0.242 (Ra/A)^0.272",
+    validity=[Range("Ra", high=1e6), Range("aspect", low=20.0)],
+    notes="Implemented: the ISO 15099 form, the larger of Wright's three-band Nu_1 and the "
+          "aspect term Nu_2 = 0.242 (Ra/A)^0.272.  Bounds (from memory, not checked against "
+          "the paper): Ra <= 1e6, A >= 20.  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
+          "(1.275 -> 1.268) and +0.016 at Ra = 5e4 (2.467 -> 2.483), visible where Nu_2 is "
+          "smaller (tall cavities).  Nu_1 >= 1 always.")
+def wright_vertical(ra, pr, aspect):
+    """Wright (1996) glazing-cavity correlation, ISO 15099 form (max with the aspect term)."""
+    return np.maximum(_wright_bands(ra), 0.242 * (ra / aspect) ** 0.272)
+
+
+# --- horizontal and tilted layers heated from below --------------------------------------------
+
+@correlation(
+    geometry="cavity", method="hollands",
+    title="Hollands et al., horizontal (1975) and tilted (1976) air layers heated from below",
+    source="K.G.T. Hollands, G.D. Raithby, L. Konicek, Int. J. Heat Mass Transfer 18 (1975) "
+           "879-884 (horizontal, air); K.G.T. Hollands, T.E. Unny, G.D. Raithby, L. Konicek, "
+           "Free convective heat transfer across inclined air layers, J. Heat Transfer 98 (1976) "
+           "189-193; Incropera et al. 6th ed. eq. 9.56 (from memory of the number)",
+    equation="Nu = 1 + 1.44 [1 - 1708/(Ra cos t)]+ [1 - 1708 (sin 1.8t)^1.6/(Ra cos t)] "
+             "+ [((Ra cos t)/5830)^(1/3) - 1]+   ([x]+ = max(x, 0)); at t = 0 this is the 1975 "
+             "form 1 + 1.44 [1 - 1708/Ra]+ + [(Ra/5830)^(1/3) - 1]+",
+    validity=[
+        Range("tilt", 0.0, 75.0),
+        Range("aspect", low=12.0),
+        Range("Ra", high=1e8),
+        Range("Ra cos(tilt) [tilt > 0]", high=1e5,
+              of=_only_in_band(lambda i: i["tilt"] > 0.0, _ra_cos, 0.0)),
+    ],
+    notes="Air (and gases of similar Pr).  Ra < 1e8 for the horizontal layer (1975), "
+          "Ra cos t < 1e5 once tilted (1976): the upper Ra bound drops as soon as tilt > 0, as "
+          "published.  The formula is 1 exactly below Ra cos t = 1708 (never below 1).  Out of "
+          "range above 90 deg it gives conduction (Ra cos t <= 0).")
+def hollands(ra, pr, aspect, tilt):
+    """Hollands et al. (1976) tilted-layer form; at tilt 0 exactly the 1975 horizontal form."""
+    radians = np.radians(tilt)
+    ra_normal = ra * np.cos(radians)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        onset = np.where(ra_normal > RAYLEIGH_ONSET, 1.0 - RAYLEIGH_ONSET / ra_normal, 0.0)
+        # sin(1.8 t) < 0 only above 100 deg, out of range, where onset is 0 anyway.
+        tilt_factor = 1.0 - RAYLEIGH_ONSET * np.clip(np.sin(1.8 * radians), 0.0, None) ** 1.6 / ra_normal
+        cells = np.where(ra_normal > 0.0, np.cbrt(np.maximum(ra_normal, 0.0) / 5830.0) - 1.0, 0.0)
+        return 1.0 + 1.44 * np.where(onset > 0.0, onset * tilt_factor, 0.0) + np.maximum(cells, 0.0)
+
+
+@correlation(
+    geometry="cavity", method="globe-dropkin", title="Globe and Dropkin, horizontal layer heated from below",
+    source="S. Globe, D. Dropkin, Natural-convection heat transfer in liquids confined by two "
+           "horizontal plates and heated from below, J. Heat Transfer 81 (1959) 24-28; "
+           "Incropera et al. 6th ed. eq. 9.49",
+    equation="Nu = 0.069 Ra^(1/3) Pr^0.074",
+    validity=[Range("tilt", 0.0, 0.0), Range("Ra", 3e5, 7e9), Range("Pr", 0.02, 8750.0)],
+    notes="Horizontal layers only (tilt 0); at other tilts the horizontal value is returned "
+          "with the note (the correlation knows no tilt - it does NOT fall to 1 when heated "
+          "from above).  Pr range 0.02-8750 from memory (mercury, water, silicone oils - "
+          "liquids; no gas was tested).  Gives Nu < 1 below Ra ~ 3e3, far below its range.")
+def globe_dropkin(ra, pr, aspect, tilt):
+    """Globe & Dropkin (1959), Incropera 6th ed. eq. 9.49."""
+    return 0.069 * np.cbrt(ra) * pr ** 0.074
+
+
+# --- glazing standard and conduction -----------------------------------------------------------
+
+#: EN 673 constants of Nu = A (Gr Pr)^n (from memory: EN 673:2011 Table 3 / §5.3):
+#: tilt (deg from horizontal, heat flow upward) -> (A, n).
+EN673_CONSTANTS = {0.0: (0.16, 0.28), 45.0: (0.10, 0.31), 90.0: (0.035, 0.38)}
+
+
+def _en673_off_table(inputs):
+    """Distance (deg) of the tilt from the nearest tabulated tilt."""
+    return np.min([np.abs(inputs["tilt"] - t) for t in EN673_CONSTANTS], axis=0)
+
+
+@correlation(
+    geometry="cavity", method="en673", title="EN 673 glazing standard, Nu = A (Gr Pr)^n",
+    source="EN 673 Glass in building - Determination of thermal transmittance (U value) - "
+           "Calculation method, §5.3 (constants from memory): A = 0.035, n = 0.38 vertical; "
+           "A = 0.10, n = 0.31 at 45 deg; A = 0.16, n = 0.28 horizontal, heat flow upward; "
+           "Nu < 1 -> 1",
+    equation="Nu = max(1, A (Gr Pr)^n) at tilt 0, 45, 90; linear in tilt between them; "
+             "1 + (Nu(90) - 1) sin t above 90 (Arnold's treatment)",
+    validity=[Range("tilt off 0/45/90 deg", high=0.0, of=_en673_off_table)],
+    notes="The standard tabulates only 0, 45 and 90 deg (heat flow upward).  Between them we "
+          "interpolate Nu linearly in tilt (continuous, with the note); above 90 (heat flow "
+          "downward) we apply Arnold's treatment to the vertical value (note), giving 1 at 180. "
+          "EN 673 evaluates Gr and Pr at its own declared conditions (mean gas temperature, "
+          "temperature difference); this function only needs Ra = Gr Pr.  Each tabulated A (Gr Pr)^n "
+          "is raised to 1 where it is below 1, as the standard says.")
+def en673(ra, pr, aspect, tilt):
+    """EN 673 Nu = A (Gr Pr)^n, floored at 1 per tabulated tilt, interpolated between tilts."""
+    tilts = np.array(sorted(EN673_CONSTANTS))
+    a, n = (np.array(v) for v in zip(*(EN673_CONSTANTS[t] for t in tilts)))
+    nu_tab = np.maximum(1.0, a * ra[..., np.newaxis] ** n)            # (..., 3)
+    position = np.clip(tilt, 0.0, 90.0) / 45.0                        # 0..2
+    lower = np.minimum(np.floor(position).astype(int), 1)
+    weight = position - lower
+    nu_low = np.take_along_axis(nu_tab, lower[..., np.newaxis], -1)[..., 0]
+    nu_high = np.take_along_axis(nu_tab, lower[..., np.newaxis] + 1, -1)[..., 0]
+    upward = nu_low + weight * (nu_high - nu_low)
+    return np.where(tilt > 90.0, tilt_from_vertical(nu_tab[..., 2], tilt), upward)
+
+
+@correlation(
+    geometry="cavity", method="conduction", title="Pure conduction across the gap",
+    source="Fourier conduction across a still layer (Nu = 1 by definition of Nu on the gap); "
+           "onset of Benard cells at Ra cos t = 1708: Hollands et al., J. Heat Transfer 98 (1976); "
+           "vertical conduction regime: ElSherbiny et al., J. Heat Transfer 104 (1982)",
+    equation="Nu = 1",
+    validity=[Range("Ra cos(tilt)", high=RAYLEIGH_ONSET, of=_ra_cos),
+              Range("Ra sin(tilt)", high=CONDUCTION_VERTICAL_RA, of=_ra_sin)],
+    notes="Exact for the layer heated from above (tilt 180: Ra cos t <= 0, Ra sin t = 0) and "
+          "below the onset of cells of a layer heated from below (Ra cos t <= 1708).  A layer "
+          "with a vertical component (sin t > 0) circulates at any Ra; its conduction regime "
+          "is taken to Ra sin t = 1e3, where ElSherbiny's Nu_ct - 1 = 7e-5 (common practice).")
+def conduction(ra, pr, aspect, tilt):
+    """Nu = 1."""
+    return np.ones(np.shape(ra))
+
+
+# --- public API --------------------------------------------------------------------------------
+
+def nu_cavity(ra, pr, aspect, tilt=90.0, method="auto"):
+    """Nusselt number (on the gap) of an enclosed gas layer.
+
+    ``ra`` on the gap, ``aspect`` = height/gap, ``tilt`` in deg from the horizontal (0 heated from
+    below, 90 vertical, 180 heated from above), ``method`` one of "auto", "catton",
+    "macgregor-emery", "elsherbiny", "wright", "hollands", "globe-dropkin", "en673",
+    "conduction".  Returns a float for scalar input, an array otherwise; issues a
+    CorrelationRangeWarning when any input is outside the method's published range.
+    """
+    return nusselt_value("cavity", method, function_name="nu_cavity",
+                         ra=ra, pr=pr, aspect=aspect, tilt=tilt)
+
+
+def cavity_method(ra, pr, aspect, tilt=90.0, method="auto"):
+    """The method name(s) that ``nu_cavity`` uses for these inputs (auto's choice, per element)."""
+    result = nusselt("cavity", method, function_name="cavity_method",
+                     ra=ra, pr=pr, aspect=aspect, tilt=tilt)
+    return unwrap(result.method)
