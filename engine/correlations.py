@@ -41,6 +41,7 @@ from .validity import (
     CorrelationRangeWarning,
     InputError,
     Range,
+    format_value,
     require_between,
     require_choice,
     require_nonnegative,
@@ -104,28 +105,52 @@ class Correlation:
     validity: tuple[Range, ...]
     cases: tuple[str, ...] = ()
     notes: str = ""
+    # Some correlations publish different ranges per case (McAdams: hot-up from Ra 1e5, hot-down
+    # from 3e5).  A case listed here uses its own ranges instead of ``validity``.
+    validity_by_case: Mapping[str, tuple[Range, ...]] = field(default_factory=dict)
 
-    def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+    def ranges(self, case: str | None = None) -> tuple[Range, ...]:
+        """The validity ranges that apply to ``case`` (``validity`` unless the case has its own)."""
+        return self.validity_by_case.get(case, self.validity)
+
+    def inside(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
         inside = np.ones(shape, dtype=bool)
-        for bound in self.validity:
+        for bound in self.ranges(case):
             inside &= bound.inside(inputs)
         return inside
 
-    def notes_for(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+    def notes_for(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         """Per element: "" when inside every range, else the first bound crossed."""
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
         notes = np.full(shape, "", dtype=object)
-        for bound in reversed(self.validity):  # first listed bound wins
+        for bound in reversed(self.ranges(case)):  # first listed bound wins
             values = np.broadcast_to(bound.values(inputs), shape)
             outside = ~np.broadcast_to(bound.inside(inputs), shape)
-            for index in zip(*np.nonzero(outside)):
-                notes[index] = (f"{self.method}: {bound.violation(float(values[index]))}"
-                                f" (valid {bound.describe()})")
+            if outside.any():
+                notes[outside] = _violation_notes(self.method, bound, values[outside])
         return notes
 
-    def describe_validity(self) -> str:
-        return "; ".join(bound.describe() for bound in self.validity) or "no stated limits"
+    def describe_validity(self, case: str | None = None) -> str:
+        return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
+
+
+def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
+    """``f"{method}: {bound.violation(v)} (valid {bound.describe()})"`` for each value, vectorised.
+
+    Formatting one note per element in a Python loop made a million out-of-range values cost
+    seconds; only the number changes from note to note, so it alone is formatted per element.
+    """
+    values = np.asarray(values, dtype=float).ravel()
+    head = f"{method}: {bound.quantity} = "
+    valid = f" (valid {bound.describe()})"
+    notes = np.empty(values.shape, dtype=object)
+    below = values < bound.low
+    for side, tail in ((below, f" below {format_value(bound.low)}{valid}"),
+                       (~below, f" above {format_value(bound.high)}{valid}")):
+        # f"{x:.6g}" is format_value's rendering of a float
+        notes[side] = [f"{head}{x:.6g}{tail}" for x in values[side].tolist()]
+    return notes
 
 
 @dataclass
@@ -160,8 +185,13 @@ def define_geometry(geometry: Geometry) -> Geometry:
 
 
 def correlation(*, geometry: str, method: str, title: str, source: str, equation: str,
-                validity: Sequence[Range] = (), cases: Sequence[str] = (), notes: str = ""):
-    """Register a correlation function ``f(**inputs) -> Nu`` under (geometry, method)."""
+                validity: Sequence[Range] = (), cases: Sequence[str] = (), notes: str = "",
+                validity_by_case: Mapping[str, Sequence[Range]] | None = None):
+    """Register a correlation function ``f(**inputs) -> Nu`` under (geometry, method).
+
+    ``validity_by_case`` (optional) gives the ranges of cases whose published range differs
+    from ``validity``.
+    """
 
     def register(function):
         key = (geometry, method)
@@ -171,7 +201,8 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
             raise RuntimeError(f"unknown geometry {geometry!r}; define it first")
         CORRELATIONS[key] = Correlation(
             geometry=geometry, method=method, function=function, title=title, source=source,
-            equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes)
+            equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes,
+            validity_by_case={c: tuple(r) for c, r in (validity_by_case or {}).items()})
         return function
 
     return register
@@ -215,6 +246,13 @@ def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str
     if method is None:
         return "auto"
     allowed = ["auto"] + methods_for(geometry.name, case)
+    name = method.strip().lower() if isinstance(method, str) else None
+    if case is not None and name not in allowed and name in methods_for(geometry.name):
+        # The method exists for this geometry but not for this case: say which cases it serves.
+        serves = ", ".join(f'"{c}"' for c in CORRELATIONS[(geometry.name, name)].cases)
+        raise InputError(function_name, "method", method,
+                         "one of " + ", ".join(f'"{c}"' for c in allowed)
+                         + f' for case "{case}" ({name} serves only {serves})')
     return require_choice(function_name, "method", method, allowed)
 
 
@@ -250,7 +288,7 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
         subset = {k: v[mask] for k, v in arrays.items()}
         args = dict(subset, case=case) if geo.cases else subset
         nu[mask] = np.asarray(corr.function(**args), dtype=float)
-        sub_notes = corr.notes_for(subset)
+        sub_notes = corr.notes_for(subset, case)
         notes[mask] = sub_notes
         in_range[mask] = sub_notes == ""
     if geo.floor is not None:
@@ -277,7 +315,7 @@ def _auto_choice(geo: Geometry, case, arrays, shape) -> np.ndarray:
     undecided = np.ones(shape, dtype=bool)
     for name in order:
         corr = CORRELATIONS[(geo.name, name)]
-        covered = corr.inside(arrays) & undecided
+        covered = corr.inside(arrays, case) & undecided
         chosen[covered] = name
         undecided &= ~covered
         if not undecided.any():

@@ -1,27 +1,64 @@
 """External natural convection: plates, cylinders and spheres in a large still fluid.
 
 Ra is based on the geometry's own length: plate height (vertical plate), area/perimeter
-(horizontal plate), diameter (cylinder, sphere).  Properties at the film temperature.
+(horizontal plate), the plate length the caller chooses (tilted plate, see below), diameter
+(horizontal cylinder, sphere), height (vertical cylinder).  Properties at the film temperature.
 No conduction floor applies: Nu based on an arbitrary length may be below 1.
+
+Every correlation is registered in :mod:`engine.correlations` with its source, equation and
+validity ranges; the public ``nu_*`` functions are one-line calls of the registry, which checks
+the arguments, picks the method for "auto" and reports any out-of-range use.
+
+Piecewise power laws (McAdams, Lloyd-Moran, Morgan) are written as bands ``C Ra^n``; a value
+exactly on a band edge belongs to the lower band.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from .correlations import Geometry, correlation, define_geometry, nusselt_value
+from .correlations import (
+    PLATE_CASES,
+    STABLE_CASES,
+    UNSTABLE_CASES,
+    Geometry,
+    correlation,
+    define_geometry,
+    nusselt_value,
+)
 from .validity import Range
 
-__all__ = ["nu_vplate"]
-
-define_geometry(Geometry(
-    name="vplate", inputs=("ra", "pr"), description="vertical plate, Ra on the height",
-    auto_order={None: ("churchill-chu",)}, fallback={None: "churchill-chu"}))
+__all__ = ["nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl"]
 
 
 def _churchill_pr_factor(pr, constant, exponent):
     """Churchill's Prandtl function [1 + (c/Pr)^(9/16)]^exponent, shared by his correlations."""
     return (1.0 + (constant / pr) ** (9.0 / 16.0)) ** exponent
+
+
+def _power_bands(ra, edges, coefficients, exponents):
+    """C Ra^n with (C, n) taken per band; ``edges`` ascending, an edge value in the lower band."""
+    band = np.searchsorted(np.asarray(edges, dtype=float), ra, side="left")
+    return np.asarray(coefficients)[band] * ra ** np.asarray(exponents)[band]
+
+
+def _cos_tilt(inputs):
+    return inputs["ra"] * np.cos(np.radians(inputs["tilt"]))
+
+
+def _sin_tilt(inputs):
+    return inputs["ra"] * np.sin(np.radians(inputs["tilt"]))
+
+
+# --------------------------------------------------------------------------------------------
+# Vertical plate
+# --------------------------------------------------------------------------------------------
+
+define_geometry(Geometry(
+    name="vplate", inputs=("ra", "pr"),
+    description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
+                "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
+    auto_order={None: ("churchill-chu",)}, fallback={None: "churchill-chu"}))
 
 
 @correlation(
@@ -34,6 +71,310 @@ def _vplate_churchill_chu(ra, pr):
     return (0.825 + 0.387 * ra ** (1.0 / 6.0) / _churchill_pr_factor(pr, 0.492, 8.0 / 27.0)) ** 2
 
 
+@correlation(
+    geometry="vplate", method="churchill-chu-laminar", title="Churchill and Chu, vertical plate, laminar",
+    source="S.W. Churchill, H.H.S. Chu, Int. J. Heat Mass Transfer 18 (1975) 1323-1329 (laminar "
+           "form); Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 9.27",
+    equation="Nu = 0.68 + 0.670 Ra^(1/4) / [1 + (0.492/Pr)^(9/16)]^(4/9)",
+    validity=[Range("Ra", high=1e9)])
+def _vplate_churchill_chu_laminar(ra, pr):
+    return 0.68 + 0.670 * ra ** 0.25 / _churchill_pr_factor(pr, 0.492, 4.0 / 9.0)
+
+
+@correlation(
+    geometry="vplate", method="mcadams", title="McAdams, vertical plate, laminar and turbulent bands",
+    source="W.H. McAdams, Heat Transmission, 3rd ed., McGraw-Hill (1954), ch. 7, vertical plates "
+           "(equation numbers not checked)",
+    equation="Nu = 0.59 Ra^(1/4) for 1e4 <= Ra <= 1e9; Nu = 0.10 Ra^(1/3) for 1e9 < Ra <= 1e13",
+    validity=[Range("Ra", 1e4, 1e13)],
+    notes="Discontinuous at Ra = 1e9 (0.10 Ra^(1/3) is 4.7% below 0.59 Ra^(1/4) there).")
+def _vplate_mcadams(ra, pr):
+    return _power_bands(ra, (1e9,), (0.59, 0.10), (0.25, 1.0 / 3.0))
+
+
 def nu_vplate(ra, pr, method="auto"):
-    """Nusselt number of a vertical plate (Ra on its height), by ``method`` or "auto"."""
+    """Nusselt number of a vertical plate (Ra on its height), by ``method`` or "auto".
+
+    Methods: churchill-chu (default), churchill-chu-laminar, mcadams.
+    """
     return nusselt_value("vplate", method, function_name="nu_vplate", ra=ra, pr=pr)
+
+
+# --------------------------------------------------------------------------------------------
+# Horizontal plate
+# --------------------------------------------------------------------------------------------
+
+define_geometry(Geometry(
+    name="hplate", inputs=("ra", "pr"), cases=PLATE_CASES,
+    description="Horizontal plate, Ra on L = area/perimeter. Cases: hot-up and cold-down "
+                "(unstable: the plume leaves the face), hot-down and cold-up (stable: the fluid is "
+                "trapped against the face). Auto rule: hot-up/cold-down use lloyd-moran, "
+                "hot-down/cold-up use raithby-hollands; outside its range the same method is used, "
+                "with the note. mcadams is never chosen by auto (its length is the side of a "
+                "square, and it jumps against the defaults at their band edges).",
+    auto_order={case: ("lloyd-moran",) for case in UNSTABLE_CASES}
+    | {case: ("raithby-hollands",) for case in STABLE_CASES},
+    fallback={case: "lloyd-moran" for case in UNSTABLE_CASES}
+    | {case: "raithby-hollands" for case in STABLE_CASES}))
+
+
+@correlation(
+    geometry="hplate", method="lloyd-moran", cases=UNSTABLE_CASES,
+    title="Lloyd and Moran, horizontal plate, hot face up or cold face down",
+    source="J.R. Lloyd, W.R. Moran, J. Heat Transfer 96 (1974) 443-447; Incropera et al., "
+           "Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.30 and 9.31 (L = As/P)",
+    equation="Nu = 0.54 Ra^(1/4) for 1e4 <= Ra <= 1e7; Nu = 0.15 Ra^(1/3) for 1e7 < Ra <= 1e11",
+    validity=[Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
+    notes="Discontinuous at Ra = 1e7 (the turbulent band is 6.4% above the laminar one there).")
+def _hplate_lloyd_moran(ra, pr, case):
+    return _power_bands(ra, (1e7,), (0.54, 0.15), (0.25, 1.0 / 3.0))
+
+
+@correlation(
+    geometry="hplate", method="raithby-hollands", cases=STABLE_CASES,
+    title="Raithby and Hollands, horizontal plate, hot face down or cold face up",
+    source="G.D. Raithby, K.G.T. Hollands, Natural convection, ch. 4 in W.M. Rohsenow, "
+           "J.P. Hartnett, Y.I. Cho (eds.), Handbook of Heat Transfer, 3rd ed., McGraw-Hill "
+           "(1998), downward-facing heated plate (equation number not checked); range as given "
+           "for the simplified form in Incropera et al., 7th ed., eq. 9.32",
+    equation="Nu_T = 0.527 Ra^(1/5) / [1 + (1.9/Pr)^(9/10)]^(2/9); Nu = 2.5 / ln(1 + 2.5/Nu_T)",
+    validity=[Range("Ra", 1e4, 1e9)])
+def _hplate_raithby_hollands(ra, pr, case):
+    thin_layer = 0.527 * ra ** 0.2 / (1.0 + (1.9 / pr) ** 0.9) ** (2.0 / 9.0)
+    with np.errstate(divide="ignore"):  # Ra = 0 gives the limit Nu = 0
+        return 2.5 / np.log1p(2.5 / thin_layer)
+
+
+# McAdams correlated square plates on their side length; stillair's hplate Ra is on A/P, which
+# is a quarter of the side of a square (a disk of diameter D: McAdams's 0.9 D = 3.6 A/P).
+_MCADAMS_SIDE_PER_LENGTH = 4.0
+
+
+def _mcadams_side_ra(inputs):
+    return inputs["ra"] * _MCADAMS_SIDE_PER_LENGTH ** 3
+
+
+@correlation(
+    geometry="hplate", method="mcadams", cases=PLATE_CASES,
+    title="McAdams, horizontal square plate (length = side)",
+    source="W.H. McAdams, Heat Transmission, 3rd ed., McGraw-Hill (1954), ch. 7, horizontal "
+           "plates (coefficients and ranges from memory, equation numbers not checked)",
+    equation="Ra_s = 64 Ra (side of a square = 4 A/P), Nu = Nu_s/4 with: hot-up, cold-down: "
+             "Nu_s = 0.54 Ra_s^(1/4) for 1e5 <= Ra_s <= 2e7, 0.14 Ra_s^(1/3) for 2e7 < Ra_s <= 3e10; "
+             "hot-down, cold-up: Nu_s = 0.27 Ra_s^(1/4) for 3e5 <= Ra_s <= 3e10",
+    validity=[Range("Ra_side", 3e5, 3e10, of=_mcadams_side_ra)],
+    validity_by_case={case: (Range("Ra_side", 1e5, 3e10, of=_mcadams_side_ra),)
+                      for case in UNSTABLE_CASES},
+    notes="Exact for square plates; for other shapes the side-length conversion is approximate.")
+def _hplate_mcadams(ra, pr, case):
+    ra_side = ra * _MCADAMS_SIDE_PER_LENGTH ** 3
+    if case in UNSTABLE_CASES:
+        nu_side = _power_bands(ra_side, (2e7,), (0.54, 0.14), (0.25, 1.0 / 3.0))
+    else:
+        nu_side = 0.27 * ra_side ** 0.25
+    return nu_side / _MCADAMS_SIDE_PER_LENGTH
+
+
+def nu_hplate(ra, pr, case, method="auto"):
+    """Nusselt number of a horizontal plate (Ra on area/perimeter) for ``case``.
+
+    ``case``: "hot-up", "hot-down", "cold-up", "cold-down".  Methods: lloyd-moran (hot-up,
+    cold-down; default there), raithby-hollands (hot-down, cold-up; default there), mcadams.
+    """
+    return nusselt_value("hplate", method, case, function_name="nu_hplate", ra=ra, pr=pr)
+
+
+# --------------------------------------------------------------------------------------------
+# Tilted plate (tilt from the vertical: 0 = vertical, 90 = horizontal)
+# --------------------------------------------------------------------------------------------
+
+define_geometry(Geometry(
+    name="tplate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES,
+    description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
+                "whether it is hotter or colder than the fluid. Ra on the one length the caller "
+                "gives: the length along the slope for the vertical-plate term; the horizontal "
+                "term of the unstable face reads the same Ra (give Ra on area/perimeter where "
+                "that term governs). Auto rule: hot-down/cold-up (stable face) use "
+                "churchill-chu-cos, valid to 60 deg, used beyond it with the note; hot-up/cold-down "
+                "(unstable face) use raithby-hollands, the larger of the vertical result with "
+                "Ra cos(tilt) and the horizontal result with Ra sin(tilt). Tilt 0 is the vertical "
+                "plate exactly; at tilt 90 the unstable face is the horizontal plate (lloyd-moran) "
+                "exactly, while the stable face does not join the horizontal plate (Ra cos(tilt) "
+                "-> 0; its range ends at 60 deg): use nu_hplate for near-horizontal stable faces.",
+    auto_order={case: ("churchill-chu-cos",) for case in STABLE_CASES}
+    | {case: ("raithby-hollands",) for case in UNSTABLE_CASES},
+    fallback={case: "churchill-chu-cos" for case in STABLE_CASES}
+    | {case: "raithby-hollands" for case in UNSTABLE_CASES}))
+
+
+@correlation(
+    geometry="tplate", method="churchill-chu-cos", cases=STABLE_CASES,
+    title="Vertical plate (Churchill-Chu) with g cos(tilt), stable face of a tilted plate",
+    source="G.C. Vliet, J. Heat Transfer 91 (1969) 511-516; T. Fujii, H. Imura, Int. J. Heat Mass "
+           "Transfer 15 (1972) 755-767; as recommended in Incropera et al., Fundamentals of Heat "
+           "and Mass Transfer, 6th ed., sec. 9.6.2 (bottom face of a heated plate, top face of a "
+           "cooled plate, 0 <= tilt <~ 60 deg), used with eq. 9.26",
+    equation="Nu = Nu_vplate,churchill-chu(Ra cos(tilt), Pr)",
+    validity=[Range("tilt", 0.0, 60.0), Range("Ra*cos(tilt)", 1e-1, 1e12, of=_cos_tilt)])
+def _tplate_churchill_chu_cos(ra, pr, tilt, case):
+    return _vplate_churchill_chu(ra * np.cos(np.radians(tilt)), pr)
+
+
+@correlation(
+    geometry="tplate", method="raithby-hollands", cases=UNSTABLE_CASES,
+    title="Raithby and Hollands, unstable face of a tilted plate: larger of vertical and horizontal",
+    source="G.D. Raithby, K.G.T. Hollands, Natural convection, ch. 4 in Rohsenow, Hartnett, Cho "
+           "(eds.), Handbook of Heat Transfer, 3rd ed. (1998), inclined plates, upward-facing "
+           "heated face (recommendation from memory; equation number not checked); components: "
+           "Churchill-Chu (Incropera 6th ed. eq. 9.26) and Lloyd-Moran (eqs. 9.30, 9.31)",
+    equation="Nu = max(Nu_vplate,churchill-chu(Ra cos(tilt), Pr), Nu_hplate,lloyd-moran(Ra sin(tilt)))",
+    validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
+    notes="Range: the intersection of the two components' ranges.")
+def _tplate_raithby_hollands(ra, pr, tilt, case):
+    theta = np.radians(tilt)
+    along_slope = _vplate_churchill_chu(ra * np.cos(theta), pr)
+    normal_to_face = _hplate_lloyd_moran(ra * np.sin(theta), pr, case)
+    return np.maximum(along_slope, normal_to_face)
+
+
+def nu_tplate(ra, pr, tilt, case, method="auto"):
+    """Nusselt number of a plate tilted ``tilt`` degrees from the vertical, for ``case``.
+
+    ``case``: "hot-up", "hot-down", "cold-up", "cold-down" (the face's direction and whether it
+    is hotter than the fluid).  Methods: churchill-chu-cos (stable faces hot-down, cold-up),
+    raithby-hollands (unstable faces hot-up, cold-down).
+    """
+    return nusselt_value("tplate", method, case, function_name="nu_tplate", ra=ra, pr=pr, tilt=tilt)
+
+
+# --------------------------------------------------------------------------------------------
+# Horizontal cylinder
+# --------------------------------------------------------------------------------------------
+
+define_geometry(Geometry(
+    name="hcyl", inputs=("ra", "pr"),
+    description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
+                "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
+                "with the note.",
+    auto_order={None: ("churchill-chu", "morgan")}, fallback={None: "churchill-chu"}))
+
+
+@correlation(
+    geometry="hcyl", method="churchill-chu", title="Churchill and Chu, horizontal cylinder",
+    source="S.W. Churchill, H.H.S. Chu, Int. J. Heat Mass Transfer 18 (1975) 1049-1053 (lower "
+           "limit Ra 1e-5); Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., "
+           "eq. 9.34 (Ra <~ 1e12)",
+    equation="Nu = {0.60 + 0.387 Ra^(1/6) / [1 + (0.559/Pr)^(9/16)]^(8/27)}^2",
+    validity=[Range("Ra", 1e-5, 1e12)])
+def _hcyl_churchill_chu(ra, pr):
+    return (0.60 + 0.387 * ra ** (1.0 / 6.0) / _churchill_pr_factor(pr, 0.559, 8.0 / 27.0)) ** 2
+
+
+_MORGAN_EDGES = (1e-2, 1e2, 1e4, 1e7)
+_MORGAN_C = (0.675, 1.02, 0.850, 0.480, 0.125)
+_MORGAN_N = (0.058, 0.148, 0.188, 0.250, 0.333)
+
+
+@correlation(
+    geometry="hcyl", method="morgan", title="Morgan, horizontal cylinder, C Ra^n table",
+    source="V.T. Morgan, The overall convective heat transfer from smooth circular cylinders, "
+           "Advances in Heat Transfer 11 (1975) 199-264; Incropera et al., Fundamentals of Heat "
+           "and Mass Transfer, 6th ed., eq. 9.33 and Table 9.1",
+    equation="Nu = C Ra^n: (0.675, 0.058) 1e-10..1e-2; (1.02, 0.148) 1e-2..1e2; "
+             "(0.850, 0.188) 1e2..1e4; (0.480, 0.250) 1e4..1e7; (0.125, 0.333) 1e7..1e12",
+    validity=[Range("Ra", 1e-10, 1e12)],
+    notes="Discontinuous at each band edge (at most 0.8%, at Ra = 1e7).")
+def _hcyl_morgan(ra, pr):
+    return _power_bands(ra, _MORGAN_EDGES, _MORGAN_C, _MORGAN_N)
+
+
+def nu_hcyl(ra, pr, method="auto"):
+    """Nusselt number of a long horizontal cylinder (Ra on the diameter).
+
+    Methods: churchill-chu (default), morgan.
+    """
+    return nusselt_value("hcyl", method, function_name="nu_hcyl", ra=ra, pr=pr)
+
+
+# --------------------------------------------------------------------------------------------
+# Sphere
+# --------------------------------------------------------------------------------------------
+
+define_geometry(Geometry(
+    name="sphere", inputs=("ra", "pr"),
+    description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
+                "outside that range churchill is still used, with the note.",
+    auto_order={None: ("churchill",)}, fallback={None: "churchill"}))
+
+
+@correlation(
+    geometry="sphere", method="churchill", title="Churchill, sphere",
+    source="S.W. Churchill, Free convection around immersed bodies, sec. 2.5.7 in Heat Exchanger "
+           "Design Handbook, Hemisphere (1983); Incropera et al., Fundamentals of Heat and Mass "
+           "Transfer, 6th ed., eq. 9.35",
+    equation="Nu = 2 + 0.589 Ra^(1/4) / [1 + (0.469/Pr)^(9/16)]^(4/9)",
+    validity=[Range("Ra", high=1e11), Range("Pr", low=0.7)])
+def _sphere_churchill(ra, pr):
+    return 2.0 + 0.589 * ra ** 0.25 / _churchill_pr_factor(pr, 0.469, 4.0 / 9.0)
+
+
+def nu_sphere(ra, pr, method="auto"):
+    """Nusselt number of a sphere (Ra on the diameter).  Method: churchill."""
+    return nusselt_value("sphere", method, function_name="nu_sphere", ra=ra, pr=pr)
+
+
+# --------------------------------------------------------------------------------------------
+# Vertical cylinder (slenderness = height / diameter)
+# --------------------------------------------------------------------------------------------
+
+def _thin_cylinder_group(inputs):
+    """(D/L) Gr_L^(1/4) with Gr = Ra/Pr: a cylinder acts as a plate where it is >= 35."""
+    return (inputs["ra"] / inputs["pr"]) ** 0.25 / inputs["slenderness"]
+
+
+define_geometry(Geometry(
+    name="vcyl", inputs=("ra", "pr", "slenderness"),
+    description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
+                "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
+                "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
+                "1.5e4 <= Ra <= 1e9, slenderness <= 60, 0.01 <= Pr <= 100; else, with the note, "
+                "churchill-chu where the criterion holds and popiel where it does not.",
+    auto_order={None: ("churchill-chu", "popiel")},
+    fallback={None: lambda inputs: np.where(_thin_cylinder_group(inputs) >= 35.0,
+                                            "churchill-chu", "popiel")}))
+
+
+@correlation(
+    geometry="vcyl", method="churchill-chu", title="Vertical plate (Churchill-Chu) for a thick vertical cylinder",
+    source="Churchill and Chu (1975) vertical-plate equation, Incropera et al., 6th ed., eq. 9.26; "
+           "applicable to a cylinder where D/L >= 35/Gr_L^(1/4): E.M. Sparrow, J.L. Gregg, "
+           "Trans. ASME 78 (1956) 1823-1829, as quoted in Incropera et al., 6th ed., sec. 9.6.1",
+    equation="Nu = Nu_vplate,churchill-chu(Ra, Pr), where (D/L) (Ra/Pr)^(1/4) >= 35",
+    validity=[Range("Ra", 1e-1, 1e12), Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group)])
+def _vcyl_churchill_chu(ra, pr, slenderness):
+    return _vplate_churchill_chu(ra, pr)
+
+
+@correlation(
+    geometry="vcyl", method="popiel", title="Popiel, Wojtkowiak and Bober, slender vertical cylinder",
+    source="C.O. Popiel, J. Wojtkowiak, K. Bober, Exp. Thermal Fluid Sci. 32 (2007) 607-613; Pr "
+           "dependence of B and C from C.O. Popiel, Heat Transfer Eng. 29 (2008) 521-536; "
+           "plate term Churchill-Chu (Incropera 6th ed. eq. 9.26); ranges from memory",
+    equation="Nu = Nu_vplate,churchill-chu (1 + B [32^0.5 (L/D) / Gr^(1/4)]^C), Gr = Ra/Pr, "
+             "B = 0.0571322 + 0.20305 Pr^-0.43, "
+             "C = 0.9165 - 0.0043 Pr^0.5 + 0.01333 ln(Pr) + 0.0004809/Pr",
+    validity=[Range("Ra", 1.5e4, 1e9), Range("slenderness", 0.0, 60.0), Range("Pr", 0.01, 100.0)])
+def _vcyl_popiel(ra, pr, slenderness):
+    b = 0.0571322 + 0.20305 * pr ** -0.43
+    c = 0.9165 - 0.0043 * pr ** 0.5 + 0.01333 * np.log(pr) + 0.0004809 / pr
+    with np.errstate(divide="ignore"):  # Ra = 0: no boundary layer, the curvature term is infinite
+        curvature = np.sqrt(32.0) * slenderness / (ra / pr) ** 0.25
+    return _vplate_churchill_chu(ra, pr) * (1.0 + b * curvature ** c)
+
+
+def nu_vcyl(ra, pr, slenderness, method="auto"):
+    """Nusselt number of a vertical cylinder (Ra on the height; slenderness = height/diameter).
+
+    Methods: churchill-chu (the plate result, for thick cylinders), popiel (slender cylinders).
+    """
+    return nusselt_value("vcyl", method, function_name="nu_vcyl", ra=ra, pr=pr, slenderness=slenderness)
