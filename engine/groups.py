@@ -34,7 +34,7 @@ def film_properties(t1, t2, gas="air", pressure=DEFAULT_PRESSURE, *, property_te
     else:
         t_film = np.broadcast_to(require_finite(function_name, "property_temperature", property_temperature),
                                  np.broadcast(t1, t2).shape)
-    props = gas_properties(gas, t_film, pressure)
+    props = gas_properties(gas, t_film, pressure, function_name=function_name)
     expansion = 1.0 / (np.asarray(t_film, dtype=float) + zero_Celsius) if ideal_expansion else props.expansion
     return props, np.asarray(t_film, dtype=float), np.asarray(expansion, dtype=float)
 
