@@ -3,16 +3,144 @@
 from __future__ import annotations
 
 import argparse
+import json
+import os
 import sys
 
-import engine
+EXIT_BAD_INPUT = 2
+
+
+def _version() -> str:
+    from importlib.metadata import PackageNotFoundError, version
+    try:
+        return version("stillair")
+    except PackageNotFoundError:  # running from a source tree without installing
+        return "unknown"
 
 
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="stillair", description="Still-air heat transfer for spreadsheets.")
-    parser.add_argument("--version", action="version", version=f"stillair {engine.__version__}")
-    parser.add_subparsers(dest="command", metavar="COMMAND")
+    parser.add_argument("--version", action="version", version=f"stillair {_version()}")
+    commands = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    calc = commands.add_parser("calc", help="evaluate a workbook without Excel",
+                               description="Evaluate every formula of BOOK (stillair functions and "
+                               "Excel built-ins) without Excel and print the results.")
+    calc.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
+    calc.add_argument("--set", dest="sets", action="append", default=[], metavar="REF=VALUE",
+                      help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable)")
+    calc.add_argument("--out", metavar="OUT.xlsx",
+                      help="write a copy with formulas kept and cached values filled in")
+    calc.add_argument("--json", action="store_true", help="print one JSON object")
+
+    functions = commands.add_parser("functions", help="list the cell functions")
+    functions.add_argument("--markdown", action="store_true", help="markdown tables (as in README.md)")
+
+    setup = commands.add_parser("excel-setup", help="prepare xlwings for Windows Excel")
+    setup.add_argument("--dry-run", action="store_true", help="show what would be written")
     return parser
+
+
+def _parse_sets(items: list[str]) -> dict[str, str]:
+    sets = {}
+    for item in items:
+        target, sep, value = item.partition("=")
+        if not sep or not target.strip():
+            raise ValueError(f"--set {item}: expected REF=VALUE, e.g. Sheet1!B3=0.02 or gap=0.02")
+        sets[target.strip()] = value
+    return sets
+
+
+def _format(value) -> str:
+    if isinstance(value, float):
+        return f"{value:.6g}"
+    if isinstance(value, list):
+        return "[" + "; ".join(", ".join(_format(v) for v in row) for row in value) + "]"
+    return "" if value is None else str(value)
+
+
+def _summary_cells(evaluation):
+    """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
+    from .headless import _quote
+    from .xlsx import split_ref
+
+    rows = []
+    for sheet in evaluation.book.sheets:
+        cells = evaluation.values.get(sheet.name, {})
+        if not cells:
+            continue
+        last_row = max(split_ref(ref)[0] for ref in cells)
+        for ref in sorted(cells, key=split_ref):
+            if split_ref(ref)[0] == last_row:
+                rows.append((f"{_quote(sheet.name)}!{ref}", cells[ref]))
+    return rows
+
+
+def calc(args) -> int:
+    from .cachewriter import same_file, write_cached_values
+    from .headless import evaluate_book
+    from .xlsx import BookError
+
+    try:
+        sets = _parse_sets(args.sets)
+        if args.out:
+            if os.path.exists(args.book) and same_file(args.book, args.out):
+                raise BookError(f"{args.out}: refusing to write over the input workbook")
+        evaluation = evaluate_book(args.book, sets)
+        if args.out:
+            _check_out_extension(evaluation.book, args.out)
+            values = {sheet: dict(cells) for sheet, cells in evaluation.values.items()}
+            for (sheet, ref), value in evaluation.sets.items():
+                formula = ref in evaluation.book.sheet(sheet).formulas
+                if isinstance(value, str) and not formula:
+                    raise BookError(f"--set {sheet}!{ref}: only numbers or TRUE/FALSE can be written "
+                                    "into an input cell of the --out copy")
+                values.setdefault(sheet, {})[ref] = value
+            write_cached_values(evaluation.book, args.out, values)
+    except (BookError, ValueError) as error:
+        print(f"stillair calc: {error}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+
+    if args.json:
+        print(json.dumps({
+            "values": evaluation.flat_values(),
+            "names": evaluation.names,
+            "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
+        }, ensure_ascii=False, indent=1))
+        return 0
+
+    count = sum(len(c) for c in evaluation.values.values())
+    print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
+          f"load {evaluation.load_seconds:.2f} s, calculate {evaluation.calc_seconds:.2f} s)")
+    named = [(name, value) for name, value in evaluation.names.items()]
+    if named:
+        print("Named results:")
+        width = max(len(n) for n, _ in named)
+        for name, value in named:
+            print(f"  {name:<{width}}  {_format(value)}")
+    else:
+        print("Last computed cells:")
+        for label, value in _summary_cells(evaluation):
+            print(f"  {label}  {_format(value)}")
+    if evaluation.notes:
+        print(f"Notes ({len(evaluation.notes)}):")
+        for cell, message in evaluation.notes:
+            print(f"  {cell}: {message}" if cell else f"  {message}")
+    else:
+        print("Notes: none (every correlation used inside its validity range)")
+    if args.out:
+        print(f"Wrote {args.out}")
+    return 0
+
+
+def _check_out_extension(book, out: str) -> None:
+    from .xlsx import BookError
+
+    has_vba = any(m.lower().endswith("vbaproject.bin") for m in book.members)
+    if has_vba and not out.lower().endswith(".xlsm"):
+        raise BookError(f"{out}: the workbook holds VBA; name the copy .xlsm so Excel opens it")
+    if not has_vba and out.lower().endswith(".xlsm"):
+        raise BookError(f"{out}: the workbook has no VBA; name the copy .xlsx so Excel opens it")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -21,6 +149,15 @@ def main(argv: list[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return 0
+    if args.command == "calc":
+        return calc(args)
+    if args.command == "functions":
+        from .reference import reference_markdown, reference_text
+        sys.stdout.write(reference_markdown() if args.markdown else reference_text())
+        return 0
+    if args.command == "excel-setup":
+        from .excel_setup import run
+        return run(dry_run=args.dry_run)
     return 0
 
 

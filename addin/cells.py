@@ -1,0 +1,186 @@
+"""Calling engine functions the way a cell does: coerce, compute, catch, shape.
+
+:func:`evaluate` is the single entry point every cell function goes through, from xlwings
+(:mod:`addin.xlfuncs`) and from the headless evaluator (:mod:`addin.headless`) alike.  It never
+raises: invalid input becomes a short message naming the function, the argument, the value and
+what is allowed; a correlation used outside its range still returns the number and the note is
+handed to the active :class:`NoteRecorder` (used by ``stillair calc``).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import warnings
+from collections import OrderedDict
+
+
+from .coerce import CellInputError, describe, to_cell_table, to_cell_value, to_number, to_table, to_text
+from .registry import BY_NAME, CellFunction
+
+__all__ = ["evaluate", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
+
+MAX_MESSAGE = 255  # a message must stay readable in a cell and in Excel's function wizard
+
+# Columns of the network tables that hold names (branch name, from, to; boundary node).
+_NAME_COLUMNS = {"branches": (0, 1, 2), "boundaries": (0,)}
+# Text arguments that are names and may be typed as numbers.
+_NAME_ARGS = {"node", "branch"}
+
+
+class NoteRecorder:
+    """Collects (cell, message) notes from cell evaluations while active.
+
+    ``cell`` is whatever the caller set as :attr:`current` (the headless evaluator sets the
+    formula cell being computed); notes of one cell are kept once, in order.
+    """
+
+    _active: "NoteRecorder | None" = None
+
+    def __init__(self):
+        self.current: str | None = None
+        self.notes: list[tuple[str | None, str]] = []
+
+    def add(self, message: str) -> None:
+        item = (self.current, message)
+        if item not in self.notes:
+            self.notes.append(item)
+
+    def __enter__(self):
+        self._previous, NoteRecorder._active = NoteRecorder._active, self
+        return self
+
+    def __exit__(self, *exc):
+        NoteRecorder._active = self._previous
+        return False
+
+
+def _note(message: str) -> None:
+    if NoteRecorder._active is not None:
+        NoteRecorder._active.add(message)
+
+
+def engine_callable(entry: CellFunction):
+    """The engine attribute the entry names, or None while the engine does not provide it.
+
+    ``engine`` is imported here, on first use, not with this module: importing it loads CoolProp
+    (about 2 s), which `stillair functions`, `excel-setup` and workbooks without our functions
+    do not need."""
+    import engine
+    return getattr(engine, entry.engine, None)
+
+
+def _coerce(entry: CellFunction, raw: tuple) -> dict:
+    if len(raw) > len(entry.args):
+        raise ValueError(f"takes at most {len(entry.args)} arguments, got {len(raw)}")
+    raw = tuple(raw) + (None,) * (len(entry.args) - len(raw))
+    kwargs = {}
+    for arg, value in zip(entry.args, raw):
+        default = arg.default if arg.optional else None
+        if arg.kind == "number":
+            kwargs[arg.keyword] = to_number(arg.name, value, arg.optional, default)
+        elif arg.kind == "text":
+            kwargs[arg.keyword] = to_text(arg.name, value, arg.optional, default,
+                                          allow_numbers=arg.name in _NAME_ARGS)
+        elif arg.kind == "table":
+            kwargs[arg.keyword] = to_table(arg.name, value, _NAME_COLUMNS.get(arg.name, ()))
+        else:  # pragma: no cover - the registry tests forbid other kinds
+            raise RuntimeError(f"unknown argument kind {arg.kind!r}")
+    return kwargs
+
+
+# One solve per distinct network: NET_SOLVE, NET_TEMP, NET_HEAT and NET_CHECK on the same tables
+# share it.  Range notes are stored with the result and re-issued on every hit.
+_SOLVE_CACHE: "OrderedDict[tuple, tuple[object, list[str]]]" = OrderedDict()
+_SOLVE_CACHE_SIZE = 32
+
+
+def _freeze(value):
+    if isinstance(value, (list, tuple)):
+        return tuple(_freeze(v) for v in value)
+    return value
+
+
+def _cached(function):
+    from engine.validity import CorrelationRangeWarning
+
+    def solve(**kwargs):
+        key = (function.__qualname__, tuple(sorted((k, _freeze(v)) for k, v in kwargs.items())))
+        hit = _SOLVE_CACHE.get(key)
+        if hit is None:
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always", CorrelationRangeWarning)
+                result = function(**kwargs)
+            notes = [str(w.message) for w in caught if issubclass(w.category, CorrelationRangeWarning)]
+            notes += [str(n) for n in getattr(result, "notes", ()) if n and str(n) not in notes]
+            hit = _SOLVE_CACHE[key] = (result, notes)
+            while len(_SOLVE_CACHE) > _SOLVE_CACHE_SIZE:
+                _SOLVE_CACHE.popitem(last=False)
+        else:
+            _SOLVE_CACHE.move_to_end(key)
+        for note in hit[1]:
+            warnings.warn(note, CorrelationRangeWarning, stacklevel=2)
+        return hit[0]
+
+    return solve
+
+
+def _message(entry: CellFunction, argument: str, allowed: str, value) -> str:
+    cell_names = {a.keyword: a.name for a in entry.args}
+    argument = cell_names.get(argument, argument)
+    return f"{entry.name}: {argument} must be {allowed}, got {describe(value)}"
+
+
+def _short(text: str) -> str:
+    text = " ".join(str(text).split())
+    return text if len(text) <= MAX_MESSAGE else text[:MAX_MESSAGE - 3] + "..."
+
+
+def evaluate(entry: CellFunction, *raw):
+    """Compute one cell function call; returns a cell value or an error message (str)."""
+    from engine.validity import CorrelationRangeWarning, InputError  # see engine_callable
+
+    try:
+        kwargs = _coerce(entry, raw)
+        target = engine_callable(entry)
+        if target is None:
+            return _short(f"{entry.name}: not available in this engine version "
+                          f"(engine.{entry.engine} is missing)")
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always", CorrelationRangeWarning)
+            if not entry.call:
+                value = target
+            else:
+                if any(a.kind == "table" for a in entry.args):
+                    target = _cached(target)
+                value = entry.invoke(target, kwargs) if entry.invoke else target(**kwargs)
+        for warning in caught:
+            if issubclass(warning.category, CorrelationRangeWarning):
+                _note(_short(f"{entry.name}: {_strip_function(str(warning.message))}"))
+        if entry.result == "table":
+            return to_cell_table(value)
+        return to_cell_value(value)
+    except InputError as error:
+        if type(error).render is not InputError.render:  # the error words its own value
+            message = _short(error.render(entry.name))
+        else:
+            message = _short(_message(entry, error.argument, error.allowed, error.value))
+    except CellInputError as error:
+        message = _short(_message(entry, error.argument, error.allowed, error.value))
+    except Exception as error:  # a cell must never show a traceback
+        message = _short(f"{entry.name}: {type(error).__name__}: {error}"
+                         if not str(error) else f"{entry.name}: {error}")
+    _note(message)
+    return message
+
+
+def _strip_function(message: str) -> str:
+    """Drop the engine's own "function_name: " prefix from a note; the cell name replaces it."""
+    head, sep, rest = message.partition(": ")
+    if sep and head.replace("_", "").isalnum() and head == head.lower():
+        return rest
+    return message
+
+
+def call(name: str, *raw):
+    """Evaluate a cell function by name, as a cell would: ``call("AIR_DENSITY", 20.0)``."""
+    return evaluate(BY_NAME[name.upper()], *raw)

@@ -1,0 +1,59 @@
+"""The function reference, generated from the registry (``stillair functions [--markdown]``)."""
+
+from __future__ import annotations
+
+from .registry import CATEGORIES, REGISTRY
+
+__all__ = ["reference_text", "reference_markdown"]
+
+_RESULT = {"text": "text", "table": "table (spills)"}
+
+
+def _returns(entry) -> str:
+    if entry.result == "number":
+        return entry.unit or "-"
+    return _RESULT[entry.result]
+
+
+def _arg_line(arg) -> str:
+    unit = f" [{arg.unit}]" if arg.unit else ""
+    default = ""
+    if arg.optional:
+        default = " (optional, blank: " + ("none" if arg.default is None else
+                                         f"{arg.default:g}" if isinstance(arg.default, float)
+                                         else f'"{arg.default}"') + ")"
+    return f"{arg.name}{unit}{default}: {arg.doc}"
+
+
+def reference_text() -> str:
+    lines = []
+    for category in CATEGORIES.values():
+        lines.append(category)
+        lines.append("=" * len(category))
+        for entry in (e for e in REGISTRY if e.category == category):
+            lines.append(f"{entry.signature()} -> {_returns(entry)}")
+            lines.append(f"    {entry.description}")
+            for arg in entry.args:
+                lines.append(f"    - {_arg_line(arg)}")
+        lines.append("")
+    return "\n".join(lines).rstrip() + "\n"
+
+
+def _cell(text: str) -> str:
+    return text.replace("|", "\\|")
+
+
+def reference_markdown() -> str:
+    lines = []
+    for category in CATEGORIES.values():
+        lines.append(f"### {category[0].upper()}{category[1:]}")
+        lines.append("")
+        lines.append("| Function | Returns | Description |")
+        lines.append("|---|---|---|")
+        for entry in (e for e in REGISTRY if e.category == category):
+            lines.append(f"| `{entry.signature()}` | {_cell(_returns(entry))} | "
+                         f"{_cell(entry.description)} |")
+        lines.append("")
+    lines.append("Arguments in [brackets] are optional; a blank cell takes the default. "
+                 "`stillair functions` lists every argument with its unit and default.")
+    return "\n".join(lines) + "\n"

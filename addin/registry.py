@@ -1,0 +1,357 @@
+"""The registry of cell functions: the one place where every spreadsheet function is listed.
+
+Each :class:`CellFunction` names its engine callable by attribute name (``engine.<name>``), its
+arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
+generated from this list: the xlwings functions (:mod:`addin.xlfuncs`), the headless evaluator's
+registrations (:mod:`addin.headless`) and the function reference (``stillair functions``).
+
+Argument kinds:
+
+``number``  one numeric cell; an optional one takes its default when blank.
+``text``    one text cell (gas, method, case, facing, node or branch name).
+``table``   a range (branches or boundaries table); trailing blank rows are ignored.
+
+Result kinds: ``number`` (float), ``text`` (str), ``table`` (2-D list padded with "").
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Callable
+
+__all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "lookup"]
+
+_REQUIRED = object()
+
+
+@dataclass(frozen=True)
+class Arg:
+    """One argument of a cell function.
+
+    ``engine_name`` is the keyword of the engine callable the value goes to (default: ``name``);
+    it differs where the natural name is a VBA keyword (``case``).
+    """
+
+    name: str
+    doc: str
+    unit: str = ""
+    kind: str = "number"
+    default: Any = _REQUIRED
+    engine_name: str | None = None
+
+    @property
+    def optional(self) -> bool:
+        return self.default is not _REQUIRED
+
+    @property
+    def keyword(self) -> str:
+        return self.engine_name or self.name
+
+
+@dataclass(frozen=True)
+class CellFunction:
+    """One cell function: NAME(args...) -> result, computed by ``engine.<engine>``.
+
+    ``invoke(callable, kwargs)`` adapts the call where the cell does more than pass its
+    arguments through (pick one value out of a network result, render a note); by default the
+    engine callable is called with the keyword arguments.  ``call=False`` marks an engine
+    attribute that is a value, not a function (the version).
+    """
+
+    name: str
+    engine: str
+    args: tuple[Arg, ...]
+    description: str
+    category: str
+    result: str = "number"
+    unit: str = ""
+    invoke: Callable[[Any, dict], Any] | None = field(default=None, compare=False)
+    call: bool = True
+
+    def signature(self) -> str:
+        parts = [f"[{a.name}]" if a.optional else a.name for a in self.args]
+        return f"{self.name}({', '.join(parts)})"
+
+
+CATEGORIES = {
+    "properties": "stillair gas properties",
+    "groups": "stillair dimensionless groups",
+    "nusselt": "stillair Nusselt numbers",
+    "coefficients": "stillair heat-transfer coefficients",
+    "network": "stillair thermal network",
+    "info": "stillair information",
+}
+
+# ---------------------------------------------------------------------------------------------
+# Shared argument definitions (each written once, used by every function that takes it).
+
+P = Arg("pressure", "Absolute gas pressure in Pa; blank for 101325 Pa (sea level).", "Pa",
+        default=101325.0)
+GAS = Arg("gas", 'Gas name (air, argon, krypton, xenon, sf6, co2, nitrogen) or a mixture such as '
+          '"argon:0.9, air:0.1" (mole fractions); blank for air.', kind="text", default="air")
+GAS_REQUIRED = Arg("gas", GAS.doc.replace("; blank for air", ""), kind="text")
+T = Arg("t", "Gas temperature in degrees Celsius.", "°C")
+RA = Arg("Ra", "Rayleigh number based on the geometry's own length (>= 0).", engine_name="ra")
+PR = Arg("Pr", "Prandtl number of the fluid (> 0).", engine_name="pr")
+RA_GAP = Arg("Ra", "Rayleigh number based on the gap (>= 0).", engine_name="ra")
+
+
+def _method(geometry: str, examples: str) -> Arg:
+    return Arg("method", f"Correlation for the {geometry}: {examples}; blank or \"auto\" picks the "
+               "one whose validity range covers the case.", kind="text", default="auto")
+
+
+M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcadams")
+M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
+M_TPLATE = _method("tilted plate", "as for the vertical and horizontal plate")
+M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
+M_SPHERE = _method("sphere", "churchill")
+M_CAVITY = _method("cavity", "catton, macgregor-emery, elsherbiny, wright, hollands, globe-dropkin, "
+                   "en673, conduction")
+PLATE_CASE = Arg("plate_case", 'Plate case: "hot-up", "hot-down", "cold-up" or "cold-down" (the '
+                 "exposed face points up or down and is hotter or colder than the fluid).",
+                 kind="text", engine_name="case")
+CAV_TILT = Arg("tilt", "Cavity tilt in degrees from the horizontal: 0 heated from below, 90 vertical "
+               "(blank), 180 heated from above.", "°", default=90.0)
+PLATE_TILT = Arg("tilt", "Plate tilt in degrees from the vertical (0 vertical, 90 horizontal).", "°")
+ASPECT = Arg("aspect", "Cavity aspect ratio height/gap (> 0).")
+TS = Arg("ts", "Surface temperature in degrees Celsius.", "°C")
+TF = Arg("tf", "Temperature of the still fluid far from the surface, in degrees Celsius.", "°C")
+FACING = Arg("facing", 'Which way the exposed face points: "up" or "down".', kind="text")
+BRANCHES = Arg("branches", "Branches table, one row per branch: name | from | to | kind | p1 | p2 | "
+               "p3 | p4 | p5 | method (no header row; trailing blank rows are ignored).", kind="table")
+BOUNDARIES = Arg("boundaries", "Boundaries table, one row per condition: node | T or Q | value "
+                 "(T fixes a temperature in °C, Q adds a heat input in W).", kind="table")
+NET_GAS = Arg("gas", "Gas of the convection branches (name or mixture); blank for air.",
+              kind="text", default="air")
+
+# ---------------------------------------------------------------------------------------------
+# Properties
+
+_PROPERTIES = [
+    ("DENSITY", "density", "kg/m³", "Density"),
+    ("VISCOSITY", "viscosity", "Pa·s", "Dynamic viscosity"),
+    ("KINVISC", "kinvisc", "m²/s", "Kinematic viscosity"),
+    ("CONDUCTIVITY", "conductivity", "W/(m·K)", "Thermal conductivity"),
+    ("CP", "cp", "J/(kg·K)", "Specific heat capacity at constant pressure"),
+    ("DIFFUSIVITY", "diffusivity", "m²/s", "Thermal diffusivity"),
+    ("PRANDTL", "prandtl", "-", "Prandtl number"),
+    ("EXPANSION", "expansion", "1/K", "Volumetric thermal expansion coefficient (beta)"),
+]
+
+
+
+def _in(unit: str) -> str:
+    return "" if unit == "-" else f" in {unit}"
+
+
+_entries: list[CellFunction] = []
+for _cell, _snake, _unit, _what in _PROPERTIES:
+    _entries.append(CellFunction(
+        f"AIR_{_cell}", f"air_{_snake}", (T, P),
+        f"{_what} of dry air{_in(_unit)} at temperature t (°C) and pressure (Pa).",
+        CATEGORIES["properties"], unit=_unit))
+for _cell, _snake, _unit, _what in _PROPERTIES:
+    _entries.append(CellFunction(
+        f"GAS_{_cell}", f"gas_{_snake}", (GAS_REQUIRED, T, P),
+        f"{_what} of a fill gas or gas mixture{_in(_unit)} at temperature t (°C) and pressure (Pa).",
+        CATEGORIES["properties"], unit=_unit))
+
+_entries += [
+    CellFunction("ALTITUDE_PRESSURE", "altitude_pressure",
+                 (Arg("altitude_m", "Altitude above sea level in m (standard atmosphere).", "m"),),
+                 "Standard-atmosphere pressure in Pa at an altitude in m, for the pressure argument.",
+                 CATEGORIES["properties"], unit="Pa"),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Dimensionless groups
+
+_GROUP_ARGS = (Arg("t1", "Temperature of one surface in degrees Celsius.", "°C"),
+               Arg("t2", "Temperature of the other surface or of the fluid, in degrees Celsius.", "°C"),
+               Arg("length", "Characteristic length in m (plate height, gap, diameter...).", "m"),
+               GAS, P)
+_entries += [
+    CellFunction("RAYLEIGH", "rayleigh", _GROUP_ARGS,
+                 "Rayleigh number g·beta·|t1-t2|·L³/(nu·alpha), properties at the mean temperature.",
+                 CATEGORIES["groups"], unit="-"),
+    CellFunction("GRASHOF", "grashof", _GROUP_ARGS,
+                 "Grashof number g·beta·|t1-t2|·L³/nu², properties at the mean temperature.",
+                 CATEGORIES["groups"], unit="-"),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Nusselt numbers and the validity information that goes with them
+
+
+def _nu_note(nusselt, kwargs):
+    """Render engine.nusselt's validity information as one line of text."""
+    from engine import GEOMETRIES  # the geometry's inputs decide which arguments matter
+
+    geometry = kwargs.pop("geometry")
+    method = kwargs.pop("method")
+    case = kwargs.pop("case")
+    inputs = {k: v for k, v in kwargs.items() if k in GEOMETRIES[geometry].inputs}
+    if geometry == "cavity" and inputs.get("tilt") is None:
+        inputs["tilt"] = 90.0
+    for name in GEOMETRIES[geometry].inputs:
+        if inputs.get(name) is None:
+            from engine import InputError
+            raise InputError("nu_note", name, None, f'a number for geometry "{geometry}"')
+    result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
+                     function_name="nu_note", **inputs).scalar()
+    if result.in_range:
+        return f"in range ({result.method})"
+    return str(result.note)
+
+
+def _geometry_choices() -> str:
+    return "vplate, hplate, tplate, hcyl, sphere or cavity"
+
+
+_entries += [
+    CellFunction("NU_VPLATE", "nu_vplate", (RA, PR, M_VPLATE),
+                 "Nusselt number of a vertical plate (Ra on the plate height).",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_HPLATE", "nu_hplate", (RA, PR, PLATE_CASE, M_HPLATE),
+                 "Nusselt number of a horizontal plate (Ra on area/perimeter) for the given case.",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_TPLATE", "nu_tplate", (RA, PR, PLATE_TILT, PLATE_CASE, M_TPLATE),
+                 "Nusselt number of a plate tilted from the vertical, for the given case.",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_HCYL", "nu_hcyl", (RA, PR, M_HCYL),
+                 "Nusselt number of a horizontal cylinder (Ra on the diameter).",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_SPHERE", "nu_sphere", (RA, PR, M_SPHERE),
+                 "Nusselt number of a sphere (Ra on the diameter).",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_CAVITY", "nu_cavity", (RA_GAP, PR, ASPECT, CAV_TILT, M_CAVITY),
+                 "Nusselt number across an enclosed gas layer (Ra on the gap), never below 1.",
+                 CATEGORIES["nusselt"], unit="-"),
+    CellFunction("CAVITY_METHOD", "cavity_method",
+                 (RA_GAP, PR, ASPECT, CAV_TILT,
+                  M_CAVITY),
+                 "Name of the cavity correlation NU_CAVITY uses for these inputs (the auto choice).",
+                 CATEGORIES["nusselt"], result="text"),
+    CellFunction("NU_NOTE", "nusselt",
+                 (Arg("geometry", f"Geometry: {_geometry_choices()}.", kind="text"), RA, PR,
+                  Arg("plate_case", "Plate case for hplate and tplate (hot-up, hot-down, cold-up, "
+                      "cold-down); blank otherwise.", kind="text", default=None, engine_name="case"),
+                  Arg("tilt", "Tilt in degrees: from the vertical for tplate, from the horizontal "
+                      "for cavity (blank 90); blank otherwise.", "°", default=None),
+                  Arg("aspect", "Aspect ratio height/gap for cavity; blank otherwise.", default=None),
+                  Arg("method", "Correlation name as for the NU_ functions; blank or \"auto\".",
+                      kind="text", default="auto")),
+                 'Validity note of a Nusselt correlation: "in range (method)" or which bound is '
+                 "crossed. The value itself is still computed by the NU_ and H_ functions.",
+                 CATEGORIES["nusselt"], result="text", invoke=_nu_note),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Heat-transfer coefficients
+
+_LENGTH_DOC = {
+    "height": "Plate height in m (> 0).",
+    "length": "Characteristic length in m: area/perimeter for a horizontal plate (> 0).",
+    "diameter": "Outside diameter in m (> 0).",
+}
+DIAMETER = Arg("diameter", _LENGTH_DOC["diameter"], "m")
+_entries += [
+    CellFunction("H_VPLATE", "h_vplate",
+                 (TS, TF, Arg("height", _LENGTH_DOC["height"], "m"), GAS, P, M_VPLATE),
+                 "Convection coefficient in W/(m²·K) of a vertical plate in still gas, properties "
+                 "at the film temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_HPLATE", "h_hplate",
+                 (TS, TF, Arg("length", _LENGTH_DOC["length"], "m"), FACING, GAS, P, M_HPLATE),
+                 "Convection coefficient in W/(m²·K) of a horizontal plate; hot/cold follows from "
+                 "ts and tf.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_TPLATE", "h_tplate",
+                 (TS, TF, Arg("length", "Plate length in m along the slope (> 0).", "m"),
+                  PLATE_TILT, FACING, GAS, P, M_TPLATE),
+                 "Convection coefficient in W/(m²·K) of a plate tilted from the vertical.",
+                 CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_HCYL", "h_hcyl",
+                 (TS, TF, DIAMETER, GAS, P, M_HCYL),
+                 "Convection coefficient in W/(m²·K) of a horizontal cylinder or pipe.",
+                 CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_SPHERE", "h_sphere",
+                 (TS, TF, DIAMETER, GAS, P, M_SPHERE),
+                 "Convection coefficient in W/(m²·K) of a sphere.",
+                 CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_CAVITY", "h_cavity",
+                 (Arg("t1", "Temperature of one cavity face in degrees Celsius.", "°C"),
+                  Arg("t2", "Temperature of the other cavity face in degrees Celsius.", "°C"),
+                  Arg("gap", "Gap width between the faces in m (> 0).", "m"),
+                  Arg("height", "Cavity height in m along the faces (> 0).", "m"),
+                  CAV_TILT, GAS, P, M_CAVITY),
+                 "Convection coefficient in W/(m²·K) across an enclosed gas layer (Nu·k/gap), "
+                 "properties at the mean temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_RAD", "h_rad",
+                 (Arg("t1", "Temperature of the radiating surface in degrees Celsius.", "°C"),
+                  Arg("t2", "Temperature of the facing surface or of the surroundings, in °C.", "°C"),
+                  Arg("eps1", "Emissivity of surface 1 (0 to 1).", "-"),
+                  Arg("eps2", "Emissivity of surface 2 for two parallel surfaces; blank when "
+                      "surface 1 sees large surroundings at t2.", "-", default=None)),
+                 "Linearised radiation coefficient in W/(m²·K) between two surfaces or a surface "
+                 "and large surroundings.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Thermal network.  The four cells share one solve per distinct set of inputs (cached in
+# addin.cells), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
+
+
+def _net_table(solve, kwargs):
+    from .network import result_table
+    return result_table(solve(**kwargs), kwargs["branches"])
+
+
+def _net_temp(solve, kwargs):
+    from .network import pick_temperature
+    node = kwargs.pop("node")
+    return pick_temperature(solve(**kwargs), node)
+
+
+def _net_heat(solve, kwargs):
+    from .network import pick_heat
+    branch = kwargs.pop("branch")
+    return pick_heat(solve(**kwargs), branch)
+
+
+def _net_check(solve, kwargs):
+    from .network import check_text
+    return check_text(solve(**kwargs))
+
+
+_NET = (BRANCHES, BOUNDARIES)
+_entries += [
+    CellFunction("NET_SOLVE", "solve_network", _NET + (NET_GAS, P),
+                 "Solves the thermal network; returns a table (spills) of node temperatures in °C "
+                 "and branch heat flows in W with h, R, Ra, Nu, method and notes.",
+                 CATEGORIES["network"], result="table", invoke=_net_table),
+    CellFunction("NET_TEMP", "solve_network",
+                 _NET + (Arg("node", "Name of the node whose temperature is wanted.", kind="text"),
+                         NET_GAS, P),
+                 "Temperature in °C of one node of the solved thermal network.",
+                 CATEGORIES["network"], unit="°C", invoke=_net_temp),
+    CellFunction("NET_HEAT", "solve_network",
+                 _NET + (Arg("branch", "Name of the branch whose heat flow is wanted.", kind="text"),
+                         NET_GAS, P),
+                 "Heat flow in W through one branch of the solved network, positive from -> to.",
+                 CATEGORIES["network"], unit="W", invoke=_net_heat),
+    CellFunction("NET_CHECK", "solve_network", _NET + (NET_GAS, P),
+                 'Check of the solved network: "OK" with iterations and energy residual, or the '
+                 "validity notes of its branches.", CATEGORIES["network"], result="text",
+                 invoke=_net_check),
+    CellFunction("STILLAIR_VERSION", "__version__", (),
+                 "Version of the stillair engine, for traceability of a calculation.",
+                 CATEGORIES["info"], result="text", call=False),
+]
+
+REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
+BY_NAME: dict[str, CellFunction] = {f.name: f for f in REGISTRY}
+del _entries
+
+
+def lookup(name: str) -> CellFunction:
+    return BY_NAME[name.upper()]

@@ -1,0 +1,128 @@
+"""`stillair calc`, `stillair functions` and `stillair excel-setup` from the command line."""
+
+from __future__ import annotations
+
+import json
+import os
+import zipfile
+
+import pytest
+import xlsxwriter
+
+import engine
+from addin.cli import main
+from addin.reference import reference_markdown
+
+
+@pytest.fixture(scope="module")
+def small_book(tmp_path_factory):
+    path = tmp_path_factory.mktemp("cli") / "gap.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Gap")
+    ws.write("A1", "Ra"); ws.write("B1", 1e8)
+    ws.write("A2", "Pr"); ws.write("B2", 0.71)
+    ws.write("A3", "Nu"); ws.write_formula("B3", "=NU_VPLATE(B1,B2)")
+    ws.write("A4", "note"); ws.write_formula("B4", '=NU_NOTE("vplate",B1,B2)')
+    wb.define_name("ra", "=Gap!$B$1")
+    wb.define_name("nu", "=Gap!$B$3")
+    wb.close()
+    return path
+
+
+def run(capsys, *argv):
+    code = main([str(a) for a in argv])
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_json_shape_and_set_by_name_and_by_cell(small_book, capsys):
+    code, out, _ = run(capsys, "calc", small_book, "--json", "--set", "ra=1e14", "--set", "Gap!B2=0.72")
+    assert code == 0
+    data = json.loads(out)
+    assert set(data) == {"values", "names", "notes"}
+    full = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.72).scalar()
+    assert data["values"]["Gap!B3"] == pytest.approx(float(full.nu), rel=1e-12)
+    assert data["values"]["Gap!B4"] == full.note
+    assert data["names"] == {"ra": 1e14, "nu": data["values"]["Gap!B3"]}
+    assert data["notes"] == [{"cell": "Gap!B3", "message": f"NU_VPLATE: outside validity range: {full.note}"}]
+
+
+def test_text_output_lists_names_and_notes(small_book, capsys):
+    code, out, _ = run(capsys, "calc", small_book)
+    assert code == 0
+    assert "Named results:" in out and "nu" in out
+    assert "Notes: none" in out
+
+
+def test_out_copy_and_refusals(small_book, tmp_path, capsys):
+    out_path = tmp_path / "filled.xlsx"
+    code, _, _ = run(capsys, "calc", small_book, "--out", out_path, "--set", "Gap!B1=2e8")
+    assert code == 0
+    import openpyxl
+    values = openpyxl.load_workbook(out_path, data_only=True)["Gap"]
+    formulas = openpyxl.load_workbook(out_path)["Gap"]
+    assert values["B1"].value == 2e8                       # the --set input is in the copy
+    assert values["B3"].value == pytest.approx(engine.nu_vplate(2e8, 0.71), rel=1e-12)
+    assert formulas["B3"].value == "=NU_VPLATE(B1,B2)"
+    before = os.path.getmtime(small_book)
+    # Same file, through a symlink, and differing only by case: all refused, input untouched.
+    link = tmp_path / "link.xlsx"
+    link.symlink_to(small_book)
+    for target in (small_book, link, str(small_book)[:-5] + ".XLSX"):
+        code, _, err = run(capsys, "calc", small_book, "--out", target)
+        assert code == 2 and "refusing to write over the input workbook" in err
+    assert os.path.getmtime(small_book) == before
+
+
+def test_bad_files_give_one_line_and_exit_2(tmp_path, capsys):
+    text = tmp_path / "notes.xlsx"
+    text.write_text("not a workbook")
+    empty_zip = tmp_path / "empty.xlsx"
+    with zipfile.ZipFile(empty_zip, "w") as z:
+        z.writestr("hello.txt", "x")
+    for path, reason in ((tmp_path / "missing.xlsx", "no such file"),
+                         (text, "not an .xlsx/.xlsm workbook"),
+                         (empty_zip, "no xl/workbook.xml")):
+        code, out, err = run(capsys, "calc", path)
+        assert code == 2 and out == ""
+        assert err.count("\n") == 1 and reason in err
+
+
+def test_bad_set_arguments(small_book, capsys):
+    code, _, err = run(capsys, "calc", small_book, "--set", "B1")
+    assert code == 2 and "expected REF=VALUE" in err
+    code, _, err = run(capsys, "calc", small_book, "--set", "Nope!B1=1")
+    assert code == 2 and "no sheet named 'Nope'" in err
+    code, _, err = run(capsys, "calc", small_book, "--set", "gap=1")
+    assert code == 2 and "not a cell reference" in err
+
+
+def test_functions_reference(capsys):
+    code, out, _ = run(capsys, "functions", "--markdown")
+    assert code == 0 and out == reference_markdown()
+    code, out, _ = run(capsys, "functions")
+    assert "H_CAVITY(t1, t2, gap, height, [tilt], [gas], [pressure], [method]) -> W/(m²·K)" in out
+
+
+def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, capsys, monkeypatch):
+    from addin import excel_setup
+    home = tmp_path / "home"
+    conf = home / ".xlwings" / "xlwings.conf"
+    conf.parent.mkdir(parents=True)
+    conf.write_text('"UDF MODULES","mytools"\n"LICENSE_KEY","abc"\n')
+    original = conf.read_bytes()
+    assert excel_setup.run(dry_run=True, home=home) == 0
+    out = capsys.readouterr().out
+    assert conf.read_bytes() == original and not (home / ".stillair").exists()
+    assert "would add" in out and "kept your setting: UDF MODULES" in out
+    assert excel_setup.run(dry_run=False, home=home) == 0
+    text = conf.read_text()
+    assert text.startswith(original.decode())                 # nothing of the user's changed
+    assert '"UDF MODULES","mytools"' in text and "addin.xlfuncs" not in text
+    assert '"INTERPRETER_WIN",' in text
+    assert list(conf.parent.glob("xlwings.conf.bak-*"))        # backup of the previous file
+    custom = (home / ".stillair" / "stillair.conf").read_text()
+    assert '"UDF MODULES","addin.xlfuncs"' in custom
+    capsys.readouterr()
+    excel_setup.run(dry_run=False, home=home)                  # idempotent
+    assert "nothing to add" in capsys.readouterr().out

@@ -1,0 +1,256 @@
+"""Every cell function called the way Excel (xlwings) and `formulas` call it.
+
+The cell layer is a skin over the engine: good inputs must give exactly the engine's value as
+an Excel-shaped result (float, str, 2-D list); bad inputs must give the exact message, never a
+number.  Physical values are checked against outside sources where the cell layer does more
+than pass values through (the network tables, radiation).
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+
+import numpy as np
+import pytest
+import schedula as sh
+from scipy.constants import sigma as STEFAN_BOLTZMANN  # CODATA value via scipy
+
+import engine
+from addin.cells import NoteRecorder, call, engine_callable
+from addin.registry import BY_NAME, REGISTRY
+
+PROPERTY_NAMES = [e.name for e in REGISTRY if e.name.startswith(("AIR_", "GAS_"))]
+
+# Excel-style arguments for one good call of every numeric/text function.
+SAMPLES: dict[str, tuple] = {}
+for _name in PROPERTY_NAMES:
+    SAMPLES[_name] = ("argon", 10.0, None) if _name.startswith("GAS_") else (20.0, 95000.0)
+SAMPLES.update({
+    "ALTITUDE_PRESSURE": (1000.0,),
+    "RAYLEIGH": (15.0, 5.0, 0.016),
+    "GRASHOF": (15.0, 5.0, 0.016, "argon", None),
+    "NU_VPLATE": (1e8, 0.71),
+    "NU_HPLATE": (1e6, 0.71, "hot-up"),
+    "NU_TPLATE": (1e8, 0.71, 30.0, "hot-up"),
+    "NU_HCYL": (1e6, 0.71, None),
+    "NU_SPHERE": (1e6, 0.71),
+    "NU_CAVITY": (1e4, 0.71, 40.0),
+    "CAVITY_METHOD": (1e4, 0.71, 40.0, 90.0),
+    "H_VPLATE": (60.0, 20.0, 0.5),
+    "H_HPLATE": (60.0, 20.0, 0.25, "up"),
+    "H_TPLATE": (60.0, 20.0, 0.5, 30.0, "up"),
+    "H_HCYL": (60.0, 20.0, 0.05),
+    "H_SPHERE": (60.0, 20.0, 0.1, "air", 101325.0),
+    "H_CAVITY": (15.0, 5.0, 0.016, 1.2),
+    "H_RAD": (15.0, 5.0, 0.84, 0.04),
+})
+DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
+
+
+def needs_engine(name: str):
+    """Skip while the engine callable is missing (the engine is written in parallel)."""
+    entry = BY_NAME[name]
+    if engine_callable(entry) is None:
+        pytest.skip(f"engine.{entry.engine} is not provided yet")
+    return entry
+
+
+def engine_kwargs(entry, raw: tuple) -> dict:
+    """The keyword arguments the engine receives for an Excel-style call (blanks -> defaults)."""
+    raw = tuple(raw) + (None,) * (len(entry.args) - len(raw))
+    return {a.keyword: (a.default if v is None else v) for a, v in zip(entry.args, raw)}
+
+
+def direct(name: str, raw: tuple):
+    entry = BY_NAME[name]
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", engine.CorrelationRangeWarning)
+        value = engine_callable(entry)(**engine_kwargs(entry, raw))
+    return value if isinstance(value, str) else float(value)
+
+
+@pytest.mark.parametrize("name", DIRECT)
+def test_good_call_returns_the_engine_value_as_a_cell_value(name):
+    needs_engine(name)
+    raw = SAMPLES[name]
+    value = call(name, *raw)
+    expected = direct(name, raw)
+    assert type(value) is type(expected)
+    assert value == expected
+
+
+@pytest.mark.parametrize("name", DIRECT)
+def test_formulas_style_arguments_give_the_same_value(name):
+    """`formulas` passes 1x1 object arrays for cell references and schedula.EMPTY for blanks."""
+    needs_engine(name)
+    raw = SAMPLES[name]
+    wrapped = tuple(sh.EMPTY if v is None else np.asarray([[v]], dtype=object) for v in raw)
+    assert call(name, *wrapped) == call(name, *raw)
+
+
+def _first(entry, kind):
+    return next((i, a) for i, a in enumerate(entry.args) if a.kind == kind and not a.optional)
+
+
+@pytest.mark.parametrize("name", [n for n in DIRECT if BY_NAME[n].args])
+@pytest.mark.parametrize("bad, got, allowed", [
+    ("abc", "'abc'", "a number, not text"),
+    ("#DIV/0!", "'#DIV/0!'", "a number, not text"),   # an Excel error value (err_to_str)
+    (True, "True", "a number, not a logical value"),
+    (None, "an empty cell", "a number"),
+    ([[1.0], [2.0]], "a range of 2 cells", "a single cell"),
+])
+def test_bad_number_gives_the_exact_message(name, bad, got, allowed):
+    entry = BY_NAME[name]
+    index, arg = _first(entry, "number")
+    raw = list(SAMPLES[name]) + [None] * (len(entry.args) - len(SAMPLES[name]))
+    raw[index] = bad
+    assert call(name, *raw) == f"{name}: {arg.name} must be {allowed}, got {got}"
+
+
+@pytest.mark.parametrize("name", [n for n in DIRECT if any(a.kind == "text" and not a.optional
+                                                           for a in BY_NAME[n].args)])
+def test_missing_text_gives_the_exact_message(name):
+    entry = BY_NAME[name]
+    index, arg = _first(entry, "text")
+    raw = list(SAMPLES[name])
+    raw[index] = None
+    assert call(name, *raw) == f"{name}: {arg.name} must be text, got an empty cell"
+
+
+def test_too_many_arguments():
+    assert call("NU_VPLATE", 1e8, 0.71, "auto", 5.0) == "NU_VPLATE: takes at most 3 arguments, got 4"
+
+
+def test_engine_range_errors_are_reworded_with_the_cell_name():
+    assert call("NU_VPLATE", -1.0, 0.71) == "NU_VPLATE: Ra must be >= 0, got -1"
+    assert call("NU_VPLATE", 1e8, 0.0) == "NU_VPLATE: Pr must be > 0, got 0"
+    message = call("NU_VPLATE", 1e8, 0.71, "foo")
+    assert message.startswith('NU_VPLATE: method must be one of "auto", "churchill-chu"')
+    assert message.endswith("got 'foo'")
+
+
+def test_vba_safe_argument_name_is_used_in_messages():
+    """The engine says "case"; the cell argument is plate_case (Case is a VBA keyword)."""
+    needs_engine("NU_HPLATE")
+    assert call("NU_HPLATE", 1e6, 0.71, "sideways") == (
+        'NU_HPLATE: plate_case must be one of "hot-up", "hot-down", "cold-up", "cold-down", '
+        "got 'sideways'")
+
+
+def test_design_example_message():
+    needs_engine("H_CAVITY")
+    assert call("H_CAVITY", 15.0, 5.0, -0.01, 1.2) == "H_CAVITY: gap must be > 0 m, got -0.01"
+
+
+def test_out_of_range_returns_the_number_and_records_the_note():
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # nothing may escape the cell layer
+        with NoteRecorder() as recorder:
+            value = call("NU_VPLATE", 1e14, 0.71)
+    full = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
+    assert value == full.nu and not full.in_range
+    assert recorder.notes == [(None, f"NU_VPLATE: outside validity range: {full.note}")]
+
+
+def test_nu_note_in_and_out_of_range():
+    inside = engine.nusselt("vplate", "auto", None, ra=1e8, pr=0.71).scalar()
+    assert call("NU_NOTE", "vplate", 1e8, 0.71) == f"in range ({inside.method})"
+    outside = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
+    assert call("NU_NOTE", "vplate", 1e14, 0.71) == outside.note
+    assert call("NU_NOTE", "cavity", 1e4, 0.71, None, None, None) == (
+        'NU_NOTE: aspect must be a number for geometry "cavity", got an empty cell')
+    assert call("NU_NOTE", "cone", 1e4, 0.71).startswith("NU_NOTE: ")
+
+
+def test_nu_note_cavity_defaults_to_vertical():
+    needs_engine("NU_CAVITY")
+    full = engine.nusselt("cavity", "auto", None, ra=1e4, pr=0.71, aspect=40.0, tilt=90.0).scalar()
+    assert call("NU_NOTE", "cavity", 1e4, 0.71, None, None, 40.0).endswith(str(full.method) + ")") \
+        or call("NU_NOTE", "cavity", 1e4, 0.71, None, None, 40.0) == full.note
+
+
+def test_cavity_nusselt_has_the_conduction_limit():
+    # Physical limit: across a very weakly driven layer heat crosses by conduction, Nu -> 1.
+    needs_engine("NU_CAVITY")
+    assert call("NU_CAVITY", 1.0, 0.71, 40.0) == pytest.approx(1.0, rel=1e-6)
+
+
+def test_radiation_coefficient_follows_stefan_boltzmann():
+    # Linearised exchange between parallel grey planes:
+    # h = sigma (T1² + T2²)(T1 + T2) / (1/e1 + 1/e2 - 1)  (Incropera 6th ed., eq. 13.19 and 1.9).
+    needs_engine("H_RAD")
+    t1, t2 = 15.0 + 273.15, 5.0 + 273.15
+    expected = STEFAN_BOLTZMANN * (t1**2 + t2**2) * (t1 + t2) / (1 / 0.84 + 1 / 0.04 - 1)
+    assert call("H_RAD", 15.0, 5.0, 0.84, 0.04) == pytest.approx(expected, rel=1e-9)
+    # Blank eps2: a small surface in large surroundings, h = eps sigma (T1²+T2²)(T1+T2).
+    surroundings = 0.9 * STEFAN_BOLTZMANN * (313.15**2 + 293.15**2) * (313.15 + 293.15)
+    assert call("H_RAD", 40.0, 20.0, 0.9, None) == pytest.approx(surroundings, rel=1e-9)
+
+
+def test_air_density_against_coolprop():
+    needs_engine("AIR_DENSITY")
+    from CoolProp.CoolProp import PropsSI
+    expected = PropsSI("D", "T", 293.15, "P", 101325.0, "Air")  # CoolProp pseudo-pure dry air
+    assert call("AIR_DENSITY", 20.0) == pytest.approx(expected, rel=5e-3)
+
+
+def test_version_is_text():
+    assert call("STILLAIR_VERSION") == engine.__version__
+    assert call("STILLAIR_VERSION", 1.0) == "STILLAIR_VERSION: takes at most 0 arguments, got 1"
+
+
+# ---------------------------------------------------------------------------------------------
+# Network: an all-conduction series wall has an exact answer (Fourier's law, resistances in
+# series): q = (T_in - T_out) / (L1/(k1 A) + R2); the node between them is T_in - q L1/(k1 A).
+
+BRANCHES = [
+    ["wall", "in", 1, "conduction", 0.1, 0.5, 2.0, None, None, None],    # node typed as a number
+    ["skin", 1.0, "out", "resistance", 0.05, None, None, None, None, None],
+    [None] * 10,                                                          # trailing blank rows
+    ["", "", "", "", "", "", "", "", "", ""],
+]
+BOUNDARIES = [["in", "T", 20.0], ["out", "T", 0.0], [None, None, None]]
+R_WALL = 0.1 / (0.5 * 2.0)
+Q_EXACT = 20.0 / (R_WALL + 0.05)
+
+
+def test_network_cells_solve_the_series_wall_exactly():
+    needs_engine("NET_SOLVE")
+    assert call("NET_HEAT", BRANCHES, BOUNDARIES, "wall") == pytest.approx(Q_EXACT, rel=1e-9)
+    assert call("NET_HEAT", BRANCHES, BOUNDARIES, "skin") == pytest.approx(Q_EXACT, rel=1e-9)
+    assert call("NET_TEMP", BRANCHES, BOUNDARIES, 1.0) == pytest.approx(20.0 - Q_EXACT * R_WALL, rel=1e-9)
+    assert call("NET_TEMP", BRANCHES, BOUNDARIES, "1") == call("NET_TEMP", BRANCHES, BOUNDARIES, 1.0)
+    assert call("NET_CHECK", BRANCHES, BOUNDARIES).startswith("OK: ")
+
+
+def test_net_solve_returns_a_padded_table():
+    needs_engine("NET_SOLVE")
+    from addin.network import RESULT_HEADER
+    table = call("NET_SOLVE", BRANCHES, BOUNDARIES)
+    result = engine.solve_network([r for r in BRANCHES[:2]], BOUNDARIES[:2])
+    assert table[0] == RESULT_HEADER
+    assert all(len(row) == len(RESULT_HEADER) for row in table)
+    assert len(table) == 1 + len(result.temperatures) + len(result.heat)
+    for row in table:
+        for cell in row:
+            assert type(cell) in (float, str)
+    rows = {row[0]: row for row in table[1:]}
+    assert rows["1"][2] == pytest.approx(20.0 - Q_EXACT * R_WALL, rel=1e-9)
+    assert rows["wall"][1:4] == ["conduction", pytest.approx(Q_EXACT, rel=1e-9), "W"]
+    assert rows["skin"][4] == ""  # h of a bare resistance is not a number: blank, not nan
+
+
+def test_network_input_errors_name_the_cell_function():
+    needs_engine("NET_SOLVE")
+    message = call("NET_TEMP", BRANCHES, BOUNDARIES, "nowhere")
+    assert message.startswith("NET_TEMP: node must be one of ") and message.endswith("got 'nowhere'")
+    assert "'1'" in message and "'in'" in message and "'out'" in message
+    bad = [["wall", "in", "out", "conduction", -0.1, 0.5, 2.0]]
+    message = call("NET_SOLVE", bad, BOUNDARIES)
+    assert message.startswith("NET_SOLVE: ") and "-0.1" in message
+    assert call("NET_SOLVE", None, BOUNDARIES) == (
+        "NET_SOLVE: branches must be a range with at least one row, got an empty cell")
+    assert call("NET_CHECK", [[None, None]], BOUNDARIES) == (
+        "NET_CHECK: branches must be a range with at least one row, got a range of 2 cells")
