@@ -36,6 +36,11 @@ def build_parser() -> argparse.ArgumentParser:
     functions = commands.add_parser("functions", help="list the cell functions")
     functions.add_argument("--markdown", action="store_true", help="markdown tables (as in README.md)")
 
+    templates = commands.add_parser("templates", help="list the template workbooks, or copy them out",
+                                    description="List the shipped calculation templates; with --copy, "
+                                    "copy them into DIR for filling in (existing files are never overwritten).")
+    templates.add_argument("--copy", metavar="DIR", help="copy every template into DIR")
+
     setup = commands.add_parser("excel-setup", help="prepare xlwings for Windows Excel")
     setup.add_argument("--dry-run", action="store_true", help="show what would be written")
     return parser
@@ -112,8 +117,11 @@ def calc(args) -> int:
     count = sum(len(c) for c in evaluation.values.values())
     print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
           f"load {evaluation.load_seconds:.2f} s, calculate {evaluation.calc_seconds:.2f} s)")
-    named = [(name, value) for name, value in evaluation.names.items()]
-    if named:
+    named = [(name, value) for name, value in evaluation.names.items() if name != "stillair_template"]
+    results = _results_sheet_rows(args.book, evaluation)
+    if results:
+        _print_results(results)
+    elif named:
         print("Named results:")
         width = max(len(n) for n, _ in named)
         for name, value in named:
@@ -130,6 +138,51 @@ def calc(args) -> int:
         print("Notes: none (every correlation used inside its validity range)")
     if args.out:
         print(f"Wrote {args.out}")
+    return 0
+
+
+def _results_sheet_rows(path: str, evaluation) -> list[tuple[str, object, str]]:
+    """(label, value, unit) rows of a "Results" sheet laid out label | value | unit, as the
+    templates are; a row with a label only is a heading (value None)."""
+    if "Results" not in evaluation.values:
+        return []
+    import openpyxl
+
+    computed = evaluation.values["Results"]
+    try:
+        sheet = openpyxl.load_workbook(path, read_only=True)["Results"]
+    except Exception:  # an unreadable layout just falls back to the named results
+        return []
+    rows = []
+    for index, row in enumerate(sheet.iter_rows(min_row=4, max_col=3, values_only=True), start=4):
+        label, _, unit = (list(row) + [None] * 3)[:3]
+        ref = f"B{index}"
+        if ref in computed:
+            rows.append((str(label or ref), computed[ref], "" if unit is None else str(unit)))
+        elif isinstance(label, str) and label.strip():
+            rows.append((label, None, ""))
+    return rows
+
+
+def _print_results(rows) -> None:
+    width = max(len(label) for label, _, _ in rows)
+    print("Results:")
+    for label, value, unit in rows:
+        if value is None:
+            print(f"  {label}")
+        else:
+            print(f"    {label:<{width}}  {_format(value):>12}  {unit}")
+
+
+def _templates(args) -> int:
+    from .templates import all_templates, copy_templates
+
+    if args.copy:
+        for target, outcome in copy_templates(args.copy):
+            print(f"{outcome:<18} {target}")
+        return 0
+    for template in all_templates():
+        print(f"{template.path.name:<24} {template.summary}")
     return 0
 
 
@@ -155,6 +208,8 @@ def main(argv: list[str] | None = None) -> int:
         from .reference import reference_markdown, reference_text
         sys.stdout.write(reference_markdown() if args.markdown else reference_text())
         return 0
+    if args.command == "templates":
+        return _templates(args)
     if args.command == "excel-setup":
         from .excel_setup import run
         return run(dry_run=args.dry_run)

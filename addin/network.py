@@ -35,9 +35,11 @@ def _attr(info, name):
     if isinstance(value, str):
         return value
     try:
-        return float(value) if value is not None else None
+        number = float(value) if value is not None else None
     except (TypeError, ValueError):
         return str(value)
+    # nan marks "does not apply" (Ra of a conduction branch); a cell shows that as blank.
+    return None if number is None or math.isnan(number) else number
 
 
 def pick_temperature(result, node: str) -> float:
