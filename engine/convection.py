@@ -90,6 +90,12 @@ _SURFACE_GEOMETRIES = {
 }
 
 
+def _full(array, shape):
+    """``array`` broadcast to ``shape``, without a new view when it already has it (hot path)."""
+    array = np.asarray(array)
+    return array if array.shape == shape else np.broadcast_to(array, shape)
+
+
 def _collect(results, shape):
     """Merge per-case NusseltResults (mask, result) into full arrays."""
     nu = np.empty(shape)
@@ -120,16 +126,16 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
     shape = np.broadcast(ra, props.prandtl).shape
-    ra, pr = np.broadcast_to(ra, shape), np.broadcast_to(props.prandtl, shape)
+    ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
     if needs_tilt:
-        inputs["tilt"] = np.broadcast_to(require_between(function_name, "tilt", tilt, 0.0, 90.0, "deg"), shape)
+        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, 0.0, 90.0, "deg"), shape)
     if geometry == "vcyl":
         diameter = require_positive(function_name, "diameter", diameter, "m")
-        inputs["slenderness"] = np.broadcast_to(length / diameter, shape)
+        inputs["slenderness"] = _full(length / diameter, shape)
     if needs_facing:
         facing = require_choice(function_name, "facing", facing, FACINGS)
-        case = _plate_case(facing, np.broadcast_to(delta_t, shape))
+        case = _plate_case(facing, _full(delta_t, shape))
         parts = []
         for case_name in dict.fromkeys(case.ravel()):
             mask = case == case_name
@@ -141,10 +147,10 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
         result = nusselt(geometry, method, function_name=function_name, **inputs)
         nu, chosen, note, in_range = result.nu, result.method, result.note, result.in_range
     h = nu * props.conductivity / length
-    return ConvectionResult(h=h, nu=nu, ra=ra, gr=np.broadcast_to(gr, shape), pr=pr,
-                            t_film=np.broadcast_to(t_film, shape),
-                            conductivity=np.broadcast_to(props.conductivity, shape),
-                            length=np.broadcast_to(length, shape), method=chosen, case=case,
+    return ConvectionResult(h=h, nu=nu, ra=ra, gr=_full(gr, shape), pr=pr,
+                            t_film=_full(t_film, shape),
+                            conductivity=_full(props.conductivity, shape),
+                            length=_full(length, shape), method=chosen, case=case,
                             in_range=in_range, note=note)
 
 
@@ -165,14 +171,14 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
     shape = np.broadcast(ra, props.prandtl, height, tilt).shape
     effective_tilt = np.where(delta_t >= 0, tilt, 180.0 - tilt)
     result = nusselt("cavity", method, function_name=function_name,
-                     ra=np.broadcast_to(ra, shape), pr=np.broadcast_to(props.prandtl, shape),
-                     aspect=np.broadcast_to(height / gap, shape), tilt=np.broadcast_to(effective_tilt, shape))
+                     ra=_full(ra, shape), pr=_full(props.prandtl, shape),
+                     aspect=_full(height / gap, shape), tilt=_full(effective_tilt, shape))
     h = result.nu * props.conductivity / gap
-    return ConvectionResult(h=np.broadcast_to(h, shape), nu=result.nu, ra=np.broadcast_to(ra, shape),
-                            gr=np.broadcast_to(gr, shape), pr=np.broadcast_to(props.prandtl, shape),
-                            t_film=np.broadcast_to(t_film, shape),
-                            conductivity=np.broadcast_to(props.conductivity, shape),
-                            length=np.broadcast_to(gap, shape), method=result.method,
+    return ConvectionResult(h=_full(h, shape), nu=result.nu, ra=_full(ra, shape),
+                            gr=_full(gr, shape), pr=_full(props.prandtl, shape),
+                            t_film=_full(t_film, shape),
+                            conductivity=_full(props.conductivity, shape),
+                            length=_full(gap, shape), method=result.method,
                             case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
 
 
