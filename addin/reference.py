@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from .registry import CATEGORIES, REGISTRY
 
-__all__ = ["reference_text", "reference_markdown"]
+__all__ = ["reference_text", "reference_markdown", "correlations_markdown"]
 
 _RESULT = {"text": "text", "table": "table (spills)"}
 
@@ -56,4 +56,27 @@ def reference_markdown() -> str:
         lines.append("")
     lines.append("Arguments in [brackets] are optional; a blank cell takes the default. "
                  "`stillair functions` lists every argument with its unit and default.")
-    return "\n".join(lines) + "\n"
+    lines.append("")
+    return "\n".join(lines) + "\n" + correlations_markdown()
+
+
+def correlations_markdown() -> str:
+    """Every registered correlation with its source, equation and validity, per geometry,
+    with the geometry's "auto" rule; generated from the engine's registry."""
+    from engine.correlations import CORRELATIONS, GEOMETRIES
+
+    lines = ["### Correlations (method names for the `method` arguments)", ""]
+    for geometry in GEOMETRIES.values():
+        lines.append(f"**{geometry.name}** — {_cell(' '.join(geometry.description.split()))}")
+        lines.append("")
+        lines.append("| method | source | equation | validity |")
+        lines.append("|---|---|---|---|")
+        for (name, method), corr in CORRELATIONS.items():
+            if name != geometry.name:
+                continue
+            validity = corr.describe_validity()
+            if corr.cases:
+                validity = f"cases {', '.join(corr.cases)}; {validity}"
+            lines.append(f"| `{method}` | {_cell(corr.source)} | {_cell(corr.equation)} | {_cell(validity)} |")
+        lines.append("")
+    return "\n".join(lines)

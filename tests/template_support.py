@@ -1,0 +1,35 @@
+"""Shared helpers for the template tests: evaluate a committed template, with --set changes."""
+
+from __future__ import annotations
+
+import functools
+
+from addin.headless import evaluate_book
+from addin.templates import template_by_name
+
+
+@functools.lru_cache(maxsize=None)
+def _evaluate(name: str, sets: tuple[tuple[str, object], ...]):
+    return evaluate_book(str(template_by_name(name).path), {k: str(v) for k, v in sets})
+
+
+def evaluate_template(name: str, **sets):
+    """Headless evaluation of templates/NAME.xlsx with inputs changed by defined name."""
+    return _evaluate(name, tuple(sorted(sets.items())))
+
+
+def named(evaluation, name: str):
+    """The value of a workbook-scoped defined name after evaluation."""
+    return evaluation.names[name]
+
+
+def assert_direction(name: str, input_name: str, new_value, result_name: str, direction: int) -> None:
+    """--set of one input moves a result the physically expected way (+1 up, -1 down, 0 unchanged)."""
+    base = named(evaluate_template(name), result_name)
+    changed = named(evaluate_template(name, **{input_name: new_value}), result_name)
+    if direction > 0:
+        assert changed > base, f"{input_name}={new_value}: {result_name} {base} -> {changed}, expected a rise"
+    elif direction < 0:
+        assert changed < base, f"{input_name}={new_value}: {result_name} {base} -> {changed}, expected a fall"
+    else:
+        assert changed == base, f"{input_name}={new_value}: {result_name} {base} -> {changed}, expected no change"
