@@ -165,7 +165,7 @@ def _results_sheet_rows(path: str, evaluation) -> list[tuple[str, object, str]]:
 
 
 def _print_results(rows) -> None:
-    width = max(len(label) for label, _, _ in rows)
+    width = max(len(label) for label, value, _ in rows if value is not None)
     print("Results:")
     for label, value, unit in rows:
         if value is None:

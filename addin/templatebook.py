@@ -36,7 +36,8 @@ from typing import Any, Callable, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-__all__ = ["TemplateBook", "Template", "TEMPLATE_DIR", "MARKER_NAME", "build_template", "TemplateBuildError"]
+__all__ = ["TemplateBook", "Template", "TEMPLATE_DIR", "MARKER_NAME", "build_template", "TemplateBuildError",
+           "is_error_value"]
 
 TEMPLATE_DIR = Path(__file__).resolve().parents[1] / "templates"
 MARKER_NAME = "stillair_template"
@@ -287,8 +288,11 @@ class TemplateBook:
         return first, col, first + rows - 1, col + cols - 1
 
     def chart(self, sheet: str, kind: str, title: str, series: Sequence[dict], x_title: str, y_title: str,
-              anchor: str, subtype: str | None = None) -> None:
-        """An XlsxWriter chart; each series dict holds name, categories and values references."""
+              anchor: str, subtype: str | None = None, x_axis: dict | None = None,
+              y_axis: dict | None = None) -> None:
+        """An XlsxWriter chart; each series dict holds name, categories and values references.
+
+        ``x_axis`` / ``y_axis`` add XlsxWriter axis options (e.g. ``{"log_base": 10}``)."""
         options = {"type": kind}
         if subtype:
             options["subtype"] = subtype
@@ -296,8 +300,9 @@ class TemplateBook:
         for entry in series:
             chart.add_series(entry)
         chart.set_title({"name": title, "name_font": {"size": 11, "color": _SLATE}})
-        chart.set_x_axis({"name": x_title})
-        chart.set_y_axis({"name": y_title, "major_gridlines": {"visible": True, "line": {"color": _RULE}}})
+        chart.set_x_axis({"name": x_title, **(x_axis or {})})
+        chart.set_y_axis({"name": y_title, "major_gridlines": {"visible": True, "line": {"color": _RULE}},
+                          **(y_axis or {})})
         chart.set_legend({"position": "bottom"})
         self.sheets[sheet].worksheet.insert_chart(anchor, chart, {"x_scale": 1.3, "y_scale": 1.2})
 
@@ -350,7 +355,7 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
         book.close()
         evaluation = evaluate_book(raw)
         errors = [(f"{sheet}!{ref}", value) for sheet, cells in evaluation.values.items()
-                  for ref, value in cells.items() if isinstance(value, str) and value.startswith("#")]
+                  for ref, value in cells.items() if is_error_value(value)]
         if errors:
             shown = ", ".join(f"{cell} = {value}" for cell, value in errors[:8])
             raise TemplateBuildError(f"{template.name}: {len(errors)} cells evaluate to errors: {shown}")
@@ -358,6 +363,22 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
         write_cached_values(read_book(raw), staged, evaluation.values)
         os.replace(staged, out) if _same_device(staged, out) else _copy(staged, out)
     return out
+
+
+def is_error_value(value) -> bool:
+    """An Excel error (#VALUE!, ...) or one of our cell functions' error messages
+    ("NET_TEMP: node must be ..."), which arrive as text."""
+    from .registry import BY_NAME
+
+    if not isinstance(value, str):
+        return False
+    if value.startswith("#"):
+        return True
+    match = _CELL_ERROR_RE.match(value)
+    return bool(match) and match.group(1) in BY_NAME
+
+
+_CELL_ERROR_RE = re.compile(r"^([A-Z][A-Z0-9_]*): ")
 
 
 def _same_device(a: str, b: Path) -> bool:

@@ -14,6 +14,7 @@ import numpy as np
 import pytest
 
 import engine
+from engine.external import LLOYD_MORAN_CROSSOVER
 from engine.correlations import (
     CORRELATIONS,
     GEOMETRIES,
@@ -59,8 +60,10 @@ def test_vplate_churchill_chu_matches_ht(pr):
 @pytest.mark.parametrize("pr", PRANDTL)
 def test_hplate_lloyd_moran_matches_ht(case, pr):
     # ht.Nu_horizontal_plate_McAdams(buoyancy=True) is, despite its name, exactly the
-    # Lloyd-Moran form (0.54 Ra^1/4 up to and including 1e7, 0.15 Ra^1/3 above): same formula.
-    for ra in list(grid(1e4, 1e11)) + [1e7]:
+    # Lloyd-Moran form (0.54 Ra^1/4 up to and including 1e7, 0.15 Ra^1/3 above): same formula,
+    # except that we switch bands where they meet (4.74e6) instead of at 1e7: compared outside
+    # that stretch, which test_lloyd_moran_switches_where_the_bands_meet covers.
+    for ra in [r for r in grid(1e4, 1e11) if not LLOYD_MORAN_CROSSOVER < r <= 1e7]:
         assert nu("hplate", "lloyd-moran", ra, pr, case) == pytest.approx(
             ht.Nu_horizontal_plate_McAdams(pr, ra / pr, buoyancy=True), rel=1e-12)
 
@@ -224,13 +227,25 @@ def test_vcyl_thick_cylinder_is_the_plate_and_slender_cylinder_gains():
 # jump Nu(edge+) - Nu(edge), each computed by hand from the published coefficients).
 BAND_EDGES = [
     ("vplate", "mcadams", None, 1e9, -4.918485),        # 100 - 0.59*177.828
-    ("hplate", "lloyd-moran", "hot-up", 1e7, 1.950089),  # 0.15*215.443 - 0.54*56.2341
     ("hplate", "mcadams", "hot-up", 2e7 / 64, 1.889870 / 4),  # (0.14 - 0.54 Ra_s^-1/12) Ra_s^1/3 at Ra_s 2e7
     ("hcyl", "morgan", None, 1e-2, -0.000836554),
     ("hcyl", "morgan", None, 1e2, 0.00380521),
     ("hcyl", "morgan", None, 1e4, -0.00196429),
     ("hcyl", "morgan", None, 1e7, -0.206251),
 ]
+
+
+def test_lloyd_moran_switches_where_the_bands_meet():
+    # Continuity at Ra_x = (0.54/0.15)^12 (algebra on Incropera 6th ed. eqs. 9.30-9.31), and the
+    # size of the departure from the published 1e7 edge: at 1e7 the turbulent band is used,
+    # 0.15*1e7^(1/3) = 32.3165 against the laminar 0.54*1e7^(1/4) = 30.3664 (+6.4 %).
+    edge = LLOYD_MORAN_CROSSOVER
+    assert edge == pytest.approx(4.7384e6, rel=1e-4)
+    below = nu("hplate", "lloyd-moran", edge * (1 - 1e-12), 0.7, "hot-up")
+    above = nu("hplate", "lloyd-moran", edge * (1 + 1e-12), 0.7, "hot-up")
+    assert above - below == pytest.approx(0.0, abs=1e-9)
+    assert nu("hplate", "lloyd-moran", 1e7, 0.7, "hot-up") == pytest.approx(0.15 * 1e7 ** (1 / 3), rel=1e-12)
+    assert 0.15 * 1e7 ** (1 / 3) / (0.54 * 1e7 ** 0.25) == pytest.approx(1.0642, rel=1e-4)
 
 
 @pytest.mark.parametrize("geometry,method,case,edge,jump", BAND_EDGES)

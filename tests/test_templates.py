@@ -7,7 +7,7 @@ import zipfile
 import openpyxl
 import pytest
 
-from addin.templatebook import MARKER_NAME, build_template
+from addin.templatebook import MARKER_NAME, build_template, is_error_value
 from addin.templates import MODULES, all_templates, copy_templates
 from template_support import evaluate_template
 
@@ -57,7 +57,7 @@ def _same_value(a, b) -> bool:
 def test_template_evaluates_without_a_single_error_value(template):
     evaluation = evaluate_template(template.name)
     errors = [(sheet, ref, value) for sheet, cells in evaluation.values.items() for ref, value in cells.items()
-              if isinstance(value, str) and value.startswith("#")]
+              if is_error_value(value)]
     assert not errors
 
 
