@@ -1,0 +1,249 @@
+"""Template: heat loss and surface temperature of a hot equipment face or pipe in still air.
+
+The bare surface (temperature known) needs no iteration: its convection and radiation
+coefficients follow directly from H_VPLATE / H_HPLATE / H_HCYL and H_RAD.  Each insulated case
+of the thickness table is a small network - hot surface, insulation, outer surface, convection to
+the air and radiation to the surroundings - and all of them are rows of one branch table (one
+independent sub-network per thickness), solved together by the network solver.
+"""
+
+from __future__ import annotations
+
+from engine import CORRELATIONS
+
+from ..templatebook import Template
+
+NAME = "hot-surface"
+GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
+STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
+
+BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
+BOUNDARY_HEADER = ["node", "T or Q", "value"]
+
+
+def insulated_branch_rows(rows):
+    """Branch rows for the insulated cases.
+
+    ``rows`` holds (resistance, kind, length, area, facing, emissivity) per thickness; facing is
+    blank (None or "") unless the kind is hplate.  Used by the template (cell formulas) and by
+    the tests (numbers), so both build the same network.
+    """
+    table = []
+    for k, (resistance, kind, length, area, facing, emissivity) in enumerate(rows, start=1):
+        table.append([f"ins_{k}", "hot", f"surf_{k}", "resistance", resistance, None, None, None, None, None])
+        table.append([f"conv_{k}", f"surf_{k}", "ambient", kind, length, area, facing, None, None, None])
+        table.append([f"rad_{k}", f"surf_{k}", "surroundings", "radiation", emissivity, None, area, None, None,
+                      None])
+    return table
+
+
+def boundary_rows(hot, ambient, surroundings):
+    return [["hot", "T", hot], ["ambient", "T", ambient], ["surroundings", "T", surroundings]]
+
+
+def _source(geometry: str, method: str) -> str:
+    return CORRELATIONS[(geometry, method)].source
+
+
+def build(b) -> None:
+    # ------------------------------------------------------------------ Inputs
+    b.section("Inputs", "Surface")
+    b.input("geometry", "Geometry", "horizontal cylinder", "",
+            "horizontal cylinder (pipe), vertical face, horizontal top, horizontal bottom",
+            choices=GEOMETRIES)
+    b.input("hot_t", "Hot surface temperature (bare metal)", 150.0, "°C",
+            "taken as the temperature under the insulation too")
+    b.input("pipe_od", "Pipe outside diameter (cylinder)", 0.1143, "m", "used for the horizontal cylinder")
+    b.input("pipe_length", "Pipe length (cylinder)", 10.0, "m", "used for the horizontal cylinder")
+    b.input("face_height", "Face height (vertical) or depth (horizontal)", 1.0, "m", "used for the faces")
+    b.input("face_width", "Face width", 1.5, "m", "used for the faces")
+    b.input("eps_bare", "Emissivity of the bare surface", 0.8, "-", "oxidised steel about 0.8")
+    b.section("Inputs", "Surroundings")
+    b.input("ambient_t", "Still air temperature", 20.0, "°C")
+    b.input("surroundings_t", "Temperature of the surroundings (radiation)", 20.0, "°C",
+            "walls and objects the surface sees")
+    b.section("Inputs", "Insulation and touch limit")
+    b.input("ins_k", "Insulation conductivity", 0.04, "W/(m·K)", "at its mean temperature (maker's data)")
+    b.input("eps_jacket", "Emissivity of the jacket (outer surface)", 0.3, "-",
+            "dull metal jackets low, painted or fabric jackets about 0.9")
+    b.input("ins_step", "Thickness step of the table", 0.01, "m", f"the table runs 0, 1 x .. {STEPS} x this step")
+    b.input("touch_limit", "Touch-temperature limit", 50.0, "°C",
+            "set from ISO 13732-1 for the jacket material and contact time, or local rules")
+
+    # ------------------------------------------------------------------ Calculation
+    b.section("Calculation", "Geometry")
+    b.step("kind", "Network branch kind for the geometry",
+           '=IF(geometry="horizontal cylinder", "hcyl", IF(geometry="vertical face", "vplate", '
+           'IF(OR(geometry="horizontal top", geometry="horizontal bottom"), "hplate", '
+           '"choose a geometry from the list")))', "", "hcyl, vplate or hplate")
+    b.step("facing", "Facing of a horizontal face", '=IF(geometry="horizontal bottom", "down", "up")', "",
+           "used by hplate only")
+    b.step("bare_length", "Characteristic length of the bare surface",
+           '=IF(kind="hcyl", pipe_od, IF(kind="vplate", face_height, '
+           'face_height*face_width/(2*(face_height+face_width))))', "m",
+           "diameter, height, or area/perimeter")
+    b.step("bare_area", "Area of the bare surface",
+           '=IF(kind="hcyl", PI()*pipe_od*pipe_length, face_height*face_width)', "m²")
+    b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
+           '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
+    b.section("Calculation", "Bare surface (temperature known: no iteration)")
+    b.step("h_conv_bare", "Convection coefficient, bare",
+           '=IF(kind="hcyl", H_HCYL(hot_t, ambient_t, pipe_od), IF(kind="vplate", '
+           'H_VPLATE(hot_t, ambient_t, face_height), H_HPLATE(hot_t, ambient_t, bare_length, facing)))',
+           "W/(m²·K)")
+    b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
+    b.step("q_conv_bare", "Convection loss, bare", "=h_conv_bare*bare_area*(hot_t-ambient_t)", "W")
+    b.step("q_rad_bare", "Radiation loss, bare", "=h_rad_bare*bare_area*(hot_t-surroundings_t)", "W")
+    b.step("q_bare", "Heat loss, bare", "=q_conv_bare+q_rad_bare", "W")
+    b.step("ra_bare", "Rayleigh number, bare", "=RAYLEIGH(hot_t, ambient_t, bare_length)", "-",
+           number_format="0.00E+00")
+    b.step("pr_bare", "Prandtl number at the film temperature", "=AIR_PRANDTL((hot_t+ambient_t)/2)", "-")
+    b.step("note_bare", "Validity of the bare-surface correlation",
+           '=NU_NOTE(IF(kind="hcyl", "hcyl", IF(kind="vplate", "vplate", "hplate")), ra_bare, pr_bare, '
+           'IF(kind="hplate", IF(facing="up", "hot-up", "hot-down"), ""))', "")
+
+    b.blank("Calculation")
+    b.section("Calculation", "Insulated cases: geometry of each thickness")
+    sheet = "Calculation"
+    geo_header = ["case", "thickness m", "outer size m", "area m²", "insulation R K/W", "facing (hplate only)"]
+    start = b.sheets[sheet].row + 1  # first data row (0-based) of the geometry table
+    geo_rows = []
+    for k in range(1, STEPS + 1):
+        r = start + k - 1
+        t = b.cell(sheet, r, 2)
+        size = b.cell(sheet, r, 3)
+        geo_rows.append([
+            f"{k} x step",
+            f"={k}*ins_step",
+            f'=IF(kind="hcyl", pipe_od+2*{t}, bare_length)',
+            f'=IF(kind="hcyl", PI()*{size}*pipe_length, bare_area)',
+            f'=IF(kind="hcyl", LN({size}/pipe_od)/(2*PI()*ins_k*pipe_length), {t}/(ins_k*bare_area))',
+            # a space, not "": the network reads it as blank, and a viewer shows a cached value
+            '=IF(kind="hplate", facing, " ")',
+        ])
+    first, _, last, _ = b.table(sheet, geo_header, geo_rows, col=1)
+    assert first == start
+
+    def geo(k, col):
+        return "=" + b.cell(sheet, start + k - 1, col)
+
+    b.blank(sheet)
+    b.section(sheet, "Insulated cases: network branches (one sub-network per thickness)")
+    b.table(sheet, BRANCH_HEADER, insulated_branch_rows(
+        [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), geo(k, 6), "=eps_jacket") for k in range(1, STEPS + 1)]),
+        name="hs_branches")
+    b.blank(sheet)
+    b.section(sheet, "Insulated cases: boundaries")
+    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), name="hs_bounds")
+    b.step("hs_check", "Network check", "=NET_CHECK(hs_branches, hs_bounds)", "")
+
+    b.blank(sheet)
+    b.section(sheet, "Thickness table: outer surface temperature and heat loss")
+    table_header = ["thickness mm", "surface °C", "heat loss W", "loss per unit", "touch limit °C",
+                    "meets limit", "saving vs bare %"]
+    tstart = b.sheets[sheet].row + 1
+    rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit",
+             f'=IF({b.cell(sheet, tstart, 2)}<=touch_limit, "yes", "no")', "=0"]]
+    for k in range(1, STEPS + 1):
+        r = tstart + k
+        rows.append([f"=1000*{b.cell(sheet, start + k - 1, 2)}",
+                     f'=NET_TEMP(hs_branches, hs_bounds, "surf_{k}")',
+                     f'=NET_HEAT(hs_branches, hs_bounds, "ins_{k}")',
+                     f"={b.cell(sheet, r, 3)}/unit_size",
+                     "=touch_limit",
+                     f'=IF({b.cell(sheet, r, 2)}<=touch_limit, "yes", "no")',
+                     f"=100*(1-{b.cell(sheet, r, 3)}/q_bare)"])
+    tfirst, _, tlast, _ = b.table(sheet, table_header, rows, col=1)
+    assert tfirst == tstart
+    b.sheets[sheet].worksheet.write(tfirst - 1, 0, "", b.formats["header"])
+
+    def column(col):
+        return f"{b.cell(sheet, tfirst, col)}:{b.cell(sheet, tlast, col).split('!')[1]}"
+
+    thickness_col, surface_col, loss_col, meets_col = column(1), column(2), column(3), column(6)
+    b.step("first_ok_mm", "First thickness of the table meeting the touch limit",
+           f'=IFERROR(INDEX({thickness_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "mm")
+    b.step("first_ok_t", "Outer surface temperature at that thickness",
+           f'=IFERROR(INDEX({surface_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "°C")
+    b.step("first_ok_q", "Heat loss at that thickness",
+           f'=IFERROR(INDEX({loss_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "W")
+    # one insulated case picked out by name, for checkers and the direction tests
+    b.step("surf_t_first_step", "Outer surface temperature with 1 x step", "=" + b.cell(sheet, tstart + 1, 2), "°C")
+    b.step("q_first_step", "Heat loss with 1 x step", "=" + b.cell(sheet, tstart + 1, 3), "W")
+    b.step("h_conv_first_step", "Outer convection coefficient with 1 x step (check)",
+           f'=IF(kind="hcyl", H_HCYL(surf_t_first_step, ambient_t, {b.cell(sheet, start, 3)}), '
+           f'IF(kind="vplate", H_VPLATE(surf_t_first_step, ambient_t, face_height), '
+           f'H_HPLATE(surf_t_first_step, ambient_t, bare_length, facing)))', "W/(m²·K)",
+           "re-computed from the solved surface temperature")
+
+    # ------------------------------------------------------------------ Results
+    b.section("Results", "Bare surface")
+    b.result("res_geometry", "Geometry", "=geometry", text=True)
+    b.result("res_h_conv_bare", "Convection coefficient", "=h_conv_bare", "W/(m²·K)")
+    b.result("res_h_rad_bare", "Radiation coefficient", "=h_rad_bare", "W/(m²·K)")
+    b.result("res_q_bare", "Heat loss, bare", "=q_bare", "W")
+    b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
+             "W/m or W/m²")
+    b.result("res_bare_check", "Bare surface against the touch limit",
+             '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True)
+    b.section("Results", "Insulation against the touch limit")
+    b.result("res_touch_limit", "Touch-temperature limit", "=touch_limit", "°C")
+    b.result("res_first_ok_mm", "First thickness in the table that meets it", "=first_ok_mm", "mm")
+    b.result("res_first_ok_t", "Outer surface temperature at that thickness", "=first_ok_t", "°C")
+    b.result("res_first_ok_q", "Heat loss at that thickness", "=first_ok_q", "W")
+    b.result("res_surf_t_first_step", "Outer surface temperature with one thickness step", "=surf_t_first_step",
+             "°C")
+    b.result("res_q_first_step", "Heat loss with one thickness step", "=q_first_step", "W")
+    b.section("Results", "Validity")
+    b.result("res_note_bare", "Bare-surface correlation", "=note_bare", text=True)
+    b.result("res_net_check", "Insulated cases (network check)", "=hs_check", text=True)
+    b.result(None, "Caution", '="Touch temperatures can burn: the safe value depends on the material and the '
+             'contact time (ISO 13732-1). Follow local codes, makers\' ratings and licensed practice (see Notes)."',
+             text=True)
+    b.blank("Results")
+    row = b.sheets["Results"].row
+    x = f"={column(1)}"
+    b.chart("Results", "scatter", "Outer surface temperature against insulation thickness",
+            [{"name": "outer surface", "categories": x, "values": f"={column(2)}", "marker": {"type": "circle"}},
+             {"name": "touch limit", "categories": x, "values": f"={column(5)}",
+              "line": {"dash_type": "dash"}}],
+            "insulation thickness mm", "temperature °C", f"A{row + 1}", subtype="straight_with_markers")
+    b.chart("Results", "scatter", "Heat loss against insulation thickness",
+            [{"name": "heat loss", "categories": x, "values": f"={column(3)}", "marker": {"type": "diamond"}}],
+            "insulation thickness mm", "heat loss W", f"D{row + 1}", subtype="straight_with_markers")
+
+    # ------------------------------------------------------------------ Notes
+    b.section("Notes", "Method")
+    b.paragraph("Bare surface: the surface temperature is known, so the convection coefficient follows "
+                "directly from the correlation of the chosen geometry (H_HCYL, H_VPLATE or H_HPLATE, "
+                "properties at the film temperature) and the radiation coefficient from H_RAD (grey surface "
+                "in large surroundings). Heat loss = (h_conv + h_rad) x area x temperature difference.")
+    b.paragraph("Insulated cases: each thickness is a network hot surface -> insulation -> outer surface -> "
+                "(convection to the air, radiation to the surroundings). The insulation is a resistance: "
+                "ln(D_out/D)/(2 pi k L) for a pipe, t/(k A) for a flat face. The outer surface temperature is "
+                "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
+                "an independent sub-network in one branch table.")
+    b.section("Notes", "Correlations used (sources from the stillair registry)")
+    b.paragraph("Horizontal cylinder, Churchill-Chu: " + _source("hcyl", "churchill-chu"))
+    b.paragraph("Vertical face, Churchill-Chu: " + _source("vplate", "churchill-chu"))
+    b.paragraph("Horizontal top (hot, facing up), Lloyd-Moran: " + _source("hplate", "lloyd-moran"))
+    b.paragraph("Horizontal bottom (hot, facing down), Raithby-Hollands: " + _source("hplate", "raithby-hollands"))
+    b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
+                "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7.")
+    b.section("Notes", "Assumptions")
+    b.paragraph("Still air, no wind or forced draught. The metal under the insulation is at the hot surface "
+                "temperature (the inside film and the metal wall are neglected). The insulation conductivity "
+                "is one value (take it at the insulation's mean temperature from the maker's data). Flat faces "
+                "keep their area when insulated (edge losses ignored); a pipe's outer diameter grows with the "
+                "insulation. The surroundings are large compared with the surface. Steady state.")
+    b.section("Notes", "Cautions")
+    b.paragraph("Touch temperatures: whether a surface burns depends on its material and coating and on the "
+                "contact time; ISO 13732-1 gives burn-threshold surface temperatures for these. The limit in "
+                "this template is the user's choice. Follow local codes, the insulation and equipment "
+                "manufacturers' ratings and licensed practice; guards or warning signs may be needed even "
+                "where the calculated temperature meets the limit.", caution=True)
+
+
+TEMPLATE = Template(NAME, 1, "Hot surface in still air",
+                    "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
+                    "a table of insulation thicknesses against a touch-temperature limit.", build)

@@ -1,0 +1,145 @@
+"""sealed-cabinet template: equals a direct engine calculation, closes its energy balance, stays
+physically bounded, and every input moves the results the expected way."""
+
+from __future__ import annotations
+
+import openpyxl
+import pytest
+
+import engine
+from addin.templates import sealed_cabinet as cabinet
+from template_support import assert_direction, evaluate_template, named
+
+NAME = "sealed-cabinet"
+
+
+def _inputs(evaluation):
+    names = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "emissivity", "dissipation",
+             "absorptance", "sun_top", "sun_sides", "ambient_t", "sky_t", "altitude", "vplate_method")
+    return {n: named(evaluation, n) for n in names}
+
+
+def _engine_case(v):
+    """The same cabinet built directly from the engine's Python API."""
+    side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
+    top_area = v["cab_width"] * v["cab_depth"]
+    branches = cabinet.branch_rows(
+        height=v["cab_height"], side_area=side_area, top_area=top_area,
+        top_length=top_area / (2 * (v["cab_width"] + v["cab_depth"])), wall_thickness=v["wall_thickness"],
+        wall_k=v["wall_k"], emissivity=v["emissivity"], method=v["vplate_method"])
+    bounds = cabinet.boundary_rows(
+        dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
+        sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
+    return engine.solve_network(branches, bounds, "air", pressure=engine.altitude_pressure(v["altitude"]))
+
+
+@pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],
+                         ids=["default", "mcadams-altitude"])
+def test_results_equal_a_direct_engine_network(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    result = _engine_case(_inputs(evaluation))
+    pairs = {"t_air": result.temperatures["air_in"], "t_side_in": result.temperatures["side_in"],
+             "t_side_out": result.temperatures["side_out"], "t_top_in": result.temperatures["top_in"],
+             "t_top_out": result.temperatures["top_out"], "q_conv_sides": result.heat["conv_side_out"],
+             "q_rad_sides": result.heat["rad_side"], "q_conv_top": result.heat["conv_top_out"],
+             "q_rad_top": result.heat["rad_top"]}
+    for name, expected in pairs.items():
+        assert named(evaluation, name) == pytest.approx(expected, rel=1e-9), name
+    # the checker's re-computed coefficients equal the network's own
+    assert named(evaluation, "h_out_sides") == pytest.approx(result.branches["conv_side_out"].h, rel=1e-9)
+    assert named(evaluation, "h_in_top") == pytest.approx(result.branches["conv_top_in"].h, rel=1e-9)
+
+
+def test_default_case_reads_well_and_is_in_range():
+    evaluation = evaluate_template(NAME)
+    t_air = named(evaluation, "res_t_air")
+    # common practice: a sealed cabinet runs above ambient, and the top (in the sun) above the sides
+    assert named(evaluation, "ambient_t") < named(evaluation, "res_t_side_out") < t_air
+    assert named(evaluation, "res_t_top_out") > named(evaluation, "res_t_side_out")
+    assert named(evaluation, "res_margin") == pytest.approx(named(evaluation, "max_internal_t") - t_air, rel=1e-12)
+    assert named(evaluation, "res_check") == ("OK" if t_air <= named(evaluation, "max_internal_t") else "EXCEEDS LIMIT")
+    assert named(evaluation, "res_net_check").startswith("OK")
+    assert named(evaluation, "res_method_sides") == "churchill-chu"
+    assert named(evaluation, "res_method_top") == "lloyd-moran"
+    assert not evaluation.notes  # every correlation inside its range by default
+
+
+def test_limit_check_reports_an_exceeded_limit():
+    evaluation = evaluate_template(NAME, max_internal_t=40)
+    assert named(evaluation, "res_check") == "EXCEEDS LIMIT"
+    assert named(evaluation, "res_margin") < 0
+
+
+@pytest.mark.parametrize("sets", [{}, {"dissipation": 400, "sun_top": 0, "sun_sides": 0},
+                                  {"absorptance": 0.9, "sky_t": -10}], ids=["default", "no-sun", "dark-clear-sky"])
+def test_energy_balance_dissipation_plus_sun_equals_loss(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    heat_in = named(evaluation, "dissipation") + named(evaluation, "res_sun")
+    heat_out = named(evaluation, "res_conv") + named(evaluation, "res_rad_ambient") + named(evaluation, "res_rad_sky")
+    assert heat_out == pytest.approx(heat_in, rel=1e-9)
+    assert abs(named(evaluation, "res_balance")) < 1e-9 * heat_in
+
+
+def test_no_heat_input_leaves_the_cabinet_between_sky_and_ambient():
+    """Limit: with no dissipation and no sun, nothing can heat the cabinet above the ambient, and
+    it cannot fall below the sky (second law)."""
+    evaluation = evaluate_template(NAME, dissipation=0, sun_top=0, sun_sides=0)
+    sky, ambient = named(evaluation, "sky_t"), named(evaluation, "ambient_t")
+    for name in ("t_air", "t_side_in", "t_side_out", "t_top_in", "t_top_out"):
+        assert sky < named(evaluation, name) < ambient, name
+    # the top, seeing the cold sky, is the coldest face
+    assert named(evaluation, "t_top_out") < named(evaluation, "t_side_out")
+
+
+def test_no_heat_input_and_sky_at_ambient_is_isothermal():
+    evaluation = evaluate_template(NAME, dissipation=0, sun_top=0, sun_sides=0, sky_t=30)
+    for name in ("t_air", "t_side_out", "t_top_out"):
+        assert named(evaluation, name) == pytest.approx(30.0, abs=1e-9)
+
+
+def test_internal_temperature_rises_monotonically_with_dissipation():
+    temperatures = [named(evaluate_template(NAME, dissipation=q), "res_t_air") for q in (0, 75, 150, 300, 450)]
+    assert all(a < b for a, b in zip(temperatures, temperatures[1:]))
+
+
+# input -> (new value, result, direction, why)
+DIRECTIONS = {
+    "cab_height": (2.0, "res_t_air", -1, "a larger cabinet has more area to lose heat"),
+    "cab_width": (1.0, "res_t_air", -1, "more area"),
+    "cab_depth": (0.9, "res_t_air", -1, "more area"),
+    "wall_thickness": (0.02, "res_t_air", +1, "a thicker wall adds conduction resistance"),
+    "wall_k": (5.0, "res_t_air", +1, "a less conductive wall adds resistance"),
+    "emissivity": (0.3, "res_t_air", +1, "a low-emissivity finish radiates less (sun absorbed separately)"),
+    "dissipation": (300.0, "res_t_air", +1, "more heat in"),
+    "absorptance": (0.8, "res_t_air", +1, "more sun absorbed"),
+    "sun_top": (1000.0, "res_t_air", +1, "more sun on the top"),
+    "sun_sides": (300.0, "res_t_air", +1, "more sun on the sides"),
+    "ambient_t": (40.0, "res_t_air", +1, "warmer surroundings"),
+    "sky_t": (25.0, "res_t_air", +1, "a warmer sky takes less radiation from the top"),
+    "altitude": (2500.0, "res_t_air", +1, "thinner air convects less"),
+    "max_internal_t": (60.0, "res_margin", +1, "the limit only moves the margin"),
+}
+
+
+def test_every_input_has_a_direction_test():
+    workbook = openpyxl.load_workbook(cabinet.TEMPLATE.path)
+    inputs = {name for name, d in workbook.defined_names.items()
+              if any(sheet == "Inputs" for sheet, _ in d.destinations)}
+    assert inputs == set(DIRECTIONS) | {"vplate_method"}
+
+
+@pytest.mark.parametrize("input_name", sorted(DIRECTIONS))
+def test_set_moves_the_result_the_expected_way(input_name):
+    value, result, direction, _why = DIRECTIONS[input_name]
+    assert_direction(NAME, input_name, value, result, direction)
+
+
+def test_the_limit_does_not_change_the_temperatures():
+    assert_direction(NAME, "max_internal_t", 60.0, "res_t_air", 0)
+
+
+def test_choosing_the_vertical_correlation_changes_the_result():
+    """vplate_method has no physical direction; it must reach the network (checked against the
+    engine in test_results_equal_a_direct_engine_network) and change the answer."""
+    assert named(evaluate_template(NAME, vplate_method="mcadams"), "res_t_air") != \
+        named(evaluate_template(NAME), "res_t_air")
