@@ -62,9 +62,9 @@ def _note(message: str) -> None:
 def engine_callable(entry: CellFunction):
     """The engine attribute the entry names, or None while the engine does not provide it.
 
-    ``engine`` is imported here, on first use, not with this module: importing it loads CoolProp
-    (about 2 s), which `stillair functions`, `excel-setup` and workbooks without our functions
-    do not need."""
+    ``engine`` is imported here, on first use, not with this module: importing it takes about
+    0.2 s (numpy, scipy), which `stillair functions` and `excel-setup` do not need.  CoolProp
+    itself loads only if a gas table has to be computed."""
     import engine
     return getattr(engine, entry.engine, None)
 

@@ -49,30 +49,56 @@ limited to -100 (xenon: -80) .. 200 degC: ISO 15099 states no range for its line
 far as recalled -- from memory), which were made for the temperatures of glazing cavities; a straight line through a property growing
 like T^0.8 is extrapolation far outside them.
 
-Speed: the first use of a gas tabulates its five primary properties (density/p, viscosity,
-conductivity, cp, beta) from CoolProp's low-level AbstractState on a 1 K temperature grid times
-Chebyshev nodes in pressure (2,000 to 6,000 states, 0.05-0.5 s).  Afterwards a value costs a cubic
-spline in T and a short Chebyshev series in p (interpolation error below 1e-6 relative, checked
-in the tests), and repeated scalar states are served from an LRU cache.  Kinematic viscosity,
+Tables: the five primary properties of each pure gas (density/p, viscosity, conductivity, cp,
+beta) are tabulated from CoolProp's low-level AbstractState on a 1 K temperature grid times
+Chebyshev nodes in pressure (2,000 to 6,000 states per gas).  A value then costs a cubic spline in
+T and a short Chebyshev series in p (interpolation error below 1e-6 relative, checked in the
+tests), and repeated scalar states are served from an LRU cache.  Kinematic viscosity,
 diffusivity and Prandtl number are formed from the interpolated primaries, so that nu = mu/rho,
-alpha = k/(rho cp) and Pr = mu cp/k hold to rounding.
+alpha = k/(rho cp) and Pr = mu cp/k hold to rounding.  Mixture tables are formed from the
+component tables by the mixing rules.
+
+Shipped tables: the pure-gas tables come with the package, ``engine/data/gas_tables.npz`` (plain
+``numpy.load``-able arrays: per gas the temperature grid, the tabulated values and the molar
+mass; for the whole file the CoolProp version and git revision that computed it, the grid
+parameters and the definition of every gas).  Importing CoolProp takes about 2 s and tabulating a
+gas up to 0.3 s; with the file neither happens: CoolProp is imported only when a table really has
+to be computed.  ``python -m engine.data`` (or ``python -m engine.gases --rebuild-tables``)
+writes the file again from the installed CoolProp, byte for byte the same file for the same
+CoolProp version.
+
+Policy: the shipped file is the reference data of this stillair release.  It is used whatever
+CoolProp version is installed, so that an upgrade of CoolProp never changes a result silently;
+results change only when the file is rebuilt on purpose (and the tests compare the file with a
+fresh tabulation whenever the installed CoolProp is the version it records).  A gas is computed
+from the installed CoolProp instead -- with a ``RuntimeWarning`` naming the reason -- when the
+file is missing or unreadable, when its grid or format differs from this module's, when the
+gas is not in it or its definition (CoolProp fluid, temperature range, ISO fits) has changed.
+The environment variable ``STILLAIR_GAS_TABLES`` names another table file, or, set to ``off``,
+disables the shipped tables (every gas computed, no warning).  :func:`gas_table_provenance`
+says which source each gas in use came from.
 """
 
 from __future__ import annotations
 
 import math
+import os
+import sys
 import threading
+import warnings
+import zipfile
 from dataclasses import dataclass
 from functools import lru_cache
+from pathlib import Path
 from typing import Callable
 
 import numpy as np
 from numpy.polynomial import chebyshev
 from scipy.constants import R as GAS_CONSTANT  # J/(mol K), CODATA
-from scipy.interpolate import CubicSpline, PPoly
 
-import CoolProp
-from CoolProp.CoolProp import PT_INPUTS, iphase_gas
+# CoolProp is imported only where a table is computed (_coolprop below): importing it takes
+# about 2 s, and the shipped tables make it unnecessary.  scipy.interpolate (0.2 s) is imported
+# where the first table is built, so that importing the engine stays light.
 
 from .validity import (
     ABSOLUTE_ZERO_C,
@@ -94,6 +120,7 @@ __all__ = [
     "GAS_PROPERTY_TABLE",
     "STANDARD_PRESSURE",
     "gas_properties",
+    "gas_table_provenance",
     "parse_gas",
 ]
 
@@ -281,8 +308,11 @@ def _parse_text(text: str) -> _Mixture:
 
 @lru_cache(maxsize=None)
 def _molar_mass(name: str) -> float:
-    """Molar mass, kg/mol, of the gas's CoolProp fluid."""
-    return CoolProp.AbstractState("HEOS", GASES[name].coolprop_fluid).molar_mass()
+    """Molar mass, kg/mol, of the gas's CoolProp fluid (from the shipped tables if there)."""
+    shipped = _shipped_gas(name)
+    if shipped is not None:
+        return shipped.molar_mass
+    return _coolprop().AbstractState("HEOS", GASES[name].coolprop_fluid).molar_mass()
 
 
 # --------------------------------------------------------------------------------------------
@@ -322,22 +352,23 @@ class _PropertyTable:
 
     def __init__(self, t_kelvin: np.ndarray, values: np.ndarray):
         """``values[i, j, :]``: primaries at ``t_kelvin[i]`` and the j-th pressure node."""
+        from scipy.interpolate import CubicSpline  # see the imports at the top
+
         self.t_kelvin = t_kelvin
         count = len(t_kelvin)
         flat = values.transpose(1, 0, 2).reshape(_PRESSURE_NODES, -1)
         coefficients = chebyshev.chebfit(_PRESSURE_NODE_X, flat, _PRESSURE_NODES - 1)
         coefficients = coefficients.reshape(_PRESSURE_NODES, count, len(_PRIMARY))
         self.spline = CubicSpline(t_kelvin, coefficients.transpose(1, 0, 2), axis=0)
-        self._slices: dict[float, PPoly] = {}
+        self._slices: dict = {}  # pressure -> scipy.interpolate.PPoly
 
     @classmethod
-    def from_coolprop(cls, gas: GasData) -> "_PropertyTable":
-        state = CoolProp.AbstractState("HEOS", gas.coolprop_fluid)
-        state.specify_phase(iphase_gas)  # the whole table lies in the vapour region
-        t_kelvin = _temperature_grid(gas.t_range)
-        values = np.array([[_direct(gas, state, t, p) for p in _PRESSURE_NODE_VALUES]
-                           for t in t_kelvin])
-        return cls(t_kelvin, values)
+    def from_values(cls, gas: GasData) -> "_PropertyTable":
+        """The table of a pure gas: shipped values if the file has them, else from CoolProp."""
+        shipped = _shipped_gas(gas.name)
+        if shipped is not None:
+            return cls(shipped.t_kelvin, shipped.values)
+        return cls(_temperature_grid(gas.t_range), _tabulate(gas))
 
     @classmethod
     def from_mixture(cls, mixture: "_Mixture") -> "_PropertyTable":
@@ -358,10 +389,13 @@ class _PropertyTable:
         coefficients = self.spline(t_kelvin)
         return np.einsum("...k,...kq->...q", basis, coefficients)
 
-    def at_pressure(self, pressure: float) -> PPoly:
-        """The table at one pressure: a piecewise cubic in T (exactly the spline's values)."""
+    def at_pressure(self, pressure: float):
+        """The table at one pressure: a piecewise cubic in T (a ``scipy.interpolate.PPoly``,
+        exactly the spline's values)."""
         piece = self._slices.get(pressure)
         if piece is None:
+            from scipy.interpolate import PPoly  # loaded with the spline already
+
             x = float(_pressure_variable(pressure))
             basis = chebyshev.chebvander(x, _PRESSURE_NODES - 1)[0]
             piece = PPoly(np.tensordot(self.spline.c, basis, axes=([2], [0])), self.spline.x)
@@ -376,9 +410,25 @@ def _temperature_grid(t_range: Range) -> np.ndarray:
     return np.linspace(low_k, high_k, int(math.ceil((high_k - low_k) / _T_STEP)) + 1)
 
 
+def _coolprop():
+    """The CoolProp module, imported on first need (about 2 s, hence not at the top)."""
+    import CoolProp
+    return CoolProp
+
+
+def _tabulate(gas: GasData) -> np.ndarray:
+    """``values[i, j, :]``: the primaries of a pure gas at the i-th grid temperature and the j-th
+    pressure node, straight from CoolProp (and the ISO fits)."""
+    coolprop = _coolprop()
+    state = coolprop.AbstractState("HEOS", gas.coolprop_fluid)
+    state.specify_phase(coolprop.iphase_gas)  # the whole table lies in the vapour region
+    return np.array([[_direct(gas, state, t, p) for p in _PRESSURE_NODE_VALUES]
+                     for t in _temperature_grid(gas.t_range)])
+
+
 def _direct(gas: GasData, state, t_kelvin: float, pressure: float) -> list[float]:
     """The primary properties straight from CoolProp (and the ISO fits), no interpolation."""
-    state.update(PT_INPUTS, pressure, t_kelvin)
+    state.update(_coolprop().PT_INPUTS, pressure, t_kelvin)
     viscosity = float(gas.viscosity_fit(t_kelvin)) if gas.viscosity_fit else state.viscosity()
     conductivity = (float(gas.conductivity_fit(t_kelvin)) if gas.conductivity_fit
                     else state.conductivity())
@@ -399,7 +449,7 @@ def _table(mixture: "_Mixture") -> _PropertyTable:
             table = _TABLES.get(mixture)
             if table is None:
                 if mixture.is_pure:
-                    table = _PropertyTable.from_coolprop(GASES[mixture.components[0][0]])
+                    table = _PropertyTable.from_values(GASES[mixture.components[0][0]])
                 else:
                     mixtures = [key for key in _TABLES if not key.is_pure]
                     if len(mixtures) >= _MIXTURE_TABLE_LIMIT:
@@ -407,6 +457,198 @@ def _table(mixture: "_Mixture") -> _PropertyTable:
                     table = _PropertyTable.from_mixture(mixture)
                 _TABLES[mixture] = table
     return table
+
+
+# --------------------------------------------------------------------------------------------
+# The shipped tables (engine/data/gas_tables.npz): policy in the module docstring
+# --------------------------------------------------------------------------------------------
+
+TABLE_FILE = Path(__file__).with_name("data") / "gas_tables.npz"
+TABLE_FILE_VARIABLE = "STILLAIR_GAS_TABLES"  # another file, or "off"
+_TABLE_FORMAT = 1
+_REBUILD_HINT = "rebuild it with `python -m engine.data`"
+
+
+def _grid_parameters() -> np.ndarray:
+    """What every table's grid depends on; a file made on another grid is not used."""
+    return np.array([_T_STEP, _PRESSURE_NODES, GAS_PRESSURE_RANGE.low, GAS_PRESSURE_RANGE.high])
+
+
+def _definition(gas: GasData) -> str:
+    """What one gas's table depends on besides CoolProp; a changed definition makes it stale."""
+    return (f"{gas.coolprop_fluid} t={gas.t_range.low!r}..{gas.t_range.high!r} degC "
+            f"viscosity_fit={gas.viscosity_fit!r} conductivity_fit={gas.conductivity_fit!r}")
+
+
+@dataclass(frozen=True)
+class _ShippedGas:
+    t_kelvin: np.ndarray
+    values: np.ndarray       # (temperatures, pressure nodes, primaries)
+    molar_mass: float        # kg/mol
+
+
+@dataclass
+class _ShippedFile:
+    path: Path
+    coolprop_version: str
+    coolprop_gitrevision: str
+    gases: dict              # name -> _ShippedGas, the fresh entries
+    stale: dict              # name -> why the file's entry is not used
+
+
+_SHIPPED_UNREAD = object()
+_shipped_file = _SHIPPED_UNREAD          # a _ShippedFile, or None for "no usable file"
+_shipped_reason = ""                     # why there is no usable file
+_SOURCES: dict[str, str] = {}            # pure gas -> where its table came from
+
+
+def _table_path() -> Path | None:
+    value = os.environ.get(TABLE_FILE_VARIABLE)
+    if value is None:
+        return TABLE_FILE
+    if value.strip().lower() in ("", "off", "none", "0"):
+        return None
+    return Path(value)
+
+
+def _read_table_file(path: Path) -> _ShippedFile:
+    """The file's fresh entries; raises ValueError if the whole file does not fit this code."""
+    with np.load(path, allow_pickle=False) as data:
+        arrays = {key: data[key] for key in data.files}
+    if int(arrays["format"]) != _TABLE_FORMAT:
+        raise ValueError(f"format {int(arrays['format'])}, expected {_TABLE_FORMAT}")
+    if not np.array_equal(arrays["grid"], _grid_parameters()):
+        raise ValueError(f"grid (T step K, pressure nodes, p low Pa, p high Pa) "
+                         f"{arrays['grid'].tolist()}, expected {_grid_parameters().tolist()}")
+    if tuple(arrays["primaries"].tolist()) != _PRIMARY:
+        raise ValueError(f"columns {arrays['primaries'].tolist()}, expected {list(_PRIMARY)}")
+    shipped = _ShippedFile(path, str(arrays["coolprop_version"]),
+                           str(arrays["coolprop_gitrevision"]), {}, {})
+    names = set(arrays["gases"].tolist())
+    for gas in GASES.values():
+        if gas.name not in names:
+            shipped.stale[gas.name] = "not in the file"
+        elif str(arrays[f"{gas.name}.definition"]) != _definition(gas):
+            shipped.stale[gas.name] = (f"made for '{arrays[f'{gas.name}.definition']}', "
+                                       f"now '{_definition(gas)}'")
+        elif not np.array_equal(arrays[f"{gas.name}.t_kelvin"], _temperature_grid(gas.t_range)):
+            shipped.stale[gas.name] = "its temperature grid differs"
+        else:
+            shipped.gases[gas.name] = _ShippedGas(arrays[f"{gas.name}.t_kelvin"],
+                                                  arrays[f"{gas.name}.values"],
+                                                  float(arrays[f"{gas.name}.molar_mass"]))
+    return shipped
+
+
+def _shipped() -> _ShippedFile | None:
+    """The table file, read once (None when absent, disabled or not fitting this code)."""
+    global _shipped_file, _shipped_reason
+    if _shipped_file is _SHIPPED_UNREAD:
+        with _TABLES_LOCK:
+            if _shipped_file is _SHIPPED_UNREAD:
+                path = _table_path()
+                if path is None:
+                    _shipped_file, _shipped_reason = None, f"{TABLE_FILE_VARIABLE} is off"
+                else:
+                    try:
+                        _shipped_file = _read_table_file(path)
+                    except (OSError, ValueError, KeyError, TypeError, zipfile.BadZipFile) as error:
+                        _shipped_file = None
+                        _shipped_reason = f"gas table file {path} not used: {error}"
+                        warnings.warn(f"engine.gases: {_shipped_reason}; gases are computed "
+                                      f"from the installed CoolProp ({_REBUILD_HINT})",
+                                      RuntimeWarning, stacklevel=2)
+    return _shipped_file
+
+
+def _shipped_gas(name: str) -> _ShippedGas | None:
+    """The shipped table of one pure gas, or None (warned, unless the file is off)."""
+    shipped = _shipped()
+    entry = shipped.gases.get(name) if shipped is not None else None
+    if name in _SOURCES:
+        return entry
+    if entry is not None:
+        _SOURCES[name] = (f"shipped table {shipped.path.name} "
+                          f"(CoolProp {shipped.coolprop_version})")
+        return entry
+    reason = _shipped_reason if shipped is None else \
+        f"{name} in gas table file {shipped.path}: {shipped.stale[name]}"
+    _SOURCES[name] = f"computed with the installed CoolProp ({reason})"
+    if shipped is not None:
+        warnings.warn(f"engine.gases: {reason}; computed from the installed CoolProp "
+                      f"({_REBUILD_HINT})", RuntimeWarning, stacklevel=2)
+    return None
+
+
+def gas_table_provenance() -> dict:
+    """Where the pure-gas property tables come from, for traceability.
+
+    ``{"file": path of the table file or None, "coolprop_version": the CoolProp version that
+    computed the file ("" without one), "installed_coolprop": the installed CoolProp's version
+    if it has been imported (else None: it is not needed), "gases": {gas: source}}``, listing
+    each pure gas used so far (mixtures come from their components' tables).
+    """
+    shipped = _shipped()
+    coolprop = _coolprop() if "CoolProp" in sys.modules else None
+    return {
+        "file": str(shipped.path) if shipped is not None else None,
+        "coolprop_version": shipped.coolprop_version if shipped is not None else "",
+        "installed_coolprop": coolprop.__version__ if coolprop is not None else None,
+        "gases": dict(_SOURCES),
+    }
+
+
+def _reset_tables() -> None:
+    """Forget every table, state and the table file (tests switch the file in process)."""
+    global _shipped_file, _shipped_reason
+    with _TABLES_LOCK:
+        _TABLES.clear()
+        _SOURCES.clear()
+        _shipped_file, _shipped_reason = _SHIPPED_UNREAD, ""
+        _scalar_state.cache_clear()
+        _parse_text.cache_clear()
+        _molar_mass.cache_clear()
+
+
+def table_file_arrays() -> dict[str, np.ndarray]:
+    """The arrays of the table file, freshly computed from the installed CoolProp."""
+    coolprop = _coolprop()
+    arrays = {
+        "format": np.array(_TABLE_FORMAT),
+        "coolprop_version": np.array(coolprop.__version__),
+        "coolprop_gitrevision": np.array(coolprop.__gitrevision__),
+        "grid": _grid_parameters(),
+        "primaries": np.array(_PRIMARY),
+        "gases": np.array(GAS_NAMES),
+    }
+    for gas in GASES.values():
+        arrays[f"{gas.name}.definition"] = np.array(_definition(gas))
+        arrays[f"{gas.name}.t_kelvin"] = _temperature_grid(gas.t_range)
+        arrays[f"{gas.name}.values"] = _tabulate(gas)
+        arrays[f"{gas.name}.molar_mass"] = np.array(
+            coolprop.AbstractState("HEOS", gas.coolprop_fluid).molar_mass())
+    return arrays
+
+
+def write_table_file(path: Path | str = TABLE_FILE, arrays: dict | None = None) -> Path:
+    """Write the table file (``arrays``, by default :func:`table_file_arrays`) to ``path``.
+
+    A ``numpy.load``-able .npz; written with fixed zip dates, so that the same CoolProp gives
+    the same bytes (a rebuild shows in version control only when a number changed).
+    """
+    path = Path(path)
+    arrays = table_file_arrays() if arrays is None else arrays
+    path.parent.mkdir(parents=True, exist_ok=True)
+    partial = path.with_name(path.name + ".partial")
+    with zipfile.ZipFile(partial, "w", compression=zipfile.ZIP_DEFLATED) as archive:
+        for key, array in arrays.items():
+            member = zipfile.ZipInfo(f"{key}.npy", date_time=(1980, 1, 1, 0, 0, 0))
+            member.compress_type = zipfile.ZIP_DEFLATED
+            with archive.open(member, "w", force_zip64=True) as stream:
+                np.lib.format.write_array(stream, np.asarray(array),
+                                          allow_pickle=False)
+    os.replace(partial, path)
+    return path
 
 
 # --------------------------------------------------------------------------------------------
@@ -676,3 +918,25 @@ for _info in GAS_PROPERTY_TABLE:
         globals()[_function.__name__] = _function
         __all__.append(_function.__name__)
 del _info, _factory, _function
+
+
+def main(argv: list[str] | None = None) -> int:
+    """``python -m engine.gases --rebuild-tables [--output PATH]``."""
+    import argparse
+
+    parser = argparse.ArgumentParser(prog="python -m engine.gases",
+                                     description="Write the shipped gas property tables.")
+    parser.add_argument("--rebuild-tables", action="store_true", required=True,
+                        help="tabulate every pure gas with the installed CoolProp")
+    parser.add_argument("--output", default=str(TABLE_FILE),
+                        help=f"where to write (default {TABLE_FILE})")
+    args = parser.parse_args(argv)
+    path = write_table_file(args.output)
+    print(f"wrote {path} ({path.stat().st_size / 1e6:.2f} MB, "
+          f"CoolProp {_coolprop().__version__})")
+    return 0
+
+
+if __name__ == "__main__":
+    # `python -m` runs a second copy of this file; use the engine's own module.
+    sys.exit(sys.modules["engine.gases"].main())

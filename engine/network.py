@@ -62,7 +62,6 @@ from types import MappingProxyType
 from typing import Mapping
 
 import numpy as np
-from scipy import optimize
 from scipy.constants import zero_Celsius
 
 from .correlations import GEOMETRIES, methods_for
@@ -800,6 +799,8 @@ class _Solver:
         return None, x
 
     def scipy_root(self, x, method):
+        from scipy import optimize  # only when Newton stalls: importing it takes 0.2 s
+
         def fun(y):
             state = self.evaluate(y)
             if state is None:

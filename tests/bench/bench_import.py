@@ -1,0 +1,75 @@
+"""Benchmark: cold-process start-up of the engine and of `stillair calc`.
+
+Run: python tests/bench/bench_import.py [--repeat 5]
+
+Each case is a fresh Python process, timed from outside (wall clock, best and median of
+--repeat runs):
+
+* ``import engine`` alone, and ``import engine; engine.air_conductivity(20.0)``;
+* ``stillair calc`` on the 300-formula bench workbook of bench_calc.py.
+
+Each is run twice: as shipped (the gas tables from engine/data/gas_tables.npz, CoolProp never
+imported), and "as before" -- CoolProp imported at start-up and every gas tabulated from it
+(STILLAIR_GAS_TABLES=off), which is what the engine did before the tables were shipped.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+sys.path.insert(0, str(Path(__file__).parent))
+from bench_calc import build  # noqa: E402
+
+SHIPPED = {}
+BEFORE = {"STILLAIR_GAS_TABLES": "off"}
+PRELOAD_COOLPROP = "import CoolProp; "  # the old engine imported it with itself
+
+
+def wall(code: str, environment: dict, repeat: int) -> list[float]:
+    env = {key: value for key, value in os.environ.items() if key != "STILLAIR_GAS_TABLES"}
+    env.update(environment)
+    times = []
+    for _ in range(repeat):
+        started = time.perf_counter()
+        subprocess.run([sys.executable, "-c", code], env=env, check=True,
+                       stdout=subprocess.DEVNULL)
+        times.append(time.perf_counter() - started)
+    return times
+
+
+def report(label: str, times: list[float]) -> None:
+    print(f"  {label:<58} best {min(times):5.2f} s   median {statistics.median(times):5.2f} s")
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser()
+    parser.add_argument("--repeat", type=int, default=5)
+    args = parser.parse_args()
+    with tempfile.TemporaryDirectory() as directory:
+        book = Path(directory) / "bench.xlsx"
+        build(book)
+        calc = f"import sys; from addin.cli import main; sys.exit(main(['calc', {str(book)!r}]))"
+        cases = [
+            ("import engine", "import engine"),
+            ("import engine; engine.air_conductivity(20.0)",
+             "import engine; engine.air_conductivity(20.0)"),
+            ("stillair calc (300 formulas)", calc),
+        ]
+        print(f"cold processes, {args.repeat} runs each")
+        for label, code in cases:
+            print(label)
+            report("shipped tables (CoolProp not imported)", wall(code, SHIPPED, args.repeat))
+            report("before: CoolProp at start-up, tables computed",
+                   wall(PRELOAD_COOLPROP + code, BEFORE, args.repeat))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
