@@ -33,6 +33,9 @@ def build_parser() -> argparse.ArgumentParser:
                       help="write a copy with formulas kept and cached values filled in")
     calc.add_argument("--json", action="store_true", help="print one JSON object")
 
+    from .audit import add_audit_parser
+    add_audit_parser(commands)
+
     functions = commands.add_parser("functions", help="list the cell functions")
     functions.add_argument("--markdown", action="store_true", help="markdown tables (as in README.md)")
 
@@ -208,6 +211,9 @@ def main(argv: list[str] | None = None) -> int:
         from .reference import reference_markdown, reference_text
         sys.stdout.write(reference_markdown() if args.markdown else reference_text())
         return 0
+    if args.command == "audit":
+        from .audit import run_audit
+        return run_audit(args)
     if args.command == "templates":
         return _templates(args)
     if args.command == "excel-setup":

@@ -23,6 +23,7 @@ os.environ.setdefault("TQDM_DISABLE", "1")  # formulas shows a progress bar whil
 
 from .cells import NoteRecorder, evaluate as evaluate_cell  # noqa: E402
 from .registry import REGISTRY  # noqa: E402
+from .safezip import guarded
 from .xlsx import Book, BookError, read_book, split_ref  # noqa: E402
 
 __all__ = ["register_functions", "rewrite_prefixes", "Evaluation", "evaluate_book", "parse_value",
@@ -206,7 +207,7 @@ def evaluate_book(path: str, sets: dict[str, str] | None = None) -> Evaluation:
         load_path = _prefixed_copy(book, directory) or book.path
         try:
             # formulas computes formulas without references (literals only) while loading.
-            with NoteRecorder() as load_recorder:
+            with NoteRecorder() as load_recorder, guarded():  # no links followed, no network
                 model = formulas.ExcelModel().loads(load_path).finish()
         except Exception as error:
             raise BookError(f"{path}: cannot evaluate this workbook ({type(error).__name__}: "
@@ -236,6 +237,8 @@ def evaluate_book(path: str, sets: dict[str, str] | None = None) -> Evaluation:
         if sheet is None:
             continue
         first = m.group("ref").split(":")[0].replace("$", "")
+        if not re.search(r"\d", first):  # a whole-column or whole-row range: its cells come singly
+            continue
         row0, col0 = split_ref(first)
         from .xlsx import index_to_col
         for i, row in enumerate(array):

@@ -125,6 +125,13 @@ def _open(path: str) -> zipfile.ZipFile:
         archive.close()
         raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and .xlsb "
                         "are not supported)")
+    from .safezip import UnsafeWorkbook, check_archive  # workbooks come from other people
+
+    try:
+        check_archive(archive, path)
+    except UnsafeWorkbook as error:
+        archive.close()
+        raise BookError(str(error)) from None
     return archive
 
 
