@@ -37,7 +37,7 @@ import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
 __all__ = ["TemplateBook", "Template", "TEMPLATE_DIR", "MARKER_NAME", "build_template", "TemplateBuildError",
-           "is_error_value"]
+           "is_error_value", "source_of"]
 
 TEMPLATE_DIR = Path(__file__).resolve().parents[1] / "templates"
 MARKER_NAME = "stillair_template"
@@ -326,6 +326,12 @@ class TemplateBook:
                                                           "bottom": 1, "bottom_color": _RULE})
         return self.formats[key]
 
+    @staticmethod
+    def column(sheet: str, first: int, last: int, col: int) -> str:
+        """An absolute reference "Sheet!$B$4:$B$9" to part of one column (chart series, sums)."""
+        return (f"{sheet}!{xl_rowcol_to_cell(first, col, row_abs=True, col_abs=True)}:"
+                f"{xl_rowcol_to_cell(last, col, row_abs=True, col_abs=True)}")
+
     def cell(self, sheet: str, row: int, col: int) -> str:
         """An absolute reference "Sheet!$B$4" for use in formulas and charts."""
         return f"{sheet}!{xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)}"
@@ -333,6 +339,13 @@ class TemplateBook:
     def close(self) -> None:
         self.sheets["Inputs"].worksheet.activate()
         self.workbook.close()
+
+
+def source_of(geometry: str, method: str) -> str:
+    """The published source of a registered correlation, for a template's Notes sheet."""
+    from engine.correlations import CORRELATIONS
+
+    return CORRELATIONS[(geometry, method)].source
 
 
 def build_template(template: Template, out_path: str | os.PathLike | None = None) -> Path:

@@ -22,7 +22,7 @@ import numpy as np
 
 from .correlations import nusselt
 from .groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
-from .validity import CorrelationRangeWarning, require_between, require_choice, require_positive, unwrap
+from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
 
 __all__ = [
     "ConvectionResult",
@@ -60,11 +60,7 @@ class ConvectionResult:
 
     @property
     def notes(self) -> list[str]:
-        seen: list[str] = []
-        for note in np.atleast_1d(self.note).ravel():
-            if note and note not in seen:
-                seen.append(note)
-        return seen
+        return distinct_notes(self.note)
 
     def scalar(self) -> "ConvectionResult":
         return ConvectionResult(**{name: unwrap(getattr(self, name)) for name in self.__dataclass_fields__})

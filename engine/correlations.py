@@ -46,6 +46,7 @@ from .validity import (
     require_choice,
     require_nonnegative,
     require_positive,
+    distinct_notes,
     unwrap,
 )
 
@@ -168,11 +169,7 @@ class NusseltResult:
     @property
     def notes(self) -> list[str]:
         """The distinct non-empty notes, in order of first appearance."""
-        seen: list[str] = []
-        for note in np.atleast_1d(self.note).ravel():
-            if note and note not in seen:
-                seen.append(note)
-        return seen
+        return distinct_notes(self.note)
 
 
 GEOMETRIES: dict[str, Geometry] = {}

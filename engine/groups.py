@@ -45,19 +45,18 @@ def buoyancy_groups(props, expansion, delta_t, length):
     return grashof_number, grashof_number * props.prandtl
 
 
+def _groups(function_name, t1, t2, length, gas, pressure, ideal_expansion):
+    length = require_positive(function_name, "length", length, "m")
+    props, _, beta = film_properties(t1, t2, gas, pressure, ideal_expansion=ideal_expansion,
+                                     function_name=function_name)
+    return buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)
+
+
 def grashof(t1, t2, length, gas="air", pressure=DEFAULT_PRESSURE, ideal_expansion=False):
     """Grashof number between temperatures t1 and t2 (°C) over ``length`` (m)."""
-    length = require_positive("grashof", "length", length, "m")
-    props, _, beta = film_properties(t1, t2, gas, pressure, ideal_expansion=ideal_expansion,
-                                     function_name="grashof")
-    gr, _ = buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)
-    return unwrap(gr)
+    return unwrap(_groups("grashof", t1, t2, length, gas, pressure, ideal_expansion)[0])
 
 
 def rayleigh(t1, t2, length, gas="air", pressure=DEFAULT_PRESSURE, ideal_expansion=False):
     """Rayleigh number between temperatures t1 and t2 (°C) over ``length`` (m)."""
-    length = require_positive("rayleigh", "length", length, "m")
-    props, _, beta = film_properties(t1, t2, gas, pressure, ideal_expansion=ideal_expansion,
-                                     function_name="rayleigh")
-    _, ra = buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)
-    return unwrap(ra)
+    return unwrap(_groups("rayleigh", t1, t2, length, gas, pressure, ideal_expansion)[1])

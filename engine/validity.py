@@ -32,6 +32,7 @@ __all__ = [
     "require_choice",
     "format_value",
     "unwrap",
+    "distinct_notes",
 ]
 
 ABSOLUTE_ZERO_C = -273.15
@@ -151,6 +152,11 @@ def require_choice(function: str, argument: str, value, choices) -> str:
 
 def _unit(unit: str) -> str:
     return f" {unit}" if unit else ""
+
+
+def distinct_notes(notes) -> list[str]:
+    """The distinct non-empty notes of a note array, in order of first appearance."""
+    return list(dict.fromkeys(note for note in np.atleast_1d(notes).ravel() if note))
 
 
 def unwrap(array):

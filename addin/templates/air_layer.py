@@ -24,11 +24,6 @@ DEFAULTS = dict(thickness=0.035, direction="horizontal", eps_warm=0.9, eps_cold=
                 layer_extent=2.6, pressure=101325.0)
 
 
-def _column(sheet: str, first: int, last: int, col: int) -> str:
-    return (f"{sheet}!{xl_rowcol_to_cell(first, col, row_abs=True, col_abs=True)}:"
-            f"{xl_rowcol_to_cell(last, col, row_abs=True, col_abs=True)}")
-
-
 def iso_h_a_formula(d: str) -> str:
     """The standard's convective coefficient by direction, d the thickness reference (from memory)."""
     return (f'IF(direction="up",MAX(1.95,0.025/{d}),IF(direction="horizontal",MAX(1.25,0.025/{d}),'
@@ -107,11 +102,11 @@ def build(b: TemplateBook) -> None:
     first, _, last, _ = b.table("Results", ["thickness mm", "R correlations m²·K/W", "R simplified m²·K/W"],
                                 rows, name="thickness_sweep")
     assert first == start
-    series = [{"name": "correlations + radiation", "categories": "=" + _column("Results", first, last, 0),
-               "values": "=" + _column("Results", first, last, 1), "line": {"color": "#3E5C76", "width": 1.75},
+    series = [{"name": "correlations + radiation", "categories": "=" + TemplateBook.column("Results", first, last, 0),
+               "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": "#3E5C76", "width": 1.75},
                "marker": {"type": "circle", "size": 4, "fill": {"color": "#3E5C76"}}},
-              {"name": "standard, simplified", "categories": "=" + _column("Results", first, last, 0),
-               "values": "=" + _column("Results", first, last, 2), "line": {"color": "#C98B2B", "width": 1.75,
+              {"name": "standard, simplified", "categories": "=" + TemplateBook.column("Results", first, last, 0),
+               "values": "=" + TemplateBook.column("Results", first, last, 2), "line": {"color": "#C98B2B", "width": 1.75,
                                                                             "dash_type": "dash"},
                "marker": {"type": "square", "size": 4, "fill": {"color": "#C98B2B"}}}]
     b.chart("Results", "scatter", "Air-layer resistance against thickness", series, "thickness, mm (log scale)",

@@ -63,11 +63,6 @@ def network_rows(panes: int) -> list[list]:
     return rows + [[None] * len(BRANCH_HEADER)] * (11 - len(rows))
 
 
-def _column(b: TemplateBook, sheet: str, first: int, last: int, col: int) -> str:
-    return (f"{sheet}!{xl_rowcol_to_cell(first, col, row_abs=True, col_abs=True)}:"
-            f"{xl_rowcol_to_cell(last, col, row_abs=True, col_abs=True)}")
-
-
 def build(b: TemplateBook) -> None:
     d = DEFAULTS
     # ------------------------------------------------------------------ Inputs
@@ -215,8 +210,8 @@ def build(b: TemplateBook) -> None:
     first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], profile,
                                 name="glz_profile", col=1)
     b.chart("Calculation", "scatter", "Temperature through the unit, actual conditions (b)",
-            [{"name": "temperature", "categories": "=" + _column(b, "Calculation", first, last, 2),
-              "values": "=" + _column(b, "Calculation", first, last, 3),
+            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 2),
+              "values": "=" + TemplateBook.column("Calculation", first, last, 3),
               "marker": {"type": "circle", "size": 5}}],
             "position from the outdoor face, mm", "temperature, °C",
             xl_rowcol_to_cell(first - 12, 6), subtype="straight_with_markers")
@@ -269,10 +264,10 @@ def build(b: TemplateBook) -> None:
     first, _, last, _ = b.table("Results", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
                                 name="gap_sweep")
     assert first == start
-    gaps = _column(b, "Results", first, last, 0)
+    gaps = TemplateBook.column("Results", first, last, 0)
     optimum_rows = []
     for j, gas in enumerate(SWEEP_GASES, start=1):
-        u = _column(b, "Results", first, last, j)
+        u = TemplateBook.column("Results", first, last, j)
         optimum_rows.append([gas, f"=SUMPRODUCT(({u}=MIN({u}))*{gaps})/SUMPRODUCT(({u}=MIN({u}))*1)",
                              f"=MIN({u})"])
     b.blank("Results")
@@ -282,13 +277,13 @@ def build(b: TemplateBook) -> None:
     palette = {"air": "#7A8C99", "argon": "#3E5C76", "krypton": "#C98B2B"}
     for j, gas in enumerate(SWEEP_GASES, start=1):
         series.append({"name": gas, "categories": "=" + gaps,
-                       "values": "=" + _column(b, "Results", first, last, j),
+                       "values": "=" + TemplateBook.column("Results", first, last, j),
                        "line": {"color": palette[gas], "width": 1.75}, "marker": {"type": "none"}})
     for j, gas in enumerate(SWEEP_GASES):
         row = o_first + j
         series.append({"name": f"optimum {gas}",
-                       "categories": "=" + _column(b, "Results", row, row, 1),
-                       "values": "=" + _column(b, "Results", row, row, 2),
+                       "categories": "=" + TemplateBook.column("Results", row, row, 1),
+                       "values": "=" + TemplateBook.column("Results", row, row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
                                   "border": {"color": "#23313F"}}})

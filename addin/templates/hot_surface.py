@@ -9,9 +9,8 @@ independent sub-network per thickness), solved together by the network solver.
 
 from __future__ import annotations
 
-from engine import CORRELATIONS
 
-from ..templatebook import Template
+from ..templatebook import Template, source_of
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
@@ -39,10 +38,6 @@ def insulated_branch_rows(rows):
 
 def boundary_rows(hot, ambient, surroundings):
     return [["hot", "T", hot], ["ambient", "T", ambient], ["surroundings", "T", surroundings]]
-
-
-def _source(geometry: str, method: str) -> str:
-    return CORRELATIONS[(geometry, method)].source
 
 
 def build(b) -> None:
@@ -224,10 +219,10 @@ def build(b) -> None:
                 "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
                 "an independent sub-network in one branch table.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Horizontal cylinder, Churchill-Chu: " + _source("hcyl", "churchill-chu"))
-    b.paragraph("Vertical face, Churchill-Chu: " + _source("vplate", "churchill-chu"))
-    b.paragraph("Horizontal top (hot, facing up), Lloyd-Moran: " + _source("hplate", "lloyd-moran"))
-    b.paragraph("Horizontal bottom (hot, facing down), Raithby-Hollands: " + _source("hplate", "raithby-hollands"))
+    b.paragraph("Horizontal cylinder, Churchill-Chu: " + source_of("hcyl", "churchill-chu"))
+    b.paragraph("Vertical face, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
+    b.paragraph("Horizontal top (hot, facing up), Lloyd-Moran: " + source_of("hplate", "lloyd-moran"))
+    b.paragraph("Horizontal bottom (hot, facing down), Raithby-Hollands: " + source_of("hplate", "raithby-hollands"))
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7.")
     b.section("Notes", "Assumptions")

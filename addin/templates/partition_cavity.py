@@ -9,9 +9,8 @@ single pass is off.
 
 from __future__ import annotations
 
-from engine import CORRELATIONS
 
-from ..templatebook import Template
+from ..templatebook import Template, source_of
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]
@@ -38,10 +37,6 @@ def branch_rows(*, height, area, board_t, board_k, gap, eps_room, eps_cav_warm, 
 
 def boundary_rows(warm, cold):
     return [["warm_air", "T", warm], ["cold_air", "T", cold]]
-
-
-def _source(geometry: str, method: str) -> str:
-    return CORRELATIONS[(geometry, method)].source
 
 
 def build(b) -> None:
@@ -208,13 +203,13 @@ def build(b) -> None:
                 "network; the temperatures it implies differ from the guesses, which is the sign that a "
                 "second pass was needed.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Room-side faces, Churchill-Chu: " + _source("vplate", "churchill-chu"))
+    b.paragraph("Room-side faces, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
     b.paragraph("Cavity, ElSherbiny-Raithby-Hollands (auto's choice for tall vertical air layers): "
-                + _source("cavity", "elsherbiny"))
-    b.paragraph("Cavity, Wright (selectable): " + _source("cavity", "wright"))
-    b.paragraph("Cavity, Catton (selectable): " + _source("cavity", "catton"))
-    b.paragraph("Cavity, MacGregor-Emery (selectable; Pr range excludes air): " + _source("cavity", "macgregor-emery"))
-    b.paragraph("Cavity, conduction limit: " + _source("cavity", "conduction"))
+                + source_of("cavity", "elsherbiny"))
+    b.paragraph("Cavity, Wright (selectable): " + source_of("cavity", "wright"))
+    b.paragraph("Cavity, Catton (selectable): " + source_of("cavity", "catton"))
+    b.paragraph("Cavity, MacGregor-Emery (selectable; Pr range excludes air): " + source_of("cavity", "macgregor-emery"))
+    b.paragraph("Cavity, conduction limit: " + source_of("cavity", "conduction"))
     b.paragraph("Radiation: grey parallel surfaces across the cavity, F = 1/(1/eps1 + 1/eps2 - 1), and a grey "
                 "surface in large surroundings on the room sides; Incropera et al., Fundamentals of Heat and "
                 "Mass Transfer, 6th ed., eqs. 1.7 and 13.24.")

@@ -10,9 +10,8 @@ limit.
 
 from __future__ import annotations
 
-from engine import CORRELATIONS
 
-from ..templatebook import Template
+from ..templatebook import Template, source_of
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
@@ -45,10 +44,6 @@ def boundary_rows(*, dissipation, sun_side, sun_top, ambient, sky):
         ["ambient", "T", ambient],
         ["sky", "T", sky],
     ]
-
-
-def _source(geometry: str, method: str) -> str:
-    return CORRELATIONS[(geometry, method)].source
 
 
 def build(b) -> None:
@@ -203,13 +198,13 @@ def build(b) -> None:
                 "coefficients with H_VPLATE, H_HPLATE and H_RAD from the solved temperatures so a checker "
                 "can follow each one.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Vertical faces, Churchill-Chu: " + _source("vplate", "churchill-chu"))
-    b.paragraph("Vertical faces, Churchill-Chu laminar form (selectable): " + _source("vplate", "churchill-chu-laminar"))
-    b.paragraph("Vertical faces, McAdams (selectable): " + _source("vplate", "mcadams"))
+    b.paragraph("Vertical faces, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
+    b.paragraph("Vertical faces, Churchill-Chu laminar form (selectable): " + source_of("vplate", "churchill-chu-laminar"))
+    b.paragraph("Vertical faces, McAdams (selectable): " + source_of("vplate", "mcadams"))
     b.paragraph("Top, outer face heated facing up and inner face cooled facing down, Lloyd-Moran: "
-                + _source("hplate", "lloyd-moran"))
+                + source_of("hplate", "lloyd-moran"))
     b.paragraph("Horizontal faces in the opposite case (e.g. a top cooler than the air around it), "
-                "Raithby-Hollands: " + _source("hplate", "raithby-hollands"))
+                "Raithby-Hollands: " + source_of("hplate", "raithby-hollands"))
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7 and 13.27 "
                 "(small surface in a large enclosure).")
