@@ -53,6 +53,9 @@ _SAGE = "#E3EEDF"
 _RULE = "#B8C4CE"
 _CAUTION = "#F6DCD5"
 
+# Columns of each sheet's row layout (label | value | unit | note, with a step number on Calculation).
+_SHEET_WIDTHS = {"Inputs": 4, "Calculation": 5, "Results": 4, "Notes": 1}
+
 _NAME_RE = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 
 
@@ -105,6 +108,11 @@ class TemplateBook:
         for name in self.SHEETS:
             worksheet = self.workbook.add_worksheet(name)
             worksheet.hide_gridlines(2)
+            # Checkers print these: A4 landscape, every column on the page width.
+            worksheet.set_paper(9)
+            worksheet.set_landscape()
+            worksheet.fit_to_pages(1, 0)
+            worksheet.set_footer(f"&L{template.title} - &A&R&P / &N")
             self.sheets[name] = _SheetState(worksheet)
         self._lay_out_columns()
         self._title_block()
@@ -133,6 +141,7 @@ class TemplateBook:
             "step": add({**base, "font_color": _SLATE, "align": "center"}),
             "header": add({**base, "bold": True, "bottom": 2, "bottom_color": _SLATE}),
             "cell": add({**base, "num_format": "General"}),
+            "table_value": add({**base, "num_format": "0.000"}),
             "paragraph": add({**base, "text_wrap": True, "valign": "top"}),
             "caution": add({**base, "text_wrap": True, "valign": "top", "bg_color": _CAUTION, "bold": True}),
         }
@@ -172,7 +181,7 @@ class TemplateBook:
         """A heading bar starting a group of rows."""
         state = self.sheets[sheet]
         state.row += 1
-        width = {"Inputs": 4, "Calculation": 5, "Results": 4, "Notes": 1}[sheet]
+        width = _SHEET_WIDTHS[sheet]
         for col in range(width):
             state.worksheet.write_blank(state.row, col, None, self.formats["section"])
         state.worksheet.write(state.row, 0, title, self.formats["section"])
@@ -237,7 +246,12 @@ class TemplateBook:
     def caution(self, sheet: str, text: str) -> None:
         """A caution line on any sheet (and the Notes sheet gets it through :meth:`paragraph`)."""
         state = self.sheets[sheet]
-        state.worksheet.write(state.row, 0, text, self.formats["caution"])
+        last_col = _SHEET_WIDTHS[sheet] - 1
+        if last_col > 0:
+            state.worksheet.merge_range(state.row, 0, state.row, last_col, text, self.formats["caution"])
+        else:
+            state.worksheet.write(state.row, 0, text, self.formats["caution"])
+        state.worksheet.set_row(state.row, 14 * (len(text) // 110 + 1))
         state.row += 1
 
     def blank(self, sheet: str, rows: int = 1) -> None:
@@ -310,7 +324,7 @@ class TemplateBook:
         if value is None:
             return
         if isinstance(value, str) and value.startswith("="):
-            ws.write_formula(row, col, value, self.formats["cell"])
+            ws.write_formula(row, col, value, self.formats["table_value"])
         elif isinstance(value, str):
             ws.write_string(row, col, value, self.formats["cell"])
         else:
