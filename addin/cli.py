@@ -174,7 +174,9 @@ def _print_results(rows) -> None:
         if value is None:
             print(f"  {label}")
         else:
-            print(f"    {label:<{width}}  {_format(value):>12}  {unit}")
+            shown = _format(value)
+            print(f"    {label:<{width}}  {shown:<12}" if isinstance(value, str)
+                  else f"    {label:<{width}}  {shown:>12}  {unit}".rstrip())
 
 
 def _templates(args) -> int:
