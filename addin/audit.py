@@ -33,7 +33,6 @@ import re
 import sys
 import tempfile
 import time
-import zipfile
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
@@ -472,7 +471,7 @@ def _label(sheet: str, ref: str) -> str:
 def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.PathLike | None = None
                ) -> AuditResult:
     """Audit ``path``; raises :class:`AuditError` when it cannot be read."""
-    from .safezip import UnsafeWorkbook, guarded, open_package
+    from .safezip import UnsafeWorkbook, open_package
     from .xlsx import BookError, read_book, split_ref
 
     if not (rtol >= 0):
@@ -499,15 +498,16 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     timing = {"read": read_done - started}
     evaluation = None
     if checked:
-        from .headless import evaluate_book
+        from .headless import ANY_PREFIX_RE, evaluate_book, prefix_free_copy
         formulas_log = logging.getLogger("formulas")
         level = formulas_log.level
         formulas_log.setLevel(logging.CRITICAL)  # it logs refused external links as warnings
         needs_copy = any(c.unknown and c.prefix for cell in graph.formula_cells.values()
                          for c in calls_in(cell.formula))
         try:
-            with guarded(), tempfile.TemporaryDirectory(prefix="stillair-audit-") as directory:
-                load = _without_foreign_prefixes(path, book, directory) if needs_copy else path
+            # evaluate_book runs under safezip.guarded(): offline, no linked workbooks.
+            with tempfile.TemporaryDirectory(prefix="stillair-audit-") as directory:
+                load = (prefix_free_copy(book, directory, ANY_PREFIX_RE) or path) if needs_copy else path
                 try:
                     evaluation = evaluate_book(load)
                 except (UnsafeWorkbook, BookError) as error:
@@ -536,25 +536,6 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     timing["classify"] = time.perf_counter() - classify_started
     result.timing = timing
     return result
-
-
-# An add-in prefix before any function name: headless rewrites it for our names; for the others
-# (unknown functions, already reported) it is dropped too, so that they load as #NAME?.
-_ANY_PREFIX = re.compile(rb"(?:\[\d+\]!|'[^'<>]*?\.xla[m]?'!|&apos;[^<>]*?\.xla[m]?&apos;!"
-                         rb"|[\w.-]+\.xla[m]?!|_xll\.|_xludf\.)(?=[A-Za-z_][\w.]*\s*\()", re.I)
-
-
-def _without_foreign_prefixes(path: str, book, directory: str) -> str:
-    """A copy of the (already checked) workbook in ``directory`` with add-in prefixes removed."""
-    parts = {s.part for s in book.sheets} | {"xl/workbook.xml"}
-    target = os.path.join(directory, os.path.basename(path))
-    with zipfile.ZipFile(path) as source, zipfile.ZipFile(target, "w") as copy:
-        for info in source.infolist():
-            data = source.read(info)
-            if info.filename in parts:
-                data = _ANY_PREFIX.sub(b"", data)
-            copy.writestr(info, data, compress_type=info.compress_type)
-    return target
 
 
 def _classify(result, graph, cells, checked, evaluation, rtol, version) -> None:

@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import contextlib
 import warnings
-from collections import OrderedDict
 
 
 from .coerce import CellInputError, describe, to_cell_table, to_cell_value, to_number, to_table, to_text
@@ -88,38 +87,17 @@ def _coerce(entry: CellFunction, raw: tuple) -> dict:
     return kwargs
 
 
-# One solve per distinct network: NET_SOLVE, NET_TEMP, NET_HEAT and NET_CHECK on the same tables
-# share it.  Range notes are stored with the result and re-issued on every hit.
-_SOLVE_CACHE: "OrderedDict[tuple, tuple[object, list[str]]]" = OrderedDict()
-_SOLVE_CACHE_SIZE = 32
-
-
-def _freeze(value):
-    if isinstance(value, (list, tuple)):
-        return tuple(_freeze(v) for v in value)
-    return value
-
-
-def _cached(function):
+def _noting_result_notes(function):
+    """Report a network result's range notes like a correlation's warnings, so every cell that
+    uses the solve (NET_SOLVE, NET_TEMP, ...) carries them.  The engine caches the solve itself:
+    the cells of one network share it."""
     from engine.validity import CorrelationRangeWarning
 
     def solve(**kwargs):
-        key = (function.__qualname__, tuple(sorted((k, _freeze(v)) for k, v in kwargs.items())))
-        hit = _SOLVE_CACHE.get(key)
-        if hit is None:
-            with warnings.catch_warnings(record=True) as caught:
-                warnings.simplefilter("always", CorrelationRangeWarning)
-                result = function(**kwargs)
-            notes = [str(w.message) for w in caught if issubclass(w.category, CorrelationRangeWarning)]
-            notes += [str(n) for n in getattr(result, "notes", ()) if n and str(n) not in notes]
-            hit = _SOLVE_CACHE[key] = (result, notes)
-            while len(_SOLVE_CACHE) > _SOLVE_CACHE_SIZE:
-                _SOLVE_CACHE.popitem(last=False)
-        else:
-            _SOLVE_CACHE.move_to_end(key)
-        for note in hit[1]:
-            warnings.warn(note, CorrelationRangeWarning, stacklevel=2)
-        return hit[0]
+        result = function(**kwargs)
+        for note in getattr(result, "notes", ()):
+            warnings.warn(str(note), CorrelationRangeWarning, stacklevel=2)
+        return result
 
     return solve
 
@@ -151,7 +129,7 @@ def evaluate(entry: CellFunction, *raw):
                 value = target
             else:
                 if any(a.kind == "table" for a in entry.args):
-                    target = _cached(target)
+                    target = _noting_result_notes(target)
                 value = entry.invoke(target, kwargs) if entry.invoke else target(**kwargs)
         for warning in caught:
             if issubclass(warning.category, CorrelationRangeWarning):

@@ -26,14 +26,19 @@ from .registry import REGISTRY  # noqa: E402
 from .safezip import guarded
 from .xlsx import Book, BookError, read_book, split_ref  # noqa: E402
 
-__all__ = ["register_functions", "rewrite_prefixes", "Evaluation", "evaluate_book", "parse_value",
+__all__ = ["register_functions", "rewrite_prefixes", "prefix_free_copy", "PREFIX_RE", "ANY_PREFIX_RE", "Evaluation", "evaluate_book", "parse_value",
            "resolve_target"]
 
 _OUR_NAMES = "|".join(sorted((re.escape(f.name) for f in REGISTRY), key=len, reverse=True))
+# The forms Excel writes an add-in function's call in, before its name: "[1]!", "'...xlam'!"
+# (quotes escaped in the XML or not), "file.xlam!", "_xll." and "_xludf.".
+_ADDIN_PREFIX = (r"(?:\[\d+\]!|'[^'<>]*?\.xla[m]?'!|&apos;[^<>]*?\.xla[m]?&apos;!|[\w.-]+\.xla[m]?!"
+                 r"|_xll\.|_xludf\.)")
 # An add-in prefix directly before one of our names and its opening parenthesis.
-PREFIX_RE = re.compile(
-    r"(?:\[\d+\]!|'[^'<>]*?\.xla[m]?'!|&apos;[^<>]*?\.xla[m]?&apos;!|[\w.-]+\.xla[m]?!"
-    r"|_xll\.|_xludf\.)(?=(?:" + _OUR_NAMES + r")\s*\()", re.I)
+PREFIX_RE = re.compile(_ADDIN_PREFIX + r"(?=(?:" + _OUR_NAMES + r")\s*\()", re.I)
+# An add-in prefix before any function name (the audit also strips unknown ones, which then
+# load as #NAME? instead of stopping the load).
+ANY_PREFIX_RE = re.compile(_ADDIN_PREFIX + r"(?=[A-Za-z_][\w.]*\s*\()", re.I)
 
 _registered = False
 
@@ -60,19 +65,20 @@ def register_functions() -> None:
     _registered = True
 
 
-def rewrite_prefixes(xml: bytes) -> bytes:
-    """Remove add-in prefixes from calls of our functions in a part's XML."""
-    return PREFIX_RE.sub("", xml.decode("utf-8")).encode("utf-8")
+def rewrite_prefixes(xml: bytes, pattern: re.Pattern = PREFIX_RE) -> bytes:
+    """Remove add-in prefixes (by default of our functions' calls) from a part's XML."""
+    return pattern.sub("", xml.decode("utf-8")).encode("utf-8")
 
 
-def _prefixed_copy(book: Book, directory: str) -> str | None:
-    """Copy of the workbook with the prefixes rewritten, or None when nothing needs it."""
+def prefix_free_copy(book: Book, directory: str, pattern: re.Pattern = PREFIX_RE) -> str | None:
+    """Copy of the workbook in ``directory`` with the add-in prefixes that ``pattern`` finds
+    removed from its sheets and names, or None when nothing needs it."""
     parts = [s.part for s in book.sheets] + ["xl/workbook.xml"]
     with zipfile.ZipFile(book.path) as source:
         changed = {}
         for part in parts:
             data = source.read(part)
-            new = rewrite_prefixes(data)
+            new = rewrite_prefixes(data, pattern)
             if new != data:
                 changed[part] = new
         if not changed:
@@ -204,7 +210,7 @@ def evaluate_book(path: str, sets: dict[str, str] | None = None) -> Evaluation:
     register_functions()
     sheet_names = {s.name.upper(): s.name for s in book.sheets}
     with tempfile.TemporaryDirectory(prefix="stillair-calc-") as directory:
-        load_path = _prefixed_copy(book, directory) or book.path
+        load_path = prefix_free_copy(book, directory) or book.path
         try:
             # formulas computes formulas without references (literals only) while loading.
             with NoteRecorder() as load_recorder, guarded():  # no links followed, no network

@@ -243,6 +243,10 @@ class TemplateBook:
         state.worksheet.write(state.row, 0, text, self.formats["caution" if caution else "paragraph"])
         state.row += 1
 
+    def cite(self, label: str, geometry: str, method: str) -> None:
+        """A Notes paragraph "label: source" for a registered correlation the template uses."""
+        self.paragraph(f"{label}: {source_of(geometry, method)}")
+
     def caution(self, sheet: str, text: str) -> None:
         """A caution line on any sheet (and the Notes sheet gets it through :meth:`paragraph`)."""
         state = self.sheets[sheet]

@@ -20,7 +20,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .correlations import nusselt
+from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt
 from .groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
 from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
 
@@ -36,6 +36,7 @@ __all__ = [
     "h_vcyl",
     "h_cavity",
     "FACINGS",
+    "plate_case",
 ]
 
 FACINGS = ("up", "down")
@@ -66,7 +67,7 @@ class ConvectionResult:
         return ConvectionResult(**{name: unwrap(getattr(self, name)) for name in self.__dataclass_fields__})
 
 
-def _plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
+def plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
     """hot-up / hot-down / cold-up / cold-down from the facing and the sign of Ts - Tf.
 
     At delta T = 0 every case gives the same Ra = 0 limit; "hot" is used by convention.
@@ -75,32 +76,15 @@ def _plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
     return np.where(delta_t >= 0, f"hot-{facing}", f"cold-{facing}").astype(object).reshape(delta_t.shape)
 
 
-_SURFACE_GEOMETRIES = {
-    # geometry: (name of its length argument, needs facing, needs tilt)
-    "vplate": ("height", False, False),
-    "hplate": ("length", True, False),
-    "tplate": ("length", True, True),
-    "hcyl": ("diameter", False, False),
-    "sphere": ("diameter", False, False),
-    "vcyl": ("height", False, False),
-}
+# The name of each surface geometry's length argument (its inputs and cases are registry data).
+_LENGTH_NAMES = {"vplate": "height", "hplate": "length", "tplate": "length", "hcyl": "diameter",
+                 "sphere": "diameter", "vcyl": "height"}
 
 
 def _full(array, shape):
     """``array`` broadcast to ``shape``, without a new view when it already has it (hot path)."""
     array = np.asarray(array)
     return array if array.shape == shape else np.broadcast_to(array, shape)
-
-
-def _collect(results, shape):
-    """Merge per-case NusseltResults (mask, result) into full arrays."""
-    nu = np.empty(shape)
-    method = np.empty(shape, dtype=object)
-    note = np.empty(shape, dtype=object)
-    in_range = np.empty(shape, dtype=bool)
-    for mask, result in results:
-        nu[mask], method[mask], note[mask], in_range[mask] = result.nu, result.method, result.note, result.in_range
-    return nu, method, note, in_range
 
 
 def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, tilt=None, diameter=None,
@@ -114,7 +98,8 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     ``diameter`` for vertical cylinders.
     """
     function_name = function_name or f"h_{geometry}"
-    length_name, needs_facing, needs_tilt = _SURFACE_GEOMETRIES[geometry]
+    geo = GEOMETRIES[geometry]
+    length_name = _LENGTH_NAMES[geometry]
     length = require_positive(function_name, length_name, length, "m")
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
@@ -124,30 +109,31 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     shape = np.broadcast(ra, props.prandtl).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
-    if needs_tilt:
-        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, 0.0, 90.0, "deg"), shape)
+    if "tilt" in geo.inputs:
+        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg"), shape)
     if geometry == "vcyl":
         diameter = require_positive(function_name, "diameter", diameter, "m")
         inputs["slenderness"] = _full(length / diameter, shape)
-    if needs_facing:
+    if geo.cases:
         facing = require_choice(function_name, "facing", facing, FACINGS)
-        case = _plate_case(facing, _full(delta_t, shape))
-        parts = []
-        for case_name in dict.fromkeys(case.ravel()):
-            mask = case == case_name
-            parts.append((mask, nusselt(geometry, method, case_name, function_name=function_name,
-                                        **{k: v[mask] for k, v in inputs.items()})))
-        nu, chosen, note, in_range = _collect(parts, shape)
+        case = plate_case(facing, _full(delta_t, shape))
+        cases = list(dict.fromkeys(case.ravel()))
+        if len(cases) == 1:
+            result = nusselt(geometry, method, cases[0], function_name=function_name, **inputs)
+        else:
+            result = merge_masked(NusseltResult, [
+                (mask, nusselt(geometry, method, name, function_name=function_name,
+                               **{k: v[mask] for k, v in inputs.items()}))
+                for name, mask in ((name, case == name) for name in cases)], shape)
     else:
         case = np.full(shape, "", dtype=object)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
-        nu, chosen, note, in_range = result.nu, result.method, result.note, result.in_range
-    h = nu * props.conductivity / length
-    return ConvectionResult(h=h, nu=nu, ra=ra, gr=_full(gr, shape), pr=pr,
+    h = result.nu * props.conductivity / length
+    return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
-                            length=_full(length, shape), method=chosen, case=case,
-                            in_range=in_range, note=note)
+                            length=_full(length, shape), method=result.method, case=case,
+                            in_range=result.in_range, note=result.note)
 
 
 def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",

@@ -62,6 +62,7 @@ __all__ = [
     "methods_for",
     "nusselt",
     "nusselt_value",
+    "merge_masked",
     "PLATE_CASES",
 ]
 
@@ -91,6 +92,9 @@ class Geometry:
     fallback: Mapping[str | None, str | Callable[[Mapping[str, np.ndarray]], np.ndarray]] = field(
         default_factory=dict)
     floor: float | None = None
+    # Allowed tilt (degrees) where tilt is an input: cavities 0-180 from the horizontal,
+    # tilted plates 0-90 from the vertical.
+    tilt_range: tuple[float, float] = (0.0, 180.0)
 
 
 @dataclass(frozen=True)
@@ -137,7 +141,7 @@ class Correlation:
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
-    """``f"{method}: {bound.violation(v)} (valid {bound.describe()})"`` for each value, vectorised.
+    """``"{method}: {quantity} = {value} below|above {bound} (valid {range})"`` per value, vectorised.
 
     Formatting one note per element in a Python loop made a million out-of-range values cost
     seconds; only the number changes from note to note, so it alone is formatted per element.
@@ -218,14 +222,13 @@ def get_correlation(geometry: str, method: str) -> Correlation:
         raise KeyError(f"no correlation {method!r} for {geometry}") from None
 
 
-_INPUT_CHECKS: dict[str, Callable[[str, np.ndarray], np.ndarray]] = {
-    "ra": lambda fn, v: require_nonnegative(fn, "Ra", v),
-    "pr": lambda fn, v: require_positive(fn, "Pr", v),
-    "aspect": lambda fn, v: require_positive(fn, "aspect", v),
-    "slenderness": lambda fn, v: require_positive(fn, "slenderness", v),
-    "tilt": lambda fn, v: require_between(fn, "tilt", v, 0.0, 180.0, "deg"),
+_INPUT_CHECKS: dict[str, Callable[[str, np.ndarray, Geometry], np.ndarray]] = {
+    "ra": lambda fn, v, geo: require_nonnegative(fn, "Ra", v),
+    "pr": lambda fn, v, geo: require_positive(fn, "Pr", v),
+    "aspect": lambda fn, v, geo: require_positive(fn, "aspect", v),
+    "slenderness": lambda fn, v, geo: require_positive(fn, "slenderness", v),
+    "tilt": lambda fn, v, geo: require_between(fn, "tilt", v, *geo.tilt_range, "deg"),
 }
-_PLATE_TILT_CHECK = lambda fn, v: require_between(fn, "tilt", v, 0.0, 90.0, "deg")
 
 
 def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, object]) -> dict:
@@ -233,8 +236,7 @@ def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, ob
     for name in geometry.inputs:
         if name not in raw:
             raise InputError(function_name, name, None, "given")
-        check = _PLATE_TILT_CHECK if (geometry.name == "tplate" and name == "tilt") else _INPUT_CHECKS[name]
-        inputs[name] = check(function_name, raw[name])
+        inputs[name] = _INPUT_CHECKS[name](function_name, raw[name], geometry)
     arrays = np.broadcast_arrays(*inputs.values())
     return {name: array for name, array in zip(inputs, arrays)}
 
@@ -276,25 +278,48 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         chosen = np.full(shape, method, dtype=object)
 
-    nu = np.empty(shape, dtype=float)
-    notes = np.full(shape, "", dtype=object)
-    in_range = np.ones(shape, dtype=bool)
-    for name in dict.fromkeys(chosen.ravel()):
-        corr = CORRELATIONS[(geometry, name)]
-        mask = chosen == name
-        subset = {k: v[mask] for k, v in arrays.items()}
-        args = dict(subset, case=case) if geo.cases else subset
-        nu[mask] = np.asarray(corr.function(**args), dtype=float)
-        sub_notes = corr.notes_for(subset, case)
-        notes[mask] = sub_notes
-        in_range[mask] = sub_notes == ""
+    names = list(dict.fromkeys(chosen.ravel()))
+    if not names:  # empty inputs
+        result = NusseltResult(nu=np.empty(shape), method=chosen, in_range=np.ones(shape, dtype=bool),
+                               note=np.full(shape, "", dtype=object))
+    elif len(names) == 1:  # the usual case: one correlation, no masks to build
+        flat = {k: v.ravel() for k, v in arrays.items()}  # 1-D like the masked path: same bits
+        part = _evaluate_one(geo, names[0], case, flat, chosen.ravel())
+        result = NusseltResult(nu=part.nu.reshape(shape), method=chosen, in_range=part.in_range.reshape(shape),
+                               note=part.note.reshape(shape))
+    else:
+        result = merge_masked(NusseltResult, [
+            (mask, _evaluate_one(geo, name, case, {k: v[mask] for k, v in arrays.items()}, chosen[mask]))
+            for name, mask in ((name, chosen == name) for name in names)], shape)
     if geo.floor is not None:
-        nu = np.maximum(nu, geo.floor)
-    result = NusseltResult(nu=nu, method=chosen, in_range=in_range, note=notes)
-    if warn and not np.all(in_range):
+        result.nu = np.maximum(result.nu, geo.floor)
+    if warn and not np.all(result.in_range):
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return result
+
+
+def _evaluate_one(geo: Geometry, method: str, case, arrays, chosen) -> NusseltResult:
+    """One correlation on inputs it was chosen for (before the geometry's floor)."""
+    corr = CORRELATIONS[(geo.name, method)]
+    args = dict(arrays, case=case) if geo.cases else arrays
+    nu = np.asarray(corr.function(**args), dtype=float)
+    notes = corr.notes_for(arrays, case)
+    return NusseltResult(nu=np.broadcast_to(nu, chosen.shape).copy(), method=chosen,
+                         in_range=np.asarray(notes == ""), note=notes)
+
+
+def merge_masked(result_type, parts, shape):
+    """One result of ``result_type`` (a dataclass of arrays) from ``(mask, part)`` pairs that
+    together cover ``shape``; each field keeps the dtype of the first part's field."""
+    fields = {}
+    for name in result_type.__dataclass_fields__:
+        sample = np.asarray(getattr(parts[0][1], name))
+        merged = np.empty(shape, dtype=sample.dtype if sample.dtype != object else object)
+        for mask, part in parts:
+            merged[mask] = getattr(part, name)
+        fields[name] = merged
+    return result_type(**fields)
 
 
 def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inputs):

@@ -46,10 +46,6 @@ def _cos_tilt(inputs):
     return inputs["ra"] * np.cos(np.radians(inputs["tilt"]))
 
 
-def _sin_tilt(inputs):
-    return inputs["ra"] * np.sin(np.radians(inputs["tilt"]))
-
-
 # --------------------------------------------------------------------------------------------
 # Vertical plate
 # --------------------------------------------------------------------------------------------
@@ -197,7 +193,7 @@ def nu_hplate(ra, pr, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="tplate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES,
+    name="tplate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
     description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
                 "whether it is hotter or colder than the fluid. Ra on the one length the caller "
                 "gives: the length along the slope for the vertical-plate term; the horizontal "

@@ -64,7 +64,7 @@ from typing import Mapping
 import numpy as np
 from scipy.constants import zero_Celsius
 
-from .correlations import GEOMETRIES, methods_for
+from .correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for
 from .radiation import SIGMA, exchange_factor
 from .validity import ABSOLUTE_ZERO_C, InputError, StillairError, format_value
 
@@ -564,7 +564,7 @@ def _finite_step(delta_t: np.ndarray) -> np.ndarray:
 
 def _convect(net: _Network, group: _Group, t1, t2, tile: int):
     """ConvectionResult for the group at surface/underside temperatures t1 and t2."""
-    from .convection import cavity_convection, surface_convection
+    from .convection import ConvectionResult, cavity_convection, plate_case, surface_convection
 
     length = np.tile(group.length, tile)
     net.property_evaluations += len(t1)
@@ -584,8 +584,9 @@ def _convect(net: _Network, group: _Group, t1, t2, tile: int):
     # A method chosen for a plate may serve only some cases (hot-up...); while the solution
     # moves, the other cases use "auto" and the branch is flagged.  A flag left at the
     # converged solution is an error (see _check_methods).
-    case_word = np.where(np.subtract(t1, t2) >= 0, "hot-", "cold-")
-    served = np.array([group.method in methods_for(geometry, w + group.facing) for w in case_word])
+    served_cases = CORRELATIONS[(geometry, group.method)].cases
+    served = np.isin(plate_case(group.facing, np.subtract(t1, t2)), served_cases) if served_cases \
+        else np.ones(len(t1), dtype=bool)
     if served.all():
         return surface_convection(geometry, t1, t2, length, method=group.method, **extra, **options), None
     parts = []
@@ -594,20 +595,7 @@ def _convect(net: _Network, group: _Group, t1, t2, tile: int):
             sub_extra = {k: (v[mask] if isinstance(v, np.ndarray) else v) for k, v in extra.items()}
             parts.append((mask, surface_convection(geometry, t1[mask], t2[mask], length[mask], method=method,
                                                    **sub_extra, **options)))
-    return _merge(parts, len(t1)), ~served
-
-
-def _merge(parts, size):
-    from .convection import ConvectionResult
-
-    fields = {}
-    for name in ConvectionResult.__dataclass_fields__:
-        sample = np.asarray(getattr(parts[0][1], name))
-        out = np.empty(size, dtype=sample.dtype if sample.dtype != object else object)
-        for mask, result in parts:
-            out[mask] = getattr(result, name)
-        fields[name] = out
-    return ConvectionResult(**fields)
+    return merge_masked(ConvectionResult, parts, (len(t1),)), ~served
 
 
 def _evaluate(net: _Network, t: np.ndarray, derivatives: bool) -> _Evaluation:

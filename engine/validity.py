@@ -198,9 +198,3 @@ class Range:
         if math.isinf(self.high):
             return f"{self.quantity} >= {format_value(self.low)}"
         return f"{format_value(self.low)} <= {self.quantity} <= {format_value(self.high)}"
-
-    def violation(self, value: float) -> str:
-        """Text for one value outside the range, naming the bound it crosses."""
-        if value < self.low:
-            return f"{self.quantity} = {format_value(value)} below {format_value(self.low)}"
-        return f"{self.quantity} = {format_value(value)} above {format_value(self.high)}"

@@ -18,6 +18,15 @@ def evaluate_template(name: str, **sets):
     return _evaluate(name, tuple(sorted(sets.items())))
 
 
+def input_names(template) -> set[str]:
+    """The defined names of a template's input cells (those on its Inputs sheet)."""
+    import openpyxl
+
+    workbook = openpyxl.load_workbook(template.path)
+    return {name for name, definition in workbook.defined_names.items()
+            if any(sheet == "Inputs" for sheet, _ in definition.destinations)}
+
+
 def named(evaluation, name: str):
     """The value of a workbook-scoped defined name after evaluation."""
     return evaluation.names[name]

@@ -7,13 +7,12 @@ import math
 import re
 
 import numpy as np
-import openpyxl
 import pytest
 from scipy.constants import Stefan_Boltzmann, g as GRAVITY, zero_Celsius
 
 import engine
 from addin.templates import hot_surface
-from template_support import assert_direction, evaluate_template, named
+from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "hot-surface"
 KIND = {"horizontal cylinder": "hcyl", "vertical face": "vplate", "horizontal top": "hplate",
@@ -148,9 +147,7 @@ DIRECTIONS = {
 
 
 def test_every_input_has_a_direction_test():
-    workbook = openpyxl.load_workbook(hot_surface.TEMPLATE.path)
-    inputs = {name for name, d in workbook.defined_names.items()
-              if any(sheet == "Inputs" for sheet, _ in d.destinations)}
+    inputs = input_names(hot_surface.TEMPLATE)
     assert inputs == set(DIRECTIONS) | {"geometry"}
 
 

@@ -4,13 +4,12 @@ the expected way."""
 
 from __future__ import annotations
 
-import openpyxl
 import pytest
 from scipy.constants import Stefan_Boltzmann, zero_Celsius
 
 import engine
 from addin.templates import partition_cavity as partition
-from template_support import assert_direction, evaluate_template, named
+from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "partition-cavity"
 GRAVITY = 9.80665  # m/s², standard gravity (CODATA / ISO 80000-3)
@@ -140,9 +139,7 @@ GUESSES = ("g_warm_face", "g_warm_cav", "g_cold_cav", "g_cold_face", "g_prop_t")
 
 
 def test_every_input_has_a_direction_test():
-    workbook = openpyxl.load_workbook(partition.TEMPLATE.path)
-    inputs = {name for name, d in workbook.defined_names.items()
-              if any(sheet == "Inputs" for sheet, _ in d.destinations)}
+    inputs = input_names(partition.TEMPLATE)
     assert inputs == set(DIRECTIONS) | {"cav_method", "part_width"}
 
 

@@ -3,12 +3,11 @@ physically bounded, and every input moves the results the expected way."""
 
 from __future__ import annotations
 
-import openpyxl
 import pytest
 
 import engine
 from addin.templates import sealed_cabinet as cabinet
-from template_support import assert_direction, evaluate_template, named
+from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "sealed-cabinet"
 
@@ -122,9 +121,7 @@ DIRECTIONS = {
 
 
 def test_every_input_has_a_direction_test():
-    workbook = openpyxl.load_workbook(cabinet.TEMPLATE.path)
-    inputs = {name for name, d in workbook.defined_names.items()
-              if any(sheet == "Inputs" for sheet, _ in d.destinations)}
+    inputs = input_names(cabinet.TEMPLATE)
     assert inputs == set(DIRECTIONS) | {"vplate_method"}
 
 

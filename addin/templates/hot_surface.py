@@ -10,7 +10,7 @@ independent sub-network per thickness), solved together by the network solver.
 from __future__ import annotations
 
 
-from ..templatebook import Template, source_of
+from ..templatebook import Template
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
@@ -219,10 +219,10 @@ def build(b) -> None:
                 "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
                 "an independent sub-network in one branch table.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Horizontal cylinder, Churchill-Chu: " + source_of("hcyl", "churchill-chu"))
-    b.paragraph("Vertical face, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
-    b.paragraph("Horizontal top (hot, facing up), Lloyd-Moran: " + source_of("hplate", "lloyd-moran"))
-    b.paragraph("Horizontal bottom (hot, facing down), Raithby-Hollands: " + source_of("hplate", "raithby-hollands"))
+    b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")
+    b.cite("Vertical face, Churchill-Chu", "vplate", "churchill-chu")
+    b.cite("Horizontal top (hot, facing up), Lloyd-Moran", "hplate", "lloyd-moran")
+    b.cite("Horizontal bottom (hot, facing down), Raithby-Hollands", "hplate", "raithby-hollands")
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7.")
     b.section("Notes", "Assumptions")

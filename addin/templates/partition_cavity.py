@@ -10,7 +10,7 @@ single pass is off.
 from __future__ import annotations
 
 
-from ..templatebook import Template, source_of
+from ..templatebook import Template
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]
@@ -203,13 +203,12 @@ def build(b) -> None:
                 "network; the temperatures it implies differ from the guesses, which is the sign that a "
                 "second pass was needed.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Room-side faces, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
-    b.paragraph("Cavity, ElSherbiny-Raithby-Hollands (auto's choice for tall vertical air layers): "
-                + source_of("cavity", "elsherbiny"))
-    b.paragraph("Cavity, Wright (selectable): " + source_of("cavity", "wright"))
-    b.paragraph("Cavity, Catton (selectable): " + source_of("cavity", "catton"))
-    b.paragraph("Cavity, MacGregor-Emery (selectable; Pr range excludes air): " + source_of("cavity", "macgregor-emery"))
-    b.paragraph("Cavity, conduction limit: " + source_of("cavity", "conduction"))
+    b.cite("Room-side faces, Churchill-Chu", "vplate", "churchill-chu")
+    b.cite("Cavity, ElSherbiny-Raithby-Hollands (auto's choice for tall vertical air layers)", "cavity", "elsherbiny")
+    b.cite("Cavity, Wright (selectable)", "cavity", "wright")
+    b.cite("Cavity, Catton (selectable)", "cavity", "catton")
+    b.cite("Cavity, MacGregor-Emery (selectable; Pr range excludes air)", "cavity", "macgregor-emery")
+    b.cite("Cavity, conduction limit", "cavity", "conduction")
     b.paragraph("Radiation: grey parallel surfaces across the cavity, F = 1/(1/eps1 + 1/eps2 - 1), and a grey "
                 "surface in large surroundings on the room sides; Incropera et al., Fundamentals of Heat and "
                 "Mass Transfer, 6th ed., eqs. 1.7 and 13.24.")

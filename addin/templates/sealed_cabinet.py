@@ -11,7 +11,7 @@ limit.
 from __future__ import annotations
 
 
-from ..templatebook import Template, source_of
+from ..templatebook import Template
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
@@ -198,13 +198,13 @@ def build(b) -> None:
                 "coefficients with H_VPLATE, H_HPLATE and H_RAD from the solved temperatures so a checker "
                 "can follow each one.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.paragraph("Vertical faces, Churchill-Chu: " + source_of("vplate", "churchill-chu"))
-    b.paragraph("Vertical faces, Churchill-Chu laminar form (selectable): " + source_of("vplate", "churchill-chu-laminar"))
-    b.paragraph("Vertical faces, McAdams (selectable): " + source_of("vplate", "mcadams"))
-    b.paragraph("Top, outer face heated facing up and inner face cooled facing down, Lloyd-Moran: "
-                + source_of("hplate", "lloyd-moran"))
-    b.paragraph("Horizontal faces in the opposite case (e.g. a top cooler than the air around it), "
-                "Raithby-Hollands: " + source_of("hplate", "raithby-hollands"))
+    b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
+    b.cite("Vertical faces, Churchill-Chu laminar form (selectable)", "vplate", "churchill-chu-laminar")
+    b.cite("Vertical faces, McAdams (selectable)", "vplate", "mcadams")
+    b.cite("Top, outer face heated facing up and inner face cooled facing down, Lloyd-Moran",
+           "hplate", "lloyd-moran")
+    b.cite("Horizontal faces in the opposite case (e.g. a top cooler than the air around it), Raithby-Hollands",
+           "hplate", "raithby-hollands")
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7 and 13.27 "
                 "(small surface in a large enclosure).")
