@@ -1,7 +1,7 @@
 """``stillair audit``: check a finished workbook's numbers against the engine.
 
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
-headlessly from its own inputs (:func:`addin.headless.evaluate_book`) and classifies every cell
+headlessly from its own inputs (:func:`stillair.addin.headless.evaluate_book`) and classifies every cell
 that calls one of our functions and every cell downstream of one:
 
 ======================  ==========================================================================
@@ -16,7 +16,7 @@ version                 the workbook records a different STILLAIR_VERSION or tem
 ======================  ==========================================================================
 
 Findings are listed worst first in that order.  The audited file is only ever read, through the
-checks of :mod:`addin.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
+checks of :mod:`stillair.addin.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
 file cannot be read (one line on stderr).
 """
 
@@ -54,8 +54,8 @@ _ERROR_VALUES = {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N
 
 
 def default_templates_dir() -> Path:
-    import addin
-    return Path(addin.__file__).resolve().parents[1] / "templates"
+    from .templatebook import TEMPLATE_DIR
+    return TEMPLATE_DIR
 
 
 # ---------------------------------------------------------------------------------------------
@@ -188,7 +188,7 @@ def normalise_formula(formula: str) -> str:
 
 
 # ---------------------------------------------------------------------------------------------
-# Reading formulas, cached values and constants (bytes scanned as addin.xlsx does)
+# Reading formulas, cached values and constants (bytes scanned as stillair.addin.xlsx does)
 
 
 @dataclass
@@ -518,8 +518,8 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
                       calculate=evaluation.calc_seconds)
     classify_started = time.perf_counter()
 
-    import engine
-    version = str(engine.__version__)
+    import stillair
+    version = str(stillair.__version__)
     result = AuditResult(path, version, findings, [], [], sha256=digest.hexdigest())
     if evaluation is not None:
         _classify(result, graph, cells, checked, evaluation, rtol, version)
@@ -934,7 +934,7 @@ def _unreadable(args, reason: str) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
-    """``stillair audit`` on its own: ``python -m addin.audit BOOK ...``."""
+    """``stillair audit`` on its own: ``python -m stillair.addin.audit BOOK ...``."""
     parser = argparse.ArgumentParser(prog="stillair audit", description=add_audit_parser.__doc__)
     _add_arguments(parser)
     return run_audit(parser.parse_args(argv))

@@ -1,7 +1,7 @@
 """Calling engine functions the way a cell does: coerce, compute, catch, shape.
 
 :func:`evaluate` is the single entry point every cell function goes through, from xlwings
-(:mod:`addin.xlfuncs`) and from the headless evaluator (:mod:`addin.headless`) alike.  It never
+(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.headless`) alike.  It never
 raises: invalid input becomes a short message naming the function, the argument, the value and
 what is allowed; a correlation used outside its range still returns the number and the note is
 handed to the active :class:`NoteRecorder` (used by ``stillair calc``).
@@ -61,11 +61,11 @@ def _note(message: str) -> None:
 def engine_callable(entry: CellFunction):
     """The engine attribute the entry names, or None while the engine does not provide it.
 
-    ``engine`` is imported here, on first use, not with this module: importing it takes about
+    ``stillair`` (the engine) is imported here, on first use, not with this module: importing it takes about
     0.2 s (numpy, scipy), which `stillair functions` and `excel-setup` do not need.  CoolProp
     itself loads only if a gas table has to be computed."""
-    import engine
-    return getattr(engine, entry.engine, None)
+    import stillair
+    return getattr(stillair, entry.engine, None)
 
 
 def _coerce(entry: CellFunction, raw: tuple) -> dict:
@@ -91,7 +91,7 @@ def _noting_result_notes(function):
     """Report a network result's range notes like a correlation's warnings, so every cell that
     uses the solve (NET_SOLVE, NET_TEMP, ...) carries them.  The engine caches the solve itself:
     the cells of one network share it."""
-    from engine.validity import CorrelationRangeWarning
+    from stillair.validity import CorrelationRangeWarning
 
     def solve(**kwargs):
         result = function(**kwargs)
@@ -115,7 +115,7 @@ def _short(text: str) -> str:
 
 def evaluate(entry: CellFunction, *raw):
     """Compute one cell function call; returns a cell value or an error message (str)."""
-    from engine.validity import CorrelationRangeWarning, InputError  # see engine_callable
+    from stillair.validity import CorrelationRangeWarning, InputError  # see engine_callable
 
     try:
         kwargs = _coerce(entry, raw)

@@ -42,7 +42,7 @@ def describe(value) -> str:
         return f"a range of {np.size(np.asarray(value, dtype=object))} cells"
     if isinstance(value, str):
         return repr(str(value))
-    from engine.validity import format_value  # engine imported on first message only
+    from stillair.validity import format_value  # engine imported on first message only
     return format_value(value)
 
 

@@ -7,7 +7,7 @@ Writes (or, with --dry-run, only shows) two small config files in xlwings' own
 * ``~/.stillair/stillair.conf`` — read by a custom xlwings add-in whose project name is
   ``stillair`` (route B, the functions available in every workbook).
 
-Both get ``INTERPRETER_WIN`` (this Python) and ``UDF MODULES`` (``addin.xlfuncs``).  An existing
+Both get ``INTERPRETER_WIN`` (this Python) and ``UDF MODULES`` (``stillair.addin.xlfuncs``).  An existing
 file is never overwritten blindly: keys it already has are left alone (a different value is
 reported, not changed), new keys are appended, and the old file is first copied to
 ``<file>.bak-<timestamp>``.  Nothing in Excel itself can be done from here; the remaining steps
@@ -22,7 +22,7 @@ import sys
 import time
 from pathlib import Path
 
-UDF_MODULE = "addin.xlfuncs"
+UDF_MODULE = "stillair.addin.xlfuncs"
 PROJECT_NAME = "stillair"
 
 

@@ -202,7 +202,7 @@ def evaluate_book(path: str, sets: dict[str, str] | None = None) -> Evaluation:
         targets[resolve_target(book, target)] = parse_value(text) if isinstance(text, str) else text
 
     started = time.perf_counter()
-    import engine  # noqa: F401  (timed apart from the workbook)
+    import stillair  # noqa: F401  (timed apart from the workbook)
     engine_loaded = time.perf_counter()
     import formulas
     import numpy as np

@@ -1,4 +1,4 @@
-"""Shaping a solved thermal network (engine.solve_network's result) for cells."""
+"""Shaping a solved thermal network (stillair.solve_network's result) for cells."""
 
 from __future__ import annotations
 

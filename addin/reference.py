@@ -63,7 +63,7 @@ def reference_markdown() -> str:
 def correlations_markdown() -> str:
     """Every registered correlation with its source, equation and validity, per geometry,
     with the geometry's "auto" rule; generated from the engine's registry."""
-    from engine.correlations import CORRELATIONS, GEOMETRIES
+    from stillair.correlations import CORRELATIONS, GEOMETRIES
 
     lines = ["### Correlations (method names for the `method` arguments)", ""]
     for geometry in GEOMETRIES.values():

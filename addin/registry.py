@@ -2,8 +2,8 @@
 
 Each :class:`CellFunction` names its engine callable by attribute name (``engine.<name>``), its
 arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
-generated from this list: the xlwings functions (:mod:`addin.xlfuncs`), the headless evaluator's
-registrations (:mod:`addin.headless`) and the function reference (``stillair functions``).
+generated from this list: the xlwings functions (:mod:`stillair.addin.xlfuncs`), the headless evaluator's
+registrations (:mod:`stillair.addin.headless`) and the function reference (``stillair functions``).
 
 Argument kinds:
 
@@ -185,8 +185,8 @@ _entries += [
 
 
 def _nu_note(nusselt, kwargs):
-    """Render engine.nusselt's validity information as one line of text."""
-    from engine import GEOMETRIES  # the geometry's inputs decide which arguments matter
+    """Render stillair.nusselt's validity information as one line of text."""
+    from stillair import GEOMETRIES  # the geometry's inputs decide which arguments matter
 
     geometry = kwargs.pop("geometry")
     method = kwargs.pop("method")
@@ -196,7 +196,7 @@ def _nu_note(nusselt, kwargs):
         inputs["tilt"] = 90.0
     for name in GEOMETRIES[geometry].inputs:
         if inputs.get(name) is None:
-            from engine import InputError
+            from stillair import InputError
             raise InputError("nu_note", name, None, f'a number for geometry "{geometry}"')
     result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
                      function_name="nu_note", **inputs).scalar()
@@ -298,7 +298,7 @@ _entries += [
 
 # ---------------------------------------------------------------------------------------------
 # Thermal network.  The four cells share one solve per distinct set of inputs (cached in
-# addin.cells), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
+# stillair.addin.cells), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
 
 
 def _net_table(solve, kwargs):

@@ -30,6 +30,7 @@ import os
 import re
 import tempfile
 from dataclasses import dataclass, field
+from importlib import import_module
 from pathlib import Path
 from typing import Any, Callable, Sequence
 
@@ -39,7 +40,8 @@ from xlsxwriter.utility import xl_rowcol_to_cell
 __all__ = ["TemplateBook", "Template", "TEMPLATE_DIR", "MARKER_NAME", "build_template", "TemplateBuildError",
            "is_error_value", "source_of"]
 
-TEMPLATE_DIR = Path(__file__).resolve().parents[1] / "templates"
+# The workbooks ship as the package stillair.templates (the top-level templates/ folder).
+TEMPLATE_DIR = Path(import_module("stillair.templates").__file__).resolve().parent
 MARKER_NAME = "stillair_template"
 # A fixed creation date keeps rebuilt files identical apart from what changed in the code.
 FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
@@ -361,7 +363,7 @@ class TemplateBook:
 
 def source_of(geometry: str, method: str) -> str:
     """The published source of a registered correlation, for a template's Notes sheet."""
-    from engine.correlations import CORRELATIONS
+    from stillair.correlations import CORRELATIONS
 
     return CORRELATIONS[(geometry, method)].source
 

@@ -1,8 +1,8 @@
 """The xlwings UDF module: one Excel function per registry entry.
 
-Point xlwings at this module (``UDF Modules: addin.xlfuncs``, see ``stillair excel-setup``) and
+Point xlwings at this module (``UDF Modules: stillair.addin.xlfuncs``, see ``stillair excel-setup``) and
 import the functions.  Nothing here is written per function: the functions, their signatures,
-docs and decorators are generated from :data:`addin.registry.REGISTRY`.
+docs and decorators are generated from :data:`stillair.addin.registry.REGISTRY`.
 """
 
 from __future__ import annotations

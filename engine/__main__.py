@@ -1,4 +1,4 @@
-"""``python -m engine``: a real calculation on a built-in default case.
+"""``python -m stillair``: a real calculation on a built-in default case.
 
 Demo scenario (invented for illustration): a partition between a heated office at 21 °C and an
 unheated store at 4 °C, built of two 12.5 mm boards around a sealed 70 mm air cavity, 2.6 m high

@@ -5,7 +5,7 @@ Ra is based on the geometry's own length: plate height (vertical plate), area/pe
 (horizontal cylinder, sphere), height (vertical cylinder).  Properties at the film temperature.
 No conduction floor applies: Nu based on an arbitrary length may be below 1.
 
-Every correlation is registered in :mod:`engine.correlations` with its source, equation and
+Every correlation is registered in :mod:`stillair.correlations` with its source, equation and
 validity ranges; the public ``nu_*`` functions are one-line calls of the registry, which checks
 the arguments, picks the method for "auto" and reports any out-of-range use.
 

@@ -44,7 +44,7 @@ Validity: each gas has a temperature range (:data:`GASES`, ``t_range``) inside i
 state and transport models, above its triple point and its saturation temperature at the top of
 the pressure band; pressures from 1 kPa to 200 kPa (high altitude up to moderate overpressure:
 every gas here is a vapour there above its triple-point temperature).  Outside these an
-:class:`~engine.validity.InputError` names the range.  Krypton and xenon transport is further
+:class:`~stillair.validity.InputError` names the range.  Krypton and xenon transport is further
 limited to -100 (xenon: -80) .. 200 degC: ISO 15099 states no range for its linear fits (as
 far as recalled -- from memory), which were made for the temperatures of glazing cavities; a straight line through a property growing
 like T^0.8 is extrapolation far outside them.
@@ -63,7 +63,7 @@ Shipped tables: the pure-gas tables come with the package, ``engine/data/gas_tab
 mass; for the whole file the CoolProp version and git revision that computed it, the grid
 parameters and the definition of every gas).  Importing CoolProp takes about 2 s and tabulating a
 gas up to 0.3 s; with the file neither happens: CoolProp is imported only when a table really has
-to be computed.  ``python -m engine.data`` (or ``python -m engine.gases --rebuild-tables``)
+to be computed.  ``python -m stillair.data`` (or ``python -m stillair.gases --rebuild-tables``)
 writes the file again from the installed CoolProp, byte for byte the same file for the same
 CoolProp version.
 
@@ -466,7 +466,7 @@ def _table(mixture: "_Mixture") -> _PropertyTable:
 TABLE_FILE = Path(__file__).with_name("data") / "gas_tables.npz"
 TABLE_FILE_VARIABLE = "STILLAIR_GAS_TABLES"  # another file, or "off"
 _TABLE_FORMAT = 1
-_REBUILD_HINT = "rebuild it with `python -m engine.data`"
+_REBUILD_HINT = "rebuild it with `python -m stillair.data`"
 
 
 def _grid_parameters() -> np.ndarray:
@@ -555,7 +555,7 @@ def _shipped() -> _ShippedFile | None:
                     except (OSError, ValueError, KeyError, TypeError, zipfile.BadZipFile) as error:
                         _shipped_file = None
                         _shipped_reason = f"gas table file {path} not used: {error}"
-                        warnings.warn(f"engine.gases: {_shipped_reason}; gases are computed "
+                        warnings.warn(f"stillair.gases: {_shipped_reason}; gases are computed "
                                       f"from the installed CoolProp ({_REBUILD_HINT})",
                                       RuntimeWarning, stacklevel=2)
     return _shipped_file
@@ -575,7 +575,7 @@ def _shipped_gas(name: str) -> _ShippedGas | None:
         f"{name} in gas table file {shipped.path}: {shipped.stale[name]}"
     _SOURCES[name] = f"computed with the installed CoolProp ({reason})"
     if shipped is not None:
-        warnings.warn(f"engine.gases: {reason}; computed from the installed CoolProp "
+        warnings.warn(f"stillair.gases: {reason}; computed from the installed CoolProp "
                       f"({_REBUILD_HINT})", RuntimeWarning, stacklevel=2)
     return None
 
@@ -871,7 +871,7 @@ def _docstring(info: GasPropertyInfo, for_air: bool) -> str:
         f"{GAS_PRESSURE_RANGE.low:g} .. {GAS_PRESSURE_RANGE.high:g}.\n"
         f"{ideal_line}\n"
         "t and pressure broadcast; scalar inputs give a float.\n\n"
-        f"Source: {info.definition}  Details in the engine.gases module docstring.\n\n"
+        f"Source: {info.definition}  Details in the stillair.gases module docstring.\n\n"
         f"Valid temperatures (outside: InputError):\n{_range_lines()}\n"
     )
 
@@ -921,10 +921,10 @@ del _info, _factory, _function
 
 
 def main(argv: list[str] | None = None) -> int:
-    """``python -m engine.gases --rebuild-tables [--output PATH]``."""
+    """``python -m stillair.gases --rebuild-tables [--output PATH]``."""
     import argparse
 
-    parser = argparse.ArgumentParser(prog="python -m engine.gases",
+    parser = argparse.ArgumentParser(prog="python -m stillair.gases",
                                      description="Write the shipped gas property tables.")
     parser.add_argument("--rebuild-tables", action="store_true", required=True,
                         help="tabulate every pure gas with the installed CoolProp")
@@ -939,4 +939,4 @@ def main(argv: list[str] | None = None) -> int:
 
 if __name__ == "__main__":
     # `python -m` runs a second copy of this file; use the engine's own module.
-    sys.exit(sys.modules["engine.gases"].main())
+    sys.exit(sys.modules["stillair.gases"].main())

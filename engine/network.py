@@ -13,7 +13,7 @@ temperature obeys its energy balance
 
 with q_b the branch's heat flow, positive from ``from`` to ``to``.  For the convection kinds
 ``from`` is the solid surface and ``to`` the fluid; for a cavity ``from`` is the surface on the
-layer's underside (see :func:`engine.convection.cavity_convection`).
+layer's underside (see :func:`stillair.convection.cavity_convection`).
 
 Branch heat flows
 -----------------
@@ -992,7 +992,7 @@ def solve_network(branches, boundaries, gas="air", pressure=DEFAULT_PRESSURE, *,
     beta = 1/T.  Radiation stays the exact fourth-power exchange in every case.
 
     Returns an immutable :class:`NetworkResult`; identical calls return the cached result.
-    Raises :class:`NetworkError` (an :class:`~engine.validity.InputError`) naming the table,
+    Raises :class:`NetworkError` (an :class:`~stillair.validity.InputError`) naming the table,
     row and column of a bad input, and :class:`NetworkConvergenceError` when the balances
     cannot be closed.
     """

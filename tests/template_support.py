@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import functools
 
-from addin.headless import evaluate_book
-from addin.templates import template_by_name
+from stillair.addin.headless import evaluate_book
+from stillair.addin.templates import template_by_name
 
 
 @functools.lru_cache(maxsize=None)

@@ -4,8 +4,8 @@ import numpy as np
 import pytest
 from fluids.atmosphere import ATMOSPHERE_1976
 
-from engine.atmosphere import altitude_pressure
-from engine.validity import InputError
+from stillair.atmosphere import altitude_pressure
+from stillair.validity import InputError
 
 # U.S. Standard Atmosphere 1976, Table I (geopotential altitude), = ISO 2533:1975 below 11 km.
 # From memory: H [m] -> p [Pa], printed to 6 significant digits.

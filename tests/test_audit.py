@@ -19,8 +19,8 @@ import openpyxl
 import pytest
 import xlsxwriter
 
-import addin.audit as audit
-from addin.audit import audit_book, calls_in, main, normalise_formula, recognise_call
+import stillair.addin.audit as audit
+from stillair.addin.audit import audit_book, calls_in, main, normalise_formula, recognise_call
 
 RA, PR = 1e8, 0.71
 NU_PLATE = ht.Nu_vertical_plate_Churchill(PR, RA / PR)             # Gr = Ra / Pr
@@ -111,9 +111,9 @@ def test_finding_details(planted_result):
     assert "Ra = 1e+14 above 1e+12" in by[("out-of-range", "Calc!B6")].message
     assert "NU_VPLATEX is not a stillair function (did you mean NU_VPLATE?)" in \
         by[("unknown-function", "Calc!B7")].message
-    import engine
+    import stillair
     assert by[("version", "Calc!B8")].message == \
-        f"the workbook records stillair '0.0.1', this engine is {engine.__version__}"
+        f"the workbook records stillair '0.0.1', this engine is {stillair.__version__}"
     assert by[("stale", "Calc!B4")].message.startswith("no cached value")
     assert by[("stale", "Calc!B9")].message.startswith("cached #N/A")
 
@@ -129,8 +129,8 @@ def test_worst_first_and_summary(planted_result):
 def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     """Graph only (no evaluation): whole columns and rows, a sheet-scoped name and a name that
     refers to another name all carry the dependency on a stillair cell downstream."""
-    from addin.safezip import open_package
-    from addin.xlsx import read_book
+    from stillair.addin.safezip import open_package
+    from stillair.addin.xlsx import read_book
     path = tmp_path / "graph.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     _inputs(wb)
@@ -348,7 +348,7 @@ def test_report_must_be_xlsx(planted, tmp_path, capsys):
 
 
 def test_stillair_cli_has_audit(planted, capsys):
-    from addin import cli
+    from stillair.addin import cli
     try:
         cli.build_parser().parse_args(["audit", str(planted)])
     except SystemExit:

@@ -9,9 +9,9 @@ import zipfile
 import pytest
 import xlsxwriter
 
-import engine
-from addin.cli import main
-from addin.reference import reference_markdown
+import stillair
+from stillair.addin.cli import main
+from stillair.addin.reference import reference_markdown
 
 
 @pytest.fixture(scope="module")
@@ -40,7 +40,7 @@ def test_json_shape_and_set_by_name_and_by_cell(small_book, capsys):
     assert code == 0
     data = json.loads(out)
     assert set(data) == {"values", "names", "notes"}
-    full = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.72).scalar()
+    full = stillair.nusselt("vplate", "auto", None, ra=1e14, pr=0.72).scalar()
     assert data["values"]["Gap!B3"] == pytest.approx(float(full.nu), rel=1e-12)
     assert data["values"]["Gap!B4"] == full.note
     assert data["names"] == {"ra": 1e14, "nu": data["values"]["Gap!B3"]}
@@ -62,7 +62,7 @@ def test_out_copy_and_refusals(small_book, tmp_path, capsys):
     values = openpyxl.load_workbook(out_path, data_only=True)["Gap"]
     formulas = openpyxl.load_workbook(out_path)["Gap"]
     assert values["B1"].value == 2e8                       # the --set input is in the copy
-    assert values["B3"].value == pytest.approx(engine.nu_vplate(2e8, 0.71), rel=1e-12)
+    assert values["B3"].value == pytest.approx(stillair.nu_vplate(2e8, 0.71), rel=1e-12)
     assert formulas["B3"].value == "=NU_VPLATE(B1,B2)"
     before = os.path.getmtime(small_book)
     # Same file, through a symlink, and differing only by case: all refused, input untouched.
@@ -105,7 +105,7 @@ def test_functions_reference(capsys):
 
 
 def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, capsys, monkeypatch):
-    from addin import excel_setup
+    from stillair.addin import excel_setup
     home = tmp_path / "home"
     conf = home / ".xlwings" / "xlwings.conf"
     conf.parent.mkdir(parents=True)
@@ -118,11 +118,11 @@ def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, ca
     assert excel_setup.run(dry_run=False, home=home) == 0
     text = conf.read_text()
     assert text.startswith(original.decode())                 # nothing of the user's changed
-    assert '"UDF MODULES","mytools"' in text and "addin.xlfuncs" not in text
+    assert '"UDF MODULES","mytools"' in text and "stillair.addin.xlfuncs" not in text
     assert '"INTERPRETER_WIN",' in text
     assert list(conf.parent.glob("xlwings.conf.bak-*"))        # backup of the previous file
     custom = (home / ".stillair" / "stillair.conf").read_text()
-    assert '"UDF MODULES","addin.xlfuncs"' in custom
+    assert '"UDF MODULES","stillair.addin.xlfuncs"' in custom
     capsys.readouterr()
     excel_setup.run(dry_run=False, home=home)                  # idempotent
     assert "nothing to add" in capsys.readouterr().out

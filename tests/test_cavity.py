@@ -20,16 +20,16 @@ import numpy as np
 import pytest
 from scipy.optimize import brentq
 
-import engine
-from engine import CORRELATIONS, GEOMETRIES, CorrelationRangeWarning, InputError, nusselt
-from engine.cavity import (
+import stillair
+from stillair import CORRELATIONS, GEOMETRIES, CorrelationRangeWarning, InputError, nusselt
+from stillair.cavity import (
     AUTO_RULE,
     catton_vertical,
     elsherbiny_vertical,
     macgregor_emery_vertical,
     wright_vertical,
 )
-from engine.validity import format_value
+from stillair.validity import format_value
 
 AIR_PR = 0.71  # common practice: air near room temperature
 CAVITY_METHODS = [m for (g, m) in CORRELATIONS if g == "cavity"]
@@ -133,7 +133,7 @@ def test_every_cavity_correlation_is_documented_in_data():
     geometry = GEOMETRIES["cavity"]
     assert geometry.floor == 1.0
     assert AUTO_RULE in geometry.description
-    assert engine.cavity.__doc__ and "auto" in engine.cavity.__doc__
+    assert stillair.cavity.__doc__ and "auto" in stillair.cavity.__doc__
 
 
 def test_macgregor_emery_air_is_outside_published_prandtl_range():
@@ -141,7 +141,7 @@ def test_macgregor_emery_air_is_outside_published_prandtl_range():
     assert evaluate("macgregor-emery", 1e5, aspect=20)[1] == (
         "macgregor-emery: Pr = 0.71 below 1 (valid 1 <= Pr <= 20000)")
     with pytest.warns(CorrelationRangeWarning, match="Pr = 0.71 below 1"):
-        engine.nu_cavity(1e5, AIR_PR, 20, method="macgregor-emery")
+        stillair.nu_cavity(1e5, AIR_PR, 20, method="macgregor-emery")
 
 
 # --- published formulas at check points -------------------------------------------------------
@@ -214,11 +214,11 @@ def test_hollands_worked_example_solar_collector():
     gap, delta_t = 0.02, 35.0
     ra = 9.8 * (1 / 325) * delta_t * gap ** 3 / (18.41e-6 * 26.2e-6)
     assert ra == pytest.approx(1.75e4, rel=0.01)
-    nu = engine.nu_cavity(ra, AIR_PR, 1.0 / gap, 60.0, method="hollands")
+    nu = stillair.nu_cavity(ra, AIR_PR, 1.0 / gap, 60.0, method="hollands")
     assert nu == pytest.approx(2.096, abs=2e-3)  # hand evaluation of the 1976 form
     q = nu * 0.0282 / gap * 1.0 * delta_t
     assert q == pytest.approx(104.0, rel=0.02)  # from memory: the example's q ~ 104 W
-    assert engine.cavity_method(ra, AIR_PR, 1.0 / gap, 60.0) == "hollands"
+    assert stillair.cavity_method(ra, AIR_PR, 1.0 / gap, 60.0) == "hollands"
 
 
 @pytest.mark.parametrize("ra,pr", [(3e5, 0.71), (1e7, 7.0), (7e9, 100.0)])
@@ -277,26 +277,26 @@ def test_vertical_methods_use_ayyaswamy_catton_and_arnold(method):
 
 def test_elsherbiny_at_120_is_arnolds_treatment():
     nu90 = ref_elsherbiny(1e5, 20)
-    assert engine.nu_cavity(1e5, AIR_PR, 20, 120, method="elsherbiny") == pytest.approx(
+    assert stillair.nu_cavity(1e5, AIR_PR, 20, 120, method="elsherbiny") == pytest.approx(
         1 + (nu90 - 1) * math.sin(math.radians(120)), rel=1e-12)
 
 
 @pytest.mark.parametrize("aspect", [1, 3, 6, 12, 13, 100])
 def test_critical_tilt_table(aspect):
-    assert engine.cavity_critical_tilt(aspect) == ref_critical_tilt(aspect)
+    assert stillair.cavity_critical_tilt(aspect) == ref_critical_tilt(aspect)
 
 
 def test_critical_tilt_interpolates_and_steps_at_12():
-    assert engine.cavity_critical_tilt(2.0) == pytest.approx(39.0)  # halfway 25 -> 53
-    assert engine.cavity_critical_tilt(12.0) == 67.0
-    assert engine.cavity_critical_tilt(12.0 + 1e-9) == 70.0  # the table's "> 12" row: 3 deg step
-    np.testing.assert_array_equal(engine.cavity_critical_tilt([1, 3]), [25.0, 53.0])
+    assert stillair.cavity_critical_tilt(2.0) == pytest.approx(39.0)  # halfway 25 -> 53
+    assert stillair.cavity_critical_tilt(12.0) == 67.0
+    assert stillair.cavity_critical_tilt(12.0 + 1e-9) == 70.0  # the table's "> 12" row: 3 deg step
+    np.testing.assert_array_equal(stillair.cavity_critical_tilt([1, 3]), [25.0, 53.0])
 
 
 @pytest.mark.parametrize("method", VERTICAL_METHODS)
 def test_vertical_methods_below_critical_tilt_are_out_of_range(method):
     ra, pr, aspect = VERTICAL_POINTS[method]
-    tilt = engine.cavity_critical_tilt(aspect) - 5.0
+    tilt = stillair.cavity_critical_tilt(aspect) - 5.0
     nu, note = evaluate(method, ra, pr, aspect, tilt)
     assert f"{method}: tilt - critical tilt = -5 below 0" in note
     assert nu == pytest.approx(max(1.0, float(nu_of(method, ra, pr, aspect, 90.0))
@@ -434,10 +434,10 @@ def test_auto_switch_from_conduction_at_vertical_onset(aspect, jump):
     # auto: conduction up to Ra sin t = 1e3, then elsherbiny (A = 20; its Nu_ct - 1 = 7e-5) or
     # catton (A = 3; Catton's power law is 1.079 at Ra = 1e3: a visible step).
     edge = 1e3
-    assert engine.cavity_method(edge, AIR_PR, aspect) == "conduction"
+    assert stillair.cavity_method(edge, AIR_PR, aspect) == "conduction"
     above = edge * (1 + 1e-9)
-    assert engine.cavity_method(above, AIR_PR, aspect) == ("elsherbiny" if aspect == 20 else "catton")
-    assert engine.nu_cavity(above, AIR_PR, aspect) - engine.nu_cavity(edge, AIR_PR, aspect) == pytest.approx(
+    assert stillair.cavity_method(above, AIR_PR, aspect) == ("elsherbiny" if aspect == 20 else "catton")
+    assert stillair.nu_cavity(above, AIR_PR, aspect) - stillair.nu_cavity(edge, AIR_PR, aspect) == pytest.approx(
         jump, rel=0.02)
 
 
@@ -525,12 +525,12 @@ def test_just_inside_and_just_outside_each_bound(method, bound, side):
         if not (low <= inputs[knob] <= high):
             # The bound is the edge of what any cavity correlation accepts: an input error.
             with pytest.raises(InputError):
-                engine.nu_cavity(method=method, **inputs)
+                stillair.nu_cavity(method=method, **inputs)
             continue
         result = nusselt("cavity", method, **inputs).scalar()
         if where == "inside":
             assert result.note == "", result.note
-            engine.nu_cavity(method=method, **inputs)  # no warning (pytest makes it an error)
+            stillair.nu_cavity(method=method, **inputs)  # no warning (pytest makes it an error)
         else:
             value = float(bound.values({k: np.asarray(v, dtype=float) for k, v in inputs.items()}))
             expected = (f"{method}: {bound.quantity} = {format_value(value)} "
@@ -539,7 +539,7 @@ def test_just_inside_and_just_outside_each_bound(method, bound, side):
             assert result.note == expected
             assert not result.in_range
             with pytest.warns(CorrelationRangeWarning, match=f"nu_cavity: outside validity range: {method}: "):
-                engine.nu_cavity(method=method, **inputs)
+                stillair.nu_cavity(method=method, **inputs)
 
 
 def test_literal_range_notes():
@@ -578,28 +578,28 @@ AUTO_CASES = [  # (ra, pr, aspect, tilt, chosen, note) per the written rule
 
 @pytest.mark.parametrize("ra,pr,aspect,tilt,chosen,note", AUTO_CASES)
 def test_auto_follows_the_written_rule(ra, pr, aspect, tilt, chosen, note):
-    assert engine.cavity_method(ra, pr, aspect, tilt) == chosen
+    assert stillair.cavity_method(ra, pr, aspect, tilt) == chosen
     result = nusselt("cavity", "auto", ra=ra, pr=pr, aspect=aspect, tilt=tilt).scalar()
     assert result.method == chosen and result.note == note
     assert result.nu == nu_of(chosen, ra, pr, aspect, tilt)
     if note:
         with pytest.warns(CorrelationRangeWarning, match="outside validity range"):
-            engine.nu_cavity(ra, pr, aspect, tilt)
+            stillair.nu_cavity(ra, pr, aspect, tilt)
     else:
-        engine.nu_cavity(ra, pr, aspect, tilt)
+        stillair.nu_cavity(ra, pr, aspect, tilt)
 
 
 def test_auto_arrays_choose_per_element():
     ra, pr, aspect, tilt, chosen, _ = zip(*AUTO_CASES)
-    methods = engine.cavity_method(np.array(ra), np.array(pr), np.array(aspect), np.array(tilt))
+    methods = stillair.cavity_method(np.array(ra), np.array(pr), np.array(aspect), np.array(tilt))
     assert list(methods) == list(chosen)
-    assert engine.cavity_method(1e5, AIR_PR, 20, 90, method="wright") == "wright"
+    assert stillair.cavity_method(1e5, AIR_PR, 20, 90, method="wright") == "wright"
 
 
 def test_auto_never_picks_en673_or_macgregor_for_air():
     ras, aspects, tilts = np.meshgrid(np.geomspace(1, 1e10, 30), np.geomspace(0.5, 300, 15),
                                       np.linspace(0, 180, 19))
-    methods = set(engine.cavity_method(ras.ravel(), AIR_PR, aspects.ravel(), tilts.ravel()))
+    methods = set(stillair.cavity_method(ras.ravel(), AIR_PR, aspects.ravel(), tilts.ravel()))
     assert "en673" not in methods and "macgregor-emery" not in methods
     assert {"conduction", "hollands", "globe-dropkin", "elsherbiny", "catton", "wright"} <= methods
 
@@ -607,12 +607,12 @@ def test_auto_never_picks_en673_or_macgregor_for_air():
 # --- vectorisation and return types -------------------------------------------------------------
 
 def test_scalar_in_float_out_and_arrays_broadcast():
-    value = engine.nu_cavity(1e5, AIR_PR, 20)
+    value = stillair.nu_cavity(1e5, AIR_PR, 20)
     assert isinstance(value, float)
     ras = np.geomspace(1e3, 1e7, 7)
-    array = engine.nu_cavity(ras[:, None], AIR_PR, 20, np.array([[80.0, 90.0, 120.0]]), method="elsherbiny")
+    array = stillair.nu_cavity(ras[:, None], AIR_PR, 20, np.array([[80.0, 90.0, 120.0]]), method="elsherbiny")
     assert array.shape == (7, 3)
-    singles = [[engine.nu_cavity(r, AIR_PR, 20, t, method="elsherbiny") for t in (80, 90, 120)] for r in ras]
+    singles = [[stillair.nu_cavity(r, AIR_PR, 20, t, method="elsherbiny") for t in (80, 90, 120)] for r in ras]
     np.testing.assert_array_equal(array, singles)
 
 
@@ -634,14 +634,14 @@ def test_scalar_in_float_out_and_arrays_broadcast():
 ])
 def test_bad_input_messages(args, kwargs, message):
     with pytest.raises(InputError) as error:
-        engine.nu_cavity(*args, **kwargs)
+        stillair.nu_cavity(*args, **kwargs)
     assert str(error.value) == message
 
 
 def test_bad_input_messages_name_the_function():
     with pytest.raises(InputError, match=r"^cavity_method: Ra must be >= 0, got -5$"):
-        engine.cavity_method(-5.0, AIR_PR, 20.0)
+        stillair.cavity_method(-5.0, AIR_PR, 20.0)
     with pytest.raises(InputError, match=r"^cavity_critical_tilt: aspect must be > 0, got -1$"):
-        engine.cavity_critical_tilt(-1.0)
+        stillair.cavity_critical_tilt(-1.0)
     with pytest.raises(InputError, match=r"^cavity_critical_tilt: aspect must be a number, not text, got 'tall'$"):
-        engine.cavity_critical_tilt("tall")
+        stillair.cavity_critical_tilt("tall")

@@ -16,9 +16,9 @@ import pytest
 import schedula as sh
 from scipy.constants import sigma as STEFAN_BOLTZMANN  # CODATA value via scipy
 
-import engine
-from addin.cells import NoteRecorder, call, engine_callable
-from addin.registry import BY_NAME, REGISTRY
+import stillair
+from stillair.addin.cells import NoteRecorder, call, engine_callable
+from stillair.addin.registry import BY_NAME, REGISTRY
 
 PROPERTY_NAMES = [e.name for e in REGISTRY if e.name.startswith(("AIR_", "GAS_"))]
 
@@ -65,7 +65,7 @@ def engine_kwargs(entry, raw: tuple) -> dict:
 def direct(name: str, raw: tuple):
     entry = BY_NAME[name]
     with warnings.catch_warnings():
-        warnings.simplefilter("ignore", engine.CorrelationRangeWarning)
+        warnings.simplefilter("ignore", stillair.CorrelationRangeWarning)
         value = engine_callable(entry)(**engine_kwargs(entry, raw))
     return value if isinstance(value, str) else float(value)
 
@@ -149,15 +149,15 @@ def test_out_of_range_returns_the_number_and_records_the_note():
         warnings.simplefilter("error")  # nothing may escape the cell layer
         with NoteRecorder() as recorder:
             value = call("NU_VPLATE", 1e14, 0.71)
-    full = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
+    full = stillair.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
     assert value == full.nu and not full.in_range
     assert recorder.notes == [(None, f"NU_VPLATE: outside validity range: {full.note}")]
 
 
 def test_nu_note_in_and_out_of_range():
-    inside = engine.nusselt("vplate", "auto", None, ra=1e8, pr=0.71).scalar()
+    inside = stillair.nusselt("vplate", "auto", None, ra=1e8, pr=0.71).scalar()
     assert call("NU_NOTE", "vplate", 1e8, 0.71) == f"in range ({inside.method})"
-    outside = engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
+    outside = stillair.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar()
     assert call("NU_NOTE", "vplate", 1e14, 0.71) == outside.note
     assert call("NU_NOTE", "cavity", 1e4, 0.71, None, None, None) == (
         'NU_NOTE: aspect must be a number for geometry "cavity", got an empty cell')
@@ -166,7 +166,7 @@ def test_nu_note_in_and_out_of_range():
 
 def test_nu_note_cavity_defaults_to_vertical():
     needs_engine("NU_CAVITY")
-    full = engine.nusselt("cavity", "auto", None, ra=1e4, pr=0.71, aspect=40.0, tilt=90.0).scalar()
+    full = stillair.nusselt("cavity", "auto", None, ra=1e4, pr=0.71, aspect=40.0, tilt=90.0).scalar()
     assert call("NU_NOTE", "cavity", 1e4, 0.71, None, None, 40.0).endswith(str(full.method) + ")") \
         or call("NU_NOTE", "cavity", 1e4, 0.71, None, None, 40.0) == full.note
 
@@ -197,7 +197,7 @@ def test_air_density_against_coolprop():
 
 
 def test_version_is_text():
-    assert call("STILLAIR_VERSION") == engine.__version__
+    assert call("STILLAIR_VERSION") == stillair.__version__
     assert call("STILLAIR_VERSION", 1.0) == "STILLAIR_VERSION: takes at most 0 arguments, got 1"
 
 
@@ -227,9 +227,9 @@ def test_network_cells_solve_the_series_wall_exactly():
 
 def test_net_solve_returns_a_padded_table():
     needs_engine("NET_SOLVE")
-    from addin.network import RESULT_HEADER
+    from stillair.addin.network import RESULT_HEADER
     table = call("NET_SOLVE", BRANCHES, BOUNDARIES)
-    result = engine.solve_network([r for r in BRANCHES[:2]], BOUNDARIES[:2])
+    result = stillair.solve_network([r for r in BRANCHES[:2]], BOUNDARIES[:2])
     assert table[0] == RESULT_HEADER
     assert all(len(row) == len(RESULT_HEADER) for row in table)
     assert len(table) == 1 + len(result.temperatures) + len(result.heat)

@@ -3,9 +3,9 @@
 import numpy as np
 import pytest
 
-from engine import (CorrelationRangeWarning, InputError, gas_conductivity, gas_prandtl, h_cavity, h_hcyl,
+from stillair import (CorrelationRangeWarning, InputError, gas_conductivity, gas_prandtl, h_cavity, h_hcyl,
                     h_hplate, h_sphere, h_tplate, h_vplate, nu_cavity, nu_hplate, nu_vplate, rayleigh)
-from engine.convection import cavity_convection, surface_convection
+from stillair.convection import cavity_convection, surface_convection
 
 
 def test_vertical_plate_worked_example():

@@ -13,9 +13,9 @@ import ht
 import numpy as np
 import pytest
 
-import engine
-from engine.external import LLOYD_MORAN_CROSSOVER
-from engine.correlations import (
+import stillair
+from stillair.external import LLOYD_MORAN_CROSSOVER
+from stillair.correlations import (
     CORRELATIONS,
     GEOMETRIES,
     STABLE_CASES,
@@ -24,7 +24,7 @@ from engine.correlations import (
     methods_for,
     nusselt,
 )
-from engine.validity import CorrelationRangeWarning, InputError, format_value
+from stillair.validity import CorrelationRangeWarning, InputError, format_value
 
 PRANDTL = (0.7, 1.0, 7.0)
 EXTERNAL = ("vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl")
@@ -148,14 +148,14 @@ def test_tplate_stable_face_is_ht_vertical_plate_with_g_cos(case, pr):
 def test_vplate_incropera_example_9_2():
     # Incropera 6th ed. Example 9.2 (glass fireplace door, Pr = 0.69, Gr = 2.63e9): Nu = 147
     # (book value as reproduced in ht.Nu_vertical_plate_Churchill's docstring, 147.16...)
-    assert engine.nu_vplate(0.69 * 2.63e9, 0.69) == pytest.approx(147.16185, rel=1e-6)
+    assert stillair.nu_vplate(0.69 * 2.63e9, 0.69) == pytest.approx(147.16185, rel=1e-6)
 
 
 @pytest.mark.parametrize("ra,pr", [(1e3, 0.7), (1e6, 0.71), (1e9, 7.0)])
 def test_vplate_churchill_chu_laminar_formula(ra, pr):
     # Incropera 6th ed. eq. 9.27, written out
     expected = 0.68 + 0.670 * ra ** 0.25 / (1 + (0.492 / pr) ** (9 / 16)) ** (4 / 9)
-    assert engine.nu_vplate(ra, pr, method="churchill-chu-laminar") == pytest.approx(expected, rel=1e-14)
+    assert stillair.nu_vplate(ra, pr, method="churchill-chu-laminar") == pytest.approx(expected, rel=1e-14)
 
 
 def test_vplate_laminar_and_full_churchill_chu_agree_at_low_ra():
@@ -172,55 +172,55 @@ def test_vplate_laminar_and_full_churchill_chu_agree_at_low_ra():
 
 def test_vplate_mcadams_check_points():
     # McAdams (1954): 0.59 Ra^(1/4) and 0.10 Ra^(1/3); Ra^(1/4) of 1e8 is 100, Ra^(1/3) of 1e12 is 1e4
-    assert engine.nu_vplate(1e8, 0.7, method="mcadams") == pytest.approx(59.0, rel=1e-12)
-    assert engine.nu_vplate(1e12, 0.7, method="mcadams") == pytest.approx(1000.0, rel=1e-12)
+    assert stillair.nu_vplate(1e8, 0.7, method="mcadams") == pytest.approx(59.0, rel=1e-12)
+    assert stillair.nu_vplate(1e12, 0.7, method="mcadams") == pytest.approx(1000.0, rel=1e-12)
 
 
 def test_hplate_lloyd_moran_check_points():
     # Incropera 6th ed. eqs. 9.30/9.31: 0.54 (1e4)^(1/4) = 5.4, 0.15 (1e9)^(1/3) = 150
-    assert engine.nu_hplate(1e4, 0.7, "hot-up") == pytest.approx(5.4, rel=1e-12)
-    assert engine.nu_hplate(1e9, 0.7, "cold-down") == pytest.approx(150.0, rel=1e-12)
+    assert stillair.nu_hplate(1e4, 0.7, "hot-up") == pytest.approx(5.4, rel=1e-12)
+    assert stillair.nu_hplate(1e9, 0.7, "cold-down") == pytest.approx(150.0, rel=1e-12)
 
 
 def test_hplate_mcadams_check_points():
     # McAdams on the side length s = 4 A/P: Ra_s = 64 Ra, Nu = Nu_s / 4 (from memory: 0.54 Ra_s^1/4
     # 1e5..2e7, 0.14 Ra_s^1/3 2e7..3e10 hot face up; 0.27 Ra_s^1/4 3e5..3e10 hot face down)
-    assert engine.nu_hplate(1e8 / 64, 0.7, "hot-down", method="mcadams") == pytest.approx(27.0 / 4, rel=1e-12)
-    assert engine.nu_hplate(1e9 / 64, 0.7, "hot-up", method="mcadams") == pytest.approx(140.0 / 4, rel=1e-12)
-    assert engine.nu_hplate(1e6 / 64, 0.7, "cold-down", method="mcadams") == pytest.approx(
+    assert stillair.nu_hplate(1e8 / 64, 0.7, "hot-down", method="mcadams") == pytest.approx(27.0 / 4, rel=1e-12)
+    assert stillair.nu_hplate(1e9 / 64, 0.7, "hot-up", method="mcadams") == pytest.approx(140.0 / 4, rel=1e-12)
+    assert stillair.nu_hplate(1e6 / 64, 0.7, "cold-down", method="mcadams") == pytest.approx(
         0.54 * 1e6 ** 0.25 / 4, rel=1e-12)
 
 
 def test_hplate_raithby_hollands_check_point():
     # Raithby & Hollands (1998) downward-facing plate, written out at Ra 1e6, Pr 0.71
     thin = 0.527 * 1e6 ** 0.2 / (1 + (1.9 / 0.71) ** 0.9) ** (2 / 9)
-    assert engine.nu_hplate(1e6, 0.71, "cold-up") == pytest.approx(2.5 / math.log(1 + 2.5 / thin), rel=1e-13)
+    assert stillair.nu_hplate(1e6, 0.71, "cold-up") == pytest.approx(2.5 / math.log(1 + 2.5 / thin), rel=1e-13)
 
 
 def test_hcyl_and_sphere_check_points():
     # Incropera 6th ed. eq. 9.34 and eq. 9.35, written out
-    assert engine.nu_hcyl(1e6, 0.7) == pytest.approx(
+    assert stillair.nu_hcyl(1e6, 0.7) == pytest.approx(
         (0.60 + 0.387 * 1e6 ** (1 / 6) / (1 + (0.559 / 0.7) ** (9 / 16)) ** (8 / 27)) ** 2, rel=1e-14)
-    assert engine.nu_hcyl(1e5, 0.7, method="morgan") == pytest.approx(0.480 * 1e5 ** 0.25, rel=1e-14)
-    assert engine.nu_sphere(1e7, 0.7) == pytest.approx(
+    assert stillair.nu_hcyl(1e5, 0.7, method="morgan") == pytest.approx(0.480 * 1e5 ** 0.25, rel=1e-14)
+    assert stillair.nu_sphere(1e7, 0.7) == pytest.approx(
         2 + 0.589 * 1e7 ** 0.25 / (1 + (0.469 / 0.7) ** (9 / 16)) ** (4 / 9), rel=1e-14)
 
 
 def test_sphere_tends_to_conduction_limit_2():
     # Conduction from a sphere into an infinite still medium: Nu = 2 (physical limit)
-    assert engine.nu_sphere(0.0, 0.7) == 2.0
-    assert engine.nu_sphere(1e-8, 0.7) == pytest.approx(2.0, abs=0.01)
+    assert stillair.nu_sphere(0.0, 0.7) == 2.0
+    assert stillair.nu_sphere(1e-8, 0.7) == pytest.approx(2.0, abs=0.01)
 
 
 def test_vcyl_thick_cylinder_is_the_plate_and_slender_cylinder_gains():
     # Where D/L >= 35/Gr^(1/4) (Sparrow & Gregg via Incropera) the plate result is used as is;
     # Popiel's correction is > 1 and grows with slenderness (curvature thins the boundary layer).
-    assert engine.nu_vcyl(1e8, 0.7, 1.0) == engine.nu_vplate(1e8, 0.7)
-    values = [engine.nu_vcyl(1e8, 0.7, s, method="popiel") for s in (1.0, 10.0, 30.0, 60.0)]
-    assert values[0] > engine.nu_vplate(1e8, 0.7)
+    assert stillair.nu_vcyl(1e8, 0.7, 1.0) == stillair.nu_vplate(1e8, 0.7)
+    values = [stillair.nu_vcyl(1e8, 0.7, s, method="popiel") for s in (1.0, 10.0, 30.0, 60.0)]
+    assert values[0] > stillair.nu_vplate(1e8, 0.7)
     assert np.all(np.diff(values) > 0)
     # Popiel's correction tends to the plate as L/D -> 0
-    assert nu("vcyl", "popiel", 1e8, 0.7, slenderness=1e-9) == pytest.approx(engine.nu_vplate(1e8, 0.7), rel=1e-6)
+    assert nu("vcyl", "popiel", 1e8, 0.7, slenderness=1e-9) == pytest.approx(stillair.nu_vplate(1e8, 0.7), rel=1e-6)
 
 
 # Known band edges of the piecewise correlations: (geometry, method, case, edge in Ra,
@@ -310,9 +310,9 @@ def test_tplate_unstable_face_is_the_larger_of_vertical_and_horizontal():
     ra, tilt = 1e8, 45.0
     along = ht.Nu_vertical_plate_Churchill(0.7, ra * math.cos(math.radians(tilt)) / 0.7)  # ht, same eq.
     normal = 0.15 * (ra * math.sin(math.radians(tilt))) ** (1 / 3)                   # Lloyd-Moran eq. 9.31
-    assert engine.nu_tplate(ra, 0.7, tilt, "hot-up") == pytest.approx(max(along, normal), rel=1e-12)
+    assert stillair.nu_tplate(ra, 0.7, tilt, "hot-up") == pytest.approx(max(along, normal), rel=1e-12)
     assert normal > along  # at 45 deg and Ra 1e8 the horizontal term governs
-    assert engine.nu_tplate(ra, 0.7, 10.0, "hot-up") == pytest.approx(
+    assert stillair.nu_tplate(ra, 0.7, 10.0, "hot-up") == pytest.approx(
         ht.Nu_vertical_plate_Churchill(0.7, ra * math.cos(math.radians(10.0)) / 0.7), rel=1e-12)
 
 
@@ -324,7 +324,7 @@ def test_tplate_stable_face_does_not_join_the_horizontal_plate_at_90(case):
     result = nusselt("tplate", "auto", case, ra=1e6, pr=0.7, tilt=90.0).scalar()
     assert result.nu == pytest.approx(0.691282, rel=1e-5)  # CC at Ra = 1e6 cos(pi/2) = 6.1e-11
     assert result.note == "churchill-chu-cos: tilt = 90 above 60 (valid 0 <= tilt <= 60)"
-    horizontal = engine.nu_hplate(1e6, 0.7, case)
+    horizontal = stillair.nu_hplate(1e6, 0.7, case)
     assert horizontal - result.nu == pytest.approx(7.521296 - 0.691282, rel=1e-5)
 
 
@@ -422,7 +422,7 @@ def test_range_note_text_and_warning():
     assert nusselt("hplate", "mcadams", "hot-up", ra=2e5 / 64, pr=0.7).in_range.item()
     with pytest.warns(CorrelationRangeWarning,
                       match=r"nu_sphere: outside validity range: churchill: Pr = 0.5 below 0.7"):
-        value = engine.nu_sphere(1e6, 0.5)
+        value = stillair.nu_sphere(1e6, 0.5)
     assert value == pytest.approx(2 + 0.589 * 1e6 ** 0.25 / (1 + (0.469 / 0.5) ** (9 / 16)) ** (4 / 9))
 
 
@@ -494,32 +494,32 @@ def test_registered_functions_take_arrays_elementwise():
 
 def test_public_functions_keep_shapes_and_return_floats_for_scalars():
     ra = np.array([[1e5, 1e6], [1e7, 1e8]])
-    assert engine.nu_hplate(ra, 0.7, "hot-up").shape == (2, 2)
-    assert engine.nu_vcyl(ra, 0.7, 2.0).shape == (2, 2)
-    assert isinstance(engine.nu_tplate(1e6, 0.7, 30, "hot-down"), float)
+    assert stillair.nu_hplate(ra, 0.7, "hot-up").shape == (2, 2)
+    assert stillair.nu_vcyl(ra, 0.7, 2.0).shape == (2, 2)
+    assert isinstance(stillair.nu_tplate(1e6, 0.7, 30, "hot-down"), float)
     for name in ("nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl"):
-        assert name in engine.external.__all__ and hasattr(engine, name)
+        assert name in stillair.external.__all__ and hasattr(stillair, name)
 
 
 @pytest.mark.parametrize("call,message", [
-    (lambda: engine.nu_vplate(-1.0, 0.7), "nu_vplate: Ra must be >= 0, got -1"),
-    (lambda: engine.nu_vplate(1e6, 0.0), "nu_vplate: Pr must be > 0, got 0"),
-    (lambda: engine.nu_sphere(1e6, -0.7), "nu_sphere: Pr must be > 0, got -0.7"),
-    (lambda: engine.nu_vplate(float("nan"), 0.7), "nu_vplate: Ra must be a finite number, got nan"),
-    (lambda: engine.nu_hcyl("hot", 0.7), "nu_hcyl: Ra must be a number, not text, got 'hot'"),
-    (lambda: engine.nu_hplate(1e6, 0.7, "sideways"),
+    (lambda: stillair.nu_vplate(-1.0, 0.7), "nu_vplate: Ra must be >= 0, got -1"),
+    (lambda: stillair.nu_vplate(1e6, 0.0), "nu_vplate: Pr must be > 0, got 0"),
+    (lambda: stillair.nu_sphere(1e6, -0.7), "nu_sphere: Pr must be > 0, got -0.7"),
+    (lambda: stillair.nu_vplate(float("nan"), 0.7), "nu_vplate: Ra must be a finite number, got nan"),
+    (lambda: stillair.nu_hcyl("hot", 0.7), "nu_hcyl: Ra must be a number, not text, got 'hot'"),
+    (lambda: stillair.nu_hplate(1e6, 0.7, "sideways"),
      "nu_hplate: case must be one of \"hot-up\", \"hot-down\", \"cold-up\", \"cold-down\", got 'sideways'"),
-    (lambda: engine.nu_hplate(1e6, 0.7, "hot-up", method="raithby-hollands"),
+    (lambda: stillair.nu_hplate(1e6, 0.7, "hot-up", method="raithby-hollands"),
      "nu_hplate: method must be one of \"auto\", \"lloyd-moran\", \"mcadams\" for case \"hot-up\" "
      "(raithby-hollands serves only \"hot-down\", \"cold-up\"), got 'raithby-hollands'"),
-    (lambda: engine.nu_tplate(1e6, 0.7, 30, "hot-down", method="raithby-hollands"),
+    (lambda: stillair.nu_tplate(1e6, 0.7, 30, "hot-down", method="raithby-hollands"),
      "nu_tplate: method must be one of \"auto\", \"churchill-chu-cos\" for case \"hot-down\" "
      "(raithby-hollands serves only \"hot-up\", \"cold-down\"), got 'raithby-hollands'"),
-    (lambda: engine.nu_hcyl(1e6, 0.7, method="bogus"),
+    (lambda: stillair.nu_hcyl(1e6, 0.7, method="bogus"),
      "nu_hcyl: method must be one of \"auto\", \"churchill-chu\", \"morgan\", got 'bogus'"),
-    (lambda: engine.nu_tplate(1e6, 0.7, 95.0, "hot-up"), "nu_tplate: tilt must be in [0, 90] deg, got 95"),
-    (lambda: engine.nu_vcyl(1e6, 0.7, 0.0), "nu_vcyl: slenderness must be > 0, got 0"),
-    (lambda: engine.nu_vcyl(np.array([1e6, -5.0]), 0.7, 2.0), "nu_vcyl: Ra must be >= 0, got -5"),
+    (lambda: stillair.nu_tplate(1e6, 0.7, 95.0, "hot-up"), "nu_tplate: tilt must be in [0, 90] deg, got 95"),
+    (lambda: stillair.nu_vcyl(1e6, 0.7, 0.0), "nu_vcyl: slenderness must be > 0, got 0"),
+    (lambda: stillair.nu_vcyl(np.array([1e6, -5.0]), 0.7, 2.0), "nu_vcyl: Ra must be >= 0, got -5"),
 ])
 def test_bad_input_messages(call, message):
     with pytest.raises(InputError) as error:

@@ -15,8 +15,8 @@ import numpy as np
 import pytest
 from CoolProp.CoolProp import PT_INPUTS
 
-from engine import gases
-from engine.gases import GAS_NAMES, GASES, TABLE_FILE, TABLE_FILE_VARIABLE
+from stillair import gases
+from stillair.gases import GAS_NAMES, GASES, TABLE_FILE, TABLE_FILE_VARIABLE
 
 
 @pytest.fixture(scope="module")
@@ -35,7 +35,7 @@ def fresh():
 def same_version(shipped):
     recorded = str(shipped["coolprop_version"])
     if recorded != CoolProp.__version__:
-        # Policy (engine.gases docstring): the file stays the reference until rebuilt on purpose;
+        # Policy (stillair.gases docstring): the file stays the reference until rebuilt on purpose;
         # it can only be compared number for number with the CoolProp that made it.
         pytest.skip(f"installed CoolProp {CoolProp.__version__}, table file made with {recorded}")
 
@@ -65,16 +65,16 @@ for _name in GAS_NAMES:
     SAMPLE_T[_name][-1] = GASES[_name].t_range.high
 SAMPLE_P = [1.0e3, 4.7e4, 101325.0, 2.0e5]
 SAMPLE_CODE = """
-import json, sys, engine
+import json, sys, stillair
 out = {}
 for gas, ts in %r.items():
-    s = engine.gas_properties(gas, [[t] for t in ts], %r)
+    s = stillair.gas_properties(gas, [[t] for t in ts], %r)
     out[gas] = [s.density.tolist(), s.viscosity.tolist(), s.conductivity.tolist(), s.cp.tolist(),
                 s.expansion.tolist(), s.molar_mass]
-mix = engine.gas_properties("argon:0.9, air:0.1", %r, 101325.0)
+mix = stillair.gas_properties("argon:0.9, air:0.1", %r, 101325.0)
 out["mixture"] = [mix.density.tolist(), mix.conductivity.tolist(), mix.viscosity.tolist()]
 out["coolprop_imported"] = "CoolProp" in sys.modules
-out["provenance"] = engine.gas_table_provenance()
+out["provenance"] = stillair.gas_table_provenance()
 print(json.dumps(out))
 """ % (SAMPLE_T, SAMPLE_P, SAMPLE_T["krypton"])
 
@@ -148,16 +148,16 @@ def test_file_is_small():
 # --------------------------------------------------------------------------------------------
 
 def test_importing_the_engine_does_not_import_coolprop():
-    code = "import engine, json, sys; print(json.dumps('CoolProp' in sys.modules))"
+    code = "import stillair, json, sys; print(json.dumps('CoolProp' in sys.modules))"
     assert run_python(code) is False
 
 
 def test_property_calls_with_the_shipped_table_do_not_import_coolprop():
-    code = ("import engine, json, sys\n"
-            "engine.air_conductivity(20.0)\n"
-            "engine.gas_viscosity('argon:0.9, air:0.1', [0.0, 10.0], 5.0e4)\n"
-            "engine.h_cavity(20.0, 0.0, 0.012, 1.2, gas='krypton')\n"
-            "print(json.dumps(['CoolProp' in sys.modules, engine.gas_table_provenance()]))")
+    code = ("import stillair, json, sys\n"
+            "stillair.air_conductivity(20.0)\n"
+            "stillair.gas_viscosity('argon:0.9, air:0.1', [0.0, 10.0], 5.0e4)\n"
+            "stillair.h_cavity(20.0, 0.0, 0.012, 1.2, gas='krypton')\n"
+            "print(json.dumps(['CoolProp' in sys.modules, stillair.gas_table_provenance()]))")
     imported, provenance = run_python(code)
     assert imported is False
     assert provenance["installed_coolprop"] is None

@@ -13,9 +13,9 @@ import pytest
 from CoolProp.CoolProp import PT_INPUTS
 from scipy.constants import R
 
-from engine import gases
-from engine.gases import GAS_NAMES, GASES, GAS_PROPERTY_TABLE, gas_properties, parse_gas
-from engine.validity import InputError
+from stillair import gases
+from stillair.gases import GAS_NAMES, GASES, GAS_PROPERTY_TABLE, gas_properties, parse_gas
+from stillair.validity import InputError
 
 ATM = 101325.0
 

@@ -9,10 +9,10 @@ import openpyxl
 import pytest
 import xlsxwriter
 
-from addin.cells import engine_callable
-from addin.headless import evaluate_book, rewrite_prefixes
-from addin.registry import BY_NAME, REGISTRY
-from addin.xlsx import index_to_col
+from stillair.addin.cells import engine_callable
+from stillair.addin.headless import evaluate_book, rewrite_prefixes
+from stillair.addin.registry import BY_NAME, REGISTRY
+from stillair.addin.xlsx import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
 
 RTOL = 1e-12
@@ -110,13 +110,13 @@ def test_every_function_matches_the_engine(evaluation, book, name):
 
 
 def test_literals_prefixes_notes_and_errors(evaluation, book):
-    import engine
+    import stillair
     _, _, last = book
     cells = evaluation.values["Calc"]
     nu = direct("NU_VPLATE", (1e8, 0.71))
     assert _close(cells[f"B{last + 1}"], nu) and _close(cells[f"B{last + 2}"], nu)
-    assert cells[f"B{last + 3}"] == engine.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar().note
-    assert cells[f"B{last + 4}"] == engine.__version__
+    assert cells[f"B{last + 3}"] == stillair.nusselt("vplate", "auto", None, ra=1e14, pr=0.71).scalar().note
+    assert cells[f"B{last + 4}"] == stillair.__version__
     assert cells[f"B{last + 6}"] == "#VALUE!"
     assert evaluation.names["Calc!local_nu"] == cells[f"B{last + 1}"]  # sheet-scoped name
     notes = dict(evaluation.notes)
@@ -126,7 +126,7 @@ def test_literals_prefixes_notes_and_errors(evaluation, book):
 
 def test_network_feeds_array_and_scalar_cells(evaluation):
     if engine_callable(BY_NAME["NET_SOLVE"]) is None:
-        pytest.skip("engine.solve_network is not provided yet")
+        pytest.skip("stillair.solve_network is not provided yet")
     from test_cells import Q_EXACT, R_WALL
     net = evaluation.values["Net 1"]
     assert _close(net["L11"], direct_net_heat())
@@ -141,8 +141,8 @@ def test_network_feeds_array_and_scalar_cells(evaluation):
 
 
 def direct_net_heat():
-    import engine
-    return float(engine.solve_network(BRANCHES, BOUNDARIES).heat["wall"])
+    import stillair
+    return float(stillair.solve_network(BRANCHES, BOUNDARIES).heat["wall"])
 
 
 def test_prefix_rewrite_touches_only_our_functions():
@@ -159,7 +159,7 @@ _VALUE_PARTS = re.compile(rb'<v>[^<]*</v>|\st="[^"]*"')
 
 
 def test_out_copy_changes_only_cached_values(evaluation, book, tmp_path):
-    from addin.cachewriter import write_cached_values
+    from stillair.addin.cachewriter import write_cached_values
     path, _, _ = book
     out = tmp_path / "copy.xlsx"
     write_cached_values(evaluation.book, str(out), evaluation.values)

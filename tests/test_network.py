@@ -1,4 +1,4 @@
-"""engine.solve_network: table reading, error messages, physical laws of the solution.
+"""stillair.solve_network: table reading, error messages, physical laws of the solution.
 
 Checks are analytic (series/parallel resistances: Incropera et al., Fundamentals of Heat and Mass
 Transfer, 6th ed., sec. 3.1, eqs. 3.18-3.19 - common practice), physical laws (energy balance,
@@ -12,11 +12,11 @@ import math
 import pytest
 from scipy.optimize import brentq
 
-import engine
-from engine.convection import cavity_convection, surface_convection
-from engine.gases import gas_properties
-from engine.network import NetworkConvergenceError, NetworkError, clear_network_cache, solve_network
-from engine.radiation import SIGMA
+import stillair
+from stillair.convection import cavity_convection, surface_convection
+from stillair.gases import gas_properties
+from stillair.network import NetworkConvergenceError, NetworkError, clear_network_cache, solve_network
+from stillair.radiation import SIGMA
 
 
 def assert_balanced(result, relative=1e-9):
@@ -108,7 +108,7 @@ def test_every_kind_in_one_network_balances_and_reports_every_branch():
     assert outer == pytest.approx(60.0, rel=1e-8)
     assert result.branches["air-roof"].case == "cold-down"     # roof colder than the air under it
     assert result.branches["roof-conv"].case == "hot-up"
-    assert result.branches["gap"].method in engine.methods_for("cavity")
+    assert result.branches["gap"].method in stillair.methods_for("cavity")
     assert result.property_evaluations > 0 and result.iterations > 0
 
 
@@ -124,7 +124,7 @@ def test_branch_records_agree_with_the_one_call_coefficients_at_the_solution():
     cavity = cavity_convection(t["wall-in"], t["liner"], 0.02, 0.6).scalar()
     assert gap.Nu == pytest.approx(cavity.nu, rel=1e-12) and gap.method == cavity.method
     rad = result.branches["wall-rad"]
-    assert rad.h == pytest.approx(engine.radiation.h_rad(t["wall-out"], 22.0, 0.85), rel=1e-12)
+    assert rad.h == pytest.approx(stillair.radiation.h_rad(t["wall-out"], 22.0, 0.85), rel=1e-12)
     assert rad.heat == pytest.approx(0.85 * SIGMA * 1.2 * ((t["wall-out"] + 273.15) ** 4 - 295.15 ** 4),
                                      rel=1e-12)
 
@@ -184,7 +184,7 @@ def test_property_temperature_reproduces_a_constant_property_hand_calculation():
 
     def imbalance(dt):
         ra = 9.80665 * expansion * dt * 0.5 ** 3 / (props.kinvisc * props.diffusivity)
-        nu = engine.nusselt("vplate", "churchill-chu", ra=ra, pr=props.prandtl).nu
+        nu = stillair.nusselt("vplate", "churchill-chu", ra=ra, pr=props.prandtl).nu
         return float(nu) * props.conductivity / 0.5 * 0.4 * dt - 30.0
 
     dt = brentq(imbalance, 0.1, 200.0, xtol=1e-14, rtol=1e-15)
@@ -344,7 +344,7 @@ def test_every_table_problem_names_row_and_column(branches, boundaries, message)
         assert "got 'helium'" in str(caught.value)
     else:
         assert str(caught.value) == message
-    assert isinstance(caught.value, engine.InputError)
+    assert isinstance(caught.value, stillair.InputError)
 
 
 def test_network_error_is_rendered_with_the_cell_function_name():
@@ -367,7 +367,7 @@ def test_a_plate_method_that_does_not_serve_the_final_case_is_an_error():
 
 
 def test_non_convergence_raises_with_residual_and_worst_node(monkeypatch):
-    import engine.network as network
+    import stillair.network as network
 
     monkeypatch.setattr(network, "MAX_NEWTON_ITERATIONS", 1)
     monkeypatch.setattr(network._Solver, "scipy_root", lambda self, x, method: None)
@@ -382,7 +382,7 @@ def test_non_convergence_raises_with_residual_and_worst_node(monkeypatch):
 
 @pytest.mark.parametrize("method", ["hybr", "lm"])
 def test_scipy_fallback_alone_reaches_the_same_solution(monkeypatch, method):
-    import engine.network as network
+    import stillair.network as network
 
     newton = solve_network(CABINET, CABINET_BOUNDARIES, use_cache=False)
     monkeypatch.setattr(network, "MAX_NEWTON_ITERATIONS", 0)

@@ -1,4 +1,4 @@
-"""Robustness of engine.solve_network on generated networks (hypothesis).
+"""Robustness of stillair.solve_network on generated networks (hypothesis).
 
 Chains and meshes of 2-30 branches, convection-, cavity- or radiation-dominated or mixed, fixed
 temperatures from -40 to +400 °C and heat inputs.  Every network either converges or raises the
@@ -16,7 +16,7 @@ import math
 
 from hypothesis import HealthCheck, event, given, settings, strategies as st
 
-from engine.network import NetworkConvergenceError, solve_network
+from stillair.network import NetworkConvergenceError, solve_network
 
 CONVECTION_ROWS = {
     "vplate": lambda d: ["vplate", d(st.floats(0.05, 2.0)), d(st.floats(0.01, 4.0))],

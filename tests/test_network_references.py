@@ -1,4 +1,4 @@
-"""engine.solve_network against outside references, each rebuilt as a network.
+"""stillair.solve_network against outside references, each rebuilt as a network.
 
 1. ISO 6946 (2007 Table 2 / 2017 Table 8): thermal resistance of unventilated air layers with
    high-emissivity faces, heat flow up, horizontal and down, 5-300 mm.
@@ -18,8 +18,8 @@ import itertools
 import pytest
 from scipy.optimize import fsolve
 
-from engine.network import solve_network
-from engine.radiation import SIGMA
+from stillair.network import solve_network
+from stillair.radiation import SIGMA
 
 # ----------------------------------------------------------------------------------------------
 # 1. ISO 6946 unventilated air layers

@@ -4,8 +4,8 @@ import numpy as np
 import pytest
 from ht.radiation import q_rad, sigma as HT_SIGMA
 
-from engine import InputError
-from engine.radiation import SIGMA, exchange_factor, h_rad, radiation_flux
+from stillair import InputError
+from stillair.radiation import SIGMA, exchange_factor, h_rad, radiation_flux
 
 
 @pytest.mark.parametrize("eps, t_surface, t_surroundings", [(0.85, 126.85, 31.85), (1.0, 126.85, -273.15 + 1e-9),

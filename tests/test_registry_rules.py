@@ -10,8 +10,8 @@ from pathlib import Path
 
 import pytest
 
-from addin.registry import REGISTRY, Arg
-from addin.reference import reference_markdown
+from stillair.addin.registry import REGISTRY, Arg
+from stillair.addin.reference import reference_markdown
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -107,7 +107,7 @@ def test_no_excel_builtin_is_shadowed():
 
 @pytest.mark.parametrize("entry", REGISTRY, ids=lambda e: e.name)
 def test_texts_fit_the_function_wizard(entry):
-    from addin.xlfuncs import arg_doc
+    from stillair.addin.xlfuncs import arg_doc
     assert 0 < len(entry.description) <= 255
     assert entry.category and len(entry.category) <= 255
     for arg in entry.args:
@@ -161,19 +161,19 @@ def xlwings_udfs(monkeypatch):
 def test_xlwings_generates_vba_for_every_function(xlwings_udfs):
     import io
 
-    from addin import xlfuncs
+    from stillair.addin import xlfuncs
 
     namespace = {}
     xlfuncs.build(namespace, func=xlwings_udfs.xlfunc, arg=xlwings_udfs.xlarg, ret=xlwings_udfs.xlret)
     module = types.SimpleNamespace(**namespace)
     out = io.StringIO()
-    xlwings_udfs.generate_vba_wrapper("addin.xlfuncs", module, out,
+    xlwings_udfs.generate_vba_wrapper("stillair.addin.xlfuncs", module, out,
                                       types.SimpleNamespace(Name="stillair.xlam"))
     vba = out.getvalue()
     for entry in REGISTRY:
         params = ", ".join(("Optional " if a.optional else "") + a.name for a in entry.args)
         assert f"Function {entry.name}({params})" in vba
-        assert f'XLPy.CallUDF("addin.xlfuncs", "{entry.name}", Array({", ".join(a.name for a in entry.args)})' in vba
+        assert f'XLPy.CallUDF("stillair.addin.xlfuncs", "{entry.name}", Array({", ".join(a.name for a in entry.args)})' in vba
         info = namespace[entry.name].__xlfunc__
         assert info["category"] == entry.category
         assert info["ret"]["doc"] == entry.description

@@ -11,8 +11,8 @@ import warnings
 
 import pytest
 
-import engine
-from addin.templates.air_layer import DEFAULTS, SWEEP_MM, TILT
+import stillair
+from stillair.addin.templates.air_layer import DEFAULTS, SWEEP_MM, TILT
 from template_support import assert_direction, evaluate_template, named
 from test_network_references import (CORRELATION_TOLERANCE, ISO6946_DELTA_T, ISO6946_EPS, ISO6946_MEAN,
                                      ISO6946_TABLE, ISO6946_THICKNESS_MM, iso6946_annex_h_a)
@@ -22,13 +22,13 @@ SIGMA = 5.670374419e-8
 
 
 def _direct(v):
-    """R from engine.h_cavity + engine.h_rad, and the annex formula, for inputs ``v``."""
+    """R from stillair.h_cavity + stillair.h_rad, and the annex formula, for inputs ``v``."""
     warm, cold = v["t_mean"] + v["delta_t"] / 2, v["t_mean"] - v["delta_t"] / 2
     with warnings.catch_warnings():
-        warnings.simplefilter("ignore", engine.CorrelationRangeWarning)   # the sheet shows the note instead
-        h_conv = engine.h_cavity(warm, cold, v["thickness"], v["layer_extent"], TILT[v["direction"]], "air",
+        warnings.simplefilter("ignore", stillair.CorrelationRangeWarning)   # the sheet shows the note instead
+        h_conv = stillair.h_cavity(warm, cold, v["thickness"], v["layer_extent"], TILT[v["direction"]], "air",
                                  v["pressure"])
-    h_rad = engine.h_rad(warm, cold, v["eps_warm"], v["eps_cold"])
+    h_rad = stillair.h_rad(warm, cold, v["eps_warm"], v["eps_cold"])
     e = 1 / (1 / v["eps_warm"] + 1 / v["eps_cold"] - 1)
     h_r = e * 4 * SIGMA * (v["t_mean"] + 273.15) ** 3
     return 1 / (h_conv + h_rad), 1 / (iso6946_annex_h_a(v["thickness"], v["direction"]) + h_r)

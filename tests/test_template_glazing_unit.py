@@ -13,8 +13,8 @@ import math
 import pytest
 from CoolProp.HumidAirProp import HAPropsSI
 
-import engine
-from addin.templates.glazing_unit import DEFAULTS, PASSES, SWEEP_GASES, SWEEP_MM
+import stillair
+from stillair.addin.templates.glazing_unit import DEFAULTS, PASSES, SWEEP_GASES, SWEEP_MM
 from template_support import assert_direction, evaluate_template, named
 from test_network_references import BUILDS, EN673_TABULATED, GLASS_EPS, en673_standard_u
 
@@ -35,7 +35,7 @@ def _gas_text(gas, fill):
 
 
 def standard_u(v):
-    """EN 673 mode recomputed with engine.h_cavity, the same explicit ΔT passes as the sheet."""
+    """EN 673 mode recomputed with stillair.h_cavity, the same explicit ΔT passes as the sheet."""
     sigma = 5.670374419e-8
     tm = 283.0
     mean, dt = tm - 273.15, 15.0
@@ -50,7 +50,7 @@ def standard_u(v):
         r = []
         for k, split in enumerate((dt1, dt - dt1)):
             gap, gas = gaps[k]
-            h = engine.h_cavity(mean + split / 2, mean - split / 2, gap, v["glass_height"], 90, gas, v["pressure"],
+            h = stillair.h_cavity(mean + split / 2, mean - split / 2, gap, v["glass_height"], 90, gas, v["pressure"],
                                 "en673")
             r.append(1 / (h + hr[k]))
         r[1] = r[1] if triple else 0.0
@@ -59,7 +59,7 @@ def standard_u(v):
 
 
 def actual_network(v):
-    """Mode (b) rebuilt as engine.solve_network rows from the inputs alone."""
+    """Mode (b) rebuilt as stillair.solve_network rows from the inputs alone."""
     triple = v["panes"] == 3
     method = None if v["gap_method"] == "auto" else v["gap_method"]
     indoor = "s6" if triple else "s4"
@@ -77,7 +77,7 @@ def actual_network(v):
                   _gas_text(v["gas_2"], v["fill_2"]), method],
                  ["gap-2-rad", "s4", "s5", "radiation", v["eps_gap2_outer"], v["eps_gap2_inner"], 1.0],
                  ["pane-3", "s5", "s6", "conduction", v["pane_3"], v["glass_k"], 1.0]]
-    result = engine.solve_network(rows, [["outdoor", "T", v["t_outdoor"]], ["indoor", "T", v["t_indoor"]]],
+    result = stillair.solve_network(rows, [["outdoor", "T", v["t_outdoor"]], ["indoor", "T", v["t_indoor"]]],
                                   pressure=v["pressure"])
     return result, indoor
 

@@ -10,8 +10,8 @@ import numpy as np
 import pytest
 from scipy.constants import Stefan_Boltzmann, g as GRAVITY, zero_Celsius
 
-import engine
-from addin.templates import hot_surface
+import stillair
+from stillair.addin.templates import hot_surface
 from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "hot-surface"
@@ -40,12 +40,12 @@ def _engine_case(evaluation):
     h, w, d, length = v["face_height"], v["face_width"], v["pipe_od"], v["pipe_length"]
     plate_length = h * w / (2 * (h + w))
     if kind == "hcyl":
-        bare_area, h_conv = math.pi * d * length, engine.h_hcyl(v["hot_t"], v["ambient_t"], d)
+        bare_area, h_conv = math.pi * d * length, stillair.h_hcyl(v["hot_t"], v["ambient_t"], d)
     elif kind == "vplate":
-        bare_area, h_conv = h * w, engine.h_vplate(v["hot_t"], v["ambient_t"], h)
+        bare_area, h_conv = h * w, stillair.h_vplate(v["hot_t"], v["ambient_t"], h)
     else:
-        bare_area, h_conv = h * w, engine.h_hplate(v["hot_t"], v["ambient_t"], plate_length, facing)
-    h_rad = engine.h_rad(v["hot_t"], v["surroundings_t"], v["eps_bare"])
+        bare_area, h_conv = h * w, stillair.h_hplate(v["hot_t"], v["ambient_t"], plate_length, facing)
+    h_rad = stillair.h_rad(v["hot_t"], v["surroundings_t"], v["eps_bare"])
     q_bare = bare_area * (h_conv * (v["hot_t"] - v["ambient_t"]) + h_rad * (v["hot_t"] - v["surroundings_t"]))
     rows = []
     for k in range(1, hot_surface.STEPS + 1):
@@ -58,7 +58,7 @@ def _engine_case(evaluation):
             size = h if kind == "vplate" else plate_length
             area, resistance = bare_area, t / (v["ins_k"] * bare_area)
         rows.append((resistance, kind, size, area, facing if kind == "hplate" else None, v["eps_jacket"]))
-    result = engine.solve_network(hot_surface.insulated_branch_rows(rows),
+    result = stillair.solve_network(hot_surface.insulated_branch_rows(rows),
                                   hot_surface.boundary_rows(v["hot_t"], v["ambient_t"], v["surroundings_t"]))
     return h_conv, h_rad, q_bare, result
 

@@ -7,8 +7,8 @@ from __future__ import annotations
 import pytest
 from scipy.constants import Stefan_Boltzmann, zero_Celsius
 
-import engine
-from addin.templates import partition_cavity as partition
+import stillair
+from stillair.addin.templates import partition_cavity as partition
 from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "partition-cavity"
@@ -28,7 +28,7 @@ def test_converged_column_equals_the_engine_network(sets):
     evaluation = evaluate_template(NAME, **sets)
     v = _v(evaluation)
     area = v["part_height"] * v["part_width"]
-    result = engine.solve_network(partition.branch_rows(
+    result = stillair.solve_network(partition.branch_rows(
         height=v["part_height"], area=area, board_t=v["board_t"], board_k=v["board_k"], gap=v["gap"],
         eps_room=v["eps_room"], eps_cav_warm=v["eps_cav_warm"], eps_cav_cold=v["eps_cav_cold"],
         method=v["cav_method"]), partition.boundary_rows(v["warm_t"], v["cold_t"]))
@@ -66,8 +66,8 @@ def test_single_pass_equals_the_published_correlations_evaluated_by_hand():
     evaluation = evaluate_template(NAME)
     v = _v(evaluation)
     tp = v["g_prop_t"]  # properties from the engine at the one guessed temperature, as the brief says
-    k, nu, alpha = engine.air_conductivity(tp), engine.air_kinvisc(tp), engine.air_diffusivity(tp)
-    beta, pr = engine.air_expansion(tp), engine.air_prandtl(tp)
+    k, nu, alpha = stillair.air_conductivity(tp), stillair.air_kinvisc(tp), stillair.air_diffusivity(tp)
+    beta, pr = stillair.air_expansion(tp), stillair.air_prandtl(tp)
     group = GRAVITY * beta / (nu * alpha)
     height, gap = v["part_height"], v["gap"]
 

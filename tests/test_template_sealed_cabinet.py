@@ -5,8 +5,8 @@ from __future__ import annotations
 
 import pytest
 
-import engine
-from addin.templates import sealed_cabinet as cabinet
+import stillair
+from stillair.addin.templates import sealed_cabinet as cabinet
 from template_support import assert_direction, evaluate_template, input_names, named
 
 NAME = "sealed-cabinet"
@@ -29,7 +29,7 @@ def _engine_case(v):
     bounds = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
-    return engine.solve_network(branches, bounds, "air", pressure=engine.altitude_pressure(v["altitude"]))
+    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]))
 
 
 @pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],

@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import pytest
 
-import engine
-from addin.templates.solar_collector import DEFAULTS
+import stillair
+from stillair.addin.templates.solar_collector import DEFAULTS
 from template_support import assert_direction, evaluate_template, named
 from test_network_references import klein_top_loss
 
@@ -18,7 +18,7 @@ NAME = "solar-collector"
 
 
 def direct_network(v, sky=None):
-    """The template's network rebuilt from the inputs as engine.solve_network rows."""
+    """The template's network rebuilt from the inputs as stillair.solve_network rows."""
     h_w = 2.8 + 3.0 * v["wind_speed"]
     top = "cover-2" if v["covers"] == 2 else "cover-1"
     rows = [["gap-1", "absorber", "cover-1", "cavity", v["gap_1"], v["collector_length"], 1.0, v["tilt"], None],
@@ -30,7 +30,7 @@ def direct_network(v, sky=None):
                  ["rad-2", "cover-1", "cover-2", "radiation", v["eps_cover"], v["eps_cover"], 1.0]]
     bounds = [["absorber", "T", v["t_absorber"]], ["ambient", "T", v["t_ambient"]],
               ["sky", "T", v["t_sky"] if sky is None else sky]]
-    return engine.solve_network(rows, bounds, pressure=v["pressure"]), h_w
+    return stillair.solve_network(rows, bounds, pressure=v["pressure"]), h_w
 
 
 CASES = [{}, {"covers": 2}, {"covers": 2, "tilt": 60.0, "eps_absorber": 0.95}, {"t_absorber": 140.0, "wind_speed": 5}]

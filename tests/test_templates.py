@@ -7,8 +7,8 @@ import zipfile
 import openpyxl
 import pytest
 
-from addin.templatebook import MARKER_NAME, build_template, is_error_value
-from addin.templates import MODULES, all_templates, copy_templates
+from stillair.addin.templatebook import MARKER_NAME, build_template, is_error_value
+from stillair.addin.templates import MODULES, all_templates, copy_templates
 from template_support import evaluate_template
 
 TEMPLATES = all_templates()
@@ -18,7 +18,7 @@ IDS = [t.name for t in TEMPLATES]
 def test_six_templates_ship_with_their_files():
     assert len(MODULES) == 6
     for template in TEMPLATES:
-        assert template.path.is_file(), f"{template.path} missing: run python -m addin.templates"
+        assert template.path.is_file(), f"{template.path} missing: run python -m stillair.addin.templates"
 
 
 def _formulas_and_values(path):

@@ -1,7 +1,7 @@
 """The shipped calculation templates, and listing, copying and rebuilding them.
 
-Each module here defines ``TEMPLATE`` (an :class:`addin.templatebook.Template`) whose ``build``
-function describes the workbook.  ``python -m addin.templates`` rebuilds every committed file in
+Each module here defines ``TEMPLATE`` (an :class:`stillair.addin.templatebook.Template`) whose ``build``
+function describes the workbook.  ``python -m stillair.addin.templates`` rebuilds every committed file in
 templates/ from this code; a test rebuilds them and compares formulas and values, so the files
 and the code cannot drift apart.
 """

@@ -1,4 +1,4 @@
-"""``python -m addin.templates [NAME ...]``: rebuild the committed template workbooks."""
+"""``python -m stillair.addin.templates [NAME ...]``: rebuild the committed template workbooks."""
 
 import sys
 

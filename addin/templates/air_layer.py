@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-import engine
+import stillair
 
 from ..templatebook import Template, TemplateBook
 
@@ -113,7 +113,7 @@ def build(b: TemplateBook) -> None:
             "R, m²·K/W", xl_rowcol_to_cell(last + 2, 0), subtype="straight_with_markers",
             x_axis={"log_base": 10, "min": 1, "max": 1000})
 
-    cav = engine.CORRELATIONS
+    cav = stillair.CORRELATIONS
     b.paragraph("Method. The faces are at t_mean +- dT/2. Correlation-based value: convection across the layer "
                 "from the cavity correlation that covers the case (CAVITY_METHOD names it), tilt 0 for heat flow "
                 "up (heated from below), 90 for horizontal heat flow (vertical layer), 180 for heat flow down "
@@ -128,7 +128,7 @@ def build(b: TemplateBook) -> None:
     b.paragraph("Correlations the automatic choice uses for the three directions:")
     used = []
     for direction, tilt in TILT.items():
-        method = str(engine.cavity_method(1.0e4, 0.71, 50.0, tilt))
+        method = str(stillair.cavity_method(1.0e4, 0.71, 50.0, tilt))
         used.append((direction, method))
     for direction, method in used:
         c = cav[("cavity", method)]

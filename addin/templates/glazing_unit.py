@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-import engine
+import stillair
 
 from ..templatebook import Template, TemplateBook
 
@@ -291,8 +291,8 @@ def build(b: TemplateBook) -> None:
             "gap width, mm", "U, W/(m²·K)", xl_rowcol_to_cell(o_last + 2, 0), subtype="straight")
 
     # ------------------------------------------------------------------ Notes
-    cav = engine.CORRELATIONS
-    auto_default = str(engine.nusselt("cavity", "auto", ra=5.0e3, pr=0.7, aspect=d["glass_height"] / d["gap_1"],
+    cav = stillair.CORRELATIONS
+    auto_default = str(stillair.nusselt("cavity", "auto", ra=5.0e3, pr=0.7, aspect=d["glass_height"] / d["gap_1"],
                                       tilt=90.0).method)
     b.paragraph("Method. (a) Standard conditions: the declared-value procedure of EN 673 (Glass in building - "
                 "Determination of thermal transmittance (U value) - Calculation method), written out step by "

@@ -9,7 +9,7 @@ branches, other boundaries) for a like-for-like comparison.
 
 from __future__ import annotations
 
-import engine
+import stillair
 
 from ..templatebook import Template, TemplateBook
 
@@ -134,7 +134,7 @@ def build(b: TemplateBook) -> None:
                          "without flow (stagnation) gets far hotter than in operation. Use the manufacturer's "
                          "ratings, local codes and licensed practice for design and safety.")
 
-    cav = engine.CORRELATIONS
+    cav = stillair.CORRELATIONS
     b.paragraph("Method. A thermal network per m² of absorber, solved to convergence: the absorber at its mean "
                 "plate temperature; each gas layer is a cavity branch (convection across an air layer tilted at "
                 "the collector slope, heated from below) in parallel with grey radiation between parallel faces; "
@@ -152,7 +152,7 @@ def build(b: TemplateBook) -> None:
                 "beta²) for 0-70° (70° above), e = 0.430 (1 - 100/T_pm). It takes the sky at the air temperature "
                 "and gaps of about 25 mm, so it is compared with the network solved with the sky at the air "
                 "temperature; stated accuracy about +-0.3 W/(m²·K) (from memory).")
-    used = sorted({str(engine.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
+    used = sorted({str(stillair.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
                    for t in (0.0, 30.0, 45.0, 60.0)})
     b.paragraph("Cavity correlations the automatic choice uses for tilted collector gaps:")
     for method in used:

@@ -29,7 +29,7 @@ sys.path.insert(0, str(ROOT / "tests"))
 
 def build(path: Path, cells: int) -> None:
     """Rows of inputs with 4 stillair cells each (plate, cavity, radiation, air property)."""
-    from addin.cells import call
+    from stillair.addin.cells import call
 
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("Cases")
@@ -47,7 +47,7 @@ def build(path: Path, cells: int) -> None:
 
 def cold_audit(path: Path) -> tuple[float, dict, int]:
     started = time.perf_counter()
-    run = subprocess.run([sys.executable, "-m", "addin.audit", str(path), "--json"],
+    run = subprocess.run([sys.executable, "-m", "stillair.addin.audit", str(path), "--json"],
                          capture_output=True, text=True, cwd=ROOT)
     wall = time.perf_counter() - started
     return wall, json.loads(run.stdout), run.returncode
@@ -98,7 +98,7 @@ def main() -> int:
                   f"{data.get('checked')} cells checked, exit {code}")
             if code != 0:
                 print("  (not clean:", data.get("counts") or data.get("error"), ")")
-        from addin.audit import AuditError, audit_book
+        from stillair.addin.audit import AuditError, audit_book
         print("refusal of hostile files, in process (target < 1 s each):")
         for label, path in hostile(directory).items():
             started = time.perf_counter()

@@ -45,7 +45,7 @@ def main() -> int:
         build(book)
         for i in range(args.repeat):
             started = time.perf_counter()
-            done = subprocess.run([sys.executable, "-m", "addin.cli", "calc", str(book)],
+            done = subprocess.run([sys.executable, "-m", "stillair.addin.cli", "calc", str(book)],
                                   capture_output=True, text=True, check=True)
             wall = time.perf_counter() - started
             m = re.search(r"(\d+) formula cells \(engine import ([\d.]+) s, load ([\d.]+) s, "

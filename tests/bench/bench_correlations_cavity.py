@@ -2,7 +2,7 @@
 
     python tests/bench/bench_correlations_cavity.py
 
-Prints evaluations per second through engine.nusselt (argument checks, validity notes, floor
+Prints evaluations per second through stillair.nusselt (argument checks, validity notes, floor
 included) per method, inside each method's range, then for "auto" on in-range vertical glazing
 cases and on a mixed sweep of every orientation where about a third of the elements fall back
 with a note.  Target: > 1e6 evaluations/s.
@@ -14,7 +14,7 @@ import time
 
 import numpy as np
 
-import engine
+import stillair
 
 N = 1_000_000
 REPEATS = 3
@@ -52,7 +52,7 @@ def best_time(method, inputs):
     best = np.inf
     for _ in range(REPEATS):
         start = time.perf_counter()
-        result = engine.nusselt("cavity", method, **inputs)
+        result = stillair.nusselt("cavity", method, **inputs)
         best = min(best, time.perf_counter() - start)
     return best, result
 
@@ -65,7 +65,7 @@ def main():
         seconds, result = best_time(method, inputs)
         outside = np.count_nonzero(~result.in_range) / N
         print(f"{label:28s} {N / seconds:12.3e} {outside:12.1%}")
-    methods = engine.cavity_method(**CASES["auto (mixed sweep)"])
+    methods = stillair.cavity_method(**CASES["auto (mixed sweep)"])
     names, counts = np.unique(methods.astype(str), return_counts=True)
     print("auto choices in the mixed sweep: " + ", ".join(f"{n} {c / N:.1%}" for n, c in zip(names, counts)))
 

@@ -12,8 +12,8 @@ import time
 
 import numpy as np
 
-import engine
-from engine.correlations import nusselt
+import stillair
+from stillair.correlations import nusselt
 
 N = 1_000_000
 TARGET = 1e6
@@ -26,17 +26,17 @@ def log_uniform(low, high, n=N):
 
 PR = rng.uniform(0.7, 7.0, N)
 CASES = [
-    ("vplate auto", lambda: engine.nu_vplate(RA_PLATE, PR)),
-    ("vplate mcadams", lambda: engine.nu_vplate(RA_MC, PR, method="mcadams")),
-    ("hplate hot-up auto", lambda: engine.nu_hplate(RA_HP, PR, "hot-up")),
-    ("hplate hot-down auto", lambda: engine.nu_hplate(RA_RH, PR, "hot-down")),
-    ("hplate hot-up mcadams", lambda: engine.nu_hplate(RA_MCH, PR, "hot-up", method="mcadams")),
-    ("tplate hot-down auto", lambda: engine.nu_tplate(RA_HP, PR, TILT60, "hot-down")),
-    ("tplate hot-up auto", lambda: engine.nu_tplate(RA_HP, PR, TILT90, "hot-up")),
-    ("hcyl auto (both methods)", lambda: engine.nu_hcyl(RA_CYL, PR)),
-    ("hcyl morgan", lambda: engine.nu_hcyl(RA_CYL, PR, method="morgan")),
-    ("sphere auto", lambda: engine.nu_sphere(RA_PLATE / 100.0, PR)),
-    ("vcyl auto (both methods)", lambda: engine.nu_vcyl(RA_VC, PR, SLENDER)),
+    ("vplate auto", lambda: stillair.nu_vplate(RA_PLATE, PR)),
+    ("vplate mcadams", lambda: stillair.nu_vplate(RA_MC, PR, method="mcadams")),
+    ("hplate hot-up auto", lambda: stillair.nu_hplate(RA_HP, PR, "hot-up")),
+    ("hplate hot-down auto", lambda: stillair.nu_hplate(RA_RH, PR, "hot-down")),
+    ("hplate hot-up mcadams", lambda: stillair.nu_hplate(RA_MCH, PR, "hot-up", method="mcadams")),
+    ("tplate hot-down auto", lambda: stillair.nu_tplate(RA_HP, PR, TILT60, "hot-down")),
+    ("tplate hot-up auto", lambda: stillair.nu_tplate(RA_HP, PR, TILT90, "hot-up")),
+    ("hcyl auto (both methods)", lambda: stillair.nu_hcyl(RA_CYL, PR)),
+    ("hcyl morgan", lambda: stillair.nu_hcyl(RA_CYL, PR, method="morgan")),
+    ("sphere auto", lambda: stillair.nu_sphere(RA_PLATE / 100.0, PR)),
+    ("vcyl auto (both methods)", lambda: stillair.nu_vcyl(RA_VC, PR, SLENDER)),
     ("vplate, every value out of range (notes)",
      lambda: nusselt("vplate", "auto", ra=RA_OUT, pr=PR)),
 ]

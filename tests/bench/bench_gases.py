@@ -1,4 +1,4 @@
-"""Benchmark of engine.gases (a plain script: prints numbers, asserts nothing).
+"""Benchmark of stillair.gases (a plain script: prints numbers, asserts nothing).
 
     python tests/bench/bench_gases.py
 """
@@ -9,7 +9,7 @@ import timeit
 import numpy as np
 import CoolProp.CoolProp as CP
 
-from engine import gases
+from stillair import gases
 
 
 def per_call(function, number):

@@ -1,4 +1,4 @@
-"""Benchmark of engine.solve_network (a plain script, not collected by pytest).
+"""Benchmark of stillair.solve_network (a plain script, not collected by pytest).
 
     python tests/bench/bench_network.py
 
@@ -12,8 +12,8 @@ from __future__ import annotations
 import statistics
 import time
 
-import engine
-from engine.network import clear_network_cache
+import stillair
+from stillair.network import clear_network_cache
 
 
 def cabinet():
@@ -57,7 +57,7 @@ def median_time(branches, boundaries, repeat, use_cache=False):
     times = []
     for _ in range(repeat):
         start = time.perf_counter()
-        result = engine.solve_network(branches, boundaries, use_cache=use_cache)
+        result = stillair.solve_network(branches, boundaries, use_cache=use_cache)
         times.append(time.perf_counter() - start)
     return statistics.median(times), result
 
@@ -66,14 +66,14 @@ def main():
     for label, (branches, boundaries), target, repeat in (
             ("10-branch cabinet", cabinet(), 5e-3, 200),
             ("100-branch glazing chain", glazing_wall(), 100e-3, 30)):
-        engine.solve_network(branches, boundaries, use_cache=False)  # warm-up (property tables)
+        stillair.solve_network(branches, boundaries, use_cache=False)  # warm-up (property tables)
         median, result = median_time(branches, boundaries, repeat)
         print(f"{label}: {len(result.heat)} branches, median {median * 1e3:.2f} ms "
               f"(target < {target * 1e3:.0f} ms), {result.iterations} iterations, "
               f"{result.property_evaluations} property evaluations, solver {result.solver}, "
               f"residual {result.residual:.2e} W")
         clear_network_cache()
-        engine.solve_network(branches, boundaries)
+        stillair.solve_network(branches, boundaries)
         hit, _ = median_time(branches, boundaries, repeat, use_cache=True)
         print(f"{label}: cache hit median {hit * 1e6:.0f} us")
 
