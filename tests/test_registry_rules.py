@@ -20,8 +20,8 @@ DESIGN_NAMES = (
     [f"{p}_{q}" for p in ("AIR", "GAS") for q in ("DENSITY", "VISCOSITY", "KINVISC", "CONDUCTIVITY",
                                                   "CP", "DIFFUSIVITY", "PRANDTL", "EXPANSION")]
     + ["ALTITUDE_PRESSURE", "RAYLEIGH", "GRASHOF", "NU_VPLATE", "NU_HPLATE", "NU_TPLATE", "NU_HCYL",
-       "NU_SPHERE", "NU_CAVITY", "CAVITY_METHOD", "NU_NOTE", "H_VPLATE", "H_HPLATE", "H_TPLATE",
-       "H_HCYL", "H_SPHERE", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
+       "NU_SPHERE", "NU_VCYL", "NU_CAVITY", "CAVITY_METHOD", "NU_NOTE", "H_VPLATE", "H_HPLATE", "H_TPLATE",
+       "H_HCYL", "H_SPHERE", "H_VCYL", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
        "STILLAIR_VERSION"])
 
 # VBA keywords and the names the generated VBA wrapper itself uses (Array, XLPy, Err...): an
@@ -182,7 +182,8 @@ def test_xlwings_generates_vba_for_every_function(xlwings_udfs):
             None if a.optional else "required" for a in entry.args]
         for a, spec in zip(entry.args, info["args"]):
             assert spec["options"].get("err_to_str") is True
-            assert spec["options"].get("ndim") == (2 if a.kind == "table" else None)
+            two_d = a.kind == "table" or (a.kind == "number" and entry.takes_arrays)
+            assert spec["options"].get("ndim") == (2 if two_d else None)
     assert "ActiveWorkbook" in vba  # the add-in form of the wrapper
 
 
