@@ -126,6 +126,17 @@ def test_shared_arguments_are_defined_once():
     assert [key[0] for key, ids in seen.items() if len(ids) > 1] == []
 
 
+def test_every_network_branch_kind_is_explained():
+    from stillair.addin.reference import KIND_MEANINGS, network_markdown, network_text
+    from stillair.network import BRANCH_KINDS
+    assert set(BRANCH_KINDS) <= set(KIND_MEANINGS)
+    for kind, params in BRANCH_KINDS.items():
+        assert f"| `{kind}` | {KIND_MEANINGS[kind]}" in network_markdown()
+        assert f"{kind}: " in network_text()
+        for param in params:
+            assert param.label in network_markdown()
+
+
 def test_readme_function_table_is_the_generated_reference():
     text = (ROOT / "README.md").read_text(encoding="utf-8")
     start, end = "<!-- functions:start -->", "<!-- functions:end -->"
