@@ -110,9 +110,9 @@ def test_a_console_that_cannot_print_degrees_or_squares(env):
     done = stillair_cmd("functions", env=env)
     assert done.returncode == 0 and done.stderr == ""
     assert "H_CAVITY(t1, t2, gap, height, [tilt], [gas], [pressure], [method]) -> W/(m" in done.stdout
-    done = stillair_cmd("calc", AIR_LAYER, env=env)
-    assert done.returncode == 0 and done.stderr == ""
-    if env["PYTHONIOENCODING"] == "ascii":
+    if env["PYTHONIOENCODING"] == "ascii":  # one workbook is enough (each calc takes seconds)
+        done = stillair_cmd("calc", AIR_LAYER, env=env)
+        assert done.returncode == 0 and done.stderr == ""
         assert "W/(m2.K)" in done.stdout  # W/(m²·K) in plain ASCII
     demo = subprocess.run([sys.executable, "-m", "stillair"], capture_output=True, text=True,
                           encoding="utf-8", errors="replace", env=dict(os.environ, **env), timeout=120)
@@ -154,10 +154,12 @@ def test_calc_exits_1_on_error_cells_and_lists_each_note_once(error_book):
     assert json.loads(done.stdout)["values"]["Gap!B5"] == pytest.approx(stillair.air_density(20))
 
 
-def test_calc_prints_every_column_of_a_results_table():
+def test_calc_prints_every_column_of_a_results_table(capsys):
+    from stillair.addin.cli import main
     done = stillair_cmd("calc", AIR_LAYER)
     assert done.returncode == 0, done.stderr
-    values = json.loads(stillair_cmd("calc", AIR_LAYER, "--json").stdout)["values"]
+    assert main(["calc", str(AIR_LAYER), "--json"]) == 0
+    values = json.loads(capsys.readouterr().out)["values"]
     assert "=1/(" not in done.stdout and "=MIN(" not in done.stdout  # no formula text for a value
     header = next(line for line in done.stdout.splitlines() if "thickness mm" in line)
     assert "R correlations" in header and "R simplified" in header
