@@ -155,3 +155,29 @@ def test_templates_copy_calc_and_audit(installed):
     audit = _run([command, "audit", copied / "air-layer.xlsx"], cwd=user)
     assert audit.returncode == 0, audit.stdout + audit.stderr   # an untouched template is clean
     assert "no findings" in audit.stdout
+
+
+def test_every_library_the_package_imports_is_a_declared_dependency():
+    """A library imported by engine/ or addin/ at run time must be in [project] dependencies,
+    not only installed as a dependency of a dependency or by the test extra."""
+    import ast
+    import re
+    from importlib.metadata import packages_distributions
+
+    tomllib = pytest.importorskip("tomllib")  # Python >= 3.11
+    project = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))["project"]
+    declared = {re.split(r"[<>=!~ ;\[]", d, maxsplit=1)[0].lower().replace("_", "-")
+                for d in project["dependencies"]}
+    imported = set()
+    for folder in ("engine", "addin"):
+        for path in (ROOT / folder).rglob("*.py"):
+            for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+                if isinstance(node, ast.Import):
+                    imported |= {alias.name.split(".")[0] for alias in node.names}
+                elif isinstance(node, ast.ImportFrom) and node.level == 0 and node.module:
+                    imported.add(node.module.split(".")[0])
+    third_party = imported - set(sys.stdlib_module_names) - {"stillair", "__future__"}
+    distributions = packages_distributions()
+    for module in sorted(third_party):
+        names = {d.lower().replace("_", "-") for d in distributions.get(module, [module])}
+        assert names & declared, f"{module} is imported but not declared in pyproject.toml"
