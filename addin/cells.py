@@ -171,6 +171,8 @@ def _evaluate_ranges(entry: CellFunction, raw: tuple, ranges: dict[int, np.ndarr
         raise ValueError("ranges must be at most two-dimensional")
     spread = {i: np.broadcast_to(a, shape) for i, a in ranges.items()}
     try:
+        if entry.invoke is not None:  # it does more than call a broadcasting function
+            raise NotImplementedError
         with NoteRecorder() as trial:  # notes count only if the whole-array call stands
             kwargs = _coerce(entry, tuple(
                 np.vectorize(lambda v, a=arg: to_number(a.name, v, a.optional,

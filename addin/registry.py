@@ -72,9 +72,11 @@ class CellFunction:
 
     @property
     def takes_arrays(self) -> bool:
-        """True when every numeric argument may be a range or array: the engine callable
-        broadcasts (numpy) and the cell passes its arguments straight through."""
-        return (self.call and self.invoke is None and any(a.kind == "number" for a in self.args)
+        """True when every numeric argument may be a range or array (the result is then an
+        array of the broadcast shape): every computing function without a table argument.
+        Functions that pass their arguments straight to a broadcasting engine callable are
+        computed in one call; those with ``invoke`` element by element."""
+        return (self.call and any(a.kind == "number" for a in self.args)
                 and not any(a.kind == "table" for a in self.args))
 
     def signature(self) -> str:

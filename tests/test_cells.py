@@ -121,8 +121,13 @@ def test_missing_text_gives_the_exact_message(name):
 
 
 def test_a_range_is_refused_where_the_function_does_not_broadcast():
-    assert call("NU_NOTE", "vplate", [[1e8], [1e9]], 0.71) == (
-        "NU_NOTE: Ra must be a single cell, got a range of 2 cells")
+    assert call("NET_TEMP", BRANCHES, BOUNDARIES, "in", "air", [[1e5], [9e4]]) == (
+        "NET_TEMP: pressure must be a single cell, got a range of 2 cells")
+
+
+def test_nu_note_of_a_range_notes_each_element():
+    assert call("NU_NOTE", "vplate", [[1e8], [1e14]], 0.71) == [
+        [call("NU_NOTE", "vplate", 1e8, 0.71)], [call("NU_NOTE", "vplate", 1e14, 0.71)]]
 
 
 # ---------------------------------------------------------------------------------------------
@@ -147,7 +152,7 @@ def test_every_numeric_function_takes_arrays():
     broadcasting = {"air_", "gas_", "nu_", "h_", "rayleigh", "grashof", "altitude_pressure",
                     "cavity_method"}
     for entry in REGISTRY:
-        if entry.engine.startswith(tuple(broadcasting)) and entry.invoke is None:
+        if entry.engine.startswith(tuple(broadcasting)) or entry.name == "NU_NOTE":
             assert entry.takes_arrays, entry.name
 
 
