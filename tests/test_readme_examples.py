@@ -49,3 +49,12 @@ def test_audit_examples(capsys, monkeypatch, tmp_path):
     assert _run(capsys, *build[1:])[0] == 0
     code, printed = _run(capsys, *audit[1:])
     assert code == 1 and printed == shown[2:], STALE.format(shown[1])
+
+
+def test_python_examples_run():
+    blocks = re.findall(r"```python\n(.*?)```", README, flags=re.S)
+    assert blocks
+    namespace: dict = {}
+    for block in blocks:  # in order: later blocks use the names of earlier ones
+        exec(compile(block, "README.md", "exec"), namespace)
+    assert namespace["result"].branches["conv"].method == "churchill-chu"
