@@ -122,10 +122,16 @@ def test_sdist_holds_templates_and_gas_tables(dist):
     assert "tests/template_support.py" in names and "DEVELOPERS.md" in names
 
 
+def _in_user_folder(installed, *args) -> subprocess.CompletedProcess:
+    """Run from the user's folder with that folder also on the import path, as xlwings puts a
+    workbook's folder there: its engine.py and addin.py must still not be imported."""
+    return _run(args, cwd=installed["user"], PYTHONPATH=str(installed["user"]))
+
+
 def test_installed_outside_the_checkout(installed):
-    done = _check(_run([installed["python"], "-c",
-                        "import stillair, stillair.addin.cli as c; print(stillair.__file__); "
-                        "print(stillair.__version__)"], cwd=installed["user"]))
+    done = _check(_in_user_folder(installed, installed["python"], "-c",
+                                  "import stillair, stillair.addin.cli as c; "
+                                  "print(stillair.__file__); print(stillair.__version__)"))
     where, installed_version = done.stdout.split()
     assert Path(where).is_relative_to(installed["python"].parents[1])
     assert not Path(where).is_relative_to(ROOT)
@@ -133,26 +139,26 @@ def test_installed_outside_the_checkout(installed):
 
 
 def test_main_job(installed):
-    done = _check(_run([installed["python"], "-m", "stillair"], cwd=installed["user"]))
+    done = _check(_in_user_folder(installed, installed["python"], "-m", "stillair"))
     assert "heat through the partition" in done.stdout and done.stderr == ""
 
 
 def test_version(installed):
-    done = _check(_run([installed["stillair"], "--version"], cwd=installed["user"]))
+    done = _check(_in_user_folder(installed, installed["stillair"], "--version"))
     assert done.stdout.strip() == f"stillair {stillair.__version__}"
 
 
 def test_templates_copy_calc_and_audit(installed):
     user, command = installed["user"], installed["stillair"]
-    listed = _check(_run([command, "templates"], cwd=user)).stdout
+    listed = _check(_in_user_folder(installed, command, "templates")).stdout
     assert [line.split()[0] for line in listed.splitlines()] != [] and \
         sorted(line.split()[0] for line in listed.splitlines()) == TEMPLATE_NAMES
-    _check(_run([command, "templates", "--copy", "work"], cwd=user))
+    _check(_in_user_folder(installed, command, "templates", "--copy", "work"))
     copied = user / "work"
     assert sorted(p.name for p in copied.iterdir()) == TEMPLATE_NAMES
-    calc = _check(_run([command, "calc", copied / "sealed-cabinet.xlsx"], cwd=user))
+    calc = _check(_in_user_folder(installed, command, "calc", copied / "sealed-cabinet.xlsx"))
     assert "Internal air temperature" in calc.stdout and "Traceback" not in calc.stderr
-    audit = _run([command, "audit", copied / "air-layer.xlsx"], cwd=user)
+    audit = _in_user_folder(installed, command, "audit", copied / "air-layer.xlsx")
     assert audit.returncode == 0, audit.stdout + audit.stderr   # an untouched template is clean
     assert "no findings" in audit.stdout
 
