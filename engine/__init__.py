@@ -13,6 +13,7 @@ from .atmosphere import *  # noqa: F401,F403
 from .groups import *  # noqa: F401,F403
 from .radiation import *  # noqa: F401,F403
 from .convection import *  # noqa: F401,F403
+from .channel import *  # noqa: F401,F403
 from .network import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
