@@ -44,6 +44,11 @@ SAMPLES.update({
     "H_SPHERE": (60.0, 20.0, 0.1, "air", 101325.0),
     "H_CAVITY": (15.0, 5.0, 0.016, 1.2),
     "H_RAD": (15.0, 5.0, 0.84, 0.04),
+    "NU_CHANNEL": (5e3, 0.71, 20.0, "flux"),
+    "H_CHANNEL": (60.0, 20.0, 0.008, 0.15),
+    "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
+    "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
+    "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
