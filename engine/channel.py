@@ -64,6 +64,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 from scipy.optimize import brentq
 
@@ -194,7 +195,8 @@ def _channel_elenbaas(ra, pr, aspect, case):
         return el / 24.0 * (-np.expm1(-35.0 / el)) ** 0.75
 
 
-def nu_channel(ra, pr, aspect, case: str = "isothermal", method: str = "auto"):
+def nu_channel(ra: ArrayLike, pr: ArrayLike, aspect: ArrayLike, case: str = "isothermal",
+               method: str = "auto") -> float | np.ndarray:
     """Nusselt number Nu_S = h S / k of an open vertical parallel-plate channel.
 
     Parameters
@@ -246,7 +248,7 @@ def _flux_nusselt(ra_dt, pr, aspect, case, method, function_name):
                      ra=ra_pos * np.exp(log_nu), pr=pr, aspect=aspect).nu
         return np.log(nu) - log_nu
 
-    previous, r_previous = np.zeros_like(ra_pos), None
+    previous = np.zeros_like(ra_pos)
     r_previous = residual(previous)
     current = previous + r_previous  # one fixed-point step
     for _ in range(60):
@@ -254,7 +256,8 @@ def _flux_nusselt(ra_dt, pr, aspect, case, method, function_name):
         if np.all(np.abs(r_current) < 1e-13):
             break
         slope = (r_current - r_previous) / np.where(current == previous, 1.0, current - previous)
-        step = np.where((current == previous) | (slope == 0), r_current, -r_current / slope)
+        with np.errstate(divide="ignore", invalid="ignore"):  # the where() keeps only finite steps
+            step = np.where((current == previous) | (slope == 0), r_current, -r_current / slope)
         previous, r_previous, current = current, r_current, current + step
     result = nusselt("channel", method, case, function_name=function_name,
                      ra=ra_dt * np.exp(current), pr=pr, aspect=aspect)
@@ -262,8 +265,9 @@ def _flux_nusselt(ra_dt, pr, aspect, case, method, function_name):
     return result, ra_dt * np.exp(current)
 
 
-def channel_convection(ts, tf, spacing, height, *, case: str = "isothermal", gas="air",
-                       pressure=DEFAULT_PRESSURE, method: str = "auto", property_temperature=None,
+def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLike, *,
+                       case: str = "isothermal", gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+                       method: str = "auto", property_temperature: ArrayLike | None = None,
                        ideal_expansion: bool = False, function_name: str = "h_channel") -> ConvectionResult:
     """Convection in an open vertical channel, with everything a checker wants to see.
 
@@ -299,8 +303,9 @@ def _warn_notes(function_name, in_range, notes):
                       CorrelationRangeWarning, stacklevel=3)
 
 
-def h_channel(ts, tf, spacing, height, case: str = "isothermal", gas: str = "air",
-              pressure=DEFAULT_PRESSURE, method: str = "auto"):
+def h_channel(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLike, case: str = "isothermal",
+              gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+              method: str = "auto") -> float | np.ndarray:
     """Convection coefficient on the walls of an open vertical parallel-plate channel.
 
     Parameters
@@ -378,8 +383,9 @@ def optimum_elenbaas(case: str, optimum: str) -> float:
     return float(np.exp(log_el))
 
 
-def channel_spacing(ts, tf, height, case: str = "isothermal", optimum: str = "array", gas: str = "air",
-                    pressure=DEFAULT_PRESSURE):
+def channel_spacing(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, case: str = "isothermal",
+                    optimum: str = "array", gas: str = "air",
+                    pressure: ArrayLike = DEFAULT_PRESSURE) -> float | np.ndarray:
     """Optimum spacing of vertical parallel plates (Bar-Cohen and Rohsenow composite).
 
     Parameters
@@ -469,14 +475,29 @@ def _fin_efficiency(h, conductivity, thickness, length, fin_height, tip):
     return eta, lc
 
 
-def heatsink(t_base, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
-             conductivity, emissivity, gas: str = "air", pressure=DEFAULT_PRESSURE, *,
+def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin_height: ArrayLike,
+             fin_length: ArrayLike, fin_thickness: ArrayLike, fin_count: ArrayLike, conductivity: ArrayLike,
+             emissivity: ArrayLike, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE, *,
              tip: str = "corrected", function_name: str = "heatsink") -> HeatSinkResult:
-    """Heat rejected by a natural-convection plate-fin heat sink with vertical fins.
+    """Heat rejected by a natural-convection plate-fin heat sink with vertical fins, and its split.
 
-    Model
+    Parameters
+    ----------
+    t_base, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity,
+    emissivity, gas, pressure, tip
+        As for :func:`heatsink_q` (°C, m, W/(m·K), Pa); arrays broadcast.
+    function_name : str
+        The name error messages start with.
+
+    Returns
+    -------
+    HeatSinkResult
+        Total heat q (W) and its parts q_fins, q_base, q_radiation; the spacing, both
+        coefficients, fin efficiencies, the channels' apparent emissivity and the validity note.
+
+    Notes
     -----
-    A vertical base plate of width W carries N straight rectangular fins of height H (normal
+    Model.  A vertical base plate of width W carries N straight rectangular fins of height H (normal
     to the base), length L (vertical, along the flow) and thickness t, at a uniform spacing
     S = (W - N t)/(N - 1).  The base is at ``t_base``, its back face is mounted on the
     equipment (no heat loss), and the sink stands in still air at ``t_ambient`` with large
@@ -500,16 +521,17 @@ def heatsink(t_base, t_ambient, base_width, fin_height, fin_length, fin_thicknes
       uniform radiosity, eps_a = eps / (eps + (1 - eps) A_open / A_wall), A_wall = (2 H + S) L
       (Incropera et al., 6th ed., sec. 13.2, enclosure analysis; common practice).
 
-    Limits: fins at the base temperature for radiation overstate it when the fin efficiency is
+    Limits.  Fins at the base temperature for radiation overstate it when the fin efficiency is
     low (good for aluminium and copper fins in still air, eta > 0.9); the channel correlation
     ignores the base as a third wall and the open fin-tip side, which lets air in sideways on
     short fins (fin height much less than the length); radiation from nearby hot parts, an
     enclosure around the sink, or a sink mounted with fins horizontal are outside the model.
 
-    Returns
-    -------
-    HeatSinkResult
-        Total heat and its split, spacing, coefficients, fin efficiencies, validity note.
+    Examples
+    --------
+    >>> r = heatsink(60.0, 25.0, 0.10, 0.04, 0.12, 0.0015, 12, 200.0, 0.85).scalar()
+    >>> round(r.q, 1), round(r.q_fins, 1), round(r.q_base, 1), round(r.q_radiation, 1)
+    (30.2, 21.8, 1.8, 6.5)
     """
     tip = require_choice(function_name, "tip", tip, FIN_TIPS)
     t_base = require_finite(function_name, "t_base", t_base)
@@ -563,8 +585,10 @@ def heatsink(t_base, t_ambient, base_width, fin_height, fin_length, fin_thicknes
                           emissivity_effective=full(eps_a), in_range=in_range, note=note)
 
 
-def heatsink_q(t_base, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
-               conductivity, emissivity, gas: str = "air", pressure=DEFAULT_PRESSURE, tip: str = "corrected"):
+def heatsink_q(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin_height: ArrayLike,
+               fin_length: ArrayLike, fin_thickness: ArrayLike, fin_count: ArrayLike, conductivity: ArrayLike,
+               emissivity: ArrayLike, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+               tip: str = "corrected") -> float | np.ndarray:
     """Heat in W rejected by a plate-fin heat sink with vertical fins (model: :func:`heatsink`).
 
     Parameters
@@ -610,18 +634,29 @@ def heatsink_q(t_base, t_ambient, base_width, fin_height, fin_length, fin_thickn
 _MAX_EXCESS = 2000.0
 
 
-def heatsink_tbase(q, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
-                   conductivity, emissivity, gas: str = "air", pressure=DEFAULT_PRESSURE, tip: str = "corrected"):
+def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin_height: ArrayLike,
+                   fin_length: ArrayLike, fin_thickness: ArrayLike, fin_count: ArrayLike, conductivity: ArrayLike,
+                   emissivity: ArrayLike, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+                   tip: str = "corrected") -> float | np.ndarray:
     """Base temperature in °C at which a plate-fin heat sink rejects ``q`` W.
 
-    Solves heatsink_q(t_base, ...) = q for t_base with scipy's brentq (the heat rejected rises
-    monotonically with the base temperature); the bracket starts at t_ambient and doubles
-    until it holds q.  Arguments as for :func:`heatsink_q`; ``q`` in W (>= 0).
+    Parameters
+    ----------
+    q : float or array
+        Heat to reject in W (>= 0).
+    t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, gas, pressure, tip
+        As for :func:`heatsink_q`.
 
     Returns
     -------
     float or array
         Base temperature in °C (= t_ambient for q = 0).
+
+    Notes
+    -----
+    Solves heatsink_q(t_base, ...) = q for t_base with scipy's brentq (the heat rejected rises
+    monotonically with the base temperature); the bracket starts at t_ambient and doubles until
+    it holds q (at most 2000 K above ambient).  Array inputs are solved element by element.
 
     Examples
     --------
