@@ -510,7 +510,8 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     * Fins: efficiency eta = tanh(m Lc)/(m Lc), m = sqrt(h P/(k A_c)) with P = 2 (L + t),
       A_c = L t; the tip's convection folded into the corrected length Lc = H + t/2
       (``tip="corrected"``) or an adiabatic tip Lc = H (``tip="adiabatic"``); Incropera et
-      al., 6th ed., eqs. 3.89, 3.92 and 3.94.  q_fin = eta h P Lc (t_base - t_ambient).
+      al., 6th ed., eqs. 3.89, 3.92 and 3.94 (equation numbers from memory).
+      q_fin = eta h P Lc (t_base - t_ambient).
       Inner fins have a channel on both faces; the two outer fins have a channel on one face
       and a free vertical plate (:func:`h_vplate`) on the other, and use the mean of the two h.
     * Radiation: from the envelope of the sink to the surroundings at ambient temperature,
@@ -519,7 +520,8 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
       at eps, and the channels' openings at the top and bottom.  A channel's openings (front
       S L, ends 2 S H) radiate with the apparent emissivity of an isothermal grey cavity of
       uniform radiosity, eps_a = eps / (eps + (1 - eps) A_open / A_wall), A_wall = (2 H + S) L
-      (Incropera et al., 6th ed., sec. 13.2, enclosure analysis; common practice).
+      (the radiosity balance of a two-surface enclosure, Incropera et al., 6th ed., ch. 13; common
+      practice).
 
     Limits.  Fins at the base temperature for radiation overstate it when the fin efficiency is
     low (good for aluminium and copper fins in still air, eta > 0.9); the channel correlation

@@ -88,11 +88,16 @@ def test_composite_tends_to_its_fully_developed_and_isolated_plate_limits(case):
     assert np.all(np.diff(nu) > 0)
 
 
-def test_isolated_plate_coefficient_is_the_laminar_vertical_plate_constant():
-    # 1/sqrt(2.87) = 0.590: McAdams' laminar vertical plate Nu_L = 0.59 Ra_L^(1/4)
-    # (Incropera 6th ed. eq. 9.24 with Table 9.1? -- from memory: 0.59 for 1e4..1e9)
-    assert 1 / math.sqrt(2.87) == pytest.approx(0.590, abs=5e-4)
-    assert 1 / math.sqrt(2.51) == pytest.approx(0.631, abs=5e-4)
+def test_isolated_plate_coefficients_are_the_single_plate_constants():
+    """The isothermal isolated-plate limit is McAdams' laminar vertical plate, Nu_L = 0.59 Ra_L^(1/4)
+    (stillair's vplate "mcadams" band; McAdams, Heat Transmission, 3rd ed.); the flux limit's
+    1/sqrt(2.51) = 0.631 is the local uniform-flux plate constant Bar-Cohen and Rohsenow used
+    (from memory)."""
+    assert 1 / math.sqrt(BAR_COHEN_ROHSENOW["isothermal"][1]) == pytest.approx(0.59, abs=1e-3)
+    ra_l = 1e7
+    assert stillair.nu_vplate(ra_l, 0.71, "mcadams") == pytest.approx(
+        isolated_plate_limit(ra_l, "isothermal"), rel=1.5e-3)
+    assert 1 / math.sqrt(BAR_COHEN_ROHSENOW["flux"][1]) == pytest.approx(0.631, abs=1e-3)
 
 
 def test_elenbaas_published_form_and_its_limits():

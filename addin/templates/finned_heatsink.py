@@ -99,8 +99,8 @@ def build(b) -> None:
     b.step("gap_opt", "Thin-plate optimum gap (most heat per width), CHANNEL_SPACING",
            '=CHANNEL_SPACING(t_base, ambient_t, fin_length, "isothermal", "array", "air", air_pressure)', "m",
            number_format="0.00000")
-    b.step("count_opt", "Fin count giving about that gap", "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))",
-           "-", number_format="0")
+    b.step("count_opt", "Fin count giving about that gap",
+           "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))", "-", number_format="0")
     b.step("note_gap", "Validity of the channel correlation",
            '=NU_NOTE("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)', "")
     b.step("note_face", "Validity of the outer-face correlation",
@@ -178,7 +178,7 @@ def build(b) -> None:
     b.paragraph("Fins: straight rectangular fins, efficiency tanh(m Lc)/(m Lc) with m = sqrt(h P/(k A_c)), "
                 "P = 2 (L + t), A_c = L t, the tip's convection folded into the corrected length Lc = H + t/2 "
                 "(Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 3.89, 3.92 and "
-                "3.94).")
+                "3.94; equation numbers from memory).")
     b.paragraph("Radiation: from the sink's envelope (the fin tips, the two outer fin faces and the openings "
                 "of the channels at the front, top and bottom) to surroundings at the ambient temperature, the "
                 "whole sink taken at the base temperature. A channel's openings radiate with the apparent "
