@@ -2,8 +2,10 @@
 
 Air rising between two vertical parallel plates of spacing S and height L, open at the bottom
 and at the top: the gaps of a plate-fin heat sink, a vented card cage, the air gap behind a
-rainscreen.  Only vertical channels are covered (no tilt): for inclined channels the published
-treatments were not checked against their sources here.
+rainscreen.  Only vertical channels are covered (no tilt): published treatments of inclined
+channels exist (e.g. Mittelman, Alshare and Davidson, Int. J. Heat Mass Transfer 52 (2009)
+4689-4694, uniform flux, 30-90 deg) but their group definitions were not checked against the
+papers here, so none is registered.
 
 Groups
 ------
@@ -44,9 +46,11 @@ Optimum spacing (:func:`channel_spacing`)
 -----------------------------------------
 ``"array"``: the spacing that rejects the most heat from a fixed width of thin plates at a fixed
 wall temperature: it maximises h/S, i.e. Nu/S^2.  For the isothermal cases this gives
-El_opt = (2 C1/C2)^(2/3), S_opt = (2 C1/C2)^(1/6) (Ra_S/(S^3 L))^-1/4 = 2.714 and 2.154 times
-(Ra_S/(S^3 L))^-1/4, Bar-Cohen and Rohsenow's published values.  For the flux cases the same
-criterion at a fixed maximum wall temperature gives El*_opt = (5 C1 / (4 C2))^(5/3).
+El_opt = (2 C1/C2)^(2/3), S_opt = (2 C1/C2)^(1/6) (Ra_S/(S^3 L))^-1/4 = 2.716 and 2.156 times
+(Ra_S/(S^3 L))^-1/4, Bar-Cohen and Rohsenow's published 2.714 and 2.154 to their rounding.  For
+the flux cases the same criterion at a fixed maximum wall temperature gives
+El*_opt = (5 C1 / (4 C2))^(5/3); Bar-Cohen and Rohsenow's own flux optima (from memory 1.47 and
+1.17 (Ra*_S/(S^4 L))^-1/5) rest on a criterion not reproduced here.
 ``"plate"``: the spacing beyond which a wider gap no longer helps each plate: the composite
 rises monotonically towards the isolated plate, so this is the spacing where h reaches 99 % of
 the isolated-plate value at the same wall temperature (for the isothermal cases 1.71 S_opt,
