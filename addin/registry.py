@@ -383,6 +383,60 @@ _entries += [
                  CATEGORIES["info"], result="text", call=False),
 ]
 
+# ---------------------------------------------------------------------------------------------
+# Open vertical channels and plate-fin heat sinks
+
+CATEGORIES["heatsinks"] = "stillair channels and heat sinks"
+CHANNEL_CASE = Arg("channel_case", 'Channel walls: "isothermal" (both, blank), "isothermal-adiabatic" '
+                   '(one isothermal, one adiabatic), "flux" (uniform heat flux on both) or '
+                   '"flux-adiabatic" (flux on one).', kind="text", default="isothermal", engine_name="case")
+M_CHANNEL = _method("channel", "bar-cohen-rohsenow, elenbaas (isothermal only)")
+CHANNEL_TS = Arg("ts", "Wall temperature in °C; for the flux cases the wall temperature at the top of "
+                 "the channel (the maximum).", "°C")
+CHANNEL_TF = Arg("tf", "Temperature of the still air around the channel (entering at the bottom), °C.", "°C")
+CHANNEL_HEIGHT = Arg("height", "Plate height in m along the vertical flow (> 0).", "m")
+SINK_ARGS = (
+    Arg("t_ambient", "Ambient air temperature in °C (large surroundings at the same temperature).", "°C"),
+    Arg("base_width", "Width of the base across the fins in m.", "m"),
+    Arg("fin_height", "Height of each fin from the base to its tip in m.", "m"),
+    Arg("fin_length", "Length of the fins along the vertical flow in m.", "m"),
+    Arg("fin_thickness", "Thickness of each fin in m.", "m"),
+    Arg("fin_count", "Number of fins (whole number >= 2; count × thickness < base width).", "-"),
+    Arg("conductivity", "Thermal conductivity of the fin material in W/(m·K).", "W/(m·K)"),
+    Arg("emissivity", "Emissivity of the sink's surface, 0 to 1 (anodised about 0.8, bare aluminium "
+        "about 0.05).", "-"),
+    GAS, P)
+_entries += [
+    CellFunction("NU_CHANNEL", "nu_channel",
+                 (Arg("Ra", "Rayleigh number on the spacing; for the flux cases the modified Ra*_S on "
+                      "the wall heat flux (>= 0).", engine_name="ra"), PR,
+                  Arg("aspect", "Channel aspect ratio height/spacing (> 0).", "-"), CHANNEL_CASE, M_CHANNEL),
+                 "Nusselt number h·S/k of an open vertical parallel-plate channel (flux cases: on the "
+                 "top wall temperature).", CATEGORIES["nusselt"], unit="-"),
+    CellFunction("H_CHANNEL", "h_channel",
+                 (CHANNEL_TS, CHANNEL_TF, Arg("spacing", "Gap between the plates in m (> 0).", "m"),
+                  CHANNEL_HEIGHT, CHANNEL_CASE, GAS, P, M_CHANNEL),
+                 "Convection coefficient in W/(m²·K) on the walls of an open vertical parallel-plate "
+                 "channel, properties at the film temperature.", CATEGORIES["coefficients"],
+                 unit="W/(m²·K)"),
+    CellFunction("CHANNEL_SPACING", "channel_spacing",
+                 (CHANNEL_TS, CHANNEL_TF, CHANNEL_HEIGHT, CHANNEL_CASE,
+                  Arg("optimum", '"array" (blank): most heat from a fixed width of plates; "plate": '
+                      "where h reaches 99 % of the single-plate value.", kind="text", default="array"),
+                  GAS, P),
+                 "Optimum gap in m between vertical parallel plates (Bar-Cohen and Rohsenow composite).",
+                 CATEGORIES["heatsinks"], unit="m"),
+    CellFunction("HEATSINK_Q", "heatsink_q",
+                 (Arg("t_base", "Base temperature of the heat sink in °C.", "°C"),) + SINK_ARGS,
+                 "Heat in W rejected by a plate-fin heat sink with vertical fins in still air: fins "
+                 "(channel h, fin efficiency), exposed base and radiation from its envelope.",
+                 CATEGORIES["heatsinks"], unit="W"),
+    CellFunction("HEATSINK_TBASE", "heatsink_tbase",
+                 (Arg("q", "Heat to reject in W (>= 0).", "W"),) + SINK_ARGS,
+                 "Base temperature in °C at which a plate-fin heat sink with vertical fins rejects q "
+                 "(solved from HEATSINK_Q).", CATEGORIES["heatsinks"], unit="°C"),
+]
+
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
 BY_NAME: dict[str, CellFunction] = {f.name: f for f in REGISTRY}
 del _entries

@@ -15,7 +15,7 @@ otherwise.  The public names mirror the spreadsheet cell functions in snake_case
 Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properties),
 :mod:`stillair.atmosphere`, :mod:`stillair.groups` (Gr, Ra), :mod:`stillair.external` (plates,
 cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
-:mod:`stillair.convection` (h in one call), :mod:`stillair.network` (the thermal network),
+:mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
 :mod:`stillair.correlations` (the correlation registry and :func:`nusselt`).
 """
 
@@ -28,6 +28,7 @@ from .atmosphere import *  # noqa: F401,F403
 from .groups import *  # noqa: F401,F403
 from .radiation import *  # noqa: F401,F403
 from .convection import *  # noqa: F401,F403
+from .channel import *  # noqa: F401,F403
 from .network import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
@@ -60,6 +61,9 @@ __all__ = [
     # heat-transfer coefficients
     "h_vplate", "h_hplate", "h_tplate", "h_hcyl", "h_sphere", "h_vcyl", "h_cavity", "h_rad",
     "surface_convection", "cavity_convection", "ConvectionResult",
+    # open channels and plate-fin heat sinks
+    "nu_channel", "h_channel", "channel_convection", "channel_spacing", "optimum_elenbaas",
+    "heatsink", "heatsink_q", "heatsink_tbase", "HeatSinkResult", "CHANNEL_CASES",
     # radiation
     "radiation_flux", "exchange_factor", "SIGMA",
     # the thermal network

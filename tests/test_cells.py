@@ -46,6 +46,11 @@ SAMPLES.update({
     "H_VCYL": (60.0, 20.0, 0.5, 0.1),
     "H_CAVITY": (15.0, 5.0, 0.016, 1.2),
     "H_RAD": (15.0, 5.0, 0.84, 0.04),
+    "NU_CHANNEL": (5e3, 0.71, 20.0, "flux"),
+    "H_CHANNEL": (60.0, 20.0, 0.008, 0.15),
+    "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
+    "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
+    "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
@@ -234,7 +239,7 @@ def test_nu_note_geometry_names_ignore_case():
         'NU_NOTE: aspect must be a number for geometry "vcyl", got an empty cell')
     assert call("NU_NOTE", "cone", 1e4, 0.71) == (
         'NU_NOTE: geometry must be one of "vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", '
-        "\"cavity\", got 'cone'")
+        "\"cavity\", \"channel\", got 'cone'")
 
 
 def test_tilted_functions_state_their_tilt_convention():
