@@ -85,7 +85,7 @@ def function_spec(paths: dict | None = None) -> dict:
             "category": entry.category,
             "description": f"[{entry.category}] {entry.description}",
             "result": entry.result,
-            "args": [{"name": a.name, "doc": _arg_doc(a), "optional": a.optional}
+            "args": [{"name": a.name, "doc": _arg_doc(a), "optional": a.optional, "kind": a.kind}
                      for a in entry.args],
         })
     return {"implementation": IMPLEMENTATION, "rebind_implementation": REBIND_IMPLEMENTATION,
@@ -95,24 +95,27 @@ def function_spec(paths: dict | None = None) -> dict:
 
 
 def python_paths() -> dict:
-    """Where this Python finds stillair and its dependencies (recorded into the extension)."""
+    """Where this Python finds stillair and its dependencies (recorded into the extension).
+
+    Only this environment's site-packages folders (with their .pth files, which is how an
+    editable install is found), the user site-packages and PYTHONPATH: never this Python's
+    standard library, which LibreOffice's Python has in its own version."""
+    import site
+
     import stillair
 
     site_dirs = []
-    for key in ("purelib", "platlib"):
-        directory = sysconfig.get_paths()[key]
+    candidates = [sysconfig.get_paths()[key] for key in ("purelib", "platlib")]
+    if site.ENABLE_USER_SITE:
+        candidates.append(site.getusersitepackages())
+    for directory in candidates:
         if directory not in site_dirs and os.path.isdir(directory):
             site_dirs.append(directory)
-    # An installed stillair is found through site-packages; one run from a source tree (or an
-    # editable install whose finder does not load) through the folder that holds the package.
-    package_parent = str(Path(stillair.__file__).resolve().parent.parent)
-    paths = [p for p in sys.path if p and os.path.isdir(p) and not p.endswith(".zip")
-             and os.path.abspath(p) != os.path.abspath(os.getcwd())]
+    extra = [p for p in os.environ.get("PYTHONPATH", "").split(os.pathsep) if p and os.path.isdir(p)]
     return {"executable": sys.executable, "version": "%d.%d" % sys.version_info[:2],
             "full_version": sys.version.split()[0], "site_dirs": site_dirs,
-            "paths": [p for p in paths if p not in site_dirs] + site_dirs,
-            "stillair": str(Path(stillair.__file__).resolve().parent),
-            "package_parent": package_parent}
+            "paths": [os.path.abspath(p) for p in extra] + site_dirs,
+            "stillair": str(Path(stillair.__file__).resolve().parent)}
 
 
 def find_program_dir() -> Path:

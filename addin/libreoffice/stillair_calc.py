@@ -64,6 +64,16 @@ def _load_stillair():
     _state["evaluate"], _state["entries"] = evaluate, BY_NAME
 
 
+def _blank_text(name, args):
+    """Calc hands an add-in a reference to an empty cell as 0, never as blank.  For an optional
+    text argument (gas, method...) 0 cannot be meant, so it is read as the blank it came from;
+    an optional number argument cannot be told apart (see the README)."""
+    specs = FUNCTIONS[name]["args"]
+    return tuple(None if i < len(specs) and specs[i]["optional"] and specs[i]["kind"] == "text"
+                 and isinstance(value, float) and value == 0.0 else value
+                 for i, value in enumerate(args))
+
+
 def _call(name, args):
     _load_stillair()
     table = FUNCTIONS[name]["result"] == "table"
@@ -74,7 +84,7 @@ def _call(name, args):
     if entry is None:
         message = ("%s: not in the installed stillair; run stillair libreoffice-setup again" % name)
         return ((message,),) if table else message
-    result = _state["evaluate"](entry, *args)
+    result = _state["evaluate"](entry, *_blank_text(name, args))
     if table:
         if isinstance(result, str):  # the call's error message, in the array's first cell
             return ((result,),)
@@ -164,16 +174,26 @@ for _name in FUNCTIONS:
 
 _NAMES = "|".join(sorted((re.escape(n) for n in FUNCTIONS), key=len, reverse=True))
 # An add-in prefix as Excel writes it, as LibreOffice shows it after the import.
-_PREFIX = r"(?:_xll\.|_xludf\.|\[\d+\]!|'[^']*'!|'[^']*'#\$?[\w.]*\.|[\w.-]+\.xla[m]?!)?"
+_PREFIX = r"(?:_xll\.|_xludf\.|" + re.escape(IMPLEMENTATION) + r"\.|\[\d+\]!|'[^']*'!|'[^']*'#\$?[\w.]*\.|[\w.-]+\.xla[m]?!)?"
 _CALL = re.compile(r"(?<![\w.$])" + _PREFIX + r"(" + _NAMES + r")(?=\s*\()", re.I)
 _STRING = re.compile(r'("(?:[^"]|"")*")')
+
+
+def _bound(match):
+    name = match.group(1).upper()
+    if match.group(0) == _RESOLVED % name:  # already the add-in's call, as the API shows it
+        return match.group(0)
+    return name
+
+
+_RESOLVED = IMPLEMENTATION.upper() + ".%s"
 
 
 def rebind_formula(formula):
     """The formula with our function calls in their add-in form (None if nothing changes)."""
     parts = _STRING.split(formula)
     for index in range(0, len(parts), 2):  # odd parts are string literals: left alone
-        parts[index] = _CALL.sub(lambda m: m.group(1).upper(), parts[index])
+        parts[index] = _CALL.sub(_bound, parts[index])
     new = "".join(parts)
     return new if new != formula else None
 

@@ -52,10 +52,11 @@ class Session:
         self.env_args = [f"-env:UserInstallation={_url(profile)}"]
         if shared_cache:
             self.env_args.append(f"-env:UNO_SHARED_PACKAGES_CACHE={_url(shared_cache)}")
+        self.log = open(os.path.join(profile + "-soffice.log"), "ab")
         self.process = subprocess.Popen(
             [soffice, *self.env_args, "--headless", "--invisible", "--norestore", "--nologo",
              "--nodefault", f"--accept=socket,host=127.0.0.1,port={self.port};urp;"],
-            stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE,
+            stdin=subprocess.DEVNULL, stdout=self.log, stderr=subprocess.STDOUT,
             start_new_session=True)  # soffice is a wrapper script: end its whole group at close
         local = uno.getComponentContext()
         resolver = local.ServiceManager.createInstanceWithContext(
@@ -68,8 +69,7 @@ class Session:
                 break
             except NoConnectException:
                 if self.process.poll() is not None or time.time() > deadline:
-                    raise RuntimeError("soffice did not start: "
-                                       + self.process.stderr.read().decode(errors="replace")[-500:])
+                    raise RuntimeError(f"soffice did not start (see {self.log.name})")
                 time.sleep(0.2)
         self.desktop = self.ctx.ServiceManager.createInstanceWithContext(
             "com.sun.star.frame.Desktop", self.ctx)

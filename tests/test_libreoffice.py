@@ -1,0 +1,257 @@
+"""End to end in LibreOffice Calc: the extension built by `stillair libreoffice-setup`, installed
+into a fresh profile and an isolated shared-extension cache, computes every template and a workbook
+typed through LibreOffice's API exactly as `stillair calc` and the cell call path do.
+
+Needs LibreOffice (Debian: libreoffice-calc, python3-uno, libreoffice-script-provider-python) and
+the SDK's unoidl-write (libreoffice-dev); skipped with that reason when they are missing.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import shutil
+import subprocess
+import zipfile
+from pathlib import Path
+
+import pytest
+import xlsxwriter
+
+from stillair.addin.cells import call
+from stillair.addin.cli import main
+from stillair.addin.libreoffice.setup import libreoffice_environment
+
+ROOT = Path(__file__).resolve().parent.parent
+SESSION = Path(__file__).resolve().parent / "libreoffice" / "session.py"
+TEMPLATES = sorted((ROOT / "templates").glob("*.xlsx"))
+COMPARED_SHEETS = ("Calculation", "Results")
+RTOL = 1e-6
+# LibreOffice, like Excel, returns exactly 0 for a difference of two nearly equal numbers (an
+# energy balance's residual, 4e-13 W of 426 W, computes as 0); below this magnitude both values
+# are zero for every quantity in these workbooks.
+ZERO = 1e-9
+ENABLE = ("install LibreOffice and its SDK to run it (Debian/Ubuntu: apt-get install "
+          "libreoffice-calc python3-uno libreoffice-script-provider-python libreoffice-dev)")
+
+
+def _tools():
+    from stillair.addin.libreoffice.build import ToolMissing, find_program_dir, find_unoidl_write
+    from stillair.addin.libreoffice.setup import libreoffice_python
+
+    try:
+        program = find_program_dir()
+        find_unoidl_write(program)
+    except ToolMissing as error:
+        pytest.skip(f"LibreOffice end-to-end test: {error}; {ENABLE}", allow_module_level=True)
+    python = libreoffice_python(program)
+    if python is None or subprocess.run([str(python), "-c", "import uno"], capture_output=True,
+                                        env=libreoffice_environment()).returncode:
+        pytest.skip(f"LibreOffice end-to-end test: LibreOffice's Python cannot import uno; {ENABLE}",
+                    allow_module_level=True)
+    return program, python
+
+
+PROGRAM, LO_PYTHON = _tools()
+
+
+@pytest.fixture(scope="module")
+def installation(tmp_path_factory):
+    """`stillair libreoffice-setup` into a fresh profile and an isolated shared cache."""
+    base = tmp_path_factory.mktemp("libreoffice")
+    profile, cache = base / "profile", base / "shared"
+    assert main(["libreoffice-setup", "--profile", str(profile), "--shared-cache", str(cache)]) == 0
+    return {"profile": str(profile), "shared_cache": str(cache), "soffice": str(PROGRAM / "soffice")}
+
+
+def run_session(installation, jobs, tmp_path) -> list[dict]:
+    request = tmp_path / "request.json"
+    request.write_text(json.dumps(dict(installation, jobs=jobs)), encoding="utf-8")
+    done = subprocess.run([str(LO_PYTHON), str(SESSION), str(request)], capture_output=True,
+                          text=True, timeout=1800, cwd=tmp_path, env=libreoffice_environment())
+    assert done.returncode == 0, done.stderr[-2000:]
+    results = json.loads(done.stdout)["results"]
+    for result in results:
+        assert "failed" not in result, result["failed"]
+    return results
+
+
+def lo_value(item):
+    """A LibreOffice cell as `stillair calc` reports it: float, or text (errors as their text)."""
+    return item["value"] if "value" in item else item["text"]
+
+
+def relative_difference(a, b) -> float:
+    if a == b:
+        return 0.0
+    return abs(a - b) / max(abs(a), abs(b))
+
+
+def same(expected, actual) -> tuple[bool, float]:
+    """(equal within RTOL, relative difference) for numbers; exact equality for text."""
+    if isinstance(expected, bool):
+        expected = float(expected)
+    if expected is None:
+        expected = ""
+    if isinstance(expected, float) and isinstance(actual, float):
+        if abs(expected) < ZERO and abs(actual) < ZERO:
+            return True, 0.0
+        diff = relative_difference(expected, actual)
+        return diff <= RTOL, diff
+    return expected == actual, 0.0 if expected == actual else math.inf
+
+
+# ---------------------------------------------------------------------------------------------
+# Every template, recalculated by LibreOffice, against `stillair calc`
+
+
+@pytest.fixture(scope="module")
+def templates_in_libreoffice(installation, tmp_path_factory):
+    work = tmp_path_factory.mktemp("templates")
+    copies = []
+    for template in TEMPLATES:  # copies: LibreOffice writes lock files beside what it opens
+        copies.append(work / template.name)
+        shutil.copyfile(template, copies[-1])
+    results = run_session(installation, [{"open": str(p)} for p in copies], work)
+    return {Path(r["path"]).name: r for r in results}
+
+
+@pytest.mark.parametrize("template", TEMPLATES, ids=[t.stem for t in TEMPLATES])
+def test_template_recalculated_in_libreoffice_matches_calc(template, templates_in_libreoffice):
+    from stillair.addin.headless import evaluate_book
+
+    calc = evaluate_book(str(template)).values
+    lo = templates_in_libreoffice[template.name]["sheets"]
+    compared, worst, failures = 0, 0.0, []
+    for sheet in COMPARED_SHEETS:
+        assert sheet in lo, f"{template.name}: no {sheet} sheet in LibreOffice"
+        assert set(lo[sheet]) == set(calc[sheet]), f"{template.name}!{sheet}: formula cells differ"
+        for ref, item in lo[sheet].items():
+            ok, diff = same(calc[sheet][ref], lo_value(item))
+            compared += 1
+            worst = max(worst, diff)
+            if not ok:
+                failures.append(f"{sheet}!{ref} {item['formula']}: calc {calc[sheet][ref]!r}, "
+                                f"LibreOffice {lo_value(item)!r}")
+    print(f"{template.name}: {compared} formula cells compared, max relative difference {worst:.3g}")
+    assert not failures, "\n".join(failures[:20])
+    assert compared > 0
+
+
+# ---------------------------------------------------------------------------------------------
+# A workbook typed through LibreOffice's API
+
+BRANCHES = [["conv", "face", "room", "vplate", 0.6, 0.48, None, None, None, None],
+            ["rad", "face", "room", "radiation", 0.9, None, 0.48, None, None, None]]
+BOUNDARIES = [["face", "Q", 40.0], ["room", "T", 25.0]]
+NET_ROWS = 1 + 2 + 2  # header, two nodes, two branches
+
+
+def _table_cells(rows, top_left_row, first_column="D"):
+    cells = {}
+    for r, row in enumerate(rows):
+        for c, value in enumerate(row):
+            if value is not None:
+                cells[f"{chr(ord(first_column) + c)}{top_left_row + r}"] = value
+    return cells
+
+
+TYPED = {
+    "B1": ("=AIR_DENSITY(A1)", ("AIR_DENSITY", 20.0)),
+    "B2": ("=AIR_DENSITY(A1;)", ("AIR_DENSITY", 20.0)),
+    "B3": ("=H_CAVITY(15;5;0.016;1.2;;;;)", ("H_CAVITY", 15.0, 5.0, 0.016, 1.2)),
+    "B4": ('=H_CAVITY(15;5;0.016;1.2;90;"argon:0.9, air:0.1")',
+           ("H_CAVITY", 15.0, 5.0, 0.016, 1.2, 90.0, "argon:0.9, air:0.1")),
+    "B5": ('=GAS_PRANDTL("argon:0.9, air:0.1";10)', ("GAS_PRANDTL", "argon:0.9, air:0.1", 10.0)),
+    "B6": ('=AIR_DENSITY("x")', ("AIR_DENSITY", "x")),
+    "B7": ('=NET_TEMP(D1:M2;D5:F6;"face")', ("NET_TEMP", BRANCHES, BOUNDARIES, "face")),
+    "B8": ('=NET_HEAT(D1:M3;D5:F7;"conv";A3)', ("NET_HEAT", BRANCHES, BOUNDARIES, "conv")),
+    "B9": ("=NET_CHECK(D1:M2;D5:F6)", ("NET_CHECK", BRANCHES, BOUNDARIES)),
+    "B10": ('=H_VPLATE(60;20;0.5;A3;;A3)', ("H_VPLATE", 60.0, 20.0, 0.5)),  # empty text cells
+    # LibreOffice passes a reference to an empty cell as 0 (README): tilt 0, not the default 90.
+    "B14": ("=H_CAVITY(15;5;0.016;1.2;A3)", ("H_CAVITY", 15.0, 5.0, 0.016, 1.2, 0.0)),
+    "B11": ('=NU_VPLATE(-1;0.7)', ("NU_VPLATE", -1.0, 0.7)),
+    "B12": ("=AIR_DENSITY(A1:A2)", ("AIR_DENSITY", [[20.0], [None]])),
+    "B13": ("=STILLAIR_VERSION()", ("STILLAIR_VERSION",)),
+}
+
+
+@pytest.fixture(scope="module")
+def typed_workbook(installation, tmp_path_factory):
+    work = tmp_path_factory.mktemp("typed")
+    cells = {"A1": 20.0, **_table_cells(BRANCHES, 1), **_table_cells(BOUNDARIES, 5)}
+    cells.update({ref: formula for ref, (formula, _) in TYPED.items()})
+    saved = work / "typed-in-libreoffice.xlsx"
+    job = {"type": {"Sheet1": cells},
+           "arrays": {"Sheet1": {f"A20:J{19 + NET_ROWS}": "=NET_SOLVE(D1:M2;D5:F6)"}},
+           "save": str(saved)}
+    reopened = work / "reopened.xlsx"
+    typed = run_session(installation, [job], work)[0]["sheets"]["Sheet1"]
+    shutil.copyfile(saved, reopened)
+    again = run_session(installation, [{"open": str(reopened)}], work)[0]["sheets"]["Sheet1"]
+    return typed, again, saved
+
+
+@pytest.mark.parametrize("ref", sorted(TYPED, key=lambda r: int(r[1:])))
+def test_typed_call_matches_the_cell_call_path(ref, typed_workbook):
+    typed, _, _ = typed_workbook
+    name, *args = TYPED[ref][1]
+    expected = call(name, *args)
+    ok, diff = same(expected, lo_value(typed[ref]))
+    assert ok, f"{ref} {typed[ref]['formula']}: expected {expected!r}, LibreOffice {lo_value(typed[ref])!r}"
+
+
+def test_error_text_is_the_excel_text(typed_workbook):
+    typed, _, _ = typed_workbook
+    assert typed["B6"]["text"] == "AIR_DENSITY: t must be a number, not text, got 'x'"
+    assert typed["B11"]["text"] == call("NU_VPLATE", -1.0, 0.7)
+    assert typed["B12"]["text"] == "AIR_DENSITY: t must be a single cell, got a range of 2 cells"
+
+
+def test_net_solve_is_an_array_formula(typed_workbook):
+    typed, _, _ = typed_workbook
+    table = call("NET_SOLVE", BRANCHES, BOUNDARIES)
+    assert len(table) == NET_ROWS
+    for r, row in enumerate(table):
+        for c, expected in enumerate(row):
+            item = typed[f"{'ABCDEFGHIJ'[c]}{20 + r}"]
+            assert item["formula"].startswith("{=") and "NET_SOLVE" in item["formula"]
+            ok, _ = same(expected, lo_value(item))
+            assert ok, f"row {r} column {c}: expected {expected!r}, LibreOffice {lo_value(item)!r}"
+
+
+def test_saved_xlsx_reopens_with_the_same_results(typed_workbook):
+    """Saved as .xlsx by LibreOffice, the workbook opens in LibreOffice again with the same
+    results.  LibreOffice 7.4 writes the add-in's programmatic name into the file
+    (ORG.STILLAIR.CALC.FUNCTIONS.H_CAVITY(...)), which the load job rebinds like Excel's forms."""
+    typed, again, saved = typed_workbook
+    with zipfile.ZipFile(saved) as book:
+        sheet = next(n for n in book.namelist() if n.startswith("xl/worksheets/sheet"))
+        xml = book.read(sheet).decode("utf-8")
+    assert "ORG.STILLAIR.CALC.FUNCTIONS.H_CAVITY(" in xml.upper()
+    for ref in list(TYPED) + [f"{c}{r}" for c in "ABCDEFGHIJ" for r in range(20, 20 + NET_ROWS)]:
+        assert same(lo_value(typed[ref]), lo_value(again[ref]))[0], (ref, typed[ref], again[ref])
+
+
+# ---------------------------------------------------------------------------------------------
+# Excel's add-in prefixes
+
+PREFIXES = ["", "[1]!", "'C:\\Users\\someone\\AppData\\Roaming\\stillair.xlam'!", "_xll.",
+            "_xludf.", "stillair.xlam!"]
+
+
+def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
+    path = tmp_path / "prefixes.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    ws.write("A1", 20.0)
+    for row, prefix in enumerate(PREFIXES, start=2):
+        ws.write_formula(f"B{row}", f"={prefix}AIR_DENSITY(A1)", None, 0)
+        ws.write_formula(f"C{row}", f'=2*{prefix}H_CAVITY(15,5,0.016,1.2,,"air")', None, 0)
+    wb.close()
+    cells = run_session(installation, [{"open": str(path)}], tmp_path)[0]["sheets"]["Calc"]
+    density = call("AIR_DENSITY", 20.0)
+    h = call("H_CAVITY", 15.0, 5.0, 0.016, 1.2, None, "air")
+    for row, prefix in enumerate(PREFIXES, start=2):
+        assert same(density, lo_value(cells[f"B{row}"]))[0], (prefix, cells[f"B{row}"])
+        assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (prefix, cells[f"C{row}"])
