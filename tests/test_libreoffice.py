@@ -255,3 +255,24 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
     for row, prefix in enumerate(PREFIXES, start=2):
         assert same(density, lo_value(cells[f"B{row}"]))[0], (prefix, cells[f"B{row}"])
         assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (prefix, cells[f"C{row}"])
+
+
+# ---------------------------------------------------------------------------------------------
+# The Function Wizard
+
+
+def test_function_wizard_lists_every_registry_function(installation, tmp_path):
+    from stillair.addin.libreoffice.build import WIZARD_CATEGORY
+    from stillair.addin.registry import REGISTRY
+    from stillair.addin.xlfuncs import arg_doc
+
+    listed = run_session(installation, [{"functions": [f.name for f in REGISTRY]}], tmp_path)[0]["functions"]
+    assert sorted(listed) == sorted(f.name for f in REGISTRY)
+    add_in = 11  # Calc's category id of "Add-In" (its own numbering, from 1 = Database)
+    assert WIZARD_CATEGORY == "Add-In"
+    for entry in REGISTRY:
+        shown = listed[entry.name]
+        assert shown["description"] == f"[{entry.category}] {entry.description}"
+        assert shown["category"] == add_in
+        assert [a["name"] for a in shown["arguments"]] == [a.name for a in entry.args]
+        assert [a["description"] for a in shown["arguments"]] == [arg_doc(a) for a in entry.args]

@@ -8,7 +8,7 @@ build time, except the component (``stillair_calc.py``, shipped as it is):
   is compiled by the LibreOffice SDK's ``unoidl-write`` against LibreOffice's own types;
 * ``stillair_functions.json``: names, descriptions, argument names and descriptions, categories
   and result kinds for the Function Wizard, plus the Python paths that import stillair;
-* ``Basic/``: one Basic function per cell function, for Excel workbooks (see ``basic_module``);
+* ``Jobs.xcu``: runs the component's load job, which rebinds the calls in Excel workbooks;
 * ``stillair.components``, ``META-INF/manifest.xml``, ``description.xml``.
 """
 
@@ -24,11 +24,11 @@ import tempfile
 import zipfile
 from importlib import resources
 from pathlib import Path
-from xml.sax.saxutils import escape, quoteattr
+from xml.sax.saxutils import escape
 
 from ..registry import REGISTRY, CellFunction
 
-__all__ = ["IDENTIFIER", "IMPLEMENTATION", "INTERFACE", "BASIC_LIBRARY", "ToolMissing",
+__all__ = ["IDENTIFIER", "IMPLEMENTATION", "INTERFACE", "ToolMissing",
            "idl_source", "function_spec", "python_paths", "find_program_dir", "find_unoidl_write",
            "build_oxt"]
 
@@ -36,7 +36,6 @@ IDENTIFIER = "org.stillair.calc"              # the extension's identifier (unop
 IMPLEMENTATION = "org.stillair.calc.Functions"  # the add-in's implementation and service name
 REBIND_IMPLEMENTATION = "org.stillair.calc.RebindExcelCalls"  # the job run on loading a workbook
 INTERFACE = "org.stillair.calc.XStillairFunctions"
-BASIC_LIBRARY = "StillairXlsx"
 # Calc files add-in functions under its own fixed categories; ours go under "Add-In", and the
 # registry's category is shown in front of each description.
 WIZARD_CATEGORY = "Add-In"
@@ -168,56 +167,6 @@ def compile_idl(idl: str, out: Path, program_dir: Path | None = None) -> None:
         raise RuntimeError(f"unoidl-write failed: {(done.stderr or done.stdout).strip()[:500]}")
 
 
-def basic_module() -> str:
-    """LibreOffice Basic functions named like the cell functions, for workbooks from Excel.
-
-    An .xlsx stores a call as ``H_CAVITY(...)``; when LibreOffice's import does not map that name
-    to the add-in, it reads the call as a Basic macro call, which these functions answer by
-    handing their arguments to the add-in.  Omitted arguments stay omitted."""
-    lines = ["Option Explicit", "",
-             "Private oAddIn As Object", "",
-             "Private Function AddIn() As Object",
-             "    If IsNull(oAddIn) Or IsEmpty(oAddIn) Then",
-             f'        oAddIn = CreateUnoService("{IMPLEMENTATION}")',
-             "    End If",
-             "    AddIn = oAddIn",
-             "End Function", ""]
-    for entry in REGISTRY:
-        params = ", ".join(f"Optional a{i}" for i in range(len(entry.args)))
-        lines.append(f"Function {entry.name}({params})")
-        for i in range(len(entry.args)):
-            lines.append(f"    If IsMissing(a{i}) Then a{i} = Empty")
-        args = ", ".join(f"a{i}" for i in range(len(entry.args)))
-        lines.append(f"    {entry.name} = AddIn().{entry.name}({args})")
-        lines.append("End Function")
-        lines.append("")
-    return "\n".join(lines)
-
-
-def _basic_files() -> dict[str, str]:
-    module = "Functions"
-    code = escape(basic_module())
-    return {
-        f"{BASIC_LIBRARY}/script.xlb": (
-            '<?xml version="1.0" encoding="UTF-8"?>\n'
-            '<!DOCTYPE library:library PUBLIC "-//OpenOffice.org//DTD OfficeDocument 1.0//EN" "library.dtd">\n'
-            f'<library:library xmlns:library="http://openoffice.org/2000/library" library:name="{BASIC_LIBRARY}" '
-            'library:readonly="false" library:passwordprotected="false">\n'
-            f' <library:element library:name="{module}"/>\n'
-            '</library:library>\n'),
-        f"{BASIC_LIBRARY}/dialog.xlb": (
-            '<?xml version="1.0" encoding="UTF-8"?>\n'
-            '<!DOCTYPE library:library PUBLIC "-//OpenOffice.org//DTD OfficeDocument 1.0//EN" "library.dtd">\n'
-            f'<library:library xmlns:library="http://openoffice.org/2000/library" library:name="{BASIC_LIBRARY}" '
-            'library:readonly="false" library:passwordprotected="false"/>\n'),
-        f"{BASIC_LIBRARY}/{module}.xba": (
-            '<?xml version="1.0" encoding="UTF-8"?>\n'
-            '<!DOCTYPE script:module PUBLIC "-//OpenOffice.org//DTD OfficeDocument 1.0//EN" "module.dtd">\n'
-            f'<script:module xmlns:script="http://openoffice.org/2000/script" script:name="{module}" '
-            f'script:language="StarBasic">{code}</script:module>\n'),
-    }
-
-
 def _components() -> str:
     return ('<?xml version="1.0" encoding="UTF-8"?>\n'
             '<components xmlns="http://openoffice.org/2010/uno-components">\n'
@@ -252,12 +201,10 @@ def _jobs() -> str:
             '</oor:component-data>\n')
 
 
-def _manifest(with_basic: bool) -> str:
+def _manifest() -> str:
     entries = [("application/vnd.sun.star.uno-typelibrary;type=RDB", "stillair.rdb"),
                ("application/vnd.sun.star.uno-components", "stillair.components"),
                ("application/vnd.sun.star.configuration-data", "Jobs.xcu")]
-    if with_basic:
-        entries.append(("application/vnd.sun.star.basic-library", BASIC_LIBRARY))
     body = "".join(f' <manifest:file-entry manifest:media-type="{t}" manifest:full-path="{p}"/>\n'
                    for t, p in entries)
     return ('<?xml version="1.0" encoding="UTF-8"?>\n'
@@ -280,8 +227,7 @@ def _description(version: str) -> str:
             '</description>\n')
 
 
-def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | None = None,
-              with_basic: bool = False) -> dict:
+def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | None = None) -> dict:
     """Write the extension to ``target`` (which must not exist); returns the function spec."""
     target = Path(target)
     if target.exists():
@@ -292,7 +238,7 @@ def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | No
         rdb = Path(directory) / "stillair.rdb"
         compile_idl(idl_source(), rdb, program_dir)
         members = {
-            "META-INF/manifest.xml": _manifest(with_basic),
+            "META-INF/manifest.xml": _manifest(),
             "description.xml": _description(spec["stillair_version"]),
             "stillair.components": _components(),
             "Jobs.xcu": _jobs(),
@@ -300,15 +246,14 @@ def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | No
             "stillair_functions.json": json.dumps(spec, indent=1, ensure_ascii=False),
             "stillair.idl": idl_source(),
         }
-        if with_basic:
-            members.update(_basic_files())
-        partial = target.with_name(target.name + ".part")
-        with zipfile.ZipFile(partial, "x", zipfile.ZIP_DEFLATED) as oxt:
-            for name, text in members.items():
-                oxt.writestr(name, text.encode("utf-8"))
-            oxt.write(rdb, "stillair.rdb")
-        try:
-            os.link(partial, target)  # fails rather than replace a file created meanwhile
-        finally:
-            partial.unlink()
+        try:  # mode "x": fails rather than replace a file created meanwhile
+            with zipfile.ZipFile(target, "x", zipfile.ZIP_DEFLATED) as oxt:
+                for name, text in members.items():
+                    oxt.writestr(name, text.encode("utf-8"))
+                oxt.write(rdb, "stillair.rdb")
+        except FileExistsError:
+            raise
+        except BaseException:
+            target.unlink(missing_ok=True)  # no half-written extension left behind
+            raise
     return spec

@@ -4,7 +4,7 @@ Run as a script by the tests and the benchmark: ``python3 session.py REQUEST.jso
 JSON object.  The request names an isolated user profile and shared-extension cache (the
 extension is installed there with ``unopkg add --shared``), and a list of jobs:
 
-``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
+``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
 report every formula cell (formula, value or text, error code) and the load and recalculation
 times.  ``{"type": {"Sheet1": {"A1": 1.5, "B1": "=F(A1)"}}, "arrays": {"Sheet1": {"A9:J20":
 "=F(..)"}}}``: type cells into a new spreadsheet through the API and report them likewise.
@@ -16,7 +16,6 @@ import signal
 import socket
 import subprocess
 import sys
-import tempfile
 import time
 
 import uno
@@ -171,6 +170,21 @@ def type_workbook(desktop, cells, arrays, save=None):
         doc.close(True)
 
 
+def function_descriptions(ctx, names):
+    """What the Function Wizard lists for the functions named (com.sun.star.sheet.FunctionDescriptions)."""
+    descriptions = ctx.ServiceManager.createInstanceWithContext(
+        "com.sun.star.sheet.FunctionDescriptions", ctx)
+    found = {}
+    for index in range(descriptions.getCount()):
+        props = {p.Name: p.Value for p in descriptions.getByIndex(index)}
+        if props["Name"] in names:
+            found[props["Name"]] = {
+                "description": props["Description"], "category": props["Category"],
+                "arguments": [{"name": a.Name, "description": a.Description, "optional": a.IsOptional}
+                              for a in props["Arguments"] or ()]}
+    return {"functions": found}
+
+
 def main(request_path):
     with open(request_path, encoding="utf-8") as file:
         request = json.load(file)
@@ -179,7 +193,9 @@ def main(request_path):
     try:
         for job in request["jobs"]:
             try:
-                if "open" in job:
+                if "functions" in job:
+                    results.append(function_descriptions(session.ctx, set(job["functions"])))
+                elif "open" in job:
                     results.append(open_and_recalculate(session.desktop, job["open"]))
                 else:
                     results.append(type_workbook(session.desktop, job.get("type", {}),
