@@ -240,6 +240,39 @@ PREFIXES = ["", "[1]!", "'C:\\Users\\someone\\AppData\\Roaming\\stillair.xlam'!"
             "_xludf.", "stillair.xlam!"]
 
 
+def with_external_link(source: Path, target: Path, names: list[str]) -> None:
+    """A copy of ``source`` with the externalLink part Excel writes beside ``[1]!NAME(`` calls
+    of an add-in's functions (the add-in workbook and the names it provides)."""
+    main_ns = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
+    rel_ns = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
+    link = (f'<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<externalLink xmlns="{main_ns}" '
+            f'xmlns:r="{rel_ns}"><externalBook r:id="rId1"><definedNames>'
+            + "".join(f'<definedName name="{n}"/>' for n in names)
+            + "</definedNames></externalBook></externalLink>")
+    link_rels = ('<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships '
+                 'xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship '
+                 f'Id="rId1" Type="{rel_ns}/externalLinkPath" Target="file:///C:\\Users\\someone\\'
+                 'AppData\\Roaming\\Microsoft\\AddIns\\stillair.xlam" TargetMode="External"/></Relationships>')
+    edits = {
+        "xl/workbook.xml": ("</sheets>", '</sheets><externalReferences><externalReference r:id="rId99"/>'
+                                         "</externalReferences>"),
+        "xl/_rels/workbook.xml.rels": ("</Relationships>", f'<Relationship Id="rId99" Type="{rel_ns}/'
+                                       'externalLink" Target="externalLinks/externalLink1.xml"/></Relationships>'),
+        "[Content_Types].xml": ("</Types>", '<Override PartName="/xl/externalLinks/externalLink1.xml" '
+                                'ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.'
+                                'externalLink+xml"/></Types>'),
+    }
+    with zipfile.ZipFile(source) as zin, zipfile.ZipFile(target, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename in edits:
+                old, new = edits[info.filename]
+                data = data.decode("utf-8").replace(old, new, 1).encode("utf-8")
+            zout.writestr(info, data)
+        zout.writestr("xl/externalLinks/externalLink1.xml", link)
+        zout.writestr("xl/externalLinks/_rels/externalLink1.xml.rels", link_rels)
+
+
 def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
     path = tmp_path / "prefixes.xlsx"
     wb = xlsxwriter.Workbook(str(path))
@@ -249,12 +282,15 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
         ws.write_formula(f"B{row}", f"={prefix}AIR_DENSITY(A1)", None, 0)
         ws.write_formula(f"C{row}", f'=2*{prefix}H_CAVITY(15,5,0.016,1.2,,"air")', None, 0)
     wb.close()
-    cells = run_session(installation, [{"open": str(path)}], tmp_path)[0]["sheets"]["Calc"]
+    linked = tmp_path / "linked.xlsx"  # as Excel saves [1]!NAME calls: with the link part
+    with_external_link(path, linked, ["AIR_DENSITY", "H_CAVITY"])
     density = call("AIR_DENSITY", 20.0)
     h = call("H_CAVITY", 15.0, 5.0, 0.016, 1.2, None, "air")
-    for row, prefix in enumerate(PREFIXES, start=2):
-        assert same(density, lo_value(cells[f"B{row}"]))[0], (prefix, cells[f"B{row}"])
-        assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (prefix, cells[f"C{row}"])
+    for result in run_session(installation, [{"open": str(path)}, {"open": str(linked)}], tmp_path):
+        cells = result["sheets"]["Calc"]
+        for row, prefix in enumerate(PREFIXES, start=2):
+            assert same(density, lo_value(cells[f"B{row}"]))[0], (result["path"], prefix, cells[f"B{row}"])
+            assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (result["path"], prefix, cells[f"C{row}"])
 
 
 # ---------------------------------------------------------------------------------------------
