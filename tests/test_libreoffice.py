@@ -12,6 +12,7 @@ import json
 import math
 import shutil
 import subprocess
+import sys
 import zipfile
 from pathlib import Path
 
@@ -45,9 +46,16 @@ def _tools():
     except ToolMissing as error:
         pytest.skip(f"LibreOffice end-to-end test: {error}; {ENABLE}", allow_module_level=True)
     python = libreoffice_python(program)
-    if python is None or subprocess.run([str(python), "-c", "import uno"], capture_output=True,
-                                        env=libreoffice_environment()).returncode:
+    probe = subprocess.run([str(python), "-c", "import sys, uno; print('%d.%d' % sys.version_info[:2])"],
+                           capture_output=True, text=True, env=libreoffice_environment()) if python else None
+    if probe is None or probe.returncode:
         pytest.skip(f"LibreOffice end-to-end test: LibreOffice's Python cannot import uno; {ENABLE}",
+                    allow_module_level=True)
+    here = "%d.%d" % sys.version_info[:2]
+    if probe.stdout.strip() != here:
+        pytest.skip(f"LibreOffice end-to-end test: LibreOffice runs Python {probe.stdout.strip()}, this "
+                    f"environment is Python {here}; run the tests from a Python {probe.stdout.strip()} "
+                    "environment (stillair's compiled dependencies must match LibreOffice's Python)",
                     allow_module_level=True)
     return program, python
 
@@ -312,3 +320,39 @@ def test_function_wizard_lists_every_registry_function(installation, tmp_path):
         assert shown["category"] == add_in
         assert [a["name"] for a in shown["arguments"]] == [a.name for a in entry.args]
         assert [a["description"] for a in shown["arguments"]] == [arg_doc(a) for a in entry.args]
+
+
+def _lo_version() -> str:
+    return subprocess.run([str(LO_PYTHON), "-c", "import sys; print('%d.%d' % sys.version_info[:2])"],
+                          capture_output=True, text=True, env=libreoffice_environment()).stdout.strip()
+
+
+@pytest.mark.parametrize("broken", ["environment gone", "other Python version"])
+def test_cells_say_why_when_stillair_cannot_be_imported(tmp_path, broken):
+    """An extension whose recorded environment is gone or of another Python version: every
+    cell names the reason instead of showing #NAME?."""
+    from stillair.addin.libreoffice.build import build_oxt, python_paths
+    from stillair.addin.libreoffice.setup import install_options
+
+    paths = dict(python_paths(), executable="/gone/venv/bin/python3", site_dirs=[],
+                 paths=["/gone/venv/lib/python3/site-packages"])
+    if broken == "other Python version":
+        paths["version"] = "3.99"
+    oxt = tmp_path / "stillair.oxt"
+    build_oxt(oxt, paths=paths, program_dir=PROGRAM)
+    install = {"profile": str(tmp_path / "profile"), "shared_cache": str(tmp_path / "shared"),
+               "soffice": str(PROGRAM / "soffice")}
+    options, _ = install_options(install["profile"], install["shared_cache"])
+    subprocess.run([str(PROGRAM / "unopkg"), "add", *options, str(oxt)], check=True,
+                   capture_output=True, env=libreoffice_environment())
+    job = {"type": {"Sheet1": {"A1": "=AIR_DENSITY(20)"}},
+           "arrays": {"Sheet1": {"C1:D2": "=NET_SOLVE(F1:G1;F2:G2)"}}}
+    cells = run_session(install, [job], tmp_path)[0]["sheets"]["Sheet1"]
+    message = ("stillair: cannot import stillair from /gone/venv/bin/python3 (not found on its "
+               "paths); run stillair libreoffice-setup again")
+    if broken == "other Python version":
+        here = _lo_version()
+        message = (f"stillair: LibreOffice runs Python {here} but stillair was set up from Python 3.99 "
+                   f"(/gone/venv/bin/python3); run stillair libreoffice-setup from a Python {here} environment")
+    assert cells["A1"]["text"] == message
+    assert cells["C1"]["text"] == message

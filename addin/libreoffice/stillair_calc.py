@@ -54,6 +54,11 @@ def _load_stillair():
         sys.path.insert(0, directory)
     for directory in setup["site_dirs"]:
         site.addsitedir(directory)
+    import importlib.util
+    if importlib.util.find_spec("stillair") is None:
+        _state["error"] = ("stillair: cannot import stillair from %s (not found on its paths); run "
+                           "stillair libreoffice-setup again" % setup["executable"])
+        return
     try:
         from stillair.addin.cells import evaluate
         from stillair.addin.registry import BY_NAME
