@@ -9,13 +9,14 @@ computation goes through stillair's one call path (``stillair.addin.cells.evalua
 shows the same value or the same short message as in Excel.
 """
 
+import importlib.util
 import json
 import os
 import re
 import site
 import sys
 
-import uno
+import uno  # noqa: F401  (installs the import hook that the com.sun.star imports below need)
 import unohelper
 from com.sun.star.lang import Locale, XLocalizable, XServiceInfo, XServiceName
 from com.sun.star.sheet import LocalizedName, XAddIn, XCompatibilityNames
@@ -54,7 +55,6 @@ def _load_stillair():
         sys.path.insert(0, directory)
     for directory in setup["site_dirs"]:
         site.addsitedir(directory)
-    import importlib.util
     if importlib.util.find_spec("stillair") is None:
         _state["error"] = ("stillair: cannot import stillair from %s (not found on its paths); run "
                            "stillair libreoffice-setup again" % setup["executable"])
@@ -138,7 +138,8 @@ class StillairAddIn(unohelper.Base, XStillairFunctions, XAddIn, XCompatibilityNa
     def getDisplayCategoryName(self, name):
         return FUNCTIONS[name]["category"] if name in FUNCTIONS else ""
 
-    # XCompatibilityNames: the name an Excel workbook (.xlsx) stores the call under.
+    # XCompatibilityNames: the name an Excel workbook (.xlsx) stores the call under.  LibreOffice
+    # 7.4 does not use it when it reads or writes .xlsx (hence the load job below).
     def getCompatibilityNames(self, name):
         if name not in FUNCTIONS:
             return ()
@@ -175,23 +176,24 @@ for _name in FUNCTIONS:
 # (H_CAVITY(...), also with the prefixes Excel writes for add-in functions) as a call of a Basic
 # macro of that name, and shows #NAME?.  When such a workbook has been loaded, this job rewrites
 # those calls of our functions to the add-in's own calls, in cells, array formulas and defined
-# names; the formulas are otherwise unchanged, and saving as .xlsx writes the plain names again.
+# names; the formulas are otherwise unchanged.
 
 _NAMES = "|".join(sorted((re.escape(n) for n in FUNCTIONS), key=len, reverse=True))
-# An add-in prefix as Excel writes it, as LibreOffice shows it after the import.
-_PREFIX = r"(?:_xll\.|_xludf\.|" + re.escape(IMPLEMENTATION) + r"\.|\[\d+\]!|'[^']*'!|'[^']*'#\$?[\w.]*\.|[\w.-]+\.xla[m]?!)?"
+# The prefixes Excel writes before an add-in function ([1]!, 'path\stillair.xlam'!, stillair.xlam!,
+# _xll., _xludf.) and the add-in's programmatic name that LibreOffice itself writes into .xlsx,
+# as LibreOffice shows them after the import.
+_PREFIX = (r"(?:_xll\.|_xludf\.|" + re.escape(IMPLEMENTATION) + r"\.|\[\d+\]!|'[^']*'!"
+           r"|[\w.-]+\.xla[m]?!)?")
 _CALL = re.compile(r"(?<![\w.$])" + _PREFIX + r"(" + _NAMES + r")(?=\s*\()", re.I)
 _STRING = re.compile(r'("(?:[^"]|"")*")')
 
 
+_RESOLVED = IMPLEMENTATION.upper() + ".%s"  # a call already bound, as the API shows it
+
+
 def _bound(match):
     name = match.group(1).upper()
-    if match.group(0) == _RESOLVED % name:  # already the add-in's call, as the API shows it
-        return match.group(0)
-    return name
-
-
-_RESOLVED = IMPLEMENTATION.upper() + ".%s"
+    return match.group(0) if match.group(0) == _RESOLVED % name else name
 
 
 def rebind_formula(formula):
