@@ -356,3 +356,28 @@ def test_cells_say_why_when_stillair_cannot_be_imported(tmp_path, broken):
                    f"(/gone/venv/bin/python3); run stillair libreoffice-setup from a Python {here} environment")
     assert cells["A1"]["text"] == message
     assert cells["C1"]["text"] == message
+
+
+def test_setup_updates_in_place_and_keeps_other_extensions(tmp_path, capsys):
+    """A second set-up updates org.stillair.calc in place; another extension stays installed."""
+    from stillair.addin.libreoffice.setup import install_options
+
+    profile, cache = tmp_path / "profile", tmp_path / "shared"
+    other = tmp_path / "other.oxt"
+    with zipfile.ZipFile(other, "w") as oxt:
+        oxt.writestr("META-INF/manifest.xml", '<?xml version="1.0" encoding="UTF-8"?>\n'
+                     '<manifest:manifest xmlns:manifest="http://openoffice.org/2001/manifest"/>\n')
+        oxt.writestr("description.xml", '<?xml version="1.0" encoding="UTF-8"?>\n'
+                     '<description xmlns="http://openoffice.org/extensions/description/2006">'
+                     '<identifier value="org.example.someone.else"/><version value="1.0"/></description>\n')
+    options, _ = install_options(str(profile), str(cache))
+    unopkg = str(PROGRAM / "unopkg")
+    subprocess.run([unopkg, "add", *options, str(other)], check=True, capture_output=True,
+                   env=libreoffice_environment())
+    for verb in ("Installed", "Updated"):
+        assert main(["libreoffice-setup", "--profile", str(profile), "--shared-cache", str(cache)]) == 0
+        assert f"{verb} org.stillair.calc" in capsys.readouterr().out
+    listing = subprocess.run([unopkg, "list", *options], check=True, capture_output=True, text=True,
+                             env=libreoffice_environment()).stdout
+    assert listing.count("Identifier: org.stillair.calc") == 1
+    assert "Identifier: org.example.someone.else" in listing

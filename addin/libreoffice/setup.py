@@ -196,7 +196,8 @@ def verify(program_dir: Path, options: list[str], profile: str | None, out) -> b
 
 
 def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = None,
-        shared_cache: str | None = None, out=sys.stdout) -> int:
+        shared_cache: str | None = None, out=None) -> int:
+    out = out or sys.stdout
     try:
         if oxt is not None:
             if os.path.exists(oxt):
