@@ -381,3 +381,15 @@ def test_setup_updates_in_place_and_keeps_other_extensions(tmp_path, capsys):
                              env=libreoffice_environment()).stdout
     assert listing.count("Identifier: org.stillair.calc") == 1
     assert "Identifier: org.example.someone.else" in listing
+
+
+def test_setup_refuses_another_python_version(monkeypatch, tmp_path, capsys):
+    from stillair.addin.libreoffice import setup
+
+    real = setup.python_paths
+    monkeypatch.setattr(setup, "python_paths", lambda: dict(real(), version="3.99"))
+    assert main(["libreoffice-setup", "--profile", str(tmp_path / "p"), "--shared-cache", str(tmp_path / "c")]) == 2
+    out, err = capsys.readouterr()
+    assert f"is Python {_lo_version()}, this environment" in out and "is Python 3.99" in out
+    assert err == "stillair libreoffice-setup: nothing installed (the reason is above)\n"
+    assert not (tmp_path / "c").exists()

@@ -85,6 +85,14 @@ def check_import(program_dir: Path, paths: dict) -> tuple[bool, str]:
     python = libreoffice_python(program_dir)
     if python is None:
         return False, "LibreOffice's Python was not found"
+    version = subprocess.run([str(python), "-c", "import sys; print('%d.%d' % sys.version_info[:2])"],
+                             capture_output=True, text=True, stdin=subprocess.DEVNULL, timeout=60,
+                             env=libreoffice_environment()).stdout.strip()
+    if version != paths["version"]:
+        return False, (f"LibreOffice's Python ({python}) is Python {version or '?'}, this environment "
+                       f"({paths['executable']}) is Python {paths['version']}: stillair's compiled "
+                       f"dependencies (numpy, scipy, CoolProp) need the same version; run the set-up "
+                       f"from a Python {version} environment")
     done = subprocess.run([str(python), "-c", _CHECK, json.dumps(paths)], capture_output=True,
                           text=True, stdin=subprocess.DEVNULL, timeout=120, cwd=tempfile.gettempdir(),
                           env=libreoffice_environment())
@@ -218,8 +226,7 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
         ok, report = check_import(program_dir, paths)
         print(report, file=out)
         if not ok:
-            print("stillair libreoffice-setup: nothing installed. Run the set-up from a Python "
-                  "environment of the same version as LibreOffice's Python.", file=sys.stderr)
+            print("stillair libreoffice-setup: nothing installed (the reason is above)", file=sys.stderr)
             return EXIT_PROBLEM
         options, where = install_options(profile, shared_cache)
         update = _installed(unopkg, options)
