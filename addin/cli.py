@@ -62,6 +62,16 @@ def build_parser() -> argparse.ArgumentParser:
 
     setup = commands.add_parser("excel-setup", help="prepare xlwings for Windows Excel")
     setup.add_argument("--dry-run", action="store_true", help="show what would be written")
+
+    lo = commands.add_parser("libreoffice-setup", help="build and install the LibreOffice Calc extension",
+                             description="Build the LibreOffice extension (.oxt) from the cell functions "
+                             "and install it with LibreOffice's unopkg (for the current user; as root, "
+                             "shared for every user). Other extensions are never touched.")
+    lo.add_argument("--dry-run", action="store_true", help="check and show what would be installed")
+    lo.add_argument("--oxt", metavar="PATH", help="only write the extension file (never over an existing file)")
+    lo.add_argument("--profile", metavar="DIR", help="LibreOffice user profile to use (default: yours)")
+    lo.add_argument("--shared-cache", metavar="DIR",
+                    help="install as a shared extension into DIR only (an isolated install, e.g. for tests)")
     return parser
 
 
@@ -460,6 +470,10 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "excel-setup":
         from .excel_setup import run
         return run(dry_run=args.dry_run)
+    if args.command == "libreoffice-setup":
+        from .libreoffice.setup import run as libreoffice_setup
+        return libreoffice_setup(dry_run=args.dry_run, oxt=args.oxt, profile=args.profile,
+                                 shared_cache=args.shared_cache)
     return 0
 
 

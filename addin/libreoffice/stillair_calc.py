@@ -1,0 +1,295 @@
+"""stillair's cell functions as a LibreOffice Calc add-in (UNO component, run by LibreOffice).
+
+This file is shipped unchanged inside the extension built by ``stillair libreoffice-setup``;
+LibreOffice's Python loader runs it, never the stillair package itself.  Everything specific to
+the functions comes from ``stillair_functions.json``, written into the same extension from the
+cell-function registry when the extension is built: the names, argument names and descriptions
+shown in the Function Wizard, and the Python paths of the environment that ran the set-up.  The
+computation goes through stillair's one call path (``stillair.addin.cells.evaluate``), so a cell
+shows the same value or the same short message as in Excel.
+"""
+
+import importlib.util
+import json
+import os
+import re
+import site
+import sys
+
+import uno  # noqa: F401  (installs the import hook that the com.sun.star imports below need)
+import unohelper
+from com.sun.star.lang import Locale, XLocalizable, XServiceInfo, XServiceName
+from com.sun.star.sheet import LocalizedName, XAddIn, XCompatibilityNames
+from com.sun.star.task import XJob
+
+from org.stillair.calc import XStillairFunctions
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+with open(os.path.join(HERE, "stillair_functions.json"), encoding="utf-8") as _file:
+    SPEC = json.load(_file)
+FUNCTIONS = {f["name"]: f for f in SPEC["functions"]}
+IMPLEMENTATION = SPEC["implementation"]
+SERVICES = ("com.sun.star.sheet.AddIn",)
+REBIND_IMPLEMENTATION = SPEC["rebind_implementation"]
+REBIND_SERVICES = ("com.sun.star.task.Job",)
+
+_state = {"evaluate": None, "entries": None, "error": None}
+
+
+def _load_stillair():
+    """Import stillair from the environment recorded at set-up; remember a failure's reason."""
+    if _state["evaluate"] is not None or _state["error"] is not None:
+        return
+    setup = SPEC["python"]
+    here = "%d.%d" % sys.version_info[:2]
+    if here != setup["version"]:
+        _state["error"] = ("stillair: LibreOffice runs Python %s but stillair was set up from Python %s "
+                           "(%s); run stillair libreoffice-setup from a Python %s environment"
+                           % (here, setup["version"], setup["executable"], here))
+        return
+    # The set-up environment goes first, so its numpy and scipy win over any system copies; its
+    # .pth files (an editable install's finder among them) are processed as at interpreter start.
+    for directory in reversed(setup["paths"]):
+        if directory in sys.path:
+            sys.path.remove(directory)
+        sys.path.insert(0, directory)
+    for directory in setup["site_dirs"]:
+        site.addsitedir(directory)
+    if importlib.util.find_spec("stillair") is None:
+        _state["error"] = ("stillair: cannot import stillair from %s (not found on its paths); run "
+                           "stillair libreoffice-setup again" % setup["executable"])
+        return
+    try:
+        from stillair.addin.cells import evaluate
+        from stillair.addin.registry import BY_NAME
+    except Exception as error:  # shown in every cell instead of #NAME? with no reason
+        _state["error"] = ("stillair: cannot import stillair from %s (%s: %s); run stillair "
+                           "libreoffice-setup again" % (setup["executable"], type(error).__name__, error))
+        return
+    _state["evaluate"], _state["entries"] = evaluate, BY_NAME
+
+
+def _blank_text(name, args):
+    """Calc hands an add-in a reference to an empty cell as 0, never as blank.  For an optional
+    text argument (gas, method...) 0 cannot be meant, so it is read as the blank it came from;
+    an optional number argument cannot be told apart (see the README)."""
+    specs = FUNCTIONS[name]["args"]
+    return tuple(None if i < len(specs) and specs[i]["optional"] and specs[i]["kind"] == "text"
+                 and isinstance(value, float) and value == 0.0 else value
+                 for i, value in enumerate(args))
+
+
+def _call(name, args):
+    _load_stillair()
+    table = FUNCTIONS[name]["result"] == "table"
+    if _state["error"] is not None:
+        message = _state["error"][:255]
+        return ((message,),) if table else message
+    entry = _state["entries"].get(name)
+    if entry is None:
+        message = ("%s: not in the installed stillair; run stillair libreoffice-setup again" % name)
+        return ((message,),) if table else message
+    result = _state["evaluate"](entry, *_blank_text(name, args))
+    if table:
+        if isinstance(result, str):  # the call's error message, in the array's first cell
+            return ((result,),)
+        return tuple(tuple(row) for row in result)
+    if isinstance(result, list):
+        # A range argument gives an array of the broadcast shape; typed as a 2-D array so that
+        # Calc spreads it over an array formula (and shows its first element in a single cell).
+        return uno.Any("[][]any", tuple(tuple(row) for row in result))
+    return result
+
+
+def _function_method(name):
+    def method(self, *args):
+        return _call(name, args)
+    method.__name__ = name
+    return method
+
+
+class StillairAddIn(unohelper.Base, XStillairFunctions, XAddIn, XCompatibilityNames,
+                    XServiceName, XServiceInfo, XLocalizable):
+    def __init__(self, ctx):
+        self.ctx = ctx
+        self.locale = Locale("en", "US", "")
+
+    # XAddIn: what the Function Wizard shows, straight from the registry's texts.
+    def getProgrammaticFuntionName(self, display_name):  # (sic) the interface's own spelling
+        return display_name if display_name in FUNCTIONS else ""
+
+    def getDisplayFunctionName(self, name):
+        return name if name in FUNCTIONS else ""
+
+    def getFunctionDescription(self, name):
+        return FUNCTIONS[name]["description"] if name in FUNCTIONS else ""
+
+    def _arg(self, name, index):
+        args = FUNCTIONS.get(name, {}).get("args", [])
+        return args[index] if 0 <= index < len(args) else None
+
+    def getDisplayArgumentName(self, name, index):
+        arg = self._arg(name, index)
+        return arg["name"] if arg else ""
+
+    def getArgumentDescription(self, name, index):
+        arg = self._arg(name, index)
+        return arg["doc"] if arg else ""
+
+    def getProgrammaticCategoryName(self, name):
+        return SPEC["wizard_category"]
+
+    def getDisplayCategoryName(self, name):
+        return FUNCTIONS[name]["category"] if name in FUNCTIONS else ""
+
+    # XCompatibilityNames: the name an Excel workbook (.xlsx) stores the call under.  LibreOffice
+    # 7.4 does not use it when it reads or writes .xlsx (hence the load job below).
+    def getCompatibilityNames(self, name):
+        if name not in FUNCTIONS:
+            return ()
+        return (LocalizedName(Locale("en", "US", ""), name), LocalizedName(Locale("en", "", ""), name))
+
+    # XLocalizable
+    def setLocale(self, locale):
+        self.locale = locale
+
+    def getLocale(self):
+        return self.locale
+
+    # XServiceName: the prefix of the functions' programmatic names in files and the API.
+    def getServiceName(self):
+        return IMPLEMENTATION
+
+    # XServiceInfo
+    def getImplementationName(self):
+        return IMPLEMENTATION
+
+    def supportsService(self, name):
+        return name in SERVICES
+
+    def getSupportedServiceNames(self):
+        return SERVICES
+
+
+for _name in FUNCTIONS:
+    setattr(StillairAddIn, _name, _function_method(_name))
+
+
+# ---------------------------------------------------------------------------------------------
+# Workbooks written by Excel.  LibreOffice reads a call of an unknown function in an .xlsx file
+# (H_CAVITY(...), also with the prefixes Excel writes for add-in functions) as a call of a Basic
+# macro of that name, and shows #NAME?.  When such a workbook has been loaded, this job rewrites
+# those calls of our functions to the add-in's own calls, in cells, array formulas and defined
+# names; the formulas are otherwise unchanged.
+
+_NAMES = "|".join(sorted((re.escape(n) for n in FUNCTIONS), key=len, reverse=True))
+# The prefixes Excel writes before an add-in function ([1]!, 'path\stillair.xlam'!, stillair.xlam!,
+# _xll., _xludf.) and the add-in's programmatic name that LibreOffice itself writes into .xlsx,
+# as LibreOffice shows them after the import.
+_PREFIX = (r"(?:_xll\.|_xludf\.|" + re.escape(IMPLEMENTATION) + r"\.|\[\d+\]!|'[^']*'!"
+           r"|[\w.-]+\.xla[m]?!)?")
+_CALL = re.compile(r"(?<![\w.$])" + _PREFIX + r"(" + _NAMES + r")(?=\s*\()", re.I)
+_STRING = re.compile(r'("(?:[^"]|"")*")')
+
+
+_RESOLVED = IMPLEMENTATION.upper() + ".%s"  # a call already bound, as the API shows it
+
+
+def _bound(match):
+    name = match.group(1).upper()
+    return match.group(0) if match.group(0) == _RESOLVED % name else name
+
+
+def rebind_formula(formula):
+    """The formula with our function calls in their add-in form (None if nothing changes)."""
+    parts = _STRING.split(formula)
+    for index in range(0, len(parts), 2):  # odd parts are string literals: left alone
+        parts[index] = _CALL.sub(_bound, parts[index])
+    new = "".join(parts)
+    return new if new != formula else None
+
+
+FORMULA_CELLS = 16  # com.sun.star.sheet.CellFlags.FORMULA
+
+
+def rebind_document(doc):
+    """Rewrite every unresolved call of our functions in a spreadsheet; returns the count."""
+    changed = 0
+    arrays_done = set()
+    sheets = doc.getSheets()
+    for index in range(sheets.getCount()):
+        sheet = sheets.getByIndex(index)
+        cells = sheet.queryContentCells(FORMULA_CELLS).getCells().createEnumeration()
+        while cells.hasMoreElements():
+            cell = cells.nextElement()
+            new = rebind_formula(cell.getFormula())
+            if new is None:
+                continue
+            cursor = sheet.createCursorByRange(cell)
+            cursor.collapseToCurrentArray()  # stays the one cell outside an array formula
+            array_formula = cursor.getArrayFormula()
+            if not array_formula:
+                cell.setFormula(new)
+                changed += 1
+                continue
+            address = cursor.getRangeAddress()
+            key = (index, address.StartColumn, address.StartRow, address.EndColumn, address.EndRow)
+            if key not in arrays_done:
+                arrays_done.add(key)
+                # The cell's formula reads "{=...}" in the API grammar (";" separators), the
+                # grammar setArrayFormula takes; getArrayFormula's text is in another one.
+                if new.startswith("{") and new.endswith("}"):
+                    new = new[1:-1]
+                cursor.setArrayFormula(new)
+                changed += 1
+    names = doc.getPropertyValue("NamedRanges")
+    for name in names.getElementNames():
+        named = names.getByName(name)
+        new = rebind_formula(named.getContent())
+        if new is not None:
+            named.setContent(new)
+            changed += 1
+    return changed
+
+
+def rebind_loaded(doc):
+    try:
+        if doc is None or not doc.supportsService("com.sun.star.sheet.SpreadsheetDocument"):
+            return
+        was_modified = doc.isModified()
+        if rebind_document(doc):
+            doc.calculateAll()
+            doc.getUndoManager().clear()  # nothing the user did to undo
+            if not was_modified:
+                doc.setModified(False)
+    except Exception:  # a document that cannot be rewritten is left as it was loaded
+        pass
+
+
+class RebindExcelCalls(unohelper.Base, XJob, XServiceInfo):
+    """A job run when a document has been loaded (Jobs.xcu, event OnLoadFinished)."""
+
+    def __init__(self, ctx):
+        self.ctx = ctx
+
+    def execute(self, arguments):
+        environment = {}
+        for argument in arguments:
+            if argument.Name == "Environment":
+                environment = {v.Name: v.Value for v in argument.Value}
+        rebind_loaded(environment.get("Model"))
+        return None
+
+    def getImplementationName(self):
+        return REBIND_IMPLEMENTATION
+
+    def supportsService(self, name):
+        return name in REBIND_SERVICES
+
+    def getSupportedServiceNames(self):
+        return REBIND_SERVICES
+
+
+g_ImplementationHelper = unohelper.ImplementationHelper()
+g_ImplementationHelper.addImplementation(StillairAddIn, IMPLEMENTATION, SERVICES)
+g_ImplementationHelper.addImplementation(RebindExcelCalls, REBIND_IMPLEMENTATION, REBIND_SERVICES)

@@ -1,0 +1,70 @@
+"""`stillair libreoffice-setup` and the extension's generated parts, without LibreOffice."""
+
+from __future__ import annotations
+
+import re
+import sysconfig
+
+import pytest
+
+from stillair.addin.cli import main
+from stillair.addin.libreoffice import setup
+from stillair.addin.libreoffice.build import function_spec, idl_source, python_paths
+from stillair.addin.registry import REGISTRY
+from stillair.addin.xlfuncs import arg_doc
+
+
+def test_oxt_never_overwrites_an_existing_file(tmp_path, capsys):
+    target = tmp_path / "mine.oxt"
+    target.write_bytes(b"the user's file")
+    assert main(["libreoffice-setup", "--oxt", str(target)]) == 2
+    assert target.read_bytes() == b"the user's file"
+    assert capsys.readouterr().err == (f"stillair libreoffice-setup: {target} exists; choose a new file "
+                                       "name (an existing file is never overwritten)\n")
+
+
+def test_idl_has_one_method_per_cell_function():
+    idl = idl_source()
+    methods = re.findall(r"^\s+(any|sequence< sequence< any > >) (\w+)\(([^)]*)\);$", idl, re.M)
+    assert [name for _, name, _ in methods] == [f.name for f in REGISTRY]
+    for (kind, name, args), entry in zip(methods, REGISTRY):
+        assert kind == ("sequence< sequence< any > >" if entry.result == "table" else "any"), name
+        assert args.count("[in] any") == len(entry.args), name
+
+
+def test_wizard_texts_come_from_the_registry():
+    spec = function_spec()
+    assert [f["name"] for f in spec["functions"]] == [f.name for f in REGISTRY]
+    for shown, entry in zip(spec["functions"], REGISTRY):
+        assert shown["description"] == f"[{entry.category}] {entry.description}"
+        assert [(a["name"], a["doc"], a["optional"], a["kind"]) for a in shown["args"]] == [
+            (a.name, arg_doc(a), a.optional, a.kind) for a in entry.args]
+
+
+def test_recorded_paths_are_site_folders_not_the_standard_library():
+    paths = python_paths()
+    assert sysconfig.get_paths()["purelib"] in paths["site_dirs"]
+    assert sysconfig.get_paths()["stdlib"] not in paths["paths"]
+    assert paths["version"].count(".") == 1
+
+
+def test_libreoffice_starts_without_the_virtual_environment(tmp_path):
+    venv = tmp_path / "venv"
+    (venv / "bin").mkdir(parents=True)
+    (venv / "pyvenv.cfg").write_text("home = /somewhere\n")
+    env = setup.libreoffice_environment({
+        "PATH": f"{venv / 'bin'}:/usr/local/bin:/usr/bin", "VIRTUAL_ENV": str(venv),
+        "PYTHONPATH": "/x", "PYTHONHOME": "/y", "HOME": "/home/someone"})
+    assert env["PATH"] == "/usr/local/bin:/usr/bin"
+    assert not {"VIRTUAL_ENV", "PYTHONPATH", "PYTHONHOME"} & set(env)
+    assert env["HOME"] == "/home/someone"
+
+
+@pytest.mark.parametrize("root", [False, True])
+def test_root_installs_shared_and_a_user_installs_for_himself(monkeypatch, root):
+    monkeypatch.setattr(setup, "_is_root", lambda: root)
+    options, where = setup.install_options(None, None)
+    assert options == (["--shared"] if root else [])
+    assert ("every user" in where) == root
+    options, where = setup.install_options("/p", "/c")
+    assert options == ["--shared", "-env:UserInstallation=file:///p", "-env:UNO_SHARED_PACKAGES_CACHE=file:///c"]
