@@ -21,8 +21,8 @@ KIND = {"horizontal cylinder": "hcyl", "vertical face": "vplate", "horizontal to
 
 def _table(evaluation):
     """{k: (surface °C, heat loss W)} of the thickness table, found by its formulas."""
-    sheet = evaluation.book.sheet("Calculation")
-    cells = evaluation.values["Calculation"]
+    sheet = evaluation.book.sheet("Tables")
+    cells = evaluation.values["Tables"]
     table = {}
     for ref, cell in sheet.formulas.items():
         m = re.search(r'NET_(TEMP|HEAT)\(hs_branches, hs_bounds, "(surf|ins)_(\d+)"\)', cell.formula or "")
