@@ -69,12 +69,15 @@ FAILED = "CALCULATION FAILED"
 # Column widths (characters) of each sheet's grid.  Inputs: label | value | unit | note;
 # Calculation: step | label | value | unit | note; Results: label | value | unit | note;
 # Notes: one wrapped column; Tables (network tables and sweeps): ten narrow columns.
+# LibreOffice fits a sheet to the page width by its columns (a single wide column is clipped, not
+# shrunk) and measures a character wider than Excel, so every grid stays within ~112 characters:
+# that prints at full size on A4 landscape in both.
 GRIDS = {
-    "Inputs": (44, 14, 11, 50),
-    "Calculation": (5, 42, 14, 11, 47),
-    "Results": (44, 14, 11, 50),
-    "Notes": (119,),
-    "Tables": (16, 11, 11, 11, 11, 11, 11, 11, 11, 15),
+    "Inputs": (42, 14, 11, 45),
+    "Calculation": (5, 40, 14, 11, 42),
+    "Results": (42, 14, 11, 45),
+    "Notes": (110,),
+    "Tables": (15, 10, 10, 11, 10, 10, 10, 10, 10, 16),
 }
 # Columns of the row layout: where the label, value, unit and note of a row go.
 _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": (0, 1, 2, 3)}
@@ -83,7 +86,7 @@ _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": 
 PAGE = {"width_in": 11.69, "height_in": 8.27, "side": 0.5, "top": 0.6, "bottom": 0.6, "header": 0.25,
         "footer": 0.25}
 ROW_HEIGHT = 13.5         # points, one line of 10-pt text
-CHART_PX = (760, 300)     # width, height of every chart
+CHART_PX = (760, 280)     # width, height of every chart
 
 # Number formats by quantity (the unit shown beside the value).  Three significant figures for
 # coefficients: the format picks the decimals by magnitude.
@@ -425,7 +428,7 @@ class TemplateBook:
                 "input_title": _clip(label, 32),
                 "input_message": _clip(f"Unit: {unit_text}. Allowed: {allowed}.", 255),
                 "error_title": "Value outside the allowed range",
-                "error_message": _clip(f"{label} must be {allowed}: {valid.why}.", 255)})
+                "error_message": _clip(f"{label} must be {allowed}. Why: {valid.why}.", 255)})
         state.row += 1
         return self._define(name, "Inputs", row, value_col)
 
@@ -585,7 +588,7 @@ class TemplateBook:
         if not state.chart_run:
             state.row += 1
             state.breaks.append(state.row)
-        rows = int(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 2
+        rows = math.ceil(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 1
         state.worksheet.insert_chart(state.row, 0, chart, {"x_offset": 4, "y_offset": 4, "object_position": 1})
         state.charts.append((state.row, rows))
         state.row += rows

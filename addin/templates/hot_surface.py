@@ -52,8 +52,8 @@ def build(b) -> None:
             choices=GEOMETRIES)
     b.input("hot_t", "Hot surface temperature (bare metal)", 150.0, "°C",
             "taken as the temperature under the insulation too",
-            valid=Valid(-60.0, 600.0, "from -60 to 600 °C: the film temperature must stay inside the air "
-                        "property tables (up to 800 °C)"))
+            valid=Valid(-60.0, 600.0, "the film temperature must stay inside the air property tables "
+                        "(up to 800 °C)"))
     b.input("pipe_od", "Pipe outside diameter (cylinder)", 0.1143, "m", "used for the horizontal cylinder",
             valid=Valid(0.0, 3.0, "a diameter above 0 and at most 3 m (Churchill-Chu's Ra up to 1e12)",
                         low_open=True))
