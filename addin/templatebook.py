@@ -64,7 +64,7 @@ CHART_FONT_SIZE = 10
 MIN_PRINT_SCALE = 0.8
 
 # The text a check shows when a quantity it needs did not calculate.
-FAILED = "CALCULATION FAILED"
+FAILED = "CALC FAILED"
 
 # Column widths (characters) of each sheet's grid.  Inputs: label | value | unit | note;
 # Calculation: step | label | value | unit | note; Results: label | value | unit | note;
@@ -663,12 +663,12 @@ class TemplateBook:
 def text_lines(text: str, width: float) -> int:
     """Lines ``text`` takes wrapped in a column of ``width`` characters.
 
-    A character of running text counts one unit of column width: measured, DejaVu Sans (which
-    LibreOffice prints for Calibri where Calibri is missing) takes about 0.85, Calibri less, and
-    the rest is slack for word breaks."""
+    A character of running text counts 0.9 units of column width: measured, DejaVu Sans (which
+    LibreOffice prints for Calibri where Calibri is missing) takes about 0.82, Calibri less; the
+    rest is slack for word breaks."""
     lines = 0
     for paragraph in str(text).split("\n"):
-        lines += max(1, math.ceil(len(paragraph) / max(width - 1, 1)))
+        lines += max(1, math.ceil(0.9 * len(paragraph) / max(width - 1, 1)))
     return lines
 
 

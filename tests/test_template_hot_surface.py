@@ -11,6 +11,7 @@ import pytest
 from scipy.constants import Stefan_Boltzmann, g as GRAVITY, zero_Celsius
 
 import stillair
+from stillair.addin.templatebook import FAILED
 from stillair.addin.templates import hot_surface
 from template_support import assert_direction, evaluate_template, input_names, named
 
@@ -176,3 +177,12 @@ def test_a_face_looking_down_loses_less_than_one_looking_up():
     h = {g: named(evaluate_template(NAME, geometry=g), "res_h_conv_bare")
          for g in ("horizontal top", "horizontal bottom", "vertical face")}
     assert h["horizontal bottom"] < h["vertical face"] < h["horizontal top"]
+
+
+def test_a_failed_insulated_case_reads_as_failed_never_as_none_in_the_table():
+    """An engine failure upstream (here a zero conductivity: every insulation resistance divides
+    by zero) must not turn into the plausible answer "none in the table"."""
+    evaluation = evaluate_template(NAME, ins_k=0)
+    for name in ("res_first_ok_mm", "res_first_ok_t", "res_first_ok_q"):
+        assert named(evaluation, name) == FAILED, name
+    assert named(evaluation, "res_net_check").startswith("NET_CHECK: branch row 1 (ins_1), column p1 (R)")
