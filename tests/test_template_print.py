@@ -5,7 +5,6 @@ without error text and with no text below 8 pt."""
 
 from __future__ import annotations
 
-import math
 import re
 import shutil
 import subprocess
@@ -15,10 +14,10 @@ from functools import lru_cache
 
 import openpyxl
 import pytest
-from openpyxl.utils import column_index_from_string, range_boundaries
+from openpyxl.utils import range_boundaries
 
 from stillair.addin.templatebook import (FAILED, GRIDS, MIN_PRINT_SCALE, PAGE, ROW_HEIGHT, SIGNOFF_FIELDS, SIG3,
-                                         UNIT_FORMATS)
+                                         UNIT_FORMATS, render_pdf)
 from stillair.addin.templates import all_templates
 
 TEMPLATES = all_templates()
@@ -288,10 +287,7 @@ def rendered(tmp_path_factory):
     if shutil.which("pdftotext") is None:
         pytest.skip("pdftotext (poppler-utils) is not installed: the rendered check needs it")
     out = tmp_path_factory.mktemp("rendered")
-    profile = tmp_path_factory.mktemp("profile")
-    subprocess.run([SOFFICE, f"-env:UserInstallation=file://{profile}", "--headless", "--norestore",
-                    "--convert-to", "pdf", "--outdir", str(out)] + [str(t.path) for t in TEMPLATES],
-                   check=True, capture_output=True, timeout=300)
+    render_pdf([t.path for t in TEMPLATES], out)
     return out
 
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import EMISSIVITY, SIG3, Template, TemplateBook, Valid, gas_pressure
+from ..templatebook import SIG3, Template, TemplateBook, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import (EMISSIVITY, OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, TemplateBook, Valid,
+from ..templatebook import (OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, TemplateBook, Valid,
                             gas_pressure)
 
 SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
