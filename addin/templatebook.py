@@ -77,7 +77,7 @@ GRIDS = {
     "Calculation": (5, 40, 14, 11, 42),
     "Results": (42, 14, 11, 45),
     "Notes": (110,),
-    "Tables": (15, 10, 10, 11, 10, 10, 10, 10, 10, 16),
+    "Tables": (14, 9, 9, 11, 9, 9, 9, 9, 18, 13),
 }
 # Columns of the row layout: where the label, value, unit and note of a row go.
 _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": (0, 1, 2, 3)}
@@ -86,6 +86,9 @@ _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": 
 PAGE = {"width_in": 11.69, "height_in": 8.27, "side": 0.5, "top": 0.6, "bottom": 0.6, "header": 0.25,
         "footer": 0.25}
 ROW_HEIGHT = 13.5         # points, one line of 10-pt text
+# Height a printed page holds, points: A4 landscape less margins, header and footer, and a reserve
+# for a viewer that prints slightly larger than 100 %.
+PAGE_CAPACITY = 460.0
 CHART_PX = (760, 280)     # width, height of every chart
 
 # Number formats by quantity (the unit shown beside the value).  Three significant figures for
@@ -219,6 +222,7 @@ class _SheetState:
     breaks: list[int] = field(default_factory=list)            # manual page breaks (row before which)
     charts: list[tuple[int, int, int, int]] = field(default_factory=list)  # x, y, w, h in pixels
     chart_run: bool = False                                     # the last block was a chart
+    section_row: int = -1                                       # row of the last section bar
 
 
 class TemplateBook:
@@ -378,6 +382,7 @@ class TemplateBook:
         for col in range(width):
             state.worksheet.write_blank(state.row, col, None, self.fmt("section"))
         state.worksheet.write(state.row, 0, title, self.fmt("section"))
+        state.section_row = state.row
         state.row += 1
 
     def _row(self, sheet: str, row: int, label: str, unit: str, note: str) -> tuple[int, int]:
@@ -552,6 +557,7 @@ class TemplateBook:
             ws.write(state.row, col + j, title, self.fmt("header" if formats[j] is None else "header_number"))
             self._need_lines(state, state.row, title, state.widths[col + j])
         header_row = state.row
+        self._keep_together(state, header_row, header_row + len(rows))
         state.row += 1
         first = state.row
         for row in rows:
@@ -563,6 +569,28 @@ class TemplateBook:
             start = header_row if include_header_in_name else first
             self._define(name, sheet, start, col, last, col + width - 1)
         return first, col, last, col + width - 1
+
+    def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
+        """Start a new page before a table (with its section bar) that would otherwise split."""
+        if state.section_row == first - 1:
+            first -= 1
+        height = sum(self._height(state, r) for r in range(first, last + 1))
+        if height <= PAGE_CAPACITY and self._page_used(state, first) + height > PAGE_CAPACITY:
+            state.breaks.append(first)
+
+    def _height(self, state: _SheetState, row: int) -> float:
+        return ROW_HEIGHT * state.lines.get(row, 1)
+
+    def _page_used(self, state: _SheetState, row: int) -> float:
+        """Points of the current printed page filled above ``row`` (pages break automatically
+        when full, and at the manual breaks)."""
+        used = 0.0
+        for r in range(row):
+            height = self._height(state, r)
+            if r in state.breaks or used + height > PAGE_CAPACITY:
+                used = 0.0
+            used += height
+        return 0.0 if row in state.breaks else used
 
     def chart(self, sheet: str, kind: str, title: str, series: Sequence[dict], x_title: str, y_title: str,
               subtype: str | None = None, x_axis: dict | None = None, y_axis: dict | None = None) -> None:
@@ -606,7 +634,7 @@ class TemplateBook:
         "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
         tail = f", {fluid}" if fluid else ""
         solve = f"NET_SOLVE({tables}{tail})"
-        self.table(sheet, ["node", "temperature °C"],
+        self.table(sheet, ["node", "T °C"],
                    [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
         self.blank(sheet)
         rows, picks = [], {}
@@ -652,7 +680,7 @@ class TemplateBook:
                 if lines > 1:
                     ws.set_row(row, round(ROW_HEIGHT * lines, 2))
             if state.breaks:
-                ws.set_h_pagebreaks(state.breaks)
+                ws.set_h_pagebreaks(sorted(set(state.breaks)))
             ws.print_area(0, 0, max(state.row, 1) - 1, len(state.widths) - 1)
             # without a password: a user can unprotect deliberately; input cells stay unlocked
             ws.protect("", {"format_columns": True, "format_rows": True})
