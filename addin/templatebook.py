@@ -91,9 +91,10 @@ ROW_HEIGHT = 13.5         # points, one line of 10-pt text
 PAGE_CAPACITY = 460.0
 CHART_PX = (760, 280)     # width, height of every chart
 
-# Number formats by quantity (the unit shown beside the value).  Three significant figures for
-# coefficients: the format picks the decimals by magnitude.
-SIG3 = "[>=10]0.0;[>=1]0.00;0.000"
+# Number formats by quantity (the unit shown beside the value).  SIG3 marks three significant
+# figures: the build evaluates the workbook once and writes each such cell with the fixed decimals
+# its value needs (a conditional format such as [>=10]0.0;... loses the minus sign in some viewers).
+SIG3 = "sig3"
 SCIENTIFIC = "0.000E+00"
 UNIT_FORMATS = {
     "°C": "0.0", "K": "0.0", "°": "0.0", "%": "0.0", "mm": "0.0",
@@ -230,8 +231,12 @@ class TemplateBook:
 
     SHEETS = ("Inputs", "Calculation", "Results", "Notes")
 
-    def __init__(self, template: Template, path: str):
+    def __init__(self, template: Template, path: str, values: dict[str, dict[str, object]] | None = None):
+        """``values`` (sheet -> cell -> value, from a first evaluation) sets the decimals of the
+        three-significant-figure cells."""
         self.template = template
+        self.values = {sheet: dict(cells) for sheet, cells in (values or {}).items()}
+        self.uses_sig3 = False
         self.workbook = xlsxwriter.Workbook(path)
         self.workbook.set_properties({"title": template.title, "subject": template.summary,
                                       "author": "stillair", "created": FIXED_DATE,
@@ -279,8 +284,14 @@ class TemplateBook:
             "caution": {**base, "text_wrap": True, "bg_color": _CAUTION, "bold": True},
         }
 
-    def fmt(self, style: str, num_format: str | None = None):
-        """The workbook format of a named style, with a number format when given."""
+    def fmt(self, style: str, num_format: str | None = None, at: tuple[Any, int, int] | None = None):
+        """The workbook format of a named style, with a number format when given.
+
+        ``at`` = (worksheet, row, col) of the cell, needed for SIG3."""
+        if num_format == SIG3:
+            self.uses_sig3 = True
+            value = self.values.get(at[0].name, {}).get(xl_rowcol_to_cell(at[1], at[2])) if at else None
+            num_format = significant_format(value)
         key = (style, num_format)
         if key not in self._format_cache:
             props = dict(self.formats[style])
@@ -450,7 +461,7 @@ class TemplateBook:
         value_col, _ = self._row("Calculation", row, label, unit, note)
         number_format = self._number_format(name or label, unit, number_format)
         if number_format is not None:
-            ws.write_formula(row, value_col, formula, self.fmt("value", number_format))
+            ws.write_formula(row, value_col, formula, self.fmt("value", number_format, (ws, row, value_col)))
         elif note:
             # text beside a note wraps in its cell; reserve two lines
             ws.write_formula(row, value_col, formula, self.fmt("text_value"))
@@ -481,7 +492,7 @@ class TemplateBook:
         else:
             self._row("Results", row, label, unit, note)
             number_format = self._number_format(name or label, unit, number_format)
-            ws.write_formula(row, value_col, formula, self.fmt("result", number_format))
+            ws.write_formula(row, value_col, formula, self.fmt("result", number_format, (ws, row, value_col)))
         self._verdict_format(ws, row, value_col, row, value_col, fails, numeric=not text)
         state.row += 1
         return self._define(name, "Results", row, value_col) if name else None
@@ -657,11 +668,12 @@ class TemplateBook:
         if value is None:
             return
         if isinstance(value, str) and value.startswith("="):
-            ws.write_formula(row, col, value, self.fmt(style, number_format))
+            ws.write_formula(row, col, value, self.fmt(style, number_format, (ws, row, col)))
         elif isinstance(value, str):
             ws.write_string(row, col, value, self.fmt(style))
         else:
-            ws.write_number(row, col, value, self.fmt(style, number_format))
+            self.values.setdefault(ws.name, {}).setdefault(xl_rowcol_to_cell(row, col), value)
+            ws.write_number(row, col, value, self.fmt(style, number_format, (ws, row, col)))
 
     @staticmethod
     def column(sheet: str, first: int, last: int, col: int) -> str:
@@ -686,6 +698,15 @@ class TemplateBook:
             ws.protect("", {"format_columns": True, "format_rows": True})
         self.sheets["Inputs"].worksheet.activate()
         self.workbook.close()
+
+
+def significant_format(value, figures: int = 3) -> str:
+    """A fixed-decimals number format showing ``value`` to ``figures`` significant figures
+    (three decimals when the value is unknown, zero or not a number)."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or not math.isfinite(value):
+        return "0.000"
+    decimals = figures - 1 - math.floor(math.log10(abs(value)))
+    return "0" if decimals <= 0 else "0." + "0" * min(decimals, 9)
 
 
 def text_lines(text: str, width: float) -> int:
@@ -730,6 +751,11 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
         template.build(book)
         book.close()
         evaluation = evaluate_book(raw)
+        if book.uses_sig3:
+            # the same cells again, three-significant-figure cells now with their decimals
+            book = TemplateBook(template, raw, values=evaluation.values)
+            template.build(book)
+            book.close()
         errors = [(f"{sheet}!{ref}", value) for sheet, cells in evaluation.values.items()
                   for ref, value in cells.items() if is_error_value(value)]
         if errors:
