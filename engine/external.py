@@ -21,6 +21,7 @@ from .correlations import (
     PLATE_CASES,
     STABLE_CASES,
     UNSTABLE_CASES,
+    AutoStep,
     Geometry,
     correlation,
     define_geometry,
@@ -54,7 +55,7 @@ define_geometry(Geometry(
     name="vplate", inputs=("ra", "pr"),
     description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
                 "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
-    auto_order={None: ("churchill-chu",)}, fallback={None: "churchill-chu"}))
+    auto={None: (AutoStep("churchill-chu", when=()),)}))
 
 
 @correlation(
@@ -108,10 +109,8 @@ define_geometry(Geometry(
                 "hot-down/cold-up use raithby-hollands; outside its range the same method is used, "
                 "with the note. mcadams is never chosen by auto (its length is the side of a "
                 "square, and it jumps against the defaults at their band edges).",
-    auto_order={case: ("lloyd-moran",) for case in UNSTABLE_CASES}
-    | {case: ("raithby-hollands",) for case in STABLE_CASES},
-    fallback={case: "lloyd-moran" for case in UNSTABLE_CASES}
-    | {case: "raithby-hollands" for case in STABLE_CASES}))
+    auto={case: (AutoStep("lloyd-moran", when=()),) for case in UNSTABLE_CASES}
+    | {case: (AutoStep("raithby-hollands", when=()),) for case in STABLE_CASES}))
 
 
 # Where 0.54 Ra^(1/4) = 0.15 Ra^(1/3): the laminar and turbulent bands meet without a step.
@@ -205,10 +204,8 @@ define_geometry(Geometry(
                 "plate exactly; at tilt 90 the unstable face is the horizontal plate (lloyd-moran) "
                 "exactly, while the stable face does not join the horizontal plate (Ra cos(tilt) "
                 "-> 0; its range ends at 60 deg): use nu_hplate for near-horizontal stable faces.",
-    auto_order={case: ("churchill-chu-cos",) for case in STABLE_CASES}
-    | {case: ("raithby-hollands",) for case in UNSTABLE_CASES},
-    fallback={case: "churchill-chu-cos" for case in STABLE_CASES}
-    | {case: "raithby-hollands" for case in UNSTABLE_CASES}))
+    auto={case: (AutoStep("churchill-chu-cos", when=()),) for case in STABLE_CASES}
+    | {case: (AutoStep("raithby-hollands", when=()),) for case in UNSTABLE_CASES}))
 
 
 @correlation(
@@ -259,8 +256,9 @@ define_geometry(Geometry(
     name="hcyl", inputs=("ra", "pr"),
     description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
                 "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
-                "with the note.",
-    auto_order={None: ("churchill-chu", "morgan")}, fallback={None: "churchill-chu"}))
+                "with the note; churchill-chu hands over to morgan across a factor 4 inside its "
+                "bounds (Ra 1e-5..4e-5 and 2.5e11..1e12), without a step.",
+    auto={None: (AutoStep("churchill-chu"), AutoStep("morgan"), AutoStep("churchill-chu", when=()))}))
 
 
 @correlation(
@@ -308,7 +306,7 @@ define_geometry(Geometry(
     name="sphere", inputs=("ra", "pr"),
     description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
                 "outside that range churchill is still used, with the note.",
-    auto_order={None: ("churchill",)}, fallback={None: "churchill"}))
+    auto={None: (AutoStep("churchill", when=()),)}))
 
 
 @correlation(
@@ -336,16 +334,21 @@ def _thin_cylinder_group(inputs):
     return (inputs["ra"] / inputs["pr"]) ** 0.25 / inputs["slenderness"]
 
 
+#: Sparrow & Gregg's thin-cylinder criterion; auto hands over to popiel across (D/L) Gr^(1/4)
+#: = 35 .. 70 (both correlations inside their ranges there).
+THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
+
 define_geometry(Geometry(
     name="vcyl", inputs=("ra", "pr", "slenderness"),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
                 "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
                 "1.5e4 <= Ra <= 1e9, slenderness <= 60, 0.01 <= Pr <= 100; else, with the note, "
-                "churchill-chu where the criterion holds and popiel where it does not.",
-    auto_order={None: ("churchill-chu", "popiel")},
-    fallback={None: lambda inputs: np.where(_thin_cylinder_group(inputs) >= 35.0,
-                                            "churchill-chu", "popiel")}))
+                "churchill-chu where the criterion holds and popiel where it does not. The "
+                "hand-over is blended across (D/L) Gr^(1/4) = 35..70 (a factor 2 inside the "
+                "criterion) and a factor 4 inside churchill-chu's Ra bounds, without a step.",
+    auto={None: (AutoStep("churchill-chu"), AutoStep("popiel"),
+                 AutoStep("churchill-chu", when=(THIN_CYLINDER,)), AutoStep("popiel", when=()))}))
 
 
 @correlation(
@@ -354,7 +357,7 @@ define_geometry(Geometry(
            "applicable to a cylinder where D/L >= 35/Gr_L^(1/4): E.M. Sparrow, J.L. Gregg, "
            "Trans. ASME 78 (1956) 1823-1829, as quoted in Incropera et al., 6th ed., sec. 9.6.1",
     equation="Nu = Nu_vplate,churchill-chu(Ra, Pr), where (D/L) (Ra/Pr)^(1/4) >= 35",
-    validity=[Range("Ra", 1e-1, 1e12), Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group)])
+    validity=[Range("Ra", 1e-1, 1e12), THIN_CYLINDER])
 def _vcyl_churchill_chu(ra, pr, slenderness):
     return _vplate_churchill_chu(ra, pr)
 

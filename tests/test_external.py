@@ -435,7 +435,7 @@ def test_every_geometry_documents_its_auto_rule():
         geometry = GEOMETRIES[name]
         assert "Auto rule" in geometry.description
         for case in geometry.cases or (None,):
-            for method in geometry.auto_order[case]:
+            for method in geometry.auto_methods(case):
                 assert method in geometry.description
                 assert method in methods_for(name, case)
 
