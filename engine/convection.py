@@ -103,7 +103,8 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     length = require_positive(function_name, length_name, length, "m")
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
-                                          ideal_expansion=ideal_expansion, function_name=function_name)
+                                          ideal_expansion=ideal_expansion, function_name=function_name,
+                                          names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
     shape = np.broadcast(ra, props.prandtl).shape

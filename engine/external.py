@@ -116,6 +116,12 @@ define_geometry(Geometry(
 # Where 0.54 Ra^(1/4) = 0.15 Ra^(1/3): the laminar and turbulent bands meet without a step.
 LLOYD_MORAN_CROSSOVER = (0.54 / 0.15) ** 12
 
+#: Pr >= 0.7 is published for the laminar band only (Incropera 6th ed. eq. 9.30); the turbulent
+#: band (eq. 9.31) states no Prandtl limit.
+LLOYD_MORAN_LAMINAR_PR = Range(
+    "Pr [laminar band]", low=0.7,
+    of=lambda inputs: np.where(inputs["ra"] <= LLOYD_MORAN_CROSSOVER, inputs["pr"], 0.7))
+
 
 @correlation(
     geometry="hplate", method="lloyd-moran", cases=UNSTABLE_CASES,
@@ -124,7 +130,7 @@ LLOYD_MORAN_CROSSOVER = (0.54 / 0.15) ** 12
            "Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.30 and 9.31 (L = As/P)",
     equation="Nu = 0.54 Ra^(1/4) for 1e4 <= Ra <= Ra_x; Nu = 0.15 Ra^(1/3) for Ra_x < Ra <= 1e11, "
              "Ra_x = (0.54/0.15)^12 = 4.74e6 where the two bands meet (published edge 1e7)",
-    validity=[Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
+    validity=[Range("Ra", 1e4, 1e11), LLOYD_MORAN_LAMINAR_PR],
     notes="The bands are switched where they intersect, Ra_x = 4.74e6, not at the published 1e7: "
           "the published switch is a 6.4 % step, and a surface temperature solved through a step "
           "may have no solution at all. Between Ra_x and 1e7 this gives up to 6.4 % more than the "
@@ -229,8 +235,12 @@ def _tplate_churchill_chu_cos(ra, pr, tilt, case):
            "heated face (recommendation from memory; equation number not checked); components: "
            "Churchill-Chu (Incropera 6th ed. eq. 9.26) and Lloyd-Moran (eqs. 9.30, 9.31)",
     equation="Nu = max(Nu_vplate,churchill-chu(Ra cos(tilt), Pr), Nu_hplate,lloyd-moran(Ra sin(tilt)))",
-    validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
-    notes="Range: the intersection of the two components' ranges.")
+    validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11),
+              Range("Pr [laminar band of the horizontal term]", low=0.7,
+                    of=lambda inputs: LLOYD_MORAN_LAMINAR_PR.values(
+                        dict(inputs, ra=inputs["ra"] * np.sin(np.radians(inputs["tilt"])))))],
+    notes="Range: the intersection of the two components' ranges (Lloyd-Moran's Pr >= 0.7 "
+          "binds in its laminar band only, on Ra sin(tilt)).")
 def _tplate_raithby_hollands(ra, pr, tilt, case):
     theta = np.radians(tilt)
     along_slope = _vplate_churchill_chu(ra * np.cos(theta), pr)

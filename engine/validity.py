@@ -105,9 +105,9 @@ def as_float_array(function: str, argument: str, value) -> np.ndarray:
 
 def require_finite(function: str, argument: str, value) -> np.ndarray:
     array = as_float_array(function, argument, value)
-    if not np.all(np.isfinite(array)):
-        bad = array[~np.isfinite(array)].flat[0] if array.ndim else array
-        raise InputError(function, argument, bad, "a finite number")
+    finite = np.isfinite(array)
+    if not np.all(finite):
+        raise InputError(function, argument, _first_bad(array, ~finite), "a finite number")
     return array
 
 
