@@ -31,6 +31,7 @@ Ra is always based on the geometry's own length (plate height, area/perimeter, d
 
 from __future__ import annotations
 
+import math
 import warnings
 from dataclasses import dataclass, field
 from typing import Callable, Mapping, Sequence
@@ -338,22 +339,109 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         case = None
     method = _resolve_method(function_name, geo, method, case)
-    arrays = _checked_inputs(function_name, geo, inputs)
-    shape = next(iter(arrays.values())).shape if arrays else ()
-    flat = {k: v.ravel() for k, v in arrays.items()}
-
-    if method == "auto":
-        result = _auto(geo, case, flat, notes)
+    if "tilt" in geo.inputs and inputs.get("tilt") is None and geo.default_tilt is not None:
+        inputs["tilt"] = geo.default_tilt
+    plain = _plain_inputs(geo, inputs)
+    if plain is not None:  # one case in plain numbers: the scalar path (same arithmetic)
+        result = _scalar(geo, method, case, plain)
     else:
-        result = _evaluate_one(geo, method, case, flat, notes=notes)
-    result = NusseltResult(**{name: getattr(result, name).reshape(shape)
-                              for name in NusseltResult.__dataclass_fields__})
-    if geo.floor is not None:
-        result.nu = np.maximum(result.nu, geo.floor)
+        arrays = _checked_inputs(function_name, geo, inputs)
+        shape = next(iter(arrays.values())).shape if arrays else ()
+        flat = {k: v.ravel() for k, v in arrays.items()}
+        if method == "auto":
+            result = _auto(geo, case, flat, notes)
+        else:
+            result = _evaluate_one(geo, method, case, flat, notes=notes)
+        result = NusseltResult(**{name: getattr(result, name).reshape(shape)
+                                  for name in NusseltResult.__dataclass_fields__})
+        if geo.floor is not None:
+            result.nu = np.maximum(result.nu, geo.floor)
     if warn and not np.all(result.in_range):
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return result
+
+
+_PLAIN_TYPES = (float, int, np.float64)
+
+
+def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
+    """The inputs as floats when each is a plain number the geometry accepts; else None (the
+    array path then checks them and words the message)."""
+    values = {}
+    for name in geo.inputs:
+        value = inputs.get(name)
+        if type(value) not in _PLAIN_TYPES:
+            return None
+        value = float(value)
+        if name == "ra":
+            accepted = 0.0 <= value < math.inf
+        elif name == "tilt":
+            accepted = geo.tilt_range[0] <= value <= geo.tilt_range[1]
+        else:
+            accepted = 0.0 < value < math.inf
+        if not accepted:
+            return None
+        values[name] = value
+    return values
+
+
+def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> NusseltResult:
+    """Nu for one case in plain numbers: the auto rule's weights with :meth:`Range.weight_of`,
+    stopping as soon as nothing is left; notes formatted only for a bound crossed."""
+    # 1-element arrays, not 0-d: numpy's loops then give the bits of the array path
+    arrays = {k: np.array([v]) for k, v in values.items()}
+    args = dict(arrays, case=case) if geo.cases else arrays
+    floor = -math.inf if geo.floor is None else geo.floor
+    if method != "auto":
+        corr = CORRELATIONS[(geo.name, method)]
+        nu = max(_first(corr.function(**args)), floor)
+        note = _scalar_note(corr, arrays, values, case)
+        return _scalar_result(nu, method, note, "")
+    left, nu = 1.0, 0.0
+    weights: dict[str, float] = {}
+    for step in geo.auto[case]:
+        corr = CORRELATIONS[(geo.name, step.method)]
+        coverage = 1.0
+        for bound in (corr.ranges(case) if step.when is None else step.when):
+            coverage *= bound.weight_of(values[bound.quantity.lower()] if bound.of is None
+                                        else _first(bound.of(arrays)))
+            if coverage == 0.0:
+                break
+        weight = left * coverage
+        if weight > 0.0:
+            function = corr.forms[step.form] if step.form else corr.function
+            nu += weight * max(_first(function(**args)), floor)
+            weights[step.method] = weights.get(step.method, 0.0) + weight
+            left -= weight
+        if left <= 0.0 or coverage == 1.0:
+            break
+    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
+    notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], arrays, values, case)
+                               for name in names) if note]
+    blend = "auto blend of " + " and ".join(names) if len(names) > 1 else ""
+    note = "; ".join(notes)
+    if note and blend:
+        note = f"{blend}: {note}"
+    return _scalar_result(max(nu, floor), max(names, key=weights.get), note, blend)
+
+
+def _first(values) -> float:
+    return float(np.ravel(values)[0])
+
+
+def _scalar_note(corr: Correlation, arrays, values, case) -> str:
+    for bound in corr.ranges(case):
+        value = values[bound.quantity.lower()] if bound.of is None else _first(bound.of(arrays))
+        if not bound.low <= value <= bound.high:
+            return str(_violation_notes(corr.method, bound, np.array([value]))[0])
+    return ""
+
+
+def _scalar_result(nu: float, method: str, note: str, blend: str) -> NusseltResult:
+    return NusseltResult(nu=np.array(nu), method=np.array(method, dtype=object),
+                         in_range=np.array(note == ""), note=np.array(note, dtype=object),
+                         blend=np.array(blend, dtype=object))
 
 
 def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True) -> NusseltResult:
@@ -415,7 +503,7 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
             weights[step.method] = weights.get(step.method, 0.0) + weight
         if not left.any():
             break
-    names = list(weights)
+    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
     if len(names) == 1:  # the usual case: one method everywhere
         in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes)
         return NusseltResult(nu=nu, method=np.full(size, names[0], dtype=object), in_range=in_range, note=note)

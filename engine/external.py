@@ -52,7 +52,7 @@ def _cos_tilt(inputs):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="vplate", inputs=("ra", "pr"),
+    name="vplate", title="vertical plate", length="height", length_doc="plate height along the surface, m", inputs=("ra", "pr"),
     description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
                 "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
     auto={None: (AutoStep("churchill-chu", when=()),)}))
@@ -102,7 +102,7 @@ def nu_vplate(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="hplate", inputs=("ra", "pr"), cases=PLATE_CASES,
+    name="hplate", title="horizontal plate", length="length", length_doc="area/perimeter of the plate, m", inputs=("ra", "pr"), cases=PLATE_CASES,
     description="Horizontal plate, Ra on L = area/perimeter. Cases: hot-up and cold-down "
                 "(unstable: the plume leaves the face), hot-down and cold-up (stable: the fluid is "
                 "trapped against the face). Auto rule: hot-up/cold-down use lloyd-moran, "
@@ -198,7 +198,7 @@ def nu_hplate(ra, pr, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="tplate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
+    name="tplate", title="tilted plate", length="length", length_doc="plate length along the slope, m", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
     description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
                 "whether it is hotter or colder than the fluid. Ra on the one length the caller "
                 "gives: the length along the slope for the vertical-plate term; the horizontal "
@@ -263,7 +263,7 @@ def nu_tplate(ra, pr, tilt, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="hcyl", inputs=("ra", "pr"),
+    name="hcyl", title="horizontal cylinder", length="diameter", length_doc="outside diameter, m", inputs=("ra", "pr"),
     description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
                 "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
                 "with the note; churchill-chu hands over to morgan across a factor 4 inside its "
@@ -313,7 +313,7 @@ def nu_hcyl(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="sphere", inputs=("ra", "pr"),
+    name="sphere", title="sphere", length="diameter", length_doc="diameter, m", inputs=("ra", "pr"),
     description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
                 "outside that range churchill is still used, with the note.",
     auto={None: (AutoStep("churchill", when=()),)}))
@@ -349,7 +349,7 @@ def _thin_cylinder_group(inputs):
 THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
 
 define_geometry(Geometry(
-    name="vcyl", inputs=("ra", "pr", "slenderness"),
+    name="vcyl", title="vertical cylinder", length="height", length_doc="cylinder height, m", inputs=("ra", "pr", "slenderness"),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
                 "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "

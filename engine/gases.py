@@ -123,6 +123,7 @@ __all__ = [
     "gas_table_provenance",
     "parse_gas",
     "require_gas_temperature",
+    "plain_state_accepted",
 ]
 
 STANDARD_PRESSURE = 101325.0  # Pa, 1 standard atmosphere
@@ -774,6 +775,20 @@ def require_gas_temperature(function: str, argument: str, t, gas="air") -> np.nd
     60.0
     """
     return _checked_temperature(function, argument, _mixture(function, gas), t)
+
+
+def plain_state_accepted(gas, temperatures, pressure) -> bool:
+    """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
+    numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
+    raises (the full checks word the message)."""
+    try:
+        mixture = _mixture("", gas)
+    except InputError:
+        return False
+    low, high = mixture.t_range.low, mixture.t_range.high
+    return (type(pressure) in _PLAIN_NUMBERS
+            and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
+            and all(type(t) in _PLAIN_NUMBERS and low <= t <= high for t in temperatures))
 
 
 def _checked_state(function: str, mixture: "_Mixture", t, pressure):

@@ -266,11 +266,39 @@ class Range:
         if self.log_scale:
             if width <= 1.0:
                 return (side * (values - bound) >= 0).astype(float)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                distance = side * (np.log(np.maximum(values, 0.0)) - math.log(bound)) / math.log(width)
+            # log of a value <= 0 (Ra cos(tilt) heated from above): far below any bound
+            distance = side * (np.log(np.maximum(values, 1e-300)) - math.log(bound)) / math.log(width)
         else:
             if width <= 0.0:
                 return (side * (values - bound) >= 0).astype(float)
             distance = side * (values - bound) / width
-        offset = {"inside": 0.0, "centred": 0.5, "outside": 1.0}[self.placement]
-        return np.clip(np.nan_to_num(distance, nan=-np.inf) + offset, 0.0, 1.0)
+        return np.clip(distance + _OFFSET[self.placement], 0.0, 1.0)
+
+    def weight_of(self, value: float) -> float:
+        """:meth:`weight` of one plain number (the scalar path; the same arithmetic)."""
+        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
+        weight = 1.0
+        offset = _OFFSET[self.placement]
+        width = self.transition
+        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
+            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
+                continue
+            if self.log_scale:
+                if side > 0 and bound <= 0.0:
+                    continue
+                if width <= 1.0:
+                    ramp = 1.0 if side * (value - bound) >= 0 else 0.0
+                else:
+                    distance = side * (math.log(max(value, 1e-300)) - math.log(bound)) / math.log(width)
+                    ramp = min(max(distance + offset, 0.0), 1.0)
+            elif width <= 0.0:
+                ramp = 1.0 if side * (value - bound) >= 0 else 0.0
+            else:
+                ramp = min(max(side * (value - bound) / width + offset, 0.0), 1.0)
+            weight *= ramp
+            if weight == 0.0:
+                break
+        return weight
+
+
+_OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}

@@ -103,3 +103,23 @@ def test_the_detector_finds_a_published_step():
     x = np.array([1.9, 2.1])
     nu = nusselt("cavity", "catton", ra=1e5, pr=0.71, aspect=x, tilt=90.0).nu
     assert _relative_change(nu[0], nu[1]) > STEP   # so auto's blend is what removes it
+
+
+@pytest.mark.parametrize("geometry", sorted(GEOMETRIES))
+def test_the_scalar_path_gives_the_array_path_result(geometry):
+    """One case in plain numbers takes a faster path; it must agree exactly with the arrays."""
+    rng = np.random.default_rng(11)
+    geo = GEOMETRIES[geometry]
+    n = 400
+    draws = {"ra": 10 ** rng.uniform(-6, 12, n), "pr": 10 ** rng.uniform(-1.5, 3, n),
+             "aspect": 10 ** rng.uniform(-0.5, 2.5, n), "slenderness": 10 ** rng.uniform(-1, 3, n),
+             "tilt": rng.uniform(*geo.tilt_range, n)}
+    inputs = {name: draws[name] for name in geo.inputs}
+    for case in geo.cases or (None,):
+        for method in ["auto"] + geo.case_methods(case):
+            whole = nusselt(geometry, method, case, **inputs)
+            for i in range(0, n, 5):
+                one = nusselt(geometry, method, case, **{k: float(v[i]) for k, v in inputs.items()})
+                assert one.nu == pytest.approx(whole.nu[i], rel=1e-12, abs=0)
+                assert (one.method, one.note, one.blend, one.in_range) == (
+                    whole.method[i], whole.note[i], whole.blend[i], whole.in_range[i])
