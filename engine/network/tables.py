@@ -63,7 +63,7 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
         rows = list(table)
     except TypeError:
         raise NetworkError(FUNCTION, table_name, table, "a table of rows (a list of lists)") from None
-    singular = table_name.rstrip("s").replace("boundarie", "boundary")
+    singular = {"branches": "branch", "boundaries": "boundary"}[table_name]
     result = []
     for number_, row in enumerate(rows, start=1):
         if isinstance(row, np.ndarray):
@@ -83,12 +83,15 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
             text = error_text(value)
             if text is not None:
                 raise NetworkError(FUNCTION, f"{singular} row {number_}, column {column}", Shown(text),
-                                   "a value, not a spreadsheet error (correct the cell the error "
-                                   "comes from)")
+                                   f"{_WHAT.get(column, 'a value')}, not a spreadsheet error value "
+                                   "(correct the cell the error comes from)")
         if not result and _is_header(row, columns):
             continue
         result.append((number_, row))
     return result
+
+
+_WHAT = {"name": "a branch name", "from": "a node name", "to": "a node name", "node": "a node name"}
 
 
 def _is_header(row, columns) -> bool:
@@ -161,10 +164,9 @@ class Topology:
 
 def _near(word: str, candidates) -> str | None:
     """The name ``word`` was most likely meant to be (same letters in another case first)."""
-    candidates = [c for c in candidates if c != word]
-    same = [c for c in candidates if c.lower() == word.lower()]
-    near = same or difflib.get_close_matches(word, candidates, n=1, cutoff=0.6)
-    return near[0] if near else None
+    lower = {c.lower(): c for c in candidates if c != word}
+    near = difflib.get_close_matches(word.lower(), list(lower), n=1, cutoff=0.6)
+    return lower[near[0]] if near else None
 
 
 def check_topology(branches: tuple[Branch, ...], boundaries: tuple[Boundary, ...]) -> Topology:
