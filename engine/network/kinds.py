@@ -16,14 +16,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from types import MappingProxyType, SimpleNamespace
+from types import MappingProxyType
 from typing import Callable, Mapping
 
 import numpy as np
 from scipy.constants import zero_Celsius
 
 from ..correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for, nusselt, NusseltResult
-from ..groups import buoyancy_groups
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
@@ -180,9 +179,8 @@ class _LinearGroup(_Group):
     def nominal(self, t_mean_kelvin):
         return self.g
 
-    def flows(self, t1, t2, dt, derivatives):
-        q = self.g * dt
-        return (q, self.g, -self.g) if derivatives else (q, None, None)
+    def flows(self, t1, t2, dt):
+        return self.g * dt, self.g, -self.g
 
     def records(self, t1, t2, dt, q, detail):
         for k, p in enumerate(self.params):
@@ -211,13 +209,11 @@ class _RadiationGroup(_Group):
     def nominal(self, t_mean_kelvin):
         return 4.0 * self.af * SIGMA * t_mean_kelvin ** 3
 
-    def flows(self, t1, t2, dt, derivatives):
+    def flows(self, t1, t2, dt):
         k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
         # (k1 - k2) from the exact difference, so a branch between nearly equal temperatures
         # keeps its digits
         q = self.af * SIGMA * dt * (k1 + k2) * (k1 * k1 + k2 * k2)
-        if not derivatives:
-            return q, None, None
         return q, 4.0 * self.af * SIGMA * k1 ** 3, -4.0 * self.af * SIGMA * k2 ** 3
 
     def records(self, t1, t2, dt, q, detail):
@@ -348,35 +344,18 @@ class _ConvectionGroup(_Group):
             return NOMINAL_CAVITY_NU * NOMINAL_CONDUCTIVITY / self.length * self.area
         return NOMINAL_SURFACE_H * self.area
 
-    def points(self, t1, t2, dt, derivatives):
-        """Temperatures at which the group is evaluated: the point, and with derivatives the
-        point with each end raised by a small step (forward differences, one vectorised call)."""
-        if not derivatives:
-            return t1, t2, dt, None
-        step = 1e-4 + 1e-6 * np.abs(dt)
-        return (np.concatenate([t1, t1 + step, t1]), np.concatenate([t2, t2, t2 + step]),
-                np.concatenate([dt, dt + step, dt - step]), step)
+    def tiled(self, copies: int) -> None:
+        """Keep the parameter columns repeated ``copies`` times: the model evaluates the group
+        at the point and at the two finite-difference points in one call."""
+        self.length_tiled = np.tile(self.length, copies)
+        self.area_tiled = np.tile(self.area, copies)
+        self.columns_tiled = {k: np.tile(v, copies) for k, v in self.columns.items()}
 
-    def finish(self, dt, film, step):
-        """Heat flows (and derivatives) from the film properties at the points."""
-        n = len(self.index)
-        tile = len(dt) // n
-        length = np.tile(self.length, tile) if tile > 1 else self.length
-        columns = {k: (np.tile(v, tile) if tile > 1 else v) for k, v in self.columns.items()}
-        _, ra = buoyancy_groups(film, film.expansion, dt, length)
-        inputs = dict(ra=ra, pr=film.prandtl, **self.kind.correlation_inputs(dict(columns, length=length), dt))
-        result, case, flagged = self._nusselt(inputs, dt)
-        h = result.nu * film.conductivity / length
-        heat = h * (np.tile(self.area, tile) if tile > 1 else self.area) * dt
-        detail = SimpleNamespace(h=h[:n], nu=result.nu[:n], ra=ra[:n], pr=film.prandtl[:n],
-                                 t_film=film.t_film[:n], method=result.method[:n],
-                                 case=case[:n] if case is not None else None, note=result.note[:n],
-                                 in_range=result.in_range[:n],
-                                 flagged=flagged[:n] if flagged is not None else None)
-        if step is None:
-            return heat, None, None, detail
-        q = heat[:n]
-        return q, (heat[n:2 * n] - q) / step, (heat[2 * n:] - q) / step, detail
+    def nusselt(self, ra, pr, dt):
+        """(NusseltResult, plate case or None, flagged or None) at the tiled points."""
+        inputs = dict(ra=ra, pr=pr, **self.kind.correlation_inputs(
+            dict(self.columns_tiled, length=self.length_tiled), dt))
+        return self._nusselt(inputs, dt)
 
     def _nusselt(self, inputs, dt):
         if not self.cases:

@@ -21,9 +21,11 @@ def error_text(value) -> str | None:
     """The error value's text ("#N/A") when ``value`` is a spreadsheet error, else None.
 
     Error objects of formula evaluators (the `formulas` package's XlError) count as well."""
+    if isinstance(value, (float, int)) or value is None:
+        return None
     if type(value).__name__ == "XlError":
         return str(value)
-    if isinstance(value, str) and _ERROR_TEXT.match(value.strip()):
+    if isinstance(value, str) and value.lstrip()[:1] in ("#", "E", "e") and _ERROR_TEXT.match(value.strip()):
         return value.strip().upper() if value.strip().startswith("#") else value.strip()
     return None
 

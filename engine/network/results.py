@@ -87,7 +87,10 @@ def branch_records(net: Network, t: np.ndarray, evaluation: Evaluation, strict: 
     records = [dict(name=b.name, kind=b.kind, source=b.source, target=b.target, heat=float(q[k]),
                     delta_t=float(dt[k]), Ra=nan, Nu=nan, Pr=nan, t_film=nan, case="", note="",
                     in_range=True) for k, b in enumerate(net.branches)]
-    for group, detail in zip(net.groups, evaluation.details):
+    groups = [(g, None) for g in net.plain_groups] + [
+        (g, detail.for_group(k)) for batch, detail in zip(net.batches, evaluation.details)
+        for k, g in enumerate(batch.groups)]
+    for group, detail in groups:
         i = group.index
         for position, values in group.records(t1[i], t2[i], dt[i], q[i], detail):
             records[position].update(values)

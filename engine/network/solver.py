@@ -66,7 +66,7 @@ class Solver:
             fine[net.free] = x_fine
         return t, fine
 
-    def evaluate(self, x, x_fine=None, derivatives=True):
+    def evaluate(self, x, x_fine=None):
         """(evaluation, free-node residual) or None where the branches cannot be evaluated
         (a temperature outside the gas-property range, for instance)."""
         t, fine = self.temperatures(x, x_fine)
@@ -74,7 +74,7 @@ class Solver:
             self.failure = "a node temperature fell to absolute zero"
             return None
         try:
-            evaluation = self.net.evaluate(t, fine, derivatives)
+            evaluation = self.net.evaluate(t, fine)
         except StillairError as error:
             self.failure = str(error)
             return None
@@ -88,13 +88,16 @@ class Solver:
         return evaluation, residual
 
     def tolerances(self, evaluation) -> np.ndarray:
-        """Largest acceptable imbalance (W) at every free node."""
+        """Largest acceptable imbalance (W) at every free node (worked out once per evaluation)."""
+        cached = getattr(evaluation, "tolerance", None)
+        if cached is not None:
+            return cached
         net = self.net
         through = net.throughput(evaluation.q)[net.free]
         largest = max(np.max(np.abs(evaluation.q), initial=0.0), np.max(np.abs(net.heat_input), initial=0.0))
         floor = QUIET_NODE_FRACTION * largest
-        with np.errstate(invalid="ignore"):
-            return RELATIVE_TOLERANCE * np.maximum(through, floor)
+        evaluation.tolerance = RELATIVE_TOLERANCE * np.maximum(through, floor)
+        return evaluation.tolerance
 
     def worst_ratio(self, evaluation, residual) -> float:
         """The largest |imbalance| / tolerance over the free nodes (<= 1: converged)."""
