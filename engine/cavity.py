@@ -148,7 +148,7 @@ define_geometry(Geometry(
     auto_order={None: ("conduction", "hollands", "globe-dropkin", "elsherbiny", "catton",
                        "macgregor-emery", "wright")},
     fallback={None: _auto_fallback},
-    floor=1.0))
+    floor=1.0, default_tilt=90.0))
 
 
 def _vertical_correlation(*, method, title, source, equation, validity, notes=""):

@@ -64,6 +64,8 @@ __all__ = [
     "nusselt_value",
     "merge_masked",
     "PLATE_CASES",
+    "NusseltSpread",
+    "nu_spread",
 ]
 
 PLATE_CASES = ("hot-up", "hot-down", "cold-up", "cold-down")
@@ -95,6 +97,9 @@ class Geometry:
     # Allowed tilt (degrees) where tilt is an input: cavities 0-180 from the horizontal,
     # tilted plates 0-90 from the vertical.
     tilt_range: tuple[float, float] = (0.0, 180.0)
+    # The tilt a caller who gives none gets (cavities: 90, the vertical layer), or None where
+    # the tilt is required (tilted plates).
+    default_tilt: float | None = None
 
 
 @dataclass(frozen=True)
@@ -235,7 +240,7 @@ def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, ob
     inputs = {}
     for name in geometry.inputs:
         if name not in raw:
-            raise InputError(function_name, name, None, "given")
+            raise InputError(function_name, name, None, f'a number for geometry "{geometry.name}"')
         inputs[name] = _INPUT_CHECKS[name](function_name, raw[name], geometry)
     arrays = np.broadcast_arrays(*inputs.values())
     return {name: array for name, array in zip(inputs, arrays)}
@@ -343,3 +348,101 @@ def _auto_choice(geo: Geometry, case, arrays, shape) -> np.ndarray:
         if not undecided.any():
             break
     return chosen
+
+
+# --- the spread of the published correlations ---------------------------------------------------
+
+@dataclass(frozen=True)
+class NusseltSpread:
+    """The lowest and highest Nu among the correlations whose published ranges cover a case.
+
+    ``low`` and ``high`` are NaN where no registered correlation covers the case (``count`` 0).
+    ``methods`` lists the covering methods in ascending order of their Nu (a tuple for scalar
+    input, an object array of tuples otherwise), so ``methods[0]`` gave ``low`` and
+    ``methods[-1]`` gave ``high``.  This is the spread of published correlations, not a
+    statistical confidence interval: it says how much the literature disagrees about the case.
+    """
+
+    low: np.ndarray
+    high: np.ndarray
+    count: np.ndarray
+    methods: np.ndarray
+
+    @property
+    def text(self):
+        """The methods as text, lowest Nu first ("morgan < churchill-chu")."""
+        if isinstance(self.methods, tuple):
+            return " < ".join(self.methods)
+        return np.vectorize(lambda m: " < ".join(m), otypes=[object])(self.methods)
+
+
+def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspect=None,
+              slenderness=None, function_name: str = "nu_spread") -> NusseltSpread:
+    """Lowest and highest Nu among every registered correlation of ``geometry`` whose published
+    validity ranges cover the case (with the geometry's floor applied, as ``nusselt`` does).
+
+    Parameters
+    ----------
+    geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity"}
+    ra, pr : array_like
+        Rayleigh number on the geometry's own length (>= 0) and Prandtl number (> 0).
+    case : str, optional
+        Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down").
+    tilt : array_like, optional
+        Degrees: from the vertical for tplate, from the horizontal for cavity (default 90).
+    aspect : array_like, optional
+        Cavity height/gap.
+    slenderness : array_like, optional
+        Vertical cylinder height/diameter.
+
+    Returns
+    -------
+    NusseltSpread
+        ``.low``, ``.high`` (floats for scalar input; NaN where ``.count`` is 0), ``.count``
+        and ``.methods`` (covering methods, ascending Nu).  Where "auto" is in range, its value
+        lies between ``low`` and ``high``.
+
+    Examples
+    --------
+    >>> spread = nu_spread("hcyl", 1e6, 0.71)
+    >>> spread.methods, round(spread.low, 2), round(spread.high, 2)
+    (('churchill-chu', 'morgan'), 14.54, 15.18)
+    """
+    geo = _geometry(function_name, geometry)
+    given = {"ra": ra, "pr": pr, "tilt": tilt, "aspect": aspect, "slenderness": slenderness}
+    if "tilt" in geo.inputs and tilt is None and geo.default_tilt is not None:
+        given["tilt"] = geo.default_tilt
+    case = require_choice(function_name, "case", case, geo.cases) if geo.cases else None
+    arrays = _checked_inputs(function_name, geo, {k: v for k, v in given.items()
+                                                  if k in geo.inputs and v is not None})
+    shape = next(iter(arrays.values())).shape
+    flat = {k: v.ravel() for k, v in arrays.items()}
+    names, values = [], []
+    for method in methods_for(geometry, case):
+        corr = CORRELATIONS[(geometry, method)]
+        args = dict(flat, case=case) if geo.cases else flat
+        nu = np.broadcast_to(np.asarray(corr.function(**args), dtype=float), flat["ra"].shape)
+        if geo.floor is not None:
+            nu = np.maximum(nu, geo.floor)
+        names.append(method)
+        values.append(np.where(corr.inside(flat, case), nu, np.nan))
+    table = np.array(values).reshape(len(names), -1)            # (methods, points)
+    covered = ~np.isnan(table)
+    count = covered.sum(axis=0)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", RuntimeWarning)  # all-NaN columns: no covering method
+        low, high = np.nanmin(table, axis=0), np.nanmax(table, axis=0)
+    order = np.argsort(np.where(covered, table, np.inf), axis=0, kind="stable")
+    methods = np.empty(table.shape[1], dtype=object)
+    for point in range(table.shape[1]):
+        methods[point] = tuple(names[i] for i in order[:count[point], point])
+    if shape == ():
+        return NusseltSpread(low=float(low[0]), high=float(high[0]), count=int(count[0]),
+                             methods=methods[0])
+    return NusseltSpread(low=low.reshape(shape), high=high.reshape(shape), count=count.reshape(shape),
+                         methods=methods.reshape(shape))
+
+
+def _geometry(function_name: str, geometry) -> Geometry:
+    name = require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))
+    return GEOMETRIES[name]
