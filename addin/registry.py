@@ -382,3 +382,23 @@ _SPREAD_ENTRY = CellFunction(
     CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row)
 REGISTRY = REGISTRY + (_SPREAD_ENTRY,)
 BY_NAME[_SPREAD_ENTRY.name] = _SPREAD_ENTRY
+
+
+# ---------------------------------------------------------------------------------------------
+# The network's correlation band (appended: one entry, nothing above changes)
+
+
+def _net_band(solve, kwargs):
+    from .network import pick_band
+    node = kwargs.pop("node")
+    return pick_band(solve(band=True, **kwargs), node)
+
+
+_BAND_ENTRY = CellFunction(
+    "NET_BAND", "solve_network",
+    _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
+    "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
+    "in-range correlations: one row, low and high. The spread of published correlations, not a "
+    "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band)
+REGISTRY = REGISTRY + (_BAND_ENTRY,)
+BY_NAME[_BAND_ENTRY.name] = _BAND_ENTRY

@@ -278,7 +278,7 @@ class ConvectionKind(BranchKind):
 
 # The length each surface geometry's Ra is based on, and what it means (cavity: the gap).
 _LENGTHS = {"vplate": ("height", ""), "hplate": ("length", "area/perimeter"),
-            "tplate": ("length", "along the slope; area/perimeter when near horizontal"),
+            "tplate": ("length", "along the slope; area/perimeter where the horizontal term governs"),
             "hcyl": ("diameter", ""), "sphere": ("diameter", ""), "vcyl": ("height", "")}
 
 
