@@ -22,6 +22,7 @@ from typing import Callable, Mapping
 import numpy as np
 from scipy.constants import zero_Celsius
 
+from ..groups import STANDARD_GRAVITY
 from ..correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for, nusselt, NusseltResult
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
@@ -33,6 +34,7 @@ __all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind
 NOMINAL_SURFACE_H = 4.0       # W/(m²·K), still air on a surface (common practice), start only
 NOMINAL_CAVITY_NU = 1.5       # a cavity's start: Nu = 1.5 ...
 NOMINAL_CONDUCTIVITY = 0.026  # W/(m·K) ... with air's conductivity near 20 °C (start only)
+_START_NU_ALPHA = 1.5e-5 * 2.1e-5  # m⁴/s², air's kinematic viscosity times diffusivity near 20 °C
 
 
 # --------------------------------------------------------------------------------------------
@@ -176,7 +178,7 @@ class _LinearGroup(_Group):
         super().__init__(kind, index, params)
         self.g = np.array([kind.conductance(p) for p in params], dtype=float)
 
-    def nominal(self, t_mean_kelvin):
+    def nominal(self, t1, t2):
         return self.g
 
     def flows(self, t1, t2, dt):
@@ -206,8 +208,9 @@ class _RadiationGroup(_Group):
         self.area = self.column(2)
         self.af = self.area * self.factor
 
-    def nominal(self, t_mean_kelvin):
-        return 4.0 * self.af * SIGMA * t_mean_kelvin ** 3
+    def nominal(self, t1, t2):
+        k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
+        return self.af * SIGMA * (k1 + k2) * (k1 * k1 + k2 * k2)
 
     def flows(self, t1, t2, dt):
         k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
@@ -339,10 +342,17 @@ class _ConvectionGroup(_Group):
         # moves, the other cases use "auto" and are flagged; a flag at the solution is an error
         self.served_cases = served if self.cases and served and set(served) != set(self.cases) else ()
 
-    def nominal(self, t_mean_kelvin):
-        if self.kind.role("height") is not None:
-            return NOMINAL_CAVITY_NU * NOMINAL_CONDUCTIVITY / self.length * self.area
-        return NOMINAL_SURFACE_H * self.area
+    def nominal(self, t1, t2):
+        """A start only: laminar-like Nu = c Ra^(1/4) with air near 20 °C (common practice
+        magnitudes), or the still-air values where the difference is not known yet."""
+        cavity = self.kind.role("height") is not None
+        dt = np.abs(t1 - t2)
+        if not np.any(dt > 0):
+            h = NOMINAL_CAVITY_NU * NOMINAL_CONDUCTIVITY / self.length if cavity else NOMINAL_SURFACE_H
+            return h * self.area
+        ra = STANDARD_GRAVITY * dt * self.length ** 3 / ((0.5 * (t1 + t2) + zero_Celsius) * _START_NU_ALPHA)
+        nu = np.maximum(1.0, 0.15 * ra ** 0.25) if cavity else np.maximum(0.5, 0.54 * ra ** 0.25)
+        return nu * NOMINAL_CONDUCTIVITY / self.length * self.area
 
     def tiled(self, copies: int) -> None:
         """Keep the parameter columns repeated ``copies`` times: the model evaluates the group

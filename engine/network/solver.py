@@ -33,6 +33,7 @@ __all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
 RELATIVE_TOLERANCE = 1e-9     # of the heat passing through the node
 QUIET_NODE_FRACTION = 1e-3    # a node carrying less than this of the largest flow uses that floor
 MAX_NEWTON_ITERATIONS = 60
+START_PASSES = 6              # fixed-point passes of the nominal start
 
 
 def _two_sum(a: np.ndarray, b: np.ndarray):
@@ -129,13 +130,28 @@ class Solver:
     # ---- start ---------------------------------------------------------------------------
 
     def nominal_start(self) -> np.ndarray:
-        """Free-node temperatures of the network with nominal, temperature-independent conductances."""
+        """Free-node temperatures of the network with nominal conductances: linear branches exact,
+        radiation and convection by cheap laws (no property or correlation call) re-evaluated
+        at the temperatures of the previous pass, a few passes.  Only the start: Newton then
+        works with the real branches, and a start this close saves it an evaluation or two."""
         net = self.net
-        t_mean = float(np.mean(net.fixed_t)) + zero_Celsius
+        t_mean = float(np.mean(net.fixed_t))
+        t = np.full(len(net.nodes), t_mean)
+        t[net.fixed] = net.fixed_t
         conductance = np.empty(len(net.branches))
-        for group in net.groups:
-            conductance[group.index] = group.nominal(t_mean)
-        return self.linear_solve(conductance)
+        x = None
+        for _ in range(START_PASSES):
+            t1, t2 = t[net.source], t[net.target]
+            for group in net.groups:
+                i = group.index
+                conductance[i] = group.nominal(t1[i], t2[i])
+            previous, x = x, self.linear_solve(conductance)
+            if not np.all(np.isfinite(x)) or np.any(x <= ABSOLUTE_ZERO_C):
+                return previous if previous is not None else np.full(net.free.size, t_mean)
+            t[net.free] = x
+            if previous is not None and np.max(np.abs(x - previous)) < 1e-3 * (1.0 + np.ptp(net.fixed_t)):
+                break
+        return x
 
     def linear_solve(self, conductance: np.ndarray) -> np.ndarray:
         net = self.net
