@@ -33,7 +33,7 @@ __all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
 RELATIVE_TOLERANCE = 1e-9     # of the heat passing through the node
 QUIET_NODE_FRACTION = 1e-3    # a node carrying less than this of the largest flow uses that floor
 MAX_NEWTON_ITERATIONS = 60
-START_PASSES = 6              # fixed-point passes of the nominal start
+START_PASSES = 2              # fixed-point passes of the nominal start
 
 
 def _two_sum(a: np.ndarray, b: np.ndarray):
