@@ -12,7 +12,10 @@
 3. If Newton stalls, scipy.optimize.root ("hybr", then "lm") on the same scaled system.
 
 Acceptance: at every free node the imbalance is at most 1e-9 of the heat passing through that
-node (or 1e-12 of the network's largest flow, for nodes that carry almost nothing).  No
+node (or 1e-12 of the network's largest flow, for nodes that carry almost nothing), or so small
+that through the node's weakest branch it would move the node by less than 1e-11 K (a network at
+rest, whose flows vanish faster than the temperature differences, converges only slowly to the
+first test).  No
 unconverged number is ever returned: :class:`NetworkConvergenceError` names the residual and
 the worst node.
 """
@@ -32,6 +35,7 @@ __all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
 
 RELATIVE_TOLERANCE = 1e-9     # of the heat passing through the node
 QUIET_NODE_FRACTION = 1e-3    # a node carrying less than this of the largest flow uses that floor
+SETTLED_KELVIN = 1e-11        # K: a node whose imbalance would move it less than this is settled
 MAX_NEWTON_ITERATIONS = 60
 START_PASSES = 2              # fixed-point passes of the nominal start
 
@@ -97,7 +101,13 @@ class Solver:
         through = net.throughput(evaluation.q)[net.free]
         largest = max(np.max(np.abs(evaluation.q), initial=0.0), np.max(np.abs(net.heat_input), initial=0.0))
         floor = QUIET_NODE_FRACTION * largest
-        evaluation.tolerance = RELATIVE_TOLERANCE * np.maximum(through, floor)
+        # ... or settled: the imbalance, passed through the node's weakest branch, would move
+        # it by less than SETTLED_KELVIN (a network at rest, where flows vanish with dT^(5/4))
+        weakest = np.full(len(net.nodes), np.inf)
+        np.minimum.at(weakest, net.source, np.abs(evaluation.d_source))
+        np.minimum.at(weakest, net.target, np.abs(evaluation.d_target))
+        evaluation.tolerance = np.maximum(RELATIVE_TOLERANCE * np.maximum(through, floor),
+                                          SETTLED_KELVIN * weakest[net.free])
         return evaluation.tolerance
 
     def worst_ratio(self, evaluation, residual) -> float:
