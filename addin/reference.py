@@ -36,7 +36,8 @@ def reference_text() -> str:
             for arg in entry.args:
                 lines.append(f"    - {_arg_line(arg)}")
         lines.append("")
-    return "\n".join(lines).rstrip() + "\n"
+    from .network import kinds_text
+    return "\n".join(lines).rstrip() + "\n\n" + kinds_text()
 
 
 def _cell(text: str) -> str:
@@ -57,7 +58,8 @@ def reference_markdown() -> str:
     lines.append("Arguments in [brackets] are optional; a blank cell takes the default. "
                  "`stillair functions` lists every argument with its unit and default.")
     lines.append("")
-    return "\n".join(lines) + "\n" + correlations_markdown()
+    from .network import kinds_markdown
+    return "\n".join(lines) + "\n" + correlations_markdown() + "\n" + kinds_markdown()
 
 
 def correlations_markdown() -> str:

@@ -22,7 +22,7 @@ DESIGN_NAMES = (
     + ["ALTITUDE_PRESSURE", "RAYLEIGH", "GRASHOF", "NU_VPLATE", "NU_HPLATE", "NU_TPLATE", "NU_HCYL",
        "NU_SPHERE", "NU_CAVITY", "CAVITY_METHOD", "NU_NOTE", "H_VPLATE", "H_HPLATE", "H_TPLATE",
        "H_HCYL", "H_SPHERE", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
-       "STILLAIR_VERSION"])
+       "STILLAIR_VERSION", "NU_SPREAD", "NET_BAND"])
 
 # VBA keywords and the names the generated VBA wrapper itself uses (Array, XLPy, Err...): an
 # argument with one of these names would not compile.  From the VBA language specification
