@@ -531,6 +531,17 @@ class TemplateBook:
         self._write_wrapped(state, state.row, 0, 0, text, "caution" if caution else "paragraph")
         state.row += 1
 
+    def spread_note(self, what: str) -> None:
+        """The Notes paragraph saying what the correlation spread beside a key result means."""
+        self.paragraph(f"Correlation spread ({what}): the same calculation with every convection "
+                       "coefficient at the lowest and at the highest Nusselt number among the published "
+                       "correlations whose validity ranges cover the case (NET_BAND for a network, NU_SPREAD "
+                       "for one coefficient). It shows how much the literature disagrees about this case; "
+                       "it is not a confidence interval and not a bound on the error of any correlation, and "
+                       "a temperature that depends on the ratio of two convection coefficients can lie "
+                       "outside it. "
+                       "A wide spread is a reason for margin or for a measurement.")
+
     def cite(self, label: str, geometry: str, method: str) -> None:
         """A Notes paragraph "label: source" for a registered correlation the template uses."""
         self.paragraph(f"{label}: {source_of(geometry, method)}")

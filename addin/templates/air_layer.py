@@ -72,6 +72,14 @@ def build(b: TemplateBook) -> None:
     b.step("h_radiation", "Radiation coefficient between the faces", "=H_RAD(t_warm,t_cold,eps_warm,eps_cold)",
            "W/(m²·K)", "grey parallel faces, exact T⁴ linearised")
     b.step("r_correlation", "Resistance 1/(h_conv + h_rad)", "=1/(h_conv+h_radiation)", "m²·K/W")
+    b.step("spread_count", "Correlations covering the case (NU_SPREAD)",
+           '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,3)', number_format="0")
+    b.step("nu_low", "Lowest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,1)', "-")
+    b.step("nu_high", "Highest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,2)', "-")
+    b.step("r_spread_high", "Resistance with the lowest Nu 1/(h_conv Nu_low/Nu + h_rad)",
+           "=IF(spread_count>0,1/(h_conv*nu_low/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
+    b.step("r_spread_low", "Resistance with the highest Nu 1/(h_conv Nu_high/Nu + h_rad)",
+           "=IF(spread_count>0,1/(h_conv*nu_high/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
     b.section("Calculation", "Simplified value of the building standard (ISO 6946 annex, from memory)")
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018",
            number_format="0.0000E+00")
@@ -85,6 +93,9 @@ def build(b: TemplateBook) -> None:
     b.section("Results", "Thermal resistance of the air layer")
     b.result("r_layer", "R from correlations + radiation", "=r_correlation", "m²·K/W",
              "cavity correlation as named below, exact grey radiation")
+    b.result("r_layer_low", "R, correlation spread: lowest", "=r_spread_low", "m²·K/W",
+             "spread of the published correlations (see Notes)")
+    b.result("r_layer_high", "R, correlation spread: highest", "=r_spread_high", "m²·K/W")
     b.result("r_standard", "R, the standard's simplified formulas", "=r_simplified", "m²·K/W",
              "ISO 6946 annex formulas (from memory)")
     b.result("r_standard_rounded", "R, simplified, rounded as the standard's table", "=ROUND(r_simplified,2)",
@@ -135,6 +146,7 @@ def build(b: TemplateBook) -> None:
                 "heat flow, max(1.95, 0.025/d) upward, max(0.12 d^-0.44, 0.025/d) downward (d in m, dT <= 5 K); "
                 "h_r = E h_r0 with E = 1/(1/e1 + 1/e2 - 1) and h_r0 = 4 sigma Tm³; R = 1/(h_a + h_r). The "
                 "standard's table of R for high-emissivity faces (e = 0.9, 10 °C mean) follows from these.")
+    b.spread_note("resistance of the air layer")
     b.paragraph("Correlations the automatic choice uses for the three directions:")
     used = []
     for direction, tilt in TILT.items():
@@ -154,7 +166,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="air-layer", version=2, title="Unventilated air layer",
+    name="air-layer", version=3, title="Unventilated air layer",
     summary="Thermal resistance of an unventilated air layer from correlations + radiation, beside the "
             "building standard's simplified value.",
     build=build)

@@ -185,6 +185,11 @@ def build(b: TemplateBook) -> None:
     b.step("t_gap2_inner", "Gap 2 inner face temperature (s5, triple)",
            f'=NET_TEMP({tables},IF(panes=3,"s5","s4"),{air})', "°C", "indoor face with 2 panes")
     b.step("t_indoor_face", "Indoor face temperature", f'=NET_TEMP({tables},IF(panes=3,"s6","s4"),{air})', "°C")
+    indoor_node = 'IF(panes=3,"s6","s4")'
+    b.step("t_indoor_face_low", "Indoor face, all convection at the lowest covering Nu",
+           f"=INDEX(NET_BAND({tables},{indoor_node},{air}),1,1)", "°C", "correlation spread (NET_BAND)")
+    b.step("t_indoor_face_high", "Indoor face, all convection at the highest covering Nu",
+           f"=INDEX(NET_BAND({tables},{indoor_node},{air}),1,2)", "°C")
     b.step("q_actual", "Heat flow per m², indoor to outdoor",
            f'=-(NET_HEAT({tables},"in-conv",{air})+NET_HEAT({tables},"in-rad",{air}))', "W/m²")
     b.step("act_u", "U-value, actual conditions", "=q_actual/(t_indoor-t_outdoor)", "W/(m²·K)")
@@ -248,6 +253,9 @@ def build(b: TemplateBook) -> None:
     b.section("Results", "Surface temperatures and condensation, actual conditions (b)")
     b.result("indoor_face_t", "Indoor face temperature (centre of glass)", "=t_indoor_face", "°C")
     b.result("outdoor_face_t", "Outdoor face temperature", "=t_face_1", "°C")
+    b.result("indoor_face_low", "Indoor face, correlation spread: lowest", "=t_indoor_face_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("indoor_face_high", "Indoor face, correlation spread: highest", "=t_indoor_face_high", "°C")
     b.result("dew_point", "Indoor dew point", "=t_dew", "°C", "Magnus formula, Alduchov & Eskridge 1996")
     b.result("dew_margin_result", "Margin above the dew point", "=dew_margin", "K")
     b.result("condensation_check", "Condensation check (centre of glass)",
@@ -255,6 +263,11 @@ def build(b: TemplateBook) -> None:
              'glass, margin "&TEXT(dew_margin,"0.0")&" K","CONDENSATION: indoor face "&TEXT(-dew_margin,"0.0")&'
              '" K below the dew point"))', text=True, fails=("CONDENSATION",),
              note="edges and frames are colder: see the caution below")
+    b.result("condensation_check_low", "Condensation check at the bottom of the spread",
+             '=IF(NOT(ISNUMBER(t_indoor_face_low)),"' + FAILED + '",IF(t_indoor_face_low>t_dew,"no condensation '
+             'at the centre of glass, margin "&TEXT(t_indoor_face_low-t_dew,"0.0")&" K","CONDENSATION: indoor '
+             'face "&TEXT(t_dew-t_indoor_face_low,"0.0")&" K below the dew point"))', text=True,
+             fails=("CONDENSATION",))
     b.section("Results", "Checks and validity notes")
     b.result("network_check", "Network (b)", f"=NET_CHECK({net})", text=True)
     b.result("gap1_method", "Gap 1 correlation used in (b)",
@@ -339,6 +352,7 @@ def build(b: TemplateBook) -> None:
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
+    b.spread_note("indoor face temperature, mode (b)")
     b.paragraph("Correlations used:")
     used = [("cavity", "en673"), ("cavity", auto_default), ("vplate", "churchill-chu")]
     for method in GAP_METHODS[1:]:
@@ -362,7 +376,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=2, title="Insulating glass unit",
+    name="glazing-unit", version=3, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

@@ -189,6 +189,10 @@ def build(b) -> None:
     # one insulated case picked out by name, for checkers and the direction tests
     b.step("surf_t_first_step", "Outer surface temperature with 1 x step", "=" + b.cell(sheet, tstart + 1, 2), "°C")
     b.step("q_first_step", "Heat loss with 1 x step", "=" + b.cell(sheet, tstart + 1, 3), "W")
+    b.step("surf_first_low", "Outer surface with 1 x step, all convection at the lowest covering Nu",
+           '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 1)', "°C", "correlation spread (NET_BAND)")
+    b.step("surf_first_high", "Outer surface with 1 x step, all convection at the highest covering Nu",
+           '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 2)', "°C")
     b.step("h_conv_first_step", "Outer convection coefficient with 1 x step (check)",
            f'=IF(kind="hcyl", H_HCYL(surf_t_first_step, ambient_t, {b.cell(sheet, start, 3)}), '
            f'IF(kind="vplate", H_VPLATE(surf_t_first_step, ambient_t, face_height), '
@@ -212,6 +216,10 @@ def build(b) -> None:
     b.result("res_first_ok_t", "Outer surface temperature at that thickness", "=first_ok_t", "°C")
     b.result("res_first_ok_q", "Heat loss at that thickness", "=first_ok_q", "W")
     b.result("res_surf_t_first_step", "Outer surface temperature with one thickness step", "=surf_t_first_step",
+             "°C")
+    b.result("res_surf_first_low", "Outer surface, one step, correlation spread: lowest", "=surf_first_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_surf_first_high", "Outer surface, one step, correlation spread: highest", "=surf_first_high",
              "°C")
     b.result("res_q_first_step", "Heat loss with one thickness step", "=q_first_step", "W")
     b.section("Results", "Validity")
@@ -241,6 +249,7 @@ def build(b) -> None:
                 "ln(D_out/D)/(2 pi k L) for a pipe, t/(k A) for a flat face. The outer surface temperature is "
                 "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
                 "an independent sub-network in one branch table.")
+    b.spread_note("outer surface temperature with one thickness step")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")
     b.cite("Vertical face, Churchill-Chu", "vplate", "churchill-chu")
@@ -262,6 +271,6 @@ def build(b) -> None:
                 "where the calculated temperature meets the limit.", caution=True)
 
 
-TEMPLATE = Template(NAME, 2, "Hot surface in still air",
+TEMPLATE = Template(NAME, 3, "Hot surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit.", build)

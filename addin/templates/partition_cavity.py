@@ -104,6 +104,10 @@ def build(b) -> None:
     b.step("n_warm_cav", "Warm cavity face", f'=NET_TEMP({net}, "warm_cav")', "°C")
     b.step("n_cold_cav", "Cold cavity face", f'=NET_TEMP({net}, "cold_cav")', "°C")
     b.step("n_cold_face", "Cold room-side face", f'=NET_TEMP({net}, "cold_face")', "°C")
+    b.step("n_cold_face_low", "Cold room-side face, all convection at the lowest covering Nu",
+           f'=INDEX(NET_BAND({net}, "cold_face"), 1, 1)', "°C", "correlation spread (NET_BAND)")
+    b.step("n_cold_face_high", "Cold room-side face, all convection at the highest covering Nu",
+           f'=INDEX(NET_BAND({net}, "cold_face"), 1, 2)', "°C")
     b.step("n_q", "Heat flow through the partition", f'=NET_HEAT({net}, "board_warm")', "W")
     b.step("n_u", "Thermal transmittance U (air to air)", "=n_q/(area*(warm_t-cold_t))", "W/(m²·K)")
     b.step("n_h_warm", "Warm-side convection coefficient", f"={h_of('conv_warm')}", "W/(m²·K)")
@@ -173,6 +177,9 @@ def build(b) -> None:
     b.result("res_q", "Heat flow through the partition", "=n_q", "W")
     b.result("res_warm_face", "Warm room-side face temperature", "=n_warm_face", "°C")
     b.result("res_cold_face", "Cold room-side face temperature", "=n_cold_face", "°C")
+    b.result("res_cold_face_low", "Cold room-side face, correlation spread: lowest", "=n_cold_face_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_cold_face_high", "Cold room-side face, correlation spread: highest", "=n_cold_face_high", "°C")
     b.result("res_h_cav", "Cavity convection coefficient", "=n_h_cav", "W/(m²·K)")
     b.result("res_hr_cav", "Cavity radiation coefficient", "=n_hr_cav", "W/(m²·K)")
     b.section("Results", "Single pass (hand estimate, no iteration)")
@@ -214,6 +221,7 @@ def build(b) -> None:
                 "resistances in series and stop. The Results sheet gives its error against the converged "
                 "network; the temperatures it implies differ from the guesses, which is the sign that a "
                 "second pass was needed.")
+    b.spread_note("cold room-side face temperature, converged network")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Room-side faces, Churchill-Chu", "vplate", "churchill-chu")
     b.cite("Cavity, ElSherbiny-Raithby-Hollands (auto's choice for tall vertical air layers)", "cavity", "elsherbiny")
@@ -235,6 +243,6 @@ def build(b) -> None:
                 "licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 2, "Partition with a closed air cavity",
+TEMPLATE = Template(NAME, 3, "Partition with a closed air cavity",
                     "Heat flow through a partition with a closed air cavity between two air spaces: "
                     "converged network against the single-pass hand estimate.", build)

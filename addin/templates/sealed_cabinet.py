@@ -129,6 +129,11 @@ def build(b) -> None:
            "=q_conv_sides+q_rad_sides+q_conv_top+q_rad_top", "W")
     b.step("balance", "Energy balance: heat input - heat loss", "=heat_in-heat_out", "W", "should be ~0",
            number_format="0.0E+00")
+    b.section("Calculation", "Correlation spread of the internal air temperature (NET_BAND)")
+    b.step("t_air_low", "Internal air, all convection at the lowest covering Nu",
+           f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 1)', "°C")
+    b.step("t_air_high", "Internal air, all convection at the highest covering Nu",
+           f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 2)', "°C")
     b.section("Calculation", "Coefficients re-computed from the solved temperatures (for the checker)")
     b.step("h_in_sides", "Inside convection, side walls",
            '=H_VPLATE(t_side_in, t_air, cab_height, "air", air_pressure, vplate_method)', "W/(m²·K)")
@@ -162,6 +167,12 @@ def build(b) -> None:
     b.result("res_check", "Limit check",
              f'=IF(ISNUMBER(t_air), IF(t_air<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
              fails=("EXCEEDS LIMIT",))
+    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
+    b.result("res_check_high", "Limit check at the top of the spread",
+             f'=IF(ISNUMBER(t_air_high), IF(t_air_high<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")',
+             text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")
@@ -207,6 +218,7 @@ def build(b) -> None:
                 "that difference, so no coefficient is guessed. The Calculation sheet re-computes the "
                 "coefficients with H_VPLATE, H_HPLATE and H_RAD from the solved temperatures so a checker "
                 "can follow each one.")
+    b.spread_note("internal air temperature")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
     b.cite("Vertical faces, Churchill-Chu laminar form (selectable)", "vplate", "churchill-chu-laminar")
@@ -235,6 +247,6 @@ def build(b) -> None:
                 "standards and licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 2, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 3, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit.", build)

@@ -103,6 +103,16 @@ def build(b: TemplateBook) -> None:
     b.step("h_gap_1", "Gap 1 convection coefficient at the solved cover temperature",
            '=H_CAVITY(t_absorber,t_cover_1,gap_1,collector_length,tilt,"air",pressure,"auto")', "W/(m²·K)",
            "check: h ΔT = convection absorber - cover 1")
+    aspect = "collector_length/gap_1"
+    b.step("nu_gap_1", "Gap 1 Nusselt number (auto)", f'=NU_CAVITY(ra_1,pr_1,{aspect},tilt,"auto")', "-")
+    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)",
+           f'=INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,3)', number_format="0")
+    b.step("h_gap_low", "Gap 1 coefficient at the lowest covering Nu",
+           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,1)/nu_gap_1,'
+           '"no correlation covers the case")', "W/(m²·K)", "h scales with Nu at fixed properties")
+    b.step("h_gap_high", "Gap 1 coefficient at the highest covering Nu",
+           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,2)/nu_gap_1,'
+           '"no correlation covers the case")', "W/(m²·K)")
     b.step("u_top_sky_air", "U_t with the sky at the air temperature (Klein's assumption)",
            f'=(NET_HEAT({branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({branches},col_bounds_klein,'
            f'"rad-1",{air}))/(t_absorber-t_ambient)', "W/(m²·K)", "same branches, sky node at t_ambient")
@@ -123,6 +133,10 @@ def build(b: TemplateBook) -> None:
 
     b.section("Results", "Top loss")
     b.result("top_loss_u", "Top-loss coefficient U_t (network, this sky)", "=u_top", "W/(m²·K)")
+    b.result("gap_h_low", "Gap 1 convection, correlation spread: lowest", "=h_gap_low", "W/(m²·K)",
+             "at the solved cover temperature (see Notes)")
+    b.result("gap_h_nominal", "Gap 1 convection, the network's correlation", "=h_gap_1", "W/(m²·K)")
+    b.result("gap_h_high", "Gap 1 convection, correlation spread: highest", "=h_gap_high", "W/(m²·K)")
     b.result("top_loss_q", "Top loss per m² of absorber", "=q_top", "W/m²")
     b.result("cover_1_t", "Cover 1 temperature", "=t_cover_1", "°C")
     b.result("cover_2_t", "Cover 2 temperature", '=IF(covers=2,TEXT(t_cover_top,"0.0")&" °C","no second cover")',
@@ -169,6 +183,7 @@ def build(b: TemplateBook) -> None:
                 "temperature; stated accuracy about +-0.3 W/(m²·K) (from memory).")
     used = sorted({str(stillair.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
                    for t in (0.0, 30.0, 45.0, 60.0)})
+    b.spread_note("gap 1 convection coefficient")
     b.paragraph("Cavity correlations the automatic choice uses for tilted collector gaps:")
     for method in used:
         c = cav[("cavity", method)]
@@ -182,7 +197,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="solar-collector", version=2, title="Flat-plate collector top loss",
+    name="solar-collector", version=3, title="Flat-plate collector top loss",
     summary="Top-loss coefficient of a flat-plate solar collector with one or two covers, beside Klein's "
             "empirical equation.",
     build=build)
