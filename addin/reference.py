@@ -41,7 +41,8 @@ def _functions_text() -> str:
             for arg in entry.args:
                 lines.append(f"    - {_arg_line(arg)}")
         lines.append("")
-    return "\n".join(lines).rstrip() + "\n"
+    from .network import kinds_text
+    return "\n".join(lines).rstrip() + "\n\n" + kinds_text()
 
 
 def _cell(text: str) -> str:

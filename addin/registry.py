@@ -444,3 +444,50 @@ del _entries
 
 def lookup(name: str) -> CellFunction:
     return BY_NAME[name.upper()]
+
+
+# ---------------------------------------------------------------------------------------------
+# The spread of the published correlations (appended: one entry, nothing above changes)
+
+
+def _nu_spread_row(nu_spread, kwargs):
+    """One row: low, high, count, the covering methods (lowest Nu first).  For a vertical
+    cylinder the aspect cell is its slenderness height/diameter."""
+    geometry = kwargs["geometry"]
+    if isinstance(geometry, str) and geometry.strip().lower() == "vcyl":
+        kwargs["slenderness"] = kwargs.pop("aspect")
+    spread = nu_spread(**kwargs)
+    return [[spread.low, spread.high, spread.count, spread.text]]
+
+
+_SPREAD_ENTRY = CellFunction(
+    "NU_SPREAD", "nu_spread",
+    (Arg("geometry", "Geometry: vplate, hplate, tplate, hcyl, sphere, vcyl or cavity.", kind="text"),
+     RA, PR) + BY_NAME["NU_NOTE"].args[3:5] + (  # plate_case and tilt as NU_NOTE reads them
+     Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
+         default=None),),
+    "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
+    "how many cover it, and the methods (lowest first). Not a confidence interval.",
+    CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row)
+REGISTRY = REGISTRY + (_SPREAD_ENTRY,)
+BY_NAME[_SPREAD_ENTRY.name] = _SPREAD_ENTRY
+
+
+# ---------------------------------------------------------------------------------------------
+# The network's correlation band (appended: one entry, nothing above changes)
+
+
+def _net_band(solve, kwargs):
+    from .network import pick_band
+    node = kwargs.pop("node")
+    return pick_band(solve(band=True, **kwargs), node)
+
+
+_BAND_ENTRY = CellFunction(
+    "NET_BAND", "solve_network",
+    _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
+    "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
+    "in-range correlations: one row, low and high. The spread of published correlations, not a "
+    "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band)
+REGISTRY = REGISTRY + (_BAND_ENTRY,)
+BY_NAME[_BAND_ENTRY.name] = _BAND_ENTRY

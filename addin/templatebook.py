@@ -26,6 +26,7 @@ recognises a filled-in template by it.
 from __future__ import annotations
 
 import datetime as _dt
+import math
 import os
 import re
 import tempfile
@@ -37,7 +38,8 @@ from typing import Any, Callable, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-__all__ = ["TemplateBook", "Template", "TEMPLATE_DIR", "MARKER_NAME", "build_template", "TemplateBuildError",
+__all__ = ["TemplateBook", "Template", "Valid", "TEMPLATE_DIR", "MARKER_NAME", "FAILED", "build_template",
+           "TemplateBuildError",
            "is_error_value", "source_of"]
 
 # The workbooks ship as the package stillair.templates (the top-level templates/ folder).
@@ -46,7 +48,8 @@ MARKER_NAME = "stillair_template"
 # A fixed creation date keeps rebuilt files identical apart from what changed in the code.
 FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
 
-# Our own palette: warm sand input cells, slate headings, pale sage results.
+# Our own palette: warm sand input cells, slate headings, pale sage results; a failed check is
+# printed white on ink, which stays the darkest thing on a grey-scale page.
 _INK = "#23313F"
 _SLATE = "#3E5C76"
 _SAND = "#FBEFD5"
@@ -54,11 +57,57 @@ _SAND_EDGE = "#C98B2B"
 _SAGE = "#E3EEDF"
 _RULE = "#B8C4CE"
 _CAUTION = "#F6DCD5"
+_WHITE = "#FFFFFF"
 
-# Columns of each sheet's row layout (label | value | unit | note, with a step number on Calculation).
-_SHEET_WIDTHS = {"Inputs": 4, "Calculation": 5, "Results": 4, "Notes": 1}
+FONT_SIZE = 10            # every cell's font; with the print scale kept >= 0.8 it prints >= 8 pt
+CHART_FONT_SIZE = 10
+MIN_PRINT_SCALE = 0.8
+
+# The text a check shows when a quantity it needs did not calculate.
+FAILED = "CALC FAILED"
+
+# Column widths (characters) of each sheet's grid.  Inputs: label | value | unit | note;
+# Calculation: step | label | value | unit | note; Results: label | value | unit | note;
+# Notes: one wrapped column; Tables (network tables and sweeps): ten narrow columns.
+# LibreOffice fits a sheet to the page width by its columns (a single wide column is clipped, not
+# shrunk) and measures a character wider than Excel, so every grid stays within ~112 characters:
+# that prints at full size on A4 landscape in both.
+GRIDS = {
+    "Inputs": (42, 14, 11, 45),
+    "Calculation": (5, 40, 14, 11, 42),
+    "Results": (42, 14, 11, 45),
+    "Notes": (110,),
+    "Tables": (14, 9, 9, 11, 9, 9, 9, 9, 18, 13),
+}
+# Columns of the row layout: where the label, value, unit and note of a row go.
+_ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": (0, 1, 2, 3)}
+
+# A4 landscape, margins in inches (left/right, top/bottom, header/footer).
+PAGE = {"width_in": 11.69, "height_in": 8.27, "side": 0.5, "top": 0.6, "bottom": 0.6, "header": 0.25,
+        "footer": 0.25}
+ROW_HEIGHT = 13.5         # points, one line of 10-pt text
+# Height a printed page holds, points: A4 landscape less margins, header and footer, and a reserve
+# for a viewer that prints slightly larger than 100 %.
+PAGE_CAPACITY = 460.0
+CHART_PX = (760, 280)     # width, height of every chart
+
+# Number formats by quantity (the unit shown beside the value).  SIG3 marks three significant
+# figures: the build evaluates the workbook once and writes each such cell with the fixed decimals
+# its value needs (a conditional format such as [>=10]0.0;... loses the minus sign in some viewers).
+SIG3 = "sig3"
+SCIENTIFIC = "0.000E+00"
+UNIT_FORMATS = {
+    "°C": "0.0", "K": "0.0", "°": "0.0", "%": "0.0", "mm": "0.0",
+    "W/(m²·K)": SIG3, "W/(m·K)": SIG3, "W/K": SIG3, "m²·K/W": SIG3, "K/W": SIG3, "-": SIG3,
+    "W": "0.0", "W/m²": "0.0", "W/m": "0.0", "W/m or W/m²": "0.0",
+    "m": "0.0000", "m²": "0.000", "m or m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
+    "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
+}
 
 _NAME_RE = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
+
+# The sign-off block at the top of the Inputs sheet: the fields a checker fills in and signs.
+SIGNOFF_FIELDS = ("Project", "Calculation number", "Subject", "Prepared by", "Checked by", "Date", "Revision")
 
 
 class TemplateBuildError(RuntimeError):
@@ -84,11 +133,97 @@ class Template:
         return TEMPLATE_DIR / f"{self.name}.xlsx"
 
 
+@dataclass(frozen=True)
+class Valid:
+    """The accepted values of a numeric input and why; the input cell's data validation.
+
+    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0)."""
+
+    low: float | None = None
+    high: float | None = None
+    why: str = ""
+    low_open: bool = False
+    high_open: bool = False
+
+    def describe(self, unit: str) -> str:
+        u = f" {unit}" if unit not in ("", "-") else ""
+        low = None if self.low is None else f"{'above' if self.low_open else 'at least'} {_num(self.low)}{u}"
+        high = None if self.high is None else f"{'below' if self.high_open else 'at most'} {_num(self.high)}{u}"
+        if low and high and not self.low_open and not self.high_open:
+            return f"from {_num(self.low)} to {_num(self.high)}{u}"
+        return " and ".join(part for part in (low, high) if part)
+
+    def admits(self, value: float) -> bool:
+        if self.low is not None and (value < self.low or (self.low_open and value == self.low)):
+            return False
+        return not (self.high is not None and (value > self.high or (self.high_open and value == self.high)))
+
+    def options(self, cell: str) -> dict:
+        """XlsxWriter data-validation options (without the messages)."""
+        closed = not self.low_open and not self.high_open
+        if self.low is not None and self.high is not None and closed:
+            return {"validate": "decimal", "criteria": "between", "minimum": self.low, "maximum": self.high}
+        if self.low is not None and self.high is not None:
+            low = f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}"
+            high = f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}"
+            return {"validate": "custom", "value": f"=AND(ISNUMBER({cell}),{low},{high})"}
+        if self.low is not None:
+            return {"validate": "decimal", "criteria": ">" if self.low_open else ">=", "value": self.low}
+        if self.high is not None:
+            return {"validate": "decimal", "criteria": "<" if self.high_open else "<=", "value": self.high}
+        raise TemplateBuildError("a Valid range needs a lower or an upper bound")
+
+
+def _num(value: float) -> str:
+    return f"{value:g}"
+
+
+def gas_temperature(gas: str = "air", why: str = "") -> Valid:
+    """Temperatures that set the properties of ``gas``: the range of the engine's gas tables."""
+    from stillair.gases import GASES
+
+    band = GASES[gas].t_range
+    return Valid(band.low, band.high, why or f"the {gas} property tables cover {_num(band.low)} to "
+                 f"{_num(band.high)} °C")
+
+
+def gas_pressure() -> Valid:
+    """Gas pressures the engine's property tables cover."""
+    from stillair.gases import GAS_PRESSURE_RANGE as band
+
+    return Valid(band.low, band.high, f"the gas property tables cover {_num(band.low)} to {_num(band.high)} Pa")
+
+
+def altitude() -> Valid:
+    """Altitudes of the standard atmosphere (ALTITUDE_PRESSURE)."""
+    from stillair.atmosphere import ALTITUDE_RANGE as band
+
+    return Valid(band.low, band.high, f"the standard atmosphere is defined from {_num(band.low)} to "
+                 f"{_num(band.high)} m")
+
+
+# Shared ranges of common inputs.
+EMISSIVITY = Valid(0.0, 1.0, "an emissivity is a fraction of black-body emission, 0 to 1")
+ABSOLUTE_ZERO = -273.15
+SKY_TEMPERATURE = Valid(-100.0, 60.0, "an effective sky temperature lies from about -100 °C (clear, dry, cold "
+                        "sky) up to the air temperature (common practice)")
+OUTDOOR_AIR = Valid(-60.0, 60.0, "outdoor shade air temperatures lie between about -60 and +60 °C "
+                    "(common practice)")
+LIMIT_TEMPERATURE = Valid(ABSOLUTE_ZERO, 800.0, "a temperature is above absolute zero (-273.15 °C) and this "
+                          "sheet's air tables end at 800 °C", low_open=True)
+
+
 @dataclass
 class _SheetState:
     worksheet: Any
+    widths: tuple[float, ...]
     row: int = 0
     step: int = 0
+    lines: dict[int, float] = field(default_factory=dict)      # row -> lines of wrapped text
+    breaks: list[int] = field(default_factory=list)            # manual page breaks (row before which)
+    charts: list[tuple[int, int, int, int]] = field(default_factory=list)  # x, y, w, h in pixels
+    chart_run: bool = False                                     # the last block was a chart
+    section_row: int = -1                                       # row of the last section bar
 
 
 class TemplateBook:
@@ -96,8 +231,12 @@ class TemplateBook:
 
     SHEETS = ("Inputs", "Calculation", "Results", "Notes")
 
-    def __init__(self, template: Template, path: str):
+    def __init__(self, template: Template, path: str, values: dict[str, dict[str, object]] | None = None):
+        """``values`` (sheet -> cell -> value, from a first evaluation) sets the decimals of the
+        three-significant-figure cells."""
         self.template = template
+        self.values = {sheet: dict(cells) for sheet, cells in (values or {}).items()}
+        self.uses_sig3 = False
         self.workbook = xlsxwriter.Workbook(path)
         self.workbook.set_properties({"title": template.title, "subject": template.summary,
                                       "author": "stillair", "created": FIXED_DATE,
@@ -108,58 +247,124 @@ class TemplateBook:
         self.formats = self._formats()
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
-            worksheet = self.workbook.add_worksheet(name)
-            worksheet.hide_gridlines(2)
-            # Checkers print these: A4 landscape, every column on the page width.
-            worksheet.set_paper(9)
-            worksheet.set_landscape()
-            worksheet.fit_to_pages(1, 0)
-            worksheet.set_footer(f"&L{template.title} - &A&R&P / &N")
-            self.sheets[name] = _SheetState(worksheet)
-        self._lay_out_columns()
-        self._title_block()
+            self._add_sheet(name)
+        self._signoff()
 
     # ---------------------------------------------------------------- formats and layout
 
     def _formats(self) -> dict[str, Any]:
-        add = self.workbook.add_format
-        base = {"font_name": "Calibri", "font_size": 10, "font_color": _INK, "valign": "vcenter"}
+        self._format_cache: dict[tuple, Any] = {}
+        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": _INK, "valign": "top"}
+        self._base = base
+        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True,
+                       "locked": False}
         return {
-            "title": add({**base, "bold": True, "font_size": 15, "font_color": _SLATE}),
-            "subtitle": add({**base, "italic": True, "font_color": _SLATE}),
-            "section": add({**base, "bold": True, "font_color": "#FFFFFF", "bg_color": _SLATE}),
-            "label": add({**base}),
-            "unit": add({**base, "font_color": _SLATE}),
-            "note": add({**base, "italic": True, "font_color": "#5B6770", "text_wrap": False}),
-            "input": add({**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True,
-                          "num_format": "General"}),
-            "input_text": add({**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True}),
-            "value": add({**base, "num_format": "0.000", "bottom": 1, "bottom_color": _RULE}),
-            "value_general": add({**base, "num_format": "General", "bottom": 1, "bottom_color": _RULE}),
-            "text_value": add({**base, "bottom": 1, "bottom_color": _RULE}),
-            "result": add({**base, "bold": True, "bg_color": _SAGE, "num_format": "0.000", "border": 1,
-                           "border_color": _RULE}),
-            "result_text": add({**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE}),
-            "step": add({**base, "font_color": _SLATE, "align": "center"}),
-            "header": add({**base, "bold": True, "bottom": 2, "bottom_color": _SLATE}),
-            "cell": add({**base, "num_format": "General"}),
-            "table_value": add({**base, "num_format": "0.000"}),
-            "paragraph": add({**base, "text_wrap": True, "valign": "top"}),
-            "caution": add({**base, "text_wrap": True, "valign": "top", "bg_color": _CAUTION, "bold": True}),
+            "title": {**base, "bold": True, "font_size": 15, "font_color": _SLATE},
+            "subtitle": {**base, "italic": True, "font_color": _SLATE, "text_wrap": True},
+            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": _SLATE},
+            "label": {**base, "text_wrap": True},
+            "unit": {**base, "font_color": _SLATE},
+            "note": {**base, "italic": True, "font_color": "#4A5661", "text_wrap": True},
+            "input": {**input_style, "num_format": "General"},
+            "input_text": input_style,
+            "signoff": {**base, "border": 1, "border_color": _SLATE, "locked": False, "text_wrap": True},
+            "value": {**base, "bottom": 1, "bottom_color": _RULE},
+            "text_value": {**base, "bottom": 1, "bottom_color": _RULE, "text_wrap": True},
+            "text_run": {**base, "bottom": 1, "bottom_color": _RULE},
+            "failed": {"bold": True, "font_color": _WHITE, "bg_color": _INK},
+            "result": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE},
+            "result_text": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE,
+                            "text_wrap": True},
+            "step": {**base, "font_color": _SLATE, "align": "center"},
+            "header": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True},
+            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True,
+                              "align": "right"},
+            "cell": {**base},
+            "paragraph": {**base, "text_wrap": True},
+            "caution": {**base, "text_wrap": True, "bg_color": _CAUTION, "bold": True},
         }
 
-    def _lay_out_columns(self) -> None:
-        widths = {"Inputs": [38, 16, 12, 60], "Calculation": [6, 44, 16, 12, 60],
-                  "Results": [44, 16, 12, 70], "Notes": [110]}
-        for sheet, columns in widths.items():
-            for index, width in enumerate(columns):
-                self.sheets[sheet].worksheet.set_column(index, index, width)
+    def fmt(self, style: str, num_format: str | None = None, at: tuple[Any, int, int] | None = None):
+        """The workbook format of a named style, with a number format when given.
 
-    def _title_block(self) -> None:
-        for name, state in self.sheets.items():
-            state.worksheet.write(0, 0, f"{self.template.title} - {name}", self.formats["title"])
-            state.worksheet.write(1, 0, self.template.summary, self.formats["subtitle"])
-            state.row = 3
+        ``at`` = (worksheet, row, col) of the cell, needed for SIG3."""
+        if num_format == SIG3:
+            self.uses_sig3 = True
+            value = self.values.get(at[0].name, {}).get(xl_rowcol_to_cell(at[1], at[2])) if at else None
+            num_format = significant_format(value)
+        key = (style, num_format)
+        if key not in self._format_cache:
+            props = dict(self.formats[style])
+            if num_format is not None:
+                props["num_format"] = num_format
+            self._format_cache[key] = self.workbook.add_format(props)
+        return self._format_cache[key]
+
+    def _add_sheet(self, name: str) -> _SheetState:
+        worksheet = self.workbook.add_worksheet(name)
+        worksheet.hide_gridlines(2)
+        # Checkers print these: A4 landscape, one page wide, a footer naming file, sheet and page.
+        worksheet.set_paper(9)
+        worksheet.set_landscape()
+        worksheet.fit_to_pages(1, 0)
+        worksheet.set_default_row(ROW_HEIGHT)
+        worksheet.set_margins(left=PAGE["side"], right=PAGE["side"], top=PAGE["top"], bottom=PAGE["bottom"])
+        title = self.template.title.replace("&", "&&")
+        worksheet.set_header(f"&L{title}&R{self.template.name} version {self.template.version}",
+                             {"margin": PAGE["header"]})
+        worksheet.set_footer("&L&F - &A&CPage &P of &N&RPrinted &D", {"margin": PAGE["footer"]})
+        widths = GRIDS[name]
+        for index, width in enumerate(widths):
+            worksheet.set_column(index, index, width)
+        state = _SheetState(worksheet, widths)
+        self.sheets[name] = state
+        worksheet.write(0, 0, f"{self.template.title} - {name}", self.fmt("title"))
+        state.lines[0] = 1.4
+        self._write_wrapped(state, 1, 0, len(widths) - 1, self.template.summary, "subtitle")
+        state.row = 2
+        return state
+
+    def sheet(self, name: str) -> _SheetState:
+        """A sheet by name; the extra sheet "Tables" is added (after Notes) on first use."""
+        if name not in self.sheets:
+            if name not in GRIDS:
+                raise TemplateBuildError(f"{self.template.name}: no sheet layout named {name!r}")
+            self._add_sheet(name)
+        return self.sheets[name]
+
+    def _write_wrapped(self, state: _SheetState, row: int, first_col: int, last_col: int, text: str,
+                       style: str) -> None:
+        """Text over one cell or merged cells, its row made tall enough for the wrapped lines."""
+        if last_col > first_col:
+            state.worksheet.merge_range(row, first_col, row, last_col, text, self.fmt(style))
+        else:
+            state.worksheet.write(row, first_col, text, self.fmt(style))
+        self._need_lines(state, row, text, sum(state.widths[first_col:last_col + 1]))
+
+    @staticmethod
+    def _need_lines(state: _SheetState, row: int, text: str, width: float) -> None:
+        state.lines[row] = max(state.lines.get(row, 1), text_lines(text, width))
+
+    # ---------------------------------------------------------------- sign-off
+
+    def _signoff(self) -> None:
+        """The block a checker fills in and signs, first on the first printed page."""
+        state = self.sheets["Inputs"]
+        self.section("Inputs", "Sign-off (fill in before issue)")
+        for label in SIGNOFF_FIELDS:
+            state.worksheet.write(state.row, 0, label, self.fmt("label"))
+            state.worksheet.merge_range(state.row, 1, state.row, 3, "", self.fmt("signoff"))
+            state.row += 1
+        state.worksheet.write(state.row, 0, "stillair version used", self.fmt("label"))
+        state.worksheet.write_formula(state.row, 1, "=STILLAIR_VERSION()", self.fmt("text_value"))
+        state.worksheet.write(state.row, 3, "recalculated by the add-in; the audit reports a change",
+                              self.fmt("note"))
+        state.row += 1
+        state.worksheet.write(state.row, 0, "Template and its version", self.fmt("label"))
+        state.worksheet.merge_range(state.row, 1, state.row, 3,
+                                    f"{self.template.name} version {self.template.version}",
+                                    self.fmt("text_value"))
+        state.row += 1
 
     # ---------------------------------------------------------------- names
 
@@ -181,108 +386,205 @@ class TemplateBook:
 
     def section(self, sheet: str, title: str) -> None:
         """A heading bar starting a group of rows."""
-        state = self.sheets[sheet]
+        state = self.sheet(sheet)
         state.row += 1
-        width = _SHEET_WIDTHS[sheet]
+        state.chart_run = False
+        width = len(state.widths)
         for col in range(width):
-            state.worksheet.write_blank(state.row, col, None, self.formats["section"])
-        state.worksheet.write(state.row, 0, title, self.formats["section"])
+            state.worksheet.write_blank(state.row, col, None, self.fmt("section"))
+        state.worksheet.write(state.row, 0, title, self.fmt("section"))
+        state.section_row = state.row
         state.row += 1
 
+    def _row(self, sheet: str, row: int, label: str, unit: str, note: str) -> tuple[int, int]:
+        state = self.sheets[sheet]
+        label_col, value_col, unit_col, note_col = _ROW_COLUMNS[sheet]
+        ws = state.worksheet
+        ws.write(row, label_col, label, self.fmt("label"))
+        self._need_lines(state, row, label, state.widths[label_col])
+        if unit:
+            ws.write(row, unit_col, unit, self.fmt("unit"))
+        if note:
+            ws.write(row, note_col, note, self.fmt("note"))
+            self._need_lines(state, row, note, state.widths[note_col])
+        return value_col, note_col
+
     def input(self, name: str, label: str, value, unit: str = "", note: str = "",
-              choices: Sequence[str] | None = None) -> str:
-        """An input cell with its defined name; ``choices`` gives it a drop-down list."""
+              choices: Sequence[str] | None = None, valid: Valid | None = None) -> str:
+        """An input cell with its defined name and its data validation.
+
+        A numeric input needs ``valid`` (its range and why); ``choices`` gives a drop-down list."""
         state = self.sheets["Inputs"]
         ws, row = state.worksheet, state.row
-        ws.write(row, 0, label, self.formats["label"])
+        value_col, _ = self._row("Inputs", row, label, unit, note)
+        cell = xl_rowcol_to_cell(row, value_col)
         if isinstance(value, str):
-            ws.write_string(row, 1, value, self.formats["input_text"])
+            ws.write_string(row, value_col, value, self.fmt("input_text"))
         else:
-            ws.write_number(row, 1, value, self.formats["input"])
-        ws.write(row, 2, unit, self.formats["unit"])
-        if note:
-            ws.write(row, 3, note, self.formats["note"])
+            ws.write_number(row, value_col, value, self.fmt("input"))
         if choices:
-            ws.data_validation(row, 1, row, 1, {"validate": "list", "source": list(choices),
-                                                 "error_title": label[:32],
-                                                 "error_message": ("Choose one of: " + ", ".join(choices))[:255]})
+            listed = ", ".join(choices)
+            ws.data_validation(row, value_col, row, value_col, {
+                "validate": "list", "source": list(choices),
+                "input_title": _clip(label, 32), "input_message": _clip(f"Choose one of: {listed}.", 255),
+                "error_title": "Not one of the choices",
+                "error_message": _clip(f"{label}: choose one of {listed}.", 255)})
+        elif isinstance(value, str):
+            raise TemplateBuildError(f"{self.template.name}: text input {name!r} needs its choices")
+        else:
+            if valid is None:
+                raise TemplateBuildError(f"{self.template.name}: numeric input {name!r} needs a Valid range")
+            if not valid.admits(value):
+                raise TemplateBuildError(f"{self.template.name}: default {value} of {name!r} is outside "
+                                         f"{valid.describe(unit)}")
+            allowed = valid.describe(unit)
+            unit_text = unit if unit and unit != "-" else "none (a pure number)"
+            ws.data_validation(row, value_col, row, value_col, {
+                **valid.options(cell), "ignore_blank": False,
+                "input_title": _clip(label, 32),
+                "input_message": _clip(f"Unit: {unit_text}. Allowed: {allowed}.", 255),
+                "error_title": "Value outside the allowed range",
+                "error_message": _clip(f"{label} must be {allowed}. Why: {valid.why}.", 255)})
         state.row += 1
-        return self._define(name, "Inputs", row, 1)
+        return self._define(name, "Inputs", row, value_col)
 
     def step(self, name: str | None, label: str, formula: str, unit: str = "", note: str = "",
              number_format: str | None = None) -> str | None:
-        """One labelled calculation step; its value cell gets ``name`` when given."""
+        """One labelled calculation step; its value cell gets ``name`` when given.
+
+        The number format follows the unit (``UNIT_FORMATS``) unless given; no unit means text."""
         state = self.sheets["Calculation"]
         ws, row = state.worksheet, state.row
         state.step += 1
-        ws.write_number(row, 0, state.step, self.formats["step"])
-        ws.write(row, 1, label, self.formats["label"])
-        ws.write_formula(row, 2, formula, self._value_format(number_format))
-        ws.write(row, 3, unit, self.formats["unit"])
-        if note:
-            ws.write(row, 4, note, self.formats["note"])
+        state.chart_run = False
+        ws.write_number(row, 0, state.step, self.fmt("step"))
+        value_col, _ = self._row("Calculation", row, label, unit, note)
+        number_format = self._number_format(name or label, unit, number_format)
+        if number_format is not None:
+            ws.write_formula(row, value_col, formula, self.fmt("value", number_format, (ws, row, value_col)))
+        elif note:
+            # text beside a note wraps in its cell; reserve two lines
+            ws.write_formula(row, value_col, formula, self.fmt("text_value"))
+            self._need_lines(state, row, "x" * 20, state.widths[value_col])
+        else:
+            # text with empty cells to its right runs on over them, as a checker reads it
+            ws.write_formula(row, value_col, formula, self.fmt("text_run"))
         state.row += 1
-        return self._define(name, "Calculation", row, 2) if name else None
+        return self._define(name, "Calculation", row, value_col) if name else None
 
     def result(self, name: str | None, label: str, formula: str, unit: str = "", note: str = "",
-               text: bool = False) -> str | None:
-        """A key result on the Results sheet (text=True for checks and notes)."""
+               text: bool = False, fails: Sequence[str] = (), number_format: str | None = None) -> str | None:
+        """A key result on the Results sheet.
+
+        ``text=True`` for checks and notes: the value spans the unit and note columns and the note
+        joins the label.  ``fails`` lists how failing verdicts begin ("EXCEEDS LIMIT"): those,
+        and a failed calculation, print white on ink."""
         state = self.sheets["Results"]
         ws, row = state.worksheet, state.row
-        ws.write(row, 0, label, self.formats["label"])
-        ws.write_formula(row, 1, formula, self.formats["result_text" if text else "result"])
-        ws.write(row, 2, unit, self.formats["unit"])
-        if note:
-            ws.write(row, 3, note, self.formats["note"])
+        state.chart_run = False
+        label_col, value_col, unit_col, note_col = _ROW_COLUMNS["Results"]
+        if text:
+            full = f"{label} ({note})" if note else label
+            self._row("Results", row, full, "", "")
+            ws.merge_range(row, value_col, row, note_col, "", self.fmt("result_text"))
+            ws.write_formula(row, value_col, formula, self.fmt("result_text"))
+            self._need_lines(state, row, "x" * 110, sum(state.widths[value_col:note_col + 1]))
+        else:
+            self._row("Results", row, label, unit, note)
+            number_format = self._number_format(name or label, unit, number_format)
+            ws.write_formula(row, value_col, formula, self.fmt("result", number_format, (ws, row, value_col)))
+        self._verdict_format(ws, row, value_col, row, value_col, fails, numeric=not text)
         state.row += 1
-        return self._define(name, "Results", row, 1) if name else None
+        return self._define(name, "Results", row, value_col) if name else None
+
+    def _verdict_format(self, ws, first_row, col, last_row, last_col, fails: Sequence[str], numeric: bool):
+        """Conditional formats: a failing verdict or a failed calculation prints white on ink."""
+        failed = self.fmt("failed")
+        cell = xl_rowcol_to_cell(first_row, col)
+        tests = [f'LEFT({cell},{len(text)})="{text}"' for text in (FAILED, *fails)]
+        # a number expected and text or an error value came back: the engine reported a failure
+        if numeric:
+            tests.append(f"NOT(ISNUMBER({cell}))")
+        else:
+            tests.append(f"ISERROR({cell})")
+        ws.conditional_format(first_row, col, last_row, last_col,
+                              {"type": "formula", "criteria": "=OR(" + ",".join(tests) + ")",
+                               "format": failed, "stop_if_true": True})
+
+    def verdicts(self, sheet: str, first_row: int, col: int, last_row: int, fails: Sequence[str]) -> None:
+        """Verdict formatting for a column of a table (e.g. "meets limit": "no")."""
+        self._verdict_format(self.sheets[sheet].worksheet, first_row, col, last_row, col, fails, numeric=False)
+
+    def _number_format(self, what: str, unit: str, number_format: str | None) -> str | None:
+        if number_format is not None:
+            return number_format
+        if not unit:
+            return None
+        if unit not in UNIT_FORMATS:
+            raise TemplateBuildError(f"{self.template.name}: {what!r}: no number format for the unit {unit!r}; "
+                                     "give number_format")
+        return UNIT_FORMATS[unit]
 
     def paragraph(self, text: str, caution: bool = False) -> None:
         """A paragraph on the Notes sheet; ``caution`` highlights it."""
         state = self.sheets["Notes"]
-        lines = max(1, len(text) // 120 + 1)
-        state.worksheet.set_row(state.row, 14 * lines)
-        state.worksheet.write(state.row, 0, text, self.formats["caution" if caution else "paragraph"])
+        self._write_wrapped(state, state.row, 0, 0, text, "caution" if caution else "paragraph")
         state.row += 1
+
+    def spread_note(self, what: str) -> None:
+        """The Notes paragraph saying what the correlation spread beside a key result means."""
+        self.paragraph(f"Correlation spread ({what}): the same calculation with every convection "
+                       "coefficient at the lowest and at the highest Nusselt number among the published "
+                       "correlations whose validity ranges cover the case (NET_BAND for a network, NU_SPREAD "
+                       "for one coefficient). It shows how much the literature disagrees about this case; "
+                       "it is not a confidence interval and not a bound on the error of any correlation, and "
+                       "a temperature that depends on the ratio of two convection coefficients can lie "
+                       "outside it. "
+                       "A wide spread is a reason for margin or for a measurement.")
 
     def cite(self, label: str, geometry: str, method: str) -> None:
         """A Notes paragraph "label: source" for a registered correlation the template uses."""
         self.paragraph(f"{label}: {source_of(geometry, method)}")
 
     def caution(self, sheet: str, text: str) -> None:
-        """A caution line on any sheet (and the Notes sheet gets it through :meth:`paragraph`)."""
+        """A caution across a sheet's width (Notes carries the full caution as a paragraph)."""
         state = self.sheets[sheet]
-        last_col = _SHEET_WIDTHS[sheet] - 1
-        if last_col > 0:
-            state.worksheet.merge_range(state.row, 0, state.row, last_col, text, self.formats["caution"])
-        else:
-            state.worksheet.write(state.row, 0, text, self.formats["caution"])
-        state.worksheet.set_row(state.row, 14 * (len(text) // 110 + 1))
+        state.chart_run = False
+        self._write_wrapped(state, state.row, 0, len(state.widths) - 1, text, "caution")
         state.row += 1
 
     def blank(self, sheet: str, rows: int = 1) -> None:
-        self.sheets[sheet].row += rows
+        self.sheet(sheet).row += rows
 
     # ---------------------------------------------------------------- blocks
 
     def table(self, sheet: str, header: Sequence[str], rows: Sequence[Sequence[Any]], name: str | None = None,
-              col: int = 0, include_header_in_name: bool = False) -> tuple[int, int, int, int]:
+              col: int = 0, formats: Sequence[str | None] | None = None,
+              include_header_in_name: bool = False) -> tuple[int, int, int, int]:
         """A block of cells: numbers, text, None (blank) or formulas (strings starting "=").
 
-        Returns (first_row, first_col, last_row, last_col) of the data rows; ``name`` names them
-        (a workbook-scoped name for a whole table, e.g. the branches range of a network).
+        ``formats`` gives each column's number format (None: a text column); number columns get
+        right-aligned headings.  Returns (first_row, first_col, last_row, last_col) of the data
+        rows; ``name`` names them (e.g. the branches range of a network).
         """
-        state = self.sheets[sheet]
+        state = self.sheet(sheet)
+        state.chart_run = False
         ws = state.worksheet
+        width = max([len(header)] + [len(r) for r in rows])
+        formats = list(formats) if formats is not None else [None] * width
+        if len(formats) != width:
+            raise TemplateBuildError(f"{self.template.name}: table {header[:2]}: {width} columns, "
+                                     f"{len(formats)} formats")
         for j, title in enumerate(header):
-            ws.write(state.row, col + j, title, self.formats["header"])
+            ws.write(state.row, col + j, title, self.fmt("header" if formats[j] is None else "header_number"))
+            self._need_lines(state, state.row, title, state.widths[col + j])
         header_row = state.row
+        self._keep_together(state, header_row, header_row + len(rows))
         state.row += 1
         first = state.row
-        width = max([len(header)] + [len(r) for r in rows])
         for row in rows:
             for j, value in enumerate(row):
-                self._write_any(ws, state.row, col + j, value)
+                self._write_any(ws, state.row, col + j, value, formats[j])
             state.row += 1
         last = state.row - 1
         if name:
@@ -290,61 +592,99 @@ class TemplateBook:
             self._define(name, sheet, start, col, last, col + width - 1)
         return first, col, last, col + width - 1
 
-    def spill(self, sheet: str, formula: str, rows: int, cols: int, name: str | None = None,
-              col: int = 0, header: Sequence[str] | None = None) -> tuple[int, int, int, int]:
-        """A formula returning a table (NET_SOLVE), stored as an array formula over its range."""
-        state = self.sheets[sheet]
-        ws = state.worksheet
-        if header:
-            for j, title in enumerate(header):
-                ws.write(state.row, col + j, title, self.formats["header"])
-            state.row += 1
-        first = state.row
-        ws.write_dynamic_array_formula(first, col, first + rows - 1, col + cols - 1, formula,
-                                       self.formats["cell"])
-        state.row += rows
-        if name:
-            self._define(name, sheet, first, col, first + rows - 1, col + cols - 1)
-        return first, col, first + rows - 1, col + cols - 1
+    def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
+        """Start a new page before a table (with its section bar) that would otherwise split."""
+        if state.section_row == first - 1:
+            first -= 1
+        height = sum(self._height(state, r) for r in range(first, last + 1))
+        if height <= PAGE_CAPACITY and self._page_used(state, first) + height > PAGE_CAPACITY:
+            state.breaks.append(first)
+
+    def _height(self, state: _SheetState, row: int) -> float:
+        return ROW_HEIGHT * state.lines.get(row, 1)
+
+    def _page_used(self, state: _SheetState, row: int) -> float:
+        """Points of the current printed page filled above ``row`` (pages break automatically
+        when full, and at the manual breaks)."""
+        used = 0.0
+        for r in range(row):
+            height = self._height(state, r)
+            if r in state.breaks or used + height > PAGE_CAPACITY:
+                used = 0.0
+            used += height
+        return 0.0 if row in state.breaks else used
 
     def chart(self, sheet: str, kind: str, title: str, series: Sequence[dict], x_title: str, y_title: str,
-              anchor: str, subtype: str | None = None, x_axis: dict | None = None,
-              y_axis: dict | None = None) -> None:
-        """An XlsxWriter chart; each series dict holds name, categories and values references.
+              subtype: str | None = None, x_axis: dict | None = None, y_axis: dict | None = None) -> None:
+        """An XlsxWriter chart placed below the sheet's rows, never beside or over another block.
 
-        ``x_axis`` / ``y_axis`` add XlsxWriter axis options (e.g. ``{"log_base": 10}``)."""
+        A run of charts starts on a new printed page and each chart reserves the rows it covers,
+        so charts neither overlap nor split across pages.  Each series dict holds name,
+        categories and values references; ``x_axis`` / ``y_axis`` add XlsxWriter axis options."""
+        state = self.sheet(sheet)
         options = {"type": kind}
         if subtype:
             options["subtype"] = subtype
         chart = self.workbook.add_chart(options)
         for entry in series:
             chart.add_series(entry)
-        chart.set_title({"name": title, "name_font": {"size": 11, "color": _SLATE}})
-        chart.set_x_axis({"name": x_title, **(x_axis or {})})
-        chart.set_y_axis({"name": y_title, "major_gridlines": {"visible": True, "line": {"color": _RULE}},
-                          **(y_axis or {})})
-        chart.set_legend({"position": "bottom"})
-        self.sheets[sheet].worksheet.insert_chart(anchor, chart, {"x_scale": 1.3, "y_scale": 1.2})
+        font = {"size": CHART_FONT_SIZE, "color": _INK}
+        chart.set_title({"name": title, "name_font": {"size": 11, "color": _SLATE, "bold": True}})
+        chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
+        chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
+                          "major_gridlines": {"visible": True, "line": {"color": _RULE}}, **(y_axis or {})})
+        chart.set_legend({"position": "bottom", "font": font})
+        chart.set_size({"width": CHART_PX[0], "height": CHART_PX[1]})
+        if not state.chart_run:
+            state.row += 1
+            state.breaks.append(state.row)
+        rows = math.ceil(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 1
+        state.worksheet.insert_chart(state.row, 0, chart, {"x_offset": 4, "y_offset": 4, "object_position": 1})
+        state.charts.append((state.row, rows))
+        state.row += rows
+        state.chart_run = True
 
-    def _write_any(self, ws, row: int, col: int, value) -> None:
+    def network_solution(self, sheet: str, tables: str, fluid: str, nodes: Sequence[str],
+                         branches: Sequence[tuple[str, str]]) -> dict[str, str]:
+        """The solved network as tables of single-cell formulas, one per entry.
+
+        NET_SOLVE's table is an array formula, which some viewers recalculate on opening (and
+        show an error without the add-in); one NET_TEMP / NET_HEAT / INDEX(NET_SOLVE(...)) cell
+        per entry keeps the engine's cached value in every viewer.  ``tables`` is
+        "branches, boundaries", ``fluid`` the gas and pressure arguments ("" for the defaults),
+        ``branches`` (name, kind) in the order of the branch table.  Returns formulas by key:
+        "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
+        tail = f", {fluid}" if fluid else ""
+        solve = f"NET_SOLVE({tables}{tail})"
+        self.table(sheet, ["node", "T °C"],
+                   [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
+        self.blank(sheet)
+        rows, picks = [], {}
+        no_ra = ("conduction", "radiation", "film", "resistance")
+        for i, (branch, kind) in enumerate(branches, start=1):
+            at = 1 + len(nodes) + i          # row of the branch in NET_SOLVE's table (header first)
+
+            def pick(col, applies=True):
+                return f"=INDEX({solve}, {at}, {col})" if applies else None
+            picks[f"method:{branch}"] = f"INDEX({solve}, {at}, 9)"
+            picks[f"h:{branch}"] = f"INDEX({solve}, {at}, 5)"
+            rows.append([branch, kind, f'=NET_HEAT({tables}, "{branch}"{tail})', pick(5, kind != "resistance"),
+                         pick(6), pick(7, kind not in no_ra), pick(8, kind not in no_ra), pick(9)])
+        self.table(sheet, ["branch", "kind", "heat flow W", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method"], rows,
+                   formats=[None, None, "0.0", SIG3, SCIENTIFIC, "0.00E+00", SIG3, None])
+        return picks
+
+    def _write_any(self, ws, row: int, col: int, value, number_format: str | None) -> None:
+        style = "cell"
         if value is None:
             return
         if isinstance(value, str) and value.startswith("="):
-            ws.write_formula(row, col, value, self.formats["table_value"])
+            ws.write_formula(row, col, value, self.fmt(style, number_format, (ws, row, col)))
         elif isinstance(value, str):
-            ws.write_string(row, col, value, self.formats["cell"])
+            ws.write_string(row, col, value, self.fmt(style))
         else:
-            ws.write_number(row, col, value, self.formats["cell"])
-
-    def _value_format(self, number_format: str | None):
-        if number_format is None:
-            return self.formats["value"]
-        key = f"value:{number_format}"
-        if key not in self.formats:
-            self.formats[key] = self.workbook.add_format({"font_name": "Calibri", "font_size": 10,
-                                                          "font_color": _INK, "num_format": number_format,
-                                                          "bottom": 1, "bottom_color": _RULE})
-        return self.formats[key]
+            self.values.setdefault(ws.name, {}).setdefault(xl_rowcol_to_cell(row, col), value)
+            ws.write_number(row, col, value, self.fmt(style, number_format, (ws, row, col)))
 
     @staticmethod
     def column(sheet: str, first: int, last: int, col: int) -> str:
@@ -357,8 +697,43 @@ class TemplateBook:
         return f"{sheet}!{xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)}"
 
     def close(self) -> None:
+        for state in self.sheets.values():
+            ws = state.worksheet
+            for row, lines in sorted(state.lines.items()):
+                if lines > 1:
+                    ws.set_row(row, round(ROW_HEIGHT * lines, 2))
+            if state.breaks:
+                ws.set_h_pagebreaks(sorted(set(state.breaks)))
+            ws.print_area(0, 0, max(state.row, 1) - 1, len(state.widths) - 1)
+            # without a password: a user can unprotect deliberately; input cells stay unlocked
+            ws.protect("", {"format_columns": True, "format_rows": True})
         self.sheets["Inputs"].worksheet.activate()
         self.workbook.close()
+
+
+def significant_format(value, figures: int = 3) -> str:
+    """A fixed-decimals number format showing ``value`` to ``figures`` significant figures
+    (three decimals when the value is unknown, zero or not a number)."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or not math.isfinite(value):
+        return "0.000"
+    decimals = figures - 1 - math.floor(math.log10(abs(value)))
+    return "0" if decimals <= 0 else "0." + "0" * min(decimals, 9)
+
+
+def text_lines(text: str, width: float) -> int:
+    """Lines ``text`` takes wrapped in a column of ``width`` characters.
+
+    A character of running text counts 0.9 units of column width: measured, DejaVu Sans (which
+    LibreOffice prints for Calibri where Calibri is missing) takes about 0.82, Calibri less; the
+    rest is slack for word breaks."""
+    lines = 0
+    for paragraph in str(text).split("\n"):
+        lines += max(1, math.ceil(0.9 * len(paragraph) / max(width - 1, 1)))
+    return lines
+
+
+def _clip(text: str, limit: int) -> str:
+    return text if len(text) <= limit else text[:limit - 1] + "…"
 
 
 def source_of(geometry: str, method: str) -> str:
@@ -387,6 +762,11 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
         template.build(book)
         book.close()
         evaluation = evaluate_book(raw)
+        if book.uses_sig3:
+            # the same cells again, three-significant-figure cells now with their decimals
+            book = TemplateBook(template, raw, values=evaluation.values)
+            template.build(book)
+            book.close()
         errors = [(f"{sheet}!{ref}", value) for sheet, cells in evaluation.values.items()
                   for ref, value in cells.items() if is_error_value(value)]
         if errors:
@@ -425,3 +805,51 @@ def _copy(source: str, target: Path) -> None:
     import shutil
 
     shutil.copyfile(source, target)
+
+
+def render_pdf(paths: Sequence[str | os.PathLike], out_dir: str | os.PathLike, timeout: float = 300) -> list[Path]:
+    """Print workbooks to PDF with LibreOffice headless, as a checker's printer would.
+
+    Uses a throw-away user profile, so nothing of the user's LibreOffice changes.  Raises
+    FileNotFoundError when ``soffice`` is not installed."""
+    import shutil
+    import subprocess
+
+    soffice = shutil.which("soffice") or shutil.which("libreoffice")
+    if soffice is None:
+        raise FileNotFoundError("LibreOffice (soffice) is not installed")
+    out = Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)
+    with tempfile.TemporaryDirectory(prefix="stillair-lo-profile-") as profile:
+        subprocess.run([soffice, f"-env:UserInstallation={Path(profile).as_uri()}", "--headless", "--norestore",
+                        "--convert-to", "pdf", "--outdir", str(out)] + [str(p) for p in paths],
+                       check=True, capture_output=True, timeout=timeout)
+    return [out / (Path(p).stem + ".pdf") for p in paths]
+
+
+def render_pictures(out_dir: str | os.PathLike, dpi: int = 80) -> list[Path]:
+    """The README's pictures: the first printed page of each template's Results sheet, as PNG.
+
+    Needs LibreOffice and poppler-utils (pdftotext, pdftoppm)."""
+    import subprocess
+
+    from .templates import all_templates
+
+    out = Path(out_dir)
+    templates = all_templates()
+    pictures = []
+    with tempfile.TemporaryDirectory(prefix="stillair-render-") as directory:
+        for template, pdf in zip(templates, render_pdf([t.path for t in templates], directory)):
+            page = 1
+            while True:
+                text = subprocess.run(["pdftotext", "-f", str(page), "-l", str(page), "-layout", str(pdf), "-"],
+                                      check=True, capture_output=True, text=True).stdout
+                if f"{template.path.name} - Results" in text:
+                    break
+                page += 1
+            target = out / f"{template.name}-results"
+            subprocess.run(["pdftoppm", "-png", "-r", str(dpi), "-f", str(page), "-l", str(page), "-singlefile",
+                            str(pdf), str(target)], check=True)
+            pictures.append(target.with_suffix(".png"))
+    return pictures
+

@@ -15,13 +15,17 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 
 from __future__ import annotations
 
+import math
 import warnings
 from dataclasses import dataclass
+
+from scipy.constants import zero_Celsius
 
 import numpy as np
 
 from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt
-from .groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
+from .gases import gas_properties, plain_state_accepted
+from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
 
 __all__ = [
@@ -76,9 +80,6 @@ def plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
     return np.where(delta_t >= 0, f"hot-{facing}", f"cold-{facing}").astype(object).reshape(delta_t.shape)
 
 
-# The name of each surface geometry's length argument (its inputs and cases are registry data).
-_LENGTH_NAMES = {"vplate": "height", "hplate": "length", "tplate": "length", "hcyl": "diameter",
-                 "sphere": "diameter", "vcyl": "height"}
 
 
 def _full(array, shape):
@@ -99,11 +100,26 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     """
     function_name = function_name or f"h_{geometry}"
     geo = GEOMETRIES[geometry]
-    length_name = _LENGTH_NAMES[geometry]
+    length_name = geo.length
+    if (_plain_case(gas, pressure, (t_surface, t_fluid),
+                    (length,) + ((diameter,) if geometry == "vcyl" else ()), property_temperature)
+            and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
+            and ("tilt" not in geo.inputs or type(tilt) in _PLAIN and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
+        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
+                                                              ideal_expansion, function_name)
+        inputs = {"ra": ra, "pr": props.prandtl}
+        if "tilt" in geo.inputs:
+            inputs["tilt"] = float(tilt)
+        if geometry == "vcyl":
+            inputs["slenderness"] = length / diameter
+        case = f"{'hot' if delta_t >= 0 else 'cold'}-{facing.strip().lower()}" if geo.cases else ""
+        result = nusselt(geometry, method, case or None, function_name=function_name, **inputs)
+        return _scalar_result(props, t_film, gr, ra, length, result, case)
     length = require_positive(function_name, length_name, length, "m")
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
-                                          ideal_expansion=ideal_expansion, function_name=function_name)
+                                          ideal_expansion=ideal_expansion, function_name=function_name,
+                                          names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
     shape = np.broadcast(ra, props.prandtl).shape
@@ -143,6 +159,13 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
 
     h = Nu k / gap is the coefficient of q = h (t1 - t2) per unit area of the layer.
     """
+    if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
+            and type(tilt) in _PLAIN and 0.0 <= tilt <= 180.0:
+        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
+                                                              function_name)
+        result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
+                         aspect=height / gap, tilt=float(tilt) if delta_t >= 0 else 180.0 - tilt)
+        return _scalar_result(props, t_film, gr, ra, gap, result, "")
     gap = require_positive(function_name, "gap", gap, "m")
     height = require_positive(function_name, "height", height, "m")
     tilt = require_between(function_name, "tilt", tilt, 0.0, 180.0, "deg")
@@ -162,6 +185,35 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
                             case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
+
+
+_PLAIN = (float, int, np.float64)
+
+
+def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
+    """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
+    return (property_temperature is None
+            and all(type(v) in _PLAIN and 0.0 < v < math.inf for v in lengths)
+            and plain_state_accepted(gas, temperatures, pressure))
+
+
+def _scalar_groups(t1, t2, length, gas, pressure, ideal_expansion, function_name):
+    """(props, t_film, beta, delta_t, gr, ra) for plain numbers, the arithmetic of the array path."""
+    t_film = 0.5 * (t1 + t2)
+    props = gas_properties(gas, t_film, pressure, function_name=function_name)
+    beta = 1.0 / (t_film + zero_Celsius) if ideal_expansion else props.expansion
+    delta_t = float(t1) - float(t2)
+    gr = STANDARD_GRAVITY * beta * abs(delta_t) * length ** 3 / props.kinvisc ** 2
+    return props, t_film, beta, delta_t, gr, gr * props.prandtl
+
+
+def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionResult:
+    h = float(result.nu) * props.conductivity / length
+    return ConvectionResult(h=np.asarray(h), nu=result.nu, ra=np.asarray(ra), gr=np.asarray(gr),
+                            pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
+                            conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
+                            method=result.method, case=np.asarray(case, dtype=object),
+                            in_range=result.in_range, note=result.note)
 
 
 def _h_only(result: ConvectionResult, function_name: str):

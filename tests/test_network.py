@@ -288,7 +288,7 @@ ERRORS = [
      "solve_network: branch row 1 (wall-out), column p2 (conductivity) must be > 0 W/(m·K), got 0"),
     ([["x", "a", "b", "conduction", 0.1, 1.0, 1.0], ["y", "a", "b", "convect", 1.0]], [["b", "T", 0]],
      'solve_network: branch row 2 (y), column kind must be one of conduction, resistance, film, vplate, '
-     'hplate, tplate, hcyl, sphere, cavity, radiation, got \'convect\''),
+     'hplate, tplate, hcyl, sphere, vcyl, cavity, radiation, got \'convect\''),
     ([["v", "a", "b", "vplate", None, 1.0]], [["b", "T", 0]],
      "solve_network: branch row 1 (v), column p1 (height) must be a number in m, got blank"),
     ([["v", "a", "b", "vplate", "0.5", 1.0]], [["b", "T", 0]],
@@ -324,7 +324,7 @@ ERRORS = [
      'solve_network: branch row 1 (h), column p3 (facing) must be "up" or "down", got \'sideways\''),
     ([["t", "a", "b", "tplate", 0.2, 1.0, 120, "up"]], [["b", "T", 0]],
      "solve_network: branch row 1 (t), column p3 (tilt) must be in [0, 90]°, got 120"),
-    ([["c", "a", "b", "cavity", 0.02, 1.0, 1.0, 90, "helium"]], [["b", "T", 0]],
+    ([["c", "a", "b", "cavity", 0.02, 1.0, 1.0, 90, "helium"]], [["b", "T", 0], ["a", "Q", 1]],
      None),  # message from the gas module, but naming the row and column
     ([["r", "a", "b", "resistance", 1.0]], [["b", "T", 0], ["b", "Q", 3]],
      "solve_network: boundary row 2 (b), column T or Q must be \"T\" only: the node's temperature is fixed "
@@ -367,10 +367,10 @@ def test_a_plate_method_that_does_not_serve_the_final_case_is_an_error():
 
 
 def test_non_convergence_raises_with_residual_and_worst_node(monkeypatch):
-    import stillair.network as network
+    import stillair.network.solver as solver
 
-    monkeypatch.setattr(network, "MAX_NEWTON_ITERATIONS", 1)
-    monkeypatch.setattr(network._Solver, "scipy_root", lambda self, x, method: None)
+    monkeypatch.setattr(solver, "MAX_NEWTON_ITERATIONS", 1)
+    monkeypatch.setattr(solver.Solver, "scipy_root", lambda self, x, method: None)
     with pytest.raises(NetworkConvergenceError) as caught:
         solve_network(CABINET, CABINET_BOUNDARIES, use_cache=False)
     error = caught.value
@@ -382,13 +382,13 @@ def test_non_convergence_raises_with_residual_and_worst_node(monkeypatch):
 
 @pytest.mark.parametrize("method", ["hybr", "lm"])
 def test_scipy_fallback_alone_reaches_the_same_solution(monkeypatch, method):
-    import stillair.network as network
+    import stillair.network.solver as solver
 
     newton = solve_network(CABINET, CABINET_BOUNDARIES, use_cache=False)
-    monkeypatch.setattr(network, "MAX_NEWTON_ITERATIONS", 0)
+    monkeypatch.setattr(solver, "MAX_NEWTON_ITERATIONS", 0)
     if method == "lm":   # make "hybr" fail so that "lm" is the one that answers
-        original = network._Solver.scipy_root
-        monkeypatch.setattr(network._Solver, "scipy_root",
+        original = solver.Solver.scipy_root
+        monkeypatch.setattr(solver.Solver, "scipy_root",
                             lambda self, x, m: None if m == "hybr" else original(self, x, m))
     fallback = solve_network(CABINET, CABINET_BOUNDARIES, use_cache=False)
     assert fallback.solver == method

@@ -119,3 +119,16 @@ def test_layer_extent_changes_only_the_correlation_value():
     evaluation = evaluate_template(NAME, layer_extent=0.5)
     r_corr, _ = _direct(dict(DEFAULTS, layer_extent=0.5))
     assert named(evaluation, "r_layer") == pytest.approx(r_corr, rel=1e-9)
+
+
+@pytest.mark.parametrize("sets", [{}, {"direction": "up", "thickness": 0.05}], ids=["default", "up"])
+def test_resistance_spread_equals_the_engine_spread(sets):
+    """R at the lowest and highest covering Nu (stillair.nu_spread): h scales with Nu at the
+    layer's fixed properties, so R = 1/(h_conv Nu_x/Nu + h_rad)."""
+    evaluation = evaluate_template(NAME, **sets)
+    ra, pr, aspect, tilt = (named(evaluation, n) for n in ("ra", "pr", "aspect", "tilt"))
+    spread = stillair.nu_spread("cavity", ra, pr, tilt=tilt, aspect=aspect)
+    h_conv, h_rad, nu = (named(evaluation, n) for n in ("h_conv", "h_radiation", "nu"))
+    assert named(evaluation, "r_layer_high") == pytest.approx(1 / (h_conv * spread.low / nu + h_rad), rel=1e-9)
+    assert named(evaluation, "r_layer_low") == pytest.approx(1 / (h_conv * spread.high / nu + h_rad), rel=1e-9)
+    assert named(evaluation, "r_layer_low") <= named(evaluation, "r_layer_high")

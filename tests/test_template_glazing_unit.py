@@ -58,7 +58,7 @@ def standard_u(v):
     return 1 / (1 / h_e + 1 / h_i + glass + r[0] + r[1])
 
 
-def actual_network(v):
+def actual_network(v, **options):
     """Mode (b) rebuilt as stillair.solve_network rows from the inputs alone."""
     triple = v["panes"] == 3
     method = None if v["gap_method"] == "auto" else v["gap_method"]
@@ -78,7 +78,7 @@ def actual_network(v):
                  ["gap-2-rad", "s4", "s5", "radiation", v["eps_gap2_outer"], v["eps_gap2_inner"], 1.0],
                  ["pane-3", "s5", "s6", "conduction", v["pane_3"], v["glass_k"], 1.0]]
     result = stillair.solve_network(rows, [["outdoor", "T", v["t_outdoor"]], ["indoor", "T", v["t_indoor"]]],
-                                  pressure=v["pressure"])
+                                  pressure=v["pressure"], **options)
     return result, indoor
 
 
@@ -237,3 +237,14 @@ def test_gap_method_choice_reaches_the_network():
     assert named(evaluation, "gap1_method") == "en673"
     assert named(evaluation, "u_actual") != named(evaluate_template(NAME), "u_actual")
     assert math.isfinite(named(evaluation, "u_actual"))
+
+
+@pytest.mark.parametrize("sets", [{}, {"panes": 3}], ids=["double", "triple"])
+def test_indoor_face_spread_equals_the_engine_band(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    result, indoor = actual_network(_inputs(**sets), band=True)
+    low, high = result.band[indoor]
+    assert named(evaluation, "indoor_face_low") == pytest.approx(low, rel=1e-9)
+    assert named(evaluation, "indoor_face_high") == pytest.approx(high, rel=1e-9)
+    assert named(evaluation, "condensation_check_low").startswith(
+        "no condensation" if low > named(evaluation, "t_dew") else "CONDENSATION")

@@ -11,6 +11,7 @@ import pytest
 from scipy.constants import Stefan_Boltzmann, g as GRAVITY, zero_Celsius
 
 import stillair
+from stillair.addin.templatebook import FAILED
 from stillair.addin.templates import hot_surface
 from template_support import assert_direction, evaluate_template, input_names, named
 
@@ -21,8 +22,8 @@ KIND = {"horizontal cylinder": "hcyl", "vertical face": "vplate", "horizontal to
 
 def _table(evaluation):
     """{k: (surface °C, heat loss W)} of the thickness table, found by its formulas."""
-    sheet = evaluation.book.sheet("Calculation")
-    cells = evaluation.values["Calculation"]
+    sheet = evaluation.book.sheet("Tables")
+    cells = evaluation.values["Tables"]
     table = {}
     for ref, cell in sheet.formulas.items():
         m = re.search(r'NET_(TEMP|HEAT)\(hs_branches, hs_bounds, "(surf|ins)_(\d+)"\)', cell.formula or "")
@@ -31,7 +32,7 @@ def _table(evaluation):
     return {k: (v["TEMP"], v["HEAT"]) for k, v in table.items()}
 
 
-def _engine_case(evaluation):
+def _engine_case(evaluation, **options):
     v = {n: named(evaluation, n) for n in ("geometry", "hot_t", "pipe_od", "pipe_length", "face_height",
                                           "face_width", "eps_bare", "ambient_t", "surroundings_t", "ins_k",
                                           "eps_jacket", "ins_step")}
@@ -59,7 +60,8 @@ def _engine_case(evaluation):
             area, resistance = bare_area, t / (v["ins_k"] * bare_area)
         rows.append((resistance, kind, size, area, facing if kind == "hplate" else None, v["eps_jacket"]))
     result = stillair.solve_network(hot_surface.insulated_branch_rows(rows),
-                                  hot_surface.boundary_rows(v["hot_t"], v["ambient_t"], v["surroundings_t"]))
+                                  hot_surface.boundary_rows(v["hot_t"], v["ambient_t"], v["surroundings_t"]),
+                                  **options)
     return h_conv, h_rad, q_bare, result
 
 
@@ -176,3 +178,22 @@ def test_a_face_looking_down_loses_less_than_one_looking_up():
     h = {g: named(evaluate_template(NAME, geometry=g), "res_h_conv_bare")
          for g in ("horizontal top", "horizontal bottom", "vertical face")}
     assert h["horizontal bottom"] < h["vertical face"] < h["horizontal top"]
+
+
+def test_a_failed_insulated_case_reads_as_failed_never_as_none_in_the_table():
+    """An engine failure upstream (here a zero conductivity: every insulation resistance divides
+    by zero) must not turn into the plausible answer "none in the table"."""
+    evaluation = evaluate_template(NAME, ins_k=0)
+    for name in ("res_first_ok_mm", "res_first_ok_t", "res_first_ok_q"):
+        assert named(evaluation, name) == FAILED, name
+    check = named(evaluation, "res_net_check")       # the network's own message names the bad cell
+    assert check.startswith("NET_CHECK: branch row 1") and "p1" in check
+
+
+@pytest.mark.parametrize("geometry", ["horizontal cylinder", "vertical face"])
+def test_outer_surface_spread_equals_the_engine_band(geometry):
+    evaluation = evaluate_template(NAME, geometry=geometry)
+    low, high = _engine_case(evaluation, band=True)[3].band["surf_1"]
+    assert named(evaluation, "res_surf_first_low") == pytest.approx(low, rel=1e-9)
+    assert named(evaluation, "res_surf_first_high") == pytest.approx(high, rel=1e-9)
+    assert named(evaluation, "ambient_t") < low <= high < named(evaluation, "hot_t")

@@ -164,3 +164,18 @@ def test_width_scales_the_heat_flow_and_leaves_u_unchanged():
     assert named(wider, "res_sp_u") == pytest.approx(named(base, "res_sp_u"), rel=1e-12)
     assert named(wider, "res_q") == pytest.approx(1.5 * named(base, "res_q"), rel=1e-9)
     assert named(wider, "res_sp_q") == pytest.approx(1.5 * named(base, "res_sp_q"), rel=1e-9)
+
+
+def test_cold_face_spread_equals_the_engine_band():
+    evaluation = evaluate_template(NAME)
+    v = _v(evaluation)
+    result = stillair.solve_network(partition.branch_rows(
+        height=v["part_height"], area=v["part_height"] * v["part_width"], board_t=v["board_t"],
+        board_k=v["board_k"], gap=v["gap"], eps_room=v["eps_room"], eps_cav_warm=v["eps_cav_warm"],
+        eps_cav_cold=v["eps_cav_cold"], method=v["cav_method"]),
+        partition.boundary_rows(v["warm_t"], v["cold_t"]), band=True)
+    low, high = result.band["cold_face"]
+    assert named(evaluation, "res_cold_face_low") == pytest.approx(low, rel=1e-9)
+    assert named(evaluation, "res_cold_face_high") == pytest.approx(high, rel=1e-9)
+    # the band lies between the two air temperatures (second law)
+    assert v["cold_t"] < low <= high < v["warm_t"]

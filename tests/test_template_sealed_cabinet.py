@@ -18,7 +18,7 @@ def _inputs(evaluation):
     return {n: named(evaluation, n) for n in names}
 
 
-def _engine_case(v):
+def _engine_case(v, **options):
     """The same cabinet built directly from the engine's Python API."""
     side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
     top_area = v["cab_width"] * v["cab_depth"]
@@ -29,7 +29,8 @@ def _engine_case(v):
     bounds = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
-    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]))
+    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]),
+                                  **options)
 
 
 @pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],
@@ -140,3 +141,14 @@ def test_choosing_the_vertical_correlation_changes_the_result():
     engine in test_results_equal_a_direct_engine_network) and change the answer."""
     assert named(evaluate_template(NAME, vplate_method="mcadams"), "res_t_air") != \
         named(evaluate_template(NAME), "res_t_air")
+
+
+@pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "max_internal_t": 49.0}], ids=["default", "mcadams"])
+def test_correlation_spread_equals_the_engine_band(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    low, high = _engine_case(_inputs(evaluation), band=True).band["air_in"]
+    assert named(evaluation, "res_t_air_low") == pytest.approx(low, rel=1e-9)
+    assert named(evaluation, "res_t_air_high") == pytest.approx(high, rel=1e-9)
+    assert low < high
+    verdict = "OK" if high <= named(evaluation, "max_internal_t") else "EXCEEDS LIMIT"
+    assert named(evaluation, "res_check_high") == verdict

@@ -8,11 +8,9 @@ the difference.  A table and chart show both against the layer thickness.
 
 from __future__ import annotations
 
-from xlsxwriter.utility import xl_rowcol_to_cell
-
 import stillair
 
-from ..templatebook import Template, TemplateBook
+from ..templatebook import SIG3, Template, TemplateBook, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}
@@ -33,17 +31,27 @@ def iso_h_a_formula(d: str) -> str:
 def build(b: TemplateBook) -> None:
     d = DEFAULTS
     b.section("Inputs", "Air layer")
-    b.input("thickness", "Layer thickness (face to face)", d["thickness"], "m", "the standard's formulas: up to 0.3 m")
+    b.input("thickness", "Layer thickness (face to face)", d["thickness"], "m", "the standard's formulas: up to 0.3 m",
+            valid=Valid(0.0, 0.3, "a layer above 0 and at most 0.3 m thick (the standard's formulas end at "
+                        "0.3 m)", low_open=True))
     b.input("direction", "Direction of heat flow", d["direction"], "",
             "up (roof, ceiling), horizontal (wall), down (floor)", choices=DIRECTIONS)
-    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9")
-    b.input("eps_cold", "Emissivity of the cold face", d["eps_cold"], "-", "aluminium foil 0.05, aged 0.2 or more")
-    b.input("t_mean", "Mean temperature of the layer", d["t_mean"], "°C")
+    face = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                 "1/(1/e1 + 1/e2 - 1) needs both above 0)")
+    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9", valid=face)
+    b.input("eps_cold", "Emissivity of the cold face", d["eps_cold"], "-", "aluminium foil 0.05, aged 0.2 or more",
+            valid=face)
+    b.input("t_mean", "Mean temperature of the layer", d["t_mean"], "°C",
+            valid=Valid(-50.0, 80.0, "air layers in building elements lie between about -50 and +80 °C "
+                        "(common practice)"))
     b.input("delta_t", "Temperature difference across the layer", d["delta_t"], "K",
-            "the standard's h_a formulas assume at most 5 K")
+            "the standard's h_a formulas assume at most 5 K",
+            valid=Valid(0.0, 50.0, "a difference above 0 (the faces must differ) and at most 50 K", low_open=True))
     b.input("layer_extent", "Layer extent along the faces (height of a wall layer)", d["layer_extent"], "m",
-            "aspect ratio of the correlations")
-    b.input("pressure", "Air pressure", d["pressure"], "Pa", "101325 at sea level")
+            "aspect ratio of the correlations",
+            valid=Valid(0.05, 20.0, "from 0.05 to 20 m: the extent sets the aspect ratio of the cavity "
+                        "correlations"))
+    b.input("pressure", "Air pressure", d["pressure"], "Pa", "101325 at sea level", valid=gas_pressure())
 
     b.section("Calculation", "Faces and direction")
     b.step("tilt", "Cavity tilt from the horizontal (0 up, 90 horizontal, 180 down)",
@@ -64,8 +72,17 @@ def build(b: TemplateBook) -> None:
     b.step("h_radiation", "Radiation coefficient between the faces", "=H_RAD(t_warm,t_cold,eps_warm,eps_cold)",
            "W/(m²·K)", "grey parallel faces, exact T⁴ linearised")
     b.step("r_correlation", "Resistance 1/(h_conv + h_rad)", "=1/(h_conv+h_radiation)", "m²·K/W")
+    b.step("spread_count", "Correlations covering the case (NU_SPREAD)",
+           '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,3)', number_format="0")
+    b.step("nu_low", "Lowest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,1)', "-")
+    b.step("nu_high", "Highest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,2)', "-")
+    b.step("r_spread_high", "Resistance with the lowest Nu 1/(h_conv Nu_low/Nu + h_rad)",
+           "=IF(spread_count>0,1/(h_conv*nu_low/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
+    b.step("r_spread_low", "Resistance with the highest Nu 1/(h_conv Nu_high/Nu + h_rad)",
+           "=IF(spread_count>0,1/(h_conv*nu_high/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
     b.section("Calculation", "Simplified value of the building standard (ISO 6946 annex, from memory)")
-    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
+    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018",
+           number_format="0.0000E+00")
     b.step("iso_h_a", "h_a: up max(1.95, 0.025/d); horizontal max(1.25, 0.025/d); down max(0.12 d^-0.44, 0.025/d)",
            "=" + iso_h_a_formula("thickness"), "W/(m²·K)", "d in m")
     b.step("iso_e", "Intersurface emittance E = 1/(1/e1 + 1/e2 - 1)", "=1/(1/eps_warm+1/eps_cold-1)", "-")
@@ -76,11 +93,15 @@ def build(b: TemplateBook) -> None:
     b.section("Results", "Thermal resistance of the air layer")
     b.result("r_layer", "R from correlations + radiation", "=r_correlation", "m²·K/W",
              "cavity correlation as named below, exact grey radiation")
+    b.result("r_layer_low", "R, correlation spread: lowest", "=r_spread_low", "m²·K/W",
+             "spread of the published correlations (see Notes)")
+    b.result("r_layer_high", "R, correlation spread: highest", "=r_spread_high", "m²·K/W")
     b.result("r_standard", "R, the standard's simplified formulas", "=r_simplified", "m²·K/W",
              "ISO 6946 annex formulas (from memory)")
     b.result("r_standard_rounded", "R, simplified, rounded as the standard's table", "=ROUND(r_simplified,2)",
-             "m²·K/W")
-    b.result("r_difference", "Difference, correlation - simplified", "=r_layer-r_standard", "m²·K/W")
+             "m²·K/W", number_format="0.00")
+    b.result("r_difference", "Difference, correlation - simplified", "=r_layer-r_standard", "m²·K/W",
+             number_format="0.000")
     b.result("r_difference_pct", "Difference relative to the simplified value", "=100*r_difference/r_standard", "%")
     b.result("u_layer", "Conductance of the layer 1/R (correlations)", "=1/r_layer", "W/(m²·K)")
     b.section("Results", "Checks and validity notes")
@@ -100,7 +121,7 @@ def build(b: TemplateBook) -> None:
                      f"=1/(H_CAVITY(t_warm,t_cold,{ref},layer_extent,tilt,\"air\",pressure,\"auto\")+h_radiation)",
                      f"=1/({iso_h_a_formula(ref)}+iso_h_r)"])
     first, _, last, _ = b.table("Results", ["thickness mm", "R correlations m²·K/W", "R simplified m²·K/W"],
-                                rows, name="thickness_sweep")
+                                rows, name="thickness_sweep", formats=["0", SIG3, SIG3])
     assert first == start
     series = [{"name": "correlations + radiation", "categories": "=" + TemplateBook.column("Results", first, last, 0),
                "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": "#3E5C76", "width": 1.75},
@@ -110,7 +131,7 @@ def build(b: TemplateBook) -> None:
                                                                             "dash_type": "dash"},
                "marker": {"type": "square", "size": 4, "fill": {"color": "#C98B2B"}}}]
     b.chart("Results", "scatter", "Air-layer resistance against thickness", series, "thickness, mm (log scale)",
-            "R, m²·K/W", xl_rowcol_to_cell(last + 2, 0), subtype="straight_with_markers",
+            "R, m²·K/W", subtype="straight_with_markers",
             x_axis={"log_base": 10, "min": 1, "max": 1000})
 
     cav = stillair.CORRELATIONS
@@ -125,6 +146,7 @@ def build(b: TemplateBook) -> None:
                 "heat flow, max(1.95, 0.025/d) upward, max(0.12 d^-0.44, 0.025/d) downward (d in m, dT <= 5 K); "
                 "h_r = E h_r0 with E = 1/(1/e1 + 1/e2 - 1) and h_r0 = 4 sigma Tm³; R = 1/(h_a + h_r). The "
                 "standard's table of R for high-emissivity faces (e = 0.9, 10 °C mean) follows from these.")
+    b.spread_note("resistance of the air layer")
     b.paragraph("Correlations the automatic choice uses for the three directions:")
     used = []
     for direction, tilt in TILT.items():
@@ -144,7 +166,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="air-layer", version=1, title="Unventilated air layer",
+    name="air-layer", version=3, title="Unventilated air layer",
     summary="Thermal resistance of an unventilated air layer from correlations + radiation, beside the "
             "building standard's simplified value.",
     build=build)

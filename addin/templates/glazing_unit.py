@@ -14,11 +14,9 @@ A sweep of U against gap width for air, argon and krypton (mode a) marks the opt
 
 from __future__ import annotations
 
-from xlsxwriter.utility import xl_rowcol_to_cell
-
 import stillair
 
-from ..templatebook import Template, TemplateBook
+from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, Template, TemplateBook, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")
@@ -35,6 +33,13 @@ DEFAULTS = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, 
                 rh_indoor=55.0, h_outdoor=20.0, gap_method="auto")
 
 BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
+BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
+PANE = Valid(0.0, 0.05, "a pane above 0 and at most 50 mm thick (laminated glass included)", low_open=True)
+GAP = Valid(0.0, 0.1, "a gap above 0; at most 100 mm, beyond any sealed glazing unit, and the gas-layer "
+            "correlations need the height/gap ratio they were measured for", low_open=True)
+FILL = Valid(0.0, 1.0, "a mole fraction lies from 0 to 1")
+FACE_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                        "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 
 
 def network_rows(panes: int) -> list[list]:
@@ -68,33 +73,48 @@ def build(b: TemplateBook) -> None:
     # ------------------------------------------------------------------ Inputs
     b.section("Inputs", "Glazing build, outdoor to indoor (faces numbered 1 = outdoor face)")
     b.input("panes", "Number of panes", d["panes"], "-", "2 = double, 3 = triple unit", choices=["2", "3"])
-    b.input("pane_1", "Pane 1 (outdoor) thickness", d["pane_1"], "m")
-    b.input("pane_2", "Pane 2 thickness", d["pane_2"], "m", "the indoor pane of a double unit")
-    b.input("pane_3", "Pane 3 (indoor, triple only) thickness", d["pane_3"], "m", "not used with 2 panes")
-    b.input("glass_k", "Glass conductivity", d["glass_k"], "W/(m·K)", "soda-lime glass 1.0 (EN 673 value)")
-    b.input("gap_1", "Gap 1 width (between panes 1 and 2)", d["gap_1"], "m")
+    b.input("pane_1", "Pane 1 (outdoor) thickness", d["pane_1"], "m", valid=PANE)
+    b.input("pane_2", "Pane 2 thickness", d["pane_2"], "m", "the indoor pane of a double unit", valid=PANE)
+    b.input("pane_3", "Pane 3 (indoor, triple only) thickness", d["pane_3"], "m", "not used with 2 panes",
+            valid=PANE)
+    b.input("glass_k", "Glass conductivity", d["glass_k"], "W/(m·K)", "soda-lime glass 1.0 (EN 673 value)",
+            valid=Valid(0.1, 5.0, "glasses conduct about 0.5 to 1.5 W/(m·K); 0.1 to 5 admits any pane material"))
+    b.input("gap_1", "Gap 1 width (between panes 1 and 2)", d["gap_1"], "m", valid=GAP)
     b.input("gas_1", "Gap 1 fill gas", d["gas_1"], "", "the rest of the fill is air", choices=GASES)
-    b.input("fill_1", "Gap 1 fill fraction", d["fill_1"], "-", "mole fraction of the fill gas (0.9 = 90 %)")
-    b.input("gap_2", "Gap 2 width (triple only)", d["gap_2"], "m", "not used with 2 panes")
+    b.input("fill_1", "Gap 1 fill fraction", d["fill_1"], "-", "mole fraction of the fill gas (0.9 = 90 %)",
+            valid=FILL)
+    b.input("gap_2", "Gap 2 width (triple only)", d["gap_2"], "m", "not used with 2 panes", valid=GAP)
     b.input("gas_2", "Gap 2 fill gas (triple only)", d["gas_2"], "", choices=GASES)
-    b.input("fill_2", "Gap 2 fill fraction (triple only)", d["fill_2"], "-")
+    b.input("fill_2", "Gap 2 fill fraction (triple only)", d["fill_2"], "-", valid=FILL)
     b.input("eps_outdoor_face", "Emissivity, face 1 (outdoor face)", d["eps_outdoor_face"], "-",
-            "uncoated soda-lime glass 0.837 (EN 673)")
-    b.input("eps_gap1_outer", "Emissivity, face 2 (gap 1, outer side)", d["eps_gap1_outer"], "-")
+            "uncoated soda-lime glass 0.837 (EN 673)", valid=EMISSIVITY)
+    b.input("eps_gap1_outer", "Emissivity, face 2 (gap 1, outer side)", d["eps_gap1_outer"], "-",
+            valid=FACE_EMISSIVITY)
     b.input("eps_gap1_inner", "Emissivity, face 3 (gap 1, inner side)", d["eps_gap1_inner"], "-",
-            "low-e coating: 0.01-0.2 (manufacturer's declared value)")
-    b.input("eps_gap2_outer", "Emissivity, face 4 (gap 2, outer side; triple)", d["eps_gap2_outer"], "-")
-    b.input("eps_gap2_inner", "Emissivity, face 5 (gap 2, inner side; triple)", d["eps_gap2_inner"], "-")
-    b.input("eps_indoor_face", "Emissivity, indoor face (4 double / 6 triple)", d["eps_indoor_face"], "-")
+            "low-e coating: 0.01-0.2 (manufacturer's declared value)", valid=FACE_EMISSIVITY)
+    b.input("eps_gap2_outer", "Emissivity, face 4 (gap 2, outer side; triple)", d["eps_gap2_outer"], "-",
+            valid=FACE_EMISSIVITY)
+    b.input("eps_gap2_inner", "Emissivity, face 5 (gap 2, inner side; triple)", d["eps_gap2_inner"], "-",
+            valid=FACE_EMISSIVITY)
+    b.input("eps_indoor_face", "Emissivity, indoor face (4 double / 6 triple)", d["eps_indoor_face"], "-",
+            valid=EMISSIVITY)
     b.input("glass_height", "Height of the glazed area", d["glass_height"], "m",
-            "cavity aspect and indoor natural convection in mode (b)")
-    b.input("pressure", "Gas pressure in the gaps and room", d["pressure"], "Pa", "101325 at sea level")
+            "cavity aspect and indoor natural convection in mode (b)",
+            valid=Valid(0.1, 6.0, "from 0.1 to 6 m: glazed heights the gas-layer and vertical-plate "
+                        "correlations cover"))
+    b.input("pressure", "Gas pressure in the gaps and room", d["pressure"], "Pa", "101325 at sea level",
+            valid=gas_pressure())
     b.section("Inputs", "Actual conditions, mode (b)")
-    b.input("t_indoor", "Indoor air (and room surfaces) temperature", d["t_indoor"], "°C")
-    b.input("t_outdoor", "Outdoor air (and surroundings) temperature", d["t_outdoor"], "°C")
-    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%")
+    b.input("t_indoor", "Indoor air (and room surfaces) temperature", d["t_indoor"], "°C",
+            valid=Valid(0.0, 50.0, "an occupied room lies between 0 and 50 °C, and the dew point (Magnus) "
+                        "formula is used above 0 °C"))
+    b.input("t_outdoor", "Outdoor air (and surroundings) temperature", d["t_outdoor"], "°C", valid=OUTDOOR_AIR)
+    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%",
+            valid=Valid(0.0, 100.0, "a relative humidity lies above 0 and at most 100 %", low_open=True))
     b.input("h_outdoor", "Outdoor convective film coefficient (wind)", d["h_outdoor"], "W/(m²·K)",
-            "convection only: outdoor radiation is a branch of its own")
+            "convection only: outdoor radiation is a branch of its own",
+            valid=Valid(0.0, 200.0, "a film coefficient is above 0; 200 W/(m²·K) exceeds storm winds",
+                        low_open=True))
     b.input("gap_method", "Gap convection correlation, mode (b)", d["gap_method"], "",
             "auto picks the one whose range covers the case", choices=GAP_METHODS)
 
@@ -145,13 +165,15 @@ def build(b: TemplateBook) -> None:
            f"=std_u-1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{before}+std_r2_p{before})", "W/(m²·K)",
            "converged when near 0", number_format="0.0E+00")
 
-    b.section("Calculation", "(b) actual conditions: network per m² of glass, double unit (s1 = face 1 ...)")
-    b.table("Calculation", BRANCH_HEADER, network_rows(2), name="glz_double")
-    b.section("Calculation", "(b) the same for a triple unit (the Number of panes picks the table)")
-    b.table("Calculation", BRANCH_HEADER, network_rows(3), name="glz_triple")
-    b.section("Calculation", "(b) boundaries and solved temperatures")
-    b.table("Calculation", ["node", "T or Q", "value"],
-            [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], name="glz_bounds")
+    b.section("Tables", "(b) actual conditions: network per m² of glass, double unit (s1 = face 1 ...)")
+    b.table("Tables", BRANCH_HEADER, network_rows(2), name="glz_double", formats=BRANCH_FORMATS)
+    b.section("Tables", "(b) the same for a triple unit (the Number of panes picks the table)")
+    b.table("Tables", BRANCH_HEADER, network_rows(3), name="glz_triple", formats=BRANCH_FORMATS)
+    b.section("Tables", "(b) boundaries")
+    b.table("Tables", ["node", "T or Q", "value"],
+            [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], name="glz_bounds",
+            formats=[None, None, "0.0"])
+    b.section("Calculation", "(b) solved temperatures (network tables on the sheet Tables)")
     tables = "CHOOSE(panes-1,glz_double,glz_triple),glz_bounds"
     air = '"air",pressure'
     net = f"{tables},{air}"
@@ -163,6 +185,11 @@ def build(b: TemplateBook) -> None:
     b.step("t_gap2_inner", "Gap 2 inner face temperature (s5, triple)",
            f'=NET_TEMP({tables},IF(panes=3,"s5","s4"),{air})', "°C", "indoor face with 2 panes")
     b.step("t_indoor_face", "Indoor face temperature", f'=NET_TEMP({tables},IF(panes=3,"s6","s4"),{air})', "°C")
+    indoor_node = 'IF(panes=3,"s6","s4")'
+    b.step("t_indoor_face_low", "Indoor face, all convection at the lowest covering Nu",
+           f"=INDEX(NET_BAND({tables},{indoor_node},{air}),1,1)", "°C", "correlation spread (NET_BAND)")
+    b.step("t_indoor_face_high", "Indoor face, all convection at the highest covering Nu",
+           f"=INDEX(NET_BAND({tables},{indoor_node},{air}),1,2)", "°C")
     b.step("q_actual", "Heat flow per m², indoor to outdoor",
            f'=-(NET_HEAT({tables},"in-conv",{air})+NET_HEAT({tables},"in-rad",{air}))', "W/m²")
     b.step("act_u", "U-value, actual conditions", "=q_actual/(t_indoor-t_outdoor)", "W/(m²·K)")
@@ -208,13 +235,12 @@ def build(b: TemplateBook) -> None:
         ["indoor air", f"={end}", "=t_indoor"],
     ]
     first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], profile,
-                                name="glz_profile", col=1)
+                                name="glz_profile", col=1, formats=[None, "0.0", "0.0"])
     b.chart("Calculation", "scatter", "Temperature through the unit, actual conditions (b)",
             [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 2),
               "values": "=" + TemplateBook.column("Calculation", first, last, 3),
               "marker": {"type": "circle", "size": 5}}],
-            "position from the outdoor face, mm", "temperature, °C",
-            xl_rowcol_to_cell(first - 12, 6), subtype="straight_with_markers")
+            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers")
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Centre-of-glass U-value")
@@ -227,12 +253,21 @@ def build(b: TemplateBook) -> None:
     b.section("Results", "Surface temperatures and condensation, actual conditions (b)")
     b.result("indoor_face_t", "Indoor face temperature (centre of glass)", "=t_indoor_face", "°C")
     b.result("outdoor_face_t", "Outdoor face temperature", "=t_face_1", "°C")
+    b.result("indoor_face_low", "Indoor face, correlation spread: lowest", "=t_indoor_face_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("indoor_face_high", "Indoor face, correlation spread: highest", "=t_indoor_face_high", "°C")
     b.result("dew_point", "Indoor dew point", "=t_dew", "°C", "Magnus formula, Alduchov & Eskridge 1996")
     b.result("dew_margin_result", "Margin above the dew point", "=dew_margin", "K")
     b.result("condensation_check", "Condensation check (centre of glass)",
-             '=IF(dew_margin>0,"no condensation at the centre of glass, margin "&TEXT(dew_margin,"0.0")&" K",'
-             '"CONDENSATION: indoor face "&TEXT(-dew_margin,"0.0")&" K below the dew point")', text=True,
+             '=IF(NOT(ISNUMBER(dew_margin)),"' + FAILED + '",IF(dew_margin>0,"no condensation at the centre of '
+             'glass, margin "&TEXT(dew_margin,"0.0")&" K","CONDENSATION: indoor face "&TEXT(-dew_margin,"0.0")&'
+             '" K below the dew point"))', text=True, fails=("CONDENSATION",),
              note="edges and frames are colder: see the caution below")
+    b.result("condensation_check_low", "Condensation check at the bottom of the spread",
+             '=IF(NOT(ISNUMBER(t_indoor_face_low)),"' + FAILED + '",IF(t_indoor_face_low>t_dew,"no condensation '
+             'at the centre of glass, margin "&TEXT(t_indoor_face_low-t_dew,"0.0")&" K","CONDENSATION: indoor '
+             'face "&TEXT(t_dew-t_indoor_face_low,"0.0")&" K below the dew point"))', text=True,
+             fails=("CONDENSATION",))
     b.section("Results", "Checks and validity notes")
     b.result("network_check", "Network (b)", f"=NET_CHECK({net})", text=True)
     b.result("gap1_method", "Gap 1 correlation used in (b)",
@@ -243,14 +278,15 @@ def build(b: TemplateBook) -> None:
              '=IF(panes=3,NU_NOTE("cavity",act_ra_2,act_pr_2,"",90,glass_height/gap_2,gap_method),'
              '"no gap 2 (double unit)")', text=True)
     b.result("energy_check", "Gap 1 heat flow from its coefficients + heat flow", "=act_q_gap1+q_actual",
-             "W/m²", "0 when the network balances")
-    b.result("std_convergence", "Standard mode: change of U in the last ΔT pass", "=std_u_change", "W/(m²·K)")
+             "W/m²", "0 when the network balances", number_format="0.0E+00")
+    b.result("std_convergence", "Standard mode: change of U in the last ΔT pass", "=std_u_change", "W/(m²·K)",
+             number_format="0.0E+00")
     b.caution("Results", "Caution: centre-of-glass values only. Edges, spacers and frames are colder than the "
                          "centre of the glass; condensation and mould start there. Check against local codes, "
                          "the manufacturer's declared data and licensed practice.")
 
-    b.section("Results", "U against gap width: double unit, standard conditions (a), this unit's panes "
-                         "and gap-1 coatings, pure gases")
+    b.section("Tables", "U against gap width: double unit, standard conditions (a), this unit's panes "
+                        "and gap-1 coatings, pure gases")
     sweep_rows = []
     for mm in SWEEP_MM:
         row = [float(mm)]
@@ -258,37 +294,37 @@ def build(b: TemplateBook) -> None:
             row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
                        f'std_mean-std_dt/2,A{{row}}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
         sweep_rows.append(row)
-    start = b.sheets["Results"].row + 1     # first data row (0-based) after the header
+    start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
     for i, row in enumerate(sweep_rows):
         sweep_rows[i] = [row[0]] + [cell.replace("{row}", str(start + i + 1)) for cell in row[1:]]
-    first, _, last, _ = b.table("Results", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
-                                name="gap_sweep")
+    first, _, last, _ = b.table("Tables", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
+                                name="gap_sweep", formats=["0", SIG3, SIG3, SIG3])
     assert first == start
-    gaps = TemplateBook.column("Results", first, last, 0)
+    gaps = TemplateBook.column("Tables", first, last, 0)
     optimum_rows = []
     for j, gas in enumerate(SWEEP_GASES, start=1):
-        u = TemplateBook.column("Results", first, last, j)
+        u = TemplateBook.column("Tables", first, last, j)
         optimum_rows.append([gas, f"=SUMPRODUCT(({u}=MIN({u}))*{gaps})/SUMPRODUCT(({u}=MIN({u}))*1)",
                              f"=MIN({u})"])
-    b.blank("Results")
-    o_first, _, o_last, _ = b.table("Results", ["gas", "optimum gap mm", "lowest U W/(m²·K)"], optimum_rows,
-                                    name="gap_optimum")
+    b.blank("Tables")
+    o_first, _, o_last, _ = b.table("Tables", ["gas", "optimum gap mm", "lowest U W/(m²·K)"], optimum_rows,
+                                    name="gap_optimum", formats=[None, "0", SIG3])
     series = []
     palette = {"air": "#7A8C99", "argon": "#3E5C76", "krypton": "#C98B2B"}
     for j, gas in enumerate(SWEEP_GASES, start=1):
         series.append({"name": gas, "categories": "=" + gaps,
-                       "values": "=" + TemplateBook.column("Results", first, last, j),
+                       "values": "=" + TemplateBook.column("Tables", first, last, j),
                        "line": {"color": palette[gas], "width": 1.75}, "marker": {"type": "none"}})
     for j, gas in enumerate(SWEEP_GASES):
         row = o_first + j
         series.append({"name": f"optimum {gas}",
-                       "categories": "=" + TemplateBook.column("Results", row, row, 1),
-                       "values": "=" + TemplateBook.column("Results", row, row, 2),
+                       "categories": "=" + TemplateBook.column("Tables", row, row, 1),
+                       "values": "=" + TemplateBook.column("Tables", row, row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
                                   "border": {"color": "#23313F"}}})
     b.chart("Results", "scatter", "Centre-of-glass U against gap width (EN 673 conditions)", series,
-            "gap width, mm", "U, W/(m²·K)", xl_rowcol_to_cell(o_last + 2, 0), subtype="straight")
+            "gap width, mm", "U, W/(m²·K)", subtype="straight")
 
     # ------------------------------------------------------------------ Notes
     cav = stillair.CORRELATIONS
@@ -316,6 +352,7 @@ def build(b: TemplateBook) -> None:
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
+    b.spread_note("indoor face temperature, mode (b)")
     b.paragraph("Correlations used:")
     used = [("cavity", "en673"), ("cavity", auto_default), ("vplate", "churchill-chu")]
     for method in GAP_METHODS[1:]:
@@ -339,7 +376,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=1, title="Insulating glass unit",
+    name="glazing-unit", version=3, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

@@ -10,7 +10,7 @@ independent sub-network per thickness), solved together by the network solver.
 from __future__ import annotations
 
 
-from ..templatebook import Template
+from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
@@ -18,6 +18,10 @@ STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness ste
 
 BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
 BOUNDARY_HEADER = ["node", "T or Q", "value"]
+BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
+SIZE = Valid(0.0, 10.0, "a size above 0 and at most 10 m (taller faces leave the correlations' Ra range)",
+             low_open=True)
+ROOM_AIR = Valid(-60.0, 60.0, "still air around equipment lies between about -60 and +60 °C (common practice)")
 
 
 def insulated_branch_rows(rows):
@@ -47,23 +51,33 @@ def build(b) -> None:
             "horizontal cylinder (pipe), vertical face, horizontal top, horizontal bottom",
             choices=GEOMETRIES)
     b.input("hot_t", "Hot surface temperature (bare metal)", 150.0, "°C",
-            "taken as the temperature under the insulation too")
-    b.input("pipe_od", "Pipe outside diameter (cylinder)", 0.1143, "m", "used for the horizontal cylinder")
-    b.input("pipe_length", "Pipe length (cylinder)", 10.0, "m", "used for the horizontal cylinder")
-    b.input("face_height", "Face height (vertical) or depth (horizontal)", 1.0, "m", "used for the faces")
-    b.input("face_width", "Face width", 1.5, "m", "used for the faces")
-    b.input("eps_bare", "Emissivity of the bare surface", 0.8, "-", "oxidised steel about 0.8")
+            "taken as the temperature under the insulation too",
+            valid=Valid(-60.0, 600.0, "the film temperature must stay inside the air property tables "
+                        "(up to 800 °C)"))
+    b.input("pipe_od", "Pipe outside diameter (cylinder)", 0.1143, "m", "used for the horizontal cylinder",
+            valid=Valid(0.0, 3.0, "a diameter above 0 and at most 3 m (Churchill-Chu's Ra up to 1e12)",
+                        low_open=True))
+    b.input("pipe_length", "Pipe length (cylinder)", 10.0, "m", "used for the horizontal cylinder",
+            valid=Valid(0.0, 10000.0, "a length above 0 (it scales the heat loss only)", low_open=True))
+    b.input("face_height", "Face height (vertical) or depth (horizontal)", 1.0, "m", "used for the faces",
+            valid=SIZE)
+    b.input("face_width", "Face width", 1.5, "m", "used for the faces", valid=SIZE)
+    b.input("eps_bare", "Emissivity of the bare surface", 0.8, "-", "oxidised steel about 0.8", valid=EMISSIVITY)
     b.section("Inputs", "Surroundings")
-    b.input("ambient_t", "Still air temperature", 20.0, "°C")
+    b.input("ambient_t", "Still air temperature", 20.0, "°C", valid=ROOM_AIR)
     b.input("surroundings_t", "Temperature of the surroundings (radiation)", 20.0, "°C",
-            "walls and objects the surface sees")
+            "walls and objects the surface sees", valid=ROOM_AIR)
     b.section("Inputs", "Insulation and touch limit")
-    b.input("ins_k", "Insulation conductivity", 0.04, "W/(m·K)", "at its mean temperature (maker's data)")
+    b.input("ins_k", "Insulation conductivity", 0.04, "W/(m·K)", "at its mean temperature (maker's data)",
+            valid=Valid(0.01, 1.0, "thermal insulation conducts about 0.02 to 0.2 W/(m·K); 0.01 to 1 admits "
+                        "any insulating material"))
     b.input("eps_jacket", "Emissivity of the jacket (outer surface)", 0.3, "-",
-            "dull metal jackets low, painted or fabric jackets about 0.9")
-    b.input("ins_step", "Thickness step of the table", 0.01, "m", f"the table runs 0, 1 x .. {STEPS} x this step")
+            "dull metal jackets low, painted or fabric jackets about 0.9", valid=EMISSIVITY)
+    b.input("ins_step", "Thickness step of the table", 0.01, "m", f"the table runs 0, 1 x .. {STEPS} x this step",
+            valid=Valid(0.0, 0.1, f"a step above 0 and at most 0.1 m ({STEPS} steps reach 0.8 m)", low_open=True))
     b.input("touch_limit", "Touch-temperature limit", 50.0, "°C",
-            "set from ISO 13732-1 for the jacket material and contact time, or local rules")
+            "set from ISO 13732-1 for the jacket material and contact time, or local rules",
+            valid=LIMIT_TEMPERATURE)
 
     # ------------------------------------------------------------------ Calculation
     b.section("Calculation", "Geometry")
@@ -91,15 +105,14 @@ def build(b) -> None:
     b.step("q_rad_bare", "Radiation loss, bare", "=h_rad_bare*bare_area*(hot_t-surroundings_t)", "W")
     b.step("q_bare", "Heat loss, bare", "=q_conv_bare+q_rad_bare", "W")
     b.step("ra_bare", "Rayleigh number, bare", "=RAYLEIGH(hot_t, ambient_t, bare_length)", "-",
-           number_format="0.00E+00")
+           number_format="0.000E+00")
     b.step("pr_bare", "Prandtl number at the film temperature", "=AIR_PRANDTL((hot_t+ambient_t)/2)", "-")
     b.step("note_bare", "Validity of the bare-surface correlation",
            '=NU_NOTE(IF(kind="hcyl", "hcyl", IF(kind="vplate", "vplate", "hplate")), ra_bare, pr_bare, '
            'IF(kind="hplate", IF(facing="up", "hot-up", "hot-down"), ""))', "")
 
-    b.blank("Calculation")
-    b.section("Calculation", "Insulated cases: geometry of each thickness")
-    sheet = "Calculation"
+    sheet = "Tables"
+    b.section(sheet, "Insulated cases: geometry of each thickness")
     geo_header = ["case", "thickness m", "outer size m", "area m²", "insulation R K/W", "facing (hplate only)"]
     start = b.sheets[sheet].row + 1  # first data row (0-based) of the geometry table
     geo_rows = []
@@ -116,7 +129,8 @@ def build(b) -> None:
             # a space, not "": the network reads it as blank, and a viewer shows a cached value
             '=IF(kind="hplate", facing, " ")',
         ])
-    first, _, last, _ = b.table(sheet, geo_header, geo_rows, col=1)
+    first, _, last, _ = b.table(sheet, geo_header, geo_rows, col=1,
+                                formats=[None, "0.000", "0.0000", "0.000", SIG3, None])
     assert first == start
 
     def geo(k, col):
@@ -126,19 +140,23 @@ def build(b) -> None:
     b.section(sheet, "Insulated cases: network branches (one sub-network per thickness)")
     b.table(sheet, BRANCH_HEADER, insulated_branch_rows(
         [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), geo(k, 6), "=eps_jacket") for k in range(1, STEPS + 1)]),
-        name="hs_branches")
-    b.blank(sheet)
+        name="hs_branches", formats=BRANCH_FORMATS)
     b.section(sheet, "Insulated cases: boundaries")
-    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), name="hs_bounds")
+    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), name="hs_bounds",
+            formats=[None, None, "0.0"])
+    b.section("Calculation", "Insulated cases: a network per thickness (tables on the sheet Tables)")
     b.step("hs_check", "Network check", "=NET_CHECK(hs_branches, hs_bounds)", "")
 
-    b.blank(sheet)
     b.section(sheet, "Thickness table: outer surface temperature and heat loss")
     table_header = ["thickness mm", "surface °C", "heat loss W", "loss per unit", "touch limit °C",
                     "meets limit", "saving vs bare %"]
     tstart = b.sheets[sheet].row + 1
-    rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit",
-             f'=IF({b.cell(sheet, tstart, 2)}<=touch_limit, "yes", "no")', "=0"]]
+
+    def meets(row):  # a failed surface temperature must not read as "no" (or vanish from the search)
+        surface = b.cell(sheet, row, 2)
+        return f'=IF(ISNUMBER({surface}), IF({surface}<=touch_limit, "yes", "no"), "{FAILED}")'
+
+    rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit", meets(tstart), "=0"]]
     for k in range(1, STEPS + 1):
         r = tstart + k
         rows.append([f"=1000*{b.cell(sheet, start + k - 1, 2)}",
@@ -146,25 +164,35 @@ def build(b) -> None:
                      f'=NET_HEAT(hs_branches, hs_bounds, "ins_{k}")',
                      f"={b.cell(sheet, r, 3)}/unit_size",
                      "=touch_limit",
-                     f'=IF({b.cell(sheet, r, 2)}<=touch_limit, "yes", "no")',
+                     meets(r),
                      f"=100*(1-{b.cell(sheet, r, 3)}/q_bare)"])
-    tfirst, _, tlast, _ = b.table(sheet, table_header, rows, col=1)
+    tfirst, _, tlast, _ = b.table(sheet, table_header, rows, col=1,
+                                  formats=["0", "0.0", "0.0", "0.0", "0.0", None, "0.0"])
     assert tfirst == tstart
-    b.sheets[sheet].worksheet.write(tfirst - 1, 0, "", b.formats["header"])
+    b.verdicts(sheet, tfirst, 6, tlast, fails=("no",))
 
     def column(col):
         return f"{b.cell(sheet, tfirst, col)}:{b.cell(sheet, tlast, col).split('!')[1]}"
 
     thickness_col, surface_col, loss_col, meets_col = column(1), column(2), column(3), column(6)
-    b.step("first_ok_mm", "First thickness of the table meeting the touch limit",
-           f'=IFERROR(INDEX({thickness_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "mm")
-    b.step("first_ok_t", "Outer surface temperature at that thickness",
-           f'=IFERROR(INDEX({surface_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "°C")
-    b.step("first_ok_q", "Heat loss at that thickness",
-           f'=IFERROR(INDEX({loss_col}, MATCH("yes", {meets_col}, 0)), "none in the table")', "W")
+
+    def first_meeting(col):
+        """The first row meeting the limit; a failed row fails the search rather than being skipped."""
+        return (f'=IF(COUNTIF({meets_col}, "{FAILED}")>0, "{FAILED}", IF(COUNTIF({meets_col}, "yes")=0, '
+                f'"none in the table", INDEX({col}, MATCH("yes", {meets_col}, 0))))')
+
+    b.section("Calculation", "Thickness table (sheet Tables): the first thickness meeting the touch limit")
+    b.step("first_ok_mm", "First thickness of the table meeting the touch limit", first_meeting(thickness_col),
+           "mm")
+    b.step("first_ok_t", "Outer surface temperature at that thickness", first_meeting(surface_col), "°C")
+    b.step("first_ok_q", "Heat loss at that thickness", first_meeting(loss_col), "W")
     # one insulated case picked out by name, for checkers and the direction tests
     b.step("surf_t_first_step", "Outer surface temperature with 1 x step", "=" + b.cell(sheet, tstart + 1, 2), "°C")
     b.step("q_first_step", "Heat loss with 1 x step", "=" + b.cell(sheet, tstart + 1, 3), "W")
+    b.step("surf_first_low", "Outer surface with 1 x step, all convection at the lowest covering Nu",
+           '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 1)', "°C", "correlation spread (NET_BAND)")
+    b.step("surf_first_high", "Outer surface with 1 x step, all convection at the highest covering Nu",
+           '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 2)', "°C")
     b.step("h_conv_first_step", "Outer convection coefficient with 1 x step (check)",
            f'=IF(kind="hcyl", H_HCYL(surf_t_first_step, ambient_t, {b.cell(sheet, start, 3)}), '
            f'IF(kind="vplate", H_VPLATE(surf_t_first_step, ambient_t, face_height), '
@@ -180,32 +208,35 @@ def build(b) -> None:
     b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
              "W/m or W/m²")
     b.result("res_bare_check", "Bare surface against the touch limit",
-             '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True)
+             '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Insulation against the touch limit")
     b.result("res_touch_limit", "Touch-temperature limit", "=touch_limit", "°C")
-    b.result("res_first_ok_mm", "First thickness in the table that meets it", "=first_ok_mm", "mm")
+    b.result("res_first_ok_mm", "First thickness in the table that meets it", "=first_ok_mm", "mm",
+             number_format="0")
     b.result("res_first_ok_t", "Outer surface temperature at that thickness", "=first_ok_t", "°C")
     b.result("res_first_ok_q", "Heat loss at that thickness", "=first_ok_q", "W")
     b.result("res_surf_t_first_step", "Outer surface temperature with one thickness step", "=surf_t_first_step",
+             "°C")
+    b.result("res_surf_first_low", "Outer surface, one step, correlation spread: lowest", "=surf_first_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_surf_first_high", "Outer surface, one step, correlation spread: highest", "=surf_first_high",
              "°C")
     b.result("res_q_first_step", "Heat loss with one thickness step", "=q_first_step", "W")
     b.section("Results", "Validity")
     b.result("res_note_bare", "Bare-surface correlation", "=note_bare", text=True)
     b.result("res_net_check", "Insulated cases (network check)", "=hs_check", text=True)
-    b.result(None, "Caution", '="Touch temperatures can burn: the safe value depends on the material and the '
-             'contact time (ISO 13732-1). Follow local codes, makers\' ratings and licensed practice (see Notes)."',
-             text=True)
-    b.blank("Results")
-    row = b.sheets["Results"].row
+    b.caution("Results", "Caution: touch temperatures can burn - the safe value depends on the material and the "
+                         "contact time (ISO 13732-1). Follow local codes, makers' ratings and licensed practice "
+                         "(see Notes).")
     x = f"={column(1)}"
     b.chart("Results", "scatter", "Outer surface temperature against insulation thickness",
             [{"name": "outer surface", "categories": x, "values": f"={column(2)}", "marker": {"type": "circle"}},
              {"name": "touch limit", "categories": x, "values": f"={column(5)}",
               "line": {"dash_type": "dash"}}],
-            "insulation thickness mm", "temperature °C", f"A{row + 1}", subtype="straight_with_markers")
+            "insulation thickness mm", "temperature °C", subtype="straight_with_markers")
     b.chart("Results", "scatter", "Heat loss against insulation thickness",
             [{"name": "heat loss", "categories": x, "values": f"={column(3)}", "marker": {"type": "diamond"}}],
-            "insulation thickness mm", "heat loss W", f"D{row + 1}", subtype="straight_with_markers")
+            "insulation thickness mm", "heat loss W", subtype="straight_with_markers")
 
     # ------------------------------------------------------------------ Notes
     b.section("Notes", "Method")
@@ -218,6 +249,7 @@ def build(b) -> None:
                 "ln(D_out/D)/(2 pi k L) for a pipe, t/(k A) for a flat face. The outer surface temperature is "
                 "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
                 "an independent sub-network in one branch table.")
+    b.spread_note("outer surface temperature with one thickness step")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")
     b.cite("Vertical face, Churchill-Chu", "vplate", "churchill-chu")
@@ -239,6 +271,6 @@ def build(b) -> None:
                 "where the calculated temperature meets the limit.", caution=True)
 
 
-TEMPLATE = Template(NAME, 1, "Hot surface in still air",
+TEMPLATE = Template(NAME, 3, "Hot surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit.", build)

@@ -10,7 +10,7 @@ single pass is off.
 from __future__ import annotations
 
 
-from ..templatebook import Template
+from ..templatebook import EMISSIVITY, SIG3, Template, Valid, gas_temperature
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]
@@ -18,6 +18,10 @@ STANDARD_GRAVITY = 9.80665  # m/s², standard gravity (as scipy.constants.g used
 
 BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
 BOUNDARY_HEADER = ["node", "T or Q", "value"]
+BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
+BRANCH_ARGS = ("height", "area", "board_t", "board_k", "gap", "eps_room", "eps_cav_warm", "eps_cav_cold", "method")
+ROOM_AIR = Valid(-30.0, 60.0, "room and store air lies between about -30 and +60 °C (common practice)")
+GUESS = Valid(-30.0, 60.0, "a guessed surface lies between the two air temperatures, within -30 to +60 °C")
 NODES = ("warm_face", "warm_air", "warm_cav", "cold_cav", "cold_face", "cold_air")
 
 
@@ -42,73 +46,87 @@ def boundary_rows(warm, cold):
 def build(b) -> None:
     # ------------------------------------------------------------------ Inputs
     b.section("Inputs", "Air spaces")
-    b.input("warm_t", "Warm-side air temperature", 21.0, "°C", "heated room")
-    b.input("cold_t", "Cold-side air temperature", 4.0, "°C", "unheated store or stairwell")
+    b.input("warm_t", "Warm-side air temperature", 21.0, "°C", "heated room", valid=ROOM_AIR)
+    b.input("cold_t", "Cold-side air temperature", 4.0, "°C", "unheated store or stairwell", valid=ROOM_AIR)
     b.section("Inputs", "Partition")
-    b.input("part_height", "Partition and cavity height", 2.7, "m")
-    b.input("part_width", "Partition width", 4.0, "m")
-    b.input("board_t", "Board thickness (each skin)", 0.0125, "m")
-    b.input("board_k", "Board conductivity", 0.25, "W/(m·K)", "gypsum board about 0.2-0.3")
-    b.input("gap", "Cavity width (gap between the boards)", 0.05, "m")
-    b.input("eps_room", "Emissivity of the room-side faces", 0.9, "-", "painted board about 0.9")
-    b.input("eps_cav_warm", "Emissivity of the warm cavity face", 0.9, "-", "a foil facing is about 0.05")
-    b.input("eps_cav_cold", "Emissivity of the cold cavity face", 0.9, "-")
+    b.input("part_height", "Partition and cavity height", 2.7, "m",
+            valid=Valid(0.1, 10.0, "at least 0.1 m; above 10 m the room-side faces leave the vertical-plate "
+                        "correlations' range (Ra up to 1e12)"))
+    b.input("part_width", "Partition width", 4.0, "m",
+            valid=Valid(0.0, 1000.0, "a width above 0 (it scales the area only)", low_open=True))
+    b.input("board_t", "Board thickness (each skin)", 0.0125, "m",
+            valid=Valid(0.0, 0.2, "a board above 0 and at most 0.2 m thick", low_open=True))
+    b.input("board_k", "Board conductivity", 0.25, "W/(m·K)", "gypsum board about 0.2-0.3",
+            valid=Valid(0.0, 500.0, "above 0; no board conducts more than about 500 W/(m·K)", low_open=True))
+    b.input("gap", "Cavity width (gap between the boards)", 0.05, "m",
+            valid=Valid(0.0, 0.5, "a gap above 0; the cavity correlations cover height/gap from about 5 "
+                        "(ElSherbiny: aspect 5-110), so at most 0.5 m", low_open=True))
+    b.input("eps_room", "Emissivity of the room-side faces", 0.9, "-", "painted board about 0.9", valid=EMISSIVITY)
+    b.input("eps_cav_warm", "Emissivity of the warm cavity face", 0.9, "-", "a foil facing is about 0.05",
+            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
+    b.input("eps_cav_cold", "Emissivity of the cold cavity face", 0.9, "-",
+            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
     b.input("cav_method", "Cavity correlation", "auto", "", "auto picks the one whose range covers the case",
             choices=CAVITY_METHODS)
     b.section("Inputs", "Single-pass estimate: the guesses of a hand calculation")
-    b.input("g_warm_face", "Guessed warm room-side face temperature", 19.0, "°C")
-    b.input("g_warm_cav", "Guessed warm cavity face temperature", 17.0, "°C")
-    b.input("g_cold_cav", "Guessed cold cavity face temperature", 8.0, "°C")
-    b.input("g_cold_face", "Guessed cold room-side face temperature", 6.0, "°C")
-    b.input("g_prop_t", "Guessed temperature for all air properties", 12.5, "°C", "e.g. the mean air temperature")
+    b.input("g_warm_face", "Guessed warm room-side face temperature", 19.0, "°C", valid=GUESS)
+    b.input("g_warm_cav", "Guessed warm cavity face temperature", 17.0, "°C", valid=GUESS)
+    b.input("g_cold_cav", "Guessed cold cavity face temperature", 8.0, "°C", valid=GUESS)
+    b.input("g_cold_face", "Guessed cold room-side face temperature", 6.0, "°C", valid=GUESS)
+    b.input("g_prop_t", "Guessed temperature for all air properties", 12.5, "°C", "e.g. the mean air temperature",
+            valid=gas_temperature("air"))
 
     # ------------------------------------------------------------------ Calculation: network
     sheet = "Calculation"
     b.section(sheet, "Geometry")
     b.step("area", "Partition area", "=part_height*part_width", "m²")
     b.step("aspect", "Cavity aspect ratio (height / gap)", "=part_height/gap", "-")
-    b.section(sheet, "Converged solution: network branches")
-    b.table(sheet, BRANCH_HEADER, branch_rows(
+    b.section("Tables", "Converged solution: network branches")
+    b.table("Tables", BRANCH_HEADER, branch_rows(
         height="=part_height", area="=area", board_t="=board_t", board_k="=board_k", gap="=gap",
         eps_room="=eps_room", eps_cav_warm="=eps_cav_warm", eps_cav_cold="=eps_cav_cold",
-        method="=cav_method"), name="pc_branches")
-    b.blank(sheet)
-    b.section(sheet, "Converged solution: boundaries")
-    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=warm_t", "=cold_t"), name="pc_bounds")
-    b.blank(sheet)
-    b.section(sheet, "Converged solution: NET_SOLVE")
-    rows = 1 + len(NODES) + 8
-    b.spill(sheet, "=NET_SOLVE(pc_branches, pc_bounds)", rows, 10, name="pc_solution")
-
-    def h_of(branch_index):  # h column of a branch row of the spill
-        return f"INDEX(pc_solution, {1 + len(NODES) + branch_index}, 5)"
-
-    b.blank(sheet)
-    b.section(sheet, "Converged solution: results")
+        method="=cav_method"), name="pc_branches", formats=BRANCH_FORMATS)
+    b.section("Tables", "Converged solution: boundaries")
+    b.table("Tables", BOUNDARY_HEADER, boundary_rows("=warm_t", "=cold_t"), name="pc_bounds",
+            formats=[None, None, "0.0"])
+    b.section("Tables", "Converged solution (one cell per entry; NET_SOLVE gives the same as one table)")
     net = "pc_branches, pc_bounds"
+    picks = b.network_solution("Tables", net, "", NODES,
+                               [(row[0], row[3]) for row in branch_rows(**{k: None for k in BRANCH_ARGS})])
+
+    def h_of(branch):
+        return picks[f"h:{branch}"]
+
+    b.section(sheet, "Converged solution: results (network tables on the sheet Tables)")
     b.step("n_warm_face", "Warm room-side face", f'=NET_TEMP({net}, "warm_face")', "°C")
     b.step("n_warm_cav", "Warm cavity face", f'=NET_TEMP({net}, "warm_cav")', "°C")
     b.step("n_cold_cav", "Cold cavity face", f'=NET_TEMP({net}, "cold_cav")', "°C")
     b.step("n_cold_face", "Cold room-side face", f'=NET_TEMP({net}, "cold_face")', "°C")
+    b.step("n_cold_face_low", "Cold room-side face, all convection at the lowest covering Nu",
+           f'=INDEX(NET_BAND({net}, "cold_face"), 1, 1)', "°C", "correlation spread (NET_BAND)")
+    b.step("n_cold_face_high", "Cold room-side face, all convection at the highest covering Nu",
+           f'=INDEX(NET_BAND({net}, "cold_face"), 1, 2)', "°C")
     b.step("n_q", "Heat flow through the partition", f'=NET_HEAT({net}, "board_warm")', "W")
     b.step("n_u", "Thermal transmittance U (air to air)", "=n_q/(area*(warm_t-cold_t))", "W/(m²·K)")
-    b.step("n_h_warm", "Warm-side convection coefficient", f"={h_of(1)}", "W/(m²·K)")
-    b.step("n_hr_warm", "Warm-side radiation coefficient", f"={h_of(2)}", "W/(m²·K)")
-    b.step("n_h_cav", "Cavity convection coefficient", f"={h_of(4)}", "W/(m²·K)")
-    b.step("n_hr_cav", "Cavity radiation coefficient", f"={h_of(5)}", "W/(m²·K)")
-    b.step("n_h_cold", "Cold-side convection coefficient", f"={h_of(7)}", "W/(m²·K)")
-    b.step("n_hr_cold", "Cold-side radiation coefficient", f"={h_of(8)}", "W/(m²·K)")
-    b.step("n_cav_method", "Cavity correlation used", f"=INDEX(pc_solution, {1 + len(NODES) + 4}, 9)", "")
+    b.step("n_h_warm", "Warm-side convection coefficient", f"={h_of('conv_warm')}", "W/(m²·K)")
+    b.step("n_hr_warm", "Warm-side radiation coefficient", f"={h_of('rad_warm')}", "W/(m²·K)")
+    b.step("n_h_cav", "Cavity convection coefficient", f"={h_of('cav_conv')}", "W/(m²·K)")
+    b.step("n_hr_cav", "Cavity radiation coefficient", f"={h_of('cav_rad')}", "W/(m²·K)")
+    b.step("n_h_cold", "Cold-side convection coefficient", f"={h_of('conv_cold')}", "W/(m²·K)")
+    b.step("n_hr_cold", "Cold-side radiation coefficient", f"={h_of('rad_cold')}", "W/(m²·K)")
+    b.step("n_cav_method", "Cavity correlation used", "=" + picks["method:cav_conv"], "")
     b.step("n_check", "Network check", f"=NET_CHECK({net})", "")
 
     # ------------------------------------------------------------------ Calculation: single pass
     b.section(sheet, "Single pass: air properties at the one guessed temperature")
-    b.step("sp_k", "Conductivity", "=AIR_CONDUCTIVITY(g_prop_t)", "W/(m·K)", number_format="0.00000")
+    b.step("sp_k", "Conductivity", "=AIR_CONDUCTIVITY(g_prop_t)", "W/(m·K)", number_format="0.0000")
     b.step("sp_nu", "Kinematic viscosity", "=AIR_KINVISC(g_prop_t)", "m²/s", number_format="0.000E+00")
     b.step("sp_alpha", "Thermal diffusivity", "=AIR_DIFFUSIVITY(g_prop_t)", "m²/s", number_format="0.000E+00")
-    b.step("sp_beta", "Expansion coefficient", "=AIR_EXPANSION(g_prop_t)", "1/K", number_format="0.00000")
+    b.step("sp_beta", "Expansion coefficient", "=AIR_EXPANSION(g_prop_t)", "1/K")
     b.step("sp_pr", "Prandtl number", "=AIR_PRANDTL(g_prop_t)", "-", number_format="0.0000")
-    b.step("sp_g", "Standard gravity", f"={STANDARD_GRAVITY}", "m/s²", number_format="0.00000")
+    b.step("sp_g", "Standard gravity", f"={STANDARD_GRAVITY}", "m/s²")
     b.step("sp_group", "g beta / (nu alpha)", "=sp_g*sp_beta/(sp_nu*sp_alpha)", "1/(K·m³)",
            number_format="0.000E+00")
     b.section(sheet, "Single pass: each coefficient once, at the guessed temperatures")
@@ -145,13 +163,13 @@ def build(b) -> None:
 
     b.blank(sheet)
     b.section(sheet, "Side by side (chart data)")
-    first, _, last, _ = b.table(sheet, ["position", "converged network", "single pass"], [
+    first, _, last, _ = b.table(sheet, ["position", "converged network °C", "single pass °C"], [
         ["warm air", "=warm_t", "=warm_t"],
         ["warm face", "=n_warm_face", "=sp_warm_face"],
         ["warm cavity face", "=n_warm_cav", "=sp_warm_cav"],
         ["cold cavity face", "=n_cold_cav", "=sp_cold_cav"],
         ["cold face", "=n_cold_face", "=sp_cold_face"],
-        ["cold air", "=cold_t", "=cold_t"]], col=1)
+        ["cold air", "=cold_t", "=cold_t"]], col=1, formats=[None, "0.0", "0.0"])
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Converged network")
@@ -159,6 +177,9 @@ def build(b) -> None:
     b.result("res_q", "Heat flow through the partition", "=n_q", "W")
     b.result("res_warm_face", "Warm room-side face temperature", "=n_warm_face", "°C")
     b.result("res_cold_face", "Cold room-side face temperature", "=n_cold_face", "°C")
+    b.result("res_cold_face_low", "Cold room-side face, correlation spread: lowest", "=n_cold_face_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_cold_face_high", "Cold room-side face, correlation spread: highest", "=n_cold_face_high", "°C")
     b.result("res_h_cav", "Cavity convection coefficient", "=n_h_cav", "W/(m²·K)")
     b.result("res_hr_cav", "Cavity radiation coefficient", "=n_hr_cav", "W/(m²·K)")
     b.section("Results", "Single pass (hand estimate, no iteration)")
@@ -175,18 +196,16 @@ def build(b) -> None:
     b.result("res_net_check", "Network check", "=n_check", text=True)
     b.result("res_sp_note", "Single-pass cavity correlation",
              '=NU_NOTE("cavity", sp_ra_cav, sp_pr, "", 90, aspect, cav_method)', text=True)
-    b.result(None, "Caution", '="Cold faces can collect condensation and grow mould. Check by a hygrothermal '
-             'assessment under local codes and licensed practice (see Notes)."', text=True)
-    b.blank("Results")
-    row = b.sheets["Results"].row
-    categories = f"=Calculation!$B${first + 1}:$B${last + 1}"
+    b.caution("Results", "Caution: cold faces can collect condensation and grow mould. Check by a hygrothermal "
+                         "assessment under local codes and licensed practice (see Notes).")
+    categories = "=" + b.column(sheet, first, last, 1)
     b.chart("Results", "line", "Temperature through the partition",
             [{"name": "converged network", "categories": categories,
-              "values": f"=Calculation!$C${first + 1}:$C${last + 1}", "marker": {"type": "circle"}},
+              "values": "=" + b.column(sheet, first, last, 2), "marker": {"type": "circle"}},
              {"name": "single pass", "categories": categories,
-              "values": f"=Calculation!$D${first + 1}:$D${last + 1}", "marker": {"type": "square"},
+              "values": "=" + b.column(sheet, first, last, 3), "marker": {"type": "square"},
               "line": {"dash_type": "dash"}}],
-            "", "temperature °C", f"A{row + 1}")
+            "", "temperature °C")
 
     # ------------------------------------------------------------------ Notes
     b.section("Notes", "Method")
@@ -202,6 +221,7 @@ def build(b) -> None:
                 "resistances in series and stop. The Results sheet gives its error against the converged "
                 "network; the temperatures it implies differ from the guesses, which is the sign that a "
                 "second pass was needed.")
+    b.spread_note("cold room-side face temperature, converged network")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Room-side faces, Churchill-Chu", "vplate", "churchill-chu")
     b.cite("Cavity, ElSherbiny-Raithby-Hollands (auto's choice for tall vertical air layers)", "cavity", "elsherbiny")
@@ -223,6 +243,6 @@ def build(b) -> None:
                 "licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 1, "Partition with a closed air cavity",
+TEMPLATE = Template(NAME, 3, "Partition with a closed air cavity",
                     "Heat flow through a partition with a closed air cavity between two air spaces: "
                     "converged network against the single-pass hand estimate.", build)

@@ -4,20 +4,24 @@ Internal dissipation heats the internal air; the air gives it to the inner wall 
 convection (vertical plates for the sides, a downward-facing plate for the underside of the top),
 the walls conduct it, and the outer faces lose it by natural convection and radiation - the sides
 to the ambient, the top to the sky.  Absorbed sun enters at the outer faces.  The network is
-solved by NET_SOLVE; the Results sheet compares the internal air temperature with the user's
+solved by the network cell functions; the Results sheet compares the internal air temperature with the user's
 limit.
 """
 
 from __future__ import annotations
 
 
-from ..templatebook import Template
+from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, Valid,
+                            altitude)
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
 
 BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
 BOUNDARY_HEADER = ["node", "T or Q", "value"]
+# p1..p5 hold numbers or a facing word; the method column names a correlation
+BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
+BRANCH_ARGS = ("height", "side_area", "top_area", "top_length", "wall_thickness", "wall_k", "emissivity", "method")
 # Order of NET_SOLVE's node rows (first appearance in the branch table, as the engine lists them).
 NODES = ("side_in", "air_in", "top_in", "side_out", "top_out", "ambient", "sky")
 
@@ -46,28 +50,41 @@ def boundary_rows(*, dissipation, sun_side, sun_top, ambient, sky):
     ]
 
 
+SIZE = Valid(0.0, 6.0, "above 0; faces taller than about 6 m leave the vertical-plate correlations' range "
+             "(Ra up to 1e12)", low_open=True)
+SUN = Valid(0.0, 1400.0, "sun is a heat gain, not negative, and the solar constant (about 1361 W/m²) bounds it")
+
+
 def build(b) -> None:
     # ------------------------------------------------------------------ Inputs
     b.section("Inputs", "Cabinet")
-    b.input("cab_height", "Cabinet height (outside)", 1.6, "m", "height of the vertical side walls")
-    b.input("cab_width", "Cabinet width (outside)", 0.8, "m")
-    b.input("cab_depth", "Cabinet depth (outside)", 0.6, "m")
-    b.input("wall_thickness", "Wall thickness", 0.002, "m", "sheet steel or aluminium skin")
-    b.input("wall_k", "Wall conductivity", 45.0, "W/(m·K)", "steel about 45-50, aluminium alloy about 150-200")
-    b.input("emissivity", "Outer surface emissivity", 0.9, "-", "painted surfaces about 0.9 (long-wave)")
+    b.input("cab_height", "Cabinet height (outside)", 1.6, "m", "height of the vertical side walls", valid=SIZE)
+    b.input("cab_width", "Cabinet width (outside)", 0.8, "m", valid=SIZE)
+    b.input("cab_depth", "Cabinet depth (outside)", 0.6, "m", valid=SIZE)
+    b.input("wall_thickness", "Wall thickness", 0.002, "m", "sheet steel or aluminium skin",
+            valid=Valid(0.0, 0.1, "a skin above 0 and at most 0.1 m thick (thicker walls are not plane skins)",
+                        low_open=True))
+    b.input("wall_k", "Wall conductivity", 45.0, "W/(m·K)", "steel about 45-50, aluminium alloy about 150-200",
+            valid=Valid(0.0, 500.0, "above 0; no wall material conducts more than about 500 W/(m·K)",
+                        low_open=True))
+    b.input("emissivity", "Outer surface emissivity", 0.9, "-", "painted surfaces about 0.9 (long-wave)",
+            valid=EMISSIVITY)
     b.section("Inputs", "Heat")
-    b.input("dissipation", "Internal dissipation", 150.0, "W", "all equipment losses inside the cabinet")
-    b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4")
-    b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case")
+    b.input("dissipation", "Internal dissipation", 150.0, "W", "all equipment losses inside the cabinet",
+            valid=Valid(0.0, 20000.0, "a dissipation is not negative; above 20 kW a sealed cabinet cannot lose it "
+                        "by natural convection"))
+    b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4",
+            valid=Valid(0.0, 1.0, "an absorptance is a fraction of the incident sun, 0 to 1"))
+    b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case", valid=SUN)
     b.input("sun_sides", "Solar irradiance on the sides (mean over all four)", 120.0, "W/m²",
-            "0 for a shaded or night case")
+            "0 for a shaded or night case", valid=SUN)
     b.section("Inputs", "Surroundings and limit")
-    b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site")
+    b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site", valid=OUTDOOR_AIR)
     b.input("sky_t", "Sky temperature (seen by the top)", 15.0, "°C",
-            "effective long-wave sky temperature, below the air temperature")
-    b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)")
+            "effective long-wave sky temperature, below the air temperature", valid=SKY_TEMPERATURE)
+    b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)", valid=altitude())
     b.input("max_internal_t", "Maximum allowed internal air temperature", 55.0, "°C",
-            "from the equipment maker's rating")
+            "from the equipment maker's rating", valid=LIMIT_TEMPERATURE)
     b.input("vplate_method", "Vertical-face correlation", "auto", "", "auto picks Churchill-Chu in its range",
             choices=VPLATE_METHODS)
 
@@ -77,33 +94,28 @@ def build(b) -> None:
     b.step("top_area", "Area of the top", "=cab_width*cab_depth", "m²")
     b.step("top_length", "Characteristic length of the top (area/perimeter)",
            "=top_area/(2*(cab_width+cab_depth))", "m")
-    b.step("air_pressure", "Air pressure at the site", "=ALTITUDE_PRESSURE(altitude)", "Pa",
-           number_format="0")
+    b.step("air_pressure", "Air pressure at the site", "=ALTITUDE_PRESSURE(altitude)", "Pa")
     b.section("Calculation", "Heat inputs")
     b.step("sun_top_w", "Absorbed sun on the top", "=absorptance*sun_top*top_area", "W")
     b.step("sun_sides_w", "Absorbed sun on the sides", "=absorptance*sun_sides*side_area", "W")
     b.step("heat_in", "Total heat input (dissipation + sun)", "=dissipation+sun_top_w+sun_sides_w", "W")
 
-    b.section("Calculation", "Thermal network: branches (from = surface, to = fluid for convection)")
-    b.table("Calculation", BRANCH_HEADER, branch_rows(
+    # the network's tables live on the Tables sheet; the steps below pick from the solution
+    b.section("Tables", "Thermal network: branches (from = surface, to = fluid for convection)")
+    b.table("Tables", BRANCH_HEADER, branch_rows(
         height="=cab_height", side_area="=side_area", top_area="=top_area", top_length="=top_length",
         wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity",
-        method="=vplate_method"), name="cab_branches")
-    b.blank("Calculation")
-    b.section("Calculation", "Thermal network: boundaries (T fixes °C, Q adds W)")
-    b.table("Calculation", BOUNDARY_HEADER, boundary_rows(
+        method="=vplate_method"), name="cab_branches", formats=BRANCH_FORMATS)
+    b.section("Tables", "Thermal network: boundaries (T fixes °C, Q adds W)")
+    b.table("Tables", BOUNDARY_HEADER, boundary_rows(
         dissipation="=dissipation", sun_side="=sun_sides_w", sun_top="=sun_top_w",
-        ambient="=ambient_t", sky="=sky_t"), name="cab_bounds")
-    b.blank("Calculation")
-    b.section("Calculation", "Thermal network: solution (NET_SOLVE)")
-    solve_rows = 1 + len(NODES) + 8
-    first, _, _, _ = b.spill("Calculation", '=NET_SOLVE(cab_branches, cab_bounds, "air", air_pressure)',
-                             solve_rows, 10, name="cab_solution")
-    b.blank("Calculation")
-
-    net = 'cab_branches, cab_bounds, "air", air_pressure'
+        ambient="=ambient_t", sky="=sky_t"), name="cab_bounds", formats=[None, None, "0.0"])
+    b.section("Tables", "Thermal network: solution (one cell per entry; NET_SOLVE gives the same as one table)")
     pair, fluid = "cab_branches, cab_bounds", '"air", air_pressure'
-    b.section("Calculation", "Temperatures and heat flows picked from the solved network")
+    picks = b.network_solution("Tables", pair, fluid, NODES,
+                               [(row[0], row[3]) for row in branch_rows(**{k: None for k in BRANCH_ARGS})])
+
+    b.section("Calculation", "Temperatures and heat flows picked from the solved network (sheet Tables)")
     b.step("t_air", "Internal air temperature", f'=NET_TEMP({pair}, "air_in", {fluid})', "°C")
     b.step("t_side_in", "Side wall, inner face", f'=NET_TEMP({pair}, "side_in", {fluid})', "°C")
     b.step("t_side_out", "Side wall, outer face", f'=NET_TEMP({pair}, "side_out", {fluid})', "°C")
@@ -117,6 +129,11 @@ def build(b) -> None:
            "=q_conv_sides+q_rad_sides+q_conv_top+q_rad_top", "W")
     b.step("balance", "Energy balance: heat input - heat loss", "=heat_in-heat_out", "W", "should be ~0",
            number_format="0.0E+00")
+    b.section("Calculation", "Correlation spread of the internal air temperature (NET_BAND)")
+    b.step("t_air_low", "Internal air, all convection at the lowest covering Nu",
+           f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 1)', "°C")
+    b.step("t_air_high", "Internal air, all convection at the highest covering Nu",
+           f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 2)', "°C")
     b.section("Calculation", "Coefficients re-computed from the solved temperatures (for the checker)")
     b.step("h_in_sides", "Inside convection, side walls",
            '=H_VPLATE(t_side_in, t_air, cab_height, "air", air_pressure, vplate_method)', "W/(m²·K)")
@@ -136,18 +153,26 @@ def build(b) -> None:
     b.blank("Calculation")
     b.section("Calculation", "Temperature profile (chart data)")
     profile_first, _, profile_last, _ = b.table(
-        "Calculation", ["position", "through a side wall", "through the top"],
+        "Calculation", ["position", "through a side wall °C", "through the top °C"],
         [["internal air", "=t_air", "=t_air"],
          ["inner face", "=t_side_in", "=t_top_in"],
          ["outer face", "=t_side_out", "=t_top_out"],
-         ["surroundings (ambient / sky)", "=ambient_t", "=sky_t"]], col=1)
+         ["surroundings (ambient / sky)", "=ambient_t", "=sky_t"]], col=1, formats=[None, "0.0", "0.0"])
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Cabinet temperatures")
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C")
     b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check", '=IF(t_air<=max_internal_t, "OK", "EXCEEDS LIMIT")', text=True)
+    b.result("res_check", "Limit check",
+             f'=IF(ISNUMBER(t_air), IF(t_air<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
+             fails=("EXCEEDS LIMIT",))
+    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
+    b.result("res_check_high", "Limit check at the top of the spread",
+             f'=IF(ISNUMBER(t_air_high), IF(t_air_high<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")',
+             text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")
@@ -158,29 +183,25 @@ def build(b) -> None:
     b.result("res_conv", "Convection to ambient (sides + top)", "=q_conv_sides+q_conv_top", "W")
     b.result("res_rad_ambient", "Radiation from the sides to ambient", "=q_rad_sides", "W")
     b.result("res_rad_sky", "Radiation from the top to the sky", "=q_rad_top", "W")
-    b.result("res_balance", "Energy balance residual (input - loss)", "=balance", "W")
+    b.result("res_balance", "Energy balance residual (input - loss)", "=balance", "W", number_format="0.0E+00")
     b.section("Results", "Validity")
-    b.result("res_net_check", "Network check", f"=NET_CHECK({net})", text=True)
-    b.result("res_method_sides", "Correlation used, outer side walls",
-             f"=INDEX(cab_solution, {1 + len(NODES) + 5}, 9)", text=True)
-    b.result("res_method_top", "Correlation used, outer top",
-             f"=INDEX(cab_solution, {1 + len(NODES) + 7}, 9)", text=True)
-    b.blank("Results")
-    b.result(None, "Caution", '="Mean internal air only: hot spots and components run hotter. Check against the '
-             'equipment and enclosure makers\' ratings, applicable standards and licensed practice (see Notes)."',
+    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
+    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
              text=True)
-    b.blank("Results")
-    results_row = b.sheets["Results"].row
+    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+    b.caution("Results", "Caution: mean internal air only - hot spots and components run hotter. Check against "
+                         "the equipment and enclosure makers' ratings, applicable standards and licensed practice "
+                         "(see Notes).")
     b.chart("Results", "line", "Temperature through the walls",
             [{"name": "through a side wall",
-              "categories": f"=Calculation!$B${profile_first + 1}:$B${profile_last + 1}",
-              "values": f"=Calculation!$C${profile_first + 1}:$C${profile_last + 1}",
+              "categories": "=" + b.column("Calculation", profile_first, profile_last, 1),
+              "values": "=" + b.column("Calculation", profile_first, profile_last, 2),
               "marker": {"type": "circle"}},
              {"name": "through the top",
-              "categories": f"=Calculation!$B${profile_first + 1}:$B${profile_last + 1}",
-              "values": f"=Calculation!$D${profile_first + 1}:$D${profile_last + 1}",
+              "categories": "=" + b.column("Calculation", profile_first, profile_last, 1),
+              "values": "=" + b.column("Calculation", profile_first, profile_last, 3),
               "marker": {"type": "square"}}],
-            "", "temperature °C", f"A{results_row + 1}")
+            "", "temperature °C")
 
     # ------------------------------------------------------------------ Notes
     b.section("Notes", "Method")
@@ -197,6 +218,7 @@ def build(b) -> None:
                 "that difference, so no coefficient is guessed. The Calculation sheet re-computes the "
                 "coefficients with H_VPLATE, H_HPLATE and H_RAD from the solved temperatures so a checker "
                 "can follow each one.")
+    b.spread_note("internal air temperature")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
     b.cite("Vertical faces, Churchill-Chu laminar form (selectable)", "vplate", "churchill-chu-laminar")
@@ -225,6 +247,6 @@ def build(b) -> None:
                 "standards and licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 1, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 3, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit.", build)

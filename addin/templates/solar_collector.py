@@ -11,10 +11,16 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import Template, TemplateBook
+from ..templatebook import (OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, TemplateBook, Valid,
+                            gas_pressure)
 
 SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
+BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
+GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
+            "cavity correlations (aspect 12 and up for Hollands)", low_open=True)
+COVER_EMITTANCE = Valid(0.01, 1.0, "an emittance is at most 1, and at least 0.01 (the exchange factor "
+                        "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 
 # Our own scenario: a selective absorber at 75 °C under one cover on a 35° roof, mild breeze.
 DEFAULTS = dict(t_absorber=75.0, t_ambient=12.0, t_sky=0.0, wind_speed=2.5, tilt=35.0, covers=1,
@@ -41,37 +47,45 @@ def network_rows(covers: int) -> list[list]:
 def build(b: TemplateBook) -> None:
     d = DEFAULTS
     b.section("Inputs", "Operating conditions")
-    b.input("t_absorber", "Mean absorber plate temperature", d["t_absorber"], "°C")
-    b.input("t_ambient", "Ambient air temperature", d["t_ambient"], "°C")
-    b.input("t_sky", "Effective sky temperature", d["t_sky"], "°C", "clear night sky: 10-30 K below the air")
-    b.input("wind_speed", "Wind speed over the cover", d["wind_speed"], "m/s")
+    b.input("t_absorber", "Mean absorber plate temperature", d["t_absorber"], "°C",
+            valid=Valid(-60.0, 300.0, "from outdoor air temperatures up to 300 °C, beyond any stagnating "
+                        "flat-plate absorber"))
+    b.input("t_ambient", "Ambient air temperature", d["t_ambient"], "°C", valid=OUTDOOR_AIR)
+    b.input("t_sky", "Effective sky temperature", d["t_sky"], "°C", "clear night sky: 10-30 K below the air",
+            valid=SKY_TEMPERATURE)
+    b.input("wind_speed", "Wind speed over the cover", d["wind_speed"], "m/s",
+            valid=Valid(0.0, 15.0, "not negative; the linear wind coefficient is not used beyond about 15 m/s"))
     b.section("Inputs", "Collector")
-    b.input("tilt", "Collector slope from the horizontal", d["tilt"], "°", "0 flat ... 90 vertical")
+    b.input("tilt", "Collector slope from the horizontal", d["tilt"], "°", "0 flat ... 90 vertical",
+            valid=Valid(0.0, 90.0, "a collector slope lies from 0 (flat) to 90° (vertical)"))
     b.input("covers", "Number of glass covers", d["covers"], "-", choices=["1", "2"])
     b.input("eps_absorber", "Absorber emittance (long-wave)", d["eps_absorber"], "-",
-            "selective 0.05-0.15, black paint 0.9-0.95")
-    b.input("eps_cover", "Cover emittance (glass)", d["eps_cover"], "-", "glass about 0.88")
-    b.input("gap_1", "Gap absorber - cover 1", d["gap_1"], "m")
-    b.input("gap_2", "Gap cover 1 - cover 2 (two covers only)", d["gap_2"], "m", "not used with one cover")
+            "selective 0.05-0.15, black paint 0.9-0.95", valid=COVER_EMITTANCE)
+    b.input("eps_cover", "Cover emittance (glass)", d["eps_cover"], "-", "glass about 0.88", valid=COVER_EMITTANCE)
+    b.input("gap_1", "Gap absorber - cover 1", d["gap_1"], "m", valid=GAP)
+    b.input("gap_2", "Gap cover 1 - cover 2 (two covers only)", d["gap_2"], "m", "not used with one cover",
+            valid=GAP)
     b.input("collector_length", "Collector length along the slope", d["collector_length"], "m",
-            "cavity aspect ratio")
-    b.input("pressure", "Air pressure", d["pressure"], "Pa", "101325 at sea level")
+            "cavity aspect ratio", valid=Valid(0.2, 10.0, "from 0.2 to 10 m: a flat-plate collector's length"))
+    b.input("pressure", "Air pressure", d["pressure"], "Pa", "101325 at sea level", valid=gas_pressure())
 
     b.section("Calculation", "Outside coefficients")
     b.step("h_wind", "Wind coefficient h_w = 2.8 + 3.0 V", "=2.8+3.0*wind_speed", "W/(m²·K)",
            "Watmuff, Charters & Proctor (1977), as quoted by Duffie & Beckman (from memory)")
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
-    b.section("Calculation", "Network per m² of absorber, one cover (cover temperatures unknown)")
-    b.table("Calculation", BRANCH_HEADER, network_rows(1), name="col_one_cover")
-    b.section("Calculation", "The same with two covers (the Number of glass covers picks the table)")
-    b.table("Calculation", BRANCH_HEADER, network_rows(2), name="col_two_covers")
-    b.section("Calculation", "Boundaries: this sky, and the sky at the air temperature (Klein's assumption)")
-    b.table("Calculation", ["node", "T or Q", "value"],
+    b.section("Tables", "Network per m² of absorber, one cover (cover temperatures unknown)")
+    b.table("Tables", BRANCH_HEADER, network_rows(1), name="col_one_cover", formats=BRANCH_FORMATS)
+    b.section("Tables", "The same with two covers (the Number of glass covers picks the table)")
+    b.table("Tables", BRANCH_HEADER, network_rows(2), name="col_two_covers", formats=BRANCH_FORMATS)
+    b.section("Tables", "Boundaries: this sky, and the sky at the air temperature (Klein's assumption)")
+    b.table("Tables", ["node", "T or Q", "value"],
             [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"], ["sky", "T", "=t_sky"]],
-            name="col_bounds")
-    b.table("Calculation", ["node", "T or Q", "value"],
+            name="col_bounds", formats=[None, None, "0.0"])
+    b.blank("Tables")
+    b.table("Tables", ["node", "T or Q", "value"],
             [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"], ["sky", "T", "=t_ambient"]],
-            name="col_bounds_klein")
+            name="col_bounds_klein", formats=[None, None, "0.0"])
+    b.section("Calculation", "Network solution (network tables on the sheet Tables)")
     air = '"air",pressure'
     branches = "CHOOSE(covers,col_one_cover,col_two_covers)"
     b.step("t_cover_1", "Cover 1 temperature", f'=NET_TEMP({branches},col_bounds,"cover-1",{air})', "°C")
@@ -89,6 +103,16 @@ def build(b: TemplateBook) -> None:
     b.step("h_gap_1", "Gap 1 convection coefficient at the solved cover temperature",
            '=H_CAVITY(t_absorber,t_cover_1,gap_1,collector_length,tilt,"air",pressure,"auto")', "W/(m²·K)",
            "check: h ΔT = convection absorber - cover 1")
+    aspect = "collector_length/gap_1"
+    b.step("nu_gap_1", "Gap 1 Nusselt number (auto)", f'=NU_CAVITY(ra_1,pr_1,{aspect},tilt,"auto")', "-")
+    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)",
+           f'=INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,3)', number_format="0")
+    b.step("h_gap_low", "Gap 1 coefficient at the lowest covering Nu",
+           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,1)/nu_gap_1,'
+           '"no correlation covers the case")', "W/(m²·K)", "h scales with Nu at fixed properties")
+    b.step("h_gap_high", "Gap 1 coefficient at the highest covering Nu",
+           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,2)/nu_gap_1,'
+           '"no correlation covers the case")', "W/(m²·K)")
     b.step("u_top_sky_air", "U_t with the sky at the air temperature (Klein's assumption)",
            f'=(NET_HEAT({branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({branches},col_bounds_klein,'
            f'"rad-1",{air}))/(t_absorber-t_ambient)', "W/(m²·K)", "same branches, sky node at t_ambient")
@@ -109,9 +133,14 @@ def build(b: TemplateBook) -> None:
 
     b.section("Results", "Top loss")
     b.result("top_loss_u", "Top-loss coefficient U_t (network, this sky)", "=u_top", "W/(m²·K)")
+    b.result("gap_h_low", "Gap 1 convection, correlation spread: lowest", "=h_gap_low", "W/(m²·K)",
+             "at the solved cover temperature (see Notes)")
+    b.result("gap_h_nominal", "Gap 1 convection, the network's correlation", "=h_gap_1", "W/(m²·K)")
+    b.result("gap_h_high", "Gap 1 convection, correlation spread: highest", "=h_gap_high", "W/(m²·K)")
     b.result("top_loss_q", "Top loss per m² of absorber", "=q_top", "W/m²")
     b.result("cover_1_t", "Cover 1 temperature", "=t_cover_1", "°C")
-    b.result("cover_2_t", "Cover 2 temperature", '=IF(covers=2,t_cover_top,"no second cover")', "°C", text=True)
+    b.result("cover_2_t", "Cover 2 temperature", '=IF(covers=2,TEXT(t_cover_top,"0.0")&" °C","no second cover")',
+             text=True)
     b.result("sky_share", "Share of the outside loss radiated to the sky", "=100*q_sky/(q_wind+q_sky)", "%")
     b.section("Results", "Beside Klein's empirical equation (sky at the air temperature)")
     b.result("top_loss_u_klein_case", "U_t, network with the sky at the air temperature", "=u_top_sky_air",
@@ -154,6 +183,7 @@ def build(b: TemplateBook) -> None:
                 "temperature; stated accuracy about +-0.3 W/(m²·K) (from memory).")
     used = sorted({str(stillair.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
                    for t in (0.0, 30.0, 45.0, 60.0)})
+    b.spread_note("gap 1 convection coefficient")
     b.paragraph("Cavity correlations the automatic choice uses for tilted collector gaps:")
     for method in used:
         c = cav[("cavity", method)]
@@ -167,7 +197,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="solar-collector", version=1, title="Flat-plate collector top loss",
+    name="solar-collector", version=3, title="Flat-plate collector top loss",
     summary="Top-loss coefficient of a flat-plate solar collector with one or two covers, beside Klein's "
             "empirical equation.",
     build=build)

@@ -1,0 +1,192 @@
+"""Thermal networks: nodes joined by conduction, convection, cavity and radiation branches.
+
+A network is two tables, exactly as a spreadsheet holds them:
+
+* branches, one row per branch:  name | from | to | kind | p1 | p2 | p3 | p4 | p5 | method
+* boundaries, one row per condition:  node | T or Q | value
+
+A ``T`` row fixes a node's temperature (°C); a ``Q`` row adds a heat input (W) at a node whose
+temperature is solved (several ``Q`` rows at one node add up).  Every node without a fixed
+temperature obeys its energy balance
+
+    Q_i + sum over branches into i of q_b - sum over branches out of i of q_b = 0,
+
+with q_b the branch's heat flow, positive from ``from`` to ``to``.  For the convection kinds
+``from`` is the solid surface and ``to`` the fluid; for a cavity ``from`` is the surface on the
+layer's underside (see :func:`stillair.convection.cavity_convection`).  The kinds, their columns
+and heat flows are data (:data:`BRANCH_KINDS`, :func:`kind_reference`); the convection kinds
+are the correlation registry's geometries.
+
+The package, by concern:
+
+* :mod:`.reading`, :mod:`.tables`: the cells and the tables, with every check;
+* :mod:`.kinds`: the branch kinds (columns, heat flow, derivatives);
+* :mod:`.model`: the compiled network and its evaluation;
+* :mod:`.solver`: Newton with scaled residuals, scipy fallbacks, the acceptance test;
+* :mod:`.results`: what the user reads; :mod:`.band`: the correlation band.
+
+Every evaluation re-computes each convection branch's gas properties at its own film
+temperature (or at ``property_temperature``) and its correlation at its own temperature
+difference; horizontal and tilted plates take hot-up/hot-down/cold-up/cold-down from the sign
+of that difference.  At a zero difference a branch keeps its correlation's finite limit.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from collections import OrderedDict
+from types import MappingProxyType
+
+import numpy as np
+
+from ..validity import ABSOLUTE_ZERO_C, InputError
+from .band import solve_band
+from .errors import FUNCTION, NetworkConvergenceError, NetworkError
+from .kinds import BRANCH_KINDS, kind_reference
+from .model import compile_network
+from .reading import gas_key
+from .results import BranchResult, NetworkResult, build_result
+from .solver import Solver
+from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
+
+__all__ = [
+    "NetworkError",
+    "NetworkConvergenceError",
+    "NetworkResult",
+    "BranchResult",
+    "BRANCH_KINDS",
+    "BRANCH_COLUMNS",
+    "BOUNDARY_COLUMNS",
+    "kind_reference",
+    "solve_network",
+    "clear_network_cache",
+]
+
+DEFAULT_PRESSURE = 101325.0
+
+_CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
+_RAW_CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
+_CACHE_SIZE = 256
+
+
+def clear_network_cache() -> None:
+    """Forget every cached network solution."""
+    _CACHE.clear()
+    _RAW_CACHE.clear()
+
+
+def solve_network(branches, boundaries, gas="air", pressure=DEFAULT_PRESSURE, *,
+                  property_temperature=None, ideal_expansion=False, use_cache=True,
+                  band=False) -> NetworkResult:
+    """Solve a thermal network given as the two sheet tables (see the module docstring).
+
+    ``branches``: rows ``name | from | to | kind | p1 | p2 | p3 | p4 | p5 | method``;
+    ``boundaries``: rows ``node | T or Q | value``.  Rows are lists of values; blank cells are
+    None or "" and short rows are padded; blank rows and a leading header row are skipped.
+    ``gas`` and ``pressure`` (Pa) apply to every convection branch (a cavity may name its own
+    gas in p5).  ``property_temperature`` (°C) evaluates every gas property at that one
+    temperature instead of each branch's film temperature; ``ideal_expansion`` uses
+    beta = 1/T.  Radiation stays the exact fourth-power exchange in every case.
+
+    ``band=True`` also solves the network with every convection branch at the lowest and at the
+    highest Nu of the correlations that cover it (see :mod:`stillair.network.band`):
+    ``result.band[node]`` is then (low, high) in °C, the spread of the published correlations,
+    not a confidence interval.
+
+    Returns an immutable :class:`NetworkResult`; identical calls return the cached result.
+    Raises :class:`NetworkError` (an :class:`~stillair.validity.InputError`) naming the table,
+    row and column of a bad input, and :class:`NetworkConvergenceError` when the balances
+    cannot be closed.
+
+    >>> result = solve_network([["wall", "in", "out", "resistance", 0.5]],
+    ...                        [["in", "Q", 10.0], ["out", "T", 0.0]])
+    >>> result.temperatures["in"], result.heat["wall"]
+    (5.0, 10.0)
+    """
+    band = bool(band)
+    raw_key = _raw_key(branches, boundaries, gas, pressure, property_temperature, ideal_expansion, band)
+    if use_cache and raw_key is not None and raw_key in _RAW_CACHE:
+        return _RAW_CACHE[raw_key]
+    parsed_branches = parse_branches(branches)
+    parsed_boundaries = parse_boundaries(boundaries)
+    if not isinstance(gas, str) or not gas.strip():
+        raise InputError(FUNCTION, "gas", gas, "a gas name")
+    pressure = _checked_option("pressure", pressure, "Pa", positive=True)
+    if property_temperature is not None:
+        property_temperature = _checked_option("property_temperature", property_temperature, "°C")
+        if property_temperature <= ABSOLUTE_ZERO_C:
+            raise InputError(FUNCTION, "property_temperature", property_temperature, "above -273.15 °C")
+    options = dict(gas=gas_key(gas), pressure=pressure, property_temperature=property_temperature,
+                   ideal_expansion=bool(ideal_expansion))
+    key = (parsed_branches, parsed_boundaries, *options.values())
+    result = _solved(key + (band,), use_cache)
+    if result is None:
+        result = _solved(key + (False,), use_cache)
+        if result is None:
+            net = compile_network(parsed_branches, parsed_boundaries, **options)
+            solver = Solver(net)
+            state, x, fine, how = solver.solve()
+            result = _finish(net, solver, state, x, fine, how)
+            if use_cache:
+                _remember(_CACHE, key + (False,), result)
+        if band:
+            low, high = solve_band(parsed_branches, parsed_boundaries, options, result, _finish)
+            result = dataclasses.replace(
+                result, band_solutions=(low, high),
+                band=MappingProxyType({node: (min(low.temperatures[node], high.temperatures[node]),
+                                              max(low.temperatures[node], high.temperatures[node]))
+                                       for node in result.temperatures}))
+            if use_cache:
+                _remember(_CACHE, key + (True,), result)
+    if use_cache:
+        _remember(_RAW_CACHE, raw_key, result)
+    return result
+
+
+def _finish(net, solver, state, x, fine, how, strict=True) -> NetworkResult:
+    evaluation, residual = state
+    t, t_fine = solver.temperatures(x, fine)
+    return build_result(net, t + t_fine, evaluation, residual, solver.tolerances(evaluation),
+                        solver.iterations, how, strict)
+
+
+def _solved(key, use_cache):
+    if use_cache and key in _CACHE:
+        _CACHE.move_to_end(key)
+        return _CACHE[key]
+    return None
+
+
+def _remember(cache, key, result):
+    if key is None:
+        return
+    cache[key] = result
+    cache.move_to_end(key)
+    if len(cache) > _CACHE_SIZE:
+        cache.popitem(last=False)
+
+
+def _raw_key(branches, boundaries, *options):
+    """The tables exactly as given, with each cell's type (True is not 1), or None when they
+    are not plain rows of hashable cells.  Lets a recalculating sheet skip even the parsing."""
+    try:
+        frozen = tuple(tuple(tuple((type(v), v) for v in row) for row in table)
+                       for table in (branches, boundaries))
+        key = (frozen,) + tuple((type(v), v) for v in options)
+        hash(key)
+    except TypeError:
+        return None
+    return key
+
+
+def _checked_option(name, value, unit, positive=False) -> float:
+    if value is None or isinstance(value, (bool, np.bool_, str)):
+        raise InputError(FUNCTION, name, value, f"a number in {unit}")
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        raise InputError(FUNCTION, name, value, f"a number in {unit}") from None
+    if not math.isfinite(number) or (positive and not number > 0):
+        raise InputError(FUNCTION, name, number, f"> 0 {unit}" if positive else "a finite number")
+    return number

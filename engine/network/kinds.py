@@ -1,0 +1,440 @@
+"""Branch kinds: one object per kind of row in the branches table.
+
+A kind knows its parameter columns p1..p5 (label, unit, meaning, check), which node is its
+``from`` node, its heat flow q (positive from ``from`` to ``to``) with the two derivatives
+dq/dT_from and dq/dT_to, and a nominal conductance for the solver's start.  The function
+reference and the README print the table of kinds from :func:`kind_reference`.
+
+The convection kinds are generated from the correlation registry's geometries
+(:data:`stillair.correlations.GEOMETRIES`): the geometry's inputs decide the columns (a tilt
+input adds a tilt column, a slenderness input a diameter column, an aspect input a height
+column, cases a facing column), so a geometry registered there is a branch kind here with no
+further code.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Callable, Mapping
+
+import numpy as np
+from scipy.constants import zero_Celsius
+
+from ..groups import STANDARD_GRAVITY
+from ..correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for, nusselt, NusseltResult
+from ..radiation import SIGMA, exchange_factor
+from .errors import FUNCTION, NetworkError
+from .reading import blank, gas_key, number
+
+__all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind", "BRANCH_KINDS",
+           "kind_reference", "NOMINAL_SURFACE_H", "NOMINAL_CAVITY_NU", "NOMINAL_CONDUCTIVITY"]
+
+NOMINAL_SURFACE_H = 4.0       # W/(m²·K), still air on a surface (common practice), start only
+NOMINAL_CAVITY_NU = 1.5       # a cavity's start: Nu = 1.5 ...
+NOMINAL_CONDUCTIVITY = 0.026  # W/(m·K) ... with air's conductivity near 20 °C (start only)
+_START_NU_ALPHA = 1.5e-5 * 2.1e-5  # m⁴/s², air's kinematic viscosity times diffusivity near 20 °C
+
+
+# --------------------------------------------------------------------------------------------
+# Parameter columns
+
+
+@dataclass(frozen=True)
+class Param:
+    """One parameter column of a kind.
+
+    ``role`` says what a convection kind does with it: "length" (the correlation's length),
+    "area", "tilt" (a correlation input as typed), "layer-tilt" (a cavity's tilt, seen as
+    180 - tilt when the layer is heated from above), "diameter" (slenderness = length/diameter),
+    "height" (aspect = height/length), "facing" (with the sign of the difference, the plate
+    case), "gas".  Linear and radiation kinds leave it blank.
+    """
+
+    label: str
+    unit: str = ""
+    meaning: str = ""
+    check: str = "positive"          # positive | emissivity | angle | facing | gas
+    limits: tuple[float, float] = (0.0, 0.0)
+    optional: bool = False
+    default: object = None
+    blank_means: str = ""
+    role: str = ""
+
+    def describe(self) -> str:
+        """The column as the reference table shows it: "thickness m", "tilt ° from vertical"."""
+        text = " ".join(part for part in (self.label, self.unit, self.meaning and f"({self.meaning})") if part)
+        return text + (f" (blank: {self.blank_means})" if self.blank_means else "")
+
+    def read(self, value, where: str, column: str):
+        column = f"{column} ({self.label})"
+        here = f"{where}, column {column}"
+        if blank(value):
+            if self.optional:
+                return self.default
+            if self.check in ("facing", "gas"):
+                raise NetworkError(FUNCTION, here, None,
+                                   '"up" or "down"' if self.check == "facing" else "a gas name")
+        if self.check == "facing":
+            if not isinstance(value, str) or value.strip().lower() not in ("up", "down"):
+                raise NetworkError(FUNCTION, here, value, '"up" or "down"')
+            return value.strip().lower()
+        if self.check == "gas":
+            if not isinstance(value, str):
+                raise NetworkError(FUNCTION, here, value, "a gas name")
+            return gas_key(value)
+        value = number(value, where, column, self.unit)
+        unit = f" {self.unit}" if self.unit else ""
+        if self.check == "positive" and not value > 0:
+            raise NetworkError(FUNCTION, here, value, f"> 0{unit}")
+        if self.check == "emissivity" and not 0 < value <= 1:
+            raise NetworkError(FUNCTION, here, value, "in (0, 1]")
+        if self.check == "angle" and not self.limits[0] <= value <= self.limits[1]:
+            raise NetworkError(FUNCTION, here, value, f"in [{self.limits[0]:g}, {self.limits[1]:g}]°")
+        return value
+
+
+AREA = Param("area", "m²")
+
+
+# --------------------------------------------------------------------------------------------
+# Kinds
+
+
+@dataclass(frozen=True)
+class BranchKind:
+    """What a row of this kind means.  Subclasses give the heat flow and its derivatives."""
+
+    name: str
+    params: tuple[Param, ...]
+    flow: str                 # the heat flow as a formula, for the reference
+    ends: str                 # which node is "from" (and "to")
+    geometry: str | None = None
+
+    @property
+    def has_correlation(self) -> bool:
+        return self.geometry is not None
+
+    def read_params(self, row_values, where: str) -> tuple:
+        values = []
+        for position in range(5):
+            column = f"p{position + 1}"
+            value = row_values[position]
+            if position >= len(self.params):
+                if not blank(value):
+                    raise NetworkError(FUNCTION, f"{where}, column {column}", value,
+                                       f"blank for kind {self.name} (it uses p1..p{len(self.params)})")
+                continue
+            values.append(self.params[position].read(value, where, column))
+        return tuple(values)
+
+    def read_method(self, value, where: str) -> str:
+        if not blank(value):
+            raise NetworkError(FUNCTION, f"{where}, column method", value,
+                               f"blank for kind {self.name} (it has no correlation)")
+        return ""
+
+    def group_key(self, branch, gas: str) -> tuple:
+        return (self.name,)
+
+    def reference(self) -> dict:
+        """kind, p1..p5 texts, heat flow, from/to: one row of the reference table."""
+        columns = [p.describe() for p in self.params] + [""] * (5 - len(self.params))
+        return {"kind": self.name, **{f"p{k + 1}": text for k, text in enumerate(columns)},
+                "q": self.flow, "from": self.ends}
+
+
+class _Group:
+    """Branches of one kind evaluated in one vectorised call.  ``index``: their positions."""
+
+    needs_properties = False
+
+    def __init__(self, kind: BranchKind, index: np.ndarray, params: list[tuple]):
+        self.kind = kind
+        self.index = index
+        self.params = params
+
+    def column(self, k: int) -> np.ndarray:
+        return np.array([p[k] for p in self.params], dtype=float)
+
+
+# ---- conduction, resistance, film --------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class LinearKind(BranchKind):
+    """q = G (T_from - T_to) with a constant conductance G (W/K)."""
+
+    conductance: Callable[[tuple], float] = field(default=None, compare=False)
+    coefficient: Callable[[tuple], tuple[float, float]] = field(default=None, compare=False)  # (h, area)
+
+    def group(self, index, params, context):
+        return _LinearGroup(self, index, params)
+
+
+class _LinearGroup(_Group):
+    def __init__(self, kind, index, params):
+        super().__init__(kind, index, params)
+        self.g = np.array([kind.conductance(p) for p in params], dtype=float)
+
+    def nominal(self, t1, t2):
+        return self.g
+
+    def flows(self, t1, t2, dt):
+        return self.g * dt, self.g, -self.g
+
+    def records(self, t1, t2, dt, q, detail):
+        for k, p in enumerate(self.params):
+            h, area = self.kind.coefficient(p)
+            yield int(self.index[k]), dict(h=h, R=float(1.0 / self.g[k]), area=area, method=self.kind.name)
+
+
+# ---- radiation ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class RadiationKind(BranchKind):
+    """q = A F sigma (T_from^4 - T_to^4), F the grey exchange factor of the two emissivities."""
+
+    def group(self, index, params, context):
+        return _RadiationGroup(self, index, params)
+
+
+class _RadiationGroup(_Group):
+    def __init__(self, kind, index, params):
+        super().__init__(kind, index, params)
+        self.factor = np.array([float(exchange_factor(p[0], p[1], FUNCTION)) for p in params])
+        self.area = self.column(2)
+        self.af = self.area * self.factor
+
+    def nominal(self, t1, t2):
+        k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
+        return self.af * SIGMA * (k1 + k2) * (k1 * k1 + k2 * k2)
+
+    def flows(self, t1, t2, dt):
+        k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
+        # (k1 - k2) from the exact difference, so a branch between nearly equal temperatures
+        # keeps its digits
+        q = self.af * SIGMA * dt * (k1 + k2) * (k1 * k1 + k2 * k2)
+        return q, 4.0 * self.af * SIGMA * k1 ** 3, -4.0 * self.af * SIGMA * k2 ** 3
+
+    def records(self, t1, t2, dt, q, detail):
+        k1, k2 = t1 + zero_Celsius, t2 + zero_Celsius
+        h = self.factor * SIGMA * (k1 ** 2 + k2 ** 2) * (k1 + k2)   # exact linearised, see radiation.py
+        for k, p in enumerate(self.params):
+            method = "grey parallel surfaces" if p[1] is not None else "grey surface to large surroundings"
+            yield int(self.index[k]), dict(h=float(h[k]), R=float(1.0 / (h[k] * self.area[k])),
+                                           area=float(self.area[k]), method=method)
+
+
+# ---- convection (generated from the correlation registry) --------------------------------
+
+
+@dataclass(frozen=True)
+class ConvectionKind(BranchKind):
+    """q = h(T_from, T_to) A (T_from - T_to), h = Nu k / length from the geometry's correlation
+    with the gas properties at the branch's film temperature."""
+
+    def role(self, role: str) -> int | None:
+        for k, p in enumerate(self.params):
+            if p.role == role:
+                return k
+        return None
+
+    def read_method(self, value, where: str) -> str:
+        if blank(value):
+            return "auto"
+        allowed = ["auto"] + methods_for(self.geometry)
+        if not isinstance(value, str) or value.strip().lower() not in allowed:
+            raise NetworkError(FUNCTION, f"{where}, column method", value,
+                               "blank or one of " + ", ".join(f'"{m}"' for m in allowed))
+        return value.strip().lower()
+
+    def gas_of(self, params: tuple, network_gas: str) -> str:
+        k = self.role("gas")
+        return (params[k] or network_gas) if k is not None else network_gas
+
+    def group_key(self, branch, gas: str) -> tuple:
+        k = self.role("facing")
+        return (self.name, branch.params[k] if k is not None else None, branch.method,
+                self.gas_of(branch.params, gas))
+
+    def group(self, index, params, context):
+        return _ConvectionGroup(self, index, params, context)
+
+    def correlation_inputs(self, columns: Mapping[str, np.ndarray], dt: np.ndarray) -> dict:
+        """The geometry's inputs other than Ra and Pr, from the parameter columns (by role)."""
+        inputs = {}
+        length = columns["length"]
+        if "tilt" in columns:
+            inputs["tilt"] = columns["tilt"]
+        if "layer-tilt" in columns:
+            # heated from above (t_from < t_to): the correlations see the layer turned over
+            inputs["tilt"] = np.where(dt >= 0, columns["layer-tilt"], 180.0 - columns["layer-tilt"])
+        if "diameter" in columns:
+            inputs["slenderness"] = length / columns["diameter"]
+        if "height" in columns:
+            inputs["aspect"] = columns["height"] / length
+        return inputs
+
+
+# The length each surface geometry's Ra is based on, and what it means (cavity: the gap).
+_LENGTHS = {"vplate": ("height", ""), "hplate": ("length", "area/perimeter"),
+            "tplate": ("length", "along the slope; area/perimeter where the horizontal term governs"),
+            "hcyl": ("diameter", ""), "sphere": ("diameter", ""), "vcyl": ("height", "")}
+
+
+def _convection_kind(geometry) -> ConvectionKind:
+    """The branch kind of a registered geometry: its columns follow from its inputs."""
+    inputs = set(geometry.inputs) - {"ra", "pr"}
+    if "aspect" in inputs:   # an enclosed layer: gap, height, area, tilt, its own gas
+        low, high = geometry.tilt_range
+        default_tilt = getattr(geometry, "default_tilt", None)
+        default_tilt = 90.0 if default_tilt is None else default_tilt
+        params = (Param("gap", "m", role="length"), Param("height", "m", role="height"),
+                  Param("area", "m²", role="area"),
+                  Param("tilt", "° from horizontal", check="angle", limits=(low, high), optional=True,
+                        default=default_tilt, blank_means=f"{default_tilt:g}", role="layer-tilt"),
+                  Param("gas", check="gas", optional=True, blank_means="the network's", role="gas"))
+        return ConvectionKind(geometry.name, params, flow="h(T1, T2) A (T1 - T2), h = Nu k / gap",
+                              ends="from: the surface on the layer's underside; to: the other face",
+                              geometry=geometry.name)
+    if geometry.name not in _LENGTHS:
+        raise RuntimeError(f"network: no length column known for geometry {geometry.name!r}")
+    label, meaning = _LENGTHS[geometry.name]
+    params = [Param(label, "m", meaning, role="length")]
+    if "slenderness" in inputs:
+        params.append(Param("diameter", "m", role="diameter"))
+    params.append(Param("area", "m²", role="area"))
+    if "tilt" in inputs:
+        low, high = geometry.tilt_range
+        params.append(Param("tilt", "° from vertical", check="angle", limits=(low, high), role="tilt"))
+    if geometry.cases:
+        params.append(Param("facing", check="facing", meaning="up or down", role="facing"))
+    unknown = inputs - {"tilt", "slenderness"}
+    if unknown:
+        raise RuntimeError(f"network: no column for input(s) {sorted(unknown)} of geometry {geometry.name!r}")
+    return ConvectionKind(geometry.name, tuple(params),
+                          flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}",
+                          ends="from: the solid surface; to: the still fluid", geometry=geometry.name)
+
+
+class _ConvectionGroup(_Group):
+    """Convection branches of one kind, facing, method and gas."""
+
+    needs_properties = True
+
+    def __init__(self, kind: ConvectionKind, index, params, context):
+        super().__init__(kind, index, params)
+        self.geometry = kind.geometry
+        self.method = context["method"]
+        self.gas = context["gas"]
+        facing = kind.role("facing")
+        self.facing = params[0][facing] if facing is not None else None
+        self.columns = {p.role: self.column(k) for k, p in enumerate(kind.params)
+                        if p.role not in ("", "facing", "gas")}
+        self.length = self.columns.pop("length")
+        self.area = self.columns.pop("area")
+        self.cases = GEOMETRIES[self.geometry].cases
+        served = CORRELATIONS[(self.geometry, self.method)].cases if self.method != "auto" else ()
+        # a method named for a plate may serve only some cases (hot-up...); while the solution
+        # moves, the other cases use "auto" and are flagged; a flag at the solution is an error
+        self.served_cases = served if self.cases and served and set(served) != set(self.cases) else ()
+
+    def nominal(self, t1, t2):
+        """A start only: laminar-like Nu = c Ra^(1/4) with air near 20 °C (common practice
+        magnitudes), or the still-air values where the difference is not known yet."""
+        cavity = self.kind.role("height") is not None
+        dt = np.abs(t1 - t2)
+        if not np.any(dt > 0):
+            h = NOMINAL_CAVITY_NU * NOMINAL_CONDUCTIVITY / self.length if cavity else NOMINAL_SURFACE_H
+            return h * self.area
+        ra = STANDARD_GRAVITY * dt * self.length ** 3 / ((0.5 * (t1 + t2) + zero_Celsius) * _START_NU_ALPHA)
+        nu = np.maximum(1.0, 0.15 * ra ** 0.25) if cavity else np.maximum(0.5, 0.54 * ra ** 0.25)
+        return nu * NOMINAL_CONDUCTIVITY / self.length * self.area
+
+    def tiled(self, copies: int) -> None:
+        """Keep the parameter columns repeated ``copies`` times: the model evaluates the group
+        at the point and at the two finite-difference points in one call."""
+        self.length_tiled = np.tile(self.length, copies)
+        self.area_tiled = np.tile(self.area, copies)
+        self.columns_tiled = {k: np.tile(v, copies) for k, v in self.columns.items()}
+
+    def nusselt(self, ra, pr, dt):
+        """(NusseltResult, plate case or None, flagged or None) at the tiled points."""
+        inputs = dict(ra=ra, pr=pr, **self.kind.correlation_inputs(
+            dict(self.columns_tiled, length=self.length_tiled), dt))
+        return self._nusselt(inputs, dt)
+
+    def _nusselt(self, inputs, dt):
+        if not self.cases:
+            return nusselt(self.geometry, self.method, function_name=FUNCTION, **inputs), None, None
+        from ..convection import plate_case
+
+        case = plate_case(self.facing, dt)
+        flagged = ~np.isin(case, self.served_cases) if self.served_cases else None
+        parts = []
+        for name in dict.fromkeys(case.tolist()):
+            mask = case == name
+            method = self.method if flagged is None or name in self.served_cases else "auto"
+            sub = inputs if mask.all() else {k: v[mask] for k, v in inputs.items()}
+            parts.append((mask, nusselt(self.geometry, method, name, function_name=FUNCTION, **sub)))
+        result = parts[0][1] if len(parts) == 1 else merge_masked(NusseltResult, parts, case.shape)
+        return result, case, flagged
+
+    def records(self, t1, t2, dt, q, detail):
+        for k in range(len(self.index)):
+            conductance = float(detail.h[k] * self.area[k])
+            yield int(self.index[k]), dict(
+                h=float(detail.h[k]), R=(1.0 / conductance) if conductance > 0 else math.inf,
+                area=float(self.area[k]), Ra=float(detail.ra[k]), Nu=float(detail.nu[k]),
+                Pr=float(detail.pr[k]), t_film=float(detail.t_film[k]), method=str(detail.method[k]),
+                case=str(detail.case[k]) if detail.case is not None else "",
+                note=str(detail.note[k] or ""), in_range=bool(detail.in_range[k]))
+
+    def spread_inputs(self, records) -> tuple[dict, list]:
+        """Correlation inputs of the group's branches at a solution (for the correlation spread):
+        the inputs by name, and each branch's case (None without cases)."""
+        dt = np.array([records[int(p)]["delta_t"] for p in self.index])
+        inputs = self.kind.correlation_inputs(dict(self.columns, length=self.length), dt)
+        inputs["ra"] = np.array([records[int(p)]["Ra"] for p in self.index])
+        inputs["pr"] = np.array([records[int(p)]["Pr"] for p in self.index])
+        cases = [records[int(p)]["case"] or None for p in self.index]
+        return inputs, cases
+
+
+# --------------------------------------------------------------------------------------------
+# The table of kinds
+
+
+def _linear_kinds():
+    return (
+        LinearKind("conduction", (Param("thickness", "m"), Param("conductivity", "W/(m·K)"), AREA),
+                   flow="k A (T1 - T2) / L", ends="either way round (q > 0 from from to to)",
+                   conductance=lambda p: p[1] * p[2] / p[0], coefficient=lambda p: (p[1] / p[0], p[2])),
+        LinearKind("resistance", (Param("R", "K/W"),), flow="(T1 - T2) / R",
+                   ends="either way round", conductance=lambda p: 1.0 / p[0],
+                   coefficient=lambda p: (math.nan, math.nan)),
+        LinearKind("film", (Param("h", "W/(m²·K)"), AREA), flow="h A (T1 - T2)",
+                   ends="either way round", conductance=lambda p: p[0] * p[1],
+                   coefficient=lambda p: (p[0], p[1])),
+    )
+
+
+RADIATION = RadiationKind(
+    "radiation", (Param("emissivity of from", check="emissivity"),
+                  Param("emissivity of to", check="emissivity", optional=True,
+                        blank_means="from sees large surroundings at to"), AREA),
+    flow="A F sigma (T1^4 - T2^4), F = 1/(1/eps1 + 1/eps2 - 1), or eps1 to large surroundings",
+    ends="either way round")
+
+BRANCH_KINDS: Mapping[str, BranchKind] = MappingProxyType({
+    kind.name: kind for kind in (*_linear_kinds(),
+                                 *(_convection_kind(g) for g in GEOMETRIES.values()),
+                                 RADIATION)})
+
+
+def kind_reference() -> list[dict]:
+    """One row per kind: kind, p1..p5 (meaning and unit), q, from/to.  For the docs."""
+    return [kind.reference() for kind in BRANCH_KINDS.values()]

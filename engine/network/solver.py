@@ -1,0 +1,307 @@
+"""Closing the energy balances of the free nodes.
+
+1. A linear solve with nominal conductances (each kind's ``nominal``): linear branches exact,
+   radiation 4 F sigma Tm^3 at the mean fixed temperature, surfaces and cavities typical still-air
+   values.  A network of linear branches only is solved by this step (and one correction).
+2. Newton's method on the balances.  Each branch depends on two node temperatures only, so its
+   two derivatives assemble the Jacobian directly.  Residual and Jacobian are scaled row by row
+   by each node's total conductance (the residual becomes the temperature correction the node
+   needs), so a 1e-9 K/W branch beside a 1e6 K/W one neither swamps the step nor the line
+   search.  Steps never more than halve an absolute temperature; a backtracking line search on
+   the scaled residual keeps every step an improvement.
+3. If Newton stalls, scipy.optimize.root ("hybr", then "lm") on the same scaled system.
+
+Acceptance: at every free node the imbalance is at most 1e-9 of the heat passing through that
+node (or 1e-12 of the network's largest flow, for nodes that carry almost nothing), or so small
+that through the node's weakest branch it would move the node by less than 1e-11 K (a network at
+rest, whose flows vanish faster than the temperature differences, converges only slowly to the
+first test).  No
+unconverged number is ever returned: :class:`NetworkConvergenceError` names the residual and
+the worst node.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from scipy.constants import zero_Celsius
+
+from ..validity import ABSOLUTE_ZERO_C, StillairError
+from .errors import FUNCTION, NetworkConvergenceError
+from .model import Network
+
+__all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
+
+RELATIVE_TOLERANCE = 1e-9     # of the heat passing through the node
+QUIET_NODE_FRACTION = 1e-3    # a node carrying less than this of the largest flow uses that floor
+SETTLED_KELVIN = 1e-11        # K: a node whose imbalance would move it less than this is settled
+MAX_NEWTON_ITERATIONS = 60
+START_PASSES = 2              # fixed-point passes of the nominal start
+
+
+def _two_sum(a: np.ndarray, b: np.ndarray):
+    """a + b as (value, remainder) without rounding loss (Knuth's TwoSum)."""
+    s = a + b
+    bb = s - a
+    return s, (a - (s - bb)) + (b - bb)
+
+
+class Solver:
+    def __init__(self, net: Network, max_iterations: int | None = None):
+        self.net = net
+        self.max_iterations = MAX_NEWTON_ITERATIONS if max_iterations is None else max_iterations
+        self.iterations = 0
+        self.best = None          # (ratio to tolerance, x, x_fine, evaluation)
+        self.failure = ""         # text of the last evaluation that could not be done
+        n = len(net.nodes)
+        s, r = net.source, net.target
+        self._jacobian_index = np.concatenate([r * n + s, r * n + r, s * n + s, s * n + r])
+        self._free_block = np.ix_(net.free, net.free)
+
+    # ---- evaluation --------------------------------------------------------------------
+
+    def temperatures(self, x: np.ndarray, x_fine: np.ndarray | None = None):
+        net = self.net
+        t = np.empty(len(net.nodes))
+        t[net.fixed] = net.fixed_t
+        t[net.free] = x
+        fine = np.zeros(len(net.nodes))
+        if x_fine is not None:
+            fine[net.free] = x_fine
+        return t, fine
+
+    def evaluate(self, x, x_fine=None):
+        """(evaluation, free-node residual) or None where the branches cannot be evaluated
+        (a temperature outside the gas-property range, for instance)."""
+        t, fine = self.temperatures(x, x_fine)
+        if np.any(t <= ABSOLUTE_ZERO_C) or not np.all(np.isfinite(t)):
+            self.failure = "a node temperature fell to absolute zero"
+            return None
+        try:
+            evaluation = self.net.evaluate(t, fine)
+        except StillairError as error:
+            self.failure = str(error)
+            return None
+        if not np.all(np.isfinite(evaluation.q)):
+            self.failure = "a heat flow is not finite"
+            return None
+        residual = self.net.imbalance(evaluation.q)[self.net.free]
+        ratio = self.worst_ratio(evaluation, residual)
+        if self.best is None or ratio < self.best[0]:
+            self.best = (ratio, x.copy(), None if x_fine is None else x_fine.copy(), evaluation)
+        return evaluation, residual
+
+    def tolerances(self, evaluation) -> np.ndarray:
+        """Largest acceptable imbalance (W) at every free node (worked out once per evaluation)."""
+        cached = getattr(evaluation, "tolerance", None)
+        if cached is not None:
+            return cached
+        net = self.net
+        through = net.throughput(evaluation.q)[net.free]
+        largest = max(np.max(np.abs(evaluation.q), initial=0.0), np.max(np.abs(net.heat_input), initial=0.0))
+        floor = QUIET_NODE_FRACTION * largest
+        # ... or settled: the imbalance, passed through the node's weakest branch, would move
+        # it by less than SETTLED_KELVIN (a network at rest, where flows vanish with dT^(5/4))
+        weakest = np.full(len(net.nodes), np.inf)
+        np.minimum.at(weakest, net.source, np.abs(evaluation.d_source))
+        np.minimum.at(weakest, net.target, np.abs(evaluation.d_target))
+        evaluation.tolerance = np.maximum(RELATIVE_TOLERANCE * np.maximum(through, floor),
+                                          SETTLED_KELVIN * weakest[net.free])
+        return evaluation.tolerance
+
+    def worst_ratio(self, evaluation, residual) -> float:
+        """The largest |imbalance| / tolerance over the free nodes (<= 1: converged)."""
+        if not residual.size:
+            return 0.0
+        magnitude = np.abs(residual)
+        tolerance = self.tolerances(evaluation)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.where(magnitude == 0, 0.0, magnitude / tolerance)
+        return float(np.max(ratio))
+
+    def converged(self, evaluation, residual) -> bool:
+        return bool(np.all(np.abs(residual) <= self.tolerances(evaluation)))
+
+    def jacobian(self, evaluation) -> np.ndarray:
+        n = len(self.net.nodes)
+        values = np.concatenate([evaluation.d_source, evaluation.d_target,
+                                 -evaluation.d_source, -evaluation.d_target])
+        full = np.bincount(self._jacobian_index, values, minlength=n * n).reshape(n, n)
+        return full[self._free_block]
+
+    @staticmethod
+    def row_scale(jac: np.ndarray) -> np.ndarray:
+        """1 / (each node's total conductance): turns W into K."""
+        total = np.sum(np.abs(jac), axis=1)
+        total[~(total > 0)] = 1.0
+        return 1.0 / total
+
+    # ---- start ---------------------------------------------------------------------------
+
+    def nominal_start(self) -> np.ndarray:
+        """Free-node temperatures of the network with nominal conductances: linear branches exact,
+        radiation and convection by cheap laws (no property or correlation call) re-evaluated
+        at the temperatures of the previous pass, a few passes.  Only the start: Newton then
+        works with the real branches, and a start this close saves it an evaluation or two."""
+        net = self.net
+        t_mean = float(np.mean(net.fixed_t))
+        t = np.full(len(net.nodes), t_mean)
+        t[net.fixed] = net.fixed_t
+        conductance = np.empty(len(net.branches))
+        x = None
+        for _ in range(START_PASSES):
+            t1, t2 = t[net.source], t[net.target]
+            for group in net.groups:
+                i = group.index
+                conductance[i] = group.nominal(t1[i], t2[i])
+            previous, x = x, self.linear_solve(conductance)
+            if not np.all(np.isfinite(x)) or np.any(x <= ABSOLUTE_ZERO_C):
+                return previous if previous is not None else np.full(net.free.size, t_mean)
+            t[net.free] = x
+            if previous is not None and np.max(np.abs(x - previous)) < 1e-3 * (1.0 + np.ptp(net.fixed_t)):
+                break
+        return x
+
+    def linear_solve(self, conductance: np.ndarray) -> np.ndarray:
+        net = self.net
+        n = len(net.nodes)
+        s, r = net.source, net.target
+        index = np.concatenate([s * n + s, r * n + r, s * n + r, r * n + s])
+        laplacian = np.bincount(index, np.concatenate([conductance, conductance, -conductance, -conductance]),
+                                minlength=n * n).reshape(n, n)
+        free, fixed = net.free, net.fixed
+        rhs = net.heat_input[free] - laplacian[np.ix_(free, fixed)] @ net.fixed_t
+        matrix = laplacian[self._free_block]
+        scale = self.row_scale(matrix)
+        try:
+            return np.linalg.solve(matrix * scale[:, None], rhs * scale)
+        except np.linalg.LinAlgError:
+            # A free node joined only by branches whose nominal coefficient is zero.
+            return np.linalg.lstsq(matrix, rhs, rcond=None)[0]
+
+    # ---- Newton --------------------------------------------------------------------------
+
+    def newton(self, x, x_fine, state):
+        if state is None:
+            return None, x, x_fine
+        evaluation, residual = state
+        for _ in range(self.max_iterations):
+            if self.converged(evaluation, residual):
+                return (evaluation, residual), x, x_fine
+            jac = self.jacobian(evaluation)
+            scale = self.row_scale(jac)
+            scaled = residual * scale
+            try:
+                dx = np.linalg.solve(jac * scale[:, None], -scaled)
+            except np.linalg.LinAlgError:
+                dx = np.linalg.lstsq(jac * scale[:, None], -scaled, rcond=None)[0]
+            if not np.all(np.isfinite(dx)):
+                break
+            absolute = x + zero_Celsius
+            falling = dx < 0
+            lam = 1.0
+            if falling.any():
+                # never more than halve an absolute temperature in one step
+                lam = min(1.0, float(np.min(0.5 * absolute[falling] / -dx[falling])))
+            norm = float(np.linalg.norm(scaled))
+            self.iterations += 1
+            accepted = False
+            while lam > 1e-6:
+                trial_x, trial_fine = _two_sum(x, x_fine + lam * dx)
+                trial = self.evaluate(trial_x, trial_fine)
+                if trial is not None and (np.linalg.norm(trial[1] * scale) < (1.0 - 1e-4 * lam) * norm
+                                          or self.converged(*trial)):
+                    x, x_fine = trial_x, trial_fine
+                    evaluation, residual = trial
+                    accepted = True
+                    break
+                lam *= 0.5
+            if not accepted:
+                break
+        if self.converged(evaluation, residual):
+            return (evaluation, residual), x, x_fine
+        return None, x, x_fine
+
+    def scipy_root(self, x, method):
+        from scipy import optimize  # only when Newton stalls: importing it takes 0.2 s
+
+        state = self.evaluate(x)
+        if state is None:
+            return None
+        scale = self.row_scale(self.jacobian(state[0]))
+
+        def fun(y):
+            state = self.evaluate(y)
+            if state is None:
+                return np.full(len(y), 1e30), np.eye(len(y))
+            evaluation, residual = state
+            return residual * scale, self.jacobian(evaluation) * scale[:, None]
+
+        try:
+            # tight tolerances: the acceptance test is ours (the energy residual), not scipy's
+            options = {"xtol": 1e-14} if method == "hybr" else {"xtol": 1e-14, "ftol": 1e-14}
+            solution = optimize.root(fun, x, jac=True, method=method, options=options)
+        except (ValueError, np.linalg.LinAlgError):
+            return None
+        self.iterations += int(getattr(solution, "nfev", 0))
+        zero = np.zeros_like(solution.x)
+        state, y, fine = self.newton(solution.x, zero, self.evaluate(solution.x, zero))  # polish
+        if state is not None:
+            return state, y, fine
+        return None
+
+    def solve(self):
+        """(evaluation, residual), x, x_fine, how."""
+        net = self.net
+        if net.free.size == 0:
+            state = self.evaluate(np.zeros(0), np.zeros(0))
+            if state is None:
+                self.fail()
+            return state, np.zeros(0), np.zeros(0), "direct"
+        x0 = self.start()
+        zero = np.zeros_like(x0)
+        start = self.evaluate(x0, zero)
+        if start is None:
+            # nominal temperatures outside the property range: start from the fixed mean
+            x0 = np.full(net.free.size, float(np.mean(net.fixed_t)))
+            start = self.evaluate(x0, zero)
+        state, x, fine = self.newton(x0, zero, start)
+        if state is not None:
+            return state, x, fine, "newton"
+        for method in ("hybr", "lm"):
+            restart = self.best[1] if self.best is not None else x0
+            found = self.scipy_root(restart, method)
+            if found is not None:
+                return found[0], found[1], found[2], method
+        self.fail()
+
+    def start(self) -> np.ndarray:
+        return self.nominal_start()
+
+    def fail(self):
+        net = self.net
+        if self.best is None:
+            raise NetworkConvergenceError(
+                f"{FUNCTION}: the branches could not be evaluated at any trial temperature ({self.failure})",
+                math.inf, None, self.iterations)
+        _, x, x_fine, evaluation = self.best
+        residual = net.imbalance(evaluation.q)[net.free]
+        tolerance = self.tolerances(evaluation)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            worst_index = int(np.argmax(np.where(residual == 0, 0.0, np.abs(residual) / tolerance)))
+        worst = net.nodes[int(net.free[worst_index])]
+        norm = float(abs(residual[worst_index]))
+        if self.failure:
+            hint = (f" The balance needs temperatures where the branches cannot be evaluated "
+                    f"({self.failure}): check the heat inputs, areas and coefficients around that node.")
+        elif net.has_correlations:
+            hint = (" A correlation that changes steeply with the temperature difference can prevent "
+                    "convergence; choosing a method explicitly for the branches at that node may help.")
+        else:
+            hint = (" The network has no correlation branches: check the heat inputs and any "
+                    "conductances many orders of magnitude apart around that node.")
+        raise NetworkConvergenceError(
+            f"{FUNCTION}: no converged solution after {self.iterations} iterations: energy residual "
+            f"{norm:.3g} W at node {worst!r} (tolerance {float(tolerance[worst_index]):.3g} W).{hint}",
+            norm, worst, self.iterations)

@@ -1,0 +1,70 @@
+"""Branch kinds as data: generated from the correlation registry, printed by the reference.
+
+Checks are agreement with the one-call coefficient at the solution (the same physics by another
+path), energy balance, and exact texts of the kind table and messages.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from stillair.convection import surface_convection
+from stillair.correlations import GEOMETRIES, Geometry
+from stillair.network import BRANCH_KINDS, NetworkError, kind_reference, solve_network
+from stillair.network.kinds import ConvectionKind, _convection_kind
+
+
+def test_every_registered_geometry_is_a_branch_kind():
+    for name, geometry in GEOMETRIES.items():
+        kind = BRANCH_KINDS[name]
+        assert isinstance(kind, ConvectionKind) and kind.geometry == name
+    assert list(BRANCH_KINDS) == ["conduction", "resistance", "film", *GEOMETRIES, "radiation"]
+
+
+def test_a_vertical_cylinder_branch_is_the_one_call_coefficient_at_the_solution():
+    # a 0.8 m high, 60 mm pipe stub losing 25 W to still air at 15 °C (demo data)
+    branches = [["stub", "s", "air", "vcyl", 0.8, 0.06, 0.15]]
+    result = solve_network(branches, [["s", "Q", 25.0], ["air", "T", 15.0]])
+    t = result.temperatures["s"]
+    one_call = surface_convection("vcyl", t, 15.0, 0.8, diameter=0.06).scalar()
+    record = result.branches["stub"]
+    assert record.h == pytest.approx(one_call.h, rel=1e-12)
+    assert record.method == one_call.method
+    assert record.heat == pytest.approx(25.0, rel=1e-9)
+    assert record.heat == pytest.approx(one_call.h * 0.15 * (t - 15.0), rel=1e-9)
+
+
+def test_kind_columns_follow_the_geometry_inputs():
+    shapes = {name: [p.describe() for p in kind.params] for name, kind in BRANCH_KINDS.items()}
+    assert shapes["vcyl"] == ["height m", "diameter m", "area m²"]
+    assert shapes["tplate"][2:] == ["tilt ° from vertical", "facing (up or down)"]
+    assert shapes["cavity"] == ["gap m", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
+                                "gas (blank: the network's)"]
+    # a geometry registered later gets its columns by the same rules, without network code
+    fin = Geometry(name="vplate", inputs=("ra", "pr", "tilt"), description="", cases=("hot-up",),
+                   tilt_range=(0.0, 45.0))
+    kind = _convection_kind(fin)
+    assert [p.describe() for p in kind.params] == ["height m", "area m²", "tilt ° from vertical",
+                                                   "facing (up or down)"]
+    assert kind.params[2].limits == (0.0, 45.0)
+    with pytest.raises(RuntimeError) as caught:
+        _convection_kind(Geometry(name="vplate", inputs=("ra", "pr", "roughness"), description=""))
+    assert str(caught.value) == "network: no column for input(s) ['roughness'] of geometry 'vplate'"
+
+
+def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
+    rows = {row["kind"]: row for row in kind_reference()}
+    assert set(rows) == set(BRANCH_KINDS)
+    assert rows["conduction"] == {"kind": "conduction", "p1": "thickness m", "p2": "conductivity W/(m·K)",
+                                  "p3": "area m²", "p4": "", "p5": "", "q": "k A (T1 - T2) / L",
+                                  "from": "either way round (q > 0 from from to to)"}
+    assert rows["vcyl"]["from"] == "from: the solid surface; to: the still fluid"
+    from stillair.addin.network import kinds_markdown
+    assert "| `vcyl` | height m | diameter m | area m² |  |  | h(T1, T2) A (T1 - T2), h = Nu k / height |" \
+        in kinds_markdown()
+
+
+def test_a_tilt_outside_the_geometry_range_names_the_range():
+    with pytest.raises(NetworkError) as caught:
+        solve_network([["t", "a", "b", "tplate", 0.2, 1.0, 95, "up"]], [["b", "T", 0], ["a", "Q", 1]])
+    assert str(caught.value) == "solve_network: branch row 1 (t), column p3 (tilt) must be in [0, 90]°, got 95"
