@@ -10,7 +10,8 @@ import pytest
 import xlsxwriter
 
 from stillair.addin.cells import engine_callable
-from stillair.addin.headless import evaluate_book, rewrite_prefixes
+from stillair.addin.formulatext import prepare
+from stillair.addin.headless import evaluate_book
 from stillair.addin.registry import BY_NAME, REGISTRY
 from stillair.addin.xlsx import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
@@ -145,11 +146,15 @@ def direct_net_heat():
     return float(stillair.solve_network(BRANCHES, BOUNDARIES).heat["wall"])
 
 
-def test_prefix_rewrite_touches_only_our_functions():
-    xml = (b"<f>[1]!H_CAVITY(A1)+'C:\\x\\stillair.xlam'!NU_NOTE(1)+_xll.NET_TEMP(A1)"
-           b"+_xludf.STILLAIR_VERSION()+[1]!OTHER(2)+_xludf.OTHER(3)</f>")
-    assert rewrite_prefixes(xml) == (b"<f>H_CAVITY(A1)+NU_NOTE(1)+NET_TEMP(A1)+STILLAIR_VERSION()"
-                                     b"+[1]!OTHER(2)+_xludf.OTHER(3)</f>")
+def test_every_addin_prefix_form_is_rewritten_for_the_evaluator():
+    formula = ("[1]!H_CAVITY(A1)+'C:\\x\\stillair.xlam'!NU_NOTE(1)+_xll.NET_TEMP(A1)"
+               "+_xludf.STILLAIR_VERSION()+tools.xlsm!H_RAD(1,2,0.9)+h_rad(1,2,0.9)")
+    prepared = prepare(formula, 1, 1, {}, "Calc")
+    assert prepared.problem is None
+    assert prepared.text == ("H_CAVITY(A1)+NU_NOTE(1)+NET_TEMP(A1)+STILLAIR_VERSION()"
+                             "+H_RAD(1,2,0.9)+H_RAD(1,2,0.9)")
+    # Another add-in's function is not ours: the cell is reported, not silently evaluated.
+    assert prepare("[1]!OTHER(2)", 1, 1, {}, "Calc").problem == "[1]!OTHER is not a stillair function"
 
 
 # ---------------------------------------------------------------------------------------------
