@@ -381,10 +381,59 @@ class Model:
                 self._compiled[prepared.key] = cached
         return cached
 
+    # -- the dependency graph -------------------------------------------------------------
+
+    def _users(self) -> dict:
+        users = getattr(self, "_users_cache", None)
+        if users is None:
+            users = {}
+            for key, node in self.nodes.items():
+                for dep in node.deps:
+                    users.setdefault(dep, set()).add(key)
+            self._users_cache = users
+        return users
+
+    def downstream(self, seeds) -> set:
+        """The seed cells and every formula cell that depends on one (through names too)."""
+        users = self._users()
+        seen, todo = set(seeds), list(seeds)
+        while todo:
+            for user in users.get(todo.pop(), ()):
+                if user not in seen:
+                    seen.add(user)
+                    todo.append(user)
+        return {k for k in seen if k[0] != "#name"}
+
+    def upstream(self, keys) -> set:
+        """The cells and names the given cells read, transitively (the cells themselves too)."""
+        seen, todo = set(keys), list(keys)
+        while todo:
+            node = self.nodes.get(todo.pop())
+            for dep in (node.deps if node is not None else ()):
+                if dep not in seen:
+                    seen.add(dep)
+                    todo.append(dep)
+        return seen
+
+    def precedents(self, key) -> set:
+        """Formula cells a cell reads directly or through names."""
+        found, todo, seen = set(), list(self.nodes[key].deps) if key in self.nodes else [], set()
+        while todo:
+            dep = todo.pop()
+            if dep in seen:
+                continue
+            seen.add(dep)
+            if dep[0] == "#name":
+                todo.extend(self.nodes[dep].deps if dep in self.nodes else ())
+            else:
+                found.add(dep)
+        return found
+
     # -- calculating ----------------------------------------------------------------------
 
-    def calculate(self, sets: dict[tuple[str, str], object] | None = None) -> Evaluation:
-        """Calculate the model; ``sets`` maps (sheet, ref) to a value that replaces the cell."""
+    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:
+        """Calculate the model; ``sets`` maps (sheet, ref) to a value that replaces the cell;
+        ``only`` limits the work to those cells and what they read."""
         import numpy as np
         import schedula as sh
 
@@ -417,10 +466,12 @@ class Model:
                         sheet_name, f"{index_to_col(c)}{r}")
             return array
 
-        with recorder:
+        needed = self.upstream(only) if only is not None else None
+        from .safezip import offline
+        with recorder, offline():   # nothing in a workbook may reach the network
             for key in self.order:
                 node = self.nodes[key]
-                if key in sets:
+                if key in sets or (needed is not None and key not in needed):
                     continue
                 results_here = self._calculate_node(node, key, values, results, recorder,
                                                     area_values, cell_value, sets)
@@ -590,7 +641,7 @@ class Model:
                 continue
             node_key = ("#name", name.sheet.upper() if name.sheet else None, name.name.upper())
             shown = name.name if name.sheet is None else f"{_quote(name.sheet)}!{name.name}"
-            names[shown] = self._named_value(name, node_key, values, by_sheet)
+            names[shown] = self._named_value(name, node_key, values, by_sheet, sets)
         notes: list[tuple[str, str]] = []
         seen = set()
         for key, result in ordered.items():
@@ -612,7 +663,7 @@ class Model:
         return Evaluation(self.book, by_sheet, names, notes, self.load_seconds, seconds,
                           sets=dict(sets), engine_seconds=self.engine_seconds, results=ordered)
 
-    def _named_value(self, name, node_key, values, by_sheet):
+    def _named_value(self, name, node_key, values, by_sheet, sets):
         text = name.text.strip().lstrip("=")
         reference = parse_reference(text) if not re.search(r"[(),+*/&^<>=\-\"]", text) else None
         if reference is None or reference.kind != "area" or reference.sheet is None:
@@ -626,6 +677,8 @@ class Model:
 
         def one(r, c):
             ref = f"{index_to_col(c)}{r}"
+            if (sheet, ref) in sets:
+                return sets[(sheet, ref)]
             if ref in cells:
                 return cells[ref]
             value = constants.get(ref)

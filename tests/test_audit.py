@@ -129,7 +129,6 @@ def test_worst_first_and_summary(planted_result):
 def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     """Graph only (no evaluation): whole columns and rows, a sheet-scoped name and a name that
     refers to another name all carry the dependency on a stillair cell downstream."""
-    from stillair.addin.safezip import open_package
     from stillair.addin.xlsx import read_book
     path = tmp_path / "graph.xlsx"
     wb = xlsxwriter.Workbook(str(path))
@@ -147,11 +146,10 @@ def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     wb.define_name("'My calc'!local_nu", "='My calc'!$B$1")
     wb.define_name("twice", "=2*'My calc'!$C$3")
     wb.close()
-    with open_package(str(path)) as archive:
-        book = read_book(str(path))
-        graph = audit.Graph(book, audit.read_cells(archive, book))
-    seeds = {k for k, c in graph.formula_cells.items() if calls_in(c.formula)}
-    assert sorted(graph.downstream(seeds)) == sorted(
+    from stillair.addin.headless import Model
+    model = Model(read_book(str(path)))
+    seeds = {k for k, node in model.nodes.items() if k[0] != "#name" and calls_in(node.text)}
+    assert sorted(model.downstream(seeds)) == sorted(
         [("My calc", r) for r in ("B1", "C1", "C2", "C3", "C4")] + [("Other", "A1")])
 
 
