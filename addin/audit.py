@@ -356,6 +356,7 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
                     cached=record.cached if record else None, computed=outcome.value)
             continue
         calls_version = any(c.ours and c.canonical == "STILLAIR_VERSION" for c in calls)
+        stale_members: list = []
         for ref in members:
             member = cells.get((key[0], ref))
             computed = evaluation.results.get((key[0], ref))
@@ -365,9 +366,13 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
             cached = member.cached if member is not None else None
             template_value = pristine.get((key[0], ref)) if pristine else None
             if not has or _is_error(cached) or (cached == "" and value not in (None, "")):
-                add("stale", key[0], ref, _stale_advice(book, member or CellRecord(
-                    key[0], ref, None), value, None, bool(record and record.array_ref)),
-                    formula=formula, cached=cached, computed=value)
+                advice = _stale_advice(book, member or CellRecord(key[0], ref, None), value, None,
+                                       bool(record and record.array_ref))
+                if len(members) > 1:
+                    stale_members.append((ref, cached, value, advice))
+                else:
+                    add("stale", key[0], ref, advice, formula=formula, cached=cached,
+                        computed=value)
                 continue
             same, rel = _same(cached, value, rtol, atol, scale)
             if same:
@@ -387,6 +392,13 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
             add("mismatch", key[0], ref, f"workbook {_show(cached)}, engine "
                 f"{_show(value)}{detail}", formula=formula, cached=cached, computed=value,
                 rel_diff=rel)
+        if stale_members:
+            # An array formula's cells went stale together: one finding for the array.
+            ref, cached, value, advice = stale_members[0]
+            advice = re.sub(r"; the engine gives [^(]*\(", "; the engine gives values (", advice, count=1)
+            add("stale", key[0], key[1], f"{len(stale_members)} of the {len(members)} cells of "
+                f"the array {record.array_ref}: {advice}", formula=formula, cached=cached,
+                computed=value)
         if outcome.status == "note":
             for message in outcome.messages:
                 add("out-of-range", key[0], key[1], message, formula=formula,

@@ -97,7 +97,7 @@ def calc(args) -> int:
         evaluation = evaluate_book(args.book, sets)
         if args.out:
             _check_out_extension(evaluation.book, args.out)
-            values = {sheet: dict(cells) for sheet, cells in evaluation.values.items()}
+            values = evaluation.writable_values()
             for (sheet, ref), value in evaluation.sets.items():
                 formula = ref in evaluation.book.sheet(sheet).formulas
                 if isinstance(value, str) and not formula:
@@ -109,13 +109,16 @@ def calc(args) -> int:
         print(f"stillair calc: {error}", file=sys.stderr)
         return EXIT_BAD_INPUT
 
+    # Exit 1 when a cell is an error or cannot be evaluated (its note says why); range notes
+    # alone leave the result usable.
+    status = 1 if evaluation.failed else 0
     if args.json:
         print(json.dumps({
             "values": evaluation.flat_values(),
             "names": evaluation.names,
             "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
         }, ensure_ascii=False, indent=1))
-        return 0
+        return status
 
     count = sum(len(c) for c in evaluation.values.values())
     print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
@@ -139,9 +142,11 @@ def calc(args) -> int:
             print(f"  {cell}: {message}" if cell else f"  {message}")
     else:
         print("Notes: none (every correlation used inside its validity range)")
+    if evaluation.failed:
+        print(f"{len(evaluation.failed)} cell(s) are errors or cannot be evaluated; see the notes")
     if args.out:
         print(f"Wrote {args.out}")
-    return 0
+    return status
 
 
 def _results_sheet_rows(path: str, evaluation) -> list[tuple[str, object, str]]:

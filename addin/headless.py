@@ -167,6 +167,13 @@ class Evaluation:
         result = self.results.get((sheet, ref))
         return result.status if result is not None else None
 
+    def writable_values(self) -> dict[str, dict[str, object]]:
+        """Values to store as cached values: every formula cell except those that could not be
+        evaluated (their saved values are left as they were)."""
+        return {sheet: {ref: value for ref, value in cells.items()
+                        if self.status(sheet, ref) != "cannot-evaluate"}
+                for sheet, cells in self.values.items()}
+
     @property
     def failed(self) -> list[tuple[str, CellResult]]:
         """Cells whose status is error or cannot-evaluate, labelled, in sheet order."""
@@ -866,9 +873,32 @@ def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=No
 
     ``path`` may be a :class:`Book` already read.  ``cells`` limits the work to those formula
     cells and what they read."""
-    book = path if isinstance(path, Book) else read_book(path)
+    model = _model_of(path) if cells is None else Model(
+        path if isinstance(path, Book) else read_book(path), cells)
     targets = {}
     for target, text in (sets or {}).items():
-        targets[resolve_target(book, target)] = parse_value(text) if isinstance(text, str) else text
-    model = Model(book, cells)
+        targets[resolve_target(model.book, target)] = parse_value(text) if isinstance(text, str) else text
     return model.calculate(targets)
+
+
+_MODELS: dict = {}
+
+
+def _model_of(path) -> Model:
+    """The model of a workbook file, built once while the file is unchanged (a sweep of --set
+    values or the template tests calculate one model many times)."""
+    if isinstance(path, Book):
+        return Model(path)
+    try:
+        stat = os.stat(path)
+        key = (os.path.realpath(path), stat.st_mtime_ns, stat.st_size)
+    except OSError:
+        key = None
+    if key is not None and key in _MODELS:
+        return _MODELS[key]
+    model = Model(read_book(path))
+    if key is not None:
+        if len(_MODELS) >= 8:
+            _MODELS.pop(next(iter(_MODELS)))
+        _MODELS[key] = model
+    return model

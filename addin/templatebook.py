@@ -387,8 +387,8 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
         template.build(book)
         book.close()
         evaluation = evaluate_book(raw)
-        errors = [(f"{sheet}!{ref}", value) for sheet, cells in evaluation.values.items()
-                  for ref, value in cells.items() if is_error_value(value)]
+        errors = [(cell, result.value if result.status == "error" else result.messages[0])
+                  for cell, result in evaluation.failed]
         if errors:
             shown = ", ".join(f"{cell} = {value}" for cell, value in errors[:8])
             raise TemplateBuildError(f"{template.name}: {len(errors)} cells evaluate to errors: {shown}")

@@ -13,8 +13,9 @@ It writes, from the templates in templates/ as they are now:
   calculation switched off, saved without recalculating;
 * ``typed.xlsx``: a workbook typed cell by cell through LibreOffice's API that calls our
   functions by name (inputs, stillair calls, built-ins over them);
-* ``manifest.json``: which template file (and its sha256) each saved copy came from, so tests
-  compare each copy with the template it came from, whatever version the templates are at.
+* ``templates/``: a copy of each template as it was when saved, so the tests compare every
+  LibreOffice copy with the template it came from, whatever version templates/ is at later;
+* ``manifest.json``: which template file (and its sha256) each saved copy came from.
 
 The tests read only the committed files: CI needs no LibreOffice.  Re-run this script after the
 templates change and commit its output.
@@ -173,6 +174,13 @@ def main() -> int:
         print("no templates in templates/", file=sys.stderr)
         return 2
     OUT.mkdir(parents=True, exist_ok=True)
+    sources = OUT / "templates"
+    if sources.exists():
+        shutil.rmtree(sources)
+    sources.mkdir()
+    for template in templates:
+        shutil.copyfile(template, sources / template.name)
+    templates = sorted(sources.glob("*.xlsx"))
     manifest = {"libreoffice": _version(), "books": {}}
     with Office() as office:
         for template in templates:
@@ -184,7 +192,7 @@ def main() -> int:
                                               "template": template.name,
                                               "template_sha256": _sha256(template)}
             print(f"wrote {target.relative_to(ROOT)}")
-        template = ROOT / "templates" / f"{EDITED_TEMPLATE}.xlsx"
+        template = sources / f"{EDITED_TEMPLATE}.xlsx"
         target = OUT / "edited-no-recalc.xlsx"
         doc = office.load(template)
         doc.enableAutomaticCalculation(False)
