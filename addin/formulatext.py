@@ -142,6 +142,7 @@ class Reference:
     name: str = ""
     problem: str = ""
     whole: str = ""                 # "columns" / "rows" for A:A and 1:1
+    alias: str = ""                 # Sheet!name is handed to the evaluator under this name
 
     @property
     def cells(self) -> int:
@@ -229,10 +230,16 @@ def _builtins() -> frozenset:
     return frozenset(formulas.get_functions())
 
 
+# Functions the formulas parser itself implements (they bind names rather than take values).
+_PARSER_FUNCTIONS = {"LET", "LAMBDA"}
+
+
 def _builtin_name(name: str) -> str | None:
     """The name ``formulas`` knows a built-in by, or None when it has no implementation."""
     upper = name.upper()
     known = _builtins()
+    if re.sub(r"^(?:_XLFN\.)?(?:_XLWS\.)?", "", upper) in _PARSER_FUNCTIONS:
+        return upper
     candidates = [upper]
     bare = re.sub(r"^(?:_XLFN\.)?(?:_XLWS\.)?", "", upper)
     candidates += [bare, "_XLFN." + bare, "_XLFN._XLWS." + bare]
@@ -276,11 +283,15 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
     def blank_argument_here() -> bool:
         return bool(stack) and stack[-1][0] and stack[-1][1]
 
+    lambda_closed = False
     for token in items:
         kind, sub, value = token.type, token.subtype, token.value
         if kind == "WHITE-SPACE":
             out.append(value)
             continue
+        if lambda_closed and kind == "PAREN" and sub == "OPEN":
+            note("a LAMBDA called in place, LAMBDA(...)(...), is not supported headlessly")
+        lambda_closed = False
         if kind == "FUNC" and sub == "OPEN":
             call = recognise_call(value)
             if call is not None and call.ours:
@@ -305,6 +316,7 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
                 out.append('""')            # F(a,) : the last argument is missing
                 key.append('""')
             opened = stack.pop() if stack else None
+            lambda_closed = bool(opened) and opened[2].upper().endswith("LAMBDA(")
             if opened and opened[2].upper() in ("ROW(", "COLUMN(") and out and out[-1] == opened[2]:
                 # ROW() / COLUMN() without an argument: this cell's own row or column.
                 out[-1] = str(row if opened[2].upper() == "ROW(" else col)
@@ -358,6 +370,11 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
                                           max(last_col, 1))
                 value = area_text(reference.sheet, reference.r1, reference.c1, reference.r2,
                                   reference.c2)
+            if reference.kind == "name" and reference.sheet is not None:
+                # formulas drops the sheet of Sheet!name; a name of its own keeps them apart.
+                alias = f"_stillair_scoped_{len(references)}"
+                reference = Reference("name", reference.sheet, name=reference.name, alias=alias)
+                value = alias
             if reference.kind == "area" and reference.cells > MAX_AREA_CELLS:
                 note(f"reference {value} covers {reference.cells:,} cells, more than the "
                      f"{MAX_AREA_CELLS:,} the evaluator takes in one range")

@@ -495,7 +495,7 @@ class Model:
         upstream = [results.get(d) for d in node.deps if d in results]
         failed = next((r for r in upstream if r.status == "cannot-evaluate"), None)
         problem = node.problem
-        if key in self.cycles:
+        if key in self.cycles and problem is None:
             problem = "circular reference: the formula depends on its own value"
         function = positions = None
         notes_before, errors_before = len(recorder.notes), len(recorder.errors)
@@ -800,6 +800,8 @@ def _reference_id(reference: Reference, default_sheet):
     if reference.kind == "area":
         return ("area", (reference.sheet or "").upper(), reference.r1, reference.c1, reference.r2,
                 reference.c2)
+    if reference.alias:
+        return ("name", "", reference.alias.upper())
     return (reference.kind, (reference.sheet or "").upper(), reference.name.upper())
 
 

@@ -196,3 +196,178 @@ def test_out_copy_changes_only_cached_values(evaluation, book, tmp_path):
     assert formulas_after.defined_names.keys() == formulas_before.defined_names.keys()
     with zipfile.ZipFile(out) as b:
         assert any(n.startswith("xl/charts/") for n in b.namelist())
+
+
+# ---------------------------------------------------------------------------------------------
+# Real workbooks: one odd formula spoils only its own cells; constructs rewritten before loading
+
+from stillair.addin.cells import call  # noqa: E402
+from stillair.addin.headless import Model  # noqa: E402
+from stillair.addin.xlsx import BookError, read_book  # noqa: E402
+
+# Each formula that the evaluator cannot calculate, and the construct its note must name.
+ODD = {
+    "C1": ("=SUM(S2:S3!A1)", "3-D reference S2:S3!A1 (a range of sheets) is not supported headlessly"),
+    "C2": ("=SUM(Table1[Col])", "structured table reference Table1[Col] is not supported headlessly"),
+    "C3": ('=INDIRECT("A1")*2', "INDIRECT builds its reference from text while calculating"),
+    "C4": ("=OFFSET(A1,1,0)", "OFFSET builds its reference while calculating"),
+    "C5": ("=_xlfn.STOCKHISTORY(A1)", "function STOCKHISTORY (a newer Excel function) is not "
+           "available headlessly"),
+    "C6": ("=_xlfn.LAMBDA(_xlpm.x,_xlpm.x+1)(A1)", "a LAMBDA called in place"),
+    "C7": ("=SUM(A1:XFD1048576)", "covers 17,179,869,184 cells"),
+    "C8": ("=[1]Other!A1", "points into another workbook"),
+}
+
+
+@pytest.fixture(scope="module")
+def odd_book(tmp_path_factory):
+    """Inputs in A1:A5; good stillair and built-in cells in B; one odd formula per cell of C;
+    D1 depends on an odd cell, D2 on a good one."""
+    path = tmp_path_factory.mktemp("odd") / "odd.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for sheet, value in (("S2", 1.0), ("S3", 2.0)):
+        wb.add_worksheet(sheet).write("A1", value)
+    for row, value in enumerate([20.0, 10.0, 0.9, 0.02, 1.0]):
+        ws.write(row, 0, value)
+    good = {
+        "B1": "=H_RAD(A1,A2,A3)",
+        "B2": "=1E9+2.5e3",                              # unsigned exponents: must simply work
+        "B3": "=SUM(A:A)", "B4": "=SUM(20:20)",          # whole column / row: the used range
+        "B5": "=_xlfn.XLOOKUP(10,A1:A5,A1:A5)*2",
+        "B6": "=_xlfn.LET(_xlpm.x,A1,_xlpm.x*2)",
+        "B7": "=_xlfn.SUM(_xlfn._xlws.FILTER(A1:A5,A1:A5>5))",
+        "B8": '=_xlfn.TEXTJOIN("/",TRUE,A1:A2)',
+        "B9": "=ROW()*10+COLUMN()",
+        "B10": "=tools.xlsm!H_RAD(A1,A2,A3)",
+        "B11": "=NU_VPLATE(1E9,0.71)",
+    }
+    ws.write_row("A20", [1.0, 2.0])
+    for ref, formula in good.items():
+        ws.write_formula(ref, formula)
+    for ref, (formula, _) in ODD.items():
+        ws.write_formula(ref, formula)
+    ws.write_formula("D1", "=C1+B1")
+    ws.write_formula("D2", "=B1*2")
+    wb.close()
+    return path
+
+
+def test_one_odd_formula_spoils_only_its_cells(odd_book):
+    evaluation = evaluate_book(str(odd_book))
+    results = {ref: evaluation.results[("Calc", ref)] for ref in evaluation.values["Calc"]}
+    for ref, (_, construct) in ODD.items():
+        assert results[ref].status == "cannot-evaluate", ref
+        assert construct in results[ref].messages[0], (ref, results[ref].messages)
+    assert results["D1"].status == "cannot-evaluate"
+    assert results["D1"].messages == ("depends on Calc!C1, which cannot be evaluated",)
+    h = call("H_RAD", 20.0, 10.0, 0.9)
+    assert results["B1"].value == h and results["D2"].value == 2 * h
+    notes = dict(evaluation.notes)
+    assert set(notes) == {f"Calc!{ref}" for ref in ODD} | {"Calc!D1"}
+    assert all(result.status == "value" for ref, result in results.items() if ref[0] == "B")
+
+
+def test_constructs_the_evaluator_is_taught(odd_book):
+    cells = evaluate_book(str(odd_book)).values["Calc"]
+    h = call("H_RAD", 20.0, 10.0, 0.9)
+    column_a = 20.0 + 10.0 + 0.9 + 0.02 + 1.0 + 1.0
+    assert cells["B2"] == 1e9 + 2500.0
+    assert cells["B3"] == pytest.approx(column_a, rel=1e-15)
+    assert cells["B4"] == 3.0
+    assert cells["B5"] == 20.0 and cells["B6"] == 40.0 and cells["B7"] == 30.0
+    assert cells["B8"] == "20/10"
+    assert cells["B9"] == 9 * 10 + 2
+    assert cells["B10"] == h
+    assert cells["B11"] == call("NU_VPLATE", 1e9, 0.71)
+
+
+def test_whole_columns_cost_the_used_range(odd_book):
+    model = Model(read_book(str(odd_book)))
+    assert model.nodes[("Calc", "B3")].prepared.text == "SUM(A1:A20)"   # rows in use: 1..20
+    assert model.nodes[("Calc", "B4")].prepared.text == "SUM(A20:D20)"  # columns in use: A..D
+
+
+def test_empty_argument_takes_the_default_never_zero(tmp_path):
+    path = tmp_path / "empty.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for row, value in enumerate([20.0, 10.0, 0.9, 0.02, 1.0]):
+        ws.write(row, 0, value)
+    ws.write_formula("B1", "=H_RAD(A1,A2,A3,)")                 # eps2 missing at the end
+    ws.write_formula("B2", '=H_CAVITY(A1,A2,A4,A5,,"air")')     # tilt missing in the middle
+    ws.write_formula("B3", "=H_RAD(A1,,A3)")                    # a required argument missing
+    ws.write_formula("B4", "=MAX(-1,,-2)")                      # built-ins keep Excel's 0
+    wb.close()
+    cells = evaluate_book(str(path)).values["Calc"]
+    assert cells["B1"] == call("H_RAD", 20.0, 10.0, 0.9)        # not "eps2 must be ..., got 0"
+    assert cells["B2"] == call("H_CAVITY", 20.0, 10.0, 0.02, 1.0)   # tilt 90, not 0
+    assert cells["B3"] == "H_RAD: t2 must be a number, got an empty cell"
+    assert cells["B4"] == 0.0
+
+
+def test_sheet_scoped_name_shadows_the_workbook_name(tmp_path):
+    """Excel resolves a name on a sheet that has its own name of that spelling to the sheet's
+    name; elsewhere, and as Sheet!name, to the named scope."""
+    path = tmp_path / "names.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    inputs, calc, other = (wb.add_worksheet(n) for n in ("Inputs", "Calc", "Other"))
+    inputs.write_column("A1", [20.0, 10.0, 0.02, 0.05, 1.0])
+    wb.define_name("gap", "=Inputs!$A$3")
+    wb.define_name("Calc!gap", "=Inputs!$A$4")
+    calc.write_formula("A1", "=H_CAVITY(Inputs!A1,Inputs!A2,gap,Inputs!A5)")
+    other.write_formula("A1", "=H_CAVITY(Inputs!A1,Inputs!A2,gap,Inputs!A5)")
+    other.write_formula("A2", "=Calc!gap*2")
+    wb.close()
+    evaluation = evaluate_book(str(path))
+    assert evaluation.values["Calc"]["A1"] == call("H_CAVITY", 20.0, 10.0, 0.05, 1.0)
+    assert evaluation.values["Other"]["A1"] == call("H_CAVITY", 20.0, 10.0, 0.02, 1.0)
+    assert evaluation.values["Other"]["A2"] == 0.1
+    assert evaluation.names == {"gap": 0.02, "Calc!gap": 0.05}
+
+
+def test_status_is_data_not_the_shape_of_a_text(tmp_path):
+    path = tmp_path / "status.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    ws.write_formula("A1", '="NU_VPLATE: a label someone typed"')   # looks like our message
+    ws.write_formula("A2", "=NU_VPLATE(-1,0.71)")                   # our error message
+    ws.write_formula("A3", "=NU_VPLATE(1E14,0.71)")                 # a value with a range note
+    ws.write_formula("A4", "=1/0")                                  # an Excel error
+    ws.write_formula("A5", "=NU_VPLATE(1E8,0.71)")
+    ws.write_formula("A6", "=SUM(A2,A5)")       # SUM skips the text: a number over an error
+    ws.write_formula("A7", "=A2*2")             # #VALUE!, following from A2
+    ws.write_formula("A8", '=CAVITY_METHOD(1E4,0.71,20)')           # a text result
+    wb.close()
+    evaluation = evaluate_book(str(path))
+    status = {ref: evaluation.results[("Calc", ref)] for ref in evaluation.values["Calc"]}
+    assert [status[r].status for r in ("A1", "A2", "A3", "A4", "A5", "A6", "A7", "A8")] == [
+        "value", "error", "note", "error", "value", "error", "error", "value"]
+    assert status["A2"].messages == ("NU_VPLATE: Ra must be >= 0, got -1",)
+    assert status["A4"].messages == ("Excel error #DIV/0!",)
+    assert status["A6"].value == status["A5"].value
+    assert status["A6"].messages == ("depends on an error in Calc!A2",)
+    assert status["A7"].messages == ("follows from the error in Calc!A2",)
+    assert [cell for cell, _ in evaluation.failed] == ["Calc!A2", "Calc!A4", "Calc!A6", "Calc!A7"]
+
+
+def test_limits_are_checked_before_the_work(tmp_path, monkeypatch, odd_book):
+    from stillair.addin import xlsx
+    monkeypatch.setattr(xlsx.Limits, "max_cells", 10)
+    with pytest.raises(BookError, match=r"refused: more than 10 cells; calc and the audit take "
+                                        r"workbooks up to that size"):
+        read_book(str(odd_book))
+    monkeypatch.setattr(xlsx.Limits, "max_cells", 2_000_000)
+    monkeypatch.setattr(xlsx.Limits, "max_formulas", 5)
+    with pytest.raises(BookError, match=r"refused: more than 5 formula cells"):
+        read_book(str(odd_book))
+
+
+def test_one_model_calculates_many_times_and_only_what_is_asked(odd_book):
+    model = Model(read_book(str(odd_book)))
+    first = model.calculate({("Calc", "A1"): 30.0})
+    second = model.calculate({("Calc", "A1"): 40.0})
+    assert first.values["Calc"]["B1"] == call("H_RAD", 30.0, 10.0, 0.9)
+    assert second.values["Calc"]["B1"] == call("H_RAD", 40.0, 10.0, 0.9)
+    only = model.calculate(only={("Calc", "D2")})
+    assert set(only.values["Calc"]) == {"B1", "D2"}
