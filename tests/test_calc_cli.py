@@ -126,3 +126,35 @@ def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, ca
     capsys.readouterr()
     excel_setup.run(dry_run=False, home=home)                  # idempotent
     assert "nothing to add" in capsys.readouterr().out
+
+
+def test_a_formula_that_cannot_be_evaluated_is_a_note_and_exit_1(tmp_path, capsys, monkeypatch):
+    from stillair.addin import safezip
+    path = tmp_path / "indirect.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Gap")
+    ws.write("B1", 1e8)
+    ws.write("B2", 0.71)
+    ws.write_formula("B3", "=NU_VPLATE(B1,B2)")
+    ws.write_formula("B4", '=INDIRECT("B3")*2', None, 123.0)
+    ws.write_formula("B5", "=B4+1", None, 124.0)
+    wb.close()
+    checks = []
+    original = safezip.check_archive
+    monkeypatch.setattr(safezip, "check_archive", lambda *a, **k: (checks.append(a[1]),
+                                                                     original(*a, **k))[1])
+    out_path = tmp_path / "out.xlsx"
+    code, out, err = run(capsys, "calc", path, "--out", out_path)
+    assert code == 1 and err == ""
+    assert checks == [str(path)]               # opened and checked once for calc and --out
+    assert ("Gap!B4: cannot evaluate: INDIRECT builds its reference from text while calculating; "
+            "it is not supported headlessly") in out
+    assert "Gap!B5: depends on Gap!B4, which cannot be evaluated" in out
+    import openpyxl
+    values = openpyxl.load_workbook(out_path, data_only=True)["Gap"]
+    assert values["B3"].value == pytest.approx(stillair.nu_vplate(1e8, 0.71), rel=1e-12)
+    assert (values["B4"].value, values["B5"].value) == (123.0, 124.0)   # left as they were
+    code, out, _ = run(capsys, "calc", path, "--json")
+    data = json.loads(out)
+    assert code == 1 and data["values"]["Gap!B4"] is None
+    assert [n["cell"] for n in data["notes"]] == ["Gap!B4", "Gap!B5"]
