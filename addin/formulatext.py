@@ -257,12 +257,118 @@ def _problem_of_function(name: str) -> str:
     return f"function {bare.upper()}{newer} is not available headlessly"
 
 
+# A cell reference outside a string: A1, $A1, A$1, $A$1 (not part of a name, a number written
+# with an exponent, a function name such as LOG10( or a sheet name such as Sheet1!).
+_CELL_IN_TEXT = re.compile(r"(?<![\w.$])(\$?)([A-Za-z]{1,3})(\$?)(\d+)(?![\w.(!])")
+_STRING = re.compile(r'("(?:[^"]|"")*")')
+
+
+def _relative_form(formula: str, row: int, col: int):
+    """The formula with its cell references made relative to the cell, and the references'
+    positions (column, row) in order; None when the text has quoted sheet names or functions
+    whose value depends on the cell."""
+    if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN)\s*\(", formula):
+        return None
+    parts, cells = [], []
+    for index, piece in enumerate(_STRING.split(formula)):
+        if index % 2:                      # a string literal, kept as written
+            parts.append(piece)
+            continue
+        last = 0
+        for m in _CELL_IN_TEXT.finditer(piece):
+            c, r = _col(m.group(2)), int(m.group(4))
+            cells.append((c, r))
+            parts.append(piece[last:m.start()])
+            parts.append(f"{'$' + str(c) if m.group(1) else 'C' + str(c - col)}"
+                         f"{'$' + str(r) if m.group(3) else 'R' + str(r - row)}\x00")
+            last = m.end()
+        parts.append(piece[last:])
+    return "".join(parts), cells
+
+
+class _Template:
+    """A prepared formula and, for each reference, which cell positions of the text give its
+    corners: formulas of the same relative form reuse it instead of being tokenised again."""
+
+    def __init__(self, prepared: Prepared, corners: list[tuple[int, ...]]):
+        self.prepared, self.corners = prepared, corners
+
+
 def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
-            own_sheet: str) -> Prepared:
+            own_sheet: str, cache: dict | None = None) -> Prepared:
     """Rewrite ``formula`` (with or without "=") of the cell at ``row``/``col`` of ``own_sheet``.
 
     ``used`` maps a sheet name (upper case) to its used range's last (row, column): whole rows
-    and columns are cut there, so they cost what the used range costs."""
+    and columns are cut there, so they cost what the used range costs.  A formula of the same
+    relative form as one prepared before (a row copied down) reuses that one's work."""
+    relative = _relative_form(formula.lstrip("="), row, col) if cache is not None else None
+    if relative is None:
+        return _prepare(formula, row, col, used, own_sheet)
+    form, cells = relative
+    cache_key = (form, own_sheet.upper())
+    template = cache.get(cache_key)
+    if template is None:
+        prepared = _prepare(formula, row, col, used, own_sheet)
+        corners = _corners(prepared, cells)
+        if corners is None:
+            return prepared
+        cache[cache_key] = _Template(prepared, corners)
+        return prepared
+    references = []
+    for reference, corner in zip(template.prepared.references, template.corners):
+        if corner:
+            (c1, r1), (c2, r2) = cells[corner[0]], cells[corner[-1]]
+            reference = Reference("area", reference.sheet, min(r1, r2), min(c1, c2),
+                                  max(r1, r2), max(c1, c2))
+        references.append(reference)
+    return _LazyPrepared(formula, row, col, used, own_sheet, references, template.prepared.key,
+                         template.prepared.problem)
+
+
+class _LazyPrepared(Prepared):
+    """A prepared formula from a template: its references and key are known; its own text is
+    rewritten only if someone asks for it (the compiled function of its key is shared)."""
+
+    def __init__(self, formula, row, col, used, own_sheet, references, key, problem):
+        self._source = (formula, row, col, used, own_sheet)
+        self._text = None
+        self.references, self.key, self.problem = references, key, problem
+
+    @property
+    def text(self) -> str:
+        if self._text is None:
+            self._text = _prepare(*self._source).text
+        return self._text
+
+    @text.setter
+    def text(self, value):
+        self._text = value
+
+
+def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
+    """For each reference of ``prepared``, the indices in ``cells`` of its written corners
+    (none for names and whole rows or columns); None when they cannot be matched up."""
+    corners, at = [], 0
+    for reference in prepared.references:
+        if reference.kind != "area" or reference.whole:
+            corners.append(())
+            continue
+        if at < len(cells) and cells[at] == (reference.c1, reference.r1) and \
+                at + 1 < len(cells) and cells[at + 1] == (reference.c2, reference.r2) and \
+                (reference.c1, reference.r1) != (reference.c2, reference.r2):
+            corners.append((at, at + 1))
+            at += 2
+        elif at < len(cells) and cells[at] == (reference.c1, reference.r1) == \
+                (reference.c2, reference.r2):
+            corners.append((at,))
+            at += 1
+        else:
+            return None
+    return corners if at == len(cells) else None
+
+
+def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
+             own_sheet: str) -> Prepared:
     items = tokens(formula)
     if not items:
         text = formula.lstrip("=")
@@ -364,10 +470,10 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
                 last_row, last_col = used.get(target, (1, 1))
                 if reference.whole == "columns":
                     reference = Reference("area", reference.sheet, 1, reference.c1,
-                                          max(last_row, 1), reference.c2)
+                                          max(last_row, 1), reference.c2, whole="columns")
                 else:
                     reference = Reference("area", reference.sheet, reference.r1, 1, reference.r2,
-                                          max(last_col, 1))
+                                          max(last_col, 1), whole="rows")
                 value = area_text(reference.sheet, reference.r1, reference.c1, reference.r2,
                                   reference.c2)
             if reference.kind == "name" and reference.sheet is not None:

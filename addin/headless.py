@@ -243,6 +243,7 @@ class Model:
             self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
         self.nodes: dict[tuple, _Node] = {}
         self._compiled: dict[tuple, tuple] = {}
+        self._templates: dict = {}     # formulas of one relative form share their preparation
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
         todo = list(wanted)
@@ -293,7 +294,7 @@ class Model:
         return node
 
     def _prepare(self, node: _Node) -> None:
-        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet)
+        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates)
         node.prepared = prepared
         if prepared.problem:
             node.problem = prepared.problem
@@ -463,6 +464,10 @@ class Model:
             return empty
 
         def area_values(sheet_name, reference: Reference):
+            if reference.r1 == reference.r2 and reference.c1 == reference.c2:
+                array = np.empty((1, 1), dtype=object)
+                array[0, 0] = cell_value(sheet_name, f"{index_to_col(reference.c1)}{reference.r1}")
+                return array
             array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
                             empty, dtype=object)
             sheet = self.sheets[sheet_name]

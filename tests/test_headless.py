@@ -371,3 +371,29 @@ def test_one_model_calculates_many_times_and_only_what_is_asked(odd_book):
     assert second.values["Calc"]["B1"] == call("H_RAD", 40.0, 10.0, 0.9)
     only = model.calculate(only={("Calc", "D2")})
     assert set(only.values["Calc"]) == {"B1", "D2"}
+
+
+def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
+    """A row copied down is prepared once; every copy still reads its own row, and the result
+    equals preparing each formula on its own."""
+    from stillair.addin import headless
+    path = tmp_path / "rows.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Rows")
+    for r in range(1, 41):
+        ws.write_row(f"A{r}", [15.0 + r, 5.0, 0.01 + 0.0005 * r, 1.0])
+        ws.write_formula(f"E{r}", f"=H_CAVITY(A{r},B{r},C{r},D{r})+$A$1*0")
+        ws.write_formula(f"F{r}", f'=IF(E{r}>1.5,"high","low")')
+    wb.close()
+    book = read_book(str(path))
+    model = Model(book)
+    assert len(model._templates) == 2
+    shared = model.calculate().values["Rows"]
+    prepare = headless.prepare
+    try:
+        headless.prepare = lambda *args: prepare(*args[:5])     # no sharing
+        alone = Model(book).calculate().values["Rows"]
+    finally:
+        headless.prepare = prepare
+    assert shared == alone
+    assert shared["E40"] == call("H_CAVITY", 55.0, 5.0, 0.03, 1.0)
