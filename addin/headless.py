@@ -58,11 +58,70 @@ class _CellRecorder(NoteRecorder):
         self.errors: list[tuple[str | None, str]] = []
 
 
+# formulas' statistics functions, and the compatibility functions built on them.
+_DEFERRED = ("formulas.functions.stat", "formulas.functions.comp")
+_STATISTICS = _DEFERRED[0]
+_KEY_RE = re.compile(r"FUNCTIONS\[\s*'([^']+)'\s*\]\s*=|^\s*'([A-Z_][A-Z0-9_.]*)'\s*:", re.M)
+
+
+def defer_statistics() -> None:
+    """Load formulas' statistics functions on their first call instead of with the function table.
+
+    That module imports scipy.stats, which costs about a second of CPU in every command, and
+    calculation workbooks seldom use those functions.  The table gets, under the same names,
+    stubs that import the modules when one of them is called; the names are read from the
+    modules' source (tests/test_headless.py checks they are exactly the modules' own)."""
+    import importlib.util
+    import sys
+    import types
+
+    if any(name in sys.modules for name in _DEFERRED):
+        return
+    stubs = {}
+    for name in _DEFERRED:
+        spec = importlib.util.find_spec(name)
+        try:
+            with open(spec.origin, encoding="utf-8") as handle:
+                source = handle.read()
+        except (OSError, TypeError, AttributeError):
+            return
+        keys = {a or b for a, b in _KEY_RE.findall(source)}
+        stub = types.ModuleType(name)
+        stub.__file__ = spec.origin
+        stub.deferred = True
+        stub.FUNCTIONS = {key: _deferred(name, key) for key in keys}
+        stubs[name] = stub
+    sys.modules.update(stubs)
+
+
+def _real_module(name: str):
+    import importlib
+    import sys
+    module = sys.modules.get(name)
+    if module is None or getattr(module, "deferred", False):
+        for deferred in _DEFERRED:       # drop every stub, then import the modules in order
+            if getattr(sys.modules.get(deferred), "deferred", False):
+                sys.modules.pop(deferred)
+        for deferred in _DEFERRED:
+            importlib.import_module(deferred)
+        module = sys.modules[name]
+    return module
+
+
+def _deferred(name: str, key: str):
+    def call(*args, **kwargs):
+        return _real_module(name).FUNCTIONS[key](*args, **kwargs)
+
+    call.__name__ = key
+    return call
+
+
 def register_functions() -> None:
     """Register every registry function in formulas' function table (idempotent)."""
     global _registered
     if _registered:
         return
+    defer_statistics()
     import formulas
     import numpy as np
     from formulas.functions import wrap_func

@@ -397,3 +397,32 @@ def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
         headless.prepare = prepare
     assert shared == alone
     assert shared["E40"] == call("H_CAVITY", 55.0, 5.0, 0.03, 1.0)
+
+
+def test_deferred_statistics_functions_are_the_libraries_own(tmp_path):
+    """The statistics functions load on first use; the names deferred are exactly the module's,
+    and a workbook using one (STDEV) gets the module's result."""
+    import importlib
+    import sys
+    import formulas
+    from stillair.addin import headless
+    headless.register_functions()
+    stubs = {name: sys.modules.get(name) for name in headless._DEFERRED}
+    path = tmp_path / "stdev.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("S")
+    ws.write_column("A1", [2.0, 4.0, 4.0, 4.0, 5.0, 5.0, 7.0, 9.0])
+    ws.write_formula("B1", "=STDEV.P(A1:A8)")
+    ws.write_formula("B2", "=_xlfn.STDEV.P(A1:A8)")
+    ws.write_formula("B3", "=STDEVP(A1:A8)")          # a compatibility name
+    wb.close()
+    values = evaluate_book(str(path)).values["S"]
+    # population SD of 2,4,4,4,5,5,7,9 is 2 (common practice: the textbook example)
+    assert values["B1"] == values["B2"] == values["B3"] == 2.0
+    table = formulas.get_functions()
+    for name, stub in stubs.items():
+        real = importlib.import_module(name)
+        assert not getattr(real, "deferred", False)
+        if stub is not None and getattr(stub, "deferred", False):
+            assert set(stub.FUNCTIONS) == set(real.FUNCTIONS)
+        assert all(key in table for key in real.FUNCTIONS)

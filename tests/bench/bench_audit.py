@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import resource
 import struct
 import subprocess
 import sys
@@ -38,12 +39,19 @@ def build(path: Path, formulas: int) -> None:
         raise SystemExit(f"calc --out failed: {done.stderr}")
 
 
-def cold_audit(path: Path) -> tuple[float, dict, int]:
+def child_cpu() -> float:
+    usage = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return usage.ru_utime + usage.ru_stime
+
+
+def cold_audit(path: Path) -> tuple[float, float, dict, int]:
+    """Wall and CPU time of one audit in a new process, its JSON output and exit status."""
+    cpu = child_cpu()
     started = time.perf_counter()
     run = subprocess.run([sys.executable, "-m", "stillair.addin.audit", str(path), "--json"],
                          capture_output=True, text=True, cwd=ROOT)
     wall = time.perf_counter() - started
-    return wall, json.loads(run.stdout), run.returncode
+    return wall, child_cpu() - cpu, json.loads(run.stdout), run.returncode
 
 
 def hostile(directory: Path) -> dict[str, Path]:
@@ -85,13 +93,13 @@ def main() -> int:
             build(book, count)
             print(f"audit, {count} formulas, cold process:")
             for i in range(args.repeat):
-                wall, data, code = cold_audit(book)
+                wall, cpu, data, code = cold_audit(book)
                 t = data.get("timing", {})
                 print(f"  run {i + 1}: wall {wall:.2f} s | read {t.get('read', 0):.2f} s, engine "
                       f"import {t.get('engine_import', 0):.2f} s, prepare {t.get('load', 0):.2f} s,"
                       f" calculate {t.get('calculate', 0):.2f} s, classify "
                       f"{t.get('classify', 0):.2f} s | {data.get('checked')} cells checked, "
-                      f"exit {code}")
+                      f"exit {code} | CPU {cpu:.2f} s")
                 if code != 0:
                     print("  (not clean:", data.get("counts") or data.get("error"), ")")
                 best[count] = min(best.get(count, wall), wall)
