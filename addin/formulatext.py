@@ -128,7 +128,7 @@ def _col_letters(n: int) -> str:
     return s
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Reference:
     """One reference operand: an area of a sheet (``sheet`` None: the formula's own sheet), a
     defined name, or something the evaluator cannot follow (``problem``)."""

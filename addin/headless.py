@@ -193,7 +193,7 @@ def label(sheet: str, ref: str) -> str:
     return f"{_quote(sheet)}!{ref}"
 
 
-@dataclass
+@dataclass(slots=True)
 class CellResult:
     """What the evaluator made of one formula cell (array members each have their own)."""
 
@@ -244,7 +244,7 @@ class Evaluation:
 # The model: prepared formulas, their dependencies, compiled functions shared by shape
 
 
-@dataclass
+@dataclass(slots=True)
 class _Node:
     sheet: str
     ref: str                    # anchor ref ("" for a defined name's node)
@@ -726,8 +726,9 @@ class Model:
                 if item not in seen:
                     seen.add(item)
                     notes.append(item)
+        labelled = {label(*k) for k in ordered} if recorder.notes else set()
         for cell, message in recorder.notes:
-            if cell is not None and cell not in {label(*k) for k in ordered} and (cell, message) not in seen:
+            if cell is not None and cell not in labelled and (cell, message) not in seen:
                 seen.add((cell, message))
                 notes.append((cell, message))
         del np
@@ -761,6 +762,46 @@ class Model:
             return None
         return [[one(r, c) for c in range(reference.c1, reference.c2 + 1)]
                 for r in range(reference.r1, reference.r2 + 1)]
+
+
+_FAST_OPERATORS = {"+": float.__add__, "-": float.__sub__, "*": float.__mul__,
+                   "/": float.__truediv__, "^": float.__pow__}
+
+
+def _number_of(value):
+    """A single cell holding a number (not a logical value) as a float, else None."""
+    import numpy as np
+    if isinstance(value, np.ndarray):
+        if value.shape != (1, 1):
+            return None
+        value = value[0, 0]
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, float, np.integer,
+                                                                      np.floating)):
+        return None
+    return float(value)
+
+
+def _fast_operator(operation, original):
+    """Arithmetic on two single numbers directly (IEEE doubles, as Excel and numpy compute it);
+    anything else - blanks, text, errors, ranges, division by zero, overflow - goes to the
+    library's operator, which knows Excel's rules for those."""
+    import numpy as np
+    from formulas.functions import Array
+
+    def run(a, b):
+        x, y = _number_of(a), _number_of(b)
+        if x is not None and y is not None:
+            try:
+                result = operation(x, y)
+            except (ZeroDivisionError, OverflowError, ValueError):
+                return original(a, b)
+            if type(result) is float and math.isfinite(result):
+                out = np.empty((1, 1), dtype=object)
+                out[0, 0] = result
+                return out.view(Array)
+        return original(a, b)
+
+    return run
 
 
 class _Checked:
@@ -825,7 +866,11 @@ def straight_line(function):
             return None
         for key, node in ready:
             pending.remove((key, node))
-            steps.append((key, node["function"], tuple(node["inputs"]), tuple(node["outputs"])))
+            function_ = node["function"]
+            operator_ = _FAST_OPERATORS.get(key.split("<")[0])
+            if operator_ is not None and len(node["inputs"]) == 2:
+                function_ = _fast_operator(operator_, function_)
+            steps.append((key, function_, tuple(node["inputs"]), tuple(node["outputs"])))
             available |= set(node["outputs"])
     inputs = tuple(function.inputs)
     output = function.outputs[0]

@@ -27,6 +27,9 @@ CELL_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?c\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za
 F_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?f\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za-z_][\w.-]*:)?f>)", re.S)
 ATTR_RE = re.compile(rb'\s([\w:.-]+)\s*=\s*("[^"]*"|\'[^\']*\')')
 _REF_RE = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
+_R_ATTR_RE = re.compile(rb'\sr="([A-Z]{1,3})(\d+)"')
+_T_ATTR_RE = re.compile(rb'\st="([^"]*)"')
+_V_FAST_RE = re.compile(rb"<(?:[\w.-]+:)?v>([^<&]*)</")
 
 
 class BookError(Exception):
@@ -78,7 +81,7 @@ class Limits:
     max_formulas = 250_000         # formula cells, all sheets
 
 
-@dataclass
+@dataclass(slots=True)
 class FormulaCell:
     ref: str                      # "B3"
     formula: str | None           # text of <f> without "="; shared formulas expanded
@@ -268,39 +271,65 @@ def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], 
     anchors: dict[str, Translator] = {}
     pending: list[tuple[FormulaCell, str]] = []
     last_row = last_col = 0
+    columns: dict[bytes, int] = {}
+    formulas, values = sheet.formulas, sheet.values
     for match in CELL_RE.finditer(xml):
-        a = attrs(match.group(1))
-        ref = a.get("r")
-        body = match.group(2) or b""
-        if ref is None:
-            continue
+        head = match.group(1)
+        position = _R_ATTR_RE.search(head)
+        if position is None:
+            a = attrs(head)
+            if "r" not in a or not _REF_RE.match(a["r"]):
+                continue
+            position = _REF_RE.match(a["r"].replace("$", ""))
+            letters, digits = position.group(1).upper().encode(), position.group(2).encode()
+        else:
+            letters, digits = position.group(1), position.group(2)
         counts[0] += 1
         if counts[0] > Limits.max_cells:
             raise BookError(f"{path}: refused: more than {Limits.max_cells:,} cells; calc and the "
                             "audit take workbooks up to that size")
-        has, value = decode_value(a.get("t", "n"), body, shared)
-        f = F_RE.search(body)
-        if f:
-            counts[1] += 1
-            if counts[1] > Limits.max_formulas:
-                raise BookError(f"{path}: refused: more than {Limits.max_formulas:,} formula "
-                                "cells; calc and the audit take workbooks up to that size")
-            fa = attrs(f.group(1))
-            text = _unescape(f.group(2).decode("utf-8")) if f.group(2) else None
-            array = fa.get("ref") if fa.get("t") == "array" else None
-            cell = FormulaCell(ref, text, array, value, has)
-            if fa.get("t") == "shared" and "si" in fa:
-                if text is not None:
-                    anchors[fa["si"]] = Translator("=" + text, origin=ref)
-                else:
-                    pending.append((cell, fa["si"]))
-            sheet.formulas[ref] = cell
-        elif has:
-            sheet.values[ref] = value
+        col = columns.get(letters)
+        if col is None:
+            col = columns[letters] = col_to_index(letters.decode())
+        row = int(digits)
+        ref = (letters + digits).decode() if digits[:1] != b"0" else f"{letters.decode()}{row}"
+        body = match.group(2) or b""
+        kind = _T_ATTR_RE.search(head)
+        cell_type = kind.group(1).decode() if kind else "n"
+        if cell_type == "n" and b"<f" not in body and b"<" in body:
+            v = _V_FAST_RE.search(body)     # the common case: a number
+            if v is None or not v.group(1):
+                continue
+            try:
+                values[ref] = float(v.group(1))
+            except ValueError:
+                values[ref] = v.group(1).decode("utf-8", "replace")
         else:
-            continue
-        row, col = split_ref(ref)
-        last_row, last_col = max(last_row, row), max(last_col, col)
+            has, value = decode_value(cell_type, body, shared)
+            f = F_RE.search(body)
+            if f:
+                counts[1] += 1
+                if counts[1] > Limits.max_formulas:
+                    raise BookError(f"{path}: refused: more than {Limits.max_formulas:,} formula "
+                                    "cells; calc and the audit take workbooks up to that size")
+                fa = attrs(f.group(1))
+                text = _unescape(f.group(2).decode("utf-8")) if f.group(2) else None
+                array = fa.get("ref") if fa.get("t") == "array" else None
+                cell = FormulaCell(ref, text, array, value, has)
+                if fa.get("t") == "shared" and "si" in fa:
+                    if text is not None:
+                        anchors[fa["si"]] = Translator("=" + text, origin=ref)
+                    else:
+                        pending.append((cell, fa["si"]))
+                formulas[ref] = cell
+            elif has:
+                values[ref] = value
+            else:
+                continue
+        if row > last_row:
+            last_row = row
+        if col > last_col:
+            last_col = col
     for cell, si in pending:
         if si in anchors:
             cell.formula = anchors[si].translate_formula(cell.ref)[1:]
@@ -325,5 +354,7 @@ def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], 
 
 
 def _unescape(text: str) -> str:
+    if "&" not in text:
+        return text
     return (text.replace("&lt;", "<").replace("&gt;", ">").replace("&quot;", '"')
             .replace("&apos;", "'").replace("&amp;", "&"))
