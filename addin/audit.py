@@ -249,14 +249,17 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     read_done = time.perf_counter()
 
     from .headless import Model
-    model = Model(book)
-    seeds = {key for key, node in model.nodes.items()
-             if key[0] != "#name" and calls_in(node.text)}
-    checked = model.downstream(seeds)
+    try:
+        model = Model(book)
+        seeds = {key for key, node in model.nodes.items()
+                 if key[0] != "#name" and calls_in(node.text)}
+        checked = model.downstream(seeds)
+        evaluation = model.calculate(only=checked) if checked else None
+    except BookError as error:
+        raise AuditError(str(error)) from None
     findings: list[Finding] = []
     timing = {"read": read_done - started, "engine_import": model.engine_seconds,
               "load": model.load_seconds}
-    evaluation = model.calculate(only=checked) if checked else None
     if evaluation is not None:
         timing["calculate"] = evaluation.calc_seconds
     classify_started = time.perf_counter()

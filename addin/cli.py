@@ -151,22 +151,20 @@ def calc(args) -> int:
 
 def _results_sheet_rows(path: str, evaluation) -> list[tuple[str, object, str]]:
     """(label, value, unit) rows of a "Results" sheet laid out label | value | unit, as the
-    templates are; a row with a label only is a heading (value None)."""
+    templates are; a row with a label only is a heading (value None).  Read from the workbook
+    calc has read already (no second reader)."""
     if "Results" not in evaluation.values:
         return []
-    import openpyxl
-
     computed = evaluation.values["Results"]
-    try:
-        sheet = openpyxl.load_workbook(path, read_only=True)["Results"]
-    except Exception:  # an unreadable layout just falls back to the named results
-        return []
+    sheet = evaluation.book.sheet("Results")
     rows = []
-    for index, row in enumerate(sheet.iter_rows(min_row=4, max_col=3, values_only=True), start=4):
-        label, _, unit = (list(row) + [None] * 3)[:3]
+    for index in range(4, sheet.last_row + 1):
+        label, unit = sheet.values.get(f"A{index}"), sheet.values.get(f"C{index}")
         ref = f"B{index}"
         if ref in computed:
-            rows.append((str(label or ref), computed[ref], "" if unit is None else str(unit)))
+            rows.append((ref if label is None else label if isinstance(label, str)
+                         else _format(label), computed[ref],
+                         "" if unit is None else str(unit)))
         elif isinstance(label, str) and label.strip():
             rows.append((label, None, ""))
     return rows

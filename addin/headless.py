@@ -49,6 +49,11 @@ STATUSES = ("value", "note", "error", "cannot-evaluate")
 
 _registered = False
 
+# Bounds on the work of one calculation: the cells all formulas read together (ranges cut to
+# the used range), and the cells of the range arrays kept for reuse.
+MAX_CELLS_READ = 50_000_000
+_AREA_CACHE_CELLS = 5_000_000
+
 
 class _CellRecorder(NoteRecorder):
     """Notes as cells.NoteRecorder collects them, plus which results were error messages."""
@@ -527,17 +532,29 @@ class Model:
                 array = np.empty((1, 1), dtype=object)
                 array[0, 0] = cell_value(sheet_name, f"{index_to_col(reference.c1)}{reference.r1}")
                 return array
+            # Cells are calculated after every formula cell they read, so a range's values are
+            # final when it is first read: later readers of the same range share the array.
+            area_key = (sheet_name, reference.r1, reference.c1, reference.r2, reference.c2)
+            array = area_cache.get(area_key)
+            if array is not None:
+                return array
             array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
                             empty, dtype=object)
             sheet = self.sheets[sheet_name]
             last_row, last_col = sheet.last_row, sheet.last_col
+            letters = [index_to_col(c) for c in range(reference.c1, min(reference.c2, last_col) + 1)]
             for r in range(reference.r1, min(reference.r2, last_row) + 1):
-                for c in range(reference.c1, min(reference.c2, last_col) + 1):
-                    array[r - reference.r1, c - reference.c1] = cell_value(
-                        sheet_name, f"{index_to_col(c)}{r}")
+                for j, column in enumerate(letters):
+                    array[r - reference.r1, j] = cell_value(sheet_name, f"{column}{r}")
+            if cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
+                cached_cells[0] += array.size
+                area_cache[area_key] = array
             return array
 
+        area_cache: dict = {}
+        cached_cells = [0]
         needed = self.upstream(only) if only is not None else None
+        self._check_volume(needed)
         from .safezip import offline
         with recorder, offline():   # nothing in a workbook may reach the network
             for key in self.order:
@@ -550,6 +567,28 @@ class Model:
                     results[member_key] = result
         calculated = time.perf_counter()
         return self._evaluation(values, results, recorder, sets, calculated - started)
+
+    def _check_volume(self, needed) -> None:
+        """Refuse, before calculating, a workbook whose formulas would read more cells in all than
+        the limit (each formula's ranges cut to the used range and counted per formula)."""
+        total = 0
+        for key, node in self.nodes.items():
+            if needed is not None and key not in needed or node.prepared is None:
+                continue
+            for reference in node.prepared.references:
+                if reference.kind != "area":
+                    continue
+                sheet = self.sheets.get(self.sheet_case.get((reference.sheet or node.sheet).upper(),
+                                                            ""))
+                if sheet is None:
+                    continue
+                rows = max(0, min(reference.r2, sheet.last_row) - reference.r1 + 1)
+                cols = max(0, min(reference.c2, sheet.last_col) - reference.c1 + 1)
+                total += rows * cols
+        if total > MAX_CELLS_READ:
+            raise BookError(f"{self.book.path}: refused: its formulas read {total:,} cells in all "
+                            f"(each formula's ranges counted), more than the limit of "
+                            f"{MAX_CELLS_READ:,} that keeps calc and the audit bounded in time")
 
     def _calculate_node(self, node, key, values, results, recorder, area_values, cell_value, sets):
         import numpy as np

@@ -158,3 +158,28 @@ def test_a_formula_that_cannot_be_evaluated_is_a_note_and_exit_1(tmp_path, capsy
     data = json.loads(out)
     assert code == 1 and data["values"]["Gap!B4"] is None
     assert [n["cell"] for n in data["notes"]] == ["Gap!B4", "Gap!B5"]
+
+
+def test_work_beyond_the_limit_is_refused_before_calculating(tmp_path, capsys, monkeypatch):
+    """Running totals over whole columns: each formula reads the used range, so the cells read
+    grow with the square of the rows; above the limit both commands refuse with the count."""
+    from stillair.addin import audit, headless
+    path = tmp_path / "totals.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("T")
+    for r in range(1, 201):
+        ws.write(f"A{r}", float(r))
+        ws.write_formula(f"B{r}", f"=SUM(A:A)-A{r}+H_RAD(20,10,0.9)")
+    wb.close()
+    monkeypatch.setattr(headless, "MAX_CELLS_READ", 10_000)
+    code, out, err = run(capsys, "calc", path)
+    assert code == 2 and out == ""
+    assert err.strip().endswith("refused: its formulas read 40,200 cells in all (each formula's "
+                                "ranges counted), more than the limit of 10,000 that keeps calc "
+                                "and the audit bounded in time")
+    assert audit.main([str(path)]) == 2
+    assert "refused: its formulas read 40,200 cells" in capsys.readouterr().err
+    monkeypatch.setattr(headless, "MAX_CELLS_READ", 50_000)
+    code, out, _ = run(capsys, "calc", path, "--json")
+    assert code == 0 and json.loads(out)["values"]["T!B200"] == pytest.approx(
+        sum(range(1, 200)) + stillair.h_rad(20, 10, 0.9), rel=1e-12)
