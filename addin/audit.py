@@ -291,8 +291,8 @@ def _stale_advice(book, record, value, pristine_value, array: bool) -> str:
     app = book.application.split("/")[0].strip() or "the program that saved it"
     engine = f"the engine gives {_show(value)}"
     if not record.has_cached or (record.cached == "" and value not in (None, "")):
-        return (f"no cached value; {engine} (the file was saved by {app} without calculated "
-                "values: written by a program that does not calculate, or saved without "
+        return (f"no cached value; {engine} (the file holds no calculated value for this cell: "
+                "it was written by a program that does not calculate, or saved without "
                 "recalculation; recalculate where the stillair add-in is installed and save)")
     cached = record.cached
     if cached == "#NAME?" and book.saved_by_libreoffice:

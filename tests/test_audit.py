@@ -402,7 +402,7 @@ def test_no_cached_value_is_stale_never_a_mismatch_against_empty_text(tmp_path):
     result = audit_book(str(path))
     assert _kinds(result) == [("stale", "Calc!A1")]
     assert result.findings[0].message.startswith("no cached value; the engine gives ")
-    assert "without calculated values" in result.findings[0].message
+    assert "the file holds no calculated value for this cell" in result.findings[0].message
 
 
 def test_built_in_cells_downstream_are_checked(tmp_path):
