@@ -36,18 +36,17 @@ import argparse
 import difflib
 import hashlib
 import json
-import logging
 import math
 import os
 import re
 import sys
-import tempfile
 import time
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
 __all__ = ["KINDS", "Finding", "AuditResult", "audit_book", "format_table", "to_json",
-           "write_report", "add_audit_parser", "run_audit", "main", "recognise_call",
+           "write_report", "add_audit_parser", "run_audit", "main", "recognise_call", "calls_in",
+           "normalise_formula", "Call", "differs",
            "EXIT_OK", "EXIT_FINDINGS", "EXIT_UNREADABLE"]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_UNREADABLE = 0, 1, 2
@@ -325,7 +324,6 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
-        label = _label(*key)
         formula = "=" + node.text
         calls = calls_in(node.text)
         before = len(result.findings)
@@ -442,9 +440,7 @@ def _pristine_template(result, book, templates_dir):
     if marker is None:
         return None
     result.template = marker
-    name, _, version = marker.rpartition(" ")
-    if not name:
-        name, version = marker, ""
+    name = marker.rpartition(" ")[0] or marker
     directory = Path(templates_dir) if templates_dir is not None else default_templates_dir()
     pristine_path = directory / f"{name}.xlsx"
     if not re.match(r"^[A-Za-z0-9][A-Za-z0-9_.-]*$", name) or not pristine_path.is_file():

@@ -36,8 +36,8 @@ from dataclasses import dataclass, field
 os.environ.setdefault("TQDM_DISABLE", "1")  # formulas shows a progress bar while compiling
 
 from .cells import NoteRecorder, evaluate as evaluate_cell  # noqa: E402
-from .formulatext import Reference, area_text, calls_in, parse_reference, prepare  # noqa: E402
-from .registry import BY_NAME, REGISTRY  # noqa: E402
+from .formulatext import Reference, calls_in, parse_reference, prepare  # noqa: E402
+from .registry import REGISTRY  # noqa: E402
 from .xlsx import Book, BookError, CellError, index_to_col, read_book, split_ref  # noqa: E402
 
 __all__ = ["register_functions", "Evaluation", "CellResult", "Model", "evaluate_book",
@@ -562,7 +562,7 @@ class Model:
                 if key in sets or (needed is not None and key not in needed):
                     continue
                 results_here = self._calculate_node(node, key, values, results, recorder,
-                                                    area_values, cell_value, sets)
+                                                    area_values)
                 for member_key, result in results_here.items():
                     results[member_key] = result
         calculated = time.perf_counter()
@@ -590,7 +590,7 @@ class Model:
                             f"(each formula's ranges counted), more than the limit of "
                             f"{MAX_CELLS_READ:,} that keeps calc and the audit bounded in time")
 
-    def _calculate_node(self, node, key, values, results, recorder, area_values, cell_value, sets):
+    def _calculate_node(self, node, key, values, results, recorder, area_values):
         import numpy as np
 
         where = label(node.sheet, node.ref) if node.name is None else node.name
@@ -732,7 +732,6 @@ class Model:
         return np.asarray([[_xl_error("#NAME?")]], dtype=object)
 
     def _evaluation(self, values, results, recorder, sets, seconds) -> Evaluation:
-        import numpy as np
 
         by_sheet: dict[str, dict[str, object]] = {}
         ordered: dict[tuple[str, str], CellResult] = {}
@@ -770,7 +769,6 @@ class Model:
             if cell is not None and cell not in labelled and (cell, message) not in seen:
                 seen.add((cell, message))
                 notes.append((cell, message))
-        del np
         return Evaluation(self.book, by_sheet, names, notes, self.load_seconds, seconds,
                           sets=dict(sets), engine_seconds=self.engine_seconds, results=ordered)
 

@@ -12,7 +12,7 @@ import xlsxwriter
 from stillair.addin.cells import engine_callable
 from stillair.addin.formulatext import prepare
 from stillair.addin.headless import evaluate_book
-from stillair.addin.registry import BY_NAME, REGISTRY
+from stillair.addin.registry import BY_NAME
 from stillair.addin.xlsx import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
 
