@@ -1039,7 +1039,8 @@ def _model_of(path) -> Model:
         return Model(path)
     try:
         stat = os.stat(path)
-        key = (os.path.realpath(path), stat.st_mtime_ns, stat.st_size)
+        key = (os.path.realpath(path), stat.st_ino, stat.st_mtime_ns, stat.st_ctime_ns,
+               stat.st_size)
     except OSError:
         key = None
     if key is not None and key in _MODELS:
