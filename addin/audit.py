@@ -138,21 +138,38 @@ class CellRecord:
     array_ref: str | None = None
 
 
-def records(book) -> dict[tuple[str, str], CellRecord]:
-    """Every formula cell, array member and constant of the book, from the one reader."""
-    cells: dict[tuple[str, str], CellRecord] = {}
-    for sheet in book.sheets:
-        for ref, value in sheet.values.items():
-            cells[(sheet.name, ref)] = CellRecord(sheet.name, ref, None, _stored(value), True)
-        for ref, cell in sheet.formulas.items():
-            cells[(sheet.name, ref)] = CellRecord(
-                sheet.name, ref, "=" + cell.formula if cell.formula is not None else None,
-                _stored(cell.cached), cell.has_cached, cell.array_ref)
-        for ref, value in sheet.cached.items():
-            cells[(sheet.name, ref)] = CellRecord(sheet.name, ref, None, _stored(value), True)
-        for ref in sheet.array_members:
-            cells.setdefault((sheet.name, ref), CellRecord(sheet.name, ref, None, None, False))
-    return cells
+class Records:
+    """The cells of a book as :class:`CellRecord`, made when asked for (a workbook's constants
+    are not copied: the audit looks at formula cells and the few cells drift asks about)."""
+
+    def __init__(self, book):
+        self.sheets = {s.name: s for s in book.sheets}
+
+    def get(self, key) -> CellRecord | None:
+        sheet = self.sheets.get(key[0])
+        if sheet is None:
+            return None
+        name, ref = key
+        cell = sheet.formulas.get(ref)
+        if cell is not None:
+            return CellRecord(name, ref, "=" + cell.formula if cell.formula is not None else None,
+                              _stored(cell.cached), cell.has_cached, cell.array_ref)
+        for values in (sheet.cached, sheet.values):
+            if ref in values:
+                return CellRecord(name, ref, None, _stored(values[ref]), True)
+        if ref in sheet.array_members:
+            return CellRecord(name, ref, None, None, False)
+        return None
+
+    def formulas(self):
+        """Every formula cell's record, sheet by sheet."""
+        for sheet in self.sheets.values():
+            for ref in sheet.formulas:
+                yield self.get((sheet.name, ref))
+
+
+def records(book) -> Records:
+    return Records(book)
 
 
 def _stored(value):
@@ -480,7 +497,7 @@ def _template_drift(result, book, cells, pristine) -> None:
 
     present = {s.name.upper(): s.name for s in book.sheets}
     order = {s.name: i for i, s in enumerate(pristine.book.sheets)}
-    originals = sorted((c for c in pristine.cells.values() if c.formula is not None),
+    originals = sorted((c for c in pristine.cells.formulas() if c.formula is not None),
                        key=lambda c: (order.get(c.sheet, 0), split_ref(c.ref)))
     for original in originals:
         sheet = present.get(original.sheet.upper())

@@ -78,7 +78,7 @@ class Limits:
     """What one workbook may hold before calc or the audit starts work (checked while reading)."""
 
     max_cells = 2_000_000          # cells with a value or a formula, all sheets
-    max_formulas = 250_000         # formula cells, all sheets
+    max_formulas = 200_000         # formula cells, all sheets
 
 
 @dataclass(slots=True)
