@@ -265,17 +265,20 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     read_done = time.perf_counter()
 
     from .headless import Model
-    try:
-        model = Model(book)
-        seeds = {key for key, node in model.nodes.items()
-                 if key[0] != "#name" and calls_in(node.text)}
-        checked = model.downstream(seeds)
-        evaluation = model.calculate(only=checked) if checked else None
-    except BookError as error:
-        raise AuditError(str(error)) from None
+    maybe = _maybe_ours()
+    seeds = {(sheet.name, ref) for sheet in book.sheets for ref, cell in sheet.formulas.items()
+             if cell.formula and maybe.search(cell.formula) and calls_in(cell.formula)}
+    checked, evaluation = set(), None
+    timing = {"read": read_done - started}
+    if seeds:   # a workbook without our functions has nothing to recompute
+        try:
+            model = Model(book)
+            checked = model.downstream(seeds)
+            evaluation = model.calculate(only=checked)
+        except BookError as error:
+            raise AuditError(str(error)) from None
+        timing.update(engine_import=model.engine_seconds, load=model.load_seconds)
     findings: list[Finding] = []
-    timing = {"read": read_done - started, "engine_import": model.engine_seconds,
-              "load": model.load_seconds}
     if evaluation is not None:
         timing["calculate"] = evaluation.calc_seconds
     classify_started = time.perf_counter()
@@ -300,6 +303,15 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     timing["classify"] = time.perf_counter() - classify_started
     result.timing = timing
     return result
+
+
+def _maybe_ours():
+    """A quick test a formula must pass before it is tokenised to look for our calls: one of our
+    name families, or an add-in prefix form."""
+    from .formulatext import _families
+    families = "|".join(re.escape(f) for f in sorted(set(_families()) | set(_registry()),
+                                                    key=len, reverse=True))
+    return re.compile(rf"(?i)(?:{families})[\w.]*\s*\(|_xll\.|_xludf\.|!\s*[A-Za-z_][\w.]*\s*\(")
 
 
 def _stale_advice(book, record, value, pristine_value, array: bool) -> str:

@@ -491,3 +491,15 @@ def test_template_drift_compares_meaning(tmp_path, templates):
     for template, saved in same:
         assert normalise_formula(template) == normalise_formula(saved), (template, saved)
     assert normalise_formula("=A1*3.0") != normalise_formula("=A1*3.01")
+
+
+def test_quick_filter_lets_every_form_of_our_calls_through():
+    """The audit tokenises only formulas that pass a quick text test; every registry name in
+    any case and every add-in form must pass it (calls_in then decides)."""
+    from stillair.addin.registry import BY_NAME
+    maybe = audit._maybe_ours()
+    for name in BY_NAME:
+        for prefix in PREFIXES + ["tools.xlsm!", "ORG.STILLAIR."]:
+            for written in (name, name.lower()):
+                assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
+    assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")
