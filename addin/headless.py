@@ -63,62 +63,43 @@ class _CellRecorder(NoteRecorder):
         self.errors: list[tuple[str | None, str]] = []
 
 
-# formulas' statistics functions, and the compatibility functions built on them.
-_DEFERRED = ("formulas.functions.stat", "formulas.functions.comp")
-_STATISTICS = _DEFERRED[0]
-_KEY_RE = re.compile(r"FUNCTIONS\[\s*'([^']+)'\s*\]\s*=|^\s*'([A-Z_][A-Z0-9_.]*)'\s*:", re.M)
+_LAZY = "scipy.stats"
 
 
-def defer_statistics() -> None:
-    """Load formulas' statistics functions on their first call instead of with the function table.
-
-    That module imports scipy.stats, which costs about a second of CPU in every command, and
-    calculation workbooks seldom use those functions.  The table gets, under the same names,
-    stubs that import the modules when one of them is called; the names are read from the
-    modules' source (tests/test_headless.py checks they are exactly the modules' own)."""
-    import importlib.util
-    import sys
+def _lazy_module_type():
     import types
 
-    if any(name in sys.modules for name in _DEFERRED):
-        return
-    stubs = {}
-    for name in _DEFERRED:
-        spec = importlib.util.find_spec(name)
-        try:
-            with open(spec.origin, encoding="utf-8") as handle:
-                source = handle.read()
-        except (OSError, TypeError, AttributeError):
-            return
-        keys = {a or b for a, b in _KEY_RE.findall(source)}
-        stub = types.ModuleType(name)
-        stub.__file__ = spec.origin
-        stub.deferred = True
-        stub.FUNCTIONS = {key: _deferred(name, key) for key in keys}
-        stubs[name] = stub
-    sys.modules.update(stubs)
+    class LazyModule(types.ModuleType):
+        """Stands in for a module until an attribute of it is first used."""
+
+        def __getattr__(self, attribute):
+            return getattr(_real_module(self.__name__), attribute)
+
+    return LazyModule
 
 
 def _real_module(name: str):
     import importlib
     import sys
-    module = sys.modules.get(name)
-    if module is None or getattr(module, "deferred", False):
-        for deferred in _DEFERRED:       # drop every stub, then import the modules in order
-            if getattr(sys.modules.get(deferred), "deferred", False):
-                sys.modules.pop(deferred)
-        for deferred in _DEFERRED:
-            importlib.import_module(deferred)
-        module = sys.modules[name]
-    return module
+    if getattr(sys.modules.get(name), "stand_in", False):
+        del sys.modules[name]
+    return importlib.import_module(name)
 
 
-def _deferred(name: str, key: str):
-    def call(*args, **kwargs):
-        return _real_module(name).FUNCTIONS[key](*args, **kwargs)
+def defer_statistics() -> None:
+    """Import scipy.stats when a statistics function first needs it, not with formulas.
 
-    call.__name__ = key
-    return call
+    formulas' function table imports its statistics module, which imports scipy.stats at the
+    top (about a second of CPU in every command), although MAX, MIN, AVERAGE... never use it.
+    A stand-in module takes scipy.stats' place until one of its attributes is used; then the
+    real module is imported and answers (tests/test_headless.py checks a distribution)."""
+    import sys
+
+    if _LAZY in sys.modules:
+        return
+    stand_in = _lazy_module_type()(_LAZY)
+    stand_in.stand_in = True
+    sys.modules[_LAZY] = stand_in
 
 
 def register_functions() -> None:

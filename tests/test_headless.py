@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import json
+import math
 import re
 import zipfile
 
@@ -399,30 +401,30 @@ def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
     assert shared["E40"] == call("H_CAVITY", 55.0, 5.0, 0.03, 1.0)
 
 
-def test_deferred_statistics_functions_are_the_libraries_own(tmp_path):
-    """The statistics functions load on first use; the names deferred are exactly the module's,
-    and a workbook using one (STDEV) gets the module's result."""
-    import importlib
+def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_path):
+    """MAX and STDEV.P do not need scipy.stats; WEIBULL.DIST does, and gets the real module."""
+    import subprocess
     import sys
-    import formulas
-    from stillair.addin import headless
-    headless.register_functions()
-    stubs = {name: sys.modules.get(name) for name in headless._DEFERRED}
-    path = tmp_path / "stdev.xlsx"
+    path = tmp_path / "stats.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("S")
     ws.write_column("A1", [2.0, 4.0, 4.0, 4.0, 5.0, 5.0, 7.0, 9.0])
-    ws.write_formula("B1", "=STDEV.P(A1:A8)")
-    ws.write_formula("B2", "=_xlfn.STDEV.P(A1:A8)")
-    ws.write_formula("B3", "=STDEVP(A1:A8)")          # a compatibility name
+    ws.write_formula("B1", "=STDEV.P(A1:A8)+MAX(A1:A8)")
+    ws.write_formula("B2", "=STDEVP(A1:A8)")                  # a compatibility name
     wb.close()
-    values = evaluate_book(str(path)).values["S"]
+    probe = ("import sys, json; from stillair.addin.headless import evaluate_book; "
+             f"e = evaluate_book({str(path)!r}); "
+             "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__]))")
+    done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
+    values, kind = json.loads(done.stdout)
     # population SD of 2,4,4,4,5,5,7,9 is 2 (common practice: the textbook example)
-    assert values["B1"] == values["B2"] == values["B3"] == 2.0
-    table = formulas.get_functions()
-    for name, stub in stubs.items():
-        real = importlib.import_module(name)
-        assert not getattr(real, "deferred", False)
-        if stub is not None and getattr(stub, "deferred", False):
-            assert set(stub.FUNCTIONS) == set(real.FUNCTIONS)
-        assert all(key in table for key in real.FUNCTIONS)
+    assert values == {"B1": 11.0, "B2": 2.0} and kind == "LazyModule"
+    with_dist = tmp_path / "dist.xlsx"
+    wb = xlsxwriter.Workbook(str(with_dist))
+    wb.add_worksheet("S").write_formula("A1", "=_xlfn.WEIBULL.DIST(1,1,1,TRUE)")
+    wb.close()
+    probe = probe.replace(repr(str(path)), repr(str(with_dist)))
+    done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
+    values, kind = json.loads(done.stdout)
+    # Weibull CDF 1 - exp(-(x/scale)^shape) at x = scale: 1 - 1/e (common practice)
+    assert values["A1"] == pytest.approx(1 - math.exp(-1), rel=1e-12) and kind == "module"
