@@ -82,7 +82,7 @@ def recognise_call(token: str) -> Call | None:
     return None
 
 
-@functools.lru_cache(maxsize=65536)
+@functools.lru_cache(maxsize=4096)
 def tokens(formula: str) -> tuple:
     """openpyxl's tokens of a formula (with or without "="); () when it cannot be tokenised."""
     from openpyxl.formula.tokenizer import Tokenizer, TokenizerError
@@ -92,14 +92,25 @@ def tokens(formula: str) -> tuple:
         return ()
 
 
+_CALLS: dict[str, tuple] = {}
+
+
 def calls_in(formula: str) -> list[Call]:
-    found = []
-    for token in tokens(formula):
-        if token.type == "FUNC" and token.subtype == "OPEN":
-            call = recognise_call(token.value)
-            if call is not None:
-                found.append(call)
-    return found
+    """Our calls (and calls written like add-in calls) in a formula, in order.
+
+    Formulas that differ only in their cell references make the same calls: the answer is kept
+    per formula with its references blotted out, so a column of copied formulas is tokenised
+    once."""
+    key = _CELL_IN_TEXT.sub("\x00", formula)
+    found = _CALLS.get(key)
+    if found is None:
+        found = tuple(call for call in (recognise_call(t.value) for t in tokens(formula)
+                                        if t.type == "FUNC" and t.subtype == "OPEN")
+                      if call is not None)
+        if len(_CALLS) > 20_000:
+            _CALLS.clear()
+        _CALLS[key] = found
+    return list(found)
 
 
 # ---------------------------------------------------------------------------------------------
