@@ -265,6 +265,56 @@ def decode_value(cell_type: str, body: bytes, shared: list[str]) -> tuple[bool, 
         return True, text
 
 
+_ROW_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?row\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za-z_][\w.-]*:)?row>)",
+                     re.S)
+
+
+def _position(head: bytes):
+    """(column letters, row digits) of a cell's r attribute, or None when it has none."""
+    position = _R_ATTR_RE.search(head)
+    if position is not None:
+        return position.group(1), position.group(2)
+    a = attrs(head)
+    m = _REF_RE.match(a.get("r", "").replace("$", ""))
+    return (m.group(1).upper().encode(), m.group(2).encode()) if m else None
+
+
+def _positioned_cells(xml: bytes):
+    """Every <c> with its position.  The r attributes of rows and cells are optional in the
+    file format (some writers leave them out): then a cell follows the one before it in its
+    row, and a row the row before it."""
+    done = set()
+    for match in CELL_RE.finditer(xml):
+        position = _position(match.group(1))
+        if position is None:
+            break
+        done.add(position)
+        yield match, position[0], position[1]
+    else:
+        return
+    # Some cell has no r: read row by row, counting positions where they are left out.
+    yield from _cells_by_row(xml, done)
+
+
+def _cells_by_row(xml: bytes, done: set):
+    row = 0
+    for row_match in _ROW_RE.finditer(xml):
+        r = attrs(row_match.group(1)).get("r", "")
+        row = int(r) if r.isdigit() else row + 1
+        col = 0
+        for match in CELL_RE.finditer(row_match.group(2) or b""):
+            position = _position(match.group(1))
+            if position is not None:
+                col = col_to_index(position[0].decode())
+            else:
+                col += 1
+            key = (index_to_col(col).encode(), str(row).encode())
+            if key in done:
+                continue
+            done.add(key)
+            yield match, key[0], key[1]
+
+
 def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], path: str) -> None:
     from openpyxl.formula.translate import Translator
 
@@ -273,17 +323,8 @@ def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], 
     last_row = last_col = 0
     columns: dict[bytes, int] = {}
     formulas, values = sheet.formulas, sheet.values
-    for match in CELL_RE.finditer(xml):
+    for match, letters, digits in _positioned_cells(xml):
         head = match.group(1)
-        position = _R_ATTR_RE.search(head)
-        if position is None:
-            a = attrs(head)
-            if "r" not in a or not _REF_RE.match(a["r"]):
-                continue
-            position = _REF_RE.match(a["r"].replace("$", ""))
-            letters, digits = position.group(1).upper().encode(), position.group(2).encode()
-        else:
-            letters, digits = position.group(1), position.group(2)
         counts[0] += 1
         if counts[0] > Limits.max_cells:
             raise BookError(f"{path}: refused: more than {Limits.max_cells:,} cells; calc and the "

@@ -428,3 +428,28 @@ def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_pa
     values, kind = json.loads(done.stdout)
     # Weibull CDF 1 - exp(-(x/scale)^shape) at x = scale: 1 - 1/e (common practice)
     assert values["A1"] == pytest.approx(1 - math.exp(-1), rel=1e-12) and kind == "module"
+
+
+def test_cells_and_rows_without_positions(tmp_path):
+    """The r attributes of <row> and <c> are optional in the file format: a cell without one
+    follows the cell before it, a row the row before it."""
+    import zipfile
+    path = tmp_path / "positions.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("P")
+    ws.write_row("A1", [20.0, 10.0, 0.9])
+    ws.write_formula("A2", "=H_RAD(A1,B1,C1)")
+    wb.close()
+    with zipfile.ZipFile(path) as source:
+        items = {i.filename: source.read(i) for i in source.infolist()}
+    sheet = items["xl/worksheets/sheet1.xml"]
+    stripped = re.sub(rb'<c r="[A-Z]+\d+"', b"<c", sheet)
+    stripped = re.sub(rb'(<row r="2"[^>]*>)', lambda m: re.sub(rb' r="2"', b"", m.group(1)), stripped)
+    assert stripped.count(b' r="') == 1       # only row 1 keeps its number
+    items["xl/worksheets/sheet1.xml"] = stripped
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED) as target:
+        for name, data in items.items():
+            target.writestr(name, data)
+    book = read_book(str(path))
+    assert book.sheet("P").values == {"A1": 20.0, "B1": 10.0, "C1": 0.9}
+    assert evaluate_book(book).values["P"] == {"A2": call("H_RAD", 20.0, 10.0, 0.9)}
