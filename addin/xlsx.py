@@ -279,24 +279,15 @@ def _position(head: bytes):
     return (m.group(1).upper().encode(), m.group(2).encode()) if m else None
 
 
-def _positioned_cells(xml: bytes):
-    """Every <c> with its position.  The r attributes of rows and cells are optional in the
-    file format (some writers leave them out): then a cell follows the one before it in its
-    row, and a row the row before it."""
+class _NoPosition(Exception):
+    """A cell without an r attribute: the sheet is read again row by row."""
+
+
+def _cells_by_row(xml: bytes):
+    """Every <c> with its position; the r attributes of rows and cells are optional in the file
+    format (some writers leave them out): then a cell follows the one before it in its row, and
+    a row the row before it."""
     done = set()
-    for match in CELL_RE.finditer(xml):
-        position = _position(match.group(1))
-        if position is None:
-            break
-        done.add(position)
-        yield match, position[0], position[1]
-    else:
-        return
-    # Some cell has no r: read row by row, counting positions where they are left out.
-    yield from _cells_by_row(xml, done)
-
-
-def _cells_by_row(xml: bytes, done: set):
     row = 0
     for row_match in _ROW_RE.finditer(xml):
         r = attrs(row_match.group(1)).get("r", "")
@@ -316,6 +307,18 @@ def _cells_by_row(xml: bytes, done: set):
 
 
 def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], path: str) -> None:
+    before = list(counts)
+    try:
+        _scan_cells(sheet, xml, shared, counts, path, by_row=False)
+    except _NoPosition:
+        sheet.formulas.clear()
+        sheet.values.clear()
+        counts[:] = before
+        _scan_cells(sheet, xml, shared, counts, path, by_row=True)
+
+
+def _scan_cells(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], path: str,
+                by_row: bool) -> None:
     from openpyxl.formula.translate import Translator
 
     anchors: dict[str, Translator] = {}
@@ -323,8 +326,21 @@ def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], 
     last_row = last_col = 0
     columns: dict[bytes, int] = {}
     formulas, values = sheet.formulas, sheet.values
-    for match, letters, digits in _positioned_cells(xml):
-        head = match.group(1)
+    search = _R_ATTR_RE.search
+    for item in (_cells_by_row(xml) if by_row else CELL_RE.finditer(xml)):
+        if by_row:
+            match, letters, digits = item
+            head = match.group(1)
+        else:
+            match, head = item, item.group(1)
+            position = search(head)
+            if position is not None:
+                letters, digits = position.group(1), position.group(2)
+            else:
+                position = _position(head)
+                if position is None:
+                    raise _NoPosition
+                letters, digits = position
         counts[0] += 1
         if counts[0] > Limits.max_cells:
             raise BookError(f"{path}: refused: more than {Limits.max_cells:,} cells; calc and the "
