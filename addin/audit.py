@@ -1,19 +1,29 @@
 """``stillair audit``: check a finished workbook's numbers against the engine.
 
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
-headlessly from its own inputs (:func:`stillair.addin.headless.evaluate_book`) and classifies every cell
-that calls one of our functions and every cell downstream of one:
+headlessly from its own inputs (:class:`stillair.addin.headless.Model`, calculating only our
+cells, what they read and what reads them) and classifies every cell that calls one of our
+functions and every cell downstream of one, built-in formulas included:
 
 ======================  ==========================================================================
-ok                      the cached value is what the engine gives (within ``rtol``)
+ok                      the cached value is what the engine gives (within the tolerance)
 mismatch                the cached value differs: both values and the relative difference
-template-drift          a formula cell of the pristine template was overwritten or edited
-error                   the engine rejects the inputs (its message), or the cell is an Excel error
+template-drift          a formula cell of the pristine template was overwritten or edited (compared
+                        by meaning: numbers by value, names in any case, prefixes, whitespace)
+error                   the engine rejects the inputs (its message), the cell is an Excel error,
+                        or it computes a value over an error (a SUM skipping one of our messages)
 unknown-function        a name that looks like ours (or is written as an add-in call) is not ours
+cannot-evaluate         a construct the headless evaluator cannot calculate (named), or a cell
+                        that depends on one
 out-of-range            a correlation was used outside its validity range (which bound)
-stale                   no cached value, or a cached error, where the engine computes a value
+stale                   no cached value, or a cached error, or the template's old value after the
+                        inputs changed, where the engine computes a value; the message says which
 version                 the workbook records a different STILLAIR_VERSION or template version
 ======================  ==========================================================================
+
+Tolerance: a numeric difference counts only when ``|a-b| > rtol*max(|a|,|b|)`` and
+``|a-b| > atol + 1e-12*S``, S being the largest magnitude among the numbers the formula reads and
+the two results: round-off around zero (a balance residual of -5.7e-14 against 1e-15) is ok.
 
 Findings are listed worst first in that order.  The audited file is only ever read, through the
 checks of :mod:`stillair.addin.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
@@ -26,18 +36,17 @@ import argparse
 import difflib
 import hashlib
 import json
-import logging
 import math
 import os
 import re
 import sys
-import tempfile
 import time
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
 __all__ = ["KINDS", "Finding", "AuditResult", "audit_book", "format_table", "to_json",
-           "write_report", "add_audit_parser", "run_audit", "main", "recognise_call",
+           "write_report", "add_audit_parser", "run_audit", "main", "recognise_call", "calls_in",
+           "normalise_formula", "Call", "differs",
            "EXIT_OK", "EXIT_FINDINGS", "EXIT_UNREADABLE"]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_UNREADABLE = 0, 1, 2
@@ -45,8 +54,8 @@ DEFAULT_RTOL = 1e-6
 
 # Worst first: silent wrong numbers, then changed calculations, failures, cells that cannot be
 # checked, correlations outside their range, missing recalculation, and traceability.
-KINDS = ("mismatch", "template-drift", "error", "unknown-function", "out-of-range", "stale",
-         "version")
+KINDS = ("mismatch", "template-drift", "error", "unknown-function", "cannot-evaluate",
+         "out-of-range", "stale", "version")
 _SEVERITY = {kind: i for i, kind in enumerate(KINDS)}
 MARKER_NAME = "stillair_template"
 _ERROR_VALUES = {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
@@ -107,11 +116,9 @@ class AuditResult:
 
 
 # ---------------------------------------------------------------------------------------------
-# Recognising our functions in every form Excel writes them
+# Recognising our functions: the one grammar of stillair.addin.formulatext
 
-
-_PREFIX_RE = re.compile(r"^(?P<prefix>\[\d+\]!|'(?:[^']|'')*'!|[^!'\s(]+!|_xll\.|_xludf\.)?"
-                        r"(?P<name>[^(]+)\($")
+from .formulatext import Call, calls_in, normalise_formula, recognise_call  # noqa: E402
 
 
 def _registry():
@@ -119,303 +126,55 @@ def _registry():
     return BY_NAME
 
 
-def _families() -> tuple[str, ...]:
-    """Name prefixes of our functions (AIR_, GAS_, NU_, H_, NET_...): a name that starts with
-    one and is not in the registry looks like ours but is not."""
-    return tuple(sorted({n.split("_")[0] + "_" for n in _registry() if "_" in n}))
-
-
-@dataclass(frozen=True)
-class Call:
-    prefix: str          # "", "[1]!", "'C:\\x\\stillair.xlam'!", "_xll.", "_xludf."
-    name: str            # as written, without the prefix
-    ours: bool           # in the registry
-    unknown: bool        # looks like ours (or is an add-in call) but is not in the registry
-
-
-def recognise_call(token: str) -> Call | None:
-    """A FUNC-OPEN token ("_xludf.NU_VPLATE(") as a :class:`Call`; None for Excel built-ins."""
-    m = _PREFIX_RE.match(token)
-    if not m:
-        return None
-    prefix, name = m.group("prefix") or "", m.group("name").strip()
-    upper = name.upper()
-    if upper.startswith(("_XLFN.", "_XLWS.")):
-        return None
-    if upper in _registry():
-        return Call(prefix, name, True, False)
-    if prefix or upper.startswith(_families()):
-        return Call(prefix, name, False, True)
-    return None
-
-
-def _tokens(formula: str):
-    from openpyxl.formula.tokenizer import Tokenizer, TokenizerError
-    try:
-        return Tokenizer(formula if formula.startswith("=") else "=" + formula).items
-    except TokenizerError:
-        return []
-
-
-def calls_in(formula: str) -> list[Call]:
-    found = []
-    for token in _tokens(formula):
-        if token.type == "FUNC" and token.subtype == "OPEN":
-            call = recognise_call(token.value)
-            if call is not None:
-                found.append(call)
-    return found
-
-
-def normalise_formula(formula: str) -> str:
-    """Formula text for comparison: add-in and _xlfn. prefixes dropped, blanks outside strings
-    dropped, case folded outside strings."""
-    parts = []
-    for token in _tokens(formula):
-        value = token.value
-        if token.type == "WHITE-SPACE":
-            continue
-        if token.type == "FUNC" and token.subtype == "OPEN":
-            m = _PREFIX_RE.match(value)
-            name = m.group("name") if m else value[:-1]
-            if m and m.group("prefix") and name.upper() not in _registry():
-                name = m.group("prefix") + name
-            value = re.sub(r"^_xl(?:fn|ws)\.", "", name, flags=re.I).upper() + "("
-        elif not (token.type == "OPERAND" and token.subtype == "TEXT"):
-            value = value.upper()
-        parts.append(value)
-    return "".join(parts)
-
-
-# ---------------------------------------------------------------------------------------------
-# Reading formulas, cached values and constants (bytes scanned as stillair.addin.xlsx does)
-
-
 @dataclass
 class CellRecord:
+    """A formula cell (or an array formula's member) as the file holds it."""
+
     sheet: str
     ref: str
-    formula: str | None            # "=..." for formula cells (shared formulas expanded)
+    formula: str | None            # "=..." (shared formulas expanded); None for array members
     cached: object = None
     has_cached: bool = False
     array_ref: str | None = None
 
 
-def _decode_value(cell_attrs: dict, body: bytes, shared: list[str]):
-    from .xlsx import _unescape
-    t = cell_attrs.get("t", "n")
-    if t == "inlineStr":
-        texts = re.findall(rb"<(?:[\w.-]+:)?t(?:\s[^>]*)?>([^<]*)</", body)
-        return True, _unescape(b"".join(texts).decode("utf-8"))
-    v = re.search(rb"<(?:[\w.-]+:)?v\s*(?:/>|>([^<]*)</)", body)
-    if not v:
-        return False, None
-    text = _unescape((v.group(1) or b"").decode("utf-8"))
-    if t == "str":
-        return True, text
-    if t == "b":
-        return True, text.strip() in ("1", "true")
-    if t == "e":
-        return True, text.strip()
-    if t == "s":
-        try:
-            return True, shared[int(text)]
-        except (ValueError, IndexError):
-            return True, None
-    try:
-        return True, float(text)
-    except ValueError:
-        return True, text
+class Records:
+    """The cells of a book as :class:`CellRecord`, made when asked for (a workbook's constants
+    are not copied: the audit looks at formula cells and the few cells drift asks about)."""
+
+    def __init__(self, book):
+        self.sheets = {s.name: s for s in book.sheets}
+
+    def get(self, key) -> CellRecord | None:
+        sheet = self.sheets.get(key[0])
+        if sheet is None:
+            return None
+        name, ref = key
+        cell = sheet.formulas.get(ref)
+        if cell is not None:
+            return CellRecord(name, ref, "=" + cell.formula if cell.formula is not None else None,
+                              _stored(cell.cached), cell.has_cached, cell.array_ref)
+        for values in (sheet.cached, sheet.values):
+            if ref in values:
+                return CellRecord(name, ref, None, _stored(values[ref]), True)
+        if ref in sheet.array_members:
+            return CellRecord(name, ref, None, None, False)
+        return None
+
+    def formulas(self):
+        """Every formula cell's record, sheet by sheet."""
+        for sheet in self.sheets.values():
+            for ref in sheet.formulas:
+                yield self.get((sheet.name, ref))
 
 
-def _shared_strings(archive) -> list[str]:
-    from .safezip import parse_xml
-    try:
-        data = archive.read("xl/sharedStrings.xml")
-    except KeyError:
-        return []
-    root = parse_xml(data)
-    ns = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
-    return ["".join(t.text or "" for t in si.iter(f"{ns}t")) for si in root.iter(f"{ns}si")]
+def records(book) -> Records:
+    return Records(book)
 
 
-def read_cells(archive, book) -> dict[tuple[str, str], CellRecord]:
-    """Every cell with a formula or a value, keyed by (sheet, ref)."""
-    from openpyxl.formula.translate import Translator
-
-    from .xlsx import CELL_RE, F_RE, attrs, _unescape
-
-    shared = _shared_strings(archive)
-    cells: dict[tuple[str, str], CellRecord] = {}
-    for sheet in book.sheets:
-        anchors: dict[str, tuple[str, str]] = {}   # shared-formula index -> (anchor ref, text)
-        pending: list[tuple[CellRecord, str]] = []
-        for match in CELL_RE.finditer(archive.read(sheet.part)):
-            a = attrs(match.group(1))
-            ref = a.get("r")
-            if ref is None:
-                continue
-            body = match.group(2) or b""
-            f = F_RE.search(body)
-            has, value = _decode_value(a, body, shared)
-            record = CellRecord(sheet.name, ref, None, value, has)
-            if f:
-                fa = attrs(f.group(1))
-                text = _unescape(f.group(2).decode("utf-8")) if f.group(2) else None
-                if fa.get("t") == "array":
-                    record.array_ref = fa.get("ref")
-                if fa.get("t") == "shared" and "si" in fa:
-                    if text is not None:
-                        anchors[fa["si"]] = (ref, text)
-                    else:
-                        pending.append((record, fa["si"]))
-                record.formula = "=" + text if text is not None else None
-            elif sheet.array_members.get(ref):
-                pass  # a member of an array formula: its value is checked with the anchor
-            cells[(sheet.name, ref)] = record
-        for record, si in pending:
-            if si in anchors:
-                origin, text = anchors[si]
-                record.formula = Translator("=" + text, origin=origin).translate_formula(record.ref)
-    return cells
-
-
-# ---------------------------------------------------------------------------------------------
-# The dependency graph over formula references (cells, ranges, whole rows/columns, names)
-
-_CELL_AREA = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)(?::\$?([A-Za-z]{1,3})\$?(\d+))?$")
-_COLS = re.compile(r"^\$?([A-Za-z]{1,3}):\$?([A-Za-z]{1,3})$")
-_ROWS = re.compile(r"^\$?(\d+):\$?(\d+)$")
-_QUALIFIED = re.compile(r"^(?P<sheet>'(?:[^']|'')+'|[^'!]+)!(?P<rest>.+)$")
-_MAX_ROW, _MAX_COL = 1_048_576, 16_384
-
-
-def _operand_targets(operand: str, sheet: str):
-    """("area", sheet, r1, c1, r2, c2) / ("name", scope sheet or None, name) / ("external",)."""
-    from .xlsx import col_to_index
-    m = _QUALIFIED.match(operand)
-    scope = None
-    if m:
-        raw = m.group("sheet")
-        raw = raw[1:-1].replace("''", "'") if raw.startswith("'") else raw
-        if re.match(r"^\[\d+\]", raw) or raw.startswith("["):
-            return [("external",)]
-        sheet = scope = raw.split(":")[0]   # a 3-D reference counts its first sheet
-        operand = m.group("rest")
-    if operand.startswith("[") or "[" in operand:
-        return [("external",)] if operand.startswith("[") else []
-    m = _CELL_AREA.match(operand)
-    if m:
-        c1, r1 = col_to_index(m.group(1)), int(m.group(2))
-        c2, r2 = (col_to_index(m.group(3)), int(m.group(4))) if m.group(3) else (c1, r1)
-        return [("area", sheet, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))]
-    m = _COLS.match(operand)
-    if m:
-        c1, c2 = sorted((col_to_index(m.group(1)), col_to_index(m.group(2))))
-        return [("area", sheet, 1, c1, _MAX_ROW, c2)]
-    m = _ROWS.match(operand)
-    if m:
-        r1, r2 = sorted((int(m.group(1)), int(m.group(2))))
-        return [("area", sheet, r1, 1, r2, _MAX_COL)]
-    if re.match(r"^[A-Za-z_\\][\w.\\]*$", operand):
-        return [("name", scope if scope is not None else sheet, operand, scope is not None)]
-    return []
-
-
-class Graph:
-    """Direct formula-cell dependencies of every formula cell of the workbook."""
-
-    def __init__(self, book, cells: dict[tuple[str, str], CellRecord]):
-        from .xlsx import expand_range, split_ref
-        self.book = book
-        self.sheet_case = {s.name.upper(): s.name for s in book.sheets}
-        self.formula_cells = {k: c for k, c in cells.items() if c.formula is not None}
-        # Position of every computed cell (array members point to their anchor).
-        self.positions: dict[str, list[tuple[int, int, tuple[str, str]]]] = {}
-        self.owner: dict[tuple[str, str], tuple[str, str]] = {}
-        for key, cell in self.formula_cells.items():
-            members = expand_range(cell.array_ref) if cell.array_ref else [cell.ref]
-            for member in members:
-                self.owner[(cell.sheet, member)] = key
-                row, col = split_ref(member)
-                self.positions.setdefault(cell.sheet.upper(), []).append((row, col, key))
-        self.names = {}
-        for name in book.names:
-            self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
-        self._name_deps: dict[tuple, tuple[set, bool]] = {}
-        self.external: set[tuple[str, str]] = set()   # cells that refer to another workbook
-        self.deps: dict[tuple[str, str], set[tuple[str, str]]] = {}
-        for key, cell in self.formula_cells.items():
-            self.deps[key], external = self._formula_deps(cell.formula, cell.sheet)
-            if external:
-                self.external.add(key)
-
-    def _formula_deps(self, formula: str, sheet: str, stack=()) -> tuple[set, bool]:
-        """(formula cells the formula reads, whether it reads another workbook)."""
-        found: set[tuple[str, str]] = set()
-        external = False
-        for token in _tokens(formula):
-            if token.type != "OPERAND" or token.subtype != "RANGE":
-                continue
-            for target in _operand_targets(token.value, sheet):
-                if target[0] == "external":
-                    external = True
-                elif target[0] == "area":
-                    found |= self._area(*target[1:])
-                else:
-                    deps, outside = self._name(target[1], target[2], target[3], stack)
-                    found |= deps
-                    external = external or outside
-        return found, external
-
-    def _area(self, sheet, r1, c1, r2, c2) -> set:
-        sheet = self.sheet_case.get(sheet.upper(), sheet)
-        if r1 == r2 and c1 == c2:
-            from .xlsx import index_to_col
-            owner = self.owner.get((sheet, f"{index_to_col(c1)}{r1}"))
-            return {owner} if owner else set()
-        return {key for row, col, key in self.positions.get(sheet.upper(), ())
-                if r1 <= row <= r2 and c1 <= col <= c2}
-
-    def _name(self, sheet, name, qualified, stack) -> tuple[set, bool]:
-        """A defined name's dependencies: sheet scope first, then the workbook's."""
-        upper = name.upper()
-        entry = self.names.get((sheet.upper(), upper))
-        if entry is None and not qualified:
-            entry = self.names.get((None, upper))
-        if entry is None:
-            return set(), False
-        ident = (entry.sheet, entry.name.upper())
-        if ident in stack:
-            return set(), False
-        if ident not in self._name_deps:
-            self._name_deps[ident] = self._formula_deps(entry.text, entry.sheet or sheet,
-                                                        stack + (ident,))
-        return self._name_deps[ident]
-
-    def downstream(self, seeds: set) -> set:
-        """The seeds and every formula cell that depends on one, transitively."""
-        users: dict[tuple, set] = {}
-        for key, deps in self.deps.items():
-            for dep in deps:
-                users.setdefault(dep, set()).add(key)
-        seen, todo = set(seeds), list(seeds)
-        while todo:
-            for user in users.get(todo.pop(), ()):
-                if user not in seen:
-                    seen.add(user)
-                    todo.append(user)
-        return seen
-
-    def ancestors(self, key) -> set:
-        seen, todo = set(), [key]
-        while todo:
-            for dep in self.deps.get(todo.pop(), ()):
-                if dep not in seen:
-                    seen.add(dep)
-                    todo.append(dep)
-        seen.discard(key)
-        return seen
+def _stored(value):
+    from .xlsx import CellError
+    return str(value) if isinstance(value, CellError) else value
 
 
 # ---------------------------------------------------------------------------------------------
@@ -431,14 +190,30 @@ def relative_difference(cached: float, computed: float) -> float:
     return 0.0 if scale == 0 else abs(cached - computed) / scale
 
 
-def _same(cached, computed, rtol: float) -> tuple[bool, float | None]:
+# The absolute floor of a comparison grows with the size of the numbers the formula reads:
+# a difference of two flows of 100 W cannot be trusted below about 1e-12 x 100 W.
+ROUND_OFF = 1e-12
+DEFAULT_ATOL = 1e-12
+
+
+def differs(cached: float, computed: float, rtol: float, atol: float, scale: float = 0.0) -> bool:
+    """Whether two numbers differ for the audit: |a-b| must exceed both rtol*max(|a|,|b|) and
+    the absolute floor atol + ROUND_OFF*S, S being the largest magnitude among the numbers the
+    formula reads and its results."""
+    difference = abs(cached - computed)
+    size = max(abs(cached), abs(computed), scale)
+    return difference > rtol * max(abs(cached), abs(computed)) and \
+        difference > atol + ROUND_OFF * size
+
+
+def _same(cached, computed, rtol: float, atol: float = DEFAULT_ATOL, scale: float = 0.0
+          ) -> tuple[bool, float | None]:
     if isinstance(cached, bool) or isinstance(computed, bool):
         return cached == computed, None
     if isinstance(cached, float) and isinstance(computed, float):
         if not (math.isfinite(cached) and math.isfinite(computed)):
             return cached == computed, None
-        rel = relative_difference(cached, computed)
-        return rel <= rtol, rel
+        return not differs(cached, computed, rtol, atol, scale), relative_difference(cached, computed)
     if computed is None:
         return cached in (None, "", 0.0), None
     return cached == computed, None
@@ -464,66 +239,58 @@ class AuditError(Exception):
 
 
 def _label(sheet: str, ref: str) -> str:
-    from .headless import _quote
-    return f"{_quote(sheet)}!{ref}"
+    from .headless import label
+    return label(sheet, ref)
 
 
-def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.PathLike | None = None
-               ) -> AuditResult:
+def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.PathLike | None = None,
+               atol: float = DEFAULT_ATOL) -> AuditResult:
     """Audit ``path``; raises :class:`AuditError` when it cannot be read."""
-    from .safezip import UnsafeWorkbook, open_package
     from .xlsx import BookError, read_book, split_ref
 
     if not (rtol >= 0):
         raise AuditError(f"--rtol must be >= 0, got {rtol}")
+    if not (atol >= 0):
+        raise AuditError(f"--atol must be >= 0, got {atol}")
     started = time.perf_counter()
     try:
-        with open_package(path) as archive:
-            digest = hashlib.sha256()
-            with open(path, "rb") as handle:
-                for chunk in iter(lambda: handle.read(1 << 20), b""):
-                    digest.update(chunk)
-            book = read_book(path)
-            cells = read_cells(archive, book)
-    except (UnsafeWorkbook, BookError) as error:
+        book = read_book(path)   # opened and safety-checked once; everything below uses it
+    except BookError as error:
         raise AuditError(str(error)) from None
-    except (KeyError, ValueError, UnicodeDecodeError) as error:
-        raise AuditError(f"{path}: damaged workbook ({type(error).__name__}: {error})") from None
+    digest = hashlib.sha256()
+    with open(path, "rb") as handle:
+        for chunk in iter(lambda: handle.read(1 << 20), b""):
+            digest.update(chunk)
+    cells = records(book)
     read_done = time.perf_counter()
 
-    graph = Graph(book, cells)
-    seeds = {key for key, cell in graph.formula_cells.items() if calls_in(cell.formula)}
-    checked = graph.downstream(seeds)
-    findings: list[Finding] = []
+    from .headless import Model
+    maybe = _maybe_ours()
+    seeds = {(sheet.name, ref) for sheet in book.sheets for ref, cell in sheet.formulas.items()
+             if cell.formula and maybe.search(cell.formula) and calls_in(cell.formula)}
+    checked, evaluation = set(), None
     timing = {"read": read_done - started}
-    evaluation = None
-    if checked:
-        from .headless import ANY_PREFIX_RE, evaluate_book, prefix_free_copy
-        formulas_log = logging.getLogger("formulas")
-        level = formulas_log.level
-        formulas_log.setLevel(logging.CRITICAL)  # it logs refused external links as warnings
-        needs_copy = any(c.unknown and c.prefix for cell in graph.formula_cells.values()
-                         for c in calls_in(cell.formula))
+    if seeds:   # a workbook without our functions has nothing to recompute
         try:
-            # evaluate_book runs under safezip.guarded(): offline, no linked workbooks.
-            with tempfile.TemporaryDirectory(prefix="stillair-audit-") as directory:
-                load = (prefix_free_copy(book, directory, ANY_PREFIX_RE) or path) if needs_copy else path
-                try:
-                    evaluation = evaluate_book(load)
-                except (UnsafeWorkbook, BookError) as error:
-                    raise AuditError(str(error).replace(load, path)) from None
-        finally:
-            formulas_log.setLevel(level)
-        timing.update(engine_import=evaluation.engine_seconds, load=evaluation.load_seconds,
-                      calculate=evaluation.calc_seconds)
+            model = Model(book)
+            checked = model.downstream(seeds)
+            evaluation = model.calculate(only=checked)
+        except BookError as error:
+            raise AuditError(str(error)) from None
+        timing.update(engine_import=model.engine_seconds, load=model.load_seconds)
+    findings: list[Finding] = []
+    if evaluation is not None:
+        timing["calculate"] = evaluation.calc_seconds
     classify_started = time.perf_counter()
 
     import stillair
     version = str(stillair.__version__)
     result = AuditResult(path, version, findings, [], [], sha256=digest.hexdigest())
+    pristine = _pristine_template(result, book, templates_dir)
     if evaluation is not None:
-        _classify(result, graph, cells, checked, evaluation, rtol, version)
-    result.template = _template_drift(result, book, cells, templates_dir)
+        _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine)
+    if pristine is not None:
+        _template_drift(result, book, cells, pristine)
     order = {s.name: i for i, s in enumerate(book.sheets)}
 
     def position(f: Finding):
@@ -538,106 +305,138 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     return result
 
 
-def _classify(result, graph, cells, checked, evaluation, rtol, version) -> None:
+def _maybe_ours():
+    """A quick test a formula must pass before it is tokenised to look for our calls: one of our
+    name families, or an add-in prefix form."""
+    from .formulatext import _families
+    families = "|".join(re.escape(f) for f in sorted(set(_families()) | set(_registry()),
+                                                    key=len, reverse=True))
+    return re.compile(rf"(?i)(?:{families})[\w.]*\s*\(|_xll\.|_xludf\.|!\s*[A-Za-z_][\w.]*\s*\(")
+
+
+def _stale_advice(book, record, value, pristine_value, array: bool) -> str:
+    """What happened to a cell whose saved value is missing or an error, in words."""
+    app = book.application.split("/")[0].strip() or "the program that saved it"
+    engine = f"the engine gives {_show(value)}"
+    if not record.has_cached or (record.cached == "" and value not in (None, "")):
+        return (f"no cached value; {engine} (the file holds no calculated value for this cell: "
+                "it was written by a program that does not calculate, or saved without "
+                "recalculation; recalculate where the stillair add-in is installed and save)")
+    cached = record.cached
+    if cached == "#NAME?" and book.saved_by_libreoffice:
+        what = ("LibreOffice recalculates array formulas whenever it opens a file"
+                if array else "LibreOffice recalculated this cell")
+        return (f"cached #NAME?; {engine} ({what}, and without the stillair add-in installed "
+                "our functions were unknown to it; open the workbook where the add-in is "
+                "installed and recalculate)")
+    if pristine_value is not None:
+        return (f"cached {_show(cached)} is the value the template was saved with; {engine} "
+                f"(the inputs were changed and the workbook was saved by {app} without "
+                "recalculation)")
+    return (f"cached {cached}; {engine} (the workbook was not recalculated with the stillair "
+            "add-in before it was saved)")
+
+
+def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine) -> None:
     from .xlsx import expand_range, split_ref
 
-    notes: dict[str, list[str]] = {}
-    for label, message in evaluation.notes:
-        notes.setdefault(label, []).append(message)
-    computed_by_sheet = evaluation.values
-
-    def computed(sheet, ref):
-        return computed_by_sheet.get(sheet, {}).get(ref)
+    book = model.book
 
     def add(kind, sheet, ref, message, **extra):
         result.findings.append(Finding(kind, _label(sheet, ref) if sheet else "", message,
                                        sheet=sheet, ref=ref, **extra))
 
-    unknown_cells = {k for k in checked
-                     if any(c.unknown for c in calls_in(graph.formula_cells[k].formula))}
-    error_cells = set()
-    for key in checked:
-        cell = graph.formula_cells[key]
-        members = expand_range(cell.array_ref) if cell.array_ref else [cell.ref]
-        for ref in members:
-            value = computed(cell.sheet, ref)
-            if isinstance(value, str) and (_is_error(value) or value in notes.get(
-                    _label(cell.sheet, cell.ref), ())):
-                error_cells.add(key)
-            elif isinstance(value, float) and not math.isfinite(value):
-                error_cells.add(key)
-
-    ordered = sorted(checked, key=lambda k: (
-        [s.name for s in graph.book.sheets].index(k[0]), split_ref(k[1])))
+    sheet_index = {s.name: i for i, s in enumerate(book.sheets)}
+    ordered = sorted(checked, key=lambda k: (sheet_index.get(k[0], 0), split_ref(k[1])))
+    unknown_cells = {k for k in ordered if any(c.unknown for c in calls_in(model.nodes[k].text))}
+    inputs_changed = pristine is not None and _inputs_changed(book, pristine)
     for key in ordered:
-        cell = graph.formula_cells[key]
-        label = _label(cell.sheet, cell.ref)
-        formula = cell.formula
-        calls = calls_in(formula)
+        node = model.nodes[key]
+        record = cells.get(key)
+        formula = "=" + node.text
+        calls = calls_in(node.text)
         before = len(result.findings)
-        members = expand_range(cell.array_ref) if cell.array_ref else [cell.ref]
-        result.checked.extend(_label(cell.sheet, m) for m in members)
+        members = expand_range(record.array_ref) if record and record.array_ref else [key[1]]
+        result.checked.extend(_label(key[0], m) for m in members)
         if key in unknown_cells:
             for call in (c for c in calls if c.unknown):
                 close = difflib.get_close_matches(call.name.upper(), list(_registry()), n=1)
                 hint = f" (did you mean {close[0]}?)" if close else ""
-                written = f"{call.prefix}{call.name}"
-                add("unknown-function", cell.sheet, cell.ref,
-                    f"{written} is not a stillair function{hint}; this cell cannot be checked",
-                    formula=formula, cached=cell.cached)
+                add("unknown-function", key[0], key[1],
+                    f"{call.prefix}{call.name} is not a stillair function{hint}; this cell "
+                    "cannot be checked", formula=formula, cached=record.cached if record else None)
             continue
-        upstream = graph.ancestors(key)
-        if upstream & unknown_cells:
-            result.unchecked.extend(_label(cell.sheet, m) for m in members)
+        outcome = evaluation.results.get(key)
+        if outcome is None:
             continue
-        cell_notes = notes.get(label, [])
-        if key in error_cells:
-            value = computed(cell.sheet, cell.ref)
-            if upstream & error_cells:
-                result.follow_on += 1
-            elif key in graph.external:
-                add("error", cell.sheet, cell.ref, "refers to another workbook; the audit does not "
-                    "open linked files, so this cell cannot be recomputed", formula=formula,
-                    cached=cell.cached, computed=value)
-            else:
-                message = value if isinstance(value, str) and not _is_error(value) else (
-                    f"Excel error {value}" if _is_error(value) else f"not a finite number ({value})")
-                add("error", cell.sheet, cell.ref, message, formula=formula, cached=cell.cached,
-                    computed=value)
-        else:
-            calls_version = any(c.ours and c.name.upper() == "STILLAIR_VERSION" for c in calls)
-            for ref in members:
-                record = cells.get((cell.sheet, ref))
-                has = record is not None and record.has_cached
-                cached = record.cached if record is not None else None
-                value = computed(cell.sheet, ref)
-                if not has or _is_error(cached):
-                    why = "no cached value" if not has else f"cached {cached}"
-                    add("stale", cell.sheet, ref, f"{why}; the engine gives {_show(value)} "
-                        "(the workbook was not recalculated and saved)", formula=formula,
-                        cached=cached, computed=value)
-                    continue
-                same, rel = _same(cached, value, rtol)
-                if same:
-                    continue
-                if calls_version:
-                    add("version", cell.sheet, ref, f"the workbook records stillair "
-                        f"{_show(cached)}, this engine is {version}", formula=formula,
-                        cached=cached, computed=value)
-                    continue
-                detail = f" (relative difference {rel:.3g})" if rel is not None else ""
-                add("mismatch", cell.sheet, ref, f"workbook {_show(cached)}, engine "
-                    f"{_show(value)}{detail}", formula=formula, cached=cached, computed=value,
-                    rel_diff=rel)
-        for message in cell_notes:
-            if message.startswith("Excel error ") or message == computed(cell.sheet, cell.ref):
+        if outcome.status == "cannot-evaluate":
+            if outcome.cause is not None and any(
+                    k in unknown_cells for k in model.upstream([key]) if k[0] != "#name"):
+                result.unchecked.extend(_label(key[0], m) for m in members)
                 continue
-            add("out-of-range", cell.sheet, cell.ref, message, formula=formula,
-                computed=computed(cell.sheet, cell.ref))
+            add("cannot-evaluate", key[0], key[1], outcome.messages[0], formula=formula,
+                cached=record.cached if record else None)
+            continue
+        if outcome.status == "error":
+            message = outcome.messages[0] if outcome.messages else "error"
+            if message.startswith("follows from"):
+                result.follow_on += 1
+            else:
+                add("error", key[0], key[1], message, formula=formula,
+                    cached=record.cached if record else None, computed=outcome.value)
+            continue
+        calls_version = any(c.ours and c.canonical == "STILLAIR_VERSION" for c in calls)
+        stale_members: list = []
+        for ref in members:
+            member = cells.get((key[0], ref))
+            computed = evaluation.results.get((key[0], ref))
+            value = computed.value if computed is not None else None
+            scale = computed.scale if computed is not None else 0.0
+            has = member is not None and member.has_cached
+            cached = member.cached if member is not None else None
+            template_value = pristine.get((key[0], ref)) if pristine else None
+            if not has or _is_error(cached) or (cached == "" and value not in (None, "")):
+                advice = _stale_advice(book, member or CellRecord(key[0], ref, None), value, None,
+                                       bool(record and record.array_ref))
+                if len(members) > 1:
+                    stale_members.append((ref, cached, value, advice))
+                else:
+                    add("stale", key[0], ref, advice, formula=formula, cached=cached,
+                        computed=value)
+                continue
+            same, rel = _same(cached, value, rtol, atol, scale)
+            if same:
+                continue
+            if calls_version:
+                add("version", key[0], ref, f"the workbook records stillair "
+                    f"{_show(cached)}, this engine is {version}", formula=formula,
+                    cached=cached, computed=value)
+                continue
+            if inputs_changed and template_value is not None and template_value.has_cached and \
+                    _same(cached, template_value.cached, 0.0, 0.0)[0]:
+                add("stale", key[0], ref, _stale_advice(book, member, value, template_value,
+                                                        False),
+                    formula=formula, cached=cached, computed=value)
+                continue
+            detail = f" (relative difference {rel:.3g})" if rel is not None else ""
+            add("mismatch", key[0], ref, f"workbook {_show(cached)}, engine "
+                f"{_show(value)}{detail}", formula=formula, cached=cached, computed=value,
+                rel_diff=rel)
+        if stale_members:
+            # An array formula's cells went stale together: one finding for the array.
+            ref, cached, value, advice = stale_members[0]
+            advice = re.sub(r"; the engine gives [^(]*\(", "; the engine gives values (", advice, count=1)
+            add("stale", key[0], key[1], f"{len(stale_members)} of the {len(members)} cells of "
+                f"the array {record.array_ref}: {advice}", formula=formula, cached=cached,
+                computed=value)
+        if outcome.status == "note":
+            for message in outcome.messages:
+                add("out-of-range", key[0], key[1], message, formula=formula,
+                    computed=outcome.value)
         if len(result.findings) == before:
-            result.ok.extend(_label(cell.sheet, m) for m in members)
-    for label, message in evaluation.notes:
-        if not label and not message.startswith("Excel error "):
+            result.ok.extend(_label(key[0], m) for m in members)
+    for cell, message in evaluation.notes:
+        if not cell:
             result.findings.append(Finding("out-of-range", "", message))
 
 
@@ -651,39 +450,66 @@ def _marker(book) -> str | None:
     return None
 
 
-def _template_drift(result, book, cells, templates_dir) -> str | None:
-    """Compare a filled-in template with its pristine copy; returns the marker text."""
-    from .safezip import UnsafeWorkbook, open_package
-    from .xlsx import BookError, read_book, split_ref
+@dataclass
+class _Pristine:
+    marker: str
+    book: object
+    cells: dict
+
+    def get(self, key):
+        return self.cells.get(key)
+
+
+def _pristine_template(result, book, templates_dir):
+    """The pristine template a filled-in workbook names in its marker (None when it names none,
+    or names one that is not installed, or another version: each said in a finding)."""
+    from .xlsx import BookError, read_book
 
     marker = _marker(book)
     if marker is None:
         return None
-    name, _, version = marker.rpartition(" ")
-    if not name:
-        name, version = marker, ""
+    result.template = marker
+    name = marker.rpartition(" ")[0] or marker
     directory = Path(templates_dir) if templates_dir is not None else default_templates_dir()
     pristine_path = directory / f"{name}.xlsx"
     if not re.match(r"^[A-Za-z0-9][A-Za-z0-9_.-]*$", name) or not pristine_path.is_file():
         result.findings.append(Finding(
             "template-drift", "", f"the workbook says it was made from template {marker!r}, "
             f"which is not among the templates in {directory}; drift cannot be checked"))
-        return marker
+        return None
     try:
-        with open_package(str(pristine_path)) as archive:
-            pristine_book = read_book(str(pristine_path))
-            pristine = read_cells(archive, pristine_book)
-    except (UnsafeWorkbook, BookError) as error:
+        pristine_book = read_book(str(pristine_path))
+    except BookError as error:
         raise AuditError(f"template {name}: {error}") from None
     installed = _marker(pristine_book)
     if installed != marker:
         result.findings.append(Finding(
             "version", "", f"the workbook was made from template {marker!r}; the installed "
             f"template is {installed!r}, so drift is not checked"))
-        return marker
+        return None
+    return _Pristine(marker, pristine_book, records(pristine_book))
+
+
+def _inputs_changed(book, pristine) -> bool:
+    """Whether a constant the template holds was changed in the workbook."""
+    for sheet in pristine.book.sheets:
+        try:
+            now = book.sheet(sheet.name).values
+        except KeyError:
+            continue
+        for ref, value in sheet.values.items():
+            if ref in now and now[ref] != value:
+                return True
+    return False
+
+
+def _template_drift(result, book, cells, pristine) -> None:
+    """Compare a filled-in template's formulas with its pristine copy, by meaning."""
+    from .xlsx import split_ref
+
     present = {s.name.upper(): s.name for s in book.sheets}
-    order = {s.name: i for i, s in enumerate(pristine_book.sheets)}
-    originals = sorted((c for c in pristine.values() if c.formula is not None),
+    order = {s.name: i for i, s in enumerate(pristine.book.sheets)}
+    originals = sorted((c for c in pristine.cells.formulas() if c.formula is not None),
                        key=lambda c: (order.get(c.sheet, 0), split_ref(c.ref)))
     for original in originals:
         sheet = present.get(original.sheet.upper())
@@ -710,7 +536,6 @@ def _template_drift(result, book, cells, templates_dir) -> str | None:
             "template-drift", _label(sheet, original.ref), message,
             formula=now.formula if now is not None else None, cached=cached,
             original_formula=original.formula, sheet=sheet, ref=original.ref))
-    return marker
 
 
 # ---------------------------------------------------------------------------------------------
@@ -760,7 +585,7 @@ def to_json(result: AuditResult) -> dict:
         item["cached"], item["computed"] = _jsonable(item["cached"]), _jsonable(item["computed"])
         findings.append(item)
     return {"book": result.path, "sha256": result.sha256, "engine_version": result.engine_version,
-            "template": result.template, "rtol": None, "checked": len(result.checked),
+            "template": result.template, "rtol": None, "atol": None, "checked": len(result.checked),
             "counts": result.counts(), "follow_on_errors": result.follow_on,
             "unchecked": result.unchecked, "findings": findings, "ok": result.ok,
             "report": result.report, "timing": result.timing, "exit": result.exit_code}
@@ -883,6 +708,9 @@ def _add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
     parser.add_argument("--rtol", type=float, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
+    parser.add_argument("--atol", type=float, default=DEFAULT_ATOL,
+                        help="absolute tolerance (default %(default)g); a difference must also "
+                        "exceed atol + 1e-12 x the largest number the formula reads")
     parser.add_argument("--json", action="store_true", help="print one JSON object")
     parser.add_argument("--report", metavar="REPORT.xlsx",
                         help="also write the findings to a new workbook, one row per finding with "
@@ -894,7 +722,8 @@ def _add_arguments(parser: argparse.ArgumentParser) -> None:
 
 def run_audit(args) -> int:
     try:
-        result = audit_book(args.book, args.rtol, getattr(args, "templates", None))
+        result = audit_book(args.book, args.rtol, getattr(args, "templates", None),
+                            atol=getattr(args, "atol", DEFAULT_ATOL))
     except AuditError as error:
         return _unreadable(args, str(error))
     except Exception as error:  # a damaged file must not show a traceback
@@ -912,6 +741,7 @@ def run_audit(args) -> int:
     if args.json:
         data = to_json(result)
         data["rtol"] = args.rtol
+        data["atol"] = getattr(args, "atol", DEFAULT_ATOL)
         if report_error:
             data["report_error"] = report_error
         print(json.dumps(data, ensure_ascii=False, indent=1))

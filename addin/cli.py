@@ -125,7 +125,7 @@ def calc(args) -> int:
         evaluation = evaluate_book(args.book, sets)
         if args.out:
             _check_out_extension(evaluation.book, args.out)
-            values = {sheet: dict(cells) for sheet, cells in evaluation.values.items()}
+            values = evaluation.writable_values()
             for (sheet, ref), value in evaluation.sets.items():
                 formula = ref in evaluation.book.sheet(sheet).formulas
                 if isinstance(value, str) and not formula:
@@ -137,7 +137,9 @@ def calc(args) -> int:
         say("stillair calc", str(error))
         return EXIT_BAD_INPUT
 
-    errors = error_cells(evaluation)
+    # Exit 1 when a cell is an error or cannot be evaluated (its note says why); range notes
+    # alone leave the result usable.  The evaluator records each cell's status as data.
+    errors = [cell for cell, _ in evaluation.failed]
     if args.json:
         print(json.dumps({
             "values": evaluation.flat_values(),
@@ -150,7 +152,7 @@ def calc(args) -> int:
     print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
           f"load {evaluation.load_seconds:.2f} s, calculate {evaluation.calc_seconds:.2f} s)")
     named = [(name, value) for name, value in evaluation.names.items() if name != "stillair_template"]
-    results = _results_sheet_rows(args.book, evaluation)
+    results = _results_sheet_rows(evaluation)
     if results:
         print("Results:")
         for line in render_results(results):
@@ -174,22 +176,11 @@ def calc(args) -> int:
     if args.out:
         print(f"Wrote {args.out}")
     if errors:
-        print(f"{len(errors)} formula cell{'s' if len(errors) > 1 else ''} evaluate to an error "
-              f"({compress_cells(errors)}): exit status 1")
+        print(f"{len(errors)} formula cell{'s' if len(errors) > 1 else ''} are errors or cannot be "
+              f"evaluated ({compress_cells(errors)}; see the notes): exit status 1")
         return EXIT_FINDINGS
     return 0
 
-
-_ERROR_PREFIX = re.compile(r"^(?:" + "|".join(re.escape(f.name) for f in REGISTRY) + r"): ")
-
-
-def error_cells(evaluation) -> list[str]:
-    """Formula cells whose value is an Excel error (#VALUE!...) or one of our functions' error
-    texts ("H_CAVITY: gap must be > 0 m, got -0.01"), as "Sheet!B3" labels."""
-    from .cachewriter import ERROR_VALUES
-
-    return [label for label, value in evaluation.flat_values().items()
-            if isinstance(value, str) and (value in ERROR_VALUES or _ERROR_PREFIX.match(value))]
 
 
 def _split_label(label: str) -> tuple[str, str, int] | None:
@@ -228,32 +219,27 @@ def group_notes(notes) -> list[tuple[str, str]]:
     return [(compress_cells(cells), message) for message, cells in by_message.items()]
 
 
-def _results_sheet_rows(path: str, evaluation) -> list[list[tuple[object, bool]]]:
+def _results_sheet_rows(evaluation) -> list[list[tuple[object, bool]]]:
     """The rows of a "Results" sheet below its title (row 3 on), each a list of
     (value, is_formula) cells: the computed value for a formula cell, the cell's own value
-    otherwise; trailing blank cells dropped."""
+    otherwise; trailing blank cells dropped.  Read from the workbook calc has read already."""
     if "Results" not in evaluation.values:
         return []
-    import openpyxl
     from .xlsx import index_to_col
 
     computed = evaluation.values["Results"]
-    try:
-        sheet = openpyxl.load_workbook(path, read_only=True)["Results"]
-        raw_rows = list(sheet.iter_rows(min_row=3, values_only=True))
-    except Exception:  # an unreadable layout just falls back to the named results
-        return []
+    sheet = evaluation.book.sheet("Results")
     rows = []
-    for index, raw in enumerate(raw_rows, start=3):
+    for index in range(3, sheet.last_row + 1):
         cells = []
-        for column, value in enumerate(raw, start=1):
+        for column in range(1, sheet.last_col + 1):
             ref = f"{index_to_col(column)}{index}"
             if ref in computed:
                 cells.append((computed[ref], True))
-            elif isinstance(value, str) and value.startswith("="):
+            elif ref in sheet.formulas:
                 cells.append((None, True))  # a formula the evaluation did not reach
             else:
-                cells.append((value, False))
+                cells.append((sheet.values.get(ref), False))
         while cells and _blank(cells[-1][0]):
             cells.pop()
         rows.append(cells)

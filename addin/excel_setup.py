@@ -92,7 +92,7 @@ Route B - functions in every workbook (custom add-in named {PROJECT_NAME}):
   3. Save the add-in, copy it to %APPDATA%\\Microsoft\\AddIns and tick it in
      File > Options > Add-ins > Manage: Excel Add-ins > Go.
   Workbooks saved with add-in calls store them as '{PROJECT_NAME}.xlam'!NAME(...) or [1]!NAME(...);
-  `stillair calc` removes those prefixes on a temporary copy, so such files evaluate headlessly.
+  `stillair calc` and `stillair audit` read those prefixes, so such files evaluate headlessly.
 """
 
 

@@ -752,7 +752,6 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
     """
     from .cachewriter import write_cached_values
     from .headless import evaluate_book
-    from .xlsx import read_book
 
     out = Path(out_path) if out_path is not None else template.path
     out.parent.mkdir(parents=True, exist_ok=True)
@@ -767,13 +766,13 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
             book = TemplateBook(template, raw, values=evaluation.values)
             template.build(book)
             book.close()
-        errors = [(f"{sheet}!{ref}", value) for sheet, cells in evaluation.values.items()
-                  for ref, value in cells.items() if is_error_value(value)]
+        errors = [(cell, result.value if result.status == "error" else result.messages[0])
+                  for cell, result in evaluation.failed]
         if errors:
             shown = ", ".join(f"{cell} = {value}" for cell, value in errors[:8])
             raise TemplateBuildError(f"{template.name}: {len(errors)} cells evaluate to errors: {shown}")
         staged = os.path.join(directory, f"{template.name}.xlsx")
-        write_cached_values(read_book(raw), staged, evaluation.values)
+        write_cached_values(evaluation.book, staged, evaluation.values)
         os.replace(staged, out) if _same_device(staged, out) else _copy(staged, out)
     return out
 

@@ -1,4 +1,4 @@
-"""Reading the parts of an .xlsx/.xlsm package that calc and the cached-value writer need.
+"""The one workbook reader: what calc, the cached-value writer, the audit and drift read.
 
 Sheet XML is scanned with regular expressions on the raw bytes rather than parsed and
 re-serialised, so that the writer can change the value elements of formula cells and leave every
@@ -14,7 +14,8 @@ from dataclasses import dataclass, field
 
 from defusedxml import ElementTree
 
-__all__ = ["BookError", "Book", "Sheet", "FormulaCell", "DefinedName", "read_book",
+__all__ = ["BookError", "Book", "Sheet", "FormulaCell", "DefinedName", "CellError", "Limits",
+           "read_book", "decode_value",
            "CELL_RE", "split_ref", "col_to_index", "index_to_col", "expand_range"]
 
 _NS_MAIN = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
@@ -26,6 +27,9 @@ CELL_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?c\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za
 F_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?f\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za-z_][\w.-]*:)?f>)", re.S)
 ATTR_RE = re.compile(rb'\s([\w:.-]+)\s*=\s*("[^"]*"|\'[^\']*\')')
 _REF_RE = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
+_R_ATTR_RE = re.compile(rb'\sr="([A-Z]{1,3})(\d+)"')
+_T_ATTR_RE = re.compile(rb'\st="([^"]*)"')
+_V_FAST_RE = re.compile(rb"<(?:[\w.-]+:)?v>([^<&]*)</")
 
 
 class BookError(Exception):
@@ -66,11 +70,24 @@ def expand_range(ref: str) -> list[str]:
     return [f"{index_to_col(c)}{r}" for r in range(r1, r2 + 1) for c in range(c1, c2 + 1)]
 
 
-@dataclass
+class CellError(str):
+    """An error value saved in a cell (``#N/A``...): text that says it is an error."""
+
+
+class Limits:
+    """What one workbook may hold before calc or the audit starts work (checked while reading)."""
+
+    max_cells = 2_000_000          # cells with a value or a formula, all sheets
+    max_formulas = 200_000         # formula cells, all sheets
+
+
+@dataclass(slots=True)
 class FormulaCell:
     ref: str                      # "B3"
-    formula: str | None           # text of <f>, None for shared/array members without text
+    formula: str | None           # text of <f> without "="; shared formulas expanded
     array_ref: str | None = None  # "C1:D5" for the anchor of an array formula
+    cached: object = None         # the value the file holds for the cell
+    has_cached: bool = False      # False when the file holds no value (never calculated)
 
 
 @dataclass
@@ -79,7 +96,14 @@ class Sheet:
     part: str                                     # "xl/worksheets/sheet1.xml"
     formulas: dict[str, FormulaCell] = field(default_factory=dict)
     array_members: dict[str, str] = field(default_factory=dict)  # member ref -> anchor ref
-    constants: dict[str, str] = field(default_factory=dict)      # ref -> raw <v> text (numbers)
+    values: dict[str, object] = field(default_factory=dict)      # ref -> value of non-formula cells
+    cached: dict[str, object] = field(default_factory=dict)      # array member ref -> cached value
+    last_row: int = 0                             # the used range: last row and column with content
+    last_col: int = 0
+
+    @property
+    def constants(self) -> dict[str, object]:
+        return self.values
 
     def formula_refs(self) -> list[str]:
         """Every cell whose value a formula computes (array ranges expanded), row-major."""
@@ -104,12 +128,17 @@ class Book:
     sheets: list[Sheet]
     names: list[DefinedName]
     members: list[str]
+    application: str = ""   # docProps/app.xml: the program that saved the file
 
     def sheet(self, name: str) -> Sheet:
         for sheet in self.sheets:
             if sheet.name.lower() == name.lower():
                 return sheet
         raise KeyError(name)
+
+    @property
+    def saved_by_libreoffice(self) -> bool:
+        return "libreoffice" in self.application.lower() or "openoffice" in self.application.lower()
 
 
 def _open(path: str) -> zipfile.ZipFile:
@@ -119,7 +148,7 @@ def _open(path: str) -> zipfile.ZipFile:
         raise BookError(f"{path}: no such file") from None
     except IsADirectoryError:
         raise BookError(f"{path}: is a directory, not a workbook") from None
-    except (zipfile.BadZipFile, OSError) as error:
+    except (zipfile.BadZipFile, OSError, ValueError, EOFError) as error:
         raise BookError(f"{path}: not an .xlsx/.xlsm workbook ({error})") from None
     if "xl/workbook.xml" not in archive.namelist():
         archive.close()
@@ -136,7 +165,18 @@ def _open(path: str) -> zipfile.ZipFile:
 
 
 def read_book(path: str) -> Book:
-    with _open(path) as archive:
+    """Open, safety-check and read ``path`` once: sheets, formulas (shared ones expanded), cached
+    values, constants, defined names.  Every command works from what this returns."""
+    from .safezip import UnsafeWorkbook, open_package
+
+    try:
+        archive = open_package(path)
+    except UnsafeWorkbook as error:
+        raise BookError(str(error)) from None
+    with archive:
+        if "xl/workbook.xml" not in archive.namelist():
+            raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and "
+                            ".xlsb are not supported)")
         try:
             workbook = ElementTree.fromstring(archive.read("xl/workbook.xml"))
             rels = ElementTree.fromstring(archive.read("xl/_rels/workbook.xml.rels"))
@@ -145,7 +185,9 @@ def read_book(path: str) -> Book:
         except Exception as error:  # defusedxml refuses entity tricks
             raise BookError(f"{path}: refused workbook XML ({type(error).__name__})") from None
         targets = {r.get("Id"): r.get("Target") for r in rels.iter(f"{{{_NS_PKG_REL}}}Relationship")}
+        shared = _shared_strings(archive, path)
         sheets = []
+        counts = [0, 0]
         for element in workbook.iter(f"{{{_NS_MAIN}}}sheet"):
             target = targets.get(element.get(f"{{{_NS_REL}}}id"), "")
             part = target.lstrip("/") if target.startswith("/") else posixpath.normpath(
@@ -153,7 +195,10 @@ def read_book(path: str) -> Book:
             if part not in archive.namelist():
                 continue  # a chart sheet or a dangling relationship
             sheet = Sheet(element.get("name"), part)
-            _scan_sheet(sheet, archive.read(part))
+            try:
+                _scan_sheet(sheet, archive.read(part), shared, counts, path)
+            except (UnicodeDecodeError, ValueError) as error:
+                raise BookError(f"{path}: damaged sheet {sheet.name!r} ({error})") from None
             sheets.append(sheet)
         sheet_names = [s.get("name") for s in workbook.iter(f"{{{_NS_MAIN}}}sheet")]
         names = []
@@ -161,35 +206,212 @@ def read_book(path: str) -> Book:
             local = element.get("localSheetId")
             names.append(DefinedName(
                 element.get("name"), element.text or "",
-                sheet_names[int(local)] if local is not None and int(local) < len(sheet_names) else None,
+                sheet_names[int(local)] if local is not None and local.isdigit()
+                and int(local) < len(sheet_names) else None,
                 element.get("hidden") in ("1", "true")))
-        return Book(path, sheets, names, archive.namelist())
+        application = ""
+        if "docProps/app.xml" in archive.namelist():
+            m = re.search(rb"<(?:\w+:)?Application>([^<]*)<", archive.read("docProps/app.xml"))
+            application = _unescape(m.group(1).decode("utf-8", "replace")) if m else ""
+        return Book(path, sheets, names, archive.namelist(), application)
 
 
-def _scan_sheet(sheet: Sheet, xml: bytes) -> None:
-    for match in CELL_RE.finditer(xml):
-        a = attrs(match.group(1))
-        ref = a.get("r")
+def _shared_strings(archive: zipfile.ZipFile, path: str) -> list[str]:
+    if "xl/sharedStrings.xml" not in archive.namelist():
+        return []
+    from .safezip import UnsafeWorkbook, parse_xml
+    try:
+        root = parse_xml(archive.read("xl/sharedStrings.xml"))
+    except UnsafeWorkbook as error:
+        raise BookError(f"{path}: sharedStrings.xml: {error}") from None
+    ns = f"{{{_NS_MAIN}}}"
+    strings = []
+    for si in root.iter(f"{ns}si"):
+        # Rich text runs are joined; phonetic guides (rPh) are not part of the value.
+        phonetic = {id(t) for rph in si.iter(f"{ns}rPh") for t in rph.iter(f"{ns}t")}
+        texts = [t.text or "" for t in si.iter(f"{ns}t") if id(t) not in phonetic]
+        strings.append("".join(texts))
+    return strings
+
+
+_V_RE = re.compile(rb"<(?:[\w.-]+:)?v\s*(?:/>|>([^<]*)</)")
+_T_RE = re.compile(rb"<(?:[\w.-]+:)?t(?:\s[^>]*)?>([^<]*)</")
+
+
+def decode_value(cell_type: str, body: bytes, shared: list[str]) -> tuple[bool, object]:
+    """(whether the cell holds a value, the value) of a <c> element's body."""
+    if cell_type == "inlineStr":
+        return True, _unescape(b"".join(_T_RE.findall(body)).decode("utf-8"))
+    v = _V_RE.search(body)
+    if not v:
+        return False, None
+    text = _unescape((v.group(1) or b"").decode("utf-8"))
+    if cell_type == "str":
+        return True, text
+    if cell_type == "b":
+        return True, text.strip() in ("1", "true")
+    if cell_type == "e":
+        return True, CellError(text.strip())
+    if cell_type == "s":
+        try:
+            return True, shared[int(text)]
+        except (ValueError, IndexError):
+            return True, None
+    if text == "":
+        return False, None   # an empty <v/>: nothing was calculated
+    try:
+        return True, float(text)
+    except ValueError:
+        return True, text
+
+
+_ROW_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?row\b([^>]*?)(?:/>|>(.*?)</(?:[A-Za-z_][\w.-]*:)?row>)",
+                     re.S)
+
+
+def _position(head: bytes):
+    """(column letters, row digits) of a cell's r attribute, or None when it has none."""
+    position = _R_ATTR_RE.search(head)
+    if position is not None:
+        return position.group(1), position.group(2)
+    a = attrs(head)
+    m = _REF_RE.match(a.get("r", "").replace("$", ""))
+    return (m.group(1).upper().encode(), m.group(2).encode()) if m else None
+
+
+class _NoPosition(Exception):
+    """A cell without an r attribute: the sheet is read again row by row."""
+
+
+def _cells_by_row(xml: bytes):
+    """Every <c> with its position; the r attributes of rows and cells are optional in the file
+    format (some writers leave them out): then a cell follows the one before it in its row, and
+    a row the row before it."""
+    done = set()
+    row = 0
+    for row_match in _ROW_RE.finditer(xml):
+        r = attrs(row_match.group(1)).get("r", "")
+        row = int(r) if r.isdigit() else row + 1
+        col = 0
+        for match in CELL_RE.finditer(row_match.group(2) or b""):
+            position = _position(match.group(1))
+            if position is not None:
+                col = col_to_index(position[0].decode())
+            else:
+                col += 1
+            key = (index_to_col(col).encode(), str(row).encode())
+            if key in done:
+                continue
+            done.add(key)
+            yield match, key[0], key[1]
+
+
+def _scan_sheet(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], path: str) -> None:
+    before = list(counts)
+    try:
+        _scan_cells(sheet, xml, shared, counts, path, by_row=False)
+    except _NoPosition:
+        sheet.formulas.clear()
+        sheet.values.clear()
+        counts[:] = before
+        _scan_cells(sheet, xml, shared, counts, path, by_row=True)
+
+
+def _scan_cells(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], path: str,
+                by_row: bool) -> None:
+    from openpyxl.formula.translate import Translator
+
+    anchors: dict[str, Translator] = {}
+    pending: list[tuple[FormulaCell, str]] = []
+    last_row = last_col = 0
+    columns: dict[bytes, int] = {}
+    formulas, values = sheet.formulas, sheet.values
+    search = _R_ATTR_RE.search
+    for item in (_cells_by_row(xml) if by_row else CELL_RE.finditer(xml)):
+        if by_row:
+            match, letters, digits = item
+            head = match.group(1)
+        else:
+            match, head = item, item.group(1)
+            position = search(head)
+            if position is not None:
+                letters, digits = position.group(1), position.group(2)
+            else:
+                position = _position(head)
+                if position is None:
+                    raise _NoPosition
+                letters, digits = position
+        counts[0] += 1
+        if counts[0] > Limits.max_cells:
+            raise BookError(f"{path}: refused: more than {Limits.max_cells:,} cells; calc and the "
+                            "audit take workbooks up to that size")
+        col = columns.get(letters)
+        if col is None:
+            col = columns[letters] = col_to_index(letters.decode())
+        row = int(digits)
+        ref = (letters + digits).decode() if digits[:1] != b"0" else f"{letters.decode()}{row}"
         body = match.group(2) or b""
-        if ref is None:
-            continue
-        f = F_RE.search(body)
-        if f:
-            fa = attrs(f.group(1))
-            text = _unescape(f.group(2).decode()) if f.group(2) else None
-            array = fa.get("ref") if fa.get("t") == "array" else None
-            sheet.formulas[ref] = FormulaCell(ref, text, array)
-        elif a.get("t") in (None, "n"):
-            v = re.search(rb"<(?:[\w.-]+:)?v>([^<]*)</", body)
-            if v:
-                sheet.constants[ref] = v.group(1).decode()
+        kind = _T_ATTR_RE.search(head)
+        cell_type = kind.group(1).decode() if kind else "n"
+        if cell_type == "n" and b"<f" not in body and b"<" in body:
+            v = _V_FAST_RE.search(body)     # the common case: a number
+            if v is None or not v.group(1):
+                continue
+            try:
+                values[ref] = float(v.group(1))
+            except ValueError:
+                values[ref] = v.group(1).decode("utf-8", "replace")
+        else:
+            has, value = decode_value(cell_type, body, shared)
+            f = F_RE.search(body)
+            if f:
+                counts[1] += 1
+                if counts[1] > Limits.max_formulas:
+                    raise BookError(f"{path}: refused: more than {Limits.max_formulas:,} formula "
+                                    "cells; calc and the audit take workbooks up to that size")
+                fa = attrs(f.group(1))
+                text = _unescape(f.group(2).decode("utf-8")) if f.group(2) else None
+                array = fa.get("ref") if fa.get("t") == "array" else None
+                cell = FormulaCell(ref, text, array, value, has)
+                if fa.get("t") == "shared" and "si" in fa:
+                    if text is not None:
+                        anchors[fa["si"]] = Translator("=" + text, origin=ref)
+                    else:
+                        pending.append((cell, fa["si"]))
+                formulas[ref] = cell
+            elif has:
+                values[ref] = value
+            else:
+                continue
+        if row > last_row:
+            last_row = row
+        if col > last_col:
+            last_col = col
+    for cell, si in pending:
+        if si in anchors:
+            cell.formula = anchors[si].translate_formula(cell.ref)[1:]
     for anchor, cell in sheet.formulas.items():
         if cell.array_ref:
+            try:
+                (r1, c1), (r2, c2) = (split_ref(p) for p in (cell.array_ref.split(":") + [anchor])[:2])
+            except ValueError:
+                raise BookError(f"{path}: damaged array formula range {cell.array_ref!r} in "
+                                f"{sheet.name}!{anchor}") from None
+            if (abs(r2 - r1) + 1) * (abs(c2 - c1) + 1) > Limits.max_cells:
+                raise BookError(f"{path}: refused: the array formula in {sheet.name}!{anchor} "
+                                f"spans {cell.array_ref}, more than {Limits.max_cells:,} cells")
             for member in expand_range(cell.array_ref):
                 if member != anchor:
                     sheet.array_members[member] = anchor
+                    if member in sheet.values:
+                        sheet.cached[member] = sheet.values.pop(member)
+                    row, col = split_ref(member)
+                    last_row, last_col = max(last_row, row), max(last_col, col)
+    sheet.last_row, sheet.last_col = last_row, last_col
 
 
 def _unescape(text: str) -> str:
+    if "&" not in text:
+        return text
     return (text.replace("&lt;", "<").replace("&gt;", ">").replace("&quot;", '"')
             .replace("&apos;", "'").replace("&amp;", "&"))

@@ -129,7 +129,6 @@ def test_worst_first_and_summary(planted_result):
 def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     """Graph only (no evaluation): whole columns and rows, a sheet-scoped name and a name that
     refers to another name all carry the dependency on a stillair cell downstream."""
-    from stillair.addin.safezip import open_package
     from stillair.addin.xlsx import read_book
     path = tmp_path / "graph.xlsx"
     wb = xlsxwriter.Workbook(str(path))
@@ -147,11 +146,10 @@ def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     wb.define_name("'My calc'!local_nu", "='My calc'!$B$1")
     wb.define_name("twice", "=2*'My calc'!$C$3")
     wb.close()
-    with open_package(str(path)) as archive:
-        book = read_book(str(path))
-        graph = audit.Graph(book, audit.read_cells(archive, book))
-    seeds = {k for k, c in graph.formula_cells.items() if calls_in(c.formula)}
-    assert sorted(graph.downstream(seeds)) == sorted(
+    from stillair.addin.headless import Model
+    model = Model(read_book(str(path)))
+    seeds = {k for k, node in model.nodes.items() if k[0] != "#name" and calls_in(node.text)}
+    assert sorted(model.downstream(seeds)) == sorted(
         [("My calc", r) for r in ("B1", "C1", "C2", "C3", "C4")] + [("Other", "A1")])
 
 
@@ -366,3 +364,142 @@ def test_every_committed_template_audits_clean(template):
     result = audit_book(str(template))
     assert result.findings == [] and result.checked
     assert result.template.startswith(template.stem + " ")
+
+
+# ---------------------------------------------------------------------------------------------
+# Verdicts a checker can trust
+
+
+def test_round_off_around_zero_is_ok_and_real_differences_still_count(tmp_path, capsys):
+    """A balance saved as -5.7e-14 where the engine gives 0: the difference is far below the
+    size of the numbers the formula subtracts (Nu of 1e2), so it is ok; the same cell 1 % off
+    is still a mismatch."""
+    path = tmp_path / "residual.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("A1", f"=NU_VPLATE({ARGS})", None, NU_PLATE)
+    calc.write_formula("A2", f"=A1-NU_VPLATE({ARGS})", None, -5.7e-14)     # round-off
+    calc.write_formula("A3", f"=A1*1.01-NU_VPLATE({ARGS})", None, 0.0)     # a real 1 % residual
+    wb.close()
+    result = audit_book(str(path))
+    assert _kinds(result) == [("mismatch", "Calc!A3")]
+    assert "Calc!A2" in result.ok
+    assert main([str(path), "--json", "--atol", "2"]) == 0      # a floor above 0.01 * Nu
+    data = json.loads(capsys.readouterr().out)
+    assert data["atol"] == 2 and data["counts"]["mismatch"] == 0
+    assert main([str(path), "--atol", "-1"]) == 2
+    assert "--atol must be >= 0, got -1" in capsys.readouterr().err
+
+
+def test_no_cached_value_is_stale_never_a_mismatch_against_empty_text(tmp_path):
+    path = tmp_path / "uncalculated.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("A1", f"=NU_VPLATE({ARGS})", None, "")     # written by a script: <v></v>
+    wb.close()
+    result = audit_book(str(path))
+    assert _kinds(result) == [("stale", "Calc!A1")]
+    assert result.findings[0].message.startswith("no cached value; the engine gives ")
+    assert "the file holds no calculated value for this cell" in result.findings[0].message
+
+
+def test_built_in_cells_downstream_are_checked(tmp_path):
+    """A saved verdict "OK" that no longer follows from the inputs is a mismatch; a total over a
+    range holding one of our messages is an error naming it (SUM skips text silently)."""
+    path = tmp_path / "downstream.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("B1", f"=NU_VPLATE({ARGS})", None, NU_PLATE)
+    calc.write_formula("B2", '=IF(B1>1000,"OK","too low")', None, "OK")       # engine: too low
+    calc.write_formula("B3", "=NU_VPLATE(Inputs!A3,Inputs!A2)", None,
+                       "NU_VPLATE: Ra must be >= 0, got -1")
+    calc.write_formula("B4", "=SUM(B1,B3)", None, NU_PLATE)
+    wb.close()
+    result = audit_book(str(path))
+    assert _kinds(result) == sorted([("error", "Calc!B3"), ("error", "Calc!B4"),
+                                     ("mismatch", "Calc!B2")])
+    by = {f.cell: f for f in result.findings}
+    assert by["Calc!B2"].message == "workbook 'OK', engine 'too low'"
+    assert by["Calc!B4"].message == "depends on an error in Calc!B3"
+
+
+def test_calc_and_audit_share_one_prefix_grammar(tmp_path):
+    path = tmp_path / "tools.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("A1", f"=tools.xlsm!NU_VPLATE({ARGS})", None, NU_PLATE)
+    calc.write_formula("A2", f"=ORG.STILLAIR.NU_VPLATE({ARGS})", None, NU_PLATE)   # LibreOffice
+    wb.close()
+    for token in ("tools.xlsm!H_RAD(", "book.xlsm!H_RAD(", "ORG.STILLAIR.H_RAD("):
+        assert recognise_call(token).ours
+    assert audit_book(str(path)).ok == ["Calc!A1", "Calc!A2"]
+    from stillair.addin.headless import evaluate_book
+    assert evaluate_book(str(path)).values["Calc"] == pytest.approx(
+        {"A1": NU_PLATE, "A2": NU_PLATE}, rel=1e-6)
+
+
+def test_cannot_evaluate_is_a_finding_of_its_own_and_the_rest_is_checked(tmp_path):
+    path = tmp_path / "three-d.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("A1", f"=NU_VPLATE({ARGS})", None, NU_PLATE)
+    calc.write_formula("A2", "=A1+SUM(Inputs:Calc!C9)", None, NU_PLATE)
+    calc.write_formula("A3", "=A2*2", None, 2 * NU_PLATE)
+    calc.write_formula("A4", "=A1*2", None, 3 * NU_PLATE)
+    wb.close()
+    result = audit_book(str(path))
+    assert _kinds(result) == sorted([("mismatch", "Calc!A4"), ("cannot-evaluate", "Calc!A2"),
+                                     ("cannot-evaluate", "Calc!A3")])
+    by = {f.cell: f.message for f in result.findings}
+    assert by["Calc!A2"] == ("cannot evaluate: 3-D reference Inputs:Calc!C9 (a range of sheets) "
+                             "is not supported headlessly")
+    assert by["Calc!A3"] == "depends on Calc!A2, which cannot be evaluated"
+    assert result.exit_code == 1
+
+
+def test_audit_evaluates_only_what_it_needs(tmp_path, monkeypatch):
+    """A formula that has nothing to do with our cells is neither calculated nor reported, and
+    the package is opened and checked once."""
+    from stillair.addin import safezip
+    path = tmp_path / "unrelated.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    calc.write_formula("A1", f"=NU_VPLATE({ARGS})", None, NU_PLATE)
+    calc.write_formula("B1", "=OFFSET(Inputs!A1,1,0)", None, PR)
+    wb.close()
+    checks = []
+    original = safezip.check_archive
+    monkeypatch.setattr(safezip, "check_archive", lambda *a, **k: (checks.append(a[1]),
+                                                                     original(*a, **k))[1])
+    result = audit_book(str(path))
+    assert result.findings == [] and result.checked == ["Calc!A1"]
+    assert checks == [str(path)]
+
+
+def test_template_drift_compares_meaning(tmp_path, templates):
+    """Numbers by value, names in any case, blanks, sheet quotes and TRUE() as LibreOffice
+    writes them are no drift; a changed number is."""
+    same = [("=5.670374419E-8*A1", "=0.00000005670374419*a1"), ("=A1*3.0", "=A1 * 3"),
+            ("=IF(TRUE,Inputs!A1,0)", "=if(TRUE(),'Inputs'!A1,0)"),
+            ("=_xlfn.IFS(A1>0,1)", "=IFS(A1>0,1)"), ("=NU_VPLATE(A1,A2)", "=nu_vplate(A1,A2)")]
+    for template, saved in same:
+        assert normalise_formula(template) == normalise_formula(saved), (template, saved)
+    assert normalise_formula("=A1*3.0") != normalise_formula("=A1*3.01")
+
+
+def test_quick_filter_lets_every_form_of_our_calls_through():
+    """The audit tokenises only formulas that pass a quick text test; every registry name in
+    any case and every add-in form must pass it (calls_in then decides)."""
+    from stillair.addin.registry import BY_NAME
+    maybe = audit._maybe_ours()
+    for name in BY_NAME:
+        for prefix in PREFIXES + ["tools.xlsm!", "ORG.STILLAIR."]:
+            for written in (name, name.lower()):
+                assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
+    assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")

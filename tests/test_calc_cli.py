@@ -126,3 +126,60 @@ def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, ca
     capsys.readouterr()
     excel_setup.run(dry_run=False, home=home)                  # idempotent
     assert "nothing to add" in capsys.readouterr().out
+
+
+def test_a_formula_that_cannot_be_evaluated_is_a_note_and_exit_1(tmp_path, capsys, monkeypatch):
+    from stillair.addin import safezip
+    path = tmp_path / "indirect.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Gap")
+    ws.write("B1", 1e8)
+    ws.write("B2", 0.71)
+    ws.write_formula("B3", "=NU_VPLATE(B1,B2)")
+    ws.write_formula("B4", '=INDIRECT("B3")*2', None, 123.0)
+    ws.write_formula("B5", "=B4+1", None, 124.0)
+    wb.close()
+    checks = []
+    original = safezip.check_archive
+    monkeypatch.setattr(safezip, "check_archive", lambda *a, **k: (checks.append(a[1]),
+                                                                     original(*a, **k))[1])
+    out_path = tmp_path / "out.xlsx"
+    code, out, err = run(capsys, "calc", path, "--out", out_path)
+    assert code == 1 and err == ""
+    assert checks == [str(path)]               # opened and checked once for calc and --out
+    assert ("Gap!B4: cannot evaluate: INDIRECT builds its reference from text while calculating; "
+            "it is not supported headlessly") in out
+    assert "Gap!B5: depends on Gap!B4, which cannot be evaluated" in out
+    import openpyxl
+    values = openpyxl.load_workbook(out_path, data_only=True)["Gap"]
+    assert values["B3"].value == pytest.approx(stillair.nu_vplate(1e8, 0.71), rel=1e-12)
+    assert (values["B4"].value, values["B5"].value) == (123.0, 124.0)   # left as they were
+    code, out, _ = run(capsys, "calc", path, "--json")
+    data = json.loads(out)
+    assert code == 1 and data["values"]["Gap!B4"] is None
+    assert [n["cell"] for n in data["notes"]] == ["Gap!B4", "Gap!B5"]
+
+
+def test_work_beyond_the_limit_is_refused_before_calculating(tmp_path, capsys, monkeypatch):
+    """Running totals over whole columns: each formula reads the used range, so the cells read
+    grow with the square of the rows; above the limit both commands refuse with the count."""
+    from stillair.addin import audit, headless
+    path = tmp_path / "totals.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("T")
+    for r in range(1, 201):
+        ws.write(f"A{r}", float(r))
+        ws.write_formula(f"B{r}", f"=SUM(A:A)-A{r}+H_RAD(20,10,0.9)")
+    wb.close()
+    monkeypatch.setattr(headless, "MAX_CELLS_READ", 10_000)
+    code, out, err = run(capsys, "calc", path)
+    assert code == 2 and out == ""
+    assert err.strip().endswith("refused: its formulas read 40,200 cells in all (each formula's "
+                                "ranges counted), more than the limit of 10,000 that keeps calc "
+                                "and the audit bounded in time")
+    assert audit.main([str(path)]) == 2
+    assert "refused: its formulas read 40,200 cells" in capsys.readouterr().err
+    monkeypatch.setattr(headless, "MAX_CELLS_READ", 50_000)
+    code, out, _ = run(capsys, "calc", path, "--json")
+    assert code == 0 and json.loads(out)["values"]["T!B200"] == pytest.approx(
+        sum(range(1, 200)) + stillair.h_rad(20, 10, 0.9), rel=1e-12)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import json
+import math
 import re
 import zipfile
 
@@ -10,8 +12,9 @@ import pytest
 import xlsxwriter
 
 from stillair.addin.cells import engine_callable
-from stillair.addin.headless import evaluate_book, rewrite_prefixes
-from stillair.addin.registry import BY_NAME, REGISTRY
+from stillair.addin.formulatext import prepare
+from stillair.addin.headless import evaluate_book
+from stillair.addin.registry import BY_NAME
 from stillair.addin.xlsx import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
 
@@ -145,11 +148,15 @@ def direct_net_heat():
     return float(stillair.solve_network(BRANCHES, BOUNDARIES).heat["wall"])
 
 
-def test_prefix_rewrite_touches_only_our_functions():
-    xml = (b"<f>[1]!H_CAVITY(A1)+'C:\\x\\stillair.xlam'!NU_NOTE(1)+_xll.NET_TEMP(A1)"
-           b"+_xludf.STILLAIR_VERSION()+[1]!OTHER(2)+_xludf.OTHER(3)</f>")
-    assert rewrite_prefixes(xml) == (b"<f>H_CAVITY(A1)+NU_NOTE(1)+NET_TEMP(A1)+STILLAIR_VERSION()"
-                                     b"+[1]!OTHER(2)+_xludf.OTHER(3)</f>")
+def test_every_addin_prefix_form_is_rewritten_for_the_evaluator():
+    formula = ("[1]!H_CAVITY(A1)+'C:\\x\\stillair.xlam'!NU_NOTE(1)+_xll.NET_TEMP(A1)"
+               "+_xludf.STILLAIR_VERSION()+tools.xlsm!H_RAD(1,2,0.9)+h_rad(1,2,0.9)")
+    prepared = prepare(formula, 1, 1, {}, "Calc")
+    assert prepared.problem is None
+    assert prepared.text == ("H_CAVITY(A1)+NU_NOTE(1)+NET_TEMP(A1)+STILLAIR_VERSION()"
+                             "+H_RAD(1,2,0.9)+H_RAD(1,2,0.9)")
+    # Another add-in's function is not ours: the cell is reported, not silently evaluated.
+    assert prepare("[1]!OTHER(2)", 1, 1, {}, "Calc").problem == "[1]!OTHER is not a stillair function"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -225,3 +232,258 @@ def test_array_formulas_give_the_scalar_values_elementwise(array_evaluation):
         assert _close(cells[f"E{row}"], call("H_CAVITY", t, 5.0, 0.016, 1.2))
     assert cells["F2"] == pytest.approx(sum(call("AIR_CONDUCTIVITY", t) for t in temperatures),
                                         rel=1e-12)
+
+
+# ---------------------------------------------------------------------------------------------
+# Real workbooks: one odd formula spoils only its own cells; constructs rewritten before loading
+
+from stillair.addin.cells import call  # noqa: E402
+from stillair.addin.headless import Model  # noqa: E402
+from stillair.addin.xlsx import BookError, read_book  # noqa: E402
+
+# Each formula that the evaluator cannot calculate, and the construct its note must name.
+ODD = {
+    "C1": ("=SUM(S2:S3!A1)", "3-D reference S2:S3!A1 (a range of sheets) is not supported headlessly"),
+    "C2": ("=SUM(Table1[Col])", "structured table reference Table1[Col] is not supported headlessly"),
+    "C3": ('=INDIRECT("A1")*2', "INDIRECT builds its reference from text while calculating"),
+    "C4": ("=OFFSET(A1,1,0)", "OFFSET builds its reference while calculating"),
+    "C5": ("=_xlfn.STOCKHISTORY(A1)", "function STOCKHISTORY (a newer Excel function) is not "
+           "available headlessly"),
+    "C6": ("=_xlfn.LAMBDA(_xlpm.x,_xlpm.x+1)(A1)", "a LAMBDA called in place"),
+    "C7": ("=SUM(A1:XFD1048576)", "covers 17,179,869,184 cells"),
+    "C8": ("=[1]Other!A1", "points into another workbook"),
+}
+
+
+@pytest.fixture(scope="module")
+def odd_book(tmp_path_factory):
+    """Inputs in A1:A5; good stillair and built-in cells in B; one odd formula per cell of C;
+    D1 depends on an odd cell, D2 on a good one."""
+    path = tmp_path_factory.mktemp("odd") / "odd.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for sheet, value in (("S2", 1.0), ("S3", 2.0)):
+        wb.add_worksheet(sheet).write("A1", value)
+    for row, value in enumerate([20.0, 10.0, 0.9, 0.02, 1.0]):
+        ws.write(row, 0, value)
+    good = {
+        "B1": "=H_RAD(A1,A2,A3)",
+        "B2": "=1E9+2.5e3",                              # unsigned exponents: must simply work
+        "B3": "=SUM(A:A)", "B4": "=SUM(20:20)",          # whole column / row: the used range
+        "B5": "=_xlfn.XLOOKUP(10,A1:A5,A1:A5)*2",
+        "B6": "=_xlfn.LET(_xlpm.x,A1,_xlpm.x*2)",
+        "B7": "=_xlfn.SUM(_xlfn._xlws.FILTER(A1:A5,A1:A5>5))",
+        "B8": '=_xlfn.TEXTJOIN("/",TRUE,A1:A2)',
+        "B9": "=ROW()*10+COLUMN()",
+        "B10": "=tools.xlsm!H_RAD(A1,A2,A3)",
+        "B11": "=NU_VPLATE(1E9,0.71)",
+    }
+    ws.write_row("A20", [1.0, 2.0])
+    for ref, formula in good.items():
+        ws.write_formula(ref, formula)
+    for ref, (formula, _) in ODD.items():
+        ws.write_formula(ref, formula)
+    ws.write_formula("D1", "=C1+B1")
+    ws.write_formula("D2", "=B1*2")
+    wb.close()
+    return path
+
+
+def test_one_odd_formula_spoils_only_its_cells(odd_book):
+    evaluation = evaluate_book(str(odd_book))
+    results = {ref: evaluation.results[("Calc", ref)] for ref in evaluation.values["Calc"]}
+    for ref, (_, construct) in ODD.items():
+        assert results[ref].status == "cannot-evaluate", ref
+        assert construct in results[ref].messages[0], (ref, results[ref].messages)
+    assert results["D1"].status == "cannot-evaluate"
+    assert results["D1"].messages == ("depends on Calc!C1, which cannot be evaluated",)
+    h = call("H_RAD", 20.0, 10.0, 0.9)
+    assert results["B1"].value == h and results["D2"].value == 2 * h
+    notes = dict(evaluation.notes)
+    assert set(notes) == {f"Calc!{ref}" for ref in ODD} | {"Calc!D1"}
+    assert all(result.status == "value" for ref, result in results.items() if ref[0] == "B")
+
+
+def test_constructs_the_evaluator_is_taught(odd_book):
+    cells = evaluate_book(str(odd_book)).values["Calc"]
+    h = call("H_RAD", 20.0, 10.0, 0.9)
+    column_a = 20.0 + 10.0 + 0.9 + 0.02 + 1.0 + 1.0
+    assert cells["B2"] == 1e9 + 2500.0
+    assert cells["B3"] == pytest.approx(column_a, rel=1e-15)
+    assert cells["B4"] == 3.0
+    assert cells["B5"] == 20.0 and cells["B6"] == 40.0 and cells["B7"] == 30.0
+    assert cells["B8"] == "20/10"
+    assert cells["B9"] == 9 * 10 + 2
+    assert cells["B10"] == h
+    assert cells["B11"] == call("NU_VPLATE", 1e9, 0.71)
+
+
+def test_whole_columns_cost_the_used_range(odd_book):
+    model = Model(read_book(str(odd_book)))
+    assert model.nodes[("Calc", "B3")].prepared.text == "SUM(A1:A20)"   # rows in use: 1..20
+    assert model.nodes[("Calc", "B4")].prepared.text == "SUM(A20:D20)"  # columns in use: A..D
+
+
+def test_empty_argument_takes_the_default_never_zero(tmp_path):
+    path = tmp_path / "empty.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for row, value in enumerate([20.0, 10.0, 0.9, 0.02, 1.0]):
+        ws.write(row, 0, value)
+    ws.write_formula("B1", "=H_RAD(A1,A2,A3,)")                 # eps2 missing at the end
+    ws.write_formula("B2", '=H_CAVITY(A1,A2,A4,A5,,"air")')     # tilt missing in the middle
+    ws.write_formula("B3", "=H_RAD(A1,,A3)")                    # a required argument missing
+    ws.write_formula("B4", "=MAX(-1,,-2)")                      # built-ins keep Excel's 0
+    wb.close()
+    cells = evaluate_book(str(path)).values["Calc"]
+    assert cells["B1"] == call("H_RAD", 20.0, 10.0, 0.9)        # not "eps2 must be ..., got 0"
+    assert cells["B2"] == call("H_CAVITY", 20.0, 10.0, 0.02, 1.0)   # tilt 90, not 0
+    assert cells["B3"] == "H_RAD: t2 must be a number, got an empty cell"
+    assert cells["B4"] == 0.0
+
+
+def test_sheet_scoped_name_shadows_the_workbook_name(tmp_path):
+    """Excel resolves a name on a sheet that has its own name of that spelling to the sheet's
+    name; elsewhere, and as Sheet!name, to the named scope."""
+    path = tmp_path / "names.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    inputs, calc, other = (wb.add_worksheet(n) for n in ("Inputs", "Calc", "Other"))
+    inputs.write_column("A1", [20.0, 10.0, 0.02, 0.05, 1.0])
+    wb.define_name("gap", "=Inputs!$A$3")
+    wb.define_name("Calc!gap", "=Inputs!$A$4")
+    calc.write_formula("A1", "=H_CAVITY(Inputs!A1,Inputs!A2,gap,Inputs!A5)")
+    other.write_formula("A1", "=H_CAVITY(Inputs!A1,Inputs!A2,gap,Inputs!A5)")
+    other.write_formula("A2", "=Calc!gap*2")
+    wb.close()
+    evaluation = evaluate_book(str(path))
+    assert evaluation.values["Calc"]["A1"] == call("H_CAVITY", 20.0, 10.0, 0.05, 1.0)
+    assert evaluation.values["Other"]["A1"] == call("H_CAVITY", 20.0, 10.0, 0.02, 1.0)
+    assert evaluation.values["Other"]["A2"] == 0.1
+    assert evaluation.names == {"gap": 0.02, "Calc!gap": 0.05}
+
+
+def test_status_is_data_not_the_shape_of_a_text(tmp_path):
+    path = tmp_path / "status.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    ws.write_formula("A1", '="NU_VPLATE: a label someone typed"')   # looks like our message
+    ws.write_formula("A2", "=NU_VPLATE(-1,0.71)")                   # our error message
+    ws.write_formula("A3", "=NU_VPLATE(1E14,0.71)")                 # a value with a range note
+    ws.write_formula("A4", "=1/0")                                  # an Excel error
+    ws.write_formula("A5", "=NU_VPLATE(1E8,0.71)")
+    ws.write_formula("A6", "=SUM(A2,A5)")       # SUM skips the text: a number over an error
+    ws.write_formula("A7", "=A2*2")             # #VALUE!, following from A2
+    ws.write_formula("A8", '=CAVITY_METHOD(1E4,0.71,20)')           # a text result
+    wb.close()
+    evaluation = evaluate_book(str(path))
+    status = {ref: evaluation.results[("Calc", ref)] for ref in evaluation.values["Calc"]}
+    assert [status[r].status for r in ("A1", "A2", "A3", "A4", "A5", "A6", "A7", "A8")] == [
+        "value", "error", "note", "error", "value", "error", "error", "value"]
+    assert status["A2"].messages == ("NU_VPLATE: Ra must be >= 0, got -1",)
+    assert status["A4"].messages == ("Excel error #DIV/0!",)
+    assert status["A6"].value == status["A5"].value
+    assert status["A6"].messages == ("depends on an error in Calc!A2",)
+    assert status["A7"].messages == ("follows from the error in Calc!A2",)
+    assert [cell for cell, _ in evaluation.failed] == ["Calc!A2", "Calc!A4", "Calc!A6", "Calc!A7"]
+
+
+def test_limits_are_checked_before_the_work(tmp_path, monkeypatch, odd_book):
+    from stillair.addin import xlsx
+    monkeypatch.setattr(xlsx.Limits, "max_cells", 10)
+    with pytest.raises(BookError, match=r"refused: more than 10 cells; calc and the audit take "
+                                        r"workbooks up to that size"):
+        read_book(str(odd_book))
+    monkeypatch.setattr(xlsx.Limits, "max_cells", 2_000_000)
+    monkeypatch.setattr(xlsx.Limits, "max_formulas", 5)
+    with pytest.raises(BookError, match=r"refused: more than 5 formula cells"):
+        read_book(str(odd_book))
+
+
+def test_one_model_calculates_many_times_and_only_what_is_asked(odd_book):
+    model = Model(read_book(str(odd_book)))
+    first = model.calculate({("Calc", "A1"): 30.0})
+    second = model.calculate({("Calc", "A1"): 40.0})
+    assert first.values["Calc"]["B1"] == call("H_RAD", 30.0, 10.0, 0.9)
+    assert second.values["Calc"]["B1"] == call("H_RAD", 40.0, 10.0, 0.9)
+    only = model.calculate(only={("Calc", "D2")})
+    assert set(only.values["Calc"]) == {"B1", "D2"}
+
+
+def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
+    """A row copied down is prepared once; every copy still reads its own row, and the result
+    equals preparing each formula on its own."""
+    from stillair.addin import headless
+    path = tmp_path / "rows.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Rows")
+    for r in range(1, 41):
+        ws.write_row(f"A{r}", [15.0 + r, 5.0, 0.01 + 0.0005 * r, 1.0])
+        ws.write_formula(f"E{r}", f"=H_CAVITY(A{r},B{r},C{r},D{r})+$A$1*0")
+        ws.write_formula(f"F{r}", f'=IF(E{r}>1.5,"high","low")')
+    wb.close()
+    book = read_book(str(path))
+    model = Model(book)
+    assert len(model._templates) == 2
+    shared = model.calculate().values["Rows"]
+    prepare = headless.prepare
+    try:
+        headless.prepare = lambda *args: prepare(*args[:5])     # no sharing
+        alone = Model(book).calculate().values["Rows"]
+    finally:
+        headless.prepare = prepare
+    assert shared == alone
+    assert shared["E40"] == call("H_CAVITY", 55.0, 5.0, 0.03, 1.0)
+
+
+def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_path):
+    """MAX and STDEV.P do not need scipy.stats; WEIBULL.DIST does, and gets the real module."""
+    import subprocess
+    import sys
+    path = tmp_path / "stats.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("S")
+    ws.write_column("A1", [2.0, 4.0, 4.0, 4.0, 5.0, 5.0, 7.0, 9.0])
+    ws.write_formula("B1", "=STDEV.P(A1:A8)+MAX(A1:A8)")
+    ws.write_formula("B2", "=STDEVP(A1:A8)")                  # a compatibility name
+    wb.close()
+    probe = ("import sys, json; from stillair.addin.headless import evaluate_book; "
+             f"e = evaluate_book({str(path)!r}); "
+             "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__]))")
+    done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
+    values, kind = json.loads(done.stdout)
+    # population SD of 2,4,4,4,5,5,7,9 is 2 (common practice: the textbook example)
+    assert values == {"B1": 11.0, "B2": 2.0} and kind == "LazyModule"
+    with_dist = tmp_path / "dist.xlsx"
+    wb = xlsxwriter.Workbook(str(with_dist))
+    wb.add_worksheet("S").write_formula("A1", "=_xlfn.WEIBULL.DIST(1,1,1,TRUE)")
+    wb.close()
+    probe = probe.replace(repr(str(path)), repr(str(with_dist)))
+    done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
+    values, kind = json.loads(done.stdout)
+    # Weibull CDF 1 - exp(-(x/scale)^shape) at x = scale: 1 - 1/e (common practice)
+    assert values["A1"] == pytest.approx(1 - math.exp(-1), rel=1e-12) and kind == "module"
+
+
+def test_cells_and_rows_without_positions(tmp_path):
+    """The r attributes of <row> and <c> are optional in the file format: a cell without one
+    follows the cell before it, a row the row before it."""
+    import zipfile
+    path = tmp_path / "positions.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("P")
+    ws.write_row("A1", [20.0, 10.0, 0.9])
+    ws.write_formula("A2", "=H_RAD(A1,B1,C1)")
+    wb.close()
+    with zipfile.ZipFile(path) as source:
+        items = {i.filename: source.read(i) for i in source.infolist()}
+    sheet = items["xl/worksheets/sheet1.xml"]
+    stripped = re.sub(rb'<c r="[A-Z]+\d+"', b"<c", sheet)
+    stripped = re.sub(rb'(<row r="2"[^>]*>)', lambda m: re.sub(rb' r="2"', b"", m.group(1)), stripped)
+    assert stripped.count(b' r="') == 1       # only row 1 keeps its number
+    items["xl/worksheets/sheet1.xml"] = stripped
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED) as target:
+        for name, data in items.items():
+            target.writestr(name, data)
+    book = read_book(str(path))
+    assert book.sheet("P").values == {"A1": 20.0, "B1": 10.0, "C1": 0.9}
+    assert evaluate_book(book).values["P"] == {"A2": call("H_RAD", 20.0, 10.0, 0.9)}

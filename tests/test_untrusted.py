@@ -202,13 +202,14 @@ def test_external_links_are_not_followed(tmp_path):
     assert xlreader.load_workbook.__qualname__ == "load_workbook"  # no guard left installed
     with zipfile.ZipFile(path) as archive:
         assert any("externalLink" in name for name in archive.namelist())
-    # stillair calc runs under the same guard as the audit: the linked value never arrives.
-    calculated = evaluate_book(str(path)).values["Calc"]["B1"]
-    assert not isinstance(calculated, float)
+    # stillair calc never opens a linked file: the cell cannot be evaluated, and says why.
+    evaluation = evaluate_book(str(path))
+    assert evaluation.values["Calc"]["B1"] is None
+    assert evaluation.results[("Calc", "B1")].status == "cannot-evaluate"
     result = audit_book(str(path))
-    assert [(f.kind, f.cell) for f in result.findings] == [("error", "Calc!B1")]
-    assert result.findings[0].message.startswith("refers to another workbook; the audit does not "
-                                                 "open linked files")
+    assert [(f.kind, f.cell) for f in result.findings] == [("cannot-evaluate", "Calc!B1")]
+    assert result.findings[0].message == ("cannot evaluate: reference [1]Sheet1!$A$1 points into "
+                                          "another workbook, which is not opened")
 
 
 def test_no_network_connection(tmp_path, monkeypatch):
