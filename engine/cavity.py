@@ -33,6 +33,8 @@ against local codes, the manufacturer's ratings and licensed practice.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .correlations import (
@@ -104,8 +106,18 @@ def cavity_critical_tilt(aspect):
 
 
 def _critical_tilt(aspect):
-    table_aspect, table_tilt = zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),)))
+    if aspect.shape == (1,):  # the scalar path asks for the same t* several times per case
+        return np.array([_critical_tilt_of(float(aspect[0]))])
+    table_aspect, table_tilt = _CRITICAL_TILT_POINTS
     return np.interp(aspect, table_aspect, table_tilt)
+
+
+_CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),))))
+
+
+@lru_cache(maxsize=1024)
+def _critical_tilt_of(aspect: float) -> float:
+    return float(np.interp(aspect, *_CRITICAL_TILT_POINTS))
 
 
 def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None):

@@ -23,7 +23,7 @@ from scipy.constants import zero_Celsius
 
 import numpy as np
 
-from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt
+from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
@@ -142,7 +142,7 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                                **{k: v[mask] for k, v in inputs.items()}))
                 for name, mask in ((name, case == name) for name in cases)], shape)
     else:
-        case = np.full(shape, "", dtype=object)
+        case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
     h = result.nu * props.conductivity / length
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
@@ -184,7 +184,7 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
-                            case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
+                            case=uniform("", shape), in_range=result.in_range, note=result.note)
 
 
 _PLAIN = (float, int, np.float64)

@@ -138,7 +138,10 @@ class Geometry:
 
     def auto_methods(self, case: str | None = None) -> list[str]:
         """The methods auto may use for ``case``, in the rule's order, each once."""
-        return list(dict.fromkeys(step.method for step in self.auto.get(case, ())))
+        cache = self.__dict__.setdefault("_auto_methods", {})   # a cache, not a field
+        if case not in cache:
+            cache[case] = list(dict.fromkeys(step.method for step in self.auto.get(case, ())))
+        return cache[case]
 
     @property
     def methods(self) -> list[str]:
@@ -183,16 +186,24 @@ class Correlation:
     def notes_for(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         """Per element: "" when inside every range, else the first bound crossed."""
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
-        notes = np.full(shape, "", dtype=object)
+        notes = uniform("", shape)
         for bound in reversed(self.ranges(case)):  # first listed bound wins
             values = np.broadcast_to(bound.values(inputs), shape)
             outside = ~np.broadcast_to(bound.inside(inputs), shape)
             if outside.any():
+                if not notes.flags.writeable:
+                    notes = np.full(shape, "", dtype=object)
                 notes[outside] = _violation_notes(self.method, bound, values[outside])
         return notes
 
     def describe_validity(self, case: str | None = None) -> str:
         return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
+
+
+def uniform(value, shape) -> np.ndarray:
+    """A read-only object array holding ``value`` everywhere, without a million references:
+    the method name or empty note of a result where every element shares it."""
+    return np.broadcast_to(np.array(value, dtype=object), shape)
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
@@ -225,7 +236,7 @@ class NusseltResult:
 
     def __post_init__(self):
         if self.blend is None:
-            self.blend = np.full(np.shape(self.nu), "", dtype=object)
+            self.blend = uniform("", np.shape(self.nu))
 
     def scalar(self) -> "NusseltResult":
         return NusseltResult(unwrap(self.nu), unwrap(self.method), unwrap(self.in_range), unwrap(self.note),
@@ -267,6 +278,7 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
             raise RuntimeError(f"correlation {key} registered twice")
         if geometry not in GEOMETRIES:
             raise RuntimeError(f"unknown geometry {geometry!r}; define it first")
+        _METHODS_CACHE.clear()
         CORRELATIONS[key] = Correlation(
             geometry=geometry, method=method, function=function, title=title, source=source,
             equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes,
@@ -277,10 +289,16 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
     return register
 
 
+_METHODS_CACHE: dict[tuple[str, str | None], list[str]] = {}
+
+
 def methods_for(geometry: str, case: str | None = None) -> list[str]:
     """Method names registered for a geometry (and case), in registration order."""
-    return [c.method for (g, _), c in CORRELATIONS.items()
-            if g == geometry and (case is None or not c.cases or case in c.cases)]
+    key = (geometry, case)
+    if key not in _METHODS_CACHE:
+        _METHODS_CACHE[key] = [c.method for (g, _), c in CORRELATIONS.items()
+                               if g == geometry and (case is None or not c.cases or case in c.cases)]
+    return list(_METHODS_CACHE[key])
 
 
 def get_correlation(geometry: str, method: str) -> Correlation:
@@ -427,7 +445,7 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
 
 
 def _first(values) -> float:
-    return float(np.ravel(values)[0])
+    return float(values[0]) if getattr(values, "ndim", 0) == 1 else float(np.ravel(values)[0])
 
 
 def _scalar_note(corr: Correlation, arrays, values, case) -> str:
@@ -452,7 +470,7 @@ def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True) 
     nu = np.asarray(corr.function(**args), dtype=float)
     in_range, note = _range_notes(corr, arrays, case, notes)
     return NusseltResult(nu=nu if nu.shape == size else np.broadcast_to(nu, size).copy(),
-                         method=np.full(size, method, dtype=object), in_range=in_range, note=note)
+                         method=uniform(method, size), in_range=in_range, note=note)
 
 
 def _range_notes(corr: Correlation, arrays, case, notes: bool):
@@ -461,7 +479,7 @@ def _range_notes(corr: Correlation, arrays, case, notes: bool):
         note = corr.notes_for(arrays, case)
         return np.asarray(note == ""), note
     in_range = corr.inside(arrays, case)
-    return in_range, np.full(in_range.shape, "", dtype=object)
+    return in_range, uniform("", in_range.shape)
 
 
 def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
@@ -506,7 +524,7 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
     names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
     if len(names) == 1:  # the usual case: one method everywhere
         in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes)
-        return NusseltResult(nu=nu, method=np.full(size, names[0], dtype=object), in_range=in_range, note=note)
+        return NusseltResult(nu=nu, method=uniform(names[0], size), in_range=in_range, note=note)
     stacked = np.array([np.broadcast_to(weights[n], size) for n in names])   # (methods, points)
     method = np.array(names, dtype=object)[np.argmax(stacked, axis=0)]
     code = (stacked > 0.0).astype(np.int64).T @ (1 << np.arange(len(names), dtype=np.int64))
