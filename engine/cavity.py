@@ -166,7 +166,13 @@ def _only_in_band(band, quantity, stand_in):
     returned, so the Range passes there (the other band's own Range does the checking).  This
     keeps two-band correlations on the one validity mechanism.
     """
-    return lambda inputs: np.where(band(inputs), quantity(inputs), stand_in)
+    def of(inputs):
+        in_band = band(inputs)
+        if in_band.shape == (1,) and not in_band[0]:  # the scalar path: skip the quantity
+            return np.array([stand_in])
+        return np.where(in_band, quantity(inputs), stand_in)
+
+    return of
 
 
 def _input(name):
@@ -266,7 +272,8 @@ def _vertical_correlation(*, method, title, source, equation, validity, notes=""
     def tilted(nu_vertical):
         def nu_tilted(ra, pr, aspect, tilt):
             critical = _critical_tilt(aspect)
-            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if np.any(tilt < critical) else None
+            below = tilt < critical
+            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if below.any() else None
             return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt, horizontal, critical)
 
         nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"

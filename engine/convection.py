@@ -217,7 +217,7 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
 
 
 def _h_only(result: ConvectionResult, function_name: str):
-    if not np.all(result.in_range):
+    if not result.in_range.all():
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return unwrap(result.h)

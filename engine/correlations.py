@@ -418,19 +418,16 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
         return _scalar_result(nu, method, note, "")
     left, nu = 1.0, 0.0
     weights: dict[str, float] = {}
-    for step in geo.auto[case]:
-        corr = CORRELATIONS[(geo.name, step.method)]
+    for name, ranges, function in _compiled_steps(geo, case):
         coverage = 1.0
-        for bound in (corr.ranges(case) if step.when is None else step.when):
-            coverage *= bound.weight_of(values[bound.quantity.lower()] if bound.of is None
-                                        else _first(bound.of(arrays)))
+        for bound, key in ranges:
+            coverage *= bound.weight_of(values[key] if key else _first(bound.of(arrays)))
             if coverage == 0.0:
                 break
         weight = left * coverage
         if weight > 0.0:
-            function = corr.forms[step.form] if step.form else corr.function
             nu += weight * max(_first(function(**args)), floor)
-            weights[step.method] = weights.get(step.method, 0.0) + weight
+            weights[name] = weights.get(name, 0.0) + weight
             left -= weight
         if left <= 0.0 or coverage == 1.0:
             break
@@ -442,6 +439,22 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
     if note and blend:
         note = f"{blend}: {note}"
     return _scalar_result(max(nu, floor), max(names, key=weights.get), note, blend)
+
+
+def _compiled_steps(geo: Geometry, case):
+    """The auto rule of ``case`` as (method, ((range, input name or None), ...), function),
+    built once per geometry and case (a cache, not a field of the frozen Geometry)."""
+    cache = geo.__dict__.setdefault("_compiled_steps", {})
+    if case not in cache:
+        compiled = []
+        for step in geo.auto[case]:
+            corr = CORRELATIONS[(geo.name, step.method)]
+            ranges = corr.ranges(case) if step.when is None else step.when
+            compiled.append((step.method,
+                             tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
+                             corr.forms[step.form] if step.form else corr.function))
+        cache[case] = tuple(compiled)
+    return cache[case]
 
 
 def _first(values) -> float:
