@@ -40,6 +40,7 @@ import numpy as np
 from .correlations import (
     AutoStep,
     Geometry,
+    Parameter,
     correlation,
     define_geometry,
     nusselt,
@@ -257,7 +258,11 @@ define_geometry(Geometry(
                 "above). " + AUTO_RULE,
     auto={None: CAVITY_AUTO},
     floor=1.0, default_tilt=90.0, title="enclosed gas layer (cavity)", length="gap",
-    length_doc="gap L between the two faces, m"))
+    length_doc="gap L between the two faces, m",
+    parameters=(Parameter("gap", "m", "gap between the two faces (> 0)"),
+                Parameter("height", "m", "height of the layer along its faces (> 0)"),
+                Parameter("tilt", "deg", "tilt from the horizontal: 0 heated from below, 90 vertical, "
+                          "180 heated from above", default=90.0))))
 
 
 def _vertical_correlation(*, method, title, source, equation, validity, notes="", forms=None):

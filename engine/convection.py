@@ -26,7 +26,8 @@ import numpy as np
 from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
-from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
+from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
+                       require_positive, unwrap)
 
 __all__ = [
     "ConvectionResult",
@@ -41,6 +42,8 @@ __all__ = [
     "h_cavity",
     "FACINGS",
     "plate_case",
+    "geometry_convection",
+    "convection_geometries",
 ]
 
 FACINGS = ("up", "down")
@@ -214,6 +217,55 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
                             conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
                             method=result.method, case=np.asarray(case, dtype=object),
                             in_range=result.in_range, note=result.note)
+
+
+def convection_geometries() -> tuple:
+    """Every convection geometry (:class:`~stillair.correlations.Geometry`), in definition order.
+
+    Each carries what a caller needs to offer it: ``name``, ``title``, ``parameters`` (the
+    physical arguments of :func:`geometry_convection` in order, with unit, doc and default), ``cases``,
+    ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
+    ``description``.  A new geometry defined in the registry appears here with no other change.
+
+    >>> [g.name for g in convection_geometries()]
+    ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
+    """
+    return tuple(GEOMETRIES.values())
+
+
+def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
+               property_temperature=None, ideal_expansion=False, function_name=None,
+               **parameters) -> ConvectionResult:
+    """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
+
+    ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
+    face), in °C.  Parameters with a default may be left out; an unknown or missing one is an
+    :class:`~stillair.InputError`.  This is :func:`surface_convection` or
+    :func:`cavity_convection` with the arguments read from the geometry's data.
+
+    >>> round(float(geometry_convection("vcyl", 60.0, 20.0, height=0.5, diameter=0.05).h), 2)
+    5.6
+    """
+    function_name = function_name or f"h_{geometry}"
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
+    known = {p.name: p for p in geo.parameters}
+    for name in parameters:
+        if name not in known:
+            raise InputError(function_name, "parameter", name,
+                             f"one of {', '.join(known)} for {geo.name}")
+    values = {}
+    for parameter in geo.parameters:
+        value = parameters.get(parameter.name, parameter.default)
+        if value is None:
+            raise InputError(function_name, parameter.name, None,
+                             f"{'text' if parameter.kind == 'text' else 'a number'} for {geo.name}")
+        values[parameter.name] = value
+    common = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
+                  ideal_expansion=ideal_expansion, function_name=function_name)
+    if geo.name == "cavity":
+        return cavity_convection(t1, t2, values["gap"], values["height"], tilt=values["tilt"], **common)
+    length = values.pop(geo.length)
+    return surface_convection(geo.name, t1, t2, length, **values, **common)
 
 
 def _h_only(result: ConvectionResult, function_name: str):

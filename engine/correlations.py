@@ -55,6 +55,7 @@ __all__ = [
     "Correlation",
     "Geometry",
     "AutoStep",
+    "Parameter",
     "NusseltResult",
     "GEOMETRIES",
     "CORRELATIONS",
@@ -104,6 +105,22 @@ class AutoStep:
 
 
 @dataclass(frozen=True)
+class Parameter:
+    """One physical parameter of a geometry's convection call (beyond the two temperatures),
+    in the order a sheet or a network row gives them."""
+
+    name: str
+    unit: str
+    doc: str
+    default: float | str | None = None   # None: required
+    kind: str = "number"                 # or "text" (facing)
+
+    @property
+    def required(self) -> bool:
+        return self.default is None
+
+
+@dataclass(frozen=True)
 class Geometry:
     """A family of correlations sharing inputs, and every fact about it the layers above read.
 
@@ -135,6 +152,9 @@ class Geometry:
     title: str = ""
     length: str = "length"
     length_doc: str = ""
+    # The physical parameters of the h-level call, in order (the length first): what a sheet
+    # function or a network branch of this geometry takes besides t1, t2, gas and pressure.
+    parameters: tuple[Parameter, ...] = ()
 
     def auto_methods(self, case: str | None = None) -> list[str]:
         """The methods auto may use for ``case``, in the rule's order, each once."""
@@ -150,6 +170,16 @@ class Geometry:
 
     def case_methods(self, case: str | None) -> list[str]:
         return methods_for(self.name, case)
+
+    def method_help(self) -> str:
+        """The methods in words, with the cases each serves where it serves only some:
+        "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)"."""
+        parts = []
+        for method in self.methods:
+            cases = CORRELATIONS[(self.name, method)].cases
+            served = f" ({', '.join(cases)})" if cases and set(cases) != set(self.cases) else ""
+            parts.append(method + served)
+        return ", ".join(parts)
 
 
 @dataclass(frozen=True)
@@ -253,6 +283,8 @@ CORRELATIONS: dict[tuple[str, str], Correlation] = {}
 
 
 def define_geometry(geometry: Geometry) -> Geometry:
+    if geometry.parameters and geometry.parameters[0].name != geometry.length:
+        raise RuntimeError(f"{geometry.name}: the first parameter must be the length {geometry.length!r}")
     for case in geometry.cases or (None,):
         steps = geometry.auto.get(case)
         if not steps or steps[-1].when != ():
