@@ -43,6 +43,8 @@ from .correlations import (
     Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt,
     nusselt_value,
 )
@@ -563,3 +565,17 @@ def cavity_method(ra, pr, aspect, tilt=90.0, method="auto"):
     result = nusselt("cavity", method, function_name="cavity_method",
                      ra=ra, pr=pr, aspect=aspect, tilt=tilt)
     return unwrap(result.method)
+
+
+_CAVITY_TILT = ("Tilt from the horizontal in degrees: 0 heated from below, 90 vertical (default), "
+                "180 heated from above.")
+document(nu_cavity, "cavity", "Nusselt number (on the gap) of an enclosed gas layer, never below 1.",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("float or ndarray", "Nu = h L / k on the gap (-), >= 1: a float for scalar inputs, an array of "
+                              "the broadcast shape otherwise."),
+         ">>> round(nu_cavity(1e4, 0.71, 40.0), 3)\n1.303")
+document(cavity_method, "cavity", "The method ``nu_cavity`` uses for these inputs (auto's dominant one).",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("str or ndarray of str", "The method name; where auto blends two methods, the one with the larger "
+                                   "weight (``stillair.nusselt(...).blend`` names both)."),
+         '>>> cavity_method(1e4, 0.71, 40.0)\n\'elsherbiny\'')

@@ -23,7 +23,7 @@ from scipy.constants import zero_Celsius
 
 import numpy as np
 
-from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt, uniform
+from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
@@ -315,3 +315,44 @@ def h_cavity(t1, t2, gap, height, tilt=90.0, gas="air", pressure=DEFAULT_PRESSUR
     """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
     return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
                                      function_name="h_cavity"), "h_cavity")
+
+
+# --- docstrings of the h functions, from the geometries and the registry -----------------------
+
+def _h_parameters(geometry: str, first: tuple[str, str]):
+    geo = GEOMETRIES[geometry]
+    entries = [(first[0], "array_like", "Temperature of the surface (the layer's underside face for a cavity) "
+                                        "in °C, inside the gas's range."),
+               (first[1], "array_like", "Temperature of the still fluid far from the surface (the other face "
+                                        "for a cavity) in °C, inside the gas's range.")]
+    for parameter in geo.parameters:
+        kind = "str" if parameter.kind == "text" else "array_like"
+        default = f", default {parameter.default:g}" if isinstance(parameter.default, float) else ""
+        unit = f" in {parameter.unit}" if parameter.unit else ""
+        entries.append((parameter.name, kind + default, f"{parameter.doc[:1].upper()}{parameter.doc[1:]}{unit}."))
+    entries += [("gas", 'str, default "air"', 'Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).'),
+                ("pressure", "array_like, default 101325", "Absolute pressure in Pa."),
+                ("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).')]
+    return entries
+
+
+_H = ("float or ndarray", "Convection coefficient h = Nu k / L in W/(m²·K), gas properties at the film "
+      "(mean) temperature: a float for scalar inputs, an array otherwise.")
+_H_SUMMARIES = {
+    "vplate": ("Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
+    "hplate": ("Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
+               'h_hplate(60.0, 20.0, 0.25, "up")', "5.96"),
+    "tplate": ("Convection coefficient of a plate tilted from the vertical.",
+               'h_tplate(60.0, 20.0, 0.5, 30.0, "up")', "4.79"),
+    "hcyl": ("Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
+    "sphere": ("Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
+    "vcyl": ("Convection coefficient of a vertical cylinder, Ra on its height.",
+             "h_vcyl(60.0, 20.0, 0.5, 0.05)", "5.6"),
+    "cavity": ("Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
+               "h_cavity(15.0, 5.0, 0.016, 1.2)", "1.645"),
+}
+for _geometry, (_summary, _call, _value) in _H_SUMMARIES.items():
+    document(globals()[f"h_{_geometry}"], _geometry, _summary,
+             _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
+             f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
+del _geometry, _summary, _call, _value

@@ -26,6 +26,8 @@ from .correlations import (
     Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt_value,
 )
 from .validity import Range
@@ -410,3 +412,25 @@ def nu_vcyl(ra, pr, slenderness, method="auto"):
     Methods: churchill-chu (the plate result, for thick cylinders), popiel (slender cylinders).
     """
     return nusselt_value("vcyl", method, function_name="nu_vcyl", ra=ra, pr=pr, slenderness=slenderness)
+
+
+# --------------------------------------------------------------------------------------------
+# Docstrings of the public functions, from the registry (methods, equations, ranges, sources)
+# --------------------------------------------------------------------------------------------
+
+_NU = ("float or ndarray", "Nusselt number on the geometry's length (-): a float for scalar inputs, "
+       "an array of the broadcast shape otherwise.")
+document(nu_vplate, "vplate", "Nusselt number of a vertical plate in still fluid, Ra on its height.",
+         nusselt_parameters("vplate"), _NU, ">>> round(nu_vplate(1e8, 0.71), 2)\n61.07")
+document(nu_hplate, "hplate", "Nusselt number of a horizontal plate, Ra on area/perimeter, for one case.",
+         nusselt_parameters("hplate", case=True), _NU, '>>> round(nu_hplate(1e6, 0.71, "hot-up"), 2)\n17.08')
+document(nu_tplate, "tplate", "Nusselt number of a plate tilted from the vertical, for one case.",
+         nusselt_parameters("tplate", "Tilt from the vertical in degrees, 0 (vertical) to 90 (horizontal).",
+                            case=True), _NU,
+         '>>> round(nu_tplate(1e8, 0.71, 30.0, "hot-down"), 2)\n58.5')
+document(nu_hcyl, "hcyl", "Nusselt number of a long horizontal cylinder, Ra on the diameter.",
+         nusselt_parameters("hcyl"), _NU, ">>> round(nu_hcyl(1e6, 0.71), 2)\n14.54")
+document(nu_sphere, "sphere", "Nusselt number of a sphere, Ra on the diameter.",
+         nusselt_parameters("sphere"), _NU, ">>> round(nu_sphere(1e6, 0.71), 2)\n16.37")
+document(nu_vcyl, "vcyl", "Nusselt number of a vertical cylinder, Ra on its height.",
+         nusselt_parameters("vcyl"), _NU, ">>> round(nu_vcyl(1e6, 0.71, 10.0), 2)\n24.16")
