@@ -65,6 +65,7 @@ class ConvectionResult:
     case: np.ndarray
     in_range: np.ndarray
     note: np.ndarray
+    blend: np.ndarray | None = None   # "" or "auto blend of A and B" (see NusseltResult)
 
     @property
     def notes(self) -> list[str]:
@@ -152,7 +153,7 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(length, shape), method=result.method, case=case,
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -187,7 +188,7 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
-                            case=uniform("", shape), in_range=result.in_range, note=result.note)
+                            case=uniform("", shape), in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 _PLAIN = (float, int, np.float64)
@@ -216,7 +217,7 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
                             pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
                             conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
                             method=result.method, case=np.asarray(case, dtype=object),
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 def convection_geometries() -> tuple:
