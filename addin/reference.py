@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from .registry import CATEGORIES, REGISTRY
 
-__all__ = ["reference_text", "reference_markdown", "correlations_markdown"]
+__all__ = ["reference_text", "reference_markdown", "correlations_markdown", "network_markdown",
+           "network_text", "KIND_MEANINGS"]
 
 _RESULT = {"text": "text", "table": "table (spills)"}
 
@@ -26,6 +27,10 @@ def _arg_line(arg) -> str:
 
 
 def reference_text() -> str:
+    return _functions_text() + "\n" + network_text()
+
+
+def _functions_text() -> str:
     lines = []
     for category in CATEGORIES.values():
         lines.append(category)
@@ -57,7 +62,117 @@ def reference_markdown() -> str:
     lines.append("Arguments in [brackets] are optional; a blank cell takes the default. "
                  "`stillair functions` lists every argument with its unit and default.")
     lines.append("")
-    return "\n".join(lines) + "\n" + correlations_markdown()
+    return "\n".join(lines) + "\n" + network_markdown() + "\n" + correlations_markdown()
+
+
+# ---------------------------------------------------------------------------------------------
+# The network tables: the parameters of every branch kind come from the engine's BRANCH_KINDS
+# (names, units, defaults); what each kind models and which node is `from` is said here.
+
+KIND_MEANINGS = {
+    "conduction": "plane conduction through a layer; either node may be `from`",
+    "resistance": "a fixed thermal resistance; either node may be `from`",
+    "film": "a fixed surface coefficient h (e.g. from a standard); either node may be `from`",
+    "vplate": "natural convection at a vertical plate: `from` the surface, `to` the fluid",
+    "hplate": "natural convection at a horizontal plate: `from` the surface, `to` the fluid; "
+              "hot or cold follows from the temperatures",
+    "tplate": "natural convection at a tilted plate: `from` the surface, `to` the fluid",
+    "hcyl": "natural convection at a horizontal cylinder or pipe: `from` the surface, `to` the fluid",
+    "sphere": "natural convection at a sphere: `from` the surface, `to` the fluid",
+    "vcyl": "natural convection at the side of a vertical cylinder: `from` the surface, `to` the fluid",
+    "cavity": "convection across an enclosed gas layer between two surfaces: `from` is the "
+              "layer's underside surface (for a vertical layer either face)",
+    "radiation": "grey radiation between `from` and `to`: two large parallel surfaces, or a "
+                 "surface (`from`) in large surroundings (`to`) when p2 is blank",
+}
+
+
+def _param_text(param) -> str:
+    unit = f" {param.unit}" if param.unit else ""
+    if param.check == "facing":
+        unit = " up/down"
+    if param.check == "gas":
+        unit = " name or mixture"
+    blank = ""
+    if param.optional:
+        blank = (" (blank: the network's)" if param.check == "gas" else
+                 f" (blank: {param.default:g})" if isinstance(param.default, float) else
+                 " (blank: large surroundings)" if param.check == "emissivity" else " (optional)")
+    return f"{param.label}{unit}{blank}"
+
+
+def _kinds():
+    from stillair.network import BRANCH_KINDS
+    return BRANCH_KINDS
+
+
+def _conventions() -> list[str]:
+    from stillair.gases import GAS_NAMES, MIXTURE_SUM_TOLERANCE
+    return [
+        "Temperatures in °C; SI units otherwise (m, m², W, K/W, W/(m²·K), Pa).",
+        "Plate tilt is measured from the vertical (0 vertical, 90 horizontal); cavity tilt from "
+        "the horizontal (0 a horizontal layer heated from below, 90 vertical, 180 heated from "
+        "above), as the literature has them.",
+        "Gases: " + ", ".join(GAS_NAMES) + '; a mixture is written "argon:0.9, air:0.1" (mole '
+        f"fractions summing to 1 within {MIXTURE_SUM_TOLERANCE:g}); names ignore case.",
+        "`method` is blank (auto: the correlation whose validity range covers the case) or a "
+        "correlation's method name, as for the NU_ functions' method argument; it applies to "
+        "the convection kinds only.",
+        "Columns a kind does not use stay blank. A header row is allowed, blank rows are "
+        "skipped, and node names typed as numbers are names (1 and 1.0 are node \"1\").",
+        "Heat flows are positive from `from` to `to`. Film-temperature properties are "
+        "re-evaluated for every branch at every iteration.",
+    ]
+
+
+def network_markdown() -> str:
+    """The network tables' reference as markdown (README and `stillair functions --markdown`)."""
+    from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+
+    kinds = _kinds()
+    lines = ["### Thermal network tables (NET_SOLVE, NET_TEMP, NET_HEAT, NET_CHECK)", "",
+             "Branches range, one row per branch: " + " \\| ".join(f"`{c}`" for c in BRANCH_COLUMNS)
+             + ".", "",
+             "| kind | what it models | p1 | p2 | p3 | p4 | p5 |", "|---|---|---|---|---|---|---|"]
+    for kind, params in kinds.items():
+        cells = [_cell(_param_text(p)) for p in params] + [""] * (5 - len(params))
+        lines.append(f"| `{kind}` | {_cell(KIND_MEANINGS.get(kind, ''))} | " + " | ".join(cells) + " |")
+    lines += ["", "Boundaries range, one row per condition: "
+              + " \\| ".join(f"`{c}`" for c in BOUNDARY_COLUMNS) + ".", "",
+              "| T or Q | value | meaning |", "|---|---|---|",
+              "| `T` | °C | fixes the node's temperature |",
+              "| `Q` | W | adds a heat input at a node whose temperature is solved (several Q rows "
+              "at a node add up; a Q row on a fixed node is an error) |", "",
+              "Every node that is not fixed is solved from its energy balance.", "",
+              "Conventions:", ""]
+    lines += [f"- {line}" for line in _conventions()]
+    lines.append("")
+    return "\n".join(lines)
+
+
+def _plain(text: str) -> str:
+    return text.replace("`", '"')
+
+
+def network_text() -> str:
+    """The same reference as plain text, for `stillair functions`."""
+    from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+
+    title = "stillair thermal network tables"
+    lines = [title, "=" * len(title),
+             "Branches range, one row per branch: " + " | ".join(BRANCH_COLUMNS)]
+    for kind, params in _kinds().items():
+        lines.append(f"{kind}: {_plain(KIND_MEANINGS.get(kind, ''))}")
+        for number, param in enumerate(params, start=1):
+            lines.append(f"    - p{number}: {_param_text(param)}")
+    lines += ["Boundaries range, one row per condition: " + " | ".join(BOUNDARY_COLUMNS),
+              "    - T: value in °C fixes the node's temperature",
+              "    - Q: value in W adds a heat input at a node whose temperature is solved "
+              "(several Q rows at a node add up)",
+              "Every node that is not fixed is solved from its energy balance.",
+              "Conventions:"]
+    lines += [f"    - {_plain(line)}" for line in _conventions()]
+    return "\n".join(lines) + "\n"
 
 
 def correlations_markdown() -> str:

@@ -228,10 +228,13 @@ def convection_geometries() -> tuple:
     ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
     ``description``.  A new geometry defined in the registry appears here with no other change.
 
+    Geometries whose h has a model of its own (the open channel, :func:`stillair.h_channel`)
+    define no ``parameters`` and are not listed.
+
     >>> [g.name for g in convection_geometries()]
     ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
     """
-    return tuple(GEOMETRIES.values())
+    return tuple(geometry for geometry in GEOMETRIES.values() if geometry.parameters)
 
 
 def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -248,7 +251,8 @@ def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PR
     5.6
     """
     function_name = function_name or f"h_{geometry}"
-    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
+    names = tuple(g.name for g in convection_geometries())
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, names)]
     known = {p.name: p for p in geo.parameters}
     for name in parameters:
         if name not in known:
