@@ -114,7 +114,7 @@ def _method(geometry: str, examples: str) -> Arg:
 
 M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcadams")
 M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
-M_TPLATE = _method("tilted plate", "as for the vertical and horizontal plate")
+M_TPLATE = _method("tilted plate", "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
 M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
 M_VCYL = _method("vertical cylinder", "churchill-chu, popiel")
 M_SPHERE = _method("sphere", "churchill")
@@ -467,7 +467,8 @@ _SPREAD_ENTRY = CellFunction(
      Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
          default=None),),
     "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
-    "how many cover it, and the methods (lowest first). Not a confidence interval.",
+    "how many cover it, the methods (lowest first). Not a confidence interval. Tilt from the "
+    "vertical for tplate, from the horizontal for cavity.",
     CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row)
 REGISTRY = REGISTRY + (_SPREAD_ENTRY,)
 BY_NAME[_SPREAD_ENTRY.name] = _SPREAD_ENTRY

@@ -56,11 +56,13 @@ __all__ = [
     # Nusselt numbers and the correlation registry
     "nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl", "nu_cavity",
     "cavity_method", "cavity_critical_tilt", "nusselt", "NusseltResult", "methods_for",
+    "nu_spread", "NusseltSpread", "AutoStep", "Parameter",
     "get_correlation", "Correlation", "Geometry", "Range", "GEOMETRIES", "CORRELATIONS",
     "PLATE_CASES",
     # heat-transfer coefficients
     "h_vplate", "h_hplate", "h_tplate", "h_hcyl", "h_sphere", "h_vcyl", "h_cavity", "h_rad",
-    "surface_convection", "cavity_convection", "ConvectionResult",
+    "surface_convection", "cavity_convection", "ConvectionResult", "geometry_convection",
+    "convection_geometries",
     # open channels and plate-fin heat sinks
     "nu_channel", "h_channel", "channel_convection", "channel_spacing", "optimum_elenbaas",
     "heatsink", "heatsink_q", "heatsink_tbase", "HeatSinkResult", "CHANNEL_CASES",

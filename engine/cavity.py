@@ -33,13 +33,18 @@ against local codes, the manufacturer's ratings and licensed practice.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .correlations import (
     AutoStep,
     Geometry,
+    Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt,
     nusselt_value,
 )
@@ -104,8 +109,18 @@ def cavity_critical_tilt(aspect):
 
 
 def _critical_tilt(aspect):
-    table_aspect, table_tilt = zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),)))
+    if aspect.shape == (1,):  # the scalar path asks for the same t* several times per case
+        return np.array([_critical_tilt_of(float(aspect[0]))])
+    table_aspect, table_tilt = _CRITICAL_TILT_POINTS
     return np.interp(aspect, table_aspect, table_tilt)
+
+
+_CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),))))
+
+
+@lru_cache(maxsize=1024)
+def _critical_tilt_of(aspect: float) -> float:
+    return float(np.interp(aspect, *_CRITICAL_TILT_POINTS))
 
 
 def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None):
@@ -154,7 +169,13 @@ def _only_in_band(band, quantity, stand_in):
     returned, so the Range passes there (the other band's own Range does the checking).  This
     keeps two-band correlations on the one validity mechanism.
     """
-    return lambda inputs: np.where(band(inputs), quantity(inputs), stand_in)
+    def of(inputs):
+        in_band = band(inputs)
+        if in_band.shape == (1,) and not in_band[0]:  # the scalar path: skip the quantity
+            return np.array([stand_in])
+        return np.where(in_band, quantity(inputs), stand_in)
+
+    return of
 
 
 def _input(name):
@@ -239,7 +260,11 @@ define_geometry(Geometry(
                 "above). " + AUTO_RULE,
     auto={None: CAVITY_AUTO},
     floor=1.0, default_tilt=90.0, title="enclosed gas layer (cavity)", length="gap",
-    length_doc="gap L between the two faces, m"))
+    length_doc="gap L between the two faces, m",
+    parameters=(Parameter("gap", "m", "gap between the two faces (> 0)"),
+                Parameter("height", "m", "height of the layer along its faces (> 0)"),
+                Parameter("tilt", "deg", "tilt from the horizontal: 0 heated from below, 90 vertical, "
+                          "180 heated from above", default=90.0))))
 
 
 def _vertical_correlation(*, method, title, source, equation, validity, notes="", forms=None):
@@ -254,7 +279,8 @@ def _vertical_correlation(*, method, title, source, equation, validity, notes=""
     def tilted(nu_vertical):
         def nu_tilted(ra, pr, aspect, tilt):
             critical = _critical_tilt(aspect)
-            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if np.any(tilt < critical) else None
+            below = tilt < critical
+            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if below.any() else None
             return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt, horizontal, critical)
 
         nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"
@@ -539,3 +565,17 @@ def cavity_method(ra, pr, aspect, tilt=90.0, method="auto"):
     result = nusselt("cavity", method, function_name="cavity_method",
                      ra=ra, pr=pr, aspect=aspect, tilt=tilt)
     return unwrap(result.method)
+
+
+_CAVITY_TILT = ("Tilt from the horizontal in degrees: 0 heated from below, 90 vertical (default), "
+                "180 heated from above.")
+document(nu_cavity, "cavity", "Nusselt number (on the gap) of an enclosed gas layer, never below 1.",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("float or ndarray", "Nu = h L / k on the gap (-), >= 1: a float for scalar inputs, an array of "
+                              "the broadcast shape otherwise."),
+         ">>> round(nu_cavity(1e4, 0.71, 40.0), 3)\n1.303")
+document(cavity_method, "cavity", "The method ``nu_cavity`` uses for these inputs (auto's dominant one).",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("str or ndarray of str", "The method name; where auto blends two methods, the one with the larger "
+                                   "weight (``stillair.nusselt(...).blend`` names both)."),
+         '>>> cavity_method(1e4, 0.71, 40.0)\n\'elsherbiny\'')

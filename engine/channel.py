@@ -73,7 +73,7 @@ from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 from scipy.optimize import brentq
 
 from .convection import ConvectionResult, surface_convection
-from .correlations import Geometry, correlation, define_geometry, nusselt, nusselt_value
+from .correlations import AutoStep, Geometry, correlation, define_geometry, nusselt, nusselt_value
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from .validity import (
     CorrelationRangeWarning,
@@ -142,8 +142,8 @@ define_geometry(Geometry(
                 "isothermal-adiabatic, flux, flux-adiabatic. Auto rule: bar-cohen-rohsenow for "
                 "every case; outside its range it is still used, with the note. elenbaas "
                 "(isothermal only) is used only when asked for.",
-    auto_order={case: ("bar-cohen-rohsenow",) for case in CHANNEL_CASES},
-    fallback={case: "bar-cohen-rohsenow" for case in CHANNEL_CASES}))
+    auto={case: (AutoStep("bar-cohen-rohsenow", when=()),) for case in CHANNEL_CASES},
+    title="open vertical channel", length="spacing", length_doc="spacing S between the plates, m"))
 
 
 def fully_developed_limit(el, case):
@@ -704,8 +704,8 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             if error.argument == "q":
                 raise
             # the bracket ran past the gas data: the heat is more than the sink can reject there
-            raise InputError(function_name, "q", q_i, "small enough that the film temperature stays "
-                             f"inside the gas data ({error.argument} {error.allowed})") from None
+            raise InputError(function_name, "q", q_i, "small enough that the base temperature stays "
+                             f"inside the gas data ({error.allowed})") from None
         notes[index] = rejected(out[index]).note
     _warn_notes(function_name, notes == "", notes)
     return unwrap(out)

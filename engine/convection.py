@@ -23,10 +23,11 @@ from scipy.constants import zero_Celsius
 
 import numpy as np
 
-from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt
+from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
-from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
+from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
+                       require_positive, unwrap)
 
 __all__ = [
     "ConvectionResult",
@@ -41,6 +42,8 @@ __all__ = [
     "h_cavity",
     "FACINGS",
     "plate_case",
+    "geometry_convection",
+    "convection_geometries",
 ]
 
 FACINGS = ("up", "down")
@@ -62,6 +65,7 @@ class ConvectionResult:
     case: np.ndarray
     in_range: np.ndarray
     note: np.ndarray
+    blend: np.ndarray | None = None   # "" or "auto blend of A and B" (see NusseltResult)
 
     @property
     def notes(self) -> list[str]:
@@ -142,14 +146,14 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                                **{k: v[mask] for k, v in inputs.items()}))
                 for name, mask in ((name, case == name) for name in cases)], shape)
     else:
-        case = np.full(shape, "", dtype=object)
+        case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
     h = result.nu * props.conductivity / length
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(length, shape), method=result.method, case=case,
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -184,7 +188,7 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
-                            case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
+                            case=uniform("", shape), in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 _PLAIN = (float, int, np.float64)
@@ -213,11 +217,64 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
                             pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
                             conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
                             method=result.method, case=np.asarray(case, dtype=object),
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
+
+
+def convection_geometries() -> tuple:
+    """Every convection geometry (:class:`~stillair.correlations.Geometry`), in definition order.
+
+    Each carries what a caller needs to offer it: ``name``, ``title``, ``parameters`` (the
+    physical arguments of :func:`geometry_convection` in order, with unit, doc and default), ``cases``,
+    ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
+    ``description``.  A new geometry defined in the registry appears here with no other change.
+
+    Geometries whose h has a model of its own (the open channel, :func:`stillair.h_channel`)
+    define no ``parameters`` and are not listed.
+
+    >>> [g.name for g in convection_geometries()]
+    ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
+    """
+    return tuple(geometry for geometry in GEOMETRIES.values() if geometry.parameters)
+
+
+def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
+               property_temperature=None, ideal_expansion=False, function_name=None,
+               **parameters) -> ConvectionResult:
+    """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
+
+    ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
+    face), in °C.  Parameters with a default may be left out; an unknown or missing one is an
+    :class:`~stillair.InputError`.  This is :func:`surface_convection` or
+    :func:`cavity_convection` with the arguments read from the geometry's data.
+
+    >>> round(float(geometry_convection("vcyl", 60.0, 20.0, height=0.5, diameter=0.05).h), 2)
+    5.6
+    """
+    function_name = function_name or f"h_{geometry}"
+    names = tuple(g.name for g in convection_geometries())
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, names)]
+    known = {p.name: p for p in geo.parameters}
+    for name in parameters:
+        if name not in known:
+            raise InputError(function_name, "parameter", name,
+                             f"one of {', '.join(known)} for {geo.name}")
+    values = {}
+    for parameter in geo.parameters:
+        value = parameters.get(parameter.name, parameter.default)
+        if value is None:
+            raise InputError(function_name, parameter.name, None,
+                             f"{'text' if parameter.kind == 'text' else 'a number'} for {geo.name}")
+        values[parameter.name] = value
+    common = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
+                  ideal_expansion=ideal_expansion, function_name=function_name)
+    if geo.name == "cavity":
+        return cavity_convection(t1, t2, values["gap"], values["height"], tilt=values["tilt"], **common)
+    length = values.pop(geo.length)
+    return surface_convection(geo.name, t1, t2, length, **values, **common)
 
 
 def _h_only(result: ConvectionResult, function_name: str):
-    if not np.all(result.in_range):
+    if not result.in_range.all():
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return unwrap(result.h)
@@ -263,3 +320,44 @@ def h_cavity(t1, t2, gap, height, tilt=90.0, gas="air", pressure=DEFAULT_PRESSUR
     """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
     return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
                                      function_name="h_cavity"), "h_cavity")
+
+
+# --- docstrings of the h functions, from the geometries and the registry -----------------------
+
+def _h_parameters(geometry: str, first: tuple[str, str]):
+    geo = GEOMETRIES[geometry]
+    entries = [(first[0], "array_like", "Temperature of the surface (the layer's underside face for a cavity) "
+                                        "in °C, inside the gas's range."),
+               (first[1], "array_like", "Temperature of the still fluid far from the surface (the other face "
+                                        "for a cavity) in °C, inside the gas's range.")]
+    for parameter in geo.parameters:
+        kind = "str" if parameter.kind == "text" else "array_like"
+        default = f", default {parameter.default:g}" if isinstance(parameter.default, float) else ""
+        unit = f" in {parameter.unit}" if parameter.unit else ""
+        entries.append((parameter.name, kind + default, f"{parameter.doc[:1].upper()}{parameter.doc[1:]}{unit}."))
+    entries += [("gas", 'str, default "air"', 'Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).'),
+                ("pressure", "array_like, default 101325", "Absolute pressure in Pa."),
+                ("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).')]
+    return entries
+
+
+_H = ("float or ndarray", "Convection coefficient h = Nu k / L in W/(m²·K), gas properties at the film "
+      "(mean) temperature: a float for scalar inputs, an array otherwise.")
+_H_SUMMARIES = {
+    "vplate": ("Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
+    "hplate": ("Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
+               'h_hplate(60.0, 20.0, 0.25, "up")', "5.96"),
+    "tplate": ("Convection coefficient of a plate tilted from the vertical.",
+               'h_tplate(60.0, 20.0, 0.5, 30.0, "up")', "4.79"),
+    "hcyl": ("Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
+    "sphere": ("Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
+    "vcyl": ("Convection coefficient of a vertical cylinder, Ra on its height.",
+             "h_vcyl(60.0, 20.0, 0.5, 0.05)", "5.6"),
+    "cavity": ("Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
+               "h_cavity(15.0, 5.0, 0.016, 1.2)", "1.645"),
+}
+for _geometry, (_summary, _call, _value) in _H_SUMMARIES.items():
+    document(globals()[f"h_{_geometry}"], _geometry, _summary,
+             _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
+             f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
+del _geometry, _summary, _call, _value

@@ -55,6 +55,7 @@ __all__ = [
     "Correlation",
     "Geometry",
     "AutoStep",
+    "Parameter",
     "NusseltResult",
     "GEOMETRIES",
     "CORRELATIONS",
@@ -68,6 +69,8 @@ __all__ = [
     "PLATE_CASES",
     "NusseltSpread",
     "nu_spread",
+    "document",
+    "methods_section",
 ]
 
 PLATE_CASES = ("hot-up", "hot-down", "cold-up", "cold-down")
@@ -104,6 +107,22 @@ class AutoStep:
 
 
 @dataclass(frozen=True)
+class Parameter:
+    """One physical parameter of a geometry's convection call (beyond the two temperatures),
+    in the order a sheet or a network row gives them."""
+
+    name: str
+    unit: str
+    doc: str
+    default: float | str | None = None   # None: required
+    kind: str = "number"                 # or "text" (facing)
+
+    @property
+    def required(self) -> bool:
+        return self.default is None
+
+
+@dataclass(frozen=True)
 class Geometry:
     """A family of correlations sharing inputs, and every fact about it the layers above read.
 
@@ -135,10 +154,16 @@ class Geometry:
     title: str = ""
     length: str = "length"
     length_doc: str = ""
+    # The physical parameters of the h-level call, in order (the length first): what a sheet
+    # function or a network branch of this geometry takes besides t1, t2, gas and pressure.
+    parameters: tuple[Parameter, ...] = ()
 
     def auto_methods(self, case: str | None = None) -> list[str]:
         """The methods auto may use for ``case``, in the rule's order, each once."""
-        return list(dict.fromkeys(step.method for step in self.auto.get(case, ())))
+        cache = self.__dict__.setdefault("_auto_methods", {})   # a cache, not a field
+        if case not in cache:
+            cache[case] = list(dict.fromkeys(step.method for step in self.auto.get(case, ())))
+        return cache[case]
 
     @property
     def methods(self) -> list[str]:
@@ -147,6 +172,16 @@ class Geometry:
 
     def case_methods(self, case: str | None) -> list[str]:
         return methods_for(self.name, case)
+
+    def method_help(self) -> str:
+        """The methods in words, with the cases each serves where it serves only some:
+        "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)"."""
+        parts = []
+        for method in self.methods:
+            cases = CORRELATIONS[(self.name, method)].cases
+            served = f" ({', '.join(cases)})" if cases and set(cases) != set(self.cases) else ""
+            parts.append(method + served)
+        return ", ".join(parts)
 
 
 @dataclass(frozen=True)
@@ -183,16 +218,24 @@ class Correlation:
     def notes_for(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         """Per element: "" when inside every range, else the first bound crossed."""
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
-        notes = np.full(shape, "", dtype=object)
+        notes = uniform("", shape)
         for bound in reversed(self.ranges(case)):  # first listed bound wins
             values = np.broadcast_to(bound.values(inputs), shape)
             outside = ~np.broadcast_to(bound.inside(inputs), shape)
             if outside.any():
+                if not notes.flags.writeable:
+                    notes = np.full(shape, "", dtype=object)
                 notes[outside] = _violation_notes(self.method, bound, values[outside])
         return notes
 
     def describe_validity(self, case: str | None = None) -> str:
         return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
+
+
+def uniform(value, shape) -> np.ndarray:
+    """A read-only object array holding ``value`` everywhere, without a million references:
+    the method name or empty note of a result where every element shares it."""
+    return np.broadcast_to(np.array(value, dtype=object), shape)
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
@@ -225,7 +268,7 @@ class NusseltResult:
 
     def __post_init__(self):
         if self.blend is None:
-            self.blend = np.full(np.shape(self.nu), "", dtype=object)
+            self.blend = uniform("", np.shape(self.nu))
 
     def scalar(self) -> "NusseltResult":
         return NusseltResult(unwrap(self.nu), unwrap(self.method), unwrap(self.in_range), unwrap(self.note),
@@ -242,6 +285,8 @@ CORRELATIONS: dict[tuple[str, str], Correlation] = {}
 
 
 def define_geometry(geometry: Geometry) -> Geometry:
+    if geometry.parameters and geometry.parameters[0].name != geometry.length:
+        raise RuntimeError(f"{geometry.name}: the first parameter must be the length {geometry.length!r}")
     for case in geometry.cases or (None,):
         steps = geometry.auto.get(case)
         if not steps or steps[-1].when != ():
@@ -267,6 +312,7 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
             raise RuntimeError(f"correlation {key} registered twice")
         if geometry not in GEOMETRIES:
             raise RuntimeError(f"unknown geometry {geometry!r}; define it first")
+        _METHODS_CACHE.clear()
         CORRELATIONS[key] = Correlation(
             geometry=geometry, method=method, function=function, title=title, source=source,
             equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes,
@@ -277,10 +323,16 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
     return register
 
 
+_METHODS_CACHE: dict[tuple[str, str | None], list[str]] = {}
+
+
 def methods_for(geometry: str, case: str | None = None) -> list[str]:
     """Method names registered for a geometry (and case), in registration order."""
-    return [c.method for (g, _), c in CORRELATIONS.items()
-            if g == geometry and (case is None or not c.cases or case in c.cases)]
+    key = (geometry, case)
+    if key not in _METHODS_CACHE:
+        _METHODS_CACHE[key] = [c.method for (g, _), c in CORRELATIONS.items()
+                               if g == geometry and (case is None or not c.cases or case in c.cases)]
+    return list(_METHODS_CACHE[key])
 
 
 def get_correlation(geometry: str, method: str) -> Correlation:
@@ -310,7 +362,7 @@ def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, ob
 
 
 def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str:
-    if method is None:
+    if method is None or method == "auto":
         return "auto"
     allowed = ["auto"] + methods_for(geometry.name, case)
     name = method.strip().lower() if isinstance(method, str) else None
@@ -400,19 +452,16 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
         return _scalar_result(nu, method, note, "")
     left, nu = 1.0, 0.0
     weights: dict[str, float] = {}
-    for step in geo.auto[case]:
-        corr = CORRELATIONS[(geo.name, step.method)]
+    for name, ranges, function in _compiled_steps(geo, case):
         coverage = 1.0
-        for bound in (corr.ranges(case) if step.when is None else step.when):
-            coverage *= bound.weight_of(values[bound.quantity.lower()] if bound.of is None
-                                        else _first(bound.of(arrays)))
+        for bound, key in ranges:
+            coverage *= bound.weight_of(values[key] if key else _first(bound.of(arrays)))
             if coverage == 0.0:
                 break
         weight = left * coverage
         if weight > 0.0:
-            function = corr.forms[step.form] if step.form else corr.function
             nu += weight * max(_first(function(**args)), floor)
-            weights[step.method] = weights.get(step.method, 0.0) + weight
+            weights[name] = weights.get(name, 0.0) + weight
             left -= weight
         if left <= 0.0 or coverage == 1.0:
             break
@@ -426,8 +475,24 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
     return _scalar_result(max(nu, floor), max(names, key=weights.get), note, blend)
 
 
+def _compiled_steps(geo: Geometry, case):
+    """The auto rule of ``case`` as (method, ((range, input name or None), ...), function),
+    built once per geometry and case (a cache, not a field of the frozen Geometry)."""
+    cache = geo.__dict__.setdefault("_compiled_steps", {})
+    if case not in cache:
+        compiled = []
+        for step in geo.auto[case]:
+            corr = CORRELATIONS[(geo.name, step.method)]
+            ranges = corr.ranges(case) if step.when is None else step.when
+            compiled.append((step.method,
+                             tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
+                             corr.forms[step.form] if step.form else corr.function))
+        cache[case] = tuple(compiled)
+    return cache[case]
+
+
 def _first(values) -> float:
-    return float(np.ravel(values)[0])
+    return float(values[0]) if getattr(values, "ndim", 0) == 1 else float(np.ravel(values)[0])
 
 
 def _scalar_note(corr: Correlation, arrays, values, case) -> str:
@@ -452,7 +517,7 @@ def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True) 
     nu = np.asarray(corr.function(**args), dtype=float)
     in_range, note = _range_notes(corr, arrays, case, notes)
     return NusseltResult(nu=nu if nu.shape == size else np.broadcast_to(nu, size).copy(),
-                         method=np.full(size, method, dtype=object), in_range=in_range, note=note)
+                         method=uniform(method, size), in_range=in_range, note=note)
 
 
 def _range_notes(corr: Correlation, arrays, case, notes: bool):
@@ -461,7 +526,7 @@ def _range_notes(corr: Correlation, arrays, case, notes: bool):
         note = corr.notes_for(arrays, case)
         return np.asarray(note == ""), note
     in_range = corr.inside(arrays, case)
-    return in_range, np.full(in_range.shape, "", dtype=object)
+    return in_range, uniform("", in_range.shape)
 
 
 def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
@@ -506,7 +571,7 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
     names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
     if len(names) == 1:  # the usual case: one method everywhere
         in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes)
-        return NusseltResult(nu=nu, method=np.full(size, names[0], dtype=object), in_range=in_range, note=note)
+        return NusseltResult(nu=nu, method=uniform(names[0], size), in_range=in_range, note=note)
     stacked = np.array([np.broadcast_to(weights[n], size) for n in names])   # (methods, points)
     method = np.array(names, dtype=object)[np.argmax(stacked, axis=0)]
     code = (stacked > 0.0).astype(np.int64).T @ (1 << np.arange(len(names), dtype=np.int64))
@@ -647,3 +712,68 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
 def _geometry(function_name: str, geometry) -> Geometry:
     name = require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))
     return GEOMETRIES[name]
+
+
+# --- docstrings generated from the registry -----------------------------------------------------
+
+#: What each geometry input is, for the Parameters section (name -> (type, description)).
+INPUT_DOCS = {
+    "ra": ("array_like", "Rayleigh number on the geometry's own length (-), >= 0."),
+    "pr": ("array_like", "Prandtl number of the fluid (-), > 0."),
+    "aspect": ("array_like", "Height/gap H/L of the layer (-), > 0."),
+    "slenderness": ("array_like", "Height/diameter of the cylinder (-), > 0."),
+    "tilt": ("array_like", "Tilt in degrees."),
+}
+
+
+def _indent(text: str, spaces: int = 4) -> str:
+    import textwrap
+    return textwrap.fill(" ".join(text.split()), width=96, initial_indent=" " * spaces,
+                         subsequent_indent=" " * spaces)
+
+
+def methods_section(geometry: str) -> str:
+    """The Notes section of a geometry's public functions: every registered method with its
+    title, equation, validity and source, and the auto rule, read from the registry."""
+    geo = GEOMETRIES[geometry]
+    lines = ["Notes", "-----", f"Methods for the {geo.title or geo.name} (from the correlation registry):", ""]
+    for method in geo.methods:
+        corr = CORRELATIONS[(geometry, method)]
+        cases = corr.cases if corr.cases else (None,)
+        validity = "; ".join(dict.fromkeys(f"{c}: {corr.describe_validity(c)}" if c else corr.describe_validity()
+                                           for c in cases)) if corr.validity_by_case else corr.describe_validity()
+        lines += [f"``{method}``", _indent(f"{corr.title}.", 4), _indent(f"Equation: {corr.equation}", 4),
+                  _indent(f"Valid: {validity}.", 4), _indent(f"Source: {corr.source}", 4), ""]
+    lines += ['``"auto"``', _indent(geo.description, 4)]
+    return "\n".join(lines)
+
+
+def document(function, geometry: str, summary: str, parameters: Sequence[tuple[str, str, str]],
+             returns: tuple[str, str], example: str):
+    """Give ``function`` a numpydoc docstring: ``summary``, its ``parameters`` (name, type,
+    description with unit), ``returns`` (type, description), the geometry's methods and auto
+    rule from the registry, and an ``example`` (doctest lines)."""
+    lines = [summary, "", "Parameters", "----------"]
+    for name, kind, text in parameters:
+        lines += [f"{name} : {kind}", _indent(text, 4)]
+    lines += ["", "Returns", "-------", returns[0], _indent(returns[1], 4), "",
+              "Warns", "-----", "CorrelationRangeWarning",
+              _indent("When an input lies outside the published range of the method used (the value is "
+                      "still returned).", 4), "",
+              methods_section(geometry), "", "Examples", "--------", example]
+    function.__doc__ = "\n".join(lines) + "\n"
+    return function
+
+
+def nusselt_parameters(geometry: str, tilt_doc: str = "", case: bool = False):
+    """The Parameters entries of a ``nu_<geometry>`` function, from the geometry's inputs."""
+    geo = GEOMETRIES[geometry]
+    entries = []
+    for name in geo.inputs:
+        kind, text = INPUT_DOCS[name]
+        entries.append((name, kind, tilt_doc if name == "tilt" and tilt_doc else text))
+    if case:
+        entries.append(("case", "str", 'One of ' + ", ".join(f'"{c}"' for c in geo.cases)
+                        + " (the face looks up or down and is hotter or colder than the fluid)."))
+    entries.append(("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).'))
+    return entries

@@ -23,13 +23,20 @@ from .correlations import (
     UNSTABLE_CASES,
     AutoStep,
     Geometry,
+    Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt_value,
 )
 from .validity import Range
 
 __all__ = ["nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl"]
+
+
+#: The face of a plate: which way it looks; hot or cold follows from the temperatures.
+FACING_PARAMETER = Parameter("facing", "", 'which way the exposed face looks: "up" or "down"', kind="text")
 
 
 def _churchill_pr_factor(pr, constant, exponent):
@@ -52,6 +59,7 @@ def _cos_tilt(inputs):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    parameters=(Parameter("height", "m", "plate height along the surface (> 0)"),),
     name="vplate", title="vertical plate", length="height", length_doc="plate height along the surface, m", inputs=("ra", "pr"),
     description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
                 "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
@@ -102,6 +110,8 @@ def nu_vplate(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    parameters=(Parameter("length", "m", "area/perimeter of the plate (> 0)"),
+                FACING_PARAMETER),
     name="hplate", title="horizontal plate", length="length", length_doc="area/perimeter of the plate, m", inputs=("ra", "pr"), cases=PLATE_CASES,
     description="Horizontal plate, Ra on L = area/perimeter. Cases: hot-up and cold-down "
                 "(unstable: the plume leaves the face), hot-down and cold-up (stable: the fluid is "
@@ -198,6 +208,9 @@ def nu_hplate(ra, pr, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    parameters=(Parameter("length", "m", "plate length along the slope (> 0)"),
+                Parameter("tilt", "deg", "tilt from the vertical, 0 (vertical) to 90 (horizontal)"),
+                FACING_PARAMETER),
     name="tplate", title="tilted plate", length="length", length_doc="plate length along the slope, m", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
     description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
                 "whether it is hotter or colder than the fluid. Ra on the one length the caller "
@@ -263,6 +276,7 @@ def nu_tplate(ra, pr, tilt, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    parameters=(Parameter("diameter", "m", "outside diameter (> 0)"),),
     name="hcyl", title="horizontal cylinder", length="diameter", length_doc="outside diameter, m", inputs=("ra", "pr"),
     description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
                 "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
@@ -313,6 +327,7 @@ def nu_hcyl(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    parameters=(Parameter("diameter", "m", "diameter (> 0)"),),
     name="sphere", title="sphere", length="diameter", length_doc="diameter, m", inputs=("ra", "pr"),
     description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
                 "outside that range churchill is still used, with the note.",
@@ -349,6 +364,8 @@ def _thin_cylinder_group(inputs):
 THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
 
 define_geometry(Geometry(
+    parameters=(Parameter("height", "m", "cylinder height (> 0)"),
+                Parameter("diameter", "m", "outside diameter (> 0)")),
     name="vcyl", title="vertical cylinder", length="height", length_doc="cylinder height, m", inputs=("ra", "pr", "slenderness"),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
@@ -395,3 +412,25 @@ def nu_vcyl(ra, pr, slenderness, method="auto"):
     Methods: churchill-chu (the plate result, for thick cylinders), popiel (slender cylinders).
     """
     return nusselt_value("vcyl", method, function_name="nu_vcyl", ra=ra, pr=pr, slenderness=slenderness)
+
+
+# --------------------------------------------------------------------------------------------
+# Docstrings of the public functions, from the registry (methods, equations, ranges, sources)
+# --------------------------------------------------------------------------------------------
+
+_NU = ("float or ndarray", "Nusselt number on the geometry's length (-): a float for scalar inputs, "
+       "an array of the broadcast shape otherwise.")
+document(nu_vplate, "vplate", "Nusselt number of a vertical plate in still fluid, Ra on its height.",
+         nusselt_parameters("vplate"), _NU, ">>> round(nu_vplate(1e8, 0.71), 2)\n61.07")
+document(nu_hplate, "hplate", "Nusselt number of a horizontal plate, Ra on area/perimeter, for one case.",
+         nusselt_parameters("hplate", case=True), _NU, '>>> round(nu_hplate(1e6, 0.71, "hot-up"), 2)\n17.08')
+document(nu_tplate, "tplate", "Nusselt number of a plate tilted from the vertical, for one case.",
+         nusselt_parameters("tplate", "Tilt from the vertical in degrees, 0 (vertical) to 90 (horizontal).",
+                            case=True), _NU,
+         '>>> round(nu_tplate(1e8, 0.71, 30.0, "hot-down"), 2)\n58.5')
+document(nu_hcyl, "hcyl", "Nusselt number of a long horizontal cylinder, Ra on the diameter.",
+         nusselt_parameters("hcyl"), _NU, ">>> round(nu_hcyl(1e6, 0.71), 2)\n14.54")
+document(nu_sphere, "sphere", "Nusselt number of a sphere, Ra on the diameter.",
+         nusselt_parameters("sphere"), _NU, ">>> round(nu_sphere(1e6, 0.71), 2)\n16.37")
+document(nu_vcyl, "vcyl", "Nusselt number of a vertical cylinder, Ra on its height.",
+         nusselt_parameters("vcyl"), _NU, ">>> round(nu_vcyl(1e6, 0.71, 10.0), 2)\n24.16")

@@ -125,7 +125,6 @@ __all__ = [
     "gas_table_provenance",
     "parse_gas",
     "require_gas_temperature",
-    "plain_state_accepted",
 ]
 
 STANDARD_PRESSURE = 101325.0  # Pa, 1 standard atmosphere
@@ -810,17 +809,46 @@ def _checked_temperature(function: str, argument: str, mixture: "_Mixture", t) -
                            f"°C for {mixture.label}")
 
 
-def require_gas_temperature(function: str, argument: str, t, gas="air") -> np.ndarray:
-    """Check a temperature argument (°C) as the user typed it: a finite number, above absolute
-    zero and inside ``gas``'s tabulated range; the message names ``argument`` and the value.
+def require_gas_temperature(function: str, argument: str, t: ArrayLike, gas: str = "air") -> np.ndarray:
+    """Check a temperature argument as the user typed it.
 
+    Parameters
+    ----------
+    function : str
+        Name the message starts with (the caller's public name, e.g. ``"h_vplate"``).
+    argument : str
+        The argument's name as the user typed it (``"ts"``, ``"t1"``...).
+    t : array_like
+        Temperature in °C.
+    gas : str, default "air"
+        Gas or mixture whose tabulated range applies.
+
+    Returns
+    -------
+    ndarray
+        ``t`` as a float array.
+
+    Raises
+    ------
+    InputError
+        "must be a finite number, got nan", "must be above absolute zero (-273.15 °C)" or
+        "must be in [low, high] °C for <gas>", naming ``argument`` and the value typed.
+
+    Notes
+    -----
+    Absolute zero is -273.15 °C (``scipy.constants.zero_Celsius``); each gas's range is its
+    table's (:data:`GASES`, ``t_range``), a mixture's the intersection of its components'.
+
+    Examples
+    --------
+    >>> from stillair.gases import require_gas_temperature
     >>> require_gas_temperature("h_vplate", "ts", 60.0).item()
     60.0
     """
     return _checked_temperature(function, argument, _mixture(function, gas), t)
 
 
-def plain_state_accepted(gas, temperatures, pressure) -> bool:
+def plain_state_accepted(gas: str, temperatures: tuple, pressure: float) -> bool:
     """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
     numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
     raises (the full checks word the message)."""

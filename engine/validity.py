@@ -272,24 +272,18 @@ class Range:
             if width <= 0.0:
                 return (side * (values - bound) >= 0).astype(float)
             distance = side * (values - bound) / width
-        return np.clip(distance + _OFFSET[self.placement], 0.0, 1.0)
+        # np.minimum/np.maximum: the same as np.clip, several times faster on large arrays
+        return np.minimum(np.maximum(distance + _OFFSET[self.placement], 0.0), 1.0)
 
     def weight_of(self, value: float) -> float:
         """:meth:`weight` of one plain number (the scalar path; the same arithmetic)."""
-        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
         weight = 1.0
-        offset = _OFFSET[self.placement]
-        width = self.transition
-        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
-            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
-                continue
-            if self.log_scale:
-                if side > 0 and bound <= 0.0:
-                    continue
-                if width <= 1.0:
+        for bound, side, log_bound, log_width, width, offset in self._ramps:
+            if log_width is not None:
+                if log_width == 0.0:
                     ramp = 1.0 if side * (value - bound) >= 0 else 0.0
                 else:
-                    distance = side * (math.log(max(value, 1e-300)) - math.log(bound)) / math.log(width)
+                    distance = side * (math.log(value if value > 1e-300 else 1e-300) - log_bound) / log_width
                     ramp = min(max(distance + offset, 0.0), 1.0)
             elif width <= 0.0:
                 ramp = 1.0 if side * (value - bound) >= 0 else 0.0
@@ -299,6 +293,29 @@ class Range:
             if weight == 0.0:
                 break
         return weight
+
+    @property
+    def _ramps(self):
+        """The bounds that have a transition, with their constants, computed once."""
+        try:
+            return self.__dict__["_ramp_constants"]
+        except KeyError:
+            pass
+        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
+        ramps = []
+        width = self.transition
+        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
+            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
+                continue
+            if self.log_scale:
+                if side > 0 and bound <= 0.0:
+                    continue
+                ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0,
+                              width, _OFFSET[self.placement]))
+            else:
+                ramps.append((bound, side, None, None, width, _OFFSET[self.placement]))
+        self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
+        return self.__dict__["_ramp_constants"]
 
 
 _OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}
