@@ -181,7 +181,12 @@ TYPED = {
     "B11": ('=NU_VPLATE(-1;0.7)', ("NU_VPLATE", -1.0, 0.7)),
     "B12": ("=AIR_DENSITY(A1:A2)", ("AIR_DENSITY", [[20.0], [None]])),
     "B13": ("=STILLAIR_VERSION()", ("STILLAIR_VERSION",)),
+    "B15": ("=AIR_DENSITY(A1)", ("AIR_DENSITY", 20.0)),  # formatted 0.00 (FORMATS)
 }
+FORMATS = {"B15": "0.00"}
+ARRAYS = {f"A20:J{19 + NET_ROWS}": "=NET_SOLVE(D1:M2;D5:F6)",
+          "P1:P2": "=AIR_DENSITY(A1:A2)",  # a range: one element per cell
+          "Q1:Q2": "=AIR_DENSITY(A1)"}  # a single value: repeated in every cell, as in Excel
 
 
 @pytest.fixture(scope="module")
@@ -191,9 +196,7 @@ def typed_workbook(installation, tmp_path_factory):
     cells.update({ref: formula for ref, (formula, _) in TYPED.items()})
     saved = work / "typed-in-libreoffice.xlsx"
     job = {"type": {"Sheet1": cells},
-           "arrays": {"Sheet1": {f"A20:J{19 + NET_ROWS}": "=NET_SOLVE(D1:M2;D5:F6)",
-                                 "P1:P2": "=AIR_DENSITY(A1:A2)"}},
-           "save": str(saved)}
+           "arrays": {"Sheet1": ARRAYS}, "formats": {"Sheet1": FORMATS}, "save": str(saved)}
     reopened = work / "reopened.xlsx"
     typed = run_session(installation, [job], work)[0]["sheets"]["Sheet1"]
     shutil.copyfile(saved, reopened)
@@ -225,6 +228,19 @@ def test_a_range_argument_spreads_over_an_array_formula(typed_workbook):
     assert expected[1][0] == "AIR_DENSITY: t must be a number, got an empty cell"
 
 
+def test_a_single_value_shows_as_a_plain_value(typed_workbook):
+    """Functions that may return arrays are declared to return one (README): a single value
+    comes back as a 1x1 array.  It must show exactly as a plain number or text would: with
+    Calc's general format or the cell's own number format, as text for a message, and in every
+    cell of an array formula."""
+    typed, _, _ = typed_workbook
+    density = call("AIR_DENSITY", 20.0)
+    assert typed["B1"]["shown"] == format(density, ".15g")  # Calc's general format: 15 digits
+    assert typed["B15"]["value"] == density and typed["B15"]["shown"] == f"{density:.2f}"
+    assert typed["B6"]["shown"] == typed["B6"]["text"] and typed["B6"]["error"] == 0
+    assert [lo_value(typed["Q1"]), lo_value(typed["Q2"])] == [density, density]
+
+
 def test_net_solve_is_an_array_formula(typed_workbook):
     typed, _, _ = typed_workbook
     table = call("NET_SOLVE", BRANCHES, BOUNDARIES)
@@ -246,7 +262,8 @@ def test_saved_xlsx_reopens_with_the_same_results(typed_workbook):
         sheet = next(n for n in book.namelist() if n.startswith("xl/worksheets/sheet"))
         xml = book.read(sheet).decode("utf-8")
     assert "ORG.STILLAIR.CALC.FUNCTIONS.H_CAVITY(" in xml.upper()
-    for ref in list(TYPED) + [f"{c}{r}" for c in "ABCDEFGHIJ" for r in range(20, 20 + NET_ROWS)]:
+    for ref in list(TYPED) + ["P1", "P2", "Q1", "Q2"] + [
+            f"{c}{r}" for c in "ABCDEFGHIJ" for r in range(20, 20 + NET_ROWS)]:
         assert same(lo_value(typed[ref]), lo_value(again[ref]))[0], (ref, typed[ref], again[ref])
 
 

@@ -25,10 +25,14 @@ def test_oxt_never_overwrites_an_existing_file(tmp_path, capsys):
 
 def test_idl_has_one_method_per_cell_function():
     idl = idl_source()
+    spec = {f["name"]: f for f in function_spec()["functions"]}
     methods = re.findall(r"^\s+(any|sequence< sequence< any > >) (\w+)\(([^)]*)\);$", idl, re.M)
     assert [name for _, name, _ in methods] == [f.name for f in REGISTRY]
     for (kind, name, args), entry in zip(methods, REGISTRY):
-        assert kind == ("sequence< sequence< any > >" if entry.result == "table" else "any"), name
+        # a table, or an array when a numeric argument is a range (a single value as a 1x1 one)
+        may_be_array = entry.result == "table" or entry.takes_arrays
+        assert kind == ("sequence< sequence< any > >" if may_be_array else "any"), name
+        assert spec[name]["array_result"] == may_be_array, name  # the component shapes results by it
         assert args.count("[in] any") == len(entry.args), name
 
 

@@ -4,7 +4,8 @@ Everything in the extension is generated here from :data:`stillair.addin.registr
 build time, except the component (``stillair_calc.py``, shipped as it is):
 
 * ``stillair.idl`` -> ``stillair.rdb``: one UNO interface with one method per cell function
-  (every argument ``any``, so Calc passes blanks as void and ranges as arrays); the type library
+  (every argument ``any``, so Calc passes blanks as void and ranges as arrays; the result a 2-D
+  array where it may be one, see :func:`returns_array`); the type library
   is compiled by the LibreOffice SDK's ``unoidl-write`` against LibreOffice's own types;
 * ``stillair_functions.json``: names, descriptions, argument names and descriptions, categories
   and result kinds for the Function Wizard, plus the Python paths that import stillair;
@@ -29,7 +30,7 @@ from xml.sax.saxutils import escape
 from ..registry import REGISTRY, CellFunction
 
 __all__ = ["IDENTIFIER", "IMPLEMENTATION", "INTERFACE", "ToolMissing",
-           "idl_source", "function_spec", "python_paths", "find_program_dir", "find_unoidl_write",
+           "returns_array", "idl_source", "function_spec", "python_paths", "find_program_dir", "find_unoidl_write",
            "build_oxt"]
 
 IDENTIFIER = "org.stillair.calc"              # the extension's identifier (unopkg list / update)
@@ -45,8 +46,23 @@ class ToolMissing(RuntimeError):
     """A LibreOffice program or SDK tool needed for the build is not installed."""
 
 
+def returns_array(entry: CellFunction) -> bool:
+    """True when the method is declared to return a 2-D array: a table, or a function whose
+    numeric arguments may be ranges (its result is then an array of the broadcast shape).
+
+    A Calc add-in method declared ``any`` can return a number or a text, but not an array from
+    Python: pyuno hands a tuple of tuples over as a sequence of ``any`` (each row one more
+    ``any``), which is not one of the array types Calc accepts (``sequence< sequence< any > >``,
+    ``... double``, ``... string``, ``... long``), so the cell shows #VALUE!; and pyuno refuses a
+    ``uno.Any`` as a return value.  Declared ``sequence< sequence< any > >``, the result is
+    converted to that type on its way out, and a single value goes back as a 1x1 array, which
+    Calc shows as that value in a single cell, in an expression, and in every cell of an array
+    formula."""
+    return entry.result == "table" or entry.takes_arrays
+
+
 def _idl_type(entry: CellFunction) -> str:
-    return "sequence< sequence< any > >" if entry.result == "table" else "any"
+    return "sequence< sequence< any > >" if returns_array(entry) else "any"
 
 
 def idl_source() -> str:
@@ -84,6 +100,7 @@ def function_spec(paths: dict | None = None) -> dict:
             "category": entry.category,
             "description": f"[{entry.category}] {entry.description}",
             "result": entry.result,
+            "array_result": returns_array(entry),
             "args": [{"name": a.name, "doc": _arg_doc(a), "optional": a.optional, "kind": a.kind}
                      for a in entry.args],
         })

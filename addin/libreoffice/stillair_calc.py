@@ -79,26 +79,26 @@ def _blank_text(name, args):
                  for i, value in enumerate(args))
 
 
+def _as_declared(name, result):
+    """The result in the form the method is declared with: a function that may return an array
+    (a table, or ranges given to its numeric arguments) always returns a 2-D array, a single
+    value or message as a 1x1 one (shown as that value); the others return the value itself."""
+    if not FUNCTIONS[name]["array_result"]:
+        return result
+    if isinstance(result, list):
+        return tuple(tuple(row) for row in result)
+    return ((result,),)
+
+
 def _call(name, args):
     _load_stillair()
-    table = FUNCTIONS[name]["result"] == "table"
     if _state["error"] is not None:
-        message = _state["error"][:255]
-        return ((message,),) if table else message
+        return _as_declared(name, _state["error"][:255])
     entry = _state["entries"].get(name)
     if entry is None:
-        message = ("%s: not in the installed stillair; run stillair libreoffice-setup again" % name)
-        return ((message,),) if table else message
-    result = _state["evaluate"](entry, *_blank_text(name, args))
-    if table:
-        if isinstance(result, str):  # the call's error message, in the array's first cell
-            return ((result,),)
-        return tuple(tuple(row) for row in result)
-    if isinstance(result, list):
-        # A range argument gives an array of the broadcast shape; typed as a 2-D array so that
-        # Calc spreads it over an array formula (and shows its first element in a single cell).
-        return uno.Any("[][]any", tuple(tuple(row) for row in result))
-    return result
+        return _as_declared(name, "%s: not in the installed stillair; run stillair "
+                                  "libreoffice-setup again" % name)
+    return _as_declared(name, _state["evaluate"](entry, *_blank_text(name, args)))
 
 
 def _function_method(name):

@@ -7,7 +7,9 @@ extension is installed there with ``unopkg add --shared``), and a list of jobs:
 ``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
 report every formula cell (formula, value or text, error code) and the load and recalculation
 times.  ``{"type": {"Sheet1": {"A1": 1.5, "B1": "=F(A1)"}}, "arrays": {"Sheet1": {"A9:J20":
-"=F(..)"}}}``: type cells into a new spreadsheet through the API and report them likewise.
+"=F(..)"}}, "formats": {"Sheet1": {"B1": "0.00"}}}``: type cells (and number formats) into a
+new spreadsheet through the API and report them likewise.  Every reported cell also has
+``shown``, the text the cell displays.
 """
 
 import json
@@ -112,7 +114,7 @@ def read_formula_cells(doc):
             address = cell.getCellAddress()
             ref = f"{_column(address.Column)}{address.Row + 1}"
             kind = cell.getPropertyValue("FormulaResultType2")
-            item = {"formula": cell.getFormula(), "error": cell.getError()}
+            item = {"formula": cell.getFormula(), "error": cell.getError(), "shown": cell.getString()}
             if item["error"]:
                 item["text"] = cell.getString()
             elif kind == RESULT_STRING:
@@ -140,7 +142,15 @@ def open_and_recalculate(desktop, path):
         doc.close(True)
 
 
-def type_workbook(desktop, cells, arrays, save=None):
+def _number_format(doc, code):
+    from com.sun.star.lang import Locale
+
+    formats = doc.getNumberFormats()
+    key = formats.queryKey(code, Locale(), False)
+    return key if key != -1 else formats.addNew(code, Locale())
+
+
+def type_workbook(desktop, cells, arrays, formats=None, save=None):
     doc = desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0, _props(Hidden=True))
     try:
         sheets = doc.getSheets()
@@ -161,6 +171,10 @@ def type_workbook(desktop, cells, arrays, save=None):
             sheet = sheets.getByName(name)
             for ref, formula in formulas.items():
                 sheet.getCellRangeByName(ref).setArrayFormula(formula)
+        for name, codes in (formats or {}).items():
+            sheet = sheets.getByName(name)
+            for ref, code in codes.items():
+                sheet.getCellRangeByName(ref).setPropertyValue("NumberFormat", _number_format(doc, code))
         doc.calculateAll()
         result = {"sheets": read_formula_cells(doc)}
         if save:
@@ -199,7 +213,8 @@ def main(request_path):
                     results.append(open_and_recalculate(session.desktop, job["open"]))
                 else:
                     results.append(type_workbook(session.desktop, job.get("type", {}),
-                                                 job.get("arrays", {}), job.get("save")))
+                                                 job.get("arrays", {}), job.get("formats"),
+                                                 job.get("save")))
             except Exception as error:  # reported per job; the session goes on
                 results.append({"failed": f"{type(error).__name__}: {error}"})
     finally:
