@@ -103,7 +103,7 @@ def _method(geometry: str, examples: str) -> Arg:
 
 M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcadams")
 M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
-M_TPLATE = _method("tilted plate", "as for the vertical and horizontal plate")
+M_TPLATE = _method("tilted plate", "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
 M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
 M_SPHERE = _method("sphere", "churchill")
 M_CAVITY = _method("cavity", "catton, macgregor-emery, elsherbiny, wright, hollands, globe-dropkin, "

@@ -33,12 +33,18 @@ against local codes, the manufacturer's ratings and licensed practice.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .correlations import (
+    AutoStep,
     Geometry,
+    Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt,
     nusselt_value,
 )
@@ -48,13 +54,18 @@ __all__ = ["nu_cavity", "cavity_method", "cavity_critical_tilt", "tilt_from_vert
            "CRITICAL_TILT_TABLE", "AUTO_RULE"]
 
 AUTO_RULE = (
-    "auto picks the first method whose published ranges cover the case, in this order: "
-    "conduction (heated from above, or below the onset of convection: Ra cos(tilt) <= 1708 and "
-    "Ra sin(tilt) <= 1e3), hollands (0-75 deg, H/L >= 12), globe-dropkin (horizontal, "
-    "3e5 <= Ra <= 7e9), then the vertical correlations with the shared tilt treatment "
-    "(critical tilt to 180 deg): elsherbiny, catton, macgregor-emery, wright.  If none covers "
-    "the case: hollands below 75 deg, elsherbiny from 75 deg, with the out-of-range note.  "
-    "en673 is never chosen by auto (it is the glazing standard's own procedure; ask for it).")
+    "auto weighs, in this order, each method's coverage of what the earlier ones left: "
+    "conduction (heated from above, or Ra cos(tilt) <= 1708 and Ra sin(tilt) <= 1e3), hollands "
+    "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
+    "carried to 5 deg off the horizontal), then the vertical correlations with the shared tilt "
+    "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
+    "catton, macgregor-emery, wright; what is left goes to hollands below 75 deg and elsherbiny "
+    "from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
+    "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
+    "5 deg in tilt - so the value changes without a step and lies between the methods it "
+    "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
+    "explicitly keeps its published form.  en673 is never chosen by auto (it is the glazing "
+    "standard's own procedure; ask for it).")
 
 #: Critical tilt t* (deg from horizontal, heated from below) against aspect H/L, below which the
 #: vertical-layer flow gives way to the Benard cells of the heated-from-below layer.
@@ -62,6 +73,10 @@ AUTO_RULE = (
 #: Hollands/Catton); from memory: H/L 1, 3, 6, 12, > 12 -> 25, 53, 60, 67, 70 deg.
 CRITICAL_TILT_TABLE = ((1.0, 25.0), (3.0, 53.0), (6.0, 60.0), (12.0, 67.0))
 CRITICAL_TILT_TALL = 70.0  # H/L > 12
+#: Where we take the table's "> 12" row to be reached: t* rises linearly from 67 deg at H/L 12
+#: to 70 deg at 15, so that nothing built on t* steps at 12 (our reading of "> 12").
+CRITICAL_TILT_TALL_FROM = 15.0
+SHORT_CAVITY = 12.0  # H/L below which Catton's interpolation covers tilts below t*
 
 RAYLEIGH_ONSET = 1708.0  # Ra cos(tilt) at the onset of Benard cells (rigid walls), Hollands 1976
 CONDUCTION_VERTICAL_RA = 1e3  # vertical-layer conduction regime: ElSherbiny Nu_ct - 1 < 1e-4
@@ -70,33 +85,71 @@ CONDUCTION_VERTICAL_RA = 1e3  # vertical-layer conduction regime: ElSherbiny Nu_
 def cavity_critical_tilt(aspect):
     """Critical tilt t* (deg from horizontal) of a layer of aspect H/L, from Incropera Table 9.3.
 
-    Linear interpolation in the table for 1 <= H/L <= 12; 70 deg for H/L > 12 (the table's
-    "> 12" row, so t* steps from 67 to 70 deg just above 12, as tabulated); 25 deg below H/L = 1
-    (the table's first row held: the table has no entry there).
+    Linear interpolation in the table for 1 <= H/L <= 12; the table's "> 12" row (70 deg) is
+    reached at H/L = 15, linearly from 67 deg at 12, so t* has no step; 70 deg above 15; 25 deg
+    below H/L = 1 (the table's first row held: the table has no entry there).
+
+    Parameters
+    ----------
+    aspect : array_like
+        Height/gap H/L of the layer (> 0).
+
+    Returns
+    -------
+    float or ndarray
+        t* in degrees from the horizontal.
+
+    Examples
+    --------
+    >>> cavity_critical_tilt(3.0), cavity_critical_tilt(40.0)
+    (53.0, 70.0)
     """
     aspect = require_positive("cavity_critical_tilt", "aspect", aspect)
     return unwrap(_critical_tilt(aspect))
 
 
 def _critical_tilt(aspect):
-    table_aspect, table_tilt = zip(*CRITICAL_TILT_TABLE)
-    return np.where(aspect > table_aspect[-1], CRITICAL_TILT_TALL,
-                    np.interp(aspect, table_aspect, table_tilt))
+    if aspect.shape == (1,):  # the scalar path asks for the same t* several times per case
+        return np.array([_critical_tilt_of(float(aspect[0]))])
+    table_aspect, table_tilt = _CRITICAL_TILT_POINTS
+    return np.interp(aspect, table_aspect, table_tilt)
 
 
-def tilt_from_vertical(nu_vertical, tilt):
-    """The shared tilt treatment of a vertical-layer Nusselt number Nu(90).
+_CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),))))
 
+
+@lru_cache(maxsize=1024)
+def _critical_tilt_of(aspect: float) -> float:
+    return float(np.interp(aspect, *_CRITICAL_TILT_POINTS))
+
+
+def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None):
+    """The shared tilt treatment of a vertical-layer Nusselt number Nu(90) (Catton 1978).
+
+    * tilt < t* (when ``nu_horizontal`` Nu(0) and ``critical_tilt`` t* are given): Catton's
+      interpolation Nu = Nu(0) [Nu(90) (sin t*)^(1/4) / Nu(0)]^(tilt/t*), i.e.
+      Nu(0) [Nu(90)/Nu(0)]^(tilt/t*) (sin t*)^(tilt/(4 t*)) (Incropera 6th ed. eq. 9.57, from
+      memory of the number), published for H/L < 12;
     * t* <= tilt <= 90: Ayyaswamy & Catton (1973), Nu = Nu(90) (sin tilt)^(1/4)
       (Incropera 6th ed. eq. 9.58, from memory of the number);
     * 90 <= tilt <= 180: Arnold, Catton & Edwards (1976), Nu = 1 + (Nu(90) - 1) sin tilt
       (Incropera 6th ed. eq. 9.59, from memory of the number).
 
-    Both give Nu(90) at 90 (continuous), and Arnold's gives conduction at 180.
+    The three meet without a step: Nu(0) at 0, Nu(90) (sin t*)^(1/4) at t*, Nu(90) at 90,
+    conduction at 180.
     """
     radians = np.radians(tilt)
     sine = np.sin(radians)
-    return np.where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
+    tilted = np.where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
+    if nu_horizontal is None:
+        return tilted
+    below = tilt < critical_tilt
+    if not np.any(below):
+        return tilted
+    with np.errstate(divide="ignore", invalid="ignore"):
+        at_critical = nu_vertical * np.sin(np.radians(critical_tilt)) ** 0.25
+        interpolated = nu_horizontal * (at_critical / nu_horizontal) ** (tilt / critical_tilt)
+    return np.where(below, interpolated, tilted)
 
 
 # --- validity quantities (Range(of=...)) ------------------------------------------------------
@@ -109,10 +162,6 @@ def _ra_sin(inputs):
     return inputs["ra"] * np.sin(np.radians(inputs["tilt"]))
 
 
-def _catton_x(inputs):
-    return inputs["ra"] * inputs["pr"] / (0.2 + inputs["pr"])
-
-
 def _only_in_band(band, quantity, stand_in):
     """``of`` for a Range that binds only in one band of a two-band correlation.
 
@@ -120,57 +169,135 @@ def _only_in_band(band, quantity, stand_in):
     returned, so the Range passes there (the other band's own Range does the checking).  This
     keeps two-band correlations on the one validity mechanism.
     """
-    return lambda inputs: np.where(band(inputs), quantity(inputs), stand_in)
+    def of(inputs):
+        in_band = band(inputs)
+        if in_band.shape == (1,) and not in_band[0]:  # the scalar path: skip the quantity
+            return np.array([stand_in])
+        return np.where(in_band, quantity(inputs), stand_in)
+
+    return of
 
 
 def _input(name):
     return lambda inputs: inputs[name]
 
 
+def _tilt_past_critical(inputs):
+    return inputs["tilt"] - _critical_tilt(inputs["aspect"])
+
+
 TILT_FROM_CRITICAL = Range(
-    "tilt - critical tilt", low=0.0,
-    of=lambda inputs: inputs["tilt"] - _critical_tilt(inputs["aspect"]))
-"""The vertical methods' tilt range: from the critical tilt t*(aspect) up to 180 deg."""
+    "tilt - critical tilt [H/L >= 12]", low=0.0,
+    of=_only_in_band(lambda i: i["aspect"] >= SHORT_CAVITY, _tilt_past_critical, 0.0))
+"""Tall layers: the vertical methods' tilt range starts at the critical tilt t*(aspect)."""
+
+HORIZONTAL_VALUE_RA = Range(
+    "Ra [tilt < critical tilt]", high=1e8,
+    of=_only_in_band(lambda i: i["tilt"] < _critical_tilt(i["aspect"]), _input("ra"), 0.0))
+"""Below t*, Catton's interpolation takes Nu(0) from Hollands' horizontal form (Ra <= 1e8)."""
+
+VERTICAL_TILT_RANGES = (TILT_FROM_CRITICAL, HORIZONTAL_VALUE_RA)
+
+
+def _vertical_tilt_margin(inputs):
+    """How far (deg) the vertical methods' tilt treatment is inside its reach: any tilt for
+    H/L <= 12, tilt - t* from H/L 15, and continuously between, so auto never switches on it."""
+    reach = (CRITICAL_TILT_TALL_FROM - inputs["aspect"]) * (5.0 / (CRITICAL_TILT_TALL_FROM - SHORT_CAVITY))
+    return np.maximum(_tilt_past_critical(inputs), reach)
+
+
+VERTICAL_TILT_COVERAGE = Range("tilt past the vertical methods' reach", low=0.0, of=_vertical_tilt_margin)
+"""Auto's coverage of the vertical methods in tilt: full for short layers, from t* + 5 deg for
+tall ones (the band inside t*, while hollands hands over across 70-75 deg)."""
 
 
 # --- geometry ---------------------------------------------------------------------------------
 
-def _auto_fallback(inputs):
-    """Method used when no correlation's ranges cover the case (always with the note)."""
-    return np.where(inputs["tilt"] < 75.0, "hollands", "elsherbiny").astype(object)
+_CATTON_BAND_EDGE = 2.0   # H/L where Catton's eqs. 9.53 and 9.52 meet
+_MACGREGOR_EDGE_ASPECT, _MACGREGOR_EDGE_RA = 10.0, 1e7
 
+
+def _catton_x(inputs):
+    return inputs["ra"] * inputs["pr"] / (0.2 + inputs["pr"])
+
+
+#: Auto's coverage of the two published bands of Catton's and MacGregor-Emery's correlations:
+#: their own ranges, with Catton's aspect edge at 2 blended over a factor 1.25 centred on it
+#: (each band extrapolated by a factor 1.12) and MacGregor-Emery's laminar box handing over to
+#: the turbulent one inside both (Ra 2.5e6-1e7).
+CATTON_SHORT_WHEN = (Range("aspect", low=1.0), Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
+                     Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x),
+                     VERTICAL_TILT_COVERAGE)
+CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE / 1.25 ** 0.5, band=1.0), Range("aspect", high=10.0),
+                    Range("Pr", high=1e5), Range("Ra", 1e3, 1e10), VERTICAL_TILT_COVERAGE)
+MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("Pr", 1.0, 2e4),
+                          Range("Ra", 1e4, _MACGREGOR_EDGE_RA), VERTICAL_TILT_COVERAGE)
+MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0), Range("Ra", 1e6, 1e9),
+                            VERTICAL_TILT_COVERAGE)
+ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7))
+WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", low=20.0))
+
+CAVITY_AUTO = (
+    AutoStep("conduction"),
+    AutoStep("hollands", when=(Range("tilt", high=75.0), Range("aspect", low=SHORT_CAVITY),
+                               Range("Ra", high=1e8))),
+    AutoStep("globe-dropkin", when=(Range("tilt", high=0.0, placement="outside"), Range("Ra", 3e5, 7e9),
+                                    Range("Pr", 0.02, 8750.0))),
+    AutoStep("elsherbiny", when=ELSHERBINY_RANGES + (VERTICAL_TILT_COVERAGE,)),
+    AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
+    AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
+    AutoStep("macgregor-emery", when=MACGREGOR_LAMINAR_WHEN, form="laminar"),
+    AutoStep("macgregor-emery", when=MACGREGOR_TURBULENT_WHEN, form="turbulent"),
+    AutoStep("wright", when=WRIGHT_RANGES + (VERTICAL_TILT_COVERAGE,)),
+    AutoStep("hollands", when=(Range("tilt", high=75.0),)),
+    AutoStep("elsherbiny", when=()),
+)
 
 define_geometry(Geometry(
     name="cavity", inputs=("ra", "pr", "aspect", "tilt"),
     description="enclosed rectangular gas layer, Ra and Nu on the gap L, aspect = H/L, tilt in "
                 "deg from the horizontal (0 heated from below, 90 vertical, 180 heated from "
                 "above). " + AUTO_RULE,
-    auto_order={None: ("conduction", "hollands", "globe-dropkin", "elsherbiny", "catton",
-                       "macgregor-emery", "wright")},
-    fallback={None: _auto_fallback},
-    floor=1.0, default_tilt=90.0))
+    auto={None: CAVITY_AUTO},
+    floor=1.0, default_tilt=90.0, title="enclosed gas layer (cavity)", length="gap",
+    length_doc="gap L between the two faces, m",
+    parameters=(Parameter("gap", "m", "gap between the two faces (> 0)"),
+                Parameter("height", "m", "height of the layer along its faces (> 0)"),
+                Parameter("tilt", "deg", "tilt from the horizontal: 0 heated from below, 90 vertical, "
+                          "180 heated from above", default=90.0))))
 
 
-def _vertical_correlation(*, method, title, source, equation, validity, notes=""):
+def _vertical_correlation(*, method, title, source, equation, validity, notes="", forms=None):
     """Register a vertical-layer correlation ``nu90(ra, pr, aspect)`` with the shared tilt treatment.
 
-    The registered function is Nu(tilt) = tilt_from_vertical(nu90, tilt); its ranges are the
-    published vertical ones plus the tilt range from the critical tilt to 180 deg.
+    The registered function is Nu(tilt) = :func:`tilt_from_vertical` of nu90, with Nu(0) from
+    Hollands' horizontal form below the critical tilt; its ranges are the published vertical
+    ones plus :data:`VERTICAL_TILT_RANGES`.  ``forms`` (published bands of a piecewise
+    correlation, as vertical functions) get the same tilt treatment.
     """
 
-    def register(nu_vertical):
+    def tilted(nu_vertical):
         def nu_tilted(ra, pr, aspect, tilt):
-            return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt)
+            critical = _critical_tilt(aspect)
+            below = tilt < critical
+            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if below.any() else None
+            return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt, horizontal, critical)
 
         nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"
         nu_tilted.__doc__ = nu_vertical.__doc__
         nu_tilted.vertical = nu_vertical
+        return nu_tilted
+
+    def register(nu_vertical):
         correlation(
             geometry="cavity", method=method, title=title, source=source,
-            equation=equation + "; tilted: Nu(t) = Nu(90) (sin t)^(1/4) for t* <= t <= 90 "
+            equation=equation + "; tilted: Nu(t) = Nu(0) [Nu(90) (sin t*)^(1/4)/Nu(0)]^(t/t*) for "
+                                "t < t* (Catton; Nu(0) from Hollands' horizontal form), "
+                                "Nu(t) = Nu(90) (sin t)^(1/4) for t* <= t <= 90 "
                                 "(Ayyaswamy & Catton), Nu(t) = 1 + (Nu(90) - 1) sin t for "
                                 "90 <= t <= 180 (Arnold, Catton & Edwards)",
-            validity=tuple(validity) + (TILT_FROM_CRITICAL,), notes=notes)(nu_tilted)
+            validity=tuple(validity) + VERTICAL_TILT_RANGES, notes=notes,
+            forms={name: tilted(form) for name, form in (forms or {}).items()})(tilted(nu_vertical))
         return nu_vertical
 
     return register
@@ -178,15 +305,25 @@ def _vertical_correlation(*, method, title, source, equation, validity, notes=""
 
 _TILT_SOURCES = ("; tilt: I. Catton, Natural convection in enclosures, Proc. 6th Int. Heat Transfer "
                  "Conf. 6 (1978) 13-31 (Ayyaswamy & Catton 1973, Arnold, Catton & Edwards 1976), "
-                 "Incropera et al. 6th ed. eqs. 9.58-9.59 and Table 9.3")
+                 "Incropera et al. 6th ed. eqs. 9.57-9.59 and Table 9.3")
 
 # --- vertical layers --------------------------------------------------------------------------
 
 _CATTON_SHORT = lambda inputs: inputs["aspect"] < 2.0   # eq. 9.53 band, 1 <= H/L < 2
 
 
+def _catton_short(ra, pr, aspect):
+    """Incropera 6th ed. eq. 9.53 (1 <= H/L < 2)."""
+    return 0.18 * (ra * pr / (0.2 + pr)) ** 0.29 + 0.0 * aspect
+
+
+def _catton_tall(ra, pr, aspect):
+    """Incropera 6th ed. eq. 9.52 (2 <= H/L <= 10)."""
+    return 0.22 * (ra * pr / (0.2 + pr)) ** 0.28 * aspect ** -0.25
+
+
 @_vertical_correlation(
-    method="catton", title="Catton, vertical cavity (two aspect bands)",
+    method="catton", forms={"short": _catton_short, "tall": _catton_tall}, title="Catton, vertical cavity (two aspect bands)",
     source="I. Catton, Proc. 6th Int. Heat Transfer Conf. 6 (1978) 13-31, as given in Incropera "
            "et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.52 (2 <= H/L <= 10) "
            "and 9.53 (1 <= H/L < 2)" + _TILT_SOURCES,
@@ -206,8 +343,7 @@ _CATTON_SHORT = lambda inputs: inputs["aspect"] < 2.0   # eq. 9.53 band, 1 <= H/
           "(H/L = 10), the latter inside the published Ra range.")
 def catton_vertical(ra, pr, aspect):
     """Catton's vertical-cavity correlation, band by aspect (Incropera 6th ed. eqs. 9.52-9.53)."""
-    x = ra * pr / (0.2 + pr)
-    return np.where(aspect < 2.0, 0.18 * x ** 0.29, 0.22 * x ** 0.28 * aspect ** -0.25)
+    return np.where(aspect < _CATTON_BAND_EDGE, _catton_short(ra, pr, aspect), _catton_tall(ra, pr, aspect))
 
 
 def _macgregor_laminar_band(inputs):
@@ -215,8 +351,18 @@ def _macgregor_laminar_band(inputs):
     return (inputs["aspect"] >= 10.0) & (inputs["ra"] <= 1e7)
 
 
+def _macgregor_laminar(ra, pr, aspect):
+    """Incropera 6th ed. eq. 9.54 (10 <= H/L <= 40, Ra <= 1e7)."""
+    return 0.42 * ra ** 0.25 * pr ** 0.012 * aspect ** -0.3
+
+
+def _macgregor_turbulent(ra, pr, aspect):
+    """Incropera 6th ed. eq. 9.55 (1 <= H/L <= 40, 1e6 <= Ra <= 1e9)."""
+    return 0.046 * ra ** (1.0 / 3.0) + 0.0 * aspect
+
+
 @_vertical_correlation(
-    method="macgregor-emery", title="MacGregor and Emery, vertical cavity (two ranges)",
+    method="macgregor-emery", forms={"laminar": _macgregor_laminar, "turbulent": _macgregor_turbulent}, title="MacGregor and Emery, vertical cavity (two ranges)",
     source="R.K. MacGregor, A.F. Emery, J. Heat Transfer 91 (1969) 391-403, as given in "
            "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.54-9.55"
            + _TILT_SOURCES,
@@ -239,9 +385,8 @@ def _macgregor_laminar_band(inputs):
           "the published ranges.")
 def macgregor_emery_vertical(ra, pr, aspect):
     """MacGregor & Emery's vertical-cavity correlations (Incropera 6th ed. eqs. 9.54-9.55)."""
-    laminar = 0.42 * ra ** 0.25 * pr ** 0.012 * aspect ** -0.3
-    turbulent = 0.046 * ra ** (1.0 / 3.0)
-    return np.where((aspect >= 10.0) & (ra <= 1e7), laminar, turbulent)
+    return np.where((aspect >= _MACGREGOR_EDGE_ASPECT) & (ra <= _MACGREGOR_EDGE_RA),
+                    _macgregor_laminar(ra, pr, aspect), _macgregor_turbulent(ra, pr, aspect))
 
 
 @_vertical_correlation(
@@ -251,7 +396,7 @@ def macgregor_emery_vertical(ra, pr, aspect):
            "vertical-layer equations (from memory)" + _TILT_SOURCES,
     equation="Nu(90) = max(Nu_ct, Nu_l, Nu_t); Nu_ct = [1 + (0.104 Ra^0.293/(1 + (6310/Ra)^1.36))^3]"
              "^(1/3), Nu_l = 0.242 (Ra/A)^0.273, Nu_t = 0.0605 Ra^(1/3)",
-    validity=[Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7)],
+    validity=ELSHERBINY_RANGES,
     notes="Data for air.  The exponent of Nu_l is written 0.273 here (the Raithby-Hollands "
           "handbook form, from memory); ISO 15099 transcribes the same term with 0.272 (from "
           "memory) - the two differ by < 1 % in range.  Nu_ct >= 1 always, so the formula never "
@@ -280,7 +425,7 @@ def _wright_bands(ra):
     equation="Nu(90) = max(Nu_1, Nu_2); Nu_1 = 0.0673838 Ra^(1/3) (Ra > 5e4), "
              "0.028154 Ra^0.4134 (1e4 < Ra <= 5e4), 1 + 1.7596678e-10 Ra^2.2984755 (Ra <= 1e4); "
              "Nu_2 = 0.242 (Ra/A)^0.272",
-    validity=[Range("Ra", high=1e6), Range("aspect", low=20.0)],
+    validity=WRIGHT_RANGES,
     notes="Implemented: the ISO 15099 form, the larger of Wright's three-band Nu_1 and the "
           "aspect term Nu_2 = 0.242 (Ra/A)^0.272.  Bounds (from memory, not checked against "
           "the paper): Ra <= 1e6, A >= 20.  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
@@ -420,3 +565,17 @@ def cavity_method(ra, pr, aspect, tilt=90.0, method="auto"):
     result = nusselt("cavity", method, function_name="cavity_method",
                      ra=ra, pr=pr, aspect=aspect, tilt=tilt)
     return unwrap(result.method)
+
+
+_CAVITY_TILT = ("Tilt from the horizontal in degrees: 0 heated from below, 90 vertical (default), "
+                "180 heated from above.")
+document(nu_cavity, "cavity", "Nusselt number (on the gap) of an enclosed gas layer, never below 1.",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("float or ndarray", "Nu = h L / k on the gap (-), >= 1: a float for scalar inputs, an array of "
+                              "the broadcast shape otherwise."),
+         ">>> round(nu_cavity(1e4, 0.71, 40.0), 3)\n1.303")
+document(cavity_method, "cavity", "The method ``nu_cavity`` uses for these inputs (auto's dominant one).",
+         nusselt_parameters("cavity", _CAVITY_TILT),
+         ("str or ndarray of str", "The method name; where auto blends two methods, the one with the larger "
+                                   "weight (``stillair.nusselt(...).blend`` names both)."),
+         '>>> cavity_method(1e4, 0.71, 40.0)\n\'elsherbiny\'')

@@ -15,14 +15,19 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 
 from __future__ import annotations
 
+import math
 import warnings
 from dataclasses import dataclass
 
+from scipy.constants import zero_Celsius
+
 import numpy as np
 
-from .correlations import GEOMETRIES, NusseltResult, merge_masked, nusselt
-from .groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
-from .validity import CorrelationRangeWarning, distinct_notes, require_between, require_choice, require_positive, unwrap
+from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
+from .gases import gas_properties, plain_state_accepted
+from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
+from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
+                       require_positive, unwrap)
 
 __all__ = [
     "ConvectionResult",
@@ -37,6 +42,8 @@ __all__ = [
     "h_cavity",
     "FACINGS",
     "plate_case",
+    "geometry_convection",
+    "convection_geometries",
 ]
 
 FACINGS = ("up", "down")
@@ -76,9 +83,6 @@ def plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
     return np.where(delta_t >= 0, f"hot-{facing}", f"cold-{facing}").astype(object).reshape(delta_t.shape)
 
 
-# The name of each surface geometry's length argument (its inputs and cases are registry data).
-_LENGTH_NAMES = {"vplate": "height", "hplate": "length", "tplate": "length", "hcyl": "diameter",
-                 "sphere": "diameter", "vcyl": "height"}
 
 
 def _full(array, shape):
@@ -99,11 +103,26 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
     """
     function_name = function_name or f"h_{geometry}"
     geo = GEOMETRIES[geometry]
-    length_name = _LENGTH_NAMES[geometry]
+    length_name = geo.length
+    if (_plain_case(gas, pressure, (t_surface, t_fluid),
+                    (length,) + ((diameter,) if geometry == "vcyl" else ()), property_temperature)
+            and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
+            and ("tilt" not in geo.inputs or type(tilt) in _PLAIN and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
+        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
+                                                              ideal_expansion, function_name)
+        inputs = {"ra": ra, "pr": props.prandtl}
+        if "tilt" in geo.inputs:
+            inputs["tilt"] = float(tilt)
+        if geometry == "vcyl":
+            inputs["slenderness"] = length / diameter
+        case = f"{'hot' if delta_t >= 0 else 'cold'}-{facing.strip().lower()}" if geo.cases else ""
+        result = nusselt(geometry, method, case or None, function_name=function_name, **inputs)
+        return _scalar_result(props, t_film, gr, ra, length, result, case)
     length = require_positive(function_name, length_name, length, "m")
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
-                                          ideal_expansion=ideal_expansion, function_name=function_name)
+                                          ideal_expansion=ideal_expansion, function_name=function_name,
+                                          names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
     shape = np.broadcast(ra, props.prandtl).shape
@@ -126,7 +145,7 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                                **{k: v[mask] for k, v in inputs.items()}))
                 for name, mask in ((name, case == name) for name in cases)], shape)
     else:
-        case = np.full(shape, "", dtype=object)
+        case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
     h = result.nu * props.conductivity / length
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
@@ -143,6 +162,13 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
 
     h = Nu k / gap is the coefficient of q = h (t1 - t2) per unit area of the layer.
     """
+    if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
+            and type(tilt) in _PLAIN and 0.0 <= tilt <= 180.0:
+        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
+                                                              function_name)
+        result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
+                         aspect=height / gap, tilt=float(tilt) if delta_t >= 0 else 180.0 - tilt)
+        return _scalar_result(props, t_film, gr, ra, gap, result, "")
     gap = require_positive(function_name, "gap", gap, "m")
     height = require_positive(function_name, "height", height, "m")
     tilt = require_between(function_name, "tilt", tilt, 0.0, 180.0, "deg")
@@ -161,11 +187,89 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
-                            case=np.full(shape, "", dtype=object), in_range=result.in_range, note=result.note)
+                            case=uniform("", shape), in_range=result.in_range, note=result.note)
+
+
+_PLAIN = (float, int, np.float64)
+
+
+def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
+    """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
+    return (property_temperature is None
+            and all(type(v) in _PLAIN and 0.0 < v < math.inf for v in lengths)
+            and plain_state_accepted(gas, temperatures, pressure))
+
+
+def _scalar_groups(t1, t2, length, gas, pressure, ideal_expansion, function_name):
+    """(props, t_film, beta, delta_t, gr, ra) for plain numbers, the arithmetic of the array path."""
+    t_film = 0.5 * (t1 + t2)
+    props = gas_properties(gas, t_film, pressure, function_name=function_name)
+    beta = 1.0 / (t_film + zero_Celsius) if ideal_expansion else props.expansion
+    delta_t = float(t1) - float(t2)
+    gr = STANDARD_GRAVITY * beta * abs(delta_t) * length ** 3 / props.kinvisc ** 2
+    return props, t_film, beta, delta_t, gr, gr * props.prandtl
+
+
+def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionResult:
+    h = float(result.nu) * props.conductivity / length
+    return ConvectionResult(h=np.asarray(h), nu=result.nu, ra=np.asarray(ra), gr=np.asarray(gr),
+                            pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
+                            conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
+                            method=result.method, case=np.asarray(case, dtype=object),
+                            in_range=result.in_range, note=result.note)
+
+
+def convection_geometries() -> tuple:
+    """Every convection geometry (:class:`~stillair.correlations.Geometry`), in definition order.
+
+    Each carries what a caller needs to offer it: ``name``, ``title``, ``parameters`` (the
+    physical arguments of :func:`geometry_convection` in order, with unit, doc and default), ``cases``,
+    ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
+    ``description``.  A new geometry defined in the registry appears here with no other change.
+
+    >>> [g.name for g in convection_geometries()]
+    ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
+    """
+    return tuple(GEOMETRIES.values())
+
+
+def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
+               property_temperature=None, ideal_expansion=False, function_name=None,
+               **parameters) -> ConvectionResult:
+    """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
+
+    ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
+    face), in °C.  Parameters with a default may be left out; an unknown or missing one is an
+    :class:`~stillair.InputError`.  This is :func:`surface_convection` or
+    :func:`cavity_convection` with the arguments read from the geometry's data.
+
+    >>> round(float(geometry_convection("vcyl", 60.0, 20.0, height=0.5, diameter=0.05).h), 2)
+    5.6
+    """
+    function_name = function_name or f"h_{geometry}"
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
+    known = {p.name: p for p in geo.parameters}
+    for name in parameters:
+        if name not in known:
+            raise InputError(function_name, "parameter", name,
+                             f"one of {', '.join(known)} for {geo.name}")
+    values = {}
+    for parameter in geo.parameters:
+        value = parameters.get(parameter.name, parameter.default)
+        if value is None:
+            raise InputError(function_name, parameter.name, None,
+                             f"{'text' if parameter.kind == 'text' else 'a number'} for {geo.name}")
+        values[parameter.name] = value
+    common = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
+                  ideal_expansion=ideal_expansion, function_name=function_name)
+    if geo.name == "cavity":
+        return cavity_convection(t1, t2, values["gap"], values["height"], tilt=values["tilt"], **common)
+    length = values.pop(geo.length)
+    return surface_convection(geo.name, t1, t2, length, **values, **common)
 
 
 def _h_only(result: ConvectionResult, function_name: str):
-    if not np.all(result.in_range):
+    if not result.in_range.all():
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return unwrap(result.h)
@@ -211,3 +315,44 @@ def h_cavity(t1, t2, gap, height, tilt=90.0, gas="air", pressure=DEFAULT_PRESSUR
     """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
     return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
                                      function_name="h_cavity"), "h_cavity")
+
+
+# --- docstrings of the h functions, from the geometries and the registry -----------------------
+
+def _h_parameters(geometry: str, first: tuple[str, str]):
+    geo = GEOMETRIES[geometry]
+    entries = [(first[0], "array_like", "Temperature of the surface (the layer's underside face for a cavity) "
+                                        "in °C, inside the gas's range."),
+               (first[1], "array_like", "Temperature of the still fluid far from the surface (the other face "
+                                        "for a cavity) in °C, inside the gas's range.")]
+    for parameter in geo.parameters:
+        kind = "str" if parameter.kind == "text" else "array_like"
+        default = f", default {parameter.default:g}" if isinstance(parameter.default, float) else ""
+        unit = f" in {parameter.unit}" if parameter.unit else ""
+        entries.append((parameter.name, kind + default, f"{parameter.doc[:1].upper()}{parameter.doc[1:]}{unit}."))
+    entries += [("gas", 'str, default "air"', 'Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).'),
+                ("pressure", "array_like, default 101325", "Absolute pressure in Pa."),
+                ("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).')]
+    return entries
+
+
+_H = ("float or ndarray", "Convection coefficient h = Nu k / L in W/(m²·K), gas properties at the film "
+      "(mean) temperature: a float for scalar inputs, an array otherwise.")
+_H_SUMMARIES = {
+    "vplate": ("Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
+    "hplate": ("Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
+               'h_hplate(60.0, 20.0, 0.25, "up")', "5.96"),
+    "tplate": ("Convection coefficient of a plate tilted from the vertical.",
+               'h_tplate(60.0, 20.0, 0.5, 30.0, "up")', "4.79"),
+    "hcyl": ("Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
+    "sphere": ("Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
+    "vcyl": ("Convection coefficient of a vertical cylinder, Ra on its height.",
+             "h_vcyl(60.0, 20.0, 0.5, 0.05)", "5.6"),
+    "cavity": ("Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
+               "h_cavity(15.0, 5.0, 0.016, 1.2)", "1.645"),
+}
+for _geometry, (_summary, _call, _value) in _H_SUMMARIES.items():
+    document(globals()[f"h_{_geometry}"], _geometry, _summary,
+             _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
+             f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
+del _geometry, _summary, _call, _value

@@ -31,6 +31,7 @@ Ra is always based on the geometry's own length (plate height, area/perimeter, d
 
 from __future__ import annotations
 
+import math
 import warnings
 from dataclasses import dataclass, field
 from typing import Callable, Mapping, Sequence
@@ -53,6 +54,8 @@ from .validity import (
 __all__ = [
     "Correlation",
     "Geometry",
+    "AutoStep",
+    "Parameter",
     "NusseltResult",
     "GEOMETRIES",
     "CORRELATIONS",
@@ -66,6 +69,8 @@ __all__ = [
     "PLATE_CASES",
     "NusseltSpread",
     "nu_spread",
+    "document",
+    "methods_section",
 ]
 
 PLATE_CASES = ("hot-up", "hot-down", "cold-up", "cold-down")
@@ -76,23 +81,69 @@ STABLE_CASES = ("hot-down", "cold-up")
 
 
 @dataclass(frozen=True)
-class Geometry:
-    """A family of correlations sharing inputs and an "auto" preference order.
+class AutoStep:
+    """One step of a geometry's "auto" rule: use ``method`` where ``when`` holds.
 
-    ``auto_order`` maps a case (or ``None`` for geometries without cases) to the method names
-    tried in order; ``fallback`` maps a case to the method used when none of them covers the
-    inputs.  ``floor`` is the smallest physical Nusselt number (1 for conduction across a
-    cavity), or None where a formula may legitimately go below 1 (external flows, where Nu is
-    based on an arbitrary length).
+    ``when`` defaults to the method's published validity ranges; a rule states its own where
+    the auto choice differs from the published range (a horizontal-only correlation carried a
+    few degrees off the horizontal, a fallback that takes whatever is left).  An empty ``when``
+    covers everything (the last step of every rule).  ``form`` names one published band of a
+    piecewise correlation (:attr:`Correlation.forms`), so that auto can blend across the band
+    edge while the named method keeps its published step.
+    """
+
+    method: str
+    when: tuple[Range, ...] | None = None
+    form: str | None = None
+
+    def coverage(self, correlation: "Correlation", inputs: Mapping[str, np.ndarray], case) -> np.ndarray:
+        """Continuous weight 0..1 of this step (the product of its ranges' transition weights)."""
+        ranges = correlation.ranges(case) if self.when is None else self.when
+        weight = None
+        for bound in ranges:
+            part = bound.weight(inputs)
+            weight = part if weight is None else weight * part
+        return weight
+
+
+@dataclass(frozen=True)
+class Parameter:
+    """One physical parameter of a geometry's convection call (beyond the two temperatures),
+    in the order a sheet or a network row gives them."""
+
+    name: str
+    unit: str
+    doc: str
+    default: float | str | None = None   # None: required
+    kind: str = "number"                 # or "text" (facing)
+
+    @property
+    def required(self) -> bool:
+        return self.default is None
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """A family of correlations sharing inputs, and every fact about it the layers above read.
+
+    ``auto`` maps a case (or ``None`` for geometries without cases) to the ordered
+    :class:`AutoStep` list of its "auto" rule; the last step covers everything.  Auto weighs the
+    steps continuously: each step takes its coverage of what the earlier steps left, so where
+    one correlation's range ends the value passes to the next across the transition band of
+    that bound, with no step.  ``floor`` is the smallest physical Nusselt number (1 for
+    conduction across a cavity), or None where a formula may legitimately go below 1 (external
+    flows, where Nu is based on an arbitrary length).
+
+    ``length`` names the length Ra and Nu are based on, as the h functions and the network call
+    it (``length_doc`` says what it is); ``extra`` names the inputs beyond Ra and Pr that come
+    from the user's geometry rather than from the gas.
     """
 
     name: str
     inputs: tuple[str, ...]
     description: str
     cases: tuple[str, ...] = ()
-    auto_order: Mapping[str | None, tuple[str, ...]] = field(default_factory=dict)
-    fallback: Mapping[str | None, str | Callable[[Mapping[str, np.ndarray]], np.ndarray]] = field(
-        default_factory=dict)
+    auto: Mapping[str | None, tuple[AutoStep, ...]] = field(default_factory=dict)
     floor: float | None = None
     # Allowed tilt (degrees) where tilt is an input: cavities 0-180 from the horizontal,
     # tilted plates 0-90 from the vertical.
@@ -100,6 +151,37 @@ class Geometry:
     # The tilt a caller who gives none gets (cavities: 90, the vertical layer), or None where
     # the tilt is required (tilted plates).
     default_tilt: float | None = None
+    title: str = ""
+    length: str = "length"
+    length_doc: str = ""
+    # The physical parameters of the h-level call, in order (the length first): what a sheet
+    # function or a network branch of this geometry takes besides t1, t2, gas and pressure.
+    parameters: tuple[Parameter, ...] = ()
+
+    def auto_methods(self, case: str | None = None) -> list[str]:
+        """The methods auto may use for ``case``, in the rule's order, each once."""
+        cache = self.__dict__.setdefault("_auto_methods", {})   # a cache, not a field
+        if case not in cache:
+            cache[case] = list(dict.fromkeys(step.method for step in self.auto.get(case, ())))
+        return cache[case]
+
+    @property
+    def methods(self) -> list[str]:
+        """Every registered method of the geometry (all cases), in registration order."""
+        return methods_for(self.name)
+
+    def case_methods(self, case: str | None) -> list[str]:
+        return methods_for(self.name, case)
+
+    def method_help(self) -> str:
+        """The methods in words, with the cases each serves where it serves only some:
+        "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)"."""
+        parts = []
+        for method in self.methods:
+            cases = CORRELATIONS[(self.name, method)].cases
+            served = f" ({', '.join(cases)})" if cases and set(cases) != set(self.cases) else ""
+            parts.append(method + served)
+        return ", ".join(parts)
 
 
 @dataclass(frozen=True)
@@ -118,6 +200,9 @@ class Correlation:
     # Some correlations publish different ranges per case (McAdams: hot-up from Ra 1e5, hot-down
     # from 3e5).  A case listed here uses its own ranges instead of ``validity``.
     validity_by_case: Mapping[str, tuple[Range, ...]] = field(default_factory=dict)
+    # The published bands of a piecewise correlation as separate functions (same arguments),
+    # for auto's blend across their edges; ``function`` keeps the published switch.
+    forms: Mapping[str, Callable[..., np.ndarray]] = field(default_factory=dict)
 
     def ranges(self, case: str | None = None) -> tuple[Range, ...]:
         """The validity ranges that apply to ``case`` (``validity`` unless the case has its own)."""
@@ -133,16 +218,24 @@ class Correlation:
     def notes_for(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         """Per element: "" when inside every range, else the first bound crossed."""
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
-        notes = np.full(shape, "", dtype=object)
+        notes = uniform("", shape)
         for bound in reversed(self.ranges(case)):  # first listed bound wins
             values = np.broadcast_to(bound.values(inputs), shape)
             outside = ~np.broadcast_to(bound.inside(inputs), shape)
             if outside.any():
+                if not notes.flags.writeable:
+                    notes = np.full(shape, "", dtype=object)
                 notes[outside] = _violation_notes(self.method, bound, values[outside])
         return notes
 
     def describe_validity(self, case: str | None = None) -> str:
         return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
+
+
+def uniform(value, shape) -> np.ndarray:
+    """A read-only object array holding ``value`` everywhere, without a million references:
+    the method name or empty note of a result where every element shares it."""
+    return np.broadcast_to(np.array(value, dtype=object), shape)
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
@@ -168,12 +261,18 @@ class NusseltResult:
     """Nu with the method that produced it and whether the inputs were inside its range."""
 
     nu: np.ndarray
-    method: np.ndarray
-    in_range: np.ndarray
-    note: np.ndarray
+    method: np.ndarray        # the method with the largest weight
+    in_range: np.ndarray      # every weighted method inside its published ranges
+    note: np.ndarray          # "" in range; else the bounds crossed (and the blend, if any)
+    blend: np.ndarray | None = None  # "" or "blend of A and B" where auto weighs several
+
+    def __post_init__(self):
+        if self.blend is None:
+            self.blend = uniform("", np.shape(self.nu))
 
     def scalar(self) -> "NusseltResult":
-        return NusseltResult(unwrap(self.nu), unwrap(self.method), unwrap(self.in_range), unwrap(self.note))
+        return NusseltResult(unwrap(self.nu), unwrap(self.method), unwrap(self.in_range), unwrap(self.note),
+                             unwrap(self.blend))
 
     @property
     def notes(self) -> list[str]:
@@ -186,13 +285,21 @@ CORRELATIONS: dict[tuple[str, str], Correlation] = {}
 
 
 def define_geometry(geometry: Geometry) -> Geometry:
+    if geometry.parameters and geometry.parameters[0].name != geometry.length:
+        raise RuntimeError(f"{geometry.name}: the first parameter must be the length {geometry.length!r}")
+    for case in geometry.cases or (None,):
+        steps = geometry.auto.get(case)
+        if not steps or steps[-1].when != ():
+            raise RuntimeError(f"{geometry.name}: the auto rule of case {case!r} must end with a "
+                               "step that covers everything (when=())")
     GEOMETRIES[geometry.name] = geometry
     return geometry
 
 
 def correlation(*, geometry: str, method: str, title: str, source: str, equation: str,
                 validity: Sequence[Range] = (), cases: Sequence[str] = (), notes: str = "",
-                validity_by_case: Mapping[str, Sequence[Range]] | None = None):
+                validity_by_case: Mapping[str, Sequence[Range]] | None = None,
+                forms: Mapping[str, Callable[..., np.ndarray]] | None = None):
     """Register a correlation function ``f(**inputs) -> Nu`` under (geometry, method).
 
     ``validity_by_case`` (optional) gives the ranges of cases whose published range differs
@@ -205,19 +312,27 @@ def correlation(*, geometry: str, method: str, title: str, source: str, equation
             raise RuntimeError(f"correlation {key} registered twice")
         if geometry not in GEOMETRIES:
             raise RuntimeError(f"unknown geometry {geometry!r}; define it first")
+        _METHODS_CACHE.clear()
         CORRELATIONS[key] = Correlation(
             geometry=geometry, method=method, function=function, title=title, source=source,
             equation=equation, validity=tuple(validity), cases=tuple(cases), notes=notes,
-            validity_by_case={c: tuple(r) for c, r in (validity_by_case or {}).items()})
+            validity_by_case={c: tuple(r) for c, r in (validity_by_case or {}).items()},
+            forms=dict(forms or {}))
         return function
 
     return register
 
 
+_METHODS_CACHE: dict[tuple[str, str | None], list[str]] = {}
+
+
 def methods_for(geometry: str, case: str | None = None) -> list[str]:
     """Method names registered for a geometry (and case), in registration order."""
-    return [c.method for (g, _), c in CORRELATIONS.items()
-            if g == geometry and (case is None or not c.cases or case in c.cases)]
+    key = (geometry, case)
+    if key not in _METHODS_CACHE:
+        _METHODS_CACHE[key] = [c.method for (g, _), c in CORRELATIONS.items()
+                               if g == geometry and (case is None or not c.cases or case in c.cases)]
+    return list(_METHODS_CACHE[key])
 
 
 def get_correlation(geometry: str, method: str) -> Correlation:
@@ -261,7 +376,8 @@ def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str
 
 
 def nusselt(geometry: str, method: str | None = "auto", case: str | None = None, *,
-            function_name: str | None = None, warn: bool = False, **inputs) -> NusseltResult:
+            function_name: str | None = None, warn: bool = False, notes: bool = True,
+            **inputs) -> NusseltResult:
     """Evaluate Nu for ``geometry`` by ``method`` (or "auto") with full validity information.
 
     This never raises for inputs outside a correlation's range (that is a note), only for
@@ -275,43 +391,211 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         case = None
     method = _resolve_method(function_name, geo, method, case)
-    arrays = _checked_inputs(function_name, geo, inputs)
-    shape = next(iter(arrays.values())).shape if arrays else ()
-
-    if method == "auto":
-        chosen = _auto_choice(geo, case, arrays, shape)
+    if "tilt" in geo.inputs and inputs.get("tilt") is None and geo.default_tilt is not None:
+        inputs["tilt"] = geo.default_tilt
+    plain = _plain_inputs(geo, inputs)
+    if plain is not None:  # one case in plain numbers: the scalar path (same arithmetic)
+        result = _scalar(geo, method, case, plain)
     else:
-        chosen = np.full(shape, method, dtype=object)
-
-    names = list(dict.fromkeys(chosen.ravel()))
-    if not names:  # empty inputs
-        result = NusseltResult(nu=np.empty(shape), method=chosen, in_range=np.ones(shape, dtype=bool),
-                               note=np.full(shape, "", dtype=object))
-    elif len(names) == 1:  # the usual case: one correlation, no masks to build
-        flat = {k: v.ravel() for k, v in arrays.items()}  # 1-D like the masked path: same bits
-        part = _evaluate_one(geo, names[0], case, flat, chosen.ravel())
-        result = NusseltResult(nu=part.nu.reshape(shape), method=chosen, in_range=part.in_range.reshape(shape),
-                               note=part.note.reshape(shape))
-    else:
-        result = merge_masked(NusseltResult, [
-            (mask, _evaluate_one(geo, name, case, {k: v[mask] for k, v in arrays.items()}, chosen[mask]))
-            for name, mask in ((name, chosen == name) for name in names)], shape)
-    if geo.floor is not None:
-        result.nu = np.maximum(result.nu, geo.floor)
+        arrays = _checked_inputs(function_name, geo, inputs)
+        shape = next(iter(arrays.values())).shape if arrays else ()
+        flat = {k: v.ravel() for k, v in arrays.items()}
+        if method == "auto":
+            result = _auto(geo, case, flat, notes)
+        else:
+            result = _evaluate_one(geo, method, case, flat, notes=notes)
+        result = NusseltResult(**{name: getattr(result, name).reshape(shape)
+                                  for name in NusseltResult.__dataclass_fields__})
+        if geo.floor is not None:
+            result.nu = np.maximum(result.nu, geo.floor)
     if warn and not np.all(result.in_range):
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
     return result
 
 
-def _evaluate_one(geo: Geometry, method: str, case, arrays, chosen) -> NusseltResult:
-    """One correlation on inputs it was chosen for (before the geometry's floor)."""
+_PLAIN_TYPES = (float, int, np.float64)
+
+
+def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
+    """The inputs as floats when each is a plain number the geometry accepts; else None (the
+    array path then checks them and words the message)."""
+    values = {}
+    for name in geo.inputs:
+        value = inputs.get(name)
+        if type(value) not in _PLAIN_TYPES:
+            return None
+        value = float(value)
+        if name == "ra":
+            accepted = 0.0 <= value < math.inf
+        elif name == "tilt":
+            accepted = geo.tilt_range[0] <= value <= geo.tilt_range[1]
+        else:
+            accepted = 0.0 < value < math.inf
+        if not accepted:
+            return None
+        values[name] = value
+    return values
+
+
+def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> NusseltResult:
+    """Nu for one case in plain numbers: the auto rule's weights with :meth:`Range.weight_of`,
+    stopping as soon as nothing is left; notes formatted only for a bound crossed."""
+    # 1-element arrays, not 0-d: numpy's loops then give the bits of the array path
+    arrays = {k: np.array([v]) for k, v in values.items()}
+    args = dict(arrays, case=case) if geo.cases else arrays
+    floor = -math.inf if geo.floor is None else geo.floor
+    if method != "auto":
+        corr = CORRELATIONS[(geo.name, method)]
+        nu = max(_first(corr.function(**args)), floor)
+        note = _scalar_note(corr, arrays, values, case)
+        return _scalar_result(nu, method, note, "")
+    left, nu = 1.0, 0.0
+    weights: dict[str, float] = {}
+    for name, ranges, function in _compiled_steps(geo, case):
+        coverage = 1.0
+        for bound, key in ranges:
+            coverage *= bound.weight_of(values[key] if key else _first(bound.of(arrays)))
+            if coverage == 0.0:
+                break
+        weight = left * coverage
+        if weight > 0.0:
+            nu += weight * max(_first(function(**args)), floor)
+            weights[name] = weights.get(name, 0.0) + weight
+            left -= weight
+        if left <= 0.0 or coverage == 1.0:
+            break
+    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
+    notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], arrays, values, case)
+                               for name in names) if note]
+    blend = "auto blend of " + " and ".join(names) if len(names) > 1 else ""
+    note = "; ".join(notes)
+    if note and blend:
+        note = f"{blend}: {note}"
+    return _scalar_result(max(nu, floor), max(names, key=weights.get), note, blend)
+
+
+def _compiled_steps(geo: Geometry, case):
+    """The auto rule of ``case`` as (method, ((range, input name or None), ...), function),
+    built once per geometry and case (a cache, not a field of the frozen Geometry)."""
+    cache = geo.__dict__.setdefault("_compiled_steps", {})
+    if case not in cache:
+        compiled = []
+        for step in geo.auto[case]:
+            corr = CORRELATIONS[(geo.name, step.method)]
+            ranges = corr.ranges(case) if step.when is None else step.when
+            compiled.append((step.method,
+                             tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
+                             corr.forms[step.form] if step.form else corr.function))
+        cache[case] = tuple(compiled)
+    return cache[case]
+
+
+def _first(values) -> float:
+    return float(values[0]) if getattr(values, "ndim", 0) == 1 else float(np.ravel(values)[0])
+
+
+def _scalar_note(corr: Correlation, arrays, values, case) -> str:
+    for bound in corr.ranges(case):
+        value = values[bound.quantity.lower()] if bound.of is None else _first(bound.of(arrays))
+        if not bound.low <= value <= bound.high:
+            return str(_violation_notes(corr.method, bound, np.array([value]))[0])
+    return ""
+
+
+def _scalar_result(nu: float, method: str, note: str, blend: str) -> NusseltResult:
+    return NusseltResult(nu=np.array(nu), method=np.array(method, dtype=object),
+                         in_range=np.array(note == ""), note=np.array(note, dtype=object),
+                         blend=np.array(blend, dtype=object))
+
+
+def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True) -> NusseltResult:
+    """One correlation on 1-D inputs, before the geometry's floor."""
     corr = CORRELATIONS[(geo.name, method)]
     args = dict(arrays, case=case) if geo.cases else arrays
+    size = next(iter(arrays.values())).shape
     nu = np.asarray(corr.function(**args), dtype=float)
-    notes = corr.notes_for(arrays, case)
-    return NusseltResult(nu=np.broadcast_to(nu, chosen.shape).copy(), method=chosen,
-                         in_range=np.asarray(notes == ""), note=notes)
+    in_range, note = _range_notes(corr, arrays, case, notes)
+    return NusseltResult(nu=nu if nu.shape == size else np.broadcast_to(nu, size).copy(),
+                         method=uniform(method, size), in_range=in_range, note=note)
+
+
+def _range_notes(corr: Correlation, arrays, case, notes: bool):
+    """(in_range, note): the notes text only when asked for (it costs a string per element)."""
+    if notes:
+        note = corr.notes_for(arrays, case)
+        return np.asarray(note == ""), note
+    in_range = corr.inside(arrays, case)
+    return in_range, uniform("", in_range.shape)
+
+
+def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
+    """The geometry's auto rule on 1-D inputs: each step takes its coverage of what is left.
+
+    With c_k the continuous coverage of step k (:meth:`AutoStep.coverage`), step k's weight is
+    c_k (1 - c_1) ... (1 - c_(k-1)); the weights add up to 1 because the last step covers
+    everything.  The value is the weighted sum of the methods' values, each floored like a named
+    method, so it lies between them.  Each weighted method's own range notes are kept; where
+    several methods carry weight, ``blend`` names them and an out-of-range note says so too.
+    """
+    size = next(iter(arrays.values())).shape
+    steps = geo.auto[case]
+    if size == (0,):
+        empty = np.empty(0, dtype=object)
+        return NusseltResult(nu=np.empty(0), method=empty, in_range=np.ones(0, dtype=bool), note=empty)
+    left = np.ones(size)
+    nu = np.zeros(size)
+    weights: dict[str, np.ndarray] = {}        # method -> total weight (its forms together)
+    for step in steps:
+        corr = CORRELATIONS[(geo.name, step.method)]
+        coverage = step.coverage(corr, arrays, case)
+        if coverage is None:  # covers everything: takes all that is left
+            weight, left = left, np.zeros(size)
+        else:
+            weight, left = left * coverage, left * (1.0 - coverage)
+        used = weight > 0.0
+        if used.any():
+            everywhere = used.all()
+            part = arrays if everywhere else {k: v[used] for k, v in arrays.items()}
+            function = corr.forms[step.form] if step.form else corr.function
+            value = np.asarray(function(**(dict(part, case=case) if geo.cases else part)), dtype=float)
+            if geo.floor is not None:
+                value = np.maximum(value, geo.floor)
+            if everywhere:
+                nu += weight * value
+            else:
+                nu[used] += weight[used] * value
+            weights[step.method] = weights.get(step.method, 0.0) + weight
+        if not left.any():
+            break
+    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
+    if len(names) == 1:  # the usual case: one method everywhere
+        in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes)
+        return NusseltResult(nu=nu, method=uniform(names[0], size), in_range=in_range, note=note)
+    stacked = np.array([np.broadcast_to(weights[n], size) for n in names])   # (methods, points)
+    method = np.array(names, dtype=object)[np.argmax(stacked, axis=0)]
+    code = (stacked > 0.0).astype(np.int64).T @ (1 << np.arange(len(names), dtype=np.int64))
+    note = np.full(size, "", dtype=object)
+    blend = np.full(size, "", dtype=object)
+    in_range = np.ones(size, dtype=bool)
+    for index, name in enumerate(names):
+        used = stacked[index] > 0.0
+        part_in, part_notes = _range_notes(CORRELATIONS[(geo.name, name)],
+                                           {k: v[used] for k, v in arrays.items()}, case, notes)
+        bad = ~part_in
+        in_range[np.flatnonzero(used)[bad]] = False
+        if notes and bad.any():
+            where = np.flatnonzero(used)[bad]
+            joined = note[where]
+            note[where] = np.where(joined == "", part_notes[bad], joined + "; " + part_notes[bad])
+    for value in np.unique(code):
+        members = [n for i, n in enumerate(names) if value >> i & 1]
+        if len(members) > 1:
+            blend[code == value] = "auto blend of " + " and ".join(members)
+    blended_out = ~in_range & (blend != "") if notes else np.zeros(size, dtype=bool)
+    if blended_out.any():
+        note[blended_out] = blend[blended_out] + ": " + note[blended_out]
+    return NusseltResult(nu=nu, method=method, in_range=in_range, note=note, blend=blend)
 
 
 def merge_masked(result_type, parts, shape):
@@ -330,24 +614,6 @@ def merge_masked(result_type, parts, shape):
 def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inputs):
     """Nu alone (float for scalar inputs), warning when any input is outside the range."""
     return unwrap(nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu)
-
-
-def _auto_choice(geo: Geometry, case, arrays, shape) -> np.ndarray:
-    order = geo.auto_order.get(case, ())
-    fallback = geo.fallback[case]
-    if callable(fallback):
-        chosen = np.array(np.broadcast_to(fallback(arrays), shape), dtype=object)
-    else:
-        chosen = np.full(shape, fallback, dtype=object)
-    undecided = np.ones(shape, dtype=bool)
-    for name in order:
-        corr = CORRELATIONS[(geo.name, name)]
-        covered = corr.inside(arrays, case) & undecided
-        chosen[covered] = name
-        undecided &= ~covered
-        if not undecided.any():
-            break
-    return chosen
 
 
 # --- the spread of the published correlations ---------------------------------------------------
@@ -446,3 +712,68 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
 def _geometry(function_name: str, geometry) -> Geometry:
     name = require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))
     return GEOMETRIES[name]
+
+
+# --- docstrings generated from the registry -----------------------------------------------------
+
+#: What each geometry input is, for the Parameters section (name -> (type, description)).
+INPUT_DOCS = {
+    "ra": ("array_like", "Rayleigh number on the geometry's own length (-), >= 0."),
+    "pr": ("array_like", "Prandtl number of the fluid (-), > 0."),
+    "aspect": ("array_like", "Height/gap H/L of the layer (-), > 0."),
+    "slenderness": ("array_like", "Height/diameter of the cylinder (-), > 0."),
+    "tilt": ("array_like", "Tilt in degrees."),
+}
+
+
+def _indent(text: str, spaces: int = 4) -> str:
+    import textwrap
+    return textwrap.fill(" ".join(text.split()), width=96, initial_indent=" " * spaces,
+                         subsequent_indent=" " * spaces)
+
+
+def methods_section(geometry: str) -> str:
+    """The Notes section of a geometry's public functions: every registered method with its
+    title, equation, validity and source, and the auto rule, read from the registry."""
+    geo = GEOMETRIES[geometry]
+    lines = ["Notes", "-----", f"Methods for the {geo.title or geo.name} (from the correlation registry):", ""]
+    for method in geo.methods:
+        corr = CORRELATIONS[(geometry, method)]
+        cases = corr.cases if corr.cases else (None,)
+        validity = "; ".join(dict.fromkeys(f"{c}: {corr.describe_validity(c)}" if c else corr.describe_validity()
+                                           for c in cases)) if corr.validity_by_case else corr.describe_validity()
+        lines += [f"``{method}``", _indent(f"{corr.title}.", 4), _indent(f"Equation: {corr.equation}", 4),
+                  _indent(f"Valid: {validity}.", 4), _indent(f"Source: {corr.source}", 4), ""]
+    lines += ['``"auto"``', _indent(geo.description, 4)]
+    return "\n".join(lines)
+
+
+def document(function, geometry: str, summary: str, parameters: Sequence[tuple[str, str, str]],
+             returns: tuple[str, str], example: str):
+    """Give ``function`` a numpydoc docstring: ``summary``, its ``parameters`` (name, type,
+    description with unit), ``returns`` (type, description), the geometry's methods and auto
+    rule from the registry, and an ``example`` (doctest lines)."""
+    lines = [summary, "", "Parameters", "----------"]
+    for name, kind, text in parameters:
+        lines += [f"{name} : {kind}", _indent(text, 4)]
+    lines += ["", "Returns", "-------", returns[0], _indent(returns[1], 4), "",
+              "Warns", "-----", "CorrelationRangeWarning",
+              _indent("When an input lies outside the published range of the method used (the value is "
+                      "still returned).", 4), "",
+              methods_section(geometry), "", "Examples", "--------", example]
+    function.__doc__ = "\n".join(lines) + "\n"
+    return function
+
+
+def nusselt_parameters(geometry: str, tilt_doc: str = "", case: bool = False):
+    """The Parameters entries of a ``nu_<geometry>`` function, from the geometry's inputs."""
+    geo = GEOMETRIES[geometry]
+    entries = []
+    for name in geo.inputs:
+        kind, text = INPUT_DOCS[name]
+        entries.append((name, kind, tilt_doc if name == "tilt" and tilt_doc else text))
+    if case:
+        entries.append(("case", "str", 'One of ' + ", ".join(f'"{c}"' for c in geo.cases)
+                        + " (the face looks up or down and is hotter or colder than the fluid)."))
+    entries.append(("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).'))
+    return entries

@@ -21,14 +21,22 @@ from .correlations import (
     PLATE_CASES,
     STABLE_CASES,
     UNSTABLE_CASES,
+    AutoStep,
     Geometry,
+    Parameter,
     correlation,
     define_geometry,
+    document,
+    nusselt_parameters,
     nusselt_value,
 )
 from .validity import Range
 
 __all__ = ["nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl"]
+
+
+#: The face of a plate: which way it looks; hot or cold follows from the temperatures.
+FACING_PARAMETER = Parameter("facing", "", 'which way the exposed face looks: "up" or "down"', kind="text")
 
 
 def _churchill_pr_factor(pr, constant, exponent):
@@ -51,10 +59,11 @@ def _cos_tilt(inputs):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="vplate", inputs=("ra", "pr"),
+    parameters=(Parameter("height", "m", "plate height along the surface (> 0)"),),
+    name="vplate", title="vertical plate", length="height", length_doc="plate height along the surface, m", inputs=("ra", "pr"),
     description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
                 "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
-    auto_order={None: ("churchill-chu",)}, fallback={None: "churchill-chu"}))
+    auto={None: (AutoStep("churchill-chu", when=()),)}))
 
 
 @correlation(
@@ -101,21 +110,27 @@ def nu_vplate(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="hplate", inputs=("ra", "pr"), cases=PLATE_CASES,
+    parameters=(Parameter("length", "m", "area/perimeter of the plate (> 0)"),
+                FACING_PARAMETER),
+    name="hplate", title="horizontal plate", length="length", length_doc="area/perimeter of the plate, m", inputs=("ra", "pr"), cases=PLATE_CASES,
     description="Horizontal plate, Ra on L = area/perimeter. Cases: hot-up and cold-down "
                 "(unstable: the plume leaves the face), hot-down and cold-up (stable: the fluid is "
                 "trapped against the face). Auto rule: hot-up/cold-down use lloyd-moran, "
                 "hot-down/cold-up use raithby-hollands; outside its range the same method is used, "
                 "with the note. mcadams is never chosen by auto (its length is the side of a "
                 "square, and it jumps against the defaults at their band edges).",
-    auto_order={case: ("lloyd-moran",) for case in UNSTABLE_CASES}
-    | {case: ("raithby-hollands",) for case in STABLE_CASES},
-    fallback={case: "lloyd-moran" for case in UNSTABLE_CASES}
-    | {case: "raithby-hollands" for case in STABLE_CASES}))
+    auto={case: (AutoStep("lloyd-moran", when=()),) for case in UNSTABLE_CASES}
+    | {case: (AutoStep("raithby-hollands", when=()),) for case in STABLE_CASES}))
 
 
 # Where 0.54 Ra^(1/4) = 0.15 Ra^(1/3): the laminar and turbulent bands meet without a step.
 LLOYD_MORAN_CROSSOVER = (0.54 / 0.15) ** 12
+
+#: Pr >= 0.7 is published for the laminar band only (Incropera 6th ed. eq. 9.30); the turbulent
+#: band (eq. 9.31) states no Prandtl limit.
+LLOYD_MORAN_LAMINAR_PR = Range(
+    "Pr [laminar band]", low=0.7,
+    of=lambda inputs: np.where(inputs["ra"] <= LLOYD_MORAN_CROSSOVER, inputs["pr"], 0.7))
 
 
 @correlation(
@@ -125,7 +140,7 @@ LLOYD_MORAN_CROSSOVER = (0.54 / 0.15) ** 12
            "Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 9.30 and 9.31 (L = As/P)",
     equation="Nu = 0.54 Ra^(1/4) for 1e4 <= Ra <= Ra_x; Nu = 0.15 Ra^(1/3) for Ra_x < Ra <= 1e11, "
              "Ra_x = (0.54/0.15)^12 = 4.74e6 where the two bands meet (published edge 1e7)",
-    validity=[Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
+    validity=[Range("Ra", 1e4, 1e11), LLOYD_MORAN_LAMINAR_PR],
     notes="The bands are switched where they intersect, Ra_x = 4.74e6, not at the published 1e7: "
           "the published switch is a 6.4 % step, and a surface temperature solved through a step "
           "may have no solution at all. Between Ra_x and 1e7 this gives up to 6.4 % more than the "
@@ -193,7 +208,10 @@ def nu_hplate(ra, pr, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="tplate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
+    parameters=(Parameter("length", "m", "plate length along the slope (> 0)"),
+                Parameter("tilt", "deg", "tilt from the vertical, 0 (vertical) to 90 (horizontal)"),
+                FACING_PARAMETER),
+    name="tplate", title="tilted plate", length="length", length_doc="plate length along the slope, m", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
     description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
                 "whether it is hotter or colder than the fluid. Ra on the one length the caller "
                 "gives: the length along the slope for the vertical-plate term; the horizontal "
@@ -205,10 +223,8 @@ define_geometry(Geometry(
                 "plate exactly; at tilt 90 the unstable face is the horizontal plate (lloyd-moran) "
                 "exactly, while the stable face does not join the horizontal plate (Ra cos(tilt) "
                 "-> 0; its range ends at 60 deg): use nu_hplate for near-horizontal stable faces.",
-    auto_order={case: ("churchill-chu-cos",) for case in STABLE_CASES}
-    | {case: ("raithby-hollands",) for case in UNSTABLE_CASES},
-    fallback={case: "churchill-chu-cos" for case in STABLE_CASES}
-    | {case: "raithby-hollands" for case in UNSTABLE_CASES}))
+    auto={case: (AutoStep("churchill-chu-cos", when=()),) for case in STABLE_CASES}
+    | {case: (AutoStep("raithby-hollands", when=()),) for case in UNSTABLE_CASES}))
 
 
 @correlation(
@@ -232,8 +248,12 @@ def _tplate_churchill_chu_cos(ra, pr, tilt, case):
            "heated face (recommendation from memory; equation number not checked); components: "
            "Churchill-Chu (Incropera 6th ed. eq. 9.26) and Lloyd-Moran (eqs. 9.30, 9.31)",
     equation="Nu = max(Nu_vplate,churchill-chu(Ra cos(tilt), Pr), Nu_hplate,lloyd-moran(Ra sin(tilt)))",
-    validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11), Range("Pr", low=0.7)],
-    notes="Range: the intersection of the two components' ranges.")
+    validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11),
+              Range("Pr [laminar band of the horizontal term]", low=0.7,
+                    of=lambda inputs: LLOYD_MORAN_LAMINAR_PR.values(
+                        dict(inputs, ra=inputs["ra"] * np.sin(np.radians(inputs["tilt"])))))],
+    notes="Range: the intersection of the two components' ranges (Lloyd-Moran's Pr >= 0.7 "
+          "binds in its laminar band only, on Ra sin(tilt)).")
 def _tplate_raithby_hollands(ra, pr, tilt, case):
     theta = np.radians(tilt)
     along_slope = _vplate_churchill_chu(ra * np.cos(theta), pr)
@@ -256,11 +276,13 @@ def nu_tplate(ra, pr, tilt, case, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="hcyl", inputs=("ra", "pr"),
+    parameters=(Parameter("diameter", "m", "outside diameter (> 0)"),),
+    name="hcyl", title="horizontal cylinder", length="diameter", length_doc="outside diameter, m", inputs=("ra", "pr"),
     description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
                 "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
-                "with the note.",
-    auto_order={None: ("churchill-chu", "morgan")}, fallback={None: "churchill-chu"}))
+                "with the note; churchill-chu hands over to morgan across a factor 4 inside its "
+                "bounds (Ra 1e-5..4e-5 and 2.5e11..1e12), without a step.",
+    auto={None: (AutoStep("churchill-chu"), AutoStep("morgan"), AutoStep("churchill-chu", when=()))}))
 
 
 @correlation(
@@ -305,10 +327,11 @@ def nu_hcyl(ra, pr, method="auto"):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
-    name="sphere", inputs=("ra", "pr"),
+    parameters=(Parameter("diameter", "m", "diameter (> 0)"),),
+    name="sphere", title="sphere", length="diameter", length_doc="diameter, m", inputs=("ra", "pr"),
     description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
                 "outside that range churchill is still used, with the note.",
-    auto_order={None: ("churchill",)}, fallback={None: "churchill"}))
+    auto={None: (AutoStep("churchill", when=()),)}))
 
 
 @correlation(
@@ -336,16 +359,23 @@ def _thin_cylinder_group(inputs):
     return (inputs["ra"] / inputs["pr"]) ** 0.25 / inputs["slenderness"]
 
 
+#: Sparrow & Gregg's thin-cylinder criterion; auto hands over to popiel across (D/L) Gr^(1/4)
+#: = 35 .. 70 (both correlations inside their ranges there).
+THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
+
 define_geometry(Geometry(
-    name="vcyl", inputs=("ra", "pr", "slenderness"),
+    parameters=(Parameter("height", "m", "cylinder height (> 0)"),
+                Parameter("diameter", "m", "outside diameter (> 0)")),
+    name="vcyl", title="vertical cylinder", length="height", length_doc="cylinder height, m", inputs=("ra", "pr", "slenderness"),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
                 "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
                 "1.5e4 <= Ra <= 1e9, slenderness <= 60, 0.01 <= Pr <= 100; else, with the note, "
-                "churchill-chu where the criterion holds and popiel where it does not.",
-    auto_order={None: ("churchill-chu", "popiel")},
-    fallback={None: lambda inputs: np.where(_thin_cylinder_group(inputs) >= 35.0,
-                                            "churchill-chu", "popiel")}))
+                "churchill-chu where the criterion holds and popiel where it does not. The "
+                "hand-over is blended across (D/L) Gr^(1/4) = 35..70 (a factor 2 inside the "
+                "criterion) and a factor 4 inside churchill-chu's Ra bounds, without a step.",
+    auto={None: (AutoStep("churchill-chu"), AutoStep("popiel"),
+                 AutoStep("churchill-chu", when=(THIN_CYLINDER,)), AutoStep("popiel", when=()))}))
 
 
 @correlation(
@@ -354,7 +384,7 @@ define_geometry(Geometry(
            "applicable to a cylinder where D/L >= 35/Gr_L^(1/4): E.M. Sparrow, J.L. Gregg, "
            "Trans. ASME 78 (1956) 1823-1829, as quoted in Incropera et al., 6th ed., sec. 9.6.1",
     equation="Nu = Nu_vplate,churchill-chu(Ra, Pr), where (D/L) (Ra/Pr)^(1/4) >= 35",
-    validity=[Range("Ra", 1e-1, 1e12), Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group)])
+    validity=[Range("Ra", 1e-1, 1e12), THIN_CYLINDER])
 def _vcyl_churchill_chu(ra, pr, slenderness):
     return _vplate_churchill_chu(ra, pr)
 
@@ -382,3 +412,25 @@ def nu_vcyl(ra, pr, slenderness, method="auto"):
     Methods: churchill-chu (the plate result, for thick cylinders), popiel (slender cylinders).
     """
     return nusselt_value("vcyl", method, function_name="nu_vcyl", ra=ra, pr=pr, slenderness=slenderness)
+
+
+# --------------------------------------------------------------------------------------------
+# Docstrings of the public functions, from the registry (methods, equations, ranges, sources)
+# --------------------------------------------------------------------------------------------
+
+_NU = ("float or ndarray", "Nusselt number on the geometry's length (-): a float for scalar inputs, "
+       "an array of the broadcast shape otherwise.")
+document(nu_vplate, "vplate", "Nusselt number of a vertical plate in still fluid, Ra on its height.",
+         nusselt_parameters("vplate"), _NU, ">>> round(nu_vplate(1e8, 0.71), 2)\n61.07")
+document(nu_hplate, "hplate", "Nusselt number of a horizontal plate, Ra on area/perimeter, for one case.",
+         nusselt_parameters("hplate", case=True), _NU, '>>> round(nu_hplate(1e6, 0.71, "hot-up"), 2)\n17.08')
+document(nu_tplate, "tplate", "Nusselt number of a plate tilted from the vertical, for one case.",
+         nusselt_parameters("tplate", "Tilt from the vertical in degrees, 0 (vertical) to 90 (horizontal).",
+                            case=True), _NU,
+         '>>> round(nu_tplate(1e8, 0.71, 30.0, "hot-down"), 2)\n58.5')
+document(nu_hcyl, "hcyl", "Nusselt number of a long horizontal cylinder, Ra on the diameter.",
+         nusselt_parameters("hcyl"), _NU, ">>> round(nu_hcyl(1e6, 0.71), 2)\n14.54")
+document(nu_sphere, "sphere", "Nusselt number of a sphere, Ra on the diameter.",
+         nusselt_parameters("sphere"), _NU, ">>> round(nu_sphere(1e6, 0.71), 2)\n16.37")
+document(nu_vcyl, "vcyl", "Nusselt number of a vertical cylinder, Ra on its height.",
+         nusselt_parameters("vcyl"), _NU, ">>> round(nu_vcyl(1e6, 0.71, 10.0), 2)\n24.16")

@@ -122,6 +122,8 @@ __all__ = [
     "gas_properties",
     "gas_table_provenance",
     "parse_gas",
+    "require_gas_temperature",
+    "plain_state_accepted",
 ]
 
 STANDARD_PRESSURE = 101325.0  # Pa, 1 standard atmosphere
@@ -755,15 +757,43 @@ def _assemble(mixture: "_Mixture", t, pressure, density_per_pressure, viscosity,
         expansion=expansion, molar_mass=mixture.molar_mass)
 
 
-def _checked_state(function: str, mixture: "_Mixture", t, pressure):
-    """Check t (degC) and pressure (Pa) against the gas's ranges; broadcast them."""
-    t = require_finite(function, "t", t)
+def _checked_temperature(function: str, argument: str, mixture: "_Mixture", t) -> np.ndarray:
+    t = require_finite(function, argument, t)
     below_zero = ~(t > ABSOLUTE_ZERO_C)
     if np.any(below_zero):
         bad = t[below_zero].flat[0] if t.ndim else t.item()
-        raise InputError(function, "t", bad, f"above absolute zero ({ABSOLUTE_ZERO_C:g} °C)")
-    require_between(function, "t", t, mixture.t_range.low, mixture.t_range.high,
-                    f"°C for {mixture.label}")
+        raise InputError(function, argument, bad, f"above absolute zero ({ABSOLUTE_ZERO_C:g} °C)")
+    return require_between(function, argument, t, mixture.t_range.low, mixture.t_range.high,
+                           f"°C for {mixture.label}")
+
+
+def require_gas_temperature(function: str, argument: str, t, gas="air") -> np.ndarray:
+    """Check a temperature argument (°C) as the user typed it: a finite number, above absolute
+    zero and inside ``gas``'s tabulated range; the message names ``argument`` and the value.
+
+    >>> require_gas_temperature("h_vplate", "ts", 60.0).item()
+    60.0
+    """
+    return _checked_temperature(function, argument, _mixture(function, gas), t)
+
+
+def plain_state_accepted(gas, temperatures, pressure) -> bool:
+    """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
+    numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
+    raises (the full checks word the message)."""
+    try:
+        mixture = _mixture("", gas)
+    except InputError:
+        return False
+    low, high = mixture.t_range.low, mixture.t_range.high
+    return (type(pressure) in _PLAIN_NUMBERS
+            and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
+            and all(type(t) in _PLAIN_NUMBERS and low <= t <= high for t in temperatures))
+
+
+def _checked_state(function: str, mixture: "_Mixture", t, pressure):
+    """Check t (degC) and pressure (Pa) against the gas's ranges; broadcast them."""
+    t = _checked_temperature(function, "t", mixture, t)
     pressure = require_positive(function, "pressure", pressure, "Pa")
     require_between(function, "pressure", pressure, GAS_PRESSURE_RANGE.low, GAS_PRESSURE_RANGE.high, "Pa")
     return np.broadcast_arrays(t, pressure)

@@ -15,8 +15,8 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY, zero_Celsius
 
-from .gases import gas_properties
-from .validity import require_finite, require_positive, unwrap
+from .gases import gas_properties, require_gas_temperature
+from .validity import require_positive, unwrap
 
 __all__ = ["STANDARD_GRAVITY", "grashof", "rayleigh", "film_properties", "buoyancy_groups"]
 
@@ -24,16 +24,21 @@ DEFAULT_PRESSURE = 101325.0
 
 
 def film_properties(t1, t2, gas="air", pressure=DEFAULT_PRESSURE, *, property_temperature=None,
-                    ideal_expansion=False, function_name="film_properties"):
+                    ideal_expansion=False, function_name="film_properties", names=("t1", "t2")):
     """Gas properties at the film temperature (or at ``property_temperature``), and that
-    temperature.  With ``ideal_expansion`` the expansion coefficient is replaced by 1/T."""
-    t1 = require_finite(function_name, "t1", t1)
-    t2 = require_finite(function_name, "t2", t2)
+    temperature.  With ``ideal_expansion`` the expansion coefficient is replaced by 1/T.
+
+    Each temperature is checked as typed (finite, above absolute zero, inside the gas's range),
+    under its own name: ``names`` are the caller's names of t1 and t2 ("ts", "tf" for a surface).
+    """
+    t1 = require_gas_temperature(function_name, names[0], t1, gas)
+    t2 = require_gas_temperature(function_name, names[1], t2, gas)
     if property_temperature is None:
         t_film = 0.5 * (t1 + t2)
     else:
-        t_film = np.broadcast_to(require_finite(function_name, "property_temperature", property_temperature),
-                                 np.broadcast(t1, t2).shape)
+        t_film = np.broadcast_to(
+            require_gas_temperature(function_name, "property_temperature", property_temperature, gas),
+            np.broadcast(t1, t2).shape)
     props = gas_properties(gas, t_film, pressure, function_name=function_name)
     expansion = 1.0 / (np.asarray(t_film, dtype=float) + zero_Celsius) if ideal_expansion else props.expansion
     return props, np.asarray(t_film, dtype=float), np.asarray(expansion, dtype=float)

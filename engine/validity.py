@@ -33,6 +33,7 @@ __all__ = [
     "format_value",
     "unwrap",
     "distinct_notes",
+    "TRANSITION_BANDS",
 ]
 
 ABSOLUTE_ZERO_C = -273.15
@@ -104,9 +105,9 @@ def as_float_array(function: str, argument: str, value) -> np.ndarray:
 
 def require_finite(function: str, argument: str, value) -> np.ndarray:
     array = as_float_array(function, argument, value)
-    if not np.all(np.isfinite(array)):
-        bad = array[~np.isfinite(array)].flat[0] if array.ndim else array
-        raise InputError(function, argument, bad, "a finite number")
+    finite = np.isfinite(array)
+    if not np.all(finite):
+        raise InputError(function, argument, _first_bad(array, ~finite), "a finite number")
     return array
 
 
@@ -168,6 +169,16 @@ def unwrap(array):
     return array
 
 
+#: Width of the transition band over which "auto" hands a bound over to the next correlation,
+#: by quantity: a factor for quantities read on a log scale (Ra and its products, aspect, Pr,
+#: slenderness), degrees for tilts.  A Range may state its own ``band``.
+TRANSITION_BANDS = {"aspect": 1.25, "Pr": 1.25, "slenderness": 1.25}
+DEFAULT_LOG_BAND = 4.0      # a factor of two either side of the band's middle
+DEFAULT_TILT_BAND = 5.0     # degrees
+#: Bounds that coincide with the end of an input's allowed domain need no transition.
+_DOMAIN = {"tilt": (0.0, 180.0)}
+
+
 @dataclass(frozen=True)
 class Range:
     """A closed validity interval of one quantity, as published with a correlation.
@@ -176,12 +187,22 @@ class Range:
     ``of`` computes the quantity from the correlation's inputs when it is not an input itself;
     by default the input of the same name (lower case) is used.  Bounds are inclusive: papers
     state them loosely and a reviewer should not be warned at the exact published bound.
+
+    The same object describes where "auto" uses a correlation (:meth:`weight`): full weight
+    inside, none outside, and linear in between over the transition band ``band`` (a factor on
+    a log scale, degrees for tilts; default :data:`TRANSITION_BANDS`).  ``placement`` puts the
+    band inside the range ("inside", the default: the correlation is never weighted outside
+    its published range), centred on the bound ("centred": the two bands of one piecewise
+    correlation, each extrapolated by half the band), or outside it ("outside": a range of a
+    single point, such as a horizontal-only correlation, extended by the band).
     """
 
     quantity: str
     low: float = -math.inf
     high: float = math.inf
     of: Callable[[Mapping[str, np.ndarray]], np.ndarray] | None = None
+    band: float | None = None
+    placement: str = "inside"
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         if self.of is not None:
@@ -198,3 +219,102 @@ class Range:
         if math.isinf(self.high):
             return f"{self.quantity} >= {format_value(self.low)}"
         return f"{format_value(self.low)} <= {self.quantity} <= {format_value(self.high)}"
+
+    # --- the transition band of "auto" ---------------------------------------------------------
+
+    @property
+    def log_scale(self) -> bool:
+        return not self.quantity.lower().startswith("tilt")
+
+    @property
+    def transition(self) -> float:
+        """The band: a factor (log scale) or a width in degrees."""
+        if self.band is not None:
+            return self.band
+        if not self.log_scale:
+            return DEFAULT_TILT_BAND
+        return TRANSITION_BANDS.get(self.quantity, DEFAULT_LOG_BAND)
+
+    def describe_band(self) -> str:
+        """The band in words, for the auto rule text."""
+        unit = f"a factor {format_value(self.transition)}" if self.log_scale else \
+            f"{format_value(self.transition)} deg"
+        where = {"inside": "inside the bound", "centred": "centred on the bound",
+                 "outside": "outside the bound"}[self.placement]
+        return f"{self.quantity} over {unit} {where}"
+
+    def weight(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        """1 well inside the range, 0 outside, linear (in log for log quantities) across the band."""
+        values = self.values(inputs)
+        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
+        weight = None
+        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
+            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
+                continue
+            if self.log_scale and side > 0 and bound <= 0.0:
+                continue
+            ramp = self._ramp(values, bound, side)
+            weight = ramp if weight is None else weight * ramp
+        if weight is None:
+            return np.ones(np.shape(values))
+        return weight
+
+    def _ramp(self, values, bound, side):
+        """Position across the band of one bound, 0 (out) .. 1 (in); ``side`` +1 for a lower
+        bound, -1 for an upper one."""
+        width = self.transition
+        if self.log_scale:
+            if width <= 1.0:
+                return (side * (values - bound) >= 0).astype(float)
+            # log of a value <= 0 (Ra cos(tilt) heated from above): far below any bound
+            distance = side * (np.log(np.maximum(values, 1e-300)) - math.log(bound)) / math.log(width)
+        else:
+            if width <= 0.0:
+                return (side * (values - bound) >= 0).astype(float)
+            distance = side * (values - bound) / width
+        return np.clip(distance + _OFFSET[self.placement], 0.0, 1.0)
+
+    def weight_of(self, value: float) -> float:
+        """:meth:`weight` of one plain number (the scalar path; the same arithmetic)."""
+        weight = 1.0
+        for bound, side, log_bound, log_width, width, offset in self._ramps:
+            if log_width is not None:
+                if log_width == 0.0:
+                    ramp = 1.0 if side * (value - bound) >= 0 else 0.0
+                else:
+                    distance = side * (math.log(value if value > 1e-300 else 1e-300) - log_bound) / log_width
+                    ramp = min(max(distance + offset, 0.0), 1.0)
+            elif width <= 0.0:
+                ramp = 1.0 if side * (value - bound) >= 0 else 0.0
+            else:
+                ramp = min(max(side * (value - bound) / width + offset, 0.0), 1.0)
+            weight *= ramp
+            if weight == 0.0:
+                break
+        return weight
+
+    @property
+    def _ramps(self):
+        """The bounds that have a transition, with their constants, computed once."""
+        try:
+            return self.__dict__["_ramp_constants"]
+        except KeyError:
+            pass
+        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
+        ramps = []
+        width = self.transition
+        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
+            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
+                continue
+            if self.log_scale:
+                if side > 0 and bound <= 0.0:
+                    continue
+                ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0,
+                              width, _OFFSET[self.placement]))
+            else:
+                ramps.append((bound, side, None, None, width, _OFFSET[self.placement]))
+        self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
+        return self.__dict__["_ramp_constants"]
+
+
+_OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}

@@ -116,8 +116,15 @@ def ref_en673(ra, a, n):
 
 
 def ref_critical_tilt(aspect):
-    """Incropera 6th ed. Table 9.3 (from memory): 1, 3, 6, 12, >12 -> 25, 53, 60, 67, 70 deg."""
-    return {1: 25.0, 3: 53.0, 6: 60.0, 12: 67.0}.get(aspect, 70.0 if aspect > 12 else None)
+    """Incropera 6th ed. Table 9.3 (from memory): 1, 3, 6, 12, >12 -> 25, 53, 60, 67, 70 deg;
+    our reading of "> 12" (DEVELOPERS.md): reached at H/L = 15, linearly from 67 at 12."""
+    return {1: 25.0, 3: 53.0, 6: 60.0, 12: 67.0, 13: 68.0}.get(aspect, 70.0 if aspect >= 15 else None)
+
+
+def ref_catton_below_critical(nu0, nu90, tilt, critical):
+    """Incropera 6th ed. eq. 9.57 (from memory of the number), as printed:
+    Nu(t) = Nu(0) [Nu(90)/Nu(0)]^(t/t*) (sin t*)^(t/(4 t*))."""
+    return nu0 * (nu90 / nu0) ** (tilt / critical) * math.sin(math.radians(critical)) ** (tilt / (4 * critical))
 
 
 # --- the registry data itself ----------------------------------------------------------------
@@ -286,21 +293,39 @@ def test_critical_tilt_table(aspect):
     assert stillair.cavity_critical_tilt(aspect) == ref_critical_tilt(aspect)
 
 
-def test_critical_tilt_interpolates_and_steps_at_12():
+def test_critical_tilt_interpolates_without_a_step():
     assert stillair.cavity_critical_tilt(2.0) == pytest.approx(39.0)  # halfway 25 -> 53
     assert stillair.cavity_critical_tilt(12.0) == 67.0
-    assert stillair.cavity_critical_tilt(12.0 + 1e-9) == 70.0  # the table's "> 12" row: 3 deg step
+    assert stillair.cavity_critical_tilt(12.0 + 1e-9) == pytest.approx(67.0)   # no step at 12
+    assert stillair.cavity_critical_tilt(15.0) == 70.0                         # the "> 12" row
     np.testing.assert_array_equal(stillair.cavity_critical_tilt([1, 3]), [25.0, 53.0])
 
 
 @pytest.mark.parametrize("method", VERTICAL_METHODS)
-def test_vertical_methods_below_critical_tilt_are_out_of_range(method):
+def test_vertical_methods_below_critical_tilt_use_cattons_interpolation(method):
+    """Below t* the vertical methods take Catton's interpolation between Hollands' horizontal
+    value and their own tilted value at t*; published for H/L < 12, noted beyond."""
     ra, pr, aspect = VERTICAL_POINTS[method]
-    tilt = stillair.cavity_critical_tilt(aspect) - 5.0
+    critical = stillair.cavity_critical_tilt(aspect)
+    tilt = critical - 5.0
     nu, note = evaluate(method, ra, pr, aspect, tilt)
-    assert f"{method}: tilt - critical tilt = -5 below 0" in note
-    assert nu == pytest.approx(max(1.0, float(nu_of(method, ra, pr, aspect, 90.0))
-                                   * math.sin(math.radians(tilt)) ** 0.25), rel=1e-12)
+    nu90 = float(nu_of(method, ra, pr, aspect, 90.0))
+    expected = ref_catton_below_critical(ref_hollands_1976(ra, 0.0), nu90, tilt, critical)
+    assert nu == pytest.approx(max(1.0, expected), rel=1e-12)
+    if aspect >= 12:
+        assert f"{method}: tilt - critical tilt [H/L >= 12] = -5 below 0" in note
+    else:
+        assert note == ""
+
+
+def test_short_tilted_cavity_is_continuous_through_the_critical_tilt():
+    # Catton's interpolation meets Ayyaswamy-Catton at t* (H/L = 5, t* = 57.67 deg).
+    critical = stillair.cavity_critical_tilt(5.0)
+    below = stillair.nu_cavity(1e5, AIR_PR, 5.0, critical * (1 - 1e-12), method="catton")
+    at = stillair.nu_cavity(1e5, AIR_PR, 5.0, critical, method="catton")
+    assert below == pytest.approx(at, rel=1e-9)
+    assert stillair.nu_cavity(1e5, AIR_PR, 5.0, 0.0, method="catton") == pytest.approx(
+        ref_hollands_1976(1e5, 0.0), rel=1e-12)
 
 
 # --- physics -----------------------------------------------------------------------------------
@@ -429,16 +454,30 @@ def test_hollands_ra_bound_drops_once_tilted():
         "(valid Ra cos(tilt) [tilt > 0] <= 100000)")
 
 
-@pytest.mark.parametrize("aspect,jump", [(20.0, 7e-5), (3.0, 0.0787)])
-def test_auto_switch_from_conduction_at_vertical_onset(aspect, jump):
-    # auto: conduction up to Ra sin t = 1e3, then elsherbiny (A = 20; its Nu_ct - 1 = 7e-5) or
-    # catton (A = 3; Catton's power law is 1.079 at Ra = 1e3: a visible step).
-    edge = 1e3
-    assert stillair.cavity_method(edge, AIR_PR, aspect) == "conduction"
-    above = edge * (1 + 1e-9)
-    assert stillair.cavity_method(above, AIR_PR, aspect) == ("elsherbiny" if aspect == 20 else "catton")
-    assert stillair.nu_cavity(above, AIR_PR, aspect) - stillair.nu_cavity(edge, AIR_PR, aspect) == pytest.approx(
-        jump, rel=0.02)
+def test_auto_hands_over_from_conduction_across_its_band():
+    # Conduction's Ra sin(tilt) <= 1e3 hands over across Ra 250..1e3 (a factor 4 inside the
+    # bound) to ElSherbiny (A = 20); nothing else changes on the way.
+    assert stillair.cavity_method(250.0, AIR_PR, 20.0) == "conduction"
+    result = nusselt("cavity", "auto", ra=500.0, pr=AIR_PR, aspect=20.0, tilt=90.0).scalar()
+    assert result.blend == "auto blend of conduction and elsherbiny" and result.in_range
+    assert 1.0 < result.nu < float(nu_of("elsherbiny", 500.0, AIR_PR, 20.0))
+
+
+def test_auto_has_no_step_at_the_vertical_onset_of_short_cavities():
+    # Before: conduction to Catton at Ra = 1e3 stepped by +27 % (A = 2) / +8 % (A = 3).
+    for aspect in (2.0, 3.0):
+        below, above = (stillair.nusselt("cavity", "auto", ra=ra, pr=AIR_PR, aspect=aspect, tilt=90.0).nu
+                        for ra in (1e3 * (1 - 1e-9), 1e3 * (1 + 1e-9)))
+        assert above == pytest.approx(below, rel=1e-6)
+
+
+def test_auto_blend_between_elsherbiny_and_catton_lies_between_them():
+    # H/L = 9 at Ra 1e7: ElSherbiny's Ra <= 2e7 hands over to Catton across Ra 5e6..2e7.
+    result = nusselt("cavity", "auto", ra=1e7, pr=AIR_PR, aspect=9.0, tilt=90.0).scalar()
+    values = sorted(float(nu_of(m, 1e7, AIR_PR, 9.0)) for m in ("elsherbiny", "catton"))
+    assert values[0] < result.nu < values[1]
+    assert result.blend == "auto blend of elsherbiny and catton" and result.in_range and result.note == ""
+    assert stillair.nusselt("cavity", "auto", ra=3e6, pr=AIR_PR, aspect=9.0, tilt=90.0).scalar().blend == ""
 
 
 # --- validity: just inside and just outside every published bound ------------------------------
@@ -451,19 +490,27 @@ BOUNDS = {
     ("catton", "Pr [H/L < 2]"): (dict(ra=1e8, pr=AIR_PR, aspect=1.5, tilt=90.0), "pr", (-5, 7)),
     ("catton", "Ra [H/L >= 2]"): (dict(ra=1e5, pr=AIR_PR, aspect=5.0, tilt=90.0), "ra", (0, 12)),
     ("catton", "Ra*Pr/(0.2+Pr) [H/L < 2]"): (dict(ra=1e5, pr=AIR_PR, aspect=1.5, tilt=90.0), "ra", (0, 12)),
-    ("catton", "tilt - critical tilt"): (dict(ra=1e5, pr=AIR_PR, aspect=5.0, tilt=90.0), "tilt", (0, 180)),
+    # Catton's aspect range ends at 10: the tall-layer tilt bound never binds alone.
+    ("catton", "tilt - critical tilt [H/L >= 12]"): None,
+    ("catton", "Ra [tilt < critical tilt]"): (dict(ra=1e5, pr=AIR_PR, aspect=5.0, tilt=30.0), "ra", (5, 10)),
     ("macgregor-emery", "aspect"): (dict(ra=1e7, pr=2.0, aspect=20.0, tilt=90.0), "aspect", (-1, 3)),
     ("macgregor-emery", "Pr"): (dict(ra=1e5, pr=2.0, aspect=20.0, tilt=90.0), "pr", (-2, 6)),
     ("macgregor-emery", "Ra"): (dict(ra=1e5, pr=2.0, aspect=20.0, tilt=90.0), "ra", (2, 11)),
     ("macgregor-emery", "Pr [0.046 Ra^(1/3) band]"): (dict(ra=1e7, pr=2.0, aspect=5.0, tilt=90.0), "pr", (0, 3)),
     ("macgregor-emery", "Ra [0.046 Ra^(1/3) band]"): (dict(ra=1e7, pr=2.0, aspect=5.0, tilt=90.0), "ra", (4, 9)),
-    ("macgregor-emery", "tilt - critical tilt"): (dict(ra=1e5, pr=2.0, aspect=20.0, tilt=90.0), "tilt", (0, 180)),
+    ("macgregor-emery", "tilt - critical tilt [H/L >= 12]"): (dict(ra=1e5, pr=2.0, aspect=20.0, tilt=90.0),
+                                                              "tilt", (0, 180)),
+    ("macgregor-emery", "Ra [tilt < critical tilt]"): (dict(ra=1e7, pr=2.0, aspect=5.0, tilt=30.0), "ra", (6, 9)),
     ("elsherbiny", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=20.0, tilt=90.0), "aspect", (0, 3)),
     ("elsherbiny", "Ra"): (dict(ra=1e5, pr=AIR_PR, aspect=20.0, tilt=90.0), "ra", (0, 9)),
-    ("elsherbiny", "tilt - critical tilt"): (dict(ra=1e5, pr=AIR_PR, aspect=20.0, tilt=90.0), "tilt", (0, 180)),
+    ("elsherbiny", "tilt - critical tilt [H/L >= 12]"): (dict(ra=1e5, pr=AIR_PR, aspect=20.0, tilt=90.0),
+                                                         "tilt", (0, 180)),
+    # ElSherbiny's (2e7) and Wright's (1e6) Ra ranges end below 1e8: never binds alone.
+    ("elsherbiny", "Ra [tilt < critical tilt]"): None,
     ("wright", "Ra"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "ra", (2, 8)),
     ("wright", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "aspect", (0, 3)),
-    ("wright", "tilt - critical tilt"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "tilt", (0, 180)),
+    ("wright", "tilt - critical tilt [H/L >= 12]"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "tilt", (0, 180)),
+    ("wright", "Ra [tilt < critical tilt]"): None,
     ("hollands", "tilt"): (dict(ra=1e4, pr=AIR_PR, aspect=20.0, tilt=30.0), "tilt", (-1, 180)),
     ("hollands", "aspect"): (dict(ra=1e4, pr=AIR_PR, aspect=20.0, tilt=30.0), "aspect", (0, 3)),
     ("hollands", "Ra"): (dict(ra=1e4, pr=AIR_PR, aspect=20.0, tilt=0.0), "ra", (2, 10)),
@@ -483,6 +530,8 @@ def _bound_cases():
         if geometry != "cavity":
             continue
         for bound in corr.validity:
+            if BOUNDS[(method, bound.quantity)] is None:
+                continue
             for side, value in (("low", bound.low), ("high", bound.high)):
                 if math.isfinite(value):
                     yield pytest.param(method, bound, side, id=f"{method}|{bound.quantity}|{side}")
@@ -547,8 +596,9 @@ def test_literal_range_notes():
     assert evaluate("elsherbiny", 1e5, aspect=150.0)[1] == (
         "elsherbiny: aspect = 150 above 110 (valid 5 <= aspect <= 110)")
     assert evaluate("wright", 2e6, aspect=50.0)[1] == "wright: Ra = 2e+06 above 1e+06 (valid Ra <= 1e+06)"
-    assert evaluate("catton", 1e5, aspect=5.0, tilt=40.0)[1] == (
-        "catton: tilt - critical tilt = -17.6667 below 0 (valid tilt - critical tilt >= 0)")
+    assert evaluate("elsherbiny", 1e5, aspect=20.0, tilt=40.0)[1] == (
+        "elsherbiny: tilt - critical tilt [H/L >= 12] = -30 below 0 "
+        "(valid tilt - critical tilt [H/L >= 12] >= 0)")
     assert evaluate("conduction", 2e3, tilt=0.0)[1] == (
         "conduction: Ra cos(tilt) = 2000 above 1708 (valid Ra cos(tilt) <= 1708)")
 
@@ -557,8 +607,8 @@ def test_literal_range_notes():
 
 AUTO_CASES = [  # (ra, pr, aspect, tilt, chosen, note) per the written rule
     (1e9, AIR_PR, 20.0, 180.0, "conduction", ""),          # heated from above
-    (1.5e3, AIR_PR, 20.0, 0.0, "conduction", ""),           # below Benard onset
-    (9e2, AIR_PR, 20.0, 90.0, "conduction", ""),            # vertical conduction regime
+    (4e2, AIR_PR, 20.0, 0.0, "conduction", ""),            # below Benard onset (and its band)
+    (2e2, AIR_PR, 20.0, 90.0, "conduction", ""),            # vertical conduction regime
     (1e4, AIR_PR, 20.0, 0.0, "hollands", ""),
     (1e4, AIR_PR, 20.0, 60.0, "hollands", ""),
     (1e9, AIR_PR, 20.0, 0.0, "globe-dropkin", ""),           # beyond Hollands' 1e8
@@ -569,8 +619,9 @@ AUTO_CASES = [  # (ra, pr, aspect, tilt, chosen, note) per the written rule
     (1e5, AIR_PR, 3.0, 90.0, "catton", ""),
     (5e7, 2.0, 30.0, 90.0, "macgregor-emery", ""),           # a liquid-like Pr, Ra above ElSherbiny's
     (1e4, AIR_PR, 150.0, 90.0, "wright", ""),                # a tall glazing cavity
-    (1e5, AIR_PR, 3.0, 30.0, "hollands",                     # fallback below 75 deg
-     "hollands: aspect = 3 below 12 (valid aspect >= 12)"),
+    (1e5, AIR_PR, 3.0, 30.0, "catton", ""),                  # H/L < 12 below t*: Catton's interpolation
+    (1e5, AIR_PR, 0.5, 30.0, "hollands",                     # fallback below 75 deg
+     "hollands: aspect = 0.5 below 12 (valid aspect >= 12)"),
     (1e7, AIR_PR, 150.0, 90.0, "elsherbiny",                 # fallback from 75 deg
      "elsherbiny: aspect = 150 above 110 (valid 5 <= aspect <= 110)"),
 ]

@@ -3,6 +3,8 @@
 import numpy as np
 import pytest
 
+import stillair
+
 from stillair import (CorrelationRangeWarning, InputError, gas_conductivity, gas_prandtl, h_cavity, h_hcyl,
                     h_hplate, h_sphere, h_tplate, h_vplate, nu_cavity, nu_hplate, nu_vplate, rayleigh)
 from stillair.convection import cavity_convection, surface_convection
@@ -111,3 +113,32 @@ def test_bad_input_messages(call, message):
     with pytest.raises(InputError) as caught:
         call()
     assert str(caught.value) == message
+
+
+# --- one call for every geometry, read from the geometry's data ------------------------------
+
+def test_geometry_convection_by_name_equals_the_named_functions():
+    assert stillair.geometry_convection("vcyl", 60.0, 20.0, height=0.5, diameter=0.05).h == stillair.h_vcyl(60.0, 20.0, 0.5, 0.05)
+    assert stillair.geometry_convection("cavity", 15.0, 5.0, gap=0.016, height=1.2).h == stillair.h_cavity(15.0, 5.0, 0.016, 1.2)
+    assert stillair.geometry_convection("tplate", 60.0, 20.0, length=0.5, tilt=30.0, facing="up").h == (
+        stillair.h_tplate(60.0, 20.0, 0.5, 30.0, "up"))
+
+
+def test_every_geometry_lists_its_parameters_length_first():
+    for geometry in stillair.convection_geometries():
+        assert geometry.parameters[0].name == geometry.length
+        assert geometry.title and geometry.length_doc
+        assert ("facing" in [p.name for p in geometry.parameters]) == bool(geometry.cases)
+
+
+def test_geometry_convection_names_a_wrong_or_missing_parameter():
+    with pytest.raises(stillair.InputError) as error:
+        stillair.geometry_convection("hplate", 60.0, 20.0, length=0.5, facing="up", tilt=3.0)
+    assert str(error.value) == "h_hplate: parameter must be one of length, facing for hplate, got 'tilt'"
+    with pytest.raises(stillair.InputError) as error:
+        stillair.geometry_convection("hplate", 60.0, 20.0, length=0.5)
+    assert str(error.value) == "h_hplate: facing must be text for hplate, got None"
+
+
+def test_nusselt_and_nu_cavity_default_to_the_vertical_layer_alike():
+    assert stillair.nusselt("cavity", ra=1e5, pr=0.71, aspect=20.0).nu == stillair.nu_cavity(1e5, 0.71, 20.0)

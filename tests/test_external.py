@@ -357,6 +357,8 @@ def _set_quantity(quantity, target, inputs):
     inputs = dict(inputs)
     if quantity in ("Ra", "Pr", "tilt", "slenderness"):
         inputs[quantity.lower()] = target
+    elif quantity.startswith("Pr [laminar band"):   # the base Ra lies in the laminar band
+        inputs["pr"] = target
     elif quantity == "Ra_side":
         inputs["ra"] = target / 64.0
     elif quantity == "Ra*cos(tilt)":
@@ -412,6 +414,14 @@ def test_just_inside_and_just_outside_each_bound(key, case, index, side):
                             f"{format_value(edge)} (valid {bound.describe()})")
 
 
+def test_lloyd_moran_prandtl_limit_binds_in_the_laminar_band_only():
+    # Incropera 6th ed.: eq. 9.30 (laminar) states Pr >= 0.7, eq. 9.31 (turbulent) does not.
+    assert nusselt("hplate", "lloyd-moran", "hot-up", ra=1e9, pr=0.5).in_range.item()
+    assert nusselt("hplate", "lloyd-moran", "hot-up", ra=1e6, pr=0.5).note.item() == (
+        "lloyd-moran: Pr [laminar band] = 0.5 below 0.7 (valid Pr [laminar band] >= 0.7)")
+    assert nusselt("tplate", "raithby-hollands", "hot-up", ra=1e9, pr=0.5, tilt=45.0).in_range.item()
+
+
 def test_range_note_text_and_warning():
     # exact text, McAdams's side-length range (hot face up: Ra_side from 1e5)
     result = nusselt("hplate", "mcadams", "hot-up", ra=1e3, pr=0.7).scalar()
@@ -435,7 +445,7 @@ def test_every_geometry_documents_its_auto_rule():
         geometry = GEOMETRIES[name]
         assert "Auto rule" in geometry.description
         for case in geometry.cases or (None,):
-            for method in geometry.auto_order[case]:
+            for method in geometry.auto_methods(case):
                 assert method in geometry.description
                 assert method in methods_for(name, case)
 

@@ -1,0 +1,122 @@
+"""Speed ratios of issue 11 (plain script, no asserts; one run, ratios rather than times).
+
+    python tests/bench/bench_speed_ratios.py
+
+1. A scalar ``stillair.h_cavity`` call against the same calculation by hand with CoolProp's
+   ``PropsSI`` (properties of air at the mean temperature: k, mu, rho, cp, beta; Ra on the gap;
+   ElSherbiny's vertical-layer Nu written out; h = Nu k / L).  Target: stillair >= 5x faster.
+   The temperatures change from call to call (stillair caches recent gas states; a fresh
+   state each call keeps the comparison honest).
+2. A vectorised correlation over 1e6 points through ``stillair.nusselt`` (argument checks,
+   validity notes, all included) against the bare numpy formula.  Target: within 6x.
+   Named methods and auto (in range, so the notes are empty strings) are both shown.
+
+The two sides are timed alternately in small batches, many rounds, and the best batch of each
+is kept, so load from other processes on the machine affects both alike.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import numpy as np
+
+import stillair
+
+ROUNDS = 5
+
+
+def best(function, repeat):
+    times = []
+    for _ in range(ROUNDS):
+        started = time.perf_counter()
+        for _ in range(repeat):
+            function()
+        times.append((time.perf_counter() - started) / repeat)
+    return min(times)
+
+
+def alternate(first, second, repeat, rounds=ROUNDS):
+    """Best time per call of each, the two timed in alternating small batches."""
+    a, b = [], []
+    for _ in range(rounds):
+        a.append(best(first, repeat))
+        b.append(best(second, repeat))
+    return min(a), min(b)
+
+
+def scalar_h_cavity():
+    from CoolProp.CoolProp import PropsSI
+
+    rng = np.random.default_rng(7)
+    hot = iter(rng.uniform(14.0, 16.0, 10_000_000).tolist())
+    gap, height = 0.016, 1.2
+
+    def by_hand():
+        t1, t2 = next(hot), 5.0
+        t = 0.5 * (t1 + t2) + 273.15
+        k = PropsSI("L", "T", t, "P", 101325.0, "Air")
+        mu = PropsSI("V", "T", t, "P", 101325.0, "Air")
+        rho = PropsSI("D", "T", t, "P", 101325.0, "Air")
+        cp = PropsSI("C", "T", t, "P", 101325.0, "Air")
+        beta = PropsSI("ISOBARIC_EXPANSION_COEFFICIENT", "T", t, "P", 101325.0, "Air")
+        nu, alpha = mu / rho, k / (rho * cp)
+        ra = 9.80665 * beta * (t1 - t2) * gap ** 3 / (nu * alpha)
+        a = height / gap
+        nu_ct = (1 + (0.104 * ra ** 0.293 / (1 + (6310 / ra) ** 1.36)) ** 3) ** (1 / 3)
+        nusselt = max(nu_ct, 0.242 * (ra / a) ** 0.273, 0.0605 * ra ** (1 / 3))
+        return nusselt * k / gap
+
+    def with_stillair():
+        return stillair.h_cavity(next(hot), 5.0, gap, height)
+
+    by_hand(), with_stillair()
+    hand, ours = alternate(by_hand, with_stillair, 30, rounds=40)
+    print(f"scalar h_cavity: stillair {ours * 1e6:7.1f} us, by hand with PropsSI {hand * 1e6:7.1f} us"
+          f"  ->  stillair {hand / ours:5.1f}x faster (target >= 5x)")
+
+
+def vectorised():
+    n = 1_000_000
+    rng = np.random.default_rng(3)
+    ra = 10 ** rng.uniform(-1, 12, n)   # inside churchill-chu's 0.1 <= Ra <= 1e12
+    pr = np.full(n, 0.71)
+
+    def bare():
+        return (0.825 + 0.387 * ra ** (1 / 6) / (1 + (0.492 / pr) ** (9 / 16)) ** (8 / 27)) ** 2
+
+    def named():
+        return stillair.nusselt("vplate", "churchill-chu", ra=ra, pr=pr).nu
+
+    def auto():
+        return stillair.nusselt("vplate", "auto", ra=ra, pr=pr).nu
+
+    np.testing.assert_allclose(named(), bare(), rtol=1e-12)
+    base, ours = alternate(bare, named, 1)
+    print(f"1e6 points, vplate churchill-chu: bare numpy {base * 1e3:6.1f} ms, stillair.nusselt "
+          f"{ours * 1e3:6.1f} ms  ->  {ours / base:4.1f}x (target <= 6x)")
+    base, ours = alternate(bare, auto, 1)
+    print(f"1e6 points, vplate auto:          bare numpy {base * 1e3:6.1f} ms, stillair.nusselt "
+          f"{ours * 1e3:6.1f} ms  ->  {ours / base:4.1f}x")
+
+    aspect = rng.uniform(20, 100, n)
+    tilt = np.full(n, 90.0)
+    ra_cavity = 10 ** rng.uniform(3, 6, n)
+
+    def bare_cavity():
+        nu_ct = (1 + (0.104 * ra_cavity ** 0.293 / (1 + (6310 / ra_cavity) ** 1.36)) ** 3) ** (1 / 3)
+        return np.maximum(nu_ct, np.maximum(0.242 * (ra_cavity / aspect) ** 0.273, 0.0605 * np.cbrt(ra_cavity)))
+
+    def named_cavity():
+        return stillair.nusselt("cavity", "elsherbiny", ra=ra_cavity, pr=pr, aspect=aspect, tilt=tilt).nu
+
+    np.testing.assert_allclose(named_cavity(), np.maximum(bare_cavity(), 1.0), rtol=1e-12)
+    base, ours = alternate(bare_cavity, named_cavity, 1)
+    print(f"1e6 points, cavity elsherbiny:    bare numpy {base * 1e3:6.1f} ms, stillair.nusselt "
+          f"{ours * 1e3:6.1f} ms  ->  {ours / base:4.1f}x (target <= 6x)")
+
+
+if __name__ == "__main__":
+    scalar_h_cavity()
+    vectorised()
