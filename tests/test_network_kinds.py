@@ -36,15 +36,15 @@ def test_a_vertical_cylinder_branch_is_the_one_call_coefficient_at_the_solution(
 
 def test_kind_columns_follow_the_geometry_inputs():
     shapes = {name: [p.describe() for p in kind.params] for name, kind in BRANCH_KINDS.items()}
-    assert shapes["vcyl"] == ["height m", "diameter m", "area m²"]
+    assert shapes["vcyl"] == ["height m (cylinder height)", "diameter m", "area m²"]
     assert shapes["tplate"][2:] == ["tilt ° from vertical", "facing (up or down)"]
-    assert shapes["cavity"] == ["gap m", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
+    assert shapes["cavity"] == ["gap m (gap L between the two faces)", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
                                 "gas (blank: the network's)"]
     # a geometry registered later gets its columns by the same rules, without network code
     fin = Geometry(name="vplate", inputs=("ra", "pr", "tilt"), description="", cases=("hot-up",),
-                   tilt_range=(0.0, 45.0))
+                   tilt_range=(0.0, 45.0), length="height", length_doc="fin height, m")
     kind = _convection_kind(fin)
-    assert [p.describe() for p in kind.params] == ["height m", "area m²", "tilt ° from vertical",
+    assert [p.describe() for p in kind.params] == ["height m (fin height)", "area m²", "tilt ° from vertical",
                                                    "facing (up or down)"]
     assert kind.params[2].limits == (0.0, 45.0)
     with pytest.raises(RuntimeError) as caught:
@@ -60,7 +60,7 @@ def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
                                   "from": "either way round (q > 0 from from to to)"}
     assert rows["vcyl"]["from"] == "from: the solid surface; to: the still fluid"
     from stillair.addin.network import kinds_markdown
-    assert "| `vcyl` | height m | diameter m | area m² |  |  | h(T1, T2) A (T1 - T2), h = Nu k / height |" \
+    assert "| `vcyl` | height m (cylinder height) | diameter m | area m² |  |  | h(T1, T2) A (T1 - T2), h = Nu k / height |" \
         in kinds_markdown()
 
 

@@ -279,10 +279,12 @@ class ConvectionKind(BranchKind):
         return inputs
 
 
-# The length each surface geometry's Ra is based on, and what it means (cavity: the gap).
-_LENGTHS = {"vplate": ("height", ""), "hplate": ("length", "area/perimeter"),
-            "tplate": ("length", "along the slope; area/perimeter where the horizontal term governs"),
-            "hcyl": ("diameter", ""), "sphere": ("diameter", ""), "vcyl": ("height", "")}
+def _length_param(geometry) -> Param:
+    """The column of the geometry's own length (its name and meaning are the geometry's)."""
+    meaning = geometry.length_doc.removesuffix(", m").strip()
+    if meaning in (geometry.length, f"{geometry.length}"):
+        meaning = ""
+    return Param(geometry.length, "m", meaning, role="length")
 
 
 def _convection_kind(geometry) -> ConvectionKind:
@@ -292,18 +294,17 @@ def _convection_kind(geometry) -> ConvectionKind:
         low, high = geometry.tilt_range
         default_tilt = getattr(geometry, "default_tilt", None)
         default_tilt = 90.0 if default_tilt is None else default_tilt
-        params = (Param("gap", "m", role="length"), Param("height", "m", role="height"),
+        params = (_length_param(geometry), Param("height", "m", role="height"),
                   Param("area", "m²", role="area"),
                   Param("tilt", "° from horizontal", check="angle", limits=(low, high), optional=True,
                         default=default_tilt, blank_means=f"{default_tilt:g}", role="layer-tilt"),
                   Param("gas", check="gas", optional=True, blank_means="the network's", role="gas"))
-        return ConvectionKind(geometry.name, params, flow="h(T1, T2) A (T1 - T2), h = Nu k / gap",
+        return ConvectionKind(geometry.name, params,
+                              flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {geometry.length}",
                               ends="from: the surface on the layer's underside; to: the other face",
                               geometry=geometry.name)
-    if geometry.name not in _LENGTHS:
-        raise RuntimeError(f"network: no length column known for geometry {geometry.name!r}")
-    label, meaning = _LENGTHS[geometry.name]
-    params = [Param(label, "m", meaning, role="length")]
+    label = geometry.length
+    params = [_length_param(geometry)]
     if "slenderness" in inputs:
         params.append(Param("diameter", "m", role="diameter"))
     params.append(Param("area", "m²", role="area"))
