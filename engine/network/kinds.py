@@ -371,9 +371,12 @@ class _ConvectionGroup(_Group):
     def _nusselt(self, inputs, dt):
         if not self.cases:
             return nusselt(self.geometry, self.method, function_name=FUNCTION, **inputs), None, None
-        from ..convection import plate_case
-
-        case = plate_case(self.facing, dt)
+        hot = dt >= 0
+        if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
+            case = np.full(len(dt), f"{'hot' if hot.all() else 'cold'}-{self.facing}", dtype=object)
+        else:
+            from ..convection import plate_case
+            case = plate_case(self.facing, dt)
         flagged = ~np.isin(case, self.served_cases) if self.served_cases else None
         parts = []
         for name in dict.fromkeys(case.tolist()):
