@@ -204,7 +204,14 @@ class RadiationKind(BranchKind):
 class _RadiationGroup(_Group):
     def __init__(self, kind, index, params):
         super().__init__(kind, index, params)
-        self.factor = np.array([float(exchange_factor(p[0], p[1], FUNCTION)) for p in params])
+        parallel = np.array([p[1] is not None for p in params])
+        first = self.column(0)
+        self.factor = np.empty(len(params))
+        if parallel.any():
+            self.factor[parallel] = exchange_factor(first[parallel], np.array(
+                [p[1] for p in params if p[1] is not None], dtype=float), FUNCTION)
+        if not parallel.all():
+            self.factor[~parallel] = exchange_factor(first[~parallel], None, FUNCTION)
         self.area = self.column(2)
         self.af = self.area * self.factor
 
