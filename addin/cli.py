@@ -5,9 +5,18 @@ from __future__ import annotations
 import argparse
 import json
 import os
+import re
+import shutil
+import stat
 import sys
+import tempfile
 
-EXIT_BAD_INPUT = 2
+from stillair._console import run_command, say
+
+from .registry import REGISTRY
+
+EXIT_FINDINGS = 1   # done, with error cells (calc) or findings (audit)
+EXIT_BAD_INPUT = 2  # could not run: one line on stderr
 
 
 def _version() -> str:
@@ -25,12 +34,17 @@ def build_parser() -> argparse.ArgumentParser:
 
     calc = commands.add_parser("calc", help="evaluate a workbook without Excel",
                                description="Evaluate every formula of BOOK (stillair functions and "
-                               "Excel built-ins) without Excel and print the results.")
+                               "Excel built-ins) without Excel and print the results. BOOK is "
+                               "only read, never modified. Exit status: 0 done, every cell "
+                               "computed; 1 done, but some formula cell evaluates to an error "
+                               "(an Excel error such as #VALUE! or a stillair function's error "
+                               "text), listed in the notes; 2 could not run (one line on stderr).")
     calc.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
     calc.add_argument("--set", dest="sets", action="append", default=[], metavar="REF=VALUE",
                       help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable)")
     calc.add_argument("--out", metavar="OUT.xlsx",
-                      help="write a copy with formulas kept and cached values filled in")
+                      help="write a copy with formulas kept and cached values filled in; OUT must be "
+                      "a new file (an existing file is never replaced)")
     calc.add_argument("--json", action="store_true", help="print one JSON object")
 
     from .audit import add_audit_parser
@@ -42,7 +56,9 @@ def build_parser() -> argparse.ArgumentParser:
     templates = commands.add_parser("templates", help="list the template workbooks, or copy them out",
                                     description="List the shipped calculation templates; with --copy, "
                                     "copy them into DIR for filling in (existing files are never overwritten).")
-    templates.add_argument("--copy", metavar="DIR", help="copy every template into DIR")
+    templates.add_argument("--copy", metavar="DIR", help="copy every template into DIR "
+                           "(created if missing); files already there are left as they are and "
+                           "named on stderr (exit status 2)")
 
     setup = commands.add_parser("excel-setup", help="prepare xlwings for Windows Excel")
     setup.add_argument("--dry-run", action="store_true", help="show what would be written")
@@ -85,15 +101,17 @@ def _summary_cells(evaluation):
 
 
 def calc(args) -> int:
-    from .cachewriter import same_file, write_cached_values
+    from .cachewriter import same_file
     from .headless import evaluate_book
     from .xlsx import BookError
 
     try:
         sets = _parse_sets(args.sets)
+        _require_regular_file(args.book)
         if args.out:
             if os.path.exists(args.book) and same_file(args.book, args.out):
                 raise BookError(f"{args.out}: refusing to write over the input workbook")
+            _check_new_file(args.out, "--out")
         evaluation = evaluate_book(args.book, sets)
         if args.out:
             _check_out_extension(evaluation.book, args.out)
@@ -104,18 +122,19 @@ def calc(args) -> int:
                     raise BookError(f"--set {sheet}!{ref}: only numbers or TRUE/FALSE can be written "
                                     "into an input cell of the --out copy")
                 values.setdefault(sheet, {})[ref] = value
-            write_cached_values(evaluation.book, args.out, values)
+            _write_copy(evaluation.book, args.out, values)
     except (BookError, ValueError) as error:
-        print(f"stillair calc: {error}", file=sys.stderr)
+        say("stillair calc", str(error))
         return EXIT_BAD_INPUT
 
+    errors = error_cells(evaluation)
     if args.json:
         print(json.dumps({
             "values": evaluation.flat_values(),
             "names": evaluation.names,
             "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
         }, ensure_ascii=False, indent=1))
-        return 0
+        return EXIT_FINDINGS if errors else 0
 
     count = sum(len(c) for c in evaluation.values.values())
     print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
@@ -123,7 +142,9 @@ def calc(args) -> int:
     named = [(name, value) for name, value in evaluation.names.items() if name != "stillair_template"]
     results = _results_sheet_rows(args.book, evaluation)
     if results:
-        _print_results(results)
+        print("Results:")
+        for line in render_results(results):
+            print(line)
     elif named:
         print("Named results:")
         width = max(len(n) for n, _ in named)
@@ -133,62 +154,266 @@ def calc(args) -> int:
         print("Last computed cells:")
         for label, value in _summary_cells(evaluation):
             print(f"  {label}  {_format(value)}")
-    if evaluation.notes:
-        print(f"Notes ({len(evaluation.notes)}):")
-        for cell, message in evaluation.notes:
-            print(f"  {cell}: {message}" if cell else f"  {message}")
+    grouped = group_notes(evaluation.notes)
+    if grouped:
+        print(f"Notes ({len(grouped)}):")
+        for cells, message in grouped:
+            print(f"  {cells}: {message}" if cells else f"  {message}")
     else:
         print("Notes: none (every correlation used inside its validity range)")
     if args.out:
         print(f"Wrote {args.out}")
+    if errors:
+        print(f"{len(errors)} formula cell{'s' if len(errors) > 1 else ''} evaluate to an error "
+              f"({compress_cells(errors)}): exit status 1")
+        return EXIT_FINDINGS
     return 0
 
 
-def _results_sheet_rows(path: str, evaluation) -> list[tuple[str, object, str]]:
-    """(label, value, unit) rows of a "Results" sheet laid out label | value | unit, as the
-    templates are; a row with a label only is a heading (value None)."""
+_ERROR_PREFIX = re.compile(r"^(?:" + "|".join(re.escape(f.name) for f in REGISTRY) + r"): ")
+
+
+def error_cells(evaluation) -> list[str]:
+    """Formula cells whose value is an Excel error (#VALUE!...) or one of our functions' error
+    texts ("H_CAVITY: gap must be > 0 m, got -0.01"), as "Sheet!B3" labels."""
+    from .cachewriter import ERROR_VALUES
+
+    return [label for label, value in evaluation.flat_values().items()
+            if isinstance(value, str) and (value in ERROR_VALUES or _ERROR_PREFIX.match(value))]
+
+
+def _split_label(label: str) -> tuple[str, str, int] | None:
+    from .xlsx import split_ref
+
+    sheet, sep, ref = label.rpartition("!")
+    try:
+        row, _ = split_ref(ref)
+    except ValueError:
+        return None
+    return (sheet, re.sub(r"\d", "", ref), row) if sep else None
+
+
+def compress_cells(labels: list[str]) -> str:
+    """"S!B3, S!B4, S!B5, S!D2" -> "S!B3:B5, S!D2": runs down one column become ranges."""
+    runs: list[list] = []  # [sheet, column, first row, last row] or [label]
+    for label in labels:
+        parts = _split_label(label)
+        last = runs[-1] if runs else None
+        if parts and last and len(last) == 4 and last[:2] == list(parts[:2]) and parts[2] == last[3] + 1:
+            last[3] = parts[2]
+        else:
+            runs.append([*parts[:2], parts[2], parts[2]] if parts else [label])
+    return ", ".join(f"{r[0]}!{r[1]}{r[2]}" + (f":{r[1]}{r[3]}" if r[3] != r[2] else "")
+                     if len(r) == 4 else r[0] for r in runs)
+
+
+def group_notes(notes) -> list[tuple[str, str]]:
+    """(cells, message) with each distinct message once, its cells listed (ranges compressed),
+    in the order the messages first occur."""
+    by_message: dict[str, list[str]] = {}
+    for cell, message in notes:
+        cells = by_message.setdefault(message, [])
+        if cell and cell not in cells:
+            cells.append(cell)
+    return [(compress_cells(cells), message) for message, cells in by_message.items()]
+
+
+def _results_sheet_rows(path: str, evaluation) -> list[list[tuple[object, bool]]]:
+    """The rows of a "Results" sheet below its title (row 3 on), each a list of
+    (value, is_formula) cells: the computed value for a formula cell, the cell's own value
+    otherwise; trailing blank cells dropped."""
     if "Results" not in evaluation.values:
         return []
     import openpyxl
+    from .xlsx import index_to_col
 
     computed = evaluation.values["Results"]
     try:
         sheet = openpyxl.load_workbook(path, read_only=True)["Results"]
+        raw_rows = list(sheet.iter_rows(min_row=3, values_only=True))
     except Exception:  # an unreadable layout just falls back to the named results
         return []
     rows = []
-    for index, row in enumerate(sheet.iter_rows(min_row=4, max_col=3, values_only=True), start=4):
-        label, _, unit = (list(row) + [None] * 3)[:3]
-        ref = f"B{index}"
-        if ref in computed:
-            rows.append((str(label or ref), computed[ref], "" if unit is None else str(unit)))
-        elif isinstance(label, str) and label.strip():
-            rows.append((label, None, ""))
+    for index, raw in enumerate(raw_rows, start=3):
+        cells = []
+        for column, value in enumerate(raw, start=1):
+            ref = f"{index_to_col(column)}{index}"
+            if ref in computed:
+                cells.append((computed[ref], True))
+            elif isinstance(value, str) and value.startswith("="):
+                cells.append((None, True))  # a formula the evaluation did not reach
+            else:
+                cells.append((value, False))
+        while cells and _blank(cells[-1][0]):
+            cells.pop()
+        rows.append(cells)
     return rows
 
 
-def _print_results(rows) -> None:
-    width = max(len(label) for label, value, _ in rows if value is not None)
-    print("Results:")
-    for label, value, unit in rows:
-        if value is None:
-            print(f"  {label}")
+def _blank(value) -> bool:
+    return value is None or (isinstance(value, str) and not value.strip())
+
+
+def _is_table_header(row, following) -> bool:
+    """A row of text captions only (two or more), with a computed row under it."""
+    captions = [v for v, formula in row if not _blank(v)]
+    return (len(captions) >= 2 and all(isinstance(v, str) and not f for v, f in row if not _blank(v))
+            and bool(following) and any(f for _, f in following))
+
+
+def render_results(rows) -> list[str]:
+    """The Results sheet as text: headings, label | value | unit | remark lines with the values
+    aligned, and tables (a caption row over computed rows) with every column aligned."""
+    lines: list[str] = []
+    labelled = [r for r in rows if len(r) >= 2 and not _blank(r[0][0])]
+    width = max((len(_format(r[0][0])) for r in labelled), default=0)
+    index = 0
+    while index < len(rows):
+        row = rows[index]
+        if not row:
+            index += 1
+            continue
+        following = rows[index + 1] if index + 1 < len(rows) else []
+        if _is_table_header(row, following):
+            table = [row]
+            index += 1
+            while index < len(rows) and len(rows[index]) >= 2:
+                table.append(rows[index])
+                index += 1
+            lines.extend(_render_table(table))
+            continue
+        if len(row) == 1:
+            lines.append(f"  {_format(row[0][0])}")
         else:
+            label, (value, _), rest = _format(row[0][0]), row[1], row[2:]
             shown = _format(value)
-            print(f"    {label:<{width}}  {shown:<12}" if isinstance(value, str)
-                  else f"    {label:<{width}}  {shown:>12}  {unit}".rstrip())
+            shown = f"{shown:>12}" if isinstance(value, (int, float)) and not isinstance(value, bool) \
+                else f"{shown:<12}"
+            extra = "  ".join(_format(v) for v, _ in rest if not _blank(v))
+            lines.append(f"    {label:<{width}}  {shown}  {extra}".rstrip())
+        index += 1
+    return lines
+
+
+def _render_table(table) -> list[str]:
+    cells = [[_format(v) for v, _ in row] for row in table]
+    numeric = [[isinstance(v, (int, float)) and not isinstance(v, bool) for v, _ in row] for row in table]
+    columns = max(len(r) for r in cells)
+    widths = [max((len(r[c]) for r in cells if c < len(r)), default=0) for c in range(columns)]
+    lines = []
+    for row, kinds in zip(cells, numeric):
+        parts = [text.rjust(widths[c]) if kinds[c] else text.ljust(widths[c])
+                 for c, text in enumerate(row)]
+        lines.append("    " + "  ".join(parts).rstrip())
+    return lines
 
 
 def _templates(args) -> int:
-    from .templates import all_templates, copy_templates
+    from .templates import all_templates
 
-    if args.copy:
-        for target, outcome in copy_templates(args.copy):
-            print(f"{outcome:<18} {target}")
+    if not args.copy:
+        for template in all_templates():
+            print(f"{template.path.name:<24} {template.summary}")
         return 0
+    target_dir = args.copy
+    if os.path.exists(target_dir) and not os.path.isdir(target_dir):
+        say("stillair templates", f"{target_dir}: exists and is not a folder")
+        return EXIT_BAD_INPUT
+    try:
+        os.makedirs(target_dir, exist_ok=True)
+    except OSError as error:
+        say("stillair templates", f"{target_dir}: cannot create the folder ({error.strerror or error})")
+        return EXIT_BAD_INPUT
+    skipped = 0
     for template in all_templates():
-        print(f"{template.path.name:<24} {template.summary}")
-    return 0
+        target = os.path.join(target_dir, template.path.name)
+        try:
+            with open(template.path, "rb") as source, open(target, "xb") as copy:
+                shutil.copyfileobj(source, copy)
+        except FileExistsError:
+            say("stillair templates", f"{target}: exists; left as it is (not copied)")
+            skipped += 1
+            continue
+        except OSError as error:
+            say("stillair templates", f"{target}: cannot write ({error.strerror or error})")
+            skipped += 1
+            continue
+        print(f"copied  {target}")
+    return EXIT_BAD_INPUT if skipped else 0
+
+
+def _require_regular_file(path: str) -> None:
+    """Refuse at once anything that is not a regular file: reading a FIFO or a device would
+    hang or never end."""
+    from .xlsx import BookError
+
+    try:
+        mode = os.stat(path).st_mode
+    except FileNotFoundError:
+        raise BookError(f"{path}: no such file") from None
+    except OSError as error:
+        raise BookError(f"{path}: cannot read ({error.strerror or error})") from None
+    if stat.S_ISDIR(mode):
+        raise BookError(f"{path}: is a directory, not a workbook")
+    if not stat.S_ISREG(mode):
+        kind = ("a FIFO (named pipe)" if stat.S_ISFIFO(mode) else
+                "a device" if stat.S_ISCHR(mode) or stat.S_ISBLK(mode) else
+                "a socket" if stat.S_ISSOCK(mode) else "a special file")
+        raise BookError(f"{path}: is {kind}, not a regular file; give a workbook file")
+
+
+def _check_new_file(path: str, option: str) -> None:
+    """A file name stillair may create: its folder exists, and nothing is there yet."""
+    from .xlsx import BookError
+
+    if os.path.isdir(path):
+        raise BookError(f"{path}: is a folder; {option} takes the name of a new file, "
+                        f"e.g. {os.path.join(path, 'result.xlsx')}")
+    if os.path.lexists(path):
+        raise BookError(f"{path}: exists; stillair never writes over a file "
+                        "(choose another name or remove it first)")
+    folder = os.path.dirname(os.path.abspath(path))
+    if not os.path.isdir(folder):
+        raise BookError(f"{path}: the folder {folder} does not exist")
+
+
+def _default_permissions() -> int:
+    """The mode a new file gets from the user's umask (tempfile's files are private, 0600)."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
+
+
+def _write_copy(book, out: str, values) -> None:
+    """Write the --out copy next to its target under a temporary name, give it the user's
+    normal permissions, and link it into place only if nothing appeared there meanwhile."""
+    from .cachewriter import write_cached_values
+    from .xlsx import BookError
+
+    folder = os.path.dirname(os.path.abspath(out))
+    try:
+        handle, temporary = tempfile.mkstemp(prefix=".stillair-", suffix=os.path.splitext(out)[1],
+                                             dir=folder)
+    except OSError as error:
+        raise BookError(f"{out}: cannot write in {folder} ({error.strerror or error})") from None
+    os.close(handle)
+    try:
+        try:
+            write_cached_values(book, temporary, values)
+            os.chmod(temporary, _default_permissions())
+            try:
+                os.link(temporary, out)
+            except FileExistsError:
+                raise BookError(f"{out}: appeared while calculating; left as it is") from None
+            except OSError:  # a file system without hard links: rename, which was checked free
+                if os.path.lexists(out):
+                    raise BookError(f"{out}: appeared while calculating; left as it is") from None
+                os.rename(temporary, out)
+        except OSError as error:
+            raise BookError(f"{out}: cannot write ({error.strerror or error})") from None
+    finally:
+        if os.path.lexists(temporary):
+            os.unlink(temporary)
 
 
 def _check_out_extension(book, out: str) -> None:
@@ -202,6 +427,12 @@ def _check_out_extension(book, out: str) -> None:
 
 
 def main(argv: list[str] | None = None) -> int:
+    """The ``stillair`` command; returns the exit status (0 clean, 1 findings or error cells,
+    2 could not run), and never lets a traceback reach the user."""
+    return run_command("stillair", lambda: _dispatch(argv))
+
+
+def _dispatch(argv: list[str] | None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
     if args.command is None:
@@ -215,6 +446,14 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     if args.command == "audit":
         from .audit import run_audit
+        from .xlsx import BookError
+        try:
+            _require_regular_file(args.book)
+        except BookError as error:
+            say("stillair audit", str(error))
+            if args.json:
+                print(json.dumps({"book": args.book, "error": str(error), "exit": EXIT_BAD_INPUT}))
+            return EXIT_BAD_INPUT
         return run_audit(args)
     if args.command == "templates":
         return _templates(args)

@@ -7,7 +7,9 @@ registrations (:mod:`stillair.addin.headless`) and the function reference (``sti
 
 Argument kinds:
 
-``number``  one numeric cell; an optional one takes its default when blank.
+``number``  a number; an optional one takes its default when blank.  Where the function
+            broadcasts (:attr:`CellFunction.takes_arrays`) a range or array is accepted too,
+            and the result is an array of the broadcast shape (it spills in Excel 365).
 ``text``    one text cell (gas, method, case, facing, node or branch name).
 ``table``   a range (branches or boundaries table); trailing blank rows are ignored.
 
@@ -68,6 +70,15 @@ class CellFunction:
     invoke: Callable[[Any, dict], Any] | None = field(default=None, compare=False)
     call: bool = True
 
+    @property
+    def takes_arrays(self) -> bool:
+        """True when every numeric argument may be a range or array (the result is then an
+        array of the broadcast shape): every computing function without a table argument.
+        Functions that pass their arguments straight to a broadcasting engine callable are
+        computed in one call; those with ``invoke`` element by element."""
+        return (self.call and any(a.kind == "number" for a in self.args)
+                and not any(a.kind == "table" for a in self.args))
+
     def signature(self) -> str:
         parts = [f"[{a.name}]" if a.optional else a.name for a in self.args]
         return f"{self.name}({', '.join(parts)})"
@@ -105,6 +116,7 @@ M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcad
 M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
 M_TPLATE = _method("tilted plate", "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
 M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
+M_VCYL = _method("vertical cylinder", "churchill-chu, popiel")
 M_SPHERE = _method("sphere", "churchill")
 M_CAVITY = _method("cavity", "catton, macgregor-emery, elsherbiny, wright, hollands, globe-dropkin, "
                    "en673, conduction")
@@ -115,6 +127,7 @@ CAV_TILT = Arg("tilt", "Cavity tilt in degrees from the horizontal: 0 heated fro
                "(blank), 180 heated from above.", "°", default=90.0)
 PLATE_TILT = Arg("tilt", "Plate tilt in degrees from the vertical (0 vertical, 90 horizontal).", "°")
 ASPECT = Arg("aspect", "Cavity aspect ratio height/gap (> 0).")
+SLENDERNESS = Arg("slenderness", "Cylinder slenderness height/diameter (> 0).")
 TS = Arg("ts", "Surface temperature in degrees Celsius.", "°C")
 TF = Arg("tf", "Temperature of the still fluid far from the surface, in degrees Celsius.", "°C")
 FACING = Arg("facing", 'Which way the exposed face points: "up" or "down".', kind="text")
@@ -188,16 +201,22 @@ def _nu_note(nusselt, kwargs):
     """Render stillair.nusselt's validity information as one line of text."""
     from stillair import GEOMETRIES  # the geometry's inputs decide which arguments matter
 
-    geometry = kwargs.pop("geometry")
+    from stillair import InputError
+
+    geometry = str(kwargs.pop("geometry")).strip().lower()
+    if geometry not in GEOMETRIES:
+        raise InputError("nu_note", "geometry", kwargs.get("geometry", geometry),
+                         "one of " + ", ".join(f'"{name}"' for name in GEOMETRIES))
     method = kwargs.pop("method")
     case = kwargs.pop("case")
+    if "slenderness" in GEOMETRIES[geometry].inputs:  # the one ratio argument serves both shapes
+        kwargs["slenderness"] = kwargs.pop("aspect")
     inputs = {k: v for k, v in kwargs.items() if k in GEOMETRIES[geometry].inputs}
     if geometry == "cavity" and inputs.get("tilt") is None:
         inputs["tilt"] = 90.0
     for name in GEOMETRIES[geometry].inputs:
         if inputs.get(name) is None:
-            from stillair import InputError
-            raise InputError("nu_note", name, None, f'a number for geometry "{geometry}"')
+            raise InputError("nu_note", "aspect" if name == "slenderness" else name, None, f'a number for geometry "{geometry}"')
     result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
                      function_name="nu_note", **inputs).scalar()
     if result.in_range:
@@ -206,7 +225,9 @@ def _nu_note(nusselt, kwargs):
 
 
 def _geometry_choices() -> str:
-    return "vplate, hplate, tplate, hcyl, sphere or cavity"
+    from stillair.correlations import GEOMETRIES
+    names = list(GEOMETRIES)
+    return ", ".join(names[:-1]) + " or " + names[-1]
 
 
 _entries += [
@@ -217,7 +238,8 @@ _entries += [
                  "Nusselt number of a horizontal plate (Ra on area/perimeter) for the given case.",
                  CATEGORIES["nusselt"], unit="-"),
     CellFunction("NU_TPLATE", "nu_tplate", (RA, PR, PLATE_TILT, PLATE_CASE, M_TPLATE),
-                 "Nusselt number of a plate tilted from the vertical, for the given case.",
+                 "Nusselt number of a tilted plate for the given case; tilt in degrees from the "
+                 "vertical (0 vertical, 90 horizontal).",
                  CATEGORIES["nusselt"], unit="-"),
     CellFunction("NU_HCYL", "nu_hcyl", (RA, PR, M_HCYL),
                  "Nusselt number of a horizontal cylinder (Ra on the diameter).",
@@ -225,13 +247,19 @@ _entries += [
     CellFunction("NU_SPHERE", "nu_sphere", (RA, PR, M_SPHERE),
                  "Nusselt number of a sphere (Ra on the diameter).",
                  CATEGORIES["nusselt"], unit="-"),
+    CellFunction("NU_VCYL", "nu_vcyl", (RA, PR, SLENDERNESS, M_VCYL),
+                 "Nusselt number of a vertical cylinder (Ra on the height; slenderness = "
+                 "height/diameter).", CATEGORIES["nusselt"], unit="-"),
     CellFunction("NU_CAVITY", "nu_cavity", (RA_GAP, PR, ASPECT, CAV_TILT, M_CAVITY),
-                 "Nusselt number across an enclosed gas layer (Ra on the gap), never below 1.",
+                 "Nusselt number across an enclosed gas layer (Ra on the gap), never below 1; tilt "
+                 "in degrees from the horizontal (0 heated from below, 90 vertical, 180 heated "
+                 "from above).",
                  CATEGORIES["nusselt"], unit="-"),
     CellFunction("CAVITY_METHOD", "cavity_method",
                  (RA_GAP, PR, ASPECT, CAV_TILT,
                   M_CAVITY),
-                 "Name of the cavity correlation NU_CAVITY uses for these inputs (the auto choice).",
+                 "Name of the cavity correlation NU_CAVITY uses for these inputs (the auto choice); "
+                 "tilt from the horizontal as for NU_CAVITY.",
                  CATEGORIES["nusselt"], result="text"),
     CellFunction("NU_NOTE", "nusselt",
                  (Arg("geometry", f"Geometry: {_geometry_choices()}.", kind="text"), RA, PR,
@@ -239,11 +267,12 @@ _entries += [
                       "cold-down); blank otherwise.", kind="text", default=None, engine_name="case"),
                   Arg("tilt", "Tilt in degrees: from the vertical for tplate, from the horizontal "
                       "for cavity (blank 90); blank otherwise.", "°", default=None),
-                  Arg("aspect", "Aspect ratio height/gap for cavity; blank otherwise.", default=None),
+                  Arg("aspect", "Shape ratio: height/gap for cavity, height/diameter for vcyl; "
+                      "blank otherwise.", default=None),
                   Arg("method", "Correlation name as for the NU_ functions; blank or \"auto\".",
                       kind="text", default="auto")),
                  'Validity note of a Nusselt correlation: "in range (method)" or which bound is '
-                 "crossed. The value itself is still computed by the NU_ and H_ functions.",
+                 "crossed. Tilt from the vertical for tplate, from the horizontal for cavity.",
                  CATEGORIES["nusselt"], result="text", invoke=_nu_note),
 ]
 
@@ -268,7 +297,8 @@ _entries += [
     CellFunction("H_TPLATE", "h_tplate",
                  (TS, TF, Arg("length", "Plate length in m along the slope (> 0).", "m"),
                   PLATE_TILT, FACING, GAS, P, M_TPLATE),
-                 "Convection coefficient in W/(m²·K) of a plate tilted from the vertical.",
+                 "Convection coefficient in W/(m²·K) of a tilted plate; tilt in degrees from the "
+                 "vertical (0 vertical, 90 horizontal).",
                  CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_HCYL", "h_hcyl",
                  (TS, TF, DIAMETER, GAS, P, M_HCYL),
@@ -278,6 +308,10 @@ _entries += [
                  (TS, TF, DIAMETER, GAS, P, M_SPHERE),
                  "Convection coefficient in W/(m²·K) of a sphere.",
                  CATEGORIES["coefficients"], unit="W/(m²·K)"),
+    CellFunction("H_VCYL", "h_vcyl",
+                 (TS, TF, Arg("height", "Cylinder height in m (> 0).", "m"), DIAMETER, GAS, P, M_VCYL),
+                 "Convection coefficient in W/(m²·K) of the side of a vertical cylinder, properties "
+                 "at the film temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_CAVITY", "h_cavity",
                  (Arg("t1", "Temperature of one cavity face in degrees Celsius.", "°C"),
                   Arg("t2", "Temperature of the other cavity face in degrees Celsius.", "°C"),
@@ -285,7 +319,8 @@ _entries += [
                   Arg("height", "Cavity height in m along the faces (> 0).", "m"),
                   CAV_TILT, GAS, P, M_CAVITY),
                  "Convection coefficient in W/(m²·K) across an enclosed gas layer (Nu·k/gap), "
-                 "properties at the mean temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+                 "properties at the mean temperature; tilt in degrees from the horizontal (0 "
+                 "heated from below, 90 vertical).", CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_RAD", "h_rad",
                  (Arg("t1", "Temperature of the radiating surface in degrees Celsius.", "°C"),
                   Arg("t2", "Temperature of the facing surface or of the surroundings, in °C.", "°C"),
@@ -348,6 +383,60 @@ _entries += [
                  CATEGORIES["info"], result="text", call=False),
 ]
 
+# ---------------------------------------------------------------------------------------------
+# Open vertical channels and plate-fin heat sinks
+
+CATEGORIES["heatsinks"] = "stillair channels and heat sinks"
+CHANNEL_CASE = Arg("channel_case", 'Channel walls: "isothermal" (both, blank), "isothermal-adiabatic" '
+                   '(one isothermal, one adiabatic), "flux" (uniform heat flux on both) or '
+                   '"flux-adiabatic" (flux on one).', kind="text", default="isothermal", engine_name="case")
+M_CHANNEL = _method("channel", "bar-cohen-rohsenow, elenbaas (isothermal only)")
+CHANNEL_TS = Arg("ts", "Wall temperature in °C; for the flux cases the wall temperature at the top of "
+                 "the channel (the maximum).", "°C")
+CHANNEL_TF = Arg("tf", "Temperature of the still air around the channel (entering at the bottom), °C.", "°C")
+CHANNEL_HEIGHT = Arg("height", "Plate height in m along the vertical flow (> 0).", "m")
+SINK_ARGS = (
+    Arg("t_ambient", "Ambient air temperature in °C (large surroundings at the same temperature).", "°C"),
+    Arg("base_width", "Width of the base across the fins in m.", "m"),
+    Arg("fin_height", "Height of each fin from the base to its tip in m.", "m"),
+    Arg("fin_length", "Length of the fins along the vertical flow in m.", "m"),
+    Arg("fin_thickness", "Thickness of each fin in m.", "m"),
+    Arg("fin_count", "Number of fins (whole number >= 2; count × thickness < base width).", "-"),
+    Arg("conductivity", "Thermal conductivity of the fin material in W/(m·K).", "W/(m·K)"),
+    Arg("emissivity", "Emissivity of the sink's surface, 0 to 1 (anodised about 0.8, bare aluminium "
+        "about 0.05).", "-"),
+    GAS, P)
+_entries += [
+    CellFunction("NU_CHANNEL", "nu_channel",
+                 (Arg("Ra", "Rayleigh number on the spacing; for the flux cases the modified Ra*_S on "
+                      "the wall heat flux (>= 0).", engine_name="ra"), PR,
+                  Arg("aspect", "Channel aspect ratio height/spacing (> 0).", "-"), CHANNEL_CASE, M_CHANNEL),
+                 "Nusselt number h·S/k of an open vertical parallel-plate channel (flux cases: on the "
+                 "top wall temperature).", CATEGORIES["nusselt"], unit="-"),
+    CellFunction("H_CHANNEL", "h_channel",
+                 (CHANNEL_TS, CHANNEL_TF, Arg("spacing", "Gap between the plates in m (> 0).", "m"),
+                  CHANNEL_HEIGHT, CHANNEL_CASE, GAS, P, M_CHANNEL),
+                 "Convection coefficient in W/(m²·K) on the walls of an open vertical parallel-plate "
+                 "channel, properties at the film temperature.", CATEGORIES["coefficients"],
+                 unit="W/(m²·K)"),
+    CellFunction("CHANNEL_SPACING", "channel_spacing",
+                 (CHANNEL_TS, CHANNEL_TF, CHANNEL_HEIGHT, CHANNEL_CASE,
+                  Arg("optimum", '"array" (blank): most heat from a fixed width of plates; "plate": '
+                      "where h reaches 99 % of the single-plate value.", kind="text", default="array"),
+                  GAS, P),
+                 "Optimum gap in m between vertical parallel plates (Bar-Cohen and Rohsenow composite).",
+                 CATEGORIES["heatsinks"], unit="m"),
+    CellFunction("HEATSINK_Q", "heatsink_q",
+                 (Arg("t_base", "Base temperature of the heat sink in °C.", "°C"),) + SINK_ARGS,
+                 "Heat in W rejected by a plate-fin heat sink with vertical fins in still air: fins "
+                 "(channel h, fin efficiency), exposed base and radiation from its envelope.",
+                 CATEGORIES["heatsinks"], unit="W"),
+    CellFunction("HEATSINK_TBASE", "heatsink_tbase",
+                 (Arg("q", "Heat to reject in W (>= 0).", "W"),) + SINK_ARGS,
+                 "Base temperature in °C at which a plate-fin heat sink with vertical fins rejects q "
+                 "(solved from HEATSINK_Q).", CATEGORIES["heatsinks"], unit="°C"),
+]
+
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
 BY_NAME: dict[str, CellFunction] = {f.name: f for f in REGISTRY}
 del _entries
@@ -378,7 +467,8 @@ _SPREAD_ENTRY = CellFunction(
      Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
          default=None),),
     "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
-    "how many cover it, and the methods (lowest first). Not a confidence interval.",
+    "how many cover it, the methods (lowest first). Not a confidence interval. Tilt from the "
+    "vertical for tplate, from the horizontal for cavity.",
     CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row)
 REGISTRY = REGISTRY + (_SPREAD_ENTRY,)
 BY_NAME[_SPREAD_ENTRY.name] = _SPREAD_ENTRY

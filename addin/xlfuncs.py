@@ -24,6 +24,8 @@ _EXCEL_ERROR_CODES = {
 
 
 def _from_excel(value):
+    if isinstance(value, list):  # a range (ndim=2): its cells may hold error codes too
+        return [_from_excel(v) for v in value]
     if type(value) is int and value in _EXCEL_ERROR_CODES:
         return _EXCEL_ERROR_CODES[value]
     return value
@@ -52,11 +54,15 @@ def make_function(entry: CellFunction):
 
 
 def decorate(function, entry: CellFunction, func=xw.func, arg=xw.arg, ret=xw.ret):
-    """Apply the xlwings decorators (innermost first, as written above a def)."""
+    """Apply the xlwings decorators (innermost first, as written above a def).
+
+    Numeric arguments of functions that broadcast arrive as 2-D lists (a single cell as
+    [[x]]), so a range keeps its shape; the result is then a 2-D list, which spills in
+    Excel 365 and fills an array-entered range in older Excel."""
     for a in reversed(entry.args):
         options = {"doc": arg_doc(a), "err_to_str": True}
-        if a.kind == "table":
-            options["ndim"] = 2
+        if a.kind == "table" or (a.kind == "number" and entry.takes_arrays):
+            options["ndim"] = 2  # keeps a range's shape: a column stays a column
         function = arg(a.name, **options)(function)
     function = ret()(function)
     return func(category=entry.category)(function)

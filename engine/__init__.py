@@ -1,7 +1,22 @@
-"""stillair engine: still-air heat transfer as pure numerics.
+"""stillair: natural-convection and still-air heat transfer as pure numerics.
 
 Temperatures in degrees Celsius at every public interface (kelvin only inside), SI units
-otherwise.  The public names mirror the spreadsheet cell functions in snake_case.
+otherwise.  The public names mirror the spreadsheet cell functions in snake_case
+(``H_CAVITY`` -> :func:`h_cavity`); arrays broadcast, scalar inputs give floats.
+
+>>> import stillair
+>>> h = stillair.h_cavity(20.0, 10.0, 0.02, 1.0)          # W/(m²·K) across a 20 mm air gap
+>>> result = stillair.solve_network(
+...     [["wall", "in", "out", "conduction", 0.1, 0.5, 2.0, None, None, None]],
+...     [["in", "T", 20.0], ["out", "T", 0.0]])
+>>> round(result.heat["wall"], 6)
+200.0
+
+Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properties),
+:mod:`stillair.atmosphere`, :mod:`stillair.groups` (Gr, Ra), :mod:`stillair.external` (plates,
+cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
+:mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
+:mod:`stillair.correlations` (the correlation registry and :func:`nusselt`).
 """
 
 from .validity import *  # noqa: F401,F403
@@ -13,6 +28,46 @@ from .atmosphere import *  # noqa: F401,F403
 from .groups import *  # noqa: F401,F403
 from .radiation import *  # noqa: F401,F403
 from .convection import *  # noqa: F401,F403
+from .channel import *  # noqa: F401,F403
 from .network import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
+
+# The public API, listed by hand so that help(stillair) and IDEs show exactly this.  The
+# submodules' own __all__ also carry the mechanisms contributors use (correlation(),
+# define_geometry(), the require_* checks); those stay importable from their modules.
+# tests/test_public_api.py checks that every nu_*, h_*, gas_* and air_* function is here.
+__all__ = [
+    "__version__",
+    # errors and the range warning
+    "StillairError", "InputError", "CorrelationRangeWarning", "NetworkError",
+    "NetworkConvergenceError",
+    # gas properties
+    "air_density", "air_viscosity", "air_kinvisc", "air_conductivity", "air_cp",
+    "air_diffusivity", "air_prandtl", "air_expansion",
+    "gas_density", "gas_viscosity", "gas_kinvisc", "gas_conductivity", "gas_cp",
+    "gas_diffusivity", "gas_prandtl", "gas_expansion",
+    "gas_properties", "GasProperties", "parse_gas", "gas_table_provenance", "GAS_NAMES", "GASES",
+    "STANDARD_PRESSURE",
+    # atmosphere
+    "altitude_pressure", "SEA_LEVEL_PRESSURE",
+    # dimensionless groups
+    "rayleigh", "grashof", "film_properties",
+    # Nusselt numbers and the correlation registry
+    "nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl", "nu_cavity",
+    "cavity_method", "cavity_critical_tilt", "nusselt", "NusseltResult", "methods_for",
+    "nu_spread", "NusseltSpread", "AutoStep", "Parameter",
+    "get_correlation", "Correlation", "Geometry", "Range", "GEOMETRIES", "CORRELATIONS",
+    "PLATE_CASES",
+    # heat-transfer coefficients
+    "h_vplate", "h_hplate", "h_tplate", "h_hcyl", "h_sphere", "h_vcyl", "h_cavity", "h_rad",
+    "surface_convection", "cavity_convection", "ConvectionResult", "geometry_convection",
+    "convection_geometries",
+    # open channels and plate-fin heat sinks
+    "nu_channel", "h_channel", "channel_convection", "channel_spacing", "optimum_elenbaas",
+    "heatsink", "heatsink_q", "heatsink_tbase", "HeatSinkResult", "CHANNEL_CASES",
+    # radiation
+    "radiation_flux", "exchange_factor", "SIGMA",
+    # the thermal network
+    "solve_network", "NetworkResult", "BranchResult", "BRANCH_KINDS", "clear_network_cache",
+]

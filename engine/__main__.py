@@ -11,7 +11,10 @@ from __future__ import annotations
 
 import math
 
+import sys
+
 from . import solve_network
+from ._console import run_command
 
 HEIGHT, WIDTH = 2.6, 3.0
 AREA = HEIGHT * WIDTH
@@ -51,4 +54,4 @@ def main() -> None:
 
 
 if __name__ == "__main__":
-    main()
+    sys.exit(run_command("python -m stillair", main))

@@ -18,6 +18,7 @@ tropopause at 11000 m, above which the temperature is constant and this formula 
 
 from __future__ import annotations
 
+from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_between, unwrap
 
 __all__ = ["ALTITUDE_RANGE", "altitude_pressure", "SEA_LEVEL_PRESSURE"]
@@ -33,15 +34,57 @@ ALTITUDE_RANGE = Range("altitude_m", -2000.0, 11000.0)
 _EXPONENT = STANDARD_GRAVITY * AIR_MOLAR_MASS / (GAS_CONSTANT_1976 * LAPSE_RATE)  # 5.25588
 
 
-def altitude_pressure(altitude_m):
-    """Standard-atmosphere pressure, Pa, at geopotential altitude ``altitude_m`` (m).
+def altitude_pressure(altitude_m: ArrayLike) -> FloatOrArray:
+    """Standard-atmosphere pressure at an altitude, for the pressure argument of the others.
 
-    ISO 2533:1975 / U.S. Standard Atmosphere 1976 troposphere,
-    p = 101325 (1 - 2.25577e-5 H)^5.25588; valid for -2000 <= H <= 11000 m (outside:
-    InputError).  Arrays in, arrays out; a scalar gives a float.  This is the undisturbed
-    standard day: the actual pressure at a site varies with the weather by a few per cent.
+    Parameters
+    ----------
+    altitude_m : float or array_like
+        Geopotential altitude above sea level in m, {low:g} to {high:g}.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Absolute pressure in Pa; a float for a scalar altitude, an array of its shape
+        otherwise.
+
+    Raises
+    ------
+    InputError
+        An altitude outside {low:g} to {high:g} m.
+
+    Notes
+    -----
+    Troposphere of the standard atmosphere: a linear temperature lapse of {lapse:g} K/m from
+    {t0:g} K at sea level and hydrostatic equilibrium give
+
+        p = {p0:g} (1 - {coefficient:.6g} H) ^ {exponent:.6g}  Pa.
+
+    This is the undisturbed standard day: the actual pressure at a site varies with the
+    weather by a few per cent.  Validity: {low:g} m (the lowest altitude of the ISO 2533 tables,
+    from memory) to the tropopause at {high:g} m, above which the temperature is constant and
+    this formula no longer holds.
+
+    References
+    ----------
+    ISO 2533:1975 Standard Atmosphere; U.S. Standard Atmosphere 1976 (NOAA/NASA/USAF),
+    eqs. 33a and 33b.
+
+    Examples
+    --------
+    >>> import stillair
+    >>> round(stillair.altitude_pressure(1000.0))
+    89875
+    >>> stillair.altitude_pressure([0.0, 2000.0]).round()
+    array([101325.,  79495.])
     """
     altitude = require_between("altitude_pressure", "altitude_m", altitude_m,
                                ALTITUDE_RANGE.low, ALTITUDE_RANGE.high, "m")
     ratio = 1.0 - LAPSE_RATE * altitude / SEA_LEVEL_TEMPERATURE
     return unwrap(SEA_LEVEL_PRESSURE * ratio ** _EXPONENT)
+
+
+# The numbers in the docstring are the module's own constants.
+altitude_pressure.__doc__ = altitude_pressure.__doc__.format(
+    low=ALTITUDE_RANGE.low, high=ALTITUDE_RANGE.high, lapse=LAPSE_RATE, t0=SEA_LEVEL_TEMPERATURE,
+    p0=SEA_LEVEL_PRESSURE, coefficient=LAPSE_RATE / SEA_LEVEL_TEMPERATURE, exponent=_EXPONENT)

@@ -65,6 +65,7 @@ class ConvectionResult:
     case: np.ndarray
     in_range: np.ndarray
     note: np.ndarray
+    blend: np.ndarray | None = None   # "" or "auto blend of A and B" (see NusseltResult)
 
     @property
     def notes(self) -> list[str]:
@@ -152,7 +153,7 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(length, shape), method=result.method, case=case,
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -187,7 +188,7 @@ def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEF
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
                             length=_full(gap, shape), method=result.method,
-                            case=uniform("", shape), in_range=result.in_range, note=result.note)
+                            case=uniform("", shape), in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 _PLAIN = (float, int, np.float64)
@@ -216,7 +217,7 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
                             pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
                             conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
                             method=result.method, case=np.asarray(case, dtype=object),
-                            in_range=result.in_range, note=result.note)
+                            in_range=result.in_range, note=result.note, blend=result.blend)
 
 
 def convection_geometries() -> tuple:
@@ -227,10 +228,13 @@ def convection_geometries() -> tuple:
     ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
     ``description``.  A new geometry defined in the registry appears here with no other change.
 
+    Geometries whose h has a model of its own (the open channel, :func:`stillair.h_channel`)
+    define no ``parameters`` and are not listed.
+
     >>> [g.name for g in convection_geometries()]
     ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
     """
-    return tuple(GEOMETRIES.values())
+    return tuple(geometry for geometry in GEOMETRIES.values() if geometry.parameters)
 
 
 def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -247,7 +251,8 @@ def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PR
     5.6
     """
     function_name = function_name or f"h_{geometry}"
-    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
+    names = tuple(g.name for g in convection_geometries())
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, names)]
     known = {p.name: p for p in geo.parameters}
     for name in parameters:
         if name not in known:

@@ -362,7 +362,7 @@ def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, ob
 
 
 def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str:
-    if method is None:
+    if method is None or method == "auto":
         return "auto"
     allowed = ["auto"] + methods_for(geometry.name, case)
     name = method.strip().lower() if isinstance(method, str) else None

@@ -84,6 +84,7 @@ from __future__ import annotations
 import math
 import os
 import sys
+import textwrap
 import threading
 import warnings
 import zipfile
@@ -100,6 +101,7 @@ from scipy.constants import R as GAS_CONSTANT  # J/(mol K), CODATA
 # about 2 s, and the shipped tables make it unnecessary.  scipy.interpolate (0.2 s) is imported
 # where the first table is built, so that importing the engine stays light.
 
+from ._typing import ArrayLike, FloatOrArray
 from .validity import (
     ABSOLUTE_ZERO_C,
     InputError,
@@ -123,7 +125,6 @@ __all__ = [
     "gas_table_provenance",
     "parse_gas",
     "require_gas_temperature",
-    "plain_state_accepted",
 ]
 
 STANDARD_PRESSURE = 101325.0  # Pa, 1 standard atmosphere
@@ -243,14 +244,39 @@ class _Mixture:
         return np.array([fraction for _, fraction in self.components])
 
 
-def parse_gas(gas) -> tuple[tuple[str, float], ...]:
-    """Normalise a gas argument to ``((component, mole_fraction), ...)``.
+def parse_gas(gas: str) -> tuple[tuple[str, float], ...]:
+    """Normalise a gas argument to its components and mole fractions.
 
-    ``"Argon"`` gives ``(("argon", 1.0),)``; ``" argon : 0.9 , AIR:0.1"`` gives
-    ``(("argon", 0.9), ("air", 0.1))``.  Names are case-insensitive and spaces are ignored
-    around names, colons and commas.  Fractions are mole fractions, each in [0, 1], summing to 1
-    within 1e-6; they are rescaled to sum exactly to 1, and components with fraction 0 are
-    dropped (so "argon:1, air:0" is argon).  Each component may appear once.
+    Parameters
+    ----------
+    gas : str
+        {gas_doc}
+
+    Returns
+    -------
+    tuple of (str, float)
+        ``((component, mole_fraction), ...)``, names in lower case, fractions summing exactly
+        to 1.
+
+    Raises
+    ------
+    InputError
+        An unknown gas, a malformed mixture, a gas named twice, fractions outside [0, 1] or
+        not summing to 1 within {tolerance:g}.
+
+    Notes
+    -----
+    Names are case-insensitive and spaces are ignored around names, colons and commas.
+    Fractions are rescaled to sum exactly to 1, and components with fraction 0 are dropped (so
+    "argon:1, air:0" is argon).
+
+    Examples
+    --------
+    >>> import stillair
+    >>> stillair.parse_gas(" Argon : 0.9 , AIR:0.1")
+    (('argon', 0.9), ('air', 0.1))
+    >>> stillair.parse_gas("argon:1, air:0")
+    (('argon', 1.0),)
     """
     return _mixture("parse_gas", gas).components
 
@@ -585,10 +611,26 @@ def _shipped_gas(name: str) -> _ShippedGas | None:
 def gas_table_provenance() -> dict:
     """Where the pure-gas property tables come from, for traceability.
 
-    ``{"file": path of the table file or None, "coolprop_version": the CoolProp version that
-    computed the file ("" without one), "installed_coolprop": the installed CoolProp's version
-    if it has been imported (else None: it is not needed), "gases": {gas: source}}``, listing
-    each pure gas used so far (mixtures come from their components' tables).
+    Returns
+    -------
+    dict
+        ``"file"``: path of the table file in use, or None; ``"coolprop_version"``: the
+        CoolProp version that computed the file ("" without one); ``"installed_coolprop"``:
+        the installed CoolProp's version if it has been imported (else None: it was not
+        needed); ``"gases"``: ``{gas: source}`` for each pure gas used so far (mixtures come
+        from their components' tables).
+
+    Notes
+    -----
+    The shipped file is the reference data of a release: results do not change with the
+    installed CoolProp version.  ``STILLAIR_GAS_TABLES`` names another file, or ``off``.
+
+    Examples
+    --------
+    >>> import stillair
+    >>> _ = stillair.air_density(20.0)
+    >>> sorted(stillair.gas_table_provenance())
+    ['coolprop_version', 'file', 'gases', 'installed_coolprop']
     """
     shipped = _shipped()
     coolprop = _coolprop() if "CoolProp" in sys.modules else None
@@ -767,17 +809,46 @@ def _checked_temperature(function: str, argument: str, mixture: "_Mixture", t) -
                            f"°C for {mixture.label}")
 
 
-def require_gas_temperature(function: str, argument: str, t, gas="air") -> np.ndarray:
-    """Check a temperature argument (°C) as the user typed it: a finite number, above absolute
-    zero and inside ``gas``'s tabulated range; the message names ``argument`` and the value.
+def require_gas_temperature(function: str, argument: str, t: ArrayLike, gas: str = "air") -> np.ndarray:
+    """Check a temperature argument as the user typed it.
 
+    Parameters
+    ----------
+    function : str
+        Name the message starts with (the caller's public name, e.g. ``"h_vplate"``).
+    argument : str
+        The argument's name as the user typed it (``"ts"``, ``"t1"``...).
+    t : array_like
+        Temperature in °C.
+    gas : str, default "air"
+        Gas or mixture whose tabulated range applies.
+
+    Returns
+    -------
+    ndarray
+        ``t`` as a float array.
+
+    Raises
+    ------
+    InputError
+        "must be a finite number, got nan", "must be above absolute zero (-273.15 °C)" or
+        "must be in [low, high] °C for <gas>", naming ``argument`` and the value typed.
+
+    Notes
+    -----
+    Absolute zero is -273.15 °C (``scipy.constants.zero_Celsius``); each gas's range is its
+    table's (:data:`GASES`, ``t_range``), a mixture's the intersection of its components'.
+
+    Examples
+    --------
+    >>> from stillair.gases import require_gas_temperature
     >>> require_gas_temperature("h_vplate", "ts", 60.0).item()
     60.0
     """
     return _checked_temperature(function, argument, _mixture(function, gas), t)
 
 
-def plain_state_accepted(gas, temperatures, pressure) -> bool:
+def plain_state_accepted(gas: str, temperatures: tuple, pressure: float) -> bool:
     """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
     numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
     raises (the full checks word the message)."""
@@ -826,16 +897,55 @@ def _state(function: str, gas, t, pressure) -> GasProperties:
                      *np.moveaxis(primaries, -1, 0))
 
 
-def gas_properties(gas, t, pressure=STANDARD_PRESSURE, *,
+def gas_properties(gas: str, t: ArrayLike, pressure: ArrayLike = STANDARD_PRESSURE, *,
                    function_name: str = "gas_properties") -> GasProperties:
-    """All properties of ``gas`` at temperature ``t`` (degC) and ``pressure`` (Pa) at once.
+    """All properties of a gas at one temperature and pressure (or arrays of them) at once.
 
+    Parameters
+    ----------
+    gas : str
+        {gas_doc}
+    t : float or array_like
+        Temperature in °C; valid temperatures per gas (a mixture: where all its components
+        are valid):
+
+{ranges}
+    pressure : float or array_like, default {pressure:g}
+        Absolute pressure in Pa, {p_low:g} to {p_high:g}.
+    function_name : str, default "gas_properties"
+        The name error messages start with (a caller such as ``h_cavity`` passes its own).
+
+    Returns
+    -------
+    GasProperties
+        Frozen record of density (kg/m³), viscosity (Pa·s), kinvisc (m²/s), conductivity
+        (W/(m·K)), cp (J/(kg·K)), diffusivity (m²/s), prandtl (-), expansion (1/K) and
+        molar_mass (kg/mol); floats for scalar inputs, arrays of the broadcast shape of t and
+        pressure otherwise.
+
+    Raises
+    ------
+    InputError
+        An unknown gas or malformed mixture, or t or pressure outside the ranges above.
+
+    Notes
+    -----
     The fast path for code needing several properties per state (convection, the network
-    solver): one table look-up gives density, viscosity, kinematic viscosity, conductivity, cp,
-    thermal diffusivity, Prandtl number, expansion coefficient and molar mass, as a frozen
-    :class:`GasProperties`.  Arrays broadcast; scalars give floats.  Sources, mixing rules and
-    ranges: see the module docstring and :data:`GASES`.  ``function_name`` is the name error
-    messages start with (a caller such as ``h_cavity`` passes its own).
+    solver): one table look-up.  Method: tables of density/p, viscosity, conductivity, cp and
+    beta per pure gas on a 1 K grid in temperature and Chebyshev nodes in pressure,
+    interpolated (error below 1e-6 relative); derived properties formed from them; mixtures by
+    the mixing rules of ISO 15099:2003 Annex B.
+
+    References
+    ----------
+{sources}
+
+    Examples
+    --------
+    >>> import stillair
+    >>> fill = stillair.gas_properties("argon:0.9, air:0.1", 10.0)
+    >>> print(fill.gas, f"{{fill.conductivity:.4g}} W/(m·K)", f"Pr = {{fill.prandtl:.3f}}")
+    argon:0.9, air:0.1 0.01774 W/(m·K) Pr = 0.670
     """
     return _state(function_name, gas, t, pressure)
 
@@ -852,57 +962,108 @@ class GasPropertyInfo:
     quantity: str
     unit: str
     definition: str
+    examples: tuple[str, str] = ("", "")  # shown value: air at 20 °C, argon at 10 °C (4 digits)
 
 
 GAS_PROPERTY_TABLE: tuple[GasPropertyInfo, ...] = (
     GasPropertyInfo("density", "density rho", "kg/m3",
                  "From the equation of state of each gas (real gas); mixtures by additive "
-                 "molar volumes, which is ISO 15099's ideal-gas rule for ideal gases."),
+                 "molar volumes, which is ISO 15099's ideal-gas rule for ideal gases.",
+                    ("1.205", "1.721")),
     GasPropertyInfo("viscosity", "dynamic viscosity mu", "Pa s",
                  "CoolProp transport models; krypton and xenon ISO 15099 Table B.1 fits; "
-                 "mixtures by Wilke's rule as in ISO 15099 Annex B."),
+                 "mixtures by Wilke's rule as in ISO 15099 Annex B.", ("1.821e-05", "2.167e-05")),
     GasPropertyInfo("kinvisc", "kinematic viscosity nu = mu/rho", "m2/s",
-                 "Formed from the viscosity and density given by gas_viscosity and gas_density."),
+                 "Formed from the viscosity and density given by gas_viscosity and gas_density.",
+                    ("1.511e-05", "1.259e-05")),
     GasPropertyInfo("conductivity", "thermal conductivity k", "W/(m K)",
                  "CoolProp transport models; krypton and xenon ISO 15099 Table B.1 fits; "
-                 "mixtures by the ISO 15099 Annex B rule (translational and internal parts)."),
+                 "mixtures by the ISO 15099 Annex B rule (translational and internal parts).",
+                    ("0.02587", "0.01699")),
     GasPropertyInfo("cp", "isobaric specific heat capacity cp", "J/(kg K)",
                  "From the equation of state of each gas (real gas); mixtures by "
-                 "mass-fraction weighting (ISO 15099 Annex B)."),
+                 "mass-fraction weighting (ISO 15099 Annex B).", ("1006", "521.7")),
     GasPropertyInfo("diffusivity", "thermal diffusivity alpha = k/(rho cp)", "m2/s",
-                 "Formed from the conductivity, density and cp of the other functions."),
+                 "Formed from the conductivity, density and cp of the other functions.",
+                    ("2.135e-05", "1.893e-05")),
     GasPropertyInfo("prandtl", "Prandtl number Pr = mu cp/k", "-",
-                 "Formed from the viscosity, cp and conductivity of the other functions."),
+                 "Formed from the viscosity, cp and conductivity of the other functions.",
+                    ("0.708", "0.6652")),
     GasPropertyInfo("expansion", "isobaric expansion coefficient beta = -(1/rho) (d rho/dT)_p",
                  "1/K",
                  "Real-gas value from the equation of state (mixtures: volume-fraction average); "
-                 "ideal=True gives the ideal-gas value 1/T with T in kelvin."),
+                 "ideal=True gives the ideal-gas value 1/T with T in kelvin.",
+                    ("0.003421", "0.003544")),
 )
 
 
-def _range_lines() -> str:
-    lines = [f"    {gas.name:<9} {gas.t_range.low:g} .. {gas.t_range.high:g} °C"
-             for gas in GASES.values()]
-    return "\n".join(lines)
+def _range_lines(indent: str) -> str:
+    """The valid temperatures of every gas, from :data:`GASES`."""
+    return "\n".join(f"{indent}{gas.name:<9} {gas.t_range.low:g} to {gas.t_range.high:g} °C"
+                     for gas in GASES.values())
+
+
+def _source_lines(indent: str) -> str:
+    """The reference formulations of every gas, from :data:`GASES`."""
+    lines = [f"{gas.name}: {gas.source}." for gas in GASES.values()]
+    lines.append("Mixtures: ISO 15099:2003, Annex B.")
+    return "\n".join(textwrap.fill(line, 92, initial_indent=indent,
+                                   subsequent_indent=indent + "    ") for line in lines)
+
+
+def _gas_doc(indent: str) -> str:
+    """How a gas argument is written, for every docstring that takes one."""
+    return textwrap.fill(
+        "One of " + ", ".join(GAS_NAMES) + ', or a mixture of them written "argon:0.9, '
+        'air:0.1" (mole fractions summing to 1 within '
+        f"{MIXTURE_SUM_TOLERANCE:g}); case and spaces are free.", 92,
+        initial_indent=indent, subsequent_indent=indent).lstrip()
 
 
 def _docstring(info: GasPropertyInfo, for_air: bool) -> str:
-    subject = "air" if for_air else "a gas or gas mixture"
-    gas_line = "" if for_air else (
-        "    gas: one of " + ", ".join(GAS_NAMES) + ", or a mixture of them written\n"
-        '        "argon:0.9, air:0.1" (mole fractions summing to 1); case and spaces are free.\n')
-    ideal_line = ("    ideal: False (default) for the real-gas beta, True for 1/T.\n"
-                  if info.name == "expansion" else "")
+    """numpydoc text of one air_* or gas_* function, generated from :data:`GASES` and the
+    property's :class:`GasPropertyInfo`."""
+    subject = "dry air" if for_air else "a gas or gas mixture"
+    name = f"{'air' if for_air else 'gas'}_{info.name}"
+    gas_lines = "" if for_air else f"gas : str\n    {_gas_doc('    ')}\n"
+    ideal_lines = ("ideal : bool, default False\n"
+                   "    False for the real-gas beta, True for the ideal-gas value 1/T (T in K).\n"
+                   if info.name == "expansion" else "")
+    if for_air:
+        t_doc = f"Temperature in °C, {GASES['air'].t_range.low:g} to {GASES['air'].t_range.high:g}."
+        sources = _source_lines("")[: _source_lines("").index("\nargon")]
+        call, shown = f"stillair.{name}(20.0)", info.examples[0]
+    else:
+        t_doc = ("Temperature in °C; valid temperatures per gas (a mixture: where all its\n"
+                 "    components are valid):\n\n" + _range_lines("        "))
+        sources = _source_lines("")
+        call, shown = f"stillair.{name}('argon', 10.0)", info.examples[1]
+    method = textwrap.fill(
+        f"Method: {info.definition} Interpolated in tables computed from the reference "
+        "formulations (error below 1e-6 relative); see the stillair.gases module docstring.", 92)
+    quantity = info.quantity.split(" = ")[0]
     return (
-        f"The {info.quantity} of {subject}, {info.unit}.\n\n"
-        f"Arguments:\n{gas_line}"
-        "    t: temperature, °C (number or array).\n"
-        f"    pressure: absolute pressure, Pa (default {STANDARD_PRESSURE:g}), "
-        f"{GAS_PRESSURE_RANGE.low:g} .. {GAS_PRESSURE_RANGE.high:g}.\n"
-        f"{ideal_line}\n"
-        "t and pressure broadcast; scalar inputs give a float.\n\n"
-        f"Source: {info.definition}  Details in the stillair.gases module docstring.\n\n"
-        f"Valid temperatures (outside: InputError):\n{_range_lines()}\n"
+        f"The {info.quantity} of {subject}, in {info.unit}.\n\n"
+        "Parameters\n----------\n"
+        f"{gas_lines}"
+        f"t : float or array_like\n    {t_doc}\n"
+        f"pressure : float or array_like, default {STANDARD_PRESSURE:g}\n"
+        f"    Absolute pressure in Pa, {GAS_PRESSURE_RANGE.low:g} to {GAS_PRESSURE_RANGE.high:g}.\n"
+        f"{ideal_lines}\n"
+        "Returns\n-------\n"
+        "float or numpy.ndarray\n"
+        f"    The {quantity} in {info.unit}; a float for scalar inputs, an array of the\n"
+        "    broadcast shape of t and pressure otherwise.\n\n"
+        "Raises\n------\n"
+        "InputError\n"
+        f"    {'A' if for_air else 'An unknown gas or malformed mixture, or a'} t or pressure "
+        "outside the ranges above.\n\n"
+        f"Notes\n-----\n{method}\n\n"
+        f"References\n----------\n{sources}\n\n"
+        "Examples\n--------\n"
+        ">>> import stillair\n"
+        f'>>> print(f"{{{call}:.4g}}")\n'
+        f"{shown}\n"
     )
 
 
@@ -916,10 +1077,11 @@ def _property_of(function_name: str, info: GasPropertyInfo, gas, t, pressure, id
 def _make_gas_function(info: GasPropertyInfo) -> Callable:
     name = f"gas_{info.name}"
     if info.name == "expansion":
-        def function(gas, t, pressure=STANDARD_PRESSURE, ideal=False):
+        def function(gas: str, t: ArrayLike, pressure: ArrayLike = STANDARD_PRESSURE,
+                     ideal: bool = False) -> FloatOrArray:
             return _property_of(name, info, gas, t, pressure, ideal=bool(ideal))
     else:
-        def function(gas, t, pressure=STANDARD_PRESSURE):
+        def function(gas: str, t: ArrayLike, pressure: ArrayLike = STANDARD_PRESSURE) -> FloatOrArray:
             return _property_of(name, info, gas, t, pressure)
     return _named(function, name, _docstring(info, for_air=False))
 
@@ -927,10 +1089,11 @@ def _make_gas_function(info: GasPropertyInfo) -> Callable:
 def _make_air_function(info: GasPropertyInfo) -> Callable:
     name = f"air_{info.name}"
     if info.name == "expansion":
-        def function(t, pressure=STANDARD_PRESSURE, ideal=False):
+        def function(t: ArrayLike, pressure: ArrayLike = STANDARD_PRESSURE,
+                     ideal: bool = False) -> FloatOrArray:
             return _property_of(name, info, "air", t, pressure, ideal=bool(ideal))
     else:
-        def function(t, pressure=STANDARD_PRESSURE):
+        def function(t: ArrayLike, pressure: ArrayLike = STANDARD_PRESSURE) -> FloatOrArray:
             return _property_of(name, info, "air", t, pressure)
     return _named(function, name, _docstring(info, for_air=True))
 
@@ -941,6 +1104,14 @@ def _named(function: Callable, name: str, doc: str) -> Callable:
     function.__module__ = __name__
     return function
 
+
+# The docstrings of parse_gas and gas_properties carry the gas names, ranges and sources of
+# GASES, filled in here rather than retyped.
+parse_gas.__doc__ = parse_gas.__doc__.format(gas_doc=_gas_doc("        "),
+                                             tolerance=MIXTURE_SUM_TOLERANCE)
+gas_properties.__doc__ = gas_properties.__doc__.format(
+    gas_doc=_gas_doc("        "), ranges=_range_lines("            "), pressure=STANDARD_PRESSURE,
+    p_low=GAS_PRESSURE_RANGE.low, p_high=GAS_PRESSURE_RANGE.high, sources=_source_lines("    "))
 
 for _info in GAS_PROPERTY_TABLE:
     for _factory in (_make_gas_function, _make_air_function):

@@ -18,19 +18,62 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 
+from ._typing import ArrayLike, FloatOrArray
 from .validity import require_between, require_finite, unwrap, ABSOLUTE_ZERO_C, InputError
 
 __all__ = ["SIGMA", "h_rad", "radiation_flux", "exchange_factor"]
 
 
-def exchange_factor(eps1, eps2=None, function_name: str = "exchange_factor"):
-    """Grey-body exchange factor: 1/(1/eps1 + 1/eps2 - 1) for parallel plates, eps1 alone
-    for a surface seeing large surroundings (eps2 None)."""
+_REFERENCE = ("Incropera, DeWitt, Bergman, Lavine, Fundamentals of Heat and Mass Transfer,\n"
+              "    6th ed., eqs. 1.7, 1.9, 13.24 and 13.27.")
+
+
+def exchange_factor(eps1: ArrayLike, eps2: ArrayLike | None = None,
+                    function_name: str = "exchange_factor") -> FloatOrArray:
+    """Grey-body exchange factor F of two parallel surfaces or of a surface in surroundings.
+
+    Parameters
+    ----------
+    eps1 : float or array_like
+        Emissivity of surface 1, 0 < eps <= 1.
+    eps2 : float or array_like, optional
+        Emissivity of surface 2 when two large parallel surfaces face each other; None (the
+        default) for a small surface seeing large isothermal surroundings.
+    function_name : str, default "exchange_factor"
+        The name error messages start with (a caller passes its own).
+
+    Returns
+    -------
+    float or numpy.ndarray
+        F (-): 1/(1/eps1 + 1/eps2 - 1) for parallel plates, eps1 for surroundings.
+
+    Raises
+    ------
+    InputError
+        An emissivity outside 0 < eps <= 1.
+
+    Notes
+    -----
+    The net exchange is q = F sigma (T1^4 - T2^4).  Both forms assume grey, diffuse surfaces;
+    the parallel-plate form assumes plates large against their spacing (view factor 1).
+
+    References
+    ----------
+    {reference}
+
+    Examples
+    --------
+    >>> import stillair
+    >>> round(stillair.exchange_factor(0.9, 0.1), 4)
+    0.0989
+    >>> stillair.exchange_factor(0.9)
+    0.9
+    """
     eps1 = require_between(function_name, "eps1", eps1, 0.0, 1.0, low_open=True)
     if eps2 is None:
-        return eps1
+        return unwrap(eps1)
     eps2 = require_between(function_name, "eps2", eps2, 0.0, 1.0, low_open=True)
-    return 1.0 / (1.0 / eps1 + 1.0 / eps2 - 1.0)
+    return unwrap(1.0 / (1.0 / eps1 + 1.0 / eps2 - 1.0))
 
 
 def _kelvin(function_name: str, argument: str, t_celsius):
@@ -41,12 +84,50 @@ def _kelvin(function_name: str, argument: str, t_celsius):
     return t + zero_Celsius
 
 
-def h_rad(t1, t2, eps1, eps2=None):
-    """Linearised radiation coefficient in W/(m²·K) between surfaces at t1 and t2 (°C).
+def h_rad(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
+          eps2: ArrayLike | None = None) -> FloatOrArray:
+    """Linearised radiation coefficient between two surfaces, or a surface and surroundings.
 
-    With ``eps2`` given: two large parallel grey surfaces.  With ``eps2`` omitted: a surface of
-    emissivity ``eps1`` seeing large surroundings at ``t2``.  Exact for any t1 - t2:
-    h = F sigma (T1² + T2²)(T1 + T2) with F the grey exchange factor.
+    Parameters
+    ----------
+    t1 : float or array_like
+        Temperature of the radiating surface in °C (above -273.15).
+    t2 : float or array_like
+        Temperature of the facing surface, or of the large surroundings, in °C.
+    eps1 : float or array_like
+        Emissivity of surface 1, 0 < eps <= 1.
+    eps2 : float or array_like, optional
+        Emissivity of surface 2 for two large parallel surfaces; None (the default) when
+        surface 1 sees large surroundings at t2.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        h_rad in W/(m²·K), such that the radiative flux is h_rad (t1 - t2); a float for scalar
+        inputs, an array of the broadcast shape otherwise.
+
+    Raises
+    ------
+    InputError
+        A temperature below absolute zero or not finite, an emissivity outside 0 < eps <= 1.
+
+    Notes
+    -----
+    Exact for any t1 - t2: h = F sigma (T1² + T2²)(T1 + T2), T in kelvin, F the grey exchange
+    factor (:func:`exchange_factor`); 4 F sigma Tm³ is only its limit for T1 -> T2.  Grey,
+    diffuse surfaces; parallel surfaces large against their spacing.
+
+    References
+    ----------
+    {reference}
+
+    Examples
+    --------
+    >>> import stillair
+    >>> round(stillair.h_rad(20.0, 10.0, 0.9, 0.9), 3)    # two glass panes
+    4.441
+    >>> round(stillair.h_rad(40.0, 20.0, 0.9), 3)         # a painted wall to a room
+    5.693
     """
     k1 = _kelvin("h_rad", "t1", t1)
     k2 = _kelvin("h_rad", "t2", t2)
@@ -54,9 +135,53 @@ def h_rad(t1, t2, eps1, eps2=None):
     return unwrap(factor * SIGMA * (k1 ** 2 + k2 ** 2) * (k1 + k2))
 
 
-def radiation_flux(t1, t2, eps1, eps2=None):
-    """Net radiative flux from surface 1 to 2 in W/m² (positive when t1 > t2)."""
+def radiation_flux(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
+                   eps2: ArrayLike | None = None) -> FloatOrArray:
+    """Net radiative heat flux from surface 1 to surface 2 (or to the surroundings).
+
+    Parameters
+    ----------
+    t1 : float or array_like
+        Temperature of surface 1 in °C (above -273.15).
+    t2 : float or array_like
+        Temperature of surface 2, or of the large surroundings, in °C.
+    eps1 : float or array_like
+        Emissivity of surface 1, 0 < eps <= 1.
+    eps2 : float or array_like, optional
+        Emissivity of surface 2 for two large parallel surfaces; None (the default) when
+        surface 1 sees large surroundings at t2.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        q in W/m², positive when t1 > t2.
+
+    Raises
+    ------
+    InputError
+        A temperature below absolute zero or not finite, an emissivity outside 0 < eps <= 1.
+
+    Notes
+    -----
+    q = F sigma (T1^4 - T2^4), T in kelvin, F from :func:`exchange_factor`; equal to
+    h_rad (t1 - t2).
+
+    References
+    ----------
+    {reference}
+
+    Examples
+    --------
+    >>> import stillair
+    >>> round(stillair.radiation_flux(40.0, 20.0, 0.9), 2)
+    113.86
+    """
     k1 = _kelvin("radiation_flux", "t1", t1)
     k2 = _kelvin("radiation_flux", "t2", t2)
     factor = exchange_factor(eps1, eps2, "radiation_flux")
     return unwrap(factor * SIGMA * (k1 ** 4 - k2 ** 4))
+
+
+for _function in (exchange_factor, h_rad, radiation_flux):
+    _function.__doc__ = _function.__doc__.replace("{reference}", _REFERENCE)
+del _function

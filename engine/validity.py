@@ -272,7 +272,8 @@ class Range:
             if width <= 0.0:
                 return (side * (values - bound) >= 0).astype(float)
             distance = side * (values - bound) / width
-        return np.clip(distance + _OFFSET[self.placement], 0.0, 1.0)
+        # np.minimum/np.maximum: the same as np.clip, several times faster on large arrays
+        return np.minimum(np.maximum(distance + _OFFSET[self.placement], 0.0), 1.0)
 
     def weight_of(self, value: float) -> float:
         """:meth:`weight` of one plain number (the scalar path; the same arithmetic)."""

@@ -35,6 +35,7 @@ SAMPLES.update({
     "NU_TPLATE": (1e8, 0.71, 30.0, "hot-up"),
     "NU_HCYL": (1e6, 0.71, None),
     "NU_SPHERE": (1e6, 0.71),
+    "NU_VCYL": (1e8, 0.71, 2.0),
     "NU_CAVITY": (1e4, 0.71, 40.0),
     "CAVITY_METHOD": (1e4, 0.71, 40.0, 90.0),
     "H_VPLATE": (60.0, 20.0, 0.5),
@@ -42,8 +43,14 @@ SAMPLES.update({
     "H_TPLATE": (60.0, 20.0, 0.5, 30.0, "up"),
     "H_HCYL": (60.0, 20.0, 0.05),
     "H_SPHERE": (60.0, 20.0, 0.1, "air", 101325.0),
+    "H_VCYL": (60.0, 20.0, 0.5, 0.1),
     "H_CAVITY": (15.0, 5.0, 0.016, 1.2),
     "H_RAD": (15.0, 5.0, 0.84, 0.04),
+    "NU_CHANNEL": (5e3, 0.71, 20.0, "flux"),
+    "H_CHANNEL": (60.0, 20.0, 0.008, 0.15),
+    "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
+    "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
+    "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
@@ -99,7 +106,6 @@ def _first(entry, kind):
     ("#DIV/0!", "'#DIV/0!'", "a number, not text"),   # an Excel error value (err_to_str)
     (True, "True", "a number, not a logical value"),
     (None, "an empty cell", "a number"),
-    ([[1.0], [2.0]], "a range of 2 cells", "a single cell"),
 ])
 def test_bad_number_gives_the_exact_message(name, bad, got, allowed):
     entry = BY_NAME[name]
@@ -117,6 +123,131 @@ def test_missing_text_gives_the_exact_message(name):
     raw = list(SAMPLES[name])
     raw[index] = None
     assert call(name, *raw) == f"{name}: {arg.name} must be text, got an empty cell"
+
+
+def test_a_range_is_refused_where_the_function_does_not_broadcast():
+    assert call("NET_TEMP", BRANCHES, BOUNDARIES, "in", "air", [[1e5], [9e4]]) == (
+        "NET_TEMP: pressure must be a single cell, got a range of 2 cells")
+
+
+def test_nu_note_of_a_range_notes_each_element():
+    assert call("NU_NOTE", "vplate", [[1e8], [1e14]], 0.71) == [
+        [call("NU_NOTE", "vplate", 1e8, 0.71)], [call("NU_NOTE", "vplate", 1e14, 0.71)]]
+
+
+# ---------------------------------------------------------------------------------------------
+# Ranges for numeric arguments: an array of the broadcast shape, each element what the same
+# call on that element's single values gives (Excel's own functions behave so).
+
+ARRAY_FUNCTIONS = [n for n in DIRECT if BY_NAME[n].takes_arrays]
+
+
+def _same(got, expected):
+    if isinstance(expected, float):
+        return isinstance(got, float) and got == pytest.approx(expected, rel=1e-12)
+    return got == expected
+
+
+def _padded(name):
+    entry = BY_NAME[name]
+    return list(SAMPLES[name]) + [None] * (len(entry.args) - len(SAMPLES[name]))
+
+
+def test_every_numeric_function_takes_arrays():
+    broadcasting = {"air_", "gas_", "nu_", "h_", "rayleigh", "grashof", "altitude_pressure",
+                    "cavity_method"}
+    for entry in REGISTRY:
+        if entry.engine.startswith(tuple(broadcasting)) or entry.name == "NU_NOTE":
+            assert entry.takes_arrays, entry.name
+
+
+@pytest.mark.parametrize("name", ARRAY_FUNCTIONS)
+def test_a_column_range_gives_a_column_of_cell_values(name):
+    needs_engine(name)
+    index, _ = _first(BY_NAME[name], "number")
+    raw = _padded(name)
+    column = [[raw[index]], [raw[index] * 1.1], [raw[index] * 1.2]]
+    expected = [[call(name, *(raw[:index] + [v] + raw[index + 1:]))] for (v,) in column]
+    for given in (column, np.asarray(column, dtype=object)):   # xlwings (ndim=2), formulas
+        got = call(name, *(raw[:index] + [given] + raw[index + 1:]))
+        assert len(got) == 3 and all(len(row) == 1 for row in got)
+        assert all(_same(g[0], e[0]) for g, e in zip(got, expected)), (got, expected)
+
+
+def test_a_column_and_a_row_broadcast_to_a_table():
+    """=H_CAVITY(B2:B4, 5, C1:D1, 1.2): temperatures down, gaps across."""
+    needs_engine("H_CAVITY")
+    t1, gaps = [[10.0], [15.0], [20.0]], [[0.012, 0.016]]
+    got = call("H_CAVITY", t1, 5.0, gaps, 1.2)
+    for r, (t,) in enumerate(t1):
+        for c, gap in enumerate(gaps[0]):
+            assert _same(got[r][c], call("H_CAVITY", t, 5.0, gap, 1.2))
+    flat = call("AIR_CONDUCTIVITY", [10.0, 20.0])  # xlwings' one-row range without ndim: a row
+    assert flat == [[call("AIR_CONDUCTIVITY", 10.0), call("AIR_CONDUCTIVITY", 20.0)]]
+
+
+def test_a_bad_element_shows_its_message_only_in_its_place():
+    needs_engine("H_CAVITY")
+    got = call("H_CAVITY", [[15.0], ["abc"], [None]], 5.0, [[0.016], [0.016], [-0.01]], 1.2)
+    assert _same(got[0][0], call("H_CAVITY", 15.0, 5.0, 0.016, 1.2))
+    assert got[1][0] == "H_CAVITY: t1 must be a number, not text, got 'abc'"
+    assert got[2][0] == "H_CAVITY: t1 must be a number, got an empty cell"
+    assert call("H_CAVITY", [[15.0], [16.0]], 5.0, [[0.01], [0.02], [0.03]], 1.2) == (
+        "H_CAVITY: ranges of 2x1 and 3x1 cells do not combine; give ranges of the same shape, "
+        "or one column and one row")
+
+
+def test_notes_of_an_array_call_are_recorded():
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        with NoteRecorder() as recorder:
+            values = call("NU_VPLATE", [[1e8], [1e14]], 0.71)
+    assert _same(values[1][0], call("NU_VPLATE", 1e14, 0.71))
+    assert len(recorder.notes) == 1 and "1e+14 above 1e+12" in recorder.notes[0][1]
+
+
+# ---------------------------------------------------------------------------------------------
+# The vertical cylinder
+
+
+def test_thick_vertical_cylinder_is_the_vertical_plate():
+    """A cylinder whose boundary layer is thin against its diameter, (D/L) Gr^(1/4) >= 35,
+    transfers heat as a vertical plate (Incropera et al., 6th ed., sec. 9.6.1); auto hands over
+    to Popiel across 35..70, so slenderness 1 (criterion 109) is the plate alone."""
+    needs_engine("NU_VCYL")
+    assert call("NU_VCYL", 1e8, 0.71, 1.0) == call("NU_VPLATE", 1e8, 0.71)
+    assert call("NU_NOTE", "vcyl", 1e8, 0.71, None, None, 1.0) == "in range (churchill-chu)"
+    # A slender one (criterion not met) transfers more than the plate: curvature.
+    assert call("NU_VCYL", 1e6, 0.71, 40.0) > call("NU_VPLATE", 1e6, 0.71)
+    assert call("NU_NOTE", "vcyl", 1e6, 0.71, None, None, 40.0) == "in range (popiel)"
+
+
+def test_h_vcyl_is_nu_k_over_height():
+    needs_engine("H_VCYL")
+    ts, tf, height, diameter = 60.0, 20.0, 0.5, 0.1
+    film = (ts + tf) / 2
+    ra = stillair.rayleigh(ts, tf, height)
+    nu = stillair.nu_vcyl(ra, stillair.air_prandtl(film), height / diameter)
+    assert call("H_VCYL", ts, tf, height, diameter) == pytest.approx(
+        nu * stillair.air_conductivity(film) / height, rel=1e-9)
+
+
+def test_nu_note_geometry_names_ignore_case():
+    assert call("NU_NOTE", "VPLATE", 1e8, 0.71) == call("NU_NOTE", "vplate", 1e8, 0.71)
+    assert call("NU_NOTE", " Cavity ", 1e4, 0.71, None, None, 40.0) == \
+        call("NU_NOTE", "cavity", 1e4, 0.71, None, None, 40.0)
+    assert call("NU_NOTE", "vcyl", 1e8, 0.71) == (
+        'NU_NOTE: aspect must be a number for geometry "vcyl", got an empty cell')
+    assert call("NU_NOTE", "cone", 1e4, 0.71) == (
+        'NU_NOTE: geometry must be one of "vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", '
+        "\"cavity\", \"channel\", got 'cone'")
+
+
+def test_tilted_functions_state_their_tilt_convention():
+    for entry in REGISTRY:
+        if any(a.name == "tilt" for a in entry.args):
+            text = entry.description
+            assert ("from the vertical" in text) or ("from the horizontal" in text), entry.name
 
 
 def test_too_many_arguments():

@@ -142,3 +142,10 @@ def test_geometry_convection_names_a_wrong_or_missing_parameter():
 
 def test_nusselt_and_nu_cavity_default_to_the_vertical_layer_alike():
     assert stillair.nusselt("cavity", ra=1e5, pr=0.71, aspect=20.0).nu == stillair.nu_cavity(1e5, 0.71, 20.0)
+
+
+def test_a_blend_is_named_in_the_convection_result():
+    # A 20 um wire: Ra ~ 2e-5 on the diameter, inside Churchill-Chu's hand-over band to Morgan.
+    result = stillair.geometry_convection("hcyl", 60.0, 20.0, diameter=2e-5)
+    assert 1e-5 < result.ra < 4e-5
+    assert result.blend == "auto blend of churchill-chu and morgan" and result.in_range

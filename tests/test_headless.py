@@ -191,3 +191,37 @@ def test_out_copy_changes_only_cached_values(evaluation, book, tmp_path):
     assert formulas_after.defined_names.keys() == formulas_before.defined_names.keys()
     with zipfile.ZipFile(out) as b:
         assert any(n.startswith("xl/charts/") for n in b.namelist())
+
+
+# ---------------------------------------------------------------------------------------------
+# Ranges for numeric arguments: array formulas (spilled in Excel 365, array-entered before)
+
+
+@pytest.fixture(scope="module")
+def array_evaluation(tmp_path_factory):
+    path = tmp_path_factory.mktemp("arrays") / "arrays.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Arrays")
+    temperatures = [0.0, 20.0, 40.0]
+    for row, t in enumerate(temperatures, start=2):
+        ws.write(f"A{row}", t)
+    ws.write_row("D1", [0.012, 0.016])
+    ws.write_array_formula("B2:B4", "{=AIR_CONDUCTIVITY(A2:A4)}")           # array-entered
+    ws.write_dynamic_array_formula("C2:C4", "=H_CAVITY(A2:A4,5,0.016,1.2)")  # spilled
+    ws.write_dynamic_array_formula("D2:E4", "=H_CAVITY(A2:A4,5,D1:E1,1.2)")  # column x row
+    ws.write_formula("F2", "=SUM(B2:B4)")
+    wb.close()
+    return temperatures, evaluate_book(str(path))
+
+
+def test_array_formulas_give_the_scalar_values_elementwise(array_evaluation):
+    from stillair.addin.cells import call
+    temperatures, evaluation = array_evaluation
+    cells = evaluation.values["Arrays"]
+    for row, t in enumerate(temperatures, start=2):
+        assert _close(cells[f"B{row}"], call("AIR_CONDUCTIVITY", t))
+        assert _close(cells[f"C{row}"], call("H_CAVITY", t, 5.0, 0.016, 1.2))
+        assert _close(cells[f"D{row}"], call("H_CAVITY", t, 5.0, 0.012, 1.2))
+        assert _close(cells[f"E{row}"], call("H_CAVITY", t, 5.0, 0.016, 1.2))
+    assert cells["F2"] == pytest.approx(sum(call("AIR_CONDUCTIVITY", t) for t in temperatures),
+                                        rel=1e-12)

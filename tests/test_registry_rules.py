@@ -20,9 +20,11 @@ DESIGN_NAMES = (
     [f"{p}_{q}" for p in ("AIR", "GAS") for q in ("DENSITY", "VISCOSITY", "KINVISC", "CONDUCTIVITY",
                                                   "CP", "DIFFUSIVITY", "PRANDTL", "EXPANSION")]
     + ["ALTITUDE_PRESSURE", "RAYLEIGH", "GRASHOF", "NU_VPLATE", "NU_HPLATE", "NU_TPLATE", "NU_HCYL",
-       "NU_SPHERE", "NU_CAVITY", "CAVITY_METHOD", "NU_NOTE", "H_VPLATE", "H_HPLATE", "H_TPLATE",
-       "H_HCYL", "H_SPHERE", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
-       "STILLAIR_VERSION", "NU_SPREAD", "NET_BAND"])
+       "NU_SPHERE", "NU_VCYL", "NU_CAVITY", "CAVITY_METHOD", "NU_NOTE", "H_VPLATE", "H_HPLATE", "H_TPLATE",
+       "H_HCYL", "H_SPHERE", "H_VCYL", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
+       "STILLAIR_VERSION"]
+    + ["NU_CHANNEL", "H_CHANNEL", "CHANNEL_SPACING", "HEATSINK_Q", "HEATSINK_TBASE"]
+    + ["NU_SPREAD", "NET_BAND"])
 
 # VBA keywords and the names the generated VBA wrapper itself uses (Array, XLPy, Err...): an
 # argument with one of these names would not compile.  From the VBA language specification
@@ -126,6 +128,16 @@ def test_shared_arguments_are_defined_once():
     assert [key[0] for key, ids in seen.items() if len(ids) > 1] == []
 
 
+def test_every_network_branch_kind_is_explained():
+    from stillair.addin.reference import network_markdown, network_text
+    from stillair.network import BRANCH_KINDS
+    for name, kind in BRANCH_KINDS.items():
+        assert f"| `{name}` | q = " in network_markdown()
+        assert f"{name}: q = " in network_text()
+        for param in kind.params:
+            assert param.describe() in network_markdown()
+
+
 def test_readme_function_table_is_the_generated_reference():
     text = (ROOT / "README.md").read_text(encoding="utf-8")
     start, end = "<!-- functions:start -->", "<!-- functions:end -->"
@@ -182,7 +194,8 @@ def test_xlwings_generates_vba_for_every_function(xlwings_udfs):
             None if a.optional else "required" for a in entry.args]
         for a, spec in zip(entry.args, info["args"]):
             assert spec["options"].get("err_to_str") is True
-            assert spec["options"].get("ndim") == (2 if a.kind == "table" else None)
+            two_d = a.kind == "table" or (a.kind == "number" and entry.takes_arrays)
+            assert spec["options"].get("ndim") == (2 if two_d else None)
     assert "ActiveWorkbook" in vba  # the add-in form of the wrapper
 
 

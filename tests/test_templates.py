@@ -15,8 +15,8 @@ TEMPLATES = all_templates()
 IDS = [t.name for t in TEMPLATES]
 
 
-def test_six_templates_ship_with_their_files():
-    assert len(MODULES) == 6
+def test_seven_templates_ship_with_their_files():
+    assert len(MODULES) == 7
     for template in TEMPLATES:
         assert template.path.is_file(), f"{template.path} missing: run python -m stillair.addin.templates"
 

@@ -17,7 +17,8 @@ from ..templatebook import TEMPLATE_DIR, Template, build_template
 __all__ = ["MODULES", "all_templates", "template_by_name", "copy_templates", "rebuild_all"]
 
 # The order templates are listed in; one module per template.
-MODULES = ("sealed_cabinet", "glazing_unit", "air_layer", "solar_collector", "hot_surface", "partition_cavity")
+MODULES = ("sealed_cabinet", "glazing_unit", "air_layer", "solar_collector", "hot_surface", "partition_cavity",
+           "finned_heatsink")
 
 
 def all_templates() -> tuple[Template, ...]:

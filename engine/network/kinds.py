@@ -23,12 +23,14 @@ import numpy as np
 from scipy.constants import zero_Celsius
 
 from ..groups import STANDARD_GRAVITY
-from ..correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for, nusselt, NusseltResult
+from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
+                            nusselt)
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
 
 __all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind", "BRANCH_KINDS",
+           "SKIPPED_GEOMETRIES", "NoBranchKind",
            "kind_reference", "NOMINAL_SURFACE_H", "NOMINAL_CAVITY_NU", "NOMINAL_CONDUCTIVITY"]
 
 NOMINAL_SURFACE_H = 4.0       # W/(m²·K), still air on a surface (common practice), start only
@@ -294,10 +296,18 @@ def _length_param(geometry) -> Param:
     return Param(geometry.length, "m", meaning, role="length")
 
 
+class NoBranchKind(Exception):
+    """A geometry whose inputs or cases no column rule covers (the reason is the message)."""
+
+
 def _convection_kind(geometry) -> ConvectionKind:
-    """The branch kind of a registered geometry: its columns follow from its inputs."""
+    """The branch kind of a registered geometry: its columns follow from its inputs.  Raises
+    :class:`NoBranchKind` when no rule covers it (it is then listed in SKIPPED_GEOMETRIES)."""
     inputs = set(geometry.inputs) - {"ra", "pr"}
-    if "aspect" in inputs:   # an enclosed layer: gap, height, area, tilt, its own gas
+    if geometry.cases and set(geometry.cases) != set(PLATE_CASES):
+        raise NoBranchKind(f"its cases ({', '.join(geometry.cases)}) are not set by a facing and the "
+                           "sign of the temperature difference")
+    if inputs == {"aspect", "tilt"}:   # an enclosed layer: gap, height, area, tilt, its own gas
         low, high = geometry.tilt_range
         default_tilt = getattr(geometry, "default_tilt", None)
         default_tilt = 90.0 if default_tilt is None else default_tilt
@@ -322,7 +332,7 @@ def _convection_kind(geometry) -> ConvectionKind:
         params.append(Param("facing", check="facing", meaning="up or down", role="facing"))
     unknown = inputs - {"tilt", "slenderness"}
     if unknown:
-        raise RuntimeError(f"network: no column for input(s) {sorted(unknown)} of geometry {geometry.name!r}")
+        raise NoBranchKind(f"no column rule for its input(s) {', '.join(sorted(unknown))}")
     return ConvectionKind(geometry.name, tuple(params),
                           flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}",
                           ends="from: the solid surface; to: the still fluid", geometry=geometry.name)
@@ -440,10 +450,22 @@ RADIATION = RadiationKind(
     flow="A F sigma (T1^4 - T2^4), F = 1/(1/eps1 + 1/eps2 - 1), or eps1 to large surroundings",
     ends="either way round")
 
+def _generated_kinds():
+    kinds, skipped = [], {}
+    for geometry in GEOMETRIES.values():
+        try:
+            kinds.append(_convection_kind(geometry))
+        except NoBranchKind as reason:
+            skipped[geometry.name] = str(reason)
+    return kinds, skipped
+
+
+_CONVECTION_KINDS, _SKIPPED = _generated_kinds()
 BRANCH_KINDS: Mapping[str, BranchKind] = MappingProxyType({
-    kind.name: kind for kind in (*_linear_kinds(),
-                                 *(_convection_kind(g) for g in GEOMETRIES.values()),
-                                 RADIATION)})
+    kind.name: kind for kind in (*_linear_kinds(), *_CONVECTION_KINDS, RADIATION)})
+# Registered geometries that are not branch kinds, with the reason (their h can still enter a
+# network through a film branch).
+SKIPPED_GEOMETRIES: Mapping[str, str] = MappingProxyType(_SKIPPED)
 
 
 def kind_reference() -> list[dict]:

@@ -5,7 +5,7 @@ Run: python tests/bench/bench_import.py [--repeat 5]
 Each case is a fresh Python process, timed from outside (wall clock, best and median of
 --repeat runs):
 
-* ``import engine`` alone, and ``import engine; stillair.air_conductivity(20.0)``;
+* ``import stillair`` alone, and ``import stillair; stillair.air_conductivity(20.0)``;
 * ``stillair calc`` on the 300-formula bench workbook of bench_calc.py.
 
 Each is run twice: as shipped (the gas tables from engine/data/gas_tables.npz, CoolProp never
@@ -57,9 +57,9 @@ def main() -> int:
         build(book)
         calc = f"import sys; from stillair.addin.cli import main; sys.exit(main(['calc', {str(book)!r}]))"
         cases = [
-            ("import engine", "import engine"),
-            ("import engine; stillair.air_conductivity(20.0)",
-             "import engine; stillair.air_conductivity(20.0)"),
+            ("import stillair", "import stillair"),
+            ("import stillair; stillair.air_conductivity(20.0)",
+             "import stillair; stillair.air_conductivity(20.0)"),
             ("stillair calc (300 formulas)", calc),
         ]
         print(f"cold processes, {args.repeat} runs each")

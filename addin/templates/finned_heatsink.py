@@ -1,0 +1,215 @@
+"""Template: base temperature of a natural-convection plate-fin heat sink for a given dissipation.
+
+HEATSINK_TBASE solves the base temperature at which the sink rejects the dissipation; the
+Calculation sheet then re-computes every part of the heat-sink model from that temperature with
+H_CHANNEL, H_VPLATE and the fin formulas written out, so a checker can follow each one and see
+the heat balance close.  A sweep of the fin count (HEATSINK_TBASE per row) shows where adding fins
+stops helping, with CHANNEL_SPACING's thin-plate optimum beside it.
+"""
+
+from __future__ import annotations
+
+from ..templatebook import Template
+
+NAME = "finned-heatsink"
+SWEEP_ROWS = 20
+MIN_GAP = 0.002  # m: narrower gaps are not swept (impractical in still air; common practice)
+
+DEFAULTS = dict(base_width=0.10, fin_height=0.035, fin_length=0.12, fin_thickness=0.0015, fin_count=12.0,
+                fin_k=200.0, emissivity=0.85, dissipation=25.0, ambient_t=35.0, max_base_t=85.0, altitude=0.0)
+SIGMA = "5.670374419E-8"  # W/(m²·K⁴), CODATA 2018 (scipy.constants.Stefan_Boltzmann)
+
+_SINK = "base_width, fin_height, fin_length, fin_thickness, {count}, fin_k, emissivity, \"air\", air_pressure"
+
+
+def build(b) -> None:
+    d = DEFAULTS
+    # ------------------------------------------------------------------ Inputs
+    b.section("Inputs", "Heat sink (fins vertical, base vertical)")
+    b.input("base_width", "Base width across the fins", d["base_width"], "m")
+    b.input("fin_height", "Fin height (base to tip)", d["fin_height"], "m")
+    b.input("fin_length", "Fin length along the vertical flow", d["fin_length"], "m",
+            "the sink's height as mounted")
+    b.input("fin_thickness", "Fin thickness", d["fin_thickness"], "m")
+    b.input("fin_count", "Number of fins", d["fin_count"], "-", "whole number >= 2")
+    b.section("Inputs", "Material and finish")
+    b.input("fin_k", "Fin conductivity", d["fin_k"], "W/(m·K)", "aluminium alloys about 150-220, copper about 390")
+    b.input("emissivity", "Surface emissivity (finish)", d["emissivity"], "-",
+            "anodised or painted about 0.8-0.9, bare aluminium about 0.05-0.1")
+    b.section("Inputs", "Load and surroundings")
+    b.input("dissipation", "Heat to reject", d["dissipation"], "W", "component losses conducted into the base")
+    b.input("ambient_t", "Ambient air temperature", d["ambient_t"], "°C",
+            "air around the sink, surroundings at the same temperature")
+    b.input("max_base_t", "Maximum allowed base temperature", d["max_base_t"], "°C",
+            "from the component maker's rating less the component-to-base rise")
+    b.input("altitude", "Site altitude", d["altitude"], "m", "sets the air pressure (standard atmosphere)")
+
+    # ------------------------------------------------------------------ Calculation
+    sink = _SINK.format(count="fin_count")
+    b.section("Calculation", "Geometry and air pressure")
+    b.step("air_pressure", "Air pressure at the site", "=ALTITUDE_PRESSURE(altitude)", "Pa", number_format="0")
+    b.step("gap", "Gap between fins S = (W - N t)/(N - 1)", "=(base_width-fin_count*fin_thickness)/(fin_count-1)",
+           "m", number_format="0.00000")
+    b.section("Calculation", "Base temperature (solved)")
+    b.step("t_base", "Base temperature at which the sink rejects the dissipation",
+           f"=HEATSINK_TBASE(dissipation, ambient_t, {sink})", "°C", "HEATSINK_TBASE: brentq on HEATSINK_Q")
+    b.step("excess", "Base excess over ambient", "=t_base-ambient_t", "K")
+    b.section("Calculation", "Convection coefficients at the solved base temperature")
+    b.step("h_gap", "Channel coefficient (isothermal walls)",
+           '=H_CHANNEL(t_base, ambient_t, gap, fin_length, "isothermal", "air", air_pressure)', "W/(m²·K)",
+           "Bar-Cohen-Rohsenow, properties at the film temperature")
+    b.step("h_face", "Outer fin faces (free vertical plate)",
+           '=H_VPLATE(t_base, ambient_t, fin_length, "air", air_pressure)', "W/(m²·K)")
+    b.step("ra_gap", "Rayleigh number on the gap", '=RAYLEIGH(t_base, ambient_t, gap, "air", air_pressure)', "-",
+           number_format="0.00E+00")
+    b.step("pr_film", "Prandtl number at the film temperature", "=AIR_PRANDTL((t_base+ambient_t)/2, air_pressure)",
+           "-")
+    b.step("elenbaas", "Elenbaas number Ra_S S/L", "=ra_gap*gap/fin_length", "-", "optimum near 54")
+    b.section("Calculation", "Fins: efficiency tanh(m Lc)/(m Lc), corrected length Lc = H + t/2")
+    b.step("fin_lc", "Corrected fin length", "=fin_height+fin_thickness/2", "m", number_format="0.00000")
+    b.step("fin_area", "Area of one fin, P Lc, P = 2 (L + t)", "=2*(fin_length+fin_thickness)*fin_lc", "m²",
+           number_format="0.00000")
+    b.step("m_inner", "Fin parameter m, inner fins", "=SQRT(h_gap*2*(fin_length+fin_thickness)/"
+           "(fin_k*fin_length*fin_thickness))", "1/m")
+    b.step("eta_inner", "Fin efficiency, inner fins", "=TANH(m_inner*fin_lc)/(m_inner*fin_lc)", "-")
+    b.step("h_outer_fin", "Mean coefficient of an outer fin (one face in a gap, one free)",
+           "=(h_gap+h_face)/2", "W/(m²·K)")
+    b.step("m_outer", "Fin parameter m, outer fins", "=SQRT(h_outer_fin*2*(fin_length+fin_thickness)/"
+           "(fin_k*fin_length*fin_thickness))", "1/m")
+    b.step("eta_outer", "Fin efficiency, outer fins", "=TANH(m_outer*fin_lc)/(m_outer*fin_lc)", "-")
+    b.section("Calculation", "Heat split")
+    b.step("q_fins", "Convection from the fins",
+           "=((fin_count-2)*eta_inner*h_gap+2*eta_outer*h_outer_fin)*fin_area*excess", "W")
+    b.step("q_base", "Convection from the base between the fins", "=(fin_count-1)*gap*fin_length*h_gap*excess",
+           "W")
+    b.step("open_area", "Openings of one channel (front S L, ends 2 S H)", "=gap*fin_length+2*gap*fin_height",
+           "m²", number_format="0.000000")
+    b.step("eps_open", "Apparent emissivity of a channel's openings",
+           "=emissivity/(emissivity+(1-emissivity)*open_area/((2*fin_height+gap)*fin_length))", "-",
+           "grey isothermal groove, uniform radiosity")
+    b.step("q_rad", "Radiation from the envelope (tips, outer faces, channel openings)",
+           f"={SIGMA}*(emissivity*(fin_count*fin_thickness+2*fin_height)*fin_length"
+           "+eps_open*(fin_count-1)*open_area)*((t_base+273.15)^4-(ambient_t+273.15)^4)", "W")
+    b.step("q_sum", "Heat rejected, sum of the parts", "=q_fins+q_base+q_rad", "W")
+    b.step("balance", "Energy balance: dissipation - heat rejected", "=dissipation-q_sum", "W", "should be ~0",
+           number_format="0.0E+00")
+    b.step("q_check", "Check: HEATSINK_Q at the solved base temperature", f"=HEATSINK_Q(t_base, ambient_t, {sink})",
+           "W", "equals the dissipation")
+    b.section("Calculation", "Optimum spacing and validity")
+    b.step("gap_opt", "Thin-plate optimum gap (most heat per width), CHANNEL_SPACING",
+           '=CHANNEL_SPACING(t_base, ambient_t, fin_length, "isothermal", "array", "air", air_pressure)', "m",
+           number_format="0.00000")
+    b.step("count_opt", "Fin count giving about that gap",
+           "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))", "-", number_format="0")
+    b.step("note_gap", "Validity of the channel correlation",
+           '=NU_NOTE("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)', "")
+    b.step("note_face", "Validity of the outer-face correlation",
+           '=NU_NOTE("vplate", RAYLEIGH(t_base, ambient_t, fin_length, "air", air_pressure), pr_film)', "")
+
+    b.blank("Calculation")
+    b.section("Calculation", f"Fin-count sweep (gaps from {MIN_GAP * 1000:g} mm up; HEATSINK_TBASE per row)")
+    b.step("count_max", f"Largest fin count with a gap of at least {MIN_GAP * 1000:g} mm",
+           f"=MAX(3, INT((base_width+{MIN_GAP})/(fin_thickness+{MIN_GAP})))", "-", number_format="0")
+    b.step("count_step", "Count step of the sweep", f"=MAX(1, ROUND((count_max-2)/{SWEEP_ROWS - 1}, 0))", "-",
+           number_format="0")
+    sheet = "Calculation"
+    start = b.sheets[sheet].row + 1
+    rows = []
+    for k in range(SWEEP_ROWS):
+        count = b.cell(sheet, start + k, 1)
+        rows.append([f"=2+{k}*count_step",
+                     f'=IF({count}<=count_max, HEATSINK_TBASE(dissipation, ambient_t, '
+                     f'{_SINK.format(count=count)}), "")',
+                     f'=IF({count}<=count_max, (base_width-{count}*fin_thickness)/({count}-1), "")'])
+    first, _, last, _ = b.table(sheet, ["fin count", "base temperature °C", "gap m"], rows, col=1,
+                                name="fin_sweep")
+    assert first == start
+    counts = b.column(sheet, first, last, 1)
+    temps = b.column(sheet, first, last, 2)
+    b.blank(sheet)
+    b.step("t_best", "Lowest base temperature of the sweep", f"=MIN({temps})", "°C")
+    b.step("count_best", "Fin count with the lowest base temperature",
+           f"=SUMPRODUCT(({temps}=t_best)*{counts})/SUMPRODUCT(({temps}=t_best)*1)", "-", number_format="0")
+
+    # ------------------------------------------------------------------ Results
+    b.section("Results", "Base temperature")
+    b.result("res_t_base", "Base temperature", "=t_base", "°C")
+    b.result("res_limit", "Maximum allowed base temperature", "=max_base_t", "°C")
+    b.result("res_margin", "Margin to the limit (limit - base)", "=max_base_t-t_base", "K")
+    b.result("res_check", "Limit check", '=IF(t_base<=max_base_t, "OK", "EXCEEDS LIMIT")', text=True)
+    b.section("Results", "Heat split")
+    b.result("res_q_fins", "Fins (convection)", "=q_fins", "W")
+    b.result("res_q_base", "Exposed base (convection)", "=q_base", "W")
+    b.result("res_q_rad", "Radiation from the envelope", "=q_rad", "W")
+    b.result("res_rad_share", "Radiation share", "=100*q_rad/q_sum", "%")
+    b.result("res_balance", "Energy balance residual (dissipation - sum)", "=balance", "W")
+    b.section("Results", "Fin count")
+    b.result("res_gap", "Gap between fins", "=gap", "m")
+    b.result("res_gap_opt", "Thin-plate optimum gap (Bar-Cohen and Rohsenow)", "=gap_opt", "m")
+    b.result("res_count_best", "Fin count with the lowest base temperature (sweep)", "=count_best", "-")
+    b.result("res_t_best", "Base temperature at that count", "=t_best", "°C")
+    b.result("res_eta", "Fin efficiency (inner fins)", "=eta_inner", "-")
+    b.section("Results", "Validity")
+    b.result("res_note_gap", "Channel correlation", "=note_gap", text=True)
+    b.result("res_note_face", "Outer-face correlation", "=note_face", text=True)
+    b.blank("Results")
+    b.result(None, "Caution", '="A heat sink at these temperatures can burn: guard or label it. Check the '
+             'component maker\'s ratings, derate near other heat sources and inside enclosures (see Notes)."',
+             text=True)
+    b.blank("Results")
+    results_row = b.sheets["Results"].row
+    b.chart("Results", "scatter", "Base temperature against fin count",
+            [{"name": "base temperature", "categories": f"={counts}", "values": f"={temps}",
+              "marker": {"type": "circle", "size": 5}, "line": {"width": 1.5}},
+             {"name": "lowest (optimum count)", "categories": f"={b.names['count_best']}",
+              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 10}},
+             {"name": "this design", "categories": f"={b.names['fin_count']}",
+              "values": f"={b.names['t_base']}", "marker": {"type": "square", "size": 8}}],
+            "number of fins", "base temperature °C", f"A{results_row + 1}", subtype="straight_with_markers")
+
+    # ------------------------------------------------------------------ Notes
+    b.section("Notes", "Method")
+    b.paragraph("The base is vertical and mounted on the equipment (its back face loses nothing); the N fins "
+                "are vertical, of height H, length L along the rising air and thickness t, at a uniform gap "
+                "S = (W - N t)/(N - 1). Each gap is an open vertical channel with isothermal walls, h from "
+                "the Bar-Cohen-Rohsenow composite (H_CHANNEL), gas properties at the film temperature of "
+                "base and ambient. The base strip between two fins takes the same h. The two outer fin faces "
+                "see free air (vertical plate, H_VPLATE); an outer fin uses the mean of its two h.")
+    b.paragraph("Fins: straight rectangular fins, efficiency tanh(m Lc)/(m Lc) with m = sqrt(h P/(k A_c)), "
+                "P = 2 (L + t), A_c = L t, the tip's convection folded into the corrected length Lc = H + t/2 "
+                "(Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 3.89, 3.92 and "
+                "3.94; equation numbers from memory).")
+    b.paragraph("Radiation: from the sink's envelope (the fin tips, the two outer fin faces and the openings "
+                "of the channels at the front, top and bottom) to surroundings at the ambient temperature, the "
+                "whole sink taken at the base temperature. A channel's openings radiate with the apparent "
+                "emissivity of a grey isothermal groove of uniform radiosity, eps / (eps + (1 - eps) "
+                "A_open/A_walls).")
+    b.paragraph("HEATSINK_TBASE finds the base temperature at which fins + base + radiation equal the "
+                "dissipation (brentq root of HEATSINK_Q); the Calculation sheet re-computes each part from "
+                "it, and the balance row shows the sum closing on the dissipation. The sweep repeats the "
+                "solve for other fin counts with everything else unchanged; CHANNEL_SPACING gives the "
+                "thin-plate optimum gap for comparison (fin thickness moves the real optimum).")
+    b.section("Notes", "Correlations used (sources from the stillair registry)")
+    b.cite("Gaps between fins, Bar-Cohen and Rohsenow", "channel", "bar-cohen-rohsenow")
+    b.cite("Outer fin faces, Churchill-Chu", "vplate", "churchill-chu")
+    b.section("Notes", "Assumptions and limits")
+    b.paragraph("Fins vertical, sink alone in still air: no enclosure around it, no neighbouring hot parts, "
+                "no sun, no draught. Laminar channels. The base is isothermal (no spreading resistance from "
+                "a small component on a large base). Fin efficiency should be high (above about 0.9): the "
+                "radiation taken at the base temperature is overstated for poor fins. The channel model "
+                "ignores the base as a third wall and the open fin-tip side.")
+    b.section("Notes", "Cautions")
+    b.paragraph("Surfaces hot to touch: a base above about 50-60 °C can burn on contact; guard or label the "
+                "sink and check touch limits against ISO 13732-1 or local rules.", caution=True)
+    b.paragraph("Derating: another heat source nearby, a sink inside an enclosure or cabinet, a partly "
+                "blocked inlet or outlet, dust, or a sink mounted with the fins horizontal all reject less "
+                "heat than this model shows. The component temperature is higher than the base by the "
+                "component's own internal and interface resistances.", caution=True)
+    b.paragraph("This is an engineering estimate from published correlations (typically +/-15-20 % for "
+                "natural convection). Defer to the component makers' ratings and heat-sink makers' data, "
+                "the applicable standards and licensed practice before relying on a result.", caution=True)
+
+
+TEMPLATE = Template(NAME, 1, "Finned heat sink",
+                    "Base temperature of a natural-convection plate-fin heat sink with vertical fins for a "
+                    "given dissipation and ambient, with the heat split and a fin-count sweep.", build)

@@ -1,0 +1,101 @@
+"""Console output for the two command entry points (``stillair`` and ``python -m stillair``).
+
+Kept in the engine package only because ``python -m stillair`` runs from it; it imports nothing
+but the standard library and is not part of the public API.
+
+Two everyday situations must not end in a traceback:
+
+- a console whose encoding cannot show °C, ² or · (``PYTHONIOENCODING=ascii``, old Windows code
+  pages): such characters are written in plain ASCII ("degC", "m2") instead of failing;
+- output piped into a reader that stops early (``stillair functions | head``): the command stops
+  with one line on stderr and exit status 2.
+"""
+
+from __future__ import annotations
+
+import codecs
+import os
+import sys
+from typing import Callable
+
+__all__ = ["EXIT_CANNOT_RUN", "ascii_fallback", "run_command", "say"]
+
+EXIT_CANNOT_RUN = 2
+
+# How the non-ASCII characters our output uses read in plain ASCII.
+_ASCII = {"°": "deg", "²": "2", "³": "3", "·": ".", "—": "-", "–": "-", "−": "-", "Δ": "d",
+          "≤": "<=", "≥": ">=", "±": "+/-", "×": "x", "µ": "u", "μ": "u", "θ": "theta",
+          "ε": "eps", "β": "beta", "ν": "nu", "α": "alpha", "λ": "lambda", "…": "...",
+          "’": "'", "“": '"', "”": '"'}
+_HANDLER = "stillair-ascii"
+
+
+def _to_ascii(error: UnicodeError):
+    if not isinstance(error, UnicodeEncodeError):
+        raise error
+    text = error.object[error.start:error.end]
+    return "".join(_ASCII.get(ch, "?") for ch in text), error.end
+
+
+codecs.register_error(_HANDLER, _to_ascii)
+
+
+def ascii_fallback() -> None:
+    """Let stdout and stderr write what their encoding cannot show in ASCII instead of failing."""
+    for stream in (sys.stdout, sys.stderr):
+        reconfigure = getattr(stream, "reconfigure", None)
+        if reconfigure is not None:
+            try:
+                reconfigure(errors=_HANDLER)
+            except (ValueError, OSError):  # a closed or detached stream: nothing to protect
+                pass
+
+
+def _discard_stdout() -> None:
+    """Point stdout at the null device so the interpreter's final flush cannot fail again."""
+    try:
+        null = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(null, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass
+
+
+def say(prog: str, message: str) -> None:
+    """One line on stderr: ``prog: message``."""
+    try:
+        print(f"{prog}: {' '.join(str(message).split())}", file=sys.stderr)
+    except (OSError, ValueError):
+        pass
+
+
+def run_command(prog: str, main: Callable[[], int | None]) -> int:
+    """Run ``main`` so that nothing but one line on stderr reaches the user when it fails.
+
+    Returns the exit status: main's own, or 2 when the output was closed early, the user
+    interrupted, or something unforeseen went wrong (``STILLAIR_DEBUG=1`` shows the traceback).
+    """
+    ascii_fallback()
+    try:
+        code = main() or 0
+        sys.stdout.flush()
+        return code
+    except BrokenPipeError:
+        _discard_stdout()
+        say(prog, "standard output: closed by the reading program before the output was complete "
+                  "(broken pipe)")
+        return EXIT_CANNOT_RUN
+    except KeyboardInterrupt:
+        say(prog, "interrupted")
+        return EXIT_CANNOT_RUN
+    except OSError as error:
+        if os.environ.get("STILLAIR_DEBUG"):
+            raise
+        where = f"{error.filename}: " if error.filename else ""
+        say(prog, f"{where}{error.strerror or error}")
+        return EXIT_CANNOT_RUN
+    except Exception as error:  # the last guard: one line, never a traceback
+        if os.environ.get("STILLAIR_DEBUG"):
+            raise
+        say(prog, f"internal error ({type(error).__name__}: {error}); "
+                  "run again with STILLAIR_DEBUG=1 to see where")
+        return EXIT_CANNOT_RUN
