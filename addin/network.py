@@ -6,8 +6,7 @@ import math
 
 from .coerce import CellInputError
 
-__all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
-           "kinds_markdown", "kinds_text"]
+__all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -80,28 +79,3 @@ def check_text(result) -> str:
         return f"{len(notes)} note{'s' if len(notes) > 1 else ''}: " + "; ".join(notes)
     return f"OK: {iterations} iterations, energy residual {residual:.3g} W"
 
-
-def kinds_markdown() -> str:
-    """The branch kinds table (columns p1..p5, heat flow, from/to), from the engine's kind objects."""
-    from stillair.network import kind_reference
-
-    lines = ["### Network branch kinds (the `kind` column of a branches table)", "",
-             "| kind | p1 | p2 | p3 | p4 | p5 | heat flow q (W), from -> to | from / to |",
-             "|---|---|---|---|---|---|---|---|"]
-    for row in kind_reference():
-        cells = [f"`{row['kind']}`"] + [row[f"p{k}"] for k in range(1, 6)] + [row["q"], row["from"]]
-        lines.append("| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |")
-    lines += ["", "Columns a kind does not use stay blank; `method` is blank (auto) or a correlation's "
-              "method name for the convection kinds, blank for the others.", ""]
-    return "\n".join(lines)
-
-
-def kinds_text() -> str:
-    from stillair.network import kind_reference
-
-    lines = ["Network branch kinds", "===================="]
-    for row in kind_reference():
-        columns = ", ".join(f"p{k} {row[f'p{k}']}" for k in range(1, 6) if row[f"p{k}"])
-        lines.append(f"{row['kind']}: {columns}")
-        lines.append(f"    q = {row['q']}; {row['from']}")
-    return "\n".join(lines) + "\n"

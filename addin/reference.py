@@ -5,7 +5,7 @@ from __future__ import annotations
 from .registry import CATEGORIES, REGISTRY
 
 __all__ = ["reference_text", "reference_markdown", "correlations_markdown", "network_markdown",
-           "network_text", "KIND_MEANINGS"]
+           "network_text"]
 
 _RESULT = {"text": "text", "table": "table (spills)"}
 
@@ -41,8 +41,7 @@ def _functions_text() -> str:
             for arg in entry.args:
                 lines.append(f"    - {_arg_line(arg)}")
         lines.append("")
-    from .network import kinds_text
-    return "\n".join(lines).rstrip() + "\n\n" + kinds_text()
+    return "\n".join(lines).rstrip() + "\n"
 
 
 def _cell(text: str) -> str:
@@ -67,39 +66,12 @@ def reference_markdown() -> str:
 
 
 # ---------------------------------------------------------------------------------------------
-# The network tables: the parameters of every branch kind come from the engine's BRANCH_KINDS
-# (names, units, defaults); what each kind models and which node is `from` is said here.
-
-KIND_MEANINGS = {
-    "conduction": "plane conduction through a layer; either node may be `from`",
-    "resistance": "a fixed thermal resistance; either node may be `from`",
-    "film": "a fixed surface coefficient h (e.g. from a standard); either node may be `from`",
-    "vplate": "natural convection at a vertical plate: `from` the surface, `to` the fluid",
-    "hplate": "natural convection at a horizontal plate: `from` the surface, `to` the fluid; "
-              "hot or cold follows from the temperatures",
-    "tplate": "natural convection at a tilted plate: `from` the surface, `to` the fluid",
-    "hcyl": "natural convection at a horizontal cylinder or pipe: `from` the surface, `to` the fluid",
-    "sphere": "natural convection at a sphere: `from` the surface, `to` the fluid",
-    "vcyl": "natural convection at the side of a vertical cylinder: `from` the surface, `to` the fluid",
-    "cavity": "convection across an enclosed gas layer between two surfaces: `from` is the "
-              "layer's underside surface (for a vertical layer either face)",
-    "radiation": "grey radiation between `from` and `to`: two large parallel surfaces, or a "
-                 "surface (`from`) in large surroundings (`to`) when p2 is blank",
-}
+# The network tables: every branch kind's columns, heat flow and meaning of `from` are data on
+# the engine's kind objects (stillair.network.BRANCH_KINDS); nothing about a kind is retyped here.
 
 
-def _param_text(param) -> str:
-    unit = f" {param.unit}" if param.unit else ""
-    if param.check == "facing":
-        unit = " up/down"
-    if param.check == "gas":
-        unit = " name or mixture"
-    blank = ""
-    if param.optional:
-        blank = (" (blank: the network's)" if param.check == "gas" else
-                 f" (blank: {param.default:g})" if isinstance(param.default, float) else
-                 " (blank: large surroundings)" if param.check == "emissivity" else " (optional)")
-    return f"{param.label}{unit}{blank}"
+def _kind_meaning(kind) -> str:
+    return f"q = {kind.flow}; {kind.ends}"
 
 
 def _kinds():
@@ -135,9 +107,9 @@ def network_markdown() -> str:
              "Branches range, one row per branch: " + " \\| ".join(f"`{c}`" for c in BRANCH_COLUMNS)
              + ".", "",
              "| kind | what it models | p1 | p2 | p3 | p4 | p5 |", "|---|---|---|---|---|---|---|"]
-    for kind, params in kinds.items():
-        cells = [_cell(_param_text(p)) for p in params] + [""] * (5 - len(params))
-        lines.append(f"| `{kind}` | {_cell(KIND_MEANINGS.get(kind, ''))} | " + " | ".join(cells) + " |")
+    for name, kind in kinds.items():
+        cells = [_cell(p.describe()) for p in kind.params] + [""] * (5 - len(kind.params))
+        lines.append(f"| `{name}` | {_cell(_kind_meaning(kind))} | " + " | ".join(cells) + " |")
     lines += ["", "Boundaries range, one row per condition: "
               + " \\| ".join(f"`{c}`" for c in BOUNDARY_COLUMNS) + ".", "",
               "| T or Q | value | meaning |", "|---|---|---|",
@@ -162,10 +134,10 @@ def network_text() -> str:
     title = "stillair thermal network tables"
     lines = [title, "=" * len(title),
              "Branches range, one row per branch: " + " | ".join(BRANCH_COLUMNS)]
-    for kind, params in _kinds().items():
-        lines.append(f"{kind}: {_plain(KIND_MEANINGS.get(kind, ''))}")
-        for number, param in enumerate(params, start=1):
-            lines.append(f"    - p{number}: {_param_text(param)}")
+    for name, kind in _kinds().items():
+        lines.append(f"{name}: {_plain(_kind_meaning(kind))}")
+        for number, param in enumerate(kind.params, start=1):
+            lines.append(f"    - p{number}: {param.describe()}")
     lines += ["Boundaries range, one row per condition: " + " | ".join(BOUNDARY_COLUMNS),
               "    - T: value in °C fixes the node's temperature",
               "    - Q: value in W adds a heat input at a node whose temperature is solved "

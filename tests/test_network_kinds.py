@@ -9,16 +9,20 @@ from __future__ import annotations
 import pytest
 
 from stillair.convection import surface_convection
-from stillair.correlations import GEOMETRIES, Geometry
+from stillair.correlations import GEOMETRIES, PLATE_CASES, Geometry
 from stillair.network import BRANCH_KINDS, NetworkError, kind_reference, solve_network
-from stillair.network.kinds import ConvectionKind, _convection_kind
+from stillair.network.kinds import SKIPPED_GEOMETRIES, ConvectionKind, NoBranchKind, _convection_kind
 
 
-def test_every_registered_geometry_is_a_branch_kind():
-    for name, geometry in GEOMETRIES.items():
+def test_every_registered_geometry_is_a_branch_kind_or_skipped_with_its_reason():
+    generated = [name for name in GEOMETRIES if name not in SKIPPED_GEOMETRIES]
+    for name in generated:
         kind = BRANCH_KINDS[name]
         assert isinstance(kind, ConvectionKind) and kind.geometry == name
-    assert list(BRANCH_KINDS) == ["conduction", "resistance", "film", *GEOMETRIES, "radiation"]
+    assert list(BRANCH_KINDS) == ["conduction", "resistance", "film", *generated, "radiation"]
+    assert {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity"} <= set(generated)
+    for name, reason in SKIPPED_GEOMETRIES.items():
+        assert name not in BRANCH_KINDS and reason
 
 
 def test_a_vertical_cylinder_branch_is_the_one_call_coefficient_at_the_solution():
@@ -36,20 +40,24 @@ def test_a_vertical_cylinder_branch_is_the_one_call_coefficient_at_the_solution(
 
 def test_kind_columns_follow_the_geometry_inputs():
     shapes = {name: [p.describe() for p in kind.params] for name, kind in BRANCH_KINDS.items()}
-    assert shapes["vcyl"] == ["height m", "diameter m", "area m²"]
+    assert shapes["vcyl"] == ["height m (cylinder height)", "diameter m", "area m²"]
     assert shapes["tplate"][2:] == ["tilt ° from vertical", "facing (up or down)"]
-    assert shapes["cavity"] == ["gap m", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
+    assert shapes["cavity"] == ["gap m (gap L between the two faces)", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
                                 "gas (blank: the network's)"]
     # a geometry registered later gets its columns by the same rules, without network code
-    fin = Geometry(name="vplate", inputs=("ra", "pr", "tilt"), description="", cases=("hot-up",),
-                   tilt_range=(0.0, 45.0))
+    fin = Geometry(name="vplate", inputs=("ra", "pr", "tilt"), description="", cases=PLATE_CASES,
+                   tilt_range=(0.0, 45.0), length="height", length_doc="fin height, m")
     kind = _convection_kind(fin)
-    assert [p.describe() for p in kind.params] == ["height m", "area m²", "tilt ° from vertical",
+    assert [p.describe() for p in kind.params] == ["height m (fin height)", "area m²", "tilt ° from vertical",
                                                    "facing (up or down)"]
     assert kind.params[2].limits == (0.0, 45.0)
-    with pytest.raises(RuntimeError) as caught:
+    with pytest.raises(NoBranchKind) as caught:
         _convection_kind(Geometry(name="vplate", inputs=("ra", "pr", "roughness"), description=""))
-    assert str(caught.value) == "network: no column for input(s) ['roughness'] of geometry 'vplate'"
+    assert str(caught.value) == "no column rule for its input(s) roughness"
+    with pytest.raises(NoBranchKind) as caught:
+        _convection_kind(Geometry(name="vplate", inputs=("ra", "pr"), description="", cases=("wet", "dry")))
+    assert str(caught.value) == ("its cases (wet, dry) are not set by a facing and the sign of the "
+                                 "temperature difference")
 
 
 def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
@@ -59,9 +67,9 @@ def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
                                   "p3": "area m²", "p4": "", "p5": "", "q": "k A (T1 - T2) / L",
                                   "from": "either way round (q > 0 from from to to)"}
     assert rows["vcyl"]["from"] == "from: the solid surface; to: the still fluid"
-    from stillair.addin.network import kinds_markdown
-    assert "| `vcyl` | height m | diameter m | area m² |  |  | h(T1, T2) A (T1 - T2), h = Nu k / height |" \
-        in kinds_markdown()
+    from stillair.addin.reference import network_markdown
+    assert ("| `vcyl` | q = h(T1, T2) A (T1 - T2), h = Nu k / height; from: the solid surface; to: the "
+            "still fluid | height m (cylinder height) | diameter m | area m² |  |  |") in network_markdown()
 
 
 def test_a_tilt_outside_the_geometry_range_names_the_range():

@@ -129,14 +129,13 @@ def test_shared_arguments_are_defined_once():
 
 
 def test_every_network_branch_kind_is_explained():
-    from stillair.addin.reference import KIND_MEANINGS, network_markdown, network_text
+    from stillair.addin.reference import network_markdown, network_text
     from stillair.network import BRANCH_KINDS
-    assert set(BRANCH_KINDS) <= set(KIND_MEANINGS)
-    for kind, params in BRANCH_KINDS.items():
-        assert f"| `{kind}` | {KIND_MEANINGS[kind]}" in network_markdown()
-        assert f"{kind}: " in network_text()
-        for param in params:
-            assert param.label in network_markdown()
+    for name, kind in BRANCH_KINDS.items():
+        assert f"| `{name}` | q = " in network_markdown()
+        assert f"{name}: q = " in network_text()
+        for param in kind.params:
+            assert param.describe() in network_markdown()
 
 
 def test_readme_function_table_is_the_generated_reference():

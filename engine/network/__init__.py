@@ -105,8 +105,9 @@ def solve_network(branches, boundaries, gas="air", pressure=DEFAULT_PRESSURE, *,
     (5.0, 10.0)
     """
     band = bool(band)
-    raw_key = _raw_key(branches, boundaries, gas, pressure, property_temperature, ideal_expansion, band)
-    if use_cache and raw_key is not None and raw_key in _RAW_CACHE:
+    raw_key = _raw_key(branches, boundaries, gas, pressure, property_temperature, ideal_expansion, band) \
+        if use_cache else None
+    if raw_key is not None and raw_key in _RAW_CACHE:
         return _RAW_CACHE[raw_key]
     parsed_branches = parse_branches(branches)
     parsed_boundaries = parse_boundaries(boundaries)

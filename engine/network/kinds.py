@@ -23,12 +23,14 @@ import numpy as np
 from scipy.constants import zero_Celsius
 
 from ..groups import STANDARD_GRAVITY
-from ..correlations import CORRELATIONS, GEOMETRIES, merge_masked, methods_for, nusselt, NusseltResult
+from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
+                            nusselt)
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
 
 __all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind", "BRANCH_KINDS",
+           "SKIPPED_GEOMETRIES", "NoBranchKind",
            "kind_reference", "NOMINAL_SURFACE_H", "NOMINAL_CAVITY_NU", "NOMINAL_CONDUCTIVITY"]
 
 NOMINAL_SURFACE_H = 4.0       # W/(m²·K), still air on a surface (common practice), start only
@@ -204,7 +206,14 @@ class RadiationKind(BranchKind):
 class _RadiationGroup(_Group):
     def __init__(self, kind, index, params):
         super().__init__(kind, index, params)
-        self.factor = np.array([float(exchange_factor(p[0], p[1], FUNCTION)) for p in params])
+        parallel = np.array([p[1] is not None for p in params])
+        first = self.column(0)
+        self.factor = np.empty(len(params))
+        if parallel.any():
+            self.factor[parallel] = exchange_factor(first[parallel], np.array(
+                [p[1] for p in params if p[1] is not None], dtype=float), FUNCTION)
+        if not parallel.all():
+            self.factor[~parallel] = exchange_factor(first[~parallel], None, FUNCTION)
         self.area = self.column(2)
         self.af = self.area * self.factor
 
@@ -279,31 +288,40 @@ class ConvectionKind(BranchKind):
         return inputs
 
 
-# The length each surface geometry's Ra is based on, and what it means (cavity: the gap).
-_LENGTHS = {"vplate": ("height", ""), "hplate": ("length", "area/perimeter"),
-            "tplate": ("length", "along the slope; area/perimeter where the horizontal term governs"),
-            "hcyl": ("diameter", ""), "sphere": ("diameter", ""), "vcyl": ("height", "")}
+def _length_param(geometry) -> Param:
+    """The column of the geometry's own length (its name and meaning are the geometry's)."""
+    meaning = geometry.length_doc.removesuffix(", m").strip()
+    if meaning in (geometry.length, f"{geometry.length}"):
+        meaning = ""
+    return Param(geometry.length, "m", meaning, role="length")
+
+
+class NoBranchKind(Exception):
+    """A geometry whose inputs or cases no column rule covers (the reason is the message)."""
 
 
 def _convection_kind(geometry) -> ConvectionKind:
-    """The branch kind of a registered geometry: its columns follow from its inputs."""
+    """The branch kind of a registered geometry: its columns follow from its inputs.  Raises
+    :class:`NoBranchKind` when no rule covers it (it is then listed in SKIPPED_GEOMETRIES)."""
     inputs = set(geometry.inputs) - {"ra", "pr"}
-    if "aspect" in inputs:   # an enclosed layer: gap, height, area, tilt, its own gas
+    if geometry.cases and set(geometry.cases) != set(PLATE_CASES):
+        raise NoBranchKind(f"its cases ({', '.join(geometry.cases)}) are not set by a facing and the "
+                           "sign of the temperature difference")
+    if inputs == {"aspect", "tilt"}:   # an enclosed layer: gap, height, area, tilt, its own gas
         low, high = geometry.tilt_range
         default_tilt = getattr(geometry, "default_tilt", None)
         default_tilt = 90.0 if default_tilt is None else default_tilt
-        params = (Param("gap", "m", role="length"), Param("height", "m", role="height"),
+        params = (_length_param(geometry), Param("height", "m", role="height"),
                   Param("area", "m²", role="area"),
                   Param("tilt", "° from horizontal", check="angle", limits=(low, high), optional=True,
                         default=default_tilt, blank_means=f"{default_tilt:g}", role="layer-tilt"),
                   Param("gas", check="gas", optional=True, blank_means="the network's", role="gas"))
-        return ConvectionKind(geometry.name, params, flow="h(T1, T2) A (T1 - T2), h = Nu k / gap",
+        return ConvectionKind(geometry.name, params,
+                              flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {geometry.length}",
                               ends="from: the surface on the layer's underside; to: the other face",
                               geometry=geometry.name)
-    if geometry.name not in _LENGTHS:
-        raise RuntimeError(f"network: no length column known for geometry {geometry.name!r}")
-    label, meaning = _LENGTHS[geometry.name]
-    params = [Param(label, "m", meaning, role="length")]
+    label = geometry.length
+    params = [_length_param(geometry)]
     if "slenderness" in inputs:
         params.append(Param("diameter", "m", role="diameter"))
     params.append(Param("area", "m²", role="area"))
@@ -314,7 +332,7 @@ def _convection_kind(geometry) -> ConvectionKind:
         params.append(Param("facing", check="facing", meaning="up or down", role="facing"))
     unknown = inputs - {"tilt", "slenderness"}
     if unknown:
-        raise RuntimeError(f"network: no column for input(s) {sorted(unknown)} of geometry {geometry.name!r}")
+        raise NoBranchKind(f"no column rule for its input(s) {', '.join(sorted(unknown))}")
     return ConvectionKind(geometry.name, tuple(params),
                           flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}",
                           ends="from: the solid surface; to: the still fluid", geometry=geometry.name)
@@ -370,9 +388,12 @@ class _ConvectionGroup(_Group):
     def _nusselt(self, inputs, dt):
         if not self.cases:
             return nusselt(self.geometry, self.method, function_name=FUNCTION, **inputs), None, None
-        from ..convection import plate_case
-
-        case = plate_case(self.facing, dt)
+        hot = dt >= 0
+        if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
+            case = np.full(len(dt), f"{'hot' if hot.all() else 'cold'}-{self.facing}", dtype=object)
+        else:
+            from ..convection import plate_case
+            case = plate_case(self.facing, dt)
         flagged = ~np.isin(case, self.served_cases) if self.served_cases else None
         parts = []
         for name in dict.fromkeys(case.tolist()):
@@ -429,10 +450,22 @@ RADIATION = RadiationKind(
     flow="A F sigma (T1^4 - T2^4), F = 1/(1/eps1 + 1/eps2 - 1), or eps1 to large surroundings",
     ends="either way round")
 
+def _generated_kinds():
+    kinds, skipped = [], {}
+    for geometry in GEOMETRIES.values():
+        try:
+            kinds.append(_convection_kind(geometry))
+        except NoBranchKind as reason:
+            skipped[geometry.name] = str(reason)
+    return kinds, skipped
+
+
+_CONVECTION_KINDS, _SKIPPED = _generated_kinds()
 BRANCH_KINDS: Mapping[str, BranchKind] = MappingProxyType({
-    kind.name: kind for kind in (*_linear_kinds(),
-                                 *(_convection_kind(g) for g in GEOMETRIES.values()),
-                                 RADIATION)})
+    kind.name: kind for kind in (*_linear_kinds(), *_CONVECTION_KINDS, RADIATION)})
+# Registered geometries that are not branch kinds, with the reason (their h can still enter a
+# network through a film branch).
+SKIPPED_GEOMETRIES: Mapping[str, str] = MappingProxyType(_SKIPPED)
 
 
 def kind_reference() -> list[dict]:

@@ -97,11 +97,12 @@ class Network:
                 - np.bincount(self.source, q, minlength=n))
 
     def throughput(self, q: np.ndarray) -> np.ndarray:
-        """Heat passing through every node (W): half the sum of its branches' |q| plus |Q|."""
+        """Heat passing through every node (W): what flows in, which at balance is what flows
+        out, half of the sum of its branches' |q| and its |Q|."""
         n = len(self.nodes)
         magnitude = np.abs(q)
-        return (0.5 * (np.bincount(self.target, magnitude, minlength=n)
-                       + np.bincount(self.source, magnitude, minlength=n)) + np.abs(self.heat_input))
+        return 0.5 * (np.bincount(self.target, magnitude, minlength=n)
+                      + np.bincount(self.source, magnitude, minlength=n) + np.abs(self.heat_input))
 
 
 def compile_network(branches: tuple[Branch, ...], boundaries: tuple[Boundary, ...], gas: str,

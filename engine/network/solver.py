@@ -58,6 +58,10 @@ class Solver:
         s, r = net.source, net.target
         self._jacobian_index = np.concatenate([r * n + s, r * n + r, s * n + s, s * n + r])
         self._free_block = np.ix_(net.free, net.free)
+        # every branch end, grouped by node (each node has at least one): for per-node minima
+        ends = np.concatenate([s, r])
+        self._incidence = np.argsort(ends, kind="stable")
+        self._incidence_start = np.searchsorted(ends[self._incidence], np.arange(n))
 
     # ---- evaluation --------------------------------------------------------------------
 
@@ -103,9 +107,8 @@ class Solver:
         floor = QUIET_NODE_FRACTION * largest
         # ... or settled: the imbalance, passed through the node's weakest branch, would move
         # it by less than SETTLED_KELVIN (a network at rest, where flows vanish with dT^(5/4))
-        weakest = np.full(len(net.nodes), np.inf)
-        np.minimum.at(weakest, net.source, np.abs(evaluation.d_source))
-        np.minimum.at(weakest, net.target, np.abs(evaluation.d_target))
+        slopes = np.abs(np.concatenate([evaluation.d_source, evaluation.d_target]))[self._incidence]
+        weakest = np.minimum.reduceat(slopes, self._incidence_start)
         evaluation.tolerance = np.maximum(RELATIVE_TOLERANCE * np.maximum(through, floor),
                                           SETTLED_KELVIN * weakest[net.free])
         return evaluation.tolerance
@@ -116,8 +119,7 @@ class Solver:
             return 0.0
         magnitude = np.abs(residual)
         tolerance = self.tolerances(evaluation)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            ratio = np.where(magnitude == 0, 0.0, magnitude / tolerance)
+        ratio = np.divide(magnitude, tolerance, out=np.zeros_like(magnitude), where=magnitude > 0)
         return float(np.max(ratio))
 
     def converged(self, evaluation, residual) -> bool:

@@ -112,12 +112,13 @@ def wall_chain_by_hand():
     def plate_q(ts, tf):
         k, nu, alpha, pr, beta = film(ts, tf)
         ra = g * beta * abs(ts - tf) * HEIGHT ** 3 / (nu * alpha)
-        return float(vertical_plate(ra, pr)) * k / HEIGHT * (ts - tf)
+        return float(vertical_plate(np.array([ra]), np.array([pr]))[0]) * k / HEIGHT * (ts - tf)
 
     def cavity_q(t1, t2):
         k, nu, alpha, pr, beta = film(t1, t2)
         ra = g * beta * abs(t1 - t2) * GAP ** 3 / (nu * alpha)
-        return max(1.0, float(cavity(ra, pr, HEIGHT / GAP, 90.0))) * k / GAP * (t1 - t2)
+        nu = cavity(np.array([ra]), np.array([pr]), np.array([HEIGHT / GAP]), np.array([90.0]))[0]
+        return max(1.0, float(nu)) * k / GAP * (t1 - t2)
 
     def radiation(t1, t2, factor):
         return factor * SIGMA * ((t1 + 273.15) ** 4 - (t2 + 273.15) ** 4)
