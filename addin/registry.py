@@ -220,7 +220,8 @@ def _nu_note(nusselt, kwargs):
     result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
                      function_name="nu_note", **inputs).scalar()
     if result.in_range:
-        return f"in range ({result.method})"
+        # a blend names every correlation that carries weight ("auto blend of a and b")
+        return f"in range ({result.blend or result.method})"
     return str(result.note)
 
 
