@@ -24,6 +24,8 @@ sphere     ra, pr                                   --
 vcyl       ra, pr, slenderness (height/diameter)    --
 cavity     ra, pr, aspect (height/gap), tilt (deg   --
            from horizontal, 0 heated from below)
+channel    ra (Ra*_S on the wall flux for the       isothermal, isothermal-adiabatic, flux,
+           flux cases), pr, aspect (height/spacing) flux-adiabatic
 =========  =======================================  ==============================================
 
 Ra is always based on the geometry's own length (plate height, area/perimeter, diameter, gap).
@@ -698,15 +700,17 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
 
     Parameters
     ----------
-    geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity"}
+    geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity", "channel"}
     ra, pr : array_like
-        Rayleigh number on the geometry's own length (>= 0) and Prandtl number (> 0).
+        Rayleigh number on the geometry's own length (>= 0; Ra*_S for a channel's flux cases)
+        and Prandtl number (> 0).
     case : str, optional
-        Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down").
+        Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down"); the
+        walls of a channel ("isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic").
     tilt : array_like, optional
         Degrees: from the vertical for tplate, from the horizontal for cavity (default 90).
     aspect : array_like, optional
-        Cavity height/gap.
+        Cavity height/gap; channel height/spacing.
     slenderness : array_like, optional
         Vertical cylinder height/diameter.
 
