@@ -163,3 +163,18 @@ def test_case_and_method_ignore_case_and_spaces():
     result = solve_network([channel_row(" Flux-Adiabatic ", "Bar-Cohen-Rohsenow")],
                            [["wall", "T", 60.0], ["inlet", "T", AMBIENT]])
     assert (result.branches["c"].case, result.branches["c"].method) == ("flux-adiabatic", "bar-cohen-rohsenow")
+
+
+@pytest.mark.parametrize("case", ["isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic"])
+def test_card_cages_from_narrow_to_wide_gaps_converge_and_balance(case):
+    # from the fully developed (2 mm) to the isolated-plate regime (0.5 m), 0.05 to 20 W (demo data)
+    for spacing in (0.002, 0.012, 0.5):
+        for power in (0.05, 2.0, 20.0):
+            branches = [["card-gap", "card", "room", "channel", spacing, 0.16, 0.016, case],
+                        ["wall-gap", "wall", "room", "channel", spacing, 0.16, 0.016, case],
+                        ["card-wall", "card", "wall", "radiation", 0.9, 0.8, 0.016],
+                        ["wall-outside", "wall", "room", "vplate", 0.16, 0.016]]
+            result = solve_network(branches, [["card", "Q", power], ["room", "T", AMBIENT]])
+            b = result.branches
+            assert b["card-gap"].heat + b["wall-gap"].heat + b["wall-outside"].heat == pytest.approx(power, rel=1e-9)
+            assert result.temperatures["card"] > result.temperatures["wall"] > AMBIENT
