@@ -77,9 +77,10 @@ class Param:
         if blank(value):
             if self.optional:
                 return self.default
-            if self.check in ("facing", "gas"):
-                raise NetworkError(FUNCTION, here, None,
-                                   '"up" or "down"' if self.check == "facing" else "a gas name")
+            if self.check in ("facing", "gas", "choice"):
+                raise NetworkError(FUNCTION, here, None, {
+                    "facing": '"up" or "down"', "gas": "a gas name",
+                    "choice": "one of " + ", ".join(f'"{c}"' for c in self.choices)}[self.check])
         if self.check == "facing":
             if not isinstance(value, str) or value.strip().lower() not in ("up", "down"):
                 raise NetworkError(FUNCTION, here, value, '"up" or "down"')
@@ -323,7 +324,7 @@ def _length_param(geometry) -> Param:
 
 
 class NoBranchKind(Exception):
-    """A geometry whose inputs or cases no column rule covers (the reason is the message)."""
+    """A geometry whose inputs no column rule covers (the reason is the message)."""
 
 
 def _convection_kind(geometry) -> ConvectionKind:
