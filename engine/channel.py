@@ -72,8 +72,9 @@ from numpy.typing import ArrayLike
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 from scipy.optimize import brentq
 
-from .convection import ConvectionResult, surface_convection
-from .correlations import AutoStep, Geometry, correlation, define_geometry, nusselt, nusselt_value
+from .convection import ONE_CALLS, ConvectionResult, surface_convection
+from .correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry, nusselt_at_difference,
+                           nusselt_value)
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from .validity import (
     CorrelationRangeWarning,
@@ -134,8 +135,8 @@ def _flux_ra_length(inputs):
     return inputs["ra"] * inputs["aspect"] ** 4
 
 
-define_geometry(Geometry(
-    name="channel", inputs=("ra", "pr", "aspect"), cases=CHANNEL_CASES,
+CHANNEL = define_geometry(Geometry(
+    name="channel", inputs=("ra", "pr", "aspect"), cases=CHANNEL_CASES, flux_cases=FLUX_CASES,
     description="Open vertical channel between parallel plates, Ra on the spacing S (Ra*_S on "
                 "the wall heat flux for the flux cases), aspect = height/spacing, Nu = h S/k; "
                 "flux cases: h and Nu on the top (maximum) wall temperature. Cases: isothermal, "
@@ -143,7 +144,14 @@ define_geometry(Geometry(
                 "every case; outside its range it is still used, with the note. elenbaas "
                 "(isothermal only) is used only when asked for.",
     auto={case: (AutoStep("bar-cohen-rohsenow", when=()),) for case in CHANNEL_CASES},
-    title="open vertical channel", length="spacing", length_doc="spacing S between the plates, m"))
+    title="open vertical channel", length="spacing", length_doc="spacing S between the plates, m",
+    branch_ends="from: a channel wall (flux cases: its temperature at the top, the hottest point); "
+                "to: the air at the channel inlet (ambient); A: the heated wall area the branch "
+                "stands for (both walls in the symmetric cases)",
+    parameters=(Parameter("spacing", "m", "spacing S between the plates (> 0)"),
+                Parameter("height", "m", "channel height L, the plates' length along the flow (> 0)"),
+                Parameter("case", "", "the walls: " + ", ".join(CHANNEL_CASES), default="isothermal",
+                          kind="text"))))
 
 
 def fully_developed_limit(el, case):
@@ -237,38 +245,6 @@ def nu_channel(ra: ArrayLike, pr: ArrayLike, aspect: ArrayLike, case: str = "iso
     return nusselt_value("channel", method, case, function_name="nu_channel", ra=ra, pr=pr, aspect=aspect)
 
 
-def _flux_nusselt(ra_dt, pr, aspect, case, method, function_name):
-    """Nu for a flux case when the top wall temperature, not q'', is given.
-
-    Nu = q'' S/(k dT_L) and Ra*_S = Ra_S(dT_L) Nu, so Nu solves Nu = F(Ra_S Nu) with F the
-    correlation: a secant iteration on ln Nu (the map's slope d ln F / d ln Ra* lies in
-    (0, 1/2], so the iteration is a contraction and converges in a few steps).
-    """
-    positive = ra_dt > 0
-    ra_pos = np.where(positive, ra_dt, 1.0)
-
-    def residual(log_nu):
-        nu = nusselt("channel", method, case, function_name=function_name,
-                     ra=ra_pos * np.exp(log_nu), pr=pr, aspect=aspect).nu
-        return np.log(nu) - log_nu
-
-    previous = np.zeros_like(ra_pos)
-    r_previous = residual(previous)
-    current = previous + r_previous  # one fixed-point step
-    for _ in range(60):
-        r_current = residual(current)
-        if np.all(np.abs(r_current) < 1e-13):
-            break
-        slope = (r_current - r_previous) / np.where(current == previous, 1.0, current - previous)
-        with np.errstate(divide="ignore", invalid="ignore"):  # the where() keeps only finite steps
-            step = np.where((current == previous) | (slope == 0), r_current, -r_current / slope)
-        previous, r_previous, current = current, r_current, current + step
-    result = nusselt("channel", method, case, function_name=function_name,
-                     ra=ra_dt * np.exp(current), pr=pr, aspect=aspect)
-    result.nu = np.where(positive, result.nu, 0.0)
-    return result, ra_dt * np.exp(current)
-
-
 def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLike, *,
                        case: str = "isothermal", gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
                        method: str = "auto", property_temperature: ArrayLike | None = None,
@@ -289,16 +265,18 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     shape = np.broadcast(ra, props.prandtl, height).shape
     ra, pr = np.broadcast_to(ra, shape), np.broadcast_to(props.prandtl, shape)
     aspect = np.broadcast_to(height / spacing, shape)
-    if case in FLUX_CASES:
-        result, ra = _flux_nusselt(ra, pr, aspect, case, method, function_name)
-    else:
-        result = nusselt("channel", method, case, function_name=function_name, ra=ra, pr=pr, aspect=aspect)
+    result = nusselt_at_difference("channel", method, case, function_name=function_name, ra=ra, pr=pr,
+                                   aspect=aspect)
+    ra = CHANNEL.correlation_rayleigh(ra, result.nu, case)
     h = result.nu * props.conductivity / spacing
     full = lambda a: np.broadcast_to(a, shape)  # noqa: E731
     return ConvectionResult(h=full(h), nu=result.nu, ra=full(ra), gr=full(gr), pr=pr, t_film=full(t_film),
                             conductivity=full(props.conductivity), length=full(spacing),
                             method=result.method, case=np.full(shape, case, dtype=object),
                             in_range=result.in_range, note=result.note)
+
+
+ONE_CALLS["channel"] = channel_convection
 
 
 def _warn_notes(function_name, in_range, notes):

@@ -228,13 +228,22 @@ def convection_geometries() -> tuple:
     ``tilt_range``, ``methods``, ``method_help()``, ``auto_methods(case)`` and the auto rule in
     ``description``.  A new geometry defined in the registry appears here with no other change.
 
-    Geometries whose h has a model of its own (the open channel, :func:`stillair.h_channel`)
-    define no ``parameters`` and are not listed.
+    A geometry that defines no ``parameters`` is not listed.
 
     >>> [g.name for g in convection_geometries()]
-    ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity']
+    ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity', 'channel']
     """
     return tuple(geometry for geometry in GEOMETRIES.values() if geometry.parameters)
+
+
+def _h_cavity_call(t1, t2, *, gap, height, tilt, **common) -> ConvectionResult:
+    return cavity_convection(t1, t2, gap, height, tilt=tilt, **common)
+
+
+# The one-call functions of geometries that are not a surface in a large still fluid, by name:
+# f(t1, t2, **parameters, gas=, pressure=, method=, property_temperature=, ideal_expansion=,
+# function_name=).  A module that defines such a geometry adds its own (channel.py: the channel).
+ONE_CALLS: dict = {"cavity": _h_cavity_call}
 
 
 def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
@@ -267,8 +276,9 @@ def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PR
         values[parameter.name] = value
     common = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
                   ideal_expansion=ideal_expansion, function_name=function_name)
-    if geo.name == "cavity":
-        return cavity_convection(t1, t2, values["gap"], values["height"], tilt=values["tilt"], **common)
+    own_call = ONE_CALLS.get(geo.name)
+    if own_call is not None:
+        return own_call(t1, t2, **values, **common)
     length = values.pop(geo.length)
     return surface_convection(geo.name, t1, t2, length, **values, **common)
 

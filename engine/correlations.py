@@ -24,6 +24,8 @@ sphere     ra, pr                                   --
 vcyl       ra, pr, slenderness (height/diameter)    --
 cavity     ra, pr, aspect (height/gap), tilt (deg   --
            from horizontal, 0 heated from below)
+channel    ra (Ra*_S on the wall flux for the       isothermal, isothermal-adiabatic, flux,
+           flux cases), pr, aspect (height/spacing) flux-adiabatic
 =========  =======================================  ==============================================
 
 Ra is always based on the geometry's own length (plate height, area/perimeter, diameter, gap).
@@ -65,6 +67,7 @@ __all__ = [
     "methods_for",
     "nusselt",
     "nusselt_value",
+    "nusselt_at_difference",
     "merge_masked",
     "PLATE_CASES",
     "NusseltSpread",
@@ -157,6 +160,18 @@ class Geometry:
     # The physical parameters of the h-level call, in order (the length first): what a sheet
     # function or a network branch of this geometry takes besides t1, t2, gas and pressure.
     parameters: tuple[Parameter, ...] = ()
+    # Cases whose correlations take the modified Rayleigh number on the wall heat flux,
+    # Ra* = Ra Nu (Nu on the temperature difference), instead of Ra: given the difference, Nu
+    # is solved (:func:`nusselt_at_difference`).
+    flux_cases: tuple[str, ...] = ()
+    # What the from and to nodes of its network branch are, where the branch is not a surface
+    # in a large still fluid (the reference prints it).
+    branch_ends: str = ""
+
+    def correlation_rayleigh(self, ra, nu, case: str | None):
+        """The Rayleigh number the correlation of ``case`` reads, from Ra on the temperature
+        difference and the Nu found: Ra* = Ra Nu for a flux case, Ra otherwise."""
+        return ra * nu if case in self.flux_cases else ra
 
     def auto_methods(self, case: str | None = None) -> list[str]:
         """The methods auto may use for ``case``, in the rule's order, each once."""
@@ -616,6 +631,42 @@ def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inp
     return unwrap(nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu)
 
 
+def nusselt_at_difference(geometry: str, method, case=None, *, function_name: str, ra, **inputs) -> NusseltResult:
+    """Nu when Ra is known on the temperature difference (Ra = 0 gives Nu = 0 for a flux case).
+
+    For a case in the geometry's ``flux_cases`` the correlation reads Ra* = Ra Nu, so Nu solves
+    Nu = F(Ra Nu): a secant iteration on ln Nu (the map's slope d ln F / d ln Ra* lies in
+    (0, 1/2] for the published forms, so the iteration is a contraction and converges in a few
+    steps).  Other cases are :func:`nusselt` itself.  The Ra the correlation read is
+    ``Geometry.correlation_rayleigh(ra, result.nu, case)``.
+    """
+    if case not in GEOMETRIES[geometry].flux_cases:
+        return nusselt(geometry, method, case, function_name=function_name, ra=ra, **inputs)
+    ra = np.asarray(ra, dtype=float)
+    positive = ra > 0
+    ra_pos = np.where(positive, ra, 1.0)
+
+    def residual(log_nu):
+        nu = nusselt(geometry, method, case, function_name=function_name, ra=ra_pos * np.exp(log_nu),
+                     notes=False, **inputs).nu
+        return np.log(nu) - log_nu
+
+    previous = np.zeros_like(ra_pos)
+    r_previous = residual(previous)
+    current = previous + r_previous  # one fixed-point step
+    for _ in range(60):
+        r_current = residual(current)
+        if np.all(np.abs(r_current) < 1e-13):
+            break
+        slope = (r_current - r_previous) / np.where(current == previous, 1.0, current - previous)
+        with np.errstate(divide="ignore", invalid="ignore"):  # the where() keeps only finite steps
+            step = np.where((current == previous) | (slope == 0), r_current, -r_current / slope)
+        previous, r_previous, current = current, r_current, current + step
+    result = nusselt(geometry, method, case, function_name=function_name, ra=ra * np.exp(current), **inputs)
+    result.nu = np.where(positive, result.nu, 0.0)
+    return result
+
+
 # --- the spread of the published correlations ---------------------------------------------------
 
 @dataclass(frozen=True)
@@ -649,15 +700,17 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
 
     Parameters
     ----------
-    geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity"}
+    geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity", "channel"}
     ra, pr : array_like
-        Rayleigh number on the geometry's own length (>= 0) and Prandtl number (> 0).
+        Rayleigh number on the geometry's own length (>= 0; Ra*_S for a channel's flux cases)
+        and Prandtl number (> 0).
     case : str, optional
-        Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down").
+        Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down"); the
+        walls of a channel ("isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic").
     tilt : array_like, optional
         Degrees: from the vertical for tplate, from the horizontal for cavity (default 90).
     aspect : array_like, optional
-        Cavity height/gap.
+        Cavity height/gap; channel height/spacing.
     slenderness : array_like, optional
         Vertical cylinder height/diameter.
 

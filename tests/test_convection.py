@@ -122,13 +122,21 @@ def test_geometry_convection_by_name_equals_the_named_functions():
     assert stillair.geometry_convection("cavity", 15.0, 5.0, gap=0.016, height=1.2).h == stillair.h_cavity(15.0, 5.0, 0.016, 1.2)
     assert stillair.geometry_convection("tplate", 60.0, 20.0, length=0.5, tilt=30.0, facing="up").h == (
         stillair.h_tplate(60.0, 20.0, 0.5, 30.0, "up"))
+    assert stillair.geometry_convection("channel", 60.0, 20.0, spacing=0.01, height=0.2, case="flux").h == (
+        stillair.h_channel(60.0, 20.0, 0.01, 0.2, "flux"))
+    assert stillair.geometry_convection("channel", 60.0, 20.0, spacing=0.01, height=0.2).h == (
+        stillair.h_channel(60.0, 20.0, 0.01, 0.2))
 
 
 def test_every_geometry_lists_its_parameters_length_first():
     for geometry in stillair.convection_geometries():
         assert geometry.parameters[0].name == geometry.length
         assert geometry.title and geometry.length_doc
-        assert ("facing" in [p.name for p in geometry.parameters]) == bool(geometry.cases)
+        names = [p.name for p in geometry.parameters]
+        plate_cases = bool(geometry.cases) and set(geometry.cases) == set(stillair.PLATE_CASES)
+        # plate cases follow from a facing and the sign of the difference; other cases are named
+        assert ("facing" in names) == plate_cases
+        assert ("case" in names) == (bool(geometry.cases) and not plate_cases)
 
 
 def test_geometry_convection_names_a_wrong_or_missing_parameter():

@@ -54,10 +54,18 @@ def test_kind_columns_follow_the_geometry_inputs():
     with pytest.raises(NoBranchKind) as caught:
         _convection_kind(Geometry(name="vplate", inputs=("ra", "pr", "roughness"), description=""))
     assert str(caught.value) == "no column rule for its input(s) roughness"
-    with pytest.raises(NoBranchKind) as caught:
-        _convection_kind(Geometry(name="vplate", inputs=("ra", "pr"), description="", cases=("wet", "dry")))
-    assert str(caught.value) == ("its cases (wet, dry) are not set by a facing and the sign of the "
-                                 "temperature difference")
+    # cases other than the plate cases are a column of their own, required where the geometry
+    # gives no default case
+    wet = _convection_kind(Geometry(name="vplate", inputs=("ra", "pr"), description="", cases=("wet", "dry")))
+    assert [p.describe() for p in wet.params] == ["length m", "area m²", "case (one of wet, dry)"]
+    assert not wet.params[2].optional
+    with pytest.raises(NetworkError) as caught:
+        wet.read_params([0.2, 1.0, None, None, None], "branch row 1 (w)")
+    assert str(caught.value) == ('solve_network: branch row 1 (w), column p3 (case) must be one of "wet", "dry", '
+                                 'got blank')
+    assert shapes["channel"] == ["spacing m (spacing S between the plates)", "height m", "area m²",
+                                 "case (one of isothermal, isothermal-adiabatic, flux, flux-adiabatic) "
+                                 "(blank: isothermal)"]
 
 
 def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():

@@ -8,8 +8,8 @@ reference and the README print the table of kinds from :func:`kind_reference`.
 The convection kinds are generated from the correlation registry's geometries
 (:data:`stillair.correlations.GEOMETRIES`): the geometry's inputs decide the columns (a tilt
 input adds a tilt column, a slenderness input a diameter column, an aspect input a height
-column, cases a facing column), so a geometry registered there is a branch kind here with no
-further code.
+column, plate cases a facing column, other cases a case column), so a geometry registered there
+is a branch kind here with no further code.
 """
 
 from __future__ import annotations
@@ -24,7 +24,7 @@ from scipy.constants import zero_Celsius
 
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
-                            nusselt)
+                            nusselt, nusselt_at_difference)
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
@@ -51,14 +51,16 @@ class Param:
     "area", "tilt" (a correlation input as typed), "layer-tilt" (a cavity's tilt, seen as
     180 - tilt when the layer is heated from above), "diameter" (slenderness = length/diameter),
     "height" (aspect = height/length), "facing" (with the sign of the difference, the plate
-    case), "gas".  Linear and radiation kinds leave it blank.
+    case), "case" (the geometry's case, one of ``choices``), "gas".  Linear and radiation kinds
+    leave it blank.
     """
 
     label: str
     unit: str = ""
     meaning: str = ""
-    check: str = "positive"          # positive | emissivity | angle | facing | gas
+    check: str = "positive"          # positive | emissivity | angle | facing | choice | gas
     limits: tuple[float, float] = (0.0, 0.0)
+    choices: tuple[str, ...] = ()
     optional: bool = False
     default: object = None
     blank_means: str = ""
@@ -75,12 +77,19 @@ class Param:
         if blank(value):
             if self.optional:
                 return self.default
-            if self.check in ("facing", "gas"):
-                raise NetworkError(FUNCTION, here, None,
-                                   '"up" or "down"' if self.check == "facing" else "a gas name")
+            if self.check in ("facing", "gas", "choice"):
+                raise NetworkError(FUNCTION, here, None, {
+                    "facing": '"up" or "down"', "gas": "a gas name",
+                    "choice": "one of " + ", ".join(f'"{c}"' for c in self.choices)}[self.check])
         if self.check == "facing":
             if not isinstance(value, str) or value.strip().lower() not in ("up", "down"):
                 raise NetworkError(FUNCTION, here, value, '"up" or "down"')
+            return value.strip().lower()
+        if self.check == "choice":
+            if not isinstance(value, str) or value.strip().lower() not in self.choices:
+                listed = ", ".join(f'"{c}"' for c in self.choices)
+                raise NetworkError(FUNCTION, here, value,
+                                   f"blank or one of {listed}" if self.optional else f"one of {listed}")
             return value.strip().lower()
         if self.check == "gas":
             if not isinstance(value, str):
@@ -131,7 +140,9 @@ class BranchKind:
             values.append(self.params[position].read(value, where, column))
         return tuple(values)
 
-    def read_method(self, value, where: str) -> str:
+    def read_method(self, value, where: str, params: tuple = ()) -> str:
+        """The method column; ``params`` are the row's parameters as read (a case column
+        narrows the methods to those serving its case)."""
         if not blank(value):
             raise NetworkError(FUNCTION, f"{where}, column method", value,
                                f"blank for kind {self.name} (it has no correlation)")
@@ -251,21 +262,29 @@ class ConvectionKind(BranchKind):
                 return k
         return None
 
-    def read_method(self, value, where: str) -> str:
+    def read_method(self, value, where: str, params: tuple = ()) -> str:
         if blank(value):
             return "auto"
-        allowed = ["auto"] + methods_for(self.geometry)
+        k = self.role("case")
+        case = params[k] if k is not None and params else None
+        allowed = ["auto"] + methods_for(self.geometry, case)
         if not isinstance(value, str) or value.strip().lower() not in allowed:
             raise NetworkError(FUNCTION, f"{where}, column method", value,
-                               "blank or one of " + ", ".join(f'"{m}"' for m in allowed))
+                               "blank or one of " + ", ".join(f'"{m}"' for m in allowed)
+                               + (f' for case "{case}"' if case is not None else ""))
         return value.strip().lower()
 
     def gas_of(self, params: tuple, network_gas: str) -> str:
         k = self.role("gas")
         return (params[k] or network_gas) if k is not None else network_gas
 
-    def group_key(self, branch, gas: str) -> tuple:
+    def case_column(self) -> int | None:
+        """The column that sets the correlation's case (a facing or a case), or None."""
         k = self.role("facing")
+        return k if k is not None else self.role("case")
+
+    def group_key(self, branch, gas: str) -> tuple:
+        k = self.case_column()
         return (self.name, branch.params[k] if k is not None else None, branch.method,
                 self.gas_of(branch.params, gas))
 
@@ -288,6 +307,14 @@ class ConvectionKind(BranchKind):
         return inputs
 
 
+def _case_param(geometry) -> Param:
+    """The column of a geometry's own cases (not set by a facing and the sign of the
+    difference); blank takes the default of the geometry's "case" parameter, if it has one."""
+    default = next((p.default for p in geometry.parameters if p.name == "case"), None)
+    return Param("case", check="choice", choices=tuple(geometry.cases), meaning="one of " + ", ".join(geometry.cases),
+                 optional=default is not None, default=default, blank_means=default or "", role="case")
+
+
 def _length_param(geometry) -> Param:
     """The column of the geometry's own length (its name and meaning are the geometry's)."""
     meaning = geometry.length_doc.removesuffix(", m").strip()
@@ -297,16 +324,13 @@ def _length_param(geometry) -> Param:
 
 
 class NoBranchKind(Exception):
-    """A geometry whose inputs or cases no column rule covers (the reason is the message)."""
+    """A geometry whose inputs no column rule covers (the reason is the message)."""
 
 
 def _convection_kind(geometry) -> ConvectionKind:
     """The branch kind of a registered geometry: its columns follow from its inputs.  Raises
     :class:`NoBranchKind` when no rule covers it (it is then listed in SKIPPED_GEOMETRIES)."""
     inputs = set(geometry.inputs) - {"ra", "pr"}
-    if geometry.cases and set(geometry.cases) != set(PLATE_CASES):
-        raise NoBranchKind(f"its cases ({', '.join(geometry.cases)}) are not set by a facing and the "
-                           "sign of the temperature difference")
     if inputs == {"aspect", "tilt"}:   # an enclosed layer: gap, height, area, tilt, its own gas
         low, high = geometry.tilt_range
         default_tilt = getattr(geometry, "default_tilt", None)
@@ -324,18 +348,22 @@ def _convection_kind(geometry) -> ConvectionKind:
     params = [_length_param(geometry)]
     if "slenderness" in inputs:
         params.append(Param("diameter", "m", role="diameter"))
+    if "aspect" in inputs:   # an open layer (a channel): aspect = height/length
+        params.append(Param("height", "m", role="height"))
     params.append(Param("area", "m²", role="area"))
     if "tilt" in inputs:
         low, high = geometry.tilt_range
         params.append(Param("tilt", "° from vertical", check="angle", limits=(low, high), role="tilt"))
     if geometry.cases:
-        params.append(Param("facing", check="facing", meaning="up or down", role="facing"))
-    unknown = inputs - {"tilt", "slenderness"}
+        params.append(Param("facing", check="facing", meaning="up or down", role="facing")
+                      if set(geometry.cases) == set(PLATE_CASES) else _case_param(geometry))
+    unknown = inputs - {"tilt", "slenderness", "aspect"}
     if unknown:
         raise NoBranchKind(f"no column rule for its input(s) {', '.join(sorted(unknown))}")
     return ConvectionKind(geometry.name, tuple(params),
                           flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}",
-                          ends="from: the solid surface; to: the still fluid", geometry=geometry.name)
+                          ends=geometry.branch_ends or "from: the solid surface; to: the still fluid",
+                          geometry=geometry.name)
 
 
 class _ConvectionGroup(_Group):
@@ -350,15 +378,18 @@ class _ConvectionGroup(_Group):
         self.gas = context["gas"]
         facing = kind.role("facing")
         self.facing = params[0][facing] if facing is not None else None
+        own_case = kind.role("case")
+        self.case = params[0][own_case] if own_case is not None else None
         self.columns = {p.role: self.column(k) for k, p in enumerate(kind.params)
-                        if p.role not in ("", "facing", "gas")}
+                        if p.role not in ("", "facing", "case", "gas")}
         self.length = self.columns.pop("length")
         self.area = self.columns.pop("area")
         self.cases = GEOMETRIES[self.geometry].cases
         served = CORRELATIONS[(self.geometry, self.method)].cases if self.method != "auto" else ()
         # a method named for a plate may serve only some cases (hot-up...); while the solution
         # moves, the other cases use "auto" and are flagged; a flag at the solution is an error
-        self.served_cases = served if self.cases and served and set(served) != set(self.cases) else ()
+        self.served_cases = (served if self.facing is not None and served and set(served) != set(self.cases)
+                             else ())
 
     def nominal(self, t1, t2):
         """A start only: laminar-like Nu = c Ra^(1/4) with air near 20 °C (common practice
@@ -388,6 +419,10 @@ class _ConvectionGroup(_Group):
     def _nusselt(self, inputs, dt):
         if not self.cases:
             return nusselt(self.geometry, self.method, function_name=FUNCTION, **inputs), None, None
+        if self.case is not None:   # the case is the row's own (a channel's walls): Nu solved where
+            # the correlation reads a flux Rayleigh number
+            result = nusselt_at_difference(self.geometry, self.method, self.case, function_name=FUNCTION, **inputs)
+            return result, np.full(len(dt), self.case, dtype=object), None
         hot = dt >= 0
         if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
             case = np.full(len(dt), f"{'hot' if hot.all() else 'cold'}-{self.facing}", dtype=object)
@@ -405,11 +440,15 @@ class _ConvectionGroup(_Group):
         return result, case, flagged
 
     def records(self, t1, t2, dt, q, detail):
+        geometry = GEOMETRIES[self.geometry]
         for k in range(len(self.index)):
             conductance = float(detail.h[k] * self.area[k])
+            case = str(detail.case[k]) if detail.case is not None else None
+            # Ra as the correlation read it (a flux case's Ra*), as the one-call functions report it
+            ra = geometry.correlation_rayleigh(detail.ra[k], detail.nu[k], case)
             yield int(self.index[k]), dict(
                 h=float(detail.h[k]), R=(1.0 / conductance) if conductance > 0 else math.inf,
-                area=float(self.area[k]), Ra=float(detail.ra[k]), Nu=float(detail.nu[k]),
+                area=float(self.area[k]), Ra=float(ra), Nu=float(detail.nu[k]),
                 Pr=float(detail.pr[k]), t_film=float(detail.t_film[k]), method=str(detail.method[k]),
                 case=str(detail.case[k]) if detail.case is not None else "",
                 note=str(detail.note[k] or ""), in_range=bool(detail.in_range[k]))

@@ -121,7 +121,7 @@ def parse_branches(table) -> tuple[Branch, ...]:
                                "one of " + ", ".join(BRANCH_KINDS))
         kind = BRANCH_KINDS[kind_name]
         params = kind.read_params(row[4:9], where)
-        method = kind.read_method(row[9], where)
+        method = kind.read_method(row[9], where, params)
         branches.append(Branch(row_number, branch_name, source, target, kind_name, params, method))
     if not branches:
         raise NetworkError(FUNCTION, "branches", Shown("no rows"), "at least one branch row")
