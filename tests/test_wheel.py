@@ -183,8 +183,9 @@ def test_every_library_the_package_imports_is_a_declared_dependency():
                 elif isinstance(node, ast.ImportFrom) and node.level == 0 and node.module:
                     imported.add(node.module.split(".")[0])
     # The LibreOffice component runs inside LibreOffice's own Python, which provides the UNO
-    # bridge (python3-uno): those modules are the host's, not ours to declare.
-    host_provided = {"uno", "unohelper", "com"}
+    # bridge (python3-uno) and the types of our own extension (org.stillair...): those modules
+    # are the host's, not ours to declare.
+    host_provided = {"uno", "unohelper", "com", "org"}
     third_party = imported - set(sys.stdlib_module_names) - {"stillair", "__future__"} - host_provided
     distributions = packages_distributions()
     for module in sorted(third_party):
