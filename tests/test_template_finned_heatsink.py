@@ -51,14 +51,74 @@ def test_results_equal_a_direct_engine_calculation(sets):
 
 def test_sweep_and_its_optimum_equal_the_engine():
     evaluation = evaluate_template(NAME)
-    rows = [r for r in named(evaluation, "fin_sweep") if r[1] != ""]
+    rows = named(evaluation, "fin_sweep")
     counts = np.array([r[0] for r in rows])
-    assert len(named(evaluation, "fin_sweep")) == SWEEP_ROWS and counts[0] == 2
-    engine = stillair.heatsink_tbase(DEFAULTS["dissipation"], DEFAULTS["ambient_t"], *_sink(DEFAULTS, counts))
-    np.testing.assert_allclose([r[1] for r in rows], engine, rtol=1e-12)
+    v = DEFAULTS
+    count_max = int((v["base_width"] + 0.002) // (v["fin_thickness"] + 0.002))
+    assert len(rows) == SWEEP_ROWS and counts[0] == 2 and counts[-1] == count_max
+    assert np.all(np.diff(counts) > 0)  # more counts fit than rows: none repeats
+    engine = stillair.heatsink_tbase(v["dissipation"], v["ambient_t"], *_sink(v, counts))
+    np.testing.assert_allclose([r[2] for r in rows], engine, rtol=1e-12)
+    np.testing.assert_allclose([r[1] for r in rows],
+                               1000 * (v["base_width"] - counts * v["fin_thickness"]) / (counts - 1), rtol=1e-12)
+    assert [r[5] for r in rows] == ["yes" if t <= v["max_base_t"] else "no" for t in engine]
     best = counts[int(np.argmin(engine))]
     assert named(evaluation, "res_count_best") == best
+    assert named(evaluation, "res_t_best") == pytest.approx(engine.min(), rel=1e-12)
     assert 2 < best < counts[-1]  # an interior optimum: too many fins choke the channels
+
+
+def test_sweep_marks_failing_counts_and_stays_clean_when_few_fins_fit():
+    evaluation = evaluate_template(NAME, fin_thickness=0.004, fin_count=8, max_base_t=75.0)  # 17 fit at most
+    rows = named(evaluation, "fin_sweep")
+    counts = [r[0] for r in rows]
+    assert counts[0] == 2 and counts[-1] == 17 and counts == sorted(counts)   # counts repeat, none is blank
+    assert "no" in [r[5] for r in rows] and "yes" in [r[5] for r in rows]
+
+
+def _model_with_scaled_h(t_base, v, channel_factor, face_factor):
+    """The heat-sink model (stillair.heatsink, written out as its docstring states) at ``t_base``
+    with both convection coefficients scaled: the spread's test double."""
+    parts = stillair.heatsink(t_base, v["ambient_t"], *_sink(v)).scalar()
+    h_in, h_out = parts.h_channel * channel_factor, parts.h_outer * face_factor
+    h_mix = (h_in + h_out) / 2
+    length, t, height, k, n = v["fin_length"], v["fin_thickness"], v["fin_height"], v["fin_k"], v["fin_count"]
+    lc = height + t / 2
+
+    def eta(h):
+        m = np.sqrt(h * 2 * (length + t) / (k * length * t))
+        return np.tanh(m * lc) / (m * lc)
+    excess = t_base - v["ambient_t"]
+    fins = ((n - 2) * eta(h_in) * h_in + 2 * eta(h_mix) * h_mix) * 2 * (length + t) * lc * excess
+    return fins + (n - 1) * parts.spacing * length * h_in * excess + parts.q_radiation
+
+
+def test_correlation_spread_of_the_base_temperature():
+    """The spread's base temperatures agree with a full re-solve of the model with the coefficients
+    scaled by NU_SPREAD's extremes (held at their ratios at the solved point): a Newton step is
+    first-order, so they agree to a small fraction of the shift."""
+    from scipy.optimize import brentq
+
+    evaluation = evaluate_template(NAME)
+    v = DEFAULTS
+    t_base = named(evaluation, "res_t_base")
+    cool, hot = named(evaluation, "res_t_base_cool"), named(evaluation, "res_t_base_hot")
+    assert cool < t_base < hot
+    pressure = _sink(v)[-1]
+    parts = stillair.heatsink(t_base, v["ambient_t"], *_sink(v)).scalar()
+    groups = stillair.film_properties(t_base, v["ambient_t"], "air", pressure)[0]
+    ra_gap = stillair.rayleigh(t_base, v["ambient_t"], parts.spacing, "air", pressure)
+    ra_face = stillair.rayleigh(t_base, v["ambient_t"], v["fin_length"], "air", pressure)
+    pr = groups.prandtl
+    gap = stillair.nu_spread("channel", ra_gap, pr, case="isothermal", aspect=v["fin_length"] / parts.spacing)
+    face = stillair.nu_spread("vplate", ra_face, pr)
+    assert gap.count == 2 and set(gap.methods) == {"bar-cohen-rohsenow", "elenbaas"}
+    nu_gap = stillair.nu_channel(ra_gap, pr, v["fin_length"] / parts.spacing)
+    nu_face = stillair.nu_vplate(ra_face, pr)
+    for value, which in ((hot, "low"), (cool, "high")):
+        factors = getattr(gap, which) / nu_gap, getattr(face, which) / nu_face
+        exact = brentq(lambda t: _model_with_scaled_h(t, v, *factors) - v["dissipation"], v["ambient_t"] + 1, 200)
+        assert value == pytest.approx(exact, abs=0.05 * abs(exact - t_base) + 1e-6)
 
 
 def test_optimum_gap_of_the_textbook_heat_sink():
