@@ -193,7 +193,7 @@ def build(b) -> None:
            '=CHANNEL_SPACING(t_base, ambient_t, fin_length, "isothermal", "array", "air", air_pressure)', "m",
            number_format="0.00000")
     b.step("count_opt", "Fin count giving about that gap",
-           "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))", "-", number_format="0")
+           "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))", "fins", number_format="0")
     b.step("note_gap", "Validity of the channel correlation",
            '=NU_NOTE("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)', "")
     b.step("note_face", "Validity of the outer-face correlation", '=NU_NOTE("vplate", ra_face, pr_film)', "")
@@ -201,7 +201,7 @@ def build(b) -> None:
     # ------------------------------------------------------------------ the fin-count sweep (Tables)
     b.section("Calculation", f"Fin-count sweep (sheet Tables; gaps from {MIN_GAP * 1000:g} mm up)")
     b.step("count_max", f"Largest fin count with a gap of at least {MIN_GAP * 1000:g} mm",
-           f"=MAX(3, INT((base_width+{MIN_GAP})/(fin_thickness+{MIN_GAP})))", "-", number_format="0")
+           f"=MAX(3, INT((base_width+{MIN_GAP})/(fin_thickness+{MIN_GAP})))", "fins", number_format="0")
     tables = "Tables"
     b.section(tables, f"Fin-count sweep: {SWEEP_ROWS} counts from 2 to the largest with a gap of "
                       f"{MIN_GAP * 1000:g} mm, everything else as on Inputs (HEATSINK_TBASE per row)")
@@ -209,7 +209,7 @@ def build(b) -> None:
     rows = []
     for k in range(SWEEP_ROWS):
         row = sweep_start + k
-        count, temp = b.cell(tables, row, 0), b.cell(tables, row, 2)
+        count, temp = b.cell(tables, row, 1), b.cell(tables, row, 3)
         rows.append([f"=2+ROUND({k}*(count_max-2)/{SWEEP_ROWS - 1}, 0)",
                      f"=1000*(base_width-{count}*fin_thickness)/({count}-1)",
                      f"=HEATSINK_TBASE(dissipation, ambient_t, {_SINK.format(count=count)})",
@@ -217,15 +217,15 @@ def build(b) -> None:
                      f"=max_base_t-{temp}",
                      f'=IF(ISNUMBER({temp}), IF({temp}<=max_base_t, "yes", "no"), "{FAILED}")'])
     first, _, last, _ = b.table(tables, ["fin count", "gap mm", "base °C", "limit °C", "margin K",
-                                         "within limit"], rows, name="fin_sweep",
+                                         "within limit"], rows, name="fin_sweep", col=1,
                                 formats=["0", "0.00", "0.0", "0.0", "0.0", None])
     assert first == sweep_start
-    b.verdicts(tables, first, 5, last, fails=("no",))
-    counts, temps = b.column(tables, first, last, 0), b.column(tables, first, last, 2)
-    limits = b.column(tables, first, last, 3)
+    b.verdicts(tables, first, 6, last, fails=("no",))
+    counts, temps = b.column(tables, first, last, 1), b.column(tables, first, last, 3)
+    limits = b.column(tables, first, last, 4)
     b.step("t_best", "Lowest base temperature of the sweep", f"=MIN({temps})", "°C")
     b.step("count_best", "Fin count with the lowest base temperature",
-           f"=INDEX({counts}, MATCH(t_best, {temps}, 0))", "-", number_format="0")
+           f"=INDEX({counts}, MATCH(t_best, {temps}, 0))", "fins", number_format="0")
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Base temperature")
@@ -252,7 +252,7 @@ def build(b) -> None:
     b.result("res_gap", "Gap between fins", "=gap", "m", number_format="0.00000")
     b.result("res_gap_opt", "Thin-plate optimum gap (Bar-Cohen and Rohsenow)", "=gap_opt", "m",
              number_format="0.00000")
-    b.result("res_count_best", "Fin count with the lowest base temperature (sweep)", "=count_best", "-",
+    b.result("res_count_best", "Fin count with the lowest base temperature (sweep)", "=count_best", "fins",
              number_format="0")
     b.result("res_t_best", "Base temperature at that count", "=t_best", "°C")
     b.result("res_eta", "Fin efficiency (inner fins)", "=eta_inner", "-")
