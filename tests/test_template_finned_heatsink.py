@@ -2,7 +2,8 @@
 
 Outside reference: Cengel, Heat and Mass Transfer: A Practical Approach, 3rd ed. (2007), ch. 9,
 example "Optimum fin spacing of a heat sink" (from memory): 18 cm long vertical fins, base at
-80 degC in 30 degC air, S_opt = 7.45 mm.  Physics: the heat balance of the solved sink closes.
+80 degC in 30 degC air, S_opt = 7.45 mm.  Physics: the heat balance of the solved sink closes;
+the correlation spread's first-order base temperatures agree with a full re-solve.
 """
 
 from __future__ import annotations
@@ -49,14 +50,22 @@ def test_results_equal_a_direct_engine_calculation(sets):
     assert evaluation.notes == []
 
 
+def _count_giving_the_optimum_gap(v, t_base):
+    gap = stillair.channel_spacing(t_base, v["ambient_t"], v["fin_length"],
+                                   pressure=stillair.altitude_pressure(v["altitude"]))
+    return max(2, round((v["base_width"] + gap) / (gap + v["fin_thickness"])))
+
+
 def test_sweep_and_its_optimum_equal_the_engine():
     evaluation = evaluate_template(NAME)
     rows = named(evaluation, "fin_sweep")
     counts = np.array([r[0] for r in rows])
     v = DEFAULTS
     count_max = int((v["base_width"] + 0.002) // (v["fin_thickness"] + 0.002))
-    assert len(rows) == SWEEP_ROWS and counts[0] == 2 and counts[-1] == count_max
-    assert np.all(np.diff(counts) > 0)  # more counts fit than rows: none repeats
+    around = _count_giving_the_optimum_gap(v, named(evaluation, "res_t_base"))
+    first = max(2, min(around - (SWEEP_ROWS // 2 - 1), count_max - (SWEEP_ROWS - 1)))
+    np.testing.assert_array_equal(counts, np.arange(first, first + SWEEP_ROWS))  # whole counts, in steps of 1
+    assert counts[-1] <= count_max and first < v["fin_count"] < counts[-1]
     engine = stillair.heatsink_tbase(v["dissipation"], v["ambient_t"], *_sink(v, counts))
     np.testing.assert_allclose([r[2] for r in rows], engine, rtol=1e-12)
     np.testing.assert_allclose([r[1] for r in rows],
@@ -65,15 +74,28 @@ def test_sweep_and_its_optimum_equal_the_engine():
     best = counts[int(np.argmin(engine))]
     assert named(evaluation, "res_count_best") == best
     assert named(evaluation, "res_t_best") == pytest.approx(engine.min(), rel=1e-12)
-    assert 2 < best < counts[-1]  # an interior optimum: too many fins choke the channels
+    # an interior optimum (too many fins choke the channels), and the sheet says so
+    assert counts[0] < best < counts[-1]
+    assert named(evaluation, "res_best_where").startswith("a true optimum")
+    # the best count beats its neighbours outside the sweep too: the engine's own check
+    assert stillair.heatsink_tbase(v["dissipation"], v["ambient_t"], *_sink(v, best)) <= engine.min()
 
 
-def test_sweep_marks_failing_counts_and_stays_clean_when_few_fins_fit():
+def test_sweep_repeats_its_last_count_when_few_fins_fit_and_marks_failing_counts():
     evaluation = evaluate_template(NAME, fin_thickness=0.004, fin_count=8, max_base_t=75.0)  # 17 fit at most
     rows = named(evaluation, "fin_sweep")
     counts = [r[0] for r in rows]
-    assert counts[0] == 2 and counts[-1] == 17 and counts == sorted(counts)   # counts repeat, none is blank
+    assert counts[0] == 2 and counts[-1] == 17 and counts[15:] == [17] * 5   # repeats, none is blank
     assert "no" in [r[5] for r in rows] and "yes" in [r[5] for r in rows]
+
+
+def test_an_optimum_at_the_edge_of_the_sweep_is_reported():
+    """The sweep's first count replaced (a calculated cell, set by name) so that it starts past
+    the optimum: the lowest of the sweep is its first row, and the sheet must not call it optimal."""
+    evaluation = evaluate_template(NAME, count_first=14)
+    counts = [r[0] for r in named(evaluation, "fin_sweep")]
+    assert counts[0] == 14 and named(evaluation, "res_count_best") == 14
+    assert named(evaluation, "res_best_where") == "at the edge of the sweep: the optimum may lie beyond it"
 
 
 def _model_with_scaled_h(t_base, v, channel_factor, face_factor):

@@ -155,8 +155,9 @@ def build(b) -> None:
            "central difference over 1 K")
     sheet = "Calculation"
     start = b.sheets[sheet].row + 1
-    labels = ["Channel coefficient h", "Outer-face coefficient", "m, inner fins", "Fin efficiency, inner",
-              "Mean coefficient, outer fin", "m, outer fins", "Fin efficiency, outer",
+    labels = ["Channel coefficient h, W/(m²·K)", "Outer-face coefficient, W/(m²·K)", "m, inner fins, 1/m",
+              "Fin efficiency, inner", "Mean coefficient, outer fin, W/(m²·K)", "m, outer fins, 1/m",
+              "Fin efficiency, outer",
               "Heat rejected at the solved base temperature, W",
               "Base temperature, one Newton step, °C"]
 
@@ -188,29 +189,26 @@ def build(b) -> None:
     b.step("t_base_cool", "Base temperature, all convection at the highest covering Nu",
            "=" + ref(8, 3), "°C")
 
-    b.section("Calculation", "Optimum spacing and validity")
+    b.section("Calculation", "Optimum spacing, fin-count sweep (sheet Tables) and validity")
     b.step("gap_opt", "Thin-plate optimum gap (most heat per width), CHANNEL_SPACING",
            '=CHANNEL_SPACING(t_base, ambient_t, fin_length, "isothermal", "array", "air", air_pressure)', "m",
            number_format="0.00000")
     b.step("count_opt", "Fin count giving about that gap",
            "=MAX(2, ROUND((base_width+gap_opt)/(gap_opt+fin_thickness), 0))", "fins", number_format="0")
-    b.step("note_gap", "Validity of the channel correlation",
-           '=NU_NOTE("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)', "")
-    b.step("note_face", "Validity of the outer-face correlation", '=NU_NOTE("vplate", ra_face, pr_film)', "")
-
-    # ------------------------------------------------------------------ the fin-count sweep (Tables)
-    b.section("Calculation", f"Fin-count sweep (sheet Tables; gaps from {MIN_GAP * 1000:g} mm up)")
     b.step("count_max", f"Largest fin count with a gap of at least {MIN_GAP * 1000:g} mm",
            f"=MAX(3, INT((base_width+{MIN_GAP})/(fin_thickness+{MIN_GAP})))", "fins", number_format="0")
+    b.step("count_first", f"First count of the sweep ({SWEEP_ROWS} counts around that count)",
+           f"=MAX(2, MIN(count_opt-{SWEEP_ROWS // 2 - 1}, count_max-{SWEEP_ROWS - 1}))", "fins",
+           number_format="0")
     tables = "Tables"
-    b.section(tables, f"Fin-count sweep: {SWEEP_ROWS} counts from 2 to the largest with a gap of "
-                      f"{MIN_GAP * 1000:g} mm, everything else as on Inputs (HEATSINK_TBASE per row)")
+    b.section(tables, f"Fin-count sweep: {SWEEP_ROWS} whole counts around the thin-plate optimum, gaps of "
+                      f"{MIN_GAP * 1000:g} mm or more, everything else as on Inputs (HEATSINK_TBASE per row)")
     sweep_start = b.sheets[tables].row + 1
     rows = []
     for k in range(SWEEP_ROWS):
         row = sweep_start + k
         count, temp = b.cell(tables, row, 1), b.cell(tables, row, 3)
-        rows.append([f"=2+ROUND({k}*(count_max-2)/{SWEEP_ROWS - 1}, 0)",
+        rows.append([f"=MIN(count_first+{k}, count_max)",
                      f"=1000*(base_width-{count}*fin_thickness)/({count}-1)",
                      f"=HEATSINK_TBASE(dissipation, ambient_t, {_SINK.format(count=count)})",
                      "=max_base_t",
@@ -226,6 +224,13 @@ def build(b) -> None:
     b.step("t_best", "Lowest base temperature of the sweep", f"=MIN({temps})", "°C")
     b.step("count_best", "Fin count with the lowest base temperature",
            f"=INDEX({counts}, MATCH(t_best, {temps}, 0))", "fins", number_format="0")
+    b.step("best_where", "Where the lowest lies",
+           f'=IF(OR(AND(count_best>{b.cell(tables, first, 1)}, count_best<{b.cell(tables, last, 1)}), '
+           'count_best=2, count_best=count_max), "a true optimum (or the end of the possible counts)", '
+           '"at the edge of the sweep: the optimum may lie beyond it")', "")
+    b.step("note_gap", "Validity of the channel correlation",
+           '=NU_NOTE("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)', "")
+    b.step("note_face", "Validity of the outer-face correlation", '=NU_NOTE("vplate", ra_face, pr_film)', "")
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Base temperature")
@@ -255,6 +260,7 @@ def build(b) -> None:
     b.result("res_count_best", "Fin count with the lowest base temperature (sweep)", "=count_best", "fins",
              number_format="0")
     b.result("res_t_best", "Base temperature at that count", "=t_best", "°C")
+    b.result("res_best_where", "Where the lowest lies", "=best_where", text=True)
     b.result("res_eta", "Fin efficiency (inner fins)", "=eta_inner", "-")
     b.section("Results", "Validity")
     b.result("res_note_gap", "Channel correlation", "=note_gap", text=True)
@@ -268,10 +274,12 @@ def build(b) -> None:
              {"name": "allowed base temperature", "categories": f"={counts}", "values": f"={limits}",
               "marker": {"type": "none"}, "line": {"dash_type": "dash"}},
              {"name": "lowest (optimum count)", "categories": f"={b.names['count_best']}",
-              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 10},
+              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 11, "fill": {"color": "#23313F"},
+                                                   "border": {"color": "#23313F"}},
               "line": {"none": True}},
              {"name": "this design", "categories": f"={b.names['fin_count']}",
-              "values": f"={b.names['t_base']}", "marker": {"type": "square", "size": 8},
+              "values": f"={b.names['t_base']}", "marker": {"type": "square", "size": 9, "fill": {"none": True},
+                                                   "border": {"color": "#C98B2B", "width": 2}},
               "line": {"none": True}}],
             "number of fins", "base temperature °C", subtype="straight_with_markers")
 
@@ -295,8 +303,10 @@ def build(b) -> None:
     b.paragraph("HEATSINK_TBASE finds the base temperature at which fins + base + radiation equal the "
                 "dissipation (brentq root of HEATSINK_Q); the Calculation sheet re-computes each part from "
                 "it, and the balance row shows the sum closing on the dissipation. The sweep on the sheet "
-                "Tables repeats the solve for other fin counts with everything else unchanged; where fewer "
-                f"than {SWEEP_ROWS} counts fit, counts repeat. CHANNEL_SPACING gives the thin-plate optimum "
+                f"Tables repeats the solve for {SWEEP_ROWS} whole fin counts around the count that gives the "
+                "thin-plate optimum gap, everything else unchanged (where fewer counts fit, the last repeats); "
+                "the lowest base temperature among them marks the optimum count, and Results says whether it "
+                "lies inside the sweep. CHANNEL_SPACING gives the thin-plate optimum "
                 "gap for comparison (fin thickness moves the real optimum).")
     b.spread_note("base temperature")
     b.paragraph("Here the spread scales the channel coefficient by NU_SPREAD's lowest and highest channel "
@@ -326,8 +336,8 @@ def build(b) -> None:
                 "heat than this model shows. An enclosure also raises the air around the sink above the room "
                 "ambient: use the air temperature inside it. The component temperature is higher than the base "
                 "by the component's own internal and interface resistances.", caution=True)
-    b.paragraph("This is an engineering estimate from published correlations (typically +/-15-20 % for "
-                "natural convection). Defer to the component makers' ratings and heat-sink makers' data, "
+    b.paragraph("This is an engineering estimate from published correlations (natural-convection "
+                "correlations are commonly quoted to about +/-15-20 %; common practice). Defer to the component makers' ratings and heat-sink makers' data, "
                 "the applicable standards and licensed practice before relying on a result.", caution=True)
 
 
