@@ -172,3 +172,38 @@ def test_every_input_moves_the_base_temperature_the_expected_way(input_name, val
 def test_limit_moves_the_margin_and_the_verdict():
     assert_direction(NAME, "max_base_t", 70.0, "res_margin", -1)   # ...only the margin
     assert named(evaluate_template(NAME, max_base_t=60.0), "res_check") == "EXCEEDS LIMIT"
+
+
+def _validation_admits(formula: str, cell: str, value: float, names: dict) -> bool:
+    """Evaluate an input's custom validation formula, AND(...) of comparisons, as Excel would."""
+    import re
+
+    text = formula.lstrip("=")
+    assert text.startswith("AND(") and text.endswith(")")
+    expression = re.sub(r"\b" + cell + r"\b", repr(float(value)), text[4:-1])
+    for name, number in names.items():
+        expression = re.sub(r"\b" + name + r"\b", repr(float(number)), expression)
+    expression = (expression.replace("ISNUMBER", "_isnumber").replace("INT(", "math.floor(")
+                  .replace("<=", "@le@").replace(">=", "@ge@").replace("=", "==")
+                  .replace("@le@", "<=").replace("@ge@", ">="))
+    import math
+    return all(eval("(" + expression + ",)", {"math": math, "_isnumber": lambda x: True}))
+
+
+@pytest.mark.parametrize("name, value, admitted", [
+    ("fin_count", 12, True), ("fin_count", 12.5, False), ("fin_count", 1, False), ("fin_count", 2, True),
+    ("fin_count", 67, False),            # 67 x 1.5 mm fins do not fit on 100 mm
+    ("fin_thickness", 0.0015, True), ("fin_thickness", 0.0, False),
+    ("fin_thickness", 0.0044, False),    # 12 fins of 4.4 mm leave gaps of 4.3 mm: thinner than the fin
+    ("fin_thickness", 0.004, True),      # gaps of 4.7 mm
+])
+def test_inputs_refuse_a_fractional_fin_count_and_fins_wider_than_their_gap(name, value, admitted):
+    import openpyxl
+
+    from stillair.addin.templates import template_by_name
+
+    book = openpyxl.load_workbook(template_by_name(NAME).path)
+    cell = book.defined_names[name].attr_text.split("!")[1].replace("$", "")
+    validation = next(v for v in book["Inputs"].data_validations.dataValidation if str(v.sqref) == cell)
+    others = {k: DEFAULTS[k] for k in ("base_width", "fin_count", "fin_thickness") if k != name}
+    assert _validation_admits(validation.formula1, cell, value, others) is admitted
