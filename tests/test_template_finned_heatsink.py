@@ -174,6 +174,17 @@ def test_limit_moves_the_margin_and_the_verdict():
     assert named(evaluate_template(NAME, max_base_t=60.0), "res_check") == "EXCEEDS LIMIT"
 
 
+@pytest.mark.parametrize("count", ["count_gap", "count_face"])
+def test_no_covering_correlation_gives_no_spread_rather_than_a_number(count):
+    """NU_SPREAD's count set to 0 by name (a calculated cell): the spread rows say why, the base
+    temperature itself stands."""
+    evaluation = evaluate_template(NAME, **{count: 0})
+    assert named(evaluation, "res_t_base") == named(evaluate_template(NAME), "res_t_base")
+    for name in ("res_t_base_hot", "res_t_base_cool"):
+        assert named(evaluation, name) == "no correlation covers the case"
+    assert named(evaluation, "res_check_hot") == "no correlation covers the case: no spread"
+
+
 def _validation_admits(formula: str, cell: str, value: float, names: dict) -> bool:
     """Evaluate an input's custom validation formula, AND(...) of comparisons, as Excel would."""
     import re

@@ -20,6 +20,7 @@ NAME = "finned-heatsink"
 SWEEP_ROWS = 20
 MIN_GAP = 0.002  # m: narrower gaps are not swept (impractical in still air; common practice)
 MAX_FINS = 200
+NO_SPREAD = "no correlation covers the case"
 
 DEFAULTS = dict(base_width=0.10, fin_height=0.035, fin_length=0.12, fin_thickness=0.0015, fin_count=12.0,
                 fin_k=200.0, emissivity=0.85, dissipation=25.0, ambient_t=35.0, max_base_t=85.0, altitude=0.0)
@@ -164,20 +165,23 @@ def build(b) -> None:
     def ref(k, col):
         return b.cell(sheet, start + k, col)
 
+    covered = "AND(count_gap>0, count_face>0)"
+
     def column(col, extreme):
         h, hf, mi, ei, ho, mo, eo, q = (ref(k, col) for k in range(8))
-        return [f'=IF(count_gap>0, h_gap*INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , '
-                f'fin_length/gap), 1, {extreme})/nu_gap, "{FAILED}")',
-                f'=IF(count_face>0, h_face*INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, {extreme})/nu_face, '
-                f'"{FAILED}")',
-                f"=SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"=TANH({mi}*fin_lc)/({mi}*fin_lc)",
-                f"=({h}+{hf})/2",
-                f"=SQRT({ho}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"=TANH({mo}*fin_lc)/({mo}*fin_lc)",
-                f"=((fin_count-2)*{ei}*{h}+2*{eo}*{ho})*fin_area*excess"
-                f"+(fin_count-1)*gap*fin_length*{h}*excess+q_rad",
-                f"=t_base+(dissipation-{q})/g_sink"]
+        rows = [f"SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
+                f"TANH({mi}*fin_lc)/({mi}*fin_lc)",
+                f"({h}+{hf})/2",
+                f"SQRT({ho}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
+                f"TANH({mo}*fin_lc)/({mo}*fin_lc)",
+                f"((fin_count-2)*{ei}*{h}+2*{eo}*{ho})*fin_area*excess+(fin_count-1)*gap*fin_length*{h}*excess"
+                "+q_rad"]
+        return ([f'=IF(count_gap>0, h_gap*INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , '
+                 f'fin_length/gap), 1, {extreme})/nu_gap, "{NO_SPREAD}")',
+                 f'=IF(count_face>0, h_face*INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, {extreme})/nu_face, '
+                 f'"{NO_SPREAD}")']
+                + [f'=IF({covered}, {row}, "-")' for row in rows]
+                + [f'=IF({covered}, t_base+(dissipation-{q})/g_sink, "{NO_SPREAD}")'])
 
     low, high = column(2, 1), column(3, 2)
     first, _, last, _ = b.table(sheet, ["quantity", "lowest Nu", "highest Nu"],
@@ -244,7 +248,8 @@ def build(b) -> None:
              "spread of the published correlations (see Notes)")
     b.result("res_t_base_hot", "Base temperature, correlation spread: highest", "=t_base_hot", "°C")
     b.result("res_check_hot", "Limit check at the top of the spread",
-             f'=IF(ISNUMBER(t_base_hot), IF(t_base_hot<=max_base_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")',
+             f'=IF(ISNUMBER(t_base_hot), IF(t_base_hot<=max_base_t, "OK", "EXCEEDS LIMIT"), '
+             f'IF(t_base_hot="{NO_SPREAD}", "{NO_SPREAD}: no spread", "{FAILED}"))',
              text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Heat split")
     b.result("res_q_fins", "Fins (convection)", "=q_fins", "W")
@@ -315,7 +320,8 @@ def build(b) -> None:
                 "spread is nil) and the outer-face coefficient likewise with the vertical-plate correlations, "
                 "re-computes the fins and the heat rejected at the solved base temperature, and moves the base "
                 "temperature by one Newton step (the heat missing or in excess divided by the sink's slope "
-                "dQ/dT): a first-order estimate, close for a spread of a few per cent.")
+                "dQ/dT): a first-order estimate, close for a spread of a few per cent. Where no correlation "
+                "covers the channels or the outer faces, the sheet says so instead of giving a spread.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Gaps between fins, Bar-Cohen and Rohsenow", "channel", "bar-cohen-rohsenow")
     b.cite("Gaps between fins, Elenbaas (in the spread)", "channel", "elenbaas")
