@@ -205,8 +205,8 @@ def build(b) -> None:
            f"=MAX(2, MIN(count_opt-{SWEEP_ROWS // 2 - 1}, count_max-{SWEEP_ROWS - 1}))", "fins",
            number_format="0")
     tables = "Tables"
-    b.section(tables, f"Fin-count sweep: {SWEEP_ROWS} whole counts around the thin-plate optimum, gaps of "
-                      f"{MIN_GAP * 1000:g} mm or more, everything else as on Inputs (HEATSINK_TBASE per row)")
+    b.section(tables, f"Fin-count sweep: {SWEEP_ROWS} whole counts around the thin-plate optimum, the rest "
+                      "as on Inputs")
     sweep_start = b.sheets[tables].row + 1
     rows = []
     for k in range(SWEEP_ROWS):
