@@ -684,6 +684,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             # the bracket ran past the gas data: the heat is more than the sink can reject there
             raise InputError(function_name, "q", q_i, "small enough that the base temperature stays "
                              f"inside the gas data ({error.allowed})") from None
-        notes[index] = rejected(out[index]).note
+        # a scalar solve carries its note as a 0-d array; the notes array holds plain text
+        notes[index] = str(np.asarray(rejected(out[index]).note).item())
     _warn_notes(function_name, notes == "", notes)
     return unwrap(out)

@@ -440,3 +440,13 @@ def test_heat_sink_out_of_range_note_is_reported():
     # a 2 m tall sink: Ra_L of the channel beyond the laminar bound
     with pytest.warns(CorrelationRangeWarning, match="heatsink_q: outside validity range: bar-cohen-rohsenow"):
         stillair.heatsink_q(90.0, 20.0, 0.3, 0.05, 2.0, 0.002, 4, 200.0, 0.8)
+
+
+def test_heatsink_tbase_outside_a_correlation_range_still_solves_and_warns():
+    # 1 m long fins put the channel's Ra_L past Bar-Cohen & Rohsenow's laminar bound (1e9): the
+    # base temperature is still solved, it inverts heatsink_q, and the note is reported.
+    args = (35.0, 0.1, 0.035, 1.0, 0.0015, 12, 200.0, 0.85)
+    with pytest.warns(stillair.CorrelationRangeWarning, match="Ra_L = .* above 1e\\+09"):
+        t_base = stillair.heatsink_tbase(400.0, *args)
+    with pytest.warns(stillair.CorrelationRangeWarning):
+        assert stillair.heatsink_q(t_base, *args) == pytest.approx(400.0, rel=1e-9)
