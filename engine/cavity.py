@@ -48,6 +48,9 @@ from .correlations import (
     nusselt,
     nusselt_value,
 )
+from numpy.typing import NDArray
+
+from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
 __all__ = ["nu_cavity", "cavity_method", "cavity_critical_tilt", "tilt_from_vertical",
@@ -82,7 +85,7 @@ RAYLEIGH_ONSET = 1708.0  # Ra cos(tilt) at the onset of Benard cells (rigid wall
 CONDUCTION_VERTICAL_RA = 1e3  # vertical-layer conduction regime: ElSherbiny Nu_ct - 1 < 1e-4
 
 
-def cavity_critical_tilt(aspect):
+def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
     """Critical tilt t* (deg from horizontal) of a layer of aspect H/L, from Incropera Table 9.3.
 
     Linear interpolation in the table for 1 <= H/L <= 12; the table's "> 12" row (70 deg) is
@@ -98,6 +101,12 @@ def cavity_critical_tilt(aspect):
     -------
     float or ndarray
         t* in degrees from the horizontal.
+
+    Notes
+    -----
+    Source: Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., Table 9.3
+    (critical tilts of inclined cavities, after Hollands and Catton).  Valid for any
+    H/L > 0, the table's ends held as described above.
 
     Examples
     --------
@@ -547,7 +556,8 @@ def conduction(ra, pr, aspect, tilt):
 
 # --- public API --------------------------------------------------------------------------------
 
-def nu_cavity(ra, pr, aspect, tilt=90.0, method="auto"):
+def nu_cavity(ra: ArrayLike, pr: ArrayLike, aspect: ArrayLike, tilt: ArrayLike = 90.0,
+              method: str = "auto") -> FloatOrArray:
     """Nusselt number (on the gap) of an enclosed gas layer.
 
     ``ra`` on the gap, ``aspect`` = height/gap, ``tilt`` in deg from the horizontal (0 heated from
@@ -560,7 +570,8 @@ def nu_cavity(ra, pr, aspect, tilt=90.0, method="auto"):
                          ra=ra, pr=pr, aspect=aspect, tilt=tilt)
 
 
-def cavity_method(ra, pr, aspect, tilt=90.0, method="auto"):
+def cavity_method(ra: ArrayLike, pr: ArrayLike, aspect: ArrayLike, tilt: ArrayLike = 90.0,
+                  method: str = "auto") -> str | NDArray[np.object_]:
     """The method name(s) that ``nu_cavity`` uses for these inputs (auto's choice, per element)."""
     result = nusselt("cavity", method, function_name="cavity_method",
                      ra=ra, pr=pr, aspect=aspect, tilt=tilt)

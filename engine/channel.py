@@ -253,7 +253,58 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
 
     Properties at the film temperature (ts + tf)/2 (or ``property_temperature``).  ``ra`` of
     the result is the Rayleigh number the correlation saw: Ra_S for the isothermal cases, Ra*_S
-    for the flux cases.  Arguments as for :func:`h_channel`.
+    for the flux cases.
+
+    Parameters
+    ----------
+    ts : float or array
+        Wall temperature in °C; for the flux cases the wall temperature at the top of the
+        channel (the maximum).
+    tf : float or array
+        Temperature of the still air around the channel (entering at the bottom) in °C.
+    spacing : float or array
+        Gap S between the plates in m (> 0).
+    height : float or array
+        Plate height L in m along the flow (> 0).
+    case : str, default "isothermal"
+        "isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic".
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : float or array, default 101325
+        Absolute pressure in Pa.
+    method : str, default "auto"
+        "auto", "bar-cohen-rohsenow" or "elenbaas".
+    property_temperature : float or array, optional
+        Temperature in °C at which to take the gas properties instead of (ts + tf)/2.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T instead of the real gas's.
+    function_name : str, default "h_channel"
+        The name error messages and range notes are given under.
+
+    Returns
+    -------
+    ConvectionResult
+        h in W/(m²·K) per unit area of heated wall with Nu_S, Ra (see above), Gr, Pr, the film
+        temperature, the conductivity, the length S, the method, the case and the range note,
+        as arrays of the broadcast shape (``.scalar()`` for floats).
+
+    Raises
+    ------
+    InputError
+        An unknown case, gas or method; a spacing or height that is not positive; a temperature
+        outside the gas's range.
+
+    Notes
+    -----
+    h = Nu_S k / S with Nu_S from :func:`nu_channel` (the correlation registry's channel methods,
+    with their sources and validity in its docstring).  For the flux cases ts - tf is the
+    top-of-channel temperature difference and Ra*_S = Ra_S Nu_S, solved for Nu_S.
+
+    Examples
+    --------
+    >>> result = channel_convection(80.0, 30.0, 0.00745, 0.18).scalar()
+    >>> round(result.h, 1), result.method
+    (4.9, 'bar-cohen-rohsenow')
     """
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
     spacing = require_positive(function_name, "spacing", spacing, "m")
@@ -303,8 +354,10 @@ def h_channel(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLik
         Plate height L in m along the flow (> 0).
     case : str
         "isothermal" (default), "isothermal-adiabatic", "flux", "flux-adiabatic".
-    gas, pressure
-        Gas name or mixture; absolute pressure in Pa.
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : float or array, default 101325
+        Absolute pressure in Pa.
     method : str
         "auto", "bar-cohen-rohsenow" or "elenbaas".
 
@@ -384,8 +437,10 @@ def channel_spacing(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, case: str =
         "array" (default): the spacing that rejects the most heat from a fixed width of thin
         plates (maximum of h/S); "plate": the spacing where h reaches 99 % of the isolated-plate
         value (wider gaps gain less than 1 %).
-    gas, pressure
-        Gas and absolute pressure in Pa; properties at the film temperature (ts + tf)/2.
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : float or array, default 101325
+        Absolute pressure in Pa; properties at the film temperature (ts + tf)/2.
 
     Returns
     -------
@@ -465,10 +520,8 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
 
     Parameters
     ----------
-    t_base, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity,
-    emissivity, gas, pressure, tip
-        As for :func:`heatsink_q` (°C, m, W/(m·K), Pa); arrays broadcast.
-    function_name : str
+{heatsink_parameters}
+    function_name : str, default "heatsink"
         The name error messages start with.
 
     Returns
@@ -577,31 +630,17 @@ def heatsink_q(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, f
 
     Parameters
     ----------
-    t_base, t_ambient : float or array
-        Base and ambient air temperatures in °C.
-    base_width : float or array
-        Width W of the base across the fins in m.
-    fin_height : float or array
-        Height H of each fin from the base to its tip in m.
-    fin_length : float or array
-        Length L of the fins along the (vertical) flow in m.
-    fin_thickness : float or array
-        Fin thickness t in m.
-    fin_count : int or array
-        Number of fins N (whole number >= 2, N t < W).
-    conductivity : float or array
-        Fin conductivity in W/(m·K) (aluminium alloys about 150 to 220).
-    emissivity : float or array
-        Emissivity of the sink's surface, 0 to 1 (anodised about 0.8, bare aluminium 0.05-0.1).
-    gas, pressure
-        Gas and absolute pressure in Pa.
-    tip : str
-        "corrected" (default) or "adiabatic" fin tip.
+{heatsink_parameters}
 
     Returns
     -------
     float or array
         Heat rejected in W (fins + exposed base + radiation).
+
+    Notes
+    -----
+    The model, its sources (Bar-Cohen and Rohsenow channels, fin efficiency, grey-cavity
+    radiation) and its limits are described in :func:`heatsink`.
 
     Examples
     --------
@@ -628,9 +667,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     ----------
     q : float or array
         Heat to reject in W (>= 0).
-    t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, gas, pressure, tip
-        As for :func:`heatsink_q`.
-
+{heatsink_parameters_after_t_base}
     Returns
     -------
     float or array
@@ -641,6 +678,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     Solves heatsink_q(t_base, ...) = q for t_base with scipy's brentq (the heat rejected rises
     monotonically with the base temperature); the bracket starts at t_ambient and doubles until
     it holds q (at most 2000 K above ambient).  Array inputs are solved element by element.
+    The model and its sources are described in :func:`heatsink`.
 
     Examples
     --------
@@ -688,3 +726,34 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
         notes[index] = str(np.asarray(rejected(out[index]).note).item())
     _warn_notes(function_name, notes == "", notes)
     return unwrap(out)
+
+
+# The heat-sink functions share their parameters; their docstrings list them from one place.
+_HEATSINK_PARAMETERS = """    t_base : float or array
+        Temperature of the base in °C.
+    t_ambient : float or array
+        Temperature of the still ambient air and of the surroundings in °C.
+    base_width : float or array
+        Width W of the base across the fins in m.
+    fin_height : float or array
+        Height H of each fin from the base to its tip in m.
+    fin_length : float or array
+        Length L of the fins along the (vertical) flow in m.
+    fin_thickness : float or array
+        Fin thickness t in m.
+    fin_count : int or array
+        Number of fins N (whole number >= 2, N t < W).
+    conductivity : float or array
+        Fin conductivity in W/(m·K) (aluminium alloys about 150 to 220).
+    emissivity : float or array
+        Emissivity of the sink's surface, 0 to 1 (anodised about 0.8, bare aluminium 0.05-0.1).
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : float or array, default 101325
+        Absolute pressure in Pa.
+    tip : str, default "corrected"
+        "corrected" or "adiabatic" fin tip."""
+for _function in (heatsink, heatsink_q, heatsink_tbase):
+    _function.__doc__ = _function.__doc__.replace("{heatsink_parameters}", _HEATSINK_PARAMETERS).replace(
+        "{heatsink_parameters_after_t_base}", _HEATSINK_PARAMETERS.split("\n", 2)[2])
+del _function

@@ -26,6 +26,8 @@ import numpy as np
 from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
+from ._typing import ArrayLike, FloatOrArray
+from .correlations import Geometry
 from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
                        require_positive, unwrap)
 
@@ -92,15 +94,72 @@ def _full(array, shape):
     return array if array.shape == shape else np.broadcast_to(array, shape)
 
 
-def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, tilt=None, diameter=None,
-                       gas="air", pressure=DEFAULT_PRESSURE, method="auto", property_temperature=None,
-                       ideal_expansion=False, function_name=None) -> ConvectionResult:
+def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike, *,
+                       facing: str | None = None, tilt: ArrayLike | None = None,
+                       diameter: ArrayLike | None = None, gas: str = "air",
+                       pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
+                       property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
+                       function_name: str | None = None) -> ConvectionResult:
     """Convection from a surface at ``t_surface`` to still fluid at ``t_fluid`` (°C).
 
-    ``geometry`` is one of vplate, hplate, tplate, hcyl, sphere, vcyl; ``length`` is the
-    geometry's length (height, area/perimeter or diameter).  ``facing`` ("up"/"down") is needed
-    for horizontal and tilted plates, ``tilt`` (degrees from vertical) for tilted plates and
-    ``diameter`` for vertical cylinders.
+    Parameters
+    ----------
+    geometry : str
+        One of "vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl" (the external geometries
+        :func:`convection_geometries` lists).
+    t_surface : array_like
+        Surface temperature in °C, inside the gas's range.
+    t_fluid : array_like
+        Temperature of the still fluid far from the surface in °C.
+    length : array_like
+        The geometry's length in m: the height (vplate, vcyl), area/perimeter (hplate), the
+        length along the slope (tplate) or the diameter (hcyl, sphere); > 0.
+    facing : str, optional
+        "up" or "down": the direction the face looks; needed for hplate and tplate.
+    tilt : array_like, optional
+        Tilt of the plate from the vertical in degrees; needed for tplate.
+    diameter : array_like, optional
+        Diameter in m of a vertical cylinder; needed for vcyl.
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    method : str, default "auto"
+        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    property_temperature : array_like, optional
+        Temperature in °C at which to take the gas properties instead of the film (mean)
+        temperature, to reproduce a constant-property hand calculation.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
+        the real gas's.
+    function_name : str, optional
+        The name error messages and range notes are given under (the caller's cell function).
+
+    Returns
+    -------
+    ConvectionResult
+        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
+        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
+        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
+
+    Raises
+    ------
+    InputError
+        A value that is not finite, a length that is not positive, an unknown geometry, gas,
+        facing or method, or a temperature outside the gas's range.
+
+    Notes
+    -----
+    Gr = g beta |Ts - Tf| L^3 / nu^2 and Ra = Gr Pr with the gas properties at the film
+    temperature (:func:`stillair.film_properties`); Nu from the correlation registry
+    (:func:`stillair.nusselt`; each method's source and validity in the ``nu_<geometry>``
+    docstrings); h = Nu k / L.  Out-of-range inputs are reported in ``note``, not raised.
+
+    Examples
+    --------
+    >>> result = surface_convection("vplate", 60.0, 20.0, 0.5)
+    >>> round(float(result.h), 2), str(result.method)
+    (5.0, 'churchill-chu')
     """
     function_name = function_name or f"h_{geometry}"
     geo = GEOMETRIES[geometry]
@@ -156,12 +215,63 @@ def surface_convection(geometry, t_surface, t_fluid, length, *, facing=None, til
                             in_range=result.in_range, note=result.note, blend=result.blend)
 
 
-def cavity_convection(t1, t2, gap, height, *, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
-                      property_temperature=None, ideal_expansion=False,
-                      function_name="h_cavity") -> ConvectionResult:
+def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: ArrayLike, *,
+                      tilt: ArrayLike = 90.0, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+                      method: str = "auto", property_temperature: ArrayLike | None = None,
+                      ideal_expansion: bool = False, function_name: str = "h_cavity") -> ConvectionResult:
     """Convection across a closed gas layer between surfaces at t1 (underside) and t2 (°C).
 
-    h = Nu k / gap is the coefficient of q = h (t1 - t2) per unit area of the layer.
+    Parameters
+    ----------
+    t1 : array_like
+        Temperature in °C of the layer's underside face (the left face of a vertical layer).
+    t2 : array_like
+        Temperature in °C of the other face.
+    gap : array_like
+        Width of the layer between the faces in m, > 0.
+    height : array_like
+        Height of the layer in m (its extent along the faces, up the slope), > 0.
+    tilt : array_like, default 90
+        Tilt from the horizontal in degrees: 0 heated from below, 90 vertical, 180 heated from
+        above (when t1 < t2 the layer is turned over: 180 - tilt).
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    method : str, default "auto"
+        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    property_temperature : array_like, optional
+        Temperature in °C at which to take the gas properties instead of the film (mean)
+        temperature, to reproduce a constant-property hand calculation.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
+        the real gas's.
+    function_name : str, optional
+        The name error messages and range notes are given under (the caller's cell function).
+
+    Returns
+    -------
+    ConvectionResult
+        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
+        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
+        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
+
+    Raises
+    ------
+    InputError
+        A value that is not finite, a length that is not positive, an unknown geometry, gas,
+        facing or method, or a temperature outside the gas's range.
+
+    Notes
+    -----
+    Ra on the gap with the properties at the film temperature, Nu from the cavity
+    correlations of the registry (see :func:`stillair.nu_cavity` for every method's source and
+    validity), h = Nu k / gap: the coefficient of q = h (t1 - t2) per unit area of the layer.
+
+    Examples
+    --------
+    >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
+    1.645
     """
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
             and type(tilt) in _PLAIN and 0.0 <= tilt <= 180.0:
@@ -220,7 +330,7 @@ def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionRes
                             in_range=result.in_range, note=result.note, blend=result.blend)
 
 
-def convection_geometries() -> tuple:
+def convection_geometries() -> tuple[Geometry, ...]:
     """Every convection geometry (:class:`~stillair.correlations.Geometry`), in definition order.
 
     Each carries what a caller needs to offer it: ``name``, ``title``, ``parameters`` (the
@@ -230,6 +340,18 @@ def convection_geometries() -> tuple:
 
     A geometry that defines no ``parameters`` is not listed.
 
+    Returns
+    -------
+    tuple of Geometry
+        The geometries of :func:`geometry_convection`, read from the correlation registry.
+
+    Notes
+    -----
+    The geometries are those defined in the registry (:data:`stillair.GEOMETRIES`); their
+    methods' sources and validity are in the ``nu_<geometry>`` docstrings.
+
+    Examples
+    --------
     >>> [g.name for g in convection_geometries()]
     ['vplate', 'hplate', 'tplate', 'hcyl', 'sphere', 'vcyl', 'cavity', 'channel']
     """
@@ -246,9 +368,10 @@ def _h_cavity_call(t1, t2, *, gap, height, tilt, **common) -> ConvectionResult:
 ONE_CALLS: dict = {"cavity": _h_cavity_call}
 
 
-def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PRESSURE, method="auto",
-               property_temperature=None, ideal_expansion=False, function_name=None,
-               **parameters) -> ConvectionResult:
+def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str = "air",
+                        pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
+                        property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
+                        function_name: str | None = None, **parameters: ArrayLike | str) -> ConvectionResult:
     """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
 
     ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
@@ -256,6 +379,53 @@ def geometry_convection(geometry: str, t1, t2, *, gas="air", pressure=DEFAULT_PR
     :class:`~stillair.InputError`.  This is :func:`surface_convection` or
     :func:`cavity_convection` with the arguments read from the geometry's data.
 
+    Parameters
+    ----------
+    geometry : str
+        A name from :func:`convection_geometries`.
+    t1 : array_like
+        Surface temperature (the cavity's underside face) in °C.
+    t2 : array_like
+        Fluid temperature (the cavity's other face) in °C.
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    method : str, default "auto"
+        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    property_temperature : array_like, optional
+        Temperature in °C at which to take the gas properties instead of the film (mean)
+        temperature, to reproduce a constant-property hand calculation.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
+        the real gas's.
+    function_name : str, optional
+        The name error messages and range notes are given under (the caller's cell function).
+    parameters : array_like or str
+        The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
+        ``diameter``, ``gap`` ... as ``geometry.parameters`` lists them, lengths in m, angles
+        in degrees).
+
+    Returns
+    -------
+    ConvectionResult
+        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
+        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
+        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
+
+    Raises
+    ------
+    InputError
+        A value that is not finite, a length that is not positive, an unknown geometry, gas,
+        facing or method, or a temperature outside the gas's range.
+
+    Notes
+    -----
+    As :func:`surface_convection` (h = Nu k / L) and :func:`cavity_convection` (h = Nu k / gap);
+    each method's source and validity are in the ``nu_<geometry>`` docstrings.
+
+    Examples
+    --------
     >>> round(float(geometry_convection("vcyl", 60.0, 20.0, height=0.5, diameter=0.05).h), 2)
     5.6
     """
@@ -290,43 +460,57 @@ def _h_only(result: ConvectionResult, function_name: str):
     return unwrap(result.h)
 
 
-def h_vplate(ts, tf, height, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_vplate(ts: ArrayLike, tf: ArrayLike, height: ArrayLike,
+             gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+             method: str = "auto") -> FloatOrArray:
     """h of a vertical plate of ``height`` (m) at ts in still gas at tf (°C)."""
     return _h_only(surface_convection("vplate", ts, tf, height, gas=gas, pressure=pressure, method=method,
                                       function_name="h_vplate"), "h_vplate")
 
 
-def h_hplate(ts, tf, length, facing, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_hplate(ts: ArrayLike, tf: ArrayLike, length: ArrayLike, facing: str,
+             gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+             method: str = "auto") -> FloatOrArray:
     """h of a horizontal plate, ``length`` = area/perimeter (m), face looking "up" or "down"."""
     return _h_only(surface_convection("hplate", ts, tf, length, facing=facing, gas=gas, pressure=pressure,
                                       method=method, function_name="h_hplate"), "h_hplate")
 
 
-def h_tplate(ts, tf, length, tilt, facing, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_tplate(ts: ArrayLike, tf: ArrayLike, length: ArrayLike, tilt: ArrayLike,
+             facing: str, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+             method: str = "auto") -> FloatOrArray:
     """h of a plate tilted ``tilt`` degrees from vertical, face looking "up" or "down"."""
     return _h_only(surface_convection("tplate", ts, tf, length, facing=facing, tilt=tilt, gas=gas,
                                       pressure=pressure, method=method, function_name="h_tplate"), "h_tplate")
 
 
-def h_hcyl(ts, tf, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_hcyl(ts: ArrayLike, tf: ArrayLike, diameter: ArrayLike,
+           gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+           method: str = "auto") -> FloatOrArray:
     """h of a long horizontal cylinder (pipe) of outside ``diameter`` (m)."""
     return _h_only(surface_convection("hcyl", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
                                       function_name="h_hcyl"), "h_hcyl")
 
 
-def h_sphere(ts, tf, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_sphere(ts: ArrayLike, tf: ArrayLike, diameter: ArrayLike,
+             gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+             method: str = "auto") -> FloatOrArray:
     """h of a sphere of ``diameter`` (m)."""
     return _h_only(surface_convection("sphere", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
                                       function_name="h_sphere"), "h_sphere")
 
 
-def h_vcyl(ts, tf, height, diameter, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_vcyl(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, diameter: ArrayLike,
+           gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+           method: str = "auto") -> FloatOrArray:
     """h of a vertical cylinder of ``height`` and ``diameter`` (m), Ra on the height."""
     return _h_only(surface_convection("vcyl", ts, tf, height, diameter=diameter, gas=gas, pressure=pressure,
                                       method=method, function_name="h_vcyl"), "h_vcyl")
 
 
-def h_cavity(t1, t2, gap, height, tilt=90.0, gas="air", pressure=DEFAULT_PRESSURE, method="auto"):
+def h_cavity(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: ArrayLike,
+             tilt: ArrayLike = 90.0, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
+             method: str = "auto") -> FloatOrArray:
     """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
     return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
                                      function_name="h_cavity"), "h_cavity")

@@ -40,6 +40,7 @@ from typing import Callable, Mapping, Sequence
 
 import numpy as np
 
+from ._typing import ArrayLike
 from .validity import (
     CorrelationRangeWarning,
     InputError,
@@ -342,7 +343,32 @@ _METHODS_CACHE: dict[tuple[str, str | None], list[str]] = {}
 
 
 def methods_for(geometry: str, case: str | None = None) -> list[str]:
-    """Method names registered for a geometry (and case), in registration order."""
+    """Method names registered for a geometry (and case), in registration order.
+
+    Parameters
+    ----------
+    geometry : str
+        A geometry name of the registry (a key of :data:`GEOMETRIES`: "vplate", "cavity" ...).
+    case : str, optional
+        For plate geometries, "hot-up", "hot-down", "cold-up" or "cold-down": only the methods
+        that serve that case.  None (the default) lists every method.
+
+    Returns
+    -------
+    list of str
+        The method names, as accepted by the ``method`` argument of the ``nu_*`` and ``h_*``
+        functions (besides "auto").
+
+    Notes
+    -----
+    Read from the correlation registry (:data:`CORRELATIONS`); each method's source, equation and
+    validity are in its :class:`Correlation` and in the ``nu_<geometry>`` docstrings.
+
+    Examples
+    --------
+    >>> methods_for("hplate", "hot-up")
+    ['lloyd-moran', 'mcadams']
+    """
     key = (geometry, case)
     if key not in _METHODS_CACHE:
         _METHODS_CACHE[key] = [c.method for (g, _), c in CORRELATIONS.items()
@@ -351,6 +377,39 @@ def methods_for(geometry: str, case: str | None = None) -> list[str]:
 
 
 def get_correlation(geometry: str, method: str) -> Correlation:
+    """The registered correlation of ``geometry`` named ``method``, with its source and ranges.
+
+    Parameters
+    ----------
+    geometry : str
+        A geometry name of the registry (a key of :data:`GEOMETRIES`).
+    method : str
+        A method name of that geometry (see :func:`methods_for`).
+
+    Returns
+    -------
+    Correlation
+        Its ``title``, ``source``, ``equation``, ``validity`` (published ranges), ``cases``,
+        ``notes`` and the vectorised ``function``.
+
+    Raises
+    ------
+    KeyError
+        No such geometry and method in the registry.
+
+    Notes
+    -----
+    Read from the correlation registry (:data:`CORRELATIONS`), where each correlation is
+    registered once, beside its code, with its source and validity.
+
+    Examples
+    --------
+    >>> corr = get_correlation("hcyl", "churchill-chu")
+    >>> corr.title
+    'Churchill and Chu, horizontal cylinder'
+    >>> [(r.quantity, r.low, r.high) for r in corr.validity]
+    [('Ra', 1e-05, 1000000000000.0)]
+    """
     try:
         return CORRELATIONS[(geometry, method)]
     except KeyError:
@@ -392,12 +451,57 @@ def _resolve_method(function_name: str, geometry: Geometry, method, case) -> str
 
 def nusselt(geometry: str, method: str | None = "auto", case: str | None = None, *,
             function_name: str | None = None, warn: bool = False, notes: bool = True,
-            **inputs) -> NusseltResult:
+            **inputs: ArrayLike) -> NusseltResult:
     """Evaluate Nu for ``geometry`` by ``method`` (or "auto") with full validity information.
 
     This never raises for inputs outside a correlation's range (that is a note), only for
     inputs no correlation can take (negative Ra, unknown case, unknown method).  With
     ``warn=True`` a :class:`CorrelationRangeWarning` is issued listing every note.
+
+    Parameters
+    ----------
+    geometry : str
+        A geometry name of the registry (a key of :data:`GEOMETRIES`: "vplate", "hplate",
+        "tplate", "hcyl", "sphere", "vcyl", "cavity", "channel").
+    method : str or None, default "auto"
+        A method of the geometry (see :func:`methods_for`), or "auto" / None for the geometry's
+        auto rule.
+    case : str, optional
+        For plate geometries, "hot-up", "hot-down", "cold-up" or "cold-down"; required there.
+    function_name : str, optional
+        The name error messages and notes are given under; default ``nu_<geometry>``.
+    warn : bool, default False
+        Issue a :class:`CorrelationRangeWarning` when any input is out of range.
+    notes : bool, default True
+        Word the range notes; False leaves ``note`` empty (``in_range`` is still computed),
+        which is faster for large arrays.
+    inputs : array_like
+        The geometry's inputs by name (dimensionless): ``ra``, ``pr`` and, as the geometry
+        needs them, ``tilt`` (deg), ``aspect``, ``slenderness``; arrays broadcast.
+
+    Returns
+    -------
+    NusseltResult
+        ``nu`` (-), ``method`` (the method used, per element), ``in_range``, ``note`` (the
+        bounds crossed, "" in range) and ``blend`` (the methods auto weighed, if several),
+        arrays of the broadcast shape.
+
+    Raises
+    ------
+    InputError
+        Ra < 0, Pr <= 0, an unknown case or method, a missing input.
+
+    Notes
+    -----
+    Each method's equation, source and validity are registered with it (:data:`CORRELATIONS`)
+    and listed in the Notes of the ``nu_<geometry>`` function; "auto" follows the geometry's
+    auto rule (:attr:`Geometry.description`).
+
+    Examples
+    --------
+    >>> result = nusselt("hplate", "auto", "hot-up", ra=1e12, pr=0.71)
+    >>> bool(result.in_range), str(result.note)
+    (False, 'lloyd-moran: Ra = 1e+12 above 1e+11 (valid 10000 <= Ra <= 1e+11)')
     """
     geo = GEOMETRIES[geometry]
     function_name = function_name or f"nu_{geometry}"
@@ -693,17 +797,20 @@ class NusseltSpread:
         return np.vectorize(lambda m: " < ".join(m), otypes=[object])(self.methods)
 
 
-def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspect=None,
-              slenderness=None, function_name: str = "nu_spread") -> NusseltSpread:
+def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None = None,
+              tilt: ArrayLike | None = None, aspect: ArrayLike | None = None,
+              slenderness: ArrayLike | None = None, function_name: str = "nu_spread") -> NusseltSpread:
     """Lowest and highest Nu among every registered correlation of ``geometry`` whose published
     validity ranges cover the case (with the geometry's floor applied, as ``nusselt`` does).
 
     Parameters
     ----------
     geometry : {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity", "channel"}
-    ra, pr : array_like
-        Rayleigh number on the geometry's own length (>= 0; Ra*_S for a channel's flux cases)
-        and Prandtl number (> 0).
+        The geometry, a name of the registry.
+    ra : array_like
+        Rayleigh number on the geometry's own length (-), >= 0 (Ra*_S for a channel's flux cases).
+    pr : array_like
+        Prandtl number (-), > 0.
     case : str, optional
         Plate case for hplate and tplate ("hot-up", "hot-down", "cold-up", "cold-down"); the
         walls of a channel ("isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic").
@@ -713,6 +820,8 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
         Cavity height/gap; channel height/spacing.
     slenderness : array_like, optional
         Vertical cylinder height/diameter.
+    function_name : str, default "nu_spread"
+        The name error messages are given under.
 
     Returns
     -------
@@ -720,6 +829,12 @@ def nu_spread(geometry: str, ra, pr, *, case: str | None = None, tilt=None, aspe
         ``.low``, ``.high`` (floats for scalar input; NaN where ``.count`` is 0), ``.count``
         and ``.methods`` (covering methods, ascending Nu).  Where "auto" is in range, its value
         lies between ``low`` and ``high``.
+
+    Notes
+    -----
+    Every method of :func:`methods_for` is evaluated and kept where its published ranges (the
+    registry's, as listed in the ``nu_<geometry>`` docstrings with their sources) cover the
+    inputs.  The spread of published correlations, not a confidence interval.
 
     Examples
     --------

@@ -30,6 +30,7 @@ from .correlations import (
     nusselt_parameters,
     nusselt_value,
 )
+from ._typing import ArrayLike, FloatOrArray
 from .validity import Range
 
 __all__ = ["nu_vplate", "nu_hplate", "nu_tplate", "nu_hcyl", "nu_sphere", "nu_vcyl"]
@@ -97,7 +98,7 @@ def _vplate_mcadams(ra, pr):
     return _power_bands(ra, (1e9,), (0.59, 0.10), (0.25, 1.0 / 3.0))
 
 
-def nu_vplate(ra, pr, method="auto"):
+def nu_vplate(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a vertical plate (Ra on its height), by ``method`` or "auto".
 
     Methods: churchill-chu (default), churchill-chu-laminar, mcadams.
@@ -194,7 +195,7 @@ def _hplate_mcadams(ra, pr, case):
     return nu_side / _MCADAMS_SIDE_PER_LENGTH
 
 
-def nu_hplate(ra, pr, case, method="auto"):
+def nu_hplate(ra: ArrayLike, pr: ArrayLike, case: str, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a horizontal plate (Ra on area/perimeter) for ``case``.
 
     ``case``: "hot-up", "hot-down", "cold-up", "cold-down".  Methods: lloyd-moran (hot-up,
@@ -261,7 +262,8 @@ def _tplate_raithby_hollands(ra, pr, tilt, case):
     return np.maximum(along_slope, normal_to_face)
 
 
-def nu_tplate(ra, pr, tilt, case, method="auto"):
+def nu_tplate(ra: ArrayLike, pr: ArrayLike, tilt: ArrayLike, case: str,
+              method: str = "auto") -> FloatOrArray:
     """Nusselt number of a plate tilted ``tilt`` degrees from the vertical, for ``case``.
 
     ``case``: "hot-up", "hot-down", "cold-up", "cold-down" (the face's direction and whether it
@@ -314,7 +316,7 @@ def _hcyl_morgan(ra, pr):
     return _power_bands(ra, _MORGAN_EDGES, _MORGAN_C, _MORGAN_N)
 
 
-def nu_hcyl(ra, pr, method="auto"):
+def nu_hcyl(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a long horizontal cylinder (Ra on the diameter).
 
     Methods: churchill-chu (default), morgan.
@@ -345,7 +347,7 @@ def _sphere_churchill(ra, pr):
     return 2.0 + 0.589 * ra ** 0.25 / _churchill_pr_factor(pr, 0.469, 4.0 / 9.0)
 
 
-def nu_sphere(ra, pr, method="auto"):
+def nu_sphere(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a sphere (Ra on the diameter).  Method: churchill."""
     return nusselt_value("sphere", method, function_name="nu_sphere", ra=ra, pr=pr)
 
@@ -406,7 +408,7 @@ def _vcyl_popiel(ra, pr, slenderness):
     return _vplate_churchill_chu(ra, pr) * (1.0 + b * curvature ** c)
 
 
-def nu_vcyl(ra, pr, slenderness, method="auto"):
+def nu_vcyl(ra: ArrayLike, pr: ArrayLike, slenderness: ArrayLike, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a vertical cylinder (Ra on the height; slenderness = height/diameter).
 
     Methods: churchill-chu (the plate result, for thick cylinders), popiel (slender cylinders).

@@ -15,7 +15,8 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY, zero_Celsius
 
-from .gases import gas_properties, require_gas_temperature
+from ._typing import ArrayLike, FloatOrArray
+from .gases import GasProperties, gas_properties, require_gas_temperature
 from .validity import require_positive, unwrap
 
 __all__ = ["STANDARD_GRAVITY", "grashof", "rayleigh", "film_properties", "buoyancy_groups"]
@@ -23,13 +24,60 @@ __all__ = ["STANDARD_GRAVITY", "grashof", "rayleigh", "film_properties", "buoyan
 DEFAULT_PRESSURE = 101325.0
 
 
-def film_properties(t1, t2, gas="air", pressure=DEFAULT_PRESSURE, *, property_temperature=None,
-                    ideal_expansion=False, function_name="film_properties", names=("t1", "t2")):
+def film_properties(t1: ArrayLike, t2: ArrayLike, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE, *,
+                    property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
+                    function_name: str = "film_properties", names: tuple[str, str] = ("t1", "t2"),
+                    ) -> tuple[GasProperties, np.ndarray, np.ndarray]:
     """Gas properties at the film temperature (or at ``property_temperature``), and that
     temperature.  With ``ideal_expansion`` the expansion coefficient is replaced by 1/T.
 
     Each temperature is checked as typed (finite, above absolute zero, inside the gas's range),
     under its own name: ``names`` are the caller's names of t1 and t2 ("ts", "tf" for a surface).
+
+    Parameters
+    ----------
+    t1 : array_like
+        First temperature (the surface) in °C.
+    t2 : array_like
+        Second temperature (the fluid or the other face) in °C.
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    property_temperature : array_like, optional
+        Temperature in °C at which to take the properties instead of (t1 + t2)/2.
+    ideal_expansion : bool, default False
+        Replace the real gas's expansion coefficient by the ideal-gas 1/T (T in K).
+    function_name : str, default "film_properties"
+        The name error messages are given under.
+    names : tuple of str, default ("t1", "t2")
+        The caller's names of t1 and t2 in error messages.
+
+    Returns
+    -------
+    properties : GasProperties
+        The gas's properties at the property temperature (SI units, see :class:`GasProperties`).
+    t_film : numpy.ndarray
+        The temperature in °C the properties were taken at.
+    expansion : numpy.ndarray
+        The expansion coefficient beta in 1/K used for the buoyancy groups.
+
+    Raises
+    ------
+    InputError
+        A temperature not finite, below absolute zero or outside the gas's range; an unknown gas.
+
+    Notes
+    -----
+    Film temperature Tf = (T1 + T2)/2, common practice for natural convection (e.g. Incropera et
+    al., Fundamentals of Heat and Mass Transfer, 6th ed., sec. 9.6); properties from
+    :func:`gas_properties` (CoolProp), beta real-gas or 1/T.  Valid inside the gas's range.
+
+    Examples
+    --------
+    >>> props, t_film, beta = film_properties(40.0, 20.0)
+    >>> float(t_film), round(float(props.prandtl), 3)
+    (30.0, 0.707)
     """
     t1 = require_gas_temperature(function_name, names[0], t1, gas)
     t2 = require_gas_temperature(function_name, names[1], t2, gas)
@@ -57,11 +105,89 @@ def _groups(function_name, t1, t2, length, gas, pressure, ideal_expansion):
     return buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)
 
 
-def grashof(t1, t2, length, gas="air", pressure=DEFAULT_PRESSURE, ideal_expansion=False):
-    """Grashof number between temperatures t1 and t2 (°C) over ``length`` (m)."""
+def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
+            pressure: ArrayLike = DEFAULT_PRESSURE, ideal_expansion: bool = False) -> FloatOrArray:
+    """Grashof number between temperatures t1 and t2 (°C) over ``length`` (m).
+
+    Parameters
+    ----------
+    t1 : array_like
+        First temperature (the surface) in °C.
+    t2 : array_like
+        Second temperature (the fluid or the other face) in °C.
+    length : array_like
+        Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The Grashof number (-), >= 0: a float for scalar inputs, an array of the broadcast shape
+        otherwise.
+
+    Raises
+    ------
+    InputError
+        A length that is not positive, a temperature outside the gas's range, an unknown gas.
+
+    Notes
+    -----
+    Gr = g beta |T1 - T2| L^3 / nu^2, g = 9.80665 m/s², properties at the film temperature (T1 + T2)/2 (see
+    :func:`film_properties`); the definitions of Incropera et al., Fundamentals of Heat and
+    Mass Transfer, 6th ed., chapter 9.  Valid wherever the gas properties are.
+
+    Examples
+    --------
+    >>> round(grashof(40.0, 20.0, 0.5))
+    314929635
+    """
     return unwrap(_groups("grashof", t1, t2, length, gas, pressure, ideal_expansion)[0])
 
 
-def rayleigh(t1, t2, length, gas="air", pressure=DEFAULT_PRESSURE, ideal_expansion=False):
-    """Rayleigh number between temperatures t1 and t2 (°C) over ``length`` (m)."""
+def rayleigh(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
+             pressure: ArrayLike = DEFAULT_PRESSURE, ideal_expansion: bool = False) -> FloatOrArray:
+    """Rayleigh number between temperatures t1 and t2 (°C) over ``length`` (m).
+
+    Parameters
+    ----------
+    t1 : array_like
+        First temperature (the surface) in °C.
+    t2 : array_like
+        Second temperature (the fluid or the other face) in °C.
+    length : array_like
+        Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
+    gas : str, default "air"
+        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
+    pressure : array_like, default 101325
+        Absolute pressure in Pa.
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The Rayleigh number (-), >= 0: a float for scalar inputs, an array of the broadcast shape
+        otherwise.
+
+    Raises
+    ------
+    InputError
+        A length that is not positive, a temperature outside the gas's range, an unknown gas.
+
+    Notes
+    -----
+    Ra = Gr Pr = g beta |T1 - T2| L^3 / (nu alpha), g = 9.80665 m/s², properties at the film temperature (T1 + T2)/2 (see
+    :func:`film_properties`); the definitions of Incropera et al., Fundamentals of Heat and
+    Mass Transfer, 6th ed., chapter 9.  Valid wherever the gas properties are.
+
+    Examples
+    --------
+    >>> round(rayleigh(40.0, 20.0, 0.5))
+    222550956
+    """
     return unwrap(_groups("rayleigh", t1, t2, length, gas, pressure, ideal_expansion)[1])

@@ -36,6 +36,7 @@ from __future__ import annotations
 import dataclasses
 import math
 from collections import OrderedDict
+from collections.abc import Sequence
 from types import MappingProxyType
 
 import numpy as np
@@ -71,14 +72,33 @@ _CACHE_SIZE = 256
 
 
 def clear_network_cache() -> None:
-    """Forget every cached network solution."""
+    """Forget every cached network solution.
+
+    :func:`solve_network` keeps the last 256 solutions and returns the stored result for
+    identical tables and options; clearing is only needed to measure solve times or to free
+    memory (a cached result is immutable and never stale).
+
+    Returns
+    -------
+    None
+
+    Notes
+    -----
+    A least-recently-used cache of :class:`NetworkResult` keyed on the parsed tables and the
+    options (common practice for repeated spreadsheet recalculation).
+
+    Examples
+    --------
+    >>> clear_network_cache()
+    """
     _CACHE.clear()
     _RAW_CACHE.clear()
 
 
-def solve_network(branches, boundaries, gas="air", pressure=DEFAULT_PRESSURE, *,
-                  property_temperature=None, ideal_expansion=False, use_cache=True,
-                  band=False) -> NetworkResult:
+def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Sequence[object]],
+                  gas: str = "air", pressure: float = DEFAULT_PRESSURE, *,
+                  property_temperature: float | None = None, ideal_expansion: bool = False,
+                  use_cache: bool = True, band: bool = False) -> NetworkResult:
     """Solve a thermal network given as the two sheet tables (see the module docstring).
 
     ``branches``: rows ``name | from | to | kind | p1 | p2 | p3 | p4 | p5 | method``;
@@ -94,11 +114,56 @@ def solve_network(branches, boundaries, gas="air", pressure=DEFAULT_PRESSURE, *,
     ``result.band[node]`` is then (low, high) in °C, the spread of the published correlations,
     not a confidence interval.
 
-    Returns an immutable :class:`NetworkResult`; identical calls return the cached result.
-    Raises :class:`NetworkError` (an :class:`~stillair.validity.InputError`) naming the table,
-    row and column of a bad input, and :class:`NetworkConvergenceError` when the balances
-    cannot be closed.
+    Parameters
+    ----------
+    branches : sequence of rows
+        One row per branch: ``name | from | to | kind | p1 | p2 | p3 | p4 | p5 | method``; the
+        kinds and what their columns p1..p5 hold (with units) are :data:`BRANCH_KINDS`, listed
+        by :func:`kind_reference`.
+    boundaries : sequence of rows
+        One row per condition: ``node | T or Q | value``, a fixed temperature in °C or a heat
+        input in W.
+    gas : str, default "air"
+        Gas of every convection branch, a name or mixture such as "argon:0.9, air:0.1".
+    pressure : float, default 101325
+        Absolute pressure in Pa of every convection branch.
+    property_temperature : float, optional
+        One temperature in °C for every gas property instead of each branch's film temperature.
+    ideal_expansion : bool, default False
+        Use beta = 1/T (ideal gas) instead of the real gas's expansion coefficient.
+    use_cache : bool, default True
+        Return the stored result of identical tables and options (see
+        :func:`clear_network_cache`).
+    band : bool, default False
+        Also solve with every convection branch at the lowest and highest Nu of its covering
+        correlations (``result.band``).
 
+    Returns
+    -------
+    NetworkResult
+        Immutable: ``temperatures`` (node -> °C), ``heat`` (branch -> W, positive from
+        ``from`` to ``to``), per-branch records, the residual (W), the solver used, the range
+        notes and, with ``band``, the band; identical calls return the cached result.
+
+    Raises
+    ------
+    NetworkError
+        (an :class:`~stillair.validity.InputError`) naming the table, row and column of a bad
+        input.
+    NetworkConvergenceError
+        When the balances cannot be closed.
+
+    Notes
+    -----
+    The energy balance of each free node (module docstring) is solved by Newton's method on
+    scaled residuals, with scipy's ``hybr`` and ``lm`` root finders as fallbacks.  The nodal
+    energy-balance method is common practice (e.g. Incropera et al., Fundamentals of Heat and
+    Mass Transfer, 6th ed., sec. 4.4, from memory).  Convection branches take Nu from the
+    correlation registry (:func:`stillair.nusselt`) at each branch's film temperature, each
+    method with its own source and validity; out-of-range use is listed in ``notes``.
+
+    Examples
+    --------
     >>> result = solve_network([["wall", "in", "out", "resistance", 0.5]],
     ...                        [["in", "Q", 10.0], ["out", "T", 0.0]])
     >>> result.temperatures["in"], result.heat["wall"]
