@@ -26,6 +26,7 @@ import numpy as np
 from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
+from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .correlations import Geometry
 from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
@@ -94,6 +95,7 @@ def _full(array, shape):
     return array if array.shape == shape else np.broadcast_to(array, shape)
 
 
+@shared_docs
 def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike, *,
                        facing: str | None = None, tilt: ArrayLike | None = None,
                        diameter: ArrayLike | None = None, gas: str = "air",
@@ -120,33 +122,12 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
         Tilt of the plate from the vertical in degrees; needed for tplate.
     diameter : array_like, optional
         Diameter in m of a vertical cylinder; needed for vcyl.
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     method : str, default "auto"
         A method registered for the geometry, or "auto" (the geometry's auto rule).
-    property_temperature : array_like, optional
-        Temperature in °C at which to take the gas properties instead of the film (mean)
-        temperature, to reproduce a constant-property hand calculation.
-    ideal_expansion : bool, default False
-        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
-        the real gas's.
-    function_name : str, optional
-        The name error messages and range notes are given under (the caller's cell function).
+    {property_options}
 
-    Returns
-    -------
-    ConvectionResult
-        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
-        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
-        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
-
-    Raises
-    ------
-    InputError
-        A value that is not finite, a length that is not positive, an unknown geometry, gas,
-        facing or method, or a temperature outside the gas's range.
+    {convection_result}
 
     Notes
     -----
@@ -215,6 +196,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
                             in_range=result.in_range, note=result.note, blend=result.blend)
 
 
+@shared_docs
 def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: ArrayLike, *,
                       tilt: ArrayLike = 90.0, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
                       method: str = "auto", property_temperature: ArrayLike | None = None,
@@ -234,33 +216,12 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     tilt : array_like, default 90
         Tilt from the horizontal in degrees: 0 heated from below, 90 vertical, 180 heated from
         above (when t1 < t2 the layer is turned over: 180 - tilt).
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     method : str, default "auto"
         A method registered for the geometry, or "auto" (the geometry's auto rule).
-    property_temperature : array_like, optional
-        Temperature in °C at which to take the gas properties instead of the film (mean)
-        temperature, to reproduce a constant-property hand calculation.
-    ideal_expansion : bool, default False
-        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
-        the real gas's.
-    function_name : str, optional
-        The name error messages and range notes are given under (the caller's cell function).
+    {property_options}
 
-    Returns
-    -------
-    ConvectionResult
-        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
-        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
-        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
-
-    Raises
-    ------
-    InputError
-        A value that is not finite, a length that is not positive, an unknown geometry, gas,
-        facing or method, or a temperature outside the gas's range.
+    {convection_result}
 
     Notes
     -----
@@ -368,6 +329,7 @@ def _h_cavity_call(t1, t2, *, gap, height, tilt, **common) -> ConvectionResult:
 ONE_CALLS: dict = {"cavity": _h_cavity_call}
 
 
+@shared_docs
 def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str = "air",
                         pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
                         property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
@@ -387,37 +349,16 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
         Surface temperature (the cavity's underside face) in °C.
     t2 : array_like
         Fluid temperature (the cavity's other face) in °C.
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     method : str, default "auto"
         A method registered for the geometry, or "auto" (the geometry's auto rule).
-    property_temperature : array_like, optional
-        Temperature in °C at which to take the gas properties instead of the film (mean)
-        temperature, to reproduce a constant-property hand calculation.
-    ideal_expansion : bool, default False
-        Use the ideal-gas expansion coefficient 1/T (T in K at the film temperature) instead of
-        the real gas's.
-    function_name : str, optional
-        The name error messages and range notes are given under (the caller's cell function).
+    {property_options}
     parameters : array_like or str
         The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
         ``diameter``, ``gap`` ... as ``geometry.parameters`` lists them, lengths in m, angles
         in degrees).
 
-    Returns
-    -------
-    ConvectionResult
-        h in W/(m²·K) with Nu, Ra, Gr, Pr, the film temperature (°C), the conductivity
-        (W/(m·K)), the length (m), the method, the case, whether in range and the range note,
-        element by element as arrays of the broadcast shape (``.scalar()`` for floats).
-
-    Raises
-    ------
-    InputError
-        A value that is not finite, a length that is not positive, an unknown geometry, gas,
-        facing or method, or a temperature outside the gas's range.
+    {convection_result}
 
     Notes
     -----

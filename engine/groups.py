@@ -15,6 +15,7 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY, zero_Celsius
 
+from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .gases import GasProperties, gas_properties, require_gas_temperature
 from .validity import require_positive, unwrap
@@ -24,6 +25,7 @@ __all__ = ["STANDARD_GRAVITY", "grashof", "rayleigh", "film_properties", "buoyan
 DEFAULT_PRESSURE = 101325.0
 
 
+@shared_docs
 def film_properties(t1: ArrayLike, t2: ArrayLike, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE, *,
                     property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
                     function_name: str = "film_properties", names: tuple[str, str] = ("t1", "t2"),
@@ -40,10 +42,7 @@ def film_properties(t1: ArrayLike, t2: ArrayLike, gas: str = "air", pressure: Ar
         First temperature (the surface) in °C.
     t2 : array_like
         Second temperature (the fluid or the other face) in °C.
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     property_temperature : array_like, optional
         Temperature in °C at which to take the properties instead of (t1 + t2)/2.
     ideal_expansion : bool, default False
@@ -105,6 +104,7 @@ def _groups(function_name, t1, t2, length, gas, pressure, ideal_expansion):
     return buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)
 
 
+@shared_docs
 def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
             pressure: ArrayLike = DEFAULT_PRESSURE, ideal_expansion: bool = False) -> FloatOrArray:
     """Grashof number between temperatures t1 and t2 (°C) over ``length`` (m).
@@ -117,10 +117,7 @@ def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
         Second temperature (the fluid or the other face) in °C.
     length : array_like
         Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     ideal_expansion : bool, default False
         Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
 
@@ -130,10 +127,7 @@ def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
         The Grashof number (-), >= 0: a float for scalar inputs, an array of the broadcast shape
         otherwise.
 
-    Raises
-    ------
-    InputError
-        A length that is not positive, a temperature outside the gas's range, an unknown gas.
+    {buoyancy_raises}
 
     Notes
     -----
@@ -149,6 +143,7 @@ def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
     return unwrap(_groups("grashof", t1, t2, length, gas, pressure, ideal_expansion)[0])
 
 
+@shared_docs
 def rayleigh(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
              pressure: ArrayLike = DEFAULT_PRESSURE, ideal_expansion: bool = False) -> FloatOrArray:
     """Rayleigh number between temperatures t1 and t2 (°C) over ``length`` (m).
@@ -161,10 +156,7 @@ def rayleigh(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
         Second temperature (the fluid or the other face) in °C.
     length : array_like
         Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : array_like, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     ideal_expansion : bool, default False
         Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
 
@@ -174,10 +166,7 @@ def rayleigh(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
         The Rayleigh number (-), >= 0: a float for scalar inputs, an array of the broadcast shape
         otherwise.
 
-    Raises
-    ------
-    InputError
-        A length that is not positive, a temperature outside the gas's range, an unknown gas.
+    {buoyancy_raises}
 
     Notes
     -----
