@@ -15,7 +15,7 @@ from stillair.addin.reference import reference_markdown
 
 ROOT = Path(__file__).resolve().parent.parent
 
-# Every cell function fixed by the design notes, plus the validity-note function we named.
+# Every cell function whose name the project fixed, plus the validity-note function we named.
 DESIGN_NAMES = (
     [f"{p}_{q}" for p in ("AIR", "GAS") for q in ("DENSITY", "VISCOSITY", "KINVISC", "CONDUCTIVITY",
                                                   "CP", "DIFFUSIVITY", "PRANDTL", "EXPANSION")]
