@@ -234,8 +234,17 @@ class Correlation:
 
 def uniform(value, shape) -> np.ndarray:
     """A read-only object array holding ``value`` everywhere, without a million references:
-    the method name or empty note of a result where every element shares it."""
+    the method name or empty note of a result where every element shares it.  Small arrays
+    are filled instead (np.broadcast_to's own overhead costs more than the references there:
+    the network solver makes a dozen of these per evaluation)."""
+    if math.prod(shape) <= _FILL_BELOW:
+        array = np.full(shape, value, dtype=object)
+        array.flags.writeable = False
+        return array
     return np.broadcast_to(np.array(value, dtype=object), shape)
+
+
+_FILL_BELOW = 4096
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
@@ -399,18 +408,31 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         arrays = _checked_inputs(function_name, geo, inputs)
         shape = next(iter(arrays.values())).shape if arrays else ()
-        flat = {k: v.ravel() for k, v in arrays.items()}
-        if method == "auto":
-            result = _auto(geo, case, flat, notes)
-        else:
-            result = _evaluate_one(geo, method, case, flat, notes=notes)
+        result = nusselt_checked(geo, method, case, {k: v.ravel() for k, v in arrays.items()}, notes)
         result = NusseltResult(**{name: getattr(result, name).reshape(shape)
                                   for name in NusseltResult.__dataclass_fields__})
-        if geo.floor is not None:
-            result.nu = np.maximum(result.nu, geo.floor)
     if warn and not np.all(result.in_range):
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
+    return result
+
+
+def nusselt_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.ndarray],
+                    notes: bool = True) -> NusseltResult:
+    """:func:`nusselt`'s array path without its argument checks, for a caller that built and
+    checked the inputs itself (the network solver, which calls this a few times per solve on
+    arrays it made: the checks cost more than the correlations there).
+
+    ``method`` is "auto" or a method of ``geo`` serving ``case``; ``case`` one of the geometry's
+    cases (None without cases); ``inputs`` every input the geometry takes, as 1-D float arrays
+    of one length with values the checks of :func:`nusselt` accept (finite Ra >= 0, Pr > 0...).
+    """
+    if method == "auto":
+        result = _auto(geo, case, inputs, notes)
+    else:
+        result = _evaluate_one(geo, method, case, inputs, notes=notes)
+    if geo.floor is not None:
+        result.nu = np.maximum(result.nu, geo.floor)
     return result
 
 
