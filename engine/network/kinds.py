@@ -382,7 +382,8 @@ class _ConvectionGroup(_Group):
     def nusselt(self, ra, pr, dt, tiled=True, notes=False):
         """(NusseltResult, plate case or None, flagged or None) at the tiled points (or, with
         ``tiled=False``, at the branches).  Without ``notes`` the result's notes are blank:
-        only the records read them, so the solver asks for them once, at the solution."""
+        only the records read them, so the solver asks for them once, at the solution; the
+        iterations (``notes=False``) skip the range tests altogether (``in_range`` is None)."""
         columns = dict(self.columns_tiled, length=self.length_tiled) if tiled else dict(self.columns, length=self.length)
         inputs = dict(ra=ra, pr=pr, **self.kind.correlation_inputs(columns, dt))
         return self._nusselt(inputs, dt, notes)
@@ -392,7 +393,7 @@ class _ConvectionGroup(_Group):
         # property look-up rejects what is not), so the correlations' argument checks are skipped
         geometry = GEOMETRIES[self.geometry]
         if not self.cases:
-            return nusselt_checked(geometry, self.method, None, inputs, notes), None, None
+            return nusselt_checked(geometry, self.method, None, inputs, notes, ranges=notes), None, None
         hot = dt >= 0
         if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
             names = [f"{'hot' if hot.all() else 'cold'}-{self.facing}"]
@@ -407,7 +408,7 @@ class _ConvectionGroup(_Group):
             mask = case == name if len(names) > 1 else None
             method = self.method if flagged is None or name in self.served_cases else "auto"
             sub = inputs if mask is None else {k: v[mask] for k, v in inputs.items()}
-            parts.append((mask, nusselt_checked(geometry, method, name, sub, notes)))
+            parts.append((mask, nusselt_checked(geometry, method, name, sub, notes, ranges=notes)))
         result = parts[0][1] if len(parts) == 1 else merge_masked(NusseltResult, parts, case.shape)
         return result, case, flagged
 

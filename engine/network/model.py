@@ -189,7 +189,7 @@ class _BatchDetail:
     """A batch's correlation results at one evaluation, read only for the records."""
 
     batch: _ConvectionBatch
-    results: list                  # per group: (NusseltResult without notes, case, flagged) at the tiled points
+    results: list                  # per group: (NusseltResult, Nu and method only, case, flagged) at the tiled points
     h: np.ndarray
     ra: np.ndarray
     pr: np.ndarray
