@@ -220,8 +220,8 @@ class Correlation:
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
         notes = uniform("", shape)
         for bound in reversed(self.ranges(case)):  # first listed bound wins
-            values = np.broadcast_to(bound.values(inputs), shape)
-            outside = ~np.broadcast_to(bound.inside(inputs), shape)
+            values = _shaped(bound.values(inputs), shape)
+            outside = ~_shaped(bound.inside(inputs), shape)
             if outside.any():
                 if not notes.flags.writeable:
                     notes = np.full(shape, "", dtype=object)
@@ -230,6 +230,12 @@ class Correlation:
 
     def describe_validity(self, case: str | None = None) -> str:
         return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
+
+
+def _shaped(array: np.ndarray, shape) -> np.ndarray:
+    """``array`` broadcast to ``shape``; as it is when it has that shape already (the usual
+    case, where np.broadcast_to's overhead would be all the cost)."""
+    return array if array.shape == shape else np.broadcast_to(array, shape)
 
 
 def uniform(value, shape) -> np.ndarray:
