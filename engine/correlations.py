@@ -236,8 +236,8 @@ class Correlation:
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
         notes = uniform("", shape)
         for bound in reversed(self.ranges(case)):  # first listed bound wins
-            values = np.broadcast_to(bound.values(inputs), shape)
-            outside = ~np.broadcast_to(bound.inside(inputs), shape)
+            values = _shaped(bound.values(inputs), shape)
+            outside = ~_shaped(bound.inside(inputs), shape)
             if outside.any():
                 if not notes.flags.writeable:
                     notes = np.full(shape, "", dtype=object)
@@ -248,10 +248,25 @@ class Correlation:
         return "; ".join(bound.describe() for bound in self.ranges(case)) or "no stated limits"
 
 
+def _shaped(array: np.ndarray, shape) -> np.ndarray:
+    """``array`` broadcast to ``shape``; as it is when it has that shape already (the usual
+    case, where np.broadcast_to's overhead would be all the cost)."""
+    return array if array.shape == shape else np.broadcast_to(array, shape)
+
+
 def uniform(value, shape) -> np.ndarray:
     """A read-only object array holding ``value`` everywhere, without a million references:
-    the method name or empty note of a result where every element shares it."""
+    the method name or empty note of a result where every element shares it.  Small arrays
+    are filled instead (np.broadcast_to's own overhead costs more than the references there:
+    the network solver makes a dozen of these per evaluation)."""
+    if math.prod(shape) <= _FILL_BELOW:
+        array = np.full(shape, value, dtype=object)
+        array.flags.writeable = False
+        return array
     return np.broadcast_to(np.array(value, dtype=object), shape)
+
+
+_FILL_BELOW = 4096
 
 
 def _violation_notes(method: str, bound: Range, values: np.ndarray) -> np.ndarray:
@@ -518,18 +533,33 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         arrays = _checked_inputs(function_name, geo, inputs)
         shape = next(iter(arrays.values())).shape if arrays else ()
-        flat = {k: v.ravel() for k, v in arrays.items()}
-        if method == "auto":
-            result = _auto(geo, case, flat, notes)
-        else:
-            result = _evaluate_one(geo, method, case, flat, notes=notes)
+        result = nusselt_checked(geo, method, case, {k: v.ravel() for k, v in arrays.items()}, notes)
         result = NusseltResult(**{name: getattr(result, name).reshape(shape)
                                   for name in NusseltResult.__dataclass_fields__})
-        if geo.floor is not None:
-            result.nu = np.maximum(result.nu, geo.floor)
     if warn and not np.all(result.in_range):
         warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
                       CorrelationRangeWarning, stacklevel=3)
+    return result
+
+
+def nusselt_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.ndarray],
+                    notes: bool = True, ranges: bool = True) -> NusseltResult:
+    """:func:`nusselt`'s array path without its argument checks, for a caller that built and
+    checked the inputs itself (the network solver, which calls this a few times per solve on
+    arrays it made: the checks cost more than the correlations there).
+
+    ``method`` is "auto" or a method of ``geo`` serving ``case``; ``case`` one of the geometry's
+    cases (None without cases); ``inputs`` every input the geometry takes, as 1-D float arrays
+    of one length with values the checks of :func:`nusselt` accept (finite Ra >= 0, Pr > 0...).
+    ``ranges=False`` leaves ``in_range`` and ``note`` None: a caller reading only Nu and the
+    method (the solver's iterations) does not pay for the range tests.
+    """
+    if method == "auto":
+        result = _auto(geo, case, inputs, notes, ranges)
+    else:
+        result = _evaluate_one(geo, method, case, inputs, notes, ranges)
+    if geo.floor is not None:
+        result.nu = np.maximum(result.nu, geo.floor)
     return result
 
 
@@ -628,13 +658,13 @@ def _scalar_result(nu: float, method: str, note: str, blend: str) -> NusseltResu
                          blend=np.array(blend, dtype=object))
 
 
-def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True) -> NusseltResult:
+def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True, ranges: bool = True) -> NusseltResult:
     """One correlation on 1-D inputs, before the geometry's floor."""
     corr = CORRELATIONS[(geo.name, method)]
     args = dict(arrays, case=case) if geo.cases else arrays
     size = next(iter(arrays.values())).shape
     nu = np.asarray(corr.function(**args), dtype=float)
-    in_range, note = _range_notes(corr, arrays, case, notes)
+    in_range, note = _range_notes(corr, arrays, case, notes) if ranges else (None, None)
     return NusseltResult(nu=nu if nu.shape == size else np.broadcast_to(nu, size).copy(),
                          method=uniform(method, size), in_range=in_range, note=note)
 
@@ -648,7 +678,18 @@ def _range_notes(corr: Correlation, arrays, case, notes: bool):
     return in_range, uniform("", in_range.shape)
 
 
-def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
+def _single_step(geo: Geometry, case, step: AutoStep, arrays, size, notes: bool, ranges: bool) -> NusseltResult:
+    corr = CORRELATIONS[(geo.name, step.method)]
+    function = corr.forms[step.form] if step.form else corr.function
+    value = np.asarray(function(**(dict(arrays, case=case) if geo.cases else arrays)), dtype=float)
+    nu = value.copy() if value.shape == size else np.broadcast_to(value, size).copy()
+    if geo.floor is not None:
+        nu = np.maximum(nu, geo.floor)
+    in_range, note = _range_notes(corr, arrays, case, notes) if ranges else (None, None)
+    return NusseltResult(nu=nu, method=uniform(step.method, size), in_range=in_range, note=note)
+
+
+def _auto(geo: Geometry, case, arrays, notes: bool = True, ranges: bool = True) -> NusseltResult:
     """The geometry's auto rule on 1-D inputs: each step takes its coverage of what is left.
 
     With c_k the continuous coverage of step k (:meth:`AutoStep.coverage`), step k's weight is
@@ -662,6 +703,11 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
     if size == (0,):
         empty = np.empty(0, dtype=object)
         return NusseltResult(nu=np.empty(0), method=empty, in_range=np.ones(0, dtype=bool), note=empty)
+    if len(steps) == 1 and steps[0].when == ():
+        # a rule of one unconditional step (most plate cases): its method everywhere, the same
+        # numbers as the loop below gives (0 + 1 x) without its dozen array operations, which
+        # the network solver would pay on every evaluation
+        return _single_step(geo, case, steps[0], arrays, size, notes, ranges)
     left = np.ones(size)
     nu = np.zeros(size)
     weights: dict[str, np.ndarray] = {}        # method -> total weight (its forms together)
@@ -689,10 +735,13 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True) -> NusseltResult:
             break
     names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
     if len(names) == 1:  # the usual case: one method everywhere
-        in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes)
+        in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes) if ranges \
+            else (None, None)
         return NusseltResult(nu=nu, method=uniform(names[0], size), in_range=in_range, note=note)
     stacked = np.array([np.broadcast_to(weights[n], size) for n in names])   # (methods, points)
     method = np.array(names, dtype=object)[np.argmax(stacked, axis=0)]
+    if not ranges:
+        return NusseltResult(nu=nu, method=method, in_range=None, note=None)
     code = (stacked > 0.0).astype(np.int64).T @ (1 << np.arange(len(names), dtype=np.int64))
     note = np.full(size, "", dtype=object)
     blend = np.full(size, "", dtype=object)

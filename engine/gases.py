@@ -889,6 +889,13 @@ def _state(function: str, gas, t, pressure) -> GasProperties:
             and mixture.t_range.low <= t <= mixture.t_range.high
             and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high):
         return _scalar_state(mixture, float(t), float(pressure))
+    if (type(t) is np.ndarray and t.dtype == np.float64 and t.ndim and t.size and type(pressure) in _PLAIN_NUMBERS
+            and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
+            and mixture.t_range.low <= t.min() and t.max() <= mixture.t_range.high):
+        # a float array inside the range at one plain pressure (NaN fails the comparisons): two
+        # reductions instead of the element checks, which cost more than the look-up itself
+        primaries = _table(mixture).at_pressure(float(pressure))(t - ABSOLUTE_ZERO_C)
+        return _assemble(mixture, t.copy(), np.full(t.shape, float(pressure)), *np.moveaxis(primaries, -1, 0))
     t_array, p_array = _checked_state(function, mixture, t, pressure)
     if t_array.ndim == 0:
         return _scalar_state(mixture, float(t_array), float(p_array))

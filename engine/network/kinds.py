@@ -24,7 +24,7 @@ from scipy.constants import zero_Celsius
 
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
-                            nusselt, nusselt_at_difference)
+                           nusselt_at_difference, nusselt_checked)
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
@@ -410,32 +410,40 @@ class _ConvectionGroup(_Group):
         self.area_tiled = np.tile(self.area, copies)
         self.columns_tiled = {k: np.tile(v, copies) for k, v in self.columns.items()}
 
-    def nusselt(self, ra, pr, dt):
-        """(NusseltResult, plate case or None, flagged or None) at the tiled points."""
-        inputs = dict(ra=ra, pr=pr, **self.kind.correlation_inputs(
-            dict(self.columns_tiled, length=self.length_tiled), dt))
-        return self._nusselt(inputs, dt)
+    def nusselt(self, ra, pr, dt, tiled=True, notes=False):
+        """(NusseltResult, plate case or None, flagged or None) at the tiled points (or, with
+        ``tiled=False``, at the branches).  Without ``notes`` the result's notes are blank:
+        only the records read them, so the solver asks for them once, at the solution; the
+        iterations (``notes=False``) skip the range tests altogether (``in_range`` is None)."""
+        columns = dict(self.columns_tiled, length=self.length_tiled) if tiled else dict(self.columns, length=self.length)
+        inputs = dict(ra=ra, pr=pr, **self.kind.correlation_inputs(columns, dt))
+        return self._nusselt(inputs, dt, notes)
 
-    def _nusselt(self, inputs, dt):
+    def _nusselt(self, inputs, dt, notes=True):
+        # the inputs come from checked table columns and the model's own Ra and Pr (finite: the
+        # property look-up rejects what is not), so the correlations' argument checks are skipped
+        geometry = GEOMETRIES[self.geometry]
         if not self.cases:
-            return nusselt(self.geometry, self.method, function_name=FUNCTION, **inputs), None, None
+            return nusselt_checked(geometry, self.method, None, inputs, notes, ranges=notes), None, None
         if self.case is not None:   # the case is the row's own (a channel's walls): Nu solved where
             # the correlation reads a flux Rayleigh number
             result = nusselt_at_difference(self.geometry, self.method, self.case, function_name=FUNCTION, **inputs)
             return result, np.full(len(dt), self.case, dtype=object), None
         hot = dt >= 0
         if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
-            case = np.full(len(dt), f"{'hot' if hot.all() else 'cold'}-{self.facing}", dtype=object)
+            names = [f"{'hot' if hot.all() else 'cold'}-{self.facing}"]
+            case = np.full(len(dt), names[0], dtype=object)
         else:
             from ..convection import plate_case
             case = plate_case(self.facing, dt)
+            names = list(dict.fromkeys(case.tolist()))
         flagged = ~np.isin(case, self.served_cases) if self.served_cases else None
         parts = []
-        for name in dict.fromkeys(case.tolist()):
-            mask = case == name
+        for name in names:
+            mask = case == name if len(names) > 1 else None
             method = self.method if flagged is None or name in self.served_cases else "auto"
-            sub = inputs if mask.all() else {k: v[mask] for k, v in inputs.items()}
-            parts.append((mask, nusselt(self.geometry, method, name, function_name=FUNCTION, **sub)))
+            sub = inputs if mask is None else {k: v[mask] for k, v in inputs.items()}
+            parts.append((mask, nusselt_checked(geometry, method, name, sub, notes, ranges=notes)))
         result = parts[0][1] if len(parts) == 1 else merge_masked(NusseltResult, parts, case.shape)
         return result, case, flagged
 

@@ -8,7 +8,9 @@ the temperature itself: across a 1e-9 K/W resistance in series with 1e6 K/W the 
 that exact difference.
 
 The convection groups share one gas-property look-up per gas and evaluation (the film
-temperatures of all their branches, with the finite-difference points, in one call).
+temperatures of all their branches, with the finite-difference points, in one call).  The
+correlations are called without their range notes while the solver iterates; the records ask
+for them once, at the solution.
 """
 
 from __future__ import annotations
@@ -178,7 +180,7 @@ class _ConvectionBatch:
         h = nu * conductivity / self.length
         heat = h * self.area * dtt
         q = heat[self.at_point]
-        detail = _BatchDetail(self, results, h, ra, prandtl, t_film)
+        detail = _BatchDetail(self, results, h, ra, prandtl, t_film, dtt)
         return q, (heat[self.from_raised] - q) / step, (heat[self.to_raised] - q) / step, detail
 
 
@@ -187,19 +189,23 @@ class _BatchDetail:
     """A batch's correlation results at one evaluation, read only for the records."""
 
     batch: _ConvectionBatch
-    results: list                  # per group: (NusseltResult, case, flagged) at the tiled points
+    results: list                  # per group: (NusseltResult, Nu and method only, case, flagged) at the tiled points
     h: np.ndarray
     ra: np.ndarray
     pr: np.ndarray
     t_film: np.ndarray
+    dt: np.ndarray
 
     def for_group(self, k: int) -> SimpleNamespace:
-        """Group k's values at the point (the first third of its block)."""
+        """Group k's values at the point (the first third of its block), with the notes: the
+        iterations go without them (formatting them cost a fifth of an evaluation), so the
+        correlation is called again here, at the branches only, to word them."""
         part = self.batch.slices[k]
         n = (part.stop - part.start) // 3
         at = slice(part.start, part.start + n)
-        result, case, flagged = self.results[k]
-        return SimpleNamespace(h=self.h[at], nu=result.nu[:n], ra=self.ra[at], pr=self.pr[at],
+        iterated, case, flagged = self.results[k]
+        result = self.batch.groups[k].nusselt(self.ra[at], self.pr[at], self.dt[at], tiled=False, notes=True)[0]
+        return SimpleNamespace(h=self.h[at], nu=iterated.nu[:n], ra=self.ra[at], pr=self.pr[at],
                                t_film=self.t_film[at], method=result.method[:n],
                                case=None if case is None else case[:n], note=result.note[:n],
                                in_range=result.in_range[:n], flagged=None if flagged is None else flagged[:n])

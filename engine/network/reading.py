@@ -55,6 +55,8 @@ def name(value, where: str, column: str) -> str:
 
 def number(value, where: str, column: str, unit: str = "") -> float:
     """A finite float from a cell, or a NetworkError naming the cell."""
+    if type(value) in _PLAIN_NUMBERS and math.isfinite(value):
+        return float(value)   # the usual cell: no message texts to build (bool is not int here)
     allowed = "a number" + (f" in {unit}" if unit else "")
     here = f"{where}, column {column}"
     if blank(value):
@@ -70,6 +72,9 @@ def number(value, where: str, column: str, unit: str = "") -> float:
     if not math.isfinite(result):
         raise NetworkError(FUNCTION, here, result, "a finite number")
     return result
+
+
+_PLAIN_NUMBERS = (float, int)
 
 
 def gas_key(gas: str) -> str:

@@ -57,7 +57,9 @@ class Solver:
         n = len(net.nodes)
         s, r = net.source, net.target
         self._jacobian_index = np.concatenate([r * n + s, r * n + r, s * n + s, s * n + r])
+        self._laplacian_index = np.concatenate([s * n + s, r * n + r, s * n + r, r * n + s])
         self._free_block = np.ix_(net.free, net.free)
+        self._free_fixed_block = np.ix_(net.free, net.fixed)
         # every branch end, grouped by node (each node has at least one): for per-node minima
         ends = np.concatenate([s, r])
         self._incidence = np.argsort(ends, kind="stable")
@@ -168,12 +170,10 @@ class Solver:
     def linear_solve(self, conductance: np.ndarray) -> np.ndarray:
         net = self.net
         n = len(net.nodes)
-        s, r = net.source, net.target
-        index = np.concatenate([s * n + s, r * n + r, s * n + r, r * n + s])
-        laplacian = np.bincount(index, np.concatenate([conductance, conductance, -conductance, -conductance]),
+        laplacian = np.bincount(self._laplacian_index,
+                                np.concatenate([conductance, conductance, -conductance, -conductance]),
                                 minlength=n * n).reshape(n, n)
-        free, fixed = net.free, net.fixed
-        rhs = net.heat_input[free] - laplacian[np.ix_(free, fixed)] @ net.fixed_t
+        rhs = net.heat_input[net.free] - laplacian[self._free_fixed_block] @ net.fixed_t
         matrix = laplacian[self._free_block]
         scale = self.row_scale(matrix)
         try:
