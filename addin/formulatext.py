@@ -23,6 +23,8 @@ import functools
 import re
 from dataclasses import dataclass
 
+from .xlsx import col_to_index, index_to_col
+
 __all__ = ["Call", "recognise_call", "calls_in", "tokens", "normalise_formula", "Reference",
            "parse_reference", "Prepared", "prepare", "MAX_ROW", "MAX_COL", "MAX_AREA_CELLS"]
 
@@ -124,21 +126,6 @@ _QUALIFIED_RE = re.compile(r"^(?P<sheet>'(?:[^']|'')+'|[^'!]+)!(?P<rest>.+)$")
 _NAME_RE = re.compile(r"^[A-Za-z_\\][\w.\\?]*$")
 
 
-def _col(letters: str) -> int:
-    n = 0
-    for ch in letters.upper():
-        n = n * 26 + ord(ch) - 64
-    return n
-
-
-def _col_letters(n: int) -> str:
-    s = ""
-    while n:
-        n, r = divmod(n - 1, 26)
-        s = chr(65 + r) + s
-    return s
-
-
 @dataclass(frozen=True, slots=True)
 class Reference:
     """One reference operand: an area of a sheet (``sheet`` None: the formula's own sheet), a
@@ -186,12 +173,12 @@ def parse_reference(operand: str) -> Reference:
                          "supported headlessly")
     m = _AREA_RE.match(rest)
     if m:
-        c1, r1 = _col(m.group(1)), int(m.group(2))
-        c2, r2 = (_col(m.group(3)), int(m.group(4))) if m.group(3) else (c1, r1)
+        c1, r1 = col_to_index(m.group(1)), int(m.group(2))
+        c2, r2 = (col_to_index(m.group(3)), int(m.group(4))) if m.group(3) else (c1, r1)
         return Reference("area", sheet, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
     m = _COLS_RE.match(rest)
     if m:
-        c1, c2 = sorted((_col(m.group(1)), _col(m.group(2))))
+        c1, c2 = sorted((col_to_index(m.group(1)), col_to_index(m.group(2))))
         return Reference("area", sheet, 1, c1, MAX_ROW, c2, whole="columns")
     m = _ROWS_RE.match(rest)
     if m:
@@ -212,8 +199,8 @@ def _sheet_text(sheet: str) -> str:
 
 def area_text(sheet: str | None, r1: int, c1: int, r2: int, c2: int) -> str:
     head = f"{_sheet_text(sheet)}!" if sheet is not None else ""
-    first = f"{_col_letters(c1)}{r1}"
-    return head + (first if (r1, c1) == (r2, c2) else f"{first}:{_col_letters(c2)}{r2}")
+    first = f"{index_to_col(c1)}{r1}"
+    return head + (first if (r1, c1) == (r2, c2) else f"{first}:{index_to_col(c2)}{r2}")
 
 
 # ---------------------------------------------------------------------------------------------
@@ -287,7 +274,7 @@ def _relative_form(formula: str, row: int, col: int):
             continue
         last = 0
         for m in _CELL_IN_TEXT.finditer(piece):
-            c, r = _col(m.group(2)), int(m.group(4))
+            c, r = col_to_index(m.group(2)), int(m.group(4))
             cells.append((c, r))
             parts.append(piece[last:m.start()])
             parts.append(f"{'$' + str(c) if m.group(1) else 'C' + str(c - col)}"
@@ -517,7 +504,7 @@ def _shape(text: str, reference: Reference, row: int, col: int):
         cm = re.match(r"^(\$?)([A-Za-z]{1,3})(\$?)(\d+)$", piece)
         if not cm:
             return ("ref", text.upper())
-        c, r = _col(cm.group(2)), int(cm.group(4))
+        c, r = col_to_index(cm.group(2)), int(cm.group(4))
         parts.append((c if cm.group(1) else ("c", c - col), r if cm.group(3) else ("r", r - row)))
     return ("area", sheet, tuple(parts))
 

@@ -2,13 +2,15 @@
 
 A docstring names a shared block as ``{block_name}`` on a line of its own; :func:`shared_docs`
 puts the block in when the module is imported, so ``help()`` shows every function's text in
-full while the words exist in one place.  Only the named placeholders are replaced: other braces
-in a docstring (``{"up", "down"}``) stay as they are.
+full while the words exist in one place.  A module may add blocks of its own (the heat-sink
+parameters in channel.py).  Only the named placeholders are replaced: other braces in a
+docstring (``{"up", "down"}``) stay as they are.
 """
 
 from __future__ import annotations
 
-from typing import Callable, TypeVar
+import re
+from typing import Callable, Mapping, TypeVar
 
 F = TypeVar("F", bound=Callable)
 
@@ -39,6 +41,16 @@ CONVECTION_RESULT = '''    Returns
         A value that is not finite, a length that is not positive, an unknown geometry, gas,
         facing or method, or a temperature outside the gas's range.'''
 
+BUOYANCY_INPUTS = '''    t1 : array_like
+        First temperature (the surface) in °C.
+    t2 : array_like
+        Second temperature (the fluid or the other face) in °C.
+    length : array_like
+        Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
+''' + GAS_AND_PRESSURE + '''
+    ideal_expansion : bool, default False
+        Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.'''
+
 BUOYANCY_RAISES = '''    Raises
     ------
     InputError
@@ -48,10 +60,11 @@ BLOCKS = {name.lower(): text for name, text in globals().items()
           if name.isupper() and isinstance(text, str)}
 
 
-def shared_docs(function: F) -> F:
-    """Fill the ``{block_name}`` lines of ``function``'s docstring from :data:`BLOCKS`."""
+def shared_docs(function: F, blocks: Mapping[str, str] | None = None) -> F:
+    """Fill the ``{block_name}`` lines of ``function``'s docstring from :data:`BLOCKS` and
+    ``blocks`` (a module's own)."""
     doc = function.__doc__ or ""
-    for name, text in BLOCKS.items():
-        doc = doc.replace("    {" + name + "}", text)
+    for name, text in {**BLOCKS, **(blocks or {})}.items():
+        doc = re.sub(r"(?m)^[ \t]*\{" + re.escape(name) + r"\}$", lambda _: text, doc)
     function.__doc__ = doc
     return function

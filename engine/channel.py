@@ -76,6 +76,7 @@ from .convection import ONE_CALLS, ConvectionResult, surface_convection
 from .correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry, nusselt_at_difference,
                            nusselt_value)
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
+from ._docs import shared_docs
 from .validity import (
     CorrelationRangeWarning,
     InputError,
@@ -257,21 +258,10 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
 
     Parameters
     ----------
-    ts : float or array
-        Wall temperature in °C; for the flux cases the wall temperature at the top of the
-        channel (the maximum).
-    tf : float or array
-        Temperature of the still air around the channel (entering at the bottom) in °C.
-    spacing : float or array
-        Gap S between the plates in m (> 0).
-    height : float or array
-        Plate height L in m along the flow (> 0).
+    {channel_walls}
     case : str, default "isothermal"
         "isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic".
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : float or array, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     method : str, default "auto"
         "auto", "bar-cohen-rohsenow" or "elenbaas".
     property_temperature : float or array, optional
@@ -343,21 +333,10 @@ def h_channel(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLik
 
     Parameters
     ----------
-    ts : float or array
-        Wall temperature in °C; for the flux cases the wall temperature at the top of the
-        channel (the maximum).
-    tf : float or array
-        Temperature of the still air around the channel (entering at the bottom) in °C.
-    spacing : float or array
-        Gap S between the plates in m (> 0).
-    height : float or array
-        Plate height L in m along the flow (> 0).
+    {channel_walls}
     case : str
         "isothermal" (default), "isothermal-adiabatic", "flux", "flux-adiabatic".
-    gas : str, default "air"
-        Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).
-    pressure : float or array, default 101325
-        Absolute pressure in Pa.
+    {gas_and_pressure}
     method : str
         "auto", "bar-cohen-rohsenow" or "elenbaas".
 
@@ -728,6 +707,19 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     return unwrap(out)
 
 
+# Parameters the channel functions share; their docstrings list them from one place.
+_CHANNEL_WALLS = """    ts : float or array
+        Wall temperature in °C; for the flux cases the wall temperature at the top of the
+        channel (the maximum).
+    tf : float or array
+        Temperature of the still air around the channel (entering at the bottom) in °C.
+    spacing : float or array
+        Gap S between the plates in m (> 0).
+    height : float or array
+        Plate height L in m along the flow (> 0)."""
+for _function in (channel_convection, h_channel):
+    shared_docs(_function, {"channel_walls": _CHANNEL_WALLS})
+
 # The heat-sink functions share their parameters; their docstrings list them from one place.
 _HEATSINK_PARAMETERS = """    t_base : float or array
         Temperature of the base in °C.
@@ -754,6 +746,6 @@ _HEATSINK_PARAMETERS = """    t_base : float or array
     tip : str, default "corrected"
         "corrected" or "adiabatic" fin tip."""
 for _function in (heatsink, heatsink_q, heatsink_tbase):
-    _function.__doc__ = _function.__doc__.replace("{heatsink_parameters}", _HEATSINK_PARAMETERS).replace(
-        "{heatsink_parameters_after_t_base}", _HEATSINK_PARAMETERS.split("\n", 2)[2])
+    shared_docs(_function, {"heatsink_parameters": _HEATSINK_PARAMETERS,
+                            "heatsink_parameters_after_t_base": _HEATSINK_PARAMETERS.split("\n", 2)[2]})
 del _function

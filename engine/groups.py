@@ -111,15 +111,7 @@ def grashof(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
 
     Parameters
     ----------
-    t1 : array_like
-        First temperature (the surface) in °C.
-    t2 : array_like
-        Second temperature (the fluid or the other face) in °C.
-    length : array_like
-        Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
-    {gas_and_pressure}
-    ideal_expansion : bool, default False
-        Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
+    {buoyancy_inputs}
 
     Returns
     -------
@@ -150,15 +142,7 @@ def rayleigh(t1: ArrayLike, t2: ArrayLike, length: ArrayLike, gas: str = "air",
 
     Parameters
     ----------
-    t1 : array_like
-        First temperature (the surface) in °C.
-    t2 : array_like
-        Second temperature (the fluid or the other face) in °C.
-    length : array_like
-        Characteristic length in m, > 0 (the geometry's: height, area/perimeter, diameter, gap).
-    {gas_and_pressure}
-    ideal_expansion : bool, default False
-        Use the ideal-gas expansion coefficient 1/T (T in K) instead of the real gas's.
+    {buoyancy_inputs}
 
     Returns
     -------
