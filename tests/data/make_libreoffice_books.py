@@ -26,60 +26,29 @@ from __future__ import annotations
 import hashlib
 import json
 import shutil
-import socket
 import subprocess
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import uno  # noqa: F401  (LibreOffice's Python bridge; /usr/bin/python3 only)
-from com.sun.star.beans import PropertyValue
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "libreoffice"))
+from session import Session, _props  # noqa: E402  (the tests' LibreOffice driver, same Python)
 
 ROOT = Path(__file__).resolve().parents[2]
 OUT = Path(__file__).resolve().parent / "libreoffice"
 EDITED_TEMPLATE = "air-layer"
 
 
-def _props(**values):
-    items = []
-    for key, value in values.items():
-        prop = PropertyValue()
-        prop.Name, prop.Value = key, value
-        items.append(prop)
-    return tuple(items)
-
-
-def _free_port() -> int:
-    with socket.socket() as probe:
-        probe.bind(("127.0.0.1", 0))
-        return probe.getsockname()[1]
-
-
 class Office:
-    """A private headless LibreOffice (own profile), closed on exit."""
+    """A private headless LibreOffice (own profile), closed on exit: the test suite's
+    :class:`session.Session` with a throw-away profile and no extension."""
 
     def __enter__(self):
         self.profile = tempfile.mkdtemp(prefix="stillair-lo-profile-")
-        port = _free_port()
-        self.process = subprocess.Popen(
-            ["soffice", f"-env:UserInstallation=file://{self.profile}", "--headless", "--invisible",
-             "--norestore", "--nologo", f"--accept=socket,host=127.0.0.1,port={port};urp;"],
-            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
-        local = uno.getComponentContext()
-        resolver = local.ServiceManager.createInstanceWithContext(
-            "com.sun.star.bridge.UnoUrlResolver", local)
-        for _ in range(120):
-            try:
-                context = resolver.resolve(
-                    f"uno:socket,host=127.0.0.1,port={port};urp;StarOffice.ComponentContext")
-                break
-            except Exception:
-                time.sleep(0.5)
-        else:
-            raise RuntimeError("LibreOffice did not start")
-        self.desktop = context.ServiceManager.createInstanceWithContext(
-            "com.sun.star.frame.Desktop", context)
+        self.session = Session("soffice", self.profile, None)
+        self.desktop = self.session.desktop
         return self
 
     def load(self, path: Path):
@@ -96,14 +65,7 @@ class Office:
                        _props(FilterName="Calc MS Excel 2007 XML", Overwrite=True))
 
     def __exit__(self, *exc):
-        try:
-            self.desktop.terminate()
-        except Exception:
-            pass
-        try:
-            self.process.wait(timeout=30)
-        except subprocess.TimeoutExpired:
-            self.process.kill()
+        self.session.close()
         shutil.rmtree(self.profile, ignore_errors=True)
         return False
 
