@@ -13,7 +13,6 @@ import tempfile
 
 from stillair._console import run_command, say
 
-from .registry import REGISTRY
 
 EXIT_FINDINGS = 1   # done, with error cells (calc) or findings (audit)
 EXIT_BAD_INPUT = 2  # could not run: one line on stderr

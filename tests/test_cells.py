@@ -8,7 +8,6 @@ than pass values through (the network tables, radiation).
 
 from __future__ import annotations
 
-import math
 import warnings
 
 import numpy as np

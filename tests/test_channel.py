@@ -17,7 +17,6 @@ heat-sink model, the fin equation solved numerically (scipy solve_bvp).
 from __future__ import annotations
 
 import math
-import warnings
 
 import numpy as np
 import pytest

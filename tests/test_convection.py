@@ -6,7 +6,7 @@ import pytest
 import stillair
 
 from stillair import (CorrelationRangeWarning, InputError, gas_conductivity, gas_prandtl, h_cavity, h_hcyl,
-                    h_hplate, h_sphere, h_tplate, h_vplate, nu_cavity, nu_hplate, nu_vplate, rayleigh)
+                    h_hplate, h_tplate, h_vplate, nu_cavity, nu_hplate, nu_vplate, rayleigh)
 from stillair.convection import cavity_convection, surface_convection
 
 

@@ -5,7 +5,6 @@ Sources named beside every check.  Table values recalled from memory say so.
 
 import dataclasses
 import inspect
-import math
 
 import CoolProp
 import numpy as np

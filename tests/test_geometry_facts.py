@@ -6,7 +6,6 @@ import re
 
 import pytest
 
-import stillair
 from stillair.addin.registry import REGISTRY
 from stillair.correlations import CORRELATIONS, GEOMETRIES
 

@@ -9,12 +9,11 @@ import pytest
 
 import stillair
 from stillair.addin.cells import call
-from stillair.correlations import CORRELATIONS, GEOMETRIES, methods_for
+from stillair.correlations import methods_for
 
 
 def _direct_in_range(geometry, case, **inputs):
     """Every covering method's Nu, computed one method at a time (the definition of the spread)."""
-    geo = GEOMETRIES[geometry]
     values = {}
     for method in methods_for(geometry, case):
         result = stillair.nusselt(geometry, method, case, **inputs).scalar()

@@ -361,7 +361,7 @@ def build(b: TemplateBook) -> None:
     for key in used:
         c = cav[key]
         role = {"en673": "mode (a), and mode (b) when chosen",
-                auto_default: f"mode (b) gaps, the auto choice at the default inputs"}.get(key[1], "mode (b) gaps when chosen")
+                auto_default: "mode (b) gaps, the auto choice at the default inputs"}.get(key[1], "mode (b) gaps when chosen")
         if key[0] == "vplate":
             role = "mode (b) indoor face"
         b.paragraph(f"- {key[0]} {key[1]} ({role}): {c.title}. Source: {c.source}")

@@ -17,7 +17,6 @@ is kept, so load from other processes on the machine affects both alike.
 
 from __future__ import annotations
 
-import math
 import time
 
 import numpy as np
