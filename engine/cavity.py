@@ -50,6 +50,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
+from ._select import any_true, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -118,8 +119,8 @@ def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
 
 
 def _critical_tilt(aspect):
-    if aspect.shape == (1,):  # the scalar path asks for the same t* several times per case
-        return np.array([_critical_tilt_of(float(aspect[0]))])
+    if not isinstance(aspect, np.ndarray):  # the scalar path asks for the same t* several times per case
+        return _critical_tilt_of(float(aspect))
     table_aspect, table_tilt = _CRITICAL_TILT_POINTS
     return np.interp(aspect, table_aspect, table_tilt)
 
@@ -149,16 +150,16 @@ def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None
     """
     radians = np.radians(tilt)
     sine = np.sin(radians)
-    tilted = np.where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
+    tilted = where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
     if nu_horizontal is None:
         return tilted
     below = tilt < critical_tilt
-    if not np.any(below):
+    if not any_true(below):
         return tilted
     with np.errstate(divide="ignore", invalid="ignore"):
         at_critical = nu_vertical * np.sin(np.radians(critical_tilt)) ** 0.25
         interpolated = nu_horizontal * (at_critical / nu_horizontal) ** (tilt / critical_tilt)
-    return np.where(below, interpolated, tilted)
+    return where(below, interpolated, tilted)
 
 
 # --- validity quantities (Range(of=...)) ------------------------------------------------------
@@ -180,8 +181,8 @@ def _only_in_band(band, quantity, stand_in):
     """
     def of(inputs):
         in_band = band(inputs)
-        if in_band.shape == (1,) and not in_band[0]:  # the scalar path: skip the quantity
-            return np.array([stand_in])
+        if type(in_band) is np.bool_:  # the scalar path: the quantity only where it binds
+            return quantity(inputs) if in_band else stand_in
         return np.where(in_band, quantity(inputs), stand_in)
 
     return of
@@ -289,7 +290,7 @@ def _vertical_correlation(*, method, title, source, equation, validity, notes=""
         def nu_tilted(ra, pr, aspect, tilt):
             critical = _critical_tilt(aspect)
             below = tilt < critical
-            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if below.any() else None
+            horizontal = hollands(ra, pr, aspect, np.zeros_like(tilt)) if any_true(below) else None
             return tilt_from_vertical(nu_vertical(ra, pr, aspect), tilt, horizontal, critical)
 
         nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"
@@ -352,7 +353,7 @@ def _catton_tall(ra, pr, aspect):
           "(H/L = 10), the latter inside the published Ra range.")
 def catton_vertical(ra, pr, aspect):
     """Catton's vertical-cavity correlation, band by aspect (Incropera 6th ed. eqs. 9.52-9.53)."""
-    return np.where(aspect < _CATTON_BAND_EDGE, _catton_short(ra, pr, aspect), _catton_tall(ra, pr, aspect))
+    return where(aspect < _CATTON_BAND_EDGE, _catton_short(ra, pr, aspect), _catton_tall(ra, pr, aspect))
 
 
 def _macgregor_laminar_band(inputs):
@@ -394,7 +395,7 @@ def _macgregor_turbulent(ra, pr, aspect):
           "the published ranges.")
 def macgregor_emery_vertical(ra, pr, aspect):
     """MacGregor & Emery's vertical-cavity correlations (Incropera 6th ed. eqs. 9.54-9.55)."""
-    return np.where((aspect >= _MACGREGOR_EDGE_ASPECT) & (ra <= _MACGREGOR_EDGE_RA),
+    return where((aspect >= _MACGREGOR_EDGE_ASPECT) & (ra <= _MACGREGOR_EDGE_RA),
                     _macgregor_laminar(ra, pr, aspect), _macgregor_turbulent(ra, pr, aspect))
 
 
@@ -421,9 +422,9 @@ def elsherbiny_vertical(ra, pr, aspect):
 
 def _wright_bands(ra):
     """Wright (1996): three Ra bands, Nu_1 of ISO 15099's vertical-cavity equations."""
-    return np.where(ra > 5e4, 0.0673838 * ra ** (1.0 / 3.0),
-                    np.where(ra > 1e4, 0.028154 * ra ** 0.4134,
-                             1.0 + 1.7596678e-10 * ra ** 2.2984755))
+    return where(ra > 5e4, 0.0673838 * ra ** (1.0 / 3.0),
+                 where(ra > 1e4, 0.028154 * ra ** 0.4134,
+                       1.0 + 1.7596678e-10 * ra ** 2.2984755))
 
 
 @_vertical_correlation(
@@ -473,11 +474,11 @@ def hollands(ra, pr, aspect, tilt):
     radians = np.radians(tilt)
     ra_normal = ra * np.cos(radians)
     with np.errstate(divide="ignore", invalid="ignore"):
-        onset = np.where(ra_normal > RAYLEIGH_ONSET, 1.0 - RAYLEIGH_ONSET / ra_normal, 0.0)
+        onset = where(ra_normal > RAYLEIGH_ONSET, 1.0 - RAYLEIGH_ONSET / ra_normal, 0.0)
         # sin(1.8 t) < 0 only above 100 deg, out of range, where onset is 0 anyway.
         tilt_factor = 1.0 - RAYLEIGH_ONSET * np.clip(np.sin(1.8 * radians), 0.0, None) ** 1.6 / ra_normal
-        cells = np.where(ra_normal > 0.0, np.cbrt(np.maximum(ra_normal, 0.0) / 5830.0) - 1.0, 0.0)
-        return 1.0 + 1.44 * np.where(onset > 0.0, onset * tilt_factor, 0.0) + np.maximum(cells, 0.0)
+        cells = where(ra_normal > 0.0, np.cbrt(np.maximum(ra_normal, 0.0) / 5830.0) - 1.0, 0.0)
+        return 1.0 + 1.44 * where(onset > 0.0, onset * tilt_factor, 0.0) + np.maximum(cells, 0.0)
 
 
 @correlation(

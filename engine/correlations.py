@@ -528,7 +528,7 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     if "tilt" in geo.inputs and inputs.get("tilt") is None and geo.default_tilt is not None:
         inputs["tilt"] = geo.default_tilt
     plain = _plain_inputs(geo, inputs)
-    if plain is not None:  # one case in plain numbers: the scalar path (same arithmetic)
+    if plain is not None:  # one case in plain numbers: the scalar path (the same formulas)
         result = _scalar(geo, method, case, plain)
     else:
         arrays = _checked_inputs(function_name, geo, inputs)
@@ -590,15 +590,15 @@ def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
 def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> NusseltResult:
     """Nu for one case in plain numbers: the auto rule's weights with :meth:`Range.weight_of`,
     stopping as soon as nothing is left; notes formatted only for a bound crossed."""
-    # 1-element arrays, not 0-d: numpy's loops then give the bits of the array path
-    arrays = {k: np.array([v]) for k, v in values.items()}
+    # numpy scalars, not Python floats: comparisons then give numpy booleans, which the
+    # correlations combine with ~ and & as they do arrays
+    arrays = {k: np.float64(v) for k, v in values.items()}
     args = dict(arrays, case=case) if geo.cases else arrays
     floor = -math.inf if geo.floor is None else geo.floor
     if method != "auto":
         corr = CORRELATIONS[(geo.name, method)]
         nu = max(_first(corr.function(**args)), floor)
-        note = _scalar_note(corr, arrays, values, case)
-        return _scalar_result(nu, method, note, "")
+        return _scalar_result(nu, method, _scalar_note(corr, arrays, values, case), "")
     left, nu = 1.0, 0.0
     weights: dict[str, float] = {}
     for name, ranges, function in _compiled_steps(geo, case):
@@ -614,7 +614,8 @@ def _scalar(geo: Geometry, method: str, case, values: dict[str, float]) -> Nusse
             left -= weight
         if left <= 0.0 or coverage == 1.0:
             break
-    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
+    names = list(weights) if len(weights) == 1 else [  # several: in the rule's order
+        name for name in geo.auto_methods(case) if name in weights]
     notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], arrays, values, case)
                                for name in names) if note]
     blend = "auto blend of " + " and ".join(names) if len(names) > 1 else ""
@@ -641,7 +642,9 @@ def _compiled_steps(geo: Geometry, case):
 
 
 def _first(values) -> float:
-    return float(values[0]) if getattr(values, "ndim", 0) == 1 else float(np.ravel(values)[0])
+    if getattr(values, "ndim", 0) == 0:
+        return float(values)
+    return float(np.ravel(values)[0])
 
 
 def _scalar_note(corr: Correlation, arrays, values, case) -> str:
@@ -733,7 +736,8 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True, ranges: bool = True) 
             weights[step.method] = weights.get(step.method, 0.0) + weight
         if not left.any():
             break
-    names = [name for name in geo.auto_methods(case) if name in weights]   # the rule's order
+    names = list(weights) if len(weights) == 1 else [  # several: in the rule's order
+        name for name in geo.auto_methods(case) if name in weights]
     if len(names) == 1:  # the usual case: one method everywhere
         in_range, note = _range_notes(CORRELATIONS[(geo.name, names[0])], arrays, case, notes) if ranges \
             else (None, None)

@@ -30,6 +30,7 @@ from .correlations import (
     nusselt_parameters,
     nusselt_value,
 )
+from ._select import where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range
 
@@ -131,7 +132,7 @@ LLOYD_MORAN_CROSSOVER = (0.54 / 0.15) ** 12
 #: band (eq. 9.31) states no Prandtl limit.
 LLOYD_MORAN_LAMINAR_PR = Range(
     "Pr [laminar band]", low=0.7,
-    of=lambda inputs: np.where(inputs["ra"] <= LLOYD_MORAN_CROSSOVER, inputs["pr"], 0.7))
+    of=lambda inputs: where(inputs["ra"] <= LLOYD_MORAN_CROSSOVER, inputs["pr"], 0.7))
 
 
 @correlation(

@@ -391,6 +391,7 @@ class _PropertyTable:
         self.spline = CubicSpline(t_kelvin, coefficients.transpose(1, 0, 2), axis=0)
         self._slices: dict = {}  # pressure -> scipy.interpolate.PPoly
         self._breaks = self.spline.x.tolist()  # for bisect in :meth:`at_point`
+        self._point_coefficients: dict = {}    # pressure -> nested lists, for :meth:`at_point`
 
     @classmethod
     def from_values(cls, gas: GasData) -> "_PropertyTable":
@@ -434,6 +435,18 @@ class _PropertyTable:
             self._slices[pressure] = piece
         return piece
 
+    def _coefficient_lists(self, pressure: float) -> list:
+        """:meth:`at_pressure`'s coefficients as nested lists, ``[interval][power][primary]``
+        (highest power first), made once per pressure: indexing a list costs far less than
+        slicing the array for one point."""
+        lists = self._point_coefficients.get(pressure)
+        if lists is None:
+            lists = self.at_pressure(pressure).c.transpose(1, 0, 2).tolist()
+            if len(self._point_coefficients) >= 64:
+                self._point_coefficients.clear()
+            self._point_coefficients[pressure] = lists
+        return lists
+
     def at_point(self, t_kelvin: float, pressure: float) -> list[float]:
         """The primaries at one in-range point, as floats: :meth:`at_pressure`'s cubic summed in
         plain Python in the same order as ``PPoly`` does (the same values), without the
@@ -443,7 +456,7 @@ class _PropertyTable:
         # PPoly's interval: the last breakpoint <= t, the right end belonging to the last piece
         interval = min(max(bisect.bisect_right(breaks, t_kelvin) - 1, 0), len(breaks) - 2)
         s = t_kelvin - breaks[interval]
-        cubic, square, linear, constant = self.at_pressure(pressure).c[:, interval].tolist()
+        cubic, square, linear, constant = self._coefficient_lists(pressure)[interval]
         s2 = s * s
         s3 = s2 * s
         return [((c0 + c1 * s) + c2 * s2) + c3 * s3

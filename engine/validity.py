@@ -276,9 +276,16 @@ class Range:
         return np.minimum(np.maximum(distance + _OFFSET[self.placement], 0.0), 1.0)
 
     def weight_of(self, value: float) -> float:
-        """:meth:`weight` of one plain number (the scalar path; the same arithmetic)."""
+        """:meth:`weight` of one plain number (the scalar path; the same arithmetic).
+
+        A value beyond a ramp's ends skips the arithmetic: the clip would give the same 0 or 1.
+        """
         weight = 1.0
-        for bound, side, log_bound, log_width, width, offset in self._ramps:
+        for bound, side, log_bound, log_width, width, offset, full_from, none_from in self._ramps:
+            if side * (value - full_from) >= 0.0:
+                continue
+            if side * (value - none_from) <= 0.0:
+                return 0.0
             if log_width is not None:
                 if log_width == 0.0:
                     ramp = 1.0 if side * (value - bound) >= 0 else 0.0
@@ -296,7 +303,11 @@ class Range:
 
     @property
     def _ramps(self):
-        """The bounds that have a transition, with their constants, computed once."""
+        """The bounds that have a transition, with their constants, computed once.
+
+        ``full_from`` and ``none_from`` are where the ramp reaches 1 and 0, each moved a hair
+        outwards (1e-9 relative) so that a value past them is surely clipped to that end.
+        """
         try:
             return self.__dict__["_ramp_constants"]
         except KeyError:
@@ -304,16 +315,25 @@ class Range:
         domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
         ramps = []
         width = self.transition
+        offset = _OFFSET[self.placement]
         for bound, side in ((self.low, 1.0), (self.high, -1.0)):
             if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
                 continue
             if self.log_scale:
                 if side > 0 and bound <= 0.0:
                     continue
-                ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0,
-                              width, _OFFSET[self.placement]))
+                log_width = math.log(width) if width > 1.0 else 0.0
+                full_from = bound * width ** (side * (1.0 - offset)) if log_width else bound
+                none_from = bound * width ** (-side * offset) if log_width else bound
+                hair = 1e-9 * bound
+                ramps.append((bound, side, math.log(bound), log_width, width, offset,
+                              full_from + side * hair, none_from - side * hair))
             else:
-                ramps.append((bound, side, None, None, width, _OFFSET[self.placement]))
+                reach = max(width, 0.0)
+                hair = 1e-9 * max(abs(bound), reach, 1.0)
+                ramps.append((bound, side, None, None, width, offset,
+                              bound + side * (1.0 - offset) * reach + side * hair,
+                              bound - side * offset * reach - side * hair))
         self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
         return self.__dict__["_ramp_constants"]
 

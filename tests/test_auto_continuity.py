@@ -107,7 +107,8 @@ def test_the_detector_finds_a_published_step():
 
 @pytest.mark.parametrize("geometry", sorted(GEOMETRIES))
 def test_the_scalar_path_gives_the_array_path_result(geometry):
-    """One case in plain numbers takes a faster path; it must agree exactly with the arrays."""
+    """One case in plain numbers takes a faster path (numpy scalars); it must agree with the
+    arrays to round-off (numpy's scalar and vectorised pow may differ in the last bits)."""
     rng = np.random.default_rng(11)
     geo = GEOMETRIES[geometry]
     n = 400
@@ -120,6 +121,6 @@ def test_the_scalar_path_gives_the_array_path_result(geometry):
             whole = nusselt(geometry, method, case, **inputs)
             for i in range(0, n, 5):
                 one = nusselt(geometry, method, case, **{k: float(v[i]) for k, v in inputs.items()})
-                assert one.nu == pytest.approx(whole.nu[i], rel=1e-12, abs=0)
+                assert one.nu == pytest.approx(whole.nu[i], rel=1e-14, abs=0)
                 assert (one.method, one.note, one.blend, one.in_range) == (
                     whole.method[i], whole.note[i], whole.blend[i], whole.in_range[i])

@@ -1,0 +1,97 @@
+"""The scalar path's shortcuts give what the array path gives.
+
+One case in plain numbers is evaluated on numpy scalars, with a per-number form of the auto
+rule's transition weights (:meth:`Range.weight_of`) and element choice that makes no arrays
+(:mod:`stillair._select`).  These are exact identities of the code, checked here against the
+array forms they stand in for; the end-to-end agreement of every geometry and method is in
+test_auto_continuity.py.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import numpy as np
+import pytest
+
+from stillair._select import any_true, where
+from stillair.correlations import CORRELATIONS, GEOMETRIES
+
+EPS = np.finfo(float).eps
+
+
+def _auto_ranges():
+    """Every distinct Range an auto rule weighs."""
+    seen = {}
+    for geo in GEOMETRIES.values():
+        for case in geo.cases or (None,):
+            for step in geo.auto[case]:
+                corr = CORRELATIONS[(geo.name, step.method)]
+                for bound in (corr.ranges(case) if step.when is None else step.when):
+                    seen[id(bound)] = bound
+    return list(seen.values())
+
+
+def _probe_values(bound) -> np.ndarray:
+    """Each bound, the ends of its band, a few ulps either side of each, and values between."""
+    marks = []
+    for edge in (bound.low, bound.high):
+        if math.isinf(edge):
+            continue
+        width = bound.transition
+        if bound.log_scale and edge > 0:
+            marks += [edge, edge * width, edge / width, edge * width ** 0.5, edge / width ** 0.5]
+        elif not bound.log_scale:
+            marks += [edge, edge + width, edge - width, edge + width / 2, edge - width / 2]
+    probes = []
+    for mark in marks:
+        probes += [mark, *np.nextafter(mark, [np.inf, -np.inf]),
+                   mark * (1 + 4 * EPS), mark * (1 - 4 * EPS), mark * (1 + 1e-10), mark * (1 - 1e-10)]
+    spread = np.geomspace(1e-8, 1e14, 400) if bound.log_scale else np.linspace(-10.0, 190.0, 400)
+    return np.concatenate([np.array(probes, dtype=float), spread, [0.0]])
+
+
+RANGES = _auto_ranges()
+
+
+@pytest.mark.parametrize("bound", RANGES, ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
+def test_weight_of_one_number_is_the_array_weight(bound):
+    values = _probe_values(bound)
+    # the weight of the quantity's value, however it is derived from the inputs
+    whole = dataclasses.replace(bound, of=None).weight({bound.quantity.lower(): values})
+    one = np.array([bound.weight_of(float(v)) for v in values])
+    # the same ramps; math.log and numpy's vectorised log may differ in the last bit
+    np.testing.assert_allclose(one, whole, rtol=0, atol=4 * EPS)
+    # past the band's ends both give exactly 0 or 1, never a hair off
+    ends = (whole == 0.0) | (whole == 1.0)
+    np.testing.assert_array_equal(one[ends], whole[ends])
+
+
+def test_the_ranges_probed_include_every_kind_of_band():
+    placements = {bound.placement for bound in RANGES}
+    assert placements == {"inside", "centred", "outside"}
+    assert any(bound.log_scale for bound in RANGES) and any(not bound.log_scale for bound in RANGES)
+
+
+@pytest.mark.parametrize("condition, if_true, if_false", [
+    (np.float64(3.0) > 2.0, np.float64(1.5), 2.5),
+    (np.float64(1.0) > 2.0, np.float64(1.5), 2.5),
+    (np.array([True, False, True]), np.array([1.0, 2.0, 3.0]), 0.0),
+    (np.array(True), 1.0, np.array([4.0, 5.0])),
+])
+def test_where_chooses_as_numpy_does(condition, if_true, if_false):
+    np.testing.assert_array_equal(where(condition, if_true, if_false), np.where(condition, if_true, if_false))
+
+
+def test_where_on_a_numpy_boolean_makes_no_array():
+    chosen = np.float64(1.5)
+    assert where(np.float64(3.0) > 2.0, chosen, 2.5) is chosen
+
+
+@pytest.mark.parametrize("condition, expected", [
+    (np.bool_(True), True), (np.bool_(False), False),
+    (np.array([False, False]), False), (np.array([False, True]), True), (np.array([], dtype=bool), False),
+])
+def test_any_true_is_numpy_any(condition, expected):
+    assert any_true(condition) is expected
