@@ -18,14 +18,31 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 
+from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .validity import require_between, require_finite, unwrap, ABSOLUTE_ZERO_C, InputError
 
 __all__ = ["SIGMA", "h_rad", "radiation_flux", "exchange_factor"]
 
 
-_REFERENCE = ("Incropera, DeWitt, Bergman, Lavine, Fundamentals of Heat and Mass Transfer,\n"
-              "    6th ed., eqs. 1.7, 1.9, 13.24 and 13.27.")
+#: Docstring blocks of this module's functions (:func:`~stillair._docs.shared_docs`).
+_BLOCKS = {
+    "reference": """    Incropera, DeWitt, Bergman, Lavine, Fundamentals of Heat and Mass Transfer,
+    6th ed., eqs. 1.7, 1.9, 13.24 and 13.27.""",
+    "exchange_inputs": """    t1 : float or array_like
+        Temperature of surface 1 (the radiating surface) in °C, above -273.15.
+    t2 : float or array_like
+        Temperature of surface 2 (the facing surface), or of the large surroundings, in °C.
+    eps1 : float or array_like
+        Emissivity of surface 1, 0 < eps <= 1.
+    eps2 : float or array_like, optional
+        Emissivity of surface 2 for two large parallel surfaces; None (the default) when
+        surface 1 sees large surroundings at t2.""",
+    "exchange_raises": """    Raises
+    ------
+    InputError
+        A temperature below absolute zero or not finite, an emissivity outside 0 < eps <= 1.""",
+}
 
 
 def exchange_factor(eps1: ArrayLike, eps2: ArrayLike | None = None,
@@ -90,15 +107,7 @@ def h_rad(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
 
     Parameters
     ----------
-    t1 : float or array_like
-        Temperature of the radiating surface in °C (above -273.15).
-    t2 : float or array_like
-        Temperature of the facing surface, or of the large surroundings, in °C.
-    eps1 : float or array_like
-        Emissivity of surface 1, 0 < eps <= 1.
-    eps2 : float or array_like, optional
-        Emissivity of surface 2 for two large parallel surfaces; None (the default) when
-        surface 1 sees large surroundings at t2.
+    {exchange_inputs}
 
     Returns
     -------
@@ -106,10 +115,7 @@ def h_rad(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
         h_rad in W/(m²·K), such that the radiative flux is h_rad (t1 - t2); a float for scalar
         inputs, an array of the broadcast shape otherwise.
 
-    Raises
-    ------
-    InputError
-        A temperature below absolute zero or not finite, an emissivity outside 0 < eps <= 1.
+    {exchange_raises}
 
     Notes
     -----
@@ -141,25 +147,14 @@ def radiation_flux(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
 
     Parameters
     ----------
-    t1 : float or array_like
-        Temperature of surface 1 in °C (above -273.15).
-    t2 : float or array_like
-        Temperature of surface 2, or of the large surroundings, in °C.
-    eps1 : float or array_like
-        Emissivity of surface 1, 0 < eps <= 1.
-    eps2 : float or array_like, optional
-        Emissivity of surface 2 for two large parallel surfaces; None (the default) when
-        surface 1 sees large surroundings at t2.
+    {exchange_inputs}
 
     Returns
     -------
     float or numpy.ndarray
         q in W/m², positive when t1 > t2.
 
-    Raises
-    ------
-    InputError
-        A temperature below absolute zero or not finite, an emissivity outside 0 < eps <= 1.
+    {exchange_raises}
 
     Notes
     -----
@@ -183,5 +178,5 @@ def radiation_flux(t1: ArrayLike, t2: ArrayLike, eps1: ArrayLike,
 
 
 for _function in (exchange_factor, h_rad, radiation_flux):
-    _function.__doc__ = _function.__doc__.replace("{reference}", _REFERENCE)
+    shared_docs(_function, _BLOCKS)
 del _function
