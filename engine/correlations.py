@@ -8,8 +8,10 @@ else is done here once for all of them:
 * broadcasting of array arguments and scalar results for scalar inputs,
 * the conduction floor Nu >= 1 where the geometry has one (cavities),
 * the validity check against the published ranges, with a note naming the bound crossed,
-* the "auto" choice: the first correlation in the geometry's written preference order whose
-  ranges cover the case; if none covers it, the geometry's fallback, with the note.
+* the "auto" rule: the geometry's ordered steps, each taking its continuous coverage of what
+  the earlier steps left (linear across a transition band inside each published bound), so
+  the value passes from one correlation to the next without a step; the last step takes the
+  rest, with the note where it is out of range.
 
 Geometries and their inputs (all lower-case keyword arguments of the registered functions):
 
@@ -431,13 +433,31 @@ def get_correlation(geometry: str, method: str) -> Correlation:
         raise KeyError(f"no correlation {method!r} for {geometry}") from None
 
 
-_INPUT_CHECKS: dict[str, Callable[[str, np.ndarray, Geometry], np.ndarray]] = {
-    "ra": lambda fn, v, geo: require_nonnegative(fn, "Ra", v),
-    "pr": lambda fn, v, geo: require_positive(fn, "Pr", v),
-    "aspect": lambda fn, v, geo: require_positive(fn, "aspect", v),
-    "slenderness": lambda fn, v, geo: require_positive(fn, "slenderness", v),
-    "tilt": lambda fn, v, geo: require_between(fn, "tilt", v, *geo.tilt_range, "deg"),
-}
+def _input_domain(name: str, geo: Geometry) -> tuple[float, float, bool]:
+    """Where :func:`nusselt` accepts a geometry input: (low, high, low end open), finite always.
+    Both the array checks, which word the message, and the scalar path's plain comparisons
+    read it."""
+    if name == "tilt":
+        return geo.tilt_range[0], geo.tilt_range[1], False
+    return 0.0, math.inf, name != "ra"     # Ra >= 0; Pr, aspect, slenderness > 0
+
+
+_INPUT_LABELS = {"ra": "Ra", "pr": "Pr"}   # the other inputs are named as typed
+
+
+def _check_input(function_name: str, name: str, value, geo: Geometry) -> np.ndarray:
+    low, high, low_open = _input_domain(name, geo)
+    label = _INPUT_LABELS.get(name, name)
+    if not math.isinf(high):
+        return require_between(function_name, label, value, low, high, "deg")  # tilt
+    return (require_positive if low_open else require_nonnegative)(function_name, label, value)
+
+
+def _with_default_tilt(geo: Geometry, inputs: dict) -> dict:
+    """``inputs`` with the geometry's default tilt where it takes one and none is given."""
+    if "tilt" in geo.inputs and inputs.get("tilt") is None and geo.default_tilt is not None:
+        inputs["tilt"] = geo.default_tilt
+    return inputs
 
 
 def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, object]) -> dict:
@@ -445,7 +465,7 @@ def _checked_inputs(function_name: str, geometry: Geometry, raw: Mapping[str, ob
     for name in geometry.inputs:
         if name not in raw:
             raise InputError(function_name, name, None, f'a number for geometry "{geometry.name}"')
-        inputs[name] = _INPUT_CHECKS[name](function_name, raw[name], geometry)
+        inputs[name] = _check_input(function_name, name, raw[name], geometry)
     arrays = np.broadcast_arrays(*inputs.values())
     return {name: array for name, array in zip(inputs, arrays)}
 
@@ -525,8 +545,7 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     else:
         case = None
     method = _resolve_method(function_name, geo, method, case)
-    if "tilt" in geo.inputs and inputs.get("tilt") is None and geo.default_tilt is not None:
-        inputs["tilt"] = geo.default_tilt
+    inputs = _with_default_tilt(geo, inputs)
     plain = _plain_inputs(geo, inputs)
     if plain is not None:  # one case in plain numbers: the scalar path (the same formulas)
         result = _scalar(geo, method, case, plain)
@@ -575,13 +594,8 @@ def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
         if type(value) not in _PLAIN_TYPES:
             return None
         value = float(value)
-        if name == "ra":
-            accepted = 0.0 <= value < math.inf
-        elif name == "tilt":
-            accepted = geo.tilt_range[0] <= value <= geo.tilt_range[1]
-        else:
-            accepted = 0.0 < value < math.inf
-        if not accepted:
+        low, high, low_open = _input_domain(name, geo)
+        if not ((low < value if low_open else low <= value) and value <= high and value < math.inf):
             return None
         values[name] = value
     return values
@@ -661,12 +675,14 @@ def _scalar_result(nu: float, method: str, note: str, blend: str) -> NusseltResu
                          blend=np.array(blend, dtype=object))
 
 
-def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True, ranges: bool = True) -> NusseltResult:
-    """One correlation on 1-D inputs, before the geometry's floor."""
+def _evaluate_one(geo: Geometry, method: str, case, arrays, notes: bool = True, ranges: bool = True,
+                  form: str | None = None) -> NusseltResult:
+    """One correlation (or one published ``form`` of it) on 1-D inputs, before the geometry's
+    floor."""
     corr = CORRELATIONS[(geo.name, method)]
-    args = dict(arrays, case=case) if geo.cases else arrays
+    function = corr.forms[form] if form else corr.function
     size = next(iter(arrays.values())).shape
-    nu = np.asarray(corr.function(**args), dtype=float)
+    nu = np.asarray(function(**(dict(arrays, case=case) if geo.cases else arrays)), dtype=float)
     in_range, note = _range_notes(corr, arrays, case, notes) if ranges else (None, None)
     return NusseltResult(nu=nu if nu.shape == size else np.broadcast_to(nu, size).copy(),
                          method=uniform(method, size), in_range=in_range, note=note)
@@ -679,17 +695,6 @@ def _range_notes(corr: Correlation, arrays, case, notes: bool):
         return np.asarray(note == ""), note
     in_range = corr.inside(arrays, case)
     return in_range, uniform("", in_range.shape)
-
-
-def _single_step(geo: Geometry, case, step: AutoStep, arrays, size, notes: bool, ranges: bool) -> NusseltResult:
-    corr = CORRELATIONS[(geo.name, step.method)]
-    function = corr.forms[step.form] if step.form else corr.function
-    value = np.asarray(function(**(dict(arrays, case=case) if geo.cases else arrays)), dtype=float)
-    nu = value.copy() if value.shape == size else np.broadcast_to(value, size).copy()
-    if geo.floor is not None:
-        nu = np.maximum(nu, geo.floor)
-    in_range, note = _range_notes(corr, arrays, case, notes) if ranges else (None, None)
-    return NusseltResult(nu=nu, method=uniform(step.method, size), in_range=in_range, note=note)
 
 
 def _auto(geo: Geometry, case, arrays, notes: bool = True, ranges: bool = True) -> NusseltResult:
@@ -708,9 +713,9 @@ def _auto(geo: Geometry, case, arrays, notes: bool = True, ranges: bool = True) 
         return NusseltResult(nu=np.empty(0), method=empty, in_range=np.ones(0, dtype=bool), note=empty)
     if len(steps) == 1 and steps[0].when == ():
         # a rule of one unconditional step (most plate cases): its method everywhere, the same
-        # numbers as the loop below gives (0 + 1 x) without its dozen array operations, which
-        # the network solver would pay on every evaluation
-        return _single_step(geo, case, steps[0], arrays, size, notes, ranges)
+        # numbers as the loop below gives (0 + 1 x, floored by the caller) without its dozen
+        # array operations, which the network solver would pay on every evaluation
+        return _evaluate_one(geo, steps[0].method, case, arrays, notes, ranges, form=steps[0].form)
     left = np.ones(size)
     nu = np.zeros(size)
     weights: dict[str, np.ndarray] = {}        # method -> total weight (its forms together)
@@ -896,9 +901,8 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
     (('churchill-chu', 'morgan'), 14.54, 15.18)
     """
     geo = _geometry(function_name, geometry)
-    given = {"ra": ra, "pr": pr, "tilt": tilt, "aspect": aspect, "slenderness": slenderness}
-    if "tilt" in geo.inputs and tilt is None and geo.default_tilt is not None:
-        given["tilt"] = geo.default_tilt
+    given = _with_default_tilt(geo, {"ra": ra, "pr": pr, "tilt": tilt, "aspect": aspect,
+                                     "slenderness": slenderness})
     case = require_choice(function_name, "case", case, geo.cases) if geo.cases else None
     arrays = _checked_inputs(function_name, geo, {k: v for k, v in given.items()
                                                   if k in geo.inputs and v is not None})
