@@ -19,8 +19,9 @@ How the correlations fit together
   vertical value Nu(90) and then applies ONE shared tilt treatment (:func:`tilt_from_vertical`):
   Ayyaswamy & Catton (1973) Nu(t) = Nu(90) (sin t)^(1/4) for the critical tilt t* <= t <= 90, and
   Arnold, Catton & Edwards (1976) Nu(t) = 1 + (Nu(90) - 1) sin t for 90 <= t <= 180.  Both give
-  Nu(90) at 90.  Below t* (see :func:`cavity_critical_tilt`) the vertical methods are out of range;
-  the Ayyaswamy-Catton formula is still evaluated there, with a note.
+  Nu(90) at 90.  Below t* (see :func:`cavity_critical_tilt`) Catton's interpolation between
+  Hollands' horizontal value and the value at t* takes over, as published for H/L < 12; for
+  taller layers the vertical methods are out of range there, with a note.
 * ``en673``: the glazing standard's Nu = A (Gr Pr)^n at its three tabulated tilts.
 * ``conduction``: Nu = 1.
 
@@ -319,7 +320,7 @@ _TILT_SOURCES = ("; tilt: I. Catton, Natural convection in enclosures, Proc. 6th
 
 # --- vertical layers --------------------------------------------------------------------------
 
-_CATTON_SHORT = lambda inputs: inputs["aspect"] < 2.0   # eq. 9.53 band, 1 <= H/L < 2
+_CATTON_SHORT = lambda inputs: inputs["aspect"] < _CATTON_BAND_EDGE   # eq. 9.53 band, 1 <= H/L < 2
 
 
 def _catton_short(ra, pr, aspect):
@@ -356,9 +357,13 @@ def catton_vertical(ra, pr, aspect):
     return where(aspect < _CATTON_BAND_EDGE, _catton_short(ra, pr, aspect), _catton_tall(ra, pr, aspect))
 
 
-def _macgregor_laminar_band(inputs):
+def _in_macgregor_laminar_box(ra, aspect):
     """Eq. 9.54 band: 10 <= H/L and Ra <= 1e7 (its published box); eq. 9.55 elsewhere."""
-    return (inputs["aspect"] >= 10.0) & (inputs["ra"] <= 1e7)
+    return (aspect >= _MACGREGOR_EDGE_ASPECT) & (ra <= _MACGREGOR_EDGE_RA)
+
+
+def _macgregor_laminar_band(inputs):
+    return _in_macgregor_laminar_box(inputs["ra"], inputs["aspect"])
 
 
 def _macgregor_laminar(ra, pr, aspect):
@@ -395,8 +400,8 @@ def _macgregor_turbulent(ra, pr, aspect):
           "the published ranges.")
 def macgregor_emery_vertical(ra, pr, aspect):
     """MacGregor & Emery's vertical-cavity correlations (Incropera 6th ed. eqs. 9.54-9.55)."""
-    return where((aspect >= _MACGREGOR_EDGE_ASPECT) & (ra <= _MACGREGOR_EDGE_RA),
-                    _macgregor_laminar(ra, pr, aspect), _macgregor_turbulent(ra, pr, aspect))
+    return where(_in_macgregor_laminar_box(ra, aspect),
+                 _macgregor_laminar(ra, pr, aspect), _macgregor_turbulent(ra, pr, aspect))
 
 
 @_vertical_correlation(

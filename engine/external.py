@@ -61,8 +61,9 @@ def _cos_tilt(inputs):
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    name="vplate", title="vertical plate", inputs=("ra", "pr"),
+    length="height", length_doc="plate height along the surface, m",
     parameters=(Parameter("height", "m", "plate height along the surface (> 0)"),),
-    name="vplate", title="vertical plate", length="height", length_doc="plate height along the surface, m", inputs=("ra", "pr"),
     description="Vertical plate, Ra on the height. Auto rule: churchill-chu (valid for "
                 "0.1 <= Ra <= 1e12); outside that range churchill-chu is still used, with the note.",
     auto={None: (AutoStep("churchill-chu", when=()),)}))
@@ -112,9 +113,10 @@ def nu_vplate(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArra
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    name="hplate", title="horizontal plate", inputs=("ra", "pr"), cases=PLATE_CASES,
+    length="length", length_doc="area/perimeter of the plate, m",
     parameters=(Parameter("length", "m", "area/perimeter of the plate (> 0)"),
                 FACING_PARAMETER),
-    name="hplate", title="horizontal plate", length="length", length_doc="area/perimeter of the plate, m", inputs=("ra", "pr"), cases=PLATE_CASES,
     description="Horizontal plate, Ra on L = area/perimeter. Cases: hot-up and cold-down "
                 "(unstable: the plume leaves the face), hot-down and cold-up (stable: the fluid is "
                 "trapped against the face). Auto rule: hot-up/cold-down use lloyd-moran, "
@@ -210,10 +212,11 @@ def nu_hplate(ra: ArrayLike, pr: ArrayLike, case: str, method: str = "auto") -> 
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    name="tplate", title="tilted plate", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
+    length="length", length_doc="plate length along the slope, m",
     parameters=(Parameter("length", "m", "plate length along the slope (> 0)"),
                 Parameter("tilt", "deg", "tilt from the vertical, 0 (vertical) to 90 (horizontal)"),
                 FACING_PARAMETER),
-    name="tplate", title="tilted plate", length="length", length_doc="plate length along the slope, m", inputs=("ra", "pr", "tilt"), cases=PLATE_CASES, tilt_range=(0.0, 90.0),
     description="Plate tilted 0..90 deg from the vertical; the case names the face (up/down) and "
                 "whether it is hotter or colder than the fluid. Ra on the one length the caller "
                 "gives: the length along the slope for the vertical-plate term; the horizontal "
@@ -279,8 +282,9 @@ def nu_tplate(ra: ArrayLike, pr: ArrayLike, tilt: ArrayLike, case: str,
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    name="hcyl", title="horizontal cylinder", inputs=("ra", "pr"),
+    length="diameter", length_doc="outside diameter, m",
     parameters=(Parameter("diameter", "m", "outside diameter (> 0)"),),
-    name="hcyl", title="horizontal cylinder", length="diameter", length_doc="outside diameter, m", inputs=("ra", "pr"),
     description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
                 "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
                 "with the note; churchill-chu hands over to morgan across a factor 4 inside its "
@@ -330,8 +334,9 @@ def nu_hcyl(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArray:
 # --------------------------------------------------------------------------------------------
 
 define_geometry(Geometry(
+    name="sphere", title="sphere", inputs=("ra", "pr"),
+    length="diameter", length_doc="diameter, m",
     parameters=(Parameter("diameter", "m", "diameter (> 0)"),),
-    name="sphere", title="sphere", length="diameter", length_doc="diameter, m", inputs=("ra", "pr"),
     description="Sphere, Ra on the diameter. Auto rule: churchill (Ra <= 1e11, Pr >= 0.7); "
                 "outside that range churchill is still used, with the note.",
     auto={None: (AutoStep("churchill", when=()),)}))
@@ -367,9 +372,10 @@ def _thin_cylinder_group(inputs):
 THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
 
 define_geometry(Geometry(
+    name="vcyl", title="vertical cylinder", inputs=("ra", "pr", "slenderness"),
+    length="height", length_doc="cylinder height, m",
     parameters=(Parameter("height", "m", "cylinder height (> 0)"),
                 Parameter("diameter", "m", "outside diameter (> 0)")),
-    name="vcyl", title="vertical cylinder", length="height", length_doc="cylinder height, m", inputs=("ra", "pr", "slenderness"),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
                 "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
