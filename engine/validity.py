@@ -246,34 +246,19 @@ class Range:
     def weight(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         """1 well inside the range, 0 outside, linear (in log for log quantities) across the band."""
         values = self.values(inputs)
-        domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
         weight = None
-        for bound, side in ((self.low, 1.0), (self.high, -1.0)):
-            if math.isinf(bound) or (side > 0 and bound <= domain_low) or (side < 0 and bound >= domain_high):
-                continue
-            if self.log_scale and side > 0 and bound <= 0.0:
-                continue
-            ramp = self._ramp(values, bound, side)
+        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+            if scale == 0.0:  # no band: a step at the bound
+                ramp = (side * (values - bound) >= 0).astype(float)
+            else:
+                # log of a value <= 0 (Ra cos(tilt) heated from above): far below any bound
+                along = values - bound if log_bound is None else np.log(np.maximum(values, 1e-300)) - log_bound
+                # np.minimum/np.maximum: the same as np.clip, several times faster on large arrays
+                ramp = np.minimum(np.maximum(side * along / scale + offset, 0.0), 1.0)
             weight = ramp if weight is None else weight * ramp
         if weight is None:
             return np.ones(np.shape(values))
         return weight
-
-    def _ramp(self, values, bound, side):
-        """Position across the band of one bound, 0 (out) .. 1 (in); ``side`` +1 for a lower
-        bound, -1 for an upper one."""
-        width = self.transition
-        if self.log_scale:
-            if width <= 1.0:
-                return (side * (values - bound) >= 0).astype(float)
-            # log of a value <= 0 (Ra cos(tilt) heated from above): far below any bound
-            distance = side * (np.log(np.maximum(values, 1e-300)) - math.log(bound)) / math.log(width)
-        else:
-            if width <= 0.0:
-                return (side * (values - bound) >= 0).astype(float)
-            distance = side * (values - bound) / width
-        # np.minimum/np.maximum: the same as np.clip, several times faster on large arrays
-        return np.minimum(np.maximum(distance + _OFFSET[self.placement], 0.0), 1.0)
 
     def weight_of(self, value: float) -> float:
         """:meth:`weight` of one plain number (the scalar path; the same arithmetic).
@@ -281,21 +266,17 @@ class Range:
         A value beyond a ramp's ends skips the arithmetic: the clip would give the same 0 or 1.
         """
         weight = 1.0
-        for bound, side, log_bound, log_width, width, offset, full_from, none_from in self._ramps:
+        for bound, side, log_bound, scale, offset, full_from, none_from in self._ramps:
             if side * (value - full_from) >= 0.0:
                 continue
             if side * (value - none_from) <= 0.0:
                 return 0.0
-            if log_width is not None:
-                if log_width == 0.0:
-                    ramp = 1.0 if side * (value - bound) >= 0 else 0.0
-                else:
-                    distance = side * (math.log(value if value > 1e-300 else 1e-300) - log_bound) / log_width
-                    ramp = min(max(distance + offset, 0.0), 1.0)
-            elif width <= 0.0:
+            if scale == 0.0:
                 ramp = 1.0 if side * (value - bound) >= 0 else 0.0
             else:
-                ramp = min(max(side * (value - bound) / width + offset, 0.0), 1.0)
+                along = value - bound if log_bound is None else \
+                    math.log(value if value > 1e-300 else 1e-300) - log_bound
+                ramp = min(max(side * along / scale + offset, 0.0), 1.0)
             weight *= ramp
             if weight == 0.0:
                 break
@@ -303,10 +284,15 @@ class Range:
 
     @property
     def _ramps(self):
-        """The bounds that have a transition, with their constants, computed once.
+        """The bounds that have a transition, computed once: (bound, side, log of the bound or
+        None for a linear quantity, scale, offset, full_from, none_from).
 
-        ``full_from`` and ``none_from`` are where the ramp reaches 1 and 0, each moved a hair
-        outwards (1e-9 relative) so that a value past them is surely clipped to that end.
+        ``side`` is +1 for a lower bound, -1 for an upper one.  ``scale`` is the band's width on
+        the quantity's scale (the log of the factor, or degrees), 0 for a step at the bound;
+        ``offset`` places the band (:data:`_OFFSET`).  ``full_from`` and ``none_from`` are where
+        the ramp reaches 1 and 0, each moved a hair outwards (1e-9 relative) so that a value
+        past them is surely clipped to that end.  A bound at the end of the input's domain, and
+        a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
         """
         try:
             return self.__dict__["_ramp_constants"]
@@ -322,18 +308,18 @@ class Range:
             if self.log_scale:
                 if side > 0 and bound <= 0.0:
                     continue
-                log_width = math.log(width) if width > 1.0 else 0.0
-                full_from = bound * width ** (side * (1.0 - offset)) if log_width else bound
-                none_from = bound * width ** (-side * offset) if log_width else bound
+                scale = math.log(width) if width > 1.0 else 0.0
+                full_from = bound * width ** (side * (1.0 - offset)) if scale else bound
+                none_from = bound * width ** (-side * offset) if scale else bound
                 hair = 1e-9 * bound
-                ramps.append((bound, side, math.log(bound), log_width, width, offset,
+                ramps.append((bound, side, math.log(bound), scale, offset,
                               full_from + side * hair, none_from - side * hair))
             else:
-                reach = max(width, 0.0)
-                hair = 1e-9 * max(abs(bound), reach, 1.0)
-                ramps.append((bound, side, None, None, width, offset,
-                              bound + side * (1.0 - offset) * reach + side * hair,
-                              bound - side * offset * reach - side * hair))
+                scale = max(width, 0.0)
+                hair = 1e-9 * max(abs(bound), scale, 1.0)
+                ramps.append((bound, side, None, scale, offset,
+                              bound + side * (1.0 - offset) * scale + side * hair,
+                              bound - side * offset * scale - side * hair))
         self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
         return self.__dict__["_ramp_constants"]
 
