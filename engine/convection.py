@@ -29,8 +29,8 @@ from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_pr
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .correlations import Geometry
-from .validity import (CorrelationRangeWarning, InputError, distinct_notes, require_between, require_choice,
-                       require_positive, unwrap)
+from .validity import (PLAIN_NUMBERS, CorrelationRangeWarning, InputError, distinct_notes, require_between,
+                       require_choice, require_positive, unwrap)
 
 __all__ = [
     "ConvectionResult",
@@ -148,7 +148,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if geometry == "vcyl" else ()), property_temperature)
             and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
-            and ("tilt" not in geo.inputs or type(tilt) in _PLAIN and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
+            and ("tilt" not in geo.inputs or type(tilt) in PLAIN_NUMBERS and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
                                                               ideal_expansion, function_name)
         inputs = {"ra": ra, "pr": props.prandtl}
@@ -234,8 +234,9 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
+    tilt_low, tilt_high = GEOMETRIES["cavity"].tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
-            and type(tilt) in _PLAIN and 0.0 <= tilt <= 180.0:
+            and type(tilt) in PLAIN_NUMBERS and tilt_low <= tilt <= tilt_high:
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
                                                               function_name)
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
@@ -243,7 +244,7 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
         return _scalar_result(props, t_film, gr, ra, gap, result, "")
     gap = require_positive(function_name, "gap", gap, "m")
     height = require_positive(function_name, "height", height, "m")
-    tilt = require_between(function_name, "tilt", tilt, 0.0, 180.0, "deg")
+    tilt = require_between(function_name, "tilt", tilt, tilt_low, tilt_high, "deg")
     props, t_film, beta = film_properties(t1, t2, gas, pressure, property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
     delta_t = np.subtract(t1, t2, dtype=float)
@@ -262,13 +263,10 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
                             case=uniform("", shape), in_range=result.in_range, note=result.note, blend=result.blend)
 
 
-_PLAIN = (float, int, np.float64)
-
-
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
     """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
     return (property_temperature is None
-            and all(type(v) in _PLAIN and 0.0 < v < math.inf for v in lengths)
+            and all(type(v) in PLAIN_NUMBERS and 0.0 < v < math.inf for v in lengths)
             and plain_state_accepted(gas, temperatures, pressure))
 
 

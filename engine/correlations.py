@@ -46,6 +46,7 @@ from ._typing import ArrayLike
 from .validity import (
     CorrelationRangeWarning,
     InputError,
+    PLAIN_NUMBERS,
     Range,
     format_value,
     require_between,
@@ -582,16 +583,13 @@ def nusselt_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.nd
     return result
 
 
-_PLAIN_TYPES = (float, int, np.float64)
-
-
 def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
     """The inputs as floats when each is a plain number the geometry accepts; else None (the
     array path then checks them and words the message)."""
     values = {}
     for name in geo.inputs:
         value = inputs.get(name)
-        if type(value) not in _PLAIN_TYPES:
+        if type(value) not in PLAIN_NUMBERS:
             return None
         value = float(value)
         low, high, low_open = _input_domain(name, geo)

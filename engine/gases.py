@@ -106,6 +106,7 @@ from ._typing import ArrayLike, FloatOrArray
 from .validity import (
     ABSOLUTE_ZERO_C,
     InputError,
+    PLAIN_NUMBERS,
     Range,
     require_between,
     require_finite,
@@ -886,10 +887,16 @@ def plain_state_accepted(gas: str, temperatures: tuple, pressure: float) -> bool
         mixture = _mixture("", gas)
     except InputError:
         return False
+    return _plain_inside(mixture, temperatures, pressure)
+
+
+def _plain_inside(mixture: "_Mixture", temperatures, pressure) -> bool:
+    """Every temperature and the pressure plain numbers inside the ranges (NaN fails the
+    comparisons)."""
     low, high = mixture.t_range.low, mixture.t_range.high
-    return (type(pressure) in _PLAIN_NUMBERS
+    return (type(pressure) in PLAIN_NUMBERS
             and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
-            and all(type(t) in _PLAIN_NUMBERS and low <= t <= high for t in temperatures))
+            and all(type(t) in PLAIN_NUMBERS and low <= t <= high for t in temperatures))
 
 
 def _checked_state(function: str, mixture: "_Mixture", t, pressure):
@@ -898,9 +905,6 @@ def _checked_state(function: str, mixture: "_Mixture", t, pressure):
     pressure = require_positive(function, "pressure", pressure, "Pa")
     require_between(function, "pressure", pressure, GAS_PRESSURE_RANGE.low, GAS_PRESSURE_RANGE.high, "Pa")
     return np.broadcast_arrays(t, pressure)
-
-
-_PLAIN_NUMBERS = (float, int, np.float64)
 
 
 @lru_cache(maxsize=4096)
@@ -915,11 +919,9 @@ def _state(function: str, gas, t, pressure) -> GasProperties:
     # Fast path for plain scalars inside every range (NaN fails the comparisons): plain
     # comparisons instead of array checks, and a cache of recent states.  Anything else takes
     # the full checks, which also write the error messages.
-    if (type(t) in _PLAIN_NUMBERS and type(pressure) in _PLAIN_NUMBERS
-            and mixture.t_range.low <= t <= mixture.t_range.high
-            and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high):
+    if _plain_inside(mixture, (t,), pressure):
         return _scalar_state(mixture, float(t), float(pressure))
-    if (type(t) is np.ndarray and t.dtype == np.float64 and t.ndim and t.size and type(pressure) in _PLAIN_NUMBERS
+    if (type(t) is np.ndarray and t.dtype == np.float64 and t.ndim and t.size and type(pressure) in PLAIN_NUMBERS
             and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
             and mixture.t_range.low <= t.min() and t.max() <= mixture.t_range.high):
         # a float array inside the range at one plain pressure (NaN fails the comparisons): two
@@ -1040,10 +1042,12 @@ def _range_lines(indent: str) -> str:
                      for gas in GASES.values())
 
 
-def _source_lines(indent: str) -> str:
-    """The reference formulations of every gas, from :data:`GASES`."""
-    lines = [f"{gas.name}: {gas.source}." for gas in GASES.values()]
-    lines.append("Mixtures: ISO 15099:2003, Annex B.")
+def _source_lines(indent: str, names=None) -> str:
+    """The reference formulations of the gases ``names`` (every gas of :data:`GASES`, and the
+    mixing rules, by default)."""
+    lines = [f"{gas.name}: {gas.source}." for gas in GASES.values() if names is None or gas.name in names]
+    if names is None:
+        lines.append("Mixtures: ISO 15099:2003, Annex B.")
     return "\n".join(textwrap.fill(line, 92, initial_indent=indent,
                                    subsequent_indent=indent + "    ") for line in lines)
 
@@ -1068,7 +1072,7 @@ def _docstring(info: GasPropertyInfo, for_air: bool) -> str:
                    if info.name == "expansion" else "")
     if for_air:
         t_doc = f"Temperature in °C, {GASES['air'].t_range.low:g} to {GASES['air'].t_range.high:g}."
-        sources = _source_lines("")[: _source_lines("").index("\nargon")]
+        sources = _source_lines("", ("air",))
         call, shown = f"stillair.{name}(20.0)", info.examples[0]
     else:
         t_doc = ("Temperature in °C; valid temperatures per gas (a mixture: where all its\n"

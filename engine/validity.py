@@ -160,6 +160,11 @@ def distinct_notes(notes) -> list[str]:
     return list(dict.fromkeys(note for note in np.atleast_1d(notes).ravel() if note))
 
 
+#: The types a scalar path takes as one plain number (a bool is not one: the checks refuse a
+#: logical value with a message).
+PLAIN_NUMBERS = (float, int, np.float64)
+
+
 def unwrap(array):
     """Return a Python float for 0-d results, the array otherwise."""
     array = np.asarray(array)
