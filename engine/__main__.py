@@ -10,7 +10,6 @@ with film-temperature properties per branch.
 from __future__ import annotations
 
 import math
-
 import sys
 
 from . import solve_network
@@ -31,12 +30,13 @@ BRANCHES = [
     ["store-conv",  "store-face",  "store",      "vplate",     HEIGHT, AREA,    None, None, None, None],
     ["store-rad",   "store-face",  "store",      "radiation",  0.9,    None,    AREA, None, None, None],
 ]
-BOUNDARIES = [["office", "T", 21.0], ["store", "T", 4.0]]
+OFFICE, STORE = 21.0, 4.0  # room temperatures, °C
+BOUNDARIES = [["office", "T", OFFICE], ["store", "T", STORE]]
 
 
 def main() -> None:
     result = solve_network(BRANCHES, BOUNDARIES)
-    print("Partition with a sealed 70 mm air cavity, office 21 °C | store 4 °C (demo case)")
+    print(f"Partition with a sealed 70 mm air cavity, office {OFFICE:g} °C | store {STORE:g} °C (demo case)")
     print(f"solved in {result.iterations} iterations, energy residual {result.residual:.1e} W\n")
     print(f"{'node':<12}{'T °C':>9}")
     for node, temperature in result.temperatures.items():
@@ -48,7 +48,7 @@ def main() -> None:
         nu = "" if math.isnan(branch.Nu) else f"{branch.Nu:.2f}"
         print(f"{name:<13}{heat:>9.2f}{h:>10}{nu:>8}  {branch.method or ''}")
     total = result.heat["board-1"]
-    print(f"\nheat through the partition {total:.1f} W, U = {total / (AREA * 17.0):.3f} W/(m²·K)")
+    print(f"\nheat through the partition {total:.1f} W, U = {total / (AREA * (OFFICE - STORE)):.3f} W/(m²·K)")
     for note in result.notes:
         print(f"note: {note}")
 
