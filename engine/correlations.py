@@ -907,8 +907,8 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
     shape = next(iter(arrays.values())).shape
     flat = {k: v.ravel() for k, v in arrays.items()}
     names, values = [], []
-    for method in methods_for(geometry, case):
-        corr = CORRELATIONS[(geometry, method)]
+    for method in methods_for(geo.name, case):
+        corr = CORRELATIONS[(geo.name, method)]
         args = dict(flat, case=case) if geo.cases else flat
         nu = np.broadcast_to(np.asarray(corr.function(**args), dtype=float), flat["ra"].shape)
         if geo.floor is not None:

@@ -48,6 +48,13 @@ def test_no_covering_correlation_gives_nan_and_count_zero():
     assert math.isnan(spread.low) and math.isnan(spread.high)
 
 
+@pytest.mark.parametrize("typed", ["VCYL", " VCyl "])
+def test_the_geometry_name_is_read_as_every_function_reads_it(typed):
+    """Case and spaces are free in a geometry name (common practice of the cell functions)."""
+    assert stillair.nu_spread(typed, 1e6, 0.71, slenderness=10.0) == stillair.nu_spread(
+        "vcyl", 1e6, 0.71, slenderness=10.0)
+
+
 def test_cavity_tilt_defaults_to_vertical_like_nu_cavity():
     assert stillair.nu_spread("cavity", 1e5, 0.71, aspect=20.0) == stillair.nu_spread(
         "cavity", 1e5, 0.71, aspect=20.0, tilt=90.0)
