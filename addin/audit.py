@@ -44,6 +44,8 @@ import time
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
+from .cachewriter import ERROR_VALUES
+
 __all__ = ["KINDS", "Finding", "AuditResult", "audit_book", "format_table", "to_json",
            "write_report", "add_audit_parser", "run_audit", "main", "recognise_call", "calls_in",
            "normalise_formula", "Call", "differs",
@@ -58,8 +60,6 @@ KINDS = ("mismatch", "template-drift", "error", "unknown-function", "cannot-eval
          "out-of-range", "stale", "version")
 _SEVERITY = {kind: i for i, kind in enumerate(KINDS)}
 MARKER_NAME = "stillair_template"
-_ERROR_VALUES = {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
-                 "#GETTING_DATA", "#SPILL!", "#CALC!"}
 
 
 def default_templates_dir() -> Path:
@@ -182,7 +182,7 @@ def _stored(value):
 
 
 def _is_error(value) -> bool:
-    return isinstance(value, str) and value.strip() in _ERROR_VALUES
+    return isinstance(value, str) and value.strip() in ERROR_VALUES
 
 
 def relative_difference(cached: float, computed: float) -> float:
