@@ -168,10 +168,6 @@ class Records:
                 yield self.get((sheet.name, ref))
 
 
-def records(book) -> Records:
-    return Records(book)
-
-
 def _stored(value):
     from .xlsx import CellError
     return str(value) if isinstance(value, CellError) else value
@@ -261,7 +257,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     with open(path, "rb") as handle:
         for chunk in iter(lambda: handle.read(1 << 20), b""):
             digest.update(chunk)
-    cells = records(book)
+    cells = Records(book)
     read_done = time.perf_counter()
 
     from .headless import Model
@@ -487,7 +483,7 @@ def _pristine_template(result, book, templates_dir):
             "version", "", f"the workbook was made from template {marker!r}; the installed "
             f"template is {installed!r}, so drift is not checked"))
         return None
-    return _Pristine(marker, pristine_book, records(pristine_book))
+    return _Pristine(marker, pristine_book, Records(pristine_book))
 
 
 def _inputs_changed(book, pristine) -> bool:

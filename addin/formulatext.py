@@ -338,10 +338,6 @@ class _LazyPrepared(Prepared):
             self._text = _prepare(*self._source).text
         return self._text
 
-    @text.setter
-    def text(self, value):
-        self._text = value
-
 
 def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
     """For each reference of ``prepared``, the indices in ``cells`` of its written corners

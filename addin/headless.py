@@ -468,20 +468,6 @@ class Model:
                     todo.append(dep)
         return seen
 
-    def precedents(self, key) -> set:
-        """Formula cells a cell reads directly or through names."""
-        found, todo, seen = set(), list(self.nodes[key].deps) if key in self.nodes else [], set()
-        while todo:
-            dep = todo.pop()
-            if dep in seen:
-                continue
-            seen.add(dep)
-            if dep[0] == "#name":
-                todo.extend(self.nodes[dep].deps if dep in self.nodes else ())
-            else:
-                found.add(dep)
-        return found
-
     # -- calculating ----------------------------------------------------------------------
 
     def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:

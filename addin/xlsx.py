@@ -101,10 +101,6 @@ class Sheet:
     last_row: int = 0                             # the used range: last row and column with content
     last_col: int = 0
 
-    @property
-    def constants(self) -> dict[str, object]:
-        return self.values
-
     def formula_refs(self) -> list[str]:
         """Every cell whose value a formula computes (array ranges expanded), row-major."""
         refs = set(self.formulas)
@@ -139,29 +135,6 @@ class Book:
     @property
     def saved_by_libreoffice(self) -> bool:
         return "libreoffice" in self.application.lower() or "openoffice" in self.application.lower()
-
-
-def _open(path: str) -> zipfile.ZipFile:
-    try:
-        archive = zipfile.ZipFile(path)
-    except FileNotFoundError:
-        raise BookError(f"{path}: no such file") from None
-    except IsADirectoryError:
-        raise BookError(f"{path}: is a directory, not a workbook") from None
-    except (zipfile.BadZipFile, OSError, ValueError, EOFError) as error:
-        raise BookError(f"{path}: not an .xlsx/.xlsm workbook ({error})") from None
-    if "xl/workbook.xml" not in archive.namelist():
-        archive.close()
-        raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and .xlsb "
-                        "are not supported)")
-    from .safezip import UnsafeWorkbook, check_archive  # workbooks come from other people
-
-    try:
-        check_archive(archive, path)
-    except UnsafeWorkbook as error:
-        archive.close()
-        raise BookError(str(error)) from None
-    return archive
 
 
 def read_book(path: str) -> Book:
