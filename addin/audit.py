@@ -344,13 +344,14 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
 
     sheet_index = {s.name: i for i, s in enumerate(book.sheets)}
     ordered = sorted(checked, key=lambda k: (sheet_index.get(k[0], 0), split_ref(k[1])))
-    unknown_cells = {k for k in ordered if any(c.unknown for c in calls_in(model.nodes[k].text))}
+    calls_of = {k: calls_in(model.nodes[k].text) for k in ordered}
+    unknown_cells = {k for k, calls in calls_of.items() if any(c.unknown for c in calls)}
     inputs_changed = pristine is not None and _inputs_changed(book, pristine)
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
         formula = "=" + node.text
-        calls = calls_in(node.text)
+        calls = calls_of[key]
         before = len(result.findings)
         members = expand_range(record.array_ref) if record and record.array_ref else [key[1]]
         result.checked.extend(_label(key[0], m) for m in members)
