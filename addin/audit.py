@@ -518,8 +518,9 @@ def _template_drift(result, book, cells, pristine) -> None:
             continue
         now = cells.get((sheet, original.ref))
         if now is not None and now.formula is not None:
-            if normalise_formula(now.formula) == normalise_formula(original.formula):
-                continue
+            if now.formula == original.formula or \
+                    normalise_formula(now.formula) == normalise_formula(original.formula):
+                continue   # the same text needs no tokenising to mean the same
             message = f"formula edited: now {now.formula}, template {original.formula}"
             cached = now.cached
         elif now is not None and now.has_cached:
