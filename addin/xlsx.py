@@ -147,7 +147,9 @@ def read_book(path: str) -> Book:
     except UnsafeWorkbook as error:
         raise BookError(str(error)) from None
     with archive:
-        if "xl/workbook.xml" not in archive.namelist():
+        members = archive.namelist()
+        present = set(members)   # up to safezip's 10,000 members, looked up once per sheet
+        if "xl/workbook.xml" not in present:
             raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and "
                             ".xlsb are not supported)")
         try:
@@ -165,7 +167,7 @@ def read_book(path: str) -> Book:
             target = targets.get(element.get(f"{{{_NS_REL}}}id"), "")
             part = target.lstrip("/") if target.startswith("/") else posixpath.normpath(
                 posixpath.join("xl", target))
-            if part not in archive.namelist():
+            if part not in present:
                 continue  # a chart sheet or a dangling relationship
             sheet = Sheet(element.get("name"), part)
             try:
@@ -183,10 +185,10 @@ def read_book(path: str) -> Book:
                 and int(local) < len(sheet_names) else None,
                 element.get("hidden") in ("1", "true")))
         application = ""
-        if "docProps/app.xml" in archive.namelist():
+        if "docProps/app.xml" in present:
             m = re.search(rb"<(?:\w+:)?Application>([^<]*)<", archive.read("docProps/app.xml"))
             application = _unescape(m.group(1).decode("utf-8", "replace")) if m else ""
-        return Book(path, sheets, names, archive.namelist(), application)
+        return Book(path, sheets, names, members, application)
 
 
 def _shared_strings(archive: zipfile.ZipFile, path: str) -> list[str]:
