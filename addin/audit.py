@@ -119,11 +119,7 @@ class AuditResult:
 # Recognising our functions: the one grammar of stillair.addin.formulatext
 
 from .formulatext import Call, calls_in, normalise_formula, recognise_call  # noqa: E402
-
-
-def _registry():
-    from .registry import BY_NAME
-    return BY_NAME
+from .formulatext import _families, _registry  # noqa: E402  (the grammar's own look-ups)
 
 
 @dataclass
@@ -304,7 +300,6 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
 def _maybe_ours():
     """A quick test a formula must pass before it is tokenised to look for our calls: one of our
     name families, or an add-in prefix form."""
-    from .formulatext import _families
     families = "|".join(re.escape(f) for f in sorted(set(_families()) | set(_registry()),
                                                     key=len, reverse=True))
     return re.compile(rf"(?i)(?:{families})[\w.]*\s*\(|_xll\.|_xludf\.|!\s*[A-Za-z_][\w.]*\s*\(")
