@@ -210,13 +210,14 @@ def _nu_note(nusselt, kwargs):
     method = kwargs.pop("method")
     case = kwargs.pop("case")
     _aspect_as_slenderness(geometry, kwargs)
-    inputs = {k: v for k, v in kwargs.items() if k in GEOMETRIES[geometry].inputs}
-    if geometry == "cavity" and inputs.get("tilt") is None:
-        inputs["tilt"] = 90.0
-    for name in GEOMETRIES[geometry].inputs:
+    spec = GEOMETRIES[geometry]
+    inputs = {k: v for k, v in kwargs.items() if k in spec.inputs}
+    if "tilt" in spec.inputs and inputs.get("tilt") is None and spec.default_tilt is not None:
+        inputs["tilt"] = spec.default_tilt   # the geometry's own blank tilt (cavity: 90)
+    for name in spec.inputs:
         if inputs.get(name) is None:
             raise InputError("nu_note", "aspect" if name == "slenderness" else name, None, f'a number for geometry "{geometry}"')
-    result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
+    result = nusselt(geometry, method, case if spec.cases else None,
                      function_name="nu_note", **inputs).scalar()
     if result.in_range:
         # a blend names every correlation that carries weight ("auto blend of a and b")
