@@ -44,6 +44,8 @@ import time
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
+from .cachewriter import ERROR_VALUES
+
 __all__ = ["KINDS", "Finding", "AuditResult", "audit_book", "format_table", "to_json",
            "write_report", "add_audit_parser", "run_audit", "main", "recognise_call", "calls_in",
            "normalise_formula", "Call", "differs",
@@ -58,8 +60,6 @@ KINDS = ("mismatch", "template-drift", "error", "unknown-function", "cannot-eval
          "out-of-range", "stale", "version")
 _SEVERITY = {kind: i for i, kind in enumerate(KINDS)}
 MARKER_NAME = "stillair_template"
-_ERROR_VALUES = {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
-                 "#GETTING_DATA", "#SPILL!", "#CALC!"}
 
 
 def default_templates_dir() -> Path:
@@ -119,11 +119,7 @@ class AuditResult:
 # Recognising our functions: the one grammar of stillair.addin.formulatext
 
 from .formulatext import Call, calls_in, normalise_formula, recognise_call  # noqa: E402
-
-
-def _registry():
-    from .registry import BY_NAME
-    return BY_NAME
+from .formulatext import _families, _registry  # noqa: E402  (the grammar's own look-ups)
 
 
 @dataclass
@@ -168,10 +164,6 @@ class Records:
                 yield self.get((sheet.name, ref))
 
 
-def records(book) -> Records:
-    return Records(book)
-
-
 def _stored(value):
     from .xlsx import CellError
     return str(value) if isinstance(value, CellError) else value
@@ -182,7 +174,7 @@ def _stored(value):
 
 
 def _is_error(value) -> bool:
-    return isinstance(value, str) and value.strip() in _ERROR_VALUES
+    return isinstance(value, str) and value.strip() in ERROR_VALUES
 
 
 def relative_difference(cached: float, computed: float) -> float:
@@ -261,7 +253,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     with open(path, "rb") as handle:
         for chunk in iter(lambda: handle.read(1 << 20), b""):
             digest.update(chunk)
-    cells = records(book)
+    cells = Records(book)
     read_done = time.perf_counter()
 
     from .headless import Model
@@ -308,7 +300,6 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
 def _maybe_ours():
     """A quick test a formula must pass before it is tokenised to look for our calls: one of our
     name families, or an add-in prefix form."""
-    from .formulatext import _families
     families = "|".join(re.escape(f) for f in sorted(set(_families()) | set(_registry()),
                                                     key=len, reverse=True))
     return re.compile(rf"(?i)(?:{families})[\w.]*\s*\(|_xll\.|_xludf\.|!\s*[A-Za-z_][\w.]*\s*\(")
@@ -348,13 +339,14 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
 
     sheet_index = {s.name: i for i, s in enumerate(book.sheets)}
     ordered = sorted(checked, key=lambda k: (sheet_index.get(k[0], 0), split_ref(k[1])))
-    unknown_cells = {k for k in ordered if any(c.unknown for c in calls_in(model.nodes[k].text))}
+    calls_of = {k: calls_in(model.nodes[k].text) for k in ordered}
+    unknown_cells = {k for k, calls in calls_of.items() if any(c.unknown for c in calls)}
     inputs_changed = pristine is not None and _inputs_changed(book, pristine)
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
         formula = "=" + node.text
-        calls = calls_in(node.text)
+        calls = calls_of[key]
         before = len(result.findings)
         members = expand_range(record.array_ref) if record and record.array_ref else [key[1]]
         result.checked.extend(_label(key[0], m) for m in members)
@@ -487,7 +479,7 @@ def _pristine_template(result, book, templates_dir):
             "version", "", f"the workbook was made from template {marker!r}; the installed "
             f"template is {installed!r}, so drift is not checked"))
         return None
-    return _Pristine(marker, pristine_book, records(pristine_book))
+    return _Pristine(marker, pristine_book, Records(pristine_book))
 
 
 def _inputs_changed(book, pristine) -> bool:
@@ -521,8 +513,9 @@ def _template_drift(result, book, cells, pristine) -> None:
             continue
         now = cells.get((sheet, original.ref))
         if now is not None and now.formula is not None:
-            if normalise_formula(now.formula) == normalise_formula(original.formula):
-                continue
+            if now.formula == original.formula or \
+                    normalise_formula(now.formula) == normalise_formula(original.formula):
+                continue   # the same text needs no tokenising to mean the same
             message = f"formula edited: now {now.formula}, template {original.formula}"
             cached = now.cached
         elif now is not None and now.has_cached:

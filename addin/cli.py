@@ -94,7 +94,7 @@ def _format(value) -> str:
 
 def _summary_cells(evaluation):
     """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
-    from .headless import _quote
+    from .headless import label
     from .xlsx import split_ref
 
     rows = []
@@ -105,7 +105,7 @@ def _summary_cells(evaluation):
         last_row = max(split_ref(ref)[0] for ref in cells)
         for ref in sorted(cells, key=split_ref):
             if split_ref(ref)[0] == last_row:
-                rows.append((f"{_quote(sheet.name)}!{ref}", cells[ref]))
+                rows.append((label(sheet.name, ref), cells[ref]))
     return rows
 
 

@@ -232,27 +232,35 @@ def _builtins() -> frozenset:
 _PARSER_FUNCTIONS = {"LET", "LAMBDA"}
 
 
+# The prefixes newer Excel versions write before a built-in's name (_xlfn.IFS, _xlfn._xlws.SORT).
+_EXCEL_PREFIX = re.compile(r"^(?:_XLFN\.)?(?:_XLWS\.)?")
+
+
+def _bare(name: str) -> str:
+    """A built-in's name in upper case without the _xlfn. / _xlws. prefixes."""
+    return _EXCEL_PREFIX.sub("", name.upper())
+
+
+@functools.lru_cache(maxsize=4096)
 def _builtin_name(name: str) -> str | None:
     """The name ``formulas`` knows a built-in by, or None when it has no implementation."""
     upper = name.upper()
-    known = _builtins()
-    if re.sub(r"^(?:_XLFN\.)?(?:_XLWS\.)?", "", upper) in _PARSER_FUNCTIONS:
+    bare = _bare(name)
+    if bare in _PARSER_FUNCTIONS:
         return upper
-    candidates = [upper]
-    bare = re.sub(r"^(?:_XLFN\.)?(?:_XLWS\.)?", "", upper)
-    candidates += [bare, "_XLFN." + bare, "_XLFN._XLWS." + bare]
-    for candidate in candidates:
+    known = _builtins()
+    for candidate in (upper, bare, "_XLFN." + bare, "_XLFN._XLWS." + bare):
         if candidate in known:
             return candidate
     return None
 
 
 def _problem_of_function(name: str) -> str:
-    bare = re.sub(r"^(?:_xlfn\.)?(?:_xlws\.)?", "", name, flags=re.I)
-    if bare.upper() in _DYNAMIC:
-        return f"{_DYNAMIC[bare.upper()]}; it is not supported headlessly"
+    bare = _bare(name)
+    if bare in _DYNAMIC:
+        return f"{_DYNAMIC[bare]}; it is not supported headlessly"
     newer = " (a newer Excel function)" if name.lower().startswith("_xlfn.") else ""
-    return f"function {bare.upper()}{newer} is not available headlessly"
+    return f"function {bare}{newer} is not available headlessly"
 
 
 # A cell reference outside a string: A1, $A1, A$1, $A$1 (not part of a name, a number written
@@ -338,10 +346,6 @@ class _LazyPrepared(Prepared):
             self._text = _prepare(*self._source).text
         return self._text
 
-    @text.setter
-    def text(self, value):
-        self._text = value
-
 
 def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
     """For each reference of ``prepared``, the indices in ``cells`` of its written corners
@@ -404,11 +408,11 @@ def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int,
                 note(f"{call.prefix}{call.name} is not a stillair function")
             else:
                 name = value[:-1]
-                bare = re.sub(r"^(?:_xlfn\.)?(?:_xlws\.)?", "", name, flags=re.I).upper()
-                if bare in _DYNAMIC or _builtin_name(name) is None:
+                builtin = None if _bare(name) in _DYNAMIC else _builtin_name(name)
+                if builtin is None:
                     note(_problem_of_function(name))
                 else:
-                    value = _builtin_name(name) + "("
+                    value = builtin + "("
             if stack:
                 stack[-1][1] = False
             stack.append([call is not None and call.ours, True, value])
@@ -537,7 +541,7 @@ def normalise_formula(formula: str) -> str:
             elif call is not None:
                 value = (call.prefix + call.name).upper() + "("
             else:
-                value = re.sub(r"^(?:_xlfn\.)?(?:_xlws\.)?", "", value[:-1], flags=re.I).upper() + "("
+                value = _bare(value[:-1]) + "("
         elif kind == "OPERAND" and sub == "NUMBER":
             value = _number(value)
         elif kind == "OPERAND" and sub == "RANGE":

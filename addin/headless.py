@@ -240,7 +240,8 @@ class _Node:
     prepared: object = None     # formulatext.Prepared
     array: tuple | None = None  # (r1, c1, r2, c2) for an array formula
     deps: set = field(default_factory=set)
-    inputs: list = field(default_factory=list)   # per formula input: ("area", sheet, r1..) / node
+    sources: list = field(default_factory=list)  # per reference: the sheet an area is on (None:
+                                                 # no such sheet), a name's node key (None: undefined)
     compiled: object = None
     problem: str | None = None
     name: str | None = None     # a defined name's node: its label
@@ -344,14 +345,17 @@ class Model:
         if prepared.problem:
             node.problem = prepared.problem
         for reference in prepared.references:
+            source = None
             if reference.kind == "area":
-                node.deps |= self._area_deps(reference, node.sheet)
+                source = self.sheet_case.get((reference.sheet or node.sheet).upper())
+                node.deps |= self._area_deps(source, reference)
             elif reference.kind == "name":
-                target = self._resolve_name(reference, node.sheet)
-                if target is None:
+                source = self._resolve_name(reference, node.sheet)
+                if source is None:
                     node.problem = node.problem or f"the name {reference.name} is not defined"
                 else:
-                    node.deps.add(target)
+                    node.deps.add(source)
+            node.sources.append(source)
 
     def _resolve_name(self, reference: Reference, sheet: str):
         """A name as Excel resolves it: the formula's sheet's own name first, then the
@@ -366,9 +370,8 @@ class Model:
             return ("#name", None, upper)
         return None
 
-    def _area_deps(self, reference: Reference, sheet: str) -> set:
+    def _area_deps(self, target: str | None, reference: Reference) -> set:
         from bisect import bisect_left, bisect_right
-        target = self.sheet_case.get((reference.sheet or sheet).upper())
         if target is None:
             return set()
         found = set()
@@ -468,20 +471,6 @@ class Model:
                     todo.append(dep)
         return seen
 
-    def precedents(self, key) -> set:
-        """Formula cells a cell reads directly or through names."""
-        found, todo, seen = set(), list(self.nodes[key].deps) if key in self.nodes else [], set()
-        while todo:
-            dep = todo.pop()
-            if dep in seen:
-                continue
-            seen.add(dep)
-            if dep[0] == "#name":
-                todo.extend(self.nodes[dep].deps if dep in self.nodes else ())
-            else:
-                found.add(dep)
-        return found
-
     # -- calculating ----------------------------------------------------------------------
 
     def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:
@@ -556,11 +545,10 @@ class Model:
         for key, node in self.nodes.items():
             if needed is not None and key not in needed or node.prepared is None:
                 continue
-            for reference in node.prepared.references:
+            for reference, source in zip(node.prepared.references, node.sources):
                 if reference.kind != "area":
                     continue
-                sheet = self.sheets.get(self.sheet_case.get((reference.sheet or node.sheet).upper(),
-                                                            ""))
+                sheet = self.sheets.get(source)
                 if sheet is None:
                     continue
                 rows = max(0, min(reference.r2, sheet.last_row) - reference.r1 + 1)
@@ -606,16 +594,14 @@ class Model:
         args = []
         scale = 0.0
         for position in positions:
-            reference = node.prepared.references[position]
+            reference, source = node.prepared.references[position], node.sources[position]
             if reference.kind == "area":
-                sheet_name = self.sheet_case.get((reference.sheet or node.sheet).upper())
-                if sheet_name is None:
+                if source is None:
                     args.append(np.asarray([[_xl_error("#REF!")]], dtype=object))
                     continue
-                arg = area_values(sheet_name, reference)
+                arg = area_values(source, reference)
             else:
-                target = self._resolve_name(reference, node.sheet)
-                arg = self._name_value(target, values, area_values)
+                arg = self._name_value(source, values, area_values)
             scale = max(scale, _magnitude(arg))
             args.append(arg)
         recorder.current = where
@@ -705,11 +691,9 @@ class Model:
         if node is not None and node.prepared is not None and len(node.prepared.references) == 1 \
                 and node.prepared.references[0].kind == "area" and \
                 _is_plain_reference(node.prepared.text):
-            reference = node.prepared.references[0]
-            sheet_name = self.sheet_case.get((reference.sheet or node.sheet).upper())
-            if sheet_name is None:
+            if node.sources[0] is None:
                 return np.asarray([[_xl_error("#REF!")]], dtype=object)
-            return area_values(sheet_name, reference)
+            return area_values(node.sources[0], node.prepared.references[0])
         return np.asarray([[_xl_error("#NAME?")]], dtype=object)
 
     def _evaluation(self, values, results, recorder, sets, seconds) -> Evaluation:
@@ -755,7 +739,7 @@ class Model:
 
     def _named_value(self, name, node_key, values, by_sheet, sets):
         text = name.text.strip().lstrip("=")
-        reference = parse_reference(text) if not re.search(r"[(),+*/&^<>=\-\"]", text) else None
+        reference = parse_reference(text) if _is_plain_reference(text) else None
         if reference is None or reference.kind != "area" or reference.sheet is None:
             value = values.get(node_key)
             return _plain(value) if value is not None and not hasattr(value, "shape") else None

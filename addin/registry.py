@@ -209,20 +209,36 @@ def _nu_note(nusselt, kwargs):
                          "one of " + ", ".join(f'"{name}"' for name in GEOMETRIES))
     method = kwargs.pop("method")
     case = kwargs.pop("case")
-    if "slenderness" in GEOMETRIES[geometry].inputs:  # the one ratio argument serves both shapes
-        kwargs["slenderness"] = kwargs.pop("aspect")
-    inputs = {k: v for k, v in kwargs.items() if k in GEOMETRIES[geometry].inputs}
-    if geometry == "cavity" and inputs.get("tilt") is None:
-        inputs["tilt"] = 90.0
-    for name in GEOMETRIES[geometry].inputs:
+    _aspect_as_slenderness(geometry, kwargs)
+    spec = GEOMETRIES[geometry]
+    inputs = {k: v for k, v in kwargs.items() if k in spec.inputs}
+    if "tilt" in spec.inputs and inputs.get("tilt") is None and spec.default_tilt is not None:
+        inputs["tilt"] = spec.default_tilt   # the geometry's own blank tilt (cavity: 90)
+    for name in spec.inputs:
         if inputs.get(name) is None:
             raise InputError("nu_note", "aspect" if name == "slenderness" else name, None, f'a number for geometry "{geometry}"')
-    result = nusselt(geometry, method, case if GEOMETRIES[geometry].cases else None,
+    result = nusselt(geometry, method, case if spec.cases else None,
                      function_name="nu_note", **inputs).scalar()
     if result.in_range:
         # a blend names every correlation that carries weight ("auto blend of a and b")
         return f"in range ({result.blend or result.method})"
     return str(result.note)
+
+
+# The case and tilt of a function that takes any geometry (NU_NOTE, NU_SPREAD).
+ANY_PLATE_CASE = Arg("plate_case", "Plate case for hplate and tplate (hot-up, hot-down, cold-up, "
+                     "cold-down); blank otherwise.", kind="text", default=None, engine_name="case")
+ANY_TILT = Arg("tilt", "Tilt in degrees: from the vertical for tplate, from the horizontal "
+               "for cavity (blank 90); blank otherwise.", "°", default=None)
+
+
+def _aspect_as_slenderness(geometry, kwargs) -> None:
+    """The one shape-ratio cell ("aspect") of a function that takes any geometry is a vertical
+    cylinder's slenderness height/diameter."""
+    from stillair import GEOMETRIES
+    spec = GEOMETRIES.get(geometry.strip().lower()) if isinstance(geometry, str) else None
+    if spec is not None and "slenderness" in spec.inputs:
+        kwargs["slenderness"] = kwargs.pop("aspect")
 
 
 def _geometry_choices() -> str:
@@ -264,10 +280,7 @@ _entries += [
                  CATEGORIES["nusselt"], result="text"),
     CellFunction("NU_NOTE", "nusselt",
                  (Arg("geometry", f"Geometry: {_geometry_choices()}.", kind="text"), RA, PR,
-                  Arg("plate_case", "Plate case for hplate and tplate (hot-up, hot-down, cold-up, "
-                      "cold-down); blank otherwise.", kind="text", default=None, engine_name="case"),
-                  Arg("tilt", "Tilt in degrees: from the vertical for tplate, from the horizontal "
-                      "for cavity (blank 90); blank otherwise.", "°", default=None),
+                  ANY_PLATE_CASE, ANY_TILT,
                   Arg("aspect", "Shape ratio: height/gap for cavity, height/diameter for vcyl; "
                       "blank otherwise.", default=None),
                   Arg("method", "Correlation name as for the NU_ functions; blank or \"auto\".",
@@ -438,45 +451,16 @@ _entries += [
                  "(solved from HEATSINK_Q).", CATEGORIES["heatsinks"], unit="°C"),
 ]
 
-REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
-BY_NAME: dict[str, CellFunction] = {f.name: f for f in REGISTRY}
-del _entries
-
-
-def lookup(name: str) -> CellFunction:
-    return BY_NAME[name.upper()]
-
-
 # ---------------------------------------------------------------------------------------------
-# The spread of the published correlations (appended: one entry, nothing above changes)
+# The spread of the published correlations, and the network's correlation band
 
 
 def _nu_spread_row(nu_spread, kwargs):
     """One row: low, high, count, the covering methods (lowest Nu first).  For a vertical
     cylinder the aspect cell is its slenderness height/diameter."""
-    geometry = kwargs["geometry"]
-    if isinstance(geometry, str) and geometry.strip().lower() == "vcyl":
-        kwargs["slenderness"] = kwargs.pop("aspect")
+    _aspect_as_slenderness(kwargs["geometry"], kwargs)
     spread = nu_spread(**kwargs)
     return [[spread.low, spread.high, spread.count, spread.text]]
-
-
-_SPREAD_ENTRY = CellFunction(
-    "NU_SPREAD", "nu_spread",
-    (Arg("geometry", "Geometry: vplate, hplate, tplate, hcyl, sphere, vcyl or cavity.", kind="text"),
-     RA, PR) + BY_NAME["NU_NOTE"].args[3:5] + (  # plate_case and tilt as NU_NOTE reads them
-     Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
-         default=None),),
-    "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
-    "how many cover it, the methods (lowest first). Not a confidence interval. Tilt from the "
-    "vertical for tplate, from the horizontal for cavity.",
-    CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row)
-REGISTRY = REGISTRY + (_SPREAD_ENTRY,)
-BY_NAME[_SPREAD_ENTRY.name] = _SPREAD_ENTRY
-
-
-# ---------------------------------------------------------------------------------------------
-# The network's correlation band (appended: one entry, nothing above changes)
 
 
 def _net_band(solve, kwargs):
@@ -485,11 +469,29 @@ def _net_band(solve, kwargs):
     return pick_band(solve(band=True, **kwargs), node)
 
 
-_BAND_ENTRY = CellFunction(
-    "NET_BAND", "solve_network",
-    _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
-    "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
-    "in-range correlations: one row, low and high. The spread of published correlations, not a "
-    "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band)
-REGISTRY = REGISTRY + (_BAND_ENTRY,)
-BY_NAME[_BAND_ENTRY.name] = _BAND_ENTRY
+_entries += [
+    CellFunction(
+        "NU_SPREAD", "nu_spread",
+        (Arg("geometry", "Geometry: vplate, hplate, tplate, hcyl, sphere, vcyl or cavity.", kind="text"),
+         RA, PR, ANY_PLATE_CASE, ANY_TILT,
+         Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
+             default=None)),
+        "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
+        "how many cover it, the methods (lowest first). Not a confidence interval. Tilt from the "
+        "vertical for tplate, from the horizontal for cavity.",
+        CATEGORIES["nusselt"], result="table", invoke=_nu_spread_row),
+    CellFunction(
+        "NET_BAND", "solve_network",
+        _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
+        "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
+        "in-range correlations: one row, low and high. The spread of published correlations, not a "
+        "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band),
+]
+
+REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
+BY_NAME: dict[str, CellFunction] = {f.name: f for f in REGISTRY}
+del _entries
+
+
+def lookup(name: str) -> CellFunction:
+    return BY_NAME[name.upper()]

@@ -101,10 +101,6 @@ class Sheet:
     last_row: int = 0                             # the used range: last row and column with content
     last_col: int = 0
 
-    @property
-    def constants(self) -> dict[str, object]:
-        return self.values
-
     def formula_refs(self) -> list[str]:
         """Every cell whose value a formula computes (array ranges expanded), row-major."""
         refs = set(self.formulas)
@@ -141,29 +137,6 @@ class Book:
         return "libreoffice" in self.application.lower() or "openoffice" in self.application.lower()
 
 
-def _open(path: str) -> zipfile.ZipFile:
-    try:
-        archive = zipfile.ZipFile(path)
-    except FileNotFoundError:
-        raise BookError(f"{path}: no such file") from None
-    except IsADirectoryError:
-        raise BookError(f"{path}: is a directory, not a workbook") from None
-    except (zipfile.BadZipFile, OSError, ValueError, EOFError) as error:
-        raise BookError(f"{path}: not an .xlsx/.xlsm workbook ({error})") from None
-    if "xl/workbook.xml" not in archive.namelist():
-        archive.close()
-        raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and .xlsb "
-                        "are not supported)")
-    from .safezip import UnsafeWorkbook, check_archive  # workbooks come from other people
-
-    try:
-        check_archive(archive, path)
-    except UnsafeWorkbook as error:
-        archive.close()
-        raise BookError(str(error)) from None
-    return archive
-
-
 def read_book(path: str) -> Book:
     """Open, safety-check and read ``path`` once: sheets, formulas (shared ones expanded), cached
     values, constants, defined names.  Every command works from what this returns."""
@@ -174,7 +147,9 @@ def read_book(path: str) -> Book:
     except UnsafeWorkbook as error:
         raise BookError(str(error)) from None
     with archive:
-        if "xl/workbook.xml" not in archive.namelist():
+        members = archive.namelist()
+        present = set(members)   # up to safezip's 10,000 members, looked up once per sheet
+        if "xl/workbook.xml" not in present:
             raise BookError(f"{path}: not an .xlsx/.xlsm workbook (no xl/workbook.xml; .xls and "
                             ".xlsb are not supported)")
         try:
@@ -192,7 +167,7 @@ def read_book(path: str) -> Book:
             target = targets.get(element.get(f"{{{_NS_REL}}}id"), "")
             part = target.lstrip("/") if target.startswith("/") else posixpath.normpath(
                 posixpath.join("xl", target))
-            if part not in archive.namelist():
+            if part not in present:
                 continue  # a chart sheet or a dangling relationship
             sheet = Sheet(element.get("name"), part)
             try:
@@ -210,10 +185,10 @@ def read_book(path: str) -> Book:
                 and int(local) < len(sheet_names) else None,
                 element.get("hidden") in ("1", "true")))
         application = ""
-        if "docProps/app.xml" in archive.namelist():
+        if "docProps/app.xml" in present:
             m = re.search(rb"<(?:\w+:)?Application>([^<]*)<", archive.read("docProps/app.xml"))
             application = _unescape(m.group(1).decode("utf-8", "replace")) if m else ""
-        return Book(path, sheets, names, archive.namelist(), application)
+        return Book(path, sheets, names, members, application)
 
 
 def _shared_strings(archive: zipfile.ZipFile, path: str) -> list[str]:

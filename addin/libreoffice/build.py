@@ -250,10 +250,11 @@ def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | No
     if target.exists():
         raise FileExistsError(f"{target} exists; stillair never writes over an existing file")
     spec = function_spec(paths)
+    idl = idl_source()
     component = resources.files(__package__).joinpath("stillair_calc.py").read_text(encoding="utf-8")
     with tempfile.TemporaryDirectory(prefix="stillair-oxt-") as directory:
         rdb = Path(directory) / "stillair.rdb"
-        compile_idl(idl_source(), rdb, program_dir)
+        compile_idl(idl, rdb, program_dir)
         members = {
             "META-INF/manifest.xml": _manifest(),
             "description.xml": _description(spec["stillair_version"]),
@@ -261,7 +262,7 @@ def build_oxt(target: Path, *, paths: dict | None = None, program_dir: Path | No
             "Jobs.xcu": _jobs(),
             "stillair_calc.py": component,
             "stillair_functions.json": json.dumps(spec, indent=1, ensure_ascii=False),
-            "stillair.idl": idl_source(),
+            "stillair.idl": idl,
         }
         try:  # mode "x": fails rather than replace a file created meanwhile
             with zipfile.ZipFile(target, "x", zipfile.ZIP_DEFLATED) as oxt:
