@@ -226,8 +226,18 @@ def _nu_note(nusselt, kwargs):
 
 
 # The case and tilt of a function that takes any geometry (NU_NOTE, NU_SPREAD).
-ANY_PLATE_CASE = Arg("plate_case", "Plate case for hplate and tplate (hot-up, hot-down, cold-up, "
-                     "cold-down); blank otherwise.", kind="text", default=None, engine_name="case")
+def _case_choices() -> str:
+    """The cases of every geometry that has some, as "a, b for g1 and g2; c, d for g3"."""
+    from stillair.correlations import GEOMETRIES
+    by_cases: dict[tuple, list[str]] = {}
+    for geometry in GEOMETRIES.values():
+        if geometry.cases:
+            by_cases.setdefault(geometry.cases, []).append(geometry.name)
+    return "; ".join(f"{', '.join(cases)} for {' and '.join(names)}" for cases, names in by_cases.items())
+
+
+ANY_PLATE_CASE = Arg("plate_case", f"Case: {_case_choices()}; blank otherwise.", kind="text", default=None,
+                     engine_name="case")
 ANY_TILT = Arg("tilt", "Tilt in degrees: from the vertical for tplate, from the horizontal "
                "for cavity (blank 90); blank otherwise.", "°", default=None)
 
@@ -245,6 +255,12 @@ def _geometry_choices() -> str:
     from stillair.correlations import GEOMETRIES
     names = list(GEOMETRIES)
     return ", ".join(names[:-1]) + " or " + names[-1]
+
+
+# The geometry and shape-ratio cells of a function that takes any geometry (NU_NOTE, NU_SPREAD).
+ANY_GEOMETRY = Arg("geometry", f"Geometry: {_geometry_choices()}.", kind="text")
+ANY_ASPECT = Arg("aspect", "Shape ratio: height/gap for cavity, height/spacing for channel, "
+                 "height/diameter for vcyl; blank otherwise.", default=None)
 
 
 _entries += [
@@ -279,10 +295,7 @@ _entries += [
                  "tilt from the horizontal as for NU_CAVITY.",
                  CATEGORIES["nusselt"], result="text"),
     CellFunction("NU_NOTE", "nusselt",
-                 (Arg("geometry", f"Geometry: {_geometry_choices()}.", kind="text"), RA, PR,
-                  ANY_PLATE_CASE, ANY_TILT,
-                  Arg("aspect", "Shape ratio: height/gap for cavity, height/diameter for vcyl; "
-                      "blank otherwise.", default=None),
+                 (ANY_GEOMETRY, RA, PR, ANY_PLATE_CASE, ANY_TILT, ANY_ASPECT,
                   Arg("method", "Correlation name as for the NU_ functions; blank or \"auto\".",
                       kind="text", default="auto")),
                  'Validity note of a Nusselt correlation: "in range (method)" or which bound is '
@@ -472,10 +485,7 @@ def _net_band(solve, kwargs):
 _entries += [
     CellFunction(
         "NU_SPREAD", "nu_spread",
-        (Arg("geometry", "Geometry: vplate, hplate, tplate, hcyl, sphere, vcyl or cavity.", kind="text"),
-         RA, PR, ANY_PLATE_CASE, ANY_TILT,
-         Arg("aspect", "Cavity height/gap, or vertical cylinder height/diameter; blank otherwise.",
-             default=None)),
+        (ANY_GEOMETRY, RA, PR, ANY_PLATE_CASE, ANY_TILT, ANY_ASPECT),
         "Spread of the published correlations covering the case: one row of lowest Nu, highest Nu, "
         "how many cover it, the methods (lowest first). Not a confidence interval. Tilt from the "
         "vertical for tplate, from the horizontal for cavity.",
