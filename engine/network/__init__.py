@@ -41,6 +41,7 @@ from types import MappingProxyType
 
 import numpy as np
 
+from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError
 from .band import solve_band
 from .errors import FUNCTION, NetworkConvergenceError, NetworkError
@@ -63,8 +64,6 @@ __all__ = [
     "solve_network",
     "clear_network_cache",
 ]
-
-DEFAULT_PRESSURE = 101325.0
 
 _CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
 _RAW_CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
