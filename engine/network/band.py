@@ -24,7 +24,7 @@ import dataclasses
 
 import numpy as np
 
-from ..correlations import GEOMETRIES
+from ..correlations import GEOMETRIES, nu_spread
 from .model import compile_network
 from .solver import Solver
 from .tables import Branch
@@ -37,8 +37,6 @@ MAX_BAND_PASSES = 3
 def band_methods(net, records, side: int) -> dict[int, str]:
     """Branch position -> the covering correlation with the lowest (side 0) or highest (side -1)
     Nu at the solution given by ``records`` (a sequence of branch records, table order)."""
-    from ..correlations import nu_spread
-
     chosen: dict[int, str] = {}
     for group in net.groups:
         if not group.needs_properties:
