@@ -48,7 +48,7 @@ from .errors import FUNCTION, NetworkConvergenceError, NetworkError
 from .kinds import BRANCH_KINDS, kind_reference
 from .model import compile_network
 from .reading import gas_key
-from .results import BranchResult, NetworkResult, build_result
+from .results import BranchResult, NetworkResult
 from .solver import Solver
 from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
 
@@ -191,12 +191,11 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
         if result is None:
             net = compile_network(parsed_branches, parsed_boundaries, **options)
             solver = Solver(net)
-            state, x, fine, how = solver.solve()
-            result = _finish(net, solver, state, x, fine, how)
+            result = solver.result(*solver.solve())
             if use_cache:
                 _remember(_CACHE, key + (False,), result)
         if band:
-            low, high = solve_band(parsed_branches, parsed_boundaries, options, result, _finish)
+            low, high = solve_band(parsed_branches, parsed_boundaries, options, result)
             result = dataclasses.replace(
                 result, band_solutions=(low, high),
                 band=MappingProxyType({node: (min(low.temperatures[node], high.temperatures[node]),
@@ -207,13 +206,6 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     if use_cache:
         _remember(_RAW_CACHE, raw_key, result)
     return result
-
-
-def _finish(net, solver, state, x, fine, how, strict=True) -> NetworkResult:
-    evaluation, residual = state
-    t, t_fine = solver.temperatures(x, fine)
-    return build_result(net, t + t_fine, evaluation, residual, solver.tolerances(evaluation),
-                        solver.iterations, how, strict)
 
 
 def _solved(key, use_cache):

@@ -65,9 +65,8 @@ class _WarmSolver(Solver):
         return self._start
 
 
-def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal, finish):
-    """(low solution, high solution) as NetworkResults; ``finish(net, solver, state, x, fine, how)``
-    turns a solved network into its result."""
+def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal):
+    """(low solution, high solution) as NetworkResults, ``nominal`` the network's own."""
     solutions = []
     nominal_records = list(nominal.branches.values())
     nominal_net = compile_network(branches, boundaries, **options)
@@ -80,8 +79,7 @@ def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal,
             chosen = tuple(dataclasses.replace(b, method=methods.get(k, b.method)) for k, b in enumerate(branches))
             net = compile_network(chosen, boundaries, **options)
             solver = _WarmSolver(net, start)
-            state, x, fine, how = solver.solve()
-            result = finish(net, solver, state, x, fine, how, strict=False)
+            result = solver.result(*solver.solve(), strict=False)
             again = band_methods(net, list(result.branches.values()), side)
             if again == methods:
                 break

@@ -30,6 +30,7 @@ from scipy.constants import zero_Celsius
 from ..validity import ABSOLUTE_ZERO_C, StillairError
 from .errors import FUNCTION, NetworkConvergenceError
 from .model import Network
+from .results import NetworkResult, build_result
 
 __all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
 
@@ -280,6 +281,13 @@ class Solver:
 
     def start(self) -> np.ndarray:
         return self.nominal_start()
+
+    def result(self, state, x, x_fine, how, strict=True) -> NetworkResult:
+        """The NetworkResult of :meth:`solve`'s answer (``strict``: see :func:`.results.branch_records`)."""
+        evaluation, residual = state
+        t, t_fine = self.temperatures(x, x_fine)
+        return build_result(self.net, t + t_fine, evaluation, residual, self.tolerances(evaluation),
+                            self.iterations, how, strict)
 
     def fail(self):
         net = self.net
