@@ -187,7 +187,7 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     key = (parsed_branches, parsed_boundaries, *options.values())
     result = _solved(key + (band,), use_cache)
     if result is None:
-        result = _solved(key + (False,), use_cache)
+        result = _solved(key + (False,), use_cache) if band else None   # the nominal solution
         if result is None:
             net = compile_network(parsed_branches, parsed_boundaries, **options)
             solver = Solver(net)
