@@ -662,11 +662,12 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     function_name = "heatsink_tbase"
     q = require_between(function_name, "q", q, 0.0, np.inf, "W")
     t_ambient = require_finite(function_name, "t_ambient", t_ambient)
-    arrays = np.broadcast_arrays(q, t_ambient, *[np.asarray(a, dtype=float) for a in (
-        base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
-    # Check the geometry once, in full, so its messages name this function.
+    # Check the geometry once, in full, so its messages name this function (and before the
+    # arrays below, whose float conversion would otherwise meet a bad cell first).
     heatsink(t_ambient + 1.0, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
              conductivity, emissivity, gas, pressure, tip=tip, function_name=function_name)
+    arrays = np.broadcast_arrays(q, t_ambient, *[np.asarray(a, dtype=float) for a in (
+        base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
     out = np.empty(arrays[0].shape)
     notes = np.full(arrays[0].shape, "", dtype=object)
     for index in np.ndindex(out.shape):
