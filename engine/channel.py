@@ -72,7 +72,7 @@ from numpy.typing import ArrayLike
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 from scipy.optimize import brentq
 
-from .convection import ONE_CALLS, ConvectionResult, surface_convection
+from .convection import ONE_CALLS, ConvectionResult, _full, _h_only, surface_convection
 from .correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry, nusselt_at_difference,
                            nusselt_value)
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
@@ -304,15 +304,15 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     delta_t = np.subtract(ts, tf, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, spacing)
     shape = np.broadcast(ra, props.prandtl, height).shape
-    ra, pr = np.broadcast_to(ra, shape), np.broadcast_to(props.prandtl, shape)
-    aspect = np.broadcast_to(height / spacing, shape)
+    ra, pr = _full(ra, shape), _full(props.prandtl, shape)
+    aspect = _full(height / spacing, shape)
     result = nusselt_at_difference("channel", method, case, function_name=function_name, ra=ra, pr=pr,
                                    aspect=aspect)
     ra = CHANNEL.correlation_rayleigh(ra, result.nu, case)
     h = result.nu * props.conductivity / spacing
-    full = lambda a: np.broadcast_to(a, shape)  # noqa: E731
-    return ConvectionResult(h=full(h), nu=result.nu, ra=full(ra), gr=full(gr), pr=pr, t_film=full(t_film),
-                            conductivity=full(props.conductivity), length=full(spacing),
+    return ConvectionResult(h=_full(h, shape), nu=result.nu, ra=_full(ra, shape), gr=_full(gr, shape), pr=pr,
+                            t_film=_full(t_film, shape), conductivity=_full(props.conductivity, shape),
+                            length=_full(spacing, shape),
                             method=result.method, case=np.full(shape, case, dtype=object),
                             in_range=result.in_range, note=result.note)
 
@@ -358,11 +358,6 @@ def h_channel(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLik
     """
     return _h_only(channel_convection(ts, tf, spacing, height, case=case, gas=gas, pressure=pressure,
                                       method=method, function_name="h_channel"), "h_channel")
-
-
-def _h_only(result, function_name):
-    _warn_notes(function_name, result.in_range, result.note)
-    return unwrap(result.h)
 
 
 # --------------------------------------------------------------------------------------------
@@ -667,11 +662,12 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     function_name = "heatsink_tbase"
     q = require_between(function_name, "q", q, 0.0, np.inf, "W")
     t_ambient = require_finite(function_name, "t_ambient", t_ambient)
-    arrays = np.broadcast_arrays(q, t_ambient, *[np.asarray(a, dtype=float) for a in (
-        base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
-    # Check the geometry once, in full, so its messages name this function.
+    # Check the geometry once, in full, so its messages name this function (and before the
+    # arrays below, whose float conversion would otherwise meet a bad cell first).
     heatsink(t_ambient + 1.0, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
              conductivity, emissivity, gas, pressure, tip=tip, function_name=function_name)
+    arrays = np.broadcast_arrays(q, t_ambient, *[np.asarray(a, dtype=float) for a in (
+        base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
     out = np.empty(arrays[0].shape)
     notes = np.full(arrays[0].shape, "", dtype=object)
     for index in np.ndindex(out.shape):

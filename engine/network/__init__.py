@@ -41,13 +41,14 @@ from types import MappingProxyType
 
 import numpy as np
 
+from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError
 from .band import solve_band
 from .errors import FUNCTION, NetworkConvergenceError, NetworkError
 from .kinds import BRANCH_KINDS, kind_reference
 from .model import compile_network
 from .reading import gas_key
-from .results import BranchResult, NetworkResult, build_result
+from .results import BranchResult, NetworkResult
 from .solver import Solver
 from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
 
@@ -63,8 +64,6 @@ __all__ = [
     "solve_network",
     "clear_network_cache",
 ]
-
-DEFAULT_PRESSURE = 101325.0
 
 _CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
 _RAW_CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
@@ -188,16 +187,15 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     key = (parsed_branches, parsed_boundaries, *options.values())
     result = _solved(key + (band,), use_cache)
     if result is None:
-        result = _solved(key + (False,), use_cache)
+        result = _solved(key + (False,), use_cache) if band else None   # the nominal solution
         if result is None:
             net = compile_network(parsed_branches, parsed_boundaries, **options)
             solver = Solver(net)
-            state, x, fine, how = solver.solve()
-            result = _finish(net, solver, state, x, fine, how)
+            result = solver.result(*solver.solve())
             if use_cache:
                 _remember(_CACHE, key + (False,), result)
         if band:
-            low, high = solve_band(parsed_branches, parsed_boundaries, options, result, _finish)
+            low, high = solve_band(parsed_branches, parsed_boundaries, options, result)
             result = dataclasses.replace(
                 result, band_solutions=(low, high),
                 band=MappingProxyType({node: (min(low.temperatures[node], high.temperatures[node]),
@@ -208,13 +206,6 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     if use_cache:
         _remember(_RAW_CACHE, raw_key, result)
     return result
-
-
-def _finish(net, solver, state, x, fine, how, strict=True) -> NetworkResult:
-    evaluation, residual = state
-    t, t_fine = solver.temperatures(x, fine)
-    return build_result(net, t + t_fine, evaluation, residual, solver.tolerances(evaluation),
-                        solver.iterations, how, strict)
 
 
 def _solved(key, use_cache):

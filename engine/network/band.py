@@ -24,7 +24,7 @@ import dataclasses
 
 import numpy as np
 
-from ..correlations import GEOMETRIES
+from ..correlations import GEOMETRIES, nu_spread
 from .model import compile_network
 from .solver import Solver
 from .tables import Branch
@@ -37,8 +37,6 @@ MAX_BAND_PASSES = 3
 def band_methods(net, records, side: int) -> dict[int, str]:
     """Branch position -> the covering correlation with the lowest (side 0) or highest (side -1)
     Nu at the solution given by ``records`` (a sequence of branch records, table order)."""
-    from ..correlations import nu_spread
-
     chosen: dict[int, str] = {}
     for group in net.groups:
         if not group.needs_properties:
@@ -67,9 +65,8 @@ class _WarmSolver(Solver):
         return self._start
 
 
-def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal, finish):
-    """(low solution, high solution) as NetworkResults; ``finish(net, solver, state, x, fine, how)``
-    turns a solved network into its result."""
+def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal):
+    """(low solution, high solution) as NetworkResults, ``nominal`` the network's own."""
     solutions = []
     nominal_records = list(nominal.branches.values())
     nominal_net = compile_network(branches, boundaries, **options)
@@ -82,8 +79,7 @@ def solve_band(branches: tuple[Branch, ...], boundaries, options: dict, nominal,
             chosen = tuple(dataclasses.replace(b, method=methods.get(k, b.method)) for k, b in enumerate(branches))
             net = compile_network(chosen, boundaries, **options)
             solver = _WarmSolver(net, start)
-            state, x, fine, how = solver.solve()
-            result = finish(net, solver, state, x, fine, how, strict=False)
+            result = solver.result(*solver.solve(), strict=False)
             again = band_methods(net, list(result.branches.values()), side)
             if again == methods:
                 break

@@ -22,6 +22,7 @@ from typing import Callable, Mapping
 import numpy as np
 from scipy.constants import zero_Celsius
 
+from ..convection import plate_case
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
                            nusselt_at_difference, nusselt_checked)
@@ -318,7 +319,7 @@ def _case_param(geometry) -> Param:
 def _length_param(geometry) -> Param:
     """The column of the geometry's own length (its name and meaning are the geometry's)."""
     meaning = geometry.length_doc.removesuffix(", m").strip()
-    if meaning in (geometry.length, f"{geometry.length}"):
+    if meaning == geometry.length:
         meaning = ""
     return Param(geometry.length, "m", meaning, role="length")
 
@@ -333,8 +334,7 @@ def _convection_kind(geometry) -> ConvectionKind:
     inputs = set(geometry.inputs) - {"ra", "pr"}
     if inputs == {"aspect", "tilt"}:   # an enclosed layer: gap, height, area, tilt, its own gas
         low, high = geometry.tilt_range
-        default_tilt = getattr(geometry, "default_tilt", None)
-        default_tilt = 90.0 if default_tilt is None else default_tilt
+        default_tilt = 90.0 if geometry.default_tilt is None else geometry.default_tilt
         params = (_length_param(geometry), Param("height", "m", role="height"),
                   Param("area", "m²", role="area"),
                   Param("tilt", "° from horizontal", check="angle", limits=(low, high), optional=True,
@@ -434,7 +434,6 @@ class _ConvectionGroup(_Group):
             names = [f"{'hot' if hot.all() else 'cold'}-{self.facing}"]
             case = np.full(len(dt), names[0], dtype=object)
         else:
-            from ..convection import plate_case
             case = plate_case(self.facing, dt)
             names = list(dict.fromkeys(case.tolist()))
         flagged = ~np.isin(case, self.served_cases) if self.served_cases else None
@@ -451,14 +450,14 @@ class _ConvectionGroup(_Group):
         geometry = GEOMETRIES[self.geometry]
         for k in range(len(self.index)):
             conductance = float(detail.h[k] * self.area[k])
-            case = str(detail.case[k]) if detail.case is not None else None
+            case = str(detail.case[k]) if detail.case is not None else ""
             # Ra as the correlation read it (a flux case's Ra*), as the one-call functions report it
             ra = geometry.correlation_rayleigh(detail.ra[k], detail.nu[k], case)
             yield int(self.index[k]), dict(
                 h=float(detail.h[k]), R=(1.0 / conductance) if conductance > 0 else math.inf,
                 area=float(self.area[k]), Ra=float(ra), Nu=float(detail.nu[k]),
                 Pr=float(detail.pr[k]), t_film=float(detail.t_film[k]), method=str(detail.method[k]),
-                case=str(detail.case[k]) if detail.case is not None else "",
+                case=case,
                 note=str(detail.note[k] or ""), in_range=bool(detail.in_range[k]))
 
     def spread_inputs(self, records) -> tuple[dict, list]:

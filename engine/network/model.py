@@ -159,6 +159,7 @@ class _ConvectionBatch:
         where[self.order] = np.arange(3 * n)
         self.at_point, self.from_raised, self.to_raised = where[:n], where[n:2 * n], where[2 * n:]
         self.length = np.concatenate([g.length_tiled for g in groups])
+        self.length_cubed = self.length ** 3   # constant: not recomputed at every evaluation
         self.area = np.concatenate([g.area_tiled for g in groups])
 
     def flows(self, net: Network, t1, t2, dt):
@@ -170,7 +171,7 @@ class _ConvectionBatch:
         tb = np.concatenate([t2, t2, t2 + step])[order]
         dtt = np.concatenate([dt, dt + step, dt - step])[order]
         kinvisc, prandtl, conductivity, expansion, t_film = net.film(self.gas, ta, tb)
-        ra = STANDARD_GRAVITY * expansion * np.abs(dtt) * self.length ** 3 * prandtl / kinvisc ** 2
+        ra = STANDARD_GRAVITY * expansion * np.abs(dtt) * self.length_cubed * prandtl / kinvisc ** 2
         nu = np.empty(len(dtt))
         results = []
         for group, part in zip(self.groups, self.slices):

@@ -30,6 +30,7 @@ from scipy.constants import zero_Celsius
 from ..validity import ABSOLUTE_ZERO_C, StillairError
 from .errors import FUNCTION, NetworkConvergenceError
 from .model import Network
+from .results import NetworkResult, build_result
 
 __all__ = ["Solver", "RELATIVE_TOLERANCE", "MAX_NEWTON_ITERATIONS"]
 
@@ -52,7 +53,7 @@ class Solver:
         self.net = net
         self.max_iterations = MAX_NEWTON_ITERATIONS if max_iterations is None else max_iterations
         self.iterations = 0
-        self.best = None          # (ratio to tolerance, x, x_fine, evaluation)
+        self.best = None          # (ratio to tolerance, x, evaluation, residual): the restart
         self.failure = ""         # text of the last evaluation that could not be done
         n = len(net.nodes)
         s, r = net.source, net.target
@@ -95,14 +96,13 @@ class Solver:
         residual = self.net.imbalance(evaluation.q)[self.net.free]
         ratio = self.worst_ratio(evaluation, residual)
         if self.best is None or ratio < self.best[0]:
-            self.best = (ratio, x.copy(), None if x_fine is None else x_fine.copy(), evaluation)
+            self.best = (ratio, x.copy(), evaluation, residual)
         return evaluation, residual
 
     def tolerances(self, evaluation) -> np.ndarray:
         """Largest acceptable imbalance (W) at every free node (worked out once per evaluation)."""
-        cached = getattr(evaluation, "tolerance", None)
-        if cached is not None:
-            return cached
+        if evaluation.tolerance is not None:
+            return evaluation.tolerance
         net = self.net
         through = net.throughput(evaluation.q)[net.free]
         largest = max(np.max(np.abs(evaluation.q), initial=0.0), np.max(np.abs(net.heat_input), initial=0.0))
@@ -115,14 +115,15 @@ class Solver:
                                           SETTLED_KELVIN * weakest[net.free])
         return evaluation.tolerance
 
-    def worst_ratio(self, evaluation, residual) -> float:
-        """The largest |imbalance| / tolerance over the free nodes (<= 1: converged)."""
-        if not residual.size:
-            return 0.0
+    def ratios(self, evaluation, residual) -> np.ndarray:
+        """|imbalance| / tolerance at every free node (0 where balanced exactly; <= 1: converged)."""
         magnitude = np.abs(residual)
-        tolerance = self.tolerances(evaluation)
-        ratio = np.divide(magnitude, tolerance, out=np.zeros_like(magnitude), where=magnitude > 0)
-        return float(np.max(ratio))
+        return np.divide(magnitude, self.tolerances(evaluation), out=np.zeros_like(magnitude),
+                         where=magnitude > 0)
+
+    def worst_ratio(self, evaluation, residual) -> float:
+        """The largest of :meth:`ratios` (0 without free nodes)."""
+        return float(np.max(self.ratios(evaluation, residual))) if residual.size else 0.0
 
     def converged(self, evaluation, residual) -> bool:
         return bool(np.all(np.abs(residual) <= self.tolerances(evaluation)))
@@ -281,17 +282,23 @@ class Solver:
     def start(self) -> np.ndarray:
         return self.nominal_start()
 
+    def result(self, state, x, x_fine, how, strict=True) -> NetworkResult:
+        """The NetworkResult of :meth:`solve`'s answer (``strict``: see :func:`.results.branch_records`)."""
+        evaluation, residual = state
+        t, t_fine = self.temperatures(x, x_fine)
+        return build_result(self.net, t + t_fine, evaluation, residual, self.tolerances(evaluation),
+                            self.iterations, how, strict)
+
     def fail(self):
         net = self.net
         if self.best is None:
             raise NetworkConvergenceError(
                 f"{FUNCTION}: the branches could not be evaluated at any trial temperature ({self.failure})",
                 math.inf, None, self.iterations)
-        _, x, x_fine, evaluation = self.best
-        residual = net.imbalance(evaluation.q)[net.free]
+        _, _, evaluation, residual = self.best
         tolerance = self.tolerances(evaluation)
         with np.errstate(divide="ignore", invalid="ignore"):
-            worst_index = int(np.argmax(np.where(residual == 0, 0.0, np.abs(residual) / tolerance)))
+            worst_index = int(np.argmax(self.ratios(evaluation, residual)))
         worst = net.nodes[int(net.free[worst_index])]
         norm = float(abs(residual[worst_index]))
         if self.failure:

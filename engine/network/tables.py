@@ -17,6 +17,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..validity import ABSOLUTE_ZERO_C
 from .errors import FUNCTION, NetworkError, Shown
 from .kinds import BRANCH_KINDS
 from .reading import blank, error_text, name, number
@@ -26,7 +27,6 @@ __all__ = ["BRANCH_COLUMNS", "BOUNDARY_COLUMNS", "Branch", "Boundary", "parse_br
 
 BRANCH_COLUMNS = ("name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method")
 BOUNDARY_COLUMNS = ("node", "T or Q", "value")
-ABSOLUTE_ZERO_C = -273.15
 
 
 @dataclass(frozen=True)
