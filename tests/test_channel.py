@@ -427,6 +427,9 @@ def test_heat_sink_errors_are_exact():
     with pytest.raises(InputError) as error:
         stillair.heatsink_tbase(-1.0, 25.0, **SINK)
     assert str(error.value) == "heatsink_tbase: q must be in [0, inf] W, got -1"
+    with pytest.raises(InputError) as error:   # text in a cell names the argument, as heatsink_q does
+        stillair.heatsink_tbase(10.0, 25.0, **dict(SINK, base_width="wide"))
+    assert str(error.value) == "heatsink_tbase: base_width must be a number, not text, got 'wide'"
     with pytest.raises(InputError) as error:
         stillair.heatsink_tbase(1e6, 25.0, **SINK)
     # every temperature is checked against the gas data, the base temperature too (not only the
