@@ -800,15 +800,30 @@ def nusselt_at_difference(geometry: str, method, case=None, *, function_name: st
     steps).  Other cases are :func:`nusselt` itself.  The Ra the correlation read is
     ``Geometry.correlation_rayleigh(ra, result.nu, case)``.
     """
-    if case not in GEOMETRIES[geometry].flux_cases:
+    geo = GEOMETRIES[geometry]
+    if case not in geo.flux_cases:
         return nusselt(geometry, method, case, function_name=function_name, ra=ra, **inputs)
-    ra = np.asarray(ra, dtype=float)
+    method = _resolve_method(function_name, geo, method, case)
+    arrays = _checked_inputs(function_name, geo, _with_default_tilt(geo, dict(inputs, ra=ra)))
+    shape = arrays["ra"].shape
+    result = nusselt_at_difference_checked(geo, method, case, {k: v.ravel() for k, v in arrays.items()})
+    return NusseltResult(**{name: getattr(result, name).reshape(shape) for name in NusseltResult.__dataclass_fields__})
+
+
+def nusselt_at_difference_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.ndarray],
+                                  notes: bool = True, ranges: bool = True) -> NusseltResult:
+    """:func:`nusselt_at_difference` without its argument checks, on the inputs
+    :func:`nusselt_checked` takes (1-D, checked, ``method`` resolved): the network solver calls
+    it at every iteration, where the checks would be repeated on arrays it built itself."""
+    if case not in geo.flux_cases:
+        return nusselt_checked(geo, method, case, inputs, notes, ranges)
+    ra = inputs["ra"]
     positive = ra > 0
     ra_pos = np.where(positive, ra, 1.0)
 
     def residual(log_nu):
-        nu = nusselt(geometry, method, case, function_name=function_name, ra=ra_pos * np.exp(log_nu),
-                     notes=False, **inputs).nu
+        nu = nusselt_checked(geo, method, case, dict(inputs, ra=ra_pos * np.exp(log_nu)), notes=False,
+                             ranges=False).nu
         return np.log(nu) - log_nu
 
     previous = np.zeros_like(ra_pos)
@@ -822,7 +837,7 @@ def nusselt_at_difference(geometry: str, method, case=None, *, function_name: st
         with np.errstate(divide="ignore", invalid="ignore"):  # the where() keeps only finite steps
             step = np.where((current == previous) | (slope == 0), r_current, -r_current / slope)
         previous, r_previous, current = current, r_current, current + step
-    result = nusselt(geometry, method, case, function_name=function_name, ra=ra * np.exp(current), **inputs)
+    result = nusselt_checked(geo, method, case, dict(inputs, ra=ra * np.exp(current)), notes, ranges)
     result.nu = np.where(positive, result.nu, 0.0)
     return result
 

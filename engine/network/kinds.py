@@ -25,7 +25,7 @@ from scipy.constants import zero_Celsius
 from ..convection import plate_case
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
-                           nusselt_at_difference, nusselt_checked)
+                           nusselt_at_difference_checked, nusselt_checked)
 from ..radiation import SIGMA, exchange_factor
 from .errors import FUNCTION, NetworkError
 from .reading import blank, gas_key, number
@@ -427,7 +427,7 @@ class _ConvectionGroup(_Group):
             return nusselt_checked(geometry, self.method, None, inputs, notes, ranges=notes), None, None
         if self.case is not None:   # the case is the row's own (a channel's walls): Nu solved where
             # the correlation reads a flux Rayleigh number
-            result = nusselt_at_difference(self.geometry, self.method, self.case, function_name=FUNCTION, **inputs)
+            result = nusselt_at_difference_checked(geometry, self.method, self.case, inputs, notes, ranges=notes)
             return result, np.full(len(dt), self.case, dtype=object), None
         hot = dt >= 0
         if hot.all() or not hot.any():   # the usual case: one plate case for the whole group
