@@ -63,7 +63,6 @@ See :func:`heatsink` for the model and its limits.
 
 from __future__ import annotations
 
-import warnings
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -78,7 +77,6 @@ from .correlations import (AutoStep, Geometry, Parameter, correlation, define_ge
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from .validity import (
-    CorrelationRangeWarning,
     InputError,
     Range,
     distinct_notes,
@@ -87,6 +85,7 @@ from .validity import (
     require_finite,
     require_positive,
     unwrap,
+    warn_out_of_range,
 )
 
 __all__ = [
@@ -319,11 +318,6 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
 
 ONE_CALLS["channel"] = channel_convection
 
-
-def _warn_notes(function_name, in_range, notes):
-    if not np.all(in_range):
-        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes)),
-                      CorrelationRangeWarning, stacklevel=3)
 
 
 def h_channel(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height: ArrayLike, case: str = "isothermal",
@@ -623,7 +617,7 @@ def heatsink_q(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, f
     """
     result = heatsink(t_base, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
                       conductivity, emissivity, gas, pressure, tip=tip, function_name="heatsink_q")
-    _warn_notes("heatsink_q", result.in_range, result.note)
+    warn_out_of_range("heatsink_q", result.in_range, result.note)
     return unwrap(result.q)
 
 
@@ -699,7 +693,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
                              f"inside the gas data ({error.allowed})") from None
         # a scalar solve carries its note as a 0-d array; the notes array holds plain text
         notes[index] = str(np.asarray(rejected(out[index]).note).item())
-    _warn_notes(function_name, notes == "", notes)
+    warn_out_of_range(function_name, notes == "", notes)
     return unwrap(out)
 
 

@@ -16,7 +16,6 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 from __future__ import annotations
 
 import math
-import warnings
 from dataclasses import dataclass
 
 from scipy.constants import zero_Celsius
@@ -29,8 +28,8 @@ from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_pr
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .correlations import Geometry
-from .validity import (PLAIN_NUMBERS, CorrelationRangeWarning, InputError, distinct_notes, require_between,
-                       require_choice, require_positive, unwrap)
+from .validity import (PLAIN_NUMBERS, InputError, distinct_notes, require_between,
+                       require_choice, require_positive, unwrap, warn_out_of_range)
 
 __all__ = [
     "ConvectionResult",
@@ -393,9 +392,7 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
 
 
 def _h_only(result: ConvectionResult, function_name: str):
-    if not result.in_range.all():
-        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
-                      CorrelationRangeWarning, stacklevel=3)
+    warn_out_of_range(function_name, result.in_range, result.note)
     return unwrap(result.h)
 
 

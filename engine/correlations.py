@@ -44,7 +44,6 @@ import numpy as np
 
 from ._typing import ArrayLike
 from .validity import (
-    CorrelationRangeWarning,
     InputError,
     PLAIN_NUMBERS,
     Range,
@@ -55,6 +54,7 @@ from .validity import (
     require_positive,
     distinct_notes,
     unwrap,
+    warn_out_of_range,
 )
 
 __all__ = [
@@ -556,9 +556,8 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
         result = nusselt_checked(geo, method, case, {k: v.ravel() for k, v in arrays.items()}, notes)
         result = NusseltResult(**{name: getattr(result, name).reshape(shape)
                                   for name in NusseltResult.__dataclass_fields__})
-    if warn and not np.all(result.in_range):
-        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(result.notes),
-                      CorrelationRangeWarning, stacklevel=3)
+    if warn:
+        warn_out_of_range(function_name, result.in_range, result.note)
     return result
 
 

@@ -14,6 +14,7 @@ network result).
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass
 from typing import Callable, Mapping
 
@@ -163,6 +164,14 @@ def distinct_notes(notes) -> list[str]:
 #: The types a scalar path takes as one plain number (a bool is not one: the checks refuse a
 #: logical value with a message).
 PLAIN_NUMBERS = (float, int, np.float64)
+
+
+def warn_out_of_range(function_name: str, in_range, notes) -> None:
+    """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
+    outside its correlation's range; it points at the line that called the caller."""
+    if not np.all(in_range):
+        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes)),
+                      CorrelationRangeWarning, stacklevel=4)
 
 
 def unwrap(array):
