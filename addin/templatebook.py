@@ -38,6 +38,8 @@ from typing import Any, Callable, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
+from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+
 __all__ = ["TemplateBook", "Template", "Valid", "TEMPLATE_DIR", "MARKER_NAME", "FAILED", "build_template",
            "TemplateBuildError",
            "is_error_value", "source_of"]
@@ -103,6 +105,10 @@ UNIT_FORMATS = {
     "m": "0.0000", "m²": "0.000", "m or m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
     "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
 }
+
+# Network tables in the engine's columns: p1..p5 hold numbers (or a facing word), the rest text.
+BRANCH_FORMATS = (None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None)
+BOUNDARY_FORMATS = (None, None, "0.0")
 
 _NAME_RE = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 
@@ -644,24 +650,34 @@ class TemplateBook:
         state.row += rows
         state.chart_run = True
 
-    def network_solution(self, sheet: str, tables: str, fluid: str, nodes: Sequence[str],
-                         branches: Sequence[tuple[str, str]]) -> dict[str, str]:
+    def branch_table(self, sheet: str, rows: Sequence[Sequence[Any]], name: str) -> tuple[int, int, int, int]:
+        """A network's branch table under the engine's column headings, named ``name``."""
+        return self.table(sheet, BRANCH_COLUMNS, rows, name=name, formats=BRANCH_FORMATS)
+
+    def boundary_table(self, sheet: str, rows: Sequence[Sequence[Any]], name: str) -> tuple[int, int, int, int]:
+        """A network's boundary table under the engine's column headings, named ``name``."""
+        return self.table(sheet, BOUNDARY_COLUMNS, rows, name=name, formats=BOUNDARY_FORMATS)
+
+    def network_solution(self, sheet: str, tables: str, fluid: str,
+                         branches: Sequence[Sequence[Any]]) -> dict[str, str]:
         """The solved network as tables of single-cell formulas, one per entry.
 
         NET_SOLVE's table is an array formula, which some viewers recalculate on opening (and
         show an error without the add-in); one NET_TEMP / NET_HEAT / INDEX(NET_SOLVE(...)) cell
         per entry keeps the engine's cached value in every viewer.  ``tables`` is
         "branches, boundaries", ``fluid`` the gas and pressure arguments ("" for the defaults),
-        ``branches`` (name, kind) in the order of the branch table.  Returns formulas by key:
-        "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
+        ``branches`` the rows of the branch table (names and nodes as text).  Returns formulas by
+        key: "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
         tail = f", {fluid}" if fluid else ""
         solve = f"NET_SOLVE({tables}{tail})"
+        # NET_SOLVE lists the nodes in order of first appearance in the branch table, then the branches
+        nodes = list(dict.fromkeys(node for row in branches for node in (row[1], row[2])))
         self.table(sheet, ["node", "T °C"],
                    [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
         self.blank(sheet)
         rows, picks = [], {}
         no_ra = ("conduction", "radiation", "film", "resistance")
-        for i, (branch, kind) in enumerate(branches, start=1):
+        for i, (branch, kind) in enumerate(((row[0], row[3]) for row in branches), start=1):
             at = 1 + len(nodes) + i          # row of the branch in NET_SOLVE's table (header first)
 
             def pick(col, applies=True):

@@ -15,6 +15,7 @@ A sweep of U against gap width for air, argon and krypton (mode a) marks the opt
 from __future__ import annotations
 
 import stillair
+from stillair.network import BRANCH_COLUMNS
 
 from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, Template, TemplateBook, Valid, gas_pressure)
 
@@ -32,8 +33,6 @@ DEFAULTS = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, 
                 eps_indoor_face=0.837, glass_height=1.3, pressure=101325.0, t_indoor=20.0, t_outdoor=-8.0,
                 rh_indoor=55.0, h_outdoor=20.0, gap_method="auto")
 
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
 PANE = Valid(0.0, 0.05, "a pane above 0 and at most 50 mm thick (laminated glass included)", low_open=True)
 GAP = Valid(0.0, 0.1, "a gap above 0; at most 100 mm, beyond any sealed glazing unit, and the gas-layer "
             "correlations need the height/gap ratio they were measured for", low_open=True)
@@ -65,7 +64,7 @@ def network_rows(panes: int) -> list[list]:
         ["in-conv", indoor, "indoor", "vplate", "=glass_height", 1.0, None, None, None, None],
         ["in-rad", indoor, "indoor", "radiation", "=eps_indoor_face", None, 1.0, None, None, None],
     ]
-    return rows + [[None] * len(BRANCH_HEADER)] * (11 - len(rows))
+    return rows + [[None] * len(BRANCH_COLUMNS)] * (11 - len(rows))
 
 
 def build(b: TemplateBook) -> None:
@@ -166,9 +165,9 @@ def build(b: TemplateBook) -> None:
            "converged when near 0", number_format="0.0E+00")
 
     b.section("Tables", "(b) actual conditions: network per m² of glass, double unit (s1 = face 1 ...)")
-    b.table("Tables", BRANCH_HEADER, network_rows(2), name="glz_double", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(2), "glz_double")
     b.section("Tables", "(b) the same for a triple unit (the Number of panes picks the table)")
-    b.table("Tables", BRANCH_HEADER, network_rows(3), name="glz_triple", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(3), "glz_triple")
     b.section("Tables", "(b) boundaries")
     b.table("Tables", ["node", "T or Q", "value"],
             [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], name="glz_bounds",

@@ -16,9 +16,6 @@ NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
 STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
 
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BOUNDARY_HEADER = ["node", "T or Q", "value"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
 SIZE = Valid(0.0, 10.0, "a size above 0 and at most 10 m (taller faces leave the correlations' Ra range)",
              low_open=True)
 ROOM_AIR = Valid(-60.0, 60.0, "still air around equipment lies between about -60 and +60 °C (common practice)")
@@ -138,12 +135,11 @@ def build(b) -> None:
 
     b.blank(sheet)
     b.section(sheet, "Insulated cases: network branches (one sub-network per thickness)")
-    b.table(sheet, BRANCH_HEADER, insulated_branch_rows(
+    b.branch_table(sheet, insulated_branch_rows(
         [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), geo(k, 6), "=eps_jacket") for k in range(1, STEPS + 1)]),
-        name="hs_branches", formats=BRANCH_FORMATS)
+        "hs_branches")
     b.section(sheet, "Insulated cases: boundaries")
-    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), name="hs_bounds",
-            formats=[None, None, "0.0"])
+    b.boundary_table(sheet, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), "hs_bounds")
     b.section("Calculation", "Insulated cases: a network per thickness (tables on the sheet Tables)")
     b.step("hs_check", "Network check", "=NET_CHECK(hs_branches, hs_bounds)", "")
 

@@ -11,19 +11,11 @@ limit.
 from __future__ import annotations
 
 
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, Valid,
+from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid,
                             altitude)
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
-
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BOUNDARY_HEADER = ["node", "T or Q", "value"]
-# p1..p5 hold numbers or a facing word; the method column names a correlation
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
-BRANCH_ARGS = ("height", "side_area", "top_area", "top_length", "wall_thickness", "wall_k", "emissivity", "method")
-# Order of NET_SOLVE's node rows (first appearance in the branch table, as the engine lists them).
-NODES = ("side_in", "air_in", "top_in", "side_out", "top_out", "ambient", "sky")
 
 
 def branch_rows(*, height, side_area, top_area, top_length, wall_thickness, wall_k, emissivity, method):
@@ -102,18 +94,17 @@ def build(b) -> None:
 
     # the network's tables live on the Tables sheet; the steps below pick from the solution
     b.section("Tables", "Thermal network: branches (from = surface, to = fluid for convection)")
-    b.table("Tables", BRANCH_HEADER, branch_rows(
+    branches = branch_rows(
         height="=cab_height", side_area="=side_area", top_area="=top_area", top_length="=top_length",
-        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity",
-        method="=vplate_method"), name="cab_branches", formats=BRANCH_FORMATS)
+        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity", method="=vplate_method")
+    b.branch_table("Tables", branches, "cab_branches")
     b.section("Tables", "Thermal network: boundaries (T fixes °C, Q adds W)")
-    b.table("Tables", BOUNDARY_HEADER, boundary_rows(
+    b.boundary_table("Tables", boundary_rows(
         dissipation="=dissipation", sun_side="=sun_sides_w", sun_top="=sun_top_w",
-        ambient="=ambient_t", sky="=sky_t"), name="cab_bounds", formats=[None, None, "0.0"])
+        ambient="=ambient_t", sky="=sky_t"), "cab_bounds")
     b.section("Tables", "Thermal network: solution (one cell per entry; NET_SOLVE gives the same as one table)")
     pair, fluid = "cab_branches, cab_bounds", '"air", air_pressure'
-    picks = b.network_solution("Tables", pair, fluid, NODES,
-                               [(row[0], row[3]) for row in branch_rows(**{k: None for k in BRANCH_ARGS})])
+    picks = b.network_solution("Tables", pair, fluid, branches)
 
     b.section("Calculation", "Temperatures and heat flows picked from the solved network (sheet Tables)")
     b.step("t_air", "Internal air temperature", f'=NET_TEMP({pair}, "air_in", {fluid})', "°C")
