@@ -143,21 +143,28 @@ class Template:
 class Valid:
     """The accepted values of a numeric input and why; the input cell's data validation.
 
-    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0)."""
+    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0).
+    ``extra`` adds conditions on other inputs to the cell's validation formula ("{cell}" stands
+    for the cell, e.g. "{cell}=INT({cell})"), ``extra_words`` says them in the message; the
+    build's own check of the default (:meth:`admits`) sees the bounds only."""
 
     low: float | None = None
     high: float | None = None
     why: str = ""
     low_open: bool = False
     high_open: bool = False
+    extra: tuple[str, ...] = ()
+    extra_words: str = ""
 
     def describe(self, unit: str) -> str:
         u = f" {unit}" if unit not in ("", "-") else ""
         low = None if self.low is None else f"{'above' if self.low_open else 'at least'} {_num(self.low)}{u}"
         high = None if self.high is None else f"{'below' if self.high_open else 'at most'} {_num(self.high)}{u}"
         if low and high and not self.low_open and not self.high_open:
-            return f"from {_num(self.low)} to {_num(self.high)}{u}"
-        return " and ".join(part for part in (low, high) if part)
+            words = f"from {_num(self.low)} to {_num(self.high)}{u}"
+        else:
+            words = " and ".join(part for part in (low, high) if part)
+        return words + (f", {self.extra_words}" if self.extra_words else "")
 
     def admits(self, value: float) -> bool:
         if self.low is not None and (value < self.low or (self.low_open and value == self.low)):
@@ -167,12 +174,16 @@ class Valid:
     def options(self, cell: str) -> dict:
         """XlsxWriter data-validation options (without the messages)."""
         closed = not self.low_open and not self.high_open
-        if self.low is not None and self.high is not None and closed:
+        if self.low is not None and self.high is not None and closed and not self.extra:
             return {"validate": "decimal", "criteria": "between", "minimum": self.low, "maximum": self.high}
-        if self.low is not None and self.high is not None:
-            low = f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}"
-            high = f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}"
-            return {"validate": "custom", "value": f"=AND(ISNUMBER({cell}),{low},{high})"}
+        if (self.low is not None and self.high is not None) or self.extra:
+            tests = [f"ISNUMBER({cell})"]
+            if self.low is not None:
+                tests.append(f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}")
+            if self.high is not None:
+                tests.append(f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}")
+            tests += [condition.format(cell=cell) for condition in self.extra]
+            return {"validate": "custom", "value": f"=AND({','.join(tests)})"}
         if self.low is not None:
             return {"validate": "decimal", "criteria": ">" if self.low_open else ">=", "value": self.low}
         if self.high is not None:

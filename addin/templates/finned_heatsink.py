@@ -11,8 +11,6 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, altitude,
                             gas_temperature)
 
@@ -28,35 +26,17 @@ SIGMA = "5.670374419E-8"  # W/(m²·K⁴), CODATA 2018 (scipy.constants.Stefan_B
 
 _SINK = "base_width, fin_height, fin_length, fin_thickness, {count}, fin_k, emissivity, \"air\", air_pressure"
 
-
-@dataclass(frozen=True)
-class _Checked(Valid):
-    """A range with extra conditions in the cell's own validation formula ("{cell}" stands for the
-    cell): a whole number of fins, fins thinner than the gap they leave."""
-
-    extra: tuple[str, ...] = ()
-    extra_words: str = ""
-
-    def describe(self, unit: str) -> str:
-        return super().describe(unit) + (f", {self.extra_words}" if self.extra_words else "")
-
-    def options(self, cell: str) -> dict:
-        low = f"{cell}{'>' if self.low_open else '>='}{self.low:g}"
-        high = f"{cell}{'<' if self.high_open else '<='}{self.high:g}"
-        tests = ",".join([f"ISNUMBER({cell})", low, high] + [e.format(cell=cell) for e in self.extra])
-        return {"validate": "custom", "value": f"=AND({tests})"}
-
-
 SIZE = Valid(0.0, 1.0, "a size above 0 and at most 1 m (larger sinks leave the laminar range of the "
              "correlations, Ra_L up to 1e9, at ordinary temperature differences)", low_open=True)
-FIN_COUNT = _Checked(2.0, float(MAX_FINS), "a heat sink has a whole number of fins, at least 2 (one channel "
-                     f"between them); {MAX_FINS} is far beyond any still-air sink",
-                     extra=("{cell}=INT({cell})", "{cell}*fin_thickness<base_width"),
-                     extra_words="a whole number, with the fins fitting on the base")
-FIN_THICKNESS = _Checked(0.0, 0.02, "a fin is above 0 and at most 20 mm thick, and thinner than the gap it "
-                         "leaves: (base width - N t)/(N - 1) > t", low_open=True,
-                         extra=("{cell}*(2*fin_count-1)<base_width",),
-                         extra_words="and thinner than the gap between the fins")
+# a whole number of fins, and fins thinner than the gap they leave: conditions on other inputs
+FIN_COUNT = Valid(2.0, float(MAX_FINS), "a heat sink has a whole number of fins, at least 2 (one channel "
+                  f"between them); {MAX_FINS} is far beyond any still-air sink",
+                  extra=("{cell}=INT({cell})", "{cell}*fin_thickness<base_width"),
+                  extra_words="a whole number, with the fins fitting on the base")
+FIN_THICKNESS = Valid(0.0, 0.02, "a fin is above 0 and at most 20 mm thick, and thinner than the gap it "
+                      "leaves: (base width - N t)/(N - 1) > t", low_open=True,
+                      extra=("{cell}*(2*fin_count-1)<base_width",),
+                      extra_words="and thinner than the gap between the fins")
 
 
 def build(b) -> None:
