@@ -106,6 +106,10 @@ UNIT_FORMATS = {
     "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
 }
 
+# The Stefan-Boltzmann constant as a Calculation step writes it, W/(m²·K⁴): CODATA 2018 to the
+# digits the value is quoted with (scipy.constants.Stefan_Boltzmann, the engine's SIGMA).
+SIGMA_TEXT = "5.670374419E-8"
+
 # Network tables in the engine's columns: p1..p5 hold numbers (or a facing word), the rest text.
 BRANCH_FORMATS = (None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None)
 BOUNDARY_FORMATS = (None, None, "0.0")

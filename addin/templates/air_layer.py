@@ -10,12 +10,11 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import SIG3, Template, TemplateBook, Valid, gas_pressure
+from ..templatebook import SIG3, SIGMA_TEXT, Template, TemplateBook, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}
 SWEEP_MM = (5, 7, 10, 15, 20, 25, 30, 40, 50, 75, 100, 150, 200, 300)
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 
 # Our own scenario: a 35 mm wall air layer between masonry (0.9) and a foil-faced board (0.2).
 DEFAULTS = dict(thickness=0.035, direction="horizontal", eps_warm=0.9, eps_cold=0.2, t_mean=6.0, delta_t=4.0,

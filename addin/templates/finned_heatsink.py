@@ -11,7 +11,7 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, altitude,
+from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, SIGMA_TEXT, Template, Valid, altitude,
                             gas_temperature)
 
 NAME = "finned-heatsink"
@@ -22,7 +22,6 @@ NO_SPREAD = "no correlation covers the case"
 
 DEFAULTS = dict(base_width=0.10, fin_height=0.035, fin_length=0.12, fin_thickness=0.0015, fin_count=12.0,
                 fin_k=200.0, emissivity=0.85, dissipation=25.0, ambient_t=35.0, max_base_t=85.0, altitude=0.0)
-SIGMA = "5.670374419E-8"  # W/(m²·K⁴), CODATA 2018 (scipy.constants.Stefan_Boltzmann)
 
 _SINK = "base_width, fin_height, fin_length, fin_thickness, {count}, fin_k, emissivity, \"air\", air_pressure"
 
@@ -112,7 +111,7 @@ def build(b) -> None:
     b.step("eps_open", "Apparent emissivity of a channel's openings",
            "=emissivity/(emissivity+(1-emissivity)*open_area/((2*fin_height+gap)*fin_length))", "-",
            "grey isothermal groove, uniform radiosity")
-    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA}", "W/(m²·K⁴)", "CODATA 2018")
+    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
     b.step("q_rad", "Radiation from the envelope (tips, outer faces, channel openings)",
            "=sigma*(emissivity*(fin_count*fin_thickness+2*fin_height)*fin_length"
            "+eps_open*(fin_count-1)*open_area)*((t_base+273.15)^4-(ambient_t+273.15)^4)", "W")

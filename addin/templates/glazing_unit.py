@@ -17,13 +17,13 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, Template, TemplateBook, Valid, gas_pressure)
+from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, SIGMA_TEXT, Template, TemplateBook, Valid,
+                            gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")
 SWEEP_MM = tuple(range(6, 25))          # 6 ... 24 mm
 GAP_METHODS = ("auto", "elsherbiny", "wright", "catton", "macgregor-emery", "en673")
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 PASSES = 3                              # explicit passes of the standard's gap-ΔT split (triple)
 
 # Defaults: our own scenario, a 6-16-4 unit with 90 % argon and a low-e coating on face 3.

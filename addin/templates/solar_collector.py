@@ -12,10 +12,9 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (OUTDOOR_AIR, SKY_TEMPERATURE, Template, TemplateBook, Valid,
+from ..templatebook import (OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, TemplateBook, Valid,
                             gas_pressure)
 
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
             "cavity correlations (aspect 12 and up for Hollands)", low_open=True)
 COVER_EMITTANCE = Valid(0.01, 1.0, "an emittance is at most 1, and at least 0.01 (the exchange factor "
