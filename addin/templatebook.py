@@ -225,6 +225,9 @@ def altitude() -> Valid:
 
 # Shared ranges of common inputs.
 EMISSIVITY = Valid(0.0, 1.0, "an emissivity is a fraction of black-body emission, 0 to 1")
+# one of two faces exchanging radiation: both above 0, or the exchange factor is undefined
+FACE_PAIR_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                             "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 ABSOLUTE_ZERO = -273.15
 SKY_TEMPERATURE = Valid(-100.0, 60.0, "an effective sky temperature lies from about -100 °C (clear, dry, cold "
                         "sky) up to the air temperature (common practice)")

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import SIG3, SIGMA_TEXT, Template, TemplateBook, Valid, gas_pressure
+from ..templatebook import FACE_PAIR_EMISSIVITY, SIG3, SIGMA_TEXT, Template, TemplateBook, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}
@@ -35,11 +35,10 @@ def build(b: TemplateBook) -> None:
                         "0.3 m)", low_open=True))
     b.input("direction", "Direction of heat flow", d["direction"], "",
             "up (roof, ceiling), horizontal (wall), down (floor)", choices=DIRECTIONS)
-    face = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                 "1/(1/e1 + 1/e2 - 1) needs both above 0)")
-    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9", valid=face)
+    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9",
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_cold", "Emissivity of the cold face", d["eps_cold"], "-", "aluminium foil 0.05, aged 0.2 or more",
-            valid=face)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("t_mean", "Mean temperature of the layer", d["t_mean"], "°C",
             valid=Valid(-50.0, 80.0, "air layers in building elements lie between about -50 and +80 °C "
                         "(common practice)"))

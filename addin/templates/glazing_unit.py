@@ -17,8 +17,8 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, SIGMA_TEXT, Template, TemplateBook, Valid,
-                            gas_pressure)
+from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, SIGMA_TEXT, Template,
+                            TemplateBook, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")
@@ -37,8 +37,6 @@ PANE = Valid(0.0, 0.05, "a pane above 0 and at most 50 mm thick (laminated glass
 GAP = Valid(0.0, 0.1, "a gap above 0; at most 100 mm, beyond any sealed glazing unit, and the gas-layer "
             "correlations need the height/gap ratio they were measured for", low_open=True)
 FILL = Valid(0.0, 1.0, "a mole fraction lies from 0 to 1")
-FACE_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 
 
 def network_rows(panes: int) -> list[list]:
@@ -88,13 +86,13 @@ def build(b: TemplateBook) -> None:
     b.input("eps_outdoor_face", "Emissivity, face 1 (outdoor face)", d["eps_outdoor_face"], "-",
             "uncoated soda-lime glass 0.837 (EN 673)", valid=EMISSIVITY)
     b.input("eps_gap1_outer", "Emissivity, face 2 (gap 1, outer side)", d["eps_gap1_outer"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap1_inner", "Emissivity, face 3 (gap 1, inner side)", d["eps_gap1_inner"], "-",
-            "low-e coating: 0.01-0.2 (manufacturer's declared value)", valid=FACE_EMISSIVITY)
+            "low-e coating: 0.01-0.2 (manufacturer's declared value)", valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap2_outer", "Emissivity, face 4 (gap 2, outer side; triple)", d["eps_gap2_outer"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap2_inner", "Emissivity, face 5 (gap 2, inner side; triple)", d["eps_gap2_inner"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_indoor_face", "Emissivity, indoor face (4 double / 6 triple)", d["eps_indoor_face"], "-",
             valid=EMISSIVITY)
     b.input("glass_height", "Height of the glazed area", d["glass_height"], "m",

@@ -10,7 +10,7 @@ single pass is off.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, Template, Valid, gas_temperature
+from ..templatebook import EMISSIVITY, FACE_PAIR_EMISSIVITY, Template, Valid, gas_temperature
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]
@@ -58,11 +58,9 @@ def build(b) -> None:
                         "(ElSherbiny: aspect 5-110), so at most 0.5 m", low_open=True))
     b.input("eps_room", "Emissivity of the room-side faces", 0.9, "-", "painted board about 0.9", valid=EMISSIVITY)
     b.input("eps_cav_warm", "Emissivity of the warm cavity face", 0.9, "-", "a foil facing is about 0.05",
-            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_cav_cold", "Emissivity of the cold cavity face", 0.9, "-",
-            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("cav_method", "Cavity correlation", "auto", "", "auto picks the one whose range covers the case",
             choices=CAVITY_METHODS)
     b.section("Inputs", "Single-pass estimate: the guesses of a hand calculation")
