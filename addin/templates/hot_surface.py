@@ -168,7 +168,7 @@ def build(b) -> None:
     b.verdicts(sheet, tfirst, 6, tlast, fails=("no",))
 
     def column(col):
-        return f"{b.cell(sheet, tfirst, col)}:{b.cell(sheet, tlast, col).split('!')[1]}"
+        return b.column(sheet, tfirst, tlast, col)
 
     thickness_col, surface_col, loss_col, meets_col = column(1), column(2), column(3), column(6)
 
