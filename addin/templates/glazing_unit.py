@@ -284,16 +284,14 @@ def build(b: TemplateBook) -> None:
 
     b.section("Tables", "U against gap width: double unit, standard conditions (a), this unit's panes "
                         "and gap-1 coatings, pure gases")
+    start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
     sweep_rows = []
-    for mm in SWEEP_MM:
+    for i, mm in enumerate(SWEEP_MM):
         row = [float(mm)]
         for gas in SWEEP_GASES:
             row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
-                       f'std_mean-std_dt/2,A{{row}}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
+                       f'std_mean-std_dt/2,A{start + i + 1}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
         sweep_rows.append(row)
-    start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
-    for i, row in enumerate(sweep_rows):
-        sweep_rows[i] = [row[0]] + [cell.replace("{row}", str(start + i + 1)) for cell in row[1:]]
     first, _, last, _ = b.table("Tables", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
                                 name="gap_sweep", formats=["0", SIG3, SIG3, SIG3])
     assert first == start
