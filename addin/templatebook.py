@@ -245,7 +245,6 @@ class _SheetState:
     step: int = 0
     lines: dict[int, float] = field(default_factory=dict)      # row -> lines of wrapped text
     breaks: list[int] = field(default_factory=list)            # manual page breaks (row before which)
-    charts: list[tuple[int, int, int, int]] = field(default_factory=list)  # x, y, w, h in pixels
     chart_run: bool = False                                     # the last block was a chart
     section_row: int = -1                                       # row of the last section bar
 
@@ -279,7 +278,6 @@ class TemplateBook:
     def _formats(self) -> dict[str, Any]:
         self._format_cache: dict[tuple, Any] = {}
         base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": _INK, "valign": "top"}
-        self._base = base
         input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True,
                        "locked": False}
         return {
@@ -664,7 +662,6 @@ class TemplateBook:
             state.breaks.append(state.row)
         rows = math.ceil(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 1
         state.worksheet.insert_chart(state.row, 0, chart, {"x_offset": 4, "y_offset": 4, "object_position": 1})
-        state.charts.append((state.row, rows))
         state.row += rows
         state.chart_run = True
 
