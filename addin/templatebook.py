@@ -41,7 +41,7 @@ from xlsxwriter.utility import xl_rowcol_to_cell
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
 
 __all__ = ["TemplateBook", "Template", "Valid", "TEMPLATE_DIR", "MARKER_NAME", "FAILED", "build_template",
-           "TemplateBuildError",
+           "TemplateBuildError", "limit_check",
            "is_error_value", "source_of"]
 
 # The workbooks ship as the package stillair.templates (the top-level templates/ folder).
@@ -740,6 +740,13 @@ class TemplateBook:
             ws.protect("", {"format_columns": True, "format_rows": True})
         self.sheets["Inputs"].worksheet.activate()
         self.workbook.close()
+
+
+def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEEDS LIMIT",
+                failed: str = f'"{FAILED}"') -> str:
+    """Formula text of the check "``value`` at most ``limit``": ``within`` or ``beyond``, and
+    ``failed`` (a formula term; FAILED unless given) where ``value`` did not calculate."""
+    return f'=IF(ISNUMBER({value}), IF({value}<={limit}, "{within}", "{beyond}"), {failed})'
 
 
 def significant_format(value, figures: int = 3) -> str:

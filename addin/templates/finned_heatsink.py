@@ -12,7 +12,7 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 from __future__ import annotations
 
 from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, SIGMA_TEXT, Template, Valid, altitude,
-                            gas_temperature)
+                            gas_temperature, limit_check)
 
 NAME = "finned-heatsink"
 SWEEP_ROWS = 20
@@ -196,7 +196,7 @@ def build(b) -> None:
                      f"=HEATSINK_TBASE(dissipation, ambient_t, {_SINK.format(count=count)})",
                      "=max_base_t",
                      f"=max_base_t-{temp}",
-                     f'=IF(ISNUMBER({temp}), IF({temp}<=max_base_t, "yes", "no"), "{FAILED}")'])
+                     limit_check(temp, "max_base_t", "yes", "no")])
     first, _, last, _ = b.table(tables, ["fin count", "gap mm", "base °C", "limit °C", "margin K",
                                          "within limit"], rows, name="fin_sweep", col=1,
                                 formats=["0", "0.00", "0.0", "0.0", "0.0", None])
@@ -221,14 +221,14 @@ def build(b) -> None:
     b.result("res_limit", "Maximum allowed base temperature", "=max_base_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - base)", "=max_base_t-t_base", "K")
     b.result("res_check", "Limit check",
-             f'=IF(ISNUMBER(t_base), IF(t_base<=max_base_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
+             limit_check("t_base", "max_base_t"), text=True,
              fails=("EXCEEDS LIMIT",))
     b.result("res_t_base_cool", "Base temperature, correlation spread: lowest", "=t_base_cool", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_base_hot", "Base temperature, correlation spread: highest", "=t_base_hot", "°C")
     b.result("res_check_hot", "Limit check at the top of the spread",
-             f'=IF(ISNUMBER(t_base_hot), IF(t_base_hot<=max_base_t, "OK", "EXCEEDS LIMIT"), '
-             f'IF(t_base_hot="{NO_SPREAD}", "{NO_SPREAD}: no spread", "{FAILED}"))',
+             limit_check("t_base_hot", "max_base_t",
+                         failed=f'IF(t_base_hot="{NO_SPREAD}", "{NO_SPREAD}: no spread", "{FAILED}")'),
              text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Heat split")
     b.result("res_q_fins", "Fins (convection)", "=q_fins", "W")

@@ -10,7 +10,7 @@ independent sub-network per thickness), solved together by the network solver.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
+from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, limit_check
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
@@ -149,8 +149,7 @@ def build(b) -> None:
     tstart = b.sheets[sheet].row + 1
 
     def meets(row):  # a failed surface temperature must not read as "no" (or vanish from the search)
-        surface = b.cell(sheet, row, 2)
-        return f'=IF(ISNUMBER({surface}), IF({surface}<=touch_limit, "yes", "no"), "{FAILED}")'
+        return limit_check(b.cell(sheet, row, 2), "touch_limit", "yes", "no")
 
     rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit", meets(tstart), "=0"]]
     for k in range(1, STEPS + 1):

@@ -11,8 +11,8 @@ limit.
 from __future__ import annotations
 
 
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid,
-                            altitude)
+from ..templatebook import (EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude,
+                            limit_check)
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
@@ -156,14 +156,13 @@ def build(b) -> None:
     b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
     b.result("res_check", "Limit check",
-             f'=IF(ISNUMBER(t_air), IF(t_air<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
+             limit_check("t_air", "max_internal_t"), text=True,
              fails=("EXCEEDS LIMIT",))
     b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
     b.result("res_check_high", "Limit check at the top of the spread",
-             f'=IF(ISNUMBER(t_air_high), IF(t_air_high<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")',
-             text=True, fails=("EXCEEDS LIMIT",))
+             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")
