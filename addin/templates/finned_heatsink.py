@@ -38,6 +38,28 @@ FIN_THICKNESS = Valid(0.0, 0.02, "a fin is above 0 and at most 20 mm thick, and 
                       extra_words="and thinner than the gap between the fins")
 
 
+# The written-out fin model, one formula text each: the steps and the spread table evaluate the
+# same model with other coefficients.
+def _fin_m(h: str) -> str:
+    return f"SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))"
+
+
+def _fin_efficiency(m: str) -> str:
+    return f"TANH({m}*fin_lc)/({m}*fin_lc)"
+
+
+def _outer_fin_h(h_gap: str, h_face: str) -> str:
+    return f"({h_gap}+{h_face})/2"
+
+
+def _q_fins(h_gap: str, eta_inner: str, eta_outer: str, h_outer: str) -> str:
+    return f"((fin_count-2)*{eta_inner}*{h_gap}+2*{eta_outer}*{h_outer})*fin_area*excess"
+
+
+def _q_base(h_gap: str) -> str:
+    return f"(fin_count-1)*gap*fin_length*{h_gap}*excess"
+
+
 def build(b) -> None:
     d = DEFAULTS
     # ------------------------------------------------------------------ Inputs
@@ -93,19 +115,16 @@ def build(b) -> None:
     b.step("fin_lc", "Corrected fin length", "=fin_height+fin_thickness/2", "m", number_format="0.00000")
     b.step("fin_area", "Area of one fin, P Lc, P = 2 (L + t)", "=2*(fin_length+fin_thickness)*fin_lc", "m²",
            number_format=SIG3)
-    b.step("m_inner", "Fin parameter m, inner fins", "=SQRT(h_gap*2*(fin_length+fin_thickness)/"
-           "(fin_k*fin_length*fin_thickness))", "1/m", number_format=SIG3)
-    b.step("eta_inner", "Fin efficiency, inner fins", "=TANH(m_inner*fin_lc)/(m_inner*fin_lc)", "-")
+    b.step("m_inner", "Fin parameter m, inner fins", "=" + _fin_m("h_gap"), "1/m", number_format=SIG3)
+    b.step("eta_inner", "Fin efficiency, inner fins", "=" + _fin_efficiency("m_inner"), "-")
     b.step("h_outer_fin", "Mean coefficient of an outer fin (one face in a gap, one free)",
-           "=(h_gap+h_face)/2", "W/(m²·K)")
-    b.step("m_outer", "Fin parameter m, outer fins", "=SQRT(h_outer_fin*2*(fin_length+fin_thickness)/"
-           "(fin_k*fin_length*fin_thickness))", "1/m", number_format=SIG3)
-    b.step("eta_outer", "Fin efficiency, outer fins", "=TANH(m_outer*fin_lc)/(m_outer*fin_lc)", "-")
+           "=" + _outer_fin_h("h_gap", "h_face"), "W/(m²·K)")
+    b.step("m_outer", "Fin parameter m, outer fins", "=" + _fin_m("h_outer_fin"), "1/m", number_format=SIG3)
+    b.step("eta_outer", "Fin efficiency, outer fins", "=" + _fin_efficiency("m_outer"), "-")
     b.section("Calculation", "Heat split")
-    b.step("q_fins", "Convection from the fins",
-           "=((fin_count-2)*eta_inner*h_gap+2*eta_outer*h_outer_fin)*fin_area*excess", "W")
-    b.step("q_base", "Convection from the base between the fins", "=(fin_count-1)*gap*fin_length*h_gap*excess",
+    b.step("q_fins", "Convection from the fins", "=" + _q_fins("h_gap", "eta_inner", "eta_outer", "h_outer_fin"),
            "W")
+    b.step("q_base", "Convection from the base between the fins", "=" + _q_base("h_gap"), "W")
     b.step("open_area", "Openings of one channel (front S L, ends 2 S H)", "=gap*fin_length+2*gap*fin_height",
            "m²", number_format=SIG3)
     b.step("eps_open", "Apparent emissivity of a channel's openings",
@@ -148,13 +167,8 @@ def build(b) -> None:
 
     def column(col, extreme):
         h, hf, mi, ei, ho, mo, eo, q = (ref(k, col) for k in range(8))
-        rows = [f"SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"TANH({mi}*fin_lc)/({mi}*fin_lc)",
-                f"({h}+{hf})/2",
-                f"SQRT({ho}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"TANH({mo}*fin_lc)/({mo}*fin_lc)",
-                f"((fin_count-2)*{ei}*{h}+2*{eo}*{ho})*fin_area*excess+(fin_count-1)*gap*fin_length*{h}*excess"
-                "+q_rad"]
+        rows = [_fin_m(h), _fin_efficiency(mi), _outer_fin_h(h, hf), _fin_m(ho), _fin_efficiency(mo),
+                f"{_q_fins(h, ei, eo, ho)}+{_q_base(h)}+q_rad"]
         return ([f'=IF(count_gap>0, h_gap*INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , '
                  f'fin_length/gap), 1, {extreme})/nu_gap, "{NO_SPREAD}")',
                  f'=IF(count_face>0, h_face*INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, {extreme})/nu_face, '
