@@ -37,6 +37,12 @@ def insulated_branch_rows(rows):
     return table
 
 
+def _convection_formula(surface_t: str, diameter: str) -> str:
+    """The convection coefficient of the chosen geometry at ``surface_t`` (a pipe of ``diameter``)."""
+    return (f'=IF(kind="hcyl", H_HCYL({surface_t}, ambient_t, {diameter}), IF(kind="vplate", '
+            f'H_VPLATE({surface_t}, ambient_t, face_height), H_HPLATE({surface_t}, ambient_t, bare_length, facing)))')
+
+
 def boundary_rows(hot, ambient, surroundings):
     return [["hot", "T", hot], ["ambient", "T", ambient], ["surroundings", "T", surroundings]]
 
@@ -93,10 +99,7 @@ def build(b) -> None:
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
            '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
-    b.step("h_conv_bare", "Convection coefficient, bare",
-           '=IF(kind="hcyl", H_HCYL(hot_t, ambient_t, pipe_od), IF(kind="vplate", '
-           'H_VPLATE(hot_t, ambient_t, face_height), H_HPLATE(hot_t, ambient_t, bare_length, facing)))',
-           "W/(m²·K)")
+    b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
     b.step("q_conv_bare", "Convection loss, bare", "=h_conv_bare*bare_area*(hot_t-ambient_t)", "W")
     b.step("q_rad_bare", "Radiation loss, bare", "=h_rad_bare*bare_area*(hot_t-surroundings_t)", "W")
@@ -189,9 +192,7 @@ def build(b) -> None:
     b.step("surf_first_high", "Outer surface with 1 x step, all convection at the highest covering Nu",
            '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 2)', "°C")
     b.step("h_conv_first_step", "Outer convection coefficient with 1 x step (check)",
-           f'=IF(kind="hcyl", H_HCYL(surf_t_first_step, ambient_t, {b.cell(sheet, start, 3)}), '
-           f'IF(kind="vplate", H_VPLATE(surf_t_first_step, ambient_t, face_height), '
-           f'H_HPLATE(surf_t_first_step, ambient_t, bare_length, facing)))', "W/(m²·K)",
+           _convection_formula("surf_t_first_step", b.cell(sheet, start, 3)), "W/(m²·K)",
            "re-computed from the solved surface temperature")
 
     # ------------------------------------------------------------------ Results
