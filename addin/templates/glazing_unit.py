@@ -167,9 +167,7 @@ def build(b: TemplateBook) -> None:
     b.section("Tables", "(b) the same for a triple unit (the Number of panes picks the table)")
     b.branch_table("Tables", network_rows(3), "glz_triple")
     b.section("Tables", "(b) boundaries")
-    b.table("Tables", ["node", "T or Q", "value"],
-            [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], name="glz_bounds",
-            formats=[None, None, "0.0"])
+    b.boundary_table("Tables", [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], "glz_bounds")
     b.section("Calculation", "(b) solved temperatures (network tables on the sheet Tables)")
     tables = "CHOOSE(panes-1,glz_double,glz_triple),glz_bounds"
     air = '"air",pressure'
