@@ -155,11 +155,11 @@ def build(b: TemplateBook) -> None:
                "m²·K/W")
         b.step(f"std_r2_p{p}", f"Pass {p}: gap 2 resistance 1/(h_g + h_r)",
                f"=IF(panes=3,1/(std_hg2_p{p}+std_hr_2),0)", "m²·K/W", "0 with 2 panes")
-    last, before = PASSES, PASSES - 1
-    b.step("std_u", "U-value, standard conditions",
-           f"=1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{last}+std_r2_p{last})", "W/(m²·K)")
-    b.step("std_u_change", "Change of U in the last pass",
-           f"=std_u-1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{before}+std_r2_p{before})", "W/(m²·K)",
+
+    def u_after(p):
+        return f"1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{p}+std_r2_p{p})"
+    b.step("std_u", "U-value, standard conditions", "=" + u_after(PASSES), "W/(m²·K)")
+    b.step("std_u_change", "Change of U in the last pass", "=std_u-" + u_after(PASSES - 1), "W/(m²·K)",
            "converged when near 0", number_format="0.0E+00")
 
     b.section("Tables", "(b) actual conditions: network per m² of glass, double unit (s1 = face 1 ...)")
