@@ -51,11 +51,12 @@ MARKER_NAME = "stillair_template"
 FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
 
 # Our own palette: warm sand input cells, slate headings, pale sage results; a failed check is
-# printed white on ink, which stays the darkest thing on a grey-scale page.
-_INK = "#23313F"
-_SLATE = "#3E5C76"
+# printed white on ink, which stays the darkest thing on a grey-scale page.  Charts draw their
+# series in INK, SLATE and SAND_EDGE too.
+INK = "#23313F"
+SLATE = "#3E5C76"
 _SAND = "#FBEFD5"
-_SAND_EDGE = "#C98B2B"
+SAND_EDGE = "#C98B2B"
 _SAGE = "#E3EEDF"
 _RULE = "#B8C4CE"
 _CAUTION = "#F6DCD5"
@@ -277,29 +278,29 @@ class TemplateBook:
 
     def _formats(self) -> dict[str, Any]:
         self._format_cache: dict[tuple, Any] = {}
-        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": _INK, "valign": "top"}
-        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True,
+        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": INK, "valign": "top"}
+        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": SAND_EDGE, "bold": True,
                        "locked": False}
         return {
-            "title": {**base, "bold": True, "font_size": 15, "font_color": _SLATE},
-            "subtitle": {**base, "italic": True, "font_color": _SLATE, "text_wrap": True},
-            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": _SLATE},
+            "title": {**base, "bold": True, "font_size": 15, "font_color": SLATE},
+            "subtitle": {**base, "italic": True, "font_color": SLATE, "text_wrap": True},
+            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": SLATE},
             "label": {**base, "text_wrap": True},
-            "unit": {**base, "font_color": _SLATE},
+            "unit": {**base, "font_color": SLATE},
             "note": {**base, "italic": True, "font_color": "#4A5661", "text_wrap": True},
             "input": {**input_style, "num_format": "General"},
             "input_text": input_style,
-            "signoff": {**base, "border": 1, "border_color": _SLATE, "locked": False, "text_wrap": True},
+            "signoff": {**base, "border": 1, "border_color": SLATE, "locked": False, "text_wrap": True},
             "value": {**base, "bottom": 1, "bottom_color": _RULE},
             "text_value": {**base, "bottom": 1, "bottom_color": _RULE, "text_wrap": True},
             "text_run": {**base, "bottom": 1, "bottom_color": _RULE},
-            "failed": {"bold": True, "font_color": _WHITE, "bg_color": _INK},
+            "failed": {"bold": True, "font_color": _WHITE, "bg_color": INK},
             "result": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE},
             "result_text": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE,
                             "text_wrap": True},
-            "step": {**base, "font_color": _SLATE, "align": "center"},
-            "header": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True},
-            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True,
+            "step": {**base, "font_color": SLATE, "align": "center"},
+            "header": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True},
+            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True,
                               "align": "right"},
             "cell": {**base},
             "paragraph": {**base, "text_wrap": True},
@@ -650,8 +651,8 @@ class TemplateBook:
         chart = self.workbook.add_chart(options)
         for entry in series:
             chart.add_series(entry)
-        font = {"size": CHART_FONT_SIZE, "color": _INK}
-        chart.set_title({"name": title, "name_font": {"size": 11, "color": _SLATE, "bold": True}})
+        font = {"size": CHART_FONT_SIZE, "color": INK}
+        chart.set_title({"name": title, "name_font": {"size": 11, "color": SLATE, "bold": True}})
         chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
         chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
                           "major_gridlines": {"visible": True, "line": {"color": _RULE}}, **(y_axis or {})})

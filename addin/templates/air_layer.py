@@ -10,7 +10,8 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import FACE_PAIR_EMISSIVITY, SIG3, SIGMA_TEXT, Template, TemplateBook, Valid, gas_pressure
+from ..templatebook import (FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, TemplateBook, Valid,
+                            gas_pressure)
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}
@@ -121,13 +122,14 @@ def build(b: TemplateBook) -> None:
     first, _, last, _ = b.table("Results", ["thickness mm", "R correlations m²·K/W", "R simplified m²·K/W"],
                                 rows, name="thickness_sweep", formats=["0", SIG3, SIG3])
     assert first == start
-    series = [{"name": "correlations + radiation", "categories": "=" + TemplateBook.column("Results", first, last, 0),
-               "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": "#3E5C76", "width": 1.75},
-               "marker": {"type": "circle", "size": 4, "fill": {"color": "#3E5C76"}}},
-              {"name": "standard, simplified", "categories": "=" + TemplateBook.column("Results", first, last, 0),
-               "values": "=" + TemplateBook.column("Results", first, last, 2), "line": {"color": "#C98B2B", "width": 1.75,
-                                                                            "dash_type": "dash"},
-               "marker": {"type": "square", "size": 4, "fill": {"color": "#C98B2B"}}}]
+    thicknesses = "=" + TemplateBook.column("Results", first, last, 0)
+    series = [{"name": "correlations + radiation", "categories": thicknesses,
+               "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": SLATE, "width": 1.75},
+               "marker": {"type": "circle", "size": 4, "fill": {"color": SLATE}}},
+              {"name": "standard, simplified", "categories": thicknesses,
+               "values": "=" + TemplateBook.column("Results", first, last, 2),
+               "line": {"color": SAND_EDGE, "width": 1.75, "dash_type": "dash"},
+               "marker": {"type": "square", "size": 4, "fill": {"color": SAND_EDGE}}}]
     b.chart("Results", "scatter", "Air-layer resistance against thickness", series, "thickness, mm (log scale)",
             "R, m²·K/W", subtype="straight_with_markers",
             x_axis={"log_base": 10, "min": 1, "max": 1000})

@@ -11,8 +11,8 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, SIGMA_TEXT, Template, Valid, altitude,
-                            gas_temperature, limit_check)
+from ..templatebook import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
+                            altitude, gas_temperature, limit_check)
 
 NAME = "finned-heatsink"
 SWEEP_ROWS = 20
@@ -272,12 +272,12 @@ def build(b) -> None:
              {"name": "allowed base temperature", "categories": f"={counts}", "values": f"={limits}",
               "marker": {"type": "none"}, "line": {"dash_type": "dash"}},
              {"name": "lowest (optimum count)", "categories": f"={b.names['count_best']}",
-              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 11, "fill": {"color": "#23313F"},
-                                                   "border": {"color": "#23313F"}},
+              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 11, "fill": {"color": INK},
+                                                   "border": {"color": INK}},
               "line": {"none": True}},
              {"name": "this design", "categories": f"={b.names['fin_count']}",
               "values": f"={b.names['t_base']}", "marker": {"type": "square", "size": 9, "fill": {"none": True},
-                                                   "border": {"color": "#C98B2B", "width": 2}},
+                                                   "border": {"color": SAND_EDGE, "width": 2}},
               "line": {"none": True}}],
             "number of fins", "base temperature °C", subtype="straight_with_markers")
 

@@ -17,8 +17,8 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, SIGMA_TEXT, Template,
-                            TemplateBook, Valid, gas_pressure)
+from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
+                            SLATE, Template, TemplateBook, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")
@@ -303,7 +303,7 @@ def build(b: TemplateBook) -> None:
     o_first, _, o_last, _ = b.table("Tables", ["gas", "optimum gap mm", "lowest U W/(m²·K)"], optimum_rows,
                                     name="gap_optimum", formats=[None, "0", SIG3])
     series = []
-    palette = {"air": "#7A8C99", "argon": "#3E5C76", "krypton": "#C98B2B"}
+    palette = {"air": "#7A8C99", "argon": SLATE, "krypton": SAND_EDGE}
     for j, gas in enumerate(SWEEP_GASES, start=1):
         series.append({"name": gas, "categories": "=" + gaps,
                        "values": "=" + TemplateBook.column("Tables", first, last, j),
@@ -315,7 +315,7 @@ def build(b: TemplateBook) -> None:
                        "values": "=" + TemplateBook.column("Tables", row, row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
-                                  "border": {"color": "#23313F"}}})
+                                  "border": {"color": INK}}})
     b.chart("Results", "scatter", "Centre-of-glass U against gap width (EN 673 conditions)", series,
             "gap width, mm", "U, W/(m²·K)", subtype="straight")
 
