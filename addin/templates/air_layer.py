@@ -71,10 +71,10 @@ def build(b: TemplateBook) -> None:
     b.step("h_radiation", "Radiation coefficient between the faces", "=H_RAD(t_warm,t_cold,eps_warm,eps_cold)",
            "W/(m²·K)", "grey parallel faces, exact T⁴ linearised")
     b.step("r_correlation", "Resistance 1/(h_conv + h_rad)", "=1/(h_conv+h_radiation)", "m²·K/W")
-    b.step("spread_count", "Correlations covering the case (NU_SPREAD)",
-           '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,3)', number_format="0")
-    b.step("nu_low", "Lowest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,1)', "-")
-    b.step("nu_high", "Highest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,2)', "-")
+    spread = 'NU_SPREAD("cavity",ra,pr,"",tilt,aspect)'
+    b.step("spread_count", "Correlations covering the case (NU_SPREAD)", f"=INDEX({spread},1,3)", number_format="0")
+    b.step("nu_low", "Lowest covering Nu", f"=INDEX({spread},1,1)", "-")
+    b.step("nu_high", "Highest covering Nu", f"=INDEX({spread},1,2)", "-")
     b.step("r_spread_high", "Resistance with the lowest Nu 1/(h_conv Nu_low/Nu + h_rad)",
            "=IF(spread_count>0,1/(h_conv*nu_low/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
     b.step("r_spread_low", "Resistance with the highest Nu 1/(h_conv Nu_high/Nu + h_rad)",

@@ -141,11 +141,12 @@ def build(b) -> None:
            "W", "equals the dissipation")
 
     b.section("Calculation", "Correlation spread (NU_SPREAD): the model at the lowest and highest covering Nu")
-    b.step("count_gap", "Channel correlations covering the case",
-           '=INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , fin_length/gap), 1, 3)',
+    spread_gap = 'NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)'
+    spread_face = 'NU_SPREAD("vplate", ra_face, pr_film)'
+    b.step("count_gap", "Channel correlations covering the case", f"=INDEX({spread_gap}, 1, 3)",
            number_format="0")
-    b.step("count_face", "Vertical-plate correlations covering the outer faces",
-           '=INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, 3)', number_format="0")
+    b.step("count_face", "Vertical-plate correlations covering the outer faces", f"=INDEX({spread_face}, 1, 3)",
+           number_format="0")
     b.step("nu_gap", "Channel Nusselt number used (auto)",
            '=NU_CHANNEL(ra_gap, pr_film, fin_length/gap, "isothermal")', "-")
     b.step("nu_face", "Outer-face Nusselt number used (auto)", "=NU_VPLATE(ra_face, pr_film)", "-")
@@ -169,10 +170,8 @@ def build(b) -> None:
         h, hf, mi, ei, ho, mo, eo, q = (ref(k, col) for k in range(8))
         rows = [_fin_m(h), _fin_efficiency(mi), _outer_fin_h(h, hf), _fin_m(ho), _fin_efficiency(mo),
                 f"{_q_fins(h, ei, eo, ho)}+{_q_base(h)}+q_rad"]
-        return ([f'=IF(count_gap>0, h_gap*INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , '
-                 f'fin_length/gap), 1, {extreme})/nu_gap, "{NO_SPREAD}")',
-                 f'=IF(count_face>0, h_face*INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, {extreme})/nu_face, '
-                 f'"{NO_SPREAD}")']
+        return ([f'=IF(count_gap>0, h_gap*INDEX({spread_gap}, 1, {extreme})/nu_gap, "{NO_SPREAD}")',
+                 f'=IF(count_face>0, h_face*INDEX({spread_face}, 1, {extreme})/nu_face, "{NO_SPREAD}")']
                 + [f'=IF({covered}, {row}, "-")' for row in rows]
                 + [f'=IF({covered}, t_base+(dissipation-{q})/g_sink, "{NO_SPREAD}")'])
 

@@ -101,13 +101,13 @@ def build(b: TemplateBook) -> None:
            "check: h ΔT = convection absorber - cover 1")
     aspect = "collector_length/gap_1"
     b.step("nu_gap_1", "Gap 1 Nusselt number (auto)", f'=NU_CAVITY(ra_1,pr_1,{aspect},tilt,"auto")', "-")
-    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)",
-           f'=INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,3)', number_format="0")
+    spread = f'NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect})'
+    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)", f"=INDEX({spread},1,3)", number_format="0")
     b.step("h_gap_low", "Gap 1 coefficient at the lowest covering Nu",
-           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,1)/nu_gap_1,'
+           f'=IF(spread_count>0,h_gap_1*INDEX({spread},1,1)/nu_gap_1,'
            '"no correlation covers the case")', "W/(m²·K)", "h scales with Nu at fixed properties")
     b.step("h_gap_high", "Gap 1 coefficient at the highest covering Nu",
-           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,2)/nu_gap_1,'
+           f'=IF(spread_count>0,h_gap_1*INDEX({spread},1,2)/nu_gap_1,'
            '"no correlation covers the case")', "W/(m²·K)")
     b.step("u_top_sky_air", "U_t with the sky at the air temperature (Klein's assumption)",
            f'=(NET_HEAT({branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({branches},col_bounds_klein,'
