@@ -582,8 +582,7 @@ class TemplateBook:
     # ---------------------------------------------------------------- blocks
 
     def table(self, sheet: str, header: Sequence[str], rows: Sequence[Sequence[Any]], name: str | None = None,
-              col: int = 0, formats: Sequence[str | None] | None = None,
-              include_header_in_name: bool = False) -> tuple[int, int, int, int]:
+              col: int = 0, formats: Sequence[str | None] | None = None) -> tuple[int, int, int, int]:
         """A block of cells: numbers, text, None (blank) or formulas (strings starting "=").
 
         ``formats`` gives each column's number format (None: a text column); number columns get
@@ -611,8 +610,7 @@ class TemplateBook:
             state.row += 1
         last = state.row - 1
         if name:
-            start = header_row if include_header_in_name else first
-            self._define(name, sheet, start, col, last, col + width - 1)
+            self._define(name, sheet, first, col, last, col + width - 1)
         return first, col, last, col + width - 1
 
     def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
