@@ -233,9 +233,7 @@ def build(b) -> None:
     b.result("res_t_base", "Base temperature", "=t_base", "°C")
     b.result("res_limit", "Maximum allowed base temperature", "=max_base_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - base)", "=max_base_t-t_base", "K")
-    b.result("res_check", "Limit check",
-             limit_check("t_base", "max_base_t"), text=True,
-             fails=("EXCEEDS LIMIT",))
+    b.result("res_check", "Limit check", limit_check("t_base", "max_base_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_base_cool", "Base temperature, correlation spread: lowest", "=t_base_cool", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_base_hot", "Base temperature, correlation spread: highest", "=t_base_hot", "°C")

@@ -155,9 +155,7 @@ def build(b) -> None:
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C")
     b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check",
-             limit_check("t_air", "max_internal_t"), text=True,
-             fails=("EXCEEDS LIMIT",))
+    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
