@@ -38,8 +38,10 @@ from typing import Any, Callable, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
+from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+
 __all__ = ["TemplateBook", "Template", "Valid", "TEMPLATE_DIR", "MARKER_NAME", "FAILED", "build_template",
-           "TemplateBuildError",
+           "TemplateBuildError", "limit_check",
            "is_error_value", "source_of"]
 
 # The workbooks ship as the package stillair.templates (the top-level templates/ folder).
@@ -49,11 +51,12 @@ MARKER_NAME = "stillair_template"
 FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
 
 # Our own palette: warm sand input cells, slate headings, pale sage results; a failed check is
-# printed white on ink, which stays the darkest thing on a grey-scale page.
-_INK = "#23313F"
-_SLATE = "#3E5C76"
+# printed white on ink, which stays the darkest thing on a grey-scale page.  Charts draw their
+# series in INK, SLATE and SAND_EDGE too.
+INK = "#23313F"
+SLATE = "#3E5C76"
 _SAND = "#FBEFD5"
-_SAND_EDGE = "#C98B2B"
+SAND_EDGE = "#C98B2B"
 _SAGE = "#E3EEDF"
 _RULE = "#B8C4CE"
 _CAUTION = "#F6DCD5"
@@ -104,6 +107,14 @@ UNIT_FORMATS = {
     "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
 }
 
+# The Stefan-Boltzmann constant as a Calculation step writes it, W/(m²·K⁴): CODATA 2018 to the
+# digits the value is quoted with (scipy.constants.Stefan_Boltzmann, the engine's SIGMA).
+SIGMA_TEXT = "5.670374419E-8"
+
+# Network tables in the engine's columns: p1..p5 hold numbers (or a facing word), the rest text.
+BRANCH_FORMATS = (None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None)
+BOUNDARY_FORMATS = (None, None, "0.0")
+
 _NAME_RE = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 
 # The sign-off block at the top of the Inputs sheet: the fields a checker fills in and signs.
@@ -137,21 +148,28 @@ class Template:
 class Valid:
     """The accepted values of a numeric input and why; the input cell's data validation.
 
-    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0)."""
+    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0).
+    ``extra`` adds conditions on other inputs to the cell's validation formula ("{cell}" stands
+    for the cell, e.g. "{cell}=INT({cell})"), ``extra_words`` says them in the message; the
+    build's own check of the default (:meth:`admits`) sees the bounds only."""
 
     low: float | None = None
     high: float | None = None
     why: str = ""
     low_open: bool = False
     high_open: bool = False
+    extra: tuple[str, ...] = ()
+    extra_words: str = ""
 
     def describe(self, unit: str) -> str:
         u = f" {unit}" if unit not in ("", "-") else ""
         low = None if self.low is None else f"{'above' if self.low_open else 'at least'} {_num(self.low)}{u}"
         high = None if self.high is None else f"{'below' if self.high_open else 'at most'} {_num(self.high)}{u}"
         if low and high and not self.low_open and not self.high_open:
-            return f"from {_num(self.low)} to {_num(self.high)}{u}"
-        return " and ".join(part for part in (low, high) if part)
+            words = f"from {_num(self.low)} to {_num(self.high)}{u}"
+        else:
+            words = " and ".join(part for part in (low, high) if part)
+        return words + (f", {self.extra_words}" if self.extra_words else "")
 
     def admits(self, value: float) -> bool:
         if self.low is not None and (value < self.low or (self.low_open and value == self.low)):
@@ -161,12 +179,16 @@ class Valid:
     def options(self, cell: str) -> dict:
         """XlsxWriter data-validation options (without the messages)."""
         closed = not self.low_open and not self.high_open
-        if self.low is not None and self.high is not None and closed:
+        if self.low is not None and self.high is not None and closed and not self.extra:
             return {"validate": "decimal", "criteria": "between", "minimum": self.low, "maximum": self.high}
-        if self.low is not None and self.high is not None:
-            low = f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}"
-            high = f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}"
-            return {"validate": "custom", "value": f"=AND(ISNUMBER({cell}),{low},{high})"}
+        if (self.low is not None and self.high is not None) or self.extra:
+            tests = [f"ISNUMBER({cell})"]
+            if self.low is not None:
+                tests.append(f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}")
+            if self.high is not None:
+                tests.append(f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}")
+            tests += [condition.format(cell=cell) for condition in self.extra]
+            return {"validate": "custom", "value": f"=AND({','.join(tests)})"}
         if self.low is not None:
             return {"validate": "decimal", "criteria": ">" if self.low_open else ">=", "value": self.low}
         if self.high is not None:
@@ -204,6 +226,9 @@ def altitude() -> Valid:
 
 # Shared ranges of common inputs.
 EMISSIVITY = Valid(0.0, 1.0, "an emissivity is a fraction of black-body emission, 0 to 1")
+# one of two faces exchanging radiation: both above 0, or the exchange factor is undefined
+FACE_PAIR_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
+                             "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 ABSOLUTE_ZERO = -273.15
 SKY_TEMPERATURE = Valid(-100.0, 60.0, "an effective sky temperature lies from about -100 °C (clear, dry, cold "
                         "sky) up to the air temperature (common practice)")
@@ -221,7 +246,6 @@ class _SheetState:
     step: int = 0
     lines: dict[int, float] = field(default_factory=dict)      # row -> lines of wrapped text
     breaks: list[int] = field(default_factory=list)            # manual page breaks (row before which)
-    charts: list[tuple[int, int, int, int]] = field(default_factory=list)  # x, y, w, h in pixels
     chart_run: bool = False                                     # the last block was a chart
     section_row: int = -1                                       # row of the last section bar
 
@@ -254,30 +278,29 @@ class TemplateBook:
 
     def _formats(self) -> dict[str, Any]:
         self._format_cache: dict[tuple, Any] = {}
-        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": _INK, "valign": "top"}
-        self._base = base
-        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": _SAND_EDGE, "bold": True,
+        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": INK, "valign": "top"}
+        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": SAND_EDGE, "bold": True,
                        "locked": False}
         return {
-            "title": {**base, "bold": True, "font_size": 15, "font_color": _SLATE},
-            "subtitle": {**base, "italic": True, "font_color": _SLATE, "text_wrap": True},
-            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": _SLATE},
+            "title": {**base, "bold": True, "font_size": 15, "font_color": SLATE},
+            "subtitle": {**base, "italic": True, "font_color": SLATE, "text_wrap": True},
+            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": SLATE},
             "label": {**base, "text_wrap": True},
-            "unit": {**base, "font_color": _SLATE},
+            "unit": {**base, "font_color": SLATE},
             "note": {**base, "italic": True, "font_color": "#4A5661", "text_wrap": True},
             "input": {**input_style, "num_format": "General"},
             "input_text": input_style,
-            "signoff": {**base, "border": 1, "border_color": _SLATE, "locked": False, "text_wrap": True},
+            "signoff": {**base, "border": 1, "border_color": SLATE, "locked": False, "text_wrap": True},
             "value": {**base, "bottom": 1, "bottom_color": _RULE},
             "text_value": {**base, "bottom": 1, "bottom_color": _RULE, "text_wrap": True},
             "text_run": {**base, "bottom": 1, "bottom_color": _RULE},
-            "failed": {"bold": True, "font_color": _WHITE, "bg_color": _INK},
+            "failed": {"bold": True, "font_color": _WHITE, "bg_color": INK},
             "result": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE},
             "result_text": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE,
                             "text_wrap": True},
-            "step": {**base, "font_color": _SLATE, "align": "center"},
-            "header": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True},
-            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": _SLATE, "text_wrap": True,
+            "step": {**base, "font_color": SLATE, "align": "center"},
+            "header": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True},
+            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True,
                               "align": "right"},
             "cell": {**base},
             "paragraph": {**base, "text_wrap": True},
@@ -559,8 +582,7 @@ class TemplateBook:
     # ---------------------------------------------------------------- blocks
 
     def table(self, sheet: str, header: Sequence[str], rows: Sequence[Sequence[Any]], name: str | None = None,
-              col: int = 0, formats: Sequence[str | None] | None = None,
-              include_header_in_name: bool = False) -> tuple[int, int, int, int]:
+              col: int = 0, formats: Sequence[str | None] | None = None) -> tuple[int, int, int, int]:
         """A block of cells: numbers, text, None (blank) or formulas (strings starting "=").
 
         ``formats`` gives each column's number format (None: a text column); number columns get
@@ -588,8 +610,7 @@ class TemplateBook:
             state.row += 1
         last = state.row - 1
         if name:
-            start = header_row if include_header_in_name else first
-            self._define(name, sheet, start, col, last, col + width - 1)
+            self._define(name, sheet, first, col, last, col + width - 1)
         return first, col, last, col + width - 1
 
     def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
@@ -628,8 +649,8 @@ class TemplateBook:
         chart = self.workbook.add_chart(options)
         for entry in series:
             chart.add_series(entry)
-        font = {"size": CHART_FONT_SIZE, "color": _INK}
-        chart.set_title({"name": title, "name_font": {"size": 11, "color": _SLATE, "bold": True}})
+        font = {"size": CHART_FONT_SIZE, "color": INK}
+        chart.set_title({"name": title, "name_font": {"size": 11, "color": SLATE, "bold": True}})
         chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
         chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
                           "major_gridlines": {"visible": True, "line": {"color": _RULE}}, **(y_axis or {})})
@@ -640,28 +661,37 @@ class TemplateBook:
             state.breaks.append(state.row)
         rows = math.ceil(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 1
         state.worksheet.insert_chart(state.row, 0, chart, {"x_offset": 4, "y_offset": 4, "object_position": 1})
-        state.charts.append((state.row, rows))
         state.row += rows
         state.chart_run = True
 
-    def network_solution(self, sheet: str, tables: str, fluid: str, nodes: Sequence[str],
-                         branches: Sequence[tuple[str, str]]) -> dict[str, str]:
+    def branch_table(self, sheet: str, rows: Sequence[Sequence[Any]], name: str) -> tuple[int, int, int, int]:
+        """A network's branch table under the engine's column headings, named ``name``."""
+        return self.table(sheet, BRANCH_COLUMNS, rows, name=name, formats=BRANCH_FORMATS)
+
+    def boundary_table(self, sheet: str, rows: Sequence[Sequence[Any]], name: str) -> tuple[int, int, int, int]:
+        """A network's boundary table under the engine's column headings, named ``name``."""
+        return self.table(sheet, BOUNDARY_COLUMNS, rows, name=name, formats=BOUNDARY_FORMATS)
+
+    def network_solution(self, sheet: str, tables: str, fluid: str,
+                         branches: Sequence[Sequence[Any]]) -> dict[str, str]:
         """The solved network as tables of single-cell formulas, one per entry.
 
         NET_SOLVE's table is an array formula, which some viewers recalculate on opening (and
         show an error without the add-in); one NET_TEMP / NET_HEAT / INDEX(NET_SOLVE(...)) cell
         per entry keeps the engine's cached value in every viewer.  ``tables`` is
         "branches, boundaries", ``fluid`` the gas and pressure arguments ("" for the defaults),
-        ``branches`` (name, kind) in the order of the branch table.  Returns formulas by key:
-        "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
+        ``branches`` the rows of the branch table (names and nodes as text).  Returns formulas by
+        key: "method:<branch>" picks a branch's correlation, "h:<branch>" its coefficient."""
         tail = f", {fluid}" if fluid else ""
         solve = f"NET_SOLVE({tables}{tail})"
+        # NET_SOLVE lists the nodes in order of first appearance in the branch table, then the branches
+        nodes = list(dict.fromkeys(node for row in branches for node in (row[1], row[2])))
         self.table(sheet, ["node", "T °C"],
                    [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
         self.blank(sheet)
         rows, picks = [], {}
         no_ra = ("conduction", "radiation", "film", "resistance")
-        for i, (branch, kind) in enumerate(branches, start=1):
+        for i, (branch, kind) in enumerate(((row[0], row[3]) for row in branches), start=1):
             at = 1 + len(nodes) + i          # row of the branch in NET_SOLVE's table (header first)
 
             def pick(col, applies=True):
@@ -709,6 +739,13 @@ class TemplateBook:
             ws.protect("", {"format_columns": True, "format_rows": True})
         self.sheets["Inputs"].worksheet.activate()
         self.workbook.close()
+
+
+def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEEDS LIMIT",
+                failed: str = f'"{FAILED}"') -> str:
+    """Formula text of the check "``value`` at most ``limit``": ``within`` or ``beyond``, and
+    ``failed`` (a formula term; FAILED unless given) where ``value`` did not calculate."""
+    return f'=IF(ISNUMBER({value}), IF({value}<={limit}, "{within}", "{beyond}"), {failed})'
 
 
 def significant_format(value, figures: int = 3) -> str:

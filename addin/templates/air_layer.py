@@ -10,12 +10,12 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import SIG3, Template, TemplateBook, Valid, gas_pressure
+from ..templatebook import (FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, TemplateBook, Valid,
+                            gas_pressure)
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}
 SWEEP_MM = (5, 7, 10, 15, 20, 25, 30, 40, 50, 75, 100, 150, 200, 300)
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 
 # Our own scenario: a 35 mm wall air layer between masonry (0.9) and a foil-faced board (0.2).
 DEFAULTS = dict(thickness=0.035, direction="horizontal", eps_warm=0.9, eps_cold=0.2, t_mean=6.0, delta_t=4.0,
@@ -36,11 +36,10 @@ def build(b: TemplateBook) -> None:
                         "0.3 m)", low_open=True))
     b.input("direction", "Direction of heat flow", d["direction"], "",
             "up (roof, ceiling), horizontal (wall), down (floor)", choices=DIRECTIONS)
-    face = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                 "1/(1/e1 + 1/e2 - 1) needs both above 0)")
-    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9", valid=face)
+    b.input("eps_warm", "Emissivity of the warm face", d["eps_warm"], "-", "building materials about 0.9",
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_cold", "Emissivity of the cold face", d["eps_cold"], "-", "aluminium foil 0.05, aged 0.2 or more",
-            valid=face)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("t_mean", "Mean temperature of the layer", d["t_mean"], "°C",
             valid=Valid(-50.0, 80.0, "air layers in building elements lie between about -50 and +80 °C "
                         "(common practice)"))
@@ -72,10 +71,10 @@ def build(b: TemplateBook) -> None:
     b.step("h_radiation", "Radiation coefficient between the faces", "=H_RAD(t_warm,t_cold,eps_warm,eps_cold)",
            "W/(m²·K)", "grey parallel faces, exact T⁴ linearised")
     b.step("r_correlation", "Resistance 1/(h_conv + h_rad)", "=1/(h_conv+h_radiation)", "m²·K/W")
-    b.step("spread_count", "Correlations covering the case (NU_SPREAD)",
-           '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,3)', number_format="0")
-    b.step("nu_low", "Lowest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,1)', "-")
-    b.step("nu_high", "Highest covering Nu", '=INDEX(NU_SPREAD("cavity",ra,pr,"",tilt,aspect),1,2)', "-")
+    spread = 'NU_SPREAD("cavity",ra,pr,"",tilt,aspect)'
+    b.step("spread_count", "Correlations covering the case (NU_SPREAD)", f"=INDEX({spread},1,3)", number_format="0")
+    b.step("nu_low", "Lowest covering Nu", f"=INDEX({spread},1,1)", "-")
+    b.step("nu_high", "Highest covering Nu", f"=INDEX({spread},1,2)", "-")
     b.step("r_spread_high", "Resistance with the lowest Nu 1/(h_conv Nu_low/Nu + h_rad)",
            "=IF(spread_count>0,1/(h_conv*nu_low/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
     b.step("r_spread_low", "Resistance with the highest Nu 1/(h_conv Nu_high/Nu + h_rad)",
@@ -123,13 +122,14 @@ def build(b: TemplateBook) -> None:
     first, _, last, _ = b.table("Results", ["thickness mm", "R correlations m²·K/W", "R simplified m²·K/W"],
                                 rows, name="thickness_sweep", formats=["0", SIG3, SIG3])
     assert first == start
-    series = [{"name": "correlations + radiation", "categories": "=" + TemplateBook.column("Results", first, last, 0),
-               "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": "#3E5C76", "width": 1.75},
-               "marker": {"type": "circle", "size": 4, "fill": {"color": "#3E5C76"}}},
-              {"name": "standard, simplified", "categories": "=" + TemplateBook.column("Results", first, last, 0),
-               "values": "=" + TemplateBook.column("Results", first, last, 2), "line": {"color": "#C98B2B", "width": 1.75,
-                                                                            "dash_type": "dash"},
-               "marker": {"type": "square", "size": 4, "fill": {"color": "#C98B2B"}}}]
+    thicknesses = "=" + TemplateBook.column("Results", first, last, 0)
+    series = [{"name": "correlations + radiation", "categories": thicknesses,
+               "values": "=" + TemplateBook.column("Results", first, last, 1), "line": {"color": SLATE, "width": 1.75},
+               "marker": {"type": "circle", "size": 4, "fill": {"color": SLATE}}},
+              {"name": "standard, simplified", "categories": thicknesses,
+               "values": "=" + TemplateBook.column("Results", first, last, 2),
+               "line": {"color": SAND_EDGE, "width": 1.75, "dash_type": "dash"},
+               "marker": {"type": "square", "size": 4, "fill": {"color": SAND_EDGE}}}]
     b.chart("Results", "scatter", "Air-layer resistance against thickness", series, "thickness, mm (log scale)",
             "R, m²·K/W", subtype="straight_with_markers",
             x_axis={"log_base": 10, "min": 1, "max": 1000})

@@ -11,10 +11,8 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, altitude,
-                            gas_temperature)
+from ..templatebook import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
+                            altitude, gas_temperature, limit_check)
 
 NAME = "finned-heatsink"
 SWEEP_ROWS = 20
@@ -24,39 +22,42 @@ NO_SPREAD = "no correlation covers the case"
 
 DEFAULTS = dict(base_width=0.10, fin_height=0.035, fin_length=0.12, fin_thickness=0.0015, fin_count=12.0,
                 fin_k=200.0, emissivity=0.85, dissipation=25.0, ambient_t=35.0, max_base_t=85.0, altitude=0.0)
-SIGMA = "5.670374419E-8"  # W/(m²·K⁴), CODATA 2018 (scipy.constants.Stefan_Boltzmann)
 
 _SINK = "base_width, fin_height, fin_length, fin_thickness, {count}, fin_k, emissivity, \"air\", air_pressure"
 
-
-@dataclass(frozen=True)
-class _Checked(Valid):
-    """A range with extra conditions in the cell's own validation formula ("{cell}" stands for the
-    cell): a whole number of fins, fins thinner than the gap they leave."""
-
-    extra: tuple[str, ...] = ()
-    extra_words: str = ""
-
-    def describe(self, unit: str) -> str:
-        return super().describe(unit) + (f", {self.extra_words}" if self.extra_words else "")
-
-    def options(self, cell: str) -> dict:
-        low = f"{cell}{'>' if self.low_open else '>='}{self.low:g}"
-        high = f"{cell}{'<' if self.high_open else '<='}{self.high:g}"
-        tests = ",".join([f"ISNUMBER({cell})", low, high] + [e.format(cell=cell) for e in self.extra])
-        return {"validate": "custom", "value": f"=AND({tests})"}
-
-
 SIZE = Valid(0.0, 1.0, "a size above 0 and at most 1 m (larger sinks leave the laminar range of the "
              "correlations, Ra_L up to 1e9, at ordinary temperature differences)", low_open=True)
-FIN_COUNT = _Checked(2.0, float(MAX_FINS), "a heat sink has a whole number of fins, at least 2 (one channel "
-                     f"between them); {MAX_FINS} is far beyond any still-air sink",
-                     extra=("{cell}=INT({cell})", "{cell}*fin_thickness<base_width"),
-                     extra_words="a whole number, with the fins fitting on the base")
-FIN_THICKNESS = _Checked(0.0, 0.02, "a fin is above 0 and at most 20 mm thick, and thinner than the gap it "
-                         "leaves: (base width - N t)/(N - 1) > t", low_open=True,
-                         extra=("{cell}*(2*fin_count-1)<base_width",),
-                         extra_words="and thinner than the gap between the fins")
+# a whole number of fins, and fins thinner than the gap they leave: conditions on other inputs
+FIN_COUNT = Valid(2.0, float(MAX_FINS), "a heat sink has a whole number of fins, at least 2 (one channel "
+                  f"between them); {MAX_FINS} is far beyond any still-air sink",
+                  extra=("{cell}=INT({cell})", "{cell}*fin_thickness<base_width"),
+                  extra_words="a whole number, with the fins fitting on the base")
+FIN_THICKNESS = Valid(0.0, 0.02, "a fin is above 0 and at most 20 mm thick, and thinner than the gap it "
+                      "leaves: (base width - N t)/(N - 1) > t", low_open=True,
+                      extra=("{cell}*(2*fin_count-1)<base_width",),
+                      extra_words="and thinner than the gap between the fins")
+
+
+# The written-out fin model, one formula text each: the steps and the spread table evaluate the
+# same model with other coefficients.
+def _fin_m(h: str) -> str:
+    return f"SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))"
+
+
+def _fin_efficiency(m: str) -> str:
+    return f"TANH({m}*fin_lc)/({m}*fin_lc)"
+
+
+def _outer_fin_h(h_gap: str, h_face: str) -> str:
+    return f"({h_gap}+{h_face})/2"
+
+
+def _q_fins(h_gap: str, eta_inner: str, eta_outer: str, h_outer: str) -> str:
+    return f"((fin_count-2)*{eta_inner}*{h_gap}+2*{eta_outer}*{h_outer})*fin_area*excess"
+
+
+def _q_base(h_gap: str) -> str:
+    return f"(fin_count-1)*gap*fin_length*{h_gap}*excess"
 
 
 def build(b) -> None:
@@ -114,25 +115,22 @@ def build(b) -> None:
     b.step("fin_lc", "Corrected fin length", "=fin_height+fin_thickness/2", "m", number_format="0.00000")
     b.step("fin_area", "Area of one fin, P Lc, P = 2 (L + t)", "=2*(fin_length+fin_thickness)*fin_lc", "m²",
            number_format=SIG3)
-    b.step("m_inner", "Fin parameter m, inner fins", "=SQRT(h_gap*2*(fin_length+fin_thickness)/"
-           "(fin_k*fin_length*fin_thickness))", "1/m", number_format=SIG3)
-    b.step("eta_inner", "Fin efficiency, inner fins", "=TANH(m_inner*fin_lc)/(m_inner*fin_lc)", "-")
+    b.step("m_inner", "Fin parameter m, inner fins", "=" + _fin_m("h_gap"), "1/m", number_format=SIG3)
+    b.step("eta_inner", "Fin efficiency, inner fins", "=" + _fin_efficiency("m_inner"), "-")
     b.step("h_outer_fin", "Mean coefficient of an outer fin (one face in a gap, one free)",
-           "=(h_gap+h_face)/2", "W/(m²·K)")
-    b.step("m_outer", "Fin parameter m, outer fins", "=SQRT(h_outer_fin*2*(fin_length+fin_thickness)/"
-           "(fin_k*fin_length*fin_thickness))", "1/m", number_format=SIG3)
-    b.step("eta_outer", "Fin efficiency, outer fins", "=TANH(m_outer*fin_lc)/(m_outer*fin_lc)", "-")
+           "=" + _outer_fin_h("h_gap", "h_face"), "W/(m²·K)")
+    b.step("m_outer", "Fin parameter m, outer fins", "=" + _fin_m("h_outer_fin"), "1/m", number_format=SIG3)
+    b.step("eta_outer", "Fin efficiency, outer fins", "=" + _fin_efficiency("m_outer"), "-")
     b.section("Calculation", "Heat split")
-    b.step("q_fins", "Convection from the fins",
-           "=((fin_count-2)*eta_inner*h_gap+2*eta_outer*h_outer_fin)*fin_area*excess", "W")
-    b.step("q_base", "Convection from the base between the fins", "=(fin_count-1)*gap*fin_length*h_gap*excess",
+    b.step("q_fins", "Convection from the fins", "=" + _q_fins("h_gap", "eta_inner", "eta_outer", "h_outer_fin"),
            "W")
+    b.step("q_base", "Convection from the base between the fins", "=" + _q_base("h_gap"), "W")
     b.step("open_area", "Openings of one channel (front S L, ends 2 S H)", "=gap*fin_length+2*gap*fin_height",
            "m²", number_format=SIG3)
     b.step("eps_open", "Apparent emissivity of a channel's openings",
            "=emissivity/(emissivity+(1-emissivity)*open_area/((2*fin_height+gap)*fin_length))", "-",
            "grey isothermal groove, uniform radiosity")
-    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA}", "W/(m²·K⁴)", "CODATA 2018")
+    b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
     b.step("q_rad", "Radiation from the envelope (tips, outer faces, channel openings)",
            "=sigma*(emissivity*(fin_count*fin_thickness+2*fin_height)*fin_length"
            "+eps_open*(fin_count-1)*open_area)*((t_base+273.15)^4-(ambient_t+273.15)^4)", "W")
@@ -143,11 +141,12 @@ def build(b) -> None:
            "W", "equals the dissipation")
 
     b.section("Calculation", "Correlation spread (NU_SPREAD): the model at the lowest and highest covering Nu")
-    b.step("count_gap", "Channel correlations covering the case",
-           '=INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , fin_length/gap), 1, 3)',
+    spread_gap = 'NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , fin_length/gap)'
+    spread_face = 'NU_SPREAD("vplate", ra_face, pr_film)'
+    b.step("count_gap", "Channel correlations covering the case", f"=INDEX({spread_gap}, 1, 3)",
            number_format="0")
-    b.step("count_face", "Vertical-plate correlations covering the outer faces",
-           '=INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, 3)', number_format="0")
+    b.step("count_face", "Vertical-plate correlations covering the outer faces", f"=INDEX({spread_face}, 1, 3)",
+           number_format="0")
     b.step("nu_gap", "Channel Nusselt number used (auto)",
            '=NU_CHANNEL(ra_gap, pr_film, fin_length/gap, "isothermal")', "-")
     b.step("nu_face", "Outer-face Nusselt number used (auto)", "=NU_VPLATE(ra_face, pr_film)", "-")
@@ -169,17 +168,10 @@ def build(b) -> None:
 
     def column(col, extreme):
         h, hf, mi, ei, ho, mo, eo, q = (ref(k, col) for k in range(8))
-        rows = [f"SQRT({h}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"TANH({mi}*fin_lc)/({mi}*fin_lc)",
-                f"({h}+{hf})/2",
-                f"SQRT({ho}*2*(fin_length+fin_thickness)/(fin_k*fin_length*fin_thickness))",
-                f"TANH({mo}*fin_lc)/({mo}*fin_lc)",
-                f"((fin_count-2)*{ei}*{h}+2*{eo}*{ho})*fin_area*excess+(fin_count-1)*gap*fin_length*{h}*excess"
-                "+q_rad"]
-        return ([f'=IF(count_gap>0, h_gap*INDEX(NU_SPREAD("channel", ra_gap, pr_film, "isothermal", , '
-                 f'fin_length/gap), 1, {extreme})/nu_gap, "{NO_SPREAD}")',
-                 f'=IF(count_face>0, h_face*INDEX(NU_SPREAD("vplate", ra_face, pr_film), 1, {extreme})/nu_face, '
-                 f'"{NO_SPREAD}")']
+        rows = [_fin_m(h), _fin_efficiency(mi), _outer_fin_h(h, hf), _fin_m(ho), _fin_efficiency(mo),
+                f"{_q_fins(h, ei, eo, ho)}+{_q_base(h)}+q_rad"]
+        return ([f'=IF(count_gap>0, h_gap*INDEX({spread_gap}, 1, {extreme})/nu_gap, "{NO_SPREAD}")',
+                 f'=IF(count_face>0, h_face*INDEX({spread_face}, 1, {extreme})/nu_face, "{NO_SPREAD}")']
                 + [f'=IF({covered}, {row}, "-")' for row in rows]
                 + [f'=IF({covered}, t_base+(dissipation-{q})/g_sink, "{NO_SPREAD}")'])
 
@@ -217,7 +209,7 @@ def build(b) -> None:
                      f"=HEATSINK_TBASE(dissipation, ambient_t, {_SINK.format(count=count)})",
                      "=max_base_t",
                      f"=max_base_t-{temp}",
-                     f'=IF(ISNUMBER({temp}), IF({temp}<=max_base_t, "yes", "no"), "{FAILED}")'])
+                     limit_check(temp, "max_base_t", "yes", "no")])
     first, _, last, _ = b.table(tables, ["fin count", "gap mm", "base °C", "limit °C", "margin K",
                                          "within limit"], rows, name="fin_sweep", col=1,
                                 formats=["0", "0.00", "0.0", "0.0", "0.0", None])
@@ -241,15 +233,13 @@ def build(b) -> None:
     b.result("res_t_base", "Base temperature", "=t_base", "°C")
     b.result("res_limit", "Maximum allowed base temperature", "=max_base_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - base)", "=max_base_t-t_base", "K")
-    b.result("res_check", "Limit check",
-             f'=IF(ISNUMBER(t_base), IF(t_base<=max_base_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
-             fails=("EXCEEDS LIMIT",))
+    b.result("res_check", "Limit check", limit_check("t_base", "max_base_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_base_cool", "Base temperature, correlation spread: lowest", "=t_base_cool", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_base_hot", "Base temperature, correlation spread: highest", "=t_base_hot", "°C")
     b.result("res_check_hot", "Limit check at the top of the spread",
-             f'=IF(ISNUMBER(t_base_hot), IF(t_base_hot<=max_base_t, "OK", "EXCEEDS LIMIT"), '
-             f'IF(t_base_hot="{NO_SPREAD}", "{NO_SPREAD}: no spread", "{FAILED}"))',
+             limit_check("t_base_hot", "max_base_t",
+                         failed=f'IF(t_base_hot="{NO_SPREAD}", "{NO_SPREAD}: no spread", "{FAILED}")'),
              text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Heat split")
     b.result("res_q_fins", "Fins (convection)", "=q_fins", "W")
@@ -279,12 +269,12 @@ def build(b) -> None:
              {"name": "allowed base temperature", "categories": f"={counts}", "values": f"={limits}",
               "marker": {"type": "none"}, "line": {"dash_type": "dash"}},
              {"name": "lowest (optimum count)", "categories": f"={b.names['count_best']}",
-              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 11, "fill": {"color": "#23313F"},
-                                                   "border": {"color": "#23313F"}},
+              "values": f"={b.names['t_best']}", "marker": {"type": "diamond", "size": 11, "fill": {"color": INK},
+                                                   "border": {"color": INK}},
               "line": {"none": True}},
              {"name": "this design", "categories": f"={b.names['fin_count']}",
               "values": f"={b.names['t_base']}", "marker": {"type": "square", "size": 9, "fill": {"none": True},
-                                                   "border": {"color": "#C98B2B", "width": 2}},
+                                                   "border": {"color": SAND_EDGE, "width": 2}},
               "line": {"none": True}}],
             "number of fins", "base temperature °C", subtype="straight_with_markers")
 

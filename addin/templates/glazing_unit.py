@@ -15,14 +15,15 @@ A sweep of U against gap width for air, argon and krypton (mode a) marks the opt
 from __future__ import annotations
 
 import stillair
+from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FAILED, OUTDOOR_AIR, SIG3, Template, TemplateBook, Valid, gas_pressure)
+from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
+                            SLATE, Template, TemplateBook, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")
 SWEEP_MM = tuple(range(6, 25))          # 6 ... 24 mm
 GAP_METHODS = ("auto", "elsherbiny", "wright", "catton", "macgregor-emery", "en673")
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
 PASSES = 3                              # explicit passes of the standard's gap-ΔT split (triple)
 
 # Defaults: our own scenario, a 6-16-4 unit with 90 % argon and a low-e coating on face 3.
@@ -32,14 +33,10 @@ DEFAULTS = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, 
                 eps_indoor_face=0.837, glass_height=1.3, pressure=101325.0, t_indoor=20.0, t_outdoor=-8.0,
                 rh_indoor=55.0, h_outdoor=20.0, gap_method="auto")
 
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
 PANE = Valid(0.0, 0.05, "a pane above 0 and at most 50 mm thick (laminated glass included)", low_open=True)
 GAP = Valid(0.0, 0.1, "a gap above 0; at most 100 mm, beyond any sealed glazing unit, and the gas-layer "
             "correlations need the height/gap ratio they were measured for", low_open=True)
 FILL = Valid(0.0, 1.0, "a mole fraction lies from 0 to 1")
-FACE_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)")
 
 
 def network_rows(panes: int) -> list[list]:
@@ -65,7 +62,7 @@ def network_rows(panes: int) -> list[list]:
         ["in-conv", indoor, "indoor", "vplate", "=glass_height", 1.0, None, None, None, None],
         ["in-rad", indoor, "indoor", "radiation", "=eps_indoor_face", None, 1.0, None, None, None],
     ]
-    return rows + [[None] * len(BRANCH_HEADER)] * (11 - len(rows))
+    return rows + [[None] * len(BRANCH_COLUMNS)] * (11 - len(rows))
 
 
 def build(b: TemplateBook) -> None:
@@ -89,13 +86,13 @@ def build(b: TemplateBook) -> None:
     b.input("eps_outdoor_face", "Emissivity, face 1 (outdoor face)", d["eps_outdoor_face"], "-",
             "uncoated soda-lime glass 0.837 (EN 673)", valid=EMISSIVITY)
     b.input("eps_gap1_outer", "Emissivity, face 2 (gap 1, outer side)", d["eps_gap1_outer"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap1_inner", "Emissivity, face 3 (gap 1, inner side)", d["eps_gap1_inner"], "-",
-            "low-e coating: 0.01-0.2 (manufacturer's declared value)", valid=FACE_EMISSIVITY)
+            "low-e coating: 0.01-0.2 (manufacturer's declared value)", valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap2_outer", "Emissivity, face 4 (gap 2, outer side; triple)", d["eps_gap2_outer"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_gap2_inner", "Emissivity, face 5 (gap 2, inner side; triple)", d["eps_gap2_inner"], "-",
-            valid=FACE_EMISSIVITY)
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_indoor_face", "Emissivity, indoor face (4 double / 6 triple)", d["eps_indoor_face"], "-",
             valid=EMISSIVITY)
     b.input("glass_height", "Height of the glazed area", d["glass_height"], "m",
@@ -158,21 +155,19 @@ def build(b: TemplateBook) -> None:
                "m²·K/W")
         b.step(f"std_r2_p{p}", f"Pass {p}: gap 2 resistance 1/(h_g + h_r)",
                f"=IF(panes=3,1/(std_hg2_p{p}+std_hr_2),0)", "m²·K/W", "0 with 2 panes")
-    last, before = PASSES, PASSES - 1
-    b.step("std_u", "U-value, standard conditions",
-           f"=1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{last}+std_r2_p{last})", "W/(m²·K)")
-    b.step("std_u_change", "Change of U in the last pass",
-           f"=std_u-1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{before}+std_r2_p{before})", "W/(m²·K)",
+
+    def u_after(p):
+        return f"1/(1/std_h_e+1/std_h_i+std_glass_r+std_r1_p{p}+std_r2_p{p})"
+    b.step("std_u", "U-value, standard conditions", "=" + u_after(PASSES), "W/(m²·K)")
+    b.step("std_u_change", "Change of U in the last pass", "=std_u-" + u_after(PASSES - 1), "W/(m²·K)",
            "converged when near 0", number_format="0.0E+00")
 
     b.section("Tables", "(b) actual conditions: network per m² of glass, double unit (s1 = face 1 ...)")
-    b.table("Tables", BRANCH_HEADER, network_rows(2), name="glz_double", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(2), "glz_double")
     b.section("Tables", "(b) the same for a triple unit (the Number of panes picks the table)")
-    b.table("Tables", BRANCH_HEADER, network_rows(3), name="glz_triple", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(3), "glz_triple")
     b.section("Tables", "(b) boundaries")
-    b.table("Tables", ["node", "T or Q", "value"],
-            [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], name="glz_bounds",
-            formats=[None, None, "0.0"])
+    b.boundary_table("Tables", [["outdoor", "T", "=t_outdoor"], ["indoor", "T", "=t_indoor"]], "glz_bounds")
     b.section("Calculation", "(b) solved temperatures (network tables on the sheet Tables)")
     tables = "CHOOSE(panes-1,glz_double,glz_triple),glz_bounds"
     air = '"air",pressure'
@@ -287,16 +282,14 @@ def build(b: TemplateBook) -> None:
 
     b.section("Tables", "U against gap width: double unit, standard conditions (a), this unit's panes "
                         "and gap-1 coatings, pure gases")
+    start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
     sweep_rows = []
-    for mm in SWEEP_MM:
+    for i, mm in enumerate(SWEEP_MM):
         row = [float(mm)]
         for gas in SWEEP_GASES:
             row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
-                       f'std_mean-std_dt/2,A{{row}}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
+                       f'std_mean-std_dt/2,A{start + i + 1}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
         sweep_rows.append(row)
-    start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
-    for i, row in enumerate(sweep_rows):
-        sweep_rows[i] = [row[0]] + [cell.replace("{row}", str(start + i + 1)) for cell in row[1:]]
     first, _, last, _ = b.table("Tables", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
                                 name="gap_sweep", formats=["0", SIG3, SIG3, SIG3])
     assert first == start
@@ -310,7 +303,7 @@ def build(b: TemplateBook) -> None:
     o_first, _, o_last, _ = b.table("Tables", ["gas", "optimum gap mm", "lowest U W/(m²·K)"], optimum_rows,
                                     name="gap_optimum", formats=[None, "0", SIG3])
     series = []
-    palette = {"air": "#7A8C99", "argon": "#3E5C76", "krypton": "#C98B2B"}
+    palette = {"air": "#7A8C99", "argon": SLATE, "krypton": SAND_EDGE}
     for j, gas in enumerate(SWEEP_GASES, start=1):
         series.append({"name": gas, "categories": "=" + gaps,
                        "values": "=" + TemplateBook.column("Tables", first, last, j),
@@ -322,7 +315,7 @@ def build(b: TemplateBook) -> None:
                        "values": "=" + TemplateBook.column("Tables", row, row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
-                                  "border": {"color": "#23313F"}}})
+                                  "border": {"color": INK}}})
     b.chart("Results", "scatter", "Centre-of-glass U against gap width (EN 673 conditions)", series,
             "gap width, mm", "U, W/(m²·K)", subtype="straight")
 

@@ -10,15 +10,12 @@ independent sub-network per thickness), solved together by the network solver.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
+from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, limit_check
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
 STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
 
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BOUNDARY_HEADER = ["node", "T or Q", "value"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
 SIZE = Valid(0.0, 10.0, "a size above 0 and at most 10 m (taller faces leave the correlations' Ra range)",
              low_open=True)
 ROOM_AIR = Valid(-60.0, 60.0, "still air around equipment lies between about -60 and +60 °C (common practice)")
@@ -38,6 +35,12 @@ def insulated_branch_rows(rows):
         table.append([f"rad_{k}", f"surf_{k}", "surroundings", "radiation", emissivity, None, area, None, None,
                       None])
     return table
+
+
+def _convection_formula(surface_t: str, diameter: str) -> str:
+    """The convection coefficient of the chosen geometry at ``surface_t`` (a pipe of ``diameter``)."""
+    return (f'=IF(kind="hcyl", H_HCYL({surface_t}, ambient_t, {diameter}), IF(kind="vplate", '
+            f'H_VPLATE({surface_t}, ambient_t, face_height), H_HPLATE({surface_t}, ambient_t, bare_length, facing)))')
 
 
 def boundary_rows(hot, ambient, surroundings):
@@ -96,10 +99,7 @@ def build(b) -> None:
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
            '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
-    b.step("h_conv_bare", "Convection coefficient, bare",
-           '=IF(kind="hcyl", H_HCYL(hot_t, ambient_t, pipe_od), IF(kind="vplate", '
-           'H_VPLATE(hot_t, ambient_t, face_height), H_HPLATE(hot_t, ambient_t, bare_length, facing)))',
-           "W/(m²·K)")
+    b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
     b.step("q_conv_bare", "Convection loss, bare", "=h_conv_bare*bare_area*(hot_t-ambient_t)", "W")
     b.step("q_rad_bare", "Radiation loss, bare", "=h_rad_bare*bare_area*(hot_t-surroundings_t)", "W")
@@ -138,12 +138,11 @@ def build(b) -> None:
 
     b.blank(sheet)
     b.section(sheet, "Insulated cases: network branches (one sub-network per thickness)")
-    b.table(sheet, BRANCH_HEADER, insulated_branch_rows(
+    b.branch_table(sheet, insulated_branch_rows(
         [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), geo(k, 6), "=eps_jacket") for k in range(1, STEPS + 1)]),
-        name="hs_branches", formats=BRANCH_FORMATS)
+        "hs_branches")
     b.section(sheet, "Insulated cases: boundaries")
-    b.table(sheet, BOUNDARY_HEADER, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), name="hs_bounds",
-            formats=[None, None, "0.0"])
+    b.boundary_table(sheet, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), "hs_bounds")
     b.section("Calculation", "Insulated cases: a network per thickness (tables on the sheet Tables)")
     b.step("hs_check", "Network check", "=NET_CHECK(hs_branches, hs_bounds)", "")
 
@@ -153,8 +152,7 @@ def build(b) -> None:
     tstart = b.sheets[sheet].row + 1
 
     def meets(row):  # a failed surface temperature must not read as "no" (or vanish from the search)
-        surface = b.cell(sheet, row, 2)
-        return f'=IF(ISNUMBER({surface}), IF({surface}<=touch_limit, "yes", "no"), "{FAILED}")'
+        return limit_check(b.cell(sheet, row, 2), "touch_limit", "yes", "no")
 
     rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit", meets(tstart), "=0"]]
     for k in range(1, STEPS + 1):
@@ -172,7 +170,7 @@ def build(b) -> None:
     b.verdicts(sheet, tfirst, 6, tlast, fails=("no",))
 
     def column(col):
-        return f"{b.cell(sheet, tfirst, col)}:{b.cell(sheet, tlast, col).split('!')[1]}"
+        return b.column(sheet, tfirst, tlast, col)
 
     thickness_col, surface_col, loss_col, meets_col = column(1), column(2), column(3), column(6)
 
@@ -194,9 +192,7 @@ def build(b) -> None:
     b.step("surf_first_high", "Outer surface with 1 x step, all convection at the highest covering Nu",
            '=INDEX(NET_BAND(hs_branches, hs_bounds, "surf_1"), 1, 2)', "°C")
     b.step("h_conv_first_step", "Outer convection coefficient with 1 x step (check)",
-           f'=IF(kind="hcyl", H_HCYL(surf_t_first_step, ambient_t, {b.cell(sheet, start, 3)}), '
-           f'IF(kind="vplate", H_VPLATE(surf_t_first_step, ambient_t, face_height), '
-           f'H_HPLATE(surf_t_first_step, ambient_t, bare_length, facing)))', "W/(m²·K)",
+           _convection_formula("surf_t_first_step", b.cell(sheet, start, 3)), "W/(m²·K)",
            "re-computed from the solved surface temperature")
 
     # ------------------------------------------------------------------ Results

@@ -10,19 +10,14 @@ single pass is off.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, SIG3, Template, Valid, gas_temperature
+from ..templatebook import EMISSIVITY, FACE_PAIR_EMISSIVITY, Template, Valid, gas_temperature
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]
 STANDARD_GRAVITY = 9.80665  # m/s², standard gravity (as scipy.constants.g used by the engine)
 
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BOUNDARY_HEADER = ["node", "T or Q", "value"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
-BRANCH_ARGS = ("height", "area", "board_t", "board_k", "gap", "eps_room", "eps_cav_warm", "eps_cav_cold", "method")
 ROOM_AIR = Valid(-30.0, 60.0, "room and store air lies between about -30 and +60 °C (common practice)")
 GUESS = Valid(-30.0, 60.0, "a guessed surface lies between the two air temperatures, within -30 to +60 °C")
-NODES = ("warm_face", "warm_air", "warm_cav", "cold_cav", "cold_face", "cold_air")
 
 
 def branch_rows(*, height, area, board_t, board_k, gap, eps_room, eps_cav_warm, eps_cav_cold, method):
@@ -63,11 +58,9 @@ def build(b) -> None:
                         "(ElSherbiny: aspect 5-110), so at most 0.5 m", low_open=True))
     b.input("eps_room", "Emissivity of the room-side faces", 0.9, "-", "painted board about 0.9", valid=EMISSIVITY)
     b.input("eps_cav_warm", "Emissivity of the warm cavity face", 0.9, "-", "a foil facing is about 0.05",
-            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("eps_cav_cold", "Emissivity of the cold cavity face", 0.9, "-",
-            valid=Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                        "1/(1/e1 + 1/e2 - 1) needs both above 0)"))
+            valid=FACE_PAIR_EMISSIVITY)
     b.input("cav_method", "Cavity correlation", "auto", "", "auto picks the one whose range covers the case",
             choices=CAVITY_METHODS)
     b.section("Inputs", "Single-pass estimate: the guesses of a hand calculation")
@@ -84,17 +77,15 @@ def build(b) -> None:
     b.step("area", "Partition area", "=part_height*part_width", "m²")
     b.step("aspect", "Cavity aspect ratio (height / gap)", "=part_height/gap", "-")
     b.section("Tables", "Converged solution: network branches")
-    b.table("Tables", BRANCH_HEADER, branch_rows(
+    branches = branch_rows(
         height="=part_height", area="=area", board_t="=board_t", board_k="=board_k", gap="=gap",
-        eps_room="=eps_room", eps_cav_warm="=eps_cav_warm", eps_cav_cold="=eps_cav_cold",
-        method="=cav_method"), name="pc_branches", formats=BRANCH_FORMATS)
+        eps_room="=eps_room", eps_cav_warm="=eps_cav_warm", eps_cav_cold="=eps_cav_cold", method="=cav_method")
+    b.branch_table("Tables", branches, "pc_branches")
     b.section("Tables", "Converged solution: boundaries")
-    b.table("Tables", BOUNDARY_HEADER, boundary_rows("=warm_t", "=cold_t"), name="pc_bounds",
-            formats=[None, None, "0.0"])
+    b.boundary_table("Tables", boundary_rows("=warm_t", "=cold_t"), "pc_bounds")
     b.section("Tables", "Converged solution (one cell per entry; NET_SOLVE gives the same as one table)")
     net = "pc_branches, pc_bounds"
-    picks = b.network_solution("Tables", net, "", NODES,
-                               [(row[0], row[3]) for row in branch_rows(**{k: None for k in BRANCH_ARGS})])
+    picks = b.network_solution("Tables", net, "", branches)
 
     def h_of(branch):
         return picks[f"h:{branch}"]

@@ -11,19 +11,11 @@ limit.
 from __future__ import annotations
 
 
-from ..templatebook import (EMISSIVITY, FAILED, LIMIT_TEMPERATURE, OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, Valid,
-                            altitude)
+from ..templatebook import (EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude,
+                            limit_check)
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
-
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BOUNDARY_HEADER = ["node", "T or Q", "value"]
-# p1..p5 hold numbers or a facing word; the method column names a correlation
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
-BRANCH_ARGS = ("height", "side_area", "top_area", "top_length", "wall_thickness", "wall_k", "emissivity", "method")
-# Order of NET_SOLVE's node rows (first appearance in the branch table, as the engine lists them).
-NODES = ("side_in", "air_in", "top_in", "side_out", "top_out", "ambient", "sky")
 
 
 def branch_rows(*, height, side_area, top_area, top_length, wall_thickness, wall_k, emissivity, method):
@@ -102,18 +94,17 @@ def build(b) -> None:
 
     # the network's tables live on the Tables sheet; the steps below pick from the solution
     b.section("Tables", "Thermal network: branches (from = surface, to = fluid for convection)")
-    b.table("Tables", BRANCH_HEADER, branch_rows(
+    branches = branch_rows(
         height="=cab_height", side_area="=side_area", top_area="=top_area", top_length="=top_length",
-        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity",
-        method="=vplate_method"), name="cab_branches", formats=BRANCH_FORMATS)
+        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity", method="=vplate_method")
+    b.branch_table("Tables", branches, "cab_branches")
     b.section("Tables", "Thermal network: boundaries (T fixes °C, Q adds W)")
-    b.table("Tables", BOUNDARY_HEADER, boundary_rows(
+    b.boundary_table("Tables", boundary_rows(
         dissipation="=dissipation", sun_side="=sun_sides_w", sun_top="=sun_top_w",
-        ambient="=ambient_t", sky="=sky_t"), name="cab_bounds", formats=[None, None, "0.0"])
+        ambient="=ambient_t", sky="=sky_t"), "cab_bounds")
     b.section("Tables", "Thermal network: solution (one cell per entry; NET_SOLVE gives the same as one table)")
     pair, fluid = "cab_branches, cab_bounds", '"air", air_pressure'
-    picks = b.network_solution("Tables", pair, fluid, NODES,
-                               [(row[0], row[3]) for row in branch_rows(**{k: None for k in BRANCH_ARGS})])
+    picks = b.network_solution("Tables", pair, fluid, branches)
 
     b.section("Calculation", "Temperatures and heat flows picked from the solved network (sheet Tables)")
     b.step("t_air", "Internal air temperature", f'=NET_TEMP({pair}, "air_in", {fluid})', "°C")
@@ -164,15 +155,12 @@ def build(b) -> None:
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C")
     b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
     b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check",
-             f'=IF(ISNUMBER(t_air), IF(t_air<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")', text=True,
-             fails=("EXCEEDS LIMIT",))
+    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
     b.result("res_check_high", "Limit check at the top of the spread",
-             f'=IF(ISNUMBER(t_air_high), IF(t_air_high<=max_internal_t, "OK", "EXCEEDS LIMIT"), "{FAILED}")',
-             text=True, fails=("EXCEEDS LIMIT",))
+             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")

@@ -10,13 +10,11 @@ branches, other boundaries) for a like-for-like comparison.
 from __future__ import annotations
 
 import stillair
+from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (OUTDOOR_AIR, SIG3, SKY_TEMPERATURE, Template, TemplateBook, Valid,
+from ..templatebook import (OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, TemplateBook, Valid,
                             gas_pressure)
 
-SIGMA_TEXT = "5.670374419E-8"           # CODATA 2018 Stefan-Boltzmann constant, W/(m²·K⁴)
-BRANCH_HEADER = ["name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "method"]
-BRANCH_FORMATS = [None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None]
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
             "cavity correlations (aspect 12 and up for Hollands)", low_open=True)
 COVER_EMITTANCE = Valid(0.01, 1.0, "an emittance is at most 1, and at least 0.01 (the exchange factor "
@@ -41,7 +39,7 @@ def network_rows(covers: int) -> list[list]:
                  ["rad-2", "cover-1", "cover-2", "radiation", "=eps_cover", "=eps_cover", 1.0, None, None, None]]
     rows += [["wind", top, "ambient", "film", "=h_wind", 1.0, None, None, None, None],
              ["sky", top, "sky", "radiation", "=eps_cover", None, 1.0, None, None, None]]
-    return rows + [[None] * len(BRANCH_HEADER)] * (6 - len(rows))
+    return rows + [[None] * len(BRANCH_COLUMNS)] * (6 - len(rows))
 
 
 def build(b: TemplateBook) -> None:
@@ -74,17 +72,15 @@ def build(b: TemplateBook) -> None:
            "Watmuff, Charters & Proctor (1977), as quoted by Duffie & Beckman (from memory)")
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
     b.section("Tables", "Network per m² of absorber, one cover (cover temperatures unknown)")
-    b.table("Tables", BRANCH_HEADER, network_rows(1), name="col_one_cover", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(1), "col_one_cover")
     b.section("Tables", "The same with two covers (the Number of glass covers picks the table)")
-    b.table("Tables", BRANCH_HEADER, network_rows(2), name="col_two_covers", formats=BRANCH_FORMATS)
+    b.branch_table("Tables", network_rows(2), "col_two_covers")
     b.section("Tables", "Boundaries: this sky, and the sky at the air temperature (Klein's assumption)")
-    b.table("Tables", ["node", "T or Q", "value"],
-            [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"], ["sky", "T", "=t_sky"]],
-            name="col_bounds", formats=[None, None, "0.0"])
+    b.boundary_table("Tables", [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"],
+                               ["sky", "T", "=t_sky"]], "col_bounds")
     b.blank("Tables")
-    b.table("Tables", ["node", "T or Q", "value"],
-            [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"], ["sky", "T", "=t_ambient"]],
-            name="col_bounds_klein", formats=[None, None, "0.0"])
+    b.boundary_table("Tables", [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"],
+                               ["sky", "T", "=t_ambient"]], "col_bounds_klein")
     b.section("Calculation", "Network solution (network tables on the sheet Tables)")
     air = '"air",pressure'
     branches = "CHOOSE(covers,col_one_cover,col_two_covers)"
@@ -105,13 +101,13 @@ def build(b: TemplateBook) -> None:
            "check: h ΔT = convection absorber - cover 1")
     aspect = "collector_length/gap_1"
     b.step("nu_gap_1", "Gap 1 Nusselt number (auto)", f'=NU_CAVITY(ra_1,pr_1,{aspect},tilt,"auto")', "-")
-    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)",
-           f'=INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,3)', number_format="0")
+    spread = f'NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect})'
+    b.step("spread_count", "Correlations covering gap 1 (NU_SPREAD)", f"=INDEX({spread},1,3)", number_format="0")
     b.step("h_gap_low", "Gap 1 coefficient at the lowest covering Nu",
-           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,1)/nu_gap_1,'
+           f'=IF(spread_count>0,h_gap_1*INDEX({spread},1,1)/nu_gap_1,'
            '"no correlation covers the case")', "W/(m²·K)", "h scales with Nu at fixed properties")
     b.step("h_gap_high", "Gap 1 coefficient at the highest covering Nu",
-           f'=IF(spread_count>0,h_gap_1*INDEX(NU_SPREAD("cavity",ra_1,pr_1,"",tilt,{aspect}),1,2)/nu_gap_1,'
+           f'=IF(spread_count>0,h_gap_1*INDEX({spread},1,2)/nu_gap_1,'
            '"no correlation covers the case")', "W/(m²·K)")
     b.step("u_top_sky_air", "U_t with the sky at the air temperature (Klein's assumption)",
            f'=(NET_HEAT({branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({branches},col_bounds_klein,'
