@@ -6,7 +6,6 @@ import argparse
 import json
 import os
 import re
-import shutil
 import stat
 import sys
 import tempfile
@@ -304,7 +303,7 @@ def _render_table(table) -> list[str]:
 
 
 def _templates(args) -> int:
-    from .templates import all_templates
+    from .templates import all_templates, copy_templates
 
     if not args.copy:
         for template in all_templates():
@@ -320,20 +319,13 @@ def _templates(args) -> int:
         say("stillair templates", f"{target_dir}: cannot create the folder ({error.strerror or error})")
         return EXIT_BAD_INPUT
     skipped = 0
-    for template in all_templates():
-        target = os.path.join(target_dir, template.path.name)
-        try:
-            with open(template.path, "rb") as source, open(target, "xb") as copy:
-                shutil.copyfileobj(source, copy)
-        except FileExistsError:
-            say("stillair templates", f"{target}: exists; left as it is (not copied)")
+    for target, outcome in copy_templates(target_dir):
+        if outcome == "copied":
+            print(f"copied  {target}")
+        else:
+            say("stillair templates", f"{target}: " + (
+                "exists; left as it is (not copied)" if outcome == "kept existing file" else outcome))
             skipped += 1
-            continue
-        except OSError as error:
-            say("stillair templates", f"{target}: cannot write ({error.strerror or error})")
-            skipped += 1
-            continue
-        print(f"copied  {target}")
     return EXIT_BAD_INPUT if skipped else 0
 
 

@@ -12,9 +12,9 @@ import shutil
 from importlib import import_module
 from pathlib import Path
 
-from ..templatebook import TEMPLATE_DIR, Template, build_template
+from ..templatebook import Template
 
-__all__ = ["MODULES", "all_templates", "template_by_name", "copy_templates", "rebuild_all"]
+__all__ = ["MODULES", "all_templates", "template_by_name", "copy_templates"]
 
 # The order templates are listed in; one module per template.
 MODULES = ("sealed_cabinet", "glazing_unit", "air_layer", "solar_collector", "hot_surface", "partition_cavity",
@@ -33,24 +33,22 @@ def template_by_name(name: str) -> Template:
 
 
 def copy_templates(directory: str | Path) -> list[tuple[Path, str]]:
-    """Copy every template into ``directory``; a file already there is never overwritten.
+    """Copy every template into ``directory`` (which must exist); a file already there is never
+    overwritten: each copy creates its file exclusively, so a file appearing meanwhile is kept.
 
-    Returns (target, outcome) pairs, outcome "copied" or "kept existing file".
+    Returns (target, outcome) pairs, outcome "copied", "kept existing file" or
+    "cannot write (reason)".
     """
-    target_dir = Path(directory)
-    target_dir.mkdir(parents=True, exist_ok=True)
     outcomes = []
     for template in all_templates():
-        target = target_dir / template.path.name
-        if target.exists():
+        target = Path(directory) / template.path.name
+        try:
+            with open(template.path, "rb") as source, open(target, "xb") as copy:
+                shutil.copyfileobj(source, copy)
+        except FileExistsError:
             outcomes.append((target, "kept existing file"))
-            continue
-        shutil.copyfile(template.path, target)
-        outcomes.append((target, "copied"))
+        except OSError as error:
+            outcomes.append((target, f"cannot write ({error.strerror or error})"))
+        else:
+            outcomes.append((target, "copied"))
     return outcomes
-
-
-def rebuild_all(directory: str | Path | None = None) -> list[Path]:
-    """Rebuild every template (into templates/ by default)."""
-    out_dir = Path(directory) if directory is not None else TEMPLATE_DIR
-    return [build_template(t, out_dir / t.path.name) for t in all_templates()]
