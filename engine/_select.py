@@ -10,16 +10,19 @@ from __future__ import annotations
 import numpy as np
 
 
+_SINGLE_BOOLEANS = (np.bool_, bool)
+
+
 def where(condition, if_true, if_false):
-    """``np.where(condition, if_true, if_false)``; for a numpy boolean scalar, the chosen
-    operand itself (no array is made)."""
-    if type(condition) is np.bool_:
+    """``np.where(condition, if_true, if_false)``; for a single boolean (numpy's or Python's),
+    the chosen operand itself (no array is made)."""
+    if type(condition) in _SINGLE_BOOLEANS:
         return if_true if condition else if_false
     return np.where(condition, if_true, if_false)
 
 
 def any_true(condition) -> bool:
-    """``np.any(condition)``, cheap for a numpy boolean scalar."""
-    if type(condition) is np.bool_:
+    """``np.any(condition)``, cheap for a single boolean."""
+    if type(condition) in _SINGLE_BOOLEANS:
         return bool(condition)
     return bool(np.any(condition))

@@ -71,7 +71,7 @@ from numpy.typing import ArrayLike
 from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
 from scipy.optimize import brentq
 
-from .convection import ONE_CALLS, ConvectionResult, _full, _h_only, surface_convection
+from .convection import ONE_CALLS, ConvectionResult, _full, _h_only, shape_ratios, surface_convection
 from .correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry, nusselt_at_difference,
                            nusselt_value)
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
@@ -304,7 +304,7 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     gr, ra = buoyancy_groups(props, beta, delta_t, spacing)
     shape = np.broadcast(ra, props.prandtl, height).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
-    aspect = _full(height / spacing, shape)
+    aspect = _full(shape_ratios(CHANNEL, spacing, height=height)["aspect"], shape)
     result = nusselt_at_difference("channel", method, case, function_name=function_name, ra=ra, pr=pr,
                                    aspect=aspect)
     ra = CHANNEL.correlation_rayleigh(ra, result.nu, case)

@@ -22,12 +22,12 @@ from scipy.constants import zero_Celsius
 
 import numpy as np
 
-from .correlations import GEOMETRIES, NusseltResult, document, merge_masked, nusselt, uniform
+from ._select import where
+from .correlations import GEOMETRIES, Geometry, NusseltResult, document, merge_masked, nusselt, uniform
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
-from .correlations import Geometry
 from .validity import (PLAIN_NUMBERS, InputError, distinct_notes, require_between,
                        require_choice, require_positive, unwrap, warn_out_of_range)
 
@@ -88,6 +88,24 @@ def plate_case(facing: str, delta_t: np.ndarray) -> np.ndarray:
 
 
 
+def shape_ratios(geometry: Geometry, length, *, diameter=None, height=None) -> dict:
+    """The shape ratios a geometry's correlations take, from its lengths: slenderness =
+    length/diameter (vertical cylinder), aspect = height/length (cavity: height/gap, channel:
+    height/spacing).  The h functions and the network's branch columns both take them from here."""
+    ratios = {}
+    if "slenderness" in geometry.inputs:
+        ratios["slenderness"] = length / diameter
+    if "aspect" in geometry.inputs:
+        ratios["aspect"] = height / length
+    return ratios
+
+
+def layer_tilt(tilt, delta_t):
+    """The tilt the cavity correlations see: a layer heated from above (t1 < t2) is the same
+    layer turned over, 180 - tilt."""
+    return where(delta_t >= 0, tilt, 180.0 - tilt)
+
+
 def _full(array, shape):
     """``array`` broadcast to ``shape``, without a new view when it already has it (hot path)."""
     array = np.asarray(array)
@@ -145,7 +163,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     geo = GEOMETRIES[geometry]
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
-                    (length,) + ((diameter,) if geometry == "vcyl" else ()), property_temperature)
+                    (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
             and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
             and ("tilt" not in geo.inputs or type(tilt) in PLAIN_NUMBERS and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
@@ -153,8 +171,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
         inputs = {"ra": ra, "pr": props.prandtl}
         if "tilt" in geo.inputs:
             inputs["tilt"] = float(tilt)
-        if geometry == "vcyl":
-            inputs["slenderness"] = length / diameter
+        inputs.update(shape_ratios(geo, length, diameter=diameter))
         case = f"{'hot' if delta_t >= 0 else 'cold'}-{facing.strip().lower()}" if geo.cases else ""
         result = nusselt(geometry, method, case or None, function_name=function_name, **inputs)
         return _scalar_result(props, t_film, gr, ra, length, result, case)
@@ -170,9 +187,9 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     inputs = {"ra": ra, "pr": pr}
     if "tilt" in geo.inputs:
         inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg"), shape)
-    if geometry == "vcyl":
+    if "slenderness" in geo.inputs:
         diameter = require_positive(function_name, "diameter", diameter, "m")
-        inputs["slenderness"] = _full(length / diameter, shape)
+        inputs.update({k: _full(v, shape) for k, v in shape_ratios(geo, length, diameter=diameter).items()})
     if geo.cases:
         facing = require_choice(function_name, "facing", facing, FACINGS)
         case = plate_case(facing, _full(delta_t, shape))
@@ -233,13 +250,14 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
-    tilt_low, tilt_high = GEOMETRIES["cavity"].tilt_range
+    geo = GEOMETRIES["cavity"]
+    tilt_low, tilt_high = geo.tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
             and type(tilt) in PLAIN_NUMBERS and tilt_low <= tilt <= tilt_high:
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
                                                               function_name)
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
-                         aspect=height / gap, tilt=float(tilt) if delta_t >= 0 else 180.0 - tilt)
+                         tilt=layer_tilt(float(tilt), delta_t), **shape_ratios(geo, gap, height=height))
         return _scalar_result(props, t_film, gr, ra, gap, result, "")
     gap = require_positive(function_name, "gap", gap, "m")
     height = require_positive(function_name, "height", height, "m")
@@ -249,10 +267,10 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     delta_t = np.subtract(t1, t2, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, gap)
     shape = np.broadcast(ra, props.prandtl, height, tilt).shape
-    effective_tilt = np.where(delta_t >= 0, tilt, 180.0 - tilt)
     result = nusselt("cavity", method, function_name=function_name,
                      ra=_full(ra, shape), pr=_full(props.prandtl, shape),
-                     aspect=_full(height / gap, shape), tilt=_full(effective_tilt, shape))
+                     aspect=_full(shape_ratios(geo, gap, height=height)["aspect"], shape),
+                     tilt=_full(layer_tilt(tilt, delta_t), shape))
     h = result.nu * props.conductivity / gap
     return ConvectionResult(h=_full(h, shape), nu=result.nu, ra=_full(ra, shape),
                             gr=_full(gr, shape), pr=_full(props.prandtl, shape),

@@ -77,6 +77,7 @@ def test_the_ranges_probed_include_every_kind_of_band():
 @pytest.mark.parametrize("condition, if_true, if_false", [
     (np.float64(3.0) > 2.0, np.float64(1.5), 2.5),
     (np.float64(1.0) > 2.0, np.float64(1.5), 2.5),
+    (3.0 > 2.0, 1.5, 2.5), (1.0 > 2.0, 1.5, 2.5),
     (np.array([True, False, True]), np.array([1.0, 2.0, 3.0]), 0.0),
     (np.array(True), 1.0, np.array([4.0, 5.0])),
 ])
@@ -90,7 +91,7 @@ def test_where_on_a_numpy_boolean_makes_no_array():
 
 
 @pytest.mark.parametrize("condition, expected", [
-    (np.bool_(True), True), (np.bool_(False), False),
+    (np.bool_(True), True), (np.bool_(False), False), (True, True), (False, False),
     (np.array([False, False]), False), (np.array([False, True]), True), (np.array([], dtype=bool), False),
 ])
 def test_any_true_is_numpy_any(condition, expected):

@@ -22,7 +22,7 @@ from typing import Callable, Mapping
 import numpy as np
 from scipy.constants import zero_Celsius
 
-from ..convection import plate_case
+from ..convection import layer_tilt, plate_case, shape_ratios
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
                            nusselt_at_difference_checked, nusselt_checked)
@@ -294,17 +294,12 @@ class ConvectionKind(BranchKind):
 
     def correlation_inputs(self, columns: Mapping[str, np.ndarray], dt: np.ndarray) -> dict:
         """The geometry's inputs other than Ra and Pr, from the parameter columns (by role)."""
-        inputs = {}
-        length = columns["length"]
+        inputs = shape_ratios(GEOMETRIES[self.geometry], columns["length"], diameter=columns.get("diameter"),
+                              height=columns.get("height"))
         if "tilt" in columns:
             inputs["tilt"] = columns["tilt"]
-        if "layer-tilt" in columns:
-            # heated from above (t_from < t_to): the correlations see the layer turned over
-            inputs["tilt"] = np.where(dt >= 0, columns["layer-tilt"], 180.0 - columns["layer-tilt"])
-        if "diameter" in columns:
-            inputs["slenderness"] = length / columns["diameter"]
-        if "height" in columns:
-            inputs["aspect"] = columns["height"] / length
+        if "layer-tilt" in columns:   # heated from above (t_from < t_to): the layer turned over
+            inputs["tilt"] = layer_tilt(columns["layer-tilt"], dt)
         return inputs
 
 
