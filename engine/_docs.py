@@ -19,6 +19,9 @@ GAS_AND_PRESSURE = '''    gas : str, default "air"
     pressure : array_like, default 101325
         Absolute pressure in Pa.'''
 
+METHOD = '''    method : str, default "auto"
+        A method registered for the geometry, or "auto" (the geometry's auto rule).'''
+
 PROPERTY_OPTIONS = '''    property_temperature : array_like, optional
         Temperature in °C at which to take the gas properties instead of the film (mean)
         temperature, to reproduce a constant-property hand calculation.

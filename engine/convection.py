@@ -140,8 +140,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     diameter : array_like, optional
         Diameter in m of a vertical cylinder; needed for vcyl.
     {gas_and_pressure}
-    method : str, default "auto"
-        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    {method}
     {property_options}
 
     {convection_result}
@@ -233,8 +232,7 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
         Tilt from the horizontal in degrees: 0 heated from below, 90 vertical, 180 heated from
         above (when t1 < t2 the layer is turned over: 180 - tilt).
     {gas_and_pressure}
-    method : str, default "auto"
-        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    {method}
     {property_options}
 
     {convection_result}
@@ -365,8 +363,7 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
     t2 : array_like
         Fluid temperature (the cavity's other face) in °C.
     {gas_and_pressure}
-    method : str, default "auto"
-        A method registered for the geometry, or "auto" (the geometry's auto rule).
+    {method}
     {property_options}
     parameters : array_like or str
         The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
