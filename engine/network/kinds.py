@@ -340,13 +340,14 @@ VENT = AdvectionKind(
              Param("extra loss coefficient", check="non-negative", optional=True, default=0.0,
                    meaning="grilles, filters, screens in the inlet, on the velocity through the inlet area",
                    blank_means="0")),
-    flow="m cp (T1 - T2), m from the stack balance (rho2 - rho1) g H = losses of both openings",
+    flow="m cp (T1 - T2), the inside air well mixed, cp at (T1 + T2)/2; m from the stack balance "
+         "(rho2 - rho1) g H = the orifice losses of both openings (stillair.stack_flow)",
     ends=_ADVECTION_ENDS, mass_flow=_stack, method="stack flow through two openings",
     reversed_note="the inside air is colder than the outside: the stack flow runs downward "
                   "(in at the high opening, out at the low one)")
 AIRFLOW = AdvectionKind(
     "airflow", (Param("volume flow", "m³/s", "of outside air, at the to node's temperature"),),
-    flow="rho2 V cp (T1 - T2)", ends=_ADVECTION_ENDS,
+    flow="rho2 V cp (T1 - T2), cp at (T1 + T2)/2", ends=_ADVECTION_ENDS,
     mass_flow=lambda columns, rho_from, rho_to: rho_to * columns[0], method="forced airflow")
 
 
