@@ -36,7 +36,8 @@ from .gases import GASES, gas_properties, require_gas_temperature
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY
 from .validity import InputError, require_between, require_nonnegative, require_positive, unwrap
 
-__all__ = ["DEFAULT_DISCHARGE_COEFFICIENT", "stack_mass_flow", "stack_flow", "airflow_for"]
+__all__ = ["DEFAULT_DISCHARGE_COEFFICIENT", "opening_losses", "stack_mass_flow", "parse_fan_curve",
+           "fan_operating_flow", "stack_flow", "airflow_for"]
 
 #: Discharge coefficient of a sharp-edged opening: 0.61 is the value BS 5925:1991 (clause 9,
 #: from memory) and the ventilation literature take for such openings; it is Kirchhoff's
@@ -49,6 +50,15 @@ _STACK_SOURCE = ("orifice equation per opening, losses of the two openings in se
                  "chapter Ventilation and Infiltration, stack-driven flow Q = Cd A (2 g dH (Ti - To)/Ti)^(1/2)")
 
 
+def opening_losses(rho_low, rho_high, inlet_area, outlet_area, discharge=DEFAULT_DISCHARGE_COEFFICIENT,
+                   extra_loss=0.0):
+    """S of the two openings in series, whose pressure loss is m² S / 2 (kg/s, Pa): the low
+    opening passing air of density rho_low (with the extra loss), the high one rho_high."""
+    inverse_cd2 = 1.0 / (discharge * discharge)
+    return ((inverse_cd2 + extra_loss) / (rho_low * inlet_area * inlet_area)
+            + inverse_cd2 / (rho_high * outlet_area * outlet_area))
+
+
 def stack_mass_flow(rho_inside, rho_outside, inlet_area, outlet_area, height,
                     discharge=DEFAULT_DISCHARGE_COEFFICIENT, extra_loss=0.0):
     """Mass flow (kg/s) through a low and a high opening driven by the density difference:
@@ -58,11 +68,47 @@ def stack_mass_flow(rho_inside, rho_outside, inlet_area, outlet_area, height,
     upward = rho_outside >= rho_inside
     rho_low = where(upward, rho_outside, rho_inside)     # the air passing the low opening
     rho_high = where(upward, rho_inside, rho_outside)
-    inverse_cd2 = 1.0 / (discharge * discharge)
-    resistance = ((inverse_cd2 + extra_loss) / (rho_low * inlet_area * inlet_area)
-                  + inverse_cd2 / (rho_high * outlet_area * outlet_area))
+    losses = opening_losses(rho_low, rho_high, inlet_area, outlet_area, discharge, extra_loss)
     head = STANDARD_GRAVITY * height * (rho_outside - rho_inside)
-    return np.sign(head) * np.sqrt(2.0 * np.abs(head) / resistance)
+    return np.sign(head) * np.sqrt(2.0 * np.abs(head) / losses)
+
+
+def parse_fan_curve(text: str) -> tuple[tuple[float, float], ...]:
+    """A fan curve written as points "V1:dp1, V2:dp2, ..." (volume flow m³/s : pressure rise
+    Pa), as a spreadsheet cell holds it: from the shut-off point (V = 0, dp > 0) to free
+    delivery (dp = 0), flows rising, pressures not rising.  Raises ValueError with the reason."""
+    points = []
+    for part in str(text).split(","):
+        flow, colon, rise = part.partition(":")
+        try:
+            points.append((float(flow), float(rise)))
+        except ValueError:
+            raise ValueError(f'the point "{part.strip()}" is not "flow:pressure"') from None
+        if not colon or not all(np.isfinite(points[-1])):
+            raise ValueError(f'the point "{part.strip()}" is not "flow:pressure"')
+    flows, rises = np.array(points).T
+    if len(points) < 2:
+        raise ValueError("at least two points are needed")
+    if flows[0] != 0 or not rises[0] > 0:
+        raise ValueError("the first point is the shut-off point, 0 m³/s at a pressure above 0")
+    if rises[-1] != 0:
+        raise ValueError("the last point is free delivery, at 0 Pa")
+    if np.any(np.diff(flows) <= 0) or np.any(np.diff(rises) > 0):
+        raise ValueError("flows must rise and pressures must not rise from point to point")
+    return tuple(points)
+
+
+def fan_operating_flow(curve, coefficient):
+    """Volume flow (m³/s) where a fan curve (points of :func:`parse_fan_curve`, linear between
+    them) meets the system curve dp = coefficient V² (coefficient in Pa s²/m⁶, an array)."""
+    flows, rises = (np.array(column) for column in zip(*curve))
+    c = np.asarray(coefficient, dtype=float)
+    margin = rises - c[..., None] * flows ** 2        # falls along the curve, <= 0 at its end
+    j = np.maximum(np.argmax(margin <= 0, axis=-1), 1)   # the segment [j-1, j] holds the point
+    slope = (rises[j] - rises[j - 1]) / (flows[j] - flows[j - 1])
+    intercept = rises[j - 1] - slope * flows[j - 1]      # > 0: the line at V = 0
+    # c V² = intercept + slope V, the positive root written without cancellation
+    return 2.0 * intercept / (np.sqrt(slope * slope + 4.0 * c * intercept) - slope)
 
 
 @shared_docs

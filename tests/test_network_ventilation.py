@@ -160,7 +160,9 @@ def test_inside_air_colder_than_outside_runs_the_flow_downward_with_a_note():
     assert stillair.stack_flow(t_in, AMBIENT, 0.004, 0.004, 0.6) < 0
 
 
-@pytest.mark.parametrize("kind, params", [("vent", (0.004, 0.006, 0.5, 0.61, 2.0)), ("airflow", (0.01,))])
+@pytest.mark.parametrize("kind, params", [
+    ("vent", (0.004, 0.006, 0.5, 0.61, 2.0)), ("airflow", (0.01, None, None, None, None)),
+    ("airflow", (((0.0, 60.0), (0.01, 45.0), (0.02, 0.0)), 0.002, 0.003, 0.61, 0.0))])
 @pytest.mark.parametrize("t_from, t_to", [(45.0, 25.0), (25.5, 25.0), (10.0, 30.0)])
 def test_the_derivatives_are_those_of_the_flow(kind, params, t_from, t_to):
     group = BRANCH_KINDS[kind].group(np.array([0]), [params], {"gas": "air", "pressure": 101325.0})
@@ -178,8 +180,6 @@ def test_the_derivatives_are_those_of_the_flow(kind, params, t_from, t_to):
     (vent_row(cd=1.5), "solve_network: branch row 1 (vent), column p4 (discharge coefficient) must be in (0, 1], got 1.5"),
     (vent_row(k=-1.0), "solve_network: branch row 1 (vent), column p5 (extra loss coefficient) must be >= 0, got -1"),
     (vent_row(inlet=0.0), "solve_network: branch row 1 (vent), column p1 (inlet area) must be > 0 m², got 0"),
-    (["fan", "air", "outside", "airflow", 0.01, 2.0],
-     "solve_network: branch row 1 (fan), column p2 must be blank for kind airflow (it uses p1..p1), got 2"),
     (["fan", "air", "outside", "airflow", 0.01, None, None, None, None, "auto"],
      "solve_network: branch row 1 (fan), column method must be blank for kind airflow (it has no correlation), got 'auto'"),
 ])
@@ -213,3 +213,59 @@ def test_the_reference_table_lists_the_new_kinds_with_their_default():
     assert rows["vent"]["p4"] == "discharge coefficient (blank: 0.61, a sharp-edged opening)"
     assert rows["airflow"]["p1"].startswith("volume flow m³/s")
     assert rows["vent"]["from"].startswith("from: the inside air")
+
+
+FAN = "0:60, 0.01:45, 0.02:0"   # a small fan of our own: shut-off 60 Pa, free delivery 0.02 m³/s
+
+
+def fan_row(curve=FAN, inlet=0.002, outlet=0.003, cd=None, k=None):
+    return ["fan", "air", "outside", "airflow", curve, inlet, outlet, cd, k]
+
+
+@pytest.mark.parametrize("inlet, outlet, cd, k", [(0.002, 0.003, None, None), (0.004, 0.004, 0.65, 3.8)])
+def test_a_fan_curve_runs_where_its_pressure_meets_the_losses_of_the_openings(inlet, outlet, cd, k):
+    result = solve_network([fan_row(FAN, inlet, outlet, cd, k)], [["air", "Q", 100.0], ["outside", "T", AMBIENT]])
+    record = result.branches["fan"]
+    t_in = result.temperatures["air"]
+    rho_out, rho_in = stillair.air_density(AMBIENT), stillair.air_density(t_in)
+    mass = rho_out * record.volume_flow
+    cd, k = cd or 0.61, k or 0.0
+    losses = mass ** 2 * ((1 / cd ** 2 + k) / (2 * rho_out * inlet ** 2) + 1 / (2 * cd ** 2 * rho_in * outlet ** 2))
+    fan = np.interp(record.volume_flow, [0.0, 0.01, 0.02], [60.0, 45.0, 0.0])
+    assert fan == pytest.approx(losses, rel=1e-9)
+    assert record.heat == pytest.approx(mass * stillair.air_cp(0.5 * (t_in + AMBIENT)) * (t_in - AMBIENT), rel=1e-9)
+    assert record.heat == pytest.approx(100.0, rel=1e-9)
+
+
+def test_a_stronger_fan_or_larger_openings_move_more_air():
+    def flow(row):
+        return solve_network([row], [["air", "Q", 100.0], ["outside", "T", AMBIENT]]).branches["fan"].volume_flow
+    base = flow(fan_row())
+    assert flow(fan_row("0:120, 0.01:90, 0.02:0")) > base
+    assert flow(fan_row(inlet=0.02, outlet=0.03)) > base
+    # openings far larger than the fan: it runs near free delivery
+    assert flow(fan_row(inlet=10.0, outlet=10.0)) == pytest.approx(0.02, rel=1e-6)
+
+
+@pytest.mark.parametrize("row, message", [
+    (["fan", "air", "outside", "airflow", 0.01, 0.002],
+     "solve_network: branch row 1 (fan), column p2 must be blank for kind airflow with a fixed volume flow "
+     "(p2..p5 are the openings a fan curve works against), got 0.002"),
+    (fan_row(inlet=None),
+     "solve_network: branch row 1 (fan), column p2 (inlet area) must be an area in m² (the openings the fan "
+     "curve works against), got blank"),
+    (fan_row("0:60, 0.02:3"),
+     "solve_network: branch row 1 (fan), column p1 (volume flow) must be a volume flow in m³/s or a fan curve "
+     "\"V:dp, ...\" in m³/s:Pa (the last point is free delivery, at 0 Pa), got '0:60, 0.02:3'"),
+    (fan_row("0:60, 0.01:70, 0.02:0"),
+     "solve_network: branch row 1 (fan), column p1 (volume flow) must be a volume flow in m³/s or a fan curve "
+     "\"V:dp, ...\" in m³/s:Pa (flows must rise and pressures must not rise from point to point), "
+     "got '0:60, 0.01:70, 0.02:0'"),
+    (fan_row("0:60 0.02:0"),
+     "solve_network: branch row 1 (fan), column p1 (volume flow) must be a volume flow in m³/s or a fan curve "
+     "\"V:dp, ...\" in m³/s:Pa (the point \"0:60 0.02:0\" is not \"flow:pressure\"), got '0:60 0.02:0'"),
+])
+def test_bad_fan_columns_are_named(row, message):
+    with pytest.raises(NetworkError) as error:
+        solve_network([row], [["air", "Q", 10.0], ["outside", "T", AMBIENT]])
+    assert str(error.value) == message

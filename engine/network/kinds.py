@@ -28,12 +28,13 @@ from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult
                            nusselt_at_difference_checked, nusselt_checked)
 from ..gases import gas_properties
 from ..radiation import SIGMA, exchange_factor
-from ..ventilation import DEFAULT_DISCHARGE_COEFFICIENT, stack_mass_flow
+from ..ventilation import (DEFAULT_DISCHARGE_COEFFICIENT, fan_operating_flow, opening_losses, parse_fan_curve,
+                          stack_mass_flow)
 from .errors import FUNCTION, NetworkError
-from .reading import blank, gas_key, number
+from .reading import blank, error_text, gas_key, number
 
 __all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind", "BRANCH_KINDS",
-           "AdvectionKind", "VENT", "AIRFLOW", "NOMINAL_RISE",
+           "AdvectionKind", "AirflowKind", "VENT", "AIRFLOW", "NOMINAL_RISE",
            "SKIPPED_GEOMETRIES", "NoBranchKind",
            "kind_reference", "NOMINAL_SURFACE_H", "NOMINAL_CAVITY_NU", "NOMINAL_CONDUCTIVITY"]
 
@@ -62,7 +63,8 @@ class Param:
     label: str
     unit: str = ""
     meaning: str = ""
-    check: str = "positive"          # positive | non-negative | emissivity | fraction | angle | facing | choice | gas
+    check: str = "positive"   # positive | non-negative | emissivity | fraction | angle | facing | choice | gas
+    #                           | flow-or-curve (a number > 0, or a fan curve's text: parse_fan_curve)
     limits: tuple[float, float] = (0.0, 0.0)
     choices: tuple[str, ...] = ()
     optional: bool = False
@@ -99,9 +101,15 @@ class Param:
             if not isinstance(value, str):
                 raise NetworkError(FUNCTION, here, value, "a gas name")
             return gas_key(value)
+        if self.check == "flow-or-curve" and isinstance(value, str) and error_text(value) is None:
+            try:
+                return parse_fan_curve(value)
+            except ValueError as reason:
+                raise NetworkError(FUNCTION, here, value, f'a volume flow in m³/s or a fan curve "V:dp, ..." '
+                                                          f"in m³/s:Pa ({reason})") from None
         value = number(value, where, column, self.unit)
         unit = f" {self.unit}" if self.unit else ""
-        if self.check == "positive" and not value > 0:
+        if self.check in ("positive", "flow-or-curve") and not value > 0:
             raise NetworkError(FUNCTION, here, value, f"> 0{unit}")
         if self.check in ("emissivity", "fraction") and not 0 < value <= 1:
             raise NetworkError(FUNCTION, here, value, "in (0, 1]")
@@ -289,6 +297,14 @@ class _AdvectionGroup(_Group):
         self.columns = [self.column(k) for k in range(len(kind.params))]
         self.tiled_columns = [np.tile(c, 3) for c in self.columns]
 
+    def column(self, k: int) -> np.ndarray:
+        values = [p[k] for p in self.params]
+        if any(isinstance(v, tuple) for v in values):   # fan curves: one object per branch
+            column = np.empty(len(values), dtype=object)
+            column[:] = values
+            return column
+        return np.array([np.nan if v is None else v for v in values], dtype=float)
+
     def nominal(self, t1, t2):
         """m cp with air near 20 °C, the inside lighter by the ideal-gas ratio (start only)."""
         rho, cp = _NOMINAL_AIR
@@ -345,10 +361,56 @@ VENT = AdvectionKind(
     ends=_ADVECTION_ENDS, mass_flow=_stack, method="stack flow through two openings",
     reversed_note="the inside air is colder than the outside: the stack flow runs downward "
                   "(in at the high opening, out at the low one)")
-AIRFLOW = AdvectionKind(
-    "airflow", (Param("volume flow", "m³/s", "of outside air, at the to node's temperature"),),
-    flow="rho2 V cp (T1 - T2), cp at (T1 + T2)/2", ends=_ADVECTION_ENDS,
-    mass_flow=lambda columns, rho_from, rho_to: rho_to * columns[0], method="forced airflow")
+def _forced(columns, rho_from, rho_to):
+    flow = columns[0]
+    if flow.dtype != object:
+        return rho_to * flow
+    # a fan curve: outside air drawn in through the low opening, inside air out at the high one
+    inlet, outlet, discharge, extra_loss = columns[1:]
+    coefficient = 0.5 * rho_to * rho_to * opening_losses(rho_to, rho_from, inlet, outlet, discharge, extra_loss)
+    volume = np.empty(len(flow))
+    for curve in dict.fromkeys(flow):
+        mask = np.fromiter((f == curve for f in flow), dtype=bool, count=len(flow))
+        volume[mask] = fan_operating_flow(curve, coefficient[mask])
+    return rho_to * volume
+
+
+@dataclass(frozen=True)
+class AirflowKind(AdvectionKind):
+    """A fixed volume flow in p1, or a fan curve in p1 with the openings it blows through in
+    p2..p5 (required with a curve, blank with a number)."""
+
+    def read_params(self, row_values, where: str) -> tuple:
+        flow = self.params[0].read(row_values[0], where, "p1")
+        if isinstance(flow, tuple):
+            for position in (1, 2):
+                if blank(row_values[position]):
+                    raise NetworkError(FUNCTION, f"{where}, column p{position + 1} ({self.params[position].label})",
+                                       None, "an area in m² (the openings the fan curve works against)")
+            return super().read_params(row_values, where)
+        for position in range(1, 5):
+            if not blank(row_values[position]):
+                raise NetworkError(FUNCTION, f"{where}, column p{position + 1}", row_values[position],
+                                   f"blank for kind {self.name} with a fixed volume flow (p2..p5 are the "
+                                   "openings a fan curve works against)")
+        return (flow, None, None, None, None)
+
+    def group_key(self, branch, gas: str) -> tuple:
+        return (self.name, isinstance(branch.params[0], tuple))
+
+
+AIRFLOW = AirflowKind(
+    "airflow", (Param("volume flow", "m³/s", "of outside air at the to node's temperature; or a fan curve "
+                      '"V:dp, ..." in m³/s:Pa from shut-off (0:dp) to free delivery (V:0)', check="flow-or-curve"),
+                Param("inlet area", "m²", "fan curve only: the low opening's free area", optional=True),
+                Param("outlet area", "m²", "fan curve only: the high opening's free area", optional=True),
+                Param("discharge coefficient", check="fraction", optional=True,
+                      default=DEFAULT_DISCHARGE_COEFFICIENT, blank_means=f"{DEFAULT_DISCHARGE_COEFFICIENT:g}"),
+                Param("extra loss coefficient", check="non-negative", optional=True, default=0.0,
+                      meaning="fan curve only, on the velocity through the inlet area", blank_means="0")),
+    flow="rho2 V cp (T1 - T2), cp at (T1 + T2)/2; with a fan curve V where the fan's pressure rise meets "
+         "the orifice losses of the two openings (the stack's help neglected)", ends=_ADVECTION_ENDS,
+    mass_flow=_forced, method="forced airflow")
 
 
 # ---- convection (generated from the correlation registry) --------------------------------
