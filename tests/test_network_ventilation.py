@@ -269,3 +269,29 @@ def test_bad_fan_columns_are_named(row, message):
     with pytest.raises(NetworkError) as error:
         solve_network([row], [["air", "Q", 10.0], ["outside", "T", AMBIENT]])
     assert str(error.value) == message
+
+
+from hypothesis import assume, given, settings, strategies as st  # noqa: E402
+
+
+@settings(max_examples=150, deadline=None)
+@given(heat=st.floats(-300.0, 2000.0), outside=st.floats(-30.0, 50.0), inlet=st.floats(1e-4, 0.1),
+       outlet=st.floats(1e-4, 0.1), height=st.floats(0.05, 3.0), loss=st.floats(0.0, 50.0),
+       wall=st.floats(0.05, 20.0))
+def test_sweep_vented_enclosures_balance_and_keep_the_closed_form(heat, outside, inlet, outlet, height, loss, wall):
+    """A vent beside a wall conductance, over sizes, climates and heat (negative: cooling inside).
+    The wall alone would hold the air within -100..+300 K of outside: inside air's range."""
+    assume(-100.0 * wall <= heat <= 300.0 * wall)
+    rows = [["vent", "air", "outside", "vent", inlet, outlet, height, None, loss],
+            ["wall", "air", "outside", "film", 5.0, wall]]
+    result = solve_network(rows, [["air", "Q", heat], ["outside", "T", outside]])
+    (imbalance,) = result.balance().values()
+    assert abs(imbalance) <= 1e-9 * max(abs(heat), 1e-3)
+    t_in = result.temperatures["air"]
+    record = result.branches["vent"]
+    # heat runs from the warmer air to the colder, and the air is warmer inside when heated
+    if abs(heat) > 1e-6:
+        assert record.heat * record.delta_t >= 0 and record.delta_t * heat > 0
+    if abs(t_in - outside) > 1e-6:
+        mass = closed_form_mass_flow(t_in, outside, inlet, outlet, height, 0.61, loss)
+        assert record.mass_flow == pytest.approx(mass, rel=1e-8)
