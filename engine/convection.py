@@ -488,21 +488,23 @@ def _h_parameters(geometry: str, first: tuple[str, str]):
 
 _H = ("float or ndarray", "Convection coefficient h = Nu k / L in W/(m²·K), gas properties at the film "
       "(mean) temperature: a float for scalar inputs, an array otherwise.")
+# Each h function with its geometry, summary and example (call, shown value), documented from the
+# registry below.
 _H_SUMMARIES = {
-    "vplate": ("Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
-    "hplate": ("Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
+    h_vplate: ("vplate", "Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
+    h_hplate: ("hplate", "Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
                'h_hplate(60.0, 20.0, 0.25, "up")', "5.96"),
-    "tplate": ("Convection coefficient of a plate tilted from the vertical.",
+    h_tplate: ("tplate", "Convection coefficient of a plate tilted from the vertical.",
                'h_tplate(60.0, 20.0, 0.5, 30.0, "up")', "4.79"),
-    "hcyl": ("Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
-    "sphere": ("Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
-    "vcyl": ("Convection coefficient of a vertical cylinder, Ra on its height.",
+    h_hcyl: ("hcyl", "Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
+    h_sphere: ("sphere", "Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
+    h_vcyl: ("vcyl", "Convection coefficient of a vertical cylinder, Ra on its height.",
              "h_vcyl(60.0, 20.0, 0.5, 0.05)", "5.6"),
-    "cavity": ("Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
+    h_cavity: ("cavity", "Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
                "h_cavity(15.0, 5.0, 0.016, 1.2)", "1.645"),
 }
-for _geometry, (_summary, _call, _value) in _H_SUMMARIES.items():
-    document(globals()[f"h_{_geometry}"], _geometry, _summary,
+for _function, (_geometry, _summary, _call, _value) in _H_SUMMARIES.items():
+    document(_function, _geometry, _summary,
              _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
              f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
-del _geometry, _summary, _call, _value
+del _function, _geometry, _summary, _call, _value
