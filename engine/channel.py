@@ -669,7 +669,8 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
         *geometry, p = rest
 
         def rejected(t_base):
-            return heatsink(t_base, ta, *geometry, gas, p, tip=tip, function_name=function_name)
+            # the seven geometry arguments, which a type checker cannot count in *geometry
+            return heatsink(t_base, ta, *geometry, gas, p, tip=tip, function_name=function_name)  # type: ignore[misc, arg-type]
 
         def excess_heat(t_base):
             return float(rejected(t_base).q) - q_i
@@ -735,7 +736,7 @@ _HEATSINK_PARAMETERS = """    t_base : float or array
         Absolute pressure in Pa.
     tip : str, default "corrected"
         "corrected" or "adiabatic" fin tip."""
-for _function in (heatsink, heatsink_q, heatsink_tbase):
-    shared_docs(_function, {"heatsink_parameters": _HEATSINK_PARAMETERS,
+for _sink_function in (heatsink, heatsink_q, heatsink_tbase):
+    shared_docs(_sink_function, {"heatsink_parameters": _HEATSINK_PARAMETERS,
                             "heatsink_parameters_after_t_base": _HEATSINK_PARAMETERS.split("\n", 2)[2]})
-del _function
+del _function, _sink_function

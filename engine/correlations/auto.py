@@ -58,7 +58,7 @@ def _coverage(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
         return weight
     coverage = 1.0
     for bound, key in ranges:
-        coverage *= bound.weight_of(plain[key] if key else _first(bound.of(inputs)))
+        coverage *= bound.weight_of(plain[key] if key else _first(bound.values(inputs)))
         if coverage == 0.0:
             break
     return coverage

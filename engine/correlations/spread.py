@@ -25,10 +25,10 @@ class NusseltSpread:
     statistical confidence interval: it says how much the literature disagrees about the case.
     """
 
-    low: np.ndarray
-    high: np.ndarray
-    count: np.ndarray
-    methods: np.ndarray
+    low: float | np.ndarray
+    high: float | np.ndarray
+    count: int | np.ndarray
+    methods: tuple[str, ...] | np.ndarray
 
     @property
     def text(self):

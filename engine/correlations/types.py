@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from typing import Callable, Mapping
+from typing import Any, Callable, Mapping
 
 import numpy as np
 
@@ -27,21 +27,13 @@ class AutoStep:
     few degrees off the horizontal, a fallback that takes whatever is left).  An empty ``when``
     covers everything (the last step of every rule).  ``form`` names one published band of a
     piecewise correlation (:attr:`Correlation.forms`), so that auto can blend across the band
-    edge while the named method keeps its published step.
+    edge while the named method keeps its published step.  Its coverage is the product of its
+    ranges' transition weights (:func:`stillair.correlations.auto.weigh_steps`).
     """
 
     method: str
     when: tuple[Range, ...] | None = None
     form: str | None = None
-
-    def coverage(self, correlation: "Correlation", inputs: Mapping[str, np.ndarray], case) -> np.ndarray:
-        """Continuous weight 0..1 of this step (the product of its ranges' transition weights)."""
-        ranges = correlation.ranges(case) if self.when is None else self.when
-        weight = None
-        for bound in ranges:
-            part = bound.weight(inputs)
-            weight = part if weight is None else weight * part
-        return weight
 
 
 @dataclass(frozen=True)
@@ -81,7 +73,7 @@ class Geometry:
     inputs: tuple[str, ...]
     description: str
     cases: tuple[str, ...] = ()
-    auto: Mapping[str | None, tuple[AutoStep, ...]] = field(default_factory=dict)
+    auto: Mapping[Any, tuple[AutoStep, ...]] = field(default_factory=dict)  # case (None: no cases) -> rule
     floor: float | None = None
     # Allowed tilt (degrees) where tilt is an input: cavities 0-180 from the horizontal,
     # tilted plates 0-90 from the vertical.
@@ -158,7 +150,7 @@ class Correlation:
 
     def ranges(self, case: str | None = None) -> tuple[Range, ...]:
         """The validity ranges that apply to ``case`` (``validity`` unless the case has its own)."""
-        return self.validity_by_case.get(case, self.validity)
+        return self.validity if case is None else self.validity_by_case.get(case, self.validity)
 
     def inside(self, inputs: Mapping[str, np.ndarray], case: str | None = None) -> np.ndarray:
         shape = np.broadcast(*[np.asarray(v) for v in inputs.values()]).shape
@@ -229,8 +221,8 @@ class NusseltResult:
 
     nu: np.ndarray
     method: np.ndarray        # the method with the largest weight
-    in_range: np.ndarray      # every weighted method inside its published ranges
-    note: np.ndarray          # "" in range; else the bounds crossed (and the blend, if any)
+    in_range: Any  # array: every weighted method inside its published ranges (None: ranges=False)
+    note: Any      # array: "" in range; else the bounds crossed (and the blend, if any)
     blend: np.ndarray | None = None  # "" or "blend of A and B" where auto weighs several
 
     def __post_init__(self):

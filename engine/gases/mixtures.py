@@ -4,7 +4,7 @@ ISO 15099:2003 Annex B (method in the package docstring)."""
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import lru_cache
 
 import numpy as np
@@ -32,6 +32,7 @@ class _Mixture:
     t_range: Range
     molar_masses: tuple[float, ...]      # kg/mol, per component
     molar_mass: float                    # kg/mol, mole-fraction mean
+    _hash: int = field(init=False, repr=False)  # of the components, set once
 
     def __post_init__(self):
         object.__setattr__(self, "_hash", hash(self.components))

@@ -10,6 +10,7 @@ import zipfile
 from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
@@ -51,7 +52,7 @@ class _ShippedFile:
 
 
 _SHIPPED_UNREAD = object()
-_shipped_file = _SHIPPED_UNREAD          # a _ShippedFile, or None for "no usable file"
+_shipped_file: Any = _SHIPPED_UNREAD     # a _ShippedFile, or None for "no usable file"
 _shipped_reason = ""                     # why there is no usable file
 _SOURCES: dict[str, str] = {}            # pure gas -> where its table came from
 
@@ -121,7 +122,7 @@ def _shipped_gas(name: str) -> _ShippedGas | None:
     entry = shipped.gases.get(name) if shipped is not None else None
     if name in _SOURCES:
         return entry
-    if entry is not None:
+    if entry is not None and shipped is not None:
         _SOURCES[name] = (f"shipped table {shipped.path.name} "
                           f"(CoolProp {shipped.coolprop_version})")
         return entry
