@@ -41,6 +41,8 @@ the checks, the scalar path, the flux cases), :mod:`.spread` (:func:`nu_spread`)
 
 from __future__ import annotations
 
+# Besides the public names (__all__), the package keeps importable the mechanisms the other engine
+# modules use (nusselt_checked, nusselt_parameters, uniform, the plate case groups ...).
 from .docs import INPUT_DOCS, document, methods_section, nusselt_parameters
 from .evaluate import (merge_masked, nusselt, nusselt_at_difference, nusselt_at_difference_checked,
                        nusselt_checked, nusselt_value)
