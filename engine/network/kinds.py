@@ -283,7 +283,8 @@ class AdvectionKind(BranchKind):
     rho_to)``, signed (negative: a stack flow running downward); ``reversed_note`` is the
     note a branch whose flow runs downward carries."""
 
-    mass_flow: Callable = field(default=None, compare=False)
+    # required (a default only because the fields of BranchKind have them)
+    mass_flow: Callable[..., np.ndarray] = field(default=None, compare=False)  # type: ignore[assignment]
     method: str = ""
     reversed_note: str = ""
 
@@ -296,6 +297,7 @@ _NOMINAL_AIR = (1.2, 1005.0)     # air near 20 °C, kg/m³ and J/(kg·K) (start 
 
 
 class _AdvectionGroup(_Group):
+    kind: AdvectionKind
     reads_gas = True   # the network's gas and pressure are checked before any iteration
 
     def __init__(self, kind, index, params, context):
@@ -324,8 +326,9 @@ class _AdvectionGroup(_Group):
         n = len(t1)
         props = gas_properties(self.gas, np.concatenate([t1, t2, 0.5 * (t1 + t2)]), self.pressure,
                                function_name=FUNCTION)
-        rho_from, rho_to = props.density[:n], props.density[n:2 * n]
-        return self.kind.mass_flow(columns, rho_from, rho_to), props.cp[2 * n:], rho_to
+        density, cp = np.asarray(props.density), np.asarray(props.cp)
+        rho_from, rho_to = density[:n], density[n:2 * n]
+        return self.kind.mass_flow(columns, rho_from, rho_to), cp[2 * n:], rho_to
 
     def flows(self, t1, t2, dt):
         n = len(t1)
