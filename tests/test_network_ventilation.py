@@ -274,6 +274,7 @@ def test_bad_fan_columns_are_named(row, message):
 from hypothesis import assume, given, settings, strategies as st  # noqa: E402
 
 
+@pytest.mark.slow  # a long sweep: 150 generated enclosures
 @settings(max_examples=150, deadline=None)
 @given(heat=st.floats(-300.0, 2000.0), outside=st.floats(-30.0, 50.0), inlet=st.floats(1e-4, 0.1),
        outlet=st.floats(1e-4, 0.1), height=st.floats(0.05, 3.0), loss=st.floats(0.0, 50.0),
