@@ -45,7 +45,7 @@ def build_parser() -> argparse.ArgumentParser:
                       "a new file (an existing file is never replaced)")
     calc.add_argument("--json", action="store_true", help="print one JSON object")
 
-    from .audit import add_audit_parser
+    from .audit.check import add_audit_parser
     add_audit_parser(commands)
 
     functions = commands.add_parser("functions", help="list the cell functions")
@@ -93,8 +93,8 @@ def _format(value) -> str:
 
 def _summary_cells(evaluation):
     """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
-    from .headless import label
-    from .xlsx import split_ref
+    from .workbook.evaluate import label
+    from .workbook.reader import split_ref
 
     rows = []
     for sheet in evaluation.book.sheets:
@@ -109,9 +109,9 @@ def _summary_cells(evaluation):
 
 
 def calc(args) -> int:
-    from .cachewriter import same_file
-    from .headless import evaluate_book
-    from .xlsx import BookError
+    from .workbook.cachewriter import same_file
+    from .workbook.evaluate import evaluate_book
+    from .workbook.reader import BookError
 
     try:
         sets = _parse_sets(args.sets)
@@ -182,7 +182,7 @@ def calc(args) -> int:
 
 
 def _split_label(label: str) -> tuple[str, str, int] | None:
-    from .xlsx import split_ref
+    from .workbook.reader import split_ref
 
     sheet, sep, ref = label.rpartition("!")
     try:
@@ -223,7 +223,7 @@ def _results_sheet_rows(evaluation) -> list[list[tuple[object, bool]]]:
     otherwise; trailing blank cells dropped.  Read from the workbook calc has read already."""
     if "Results" not in evaluation.values:
         return []
-    from .xlsx import index_to_col
+    from .workbook.reader import index_to_col
 
     computed = evaluation.values["Results"]
     sheet = evaluation.book.sheet("Results")
@@ -332,7 +332,7 @@ def _templates(args) -> int:
 def _require_regular_file(path: str) -> None:
     """Refuse at once anything that is not a regular file: reading a FIFO or a device would
     hang or never end."""
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     try:
         mode = os.stat(path).st_mode
@@ -351,7 +351,7 @@ def _require_regular_file(path: str) -> None:
 
 def _check_new_file(path: str, option: str) -> None:
     """A file name stillair may create: its folder exists, and nothing is there yet."""
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     if os.path.isdir(path):
         raise BookError(f"{path}: is a folder; {option} takes the name of a new file, "
@@ -374,8 +374,8 @@ def _default_permissions() -> int:
 def _write_copy(book, out: str, values) -> None:
     """Write the --out copy next to its target under a temporary name, give it the user's
     normal permissions, and link it into place only if nothing appeared there meanwhile."""
-    from .cachewriter import write_cached_values
-    from .xlsx import BookError
+    from .workbook.cachewriter import write_cached_values
+    from .workbook.reader import BookError
 
     folder = os.path.dirname(os.path.abspath(out))
     try:
@@ -404,7 +404,7 @@ def _write_copy(book, out: str, values) -> None:
 
 
 def _check_out_extension(book, out: str) -> None:
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     has_vba = any(m.lower().endswith("vbaproject.bin") for m in book.members)
     if has_vba and not out.lower().endswith(".xlsm"):
@@ -428,12 +428,12 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "calc":
         return calc(args)
     if args.command == "functions":
-        from .reference import reference_markdown, reference_text
+        from .cells.reference import reference_markdown, reference_text
         sys.stdout.write(reference_markdown() if args.markdown else reference_text())
         return 0
     if args.command == "audit":
-        from .audit import run_audit
-        from .xlsx import BookError
+        from .audit.check import run_audit
+        from .workbook.reader import BookError
         try:
             _require_regular_file(args.book)
         except BookError as error:
@@ -445,7 +445,7 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "templates":
         return _templates(args)
     if args.command == "excel-setup":
-        from .excel_setup import run
+        from .excel.setup import run
         return run(dry_run=args.dry_run)
     if args.command == "libreoffice-setup":
         from .libreoffice.setup import run as libreoffice_setup

@@ -10,8 +10,8 @@ from pathlib import Path
 
 import pytest
 
-from stillair.addin.registry import REGISTRY, Arg
-from stillair.addin.reference import reference_markdown
+from stillair.addin.cells.registry import REGISTRY, Arg
+from stillair.addin.cells.reference import reference_markdown
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -109,7 +109,7 @@ def test_no_excel_builtin_is_shadowed():
 
 @pytest.mark.parametrize("entry", REGISTRY, ids=lambda e: e.name)
 def test_texts_fit_the_function_wizard(entry):
-    from stillair.addin.xlfuncs import arg_doc
+    from stillair.addin.excel.udfs import arg_doc
     assert 0 < len(entry.description) <= 255
     assert entry.category and len(entry.category) <= 255
     for arg in entry.args:
@@ -129,7 +129,7 @@ def test_shared_arguments_are_defined_once():
 
 
 def test_every_network_branch_kind_is_explained():
-    from stillair.addin.reference import network_markdown, network_text
+    from stillair.addin.cells.reference import network_markdown, network_text
     from stillair.network import BRANCH_KINDS
     for name, kind in BRANCH_KINDS.items():
         assert f"| `{name}` | q = " in network_markdown()
@@ -173,7 +173,7 @@ def xlwings_udfs(monkeypatch):
 def test_xlwings_generates_vba_for_every_function(xlwings_udfs):
     import io
 
-    from stillair.addin import xlfuncs
+    from stillair.addin.excel import udfs as xlfuncs
 
     namespace = {}
     xlfuncs.build(namespace, func=xlwings_udfs.xlfunc, arg=xlwings_udfs.xlarg, ret=xlwings_udfs.xlret)

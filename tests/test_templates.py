@@ -7,7 +7,7 @@ import zipfile
 import openpyxl
 import pytest
 
-from stillair.addin.templatebook import MARKER_NAME, build_template, is_error_value
+from stillair.addin.templates.book import MARKER_NAME, build_template, is_error_value
 from stillair.addin.templates import MODULES, all_templates, copy_templates
 from template_support import evaluate_template
 

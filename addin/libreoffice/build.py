@@ -1,6 +1,6 @@
 """Building the LibreOffice extension (.oxt) from the cell-function registry.
 
-Everything in the extension is generated here from :data:`stillair.addin.registry.REGISTRY` at
+Everything in the extension is generated here from :data:`stillair.addin.cells.registry.REGISTRY` at
 build time, except the component (``stillair_calc.py``, shipped as it is):
 
 * ``stillair.idl`` -> ``stillair.rdb``: one UNO interface with one method per cell function
@@ -27,7 +27,7 @@ from importlib import resources
 from pathlib import Path
 from xml.sax.saxutils import escape
 
-from ..registry import REGISTRY, CellFunction
+from ..cells.registry import REGISTRY, CellFunction
 
 __all__ = ["IDENTIFIER", "IMPLEMENTATION", "INTERFACE", "ToolMissing",
            "returns_array", "idl_source", "function_spec", "python_paths", "find_program_dir", "find_unoidl_write",
@@ -85,7 +85,7 @@ def idl_source() -> str:
 
 
 def _arg_doc(arg) -> str:
-    from ..xlfuncs import arg_doc  # the same argument text Excel's function wizard shows
+    from ..excel.udfs import arg_doc  # the same argument text Excel's function wizard shows
     return arg_doc(arg)
 
 

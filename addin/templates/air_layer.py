@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import (FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, TemplateBook, Valid,
+from .book import (FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, TemplateBook, Valid,
                             gas_pressure)
 
 DIRECTIONS = ("up", "horizontal", "down")

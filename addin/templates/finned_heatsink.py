@@ -11,7 +11,7 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from ..templatebook import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
+from .book import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
                             altitude, gas_temperature, limit_check)
 
 NAME = "finned-heatsink"

@@ -17,7 +17,7 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
+from .book import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
                             SLATE, Template, TemplateBook, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")

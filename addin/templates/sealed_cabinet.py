@@ -11,7 +11,7 @@ limit.
 from __future__ import annotations
 
 
-from ..templatebook import (EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude,
+from .book import (EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude,
                             limit_check)
 
 NAME = "sealed-cabinet"

@@ -12,7 +12,7 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, TemplateBook, Valid,
+from .book import (OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, TemplateBook, Valid,
                             gas_pressure)
 
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"

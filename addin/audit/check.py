@@ -1,7 +1,7 @@
 """``stillair audit``: check a finished workbook's numbers against the engine.
 
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
-headlessly from its own inputs (:class:`stillair.addin.headless.Model`, calculating only our
+headlessly from its own inputs (:class:`stillair.addin.workbook.evaluate.Model`, calculating only our
 cells, what they read and what reads them) and classifies every cell that calls one of our
 functions and every cell downstream of one, built-in formulas included:
 
@@ -26,7 +26,7 @@ Tolerance: a numeric difference counts only when ``|a-b| > rtol*max(|a|,|b|)`` a
 the two results: round-off around zero (a balance residual of -5.7e-14 against 1e-15) is ok.
 
 Findings are listed worst first in that order.  The audited file is only ever read, through the
-checks of :mod:`stillair.addin.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
+checks of :mod:`stillair.addin.workbook.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
 file cannot be read (one line on stderr).
 """
 
@@ -44,7 +44,7 @@ import time
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
-from .cachewriter import ERROR_VALUES
+from ..workbook.cachewriter import ERROR_VALUES
 
 __all__ = ["KINDS", "Finding", "AuditResult", "audit_book", "format_table", "to_json",
            "write_report", "add_audit_parser", "run_audit", "main", "recognise_call", "calls_in",
@@ -63,7 +63,7 @@ MARKER_NAME = "stillair_template"
 
 
 def default_templates_dir() -> Path:
-    from .templatebook import TEMPLATE_DIR
+    from ..templates.book import TEMPLATE_DIR
     return TEMPLATE_DIR
 
 
@@ -116,10 +116,10 @@ class AuditResult:
 
 
 # ---------------------------------------------------------------------------------------------
-# Recognising our functions: the one grammar of stillair.addin.formulatext
+# Recognising our functions: the one grammar of stillair.addin.workbook.formulatext
 
-from .formulatext import Call, calls_in, normalise_formula, recognise_call  # noqa: E402
-from .formulatext import _families, _registry  # noqa: E402  (the grammar's own look-ups)
+from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call  # noqa: E402
+from ..workbook.formulatext import _families, _registry  # noqa: E402  (the grammar's own look-ups)
 
 
 @dataclass
@@ -165,7 +165,7 @@ class Records:
 
 
 def _stored(value):
-    from .xlsx import CellError
+    from ..workbook.reader import CellError
     return str(value) if isinstance(value, CellError) else value
 
 
@@ -231,14 +231,14 @@ class AuditError(Exception):
 
 
 def _label(sheet: str, ref: str) -> str:
-    from .headless import label
+    from ..workbook.evaluate import label
     return label(sheet, ref)
 
 
 def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.PathLike | None = None,
                atol: float = DEFAULT_ATOL) -> AuditResult:
     """Audit ``path``; raises :class:`AuditError` when it cannot be read."""
-    from .xlsx import BookError, read_book, split_ref
+    from ..workbook.reader import BookError, read_book, split_ref
 
     if not (rtol >= 0):
         raise AuditError(f"--rtol must be >= 0, got {rtol}")
@@ -256,7 +256,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     cells = Records(book)
     read_done = time.perf_counter()
 
-    from .headless import Model
+    from ..workbook.evaluate import Model
     maybe = _maybe_ours()
     seeds = {(sheet.name, ref) for sheet in book.sheets for ref, cell in sheet.formulas.items()
              if cell.formula and maybe.search(cell.formula) and calls_in(cell.formula)}
@@ -329,7 +329,7 @@ def _stale_advice(book, record, value, pristine_value, array: bool) -> str:
 
 
 def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine) -> None:
-    from .xlsx import expand_range, split_ref
+    from ..workbook.reader import expand_range, split_ref
 
     book = model.book
 
@@ -455,7 +455,7 @@ class _Pristine:
 def _pristine_template(result, book, templates_dir):
     """The pristine template a filled-in workbook names in its marker (None when it names none,
     or names one that is not installed, or another version: each said in a finding)."""
-    from .xlsx import BookError, read_book
+    from ..workbook.reader import BookError, read_book
 
     marker = _marker(book)
     if marker is None:
@@ -497,7 +497,7 @@ def _inputs_changed(book, pristine) -> bool:
 
 def _template_drift(result, book, cells, pristine) -> None:
     """Compare a filled-in template's formulas with its pristine copy, by meaning."""
-    from .xlsx import split_ref
+    from ..workbook.reader import split_ref
 
     present = {s.name.upper(): s.name for s in book.sheets}
     order = {s.name: i for i, s in enumerate(pristine.book.sheets)}

@@ -3,7 +3,7 @@
 Each :class:`CellFunction` names its engine callable by attribute name (``engine.<name>``), its
 arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
 generated from this list: the xlwings functions (:mod:`stillair.addin.xlfuncs`), the headless evaluator's
-registrations (:mod:`stillair.addin.headless`) and the function reference (``stillair functions``).
+registrations (:mod:`stillair.addin.workbook.evaluate`) and the function reference (``stillair functions``).
 
 Argument kinds:
 
@@ -360,7 +360,7 @@ _entries += [
 
 # ---------------------------------------------------------------------------------------------
 # Thermal network.  The four cells share one solve per distinct set of inputs (cached in
-# stillair.addin.cells), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
+# stillair.addin.cells.callpath), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
 
 
 def _net_table(solve, kwargs):

@@ -1,7 +1,7 @@
 """Evaluate a workbook without Excel: our cell functions and Excel's built-ins.
 
-The workbook is read once (:func:`stillair.addin.xlsx.read_book`).  Each formula is prepared on
-its own (:func:`stillair.addin.formulatext.prepare`) and compiled by the ``formulas`` library;
+The workbook is read once (:func:`stillair.addin.workbook.reader.read_book`).  Each formula is prepared on
+its own (:func:`stillair.addin.workbook.formulatext.prepare`) and compiled by the ``formulas`` library;
 formulas of the same shape (a row copied down) share one compiled function.  This module then
 calculates the cells itself, in dependency order, so that
 
@@ -35,10 +35,10 @@ from dataclasses import dataclass, field
 
 os.environ.setdefault("TQDM_DISABLE", "1")  # formulas shows a progress bar while compiling
 
-from .cells import NoteRecorder, evaluate as evaluate_cell  # noqa: E402
+from ..cells.callpath import NoteRecorder, evaluate as evaluate_cell  # noqa: E402
 from .formulatext import Reference, calls_in, parse_reference, prepare  # noqa: E402
-from .registry import REGISTRY  # noqa: E402
-from .xlsx import Book, BookError, CellError, index_to_col, read_book, split_ref  # noqa: E402
+from ..cells.registry import REGISTRY  # noqa: E402
+from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref  # noqa: E402
 
 __all__ = ["register_functions", "Evaluation", "CellResult", "Model", "evaluate_book",
            "parse_value", "resolve_target", "STATUSES"]

@@ -13,7 +13,7 @@ An .xlsx/.xlsm file is a zip package of XML parts.  Before anything decompresses
   external entities) are refused after reading a few bytes of the part.
 
 The declared sizes are binding: Python's zipfile (which openpyxl, ``formulas`` and
-:mod:`stillair.addin.xlsx` all read through) never returns more than a member's declared size and fails
+:mod:`stillair.addin.workbook.reader` all read through) never returns more than a member's declared size and fails
 on the CRC when the data is longer, so checking the directory is enough to bound the work.
 
 While a workbook is evaluated, :func:`guarded` keeps two promises: no network connection is

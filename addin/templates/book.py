@@ -787,8 +787,8 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
     values is moved into place.  Any error value or failed evaluation aborts the build: a template
     that does not calculate cleanly is never written.
     """
-    from .cachewriter import write_cached_values
-    from .headless import evaluate_book
+    from ..workbook.cachewriter import write_cached_values
+    from ..workbook.evaluate import evaluate_book
 
     out = Path(out_path) if out_path is not None else template.path
     out.parent.mkdir(parents=True, exist_ok=True)
@@ -817,7 +817,7 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
 def is_error_value(value) -> bool:
     """An Excel error (#VALUE!, ...) or one of our cell functions' error messages
     ("NET_TEMP: node must be ..."), which arrive as text."""
-    from .registry import BY_NAME
+    from ..cells.registry import BY_NAME
 
     if not isinstance(value, str):
         return False
@@ -869,7 +869,7 @@ def render_pictures(out_dir: str | os.PathLike, dpi: int = 80) -> list[Path]:
     Needs LibreOffice and poppler-utils (pdftotext, pdftoppm)."""
     import subprocess
 
-    from .templates import all_templates
+    from . import all_templates
 
     out = Path(out_dir)
     templates = all_templates()

@@ -23,7 +23,7 @@ import functools
 import re
 from dataclasses import dataclass
 
-from .xlsx import col_to_index, index_to_col
+from .reader import col_to_index, index_to_col
 
 __all__ = ["Call", "recognise_call", "calls_in", "tokens", "normalise_formula", "Reference",
            "parse_reference", "Prepared", "prepare", "MAX_ROW", "MAX_COL", "MAX_AREA_CELLS"]
@@ -41,7 +41,7 @@ _CALL_RE = re.compile(r"^(?P<prefix>\[\d+\]!|'(?:[^']|'')*'!|[^!'\s(]+!|_xll\.|_
 
 @functools.lru_cache(maxsize=1)
 def _registry() -> dict:
-    from .registry import BY_NAME
+    from ..cells.registry import BY_NAME
     return BY_NAME
 
 
