@@ -334,7 +334,7 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
 def test_function_wizard_lists_every_registry_function(installation, tmp_path):
     from stillair.addin.libreoffice.build import WIZARD_CATEGORY
     from stillair.addin.cells.registry import REGISTRY
-    from stillair.addin.excel.udfs import arg_doc
+    from stillair.addin.cells.registry import arg_doc
 
     listed = run_session(installation, [{"functions": [f.name for f in REGISTRY]}], tmp_path)[0]["functions"]
     assert sorted(listed) == sorted(f.name for f in REGISTRY)

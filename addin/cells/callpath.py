@@ -207,7 +207,7 @@ def evaluate(entry: CellFunction, *raw):
         return to_cell_value(value)
     except _Missing:
         return _short(f"{entry.name}: not available in this engine version "
-                      f"(engine.{entry.engine} is missing)")
+                      f"(stillair.{entry.engine} is missing)")
     except InputError as error:
         if type(error).render is not InputError.render:  # the error words its own value
             message = _short(error.render(entry.name))

@@ -1,6 +1,6 @@
 """The registry of cell functions: the one place where every spreadsheet function is listed.
 
-Each :class:`CellFunction` names its engine callable by attribute name (``engine.<name>``), its
+Each :class:`CellFunction` names its engine callable by attribute name (``stillair.<name>``), its
 arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
 generated from this list: the xlwings functions (:mod:`stillair.addin.xlfuncs`), the headless evaluator's
 registrations (:mod:`stillair.addin.workbook.evaluate`) and the function reference (``stillair functions``).
@@ -21,7 +21,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-__all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "lookup"]
+__all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
 _REQUIRED = object()
 
@@ -31,15 +31,25 @@ class Arg:
     """One argument of a cell function.
 
     ``engine_name`` is the keyword of the engine callable the value goes to (default: ``name``);
-    it differs where the natural name is a VBA keyword (``case``).
+    it differs where the natural name is a VBA keyword (``case``).  ``methods_of`` names the
+    engine geometry whose registered correlations fill ``{methods}`` in the text, read when the
+    help is shown, so a correlation registered in the engine appears in every cell help.
     """
 
     name: str
-    doc: str
+    text: str
     unit: str = ""
     kind: str = "number"
     default: Any = _REQUIRED
     engine_name: str | None = None
+    methods_of: str | None = None
+
+    @property
+    def doc(self) -> str:
+        """The argument's help text, as every host shows it."""
+        if self.methods_of is None:
+            return self.text
+        return self.text.format(methods=_method_list(self.methods_of))
 
     @property
     def optional(self) -> bool:
@@ -50,9 +60,17 @@ class Arg:
         return self.engine_name or self.name
 
 
+def arg_doc(arg: Arg) -> str:
+    """An argument's help as the spreadsheet hosts show it (Excel's and LibreOffice's function
+    wizards): the text, its unit in brackets and "Optional." where the text does not say so."""
+    unit = f" [{arg.unit}]" if arg.unit and arg.unit not in arg.doc else ""
+    optional = " Optional." if arg.optional and "blank" not in arg.doc else ""
+    return f"{arg.doc}{unit}{optional}"
+
+
 @dataclass(frozen=True)
 class CellFunction:
-    """One cell function: NAME(args...) -> result, computed by ``engine.<engine>``.
+    """One cell function: NAME(args...) -> result, computed by ``stillair.<engine>``.
 
     ``invoke(callable, kwargs)`` adapts the call where the cell does more than pass its
     arguments through (pick one value out of a network result, render a note); by default the
@@ -107,19 +125,31 @@ PR = Arg("Pr", "Prandtl number of the fluid (> 0).", engine_name="pr")
 RA_GAP = Arg("Ra", "Rayleigh number based on the gap (>= 0).", engine_name="ra")
 
 
-def _method(geometry: str, examples: str) -> Arg:
-    return Arg("method", f"Correlation for the {geometry}: {examples}; blank or \"auto\" picks the "
-               "one whose validity range covers the case.", kind="text", default="auto")
+def _method_list(geometry: str) -> str:
+    """The engine's methods of ``geometry`` in registration order, each serving only some of
+    the geometry's cases followed by those cases: "a (hot-up, cold-down), b"."""
+    from stillair import GEOMETRIES, methods_for
+    cases = GEOMETRIES[geometry].cases
+    served = {method: [case for case in cases if method in methods_for(geometry, case)]
+              for method in methods_for(geometry)}
+    return ", ".join(method if len(only) == len(cases) else
+                     f"{method} ({only[0]} only)" if len(only) == 1 else f"{method} ({', '.join(only)})"
+                     for method, only in served.items())
 
 
-M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcadams")
-M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
-M_TPLATE = _method("tilted plate", "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
-M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
-M_VCYL = _method("vertical cylinder", "churchill-chu, popiel")
-M_SPHERE = _method("sphere", "churchill")
-M_CAVITY = _method("cavity", "catton, macgregor-emery, elsherbiny, wright, hollands, globe-dropkin, "
-                   "en673, conduction")
+def _method(label: str, geometry: str) -> Arg:
+    return Arg("method", f"Correlation for the {label}: {{methods}}; blank or \"auto\" picks the "
+               "one whose validity range covers the case.", kind="text", default="auto",
+               methods_of=geometry)
+
+
+M_VPLATE = _method("vertical plate", "vplate")
+M_HPLATE = _method("horizontal plate", "hplate")
+M_TPLATE = _method("tilted plate", "tplate")
+M_HCYL = _method("horizontal cylinder", "hcyl")
+M_VCYL = _method("vertical cylinder", "vcyl")
+M_SPHERE = _method("sphere", "sphere")
+M_CAVITY = _method("cavity", "cavity")
 PLATE_CASE = Arg("plate_case", 'Plate case: "hot-up", "hot-down", "cold-up" or "cold-down" (the '
                  "exposed face points up or down and is hotter or colder than the fluid).",
                  kind="text", engine_name="case")
@@ -417,7 +447,7 @@ CATEGORIES["heatsinks"] = "stillair channels and heat sinks"
 CHANNEL_CASE = Arg("channel_case", 'Channel walls: "isothermal" (both, blank), "isothermal-adiabatic" '
                    '(one isothermal, one adiabatic), "flux" (uniform heat flux on both) or '
                    '"flux-adiabatic" (flux on one).', kind="text", default="isothermal", engine_name="case")
-M_CHANNEL = _method("channel", "bar-cohen-rohsenow, elenbaas (isothermal only)")
+M_CHANNEL = _method("channel", "channel")
 CHANNEL_TS = Arg("ts", "Wall temperature in °C; for the flux cases the wall temperature at the top of "
                  "the channel (the maximum).", "°C")
 CHANNEL_TF = Arg("tf", "Temperature of the still air around the channel (entering at the bottom), °C.", "°C")

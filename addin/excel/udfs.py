@@ -12,7 +12,7 @@ import inspect
 import xlwings as xw
 
 from ..cells.callpath import evaluate
-from ..cells.registry import REGISTRY, CellFunction
+from ..cells.registry import REGISTRY, CellFunction, arg_doc
 
 # Excel error values that reach Python as COM integer codes when they are passed directly (not
 # as a cell reference); xlwings' err_to_str covers the cell-reference case.  The codes are
@@ -29,12 +29,6 @@ def _from_excel(value):
     if type(value) is int and value in _EXCEL_ERROR_CODES:
         return _EXCEL_ERROR_CODES[value]
     return value
-
-
-def arg_doc(arg) -> str:
-    unit = f" [{arg.unit}]" if arg.unit and arg.unit not in arg.doc else ""
-    optional = " Optional." if arg.optional and "blank" not in arg.doc else ""
-    return f"{arg.doc}{unit}{optional}"
 
 
 def make_function(entry: CellFunction, module: str = __name__):
