@@ -93,7 +93,7 @@ def _format(value) -> str:
 
 def _summary_cells(evaluation):
     """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
-    from .workbook.evaluate import label
+    from .workbook.status import label
     from .workbook.reader import split_ref
 
     rows = []
@@ -110,7 +110,7 @@ def _summary_cells(evaluation):
 
 def calc(args) -> int:
     from .workbook.cachewriter import same_file
-    from .workbook.evaluate import evaluate_book
+    from .workbook.model import evaluate_book
     from .workbook.reader import BookError
 
     try:

@@ -146,7 +146,7 @@ def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     wb.define_name("'My calc'!local_nu", "='My calc'!$B$1")
     wb.define_name("twice", "=2*'My calc'!$C$3")
     wb.close()
-    from stillair.addin.workbook.evaluate import Model
+    from stillair.addin.workbook.model import Model
     model = Model(read_book(str(path)))
     seeds = {k for k, node in model.nodes.items() if k[0] != "#name" and calls_in(node.text)}
     assert sorted(model.downstream(seeds)) == sorted(
@@ -437,7 +437,7 @@ def test_calc_and_audit_share_one_prefix_grammar(tmp_path):
     for token in ("tools.xlsm!H_RAD(", "book.xlsm!H_RAD(", "ORG.STILLAIR.H_RAD("):
         assert recognise_call(token).ours
     assert audit_book(str(path)).ok == ["Calc!A1", "Calc!A2"]
-    from stillair.addin.workbook.evaluate import evaluate_book
+    from stillair.addin.workbook.model import evaluate_book
     assert evaluate_book(str(path)).values["Calc"] == pytest.approx(
         {"A1": NU_PLATE, "A2": NU_PLATE}, rel=1e-6)
 

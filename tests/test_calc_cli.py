@@ -164,7 +164,7 @@ def test_work_beyond_the_limit_is_refused_before_calculating(tmp_path, capsys, m
     """Running totals over whole columns: each formula reads the used range, so the cells read
     grow with the square of the rows; above the limit both commands refuse with the count."""
     from stillair.addin.audit import check as audit
-    from stillair.addin.workbook import evaluate as headless
+    from stillair.addin.workbook import model as headless
     path = tmp_path / "totals.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("T")

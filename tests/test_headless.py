@@ -13,7 +13,7 @@ import xlsxwriter
 
 from stillair.addin.cells.callpath import engine_callable
 from stillair.addin.workbook.formulatext import prepare
-from stillair.addin.workbook.evaluate import evaluate_book
+from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.cells.registry import BY_NAME
 from stillair.addin.workbook.reader import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
@@ -238,7 +238,7 @@ def test_array_formulas_give_the_scalar_values_elementwise(array_evaluation):
 # Real workbooks: one odd formula spoils only its own cells; constructs rewritten before loading
 
 from stillair.addin.cells.callpath import call  # noqa: E402
-from stillair.addin.workbook.evaluate import Model  # noqa: E402
+from stillair.addin.workbook.model import Model  # noqa: E402
 from stillair.addin.workbook.reader import BookError, read_book  # noqa: E402
 
 # Each formula that the evaluator cannot calculate, and the construct its note must name.
@@ -412,7 +412,7 @@ def test_one_model_calculates_many_times_and_only_what_is_asked(odd_book):
 def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
     """A row copied down is prepared once; every copy still reads its own row, and the result
     equals preparing each formula on its own."""
-    from stillair.addin.workbook import evaluate as headless
+    from stillair.addin.workbook import model as headless
     path = tmp_path / "rows.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("Rows")
@@ -446,7 +446,7 @@ def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_pa
     ws.write_formula("B1", "=STDEV.P(A1:A8)+MAX(A1:A8)")
     ws.write_formula("B2", "=STDEVP(A1:A8)")                  # a compatibility name
     wb.close()
-    probe = ("import sys, json; from stillair.addin.workbook.evaluate import evaluate_book; "
+    probe = ("import sys, json; from stillair.addin.workbook.model import evaluate_book; "
              f"e = evaluate_book({str(path)!r}); "
              "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__]))")
     done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)

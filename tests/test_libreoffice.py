@@ -126,7 +126,7 @@ def templates_in_libreoffice(installation, tmp_path_factory):
 
 @pytest.mark.parametrize("template", TEMPLATES, ids=[t.stem for t in TEMPLATES])
 def test_template_recalculated_in_libreoffice_matches_calc(template, templates_in_libreoffice):
-    from stillair.addin.workbook.evaluate import evaluate_book
+    from stillair.addin.workbook.model import evaluate_book
 
     calc = evaluate_book(str(template)).values
     lo = templates_in_libreoffice[template.name]["sheets"]

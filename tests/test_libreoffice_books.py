@@ -17,7 +17,7 @@ import pytest
 from stillair.addin.audit.check import audit_book, normalise_formula
 from stillair.addin.cells.callpath import call
 from stillair.addin.cli import main
-from stillair.addin.workbook.evaluate import evaluate_book
+from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.workbook.reader import read_book
 
 DATA = Path(__file__).resolve().parent / "data" / "libreoffice"

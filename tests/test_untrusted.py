@@ -18,7 +18,7 @@ import xlsxwriter
 
 from stillair.addin.workbook import safezip
 from stillair.addin.audit.check import audit_book, main
-from stillair.addin.workbook.evaluate import evaluate_book
+from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.workbook.safezip import Limits, UnsafeWorkbook, check_archive, open_package
 
 # The classic entity-expansion document ("billion laughs"): ten levels of ten references.

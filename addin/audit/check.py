@@ -1,7 +1,7 @@
 """``stillair audit``: check a finished workbook's numbers against the engine.
 
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
-headlessly from its own inputs (:class:`stillair.addin.workbook.evaluate.Model`, calculating only our
+headlessly from its own inputs (:class:`stillair.addin.workbook.model.Model`, calculating only our
 cells, what they read and what reads them) and classifies every cell that calls one of our
 functions and every cell downstream of one, built-in formulas included:
 
@@ -231,7 +231,7 @@ class AuditError(Exception):
 
 
 def _label(sheet: str, ref: str) -> str:
-    from ..workbook.evaluate import label
+    from ..workbook.status import label
     return label(sheet, ref)
 
 
@@ -256,7 +256,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     cells = Records(book)
     read_done = time.perf_counter()
 
-    from ..workbook.evaluate import Model
+    from ..workbook.model import Model
     maybe = _maybe_ours()
     seeds = {(sheet.name, ref) for sheet in book.sheets for ref, cell in sheet.formulas.items()
              if cell.formula and maybe.search(cell.formula) and calls_in(cell.formula)}

@@ -1,7 +1,7 @@
 """Calling engine functions the way a cell does: coerce, compute, catch, shape.
 
 :func:`evaluate` is the single entry point every cell function goes through, from xlwings
-(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.workbook.evaluate`) alike.  It never
+(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.workbook.model`) alike.  It never
 raises: invalid input becomes a short message naming the function, the argument, the value and
 what is allowed; a correlation used outside its range still returns the number and the note is
 handed to the active :class:`NoteRecorder` (used by ``stillair calc``).

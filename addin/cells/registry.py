@@ -3,7 +3,7 @@
 Each :class:`CellFunction` names its engine callable by attribute name (``stillair.<name>``), its
 arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
 generated from this list: the xlwings functions (:mod:`stillair.addin.xlfuncs`), the headless evaluator's
-registrations (:mod:`stillair.addin.workbook.evaluate`) and the function reference (``stillair functions``).
+registrations (:mod:`stillair.addin.workbook.formulas_bridge`) and the function reference (``stillair functions``).
 
 Argument kinds:
 

@@ -788,7 +788,7 @@ def build_template(template: Template, out_path: str | os.PathLike | None = None
     that does not calculate cleanly is never written.
     """
     from ..workbook.cachewriter import write_cached_values
-    from ..workbook.evaluate import evaluate_book
+    from ..workbook.model import evaluate_book
 
     out = Path(out_path) if out_path is not None else template.path
     out.parent.mkdir(parents=True, exist_ok=True)
