@@ -63,7 +63,7 @@ MARKER_NAME = "stillair_template"
 
 
 def default_templates_dir() -> Path:
-    from ..templates.book import TEMPLATE_DIR
+    from ..templates.spec import TEMPLATE_DIR
     return TEMPLATE_DIR
 
 
