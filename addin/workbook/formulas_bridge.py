@@ -11,6 +11,7 @@ formula's dispatcher (``dsp.nodes``, ``dsp.default_values``) is a tree of node f
 
 from __future__ import annotations
 
+import functools
 import logging
 import math
 import os
@@ -22,7 +23,7 @@ from ..cells.callpath import NoteRecorder, evaluate as evaluate_cell  # noqa: E4
 from ..cells.registry import REGISTRY  # noqa: E402
 from .reader import CellError  # noqa: E402
 
-__all__ = ["load", "register_functions", "defer_statistics", "compile_formula", "fast_runner",
+__all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
            "run_problem"]
 
@@ -110,6 +111,13 @@ def _is_error_result(entry, result: str, new_notes) -> bool:
     if entry.result != "text":
         return True
     return any(message == result for _, message in new_notes)
+
+
+@functools.lru_cache(maxsize=1)
+def builtin_names() -> frozenset:
+    """The names of the functions formulas implements (ours included once registered)."""
+    import formulas
+    return frozenset(formulas.get_functions())
 
 
 def compile_formula(text: str):

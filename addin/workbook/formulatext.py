@@ -23,6 +23,7 @@ import functools
 import re
 from dataclasses import dataclass
 
+from .formulas_bridge import builtin_names
 from .reader import col_to_index, index_to_col
 
 __all__ = ["Call", "recognise_call", "calls_in", "tokens", "normalise_formula", "Reference",
@@ -222,12 +223,6 @@ class Prepared:
     problem: str | None = None
 
 
-@functools.lru_cache(maxsize=1)
-def _builtins() -> frozenset:
-    import formulas
-    return frozenset(formulas.get_functions())
-
-
 # Functions the formulas parser itself implements (they bind names rather than take values).
 _PARSER_FUNCTIONS = {"LET", "LAMBDA"}
 
@@ -248,7 +243,7 @@ def _builtin_name(name: str) -> str | None:
     bare = _bare(name)
     if bare in _PARSER_FUNCTIONS:
         return upper
-    known = _builtins()
+    known = builtin_names()
     for candidate in (upper, bare, "_XLFN." + bare, "_XLFN._XLWS." + bare):
         if candidate in known:
             return candidate
