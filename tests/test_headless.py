@@ -12,7 +12,7 @@ import pytest
 import xlsxwriter
 
 from stillair.addin.cells.callpath import engine_callable
-from stillair.addin.workbook.formulatext import prepare
+from stillair.addin.workbook.rewrite import prepare
 from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.cells.registry import BY_NAME
 from stillair.addin.workbook.reader import index_to_col

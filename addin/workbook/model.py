@@ -30,7 +30,8 @@ from dataclasses import dataclass, field
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
                               to_formulas, xl_error)
-from .formulatext import Reference, parse_reference, prepare
+from .formulatext import Reference, parse_reference
+from .rewrite import prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
 from .status import CellResult, Evaluation, label, quote_sheet
