@@ -211,20 +211,21 @@ def test_arg_kinds_and_defaults_are_consistent():
 
 @pytest.fixture
 def throwaway_vplate_method():
-    """A correlation registered with the engine's own decorator for the test only, removed after
-    (the registry is a dict keyed by (geometry, method); methods_for caches its lists)."""
+    """A correlation registered with the engine's own decorator for the test only, removed after.
+    The registry is a dict keyed by (geometry, method); methods_for's cached lists are renewed by
+    the next registration, so a second throw-away is registered and removed at the end."""
     from stillair.correlations import CORRELATIONS, correlation, methods_for
 
+    def register(method):
+        correlation(geometry="vplate", method=method, title="test only", source="none (a test)",
+                    equation="Nu = 1")(lambda ra, pr: 1.0 + 0.0 * ra)
+
     method = "throwawaytest"
-
-    @correlation(geometry="vplate", method=method, title="test only", source="none (a test)",
-                 equation="Nu = 1")
-    def _throwaway(ra, pr):
-        return 1.0 + 0.0 * ra
-
+    register(method)
     yield method
     del CORRELATIONS[("vplate", method)]
-    methods_for.__globals__["_METHODS_CACHE"].clear()
+    register("throwawayrenewal")
+    del CORRELATIONS[("vplate", "throwawayrenewal")]
     assert method not in methods_for("vplate")
 
 
