@@ -36,11 +36,11 @@ from xlsxwriter.utility import xl_rowcol_to_cell
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
 
 from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
-from .spec import (_CAUTION, _RULE, _SAGE, _SAND, _WHITE, BOUNDARY_FORMATS, BRANCH_FORMATS, CHART_FONT_SIZE,
-                   FAILED, FIXED_DATE, FONT_SIZE, INK, MARKER_NAME, SAND_EDGE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS,
-                   SLATE, UNIT_FORMATS, Template, TemplateBuildError, Valid)
+from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
+                   MARKER_NAME, RULE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
+                   TemplateBuildError, Valid, significant_format)
 
-__all__ = ["TemplateBook", "limit_check", "significant_format", "source_of"]
+__all__ = ["TemplateBook", "limit_check", "source_of"]
 
 # Columns of the row layout: where the label, value, unit and note of a row go.
 _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": (0, 1, 2, 3)}
@@ -78,44 +78,13 @@ class TemplateBook:
         self.workbook.set_custom_property(MARKER_NAME, template.marker)
         self.workbook.define_name(MARKER_NAME, f'="{template.marker}"')
         self.names: dict[str, str] = {}
-        self.formats = self._formats()
+        self._format_cache: dict[tuple, Any] = {}
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
             self._add_sheet(name)
         self._signoff()
 
     # ---------------------------------------------------------------- formats and layout
-
-    def _formats(self) -> dict[str, Any]:
-        self._format_cache: dict[tuple, Any] = {}
-        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": INK, "valign": "top"}
-        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": SAND_EDGE, "bold": True,
-                       "locked": False}
-        return {
-            "title": {**base, "bold": True, "font_size": 15, "font_color": SLATE},
-            "subtitle": {**base, "italic": True, "font_color": SLATE, "text_wrap": True},
-            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": SLATE},
-            "label": {**base, "text_wrap": True},
-            "unit": {**base, "font_color": SLATE},
-            "note": {**base, "italic": True, "font_color": "#4A5661", "text_wrap": True},
-            "input": {**input_style, "num_format": "General"},
-            "input_text": input_style,
-            "signoff": {**base, "border": 1, "border_color": SLATE, "locked": False, "text_wrap": True},
-            "value": {**base, "bottom": 1, "bottom_color": _RULE},
-            "text_value": {**base, "bottom": 1, "bottom_color": _RULE, "text_wrap": True},
-            "text_run": {**base, "bottom": 1, "bottom_color": _RULE},
-            "failed": {"bold": True, "font_color": _WHITE, "bg_color": INK},
-            "result": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE},
-            "result_text": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE,
-                            "text_wrap": True},
-            "step": {**base, "font_color": SLATE, "align": "center"},
-            "header": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True},
-            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True,
-                              "align": "right"},
-            "cell": {**base},
-            "paragraph": {**base, "text_wrap": True},
-            "caution": {**base, "text_wrap": True, "bg_color": _CAUTION, "bold": True},
-        }
 
     def fmt(self, style: str, num_format: str | None = None, at: tuple[Any, int, int] | None = None):
         """The workbook format of a named style, with a number format when given.
@@ -127,7 +96,7 @@ class TemplateBook:
             num_format = significant_format(value)
         key = (style, num_format)
         if key not in self._format_cache:
-            props = dict(self.formats[style])
+            props = dict(CELL_STYLES[style])
             if num_format is not None:
                 props["num_format"] = num_format
             self._format_cache[key] = self.workbook.add_format(props)
@@ -448,7 +417,7 @@ class TemplateBook:
         chart.set_title({"name": title, "name_font": {"size": 11, "color": SLATE, "bold": True}})
         chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
         chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
-                          "major_gridlines": {"visible": True, "line": {"color": _RULE}}, **(y_axis or {})})
+                          "major_gridlines": {"visible": True, "line": {"color": RULE}}, **(y_axis or {})})
         chart.set_legend({"position": "bottom", "font": font})
         chart.set_size({"width": CHART_PX[0], "height": CHART_PX[1]})
         if not state.chart_run:
@@ -541,16 +510,6 @@ def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEE
     """Formula text of the check "``value`` at most ``limit``": ``within`` or ``beyond``, and
     ``failed`` (a formula term; FAILED unless given) where ``value`` did not calculate."""
     return f'=IF(ISNUMBER({value}), IF({value}<={limit}, "{within}", "{beyond}"), {failed})'
-
-
-def significant_format(value, figures: int = 3) -> str:
-    """A fixed-decimals number format showing ``value`` to ``figures`` significant figures
-    (three decimals when the value is unknown, zero or not a number)."""
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or not math.isfinite(value):
-        return "0.000"
-    decimals = figures - 1 - math.floor(math.log10(abs(value)))
-    return "0" if decimals <= 0 else "0." + "0" * min(decimals, 9)
-
 
 
 def _clip(text: str, limit: int) -> str:

@@ -5,13 +5,14 @@ by unit) every template shares."""
 from __future__ import annotations
 
 import datetime as _dt
+import math
 from dataclasses import dataclass
 from importlib import import_module
 from pathlib import Path
 from typing import Callable
 
 __all__ = ["Template", "Valid", "TemplateBuildError", "TEMPLATE_DIR", "MARKER_NAME", "FAILED",
-           "gas_temperature", "gas_pressure", "altitude"]
+           "CELL_STYLES", "significant_format", "gas_temperature", "gas_pressure", "altitude"]
 
 # The workbooks ship as the package stillair.templates (the top-level templates/ folder).
 TEMPLATE_DIR = Path(import_module("stillair.templates").__file__).resolve().parent
@@ -27,12 +28,42 @@ SLATE = "#3E5C76"
 _SAND = "#FBEFD5"
 SAND_EDGE = "#C98B2B"
 _SAGE = "#E3EEDF"
-_RULE = "#B8C4CE"
+RULE = "#B8C4CE"
 _CAUTION = "#F6DCD5"
 _WHITE = "#FFFFFF"
 
 FONT_SIZE = 10            # every cell's font; with the print scale kept >= 0.8 it prints >= 8 pt
 CHART_FONT_SIZE = 10
+
+# The named cell styles the sheets are written in (XlsxWriter format properties).
+_BASE = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": INK, "valign": "top"}
+_INPUT_STYLE = {**_BASE, "bg_color": _SAND, "border": 1, "border_color": SAND_EDGE, "bold": True,
+               "locked": False}
+CELL_STYLES = {
+    "title": {**_BASE, "bold": True, "font_size": 15, "font_color": SLATE},
+    "subtitle": {**_BASE, "italic": True, "font_color": SLATE, "text_wrap": True},
+    "section": {**_BASE, "bold": True, "font_color": _WHITE, "bg_color": SLATE},
+    "label": {**_BASE, "text_wrap": True},
+    "unit": {**_BASE, "font_color": SLATE},
+    "note": {**_BASE, "italic": True, "font_color": "#4A5661", "text_wrap": True},
+    "input": {**_INPUT_STYLE, "num_format": "General"},
+    "input_text": _INPUT_STYLE,
+    "signoff": {**_BASE, "border": 1, "border_color": SLATE, "locked": False, "text_wrap": True},
+    "value": {**_BASE, "bottom": 1, "bottom_color": RULE},
+    "text_value": {**_BASE, "bottom": 1, "bottom_color": RULE, "text_wrap": True},
+    "text_run": {**_BASE, "bottom": 1, "bottom_color": RULE},
+    "failed": {"bold": True, "font_color": _WHITE, "bg_color": INK},
+    "result": {**_BASE, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": RULE},
+    "result_text": {**_BASE, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": RULE,
+                    "text_wrap": True},
+    "step": {**_BASE, "font_color": SLATE, "align": "center"},
+    "header": {**_BASE, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True},
+    "header_number": {**_BASE, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True,
+                      "align": "right"},
+    "cell": {**_BASE},
+    "paragraph": {**_BASE, "text_wrap": True},
+    "caution": {**_BASE, "text_wrap": True, "bg_color": _CAUTION, "bold": True},
+}
 
 # The text a check shows when a quantity it needs did not calculate.
 FAILED = "CALC FAILED"
@@ -177,3 +208,12 @@ OUTDOOR_AIR = Valid(-60.0, 60.0, "outdoor shade air temperatures lie between abo
                     "(common practice)")
 LIMIT_TEMPERATURE = Valid(ABSOLUTE_ZERO, 800.0, "a temperature is above absolute zero (-273.15 °C) and this "
                           "sheet's air tables end at 800 °C", low_open=True)
+
+
+def significant_format(value, figures: int = 3) -> str:
+    """A fixed-decimals number format showing ``value`` to ``figures`` significant figures
+    (three decimals when the value is unknown, zero or not a number)."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or not math.isfinite(value):
+        return "0.000"
+    decimals = figures - 1 - math.floor(math.log10(abs(value)))
+    return "0" if decimals <= 0 else "0." + "0" * min(decimals, 9)
