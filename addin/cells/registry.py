@@ -21,6 +21,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
+from .network import net_band, net_check, net_heat, net_table, net_temp
+
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
 _REQUIRED = object()
@@ -393,48 +395,26 @@ _entries += [
 # stillair.addin.cells.callpath), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
 
 
-def _net_table(solve, kwargs):
-    from .network import result_table
-    return result_table(solve(**kwargs), kwargs["branches"])
-
-
-def _net_temp(solve, kwargs):
-    from .network import pick_temperature
-    node = kwargs.pop("node")
-    return pick_temperature(solve(**kwargs), node)
-
-
-def _net_heat(solve, kwargs):
-    from .network import pick_heat
-    branch = kwargs.pop("branch")
-    return pick_heat(solve(**kwargs), branch)
-
-
-def _net_check(solve, kwargs):
-    from .network import check_text
-    return check_text(solve(**kwargs))
-
-
 _NET = (BRANCHES, BOUNDARIES)
 _entries += [
     CellFunction("NET_SOLVE", "solve_network", _NET + (NET_GAS, P),
                  "Solves the thermal network; returns a table (spills) of node temperatures in °C "
                  "and branch heat flows in W with h, R, Ra, Nu, method and notes.",
-                 CATEGORIES["network"], result="table", invoke=_net_table),
+                 CATEGORIES["network"], result="table", invoke=net_table),
     CellFunction("NET_TEMP", "solve_network",
                  _NET + (Arg("node", "Name of the node whose temperature is wanted.", kind="text"),
                          NET_GAS, P),
                  "Temperature in °C of one node of the solved thermal network.",
-                 CATEGORIES["network"], unit="°C", invoke=_net_temp),
+                 CATEGORIES["network"], unit="°C", invoke=net_temp),
     CellFunction("NET_HEAT", "solve_network",
                  _NET + (Arg("branch", "Name of the branch whose heat flow is wanted.", kind="text"),
                          NET_GAS, P),
                  "Heat flow in W through one branch of the solved network, positive from -> to.",
-                 CATEGORIES["network"], unit="W", invoke=_net_heat),
+                 CATEGORIES["network"], unit="W", invoke=net_heat),
     CellFunction("NET_CHECK", "solve_network", _NET + (NET_GAS, P),
                  'Check of the solved network: "OK" with iterations and energy residual, or the '
                  "validity notes of its branches.", CATEGORIES["network"], result="text",
-                 invoke=_net_check),
+                 invoke=net_check),
     CellFunction("STILLAIR_VERSION", "__version__", (),
                  "Version of the stillair engine, for traceability of a calculation.",
                  CATEGORIES["info"], result="text", call=False),
@@ -506,12 +486,6 @@ def _nu_spread_row(nu_spread, kwargs):
     return [[spread.low, spread.high, spread.count, spread.text]]
 
 
-def _net_band(solve, kwargs):
-    from .network import pick_band
-    node = kwargs.pop("node")
-    return pick_band(solve(band=True, **kwargs), node)
-
-
 _entries += [
     CellFunction(
         "NU_SPREAD", "nu_spread",
@@ -525,7 +499,7 @@ _entries += [
         _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
         "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
         "in-range correlations: one row, low and high. The spread of published correlations, not a "
-        "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band),
+        "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=net_band),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)
