@@ -50,6 +50,8 @@ SAMPLES.update({
     "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
     "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
     "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
+    "STACK_FLOW": (40.0, 25.0, 0.01, 0.012, 1.2, None, 3.8),
+    "AIRFLOW_FOR": (300.0, 15.0, 30.0, 95000.0),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
