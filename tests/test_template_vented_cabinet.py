@@ -13,9 +13,9 @@ import pytest
 from fluids.filters import square_edge_grill, square_edge_screen
 
 import stillair
-from stillair.addin.templates import sealed_cabinet as sealed
 from stillair.addin.templates import vented_cabinet as vented
 from template_support import assert_direction, evaluate_template, input_names, named
+from test_template_sealed_cabinet import DIRECTIONS as SEALED_DIRECTIONS, engine_tables
 
 NAME = "vented-cabinet"
 INPUTS = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "emissivity", "dissipation",
@@ -24,22 +24,14 @@ INPUTS = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "e
 
 
 def _engine_case(v, vent=True, **options):
-    """The same cabinet built directly from the engine's Python API."""
-    side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
-    top_area = v["cab_width"] * v["cab_depth"]
-    branches = sealed.branch_rows(
-        height=v["cab_height"], side_area=side_area, top_area=top_area,
-        top_length=top_area / (2 * (v["cab_width"] + v["cab_depth"])), wall_thickness=v["wall_thickness"],
-        wall_k=v["wall_k"], emissivity=v["emissivity"], method=v["vplate_method"])
+    """The same cabinet built directly from the engine's Python API: the sealed cabinet's rows
+    (tests/test_template_sealed_cabinet.py) with the vent branch."""
+    branches, bounds, pressure = engine_tables(v)
     if vent:
         branches.append(vented.vent_row(inlet_area=v["inlet_area"], outlet_area=v["outlet_area"],
                                         height=v["vent_height"], discharge=v["discharge"],
                                         extra_loss=v["filter_loss"]))
-    bounds = sealed.boundary_rows(
-        dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
-        sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
-    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]),
-                                  **options)
+    return stillair.solve_network(branches, bounds, "air", pressure=pressure, **options)
 
 
 def _inputs(evaluation):
@@ -126,20 +118,10 @@ def test_notes_print_the_loss_coefficients_of_the_fluids_library():
     assert named(evaluate_template(NAME), "filter_loss") == pytest.approx(square_edge_screen(0.5))
 
 
-# input -> (new value, result, direction, why)
+# input -> (new value, result, direction, why): the sealed cabinet's, for the inputs the two share
 DIRECTIONS = {
-    "cab_height": (2.0, "res_t_air", -1, "a larger cabinet has more area to lose heat"),
-    "cab_width": (1.0, "res_t_air", -1, "more area"),
-    "cab_depth": (0.9, "res_t_air", -1, "more area"),
-    "wall_thickness": (0.02, "res_t_air", +1, "a thicker wall adds conduction resistance"),
-    "wall_k": (5.0, "res_t_air", +1, "a less conductive wall adds resistance"),
-    "emissivity": (0.3, "res_t_air", +1, "a low-emissivity finish radiates less (sun absorbed separately)"),
+    **SEALED_DIRECTIONS,
     "dissipation": (600.0, "res_t_air", +1, "more heat in"),
-    "absorptance": (0.8, "res_t_air", +1, "more sun absorbed"),
-    "sun_top": (1000.0, "res_t_air", +1, "more sun on the top"),
-    "sun_sides": (300.0, "res_t_air", +1, "more sun on the sides"),
-    "ambient_t": (40.0, "res_t_air", +1, "warmer surroundings"),
-    "sky_t": (25.0, "res_t_air", +1, "a warmer sky takes less radiation from the top"),
     "altitude": (2500.0, "res_t_air", +1, "thinner air convects less and carries less heat per volume"),
     "max_internal_t": (60.0, "res_fan_flow", -1, "a higher limit lets a smaller airflow warm more"),
     "inlet_area": (0.04, "res_t_air", -1, "a larger low opening passes more air"),

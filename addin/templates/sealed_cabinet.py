@@ -168,6 +168,18 @@ def coefficient_steps(b) -> None:
            "equals rows above: convection + radiation of the sides")
 
 
+def limit_results(b) -> None:
+    """The internal air against the limit, with the correlation spread and its limit check."""
+    b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
+    b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
+    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
+    b.result("res_check_high", "Limit check at the top of the spread",
+             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+
+
 def correlation_notes(b) -> None:
     """The Notes section citing the walls' correlations and the radiation law."""
     b.section("Notes", "Correlations used (sources from the stillair registry)")
@@ -211,14 +223,7 @@ def build(b) -> None:
     # ------------------------------------------------------------------ Results
     b.section("Results", "Cabinet temperatures")
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C")
-    b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
-    b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
-    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
-             "spread of the published correlations (see Notes)")
-    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
-    b.result("res_check_high", "Limit check at the top of the spread",
-             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+    limit_results(b)
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")

@@ -10,7 +10,6 @@ cabinet sealed, and the fan airflow that would hold the limit instead.
 
 from __future__ import annotations
 
-from .book import limit_check
 from .spec import Template, Valid
 from . import sealed_cabinet as sealed
 
@@ -101,15 +100,8 @@ def build(b) -> None:
     # ------------------------------------------------------------------ Results
     b.section("Results", "Cabinet temperatures")
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C", "the air taken as well mixed")
+    sealed.limit_results(b)
     b.result("res_t_outlet", "Outlet air temperature", "=t_air", "°C", "well mixed: the internal air leaves")
-    b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
-    b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
-    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
-             "spread of the published correlations (see Notes)")
-    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
-    b.result("res_check_high", "Limit check at the top of the spread",
-             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
     b.result("res_t_sealed", "Internal air with the openings closed (sealed)", "=t_air_sealed", "°C")
     b.result("res_vent_gain", "Cooling gained by the openings (sealed - vented)", "=t_air_sealed-t_air", "K")
     b.section("Results", "Airflow")
