@@ -180,6 +180,15 @@ def limit_results(b) -> None:
              limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
 
 
+def validity_results(b, pair: str, fluid: str, picks: dict) -> None:
+    """The network check and the correlations the outer faces used."""
+    b.section("Results", "Validity")
+    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
+    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
+             text=True)
+    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+
+
 def correlation_notes(b) -> None:
     """The Notes section citing the walls' correlations and the radiation law."""
     b.section("Notes", "Correlations used (sources from the stillair registry)")
@@ -235,11 +244,7 @@ def build(b) -> None:
     b.result("res_rad_ambient", "Radiation from the sides to ambient", "=q_rad_sides", "W")
     b.result("res_rad_sky", "Radiation from the top to the sky", "=q_rad_top", "W")
     b.result("res_balance", "Energy balance residual (input - loss)", "=balance", "W", number_format="0.0E+00")
-    b.section("Results", "Validity")
-    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
-    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
-             text=True)
-    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+    validity_results(b, pair, fluid, picks)
     b.caution("Results", "Caution: mean internal air only - hot spots and components run hotter. Check against "
                          "the equipment and enclosure makers' ratings, applicable standards and licensed practice "
                          "(see Notes).")

@@ -119,11 +119,7 @@ def build(b) -> None:
     b.section("Results", "A fan instead")
     b.result("res_fan_flow", "Fan airflow that would hold the limit", '=IF(ISNUMBER(fan_flow), fan_flow*3600, fan_flow)',
              "m³/h", "all heat input by the air: on the safe side")
-    b.section("Results", "Validity")
-    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
-    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
-             text=True)
-    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+    sealed.validity_results(b, pair, fluid, picks)
     b.caution("Results", "Caution: mean internal air only - the air near the top, hot spots and components run "
                          "hotter, and wind, dust-laden filters and blocked openings change the airflow. Check against "
                          "the equipment and enclosure makers' ratings, applicable standards and licensed practice "
