@@ -34,7 +34,7 @@ import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
-from stillair.network.kinds import AdvectionKind
+from stillair.network.advection import AdvectionKind
 
 from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
