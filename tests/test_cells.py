@@ -374,6 +374,19 @@ def test_net_solve_returns_a_padded_table():
     assert rows["skin"][4] == ""  # h of a bare resistance is not a number: blank, not nan
 
 
+def test_net_airflow_reads_the_vent_branch_of_the_solved_network():
+    needs_engine("NET_SOLVE")
+    branches = [["vent", "air", "outside", "vent", 0.01, 0.01, 0.8, None, None, None],
+                ["walls", "air", "outside", "film", 4.0, 2.0, None, None, None, None]]
+    boundaries = [["air", "Q", 150.0], ["outside", "T", 25.0]]
+    record = stillair.solve_network(branches, boundaries).branches["vent"]
+    assert call("NET_AIRFLOW", branches, boundaries, "vent") == pytest.approx(record.volume_flow, rel=1e-12)
+    assert call("NET_AIRFLOW", branches, boundaries, "walls") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: 'vent', got 'walls'")
+    assert call("NET_AIRFLOW", BRANCHES, BOUNDARIES, "wall") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: the network has none, got 'wall'")
+
+
 def test_network_input_errors_name_the_cell_function():
     needs_engine("NET_SOLVE")
     message = call("NET_TEMP", BRANCHES, BOUNDARIES, "nowhere")

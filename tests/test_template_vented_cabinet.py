@@ -49,7 +49,8 @@ def test_results_equal_a_direct_engine_network(sets):
     pairs = {"t_air": result.temperatures["air_in"], "t_side_out": result.temperatures["side_out"],
              "t_top_out": result.temperatures["top_out"], "q_air": result.heat["vent"],
              "q_conv_sides": result.heat["conv_side_out"], "q_rad_top": result.heat["rad_top"],
-             "mass_flow": vent.mass_flow, "volume_flow": vent.volume_flow,
+             "mass_flow": vent.mass_flow, "volume_flow_check": vent.volume_flow, "airflow": vent.volume_flow,
+             "res_mass_flow": vent.mass_flow,
              "t_air_sealed": _engine_case(values, vent=False).temperatures["air_in"]}
     for name, expected in pairs.items():
         assert named(evaluation, name) == pytest.approx(expected, rel=1e-9), name

@@ -21,7 +21,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from .network import net_band, net_check, net_heat, net_table, net_temp
+from .network import net_airflow, net_band, net_check, net_heat, net_table, net_temp
 
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
@@ -530,6 +530,11 @@ _entries += [
                  "Volume flow in m³/s of air at t_air that carries the heat away with the rise: "
                  "V = Q / (rho cp dT), rho at t_air, cp at the mean air temperature.",
                  CATEGORIES["ventilation"], unit="m³/s"),
+    CellFunction("NET_AIRFLOW", "solve_network",
+                 _NET + (Arg("branch", "Name of a vent or airflow branch.", kind="text"), NET_GAS, P),
+                 "Volume flow in m³/s of outside air (at the to node's temperature) through a vent or "
+                 "airflow branch of the solved thermal network.", CATEGORIES["ventilation"], unit="m³/s",
+                 invoke=net_airflow),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

@@ -64,6 +64,8 @@ def build(b) -> None:
     b.step("q_walls", "Heat lost through the walls (sides + top)", "=q_conv_sides+q_rad_sides+q_conv_top+q_rad_top",
            "W")
     b.step("q_air", "Heat carried out by the air (vent branch)", f'=NET_HEAT({pair}, "vent", {fluid})', "W")
+    b.step("airflow", "Volume flow of ambient air drawn in (vent branch)", f'=NET_AIRFLOW({pair}, "vent", {fluid})',
+           "m³/s")
     b.step("heat_out", "Total heat loss (walls + air)", "=q_walls+q_air", "W")
     b.step("balance", "Energy balance: heat input - heat loss", "=heat_in-heat_out", "W", "should be ~0",
            number_format="0.0E+00")
@@ -79,7 +81,8 @@ def build(b) -> None:
            "(1/discharge^2+filter_loss)/(rho_in*inlet_area^2)+1/(discharge^2*rho_out*outlet_area^2))",
            "1/(kg·m)", "air entering has the ambient density, air leaving the internal")
     b.step("mass_flow", "Mass flow of air, m = (2 |dp| / S)^(1/2)", "=SQRT(2*ABS(stack_dp)/losses)", "kg/s")
-    b.step("volume_flow", "Volume flow of ambient air drawn in", "=mass_flow/rho_out", "m³/s")
+    b.step("volume_flow_check", "Check: volume flow m / rho_ambient", "=mass_flow/rho_out", "m³/s",
+           "equals the vent branch's airflow above")
     b.step("cp_air", "Specific heat of air at the mean temperature", "=AIR_CP((t_air+ambient_t)/2, air_pressure)",
            "J/(kg·K)")
     b.step("q_air_check", "Check: m cp (T_air - T_ambient)", "=mass_flow*cp_air*(t_air-ambient_t)", "W",
@@ -105,8 +108,8 @@ def build(b) -> None:
     b.result("res_t_sealed", "Internal air with the openings closed (sealed)", "=t_air_sealed", "°C")
     b.result("res_vent_gain", "Cooling gained by the openings (sealed - vented)", "=t_air_sealed-t_air", "K")
     b.section("Results", "Airflow")
-    b.result("res_mass_flow", "Mass flow of air through the openings", "=mass_flow", "kg/s")
-    b.result("res_volume_flow", "Volume flow of ambient air drawn in", "=volume_flow*3600", "m³/h")
+    b.result("res_mass_flow", "Mass flow of air through the openings", "=airflow*rho_out", "kg/s")
+    b.result("res_volume_flow", "Volume flow of ambient air drawn in", "=airflow*3600", "m³/h")
     b.result("res_direction", "Direction of the flow", '=IF(stack_dp>=0,"upward: in low, out high",'
              '"DOWNWARD: internal air colder than ambient")', text=True, fails=("DOWNWARD",))
     b.section("Results", "Heat balance")
