@@ -10,6 +10,8 @@ cabinet sealed, and the fan airflow that would hold the limit instead.
 
 from __future__ import annotations
 
+from stillair.constants import STANDARD_GRAVITY
+
 from .spec import Template, Valid
 from . import sealed_cabinet as sealed
 
@@ -71,7 +73,8 @@ def build(b) -> None:
            number_format="0.0E+00")
 
     b.section("Calculation", "Airflow through the openings: the stack balance from the solved temperatures")
-    b.step("gravity", "Standard acceleration of gravity", "=9.80665", "m/s²", "CGPM 1901; scipy.constants.g")
+    b.step("gravity", "Standard acceleration of gravity", f"={STANDARD_GRAVITY!r}", "m/s²",
+           "g_n, exact: 3rd CGPM (1901), SI Brochure 9th ed.")
     b.step("rho_in", "Density of the internal air", "=AIR_DENSITY(t_air, air_pressure)", "kg/m³")
     b.step("rho_out", "Density of the ambient air", "=AIR_DENSITY(ambient_t, air_pressure)", "kg/m³")
     b.step("stack_dp", "Stack pressure (rho_out - rho_in) g H", "=(rho_out-rho_in)*gravity*vent_height", "Pa",
