@@ -150,10 +150,11 @@ def build(b) -> None:
                 "as in BS 5925:1991, clauses 9 and 12, and ASHRAE Handbook - Fundamentals, chapter Ventilation "
                 "and Infiltration (both from memory); for equal openings and small temperature differences it "
                 "is their Q = Cd A* (2 g H dT / T)^(1/2), 1/A*² = 1/A_low² + 1/A_high².")
-    b.paragraph("Discharge coefficient 0.61: the value taken for sharp-edged openings (BS 5925:1991, from "
-                "memory); it is Kirchhoff's free-streamline contraction of a slot, pi/(pi+2) = 0.611, to two "
-                "digits. Rounded or deep openings pass more (up to about 0.9); at low velocities (small openings, "
-                "small temperature differences) the coefficient falls. Unverified beyond these statements.")
+    b.paragraph("Discharge coefficient 0.61 (UNVERIFIED, from memory): the value the ventilation codes take for "
+                "sharp-edged openings (BS 5925:1991); Kirchhoff's free-streamline contraction of a slot, "
+                "pi/(pi+2) = 0.611, gives the same two digits. Rounded or deep openings pass more; at low "
+                "velocities (small openings, small temperature differences) the coefficient falls. Use a "
+                "maker's value for a louvre or grille where there is one.")
     b.section("Notes", "Loss coefficients of screens and grilles (on the velocity through the opening)")
     fractions = (0.3, 0.5, 0.7)
 
