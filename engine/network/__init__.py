@@ -38,7 +38,6 @@ from collections import OrderedDict
 from collections.abc import Sequence
 from types import MappingProxyType
 
-
 from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError
 from .band import solve_band
