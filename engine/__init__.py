@@ -17,7 +17,8 @@ Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properti
 cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
 :mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
 :mod:`stillair.correlations` (the correlation registry and :func:`nusselt`), :mod:`stillair.humid`
-(humid air: saturation, humidity ratio, dew point, surface humidity).
+(humid air: saturation, humidity ratio, dew point, surface humidity), :mod:`stillair.insulation`
+(the insulation thickness for a surface temperature).
 """
 
 from .validity import *  # noqa: F401,F403
@@ -32,6 +33,7 @@ from .convection import *  # noqa: F401,F403
 from .channel import *  # noqa: F401,F403
 from .network import *  # noqa: F401,F403
 from .humid import *  # noqa: F401,F403
+from .insulation import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
 
@@ -82,4 +84,6 @@ __all__ = [
     # the network turned round: the heat input that brings a node to a temperature
     "heat_for_temperature",
     "HeatForTemperature",
+    # insulation turned round: the thickness for an outer surface temperature
+    "insulation_thickness",
 ]

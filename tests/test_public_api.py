@@ -19,6 +19,7 @@ DOCUMENTED_MODULES = ("stillair.gases", "stillair.atmosphere", "stillair.groups"
                       "stillair.cavity", "stillair.correlations", "stillair.convection",
                       "stillair.channel", "stillair.radiation", "stillair.network",
                       "stillair.humid",
+                      "stillair.insulation",
                       "stillair.network.inverse")
 ENGINE_MODULES = ("validity", "correlations", "external", "cavity", "gases", "atmosphere",
                   "groups", "radiation", "convection", "network")
