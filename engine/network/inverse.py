@@ -168,9 +168,9 @@ def heat_for_temperature(branches: Sequence[Sequence[object]], boundaries: Seque
     # the node's own Q rows are replaced by one row whose value the search sets
     others = tuple(b for b in given if not (b.kind == "Q" and b.node == node))
     start_heat = sum(b.value for b in given if b.kind == "Q" and b.node == node)
-    options = dict(gas=gas_key(gas), pressure=pressure, property_temperature=property_temperature,
-                   ideal_expansion=bool(ideal_expansion))
-    net = compile_network(parsed_branches, others + (Boundary(0, node, "Q", 0.0),), **options)
+    net = compile_network(parsed_branches, others + (Boundary(0, node, "Q", 0.0),), gas=gas_key(gas),
+                          pressure=pressure, property_temperature=property_temperature,
+                          ideal_expansion=bool(ideal_expansion))
     search = _Search(net, node, at, target)
     heat = search.find(start_heat)
     solution = search.final(heat)
