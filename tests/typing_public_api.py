@@ -37,3 +37,12 @@ nu = stillair.nu_vplate(1e8, 0.71)
 network = stillair.solve_network([["wall", "in", "out", "conduction", 0.1, 0.5, 2.0, None, None, None]],
                                  [["in", "T", 20.0], ["out", "T", 0.0]])
 heat: float = network.heat["wall"]
+
+dew: float | np.ndarray = stillair.dew_point(20.0, 0.5)
+humid = (stillair.saturation_pressure(-5.0, over="ice"), stillair.vapour_pressure(20.0, 0.5),
+         stillair.humidity_ratio(20.0, 0.5, 90000.0), stillair.surface_rh(20.0, 0.5, 12.0),
+         stillair.temperature_factor(15.0, 20.0, 0.0))
+answer: stillair.HeatForTemperature = stillair.heat_for_temperature(
+    [["wall", "box", "room", "resistance", 0.5]], [["room", "T", 20.0]], "box", 45.0)
+allowed: float = answer.heat
+insulation: float | np.ndarray = stillair.insulation_thickness(6.0, 25.0, 20.0, 0.035, 0.9, "hcyl", 0.06)
