@@ -50,7 +50,9 @@ def _convection_formula(surface_t: str, diameter: str) -> str:
 
 
 def _thickness_formula(surface_t: str) -> str:
-    """INSULATION_THICKNESS of the chosen geometry for an outer surface at ``surface_t``."""
+    """INSULATION_THICKNESS of the chosen geometry for an outer surface at ``surface_t`` (0 where that is
+    the bare surface's own temperature: no IF, whose unused branch a headless evaluation would
+    still calculate)."""
     return (f'INSULATION_THICKNESS(hot_t, ambient_t, {surface_t}, ins_k, eps_jacket, kind, bare_length, '
             f'IF(kind="hplate", facing, ""), surroundings_t)')
 
@@ -138,15 +140,13 @@ def build(b) -> None:
     b.step("t_dry_min", "Lowest outer surface temperature kept dry (dew point + margin)", "=t_dew_ambient+dew_margin",
            "°C")
     b.step("x_dry", "Insulation keeping the outer surface at dew point + margin",
-           f"=IF(hot_t>=t_dry_min, 0, {_thickness_formula('t_dry_min')})", "m",
-           "0 when the bare surface is warm enough")
+           f"={_thickness_formula('MAX(hot_t, t_dry_min)')}", "m", "0 when the bare surface is warm enough")
     b.step("q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face",
            "=IF(x_dry=0, -q_bare/unit_size, IF(kind=\"hcyl\", 2*PI()*ins_k*(t_dry_min-hot_t)/LN((pipe_od+2*x_dry)/"
            "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", "W/m or W/m²",
            "through the insulation; negative: a loss")
     b.step("x_touch", "Insulation keeping the outer surface at the touch limit",
-           f"=IF(hot_t<=touch_limit, 0, {_thickness_formula('touch_limit')})", "m",
-           "0 when the bare surface is within the limit")
+           f"={_thickness_formula('MIN(hot_t, touch_limit)')}", "m", "0 when the bare surface is within the limit")
 
     sheet = "Tables"
     b.section(sheet, "Insulated cases: geometry of each thickness")
