@@ -310,7 +310,7 @@ def build(b) -> None:
                 "given off by materials or a desiccant taking it up, are not modelled.")
     b.paragraph("Condensation check: the coldest inner wall (the mean temperature of each inner face; the top, "
                 "seeing the sky, is usually the coldest) against the dew point of the air sealed in: "
-                "CONDENSATION at or below it, MARGIN SHORT above it by less than the chosen margin, OK beyond. "
+                "condensation at or below it, a short margin above it by less than the chosen margin, OK beyond. "
                 "Heater: a heater in the internal air (a convective anti-condensation heater); NET_HEAT_FOR "
                 "finds the internal heat at which each inner face is at dew point + margin, the larger of the "
                 "two holds both, and the heater supplies what the night load does not.")
