@@ -165,7 +165,7 @@ def test_dew_point_against_coolprop_humid_air(t, rh):
     """DEW_POINT against CoolProp.HumidAirProp.HAPropsSI("D", ...) (ASHRAE RP-1485 humid air, with
     the enhancement factor): within 0.02 K (measured 0.002 K here, tests/test_humid.py)."""
     evaluation = evaluate_template(NAME, t_indoor=t, rh_indoor=rh)
-    dew = named(evaluation, "dew_point")
+    dew = named(evaluation, "indoor_dew_point")
     reference = HAPropsSI("D", "T", t + 273.15, "P", 101325.0, "R", rh / 100) - 273.15
     assert abs(dew - reference) <= 0.02
     assert dew == stillair.dew_point(t, rh / 100, named(evaluation, "pressure"))
@@ -221,7 +221,7 @@ DIRECTIONS = [
     ("t_indoor", 24, "u_standard", 0, "the standard fixes its own conditions"),
     ("t_outdoor", -15, "indoor_face_t", -1, "colder outside, colder indoor face"),
     ("t_outdoor", -15, "heat_loss", +1, "larger indoor-outdoor difference"),
-    ("rh_indoor", 70, "dew_point", +1, "moister room air"),
+    ("rh_indoor", 70, "indoor_dew_point", +1, "moister room air"),
     ("rh_indoor", 70, "u_actual", 0, "humidity does not enter the heat balance"),
     ("h_outdoor", 35, "u_actual", +1, "more wind, larger outdoor film"),
     ("h_outdoor", 35, "u_standard", 0, "EN 673 fixes h_e"),

@@ -254,7 +254,7 @@ def build(b: TemplateBook) -> None:
     b.result("indoor_face_low", "Indoor face, correlation spread: lowest", "=t_indoor_face_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("indoor_face_high", "Indoor face, correlation spread: highest", "=t_indoor_face_high", "°C")
-    b.result("dew_point", "Indoor dew point", "=t_dew", "°C", "DEW_POINT (Hyland-Wexler saturation)")
+    b.result("indoor_dew_point", "Indoor dew point", "=t_dew", "°C", "DEW_POINT (Hyland-Wexler saturation)")
     b.result("dew_margin_result", "Margin above the dew point", "=dew_margin", "K")
     b.result("face_rh_result", "Relative humidity at the indoor face", "=face_rh", "-",
              "0.8 or more for long: mould likely (ISO 13788)")
