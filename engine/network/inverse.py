@@ -135,7 +135,8 @@ def heat_for_temperature(branches: Sequence[Sequence[object]], boundaries: Seque
     temperature difference), so the root is unique.  Newton steps on T_at(Q), with the slope
     dT_at/dQ = (J^-1)[at, node] from the solver's Jacobian J at each solution, give a bracket;
     ``scipy.optimize.brentq`` (Brent 1973) closes it to a heat whose solution is within 1e-8 K
-    of the target, checked on a final ordinary solve.
+    of the target; the answer stands only if a final ordinary solve (from the solver's own
+    start) puts the node within 1e-7 K of it.
 
     References
     ----------
