@@ -29,10 +29,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import optimize
-from scipy.constants import zero_Celsius
 
 from ._typing import ArrayLike, FloatOrArray
+from .constants import ZERO_CELSIUS
 from .gases import GAS_PRESSURE_RANGE
 from .groups import DEFAULT_PRESSURE
 from .validity import (ABSOLUTE_ZERO_C, InputError, Range, format_value, require_between, require_choice,
@@ -146,7 +145,7 @@ def _saturation(function: str, t: np.ndarray, over: str, argument: str = "t") ->
         formulas = [(SATURATION_FORMULAS["ice"], ice), (SATURATION_FORMULAS["water"], ~ice)]
     else:
         formulas = [(SATURATION_FORMULAS[over], np.ones(np.shape(t), dtype=bool))]
-    t_kelvin = t + zero_Celsius
+    t_kelvin = t + ZERO_CELSIUS
     log_p = np.zeros(np.shape(t))
     for formula, where in formulas:
         log_p = np.where(where, formula.log_pressure(t_kelvin), log_p)
@@ -323,8 +322,10 @@ def _dew_point_of(function: str, p_w, t_start) -> np.ndarray:
     Newton's method (scipy.optimize.newton, element by element on arrays) on ln p_ws as a
     function of 1/T, in which it is nearly a straight line (Clausius-Clapeyron), so two or three
     steps converge from the air temperature whatever the humidity."""
+    from scipy import optimize  # here, not at import: scipy.optimize costs 0.4 s of start-up
+
     ice, water = SATURATION_FORMULAS["ice"], SATURATION_FORMULAS["water"]
-    triple_inverse = 1.0 / (TRIPLE_POINT_C + zero_Celsius)
+    triple_inverse = 1.0 / (TRIPLE_POINT_C + ZERO_CELSIUS)
     target = np.log(p_w)
 
     def residual(u):
@@ -336,9 +337,9 @@ def _dew_point_of(function: str, p_w, t_start) -> np.ndarray:
         on_ice = u > triple_inverse
         return -t_kelvin**2 * np.where(on_ice, ice.log_slope(t_kelvin), water.log_slope(t_kelvin))
 
-    start = 1.0 / (np.broadcast_to(t_start, np.shape(target)) + zero_Celsius)
+    start = 1.0 / (np.broadcast_to(t_start, np.shape(target)) + ZERO_CELSIUS)
     inverse = optimize.newton(residual, start, fprime=slope, tol=1e-15, maxiter=50)
-    t_dew = 1.0 / np.asarray(inverse) - zero_Celsius
+    t_dew = 1.0 / np.asarray(inverse) - ZERO_CELSIUS
     inside = (t_dew >= ice.validity.low) & (t_dew <= water.validity.high)
     notes = [f"the dew point {format_value(t_dew[~inside].flat[0] if t_dew.ndim else t_dew.item())} °C is "
              f"outside the saturation formulas' range ({format_value(ice.validity.low)} to "

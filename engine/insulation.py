@@ -20,7 +20,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy import optimize
 
 from ._typing import ArrayLike, FloatOrArray
 from .convection import surface_convection
@@ -158,6 +157,8 @@ def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure) -> tup
             raise unreachable("at this surface temperature the air and surroundings would not take the heat "
                               "the insulation passes on")
         return k * abs(drive) / passed, note
+
+    from scipy import optimize  # here, not at import: scipy.optimize costs 0.4 s of start-up
 
     def excess(log_ratio):
         """D ln(D/d) F(D) - 2 k |t_i - t_s|: rises strictly with D."""

@@ -24,7 +24,6 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import optimize
 
 from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError, format_value
@@ -270,6 +269,8 @@ class _Search:
             error, slope, _ = trial
 
     def _bracketed(self, low: float, high: float) -> float:
+        from scipy import optimize  # here, not at import: scipy.optimize costs 0.4 s of start-up
+
         def error(heat):
             found = self._safe(heat)
             if found is None:
