@@ -9,9 +9,12 @@ returned thickness; the flat face's explicit law; directions; the errors.
 from __future__ import annotations
 
 import math
+import warnings
 
 import numpy as np
 import pytest
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
 
 import stillair
 from stillair import InputError, insulation_thickness
@@ -93,3 +96,16 @@ def test_bad_input_is_named(kwargs, message):
 def test_a_face_target_beyond_the_air_is_refused():
     with pytest.raises(InputError, match="would not take the heat"):
         insulation_thickness(6.0, 25.0, 26.0, 0.035, 0.9, "vplate", 1.0)
+
+
+@settings(max_examples=30, deadline=None)
+@given(t_inner=st.floats(-40.0, 400.0), t_air=st.floats(-20.0, 40.0), fraction=st.floats(0.05, 0.9),
+       k=st.floats(0.02, 0.2), eps=st.floats(0.05, 1.0), diameter=st.floats(0.01, 0.6))
+def test_any_pipe_reaches_its_target_through_the_network(t_inner, t_air, fraction, k, eps, diameter):
+    """Property sweep: a target a fraction of the way from the pipe to the air."""
+    assume(abs(t_inner - t_air) > 2.0)
+    t_surface = t_inner + fraction * (t_air - t_inner)
+    with warnings.catch_warnings():   # the balance holds in or out of the correlation's range
+        warnings.simplefilter("ignore", stillair.CorrelationRangeWarning)
+        thickness = insulation_thickness(t_inner, t_air, t_surface, k, eps, "hcyl", diameter)
+    assert _surface_with(thickness, t_inner, t_air, k, eps, diameter) == pytest.approx(t_surface, abs=1e-6)

@@ -9,6 +9,8 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from scipy.constants import Stefan_Boltzmann, zero_Celsius
 
 import stillair
@@ -141,3 +143,21 @@ def test_a_target_node_behind_a_fixed_node_is_refused():
 def test_table_errors_are_the_solvers():
     with pytest.raises(InputError, match=r"solve_network: branch row 1 \(r1\), column kind"):
         heat_for_temperature([["r1", "a", "b", "resistor", 1.0]], [["b", "T", 0.0]], "a", 10.0)
+
+
+@settings(max_examples=40, deadline=None)
+@given(height=st.floats(0.05, 2.0), area=st.floats(0.01, 5.0), eps=st.floats(0.05, 1.0),
+       ambient=st.floats(-30.0, 50.0), rise=st.floats(-40.0, 150.0), resistance=st.floats(1e-4, 2.0))
+def test_any_plate_behind_a_wall_reaches_its_target(height, area, eps, ambient, rise, resistance):
+    """Property sweep: a heated node behind a resistance to a convecting, radiating plate; the
+    answer re-solved puts the node on the target, and its heat has the sign of the rise."""
+    branches = [["wall", "inside", "plate", "resistance", resistance],
+                ["conv", "plate", "air", "vplate", height, area],
+                ["rad", "plate", "room", "radiation", eps, None, area]]
+    bounds = [["air", "T", ambient], ["room", "T", ambient]]
+    target = ambient + rise
+    answer = heat_for_temperature(branches, bounds, "inside", target)
+    assert answer.solution.temperatures["inside"] == pytest.approx(target, abs=1e-7)
+    assert np.sign(answer.heat) == np.sign(rise) or rise == 0.0
+    assert answer.solution.heat["conv"] + answer.solution.heat["rad"] == pytest.approx(answer.heat, rel=1e-8,
+                                                                                         abs=1e-9)
