@@ -167,7 +167,7 @@ def heat_for_temperature(branches: Sequence[Sequence[object]], boundaries: Seque
 
     # the node's own Q rows are replaced by one row whose value the search sets
     others = tuple(b for b in given if not (b.kind == "Q" and b.node == node))
-    start_heat = sum(b.value for b in given if b.kind == "Q" and b.node == node)
+    start_heat = float(sum(b.value for b in given if b.kind == "Q" and b.node == node))
     net = compile_network(parsed_branches, others + (Boundary(0, node, "Q", 0.0),), gas=gas_key(gas),
                           pressure=pressure, property_temperature=property_temperature,
                           ideal_expansion=bool(ideal_expansion))
@@ -207,14 +207,13 @@ class _Search:
         return t_at - self.target, self._slope(solver, state[0]), (solver, state, x, x_fine, how)
 
     def _slope(self, solver, evaluation) -> float:
-        """dT_at/dQ_node at the solution: the balances r(x, Q) = 0 give dx/dQ = -J^-1 e_node."""
-        jacobian = solver.jacobian(evaluation)
+        """dT_at/dQ_node at the solution: the balances r(x, Q) = 0 give J dx/dQ = -e_node, solved
+        as the solver solves its Newton steps (rows scaled; sparse for large networks)."""
+        matrix = solver.newton_matrix(evaluation)
+        scale = solver.row_scale(matrix)
         unit = np.zeros(len(self.net.free))
         unit[self.free_position[self.node_index]] = 1.0
-        try:
-            response = np.linalg.solve(jacobian, -unit)
-        except np.linalg.LinAlgError:
-            return math.nan
+        response = solver.solve_scaled(matrix, scale, -unit * scale)
         return float(response[self.free_position[self.at_index]])
 
     def _safe(self, heat):
