@@ -28,7 +28,7 @@ import numpy as np
 from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError, format_value
 from .band import _WarmSolver
-from .errors import NetworkConvergenceError
+from .errors import NetworkConvergenceError, NetworkError
 from .model import compile_network
 from .reading import gas_key, name, option_number
 from .results import NetworkResult
@@ -306,7 +306,10 @@ class _Search:
 
 
 def _free_node(argument: str, value, nodes: list[str], fixed: dict) -> str:
-    node = name(value, FUNCTION, argument) if not isinstance(value, str) else value.strip()
+    try:   # a whole number names a node as in the tables ("1" for 1.0)
+        node = value.strip() if isinstance(value, str) else name(value, FUNCTION, argument)
+    except NetworkError:
+        node = ""
     if not node:
         raise InputError(FUNCTION, argument, value, "a node name")
     if node not in nodes:
