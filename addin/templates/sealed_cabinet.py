@@ -293,7 +293,7 @@ def build(b) -> None:
     b.paragraph("Allowed dissipation: NET_HEAT_FOR finds the heat input at the internal air at which the whole "
                 "network - film properties, correlations and radiation re-evaluated at every trial - puts the "
                 "internal air at the limit, with the same sun, ambient and sky (a bracketing root-finder around "
-                "the network solver; it returns only a converged answer, within 1e-7 K of the limit). The cooling "
+                "the network solver; it returns only a converged answer, within 1e-6 K of the limit). The cooling "
                 "power is the dissipation minus that allowance: the heat a heat exchanger or cooler must take "
                 "from the internal air to hold the limit (choose the unit with its makers' margin on top).")
     b.paragraph("Night case: the same network with no sun, the night ambient air, the night sky seen by the top "
