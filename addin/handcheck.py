@@ -1,0 +1,846 @@
+"""Check a hand-built workbook: recognise what its formulas compute, then check that.
+
+Most workbooks a checker receives were typed by hand, without our cell functions.  This module
+identifies each formula *numerically*, never by its text:
+
+1. every formula cell whose value depends on at most :data:`MAX_INPUTS` numeric cells (typed
+   constants or other formulas) is re-evaluated alone, with the headless evaluator's compiled
+   formula, at the workbook's values and at :data:`PROBES` points where each input is moved by
+   1-5 % (never across its sign);
+2. the values are compared with every form of :mod:`stillair.addin.handforms` (the registry's
+   correlations case by case, the groups, radiation, conduction) under every assignment of the
+   cell's inputs to the form's roles whose values are plausible for the role.  A match is
+   agreement at every probe to :data:`MATCH_RTOL`; a consistent ratio is a near-match (a
+   constant typed differently: g = 9.81, sigma = 5.67e-8 are stated, not findings, when the
+   ratio is within :data:`ROUNDING`); a formula that matches once one of its typed constants is
+   changed is a near-match naming that constant.  Algebraic rearrangements are recognised
+   because the test is numerical;
+3. what was recognised is checked: a correlation outside its published range, typed gas
+   properties against the engine's at the film temperature the sheet implies, beta = 1/T in
+   degC, radiation of degC temperatures, a length or an area that disagrees between the group
+   and the heat flow, and (with iterative calculation on) whether the stored values are
+   converged.
+
+Unrecognised formulas are counted, never claimed.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import itertools
+import math
+import re
+import time
+import warnings
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .handforms import CLASS_WORDS, ROLE_CLASS, Form, forms, plausible
+
+__all__ = ["HandFinding", "Recognition", "HandCheck", "check_hand_book", "format_hand",
+           "hand_json", "MAX_INPUTS", "PROBES", "MATCH_RTOL", "PROPERTY_THRESHOLD", "ROUNDING",
+           "main"]
+
+MAX_INPUTS = 6              # distinct input cells of a formula the search tries (6! assignments)
+PROBES = 3                  # perturbed points besides the workbook's own values
+MATCH_RTOL = 1e-9           # agreement at every probe
+ROUNDING = 5e-3             # a constant ratio within this is a rounded constant, stated only
+PROPERTY_THRESHOLD = 0.02   # a typed property is a finding when it moves its cell by more
+NEAR = 0.35                 # a form within this at every probe is worth a constant search
+_SEED = 20240611
+
+# The engine's name of each property role (GasProperties fields).
+_PROPERTY_OF_ROLE = {"kinvisc": "kinvisc", "diffusivity": "diffusivity",
+                     "conductivity": "conductivity", "expansion": "expansion", "pr": "prandtl"}
+_PROPERTY_WORDS = {"kinvisc": "kinematic viscosity", "diffusivity": "thermal diffusivity",
+                   "conductivity": "thermal conductivity", "expansion": "expansion coefficient",
+                   "prandtl": "Prandtl number"}
+
+
+@dataclass
+class HandFinding:
+    kind: str                  # constant, out-of-range, property, beta-celsius, ...
+    cell: str                  # "Sheet!B3"
+    recognised: str            # what the cell was recognised as
+    message: str               # the reason, with the numbers
+    value: float | None = None          # the workbook's value (recomputed from its inputs)
+    engine: float | None = None         # what the engine gives in its place
+    difference: float | None = None     # (value - engine)/engine
+
+
+@dataclass
+class Recognition:
+    cell: str
+    key: tuple
+    form: Form
+    roles: dict                 # role -> input cell key
+    values: dict                # role -> base value
+    value: float
+    ratio: float = 1.0          # cell / form, constant over the probes
+    constant: tuple | None = None   # (typed, would be) for a one-constant near-match
+    statements: list = field(default_factory=list)   # stated, not findings
+    findings: list = field(default_factory=list)
+
+    @property
+    def title(self) -> str:
+        return self.form.title
+
+
+@dataclass
+class HandCheck:
+    path: str
+    recognised: list[Recognition]
+    findings: list[HandFinding]
+    formulas: int                  # formula cells looked at
+    unrecognised: list[str]
+    too_large: list[str]
+    iteration: dict | None = None
+    seconds: float = 0.0
+    timing: dict = field(default_factory=dict)
+
+    def summary(self) -> str:
+        n = len(self.recognised)
+        flagged = {f.cell for f in self.findings if f.kind != "not-converged"}
+        agree = sum(1 for r in self.recognised if r.cell not in flagged)
+        text = (f"{n} hand formula{'s' if n != 1 else ''} recognised: {agree} agree, "
+                f"{n - agree} with findings; {len(self.unrecognised)} not recognised")
+        if self.too_large:
+            text += f", {len(self.too_large)} too large to identify"
+        if self.iteration is not None:
+            text += "; iteration " + ("converged" if self.iteration["converged"]
+                                      else "NOT converged")
+        return text
+
+
+# ---------------------------------------------------------------------------------------------
+# One formula on its own: the evaluator's compiled formula fed with chosen input values
+
+
+class _Formula:
+    """A formula cell evaluated alone: ``self(values)`` with ``values`` mapping each input cell
+    key to a number.  ``problem`` says why it cannot be (a range, an array formula ...)."""
+
+    def __init__(self, model, key, node=None):
+        from .formulatext import parse_reference
+        from .xlsx import index_to_col
+
+        self.key, self.problem, self.inputs = key, None, []
+        node = node if node is not None else model.nodes.get(key)
+        if node is None or node.prepared is None or node.problem or node.array or node.name:
+            self.problem = "not a single-cell formula the evaluator reads"
+            return
+        function, positions, problem = model._compile(node, share=node.text == model.nodes[key].text)
+        if problem:
+            self.problem = problem
+            return
+        self.function = function
+        for position in positions:
+            reference, source = node.prepared.references[position], node.sources[position]
+            target = None
+            if reference.kind == "area" and source is not None and reference.cells == 1:
+                target = (source, f"{index_to_col(reference.c1)}{reference.r1}")
+            elif reference.kind == "name" and source is not None:
+                entry = model.names.get((source[1], source[2]))
+                inner = parse_reference(entry.text.strip().lstrip("=").replace("$", "")) \
+                    if entry is not None else None
+                if inner is not None and inner.kind == "area" and inner.cells == 1:
+                    sheet = model.sheet_case.get((inner.sheet or node.sheet).upper())
+                    if sheet is not None:
+                        target = (sheet, f"{index_to_col(inner.c1)}{inner.r1}")
+            if target is None:
+                self.problem = "reads a range or a name of more than one cell"
+                return
+            self.inputs.append(target)
+        self.precedents = list(dict.fromkeys(self.inputs))
+
+    def __call__(self, values) -> float | None:
+        args = []
+        for key in self.inputs:
+            cell = np.empty((1, 1), dtype=object)
+            cell[0, 0] = values[key]
+            args.append(cell)
+        try:
+            raw = self.function(*args)
+        except Exception:
+            return None
+        value = np.asarray(raw, dtype=object).ravel()
+        value = value[0] if value.size else None
+        if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, float, np.number)):
+            return None
+        value = float(value)
+        return value if math.isfinite(value) else None
+
+
+# ---------------------------------------------------------------------------------------------
+# Matching a cell's probe values with the forms
+
+_PERMUTATIONS = {n: np.array(list(itertools.permutations(range(n))), dtype=int)
+                 for n in range(1, MAX_INPUTS + 1)}
+
+
+@dataclass
+class _Match:
+    form: Form
+    order: tuple            # input index per role
+    ratio: float            # cell / form (1 for an exact match)
+    close: float = 0.0      # largest |cell/form - 1| over the probes
+
+
+def _match_forms(x: np.ndarray, y: np.ndarray, candidates) -> tuple[_Match | None, _Match | None]:
+    """(the first exact or consistent-ratio match, the closest other assignment within NEAR).
+
+    ``x`` holds the probes' inputs (probes x inputs), ``y`` the cell's values there.  Forms
+    are tried on assignments that make no sense too (a length in a logarithm's place): their
+    NaNs and infinities are expected and simply never match."""
+    with np.errstate(all="ignore"), warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        return _match_quietly(x, y, candidates)
+
+
+def _match_quietly(x, y, candidates):
+    n = x.shape[1]
+    best, near = None, None
+    for form in candidates:
+        roles = form.roles
+        orders = _PERMUTATIONS[n]
+        keep = np.ones(len(orders), dtype=bool)
+        for j, role in enumerate(roles):
+            keep &= plausible(role, x[0][orders[:, j]])
+        orders = orders[keep]
+        if not len(orders):
+            continue
+        arguments = {role: x[:, orders[:, j]].T for j, role in enumerate(roles)}
+        try:
+            values = np.asarray(form.function(**arguments), dtype=float)
+        except Exception:
+            continue
+        values = np.broadcast_to(values, (len(orders), len(y)))
+        ratio = y / values
+        finite = np.all(np.isfinite(ratio), axis=1) & np.all(values != 0, axis=1)
+        varies = np.ptp(values, axis=1) > 1e-12 * np.max(np.abs(values), axis=1)
+        consistent = finite & varies & np.all(np.abs(ratio / ratio[:, :1] - 1) <= MATCH_RTOL, axis=1)
+        exact = consistent & (np.abs(ratio[:, 0] - 1) <= MATCH_RTOL)
+        if exact.any():
+            i = int(np.argmax(exact))
+            return _Match(form, tuple(orders[i]), 1.0), None
+        if best is None and consistent.any():
+            i = int(np.argmax(consistent))
+            q = float(ratio[i, 0])
+            if 0.5 <= q <= 2.0 and form.name in _SCALED:
+                best = _Match(form, tuple(orders[i]), q, abs(q - 1))
+        if form.name in _SCALED:
+            spread = np.where(finite & varies, np.max(np.abs(ratio - 1), axis=1), np.inf)
+            i = int(np.argmin(spread))
+            if spread[i] < NEAR and (near is None or spread[i] < near.close):
+                near = _Match(form, tuple(orders[i]), float(ratio[i, 0]), float(spread[i]))
+    return best, near
+
+
+# Forms whose written constants a practitioner types (g, sigma, the correlation's constants):
+# a constant ratio, or one constant off, is a near-match for them.  A ratio of two inputs
+# (Pr = nu/alpha) or a product has no constant to be off.
+_SCALED = {"correlation", "ra", "gr", "radiation-flux", "radiation-flow", "radiation-coefficient"}
+
+
+# ---------------------------------------------------------------------------------------------
+# The check
+
+
+def _calc_settings(path: str) -> dict | None:
+    """The workbook's iterative-calculation settings (calcPr), or None when iteration is off."""
+    from .safezip import open_package, parse_xml
+
+    with open_package(path) as archive:
+        root = parse_xml(archive.read("xl/workbook.xml"))
+    for element in root.iter():
+        if element.tag.endswith("}calcPr") or element.tag == "calcPr":
+            if element.get("iterate", "0").lower() in ("1", "true"):
+                return {"count": int(float(element.get("iterateCount", "100"))),
+                        "delta": float(element.get("iterateDelta", "0.001"))}
+    return None
+
+
+def _sheet_gas(book) -> dict[str, str]:
+    """The gas each sheet names in its text (the first of the engine's gases other than air
+    that a label mentions), else air."""
+    from stillair import GAS_NAMES
+
+    names = [g for g in GAS_NAMES if g != "air"]
+    found = {}
+    for sheet in book.sheets:
+        gas = "air"
+        for value in sheet.values.values():
+            if isinstance(value, str):
+                hit = next((g for g in names if re.search(rf"(?i)\b{re.escape(g)}\b", value)), None)
+                if hit:
+                    gas = hit
+                    break
+        found[sheet.name] = gas
+    return found
+
+
+class _Checker:
+    def __init__(self, path: str):
+        from .headless import Model, label
+        from .xlsx import read_book
+
+        self.started = time.perf_counter()
+        self.label = label
+        self.path = path
+        self.book = read_book(path)
+        self.model = Model(self.book)
+        self.timing = {"load": time.perf_counter() - self.started}
+        evaluation = self.model.calculate()
+        self.timing["calculate"] = evaluation.calc_seconds
+        self.values: dict = {}
+        for key, result in evaluation.results.items():
+            if result.status in ("value", "note") and isinstance(result.value, float):
+                self.values[key] = result.value
+        self.settings = _calc_settings(path)
+        self.gas = _sheet_gas(self.book)
+        self.formulas: dict = {}
+        self.recognised: dict = {}
+        self.findings: list[HandFinding] = []
+        self.unrecognised, self.too_large = [], []
+        self.iteration = None
+
+    # -- values ---------------------------------------------------------------------------
+
+    def value(self, key):
+        if key in self.values:
+            return self.values[key]
+        sheet = self.model.sheets.get(key[0])
+        if sheet is None:
+            return None
+        if key[1] in sheet.formulas:
+            return None
+        value = sheet.values.get(key[1])
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            return None
+        return float(value)
+
+    def is_constant(self, key) -> bool:
+        sheet = self.model.sheets.get(key[0])
+        return sheet is not None and key[1] not in sheet.formulas and key[1] in sheet.values
+
+    def formula(self, key) -> _Formula:
+        if key not in self.formulas:
+            self.formulas[key] = _Formula(self.model, key)
+        return self.formulas[key]
+
+    def name(self, key) -> str:
+        return self.label(*key)
+
+    # -- iteration ------------------------------------------------------------------------
+
+    def iterate(self) -> None:
+        """With iterative calculation on: the cells in or after a cycle, re-iterated from the
+        stored values to the workbook's delta; whether the stored values were converged."""
+        cycles = getattr(self.model, "cycles", set())
+        if not cycles:
+            return
+        affected = self.model.downstream(cycles)
+        order = sorted(affected, key=lambda k: (self._sheet_index(k[0]), *self._rc(k[1])))
+        stored = {}
+        for key in order:
+            cell = self.model.sheets[key[0]].formulas.get(key[1])
+            cached = cell.cached if cell is not None else None
+            stored[key] = float(cached) if isinstance(cached, (int, float)) and \
+                not isinstance(cached, bool) else 0.0
+        if self.settings is None:
+            self.values.update(stored)   # a cycle without iteration: the stored values
+            return
+        delta, limit = self.settings["delta"], max(self.settings["count"], 1000)
+        current = dict(stored)
+        lookup = _Values(self, current)
+        first_change, sweeps, change = None, 0, math.inf
+        while change > 1 and sweeps < limit:
+            change = 0.0   # the largest change in units of the allowed change
+            for key in order:
+                new = self.formula(key)(lookup)
+                if new is None:
+                    change = math.nan
+                    break
+                change = max(change, abs(new - current[key]) / _allowed(delta, new))
+                current[key] = new
+            sweeps += 1
+            first_change = change if first_change is None else first_change
+            if not math.isfinite(change):
+                break
+        converged_now = math.isfinite(change) and change <= 1
+        worst = max(order, key=lambda k: abs(current[k] - stored[k]))
+        stored_ok = first_change is not None and first_change <= 1
+        self.iteration = {"converged": bool(stored_ok), "delta": delta,
+                          "count": self.settings["count"], "sweeps": sweeps,
+                          "reached": bool(converged_now), "cells": [self.name(k) for k in order],
+                          "worst": self.name(worst), "stored": stored[worst],
+                          "converged_value": current[worst]}
+        self.values.update(current)
+        if not stored_ok:
+            reached = (f"re-iterated to the workbook's delta {delta:g} in {sweeps} sweeps"
+                       if converged_now else f"still changing after {sweeps} sweeps")
+            self.findings.append(HandFinding(
+                "not-converged", self.name(worst), "iterative calculation",
+                f"the stored values are not converged: {self.name(worst)} holds "
+                f"{stored[worst]:.6g}, the converged value is {current[worst]:.6g} ({reached}; "
+                f"the first sweep from the stored values moved a cell by {first_change:.3g} times "
+                "the allowed change); "
+                "recalculate until the iteration settles before reading the results",
+                stored[worst], current[worst], _rel(stored[worst], current[worst])))
+
+    def _sheet_index(self, sheet):
+        return next(i for i, s in enumerate(self.book.sheets) if s.name == sheet)
+
+    @staticmethod
+    def _rc(ref):
+        from .xlsx import split_ref
+        return split_ref(ref)
+
+    # -- recognition ----------------------------------------------------------------------
+
+    def recognise_all(self) -> None:
+        rng = np.random.default_rng(_SEED)
+        all_forms = forms()
+        by_count = {n: [f for f in all_forms if len(f.roles) == n] for n in range(1, MAX_INPUTS + 1)}
+        keys = [(s.name, ref) for s in self.book.sheets for ref in s.formula_refs()
+                if ref in s.formulas]
+        for key in keys:
+            formula = self.formula(key)
+            if formula.problem:
+                continue
+            inputs = formula.precedents
+            if not inputs:
+                continue
+            if len(inputs) > MAX_INPUTS:
+                self.too_large.append(self.name(key))
+                continue
+            base = [self.value(k) for k in inputs]
+            if any(v is None for v in base) or self.values.get(key) is None:
+                continue
+            x = np.empty((PROBES + 1, len(inputs)))
+            x[0] = base
+            moves = rng.uniform(0.01, 0.05, size=(PROBES, len(inputs))) * \
+                rng.choice((-1.0, 1.0), size=(PROBES, len(inputs)))
+            x[1:] = x[0] * (1 + moves)
+            y = np.empty(PROBES + 1)
+            for i in range(PROBES + 1):
+                value = formula(dict(zip(inputs, x[i])))
+                if value is None:
+                    break
+                y[i] = value
+            else:
+                self._identify(key, formula, inputs, x, y, by_count[len(inputs)])
+                continue
+            self.unrecognised.append(self.name(key))
+
+    def _identify(self, key, formula, inputs, x, y, candidates) -> None:
+        match, near = _match_forms(x, y, candidates)
+        constant = None
+        if match is None and near is not None:
+            constant = self._one_constant(key, inputs, x, near)
+            if constant is not None:
+                match = near
+        if match is None:
+            self.unrecognised.append(self.name(key))
+            return
+        roles = {role: inputs[i] for role, i in zip(match.form.roles, match.order)}
+        values = {role: float(x[0][i]) for role, i in zip(match.form.roles, match.order)}
+        self.recognised[key] = Recognition(self.name(key), key, match.form, roles, values,
+                                           float(y[0]), match.ratio if constant is None else 1.0,
+                                           constant)
+
+    def _one_constant(self, key, inputs, x, near: _Match):
+        """A typed constant of the formula which, changed alone, makes the cell match ``near``'s
+        form at every probe: (position text, typed, would be), or None."""
+        from openpyxl.formula.tokenizer import Token, Tokenizer
+        from scipy.optimize import brentq
+
+        node = self.model.nodes[key]
+        try:
+            tokens = Tokenizer("=" + node.text).items
+        except Exception:
+            return None
+        numbers = [i for i, t in enumerate(tokens)
+                   if t.type == Token.OPERAND and t.subtype == Token.NUMBER]
+        if not numbers or len(numbers) > 20:
+            return None
+        form = near.form
+        order = near.order
+        target = np.asarray(form.function(**{role: x[:, order[j]] for j, role in
+                                              enumerate(form.roles)}), dtype=float)
+        for index in numbers:
+            typed = float(tokens[index].value)
+
+            def evaluate(c, probe, _index=index):
+                text = "".join(repr(float(c)) if i == _index else t.value
+                               for i, t in enumerate(tokens))
+                variant = self._variant(node, text)
+                if variant is None:
+                    return None
+                return variant(dict(zip(inputs, x[probe])))
+
+            try:
+                def residual(c):
+                    value = evaluate(c, 0)
+                    return math.nan if value is None else value / target[0] - 1
+
+                guesses = [typed * f for f in (0.5, 0.8, 0.95, 1.05, 1.25, 2.0)] if typed else \
+                    [-1.0, 1.0]
+                found = None
+                points = [(g, residual(g)) for g in sorted(guesses)]
+                for (a, ra), (b, rb) in zip(points, points[1:]):
+                    if math.isfinite(ra) and math.isfinite(rb) and ra * rb <= 0:
+                        found = brentq(residual, a, b, xtol=1e-14, rtol=1e-14, maxiter=80)
+                        break
+                if found is None:
+                    continue
+                if all(abs(evaluate(found, p) / target[p] - 1) <= 1e-7
+                       for p in range(len(target)) if evaluate(found, p) is not None):
+                    return (tokens[index].value, typed, float(f"{found:.6g}"))
+            except Exception:
+                continue
+        return None
+
+    def _variant(self, node, text: str) -> _Formula | None:
+        cache = self.__dict__.setdefault("_variants", {})
+        if text not in cache:
+            variant = dataclasses.replace(node, text=text.lstrip("="), prepared=None, deps=set(),
+                                          sources=[], compiled=None, problem=None)
+            self.model._prepare(variant)
+            formula = _Formula(self.model, (node.sheet, node.ref), variant)
+            cache[text] = None if formula.problem else formula
+        return cache[text]
+
+    # -- checks ---------------------------------------------------------------------------
+
+    def check_all(self) -> None:
+        for key, rec in self.recognised.items():
+            form = rec.form
+            if rec.constant is not None:
+                written, typed, right = rec.constant
+                engine = self._form_value(form, rec.values)
+                self._add(rec, "constant", f"the formula matches {form.title} once its typed "
+                          f"constant {written} is {right:.6g}: one constant mistyped", engine)
+            elif rec.ratio != 1.0:
+                self._ratio(rec)
+            if form.mistake:
+                self._mistake(rec)
+            if form.quantity == "Nu" and form.geometry:
+                self._range(rec)
+            self._properties(rec)
+            if form.name == "h-from-nusselt":
+                self._length(rec)
+            if form.quantity == "Q" and "area" in rec.roles:
+                self._area(rec)
+
+    def _add(self, rec, kind, message, engine=None):
+        value = rec.value
+        finding = HandFinding(kind, rec.cell, rec.title, message, value, engine,
+                              _rel(value, engine) if engine is not None else None)
+        rec.findings.append(finding)
+        self.findings.append(finding)
+
+    @staticmethod
+    def _form_value(form, values) -> float:
+        with np.errstate(all="ignore"), warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            return float(np.asarray(form.function(**{r: np.asarray([v]) for r, v in
+                                                     values.items()})).ravel()[0])
+
+    def _ratio(self, rec) -> None:
+        q = rec.ratio
+        constant = {"ra": "g", "gr": "g"}.get(rec.form.name, "sigma" if rec.form.name.startswith(
+            "radiation") else "the leading constant")
+        standard = {"g": 9.80665, "sigma": 5.670374419e-8}.get(constant)
+        typed = f" (typed as {standard * q:.7g}, standard {standard:.10g})" if standard else ""
+        if abs(q - 1) <= ROUNDING:
+            rec.statements.append(f"{constant} differs by a factor {q:.9g}{typed}: a rounded "
+                                  "constant, within the audit's rounding allowance")
+            return
+        self._add(rec, "constant", f"the formula is {rec.title} times {q:.6g}: {constant} is "
+                  f"off{typed}", rec.value / q)
+
+    def _mistake(self, rec) -> None:
+        right = next((f for f in forms() if f.mistake is None and f.roles == rec.form.roles and
+                      f.quantity == rec.form.quantity and _same_kind(f, rec.form)), None)
+        engine = self._form_value(right, rec.values) * rec.ratio if right is not None else None
+        kind = "beta-celsius" if "beta" in rec.form.mistake else "celsius"
+        self._add(rec, kind, rec.form.mistake, engine)
+
+    def _range(self, rec) -> None:
+        from stillair.correlations import CORRELATIONS
+
+        corr = CORRELATIONS[(rec.form.geometry, rec.form.method)]
+        inputs = {r: np.asarray([v]) for r, v in rec.values.items()}
+        inputs.update({r: np.asarray([float(v)]) for r, v in rec.form.fixed.items()})
+        note = str(corr.notes_for(inputs, rec.form.case)[0])
+        if note:
+            self._add(rec, "out-of-range", f"outside the correlation's published range: {note}")
+
+    def _film(self, rec, depth: int = 0):
+        """(t1, t2, gas) the recognised cell's temperature difference is built from, following
+        the recognised cells it reads (a Nu cell's Ra, an h cell's Nu ...)."""
+        if depth > 4:
+            return None
+        v = rec.values
+        if "t1" in v and "t2" in v:
+            return v["t1"], v["t2"], self.gas.get(rec.key[0], "air")
+        if "dt" in v:
+            pair = self._difference_of(rec.roles["dt"])
+            if pair is not None:
+                return (*pair, self.gas.get(rec.key[0], "air"))
+        for role in ("ra", "nusselt", "h"):
+            source = self.recognised.get(rec.roles.get(role))
+            if source is not None:
+                found = self._film(source, depth + 1)
+                if found is not None:
+                    return found
+        return None
+
+    def _difference_of(self, key):
+        """The two temperatures a formula cell subtracts (T1 - T2), checked at the probes."""
+        formula = self.formula(key) if key in self.model.nodes else None
+        if formula is None or formula.problem or len(formula.precedents) != 2:
+            return None
+        a, b = formula.precedents
+        va, vb = self.value(a), self.value(b)
+        if va is None or vb is None:
+            return None
+        for factor_a, factor_b in ((1, 1), (1.03, 0.98), (0.97, 1.01)):
+            got = formula({a: va * factor_a, b: vb * factor_b})
+            if got is None:
+                return None
+            if abs(got - (va * factor_a - vb * factor_b)) > 1e-9 * max(abs(va), abs(vb), 1):
+                if abs(got - (vb * factor_b - va * factor_a)) > 1e-9 * max(abs(va), abs(vb), 1):
+                    return None
+        return va, vb
+
+    def _properties(self, rec) -> None:
+        typed_roles = [r for r in rec.roles if r in _PROPERTY_OF_ROLE and
+                       self.is_constant(rec.roles[r])]
+        if not typed_roles:
+            return
+        film = self._film(rec)
+        if film is None:
+            return
+        t1, t2, gas = film
+        t_film = (t1 + t2) / 2
+        from stillair import gas_properties
+
+        try:
+            props = gas_properties(gas, t_film)
+        except Exception:
+            return
+        for role in typed_roles:
+            attribute = _PROPERTY_OF_ROLE[role]
+            engine_property = float(getattr(props, attribute))
+            typed = rec.values[role]
+            changed = dict(rec.values, **{role: engine_property})
+            with_engine = self._form_value(rec.form, changed) * rec.ratio
+            moves = _rel(rec.value, with_engine)
+            right_at = _temperature_where(gas, attribute, typed, t_film)
+            at = f"right at {right_at:.1f} degC" if right_at is not None else \
+                "not the gas's value at any temperature from -50 to 400 degC"
+            message = (f"typed {_PROPERTY_WORDS[attribute]} {typed:.5g} in "
+                       f"{self.name(rec.roles[role])} is {at}; the sheet's film temperature is "
+                       f"{t_film:.1f} degC (mean of {t1:.4g} and {t2:.4g}), where {gas} has "
+                       f"{engine_property:.5g} ({_rel(typed, engine_property) * 100:+.2f} %)")
+            if abs(moves) > PROPERTY_THRESHOLD:
+                self._add(rec, "property", message + f"; this moves the cell by "
+                          f"{moves * 100:+.2f} % (threshold {PROPERTY_THRESHOLD * 100:g} %)",
+                          with_engine)
+            else:
+                rec.statements.append(message)
+
+    def _ra_of_h(self, rec):
+        nusselt = self.recognised.get(rec.roles.get("nusselt"))
+        if nusselt is None:
+            return None
+        return self.recognised.get(nusselt.roles.get("ra")), nusselt
+
+    def _length(self, rec) -> None:
+        found = self._ra_of_h(rec)
+        if found is None or found[0] is None or "length" not in found[0].values:
+            return
+        ra, nusselt = found
+        here, there = rec.values["length"], ra.values["length"]
+        if abs(here - there) > 1e-9 * max(abs(here), abs(there)):
+            engine = rec.values["nusselt"] * rec.values["conductivity"] / there
+            self._add(rec, "length", f"h = Nu k/L divides by L = {here:.6g} m "
+                      f"({self.name(rec.roles['length'])}) but the Rayleigh number "
+                      f"{ra.cell} is built on L = {there:.6g} m "
+                      f"({self.name(ra.roles['length'])}): the same length is due in both",
+                      engine)
+
+    def _area(self, rec) -> None:
+        """The area of a heat flow h A dT must be built from the geometry's length: the plate's
+        height, the cylinder's diameter, the layer's or channel's height."""
+        h = self.recognised.get(rec.roles.get("h"))
+        if h is None or h.form.name != "h-from-nusselt":
+            return
+        found = self._ra_of_h(h)
+        if found is None or found[0] is None or "length" not in found[0].roles:
+            return
+        ra, nusselt = found
+        geometry = nusselt.form.geometry
+        lengths = set()
+        if geometry in ("vplate", "hcyl", "sphere", "vcyl"):
+            lengths.add(ra.roles["length"])
+        for role in ("aspect", "slenderness"):
+            if role in nusselt.roles:
+                ratio = self.formula(nusselt.roles[role]) \
+                    if nusselt.roles[role] in self.model.nodes else None
+                if ratio is not None and not ratio.problem:
+                    lengths |= set(ratio.precedents) - {ra.roles["length"]}
+        area_key = rec.roles["area"]
+        if not lengths or area_key not in self.model.nodes:
+            return   # a typed area, or a geometry without a defining length: not checked
+        upstream = self.model.upstream([area_key])
+        wanted = {self.value(k) for k in lengths} - {None}
+        read = {self.value(k) for k in upstream if k[0] != "#name"} - {None}
+        if lengths & upstream or wanted & read:
+            return
+        names = ", ".join(f"{self.name(k)} = {self.value(k):.6g} m" for k in sorted(lengths))
+        self._add(rec, "area", f"the area {self.name(area_key)} = {rec.values['area']:.6g} m2 "
+                  f"is not built from the length that defines the geometry in "
+                  f"{ra.cell} ({names}): the group and the heat flow describe different surfaces")
+
+
+def _allowed(delta: float, value: float) -> float:
+    """The change a sweep may make to a cell for the iteration to count as settled: the
+    workbook's delta, relative for values above 1 (a Rayleigh number of 1e10 moves by more
+    than 0.001 in its last digits long after the temperatures have settled)."""
+    return delta * max(1.0, abs(value))
+
+
+def _same_kind(a: Form, b: Form) -> bool:
+    return a.name.replace("-celsius", "-ideal") == b.name.replace("-celsius", "-ideal") or (
+        a.name == b.name)
+
+
+def _rel(value, reference) -> float | None:
+    if value is None or reference is None or reference == 0:
+        return None
+    return (value - reference) / abs(reference)
+
+
+def _temperature_where(gas: str, attribute: str, typed: float, near: float) -> float | None:
+    """The temperature (degC) where the gas's property equals ``typed``, the root nearest
+    ``near`` on a 0.5 K grid from -50 to 400 degC, linearly interpolated; None if none."""
+    from stillair import gas_properties
+
+    grid = np.arange(-50.0, 400.01, 0.5)
+    try:
+        values = np.asarray(getattr(gas_properties(gas, grid), attribute), dtype=float) - typed
+    except Exception:
+        return None
+    crossings = np.nonzero(np.sign(values[:-1]) * np.sign(values[1:]) <= 0)[0]
+    if not len(crossings):
+        return None
+    roots = [grid[i] + (grid[i + 1] - grid[i]) * values[i] / (values[i] - values[i + 1])
+             if values[i] != values[i + 1] else grid[i] for i in crossings]
+    return float(min(roots, key=lambda t: abs(t - near)))
+
+
+class _Values(dict):
+    """Input values for a formula evaluated alone during the iteration: the iterated cells'
+    current values, else the checker's values, else the typed constants."""
+
+    def __init__(self, checker, current):
+        super().__init__()
+        self.checker, self.current = checker, current
+
+    def __missing__(self, key):
+        if key in self.current:
+            return self.current[key]
+        value = self.checker.value(key)
+        return 0.0 if value is None else value
+
+
+# ---------------------------------------------------------------------------------------------
+# Public entry and output
+
+
+def check_hand_book(path: str) -> HandCheck:
+    """Recognise and check the hand-typed formulas of the workbook at ``path``."""
+    checker = _Checker(path)
+    checker.iterate()
+    started = time.perf_counter()
+    with _offline():
+        checker.recognise_all()
+        checker.check_all()
+    checker.timing["recognise"] = time.perf_counter() - started
+    order = {s.name: i for i, s in enumerate(checker.book.sheets)}
+
+    def position(key):
+        return order.get(key[0], 0), *checker._rc(key[1])
+
+    recognised = [checker.recognised[k] for k in sorted(checker.recognised, key=position)]
+    findings = sorted(checker.findings, key=lambda f: f.kind != "not-converged")
+    return HandCheck(path, recognised, findings,
+                     sum(len(s.formulas) for s in checker.book.sheets), checker.unrecognised,
+                     checker.too_large, checker.iteration,
+                     time.perf_counter() - checker.started, checker.timing)
+
+
+def _offline():
+    from .safezip import offline
+    return offline()
+
+
+def format_hand(result: HandCheck) -> str:
+    lines = [f"stillair hand check {result.path}"]
+    for finding in result.findings:
+        engine = f"; engine {finding.engine:.6g}" if finding.engine is not None else ""
+        diff = f" ({finding.difference * 100:+.2f} %)" if finding.difference is not None else ""
+        lines.append(f"{finding.kind:<14} {finding.cell:<14} {finding.recognised}: "
+                     f"workbook {finding.value:.6g}{engine}{diff}. {finding.message}")
+    for rec in result.recognised:
+        for statement in rec.statements:
+            lines.append(f"{'note':<14} {rec.cell:<14} {rec.title}: {statement}")
+    if result.too_large:
+        lines.append("too large to identify (more than "
+                     f"{MAX_INPUTS} input cells): {', '.join(result.too_large)}")
+    lines.append(result.summary())
+    return "\n".join(lines)
+
+
+def hand_json(result: HandCheck) -> dict:
+    return {
+        "book": result.path,
+        "summary": result.summary(),
+        "recognised": [{"cell": r.cell, "as": r.title, "quantity": r.form.quantity,
+                        "inputs": {role: r.values[role] for role in r.form.roles},
+                        "input_cells": {role: _label(k) for role, k in r.roles.items()},
+                        "value": r.value, "agrees": not r.findings,
+                        "statements": r.statements} for r in result.recognised],
+        "findings": [dataclasses.asdict(f) for f in result.findings],
+        "unrecognised": result.unrecognised,
+        "too_large": result.too_large,
+        "iteration": result.iteration,
+        "timing": dict(result.timing, total=result.seconds),
+    }
+
+
+def _label(key) -> str:
+    from .headless import label
+    return label(*key)
+
+
+def main(argv=None) -> int:
+    """``python -m stillair.addin.handcheck BOOK [--json]``: until the audit carries it."""
+    import argparse
+    import json
+
+    parser = argparse.ArgumentParser(prog="python -m stillair.addin.handcheck")
+    parser.add_argument("book")
+    parser.add_argument("--json", action="store_true")
+    args = parser.parse_args(argv)
+    result = check_hand_book(args.book)
+    print(json.dumps(hand_json(result), indent=1) if args.json else format_hand(result))
+    return 1 if result.findings else 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
