@@ -47,8 +47,17 @@ PROBES = 3                  # perturbed points besides the workbook's own values
 MATCH_RTOL = 1e-9           # agreement at every probe
 ROUNDING = 5e-3             # a constant ratio within this is a rounded constant, stated only
 PROPERTY_THRESHOLD = 0.02   # a typed property is a finding when it moves its cell by more
-NEAR = 0.35                 # a form within this at every probe is worth a constant search
+NEAR = 0.6                  # a form within this at every probe is worth a constant search
+_NEAR_TRIED = 24            # the closest that many are searched for one mistyped constant
+_MAX_CONSTANTS = 16         # typed numbers of one formula tried as the mistyped one
+_SCRATCH = "XEZ999999"      # a cell far out of any used range: the constant being solved
 _SEED = 20240611
+
+# What a role's input is, when it is a recognised cell.
+_ROLE_QUANTITY = {"ra": ("Ra",), "nusselt": ("Nu",), "h": ("h", "hrad"), "expansion": ("beta",),
+                  "pr": ("Pr",), "tb": (), "t1": (), "t2": (), "dt": (), "length": (),
+                  "area": (), "kinvisc": (), "diffusivity": (), "conductivity": (), "eps": (),
+                  "eps1": (), "eps2": (), "aspect": (), "slenderness": (), "tilt": ()}
 
 # The engine's name of each property role (GasProperties fields).
 _PROPERTY_OF_ROLE = {"kinvisc": "kinvisc", "diffusivity": "diffusivity",
@@ -187,8 +196,8 @@ class _Match:
     close: float = 0.0      # largest |cell/form - 1| over the probes
 
 
-def _match_forms(x: np.ndarray, y: np.ndarray, candidates) -> tuple[_Match | None, _Match | None]:
-    """(the first exact or consistent-ratio match, the closest other assignment within NEAR).
+def _match_forms(x: np.ndarray, y: np.ndarray, candidates):
+    """(exact matches, consistent-ratio matches, the closest other assignments within NEAR).
 
     ``x`` holds the probes' inputs (probes x inputs), ``y`` the cell's values there.  Forms
     are tried on assignments that make no sense too (a length in a logarithm's place): their
@@ -200,7 +209,7 @@ def _match_forms(x: np.ndarray, y: np.ndarray, candidates) -> tuple[_Match | Non
 
 def _match_quietly(x, y, candidates):
     n = x.shape[1]
-    best, near = None, None
+    exact, scaled, near = [], [], []
     for form in candidates:
         roles = form.roles
         orders = _PERMUTATIONS[n]
@@ -220,21 +229,19 @@ def _match_quietly(x, y, candidates):
         finite = np.all(np.isfinite(ratio), axis=1) & np.all(values != 0, axis=1)
         varies = np.ptp(values, axis=1) > 1e-12 * np.max(np.abs(values), axis=1)
         consistent = finite & varies & np.all(np.abs(ratio / ratio[:, :1] - 1) <= MATCH_RTOL, axis=1)
-        exact = consistent & (np.abs(ratio[:, 0] - 1) <= MATCH_RTOL)
-        if exact.any():
-            i = int(np.argmax(exact))
-            return _Match(form, tuple(orders[i]), 1.0), None
-        if best is None and consistent.any():
-            i = int(np.argmax(consistent))
+        is_exact = consistent & (np.abs(ratio[:, 0] - 1) <= MATCH_RTOL)
+        exact += [_Match(form, tuple(orders[i]), 1.0) for i in np.nonzero(is_exact)[0]]
+        if form.name not in _SCALED:
+            continue
+        for i in np.nonzero(consistent & ~is_exact)[0]:
             q = float(ratio[i, 0])
-            if 0.5 <= q <= 2.0 and form.name in _SCALED:
-                best = _Match(form, tuple(orders[i]), q, abs(q - 1))
-        if form.name in _SCALED:
-            spread = np.where(finite & varies, np.max(np.abs(ratio - 1), axis=1), np.inf)
-            i = int(np.argmin(spread))
-            if spread[i] < NEAR and (near is None or spread[i] < near.close):
-                near = _Match(form, tuple(orders[i]), float(ratio[i, 0]), float(spread[i]))
-    return best, near
+            if 0.5 <= q <= 2.0:
+                scaled.append(_Match(form, tuple(orders[i]), q, abs(q - 1)))
+        spread = np.where(finite & varies & ~consistent, np.max(np.abs(ratio - 1), axis=1), np.inf)
+        for i in np.nonzero(spread < NEAR)[0]:
+            near.append(_Match(form, tuple(orders[i]), float(ratio[i, 0]), float(spread[i])))
+    near.sort(key=lambda m: m.close)
+    return exact, scaled, near[:_NEAR_TRIED]
 
 
 # Forms whose written constants a practitioner types (g, sigma, the correlation's constants):
@@ -435,12 +442,16 @@ class _Checker:
             self.unrecognised.append(self.name(key))
 
     def _identify(self, key, formula, inputs, x, y, candidates) -> None:
-        match, near = _match_forms(x, y, candidates)
-        constant = None
-        if match is None and near is not None:
-            constant = self._one_constant(key, inputs, x, near)
-            if constant is not None:
-                match = near
+        exact, scaled, near = _match_forms(x, y, candidates)
+        match, constant = None, None
+        if exact or scaled:
+            match = max(exact or scaled, key=lambda m: self._fits(m, inputs))
+        else:
+            for candidate in near:
+                constant = self._one_constant(key, inputs, x, candidate)
+                if constant is not None:
+                    match = candidate
+                    break
         if match is None:
             self.unrecognised.append(self.name(key))
             return
@@ -450,67 +461,81 @@ class _Checker:
                                            float(y[0]), match.ratio if constant is None else 1.0,
                                            constant)
 
+    def _fits(self, match: _Match, inputs) -> tuple:
+        """How well an assignment agrees with what the inputs were recognised as: a Nusselt
+        number in the Nu role scores, one in a length's role counts against (h = Nu k/L and
+        Nu = h L/k have the same shape); then the earlier form (the registry's order)."""
+        score = 0
+        for role, i in zip(match.form.roles, match.order):
+            source = self.recognised.get(inputs[i])
+            wanted = _ROLE_QUANTITY.get(role)
+            if source is not None:
+                score += 2 if source.form.quantity in (wanted or ()) else -2
+            elif wanted and self.is_constant(inputs[i]) and role not in _PROPERTY_OF_ROLE:
+                score -= 1   # a typed number where a computed group is due
+        return (score,)
+
     def _one_constant(self, key, inputs, x, near: _Match):
         """A typed constant of the formula which, changed alone, makes the cell match ``near``'s
-        form at every probe: (position text, typed, would be), or None."""
-        from openpyxl.formula.tokenizer import Token, Tokenizer
+        form at every probe: (the constant as typed, its value, the value that matches), or
+        None.  Each constant is made an input of its own (one compilation per constant), solved
+        for at the first probe and checked at the others."""
         from scipy.optimize import brentq
 
+        form, order = near.form, near.order
+        with np.errstate(all="ignore"):
+            target = np.asarray(form.function(**{role: x[:, order[j]] for j, role in
+                                                  enumerate(form.roles)}), dtype=float)
+        for written, typed, variant, slot in self._constants(key):
+            def value(c, probe):
+                values = dict(zip(inputs, x[probe]))
+                values[slot] = c
+                got = variant(values)
+                return math.nan if got is None else got / target[probe] - 1
+
+            points = [(c, value(c, 0)) for c in typed * np.array([0.2, 0.5, 0.8, 0.95, 1.05,
+                                                                  1.25, 2.0, 5.0])]
+            points.sort()
+            for (a, fa), (b, fb) in zip(points, points[1:]):
+                if math.isfinite(fa) and math.isfinite(fb) and fa * fb <= 0:
+                    try:
+                        found = brentq(lambda c: value(c, 0), a, b, xtol=1e-15, rtol=1e-14)
+                    except (ValueError, RuntimeError):
+                        continue
+                    if all(abs(value(found, p)) <= 1e-7 for p in range(1, len(target))):
+                        return written, typed, float(f"{found:.6g}")
+        return None
+
+    def _constants(self, key):
+        """Per typed number of the formula: (text, value, the formula with that number read
+        from a scratch cell, the scratch cell's key); built once per cell."""
+        from openpyxl.formula.tokenizer import Token, Tokenizer
+
+        cache = self.__dict__.setdefault("_constant_variants", {})
+        if key in cache:
+            return cache[key]
         node = self.model.nodes[key]
+        found = []
         try:
             tokens = Tokenizer("=" + node.text).items
         except Exception:
-            return None
+            tokens = []
         numbers = [i for i, t in enumerate(tokens)
                    if t.type == Token.OPERAND and t.subtype == Token.NUMBER]
-        if not numbers or len(numbers) > 20:
-            return None
-        form = near.form
-        order = near.order
-        target = np.asarray(form.function(**{role: x[:, order[j]] for j, role in
-                                              enumerate(form.roles)}), dtype=float)
-        for index in numbers:
+        slot = (node.sheet, _SCRATCH)
+        for index in numbers[:_MAX_CONSTANTS]:
             typed = float(tokens[index].value)
-
-            def evaluate(c, probe, _index=index):
-                text = "".join(repr(float(c)) if i == _index else t.value
-                               for i, t in enumerate(tokens))
-                variant = self._variant(node, text)
-                if variant is None:
-                    return None
-                return variant(dict(zip(inputs, x[probe])))
-
-            try:
-                def residual(c):
-                    value = evaluate(c, 0)
-                    return math.nan if value is None else value / target[0] - 1
-
-                guesses = [typed * f for f in (0.5, 0.8, 0.95, 1.05, 1.25, 2.0)] if typed else \
-                    [-1.0, 1.0]
-                found = None
-                points = [(g, residual(g)) for g in sorted(guesses)]
-                for (a, ra), (b, rb) in zip(points, points[1:]):
-                    if math.isfinite(ra) and math.isfinite(rb) and ra * rb <= 0:
-                        found = brentq(residual, a, b, xtol=1e-14, rtol=1e-14, maxiter=80)
-                        break
-                if found is None:
-                    continue
-                if all(abs(evaluate(found, p) / target[p] - 1) <= 1e-7
-                       for p in range(len(target)) if evaluate(found, p) is not None):
-                    return (tokens[index].value, typed, float(f"{found:.6g}"))
-            except Exception:
+            if typed == 0:
                 continue
-        return None
-
-    def _variant(self, node, text: str) -> _Formula | None:
-        cache = self.__dict__.setdefault("_variants", {})
-        if text not in cache:
-            variant = dataclasses.replace(node, text=text.lstrip("="), prepared=None, deps=set(),
-                                          sources=[], compiled=None, problem=None)
+            text = "".join(_SCRATCH if i == index else t.value for i, t in enumerate(tokens))
+            variant = dataclasses.replace(node, text=text, prepared=None, deps=set(), sources=[],
+                                          compiled=None, problem=None)
             self.model._prepare(variant)
-            formula = _Formula(self.model, (node.sheet, node.ref), variant)
-            cache[text] = None if formula.problem else formula
-        return cache[text]
+            formula = _Formula(self.model, key, variant)
+            if not formula.problem:
+                found.append((tokens[index].value, typed, formula, slot))
+        cache[key] = found
+        return found
 
     # -- checks ---------------------------------------------------------------------------
 
@@ -653,6 +678,20 @@ class _Checker:
             else:
                 rec.statements.append(message)
 
+    def _reads(self, key) -> set:
+        """Every cell a formula reads, constants included, through the formulas it reads."""
+        seen, todo = set(), [key]
+        while todo:
+            current = todo.pop()
+            if current in seen:
+                continue
+            seen.add(current)
+            if current in self.model.nodes:
+                formula = self.formula(current)
+                if not formula.problem:
+                    todo.extend(formula.precedents)
+        return seen
+
     def _ra_of_h(self, rec):
         nusselt = self.recognised.get(rec.roles.get("nusselt"))
         if nusselt is None:
@@ -696,9 +735,9 @@ class _Checker:
         area_key = rec.roles["area"]
         if not lengths or area_key not in self.model.nodes:
             return   # a typed area, or a geometry without a defining length: not checked
-        upstream = self.model.upstream([area_key])
+        upstream = self._reads(area_key)
         wanted = {self.value(k) for k in lengths} - {None}
-        read = {self.value(k) for k in upstream if k[0] != "#name"} - {None}
+        read = {self.value(k) for k in upstream} - {None}
         if lengths & upstream or wanted & read:
             return
         names = ", ".join(f"{self.name(k)} = {self.value(k):.6g} m" for k in sorted(lengths))
