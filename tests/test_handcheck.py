@@ -1,0 +1,79 @@
+"""The hand check on small books typed here: rearrangements, limits, what is never claimed."""
+
+from __future__ import annotations
+
+import openpyxl
+import pytest
+
+import stillair
+from stillair.addin.handcheck import MAX_INPUTS, check_hand_book
+
+
+def _book(tmp_path, cells, name="book.xlsx"):
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calc"
+    for ref, value in cells.items():
+        ws[ref] = value
+    path = tmp_path / name
+    wb.save(path)
+    return str(path)
+
+
+def _plate_inputs():
+    p = stillair.gas_properties("air", 35.0)
+    return {"B1": 45.0, "B2": 25.0, "B3": 0.5, "B4": 1 / (35 + 273.15), "B5": p.kinvisc,
+            "B6": p.diffusivity, "B7": p.prandtl}
+
+
+def test_a_rearranged_rayleigh_number_is_recognised(tmp_path):
+    """The test is numerical: the factors in any order, divided one by one, g last."""
+    path = _book(tmp_path, dict(_plate_inputs(), C1="=B3^3*B4*(B1-B2)/B5/B6*9.80665"))
+    result = check_hand_book(path)
+    (ra,) = result.recognised
+    assert ra.form.quantity == "Ra" and ra.ratio == 1.0 and not result.findings
+    # the same number as the engine's definition g beta dT L^3/(nu alpha) (groups.py)
+    inputs = _plate_inputs()
+    expected = 9.80665 * inputs["B4"] * 20 * 0.5 ** 3 / (inputs["B5"] * inputs["B6"])
+    assert ra.value == pytest.approx(expected, rel=1e-12)
+
+
+def test_churchill_chu_typed_by_hand_is_named_from_the_registry(tmp_path):
+    cells = dict(_plate_inputs(), C1="=9.80665*B4*(B1-B2)*B3^3/(B5*B6)",
+                 C2="=(0.825+0.387*C1^(1/6)/(1+(0.492/B7)^(9/16))^(8/27))^2")
+    result = check_hand_book(_book(tmp_path, cells))
+    nu = next(r for r in result.recognised if r.form.quantity == "Nu")
+    assert (nu.form.geometry, nu.form.method) == ("vplate", "churchill-chu")
+    assert nu.value == pytest.approx(float(stillair.nu_vplate(nu.values["ra"], nu.values["pr"],
+                                                                method="churchill-chu")), rel=1e-12)
+
+
+def test_a_mistyped_constant_is_named_with_the_value_that_matches(tmp_path):
+    cells = dict(_plate_inputs(), C1="=9.80665*B4*(B1-B2)*B3^3/(B5*B6)",
+                 C2="=(0.825+0.387*C1^(1/6)/(1+(0.429/B7)^(9/16))^(8/27))^2")
+    result = check_hand_book(_book(tmp_path, cells))
+    (finding,) = result.findings
+    assert finding.kind == "constant" and finding.cell == "Calc!C2"
+    assert "0.429" in finding.message and "0.492" in finding.message
+
+
+def test_products_and_sums_are_never_claimed(tmp_path):
+    result = check_hand_book(_book(tmp_path, {"B1": 2.0, "B2": 3.0, "B3": 5.0, "C1": "=B1*B2",
+                                              "C2": "=B1+B2+B3", "C3": "=(B1+B2)/2"}))
+    assert not result.recognised and not result.findings
+    assert result.unrecognised == ["Calc!C1", "Calc!C2", "Calc!C3"]
+
+
+def test_a_formula_of_too_many_inputs_is_said_to_be_too_large(tmp_path):
+    cells = {f"A{i}": float(i) for i in range(1, MAX_INPUTS + 2)}
+    cells["B1"] = "=" + "*".join(f"A{i}" for i in range(1, MAX_INPUTS + 2))
+    result = check_hand_book(_book(tmp_path, cells))
+    assert result.too_large == ["Calc!B1"]
+    assert "too large to identify" in result.summary()
+
+
+def test_a_missing_book_names_the_path(tmp_path):
+    from stillair.addin.xlsx import BookError
+    missing = str(tmp_path / "none.xlsx")
+    with pytest.raises((BookError, OSError), match="none.xlsx"):
+        check_hand_book(missing)
