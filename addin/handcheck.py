@@ -48,8 +48,11 @@ MATCH_RTOL = 1e-9           # agreement at every probe
 ROUNDING = 5e-3             # a constant ratio within this is a rounded constant, stated only
 PROPERTY_THRESHOLD = 0.02   # a typed property is a finding when it moves its cell by more
 NEAR = 0.6                  # a form within this at every probe is worth a constant search
-_NEAR_TRIED = 24            # the closest that many are searched for one mistyped constant
+_NEAR_TRIED = 8             # the closest that many are searched for one mistyped constant
 _MAX_CONSTANTS = 16         # typed numbers of one formula tried as the mistyped one
+_SECANT_STEPS = 12
+WIDE = 4                    # points far from the workbook's values a near-match must also hold at
+SEARCH_BUDGET = 12_000      # formula evaluations a book may spend on near-matches
 _SCRATCH = "XEZ999999"      # a cell far out of any used range: the constant being solved
 _SEED = 20240611
 
@@ -87,7 +90,7 @@ class Recognition:
     values: dict                # role -> base value
     value: float
     ratio: float = 1.0          # cell / form, constant over the probes
-    constant: tuple | None = None   # (typed, would be) for a one-constant near-match
+    constant: tuple | None = None   # (as written, typed value, the value that matches)
     statements: list = field(default_factory=list)   # stated, not findings
     findings: list = field(default_factory=list)
 
@@ -107,6 +110,7 @@ class HandCheck:
     iteration: dict | None = None
     seconds: float = 0.0
     timing: dict = field(default_factory=dict)
+    unsearched: list[str] = field(default_factory=list)   # search budget spent before them
 
     def summary(self) -> str:
         n = len(self.recognised)
@@ -116,6 +120,9 @@ class HandCheck:
                 f"{n - agree} with findings; {len(self.unrecognised)} not recognised")
         if self.too_large:
             text += f", {len(self.too_large)} too large to identify"
+        if self.unsearched:
+            text += (f", {len(self.unsearched)} not searched for a mistyped constant (search "
+                     "budget spent)")
         if self.iteration is not None:
             text += "; iteration " + ("converged" if self.iteration["converged"]
                                       else "NOT converged")
@@ -139,7 +146,7 @@ class _Formula:
         if node is None or node.prepared is None or node.problem or node.array or node.name:
             self.problem = "not a single-cell formula the evaluator reads"
             return
-        function, positions, problem = model._compile(node, share=node.text == model.nodes[key].text)
+        function, positions, problem = model._compile(node)
         if problem:
             self.problem = problem
             return
@@ -241,7 +248,7 @@ def _match_quietly(x, y, candidates):
         for i in np.nonzero(spread < NEAR)[0]:
             near.append(_Match(form, tuple(orders[i]), float(ratio[i, 0]), float(spread[i])))
     near.sort(key=lambda m: m.close)
-    return exact, scaled, near[:_NEAR_TRIED]
+    return exact, scaled, near
 
 
 # Forms whose written constants a practitioner types (g, sigma, the correlation's constants):
@@ -309,7 +316,7 @@ class _Checker:
         self.formulas: dict = {}
         self.recognised: dict = {}
         self.findings: list[HandFinding] = []
-        self.unrecognised, self.too_large = [], []
+        self.unrecognised, self.too_large, self.unsearched = [], [], []
         self.iteration = None
 
     # -- values ---------------------------------------------------------------------------
@@ -407,7 +414,8 @@ class _Checker:
     # -- recognition ----------------------------------------------------------------------
 
     def recognise_all(self) -> None:
-        rng = np.random.default_rng(_SEED)
+        rng = self.rng = np.random.default_rng(_SEED)
+        self.search_left = SEARCH_BUDGET
         all_forms = forms()
         by_count = {n: [f for f in all_forms if len(f.roles) == n] for n in range(1, MAX_INPUTS + 1)}
         keys = [(s.name, ref) for s in self.book.sheets for ref in s.formula_refs()
@@ -444,11 +452,26 @@ class _Checker:
     def _identify(self, key, formula, inputs, x, y, candidates) -> None:
         exact, scaled, near = _match_forms(x, y, candidates)
         match, constant = None, None
-        if exact or scaled:
-            match = max(exact or scaled, key=lambda m: self._fits(m, inputs))
+        if exact:
+            match = max(exact, key=lambda m: self._fits(m, inputs))
         else:
-            for candidate in near:
-                constant = self._one_constant(key, inputs, x, candidate)
+            # A near-match must hold far from the workbook's values too (each input moved by up
+            # to a factor 10): a correlation in one of its limits is locally a power law, and
+            # any power law typed by hand would otherwise pass for it times a constant.
+            wide = self._wide(x[0])
+            points = np.vstack([x, wide])
+            scaled = [m for m in scaled if self._identifying(m, points)]
+            near = itertools.islice((m for m in near if self._identifying(m, points)),
+                                    _NEAR_TRIED)
+            for candidate in sorted(scaled, key=lambda m: self._fits(m, inputs), reverse=True):
+                if self._holds(formula, inputs, wide, candidate, candidate.ratio):
+                    match = candidate
+                    break
+            for candidate in near if match is None else ():
+                if self.search_left <= 0:
+                    self.unsearched.append(self.name(key))
+                    break
+                constant = self._one_constant(key, inputs, x, wide, candidate)
                 if constant is not None:
                     match = candidate
                     break
@@ -460,6 +483,49 @@ class _Checker:
         self.recognised[key] = Recognition(self.name(key), key, match.form, roles, values,
                                            float(y[0]), match.ratio if constant is None else 1.0,
                                            constant)
+
+    @staticmethod
+    def _identifying(match: _Match, points) -> bool:
+        """Whether a near-match to this form would say anything: not where a correlation is a
+        pure power law over the points (in one of its limits, as Bar-Cohen and Rohsenow's
+        composite far from the fully developed limit), since every power law typed by hand with
+        those exponents is then the form times a constant.  The groups keep their near-matches:
+        five inputs with the exponents of g beta dT L^3/(nu alpha) identify a Rayleigh number."""
+        form = match.form
+        if form.name != "correlation":
+            return True
+        columns = [points[:, i] for i in match.order]
+        with np.errstate(all="ignore"), warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            values = np.asarray(form.function(**{role: column for role, column in
+                                                 zip(form.roles, columns)}), dtype=float)
+            logs = [np.log(np.abs(c)) for c in columns if np.ptp(c) > 0]
+            design = np.column_stack([np.ones(len(points)), *logs])
+            target = np.log(np.abs(values))
+        if not np.all(np.isfinite(design)) or not np.all(np.isfinite(target)):
+            return True
+        fit, *_ = np.linalg.lstsq(design, target, rcond=None)
+        return bool(np.max(np.abs(design @ fit - target)) > 1e-6)
+
+    def _wide(self, base) -> np.ndarray:
+        factors = np.exp(self.rng.uniform(-math.log(10), math.log(10), size=(WIDE, len(base))))
+        return base * factors
+
+    def _holds(self, evaluate, inputs, points, match: _Match, ratio: float, extra=None) -> bool:
+        """Whether the cell (``evaluate``, with ``extra`` inputs) equals ``ratio`` times the
+        matched form at every point, to 1e-7."""
+        form = match.form
+        with np.errstate(all="ignore"), warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            expected = np.asarray(form.function(**{role: points[:, match.order[j]] for j, role
+                                                  in enumerate(form.roles)}), dtype=float) * ratio
+        for point, want in zip(points, np.broadcast_to(expected, (len(points),)).tolist()):
+            values = {**dict(zip(inputs, point)), **(extra or {})}
+            self.search_left -= 1
+            got = evaluate(values)
+            if got is None or not math.isfinite(want) or abs(got - want) > 1e-7 * abs(want):
+                return False
+        return True
 
     def _fits(self, match: _Match, inputs) -> tuple:
         """How well an assignment agrees with what the inputs were recognised as: a Nusselt
@@ -475,36 +541,47 @@ class _Checker:
                 score -= 1   # a typed number where a computed group is due
         return (score,)
 
-    def _one_constant(self, key, inputs, x, near: _Match):
+    def _one_constant(self, key, inputs, x, wide, near: _Match):
         """A typed constant of the formula which, changed alone, makes the cell match ``near``'s
-        form at every probe: (the constant as typed, its value, the value that matches), or
-        None.  Each constant is made an input of its own (one compilation per constant), solved
-        for at the first probe and checked at the others."""
-        from scipy.optimize import brentq
-
+        form at every probe, near and wide: (the constant as typed, its value, the value that
+        matches, None), or None.  Each constant is made an input of its own (one compilation
+        per constant) and solved for by the secant method at the first probe, or at a wide one
+        where it governs there (a constant inside a MAX of terms may not govern at the
+        workbook's values)."""
         form, order = near.form, near.order
+        points = np.vstack([x, wide])
         with np.errstate(all="ignore"):
-            target = np.asarray(form.function(**{role: x[:, order[j]] for j, role in
+            targets = np.asarray(form.function(**{role: points[:, order[j]] for j, role in
                                                   enumerate(form.roles)}), dtype=float)
         for written, typed, variant, slot in self._constants(key):
-            def value(c, probe):
-                values = dict(zip(inputs, x[probe]))
-                values[slot] = c
-                got = variant(values)
-                return math.nan if got is None else got / target[probe] - 1
-
-            points = [(c, value(c, 0)) for c in typed * np.array([0.2, 0.5, 0.8, 0.95, 1.05,
-                                                                  1.25, 2.0, 5.0])]
-            points.sort()
-            for (a, fa), (b, fb) in zip(points, points[1:]):
-                if math.isfinite(fa) and math.isfinite(fb) and fa * fb <= 0:
-                    try:
-                        found = brentq(lambda c: value(c, 0), a, b, xtol=1e-15, rtol=1e-14)
-                    except (ValueError, RuntimeError):
-                        continue
-                    if all(abs(value(found, p)) <= 1e-7 for p in range(1, len(target))):
-                        return written, typed, float(f"{found:.6g}")
+            for point, target in zip(points[[0, *range(len(x), len(points))]],
+                                     targets[[0, *range(len(x), len(points))]]):
+                found = self._solve(variant, dict(zip(inputs, point)), slot, typed, target)
+                if found is not None and self._holds(variant, inputs, points, near, 1.0,
+                                                     {slot: found}):
+                    return written, typed, float(f"{found:.6g}")
         return None
+
+    def _solve(self, variant, values, slot, typed, target) -> float | None:
+        """The constant's value that makes the cell equal ``target`` at ``values``: the secant
+        method from the typed value; None if it does not converge within a factor 5."""
+        def residual(c):
+            self.search_left -= 1
+            got = variant({**values, slot: c})
+            return math.nan if got is None or not target else got / target - 1
+
+        a, b = typed, typed * 1.05
+        fa, fb = residual(a), residual(b)
+        for _ in range(_SECANT_STEPS):
+            if not (math.isfinite(fa) and math.isfinite(fb)) or fa == fb:
+                return None
+            a, b, fa = b, b - fb * (b - a) / (fb - fa), fb
+            fb = residual(b)
+            if abs(fb) <= 1e-12:
+                break
+        if not (math.isfinite(fb) and abs(fb) <= 1e-10) or b == typed or not 0.2 <= b / typed <= 5:
+            return None
+        return b
 
     def _constants(self, key):
         """Per typed number of the formula: (text, value, the formula with that number read
@@ -545,8 +622,13 @@ class _Checker:
             if rec.constant is not None:
                 written, typed, right = rec.constant
                 engine = self._form_value(form, rec.values)
-                self._add(rec, "constant", f"the formula matches {form.title} once its typed "
-                          f"constant {written} is {right:.6g}: one constant mistyped", engine)
+                text = f"the formula matches {form.title} once its typed constant {written} is " \
+                       f"{right:.6g}"
+                if abs(_rel(rec.value, engine) or 0.0) <= ROUNDING:
+                    rec.statements.append(f"{text}: a rounded constant, moving the cell by "
+                                          f"{_rel(rec.value, engine) * 100:+.3f} %")
+                else:
+                    self._add(rec, "constant", f"{text}: one constant mistyped", engine)
             elif rec.ratio != 1.0:
                 self._ratio(rec)
             if form.mistake:
@@ -820,7 +902,8 @@ def check_hand_book(path: str) -> HandCheck:
     return HandCheck(path, recognised, findings,
                      sum(len(s.formulas) for s in checker.book.sheets), checker.unrecognised,
                      checker.too_large, checker.iteration,
-                     time.perf_counter() - checker.started, checker.timing)
+                     time.perf_counter() - checker.started, checker.timing,
+                     unsearched=checker.unsearched)
 
 
 def _offline():
@@ -857,6 +940,7 @@ def hand_json(result: HandCheck) -> dict:
         "findings": [dataclasses.asdict(f) for f in result.findings],
         "unrecognised": result.unrecognised,
         "too_large": result.too_large,
+        "unsearched": result.unsearched,
         "iteration": result.iteration,
         "timing": dict(result.timing, total=result.seconds),
     }
