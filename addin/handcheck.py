@@ -36,7 +36,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .handforms import CLASS_WORDS, ROLE_CLASS, Form, forms, plausible
+from .handforms import Form, forms, plausible, with_typed
 
 __all__ = ["HandFinding", "Recognition", "HandCheck", "check_hand_book", "format_hand",
            "hand_json", "MAX_INPUTS", "PROBES", "MATCH_RTOL", "PROPERTY_THRESHOLD", "ROUNDING",
@@ -451,6 +451,8 @@ class _Checker:
 
     def _identify(self, key, formula, inputs, x, y, candidates) -> None:
         exact, scaled, near = _match_forms(x, y, candidates)
+        if not exact:
+            exact = self._typed_prandtl(key, x, y)
         match, constant = None, None
         if exact:
             match = max(exact, key=lambda m: self._fits(m, inputs))
@@ -480,9 +482,37 @@ class _Checker:
             return
         roles = {role: inputs[i] for role, i in zip(match.form.roles, match.order)}
         values = {role: float(x[0][i]) for role, i in zip(match.form.roles, match.order)}
+        values.update({role: match.form.fixed[role] for role in match.form.inline})
         self.recognised[key] = Recognition(self.name(key), key, match.form, roles, values,
                                            float(y[0]), match.ratio if constant is None else 1.0,
                                            constant)
+
+    def _typed_prandtl(self, key, x, y) -> list:
+        """Exact matches of the correlations that read Pr, with Pr one of the numbers typed in
+        the formula (a Prandtl number written into the correlation, as 0.71 for air)."""
+        numbers = {value for _, _, value in self._typed_numbers(key) if plausible(
+            "pr", np.asarray(value))}
+        if not numbers:
+            return []
+        candidates = [with_typed(form, "pr", value) for form in forms()
+                      if form.name == "correlation" and "pr" in form.roles and
+                      len(form.roles) == x.shape[1] + 1 for value in sorted(numbers)]
+        return _match_forms(x, y, candidates)[0]
+
+    def _typed_numbers(self, key) -> list:
+        """(token index, text, value) of every number typed in the cell's formula."""
+        from openpyxl.formula.tokenizer import Token, Tokenizer
+
+        cache = self.__dict__.setdefault("_numbers", {})
+        if key not in cache:
+            try:
+                tokens = Tokenizer("=" + self.model.nodes[key].text).items
+            except Exception:
+                tokens = []
+            cache[key] = [(i, t.value, float(t.value)) for i, t in enumerate(tokens)
+                          if t.type == Token.OPERAND and t.subtype == Token.NUMBER]
+            self.__dict__.setdefault("_tokens", {})[key] = tokens
+        return cache[key]
 
     @staticmethod
     def _identifying(match: _Match, points) -> bool:
@@ -586,22 +616,15 @@ class _Checker:
     def _constants(self, key):
         """Per typed number of the formula: (text, value, the formula with that number read
         from a scratch cell, the scratch cell's key); built once per cell."""
-        from openpyxl.formula.tokenizer import Token, Tokenizer
-
         cache = self.__dict__.setdefault("_constant_variants", {})
         if key in cache:
             return cache[key]
+        numbers = self._typed_numbers(key)
+        tokens = self._tokens[key]
         node = self.model.nodes[key]
-        found = []
-        try:
-            tokens = Tokenizer("=" + node.text).items
-        except Exception:
-            tokens = []
-        numbers = [i for i, t in enumerate(tokens)
-                   if t.type == Token.OPERAND and t.subtype == Token.NUMBER]
         slot = (node.sheet, _SCRATCH)
-        for index in numbers[:_MAX_CONSTANTS]:
-            typed = float(tokens[index].value)
+        found = []
+        for index, written, typed in numbers[:_MAX_CONSTANTS]:
             if typed == 0:
                 continue
             text = "".join(_SCRATCH if i == index else t.value for i, t in enumerate(tokens))
@@ -610,7 +633,7 @@ class _Checker:
             self.model._prepare(variant)
             formula = _Formula(self.model, key, variant)
             if not formula.problem:
-                found.append((tokens[index].value, typed, formula, slot))
+                found.append((written, typed, formula, slot))
         cache[key] = found
         return found
 
@@ -652,8 +675,8 @@ class _Checker:
     def _form_value(form, values) -> float:
         with np.errstate(all="ignore"), warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            return float(np.asarray(form.function(**{r: np.asarray([v]) for r, v in
-                                                     values.items()})).ravel()[0])
+            return float(np.asarray(form.function(**{r: np.asarray([values[r]]) for r in
+                                                     form.roles})).ravel()[0])
 
     def _ratio(self, rec) -> None:
         q = rec.ratio
@@ -725,7 +748,7 @@ class _Checker:
 
     def _properties(self, rec) -> None:
         typed_roles = [r for r in rec.roles if r in _PROPERTY_OF_ROLE and
-                       self.is_constant(rec.roles[r])]
+                       self.is_constant(rec.roles[r])] + list(rec.form.inline)
         if not typed_roles:
             return
         film = self._film(rec)
@@ -744,13 +767,18 @@ class _Checker:
             engine_property = float(getattr(props, attribute))
             typed = rec.values[role]
             changed = dict(rec.values, **{role: engine_property})
-            with_engine = self._form_value(rec.form, changed) * rec.ratio
+            form = rec.form
+            while form.base is not None:   # the roles typed in the formula become inputs again
+                form = form.base
+            with_engine = self._form_value(form, changed) * rec.ratio
             moves = _rel(rec.value, with_engine)
             right_at = _temperature_where(gas, attribute, typed, t_film)
             at = f"right at {right_at:.1f} degC" if right_at is not None else \
                 "not the gas's value at any temperature from -50 to 400 degC"
-            message = (f"typed {_PROPERTY_WORDS[attribute]} {typed:.5g} in "
-                       f"{self.name(rec.roles[role])} is {at}; the sheet's film temperature is "
+            where = f"typed in the formula of {rec.cell}" if role in rec.form.inline else \
+                f"in {self.name(rec.roles[role])}"
+            message = (f"typed {_PROPERTY_WORDS[attribute]} {typed:.5g} {where} is {at}; the "
+                       "sheet's film temperature is "
                        f"{t_film:.1f} degC (mean of {t1:.4g} and {t2:.4g}), where {gas} has "
                        f"{engine_property:.5g} ({_rel(typed, engine_property) * 100:+.2f} %)")
             if abs(moves) > PROPERTY_THRESHOLD:

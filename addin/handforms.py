@@ -27,7 +27,7 @@ from typing import Callable
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY, Stefan_Boltzmann as SIGMA, zero_Celsius
 
-__all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS"]
+__all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS", "with_typed"]
 
 # Plausible values of the inputs of each class (still-air work, SI units, temperatures in degC).
 # Bounds are generous: they only keep absurd assignments out of the search.
@@ -92,6 +92,20 @@ class Form:
     case: str | None = None
     band: str | None = None         # one published band of a piecewise correlation
     fixed: dict = field(default_factory=dict)   # roles the form fixes (tilt 90 for a layer)
+    inline: tuple[str, ...] = ()    # roles whose value is a number typed in the formula
+    base: "Form | None" = None      # the form before a role was fixed to a typed number
+
+
+def with_typed(form: Form, role: str, value: float) -> Form:
+    """``form`` with ``role`` taken as a number typed in the formula itself (Pr = 0.71 written
+    into a correlation): the roles left are the formula's cell inputs."""
+    def function(**inputs):
+        shape = np.shape(next(iter(inputs.values())))
+        return form.function(**inputs, **{role: np.full(shape, value)})
+
+    return Form(form.name, form.title, tuple(r for r in form.roles if r != role), function,
+                form.quantity, form.mistake, form.geometry, form.method, form.case, form.band,
+                dict(form.fixed, **{role: value}), form.inline + (role,), form)
 
 
 def _kelvin(t, offset=zero_Celsius):

@@ -77,3 +77,16 @@ def test_a_missing_book_names_the_path(tmp_path):
     missing = str(tmp_path / "none.xlsx")
     with pytest.raises((BookError, OSError), match="none.xlsx"):
         check_hand_book(missing)
+
+
+def test_a_prandtl_number_typed_into_the_correlation_is_recognised_and_checked(tmp_path):
+    """Churchill-Chu with Pr = 0.71 written into the formula: recognised with Pr from the
+    formula's own numbers, and Pr compared with air's at the film temperature (35 degC)."""
+    cells = dict(_plate_inputs(), C1="=9.80665*B4*(B1-B2)*B3^3/(B5*B6)",
+                 C2="=(0.825+0.387*C1^(1/6)/(1+(0.492/0.71)^(9/16))^(8/27))^2")
+    result = check_hand_book(_book(tmp_path, cells))
+    nu = next(r for r in result.recognised if r.form.quantity == "Nu")
+    assert nu.form.method == "churchill-chu" and nu.values["pr"] == 0.71
+    (statement,) = [s for s in nu.statements if "Prandtl" in s]
+    assert "typed in the formula of Calc!C2" in statement and "35.0 degC" in statement
+    assert not result.findings   # 0.71 against air's 0.706 moves Nu by far less than 2 %
