@@ -57,7 +57,9 @@ _SCRATCH = "XEZ999999"      # a cell far out of any used range: the constant bei
 _SEED = 20240611
 
 # What a role's input is, when it is a recognised cell.
-_ROLE_QUANTITY = {"ra": ("Ra",), "nusselt": ("Nu",), "h": ("h", "hrad"), "expansion": ("beta",),
+_ROLE_QUANTITY = {"ra": ("Ra",), "nusselt": ("Nu",), "h": ("h", "hrad"), "h2": ("h", "hrad"),
+                  "r1": ("R",), "r2": ("R",), "r3": ("R",), "outer": (), "inner": (),
+                  "expansion": ("beta",),
                   "pr": ("Pr",), "tb": (), "t1": (), "t2": (), "dt": (), "length": (),
                   "area": (), "kinvisc": (), "diffusivity": (), "conductivity": (), "eps": (),
                   "eps1": (), "eps2": (), "aspect": (), "slenderness": (), "tilt": ()}
@@ -416,6 +418,7 @@ class _Checker:
     def recognise_all(self) -> None:
         rng = self.rng = np.random.default_rng(_SEED)
         self.search_left = SEARCH_BUDGET
+        pending = []
         all_forms = forms()
         by_count = {n: [f for f in all_forms if len(f.roles) == n] for n in range(1, MAX_INPUTS + 1)}
         keys = [(s.name, ref) for s in self.book.sheets for ref in s.formula_refs()
@@ -446,13 +449,25 @@ class _Checker:
                 y[i] = value
             else:
                 self._identify(key, formula, inputs, x, y, by_count[len(inputs)])
+                if key not in self.recognised:
+                    pending.append((key, inputs, x, y))
                 continue
             self.unrecognised.append(self.name(key))
+        # A cell above the cells it combines (a total at the top of a sheet) is looked at again
+        # once they are recognised: the forms with a context need them.
+        for key, inputs, x, y in pending:
+            exact = [m for m in _match_forms(x, y, [f for f in by_count[len(inputs)]
+                                                    if f.context])[0]
+                     if self._in_context(m, inputs)]
+            if exact:
+                self.unrecognised.remove(self.name(key))
+                self._record(key, inputs, x, y, max(exact, key=lambda m: self._fits(m, inputs)))
 
     def _identify(self, key, formula, inputs, x, y, candidates) -> None:
         exact, scaled, near = _match_forms(x, y, candidates)
         if not exact:
             exact = self._typed_prandtl(key, x, y)
+        exact = [m for m in exact if self._in_context(m, inputs)]
         match, constant = None, None
         if exact:
             match = max(exact, key=lambda m: self._fits(m, inputs))
@@ -480,6 +495,9 @@ class _Checker:
         if match is None:
             self.unrecognised.append(self.name(key))
             return
+        self._record(key, inputs, x, y, match, constant)
+
+    def _record(self, key, inputs, x, y, match: _Match, constant=None) -> None:
         roles = {role: inputs[i] for role, i in zip(match.form.roles, match.order)}
         values = {role: float(x[0][i]) for role, i in zip(match.form.roles, match.order)}
         values.update({role: match.form.fixed[role] for role in match.form.inline})
@@ -555,6 +573,17 @@ class _Checker:
             got = evaluate(values)
             if got is None or not math.isfinite(want) or abs(got - want) > 1e-7 * abs(want):
                 return False
+        return True
+
+    def _in_context(self, match: _Match, inputs) -> bool:
+        """A form with a context (a sum as series resistances) counts only where its inputs
+        were recognised as what it combines."""
+        for role, i in zip(match.form.roles, match.order):
+            wanted = match.form.context.get(role)
+            if wanted is not None:
+                source = self.recognised.get(inputs[i])
+                if source is None or source.form.quantity not in wanted:
+                    return False
         return True
 
     def _fits(self, match: _Match, inputs) -> tuple:
@@ -663,6 +692,7 @@ class _Checker:
                 self._length(rec)
             if form.quantity == "Q" and "area" in rec.roles:
                 self._area(rec)
+                self._difference(rec)
 
     def _add(self, rec, kind, message, engine=None):
         value = rec.value
@@ -821,6 +851,25 @@ class _Checker:
                       f"{ra.cell} is built on L = {there:.6g} m "
                       f"({self.name(ra.roles['length'])}): the same length is due in both",
                       engine)
+
+    def _difference(self, rec) -> None:
+        """A convective heat flow h A (T1 - T2) must take the temperature difference its
+        coefficient's Rayleigh number was built on."""
+        h = self.recognised.get(rec.roles.get("h"))
+        if h is None or h.form.name != "h-from-nusselt":
+            return
+        found = self._ra_of_h(h)
+        if found is None or found[0] is None:
+            return
+        group, here = self._film(found[0]), self._film(rec)
+        if group is None or here is None:
+            return
+        if sorted(group[:2]) != sorted(here[:2]):
+            engine = rec.value / (here[0] - here[1]) * abs(group[0] - group[1]) * \
+                (1 if here[0] >= here[1] else -1)
+            self._add(rec, "difference", f"the heat flow takes the difference {here[0]:.6g} - "
+                      f"{here[1]:.6g} degC, but its coefficient comes from the Rayleigh number "
+                      f"{found[0].cell}, built on {group[0]:.6g} - {group[1]:.6g} degC", engine)
 
     def _area(self, rec) -> None:
         """The area of a heat flow h A dT must be built from the geometry's length: the plate's

@@ -49,6 +49,7 @@ _CLASS_RANGES = {
     "aspect": (0.01, 1e4),
     "slenderness": (0.01, 1e4),
     "tilt": (0.0, 180.0),
+    "resistance": (1e-9, 1e9),          # K/W
 }
 
 CLASS_WORDS = {"temperature": "temperature", "length": "length", "area": "area",
@@ -64,6 +65,8 @@ ROLE_CLASS = {
     "ra": "rayleigh", "pr": "prandtl", "nusselt": "nusselt", "h": "coefficient",
     "eps": "emissivity", "eps1": "emissivity", "eps2": "emissivity",
     "aspect": "aspect", "slenderness": "slenderness", "tilt": "tilt",
+    "r1": "resistance", "r2": "resistance", "r3": "resistance", "h2": "coefficient",
+    "outer": "length", "inner": "length",
 }
 
 
@@ -94,6 +97,9 @@ class Form:
     fixed: dict = field(default_factory=dict)   # roles the form fixes (tilt 90 for a layer)
     inline: tuple[str, ...] = ()    # roles whose value is a number typed in the formula
     base: "Form | None" = None      # the form before a role was fixed to a typed number
+    # Roles whose inputs must be cells recognised as one of these quantities for the form to
+    # count: a sum of two numbers is a series resistance only when both are resistances.
+    context: dict = field(default_factory=dict)
 
 
 def with_typed(form: Form, role: str, value: float) -> Form:
@@ -221,6 +227,22 @@ def _conduction_forms():
                ("thickness", "solid_conductivity", "area"),
                lambda thickness, solid_conductivity, area: thickness / (solid_conductivity * area),
                "R")
+    yield Form("conduction-resistance", "conduction resistance of a cylindrical shell, "
+               "ln(D2/D1)/(2 pi k L)", ("outer", "inner", "solid_conductivity", "length"),
+               lambda outer, inner, solid_conductivity, length:
+               np.log(outer / inner) / (2 * np.pi * solid_conductivity * length), "R")
+    yield Form("surface-resistance", "surface resistance, 1/(h A)", ("h", "area"),
+               lambda h, area: 1.0 / (h * area), "R", context={"h": ("h", "hrad")})
+    resistance = {"r1": ("R",), "r2": ("R",), "r3": ("R",)}
+    yield Form("series", "resistances in series, R1 + R2", ("r1", "r2"),
+               lambda r1, r2: r1 + r2, "R", context=resistance)
+    yield Form("series", "resistances in series, R1 + R2 + R3", ("r1", "r2", "r3"),
+               lambda r1, r2, r3: r1 + r2 + r3, "R", context=resistance)
+    yield Form("parallel", "resistances in parallel, 1/(1/R1 + 1/R2)", ("r1", "r2"),
+               lambda r1, r2: 1.0 / (1.0 / r1 + 1.0 / r2), "R", context=resistance)
+    yield Form("coefficients-in-parallel", "convection and radiation in parallel, h + hrad",
+               ("h", "h2"), lambda h, h2: h + h2, "h",
+               context={"h": ("h",), "h2": ("hrad",)})
 
 
 # ---------------------------------------------------------------------------------------------

@@ -90,3 +90,75 @@ def test_a_prandtl_number_typed_into_the_correlation_is_recognised_and_checked(t
     (statement,) = [s for s in nu.statements if "Prandtl" in s]
     assert "typed in the formula of Calc!C2" in statement and "35.0 degC" in statement
     assert not result.findings   # 0.71 against air's 0.706 moves Nu by far less than 2 %
+
+
+def _plate_chain(**changes):
+    """A vertical plate typed by hand: Ra, Churchill-Chu, h, area, heat flow, radiation, a
+    surface resistance and the two resistances in parallel."""
+    p = stillair.gas_properties("air", 35.0)
+    cells = {"B1": 45.0, "B2": 25.0, "B3": 0.5, "B4": 0.8, "B5": p.kinvisc, "B6": p.diffusivity,
+             "B7": p.prandtl, "B8": p.conductivity, "B9": 0.9,
+             "C1": "=1/((B1+B2)/2+273.15)", "C2": "=9.80665*C1*(B1-B2)*B3^3/(B5*B6)",
+             "C3": "=(0.825+0.387*C2^(1/6)/(1+(0.492/B7)^(9/16))^(8/27))^2",
+             "C4": "=C3*B8/B3", "C5": "=B3*B4", "C6": "=C4*C5*(B1-B2)",
+             "C7": "=5.670374419E-8*B9*((B1+273.15)^2+(B2+273.15)^2)*(B1+B2+546.3)",
+             "C8": "=1/(C4*C5)", "C9": "=1/(C7*C5)", "C10": "=1/(1/C8+1/C9)", "C11": "=C4+C7"}
+    cells.update(changes)
+    return cells
+
+
+def test_a_whole_plate_calculation_is_recognised_and_agrees(tmp_path):
+    result = check_hand_book(_book(tmp_path, _plate_chain()))
+    quantities = {r.cell: r.form.quantity for r in result.recognised}
+    assert quantities == {"Calc!C1": "beta", "Calc!C2": "Ra", "Calc!C3": "Nu", "Calc!C4": "h",
+                          "Calc!C6": "Q", "Calc!C7": "hrad", "Calc!C8": "R", "Calc!C9": "R",
+                          "Calc!C10": "R", "Calc!C11": "h"}
+    assert result.unrecognised == ["Calc!C5"]   # a product of two lengths is never claimed
+    assert not result.findings
+    # the hand h equals the engine's one-call h_vplate with the same (ideal-gas) expansion
+    h = next(r for r in result.recognised if r.cell == "Calc!C4").value
+    assert h == pytest.approx(float(stillair.h_vplate(45.0, 25.0, 0.5)), rel=2e-3)
+
+
+def test_a_heat_flow_on_another_temperature_difference_is_a_finding(tmp_path):
+    result = check_hand_book(_book(tmp_path, _plate_chain(C6="=C4*C5*(B1-B10)", B10=20.0)))
+    (finding,) = result.findings
+    assert (finding.kind, finding.cell) == ("difference", "Calc!C6")
+    assert finding.engine == pytest.approx(finding.value * 20.0 / 25.0, rel=1e-12)
+
+
+@pytest.mark.parametrize("changes, kind, cell", [
+    ({"C1": "=1/((B1+B2)/2)"}, "beta-celsius", "Calc!C1"),
+    ({"C2": "=9.80665/((B1+B2)/2)*(B1-B2)*B3^3/(B5*B6)"}, "beta-celsius", "Calc!C2"),
+    ({"C7": "=5.670374419E-8*B9*(B1^2+B2^2)*(B1+B2)"}, "celsius", "Calc!C7"),
+    ({"C4": "=C3*B8/B4"}, "length", "Calc!C4"),
+    ({"C5": "=B4*B4"}, "area", "Calc!C6"),
+    ({"C2": "=9.18*C1*(B1-B2)*B3^3/(B5*B6)"}, "constant", "Calc!C2"),
+    ({"B3": 3.0, "C3": "=0.68+0.67*C2^0.25/(1+(0.492/B7)^(9/16))^(4/9)"}, "out-of-range",
+     "Calc!C3"),   # Churchill and Chu's laminar form at Ra ~ 1e11
+])
+def test_each_kind_of_mistake_is_found_where_it_is(tmp_path, changes, kind, cell):
+    result = check_hand_book(_book(tmp_path, _plate_chain(**changes)))
+    assert (kind, cell) in {(f.kind, f.cell) for f in result.findings}, result.findings
+
+
+def test_a_property_at_the_wrong_temperature_names_where_it_is_right(tmp_path):
+    """nu of air at 0 degC typed for a 35 degC film: Ra moves by ~ 25 %."""
+    nu_cold = stillair.air_kinvisc(0.0)
+    result = check_hand_book(_book(tmp_path, _plate_chain(B5=nu_cold)))
+    (finding,) = [f for f in result.findings if f.kind == "property"]
+    assert finding.cell == "Calc!C2"
+    assert "right at 0.0 degC" in finding.message and "35.0 degC" in finding.message
+    assert finding.engine == pytest.approx(finding.value * nu_cold / stillair.air_kinvisc(35.0),
+                                           rel=1e-9)
+
+
+def test_the_gas_named_on_the_sheet_is_the_one_compared(tmp_path):
+    """Argon properties typed on a sheet that says argon: no finding; the same numbers on a
+    sheet that does not name a gas are compared with air and flagged."""
+    p = stillair.gas_properties("argon", 35.0)
+    typed = dict(B5=p.kinvisc, B6=p.diffusivity, B7=p.prandtl, B8=p.conductivity)
+    named = check_hand_book(_book(tmp_path, _plate_chain(A1="Fill: argon", **typed), "a.xlsx"))
+    assert not named.findings
+    unnamed = check_hand_book(_book(tmp_path, _plate_chain(**typed), "b.xlsx"))
+    assert {f.kind for f in unnamed.findings} == {"property"}
