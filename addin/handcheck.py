@@ -30,6 +30,7 @@ import dataclasses
 import itertools
 import math
 import re
+import sys
 import time
 import warnings
 from dataclasses import dataclass, field
@@ -52,6 +53,7 @@ _NEAR_TRIED = 8             # the closest that many are searched for one mistype
 _MAX_CONSTANTS = 16         # typed numbers of one formula tried as the mistyped one
 _SECANT_STEPS = 12
 WIDE = 4                    # points far from the workbook's values a near-match must also hold at
+TYPED_PRANDTL = (0.6, 0.9)  # a number typed in a correlation taken for the gas's Pr
 SEARCH_BUDGET = 12_000      # formula evaluations a book may spend on near-matches
 _SCRATCH = "XEZ999999"      # a cell far out of any used range: the constant being solved
 _SEED = 20240611
@@ -219,12 +221,15 @@ def _match_forms(x: np.ndarray, y: np.ndarray, candidates):
 def _match_quietly(x, y, candidates):
     n = x.shape[1]
     exact, scaled, near = [], [], []
+    fits_role = {}   # role -> which inputs are plausible for it (the same for many forms)
     for form in candidates:
         roles = form.roles
         orders = _PERMUTATIONS[n]
         keep = np.ones(len(orders), dtype=bool)
         for j, role in enumerate(roles):
-            keep &= plausible(role, x[0][orders[:, j]])
+            if role not in fits_role:
+                fits_role[role] = plausible(role, x[0])
+            keep &= fits_role[role][orders[:, j]]
         orders = orders[keep]
         if not len(orders):
             continue
@@ -507,9 +512,10 @@ class _Checker:
 
     def _typed_prandtl(self, key, x, y) -> list:
         """Exact matches of the correlations that read Pr, with Pr one of the numbers typed in
-        the formula (a Prandtl number written into the correlation, as 0.71 for air)."""
-        numbers = {value for _, _, value in self._typed_numbers(key) if plausible(
-            "pr", np.asarray(value))}
+        the formula (a Prandtl number written into the correlation, as 0.71 for air; numbers
+        in the range of the engine's gases near room temperature, TYPED_PRANDTL)."""
+        numbers = {value for _, _, value in self._typed_numbers(key)
+                   if TYPED_PRANDTL[0] <= value <= TYPED_PRANDTL[1]}
         if not numbers:
             return []
         candidates = [with_typed(form, "pr", value) for form in forms()
@@ -1037,7 +1043,15 @@ def main(argv=None) -> int:
     parser.add_argument("book")
     parser.add_argument("--json", action="store_true")
     args = parser.parse_args(argv)
-    result = check_hand_book(args.book)
+    from .safezip import UnsafeWorkbook
+    from .xlsx import BookError
+
+    try:
+        result = check_hand_book(args.book)
+    except (BookError, UnsafeWorkbook, OSError, KeyError) as error:
+        reason = error.strerror if isinstance(error, OSError) and error.strerror else str(error)
+        print(f"stillair hand check: {args.book}: {' '.join(reason.split())}", file=sys.stderr)
+        return 2
     print(json.dumps(hand_json(result), indent=1) if args.json else format_hand(result))
     return 1 if result.findings else 0
 

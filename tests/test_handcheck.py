@@ -162,3 +162,27 @@ def test_the_gas_named_on_the_sheet_is_the_one_compared(tmp_path):
     assert not named.findings
     unnamed = check_hand_book(_book(tmp_path, _plate_chain(**typed), "b.xlsx"))
     assert {f.kind for f in unnamed.findings} == {"property"}
+
+
+def test_the_command_prints_json_with_the_same_findings(tmp_path, capsys):
+    import json
+
+    from stillair.addin.handcheck import main
+    path = _book(tmp_path, _plate_chain(C4="=C3*B8/B4"))
+    assert main([path, "--json"]) == 1
+    data = json.loads(capsys.readouterr().out)
+    assert [(f["kind"], f["cell"]) for f in data["findings"]] == [("length", "Calc!C4")]
+    assert data["summary"].startswith("10 hand formulas recognised: 9 agree, 1 with findings")
+    h = next(r for r in data["recognised"] if r["cell"] == "Calc!C4")
+    assert h["input_cells"] == {"nusselt": "Calc!C3", "conductivity": "Calc!B8",
+                                "length": "Calc!B4"}
+
+
+def test_the_command_refuses_a_file_that_is_not_a_workbook(tmp_path, capsys):
+    from stillair.addin.handcheck import main
+    text = tmp_path / "notes.xlsx"
+    text.write_text("not a workbook")
+    assert main([str(text)]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith(f"stillair hand check: {text}: ") and "\n" == err[-1] and \
+        err.count("\n") == 1
