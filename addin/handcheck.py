@@ -118,7 +118,7 @@ class HandCheck:
 
     def summary(self) -> str:
         n = len(self.recognised)
-        flagged = {f.cell for f in self.findings if f.kind != "not-converged"}
+        flagged = {f.cell for f in self.findings if f.kind not in ("not-converged", "circular")}
         agree = sum(1 for r in self.recognised if r.cell not in flagged)
         text = (f"{n} hand formula{'s' if n != 1 else ''} recognised: {agree} agree, "
                 f"{n - agree} with findings; {len(self.unrecognised)} not recognised")
@@ -371,6 +371,13 @@ class _Checker:
                 not isinstance(cached, bool) else 0.0
         if self.settings is None:
             self.values.update(stored)   # a cycle without iteration: the stored values
+            first = min(cycles, key=lambda k: (self._sheet_index(k[0]), *self._rc(k[1])))
+            self.findings.append(HandFinding(
+                "circular", self.name(first), "circular reference",
+                f"{self.name(first)} and {len(cycles) - 1} other cell(s) depend on their own "
+                "values but the workbook is saved with iterative calculation off: Excel warns "
+                "and leaves the loop uncalculated, so the stored values are not a solution "
+                "(switch iterative calculation on, or break the loop)"))
             return
         delta, limit = self.settings["delta"], max(self.settings["count"], 1000)
         current = dict(stored)
@@ -390,13 +397,15 @@ class _Checker:
             if not math.isfinite(change):
                 break
         converged_now = math.isfinite(change) and change <= 1
-        worst = max(order, key=lambda k: abs(current[k] - stored[k]))
+        worst = max(order, key=lambda k: abs(_rel(stored[k], current[k]) or 0.0))
         stored_ok = first_change is not None and first_change <= 1
         self.iteration = {"converged": bool(stored_ok), "delta": delta,
                           "count": self.settings["count"], "sweeps": sweeps,
                           "reached": bool(converged_now), "cells": [self.name(k) for k in order],
                           "worst": self.name(worst), "stored": stored[worst],
-                          "converged_value": current[worst]}
+                          "converged_value": current[worst],
+                          "values": {self.name(k): {"stored": stored[k], "converged": current[k]}
+                                     for k in order}}
         self.values.update(current)
         if not stored_ok:
             reached = (f"re-iterated to the workbook's delta {delta:g} in {sweeps} sweeps"
@@ -798,6 +807,7 @@ class _Checker:
             props = gas_properties(gas, t_film)
         except Exception:
             return
+        self._order_symmetric(rec, props)
         for role in typed_roles:
             attribute = _PROPERTY_OF_ROLE[role]
             engine_property = float(getattr(props, attribute))
@@ -823,6 +833,20 @@ class _Checker:
                           with_engine)
             else:
                 rec.statements.append(message)
+
+    @staticmethod
+    def _order_symmetric(rec, props) -> None:
+        """nu and alpha enter g beta dT L^3/(nu alpha) alike, so the match cannot tell which
+        typed cell is which: take the assignment closer to the gas's own values."""
+        if not {"kinvisc", "diffusivity"} <= set(rec.roles) or "pr" in rec.roles:
+            return
+        a, b = rec.values["kinvisc"], rec.values["diffusivity"]
+        as_is = abs(math.log(a / props.kinvisc)) + abs(math.log(b / props.diffusivity))
+        swapped = abs(math.log(b / props.kinvisc)) + abs(math.log(a / props.diffusivity))
+        if swapped < as_is:
+            rec.values["kinvisc"], rec.values["diffusivity"] = b, a
+            rec.roles["kinvisc"], rec.roles["diffusivity"] = \
+                rec.roles["diffusivity"], rec.roles["kinvisc"]
 
     def _reads(self, key) -> set:
         """Every cell a formula reads, constants included, through the formulas it reads."""
@@ -981,7 +1005,7 @@ def check_hand_book(path: str) -> HandCheck:
         return order.get(key[0], 0), *checker._rc(key[1])
 
     recognised = [checker.recognised[k] for k in sorted(checker.recognised, key=position)]
-    findings = sorted(checker.findings, key=lambda f: f.kind != "not-converged")
+    findings = sorted(checker.findings, key=lambda f: f.kind not in ("not-converged", "circular"))
     return HandCheck(path, recognised, findings,
                      sum(len(s.formulas) for s in checker.book.sheets), checker.unrecognised,
                      checker.too_large, checker.iteration,
@@ -999,8 +1023,10 @@ def format_hand(result: HandCheck) -> str:
     for finding in result.findings:
         engine = f"; engine {finding.engine:.6g}" if finding.engine is not None else ""
         diff = f" ({finding.difference * 100:+.2f} %)" if finding.difference is not None else ""
-        lines.append(f"{finding.kind:<14} {finding.cell:<14} {finding.recognised}: "
-                     f"workbook {finding.value:.6g}{engine}{diff}. {finding.message}")
+        value = f"workbook {finding.value:.6g}{engine}{diff}. " if finding.value is not None \
+            else ""
+        lines.append(f"{finding.kind:<14} {finding.cell:<14} {finding.recognised}: {value}"
+                     f"{finding.message}")
     for rec in result.recognised:
         for statement in rec.statements:
             lines.append(f"{'note':<14} {rec.cell:<14} {rec.title}: {statement}")

@@ -186,3 +186,59 @@ def test_the_command_refuses_a_file_that_is_not_a_workbook(tmp_path, capsys):
     err = capsys.readouterr().err
     assert err.startswith(f"stillair hand check: {text}: ") and "\n" == err[-1] and \
         err.count("\n") == 1
+
+
+def test_inputs_read_through_defined_names_are_followed(tmp_path):
+    from openpyxl.workbook.defined_name import DefinedName
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calc"
+    for ref, value in _plate_inputs().items():
+        ws[ref] = value
+    for name, ref in (("Ts", "B1"), ("Tair", "B2"), ("H", "B3"), ("beta", "B4"), ("nu", "B5"),
+                      ("alpha", "B6")):
+        wb.defined_names[name] = DefinedName(name, attr_text=f"Calc!${ref[0]}${ref[1:]}")
+    ws["C1"] = "=9.80665*beta*(Ts-Tair)*H^3/(nu*alpha)"
+    path = tmp_path / "named.xlsx"
+    wb.save(path)
+    result = check_hand_book(str(path))
+    (ra,) = result.recognised
+    assert ra.form.quantity == "Ra" and not result.findings
+    # nu and alpha are symmetric in the formula: told apart by the gas's own values
+    assert ra.roles["length"] == ("Calc", "B3") and ra.roles["kinvisc"] == ("Calc", "B5")
+
+
+def _loop(iterate: bool):
+    """T = 20 + 100/(h A), h = 1.5 (T - 20)^(1/4) + 5: a surface temperature by iteration."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calc"
+    ws["B1"], ws["B2"], ws["B3"] = 100.0, 2.0, 20.0
+    ws["B4"] = "=B3+B1/MAX(B5*B2,1)"   # from blank cells the first pass must not divide by 0
+    ws["B5"] = "=1.5*ABS(B4-B3)^0.25+5"
+    wb.calculation.iterate = iterate
+    wb.calculation.iterateDelta = 1e-6
+    return wb
+
+
+def test_a_loop_without_iterative_calculation_is_a_finding(tmp_path):
+    path = tmp_path / "loop.xlsx"
+    _loop(False).save(path)
+    result = check_hand_book(str(path))
+    (finding,) = result.findings
+    assert finding.kind == "circular" and finding.cell in ("Calc!B4", "Calc!B5")
+
+
+def test_an_iterated_loop_is_settled_and_its_converged_values_given(tmp_path):
+    """No stored values (a file never calculated): not converged; the converged state satisfies
+    both equations of the loop."""
+    path = tmp_path / "loop.xlsx"
+    _loop(True).save(path)
+    result = check_hand_book(str(path))
+    assert result.iteration["reached"] and not result.iteration["converged"]
+    values = result.iteration["values"]
+    t, h = values["Calc!B4"]["converged"], values["Calc!B5"]["converged"]
+    assert t == pytest.approx(20 + 100 / (h * 2), rel=1e-6)
+    assert h == pytest.approx(1.5 * (t - 20) ** 0.25 + 5, rel=1e-6)
+    assert [f.kind for f in result.findings] == ["not-converged"]
