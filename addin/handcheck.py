@@ -771,6 +771,11 @@ class _Checker:
                 found = self._film(source, depth + 1)
                 if found is not None:
                     return found
+        for user in self.recognised.values():   # a Pr cell: the film of the Nu that reads it
+            if rec.key in user.roles.values() and user.key != rec.key and depth == 0:
+                found = self._film(user, depth + 1)
+                if found is not None:
+                    return found
         return None
 
     def _difference_of(self, key):
@@ -817,7 +822,8 @@ class _Checker:
             while form.base is not None:   # the roles typed in the formula become inputs again
                 form = form.base
             with_engine = self._form_value(form, changed) * rec.ratio
-            moves = _rel(rec.value, with_engine)
+            as_typed = self._form_value(form, rec.values) * rec.ratio
+            moves = _rel(as_typed, with_engine)   # the property's own effect, nothing else's
             right_at = _temperature_where(gas, attribute, typed, t_film)
             at = f"right at {right_at:.1f} degC" if right_at is not None else \
                 "not the gas's value at any temperature from -50 to 400 degC"

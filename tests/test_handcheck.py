@@ -242,3 +242,31 @@ def test_an_iterated_loop_is_settled_and_its_converged_values_given(tmp_path):
     assert t == pytest.approx(20 + 100 / (h * 2), rel=1e-6)
     assert h == pytest.approx(1.5 * (t - 20) ** 0.25 + 5, rel=1e-6)
     assert [f.kind for f in result.findings] == ["not-converged"]
+
+
+def test_a_prandtl_cell_from_typed_properties_is_checked_at_the_film_of_its_user(tmp_path):
+    """Pr = nu/alpha with nu typed at 0 degC: the Pr cell is compared at the film temperature of
+    the Rayleigh number its Nusselt number reads (35 degC)."""
+    p0 = stillair.gas_properties("air", 0.0)
+    cells = _plate_chain(B12=p0.kinvisc, B13="=B12/B6",
+                         C3="=(0.825+0.387*C2^(1/6)/(1+(0.492/B13)^(9/16))^(8/27))^2")
+    result = check_hand_book(_book(tmp_path, cells))
+    pr = next(r for r in result.recognised if r.cell == "Calc!B13")
+    assert pr.form.quantity == "Pr"
+    (finding,) = [f for f in result.findings if f.cell == "Calc!B13"]
+    assert finding.kind == "property" and "35.0 degC" in finding.message
+
+
+def test_the_readme_example_is_what_the_command_prints(capsys):
+    """README, "Auditing a hand-built workbook": the findings and the summary shown."""
+    from pathlib import Path
+
+    from stillair.addin.handcheck import main
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text()
+    block = readme.split("$ python -m stillair.addin.handcheck tests/data/hand/pipe-0.xlsx\n")[1]
+    shown = [line[4:] for line in block.split("\n\n")[0].splitlines() if "..." not in line]
+    book = Path(__file__).resolve().parent / "data" / "hand" / "pipe-0.xlsx"
+    assert main([str(book)]) == 1
+    printed = capsys.readouterr().out.splitlines()
+    for line in shown:
+        assert line in printed, line

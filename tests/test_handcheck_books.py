@@ -45,6 +45,16 @@ def test_recall_and_false_alarms(results):
           f"false alarms on correct books {len(false_alarms)}")
     for file, m in missed:
         print("missed", file, m)
+    # Findings on a seeded book that no seed names: consequences of a seed (a wrong Nusselt
+    # number moves the iterated wall temperature away from the one the properties were typed
+    # for) or false alarms; listed for the reader, bounded here.
+    extra = [(b["file"], f.kind, f.cell) for b in MANIFEST if not b["correct"]
+             for f in results[b["file"]].findings
+             if not any(f.kind == m["kind"] and m["cell"] in ("*", f.cell) for m in b["mistakes"])]
+    for item in extra:
+        print("beyond the seeds", *item)
+    iterated = {b["file"] for b in MANIFEST if b["scenario"] == "cabinet"}
+    assert all(kind == "property" and file in iterated for file, kind, _ in extra), extra
     assert not false_alarms, false_alarms
     assert recall >= 0.9, missed
 
