@@ -37,7 +37,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .handforms import Form, forms, plausible, with_typed
+from .handforms import WEAK, Form, forms, plausible, with_typed
 
 __all__ = ["HandFinding", "Recognition", "HandCheck", "check_hand_book", "format_hand",
            "hand_json", "MAX_INPUTS", "PROBES", "MATCH_RTOL", "PROPERTY_THRESHOLD", "ROUNDING",
@@ -590,6 +590,23 @@ class _Checker:
                 return False
         return True
 
+    def settle(self) -> None:
+        """Drop what the recognition cannot stand by, until nothing changes: a plain form no
+        recognised cell reads (a reciprocal that is no beta of a Rayleigh number), a form whose
+        inputs are no longer recognised as its context needs."""
+        changed = True
+        while changed:
+            changed = False
+            read = {k for rec in self.recognised.values() for k in rec.roles.values()}
+            for key, rec in list(self.recognised.items()):
+                inputs = list(rec.roles.values())
+                match = _Match(rec.form, tuple(range(len(inputs))), rec.ratio)
+                if (rec.form.name in WEAK and key not in read) or \
+                        not self._in_context(match, inputs):
+                    del self.recognised[key]
+                    self.unrecognised.append(rec.cell)
+                    changed = True
+
     def _in_context(self, match: _Match, inputs) -> bool:
         """A form with a context (a sum as series resistances) counts only where its inputs
         were recognised as what it combines."""
@@ -1003,6 +1020,7 @@ def check_hand_book(path: str) -> HandCheck:
     started = time.perf_counter()
     with _offline():
         checker.recognise_all()
+        checker.settle()
         checker.check_all()
     checker.timing["recognise"] = time.perf_counter() - started
     order = {s.name: i for i, s in enumerate(checker.book.sheets)}
@@ -1012,6 +1030,8 @@ def check_hand_book(path: str) -> HandCheck:
 
     recognised = [checker.recognised[k] for k in sorted(checker.recognised, key=position)]
     findings = sorted(checker.findings, key=lambda f: f.kind not in ("not-converged", "circular"))
+    by_label = {checker.name(k): position(k) for k in checker.model.nodes if k[0] != "#name"}
+    checker.unrecognised.sort(key=lambda cell: by_label.get(cell, (0, 0, 0)))
     return HandCheck(path, recognised, findings,
                      sum(len(s.formulas) for s in checker.book.sheets), checker.unrecognised,
                      checker.too_large, checker.iteration,

@@ -27,7 +27,8 @@ from typing import Callable
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY, Stefan_Boltzmann as SIGMA, zero_Celsius
 
-__all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS", "with_typed"]
+__all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS", "with_typed",
+           "WEAK"]
 
 # Plausible values of the inputs of each class (still-air work, SI units, temperatures in degC).
 # Bounds are generous: they only keep absurd assignments out of the search.
@@ -158,12 +159,24 @@ def _buoyancy_forms():
                            function, quantity, mistake)
 
 
+# A product x y / z or x y (t1 - t2) is a Nusselt number or a heat flow only where x was
+# recognised as a coefficient.
+_COEFFICIENT = {"h": ("h", "hrad")}
+
+# Forms too plain to claim a cell on their own (a reciprocal, a ratio, x/(y z)): kept only where
+# a recognised cell reads the result (beta in a Rayleigh number, Pr in a correlation, a wall
+# resistance in a series sum).
+WEAK = frozenset({"prandtl", "beta-ideal", "beta-ideal-film", "beta-celsius", "beta-celsius-film",
+                  "conduction-resistance"})
+
+
 def _group_forms():
     yield from _buoyancy_forms()
     yield Form("prandtl", "Prandtl number, nu/alpha", ("kinvisc", "diffusivity"),
                lambda kinvisc, diffusivity: kinvisc / diffusivity, "Pr")
     yield Form("nusselt-from-h", "Nusselt number, h L/k", ("h", "length", "conductivity"),
-               lambda h, length, conductivity: h * length / conductivity, "Nu")
+               lambda h, length, conductivity: h * length / conductivity, "Nu",
+               context=_COEFFICIENT)
     yield Form("h-from-nusselt", "convection coefficient, Nu k/L", ("nusselt", "conductivity", "length"),
                lambda nusselt, conductivity, length: nusselt * conductivity / length, "h")
     yield Form("beta-ideal", "expansion coefficient of an ideal gas, 1/(T + 273.15)", ("tb",),
@@ -178,9 +191,9 @@ def _group_forms():
                "beta = 1/T with the film temperature in degC (the absolute temperature is "
                "T + 273.15)")
     yield Form("convection-flow", "heat flow, h A (T1 - T2)", ("h", "area", "t1", "t2"),
-               lambda h, area, t1, t2: h * area * (t1 - t2), "Q")
+               lambda h, area, t1, t2: h * area * (t1 - t2), "Q", context=_COEFFICIENT)
     yield Form("convection-flow", "heat flow, h A dT", ("h", "area", "dt"),
-               lambda h, area, dt: h * area * dt, "Q")
+               lambda h, area, dt: h * area * dt, "Q", context=_COEFFICIENT)
 
 
 # ---------------------------------------------------------------------------------------------
