@@ -115,6 +115,7 @@ class HandCheck:
     seconds: float = 0.0
     timing: dict = field(default_factory=dict)
     unsearched: list[str] = field(default_factory=list)   # search budget spent before them
+    not_numeric: list[str] = field(default_factory=list)  # reading ranges, text, blanks, errors
 
     def summary(self) -> str:
         n = len(self.recognised)
@@ -124,6 +125,9 @@ class HandCheck:
                 f"{n - agree} with findings; {len(self.unrecognised)} not recognised")
         if self.too_large:
             text += f", {len(self.too_large)} too large to identify"
+        if self.not_numeric:
+            text += (f", {len(self.not_numeric)} reading ranges, text or errors (not "
+                     "identified)")
         if self.unsearched:
             text += (f", {len(self.unsearched)} not searched for a mistyped constant (search "
                      "budget spent)")
@@ -324,6 +328,7 @@ class _Checker:
         self.recognised: dict = {}
         self.findings: list[HandFinding] = []
         self.unrecognised, self.too_large, self.unsearched = [], [], []
+        self.not_numeric = []
         self.iteration = None
 
     # -- values ---------------------------------------------------------------------------
@@ -440,15 +445,17 @@ class _Checker:
         for key in keys:
             formula = self.formula(key)
             if formula.problem:
+                self.not_numeric.append(self.name(key))   # ranges, arrays, what cannot run
                 continue
             inputs = formula.precedents
             if not inputs:
-                continue
+                continue   # a constant expression: nothing to identify
             if len(inputs) > MAX_INPUTS:
                 self.too_large.append(self.name(key))
                 continue
             base = [self.value(k) for k in inputs]
             if any(v is None for v in base) or self.values.get(key) is None:
+                self.not_numeric.append(self.name(key))   # text, blanks, errors
                 continue
             x = np.empty((PROBES + 1, len(inputs)))
             x[0] = base
@@ -1036,7 +1043,7 @@ def check_hand_book(path: str) -> HandCheck:
                      sum(len(s.formulas) for s in checker.book.sheets), checker.unrecognised,
                      checker.too_large, checker.iteration,
                      time.perf_counter() - checker.started, checker.timing,
-                     unsearched=checker.unsearched)
+                     unsearched=checker.unsearched, not_numeric=checker.not_numeric)
 
 
 def _offline():
@@ -1076,6 +1083,7 @@ def hand_json(result: HandCheck) -> dict:
         "unrecognised": result.unrecognised,
         "too_large": result.too_large,
         "unsearched": result.unsearched,
+        "not_numeric": result.not_numeric,
         "iteration": result.iteration,
         "timing": dict(result.timing, total=result.seconds),
     }
