@@ -58,13 +58,11 @@ SEARCH_BUDGET = 12_000      # formula evaluations a book may spend on near-match
 _SCRATCH = "XEZ999999"      # a cell far out of any used range: the constant being solved
 _SEED = 20240611
 
-# What a role's input is, when it is a recognised cell.
+# What a role's input is, when it is a recognised cell (other roles take typed numbers or
+# cells that are not groups: temperatures, lengths, properties).
 _ROLE_QUANTITY = {"ra": ("Ra",), "nusselt": ("Nu",), "h": ("h", "hrad"), "h2": ("h", "hrad"),
-                  "r1": ("R",), "r2": ("R",), "r3": ("R",), "outer": (), "inner": (),
-                  "expansion": ("beta",),
-                  "pr": ("Pr",), "tb": (), "t1": (), "t2": (), "dt": (), "length": (),
-                  "area": (), "kinvisc": (), "diffusivity": (), "conductivity": (), "eps": (),
-                  "eps1": (), "eps2": (), "aspect": (), "slenderness": (), "tilt": ()}
+                  "r1": ("R",), "r2": ("R",), "r3": ("R",), "expansion": ("beta",),
+                  "pr": ("Pr",)}
 
 # The engine's name of each property role (GasProperties fields).
 _PROPERTY_OF_ROLE = {"kinvisc": "kinvisc", "diffusivity": "diffusivity",
