@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from types import SimpleNamespace
 
 import numpy as np
-from scipy.constants import zero_Celsius
+from ..constants import ZERO_CELSIUS as zero_Celsius
 
 from ..gases import gas_properties
 from ..groups import STANDARD_GRAVITY
@@ -113,7 +113,8 @@ def compile_network(branches: tuple[Branch, ...], boundaries: tuple[Boundary, ..
     grouped: dict[tuple, list[int]] = {}
     for position, b in enumerate(branches):
         grouped.setdefault(BRANCH_KINDS[b.kind].group_key(b, gas), []).append(position)
-    groups, convection = [], {}
+    groups: list = []
+    convection: dict = {}
     for key, members in grouped.items():
         kind = BRANCH_KINDS[key[0]]
         context = {"method": key[2], "gas": key[3]} if kind.has_correlation else {}

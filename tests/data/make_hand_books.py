@@ -322,7 +322,7 @@ def _settle(path: Path) -> None:
     not a converged state; the hand check's re-iteration (to the book's own delta) settles them
     and the cached-value writer stores them, leaving every other byte as LibreOffice wrote it."""
     from stillair.addin.cachewriter import write_cached_values
-    from stillair.addin.handcheck import _Checker
+    from stillair.addin.audit.hand import _Checker
 
     checker = _Checker(str(path))
     checker.iterate()

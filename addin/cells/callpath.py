@@ -1,0 +1,235 @@
+"""Calling engine functions the way a cell does: coerce, compute, catch, shape.
+
+:func:`evaluate` is the single entry point every cell function goes through, from xlwings
+(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.workbook.model`) alike.  It never
+raises: invalid input becomes a short message naming the function, the argument, the value and
+what is allowed; a correlation used outside its range still returns the number and the note is
+handed to the active :class:`NoteRecorder` (used by ``stillair calc``).
+"""
+
+from __future__ import annotations
+
+import warnings
+
+import numpy as np
+
+from .coerce import CellInputError, describe, to_cell_table, to_cell_value, to_number, to_table, to_text
+from .registry import BY_NAME, CellFunction
+
+__all__ = ["evaluate", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
+
+MAX_MESSAGE = 255  # a message must stay readable in a cell and in Excel's function wizard
+
+# Columns of the network tables that hold names (branch name, from, to; boundary node).
+_NAME_COLUMNS = {"branches": (0, 1, 2), "boundaries": (0,)}
+# Text arguments that are names and may be typed as numbers.
+_NAME_ARGS = {"node", "branch"}
+
+
+class NoteRecorder:
+    """Collects (cell, message) notes from cell evaluations while active.
+
+    ``cell`` is whatever the caller set as :attr:`current` (the headless evaluator sets the
+    formula cell being computed); notes of one cell are kept once, in order.
+    """
+
+    _active: "NoteRecorder | None" = None
+
+    def __init__(self):
+        self.current: str | None = None
+        self.notes: list[tuple[str | None, str]] = []
+
+    def add(self, message: str) -> None:
+        item = (self.current, message)
+        if item not in self.notes:
+            self.notes.append(item)
+
+    def __enter__(self):
+        self._previous, NoteRecorder._active = NoteRecorder._active, self
+        return self
+
+    def __exit__(self, *exc):
+        NoteRecorder._active = self._previous
+        return False
+
+
+def _note(message: str) -> None:
+    if NoteRecorder._active is not None:
+        NoteRecorder._active.add(message)
+
+
+def engine_callable(entry: CellFunction):
+    """The engine attribute the entry names, or None while the engine does not provide it.
+
+    ``stillair`` (the engine) is imported here, on first use, not with this module: importing it takes about
+    0.2 s (numpy, scipy), which `stillair functions` and `excel-setup` do not need.  CoolProp
+    itself loads only if a gas table has to be computed."""
+    import stillair
+    return getattr(stillair, entry.engine, None)
+
+
+def _coerce(entry: CellFunction, raw: tuple, arrays: bool = False) -> dict:
+    """Keyword arguments for the engine; with ``arrays``, float arrays (already coerced
+    element by element) pass through."""
+    kwargs = {}
+    for arg, value in zip(entry.args, raw):
+        default = arg.default if arg.optional else None
+        if arrays and isinstance(value, np.ndarray) and value.dtype == float:
+            kwargs[arg.keyword] = value
+        elif arg.kind == "number":
+            kwargs[arg.keyword] = to_number(arg.name, value, arg.optional, default)
+        elif arg.kind == "text":
+            kwargs[arg.keyword] = to_text(arg.name, value, arg.optional, default,
+                                          allow_numbers=arg.name in _NAME_ARGS)
+        elif arg.kind == "table":
+            kwargs[arg.keyword] = to_table(arg.name, value, _NAME_COLUMNS.get(arg.name, ()))
+        else:  # pragma: no cover - the registry tests forbid other kinds
+            raise RuntimeError(f"unknown argument kind {arg.kind!r}")
+    return kwargs
+
+
+def _noting_result_notes(function):
+    """Report a network result's range notes like a correlation's warnings, so every cell that
+    uses the solve (NET_SOLVE, NET_TEMP, ...) carries them.  The engine caches the solve itself:
+    the cells of one network share it."""
+    from stillair.validity import CorrelationRangeWarning
+
+    def solve(**kwargs):
+        result = function(**kwargs)
+        for note in getattr(result, "notes", ()):
+            warnings.warn(str(note), CorrelationRangeWarning, stacklevel=2)
+        return result
+
+    return solve
+
+
+def _message(entry: CellFunction, argument: str, allowed: str, value) -> str:
+    cell_names = {a.keyword: a.name for a in entry.args}
+    argument = cell_names.get(argument, argument)
+    return f"{entry.name}: {argument} must be {allowed}, got {describe(value)}"
+
+
+def _short(text: str) -> str:
+    text = " ".join(str(text).split())
+    return text if len(text) <= MAX_MESSAGE else text[:MAX_MESSAGE - 3] + "..."
+
+
+class _Missing(Exception):
+    """The registry names an engine attribute this engine version does not have."""
+
+
+def _compute(entry: CellFunction, kwargs: dict):
+    """Call the engine with coerced arguments; the range notes it warns are recorded."""
+    from stillair.validity import CorrelationRangeWarning  # see engine_callable
+
+    target = engine_callable(entry)
+    if target is None:
+        raise _Missing()
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", CorrelationRangeWarning)
+        if not entry.call:
+            value = target
+        else:
+            if any(a.kind == "table" for a in entry.args):
+                target = _noting_result_notes(target)
+            value = entry.invoke(target, kwargs) if entry.invoke else target(**kwargs)
+    for warning in caught:
+        if issubclass(warning.category, CorrelationRangeWarning):
+            _note(_short(f"{entry.name}: {_strip_function(str(warning.message))}"))
+    return value
+
+
+def _ranges(entry: CellFunction, raw: tuple) -> dict[int, np.ndarray]:
+    """The numeric arguments given as ranges of more than one cell, as 2-D object arrays
+    (a flat list, as xlwings passes a one-row range, is one row)."""
+    if not entry.takes_arrays:
+        return {}
+    found = {}
+    for index, (arg, value) in enumerate(zip(entry.args, raw)):
+        if arg.kind == "number" and isinstance(value, (list, tuple, np.ndarray)):
+            array = np.asarray(value, dtype=object)
+            if array.size > 1:
+                found[index] = array.reshape(1, -1) if array.ndim < 2 else array
+    return found
+
+
+def _evaluate_ranges(entry: CellFunction, raw: tuple, ranges: dict[int, np.ndarray]):
+    """A call with ranges: an array of the broadcast shape, as Excel's own functions give.
+
+    The engine is called once on the whole arrays; if any element is bad (text, blank where a
+    number is needed, out of the allowed range), each element is computed on its own so that
+    only the bad ones show their message."""
+    try:
+        shape = np.broadcast_shapes(*(a.shape for a in ranges.values()))
+    except ValueError:
+        sizes = " and ".join(f"{a.shape[0]}x{a.shape[1]}" for a in ranges.values())
+        message = _short(f"{entry.name}: ranges of {sizes} cells do not combine; give ranges of "
+                         "the same shape, or one column and one row")
+        _note(message)
+        return message
+    if len(shape) != 2:
+        raise ValueError("ranges must be at most two-dimensional")
+    spread = {i: np.broadcast_to(a, shape) for i, a in ranges.items()}
+    try:
+        if entry.invoke is not None:  # it does more than call a broadcasting function
+            raise NotImplementedError
+        with NoteRecorder() as trial:  # notes count only if the whole-array call stands
+            kwargs = _coerce(entry, tuple(
+                np.vectorize(lambda v, a=arg: to_number(a.name, v, a.optional,
+                                                        a.default if a.optional else None),
+                             otypes=[float])(spread[i]) if i in spread else value
+                for i, (arg, value) in enumerate(zip(entry.args, raw))), arrays=True)
+            values = np.broadcast_to(np.asarray(_compute(entry, kwargs), dtype=object), shape)
+            cells = [[to_cell_value(v) for v in row] for row in values]
+    except Exception:
+        return [[evaluate(entry, *(spread[i][r, c] if i in spread else v for i, v in enumerate(raw)))
+                 for c in range(shape[1])] for r in range(shape[0])]
+    for _, message in trial.notes:
+        _note(message)
+    return cells
+
+
+def evaluate(entry: CellFunction, *raw):
+    """Compute one cell function call; returns a cell value, a 2-D list (a table, or an array
+    when numeric arguments are ranges) or an error message (str)."""
+    from stillair.validity import InputError  # see engine_callable
+
+    try:
+        if len(raw) > len(entry.args):
+            raise ValueError(f"takes at most {len(entry.args)} arguments, got {len(raw)}")
+        raw = tuple(raw) + (None,) * (len(entry.args) - len(raw))
+        ranges = _ranges(entry, raw)
+        if ranges:
+            return _evaluate_ranges(entry, raw, ranges)
+        value = _compute(entry, _coerce(entry, raw))
+        if entry.result == "table":
+            return to_cell_table(value)
+        return to_cell_value(value)
+    except _Missing:
+        return _short(f"{entry.name}: not available in this engine version "
+                      f"(stillair.{entry.engine} is missing)")
+    except InputError as error:
+        if type(error).render is not InputError.render:  # the error words its own value
+            message = _short(error.render(entry.name))
+        else:
+            message = _short(_message(entry, error.argument, error.allowed, error.value))
+    except CellInputError as error:
+        message = _short(_message(entry, error.argument, error.allowed, error.value))
+    except Exception as error:  # a cell must never show a traceback
+        message = _short(f"{entry.name}: {type(error).__name__}: {error}"
+                         if not str(error) else f"{entry.name}: {error}")
+    _note(message)
+    return message
+
+
+def _strip_function(message: str) -> str:
+    """Drop the engine's own "function_name: " prefix from a note; the cell name replaces it."""
+    head, sep, rest = message.partition(": ")
+    if sep and head.replace("_", "").isalnum() and head == head.lower():
+        return rest
+    return message
+
+
+def call(name: str, *raw):
+    """Evaluate a cell function by name, as a cell would: ``call("AIR_DENSITY", 20.0)``."""
+    return evaluate(BY_NAME[name.upper()], *raw)

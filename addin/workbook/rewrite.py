@@ -1,0 +1,318 @@
+"""Rewriting a formula for the evaluator: what the ``formulas`` library can be taught, or the
+construct it cannot evaluate, in plain words.
+
+:func:`prepare` turns a cell's formula into what the ``formulas`` library can compile, or says in
+plain words which construct it cannot evaluate (3-D and structured references, INDIRECT,
+OFFSET, unknown functions...).  Constructs it can be taught are rewritten: add-in prefixes
+removed, unsigned exponents (``1E9``) given their sign, an empty argument of one of our
+functions made blank (Excel passes a missing argument, never 0), whole rows and columns cut to
+the sheet's used range, ``ROW()``/``COLUMN()`` replaced by the cell's own row and column.
+Formulas of one relative form (a row copied down) share one preparation.
+"""
+
+from __future__ import annotations
+
+import functools
+import re
+from dataclasses import dataclass
+
+from .formulas_bridge import builtin_names
+from .formulatext import (CELL_IN_TEXT, QUALIFIED_RE, Reference, area_text, bare_name,
+                          parse_reference, recognise_call, tokens)
+from .reader import col_to_index
+
+__all__ = ["Prepared", "prepare", "MAX_AREA_CELLS"]
+
+# A reference that would hand the evaluator more cells than this (after whole rows and columns
+# are cut to the used range) is refused for that cell: a range this size is never a calculation
+# input, and building it would take the memory a workbook of 10 MB may not claim.
+MAX_AREA_CELLS = 2_000_000
+
+
+_UNSIGNED_EXPONENT = re.compile(r"^(\d*\.?\d*[Ee])(\d+)$")
+_DYNAMIC = {"INDIRECT": "INDIRECT builds its reference from text while calculating",
+            "OFFSET": "OFFSET builds its reference while calculating"}
+
+
+@dataclass
+class Prepared:
+    """A formula ready for ``formulas``: its text, the reference of each reference token (by
+    position), a key shared by every formula of the same shape (R1C1-like), or the problem."""
+
+    text: str
+    references: list[Reference]
+    key: tuple
+    problem: str | None = None
+
+
+# Functions the formulas parser itself implements (they bind names rather than take values).
+_PARSER_FUNCTIONS = {"LET", "LAMBDA"}
+
+
+@functools.lru_cache(maxsize=4096)
+def _builtin_name(name: str) -> str | None:
+    """The name ``formulas`` knows a built-in by, or None when it has no implementation."""
+    upper = name.upper()
+    bare = bare_name(name)
+    if bare in _PARSER_FUNCTIONS:
+        return upper
+    known = builtin_names()
+    for candidate in (upper, bare, "_XLFN." + bare, "_XLFN._XLWS." + bare):
+        if candidate in known:
+            return candidate
+    return None
+
+
+def _problem_of_function(name: str) -> str:
+    bare = bare_name(name)
+    if bare in _DYNAMIC:
+        return f"{_DYNAMIC[bare]}; it is not supported headlessly"
+    newer = " (a newer Excel function)" if name.lower().startswith("_xlfn.") else ""
+    return f"function {bare}{newer} is not available headlessly"
+
+
+_STRING = re.compile(r'("(?:[^"]|"")*")')
+
+
+def _relative_form(formula: str, row: int, col: int):
+    """The formula with its cell references made relative to the cell, and the references'
+    positions (column, row) in order; None when the text has quoted sheet names or functions
+    whose value depends on the cell."""
+    if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN)\s*\(", formula):
+        return None
+    parts, cells = [], []
+    for index, piece in enumerate(_STRING.split(formula)):
+        if index % 2:                      # a string literal, kept as written
+            parts.append(piece)
+            continue
+        last = 0
+        for m in CELL_IN_TEXT.finditer(piece):
+            c, r = col_to_index(m.group(2)), int(m.group(4))
+            cells.append((c, r))
+            parts.append(piece[last:m.start()])
+            parts.append(f"{'$' + str(c) if m.group(1) else 'C' + str(c - col)}"
+                         f"{'$' + str(r) if m.group(3) else 'R' + str(r - row)}\x00")
+            last = m.end()
+        parts.append(piece[last:])
+    return "".join(parts), cells
+
+
+class _Template:
+    """A prepared formula and, for each reference, which cell positions of the text give its
+    corners: formulas of the same relative form reuse it instead of being tokenised again."""
+
+    def __init__(self, prepared: Prepared, corners: list[tuple[int, ...]]):
+        self.prepared, self.corners = prepared, corners
+
+
+def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
+            own_sheet: str, cache: dict | None = None) -> Prepared:
+    """Rewrite ``formula`` (with or without "=") of the cell at ``row``/``col`` of ``own_sheet``.
+
+    ``used`` maps a sheet name (upper case) to its used range's last (row, column): whole rows
+    and columns are cut there, so they cost what the used range costs.  A formula of the same
+    relative form as one prepared before (a row copied down) reuses that one's work."""
+    relative = _relative_form(formula.lstrip("="), row, col) if cache is not None else None
+    if relative is None:
+        return _prepare(formula, row, col, used, own_sheet)
+    form, cells = relative
+    cache_key = (form, own_sheet.upper())
+    template = cache.get(cache_key)
+    if template is None:
+        prepared = _prepare(formula, row, col, used, own_sheet)
+        corners = _corners(prepared, cells)
+        if corners is None:
+            return prepared
+        cache[cache_key] = _Template(prepared, corners)
+        return prepared
+    references = []
+    for reference, corner in zip(template.prepared.references, template.corners):
+        if corner:
+            (c1, r1), (c2, r2) = cells[corner[0]], cells[corner[-1]]
+            reference = Reference("area", reference.sheet, min(r1, r2), min(c1, c2),
+                                  max(r1, r2), max(c1, c2))
+        references.append(reference)
+    return _LazyPrepared(formula, row, col, used, own_sheet, references, template.prepared.key,
+                         template.prepared.problem)
+
+
+class _LazyPrepared(Prepared):
+    """A prepared formula from a template: its references and key are known; its own text is
+    rewritten only if someone asks for it (the compiled function of its key is shared)."""
+
+    def __init__(self, formula, row, col, used, own_sheet, references, key, problem):
+        self._source = (formula, row, col, used, own_sheet)
+        self._text = None
+        self.references, self.key, self.problem = references, key, problem
+
+    @property
+    def text(self) -> str:
+        if self._text is None:
+            self._text = _prepare(*self._source).text
+        return self._text
+
+
+def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
+    """For each reference of ``prepared``, the indices in ``cells`` of its written corners
+    (none for names and whole rows or columns); None when they cannot be matched up."""
+    corners, at = [], 0
+    for reference in prepared.references:
+        if reference.kind != "area" or reference.whole:
+            corners.append(())
+            continue
+        if at < len(cells) and cells[at] == (reference.c1, reference.r1) and \
+                at + 1 < len(cells) and cells[at + 1] == (reference.c2, reference.r2) and \
+                (reference.c1, reference.r1) != (reference.c2, reference.r2):
+            corners.append((at, at + 1))
+            at += 2
+        elif at < len(cells) and cells[at] == (reference.c1, reference.r1) == \
+                (reference.c2, reference.r2):
+            corners.append((at,))
+            at += 1
+        else:
+            return None
+    return corners if at == len(cells) else None
+
+
+def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
+             own_sheet: str) -> Prepared:
+    items = tokens(formula)
+    if not items:
+        text = formula.lstrip("=")
+        return Prepared(text, [], ("?", text), "the formula cannot be read")
+    out: list[str] = []
+    references: list[Reference] = []
+    key: list = []
+    problem = None
+    # One entry per open function or parenthesis: is it one of our functions, and was the last
+    # significant token an argument separator or the opening itself?
+    stack: list[list] = []
+
+    def note(message: str) -> None:
+        nonlocal problem
+        if problem is None:
+            problem = message
+
+    def blank_argument_here() -> bool:
+        return bool(stack) and stack[-1][0] and stack[-1][1]
+
+    lambda_closed = False
+    for token in items:
+        kind, sub, value = token.type, token.subtype, token.value
+        if kind == "WHITE-SPACE":
+            out.append(value)
+            continue
+        if lambda_closed and kind == "PAREN" and sub == "OPEN":
+            note("a LAMBDA called in place, LAMBDA(...)(...), is not supported headlessly")
+        lambda_closed = False
+        if kind == "FUNC" and sub == "OPEN":
+            call = recognise_call(value)
+            if call is not None and call.ours:
+                value = call.canonical + "("
+            elif call is not None:
+                note(f"{call.prefix}{call.name} is not a stillair function")
+            else:
+                name = value[:-1]
+                builtin = None if bare_name(name) in _DYNAMIC else _builtin_name(name)
+                if builtin is None:
+                    note(_problem_of_function(name))
+                else:
+                    value = builtin + "("
+            if stack:
+                stack[-1][1] = False
+            stack.append([call is not None and call.ours, True, value])
+            out.append(value)
+            key.append(value.upper())
+            continue
+        if kind == "FUNC" and sub == "CLOSE":
+            if blank_argument_here() and out and not out[-1].endswith("("):
+                out.append('""')            # F(a,) : the last argument is missing
+                key.append('""')
+            opened = stack.pop() if stack else None
+            lambda_closed = bool(opened) and opened[2].upper().endswith("LAMBDA(")
+            if opened and opened[2].upper() in ("ROW(", "COLUMN(") and out and out[-1] == opened[2]:
+                # ROW() / COLUMN() without an argument: this cell's own row or column.
+                out[-1] = str(row if opened[2].upper() == "ROW(" else col)
+                key[-1] = ("#own", opened[2].upper())
+                continue
+            if stack:
+                stack[-1][1] = False
+            out.append(value)
+            key.append(value)
+            continue
+        if kind == "SEP" and sub == "ARG":
+            if blank_argument_here():
+                out.append('""')            # F(a,,b): a missing argument takes its default
+                key.append('""')
+            if stack:
+                stack[-1][1] = True
+            out.append(",")
+            key.append(",")
+            continue
+        if kind == "PAREN" or kind == "ARRAY":
+            if sub == "OPEN":
+                if stack:
+                    stack[-1][1] = False
+                stack.append([False, False, value])
+            elif stack:
+                stack.pop()
+            out.append(value)
+            key.append(value)
+            continue
+        if stack:
+            stack[-1][1] = False
+        if kind == "OPERAND" and sub == "NUMBER":
+            m = _UNSIGNED_EXPONENT.match(value)
+            if m:
+                value = f"{m.group(1)}+{m.group(2)}"
+            out.append(value)
+            key.append(value)
+            continue
+        if kind == "OPERAND" and sub == "RANGE":
+            reference = parse_reference(value)
+            if reference.kind == "problem":
+                note(reference.problem)
+            elif reference.kind == "area" and reference.whole:
+                target = (reference.sheet or own_sheet).upper()
+                last_row, last_col = used.get(target, (1, 1))
+                if reference.whole == "columns":
+                    reference = Reference("area", reference.sheet, 1, reference.c1,
+                                          max(last_row, 1), reference.c2, whole="columns")
+                else:
+                    reference = Reference("area", reference.sheet, reference.r1, 1, reference.r2,
+                                          max(last_col, 1), whole="rows")
+                value = area_text(reference.sheet, reference.r1, reference.c1, reference.r2,
+                                  reference.c2)
+            if reference.kind == "name" and reference.sheet is not None:
+                # formulas drops the sheet of Sheet!name; a name of its own keeps them apart.
+                alias = f"_stillair_scoped_{len(references)}"
+                reference = Reference("name", reference.sheet, name=reference.name, alias=alias)
+                value = alias
+            if reference.kind == "area" and reference.cells > MAX_AREA_CELLS:
+                note(f"reference {value} covers {reference.cells:,} cells, more than the "
+                     f"{MAX_AREA_CELLS:,} the evaluator takes in one range")
+            references.append(reference)
+            out.append(value)
+            key.append(_shape(value, reference, row, col))
+            continue
+        out.append(value)
+        key.append(value.upper() if kind == "OPERAND" and sub in ("LOGICAL", "ERROR") else value)
+    text = "".join(out)
+    return Prepared(text, references, tuple(key), problem)
+
+
+def _shape(text: str, reference: Reference, row: int, col: int):
+    """A reference relative to the cell (absolute parts kept), so shifted copies share a key."""
+    if reference.kind != "area":
+        return ("ref", text.upper())
+    m = QUALIFIED_RE.match(text)
+    rest = m.group("rest") if m else text
+    sheet = reference.sheet.upper() if reference.sheet else None
+    parts = []
+    for piece in rest.split(":"):
+        cm = re.match(r"^(\$?)([A-Za-z]{1,3})(\$?)(\d+)$", piece)
+        if not cm:
+            return ("ref", text.upper())
+        c, r = col_to_index(cm.group(2)), int(cm.group(4))
+        parts.append((c if cm.group(1) else ("c", c - col), r if cm.group(3) else ("r", r - row)))
+    return ("area", sheet, tuple(parts))
