@@ -114,7 +114,10 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     if pristine is not None:
         template_drift(result, book, cells, pristine)
     hand_started = time.perf_counter()
-    result.hand = check_hand_book(path, book, exclude=seeds)
+    result.hand = check_hand_book(
+        path, book, exclude=seeds, model=model if evaluation is not None else None,
+        known={key: r.value for key, r in evaluation.results.items()
+               if r.status in ("value", "note")} if evaluation is not None else None)
     findings.extend(hand_findings(result.hand, cells))
     timing["hand"] = time.perf_counter() - hand_started
     order = {s.name: i for i, s in enumerate(book.sheets)}

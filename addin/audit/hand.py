@@ -319,7 +319,7 @@ def _sheet_gas(book) -> dict[str, str]:
 
 
 class _Checker:
-    def __init__(self, path: str, book=None, exclude=()):
+    def __init__(self, path: str, book=None, exclude=(), model=None, known=None):
         from ..workbook.model import Model
         from ..workbook.reader import read_book
         from ..workbook.status import label
@@ -329,11 +329,13 @@ class _Checker:
         self.path = path
         self.book = book if book is not None else read_book(path)
         self.exclude = set(exclude)
-        self.model = Model(self.book)
+        self.model = model if model is not None else Model(self.book)
         self.timing = {"load": time.perf_counter() - self.started}
-        evaluation = self.model.calculate()
+        # Values the caller has calculated already (the audit's cells) are given, not redone.
+        known = {key: value for key, value in (known or {}).items() if isinstance(value, float)}
+        evaluation = self.model.calculate(sets=known)
         self.timing["calculate"] = evaluation.calc_seconds
-        self.values: dict = {}
+        self.values: dict = dict(known)
         for key, result in evaluation.results.items():
             if result.status in ("value", "note") and isinstance(result.value, float):
                 self.values[key] = result.value
@@ -1035,13 +1037,14 @@ class _Values(dict):
 # Public entry and output
 
 
-def check_hand_book(path: str, book=None, exclude=()) -> HandCheck:
+def check_hand_book(path: str, book=None, exclude=(), model=None, known=None) -> HandCheck:
     """Recognise and check the hand-typed formulas of the workbook at ``path``.
 
     ``book``: the workbook already read (:func:`stillair.addin.workbook.reader.read_book`);
     ``exclude``: (sheet, ref) cells not to look at (the audit's cells that call our functions,
-    which it checks itself)."""
-    checker = _Checker(path, book, exclude)
+    which it checks itself); ``model``: the book's model where the caller has built one;
+    ``known``: (sheet, ref) -> value of cells the caller has calculated already."""
+    checker = _Checker(path, book, exclude, model, known)
     checker.iterate()
     started = time.perf_counter()
     with _offline():
