@@ -321,7 +321,7 @@ def _settle(path: Path) -> None:
     the loop moved on (measured: 100 degC against a converged 29 degC), so its stored values are
     not a converged state; the hand check's re-iteration (to the book's own delta) settles them
     and the cached-value writer stores them, leaving every other byte as LibreOffice wrote it."""
-    from stillair.addin.cachewriter import write_cached_values
+    from stillair.addin.workbook.cachewriter import write_cached_values
     from stillair.addin.audit.hand import _Checker
 
     checker = _Checker(str(path))
