@@ -21,8 +21,8 @@ import openpyxl
 
 import stillair
 from stillair.addin.audit.hand import check_hand_book
-from stillair.addin.headless import Model
-from stillair.addin.xlsx import read_book
+from stillair.addin.workbook.model import Model
+from stillair.addin.workbook.reader import read_book
 
 RUNS = 50
 
