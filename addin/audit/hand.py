@@ -50,6 +50,7 @@ NEAR = 0.6                  # a form within this at every probe is worth a const
 _NEAR_TRIED = 8             # the closest that many are searched for one mistyped constant
 _MAX_CONSTANTS = 16         # typed numbers of one formula tried as the mistyped one
 _SECANT_STEPS = 12
+_COMPILE_COST = 100         # a compilation of a formula variant, in formula evaluations
 WIDE = 4                    # points far from the workbook's values a near-match must also hold at
 TYPED_PRANDTL = (0.6, 0.9)  # a number typed in a correlation taken for the gas's Pr
 SEARCH_BUDGET = 12_000      # formula evaluations a book may spend on near-matches
@@ -700,27 +701,28 @@ class _Checker:
 
     def _constants(self, key):
         """Per typed number of the formula: (text, value, the formula with that number read
-        from a scratch cell, the scratch cell's key); built once per cell."""
+        from a scratch cell, the scratch cell's key).  Each variant is compiled when first
+        asked for (a compilation costs the search budget :data:`_COMPILE_COST` evaluations)
+        and kept for the cell's other candidates."""
         cache = self.__dict__.setdefault("_constant_variants", {})
-        if key in cache:
-            return cache[key]
-        numbers = self._typed_numbers(key)
-        tokens = self._tokens[key]
         node = self.model.nodes[key]
         slot = (node.sheet, _SCRATCH)
-        found = []
-        for index, written, typed in numbers[:_MAX_CONSTANTS]:
+        for index, written, typed in self._typed_numbers(key)[:_MAX_CONSTANTS]:
             if typed == 0:
                 continue
-            text = "".join(_SCRATCH if i == index else t.value for i, t in enumerate(tokens))
-            variant = dataclasses.replace(node, text=text, prepared=None, deps=set(), sources=[],
-                                          compiled=None, problem=None)
-            self.model._prepare(variant)
-            formula = _Formula(self.model, key, variant)
-            if not formula.problem:
-                found.append((written, typed, formula, slot))
-        cache[key] = found
-        return found
+            if (key, index) not in cache:
+                if self.search_left <= 0:
+                    return
+                self.search_left -= _COMPILE_COST
+                tokens = self._tokens[key]
+                text = "".join(_SCRATCH if i == index else t.value for i, t in enumerate(tokens))
+                variant = dataclasses.replace(node, text=text, prepared=None, deps=set(),
+                                              sources=[], compiled=None, problem=None)
+                self.model._prepare(variant)
+                formula = _Formula(self.model, key, variant)
+                cache[(key, index)] = None if formula.problem else formula
+            if cache[(key, index)] is not None:
+                yield written, typed, cache[(key, index)], slot
 
     # -- checks ---------------------------------------------------------------------------
 
