@@ -6,9 +6,9 @@ sizes and temperatures: 500 formulas.  Reported: the hand check's recognition an
 and its ratio to the anchor, one plain headless calculation of the same book in the same run.
 A second book is the search's worst case: 500 formulas of power laws and logarithms of numbers
 in Rayleigh-like ranges, none of them ours, so every one is searched for a near-match and a
-mistyped constant (bounded by handcheck.SEARCH_BUDGET).  Target (issue 24): under 10 s here.
+mistyped constant (bounded by hand.SEARCH_BUDGET).  Target (issue 24): under 10 s here.
 
-    python tests/bench/bench_handcheck.py
+    python tests/bench/bench_audit_hand.py
 """
 
 from __future__ import annotations
