@@ -302,3 +302,18 @@ def test_the_readme_example_is_what_the_audit_prints(capsys):
         os.chdir(here)
     printed = capsys.readouterr().out.splitlines()[1:]
     assert printed == shown
+
+
+def test_a_sheet_kept_in_kelvin_is_not_taken_for_degc_mistakes(tmp_path):
+    """Temperatures typed in kelvin: beta = 1/T and sigma eps (T1^4 - T2^4) are then right,
+    and the typed properties are compared at the film temperature read as kelvin."""
+    p = stillair.gas_properties("air", 35.0)
+    cells = {"B1": 318.15, "B2": 298.15, "B3": 0.5, "B5": p.kinvisc, "B6": p.diffusivity,
+             "B7": p.prandtl, "B8": p.conductivity, "B9": 0.9,
+             "C1": "=2/(B1+B2)", "C2": "=9.80665*C1*(B1-B2)*B3^3/(B5*B6)",
+             "C3": "=(0.825+0.387*C2^(1/6)/(1+(0.492/B7)^(9/16))^(8/27))^2",
+             "C4": "=C3*B8/B3", "C7": "=5.670374419E-8*B9*(B1^4-B2^4)"}
+    result = check_hand_book(_book(tmp_path, cells))
+    assert not result.findings, result.findings
+    ra = next(r for r in result.recognised if r.form.quantity == "Ra")
+    assert any("read as kelvin" in s and "35.0 degC" in s for s in ra.statements)

@@ -36,7 +36,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .hand_forms import WEAK, Form, forms, plausible, with_typed
+from .hand_forms import CELSIUS_CEILING, WEAK, Form, forms, plausible, with_typed
 
 __all__ = ["HandFinding", "Recognition", "HandCheck", "check_hand_book", "hand_findings",
            "hand_json", "MAX_INPUTS", "PROBES", "MATCH_RTOL", "PROPERTY_THRESHOLD", "ROUNDING"]
@@ -227,10 +227,11 @@ def _match_quietly(x, y, candidates):
         roles = form.roles
         orders = _PERMUTATIONS[n]
         keep = np.ones(len(orders), dtype=bool)
+        celsius = form.mistake is not None   # every mistake form is a degC one
         for j, role in enumerate(roles):
-            if role not in fits_role:
-                fits_role[role] = plausible(role, x[0])
-            keep &= fits_role[role][orders[:, j]]
+            if (role, celsius) not in fits_role:
+                fits_role[(role, celsius)] = plausible(role, x[0], celsius)
+            keep &= fits_role[(role, celsius)][orders[:, j]]
         orders = orders[keep]
         if not len(orders):
             continue
@@ -848,7 +849,7 @@ class _Checker:
         if film is None:
             return
         t1, t2, gas = film
-        t_film = (t1 + t2) / 2
+        t_film, kelvin = self._film_celsius(rec, typed_roles, t1, t2, gas)
         from stillair import gas_properties
 
         try:
@@ -872,8 +873,9 @@ class _Checker:
                 "not the gas's value at any temperature from -50 to 400 degC"
             where = f"typed in the formula of {rec.cell}" if role in rec.form.inline else \
                 f"in {self.name(rec.roles[role])}"
+            read = " (the sheet's temperatures read as kelvin)" if kelvin else ""
             message = (f"typed {_PROPERTY_WORDS[attribute]} {typed:.5g} {where} is {at}; the "
-                       "sheet's film temperature is "
+                       f"sheet's film temperature{read} is "
                        f"{t_film:.1f} degC (mean of {t1:.4g} and {t2:.4g}), where {gas} has "
                        f"{engine_property:.5g} ({_rel(typed, engine_property) * 100:+.2f} %)")
             if abs(moves) > PROPERTY_THRESHOLD:
@@ -882,6 +884,28 @@ class _Checker:
                           with_engine)
             else:
                 rec.statements.append(message)
+
+    @staticmethod
+    def _film_celsius(rec, typed_roles, t1, t2, gas) -> tuple[float, bool]:
+        """The film temperature in degC, and whether the sheet's temperatures were read as
+        kelvin: both above :data:`~.hand_forms.CELSIUS_CEILING` and the typed properties
+        nearer the gas's at the kelvin reading (a sheet kept in kelvin throughout)."""
+        from stillair import gas_properties
+
+        film = (t1 + t2) / 2
+        if min(t1, t2) < CELSIUS_CEILING:
+            return film, False
+
+        def misfit(t):
+            try:
+                props = gas_properties(gas, t)
+            except Exception:
+                return math.inf
+            return sum(abs(math.log(abs(rec.values[r] / getattr(props, _PROPERTY_OF_ROLE[r]))))
+                       for r in typed_roles)
+
+        kelvin = film - 273.15
+        return (kelvin, True) if misfit(kelvin) < misfit(film) else (film, False)
 
     @staticmethod
     def _order_symmetric(rec, props) -> None:

@@ -71,13 +71,22 @@ ROLE_CLASS = {
 }
 
 
-def plausible(role: str, values: np.ndarray) -> np.ndarray:
-    """Whether each value is plausible for ``role`` (a zero difference never is)."""
+# A form that is a degC mistake (1/T, T^4 of Celsius temperatures) is that mistake only where
+# the temperatures are Celsius: above this (as kelvin, -123 degC) they may be a sheet kept in
+# kelvin, where the same arithmetic is right.
+CELSIUS_CEILING = 150.0
+
+
+def plausible(role: str, values: np.ndarray, celsius: bool = False) -> np.ndarray:
+    """Whether each value is plausible for ``role`` (a zero difference never is); ``celsius``:
+    a temperature must also read as degC (below :data:`CELSIUS_CEILING`)."""
     kind = ROLE_CLASS[role]
     low, high = _CLASS_RANGES[kind]
     ok = (values >= low) & (values <= high) & np.isfinite(values)
     if kind == "difference":
         ok &= values != 0
+    if celsius and kind == "temperature":
+        ok &= values < CELSIUS_CEILING
     return ok
 
 
