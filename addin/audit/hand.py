@@ -771,7 +771,8 @@ class _Checker:
         q = rec.ratio
         constant = {"ra": "g", "gr": "g"}.get(rec.form.name, "sigma" if rec.form.name.startswith(
             "radiation") else "the leading constant")
-        standard = {"g": 9.80665, "sigma": 5.670374419e-8}.get(constant)
+        from stillair.constants import STANDARD_GRAVITY, STEFAN_BOLTZMANN
+        standard = {"g": STANDARD_GRAVITY, "sigma": STEFAN_BOLTZMANN}.get(constant)
         typed = f" (typed as {standard * q:.7g}, standard {standard:.10g})" if standard else ""
         if abs(q - 1) <= ROUNDING:
             rec.statements.append(f"{constant} differs by a factor {q:.9g}{typed}: a rounded "

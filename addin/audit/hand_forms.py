@@ -9,7 +9,7 @@ numpy arrays, with what it is in words.  Three families:
 * the dimensionless groups and the coefficients built from them, as their definitions
   (Gr, Ra in its usual written forms, Pr, Nu = hL/k, h = Nu k/L, the convective heat flow);
 * radiation (the grey exchange and its linearised coefficient, Stefan-Boltzmann constant and
-  0 degC from scipy.constants) and plane-wall conduction.
+  0 degC from :mod:`stillair.constants`), conduction and resistances.
 
 Some forms are themselves a mistake practitioners make (beta = 1/T with T in degC, the
 fourth powers of Celsius temperatures): a cell matching one of those is recognised and flagged.
@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 from typing import Callable
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY, Stefan_Boltzmann as SIGMA, zero_Celsius
+from stillair.constants import STANDARD_GRAVITY, STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS
 
 __all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS", "with_typed",
            "WEAK"]
@@ -124,7 +124,7 @@ def with_typed(form: Form, role: str, value: float) -> Form:
                 dict(form.fixed, **{role: value}), form.inline + (role,), form)
 
 
-def _kelvin(t, offset=zero_Celsius):
+def _kelvin(t, offset=ZERO_CELSIUS):
     return t + offset
 
 
@@ -210,7 +210,7 @@ def _group_forms():
 
 
 def _radiation_forms():
-    for offset, mistake in ((zero_Celsius, None), (0.0, "the fourth powers are taken of degC "
+    for offset, mistake in ((ZERO_CELSIUS, None), (0.0, "the fourth powers are taken of degC "
                                                         "temperatures (kelvin are due)")):
         def flux(eps, t1, t2, _o=offset):
             return SIGMA * eps * (_kelvin(t1, _o) ** 4 - _kelvin(t2, _o) ** 4)
