@@ -317,3 +317,16 @@ def test_a_sheet_kept_in_kelvin_is_not_taken_for_degc_mistakes(tmp_path):
     assert not result.findings, result.findings
     ra = next(r for r in result.recognised if r.form.quantity == "Ra")
     assert any("read as kelvin" in s and "35.0 degC" in s for s in ra.statements)
+
+
+def test_a_spent_search_budget_is_said_not_silent(tmp_path, monkeypatch):
+    """With no budget left, the mistyped constant is not searched for, and the summary says
+    which cells were not searched instead of calling them unrecognised and leaving it there."""
+    from stillair.addin.audit import hand
+    monkeypatch.setattr(hand, "SEARCH_BUDGET", 0)
+    cells = dict(_plate_inputs(), C1="=9.80665*B4*(B1-B2)*B3^3/(B5*B6)",
+                 C2="=(0.825+0.387*C1^(1/6)/(1+(0.429/B7)^(9/16))^(8/27))^2")
+    result = check_hand_book(_book(tmp_path, cells))
+    assert not result.findings
+    assert result.unsearched == ["Calc!C2"]
+    assert "1 not searched for a mistyped constant (search budget spent)" in result.summary()

@@ -25,6 +25,7 @@ from dataclasses import dataclass, field
 from typing import Callable
 
 import numpy as np
+
 from stillair.constants import STANDARD_GRAVITY, STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS
 
 __all__ = ["Form", "FORMS", "forms", "ROLE_CLASS", "plausible", "CLASS_WORDS", "with_typed",
