@@ -50,6 +50,8 @@ SAMPLES.update({
     "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
     "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
     "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
+    "STACK_FLOW": (40.0, 25.0, 0.01, 0.012, 1.2, None, 3.8),
+    "AIRFLOW_FOR": (300.0, 15.0, 30.0, 95000.0),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
@@ -370,6 +372,19 @@ def test_net_solve_returns_a_padded_table():
     assert rows["1"][2] == pytest.approx(20.0 - Q_EXACT * R_WALL, rel=1e-9)
     assert rows["wall"][1:4] == ["conduction", pytest.approx(Q_EXACT, rel=1e-9), "W"]
     assert rows["skin"][4] == ""  # h of a bare resistance is not a number: blank, not nan
+
+
+def test_net_airflow_reads_the_vent_branch_of_the_solved_network():
+    needs_engine("NET_SOLVE")
+    branches = [["vent", "air", "outside", "vent", 0.01, 0.01, 0.8, None, None, None],
+                ["walls", "air", "outside", "film", 4.0, 2.0, None, None, None, None]]
+    boundaries = [["air", "Q", 150.0], ["outside", "T", 25.0]]
+    record = stillair.solve_network(branches, boundaries).branches["vent"]
+    assert call("NET_AIRFLOW", branches, boundaries, "vent") == pytest.approx(record.volume_flow, rel=1e-12)
+    assert call("NET_AIRFLOW", branches, boundaries, "walls") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: 'vent', got 'walls'")
+    assert call("NET_AIRFLOW", BRANCHES, BOUNDARIES, "wall") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: the network has none, got 'wall'")
 
 
 def test_network_input_errors_name_the_cell_function():

@@ -18,8 +18,8 @@ def _inputs(evaluation):
     return {n: named(evaluation, n) for n in names}
 
 
-def _engine_case(v, **options):
-    """The same cabinet built directly from the engine's Python API."""
+def engine_tables(v):
+    """The cabinet's branch and boundary rows and its air pressure, from the input values."""
     side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
     top_area = v["cab_width"] * v["cab_depth"]
     branches = cabinet.branch_rows(
@@ -29,8 +29,13 @@ def _engine_case(v, **options):
     bounds = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
-    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]),
-                                  **options)
+    return branches, bounds, stillair.altitude_pressure(v["altitude"])
+
+
+def _engine_case(v, **options):
+    """The same cabinet built directly from the engine's Python API."""
+    branches, bounds, pressure = engine_tables(v)
+    return stillair.solve_network(branches, bounds, "air", pressure=pressure, **options)
 
 
 @pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],

@@ -37,3 +37,8 @@ nu = stillair.nu_vplate(1e8, 0.71)
 network = stillair.solve_network([["wall", "in", "out", "conduction", 0.1, 0.5, 2.0, None, None, None]],
                                  [["in", "T", 20.0], ["out", "T", 0.0]])
 heat: float = network.heat["wall"]
+vented = stillair.solve_network([["vent", "air", "out", "vent", 0.01, 0.01, 0.5, None, None, None]],
+                                [["air", "Q", 50.0], ["out", "T", 20.0]])
+mass_flow: float = vented.branches["vent"].mass_flow
+stack: float | np.ndarray = stillair.stack_flow(40.0, 20.0, 0.01, 0.01, 0.5, extra_loss=3.8)
+fan_flow: float | np.ndarray = stillair.airflow_for(200.0, 10.0, t_air=25.0)

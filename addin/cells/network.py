@@ -7,7 +7,8 @@ import math
 from .coerce import CellInputError
 
 __all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
-           "net_table", "net_temp", "net_heat", "net_check", "net_band"]
+           "net_table", "net_temp", "net_heat", "net_check", "net_band",
+           "pick_airflow", "net_airflow"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -55,6 +56,16 @@ def pick_heat(result, branch: str) -> float:
     return float(result.heat[branch])
 
 
+def pick_airflow(result, branch: str) -> float:
+    """The volume flow (m³/s of outside air) through a vent or airflow branch."""
+    pick_heat(result, branch)
+    if math.isnan(result.branches[branch].volume_flow):
+        carrying = [name for name, record in result.branches.items() if not math.isnan(record.volume_flow)]
+        raise CellInputError("branch", branch, "a vent or airflow branch: "
+                             + (", ".join(map(repr, carrying)) if carrying else "the network has none"))
+    return float(result.branches[branch].volume_flow)
+
+
 def pick_band(result, node: str) -> list[list[float]]:
     """One row, low and high °C: the node between the lowest- and highest-Nu solutions."""
     pick_temperature(result, node)
@@ -100,6 +111,12 @@ def net_heat(solve, kwargs):
     """NET_HEAT: one branch's heat flow."""
     branch = kwargs.pop("branch")
     return pick_heat(solve(**kwargs), branch)
+
+
+def net_airflow(solve, kwargs):
+    """NET_AIRFLOW: one vent or airflow branch's volume flow."""
+    branch = kwargs.pop("branch")
+    return pick_airflow(solve(**kwargs), branch)
 
 
 def net_check(solve, kwargs):

@@ -21,7 +21,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from .network import net_band, net_check, net_heat, net_table, net_temp
+from .network import net_airflow, net_band, net_check, net_heat, net_table, net_temp
 
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
@@ -500,6 +500,41 @@ _entries += [
         "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
         "in-range correlations: one row, low and high. The spread of published correlations, not a "
         "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=net_band),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Ventilation: the stack flow through two openings, and the airflow a dissipation needs
+
+CATEGORIES["ventilation"] = "stillair ventilation"
+AREA_ARG = "Area of the {} opening in m² (> 0), as cut; a screen or grille goes in extra_loss."
+_entries += [
+    CellFunction("STACK_FLOW", "stack_flow",
+                 (Arg("t_inside", "Temperature of the well-mixed inside air in °C.", "°C"),
+                  Arg("t_outside", "Temperature of the outside air in °C.", "°C"),
+                  Arg("inlet_area", AREA_ARG.format("low (inlet)"), "m²"),
+                  Arg("outlet_area", AREA_ARG.format("high (outlet)"), "m²"),
+                  Arg("height", "Height between the openings' centres in m (> 0).", "m"),
+                  Arg("discharge", "Discharge coefficient of the openings, in (0, 1]; blank for 0.61 "
+                      "(sharp-edged).", "-", default=0.61),
+                  Arg("extra_loss", "Extra loss coefficient in the low opening (screen, grille, filter) on "
+                      "the velocity through it, >= 0; blank for 0.", "-", default=0.0),
+                  GAS, P),
+                 "Mass flow in kg/s the stack effect drives through a low and a high opening (negative: "
+                 "downward, inside air colder); divide by the outside density for the volume drawn in.",
+                 CATEGORIES["ventilation"], unit="kg/s"),
+    CellFunction("AIRFLOW_FOR", "airflow_for",
+                 (Arg("heat", "Heat in W the air must carry away (>= 0).", "W"),
+                  Arg("rise", "Allowed rise of the air from intake to exhaust in K (> 0).", "K"),
+                  Arg("t_air", "Temperature of the air drawn in, °C; blank for 20 °C.", "°C", default=20.0),
+                  P),
+                 "Volume flow in m³/s of air at t_air that carries the heat away with the rise: "
+                 "V = Q / (rho cp dT), rho at t_air, cp at the mean air temperature.",
+                 CATEGORIES["ventilation"], unit="m³/s"),
+    CellFunction("NET_AIRFLOW", "solve_network",
+                 _NET + (Arg("branch", "Name of a vent or airflow branch.", kind="text"), NET_GAS, P),
+                 "Volume flow in m³/s of outside air (at the to node's temperature) through a vent or "
+                 "airflow branch of the solved thermal network.", CATEGORIES["ventilation"], unit="m³/s",
+                 invoke=net_airflow),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

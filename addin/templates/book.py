@@ -33,7 +33,8 @@ from typing import Any, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
+from stillair.network.advection import AdvectionKind
 
 from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
@@ -454,16 +455,18 @@ class TemplateBook:
                    [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
         self.blank(sheet)
         rows, picks = [], {}
-        no_ra = ("conduction", "radiation", "film", "resistance")
         for i, (branch, kind) in enumerate(((row[0], row[3]) for row in branches), start=1):
             at = 1 + len(nodes) + i          # row of the branch in NET_SOLVE's table (header first)
+            # Ra and Nu where a correlation gives h; no h for a resistance or an airflow branch
+            correlated = BRANCH_KINDS[kind].has_correlation
+            has_h = kind != "resistance" and not isinstance(BRANCH_KINDS[kind], AdvectionKind)
 
             def pick(col, applies=True):
                 return f"=INDEX({solve}, {at}, {col})" if applies else None
             picks[f"method:{branch}"] = f"INDEX({solve}, {at}, 9)"
             picks[f"h:{branch}"] = f"INDEX({solve}, {at}, 5)"
-            rows.append([branch, kind, f'=NET_HEAT({tables}, "{branch}"{tail})', pick(5, kind != "resistance"),
-                         pick(6), pick(7, kind not in no_ra), pick(8, kind not in no_ra), pick(9)])
+            rows.append([branch, kind, f'=NET_HEAT({tables}, "{branch}"{tail})', pick(5, has_h),
+                         pick(6), pick(7, correlated), pick(8, correlated), pick(9)])
         self.table(sheet, ["branch", "kind", "heat flow W", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method"], rows,
                    formats=[None, None, "0.0", SIG3, SCIENTIFIC, "0.00E+00", SIG3, None])
         return picks

@@ -6,6 +6,9 @@ the walls conduct it, and the outer faces lose it by natural convection and radi
 to the ambient, the top to the sky.  Absorbed sun enters at the outer faces.  The network is
 solved by the network cell functions; the Results sheet compares the internal air temperature with the user's
 limit.
+
+The pieces of the build (inputs, steps, tables, notes) are functions the vented cabinet
+(vented_cabinet.py) calls as well, so the two workbooks share every row they have in common.
 """
 
 from __future__ import annotations
@@ -47,8 +50,8 @@ SIZE = Valid(0.0, 6.0, "above 0; faces taller than about 6 m leave the vertical-
 SUN = Valid(0.0, 1400.0, "sun is a heat gain, not negative, and the solar constant (about 1361 W/m²) bounds it")
 
 
-def build(b) -> None:
-    # ------------------------------------------------------------------ Inputs
+def cabinet_inputs(b, dissipation: float = 150.0) -> None:
+    """The inputs of the cabinet's walls and of the heat (sections "Cabinet" and "Heat")."""
     b.section("Inputs", "Cabinet")
     b.input("cab_height", "Cabinet height (outside)", 1.6, "m", "height of the vertical side walls", valid=SIZE)
     b.input("cab_width", "Cabinet width (outside)", 0.8, "m", valid=SIZE)
@@ -62,7 +65,7 @@ def build(b) -> None:
     b.input("emissivity", "Outer surface emissivity", 0.9, "-", "painted surfaces about 0.9 (long-wave)",
             valid=EMISSIVITY)
     b.section("Inputs", "Heat")
-    b.input("dissipation", "Internal dissipation", 150.0, "W", "all equipment losses inside the cabinet",
+    b.input("dissipation", "Internal dissipation", dissipation, "W", "all equipment losses inside the cabinet",
             valid=Valid(0.0, 20000.0, "a dissipation is not negative; above 20 kW a sealed cabinet cannot lose it "
                         "by natural convection"))
     b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4",
@@ -70,6 +73,10 @@ def build(b) -> None:
     b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case", valid=SUN)
     b.input("sun_sides", "Solar irradiance on the sides (mean over all four)", 120.0, "W/m²",
             "0 for a shaded or night case", valid=SUN)
+
+
+def surroundings_inputs(b) -> None:
+    """The inputs of the surroundings, the limit and the correlation choice."""
     b.section("Inputs", "Surroundings and limit")
     b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site", valid=OUTDOOR_AIR)
     b.input("sky_t", "Sky temperature (seen by the top)", 15.0, "°C",
@@ -80,7 +87,9 @@ def build(b) -> None:
     b.input("vplate_method", "Vertical-face correlation", "auto", "", "auto picks Churchill-Chu in its range",
             choices=VPLATE_METHODS)
 
-    # ------------------------------------------------------------------ Calculation
+
+def geometry_steps(b) -> None:
+    """Areas, the top's length, the site's air pressure and the heat inputs."""
     b.section("Calculation", "Geometry and air pressure")
     b.step("side_area", "Area of the four side walls", "=2*(cab_width+cab_depth)*cab_height", "m²")
     b.step("top_area", "Area of the top", "=cab_width*cab_depth", "m²")
@@ -92,11 +101,21 @@ def build(b) -> None:
     b.step("sun_sides_w", "Absorbed sun on the sides", "=absorptance*sun_sides*side_area", "W")
     b.step("heat_in", "Total heat input (dissipation + sun)", "=dissipation+sun_top_w+sun_sides_w", "W")
 
-    # the network's tables live on the Tables sheet; the steps below pick from the solution
-    b.section("Tables", "Thermal network: branches (from = surface, to = fluid for convection)")
-    branches = branch_rows(
+
+def network_branches(extra=()) -> list:
+    """The branch table as formulas on the inputs' names, with ``extra`` rows after it."""
+    return branch_rows(
         height="=cab_height", side_area="=side_area", top_area="=top_area", top_length="=top_length",
-        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity", method="=vplate_method")
+        wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity",
+        method="=vplate_method") + list(extra)
+
+
+def network_tables(b, extra=(), title="Thermal network: branches (from = surface, to = fluid for convection)"):
+    """The Tables sheet: branches ("cab_branches", with ``extra`` rows), boundaries ("cab_bounds")
+    and the solution.  Returns the tables argument, the fluid arguments and the solution's picks."""
+    # the network's tables live on the Tables sheet; the steps below pick from the solution
+    b.section("Tables", title)
+    branches = network_branches(extra)
     b.branch_table("Tables", branches, "cab_branches")
     b.section("Tables", "Thermal network: boundaries (T fixes °C, Q adds W)")
     b.boundary_table("Tables", boundary_rows(
@@ -104,8 +123,11 @@ def build(b) -> None:
         ambient="=ambient_t", sky="=sky_t"), "cab_bounds")
     b.section("Tables", "Thermal network: solution (one cell per entry; NET_SOLVE gives the same as one table)")
     pair, fluid = "cab_branches, cab_bounds", '"air", air_pressure'
-    picks = b.network_solution("Tables", pair, fluid, branches)
+    return pair, fluid, b.network_solution("Tables", pair, fluid, branches)
 
+
+def solution_steps(b, pair: str, fluid: str) -> None:
+    """The face temperatures and the walls' heat flows picked from the solved network."""
     b.section("Calculation", "Temperatures and heat flows picked from the solved network (sheet Tables)")
     b.step("t_air", "Internal air temperature", f'=NET_TEMP({pair}, "air_in", {fluid})', "°C")
     b.step("t_side_in", "Side wall, inner face", f'=NET_TEMP({pair}, "side_in", {fluid})', "°C")
@@ -116,15 +138,19 @@ def build(b) -> None:
     b.step("q_rad_sides", "Radiation from the sides to ambient", f'=NET_HEAT({pair}, "rad_side", {fluid})', "W")
     b.step("q_conv_top", "Convection from the top to ambient", f'=NET_HEAT({pair}, "conv_top_out", {fluid})', "W")
     b.step("q_rad_top", "Radiation from the top to the sky", f'=NET_HEAT({pair}, "rad_top", {fluid})', "W")
-    b.step("heat_out", "Total heat loss to ambient and sky",
-           "=q_conv_sides+q_rad_sides+q_conv_top+q_rad_top", "W")
-    b.step("balance", "Energy balance: heat input - heat loss", "=heat_in-heat_out", "W", "should be ~0",
-           number_format="0.0E+00")
+
+
+def band_steps(b, pair: str, fluid: str) -> None:
+    """The internal air at the lowest and highest covering Nu of every convection branch."""
     b.section("Calculation", "Correlation spread of the internal air temperature (NET_BAND)")
     b.step("t_air_low", "Internal air, all convection at the lowest covering Nu",
            f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 1)', "°C")
     b.step("t_air_high", "Internal air, all convection at the highest covering Nu",
            f'=INDEX(NET_BAND({pair}, "air_in", {fluid}), 1, 2)', "°C")
+
+
+def coefficient_steps(b) -> None:
+    """The coefficients re-computed from the solved temperatures, for the checker."""
     b.section("Calculation", "Coefficients re-computed from the solved temperatures (for the checker)")
     b.step("h_in_sides", "Inside convection, side walls",
            '=H_VPLATE(t_side_in, t_air, cab_height, "air", air_pressure, vplate_method)', "W/(m²·K)")
@@ -141,6 +167,59 @@ def build(b) -> None:
            "=h_out_sides*side_area*(t_side_out-ambient_t)+h_rad_sides*side_area*(t_side_out-ambient_t)", "W",
            "equals rows above: convection + radiation of the sides")
 
+
+def limit_results(b) -> None:
+    """The internal air against the limit, with the correlation spread and its limit check."""
+    b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
+    b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
+    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
+    b.result("res_check_high", "Limit check at the top of the spread",
+             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+
+
+def validity_results(b, pair: str, fluid: str, picks: dict) -> None:
+    """The network check and the correlations the outer faces used."""
+    b.section("Results", "Validity")
+    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
+    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
+             text=True)
+    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+
+
+def correlation_notes(b) -> None:
+    """The Notes section citing the walls' correlations and the radiation law."""
+    b.section("Notes", "Correlations used (sources from the stillair registry)")
+    b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
+    b.cite("Vertical faces, Churchill-Chu laminar form (selectable)", "vplate", "churchill-chu-laminar")
+    b.cite("Vertical faces, McAdams (selectable)", "vplate", "mcadams")
+    b.cite("Top, outer face heated facing up and inner face cooled facing down, Lloyd-Moran",
+           "hplate", "lloyd-moran")
+    b.cite("Horizontal faces in the opposite case (e.g. a top cooler than the air around it), Raithby-Hollands",
+           "hplate", "raithby-hollands")
+    b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
+                "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7 and 13.27 "
+                "(small surface in a large enclosure).")
+
+
+def build(b) -> None:
+    # ------------------------------------------------------------------ Inputs
+    cabinet_inputs(b)
+    surroundings_inputs(b)
+
+    # ------------------------------------------------------------------ Calculation
+    geometry_steps(b)
+    pair, fluid, picks = network_tables(b)
+    solution_steps(b, pair, fluid)
+    b.step("heat_out", "Total heat loss to ambient and sky",
+           "=q_conv_sides+q_rad_sides+q_conv_top+q_rad_top", "W")
+    b.step("balance", "Energy balance: heat input - heat loss", "=heat_in-heat_out", "W", "should be ~0",
+           number_format="0.0E+00")
+    band_steps(b, pair, fluid)
+    coefficient_steps(b)
+
     b.blank("Calculation")
     b.section("Calculation", "Temperature profile (chart data)")
     profile_first, _, profile_last, _ = b.table(
@@ -153,14 +232,7 @@ def build(b) -> None:
     # ------------------------------------------------------------------ Results
     b.section("Results", "Cabinet temperatures")
     b.result("res_t_air", "Internal air temperature", "=t_air", "°C")
-    b.result("res_limit", "Maximum allowed internal air temperature", "=max_internal_t", "°C")
-    b.result("res_margin", "Margin to the limit (limit - internal air)", "=max_internal_t-t_air", "K")
-    b.result("res_check", "Limit check", limit_check("t_air", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
-    b.result("res_t_air_low", "Internal air, correlation spread: lowest", "=t_air_low", "°C",
-             "spread of the published correlations (see Notes)")
-    b.result("res_t_air_high", "Internal air, correlation spread: highest", "=t_air_high", "°C")
-    b.result("res_check_high", "Limit check at the top of the spread",
-             limit_check("t_air_high", "max_internal_t"), text=True, fails=("EXCEEDS LIMIT",))
+    limit_results(b)
     b.result("res_t_side_in", "Side wall, inner face", "=t_side_in", "°C")
     b.result("res_t_side_out", "Side wall, outer face", "=t_side_out", "°C")
     b.result("res_t_top_in", "Top, inner face", "=t_top_in", "°C")
@@ -172,11 +244,7 @@ def build(b) -> None:
     b.result("res_rad_ambient", "Radiation from the sides to ambient", "=q_rad_sides", "W")
     b.result("res_rad_sky", "Radiation from the top to the sky", "=q_rad_top", "W")
     b.result("res_balance", "Energy balance residual (input - loss)", "=balance", "W", number_format="0.0E+00")
-    b.section("Results", "Validity")
-    b.result("res_net_check", "Network check", f"=NET_CHECK({pair}, {fluid})", text=True)
-    b.result("res_method_sides", "Correlation used, outer side walls", "=" + picks["method:conv_side_out"],
-             text=True)
-    b.result("res_method_top", "Correlation used, outer top", "=" + picks["method:conv_top_out"], text=True)
+    validity_results(b, pair, fluid, picks)
     b.caution("Results", "Caution: mean internal air only - hot spots and components run hotter. Check against "
                          "the equipment and enclosure makers' ratings, applicable standards and licensed practice "
                          "(see Notes).")
@@ -207,17 +275,7 @@ def build(b) -> None:
                 "coefficients with H_VPLATE, H_HPLATE and H_RAD from the solved temperatures so a checker "
                 "can follow each one.")
     b.spread_note("internal air temperature")
-    b.section("Notes", "Correlations used (sources from the stillair registry)")
-    b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
-    b.cite("Vertical faces, Churchill-Chu laminar form (selectable)", "vplate", "churchill-chu-laminar")
-    b.cite("Vertical faces, McAdams (selectable)", "vplate", "mcadams")
-    b.cite("Top, outer face heated facing up and inner face cooled facing down, Lloyd-Moran",
-           "hplate", "lloyd-moran")
-    b.cite("Horizontal faces in the opposite case (e.g. a top cooler than the air around it), Raithby-Hollands",
-           "hplate", "raithby-hollands")
-    b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
-                "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7 and 13.27 "
-                "(small surface in a large enclosure).")
+    correlation_notes(b)
     b.section("Notes", "Assumptions")
     b.paragraph("All internal dissipation is released to the internal air, which is well mixed at one "
                 "temperature; radiation from the equipment to the walls is ignored (this puts the air "

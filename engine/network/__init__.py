@@ -1,4 +1,4 @@
-"""Thermal networks: nodes joined by conduction, convection, cavity and radiation branches.
+"""Thermal networks: nodes joined by conduction, convection, cavity, radiation and airflow branches.
 
 A network is two tables, exactly as a spreadsheet holds them:
 
@@ -160,7 +160,12 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     energy-balance method is common practice (e.g. Incropera et al., Fundamentals of Heat and
     Mass Transfer, 6th ed., sec. 4.4, from memory).  Convection branches take Nu from the
     correlation registry (:func:`stillair.nusselt`) at each branch's film temperature, each
-    method with its own source and validity; out-of-range use is listed in ``notes``.
+    method with its own source and validity; out-of-range use is listed in ``notes``.  The
+    ``vent`` and ``airflow`` branches carry outside air through an inside air node,
+    q = m cp (T_from - T_to), the vent's mass flow from the stack balance of two openings
+    (:func:`stillair.stack_flow`), always with the densities at the two node temperatures
+    (``property_temperature`` does not apply to them); their records hold ``mass_flow`` and
+    ``volume_flow``.
 
     Examples
     --------
