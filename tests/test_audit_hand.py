@@ -330,3 +330,23 @@ def test_a_spent_search_budget_is_said_not_silent(tmp_path, monkeypatch):
     assert not result.findings
     assert result.unsearched == ["Calc!C2"]
     assert "1 not searched for a mistyped constant (search budget spent)" in result.summary()
+
+
+def test_a_table_copied_down_is_recognised_row_by_row_from_its_first_row(tmp_path):
+    """Rows of one relative form: each copy is checked at its own probes against the first
+    row's form, so a row whose typed property is wrong is still found, and a row whose
+    formula differs (L^2 typed for L^3) is identified on its own: the exponent is the
+    mistyped constant."""
+    p = stillair.gas_properties("air", 35.0)
+    cells = {}
+    for r in range(1, 7):
+        cells.update({f"A{r}": 45.0, f"B{r}": 25.0, f"C{r}": 0.2 * r, f"D{r}": 1 / 308.15,
+                      f"E{r}": p.kinvisc, f"F{r}": p.diffusivity,
+                      f"G{r}": f"=9.80665*D{r}*(A{r}-B{r})*C{r}^3/(E{r}*F{r})"})
+    cells["E4"] = stillair.air_kinvisc(0.0)            # row 4: nu typed at 0 degC
+    cells["G6"] = "=9.80665*D6*(A6-B6)*C6^2/(E6*F6)"     # row 6: L squared
+    result = check_hand_book(_book(tmp_path, cells))
+    assert [r.cell for r in result.recognised] == [f"Calc!G{r}" for r in range(1, 7)]
+    assert [(f.kind, f.cell) for f in result.findings] == [("property", "Calc!G4"),
+                                                           ("constant", "Calc!G6")]
+    assert "typed constant 2 is 3" in result.findings[1].message

@@ -461,8 +461,18 @@ class _Checker:
         by_count = {n: [f for f in all_forms if len(f.roles) == n] for n in range(1, MAX_INPUTS + 1)}
         keys = [(s.name, ref) for s in self.book.sheets for ref in s.formula_refs()
                 if ref in s.formulas and (s.name, ref) not in self.exclude]
+        shapes: dict = {}   # a formula's relative form (a row copied down) -> its first outcome
         for key in keys:
             formula = self.formula(key)
+            shape = self.model.nodes[key].prepared.key if not formula.problem else None
+            first = shapes.get(shape)
+            if first is not None and first[0] is None:
+                # A copy of a formula that was not recognised is not recognised either: the
+                # search is done once per relative form (tables of hundreds of rows).
+                self.unrecognised.append(self.name(key))
+                if first[1]:
+                    self.unsearched.append(self.name(key))
+                continue
             if formula.problem:
                 self.not_numeric.append(self.name(key))   # ranges, arrays, what cannot run
                 continue
@@ -488,8 +498,12 @@ class _Checker:
                     break
                 y[i] = value
             else:
+                if first is not None and self._as_first(key, formula, inputs, x, y, first[0]):
+                    continue
                 self._identify(key, formula, inputs, x, y, by_count[len(inputs)])
-                if key not in self.recognised:
+                recognised = self.recognised.get(key)
+                shapes.setdefault(shape, (recognised, self.name(key) in self.unsearched))
+                if recognised is None:
                     pending.append((key, inputs, x, y))
                 continue
             self.unrecognised.append(self.name(key))
@@ -502,6 +516,43 @@ class _Checker:
             if exact:
                 self.unrecognised.remove(self.name(key))
                 self._record(key, inputs, x, y, max(exact, key=lambda m: self._fits(m, inputs)))
+
+    def _as_first(self, key, formula, inputs, x, y, first: "Recognition") -> bool:
+        """A copy of a recognised formula (the same relative form) recognised as its first
+        cell was, when that form and assignment hold at this cell's own probes (a mistyped
+        constant: the same constant solved again); False: identify it in full."""
+        positions = {k: i for i, k in enumerate(inputs)}
+        order = []
+        for role in first.form.roles:
+            original = first.roles[role]
+            # a relative reference moved with the copy, or an absolute one where it was
+            place = next((positions[k] for k in (_moved(first.key, key, original), original)
+                          if k in positions), None)
+            if place is None:
+                return False
+            order.append(place)
+        order = tuple(order)
+        match = _Match(first.form, order, first.ratio)
+        with np.errstate(all="ignore"), warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            expected = np.asarray(first.form.function(**{role: x[:, i] for role, i in
+                                                         zip(first.form.roles, order)}),
+                                  dtype=float)
+        ratio = y / expected
+        if not np.all(np.isfinite(ratio)) or \
+                np.any(np.abs(ratio / ratio[0] - 1) > MATCH_RTOL):
+            return False
+        constant = None
+        if first.constant is not None:
+            constant = self._one_constant(key, inputs, x, self._wide(x[0]), match)
+            if constant is None:
+                return False
+        elif abs(ratio[0] / first.ratio - 1) > MATCH_RTOL:
+            return False
+        if not self._in_context(match, inputs):
+            return False
+        self._record(key, inputs, x, y, match, constant)
+        return True
 
     def _identify(self, key, formula, inputs, x, y, candidates) -> None:
         exact, scaled, near = _match_forms(x, y, candidates)
@@ -1007,6 +1058,19 @@ class _Checker:
         self._add(rec, "area", f"the area {self.name(area_key)} = {rec.values['area']:.6g} m2 "
                   f"is not built from the length that defines the geometry in "
                   f"{ra.cell} ({names}): the group and the heat flow describe different surfaces")
+
+
+def _moved(first_key, key, first_input):
+    """Where ``first_input`` lands when the formula of ``first_key`` is copied to ``key``
+    (a relative reference on the same sheet), or ``first_input`` itself."""
+    from ..workbook.reader import index_to_col, split_ref
+
+    if not (first_input[0] == first_key[0] == key[0]):
+        return first_input
+    (r0, c0), (r1, c1), (ri, ci) = split_ref(first_key[1]), split_ref(key[1]), \
+        split_ref(first_input[1])
+    row, col = ri + r1 - r0, ci + c1 - c0
+    return (first_input[0], f"{index_to_col(col)}{row}") if row >= 1 and col >= 1 else first_input
 
 
 def _allowed(delta: float, value: float) -> float:

@@ -5,8 +5,8 @@ cylinder, h, area, convective and radiant heat, 10 formulas a run) for 50 runs o
 sizes and temperatures: 500 formulas.  Reported: the hand check's recognition and probing time,
 and its ratio to the anchor, one plain headless calculation of the same book in the same run.
 A second book is the search's worst case: 500 formulas of power laws and logarithms of numbers
-in Rayleigh-like ranges, none of them ours, so every one is searched for a near-match and a
-mistyped constant (bounded by hand.SEARCH_BUDGET).  Target (issue 24): under 10 s here.
+in Rayleigh-like ranges, none of them ours and no two of one relative form, so every one is
+searched for a near-match and a mistyped constant (bounded by hand.SEARCH_BUDGET).  Target (issue 24): under 10 s here.
 
     python tests/bench/bench_audit_hand.py
 """
@@ -58,13 +58,15 @@ def build_adversarial(path: Path) -> int:
     rng = random.Random(7)
     wb = openpyxl.Workbook()
     ws = wb.active
-    shapes = ("=0.5*A{r}^0.26*B{r}^0.1", "=A{r}^0.3/(1+C{r})", "=0.6+0.4*A{r}^(1/6)*B{r}",
-              "=LN(A{r})*B{r}+C{r}/10", "=(A{r}/C{r})^0.25*0.9")
+    # each formula carries its own number ({k}), so no two share a relative form and the
+    # search runs for every one (copies of one form are searched once)
+    shapes = ("=0.5*A{r}^0.26*B{r}^{k}", "=A{r}^0.3/({k}+C{r})", "=0.6+{k}*A{r}^(1/6)*B{r}",
+              "=LN(A{r})*B{r}+C{r}/{k}", "=(A{r}/C{r})^0.25*{k}")
     for r in range(1, 501):
         ws[f"A{r}"] = rng.uniform(1e3, 1e8)
         ws[f"B{r}"] = rng.uniform(0.6, 0.8)
         ws[f"C{r}"] = rng.uniform(1, 50)
-        ws[f"D{r}"] = rng.choice(shapes).format(r=r)
+        ws[f"D{r}"] = rng.choice(shapes).format(r=r, k=round(rng.uniform(0.1, 10), 4))
     wb.save(path)
     return 500
 
