@@ -222,7 +222,7 @@ def _match_forms(x: np.ndarray, y: np.ndarray, candidates):
 def _match_quietly(x, y, candidates):
     n = x.shape[1]
     exact, scaled, near = [], [], []
-    fits_role = {}   # role -> which inputs are plausible for it (the same for many forms)
+    fits_role = {}   # (role, degC only) -> which inputs are plausible (shared by many forms)
     for form in candidates:
         roles = form.roles
         orders = _PERMUTATIONS[n]
