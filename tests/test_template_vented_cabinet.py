@@ -15,7 +15,7 @@ from fluids.filters import square_edge_grill, square_edge_screen
 import stillair
 from stillair.addin.templates import vented_cabinet as vented
 from template_support import assert_direction, evaluate_template, input_names, named
-from test_template_sealed_cabinet import DIRECTIONS as SEALED_DIRECTIONS, engine_tables
+from test_template_sealed_cabinet import DAY_DIRECTIONS as SEALED_DIRECTIONS, engine_tables
 
 NAME = "vented-cabinet"
 INPUTS = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "emissivity", "dissipation",

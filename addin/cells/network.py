@@ -8,7 +8,7 @@ from .coerce import CellInputError
 
 __all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
            "net_table", "net_temp", "net_heat", "net_check", "net_band",
-           "pick_airflow", "net_airflow"]
+           "pick_airflow", "net_airflow", "net_heat_for"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -128,3 +128,9 @@ def net_band(solve, kwargs):
     """NET_BAND: one node's correlation band (a solve with band=True)."""
     node = kwargs.pop("node")
     return pick_band(solve(band=True, **kwargs), node)
+
+
+def net_heat_for(heat_for_temperature, kwargs):
+    """NET_HEAT_FOR: the heat input (W) that brings the node (or the node ``at``) to the temperature;
+    its solution's range notes are reported as every network cell's."""
+    return float(heat_for_temperature(**kwargs).heat)

@@ -36,6 +36,8 @@ from xlsxwriter.utility import xl_rowcol_to_cell
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
 from stillair.network.advection import AdvectionKind
 
+from ..cells.registry import BY_NAME
+
 from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
                    MARKER_NAME, RULE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
@@ -177,6 +179,9 @@ class TemplateBook:
             raise TemplateBuildError(f"{self.template.name}: {name!r} is not a usable defined name")
         if name.lower() in (n.lower() for n in self.names):
             raise TemplateBuildError(f"{self.template.name}: name {name!r} defined twice")
+        if name.upper() in BY_NAME:
+            # LibreOffice reads NAME( as the defined name followed by a bracket (Err:509)
+            raise TemplateBuildError(f"{self.template.name}: name {name!r} is the cell function {name.upper()}")
         ref = xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)
         if last_row is not None:
             ref += ":" + xl_rowcol_to_cell(last_row, last_col, row_abs=True, col_abs=True)

@@ -29,7 +29,7 @@ def vent_row(*, inlet_area, outlet_area, height, discharge, extra_loss):
 
 
 def build(b) -> None:
-    # the loss coefficients printed in Notes come from the `fluids` library (a test extra), read
+    # the loss coefficients printed in Notes come from the `fluids` library, read
     # only when the workbook is built
     from fluids.filters import square_edge_grill, square_edge_screen
 
