@@ -241,10 +241,13 @@ def _match_quietly(x, y, candidates):
         except Exception:
             continue
         values = np.broadcast_to(values, (len(orders), len(y)))
+        # NaN and infinity (a form off its domain, a zero) fail every comparison below, so
+        # they need no test of their own; few numpy calls, since this runs for every form.
         ratio = y / values
-        finite = np.all(np.isfinite(ratio), axis=1) & np.all(values != 0, axis=1)
-        varies = np.ptp(values, axis=1) > 1e-12 * np.max(np.abs(values), axis=1)
-        consistent = finite & varies & np.all(np.abs(ratio / ratio[:, :1] - 1) <= MATCH_RTOL, axis=1)
+        consistent = np.abs(ratio / ratio[:, :1] - 1).max(axis=1) <= MATCH_RTOL
+        if consistent.any():
+            # a form that does not move over the probes (Nu = 1) matches nothing
+            consistent &= np.ptp(values, axis=1) > 1e-12 * np.abs(values).max(axis=1)
         is_exact = consistent & (np.abs(ratio[:, 0] - 1) <= MATCH_RTOL)
         exact += [_Match(form, tuple(orders[i]), 1.0) for i in np.nonzero(is_exact)[0]]
         if form.name not in _SCALED:
@@ -253,8 +256,8 @@ def _match_quietly(x, y, candidates):
             q = float(ratio[i, 0])
             if 0.5 <= q <= 2.0:
                 scaled.append(_Match(form, tuple(orders[i]), q, abs(q - 1)))
-        spread = np.where(finite & varies & ~consistent, np.max(np.abs(ratio - 1), axis=1), np.inf)
-        for i in np.nonzero(spread < NEAR)[0]:
+        spread = np.abs(ratio - 1).max(axis=1)
+        for i in np.nonzero((spread < NEAR) & ~consistent)[0]:
             near.append(_Match(form, tuple(orders[i]), float(ratio[i, 0]), float(spread[i])))
     near.sort(key=lambda m: m.close)
     return exact, scaled, near
