@@ -1,0 +1,324 @@
+"""Template: a thermal network of the user's own.
+
+For a problem none of the other templates fits: the user types the branch and boundary tables
+(the engine's columns) on the Network sheet, one row per branch, blank rows allowed.  Beside each
+row the meaning and unit of p1..p5 for the kind typed is looked up in a small table of the
+kinds, which the builder writes from the engine's ``BRANCH_KINDS`` (nothing about a kind is
+retyped here).  The solution follows the tables row by row: every node's temperature with the
+correlation spread, every branch's heat flow, h, R, correlation and note, and the energy balance
+over the fixed-temperature nodes.
+
+The worked example is a scenario of our own: an electronics box standing in a room, its circuit
+board behind the front panel across a closed air layer.
+"""
+
+from __future__ import annotations
+
+from stillair.gases import GAS_NAMES
+from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
+
+from ..network import RESULT_HEADER
+from ..templatebook import GRIDS, LIMIT_TEMPERATURE, SIG3, Template, altitude, limit_check
+
+NAME = "own-network"
+SHEET = "Network"
+
+# Rows of the tables: room for this many branches, boundary conditions and solved nodes.
+BRANCH_ROWS = 40
+BOUNDARY_ROWS = 20
+NODE_ROWS = 50
+# Lines of wrapped text a branch row is given (the p1..p5 meaning column wraps to two).
+BRANCH_ROW_LINES = 2
+
+# The Network sheet: the ten table columns and the meaning of p1..p5 beside them (characters;
+# within the ~112 a page prints at full size).  Solution tables reuse the same columns.
+NETWORK_GRID = (11, 9, 9, 11, 7, 7, 7, 7, 7, 12, 25)
+GRIDS.setdefault(SHEET, NETWORK_GRID)   # until the template framework lists it itself
+
+# The worked example (a scenario of our own): a sealed box 0.30 m wide, 0.20 m deep, 0.25 m high
+# of 1.5 mm painted sheet steel standing on a desk in an office.  A 20 W circuit board (0.24 m x
+# 0.20 m) sits 12 mm behind the front panel: the closed air layer between them carries heat by
+# convection and radiation; the board's back face warms the inside air, which gives heat to the
+# sides, back and lid; the outer faces lose heat by convection to the room air and radiation to
+# the room's walls; the base and cable glands are one estimated resistance to the room air.
+STEEL_T, STEEL_K = 0.0015, 50.0            # m, W/(m·K): sheet steel (handbook order of magnitude)
+EXAMPLE_BRANCHES = [
+    ["layer_conv", "board", "panel_in", "cavity", 0.012, 0.20, 0.048, None, None, None],
+    ["layer_rad", "board", "panel_in", "radiation", 0.9, 0.85, 0.048, None, None, None],
+    ["board_back", "board", "air_in", "vplate", 0.20, 0.048, None, None, None, None],
+    ["panel_wall", "panel_in", "panel_out", "conduction", STEEL_T, STEEL_K, 0.075, None, None, None],
+    ["panel_conv", "panel_out", "room_air", "vplate", 0.25, 0.075, None, None, None, None],
+    ["panel_rad", "panel_out", "room_walls", "radiation", 0.9, None, 0.075, None, None, None],
+    ["case_conv_in", "case_in", "air_in", "vplate", 0.25, 0.175, None, None, None, None],
+    ["case_wall", "case_in", "case_out", "conduction", STEEL_T, STEEL_K, 0.175, None, None, None],
+    ["case_conv", "case_out", "room_air", "vplate", 0.25, 0.175, None, None, None, None],
+    ["case_rad", "case_out", "room_walls", "radiation", 0.9, None, 0.175, None, None, None],
+    ["lid_conv_in", "lid_in", "air_in", "hplate", 0.06, 0.06, "down", None, None, None],
+    ["lid_wall", "lid_in", "lid_out", "conduction", STEEL_T, STEEL_K, 0.06, None, None, None],
+    ["lid_conv", "lid_out", "room_air", "hplate", 0.06, 0.06, "up", None, None, None],
+    ["lid_rad", "lid_out", "room_walls", "radiation", 0.9, None, 0.06, None, None, None],
+    ["base", "air_in", "room_air", "resistance", 4.0, None, None, None, None, None],
+]
+EXAMPLE_BOUNDARIES = [
+    ["board", "Q", 20.0],
+    ["room_air", "T", 23.0],
+    ["room_walls", "T", 21.0],
+]
+
+
+# Columns of NET_SOLVE's table (1-based, as INDEX reads them).
+COLUMN = {title: k for k, title in enumerate(RESULT_HEADER, 1)}
+
+
+def kind_columns(kind) -> str:
+    """What p1..p5 hold for a kind, in order: each column's label and unit, from the engine."""
+    return ", ".join(f"{param.label} {param.unit}".strip() for param in kind.params)
+
+
+def _input_block(b, first_col: int, header, rows, count: int, name: str, formats, lines: float = 1,
+                 validations=None) -> tuple[int, int]:
+    """``count`` rows of input cells under ``header`` on the Network sheet, the first filled from
+    ``rows``, the rest blank; named ``name``.  ``validations`` maps a column to its data-validation
+    options.  Returns the first and last row."""
+    state = b.sheet(SHEET)
+    ws = state.worksheet
+    for j, title in enumerate(header):
+        ws.write(state.row, first_col + j, title, b.fmt("header" if formats[j] is None else "header_number"))
+    state.row += 1
+    first = state.row
+    for i in range(count):
+        row = rows[i] if i < len(rows) else [None] * len(header)
+        for j, value in enumerate(row):
+            style = "input" if formats[j] is not None else "input_text"
+            if value is None:
+                ws.write_blank(state.row, first_col + j, None, b.fmt(style))
+            elif isinstance(value, str):
+                ws.write_string(state.row, first_col + j, value, b.fmt("input_text"))
+            else:
+                ws.write_number(state.row, first_col + j, value, b.fmt(style))
+        if lines > 1:
+            state.lines[state.row] = lines
+        state.row += 1
+    last = state.row - 1
+    for col, options in (validations or {}).items():
+        ws.data_validation(first, first_col + col, last, first_col + col, {"ignore_blank": True, **options})
+    b._define(name, SHEET, first, first_col, last, first_col + len(header) - 1)
+    return first, last
+
+
+def _ref(b, row: int, col: int) -> str:
+    """A relative reference on the Network sheet ("D12"), as a row's formula reads its neighbours."""
+    from xlsxwriter.utility import xl_rowcol_to_cell
+
+    return xl_rowcol_to_cell(row, col)
+
+
+def build(b) -> None:
+    # ------------------------------------------------------------------ Inputs
+    b.section("Inputs", "The network (type it on the Network sheet)")
+    b.input("net_gas", "Gas of the convection branches", "air", "",
+            "a cavity row can name its own gas or mixture in p5", choices=list(GAS_NAMES))
+    b.input("site_altitude", "Site altitude", 0.0, "m", "sets the gas pressure (standard atmosphere)",
+            valid=altitude())
+    b.input("max_node_t", "Highest temperature allowed at any solved node", 70.0, "°C",
+            "the lowest rating among the parts the solved nodes stand for", valid=LIMIT_TEMPERATURE)
+    b.caution("Inputs", "The branch and boundary tables are on the Network sheet: one row per branch, "
+                        "blank rows are skipped. The column beside each branch row says what p1..p5 hold "
+                        "for the kind typed; the Notes sheet lists every kind in full.")
+
+    # ------------------------------------------------------------------ Network: the tables typed
+    kinds = list(BRANCH_KINDS.values())
+    b.section(SHEET, f"Branches: one row per branch, up to {BRANCH_ROWS} (from = surface, to = fluid for "
+                     "convection; blank rows are skipped)")
+    kind_list = [kind.name for kind in kinds]
+    branch_first, branch_last = _input_block(
+        b, 0, list(BRANCH_COLUMNS), EXAMPLE_BRANCHES, BRANCH_ROWS, "own_branches",
+        formats=[None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None], lines=BRANCH_ROW_LINES,
+        validations={3: {"validate": "list", "source": kind_list, "input_title": "Branch kind",
+                         "input_message": "Choose a kind; the column on the right then says what p1..p5 hold.",
+                         "error_title": "Not a branch kind",
+                         "error_message": "kind: choose one of " + ", ".join(kind_list) + "."}})
+    meaning_col = len(BRANCH_COLUMNS)
+    state = b.sheet(SHEET)
+    ws = state.worksheet
+    ws.write(branch_first - 1, meaning_col, "p1..p5 of this kind", b.fmt("header"))
+
+    b.section(SHEET, "Boundaries (T fixes a node's °C, Q adds W at a solved node)   |   Branch kinds "
+                     "(from the stillair engine)")
+    top = state.row
+    bound_first, bound_last = _input_block(
+        b, 0, list(BOUNDARY_COLUMNS), EXAMPLE_BOUNDARIES, BOUNDARY_ROWS, "own_bounds",
+        formats=[None, None, "0.0"],
+        validations={1: {"validate": "list", "source": ["T", "Q"], "input_title": "T or Q",
+                         "input_message": "T fixes the node's temperature (°C); Q adds a heat input (W).",
+                         "error_title": "Not T or Q", "error_message": "T or Q: type T or Q."},
+                     2: {"validate": "decimal", "criteria": "between", "minimum": -273.15, "maximum": 1e9,
+                         "input_title": "value", "input_message": "°C for a T row, W for a Q row.",
+                         "error_title": "Not a number", "error_message": "value: a number, °C or W."}})
+    after_bounds = state.row
+    # the kinds, beside the boundary table: number | kind | what p1..p5 hold
+    state.row = top
+    kind_first, _, kind_last, _ = b.table(SHEET, ["kind", "p1..p5"],
+                                          [[kind.name, kind_columns(kind)] for kind in kinds], col=3)
+    b._define("kind_names", SHEET, kind_first, 3, kind_last, 3)
+    b._define("kind_params", SHEET, kind_first, 4, kind_last, 4)
+    state.row = max(state.row, after_bounds)
+
+    # what p1..p5 hold, beside each branch row, looked up from the kinds table (the kind's
+    # position by SUMPRODUCT: the evaluator's MATCH on a column is unreliable)
+    kind_numbers = "{" + ";".join(str(k) for k in range(1, len(kinds) + 1)) + "}"
+    for row in range(branch_first, branch_last + 1):
+        kind = _ref(b, row, 3)
+        number = f"SUMPRODUCT((kind_names={kind})*{kind_numbers})"
+        ws.write_formula(row, meaning_col,
+                         f'=IF({kind}="", "", IF({number}=0, "not a kind: choose from the list", '
+                         f'INDEX(kind_params, {number})))', b.fmt("note"))
+
+    # ------------------------------------------------------------------ Calculation
+    tables = "own_branches, own_bounds"
+    fluid = "net_gas, gas_pressure"
+    solve = f"NET_SOLVE({tables}, {fluid})"
+    b.section("Calculation", "Gas and the size of the network")
+    b.step("gas_pressure", "Gas pressure at the site", "=ALTITUDE_PRESSURE(site_altitude)", "Pa")
+    names = f"{SHEET}!$A${branch_first + 1}:$A${branch_last + 1}"
+    b.step("branch_count", "Branches typed (rows with a name)", f"=COUNTA({names})", "-", number_format="0")
+    # NET_SOLVE's rows: the header, a row per node (kind "node"), a row per branch
+    kind_column = "{" + ",".join("1" if title == "kind" else "0" for title in RESULT_HEADER) + "}"
+    b.step("node_count", "Nodes in the solution (rows of kind \"node\" in NET_SOLVE's table)",
+           f'=SUMPRODUCT(({solve}="node")*{kind_column})', "-", number_format="0")
+
+    # ------------------------------------------------------------------ Network: the solution
+    b.section(SHEET, "Solution: branches (row by row as typed; heat flow positive from -> to)")
+    q_first = state.row + 1
+    rows = []
+    for i, row in enumerate(range(branch_first, branch_last + 1)):
+        name = f"{SHEET}!{_ref(b, row, 0)}"
+        # the branch's row in NET_SOLVE's table: header, the nodes, then the branches in order
+        at = f"1+node_count+COUNTA({SHEET}!$A${branch_first + 1}:$A${row + 1})"
+
+        def pick(col, empty=None, _name=name, _at=at):
+            """Column ``col`` of the branch's row; ``empty`` is printed where the engine leaves
+            the entry empty (h of a resistance, a note in range): LibreOffice recalculates a cell
+            cached as empty text, and without the add-in would print an error."""
+            value = f"INDEX({solve}, {_at}, {col})"
+            shown = value if empty is None else f'IF({value}="", "{empty}", {value})'
+            return f'=IF({_name}="", "", {shown})'
+
+        # the name as NET_SOLVE's table has it at that row: a check that the rows line up
+        rows.append([pick(COLUMN["item"]), pick(COLUMN["value"]), pick(COLUMN["h W/(m²·K)"], "-"),
+                     pick(COLUMN["R K/W"]), pick(COLUMN["method"]), None, None, None, None, None,
+                     pick(COLUMN["note"], "none")])
+    b.table(SHEET, ["branch", "heat flow W", "h W/(m²·K)", "R K/W", "method", "", "", "", "", "", "note"],
+            rows, formats=[None, "0.00", SIG3, SIG3, None, None, None, None, None, None, None])
+    q_last = q_first + BRANCH_ROWS - 1
+    for row in range(q_first, q_last + 1):
+        state.lines[row] = BRANCH_ROW_LINES
+
+    b.section(SHEET, f"Solution: nodes (in order of first appearance; up to {NODE_ROWS} listed)")
+    node_rows = []
+    heat_col = f"{SHEET}!$B${q_first + 1}:$B${q_last + 1}"
+    from_col = f"{SHEET}!$B${branch_first + 1}:$B${branch_last + 1}"
+    to_col = f"{SHEET}!$C${branch_first + 1}:$C${branch_last + 1}"
+    node_first = state.row + 1
+    for j in range(1, NODE_ROWS + 1):
+        row = node_first + j - 1
+        node = f"{SHEET}!{_ref(b, row, 0)}"
+        shown = f"{j}>node_count"
+        at = f"1+MIN({j}, MAX(node_count, 1))"
+        band = f"NET_BAND({tables}, INDEX({solve}, {at}, {COLUMN['item']}), {fluid})"
+        node_rows.append([
+            f'=IF({shown}, "", INDEX({solve}, {at}, {COLUMN["item"]}))',
+            f'=IF({shown}, "", INDEX({solve}, {at}, {COLUMN["value"]}))',
+            f'=IF({shown}, "", INDEX({band}, 1, 1))',
+            f'=IF({shown}, "", INDEX({band}, 1, 2))',
+            f'=IF({shown}, "", IF(SUMPRODUCT((own_bound_nodes={node})*(own_bound_kinds="T"))>0, "fixed", '
+            f'"solved"))',
+            f'=IF({shown}, "", SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}))'])
+    b._define("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
+    b._define("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
+    b._define("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
+    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat in by branches W"],
+            node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00"])
+    node_last = node_first + NODE_ROWS - 1
+    node_t = f"{SHEET}!$B${node_first + 1}:$B${node_last + 1}"
+    node_high = f"{SHEET}!$D${node_first + 1}:$D${node_last + 1}"
+    node_state = f"{SHEET}!$E${node_first + 1}:$E${node_last + 1}"
+    node_heat = f"{SHEET}!$F${node_first + 1}:$F${node_last + 1}"
+
+    # ------------------------------------------------------------------ Calculation: key numbers
+    b.section("Calculation", "Energy balance (heat inputs leave through the fixed-temperature nodes)")
+    b.step("heat_inputs", "Heat inputs: the Q rows", '=SUMIF(own_bound_kinds, "Q", own_bound_values)', "W")
+    b.step("heat_to_fixed", "Heat into the fixed-temperature nodes", f'=SUMIF({node_state}, "fixed", {node_heat})',
+           "W", "each fixed node: heat of the branches into it less those out of it")
+    b.step("balance", "Energy balance: inputs - heat into fixed nodes", "=heat_inputs-heat_to_fixed", "W",
+           "should be ~0", number_format="0.0E+00")
+    b.section("Calculation", "Hottest solved node")
+    b.step("t_hottest", "Highest temperature of a solved node", f'=MAXIFS({node_t}, {node_state}, "solved")',
+           "°C")
+    b.step("t_hottest_high", "The same, every convection branch at the highest covering Nu",
+           f'=MAXIFS({node_high}, {node_state}, "solved")', "°C")
+
+    # ------------------------------------------------------------------ Results
+    b.section("Results", "Network")
+    b.result("res_net_check", "Network check", f"=NET_CHECK({tables}, {fluid})", text=True)
+    b.result("res_branches", "Branches", "=branch_count", "-", number_format="0")
+    b.result("res_nodes", "Nodes", "=node_count", "-", number_format="0")
+    b.result("res_listed", "All nodes listed on the Network sheet",
+             f'=IF(ISNUMBER(node_count), IF(node_count<={NODE_ROWS}, "yes", "NOT ALL LISTED: more than '
+             f'{NODE_ROWS} nodes; read the rest with NET_TEMP"), "CALC FAILED")', text=True,
+             fails=("NOT ALL LISTED",))
+    b.section("Results", "Temperatures")
+    b.result("res_t_hottest", "Hottest solved node", "=t_hottest", "°C")
+    b.result("res_t_hottest_high", "Hottest solved node, correlation spread: highest", "=t_hottest_high", "°C",
+             "spread of the published correlations (see Notes)")
+    b.result("res_limit", "Highest temperature allowed", "=max_node_t", "°C")
+    b.result("res_check", "Limit check", limit_check("t_hottest", "max_node_t"), text=True,
+             fails=("EXCEEDS LIMIT",))
+    b.result("res_check_high", "Limit check at the top of the spread", limit_check("t_hottest_high", "max_node_t"),
+             text=True, fails=("EXCEEDS LIMIT",))
+    b.section("Results", "Heat balance")
+    b.result("res_heat_inputs", "Heat inputs (Q rows)", "=heat_inputs", "W")
+    b.result("res_heat_to_fixed", "Heat into the fixed-temperature nodes", "=heat_to_fixed", "W")
+    b.result("res_balance", "Energy balance residual", "=balance", "W", number_format="0.0E+00")
+    b.caution("Results", "Caution: a network is only as good as its branches. Parts run hotter than the node "
+                         "standing for them; check against the makers' ratings, applicable standards and "
+                         "licensed practice (see Notes).")
+
+    # ------------------------------------------------------------------ Notes
+    b.section("Notes", "Method")
+    b.paragraph("The Network sheet's tables are solved by NET_SOLVE: every node that is not fixed is solved "
+                "from its energy balance by Newton iteration, each convection branch taking its gas "
+                "properties at its own film temperature and its correlation at its own temperature "
+                "difference (a horizontal face is hot or cold by the sign of that difference). The solution "
+                "tables read NET_SOLVE, NET_HEAT and NET_BAND row by row; the network check (NET_CHECK) names "
+                "every branch used outside its correlation's validity range, and any table problem with its "
+                "row and column.")
+    b.paragraph("Energy balance: at a solved node the branches and its heat input balance; the heat inputs "
+                "therefore leave through the fixed-temperature nodes, and the Results sheet compares the two.")
+    b.spread_note("every node")
+    b.section("Notes", "Branch kinds (from the stillair engine; `stillair functions` prints the same)")
+    for kind in kinds:
+        columns = "; ".join(f"p{k} {param.describe()}" for k, param in enumerate(kind.params, 1))
+        b.paragraph(f"{kind.name}: q = {kind.flow}; {kind.ends}. Columns: {columns}.")
+    b.paragraph("Method column: blank for auto (the correlation whose validity range covers the case) or a "
+                "correlation's method name; convection kinds only. Every correlation's source, equation and "
+                "range is listed by `stillair functions` and in the README.")
+    b.section("Notes", "Worked example (a scenario of our own; replace it with your network)")
+    b.paragraph("A sealed box 0.30 m wide, 0.20 m deep and 0.25 m high of 1.5 mm painted sheet steel stands "
+                "in an office (air 23 °C, walls 21 °C). A 20 W circuit board 0.24 m x 0.20 m sits 12 mm "
+                "behind the front panel: the closed air layer between them carries heat by convection "
+                "(cavity) and radiation; the board's back face warms the inside air, which gives its heat to "
+                "the sides and back and to the underside of the lid; the outer faces lose heat by "
+                "convection to the room air and radiation to the room's walls. The base and cable glands "
+                "are one estimated resistance of 4 K/W. Sheet steel is taken at 50 W/(m·K) "
+                "(unverified: handbook order of magnitude for carbon steel).")
+    b.section("Notes", "Cautions")
+    b.paragraph("Overheated equipment, touch temperatures, condensation: a node is the mean temperature of "
+                "what it stands for; components, hot spots and corners can be much hotter or colder. Defer "
+                "to the makers' ratings, the applicable standards and local codes, and licensed practice "
+                "before relying on a result.", caution=True)
+
+
+TEMPLATE = Template(NAME, 1, "Thermal network of your own",
+                    "Your own branches and boundaries, solved: node temperatures with the correlation spread, "
+                    "heat flows, coefficients, correlations and notes, and the energy balance.", build)
