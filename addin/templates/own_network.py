@@ -194,7 +194,8 @@ def build(b) -> None:
     for i, row in enumerate(range(branch_first, branch_last + 1)):
         name = f"{SHEET}!{_ref(b, row, 0)}"
         # the branch's row in NET_SOLVE's table: header, the nodes, then the branches in order
-        at = f"1+node_count+COUNTA({SHEET}!$A${branch_first + 1}:$A${row + 1})"
+        # (a relative end, so every row's formula has one form, prepared once)
+        at = f"1+node_count+COUNTA({SHEET}!$A${branch_first + 1}:{_ref(b, row, 0)})"
 
         def pick(col, empty=None, _name=name, _at=at):
             """Column ``col`` of the branch's row; ``empty`` is printed where the engine leaves
@@ -220,9 +221,11 @@ def build(b) -> None:
     from_col = f"{SHEET}!$B${branch_first + 1}:$B${branch_last + 1}"
     to_col = f"{SHEET}!$C${branch_first + 1}:$C${branch_last + 1}"
     node_first = state.row + 1
-    for j in range(1, NODE_ROWS + 1):
-        row = node_first + j - 1
+    for number, row in enumerate(range(node_first, node_first + NODE_ROWS), start=1):
         node = f"{SHEET}!{_ref(b, row, 0)}"
+        # the node's number in the solution is a cell of the row, so every row's formulas have one
+        # form (prepared once by the evaluator)
+        j = f"{SHEET}!{_ref(b, row, 6)}"
         shown = f"{j}>node_count"
         at = f"1+MIN({j}, MAX(node_count, 1))"
         band = f"NET_BAND({tables}, INDEX({solve}, {at}, {COLUMN['item']}), {fluid})"
@@ -233,12 +236,13 @@ def build(b) -> None:
             f'=IF({shown}, "", INDEX({band}, 1, 2))',
             f'=IF({shown}, "", IF(SUMPRODUCT((own_bound_nodes={node})*(own_bound_kinds="T"))>0, "fixed", '
             f'"solved"))',
-            f'=IF({shown}, "", SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}))'])
+            f'=IF({shown}, "", SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}))',
+            number])
     b._define("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
     b._define("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
     b._define("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
-    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat in by branches W"],
-            node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00"])
+    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat in W", "#"],
+            node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00", "0"])
     node_last = node_first + NODE_ROWS - 1
     node_t = f"{SHEET}!$B${node_first + 1}:$B${node_last + 1}"
     node_high = f"{SHEET}!$D${node_first + 1}:$D${node_last + 1}"
