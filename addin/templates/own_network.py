@@ -14,6 +14,8 @@ board behind the front panel across a closed air layer.
 
 from __future__ import annotations
 
+from xlsxwriter.utility import xl_rowcol_to_cell
+
 from stillair.gases import GAS_NAMES
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
 
@@ -106,10 +108,8 @@ def _input_block(b, first_col: int, header, rows, count: int, name: str, formats
     return first, last
 
 
-def _ref(b, row: int, col: int) -> str:
+def _ref(row: int, col: int) -> str:
     """A relative reference on the Network sheet ("D12"), as a row's formula reads its neighbours."""
-    from xlsxwriter.utility import xl_rowcol_to_cell
-
     return xl_rowcol_to_cell(row, col)
 
 
@@ -168,7 +168,7 @@ def build(b) -> None:
     # position by SUMPRODUCT: the evaluator's MATCH on a column is unreliable)
     kind_numbers = "{" + ";".join(str(k) for k in range(1, len(kinds) + 1)) + "}"
     for row in range(branch_first, branch_last + 1):
-        kind = _ref(b, row, 3)
+        kind = _ref(row, 3)
         number = f"SUMPRODUCT((kind_names={kind})*{kind_numbers})"
         ws.write_formula(row, meaning_col,
                          f'=IF({kind}="", "", IF({number}=0, "not a kind: choose from the list", '
@@ -192,10 +192,10 @@ def build(b) -> None:
     q_first = state.row + 1
     rows = []
     for i, row in enumerate(range(branch_first, branch_last + 1)):
-        name = f"{SHEET}!{_ref(b, row, 0)}"
+        name = f"{SHEET}!{_ref(row, 0)}"
         # the branch's row in NET_SOLVE's table: header, the nodes, then the branches in order
         # (a relative end, so every row's formula has one form, prepared once)
-        at = f"1+node_count+COUNTA({SHEET}!$A${branch_first + 1}:{_ref(b, row, 0)})"
+        at = f"1+node_count+COUNTA({SHEET}!$A${branch_first + 1}:{_ref(row, 0)})"
 
         def pick(col, empty=None, _name=name, _at=at):
             """Column ``col`` of the branch's row; ``empty`` is printed where the engine leaves
@@ -215,17 +215,18 @@ def build(b) -> None:
     for row in range(q_first, q_last + 1):
         state.lines[row] = BRANCH_ROW_LINES
 
-    b.section(SHEET, f"Solution: nodes (in order of first appearance; up to {NODE_ROWS} listed)")
+    b.section(SHEET, f"Solution: nodes (in order of first appearance; up to {NODE_ROWS} listed); heat taken: "
+                     "the heat a fixed node takes from the network")
     node_rows = []
     heat_col = f"{SHEET}!$B${q_first + 1}:$B${q_last + 1}"
     from_col = f"{SHEET}!$B${branch_first + 1}:$B${branch_last + 1}"
     to_col = f"{SHEET}!$C${branch_first + 1}:$C${branch_last + 1}"
     node_first = state.row + 1
     for number, row in enumerate(range(node_first, node_first + NODE_ROWS), start=1):
-        node = f"{SHEET}!{_ref(b, row, 0)}"
+        node, state = f"{SHEET}!{_ref(row, 0)}", f"{SHEET}!{_ref(row, 4)}"
         # the node's number in the solution is a cell of the row, so every row's formulas have one
         # form (prepared once by the evaluator)
-        j = f"{SHEET}!{_ref(b, row, 6)}"
+        j = f"{SHEET}!{_ref(row, 6)}"
         shown = f"{j}>node_count"
         at = f"1+MIN({j}, MAX(node_count, 1))"
         band = f"NET_BAND({tables}, INDEX({solve}, {at}, {COLUMN['item']}), {fluid})"
@@ -236,12 +237,14 @@ def build(b) -> None:
             f'=IF({shown}, "", INDEX({band}, 1, 2))',
             f'=IF({shown}, "", IF(SUMPRODUCT((own_bound_nodes={node})*(own_bound_kinds="T"))>0, "fixed", '
             f'"solved"))',
-            f'=IF({shown}, "", SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}))',
+            # the heat a fixed node takes: its branches' flows in less those out
+            f'=IF({shown}, "", IF({state}="fixed", '
+            f'SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}), ""))',
             number])
     b._define("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
     b._define("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
     b._define("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
-    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat in W", "#"],
+    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat taken W", "#"],
             node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00", "0"])
     node_last = node_first + NODE_ROWS - 1
     node_t = f"{SHEET}!$B${node_first + 1}:$B${node_last + 1}"
