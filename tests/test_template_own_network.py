@@ -200,3 +200,13 @@ def test_libreoffice_prints_the_template_without_error_text(tmp_path):
                           text=True).stdout
     assert not re.findall(r"#NAME\?|#VALUE!|#REF!|#DIV/0!|#N/A|Err:\d+|###", text)
     assert "OK: " in text and "elsherbiny" in text and "p1..p5 of this kind" in text
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note makes the sand input box twice as tall, which reads as a second,
+    empty input cell under the value."""
+    ws = openpyxl.load_workbook(PATH)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == 3
+    assert all((ws.row_dimensions[r].height or 13.5) <= 13.5 for r in inputs)

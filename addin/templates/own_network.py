@@ -77,11 +77,34 @@ def kind_columns(kind) -> str:
     return ", ".join(f"{param.label} {param.unit}".strip() for param in kind.params)
 
 
+# What each branch column asks for, shown as the cell's input message (the kinds' own p1..p5
+# meanings are in the column beside the row).
+BRANCH_PROMPTS = (
+    ("name", "A name of the branch, unique in the table; blank rows are skipped."),
+    ("from", "The from node: for convection the solid surface, for a cavity the layer's underside."),
+    ("to", "The to node: for convection the fluid, for a cavity the other face."),
+    ("kind", "Choose a kind; the column on the right then says what p1..p5 hold."),
+    ("p1", "See the column on the right: what p1..p5 hold for this row's kind."),
+    ("p2", "See the column on the right: what p1..p5 hold for this row's kind."),
+    ("p3", "See the column on the right: what p1..p5 hold for this row's kind."),
+    ("p4", "See the column on the right: what p1..p5 hold for this row's kind."),
+    ("p5", "See the column on the right: what p1..p5 hold for this row's kind."),
+    ("method", "Blank: auto (the correlation whose range covers the case); or a correlation's method "
+               "name (convection kinds only; stillair functions lists them)."),
+)
+
+
+def _prompt(title: str, text: str) -> dict:
+    """A data-validation input message (the cell accepts anything unless the caller adds a rule)."""
+    return {"validate": "any", "input_title": title, "input_message": text}
+
+
 def _input_block(b, first_col: int, header, rows, count: int, name: str, formats, lines: float = 1,
                  validations=None) -> tuple[int, int]:
     """``count`` rows of input cells under ``header`` on the Network sheet, the first filled from
     ``rows``, the rest blank; named ``name``.  ``validations`` maps a column to its data-validation
-    options.  Returns the first and last row."""
+    options (a custom rule written with {cell} and {left}, the row's cell and the one on its left,
+    applies to every row).  Returns the first and last row."""
     state = b.sheet(SHEET)
     ws = state.worksheet
     for j, title in enumerate(header):
@@ -103,6 +126,9 @@ def _input_block(b, first_col: int, header, rows, count: int, name: str, formats
         state.row += 1
     last = state.row - 1
     for col, options in (validations or {}).items():
+        if options["validate"] == "custom":   # a rule on {cell} and the cell on its {left}, first row
+            options = {**options, "value": options["value"].format(
+                cell=_ref(first, first_col + col), left=_ref(first, first_col + col - 1))}
         ws.data_validation(first, first_col + col, last, first_col + col, {"ignore_blank": True, **options})
     b._define(name, SHEET, first, first_col, last, first_col + len(header) - 1)
     return first, last
@@ -115,16 +141,13 @@ def _ref(row: int, col: int) -> str:
 
 def build(b) -> None:
     # ------------------------------------------------------------------ Inputs
-    b.section("Inputs", "The network (type it on the Network sheet)")
+    b.section("Inputs", "The network: its branch and boundary tables are typed on the Network sheet")
     b.input("net_gas", "Gas of the convection branches", "air", "",
-            "a cavity row can name its own gas or mixture in p5", choices=list(GAS_NAMES))
+            "a cavity row may name its own gas in p5", choices=list(GAS_NAMES))
     b.input("site_altitude", "Site altitude", 0.0, "m", "sets the gas pressure (standard atmosphere)",
             valid=altitude())
     b.input("max_node_t", "Highest temperature allowed at any solved node", 70.0, "°C",
-            "the lowest rating among the parts the solved nodes stand for", valid=LIMIT_TEMPERATURE)
-    b.caution("Inputs", "The branch and boundary tables are on the Network sheet: one row per branch, "
-                        "blank rows are skipped. The column beside each branch row says what p1..p5 hold "
-                        "for the kind typed; the Notes sheet lists every kind in full.")
+            "e.g. the lowest rating among the parts", valid=LIMIT_TEMPERATURE)
 
     # ------------------------------------------------------------------ Network: the tables typed
     kinds = list(BRANCH_KINDS.values())
@@ -134,8 +157,8 @@ def build(b) -> None:
     branch_first, branch_last = _input_block(
         b, 0, list(BRANCH_COLUMNS), EXAMPLE_BRANCHES, BRANCH_ROWS, "own_branches",
         formats=[None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None], lines=BRANCH_ROW_LINES,
-        validations={3: {"validate": "list", "source": kind_list, "input_title": "Branch kind",
-                         "input_message": "Choose a kind; the column on the right then says what p1..p5 hold.",
+        validations={**{col: _prompt(title, text) for col, (title, text) in enumerate(BRANCH_PROMPTS)},
+                     3: {**_prompt(*BRANCH_PROMPTS[3]), "validate": "list", "source": kind_list,
                          "error_title": "Not a branch kind",
                          "error_message": "kind: choose one of " + ", ".join(kind_list) + "."}})
     meaning_col = len(BRANCH_COLUMNS)
@@ -149,12 +172,16 @@ def build(b) -> None:
     bound_first, bound_last = _input_block(
         b, 0, list(BOUNDARY_COLUMNS), EXAMPLE_BOUNDARIES, BOUNDARY_ROWS, "own_bounds",
         formats=[None, None, "0.0"],
-        validations={1: {"validate": "list", "source": ["T", "Q"], "input_title": "T or Q",
-                         "input_message": "T fixes the node's temperature (°C); Q adds a heat input (W).",
-                         "error_title": "Not T or Q", "error_message": "T or Q: type T or Q."},
-                     2: {"validate": "decimal", "criteria": "between", "minimum": -273.15, "maximum": 1e9,
-                         "input_title": "value", "input_message": "°C for a T row, W for a Q row.",
-                         "error_title": "Not a number", "error_message": "value: a number, °C or W."}})
+        validations={0: _prompt("node", "A node some branch joins, named as in the branch table."),
+                     1: {**_prompt("T or Q", "T fixes the node's temperature (°C); Q adds a heat input (W) "
+                                   "at a solved node."), "validate": "list", "source": ["T", "Q"],
+                         "error_title": "Not T or Q", "error_message": "T or Q: choose T or Q."},
+                     # a number; a fixed temperature above absolute zero
+                     2: {**_prompt("value", "°C for a T row (above -273.15), W for a Q row (negative: heat "
+                                   "taken out)."),
+                         "validate": "custom", "value": "=AND(ISNUMBER({cell}),OR({left}<>\"T\",{cell}>-273.15))",
+                         "error_title": "Not a usable value",
+                         "error_message": "value: a number; for a T row a temperature above -273.15 °C."}})
     after_bounds = state.row
     # the kinds, beside the boundary table: number | kind | what p1..p5 hold
     state.row = top
@@ -184,7 +211,7 @@ def build(b) -> None:
     b.step("branch_count", "Branches typed (rows with a name)", f"=COUNTA({names})", "-", number_format="0")
     # NET_SOLVE's rows: the header, a row per node (kind "node"), a row per branch
     kind_column = "{" + ",".join("1" if title == "kind" else "0" for title in RESULT_HEADER) + "}"
-    b.step("node_count", "Nodes in the solution (rows of kind \"node\" in NET_SOLVE's table)",
+    b.step("node_count", "Nodes in the solution (NET_SOLVE's rows of kind node)",
            f'=SUMPRODUCT(({solve}="node")*{kind_column})', "-", number_format="0")
 
     # ------------------------------------------------------------------ Network: the solution
@@ -256,13 +283,13 @@ def build(b) -> None:
     b.section("Calculation", "Energy balance (heat inputs leave through the fixed-temperature nodes)")
     b.step("heat_inputs", "Heat inputs: the Q rows", '=SUMIF(own_bound_kinds, "Q", own_bound_values)', "W")
     b.step("heat_to_fixed", "Heat into the fixed-temperature nodes", f'=SUMIF({node_state}, "fixed", {node_heat})',
-           "W", "each fixed node: heat of the branches into it less those out of it")
+           "W", "branch flows into each fixed node less those out")
     b.step("balance", "Energy balance: inputs - heat into fixed nodes", "=heat_inputs-heat_to_fixed", "W",
            "should be ~0", number_format="0.0E+00")
     b.section("Calculation", "Hottest solved node")
     b.step("t_hottest", "Highest temperature of a solved node", f'=MAXIFS({node_t}, {node_state}, "solved")',
            "°C")
-    b.step("t_hottest_high", "The same, every convection branch at the highest covering Nu",
+    b.step("t_hottest_high", "The same, convection at the highest covering Nu",
            f'=MAXIFS({node_high}, {node_state}, "solved")', "°C")
 
     # ------------------------------------------------------------------ Results
