@@ -146,7 +146,7 @@ def build(b) -> None:
             "a cavity row may name its own gas in p5", choices=list(GAS_NAMES))
     b.input("site_altitude", "Site altitude", 0.0, "m", "sets the gas pressure (standard atmosphere)",
             valid=altitude())
-    b.input("max_node_t", "Highest temperature allowed at any solved node", 70.0, "°C",
+    b.input("max_node_t", "Allowed temperature of any solved node", 70.0, "°C",
             "e.g. the lowest rating among the parts", valid=LIMIT_TEMPERATURE)
 
     # ------------------------------------------------------------------ Network: the tables typed
