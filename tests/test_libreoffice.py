@@ -23,6 +23,8 @@ from stillair.addin.cells import call
 from stillair.addin.cli import main
 from stillair.addin.libreoffice.setup import libreoffice_environment
 
+pytestmark = pytest.mark.slow  # drives LibreOffice with the extension installed
+
 ROOT = Path(__file__).resolve().parent.parent
 SESSION = Path(__file__).resolve().parent / "libreoffice" / "session.py"
 TEMPLATES = sorted((ROOT / "templates").glob("*.xlsx"))

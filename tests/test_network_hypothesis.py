@@ -14,9 +14,13 @@ from __future__ import annotations
 
 import math
 
+import pytest
+
 from hypothesis import HealthCheck, event, given, settings, strategies as st
 
 from stillair.network import NetworkConvergenceError, solve_network
+
+pytestmark = pytest.mark.slow  # hundreds of generated networks
 
 CONVECTION_ROWS = {
     "vplate": lambda d: ["vplate", d(st.floats(0.05, 2.0)), d(st.floats(0.01, 4.0))],

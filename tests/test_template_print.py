@@ -309,6 +309,7 @@ def pdf_pages(path) -> int:
     return len(re.findall(rb"/Type\s*/Page\b", path.read_bytes()))
 
 
+@pytest.mark.slow  # renders every template through LibreOffice
 @pytest.mark.parametrize("template", TEMPLATES, ids=IDS)
 def test_libreoffice_prints_no_error_text_and_nothing_below_8_pt(template, rendered):
     pdf = rendered / f"{template.name}.pdf"
