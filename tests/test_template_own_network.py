@@ -192,6 +192,7 @@ def test_the_template_audits_clean():
 SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
 
 
+@pytest.mark.slow
 @pytest.mark.skipif(SOFFICE is None or shutil.which("pdftotext") is None,
                     reason="LibreOffice and pdftotext are needed to print the template")
 def test_libreoffice_prints_the_template_without_error_text(tmp_path):
