@@ -14,9 +14,10 @@ import openpyxl
 import pytest
 
 import stillair
-from stillair.addin.audit import audit_book
-from stillair.addin.headless import evaluate_book
-from stillair.addin.templatebook import build_template, render_pdf
+from stillair.addin.audit.check import audit_book
+from stillair.addin.templates.build import build_template
+from stillair.addin.templates.render import render_pdf
+from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.templates import own_network
 from stillair.network import BRANCH_KINDS
 

@@ -97,7 +97,8 @@ def test_every_input_is_validated_with_unit_range_and_reason(template):
         for ref in str(validation.sqref).split():
             validations[ref] = validation
     inputs = _inputs(template)
-    assert len(inputs) >= 8
+    # own-network's inputs are mostly its tables on the Network sheet (their checks: its own tests)
+    assert len(inputs) >= (3 if template.name == "own-network" else 8)
     for cell, value in inputs:
         validation = validations.get(cell.coordinate)
         assert validation is not None, f"{template.name}: input {cell.coordinate} has no data validation"

@@ -184,6 +184,11 @@ class TemplateBook:
         self.names[name] = address
         return name
 
+    def name_range(self, name: str, sheet: str, first_row: int, first_col: int, last_row: int | None = None,
+                   last_col: int | None = None) -> str:
+        """A workbook-scoped name for a cell or a block (0-based rows and columns)."""
+        return self._define(name, sheet, first_row, first_col, last_row, last_col)
+
     # ---------------------------------------------------------------- rows
 
     def section(self, sheet: str, title: str) -> None:
@@ -391,6 +396,45 @@ class TemplateBook:
         if name:
             self._define(name, sheet, first, col, last, col + width - 1)
         return first, col, last, col + width - 1
+
+    def input_table(self, sheet: str, header: Sequence[str], rows: Sequence[Sequence[Any]], count: int, name: str,
+                    formats: Sequence[str | None], col: int = 0, lines: float = 1,
+                    validations: dict[int, dict] | None = None) -> tuple[int, int]:
+        """A table the user fills in: ``count`` rows of unlocked input cells under ``header``, the
+        first filled from ``rows`` (None: blank), the rest blank; the data rows named ``name``.
+
+        ``formats`` marks the number columns (None: text); ``lines`` is each row's height in lines;
+        ``validations`` maps a column to its XlsxWriter data-validation options (blanks allowed),
+        a custom rule written with {cell} and {left} (the row's cell and the one on its left) for
+        the first row.  Returns the first and last data row."""
+        state = self.sheet(sheet)
+        state.chart_run = False
+        ws = state.worksheet
+        for j, title in enumerate(header):
+            ws.write(state.row, col + j, title, self.fmt("header" if formats[j] is None else "header_number"))
+            self._need_lines(state, state.row, title, state.widths[col + j])
+        state.row += 1
+        first = state.row
+        for i in range(count):
+            row = rows[i] if i < len(rows) else [None] * len(header)
+            for j, value in enumerate(row):
+                if isinstance(value, str):
+                    ws.write_string(state.row, col + j, value, self.fmt("input_text"))
+                elif value is None:
+                    ws.write_blank(state.row, col + j, None, self.fmt("input" if formats[j] else "input_text"))
+                else:
+                    ws.write_number(state.row, col + j, value, self.fmt("input"))
+            if lines > 1:
+                state.lines[state.row] = lines
+            state.row += 1
+        last = state.row - 1
+        for j, options in (validations or {}).items():
+            if options.get("validate") == "custom":
+                options = {**options, "value": options["value"].format(
+                    cell=xl_rowcol_to_cell(first, col + j), left=xl_rowcol_to_cell(first, col + j - 1))}
+            ws.data_validation(first, col + j, last, col + j, {"ignore_blank": True, **options})
+        self._define(name, sheet, first, col, last, col + len(header) - 1)
+        return first, last
 
     def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
         """Start a new page before a table (with its section bar) that would otherwise split."""

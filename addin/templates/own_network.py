@@ -19,8 +19,9 @@ from xlsxwriter.utility import xl_rowcol_to_cell
 from stillair.gases import GAS_NAMES
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
 
-from ..network import RESULT_HEADER
-from ..templatebook import GRIDS, LIMIT_TEMPERATURE, SIG3, Template, altitude, limit_check
+from ..cells.network import RESULT_HEADER
+from .book import limit_check
+from .spec import BOUNDARY_FORMATS, BRANCH_FORMATS, LIMIT_TEMPERATURE, SIG3, Template, altitude
 
 NAME = "own-network"
 SHEET = "Network"
@@ -31,11 +32,6 @@ BOUNDARY_ROWS = 20
 NODE_ROWS = 50
 # Lines of wrapped text a branch row is given (the p1..p5 meaning column wraps to two).
 BRANCH_ROW_LINES = 2
-
-# The Network sheet: the ten table columns and the meaning of p1..p5 beside them (characters;
-# within the ~112 a page prints at full size).  Solution tables reuse the same columns.
-NETWORK_GRID = (11, 9, 9, 11, 7, 7, 7, 7, 7, 12, 25)
-GRIDS.setdefault(SHEET, NETWORK_GRID)   # until the template framework lists it itself
 
 # The worked example (a scenario of our own): a sealed box 0.30 m wide, 0.20 m deep, 0.25 m high
 # of 1.5 mm painted sheet steel standing on a desk in an office.  A 20 W circuit board (0.24 m x
@@ -99,41 +95,6 @@ def _prompt(title: str, text: str) -> dict:
     return {"validate": "any", "input_title": title, "input_message": text}
 
 
-def _input_block(b, first_col: int, header, rows, count: int, name: str, formats, lines: float = 1,
-                 validations=None) -> tuple[int, int]:
-    """``count`` rows of input cells under ``header`` on the Network sheet, the first filled from
-    ``rows``, the rest blank; named ``name``.  ``validations`` maps a column to its data-validation
-    options (a custom rule written with {cell} and {left}, the row's cell and the one on its left,
-    applies to every row).  Returns the first and last row."""
-    state = b.sheet(SHEET)
-    ws = state.worksheet
-    for j, title in enumerate(header):
-        ws.write(state.row, first_col + j, title, b.fmt("header" if formats[j] is None else "header_number"))
-    state.row += 1
-    first = state.row
-    for i in range(count):
-        row = rows[i] if i < len(rows) else [None] * len(header)
-        for j, value in enumerate(row):
-            style = "input" if formats[j] is not None else "input_text"
-            if value is None:
-                ws.write_blank(state.row, first_col + j, None, b.fmt(style))
-            elif isinstance(value, str):
-                ws.write_string(state.row, first_col + j, value, b.fmt("input_text"))
-            else:
-                ws.write_number(state.row, first_col + j, value, b.fmt(style))
-        if lines > 1:
-            state.lines[state.row] = lines
-        state.row += 1
-    last = state.row - 1
-    for col, options in (validations or {}).items():
-        if options["validate"] == "custom":   # a rule on {cell} and the cell on its {left}, first row
-            options = {**options, "value": options["value"].format(
-                cell=_ref(first, first_col + col), left=_ref(first, first_col + col - 1))}
-        ws.data_validation(first, first_col + col, last, first_col + col, {"ignore_blank": True, **options})
-    b._define(name, SHEET, first, first_col, last, first_col + len(header) - 1)
-    return first, last
-
-
 def _ref(row: int, col: int) -> str:
     """A relative reference on the Network sheet ("D12"), as a row's formula reads its neighbours."""
     return xl_rowcol_to_cell(row, col)
@@ -154,9 +115,9 @@ def build(b) -> None:
     b.section(SHEET, f"Branches: one row per branch, up to {BRANCH_ROWS} (from = surface, to = fluid for "
                      "convection; blank rows are skipped)")
     kind_list = [kind.name for kind in kinds]
-    branch_first, branch_last = _input_block(
-        b, 0, list(BRANCH_COLUMNS), EXAMPLE_BRANCHES, BRANCH_ROWS, "own_branches",
-        formats=[None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None], lines=BRANCH_ROW_LINES,
+    branch_first, branch_last = b.input_table(
+        SHEET, list(BRANCH_COLUMNS), EXAMPLE_BRANCHES, BRANCH_ROWS, "own_branches",
+        formats=BRANCH_FORMATS, lines=BRANCH_ROW_LINES,
         validations={**{col: _prompt(title, text) for col, (title, text) in enumerate(BRANCH_PROMPTS)},
                      3: {**_prompt(*BRANCH_PROMPTS[3]), "validate": "list", "source": kind_list,
                          "error_title": "Not a branch kind",
@@ -169,9 +130,9 @@ def build(b) -> None:
     b.section(SHEET, "Boundaries (T fixes a node's °C, Q adds W at a solved node)   |   Branch kinds "
                      "(from the stillair engine)")
     top = state.row
-    bound_first, bound_last = _input_block(
-        b, 0, list(BOUNDARY_COLUMNS), EXAMPLE_BOUNDARIES, BOUNDARY_ROWS, "own_bounds",
-        formats=[None, None, "0.0"],
+    bound_first, bound_last = b.input_table(
+        SHEET, list(BOUNDARY_COLUMNS), EXAMPLE_BOUNDARIES, BOUNDARY_ROWS, "own_bounds",
+        formats=BOUNDARY_FORMATS,
         validations={0: _prompt("node", "A node some branch joins, named as in the branch table."),
                      1: {**_prompt("T or Q", "T fixes the node's temperature (°C); Q adds a heat input (W) "
                                    "at a solved node."), "validate": "list", "source": ["T", "Q"],
@@ -187,8 +148,8 @@ def build(b) -> None:
     state.row = top
     kind_first, _, kind_last, _ = b.table(SHEET, ["kind", "p1..p5"],
                                           [[kind.name, kind_columns(kind)] for kind in kinds], col=3)
-    b._define("kind_names", SHEET, kind_first, 3, kind_last, 3)
-    b._define("kind_params", SHEET, kind_first, 4, kind_last, 4)
+    b.name_range("kind_names", SHEET, kind_first, 3, kind_last, 3)
+    b.name_range("kind_params", SHEET, kind_first, 4, kind_last, 4)
     state.row = max(state.row, after_bounds)
 
     # what p1..p5 hold, beside each branch row, looked up from the kinds table (the kind's
@@ -208,11 +169,11 @@ def build(b) -> None:
     b.section("Calculation", "Gas and the size of the network")
     b.step("gas_pressure", "Gas pressure at the site", "=ALTITUDE_PRESSURE(site_altitude)", "Pa")
     names = f"{SHEET}!$A${branch_first + 1}:$A${branch_last + 1}"
-    b.step("branch_count", "Branches typed (rows with a name)", f"=COUNTA({names})", "-", number_format="0")
+    b.step("branch_count", "Branches typed (rows with a name)", f"=COUNTA({names})", number_format="0")
     # NET_SOLVE's rows: the header, a row per node (kind "node"), a row per branch
     kind_column = "{" + ",".join("1" if title == "kind" else "0" for title in RESULT_HEADER) + "}"
     b.step("node_count", "Nodes in the solution (NET_SOLVE's rows of kind node)",
-           f'=SUMPRODUCT(({solve}="node")*{kind_column})', "-", number_format="0")
+           f'=SUMPRODUCT(({solve}="node")*{kind_column})', number_format="0")
 
     # ------------------------------------------------------------------ Network: the solution
     b.section(SHEET, "Solution: branches (row by row as typed; heat flow positive from -> to)")
@@ -268,9 +229,9 @@ def build(b) -> None:
             f'=IF({shown}, "", IF({state}="fixed", '
             f'SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}), ""))',
             number])
-    b._define("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
-    b._define("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
-    b._define("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
+    b.name_range("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
+    b.name_range("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
+    b.name_range("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
     b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat taken W", "#"],
             node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00", "0"])
     node_last = node_first + NODE_ROWS - 1
@@ -295,8 +256,8 @@ def build(b) -> None:
     # ------------------------------------------------------------------ Results
     b.section("Results", "Network")
     b.result("res_net_check", "Network check", f"=NET_CHECK({tables}, {fluid})", text=True)
-    b.result("res_branches", "Branches", "=branch_count", "-", number_format="0")
-    b.result("res_nodes", "Nodes", "=node_count", "-", number_format="0")
+    b.result("res_branches", "Branches", "=branch_count", number_format="0")
+    b.result("res_nodes", "Nodes", "=node_count", number_format="0")
     b.result("res_listed", "All nodes listed on the Network sheet",
              f'=IF(ISNUMBER(node_count), IF(node_count<={NODE_ROWS}, "yes", "NOT ALL LISTED: more than '
              f'{NODE_ROWS} nodes; read the rest with NET_TEMP"), "CALC FAILED")', text=True,
