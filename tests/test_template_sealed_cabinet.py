@@ -152,3 +152,16 @@ def test_correlation_spread_equals_the_engine_band(sets):
     assert low < high
     verdict = "OK" if high <= named(evaluation, "max_internal_t") else "EXCEEDS LIMIT"
     assert named(evaluation, "res_check_high") == verdict
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note (row 27, the sun on the sides, did) makes the sand input box twice
+    as tall, which reads as an empty second input cell under the value."""
+    import openpyxl
+
+    ws = openpyxl.load_workbook(cabinet.TEMPLATE.path)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == len(input_names(cabinet.TEMPLATE))
+    tall = [(r, ws.cell(r, 1).value) for r in inputs if (ws.row_dimensions[r].height or 13.5) > 13.5]
+    assert not tall

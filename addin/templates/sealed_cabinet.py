@@ -68,12 +68,12 @@ def build(b) -> None:
     b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4",
             valid=Valid(0.0, 1.0, "an absorptance is a fraction of the incident sun, 0 to 1"))
     b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case", valid=SUN)
-    b.input("sun_sides", "Solar irradiance on the sides (mean over all four)", 120.0, "W/m²",
-            "0 for a shaded or night case", valid=SUN)
+    b.input("sun_sides", "Solar irradiance on the sides", 120.0, "W/m²",
+            "mean over all four; 0 when shaded or at night", valid=SUN)
     b.section("Inputs", "Surroundings and limit")
     b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site", valid=OUTDOOR_AIR)
     b.input("sky_t", "Sky temperature (seen by the top)", 15.0, "°C",
-            "effective long-wave sky temperature, below the air temperature", valid=SKY_TEMPERATURE)
+            "long-wave sky, below the air temperature", valid=SKY_TEMPERATURE)
     b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)", valid=altitude())
     b.input("max_internal_t", "Maximum allowed internal air temperature", 55.0, "°C",
             "from the equipment maker's rating", valid=LIMIT_TEMPERATURE)
@@ -235,6 +235,6 @@ def build(b) -> None:
                 "standards and licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 4, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit.", build)
