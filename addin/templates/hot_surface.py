@@ -98,7 +98,7 @@ def build(b) -> None:
     b.step("bare_area", "Area of the bare surface",
            '=IF(kind="hcyl", PI()*pipe_od*pipe_length, face_height*face_width)', "m²")
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
-           '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
+           '=IF(kind="hcyl", pipe_length, bare_area)', '=IF(kind="hcyl", "m", "m²")', number_format="0.000")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
     b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
@@ -203,7 +203,7 @@ def build(b) -> None:
     b.result("res_h_rad_bare", "Radiation coefficient", "=h_rad_bare", "W/(m²·K)")
     b.result("res_q_bare", "Heat loss, bare", "=q_bare", "W")
     b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
-             "W/m or W/m²")
+             '=IF(kind="hcyl", "W/m", "W/m²")', number_format="0.0")
     b.result("res_bare_check", "Bare surface against the touch limit",
              '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Insulation against the touch limit")
@@ -268,6 +268,6 @@ def build(b) -> None:
                 "where the calculated temperature meets the limit.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Hot surface in still air",
+TEMPLATE = Template(NAME, 4, "Hot surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit.", build)
