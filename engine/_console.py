@@ -18,7 +18,7 @@ import os
 import sys
 from typing import Callable
 
-__all__ = ["EXIT_CANNOT_RUN", "ascii_fallback", "run_command", "say"]
+__all__ = ["EXIT_CANNOT_RUN", "ascii_fallback", "run_command", "say", "say_line"]
 
 EXIT_CANNOT_RUN = 2
 
@@ -62,8 +62,13 @@ def _discard_stdout() -> None:
 
 def say(prog: str, message: str) -> None:
     """One line on stderr: ``prog: message``."""
+    say_line(f"{prog}: {message}")
+
+
+def say_line(message: str) -> None:
+    """``message`` as one line on stderr (its white space, new lines too, made single spaces)."""
     try:
-        print(f"{prog}: {' '.join(str(message).split())}", file=sys.stderr)
+        print(" ".join(str(message).split()), file=sys.stderr)
     except (OSError, ValueError):
         pass
 
