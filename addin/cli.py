@@ -33,8 +33,10 @@ class OneLineParser(argparse.ArgumentParser):
     input, instead of printing the usage text (``--help`` still shows it)."""
 
     def error(self, message: str):
-        # argparse words it "argument --rtol: ..."; the option is the subject of our line
+        # argparse words it "argument --rtol: must be ..."; ours reads "--rtol must be ..." as
+        # every input check does
         text = message[len("argument "):] if message.startswith("argument ") else message
+        text = text.replace(": must be ", " must be ", 1)
         raise UsageError(f"{self.prog}: {text} ({self.prog} --help shows the usage)")
 
 

@@ -292,9 +292,9 @@ def _tolerance(text: str) -> float:
     try:
         value = float(text)
     except ValueError:
-        value = float("nan")
+        raise argparse.ArgumentTypeError(f"must be a number >= 0, got {text!r}") from None
     if not value >= 0:
-        raise argparse.ArgumentTypeError(f"must be a number >= 0, got {text!r}")
+        raise argparse.ArgumentTypeError(f"must be >= 0, got {text}")
     return value
 
 
