@@ -202,3 +202,25 @@ def test_calc_prints_every_column_of_a_results_table(capsys):
 def test_version():
     done = stillair_cmd("--version")
     assert done.returncode == 0 and done.stdout.strip() == f"stillair {stillair.__version__}"
+
+
+@pytest.mark.parametrize("command", [COMMAND, [sys.executable, "-m", "stillair"]], ids=["stillair", "python-m"])
+def test_ctrl_c_while_starting_is_one_line_not_a_traceback(command):
+    """Ctrl-C in the first moments, while numpy, scipy and the engine are still importing, ends
+    like a Ctrl-C later: "stillair: interrupted", exit status 2, no traceback."""
+    import signal
+    import time
+
+    outcomes = []
+    for delay in (0.15, 0.3, 0.5):
+        process = subprocess.Popen([*command, "functions"] if command is COMMAND else command,
+                                   stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+        time.sleep(delay)
+        process.send_signal(signal.SIGINT)
+        err = process.stderr.read()
+        process.stderr.close()
+        code = process.wait(timeout=120)
+        assert "Traceback" not in err, f"after {delay} s: {err}"
+        if code != -signal.SIGINT:      # not killed before Python had started at all
+            outcomes.append((code, err))
+    assert outcomes and all(outcome == (2, "stillair: interrupted\n") for outcome in outcomes), outcomes
