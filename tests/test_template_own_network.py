@@ -85,6 +85,7 @@ def test_the_worked_example_equals_a_direct_engine_solution():
     names = evaluation.names
     solved = [t for node, t in result.temperatures.items() if node not in ("room_air", "room_walls")]
     assert names["res_t_hottest"] == pytest.approx(max(solved), rel=1e-12)
+    assert names["res_hottest_node"] == "board"
     assert names["res_t_hottest_high"] == pytest.approx(
         max(result.band[n][1] for n in result.temperatures if n not in ("room_air", "room_walls")), rel=1e-12)
     assert names["res_branches"] == len(own_network.EXAMPLE_BRANCHES)
@@ -212,3 +213,15 @@ def test_every_input_row_is_one_line_high():
               if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
     assert len(inputs) == 3
     assert all((ws.row_dimensions[r].height or 13.5) <= 13.5 for r in inputs)
+
+
+def test_the_hottest_node_is_named_from_the_solution():
+    """A strong heat input on the lid's outer face makes it the hottest node; the sheet names it
+    and its temperature is the engine's."""
+    row = _layout()["node"] + 1 + len(own_network.EXAMPLE_BOUNDARIES)
+    extra = ["lid_out", "Q", 150.0]
+    evaluation = _evaluate(tuple((f"Network!{col}{row}", value) for col, value in zip("ABC", extra)))
+    result = stillair.solve_network(own_network.EXAMPLE_BRANCHES, own_network.EXAMPLE_BOUNDARIES + [extra])
+    assert max(result.temperatures, key=result.temperatures.get) == "lid_out"
+    assert evaluation.names["res_hottest_node"] == "lid_out"
+    assert evaluation.names["res_t_hottest"] == pytest.approx(result.temperatures["lid_out"], rel=1e-9)

@@ -239,6 +239,8 @@ def build(b) -> None:
     node_high = f"{SHEET}!$D${node_first + 1}:$D${node_last + 1}"
     node_state = f"{SHEET}!$E${node_first + 1}:$E${node_last + 1}"
     node_heat = f"{SHEET}!$F${node_first + 1}:$F${node_last + 1}"
+    node_names = f"{SHEET}!$A${node_first + 1}:$A${node_last + 1}"
+    node_numbers = f"{SHEET}!$G${node_first + 1}:$G${node_last + 1}"
 
     # ------------------------------------------------------------------ Calculation: key numbers
     b.section("Calculation", "Energy balance (heat inputs leave through the fixed-temperature nodes)")
@@ -250,6 +252,8 @@ def build(b) -> None:
     b.section("Calculation", "Hottest solved node")
     b.step("t_hottest", "Highest temperature of a solved node", f'=MAXIFS({node_t}, {node_state}, "solved")',
            "°C")
+    b.step("hottest_node", "Which node (the first, if several are equally hot)",
+           f'=INDEX({node_names}, MINIFS({node_numbers}, {node_state}, "solved", {node_t}, t_hottest))')
     b.step("t_hottest_high", "The same, convection at the highest covering Nu",
            f'=MAXIFS({node_high}, {node_state}, "solved")', "°C")
 
@@ -263,9 +267,10 @@ def build(b) -> None:
              f'{NODE_ROWS} nodes; read the rest with NET_TEMP"), "CALC FAILED")', text=True,
              fails=("NOT ALL LISTED",))
     b.section("Results", "Temperatures")
-    b.result("res_t_hottest", "Hottest solved node", "=t_hottest", "°C")
+    b.result("res_hottest_node", "Hottest solved node", "=hottest_node", text=True)
+    b.result("res_t_hottest", "Its temperature", "=t_hottest", "°C")
     b.result("res_t_hottest_high", "Hottest solved node, correlation spread: highest", "=t_hottest_high", "°C",
-             "spread of the published correlations (see Notes)")
+             "spread of the correlations (see Notes)")
     b.result("res_limit", "Highest temperature allowed", "=max_node_t", "°C")
     b.result("res_check", "Limit check", limit_check("t_hottest", "max_node_t"), text=True,
              fails=("EXCEEDS LIMIT",))
