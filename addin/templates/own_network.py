@@ -269,7 +269,7 @@ def build(b) -> None:
     b.section("Results", "Temperatures")
     b.result("res_hottest_node", "Hottest solved node", "=hottest_node", text=True)
     b.result("res_t_hottest", "Its temperature", "=t_hottest", "°C")
-    b.result("res_t_hottest_high", "Hottest solved node, correlation spread: highest", "=t_hottest_high", "°C",
+    b.result("res_t_hottest_high", "Hottest, correlation spread: highest", "=t_hottest_high", "°C",
              "spread of the correlations (see Notes)")
     b.result("res_limit", "Highest temperature allowed", "=max_node_t", "°C")
     b.result("res_check", "Limit check", limit_check("t_hottest", "max_node_t"), text=True,
