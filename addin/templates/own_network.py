@@ -170,10 +170,10 @@ def build(b) -> None:
     b.step("gas_pressure", "Gas pressure at the site", "=ALTITUDE_PRESSURE(site_altitude)", "Pa")
     names = f"{SHEET}!$A${branch_first + 1}:$A${branch_last + 1}"
     b.step("branch_count", "Branches typed (rows with a name)", f"=COUNTA({names})", number_format="0")
-    # NET_SOLVE's rows: the header, a row per node (kind "node"), a row per branch
-    kind_column = "{" + ",".join("1" if title == "kind" else "0" for title in RESULT_HEADER) + "}"
-    b.step("node_count", "Nodes in the solution (NET_SOLVE's rows of kind node)",
-           f'=SUMPRODUCT(({solve}="node")*{kind_column})', number_format="0")
+    # NET_SOLVE's rows: the header, a row per node, a row per branch (LibreOffice compares no
+    # text of an add-in's array, so the nodes are counted from the rows)
+    b.step("node_count", "Nodes in the solution (NET_SOLVE's rows less header and branches)",
+           f"=ROWS({solve})-1-branch_count", number_format="0")
 
     # ------------------------------------------------------------------ Network: the solution
     b.section(SHEET, "Solution: branches (row by row as typed; heat flow positive from -> to)")
@@ -250,12 +250,12 @@ def build(b) -> None:
     b.step("balance", "Energy balance: inputs - heat into fixed nodes", "=heat_inputs-heat_to_fixed", "W",
            "should be ~0", number_format="0.0E+00")
     b.section("Calculation", "Hottest solved node")
-    b.step("t_hottest", "Highest temperature of a solved node", f'=MAXIFS({node_t}, {node_state}, "solved")',
+    b.step("t_hottest", "Highest temperature of a solved node", f'=_xlfn.MAXIFS({node_t}, {node_state}, "solved")',
            "°C")
     b.step("hottest_node", "Which node (the first, if several are equally hot)",
-           f'=INDEX({node_names}, MINIFS({node_numbers}, {node_state}, "solved", {node_t}, t_hottest))')
+           f'=INDEX({node_names}, _xlfn.MINIFS({node_numbers}, {node_state}, "solved", {node_t}, t_hottest))')
     b.step("t_hottest_high", "The same, convection at the highest covering Nu",
-           f'=MAXIFS({node_high}, {node_state}, "solved")', "°C")
+           f'=_xlfn.MAXIFS({node_high}, {node_state}, "solved")', "°C")
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Network")
