@@ -54,7 +54,7 @@ def _solution(evaluation):
     branch_columns = [_cells(evaluation, c, first_branch, own_network.BRANCH_ROWS) for c in "ABCDEK"]
     branches = {row[0]: row[1:] for row in zip(*branch_columns) if row[0] != ""}
     first_node = at["solved node"] + 1
-    node_columns = [_cells(evaluation, c, first_node, own_network.NODE_ROWS) for c in "ABCDEF"]
+    node_columns = [_cells(evaluation, c, first_node, own_network.NODE_ROWS) for c in "ACDEBF"]
     nodes = {row[0]: row[1:] for row in zip(*node_columns) if row[0] != ""}
     return branches, nodes
 

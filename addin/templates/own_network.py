@@ -210,37 +210,39 @@ def build(b) -> None:
     from_col = f"{SHEET}!$B${branch_first + 1}:$B${branch_last + 1}"
     to_col = f"{SHEET}!$C${branch_first + 1}:$C${branch_last + 1}"
     node_first = state.row + 1
+    # the node table's columns: the state (text) beside the name, the numbers after it
+    at_col = {"node": 0, "state": 1, "t": 2, "low": 3, "high": 4, "heat": 5, "number": 6}
     for number, row in enumerate(range(node_first, node_first + NODE_ROWS), start=1):
-        node, state = f"{SHEET}!{_ref(row, 0)}", f"{SHEET}!{_ref(row, 4)}"
+        node, fixed_or_solved = (f"{SHEET}!{_ref(row, at_col[key])}" for key in ("node", "state"))
         # the node's number in the solution is a cell of the row, so every row's formulas have one
         # form (prepared once by the evaluator)
-        j = f"{SHEET}!{_ref(row, 6)}"
+        j = f"{SHEET}!{_ref(row, at_col['number'])}"
         shown = f"{j}>node_count"
         at = f"1+MIN({j}, MAX(node_count, 1))"
         band = f"NET_BAND({tables}, INDEX({solve}, {at}, {COLUMN['item']}), {fluid})"
         node_rows.append([
             f'=IF({shown}, "", INDEX({solve}, {at}, {COLUMN["item"]}))',
+            f'=IF({shown}, "", IF(SUMPRODUCT((own_bound_nodes={node})*(own_bound_kinds="T"))>0, "fixed", '
+            f'"solved"))',
             f'=IF({shown}, "", INDEX({solve}, {at}, {COLUMN["value"]}))',
             f'=IF({shown}, "", INDEX({band}, 1, 1))',
             f'=IF({shown}, "", INDEX({band}, 1, 2))',
-            f'=IF({shown}, "", IF(SUMPRODUCT((own_bound_nodes={node})*(own_bound_kinds="T"))>0, "fixed", '
-            f'"solved"))',
             # the heat a fixed node takes: its branches' flows in less those out
-            f'=IF({shown}, "", IF({state}="fixed", '
+            f'=IF({shown}, "", IF({fixed_or_solved}="fixed", '
             f'SUMIF({to_col}, {node}, {heat_col})-SUMIF({from_col}, {node}, {heat_col}), ""))',
             number])
     b.name_range("own_bound_nodes", SHEET, bound_first, 0, bound_last, 0)
     b.name_range("own_bound_kinds", SHEET, bound_first, 1, bound_last, 1)
     b.name_range("own_bound_values", SHEET, bound_first, 2, bound_last, 2)
-    b.table(SHEET, ["node", "T °C", "spread low °C", "spread high °C", "fixed or solved", "heat taken W", "#"],
-            node_rows, formats=[None, "0.0", "0.0", "0.0", None, "0.00", "0"])
+    b.table(SHEET, ["node", "fixed or solved", "T °C", "spread low °C", "spread high °C", "heat taken W", "#"],
+            node_rows, formats=[None, None, "0.0", "0.0", "0.0", "0.00", "0"])
     node_last = node_first + NODE_ROWS - 1
-    node_t = f"{SHEET}!$B${node_first + 1}:$B${node_last + 1}"
-    node_high = f"{SHEET}!$D${node_first + 1}:$D${node_last + 1}"
-    node_state = f"{SHEET}!$E${node_first + 1}:$E${node_last + 1}"
-    node_heat = f"{SHEET}!$F${node_first + 1}:$F${node_last + 1}"
-    node_names = f"{SHEET}!$A${node_first + 1}:$A${node_last + 1}"
-    node_numbers = f"{SHEET}!$G${node_first + 1}:$G${node_last + 1}"
+
+    def node_column(key):
+        letter = xl_rowcol_to_cell(0, at_col[key])[:-1]
+        return f"{SHEET}!${letter}${node_first + 1}:${letter}${node_last + 1}"
+    node_t, node_high, node_state, node_heat, node_names, node_numbers = (
+        node_column(key) for key in ("t", "high", "state", "heat", "node", "number"))
 
     # ------------------------------------------------------------------ Calculation: key numbers
     b.section("Calculation", "Energy balance (heat inputs leave through the fixed-temperature nodes)")
