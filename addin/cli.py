@@ -9,7 +9,7 @@ import stat
 import sys
 import tempfile
 
-from stillair._console import run_command, say, say_line
+from stillair._console import OneLineParser, UsageError, run_command, say, say_line
 
 
 EXIT_FINDINGS = 1   # done, with error cells (calc) or findings (audit)
@@ -22,22 +22,6 @@ def _version() -> str:
         return version("stillair")
     except PackageNotFoundError:  # running from a source tree without installing
         return "unknown"
-
-
-class UsageError(Exception):
-    """A command line argparse refused; the message names the option and the value."""
-
-
-class OneLineParser(argparse.ArgumentParser):
-    """An argument parser that reports a bad command line in one line, like every other bad
-    input, instead of printing the usage text (``--help`` still shows it)."""
-
-    def error(self, message: str):
-        # argparse words it "argument --rtol: must be ..."; ours reads "--rtol must be ..." as
-        # every input check does
-        text = message[len("argument "):] if message.startswith("argument ") else message
-        text = text.replace(": must be ", " must be ", 1)
-        raise UsageError(f"{self.prog}: {text} ({self.prog} --help shows the usage)")
 
 
 def build_parser() -> argparse.ArgumentParser:

@@ -15,12 +15,14 @@ Two everyday situations must not end in a traceback:
 
 from __future__ import annotations
 
+import argparse
 import codecs
 import os
 import sys
 from typing import Callable
 
-__all__ = ["EXIT_CANNOT_RUN", "ascii_fallback", "guard_command_start", "run_command", "say", "say_line"]
+__all__ = ["EXIT_CANNOT_RUN", "OneLineParser", "UsageError", "ascii_fallback", "guard_command_start",
+           "run_command", "say", "say_line"]
 
 EXIT_CANNOT_RUN = 2
 
@@ -73,6 +75,23 @@ def say_line(message: str) -> None:
         print(" ".join(str(message).split()), file=sys.stderr)
     except (OSError, ValueError):
         pass
+
+
+class UsageError(Exception):
+    """A command line the parser refused; the message names the option and the value."""
+
+
+class OneLineParser(argparse.ArgumentParser):
+    """An argument parser that reports a bad command line in one line, like every other bad
+    input, instead of printing the usage text (``--help`` still shows it); the command catches
+    :class:`UsageError`, says it and exits 2."""
+
+    def error(self, message: str):
+        # argparse words it "argument --rtol: must be ..."; ours reads "--rtol must be ..." as
+        # every input check does
+        text = message[len("argument "):] if message.startswith("argument ") else message
+        text = text.replace(": must be ", " must be ", 1)
+        raise UsageError(f"{self.prog}: {text} ({self.prog} --help shows the usage)")
 
 
 def _started_as_command() -> bool:

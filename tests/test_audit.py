@@ -504,18 +504,3 @@ def test_quick_filter_lets_every_form_of_our_calls_through():
                 assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
     assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")
 
-
-def test_terminal_table_names_cells_with_one_finding_as_ranges():
-    """Cells sharing a kind and a message are one row, their cells as ranges; --json keeps one
-    entry per cell."""
-    from stillair.addin.audit.findings import AuditResult, Finding
-    from stillair.addin.audit.report import format_table, to_json
-
-    same = "H_CAVITY: gap must be > 0 m, got -0.01"
-    findings = [Finding("error", f"Tables!{col}34", same) for col in "DEF"] + \
-        [Finding("error", "Tables!D35", same), Finding("mismatch", "Calc!B3", "cached 1, engine 2")]
-    result = AuditResult("book.xlsx", "0.1.0", findings, checked=[f.cell for f in findings], ok=[])
-    rows = [line.split("  ") for line in format_table(result).splitlines()[2:-1]]
-    assert [[part.strip() for part in row if part.strip()] for row in rows] == [
-        ["error", "Tables!D34:F34, Tables!D35", same], ["mismatch", "Calc!B3", "cached 1, engine 2"]]
-    assert len(to_json(result)["findings"]) == 5

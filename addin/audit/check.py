@@ -343,9 +343,7 @@ def _unreadable(args, reason: str) -> int:
 
 def main(argv: list[str] | None = None) -> int:
     """``stillair audit`` on its own: ``python -m stillair.addin.audit BOOK ...``."""
-    from stillair._console import say_line
-
-    from ..cli import OneLineParser, UsageError
+    from stillair._console import OneLineParser, UsageError, say_line
 
     parser = OneLineParser(prog="stillair audit", description=add_audit_parser.__doc__)
     _add_arguments(parser)

@@ -5,7 +5,6 @@ from __future__ import annotations
 import math
 import os
 
-from ..workbook.report import compress_cells
 from .findings import KINDS, AuditError, AuditResult, show
 
 __all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
@@ -30,11 +29,7 @@ def format_table(result: AuditResult) -> str:
     head += f", template {result.template})" if result.template else ")"
     lines = [head]
     if result.findings:
-        # one row per kind and message, its cells as ranges (findings keep their order)
-        cells: dict[tuple[str, str], list[str]] = {}
-        for f in result.findings:
-            cells.setdefault((f.kind, f.message), []).append(f.cell or "(workbook)")
-        rows = [(kind, compress_cells(where), message) for (kind, message), where in cells.items()]
+        rows = [(f.kind, f.cell or "(workbook)", f.message) for f in result.findings]
         widths = [max(len(r[i]) for r in rows + [("KIND", "CELL", "")]) for i in (0, 1)]
         lines.append(f"{'KIND':<{widths[0]}}  {'CELL':<{widths[1]}}  DETAIL")
         for kind, cell, message in rows:
