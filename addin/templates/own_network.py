@@ -21,6 +21,7 @@ from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
 
 from ..cells.network import RESULT_HEADER
 from .book import limit_check
+from .pages import GRIDS, text_lines
 from .spec import BOUNDARY_FORMATS, BRANCH_FORMATS, LIMIT_TEMPERATURE, SIG3, Template, altitude
 
 NAME = "own-network"
@@ -30,8 +31,6 @@ SHEET = "Network"
 BRANCH_ROWS = 40
 BOUNDARY_ROWS = 20
 NODE_ROWS = 50
-# Lines of wrapped text a branch row is given (the p1..p5 meaning column wraps to two).
-BRANCH_ROW_LINES = 2
 
 # The worked example (a scenario of our own): a sealed box 0.30 m wide, 0.20 m deep, 0.25 m high
 # of 1.5 mm painted sheet steel standing on a desk in an office.  A 20 W circuit board (0.24 m x
@@ -95,6 +94,13 @@ def _prompt(title: str, text: str) -> dict:
     return {"validate": "any", "input_title": title, "input_message": text}
 
 
+def branch_row_lines() -> int:
+    """Lines a branch row is given: enough for the longest kind's p1..p5 text in the column beside
+    the row (the kinds are the engine's, so a new kind with long labels makes the rows taller)."""
+    width = GRIDS[SHEET][len(BRANCH_COLUMNS)]
+    return max(text_lines(kind_columns(kind), width) for kind in BRANCH_KINDS.values())
+
+
 def _ref(row: int, col: int) -> str:
     """A relative reference on the Network sheet ("D12"), as a row's formula reads its neighbours."""
     return xl_rowcol_to_cell(row, col)
@@ -117,7 +123,7 @@ def build(b) -> None:
     kind_list = [kind.name for kind in kinds]
     branch_first, branch_last = b.input_table(
         SHEET, list(BRANCH_COLUMNS), EXAMPLE_BRANCHES, BRANCH_ROWS, "own_branches",
-        formats=BRANCH_FORMATS, lines=BRANCH_ROW_LINES,
+        formats=BRANCH_FORMATS, lines=branch_row_lines(),
         validations={**{col: _prompt(title, text) for col, (title, text) in enumerate(BRANCH_PROMPTS)},
                      3: {**_prompt(*BRANCH_PROMPTS[3]), "validate": "list", "source": kind_list,
                          "error_title": "Not a branch kind",
@@ -127,9 +133,7 @@ def build(b) -> None:
     ws = state.worksheet
     ws.write(branch_first - 1, meaning_col, "p1..p5 of this kind", b.fmt("header"))
 
-    b.section(SHEET, "Boundaries (T fixes a node's °C, Q adds W at a solved node)   |   Branch kinds "
-                     "(from the stillair engine)")
-    top = state.row
+    b.section(SHEET, "Boundaries (T fixes a node's °C, Q adds W at a solved node)")
     bound_first, bound_last = b.input_table(
         SHEET, list(BOUNDARY_COLUMNS), EXAMPLE_BOUNDARIES, BOUNDARY_ROWS, "own_bounds",
         formats=BOUNDARY_FORMATS,
@@ -143,14 +147,12 @@ def build(b) -> None:
                          "validate": "custom", "value": "=AND(ISNUMBER({cell}),OR({left}<>\"T\",{cell}>-273.15))",
                          "error_title": "Not a usable value",
                          "error_message": "value: a number; for a T row a temperature above -273.15 °C."}})
-    after_bounds = state.row
-    # the kinds, beside the boundary table: number | kind | what p1..p5 hold
-    state.row = top
+    # the kinds: what p1..p5 hold (the text runs on over the empty columns to its right)
+    b.section(SHEET, "Branch kinds and what p1..p5 hold (from the stillair engine; Notes lists them in full)")
     kind_first, _, kind_last, _ = b.table(SHEET, ["kind", "p1..p5"],
-                                          [[kind.name, kind_columns(kind)] for kind in kinds], col=3)
-    b.name_range("kind_names", SHEET, kind_first, 3, kind_last, 3)
-    b.name_range("kind_params", SHEET, kind_first, 4, kind_last, 4)
-    state.row = max(state.row, after_bounds)
+                                          [[kind.name, kind_columns(kind)] for kind in kinds])
+    b.name_range("kind_names", SHEET, kind_first, 0, kind_last, 0)
+    b.name_range("kind_params", SHEET, kind_first, 1, kind_last, 1)
 
     # what p1..p5 hold, beside each branch row, looked up from the kinds table (the kind's
     # position by SUMPRODUCT: the evaluator's MATCH on a column is unreliable)
@@ -200,8 +202,6 @@ def build(b) -> None:
     b.table(SHEET, ["branch", "heat flow W", "h W/(m²·K)", "R K/W", "method", "", "", "", "", "", "note"],
             rows, formats=[None, "0.00", SIG3, SIG3, None, None, None, None, None, None, None])
     q_last = q_first + BRANCH_ROWS - 1
-    for row in range(q_first, q_last + 1):
-        state.lines[row] = BRANCH_ROW_LINES
 
     b.section(SHEET, f"Solution: nodes (in order of first appearance; up to {NODE_ROWS} listed); heat taken: "
                      "the heat a fixed node takes from the network")
