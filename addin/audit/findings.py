@@ -6,9 +6,13 @@ from __future__ import annotations
 import math
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from ..workbook.cachewriter import ERROR_VALUES
 from ..workbook.status import label
+
+if TYPE_CHECKING:  # hand.py is loaded only when the hand check runs
+    from .hand import HandCheck
 
 __all__ = ["KINDS", "EXIT_OK", "EXIT_FINDINGS", "EXIT_UNREADABLE", "DEFAULT_RTOL", "DEFAULT_ATOL",
            "Finding", "AuditResult", "AuditError", "CellRecord", "Records", "differs",
@@ -66,7 +70,7 @@ class AuditResult:
     timing: dict[str, float] = field(default_factory=dict)
     sha256: str = ""
     report: str | None = None
-    hand: object = None            # the hand check of the formulas typed by hand (hand.HandCheck)
+    hand: HandCheck | None = None  # the hand check of the formulas typed by hand
 
     def counts(self) -> dict[str, int]:
         counts = {"ok": len(self.ok)}
