@@ -6,13 +6,10 @@ from __future__ import annotations
 import math
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import Any
 
 from ..workbook.cachewriter import ERROR_VALUES
 from ..workbook.status import label
-
-if TYPE_CHECKING:  # hand.py is loaded only when the hand check runs
-    from .hand import HandCheck
 
 __all__ = ["KINDS", "EXIT_OK", "EXIT_FINDINGS", "EXIT_UNREADABLE", "DEFAULT_RTOL", "DEFAULT_ATOL",
            "Finding", "AuditResult", "AuditError", "CellRecord", "Records", "differs",
@@ -70,7 +67,9 @@ class AuditResult:
     timing: dict[str, float] = field(default_factory=dict)
     sha256: str = ""
     report: str | None = None
-    hand: HandCheck | None = None  # the hand check of the formulas typed by hand
+    # the hand check of the formulas typed by hand, a hand.HandCheck: hand.py imports this module
+    # and addin's modules import without a cycle (tests/test_addin_layout.py), so readers name it
+    hand: Any = None
 
     def counts(self) -> dict[str, int]:
         counts = {"ok": len(self.ok)}

@@ -4,8 +4,12 @@ from __future__ import annotations
 
 import math
 import os
+from typing import TYPE_CHECKING
 
 from .findings import KINDS, AuditError, AuditResult, show
+
+if TYPE_CHECKING:
+    from .hand import HandCheck
 
 __all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
 
@@ -24,7 +28,7 @@ def summary_line(result: AuditResult) -> str:
         extra.append(f"{len(result.unchecked)} not checkable")
     tail = f" ({', '.join(extra)})" if extra else ""
     cells = len(result.checked)
-    hand = result.hand
+    hand: HandCheck | None = result.hand
     # a book with nothing recognised by hand reads as before (its counts are in the JSON)
     hand_words = f"; {hand.summary()}" if hand is not None and (
         hand.recognised or hand.findings or hand.iteration) else ""

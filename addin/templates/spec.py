@@ -9,10 +9,7 @@ import math
 from dataclasses import dataclass
 from importlib import import_module
 from pathlib import Path
-from typing import TYPE_CHECKING, Callable
-
-if TYPE_CHECKING:  # book.py imports this module, so the name is for the checker only
-    from .book import TemplateBook
+from typing import Any, Callable
 
 __all__ = ["Template", "Valid", "TemplateBuildError", "TEMPLATE_DIR", "MARKER_NAME", "FAILED",
            "CELL_STYLES", "significant_format", "gas_temperature", "gas_pressure", "altitude"]
@@ -111,7 +108,9 @@ class Template:
     version: int
     title: str
     summary: str
-    build: Callable[[TemplateBook], None]
+    # takes a book.TemplateBook; book.py imports this module and addin's modules import without a
+    # cycle (tests/test_addin_layout.py), so the type is not named here
+    build: Callable[[Any], None]
 
     @property
     def marker(self) -> str:
