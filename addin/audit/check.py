@@ -125,6 +125,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     def position(f: Finding):
         if f.sheet is None:
             return (-1, 0, 0)
+        assert f.ref is not None  # a finding on a sheet names its cell
         row, col = split_ref(f.ref)
         return (order.get(f.sheet, len(order)), row, col)
 

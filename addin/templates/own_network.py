@@ -158,11 +158,11 @@ def build(b) -> None:
     # position by SUMPRODUCT: the evaluator's MATCH on a column is unreliable)
     kind_numbers = "{" + ";".join(str(k) for k in range(1, len(kinds) + 1)) + "}"
     for row in range(branch_first, branch_last + 1):
-        kind = _ref(row, 3)
-        number = f"SUMPRODUCT((kind_names={kind})*{kind_numbers})"
+        kind_cell = _ref(row, 3)
+        kind_position = f"SUMPRODUCT((kind_names={kind_cell})*{kind_numbers})"
         ws.write_formula(row, meaning_col,
-                         f'=IF({kind}="", "", IF({number}=0, "not a kind: choose from the list", '
-                         f'INDEX(kind_params, {number})))', b.fmt("note"))
+                         f'=IF({kind_cell}="", "", IF({kind_position}=0, "not a kind: choose from the list", '
+                         f'INDEX(kind_params, {kind_position})))', b.fmt("note"))
 
     # ------------------------------------------------------------------ Calculation
     tables = "own_branches, own_bounds"
