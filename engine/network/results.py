@@ -39,6 +39,7 @@ class BranchResult:
     case: str
     note: str
     in_range: bool
+    Re: float = 0.0        # on the length along the wind; 0 in still air (and for other kinds)
 
     def __getitem__(self, key):
         return getattr(self, key)
