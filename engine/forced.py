@@ -43,7 +43,7 @@ __all__ = ["MIXING_EXPONENT", "MIXING_SOURCE", "MIXING_EQUATION", "WindFlow", "W
 MIXING_EXPONENT = 3.0
 MIXING_SOURCE = (
     "S.W. Churchill, R. Usagi, AIChE J. 18 (1972) 1121-1128 (the form); S.W. Churchill, AIChE J. 23 "
-    "(1977) 10-16 (n = 3 for assisting and transverse flows); as recommended in Incropera et al., "
+    "(1977) 10-16 (n = 3 for assisting and transverse flows; both citations from memory); as recommended in Incropera et al., "
     "Fundamentals of Heat and Mass Transfer, 6th ed., eq. 9.66 (from memory; the text adds that 3.5 "
     "and 4 may suit transverse flows over horizontal plates and over cylinders or spheres: not used)")
 MIXING_EQUATION = "Nu^3 = Nu_N^3 + Nu_F^3 (on one length), i.e. h = (h_N^3 + h_F^3)^(1/3)"
@@ -61,23 +61,26 @@ def combine_mixed(h_natural, h_forced):
 
 #: The critical Reynolds number of the mixed boundary layer; 871 = 0.037 Re_c^0.8 - 0.664 Re_c^0.5.
 PLATE_CRITICAL_RE = 5e5
-_PLATE_SWITCH = Range("Re", high=PLATE_CRITICAL_RE, band=1.05)
+#: auto switches at Re_c without a band: the two forms meet there within 0.1 %, while a blend
+#: below Re_c would read the mixed form where it falls away steeply (a 1 % dip).
+_PLATE_SWITCH = Range("Re", high=PLATE_CRITICAL_RE, band=1.0)
 
 define_geometry(Geometry(
     name="plate-flow", title="flat plate in parallel flow (wind)", inputs=("re", "pr"),
     length="wind_length", length_doc="length of the plate along the wind, m",
     description="Flat plate in a parallel flow, Re on the length along the flow, properties at the "
                 "film temperature. Auto rule: pohlhausen (laminar boundary layer) up to Re = 5e5, "
-                "mixed-boundary-layer above it; the two meet within 0.1 % at 5e5 and are blended "
-                "over a factor 1.05 below it.",
+                "mixed-boundary-layer above it; the two meet within 0.1 % at 5e5, where auto "
+                "switches from one to the other.",
     auto={None: (AutoStep("pohlhausen", when=(_PLATE_SWITCH,)),
                  AutoStep("mixed-boundary-layer", when=()))}))
 
 
 @correlation(
     geometry="plate-flow", method="pohlhausen", title="Laminar boundary layer on a flat plate, average Nu",
-    source="E. Pohlhausen, Z. Angew. Math. Mech. 1 (1921) 115-121; Incropera et al., Fundamentals of "
-           "Heat and Mass Transfer, 6th ed., eq. 7.30 (laminar, Pr >= 0.6)",
+    source="E. Pohlhausen, Z. Angew. Math. Mech. 1 (1921) 115-121 (from memory); Incropera et al., "
+           "Fundamentals of Heat and Mass Transfer, 6th ed., eq. 7.30 (laminar, Pr >= 0.6); the same form "
+           "in Baehr and Stephan, Heat and Mass Transfer (as implemented in ht)",
     equation="Nu = 0.664 Re^(1/2) Pr^(1/3)",
     validity=[Range("Re", high=PLATE_CRITICAL_RE), Range("Pr", low=0.6)])
 def _plate_pohlhausen(re, pr):
@@ -88,7 +91,8 @@ def _plate_pohlhausen(re, pr):
     geometry="plate-flow", method="mixed-boundary-layer",
     title="Flat plate, laminar then turbulent boundary layer (Re_c = 5e5), average Nu",
     source="Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 7.38 and 7.39 "
-           "(turbulent part after Schlichting's 0.0296 Re_x^(4/5) Pr^(1/3), eq. 7.36)",
+           "(turbulent part after Schlichting's 0.0296 Re_x^(4/5) Pr^(1/3), eq. 7.36; equation numbers "
+           "and ranges from memory)",
     equation="Nu = (0.037 Re^(4/5) - 871) Pr^(1/3)",
     validity=[Range("Re", PLATE_CRITICAL_RE, 1e8), Range("Pr", 0.6, 60.0)],
     notes="871 = 0.037 Re_c^(4/5) - 0.664 Re_c^(1/2) at Re_c = 5e5: the laminar value is carried to "

@@ -388,7 +388,9 @@ def _convection_kind(geometry) -> ConvectionKind:
     mixed = "; in a wind h = (h_N^3 + h_F^3)^(1/3), h_F forced" if wind else ""
     return ConvectionKind(geometry.name, tuple(params),
                           flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}{mixed}",
-                          ends=geometry.branch_ends or "from: the solid surface; to: the still fluid",
+                          ends=geometry.branch_ends or ("from: the solid surface; to: the fluid far from it "
+                                                        "(still, or moving at the wind speed)" if wind else
+                                                        "from: the solid surface; to: the still fluid"),
                           geometry=geometry.name)
 
 
