@@ -325,6 +325,12 @@ def _with_wind(geometry, still: ConvectionResult, wind, wind_length, length, dia
     """``still`` with the wind's forced convection combined in (see :mod:`stillair.forced`);
     where the wind is 0 every field keeps its still-air value exactly."""
     flow = WIND_FLOWS[geometry]
+    if (type(wind) in PLAIN_NUMBERS and 0.0 < wind < math.inf and still.h.ndim == 0
+            and (wind_length is None or type(wind_length) in PLAIN_NUMBERS and 0.0 < wind_length < math.inf)
+            and not (wind_length is None and flow.wind_length_required)
+            and (wind_length is None or flow.along == "wind_length")):
+        return _with_plain_wind(flow, still, float(wind), wind_length, length, diameter, gas, pressure,
+                                function_name)
     wind = require_nonnegative(function_name, "wind", wind, "m/s")
     if wind_length is not None:
         if flow.along != "wind_length":
@@ -364,6 +370,27 @@ def _with_wind(geometry, still: ConvectionResult, wind, wind_length, length, dia
         blend=None if still.blend is None else _full(still.blend, shape),
         re=np.where(blowing, re, 0.0), h_natural=h_natural, h_forced=h_forced,
         forced_method=np.where(blowing, forced.method, "").astype(object))
+
+
+def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pressure, function_name):
+    """:func:`_with_wind` for one case in plain numbers (the registry's scalar path, the same
+    formulas)."""
+    along = float(forced_length(flow, length, wind_length=wind_length, diameter=diameter))
+    t_film = float(still.t_film)
+    kinvisc = gas_properties(gas, t_film, pressure, function_name=function_name).kinvisc
+    re = wind * along / float(kinvisc)
+    forced = nusselt(flow.geometry, "auto", function_name=function_name, re=re, pr=float(still.pr))
+    conductivity = float(still.conductivity)
+    h_natural = float(still.h)
+    h_forced = float(forced.nu) * conductivity / along
+    h = combine_mixed(h_natural, h_forced)
+    notes = [str(n) for n in (still.note, forced.note) if str(n)]
+    return ConvectionResult(
+        h=np.asarray(h), nu=np.asarray(h * float(still.length) / conductivity), ra=still.ra, gr=still.gr,
+        pr=still.pr, t_film=still.t_film, conductivity=still.conductivity, length=still.length,
+        method=still.method, case=still.case, in_range=np.asarray(bool(still.in_range) and bool(forced.in_range)),
+        note=np.asarray("; ".join(notes), dtype=object), blend=still.blend, re=np.asarray(re),
+        h_natural=np.asarray(h_natural), h_forced=np.asarray(h_forced), forced_method=forced.method)
 
 
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:

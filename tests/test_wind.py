@@ -350,3 +350,21 @@ def test_every_exposed_surface_has_a_wind_flow_of_the_registry():
         assert flow.geometry in GEOMETRIES and geometry in GEOMETRIES
         assert "wind" in (stillair.__dict__[f"h_{geometry}"].__doc__ or "")
         assert "Churchill" in stillair.__dict__[f"h_{geometry}"].__doc__
+
+
+@pytest.mark.parametrize("geometry", sorted(CALLS))
+def test_the_scalar_wind_path_gives_the_array_result(geometry):
+    # one case in plain numbers takes the registry's scalar path; numpy's scalar and vectorised
+    # pow may differ in the last bits (as for still air, tests/test_scalar_path.py)
+    import warnings
+    call = CALLS[geometry]
+    rng = np.random.default_rng(5)
+    ts, tf, wind = rng.uniform(-20, 120, 40), rng.uniform(-20, 35, 40), rng.uniform(0.01, 25, 40)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CorrelationRangeWarning)
+        whole = call(ts, tf, wind=wind)
+        for k in range(40):
+            assert call(float(ts[k]), float(tf[k]), wind=float(wind[k])) == pytest.approx(whole[k], rel=1e-14, abs=0)
+    one = stillair.surface_convection("sphere", 30.0, 20.0, 0.01, wind=0.001).scalar()
+    many = stillair.surface_convection("sphere", 30.0, 20.0, 0.01, wind=np.array([0.001])).scalar()
+    assert (one.note, one.in_range, one.forced_method) == (many.note[0], many.in_range[0], many.forced_method[0])
