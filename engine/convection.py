@@ -457,11 +457,12 @@ def _h_cavity_call(t1, t2, *, gap, height, tilt, **common) -> ConvectionResult:
 ONE_CALLS: dict = {"cavity": _h_cavity_call}
 
 
-@shared_docs
+@_wind_docs
 def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str = "air",
                         pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
                         property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
-                        function_name: str | None = None, **parameters: ArrayLike | str) -> ConvectionResult:
+                        function_name: str | None = None, wind: ArrayLike = 0.0,
+                        wind_length: ArrayLike | None = None, **parameters: ArrayLike | str) -> ConvectionResult:
     """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
 
     ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
@@ -484,6 +485,8 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
         The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
         ``diameter``, ``gap`` ... as ``geometry.parameters`` lists them, lengths in m, angles
         in degrees).
+    {wind}
+        Only for the exposed surfaces (vplate, hplate, tplate, hcyl, sphere, vcyl).
 
     {convection_result}
 
@@ -516,9 +519,12 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
                   ideal_expansion=ideal_expansion, function_name=function_name)
     own_call = ONE_CALLS.get(geo.name)
     if own_call is not None:
+        if wind_length is not None or not (type(wind) in PLAIN_NUMBERS and wind == 0):
+            raise InputError(function_name, "wind", wind, f"0 for {geo.name} (wind acts on exposed surfaces: "
+                                                          f"{', '.join(WIND_FLOWS)})")
         return own_call(t1, t2, **values, **common)
     length = values.pop(geo.length)
-    return surface_convection(geo.name, t1, t2, length, **values, **common)
+    return surface_convection(geo.name, t1, t2, length, **values, **common, wind=wind, wind_length=wind_length)
 
 
 def _h_only(result: ConvectionResult, function_name: str):

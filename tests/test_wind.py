@@ -368,3 +368,11 @@ def test_the_scalar_wind_path_gives_the_array_result(geometry):
     one = stillair.surface_convection("sphere", 30.0, 20.0, 0.01, wind=0.001).scalar()
     many = stillair.surface_convection("sphere", 30.0, 20.0, 0.01, wind=np.array([0.001])).scalar()
     assert (one.note, one.in_range, one.forced_method) == (many.note[0], many.in_range[0], many.forced_method[0])
+
+
+def test_geometry_convection_passes_the_wind_to_exposed_surfaces_only():
+    by_name = stillair.geometry_convection("vcyl", 50.0, 10.0, height=0.6, diameter=0.1, wind=2.0)
+    assert float(by_name.h) == stillair.h_vcyl(50.0, 10.0, 0.6, 0.1, wind=2.0)
+    with pytest.raises(InputError, match=r"^h_cavity: wind must be 0 for cavity \(wind acts on exposed surfaces: "
+                                         r"vplate, hplate, tplate, hcyl, vcyl, sphere\), got 2$"):
+        stillair.geometry_convection("cavity", 20.0, 10.0, gap=0.02, height=1.0, wind=2.0)
