@@ -481,12 +481,12 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
     {gas_and_pressure}
     {method}
     {property_options}
+    {wind}
+        Only for the exposed surfaces (vplate, hplate, tplate, hcyl, sphere, vcyl).
     parameters : array_like or str
         The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
         ``diameter``, ``gap`` ... as ``geometry.parameters`` lists them, lengths in m, angles
         in degrees).
-    {wind}
-        Only for the exposed surfaces (vplate, hplate, tplate, hcyl, sphere, vcyl).
 
     {convection_result}
 
