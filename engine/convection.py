@@ -347,8 +347,8 @@ def _with_wind(geometry, still: ConvectionResult, wind, wind_length, length, dia
     along = forced_length(flow, length, wind_length=wind_length, diameter=diameter)
     kinvisc = gas_properties(gas, still.t_film, pressure, function_name=function_name).kinvisc
     shape = np.broadcast(still.h, wind, along).shape
-    blowing = _full(blowing, shape)
     re = _full(wind * along / kinvisc, shape)
+    blowing = _full(blowing, shape) & (re > 0.0)   # a wind so light that Re underflows to 0 is still air
     # Re = 0 where still: the forced correlation is not evaluated there (1 is a stand-in)
     forced = nusselt(flow.geometry, "auto", function_name=function_name,
                      re=np.where(blowing, re, 1.0), pr=_full(still.pr, shape))
@@ -379,6 +379,8 @@ def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pres
     t_film = float(still.t_film)
     kinvisc = gas_properties(gas, t_film, pressure, function_name=function_name).kinvisc
     re = wind * along / float(kinvisc)
+    if not re > 0.0:    # a wind so light that Re underflows to 0: still air
+        return still
     forced = nusselt(flow.geometry, "auto", function_name=function_name, re=re, pr=float(still.pr))
     conductivity = float(still.conductivity)
     h_natural = float(still.h)

@@ -376,3 +376,28 @@ def test_geometry_convection_passes_the_wind_to_exposed_surfaces_only():
     with pytest.raises(InputError, match=r"^h_cavity: wind must be 0 for cavity \(wind acts on exposed surfaces: "
                                          r"vplate, hplate, tplate, hcyl, vcyl, sphere\), got 2$"):
         stillair.geometry_convection("cavity", 20.0, 10.0, gap=0.02, height=1.0, wind=2.0)
+
+
+from hypothesis import given, settings, strategies as st  # noqa: E402
+
+
+@settings(max_examples=150, deadline=None)
+@given(ts=st.floats(-40.0, 200.0), tf=st.floats(-40.0, 45.0), wind=st.floats(0.0, 40.0),
+       geometry=st.sampled_from(sorted(CALLS)))
+def test_the_cube_sum_lies_between_the_larger_part_and_the_sum_of_both(ts, tf, wind, geometry):
+    """Churchill-Usagi with n = 3 > 1: max(h_N, h_F) <= h <= h_N + h_F, and more wind never cools less."""
+    import warnings
+    kwargs = {"vplate": dict(wind_length=0.9), "hplate": dict(facing="up", wind_length=0.9),
+              "tplate": dict(facing="down", tilt=20.0)}.get(geometry, {})
+    if geometry == "vcyl":
+        kwargs["diameter"] = 0.08
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CorrelationRangeWarning)
+        result = stillair.surface_convection(geometry, ts, tf, 0.4, wind=wind, **kwargs).scalar()
+        more = stillair.surface_convection(geometry, ts, tf, 0.4, wind=wind * 1.1 + 0.01, **kwargs).scalar()
+    if result.h_forced is None:   # still air: no wind, or one so light that Re underflows to 0
+        assert wind < 1e-300
+        return
+    assert max(result.h_natural, result.h_forced) * (1 - 1e-12) <= result.h
+    assert result.h <= (result.h_natural + result.h_forced) * (1 + 1e-12)
+    assert more.h >= result.h * (1 - 1e-12)

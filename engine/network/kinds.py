@@ -456,8 +456,8 @@ class _ConvectionGroup(_Group):
         if self.wind is None:
             return h, None, None
         wind, along = (self.wind_tiled, self.wind_along_tiled) if tiled else (self.wind, self.wind_along)
-        blowing = wind > 0.0
         re = wind * along / kinvisc
+        blowing = re > 0.0     # wind > 0 (a wind so light that Re underflows to 0 is still air)
         forced = nusselt_checked(GEOMETRIES[WIND_FLOWS[self.geometry].geometry], "auto", None,
                                  {"re": np.where(blowing, re, 1.0), "pr": pr}, notes, ranges=notes)
         h_forced = forced.nu * conductivity / along
