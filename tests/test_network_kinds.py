@@ -77,7 +77,7 @@ def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
                                   "from": "either way round (q > 0 from from to to)"}
     assert rows["vcyl"]["from"] == "from: the solid surface; to: the fluid far from it (still, or moving at the wind speed)"
     assert rows["cavity"]["from"] == "from: the surface on the layer's underside; to: the other face"
-    from stillair.addin.reference import network_markdown
+    from stillair.addin.cells.reference import network_markdown
     assert ("| `vcyl` | q = h(T1, T2) A (T1 - T2), h = Nu k / height; in a wind h = (h_N^3 + h_F^3)^(1/3), "
             "h_F forced; from: the solid surface; to: the fluid far from it (still, or moving at the wind speed) "
             "| height m (cylinder height) | diameter m "
