@@ -199,9 +199,10 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     return _with_wind(geometry, still, wind, wind_length, length, diameter, gas, pressure, function_name)
 
 
-def _still_surface_convection(geometry, t_surface, t_fluid, length, *, facing, tilt, diameter, gas,
-                              pressure, method, property_temperature, ideal_expansion,
-                              function_name) -> ConvectionResult:
+def _still_surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike, *,
+                              facing: str | None, tilt: ArrayLike | None, diameter: ArrayLike | None, gas: str,
+                              pressure: ArrayLike, method: str, property_temperature: ArrayLike | None,
+                              ideal_expansion: bool, function_name: str) -> ConvectionResult:
     geo = GEOMETRIES[geometry]
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
@@ -643,5 +644,5 @@ for _function, (_geometry, _summary, _call, _value) in _H_SUMMARIES.items():
              f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
     if _geometry in WIND_FLOWS:   # the wind's correlations and the combination, before Examples
         _wind = "\n".join(["``wind``"] + [_indent(part, 4) + "\n" for part in wind_notes(_geometry).split("\n\n")])
-        _function.__doc__ = _function.__doc__.replace("\nExamples\n--------\n", f"\n{_wind}\nExamples\n--------\n", 1)
+        _function.__doc__ = (_function.__doc__ or "").replace("\nExamples\n--------\n", f"\n{_wind}\nExamples\n--------\n", 1)
 del _function, _geometry, _summary, _call, _value

@@ -294,7 +294,7 @@ class ConvectionKind(BranchKind):
         values = super().read_params(row_values, where)
         wind, along = self.role("wind"), self.role("wind-length")
         if (wind is not None and values[wind] > 0 and along is not None and values[along] is None
-                and WIND_FLOWS[self.geometry].wind_length_required):
+                and WIND_FLOWS[self.geometry or ""].wind_length_required):
             raise NetworkError(FUNCTION, f"{where}, column p{along + 1} (wind length)", None,
                                "the plate's length along the wind in m (> 0) when the wind is > 0 "
                                "(area/perimeter is not a length along the wind)")
@@ -426,13 +426,14 @@ class _ConvectionGroup(_Group):
                         if p.role not in ("", "facing", "case", "gas")}
         self.length = self.columns.pop("length")
         self.area = self.columns.pop("area")
-        self.wind = self.columns.pop("wind", None)
+        self.wind: np.ndarray | None = self.columns.pop("wind", None)
         along = self.columns.pop("wind-length", None)
         if self.wind is not None and not np.any(self.wind > 0):
             self.wind = None      # still air: the forced part is never evaluated
+        self.wind_along: np.ndarray = self.length     # the length the forced correlation reads
         if self.wind is not None:
             flow = WIND_FLOWS[self.geometry]
-            own = self.columns.get("diameter") if flow.along == "diameter" else self.length
+            own = self.columns["diameter"] if flow.along == "diameter" else self.length
             self.wind_along = own if along is None or flow.along != "wind_length" else \
                 np.where(np.isnan(along), own, along)
         self.cases = GEOMETRIES[self.geometry].cases
@@ -526,11 +527,12 @@ class _ConvectionGroup(_Group):
                 Pr=float(detail.pr[k]), t_film=float(detail.t_film[k]), method=str(detail.method[k]),
                 case=case,
                 note=str(detail.note[k] or ""), in_range=bool(detail.in_range[k]))
-            if detail.forced is not None and self.wind[k] > 0:   # mixed: Nu = h L / k on the own length
-                forced_note = str(detail.forced.note[k] or "")
+            if detail.forced is not None and self.wind is not None and self.wind[k] > 0:
+                # mixed convection: Nu = h L / k on the geometry's own length, both notes
+                notes = (str(detail.note[k] or ""), str(detail.forced.note[k] or ""))
                 record.update(Re=float(detail.re[k]), Nu=float(detail.h[k] * self.length[k] / detail.conductivity[k]),
                               method=f"{record['method']} + {detail.forced.method[k]} (wind)",
-                              note="; ".join(n for n in (record["note"], forced_note) if n),
+                              note="; ".join(n for n in notes if n),
                               in_range=record["in_range"] and bool(detail.forced.in_range[k]))
             yield int(self.index[k]), record
 
