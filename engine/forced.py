@@ -33,6 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ._select import where
 from .correlations import AutoStep, Geometry, correlation, define_geometry
 from .validity import Range
 
@@ -50,9 +51,15 @@ MIXING_EQUATION = "Nu^3 = Nu_N^3 + Nu_F^3 (on one length), i.e. h = (h_N^3 + h_F
 
 
 def combine_mixed(h_natural, h_forced):
-    """Churchill-Usagi sum (h_N^n + h_F^n)^(1/n), n = :data:`MIXING_EXPONENT`."""
+    """Churchill-Usagi sum (h_N^n + h_F^n)^(1/n), n = :data:`MIXING_EXPONENT`, formed on the
+    ratios to the larger part so that neither cube under- or overflows (a tiny part must not
+    turn the sum into 0)."""
     n = MIXING_EXPONENT
-    return (h_natural ** n + h_forced ** n) ** (1.0 / n)
+    larger = np.maximum(h_natural, h_forced)
+    with np.errstate(divide="ignore", invalid="ignore"):   # 0/0 where both are 0: where() keeps 0
+        summed = larger * ((h_natural / larger) ** n + (h_forced / larger) ** n) ** (1.0 / n)
+    # both 0: 0; an infinite part (a correlation's Ra = 0 limit, Popiel's): infinite
+    return where((larger > 0.0) & (larger < np.inf), summed, larger)
 
 
 # --------------------------------------------------------------------------------------------
