@@ -401,3 +401,18 @@ def test_the_cube_sum_lies_between_the_larger_part_and_the_sum_of_both(ts, tf, w
     assert max(result.h_natural, result.h_forced) * (1 - 1e-12) <= result.h
     assert result.h <= (result.h_natural + result.h_forced) * (1 + 1e-12)
     assert more.h >= result.h * (1 - 1e-12)
+
+
+def test_insulation_thickness_in_a_wind_balances_the_combined_coefficient():
+    """The exact thickness with a wind: conduction through it equals what the outer surface passes
+    on by the mixed-convection coefficient and radiation (a flat face: x = k (t_i - t_s) / F)."""
+    ti, ta, ts, k, eps = 150.0, 20.0, 45.0, 0.04, 0.3
+    x = stillair.insulation_thickness(ti, ta, ts, k, eps, "vplate", 1.2, wind=4.0, wind_length=2.0)
+    passed = (stillair.h_vplate(ts, ta, 1.2, wind=4.0, wind_length=2.0) * (ts - ta)
+              + stillair.h_rad(ts, ta, eps) * (ts - ta))
+    assert x == pytest.approx(k * (ti - ts) / passed, rel=1e-12)
+    assert x < stillair.insulation_thickness(ti, ta, ts, k, eps, "vplate", 1.2)     # a wind cools: less needed
+    assert stillair.insulation_thickness(ti, ta, ts, k, eps, "hcyl", 0.1, wind=0.0) == \
+        stillair.insulation_thickness(ti, ta, ts, k, eps, "hcyl", 0.1)
+    with pytest.raises(InputError, match=r"^insulation_thickness: wind_length must be blank for hcyl"):
+        stillair.insulation_thickness(ti, ta, ts, k, eps, "hcyl", 0.1, wind=2.0, wind_length=1.0)

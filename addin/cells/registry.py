@@ -628,7 +628,8 @@ _entries += [
                   Arg("facing", '"up" or "down" for hplate; blank otherwise.', kind="text", default=None),
                   Arg("t_surroundings", "Temperature of the surroundings the surface radiates to, in °C; blank "
                       "for t_air.", "°C", default=None),
-                  GAS, P),
+                  GAS, P, WIND,
+                  _wind_length("faces only; blank: the face height (vplate), required for hplate with a wind")),
                  "Insulation thickness in m at which the outer surface of an insulated pipe or face is at "
                  "t_surface (ISO 12241 surface-temperature and condensation criteria).",
                  CATEGORIES["insulation"], unit="m"),
