@@ -121,7 +121,7 @@ def build(b) -> None:
             "set from ISO 13732-1 for the jacket material and contact time, or local rules",
             valid=LIMIT_TEMPERATURE)
     b.section("Inputs", "Cold surface: ambient humidity and condensation margin")
-    b.input("ambient_rh", "Relative humidity of the still air", 0.6, "-",
+    b.input("ambient_rh", "Relative humidity of the air", 0.6, "-",
             "a fraction: 60 % is 0.6; used when the surface is colder than the air",
             valid=Valid(0.0, 1.0, "a relative humidity is a fraction above 0 and at most 1 (60 % is 0.6)",
                         low_open=True))
@@ -160,7 +160,7 @@ def build(b) -> None:
 
     b.section("Calculation", "Exact insulation thickness for a surface temperature (INSULATION_THICKNESS)")
     b.step("mode", "Surface against the air", '=IF(hot_t<ambient_t, "cold surface", "hot surface")', "")
-    b.step("t_dew_ambient", "Dew point of the still air (frost point below 0 °C)", "=DEW_POINT(ambient_t, ambient_rh)",
+    b.step("t_dew_ambient", "Dew point of the air (frost point below 0 °C)", "=DEW_POINT(ambient_t, ambient_rh)",
            "°C")
     b.step("t_dry_min", "Lowest outer surface temperature kept dry (dew point + margin)", "=t_dew_ambient+dew_margin",
            "°C")
@@ -287,7 +287,7 @@ def build(b) -> None:
              "0 when the bare surface is within it")
     b.section("Results", "Cold surface: condensation on the outer surface (ISO 12241 criterion)")
     b.result("res_mode", "Surface against the air", "=mode", text=True)
-    b.result("res_dew_ambient", "Dew point of the still air", "=t_dew_ambient", "°C", "frost point below 0 °C")
+    b.result("res_dew_ambient", "Dew point of the air", "=t_dew_ambient", "°C", "frost point below 0 °C")
     b.result("res_t_dry_min", "Lowest outer surface temperature kept dry", "=t_dry_min", "°C",
              "dew point + the chosen margin")
     b.result("res_bare_dry", "Bare surface against the dew point",
