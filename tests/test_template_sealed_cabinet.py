@@ -294,3 +294,16 @@ def test_still_air_by_default_and_the_wind_is_the_engine_s():
     assert named(evaluate_template(NAME, wind_speed=0.0), "t_air") == named(still, "t_air")
     windy_night = evaluate_template(NAME, night_wind_speed=3.0)
     assert named(windy_night, "res_heater_q") > named(still, "res_heater_q")
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note (row 27, the sun on the sides, did) makes the sand input box twice
+    as tall, which reads as an empty second input cell under the value."""
+    import openpyxl
+
+    ws = openpyxl.load_workbook(cabinet.TEMPLATE.path)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == len(input_names(cabinet.TEMPLATE))
+    tall = [(r, ws.cell(r, 1).value) for r in inputs if (ws.row_dimensions[r].height or 13.5) > 13.5]
+    assert not tall

@@ -221,24 +221,38 @@ def build(b: TemplateBook) -> None:
     x3 = "(pane_1+gap_1+pane_2)*1000"
     x4, x5 = "(pane_1+gap_1+pane_2+gap_2)*1000", "(pane_1+gap_1+pane_2+gap_2+pane_3)*1000"
     end = f"IF(panes=3,{x5},{x3})+10"
-    profile = [
-        ["outdoor air", -10.0, "=t_outdoor"],
-        ["face 1", 0.0, "=t_face_1"],
-        ["face 2", f"={x1}", "=t_gap1_outer"],
-        ["face 3", f"={x2}", "=t_gap1_inner"],
-        ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
-        ['=IF(panes=3,"face 5","indoor air")', f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
-        ['=IF(panes=3,"indoor face","indoor air")', f"=IF(panes=3,{x5},{end})",
-         "=IF(panes=3,t_indoor_face,t_indoor)"],
-        ["indoor air", f"={end}", "=t_indoor"],
-    ]
-    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], profile,
+    # The printed table names each point once; a double unit's two triple-only rows stay empty.
+    points = [["outdoor air", -10.0, "=t_outdoor"], ["face 1", 0.0, "=t_face_1"],
+              ["face 2", f"={x1}", "=t_gap1_outer"], ["face 3", f"={x2}", "=t_gap1_inner"],
+              ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+              ['=IF(panes=3,"face 5","(triple only)")', f'=IF(panes=3,{x4},"")', '=IF(panes=3,t_gap2_inner,"")'],
+              ['=IF(panes=3,"indoor face","(triple only)")', f'=IF(panes=3,{x5},"")',
+               '=IF(panes=3,t_indoor_face,"")'],
+              ["indoor air", f"={end}", "=t_indoor"]]
+    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], points,
                                 name="glz_profile", col=1, formats=[None, "0.0", "0.0"])
+    # The chart's points, beside the table and outside the printed grid: a double unit repeats its
+    # indoor air point there, so the line has no gap in any viewer (text would plot as zero).
+    chart_points = [[-10.0, "=t_outdoor"], [0.0, "=t_face_1"], [f"={x1}", "=t_gap1_outer"], [f"={x2}", "=t_gap1_inner"],
+                    [f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+                    [f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
+                    [f"=IF(panes=3,{x5},{end})", "=IF(panes=3,t_indoor_face,t_indoor)"], [f"={end}", "=t_indoor"]]
+    ws = b.sheet("Calculation").worksheet
+    ws.set_column(6, 7, 20)
+    for col, title in ((6, "chart: position mm"), (7, "chart: temperature °C")):
+        ws.write(first - 1, col, title, b.fmt("header_number"))
+    for row, point in enumerate(chart_points, start=first):
+        for col, value in zip((6, 7), point):
+            if isinstance(value, str):
+                ws.write_formula(row, col, value, b.fmt("cell", "0.0"))
+            else:
+                ws.write_number(row, col, value, b.fmt("cell", "0.0"))
     b.chart("Calculation", "scatter", "Temperature through the unit, actual conditions (b)",
-            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 2),
-              "values": "=" + TemplateBook.column("Calculation", first, last, 3),
+            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 6),
+              "values": "=" + TemplateBook.column("Calculation", first, last, 7),
               "marker": {"type": "circle", "size": 5}}],
-            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers")
+            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers",
+            height=370, with_previous=True)
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Centre-of-glass U-value")
@@ -380,7 +394,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=4, title="Insulating glass unit",
+    name="glazing-unit", version=5, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

@@ -314,8 +314,10 @@ class Model:
             array = area_cache.get(area_key)
             if array is not None:
                 return array
-            array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
-                            empty, dtype=object)
+            # fill(), not np.full: np.full converts the blank sentinel (a str subclass) into the
+            # text "empty", so cells past the used range read as text, not blank
+            array = np.empty((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1), dtype=object)
+            array.fill(empty)
             sheet = self.sheets[sheet_name]
             last_row, last_col = sheet.last_row, sheet.last_col
             letters = [index_to_col(c) for c in range(reference.c1, min(reference.c2, last_col) + 1)]
