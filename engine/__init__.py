@@ -15,7 +15,7 @@ otherwise.  The public names mirror the spreadsheet cell functions in snake_case
 Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properties),
 :mod:`stillair.atmosphere`, :mod:`stillair.groups` (Gr, Ra), :mod:`stillair.external` (plates,
 cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
-:mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
+:mod:`stillair.convection` (h in one call, still or in a wind: :mod:`stillair.forced`), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
 :mod:`stillair.correlations` (the correlation registry and :func:`nusselt`),
 :mod:`stillair.ventilation` (stack-driven and forced airflow through enclosures), :mod:`stillair.humid`
 (humid air: saturation, humidity ratio, dew point, surface humidity), :mod:`stillair.insulation`

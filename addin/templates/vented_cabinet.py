@@ -179,7 +179,8 @@ def build(b) -> None:
     b.section("Notes", "Assumptions")
     b.paragraph("The internal air is well mixed at one temperature and leaves at it; real cabinets stratify, "
                 "the air near the top and at the outlet is warmer than the mean. All dissipation is released to "
-                "the air. No wind: wind on the openings can help or oppose the stack flow. The openings are "
+                "the air. The wind speed acts on the outer faces only (mixed convection, see the wind note above); "
+                "wind pressure on the openings, which can help or oppose the stack flow, is not modelled. The openings are "
                 "small against the walls; the walls keep their full areas. The floor is adiabatic. Results are "
                 "steady state.")
     b.section("Notes", "Cautions")
@@ -191,7 +192,7 @@ def build(b) -> None:
                 "licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 2, "Ventilated outdoor cabinet",
+TEMPLATE = Template(NAME, 3, "Ventilated outdoor cabinet",
                     "Internal air temperature of an outdoor cabinet cooled by the stack airflow through a low and "
                     "a high opening, with walls, sun and radiation, against a limit, and the fan airflow needed "
                     "instead.", build)

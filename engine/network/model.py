@@ -182,9 +182,12 @@ class _ConvectionBatch:
             nu[part] = result[0].nu
             results.append(result)
         h = nu * conductivity / self.length
+        for group, part in zip(self.groups, self.slices):
+            if group.wind is not None:   # mixed convection: the wind's forced part combined in
+                h[part] = group.with_wind(h[part], kinvisc[part], prandtl[part], conductivity[part])[0]
         heat = h * self.area * dtt
         q = heat[self.at_point]
-        detail = _BatchDetail(self, results, h, ra, prandtl, t_film, dtt)
+        detail = _BatchDetail(self, results, h, ra, prandtl, t_film, dtt, kinvisc, conductivity)
         return q, (heat[self.from_raised] - q) / step, (heat[self.to_raised] - q) / step, detail
 
 
@@ -199,6 +202,8 @@ class _BatchDetail:
     pr: np.ndarray
     t_film: np.ndarray
     dt: np.ndarray
+    kinvisc: np.ndarray
+    conductivity: np.ndarray
 
     def for_group(self, k: int) -> SimpleNamespace:
         """Group k's values at the point (the first third of its block), with the notes: the
@@ -208,8 +213,12 @@ class _BatchDetail:
         n = (part.stop - part.start) // 3
         at = slice(part.start, part.start + n)
         iterated, case, flagged = self.results[k]
-        result = self.batch.groups[k].nusselt(self.ra[at], self.pr[at], self.dt[at], tiled=False, notes=True)[0]
+        group = self.batch.groups[k]
+        result = group.nusselt(self.ra[at], self.pr[at], self.dt[at], tiled=False, notes=True)[0]
+        _, forced, re = group.with_wind(self.h[at], self.kinvisc[at], self.pr[at], self.conductivity[at],
+                                        tiled=False, notes=True)
         return SimpleNamespace(h=self.h[at], nu=iterated.nu[:n], ra=self.ra[at], pr=self.pr[at],
+                               forced=forced, re=re, conductivity=self.conductivity[at],
                                t_film=self.t_film[at], method=result.method[:n],
                                case=None if case is None else case[:n], note=result.note[:n],
                                in_range=result.in_range[:n], flagged=None if flagged is None else flagged[:n])

@@ -40,6 +40,7 @@ class BranchResult:
     case: str
     note: str
     in_range: bool
+    Re: float = 0.0        # on the length along the wind; 0 in still air (and for other kinds)
     mass_flow: float = math.nan     # kg/s of air through a vent or airflow branch (nan elsewhere)
     volume_flow: float = math.nan   # m³/s of that air at the outside (to) temperature
 
