@@ -70,4 +70,5 @@ __all__ = [
     "radiation_flux", "exchange_factor", "SIGMA",
     # the thermal network
     "solve_network", "NetworkResult", "BranchResult", "BRANCH_KINDS", "clear_network_cache",
+    "solve_transient", "TransientResult",
 ]

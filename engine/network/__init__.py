@@ -23,7 +23,8 @@ The package, by concern:
 * :mod:`.kinds`: the branch kinds (columns, heat flow, derivatives);
 * :mod:`.model`: the compiled network and its evaluation;
 * :mod:`.solver`: Newton with scaled residuals, scipy fallbacks, the acceptance test;
-* :mod:`.results`: what the user reads; :mod:`.band`: the correlation band.
+* :mod:`.results`: what the user reads; :mod:`.band`: the correlation band;
+* :mod:`.transient`: the network through time (node capacities, boundaries from series).
 
 Every evaluation re-computes each convection branch's gas properties at its own film
 temperature (or at ``property_temperature``) and its correlation at its own temperature
@@ -51,6 +52,7 @@ from .reading import gas_key
 from .results import BranchResult, NetworkResult
 from .solver import Solver
 from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
+from .transient import CAPACITY_COLUMNS, SERIES_COLUMNS, TransientResult, solve_transient
 
 __all__ = [
     "NetworkError",
@@ -63,6 +65,8 @@ __all__ = [
     "kind_reference",
     "solve_network",
     "clear_network_cache",
+    # the network through time (transient.py)
+    "solve_transient", "TransientResult", "CAPACITY_COLUMNS", "SERIES_COLUMNS",
 ]
 
 _CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
