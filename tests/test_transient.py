@@ -14,7 +14,9 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings, strategies as st
 from scipy.integrate import cumulative_simpson, simpson
+from scipy.linalg import expm
 
 import stillair
 from stillair.network import NetworkError, solve_network, solve_transient
@@ -288,3 +290,58 @@ def test_bad_input_names_the_table_row_and_value(change, message):
     with pytest.raises(stillair.InputError) as caught:
         solve_transient(**arguments)
     assert str(caught.value) == message
+
+
+# ----------------------------------------------------------------------------------------------
+# A sweep: linear networks against the matrix exponential
+
+
+@settings(max_examples=25, deadline=None)
+@given(data=st.data())
+def test_linear_networks_follow_the_matrix_exponential(data):
+    """Chains of resistances with heat inputs and a capacity on some nodes: the exact solution of
+    C dT/dt = -L T + b (quasi-steady nodes eliminated) is T_s + expm(-M t) (T0 - T_s)."""
+    n = data.draw(st.integers(2, 5))
+    resistance = data.draw(st.lists(st.floats(0.05, 5.0), min_size=n + 1, max_size=n + 1))
+    capacity = data.draw(st.lists(st.one_of(st.just(0.0), st.floats(100.0, 1e5)), min_size=n, max_size=n))
+    if not any(capacity):
+        capacity[0] = 1000.0
+    heat = data.draw(st.lists(st.floats(-50.0, 50.0), min_size=n, max_size=n))
+    start = data.draw(st.lists(st.floats(-20.0, 90.0), min_size=n, max_size=n))
+    nodes = ["left"] + [f"n{k}" for k in range(n)] + ["right"]
+    branches = [[f"r{k}", nodes[k], nodes[k + 1], "resistance", resistance[k]] for k in range(n + 1)]
+    boundaries = [["left", "T", 10.0], ["right", "T", 30.0]] + [[f"n{k}", "Q", heat[k]] for k in range(n)]
+    # the exact solution
+    laplacian = np.zeros((n, n))
+    b = np.array(heat, dtype=float)
+    for k in range(n + 1):
+        g = 1.0 / resistance[k]
+        for i in (k - 1, k):
+            if 0 <= i < n:
+                laplacian[i, i] += g
+        if 1 <= k <= n - 1:
+            laplacian[k - 1, k] -= g
+            laplacian[k, k - 1] -= g
+    b[0] += 10.0 / resistance[0]
+    b[-1] += 30.0 / resistance[-1]
+    steady = np.linalg.solve(laplacian, b)
+    c = np.flatnonzero(np.array(capacity) > 0)
+    a = np.flatnonzero(np.array(capacity) == 0)
+    reduced = laplacian[np.ix_(c, c)]
+    if a.size:
+        reduced = reduced - laplacian[np.ix_(c, a)] @ np.linalg.solve(laplacian[np.ix_(a, a)], laplacian[np.ix_(a, c)])
+    rates = reduced / np.array(capacity)[c][:, None]
+    slowest = 1.0 / np.min(np.abs(np.linalg.eigvals(rates)))
+    times = np.linspace(0.0, 3.0 * slowest, 7)
+    result = solve_transient(branches, boundaries, {f"n{k}": capacity[k] for k in c},
+                             times, initial={f"n{k}": start[k] for k in c})
+    deviation = np.array(start)[c] - steady[c]
+    exact_c = steady[c][None, :] + np.array([expm(-rates * t) @ deviation for t in times])
+    # the global error: within ten times the local tolerance per step (atol + rtol |T|)
+    allowed = 10 * (DEFAULT_ATOL + DEFAULT_RTOL * float(np.max(np.abs(exact_c))))
+    for j, k in enumerate(c):
+        assert np.max(np.abs(result.temperatures[f"n{k}"] - exact_c[:, j])) <= allowed
+    # the quasi-steady nodes balance at every time: their flows in and out agree
+    for k in a:
+        inflow = result.heat[f"r{k}"] - result.heat[f"r{k + 1}"] + heat[k]
+        assert np.max(np.abs(inflow)) <= 1e-6 * (1.0 + np.max(np.abs(result.heat[f"r{k}"])))
