@@ -284,7 +284,7 @@ class _Reduced:
         self.capacity = np.asarray(capacity, dtype=float)
         self.t_alg = start[self.alg].copy()
         self.calls = self.jacobians = 0
-        self._last = None            # (time, y, reduced Jacobian)
+        self._last = None            # (time, y, evaluation) of the last rate
         if self.alg.size:
             # the quasi-steady nodes as the free nodes of a network whose capacitive nodes are fixed
             self.inner = dataclasses.replace(net, free=self.alg, fixed=np.concatenate([net.fixed, self.cap]),
@@ -292,7 +292,7 @@ class _Reduced:
             self.inner_solver = Solver(self.inner)
 
     def state(self, time: float, y: np.ndarray):
-        """(all node temperatures, evaluation, imbalance at every node, free-block Jacobian)."""
+        """(all node temperatures, evaluation): the quasi-steady nodes balanced."""
         net = self.net
         self.schedule.apply(time)
         if self.alg.size:
@@ -321,7 +321,7 @@ class _Reduced:
             except StillairError as error:
                 raise NetworkConvergenceError(f"{FUNCTION}: at t = {time:g} s: {error}", math.inf, None,
                                               self.calls) from None
-        return t, evaluation, net.imbalance(evaluation.q), self.solver.jacobian(evaluation)
+        return t, evaluation
 
     def _fail(self, time, solver):
         try:
@@ -334,16 +334,17 @@ class _Reduced:
 
     def rate(self, time, y):
         self.calls += 1
-        _, _, imbalance, jac = self.state(time, y)
-        self._last = (time, y.copy(), jac)
-        return imbalance[self.cap] / self.capacity
+        _, evaluation = self.state(time, y)
+        self._last = (time, y.copy(), evaluation)
+        return self.net.imbalance(evaluation.q)[self.cap] / self.capacity
 
     def jacobian(self, time, y):
         self.jacobians += 1
         if self._last is not None and self._last[0] == time and np.array_equal(self._last[1], y):
-            jac = self._last[2]
+            evaluation = self._last[2]
         else:
-            jac = self.state(time, y)[3]
+            evaluation = self.state(time, y)[1]
+        jac = self.solver.jacobian(evaluation)
         c, a = self.cap_in_free, self.alg_in_free
         reduced = jac[np.ix_(c, c)]
         if a.size:
@@ -511,7 +512,7 @@ def _collect(system, times, states, capacity, notes, method, rtol, atol):
     heat = np.empty((times.size, len(net.branches)))
     details = []
     for k, (time, y) in enumerate(zip(times, states)):
-        t, evaluation, _, _ = system.state(time, y)
+        t, evaluation = system.state(time, y)
         temperatures[k], heat[k] = t, evaluation.q
         details.append(evaluation.details)
     notes = notes + _range_notes(net, times, details)
