@@ -209,6 +209,12 @@ def test_heat_input_series_and_mappings_give_the_table_result():
     assert as_tables.peak["block"] == (as_tables.temperatures["block"][-1], 1800.0)
 
 
+def test_a_header_row_in_the_boundaries_is_not_a_series_name():
+    result = solve_transient(block(), [["node", "T or Q", "value"], ["air", "T", "amb"]], {"block": 100.0},
+                             [0.0, 10.0], series=[["amb", 0.0, 15.0]])
+    assert result.temperatures["air"].tolist() == [15.0, 15.0]
+
+
 def test_results_are_read_only_and_cached():
     arguments = (block(), [["air", "T", 20.0]], {"block": 1000.0}, [0.0, 10.0])
     first = solve_transient(*arguments, initial=30.0)
@@ -275,6 +281,8 @@ BAD = [
      "solve_transient: initial must be a node with a capacity (a quasi-steady node's temperature follows from "
      "the others, a fixed one's from its boundary); nodes with a capacity: block, got 'air'"),
     (dict(initial=-400.0), "solve_transient: initial must be a finite temperature above -273.15 °C, got -400"),
+    (dict(times=[0.0, "10 s"]), "solve_transient: times, entry 2 must be a time in s, got '10 s'"),
+    (dict(times=[0.0, "#N/A"]), "solve_transient: times, entry 2 must be a time in s, got #N/A"),
     (dict(method="euler"), "solve_transient: method must be one of BDF, Radau, got 'euler'"),
     (dict(atol=0.0), "solve_transient: atol must be > 0 K and at most 0.01 K, got 0"),
     (dict(branches=[["film", "block", "air", "film", -1.0, 0.5]]),

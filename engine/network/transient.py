@@ -44,9 +44,9 @@ from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError
 from ..correlations import methods_for
 from .errors import NetworkConvergenceError, NetworkError, Shown
 from .model import compile_network
-from .reading import blank, gas_key, name, number
+from .reading import blank, error_text, gas_key, name, number
 from .solver import Solver
-from .tables import Boundary, _near, _rows, parse_boundaries, parse_branches
+from .tables import BOUNDARY_COLUMNS, Boundary, _is_header, _near, _rows, parse_boundaries, parse_branches
 
 __all__ = ["TransientResult", "solve_transient", "CAPACITY_COLUMNS", "SERIES_COLUMNS",
            "DEFAULT_RTOL", "DEFAULT_ATOL", "TRANSIENT_METHODS"]
@@ -170,13 +170,17 @@ def parse_times(times) -> np.ndarray:
     flat = list(np.asarray(times, dtype=object).ravel())
     while flat and blank(flat[-1]):
         flat.pop()
-    values = np.array([number(v, f"times, entry {k}", "time", "s").__float__() if not blank(v) else math.nan
-                       for k, v in enumerate(flat, start=1)])
-    for k, value in enumerate(values, start=1):
-        if math.isnan(value):
+    values = []
+    for k, value in enumerate(flat, start=1):
+        if blank(value):
             raise NetworkError(FUNCTION, f"times, entry {k}", None, "a time in s (blanks only after the last time)")
-    if values.size < 2:
-        raise NetworkError(FUNCTION, "times", Shown(f"{values.size} value(s)"), "at least two times in s")
+        if isinstance(value, (str, bool, np.bool_)) or error_text(value) is not None:
+            raise NetworkError(FUNCTION, f"times, entry {k}", Shown(error_text(value) or repr(value)),
+                               "a time in s")
+        values.append(number(value, "times", f"entry {k}", "s"))
+    if len(values) < 2:
+        raise NetworkError(FUNCTION, "times", Shown(f"{len(values)} value(s)"), "at least two times in s")
+    values = np.array(values)
     steps = np.diff(values)
     if np.any(steps <= 0):
         k = int(np.flatnonzero(steps <= 0)[0]) + 2
@@ -194,7 +198,8 @@ def _timed_boundaries(boundaries, series):
     for row_number, row in enumerate(boundaries, start=1):
         row = list(row.tolist() if isinstance(row, np.ndarray) else row) \
             if not isinstance(row, (str, bytes)) and hasattr(row, "__iter__") else row
-        if isinstance(row, list) and len(row) >= 3 and isinstance(row[2], str) and not blank(row[2]):
+        if (isinstance(row, list) and len(row) >= 3 and isinstance(row[2], str) and not blank(row[2])
+                and not _is_header(row, BOUNDARY_COLUMNS)):
             label = row[2].strip()
             if label in series:
                 named[row_number] = label
