@@ -209,6 +209,35 @@ def test_heat_input_series_and_mappings_give_the_table_result():
     assert as_tables.peak["block"] == (as_tables.temperatures["block"][-1], 1800.0)
 
 
+def test_a_periodic_start_gives_the_steady_periodic_response_of_a_first_order_body():
+    """A body of time constant tau = C/G under an ambient A cos(w t) settles to
+    T = A (cos w t + w tau sin w t) / (1 + (w tau)^2) (the steady periodic solution of
+    tau dT/dt = T_a - T, from memory); tau = 6 h makes several cycles necessary."""
+    day, amplitude, tau = 86400.0, 10.0, 6 * HOUR
+    omega = 2 * math.pi / day
+    points = np.arange(0.0, day + 1, 120.0)
+    series = {"outdoor": list(zip(points, amplitude * np.cos(omega * points)))}
+    capacity = 5.0 * tau              # the film's conductance is 10 W/(m²·K) x 0.5 m² = 5 W/K
+    times = np.arange(0.0, day + 1, 1800.0)
+    result = solve_transient(block(), [["air", "T", "outdoor"]], {"block": capacity}, times, series=series,
+                             initial="periodic")
+    exact = amplitude * (np.cos(omega * times) + omega * tau * np.sin(omega * times)) / (1 + (omega * tau) ** 2)
+    assert result.cycles > 2 and result.notes == ()
+    assert np.max(np.abs(result.temperatures["block"] - exact)) <= 1e-3
+    # the default start (steady at the first time: 10 °C) is 6.1 K above the periodic one
+    plain = solve_transient(block(), [["air", "T", "outdoor"]], {"block": capacity}, times, series=series)
+    assert plain.cycles == 1 and plain.temperatures["block"][0] == pytest.approx(amplitude, abs=1e-9)
+
+
+def test_a_cycle_that_does_not_repeat_is_noted():
+    series = {"outdoor": [(0.0, 0.0), (43200.0, 10.0), (86400.0, 0.0)]}
+    result = solve_transient(block(), [["air", "T", "outdoor"]], {"block": 1e9}, [0.0, 43200.0, 86400.0],
+                             series=series, initial="periodic")
+    assert result.cycles == 30
+    assert len(result.notes) == 1 and result.notes[0].startswith(
+        "the cycle did not repeat itself after 30 repetitions: the end differs from the start by ")
+
+
 def test_a_header_row_in_the_boundaries_is_not_a_series_name():
     result = solve_transient(block(), [["node", "T or Q", "value"], ["air", "T", "amb"]], {"block": 100.0},
                              [0.0, 10.0], series=[["amb", 0.0, 15.0]])
@@ -281,6 +310,7 @@ BAD = [
      "solve_transient: initial must be a node with a capacity (a quasi-steady node's temperature follows from "
      "the others, a fixed one's from its boundary); nodes with a capacity: block, got 'air'"),
     (dict(initial=-400.0), "solve_transient: initial must be a finite temperature above -273.15 °C, got -400"),
+    (dict(initial="periodc"), 'solve_transient: initial must be a temperature in °C or "periodic", got \'periodc\''),
     (dict(times=[0.0, "10 s"]), "solve_transient: times, entry 2 must be a time in s, got '10 s'"),
     (dict(times=[0.0, "#N/A"]), "solve_transient: times, entry 2 must be a time in s, got #N/A"),
     (dict(method="euler"), "solve_transient: method must be one of BDF, Radau, got 'euler'"),

@@ -15,6 +15,9 @@ analytic Jacobian (:meth:`.Solver.jacobian`: every branch's flow derivatives fro
 The reduced system is integrated by ``scipy.integrate.solve_ivp`` with a stiff method (BDF by
 default, or Radau) and that Jacobian.
 
+A periodic start (``initial="periodic"``) repeats the cycle from its end state until the end
+equals the start to ``PERIODIC_TOLERANCE``: a design day that has forgotten where it began.
+
 Boundaries over time: a boundary row's value may name a series instead of giving a number.  A
 series is rows ``series | time (s) | value`` (°C for a ``T`` row, W for a ``Q`` row), read by
 linear interpolation between its points and held at its first and last values outside them.
@@ -60,6 +63,8 @@ TRANSIENT_METHODS = ("BDF", "Radau")   # scipy's stiff integrators that take a J
 
 _CACHE: "OrderedDict[tuple, TransientResult]" = OrderedDict()
 _CACHE_SIZE = 32
+PERIODIC_TOLERANCE = 1e-3   # K: a periodic start repeats the times until the end is the start
+MAX_CYCLES = 30
 
 
 @dataclass(frozen=True)
@@ -88,6 +93,7 @@ class TransientResult:
     atol: float
     steps: int                 # integrator evaluations of the reduced system
     jacobians: int             # Jacobian evaluations asked for by the integrator
+    cycles: int                # integrations over the times (more than 1 only for a periodic start)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -385,10 +391,12 @@ def solve_transient(branches: Sequence[Sequence[object]], boundaries: Sequence[S
         is quasi-steady; a fixed node cannot have one.
     times : sequence of float
         Output times in s, strictly increasing, at least two; the solution starts at the first.
-    initial : mapping or float, optional
+    initial : mapping, float or "periodic", optional
         Start temperatures (°C) of nodes with a capacity, node -> °C, or one number for all of
         them.  Nodes not named start at the steady solution of the network at the first time's
-        boundaries (the default for all).
+        boundaries (the default for all).  "periodic": the times are one cycle (a day) that
+        repeats; the cycle is integrated again from its end until the end equals the start to
+        1e-3 K (at most 30 times; a note says when it did not close).
     series : sequence of rows or mapping, optional
         ``series | time | value`` rows, or a mapping name -> [(time, value), ...]: linear
         between the points, held at the first and last values outside them.
@@ -498,19 +506,30 @@ def _solve(branches, boundaries, capacities, times, initial, series, gas, pressu
     system = _Reduced(net, schedule, capacitive, list(capacity.values()), start)
     y0 = start[system.cap]
     max_step = schedule.shortest if schedule.varies else np.inf
-    if system.cap.size:
+    states, cycles = np.zeros((times.size, 0)), 0
+    while system.cap.size:
         solution = solve_ivp(system.rate, (times[0], times[-1]), y0, method=method, t_eval=times,
                              jac=system.jacobian, rtol=rtol, atol=atol, max_step=max_step)
         if not solution.success:
             raise NetworkConvergenceError(f"{FUNCTION}: the integration stopped: {solution.message}",
                                           math.nan, None, system.calls)
-        states = solution.y.T
-    else:
-        states = np.zeros((times.size, 0))
-    return _collect(system, times, states, capacity, notes, method, rtol, atol)
+        states, cycles = solution.y.T, cycles + 1
+        gap = float(np.max(np.abs(states[-1] - states[0])))
+        if not _is_periodic(initial) or gap <= PERIODIC_TOLERANCE:
+            break
+        if cycles == MAX_CYCLES:
+            notes.append(f"the cycle did not repeat itself after {MAX_CYCLES} repetitions: the end differs from "
+                         f"the start by {gap:.3g} K (capacities slow to respond over the times given)")
+            break
+        y0 = states[-1]
+    return _collect(system, times, states, capacity, notes, method, rtol, atol, cycles)
 
 
-def _collect(system, times, states, capacity, notes, method, rtol, atol):
+def _is_periodic(initial) -> bool:
+    return isinstance(initial, str) and initial.strip().lower() == "periodic"
+
+
+def _collect(system, times, states, capacity, notes, method, rtol, atol, cycles):
     """Every node's temperature and every branch's flow at the output times, and the notes."""
     net = system.net
     temperatures = np.empty((times.size, len(net.nodes)))
@@ -536,7 +555,7 @@ def _collect(system, times, states, capacity, notes, method, rtol, atol):
         capacities=MappingProxyType(dict(capacity)),
         quasi_steady=tuple(net.nodes[i] for i in system.alg),
         notes=tuple(notes), method=method, rtol=rtol, atol=atol, steps=system.calls,
-        jacobians=system.jacobians)
+        jacobians=system.jacobians, cycles=cycles)
 
 
 def _range_notes(net, times, details) -> list[str]:
@@ -580,7 +599,7 @@ def _read_only(array):
 
 
 def _initial(initial, capacity) -> dict[str, float]:
-    if initial is None:
+    if initial is None or _is_periodic(initial):
         return {}
     if not isinstance(initial, Mapping):
         value = _checked_temperature("initial", initial)
@@ -599,11 +618,13 @@ def _initial(initial, capacity) -> dict[str, float]:
 
 def _checked_temperature(argument, value) -> float:
     if isinstance(value, (bool, np.bool_, str)) or value is None:
-        raise InputError(FUNCTION, argument, value, "a temperature in °C")
+        raise InputError(FUNCTION, argument, value, 'a temperature in °C' + (
+            ' or "periodic"' if argument == "initial" else ""))
     try:
         number_ = float(value)
     except (TypeError, ValueError):
-        raise InputError(FUNCTION, argument, value, "a temperature in °C") from None
+        raise InputError(FUNCTION, argument, value, 'a temperature in °C' + (
+            ' or "periodic"' if argument == "initial" else "")) from None
     if not math.isfinite(number_) or not number_ > ABSOLUTE_ZERO_C:
         raise InputError(FUNCTION, argument, number_, "a finite temperature above -273.15 °C")
     return number_
