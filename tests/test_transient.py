@@ -40,8 +40,8 @@ def test_one_node_follows_the_lumped_capacitance_exponential(method):
     result = solve_transient(block(), [["air", "T", 20.0]], [["block", capacity]], times,
                              initial={"block": 80.0}, method=method)
     exact = 20.0 + 60.0 * np.exp(-conductance * times / capacity)
-    # the defaults: 2e-6 of the initial difference (module docstring)
-    assert np.max(np.abs(result.temperatures["block"] - exact)) <= 2e-6 * 60.0
+    # the defaults: 1e-6 of the initial difference (module docstring)
+    assert np.max(np.abs(result.temperatures["block"] - exact)) <= 1e-6 * 60.0
     # the flow is G (T - T_a) at every output time
     np.testing.assert_allclose(result.heat["film"], conductance * (result.temperatures["block"] - 20.0),
                                rtol=1e-12, atol=1e-12)
@@ -57,9 +57,9 @@ def test_a_quasi_steady_node_in_series_is_eliminated_exactly():
     result = solve_transient(branches, [["air", "T", 20.0]], {"block": 4000.0}, times, initial=70.0)
     exact = 20.0 + 50.0 * np.exp(-2.0 * times / 4000.0)
     assert result.quasi_steady == ("skin",)
-    assert np.max(np.abs(result.temperatures["block"] - exact)) <= 2e-6 * 50.0
+    assert np.max(np.abs(result.temperatures["block"] - exact)) <= 1e-6 * 50.0
     skin = 20.0 + (exact - 20.0) * 0.3 / (0.2 + 0.3)
-    assert np.max(np.abs(result.temperatures["skin"] - skin)) <= 2e-6 * 50.0
+    assert np.max(np.abs(result.temperatures["skin"] - skin)) <= 1e-6 * 50.0
     np.testing.assert_allclose(result.heat["film"], result.heat["wall"], rtol=1e-8)
 
 
@@ -118,20 +118,20 @@ def test_stored_energy_equals_the_heat_exchanged_with_the_boundaries(quasi_stead
     assert result.quasi_steady == (("air",) if quasi_steady_air else ())
 
 
-def test_the_default_tolerances_are_converged_to_a_thousandth_of_a_kelvin():
+def test_the_default_tolerances_are_converged_to_two_ten_thousandths_of_a_kelvin():
     branches, boundaries, capacities, series = cabinet()
     times = np.arange(0.0, 24 * HOUR + 1, 300.0)
     default = solve_transient(branches, boundaries, capacities, times, series=series)
-    assert (default.rtol, default.atol) == (DEFAULT_RTOL, DEFAULT_ATOL) == (1e-6, 1e-5)
-    tighter = solve_transient(branches, boundaries, capacities, times, series=series, rtol=1e-8, atol=1e-7)
+    assert (default.rtol, default.atol) == (DEFAULT_RTOL, DEFAULT_ATOL) == (1e-7, 1e-5)
+    tighter = solve_transient(branches, boundaries, capacities, times, series=series, rtol=1e-9, atol=1e-7)
     tightest = solve_transient(branches, boundaries, capacities, times, series=series, rtol=1e-10, atol=1e-9)
     radau = solve_transient(branches, boundaries, capacities, times, series=series, method="Radau")
 
     def deviation(result):
         return max(np.max(np.abs(result.temperatures[n] - tightest.temperatures[n])) for n in tightest.temperatures)
 
-    assert deviation(default) <= 1e-3
-    assert deviation(radau) <= 1e-3
+    assert deviation(default) <= 2e-4
+    assert deviation(radau) <= 2e-4
     assert deviation(tighter) <= 0.1 * deviation(default)
     # the day is a real transient: the air peaks after the sun (12:00) and the ambient (15:00)
     peak, when = default.peak["air"]
