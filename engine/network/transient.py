@@ -113,7 +113,8 @@ def _as_rows(table, table_name, columns, mapping_row):
 def parse_capacities(table, nodes, fixed) -> dict[str, float]:
     """node -> C (J/K) from rows ``node | C`` or a mapping; a node appears once, is a node of the
     network and is not fixed; C >= 0 (0: quasi-steady, the same as leaving the node out)."""
-    result, seen = {}, {}
+    result: dict[str, float] = {}
+    seen: dict[str, int] = {}
     for row_number, row in _as_rows(table, "capacities", CAPACITY_COLUMNS, lambda k, v: [[k, v]]):
         where = f"capacity row {row_number}"
         node = name(row[0], where, "node")
@@ -176,17 +177,17 @@ def parse_times(times) -> np.ndarray:
     flat = list(np.asarray(times, dtype=object).ravel())
     while flat and blank(flat[-1]):
         flat.pop()
-    values = []
+    checked: list[float] = []
     for k, value in enumerate(flat, start=1):
         if blank(value):
             raise NetworkError(FUNCTION, f"times, entry {k}", None, "a time in s (blanks only after the last time)")
         if isinstance(value, (str, bool, np.bool_)) or error_text(value) is not None:
             raise NetworkError(FUNCTION, f"times, entry {k}", Shown(error_text(value) or repr(value)),
                                "a time in s")
-        values.append(number(value, "times", f"entry {k}", "s"))
-    if len(values) < 2:
-        raise NetworkError(FUNCTION, "times", Shown(f"{len(values)} value(s)"), "at least two times in s")
-    values = np.array(values)
+        checked.append(number(value, "times", f"entry {k}", "s"))
+    if len(checked) < 2:
+        raise NetworkError(FUNCTION, "times", Shown(f"{len(checked)} value(s)"), "at least two times in s")
+    values = np.array(checked)
     steps = np.diff(values)
     if np.any(steps <= 0):
         k = int(np.flatnonzero(steps <= 0)[0]) + 2
