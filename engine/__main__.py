@@ -19,7 +19,7 @@ HEIGHT, WIDTH = 2.6, 3.0
 AREA = HEIGHT * WIDTH
 BOARD = (0.0125, 0.21)  # thickness m, conductivity W/(m·K): demo values
 
-BRANCHES = [
+BRANCHES: list[list[object]] = [
     # name          from          to            kind          p1      p2       p3    p4   p5  method
     ["office-conv", "office-face", "office",     "vplate",     HEIGHT, AREA,    None, None, None, None],
     ["office-rad",  "office-face", "office",     "radiation",  0.9,    None,    AREA, None, None, None],

@@ -59,8 +59,9 @@ BUOYANCY_RAISES = '''    Raises
     InputError
         A length that is not positive, a temperature outside the gas's range, an unknown gas.'''
 
-BLOCKS = {name.lower(): text for name, text in globals().items()
-          if name.isupper() and isinstance(text, str)}
+BLOCKS = {"gas_and_pressure": GAS_AND_PRESSURE, "method": METHOD, "property_options": PROPERTY_OPTIONS,
+          "convection_result": CONVECTION_RESULT, "buoyancy_inputs": BUOYANCY_INPUTS,
+          "buoyancy_raises": BUOYANCY_RAISES}
 
 
 def shared_docs(function: F, blocks: Mapping[str, str] | None = None) -> F:

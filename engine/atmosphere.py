@@ -85,6 +85,6 @@ def altitude_pressure(altitude_m: ArrayLike) -> FloatOrArray:
 
 
 # The numbers in the docstring are the module's own constants.
-altitude_pressure.__doc__ = altitude_pressure.__doc__.format(
+altitude_pressure.__doc__ = (altitude_pressure.__doc__ or "").format(
     low=ALTITUDE_RANGE.low, high=ALTITUDE_RANGE.high, lapse=LAPSE_RATE, t0=SEA_LEVEL_TEMPERATURE,
     p0=SEA_LEVEL_PRESSURE, coefficient=LAPSE_RATE / SEA_LEVEL_TEMPERATURE, exponent=_EXPONENT)

@@ -131,7 +131,7 @@ _CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_F
 
 @lru_cache(maxsize=1024)
 def _critical_tilt_of(aspect: float) -> float:
-    return float(np.interp(aspect, *_CRITICAL_TILT_POINTS))
+    return float(np.interp(aspect, _CRITICAL_TILT_POINTS[0], _CRITICAL_TILT_POINTS[1]))
 
 
 def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None):
@@ -296,7 +296,7 @@ def _vertical_correlation(*, method, title, source, equation, validity, notes=""
 
         nu_tilted.__name__ = nu_vertical.__name__ + "_tilted"
         nu_tilted.__doc__ = nu_vertical.__doc__
-        nu_tilted.vertical = nu_vertical
+        nu_tilted.vertical = nu_vertical  # type: ignore[attr-defined]  # a function attribute, read below
         return nu_tilted
 
     def register(nu_vertical):

@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any, Callable
 
 from scipy.constants import zero_Celsius
 
@@ -28,7 +29,7 @@ from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
-from .validity import (PLAIN_NUMBERS, InputError, distinct_notes, require_between,
+from .validity import (PLAIN_NUMBERS, is_plain_number, InputError, distinct_notes, require_between,
                        require_choice, require_positive, unwrap, warn_out_of_range)
 
 __all__ = [
@@ -164,16 +165,16 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
             and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
-            and ("tilt" not in geo.inputs or type(tilt) in PLAIN_NUMBERS and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
+            and ("tilt" not in geo.inputs or is_plain_number(tilt) and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
                                                               ideal_expansion, function_name)
         inputs = {"ra": ra, "pr": props.prandtl}
         if "tilt" in geo.inputs:
-            inputs["tilt"] = float(tilt)
+            inputs["tilt"] = float(tilt)  # type: ignore[arg-type]  # a plain number: tested above
         inputs.update(shape_ratios(geo, length, diameter=diameter))
-        case = f"{'hot' if delta_t >= 0 else 'cold'}-{facing.strip().lower()}" if geo.cases else ""
-        result = nusselt(geometry, method, case or None, function_name=function_name, **inputs)
-        return _scalar_result(props, t_film, gr, ra, length, result, case)
+        plate = f"{'hot' if delta_t >= 0 else 'cold'}-{str(facing).strip().lower()}" if geo.cases else ""
+        result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
+        return _scalar_result(props, t_film, gr, ra, length, result, plate)
     length = require_positive(function_name, length_name, length, "m")
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
@@ -251,7 +252,7 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     geo = GEOMETRIES["cavity"]
     tilt_low, tilt_high = geo.tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
-            and type(tilt) in PLAIN_NUMBERS and tilt_low <= tilt <= tilt_high:
+            and is_plain_number(tilt) and tilt_low <= tilt <= tilt_high:
         props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
                                                               function_name)
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
@@ -390,14 +391,14 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
         if name not in known:
             raise InputError(function_name, "parameter", name,
                              f"one of {', '.join(known)} for {geo.name}")
-    values = {}
+    values: dict[str, Any] = {}
     for parameter in geo.parameters:
         value = parameters.get(parameter.name, parameter.default)
         if value is None:
             raise InputError(function_name, parameter.name, None,
                              f"{'text' if parameter.kind == 'text' else 'a number'} for {geo.name}")
         values[parameter.name] = value
-    common = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
+    common: dict[str, Any] = dict(gas=gas, pressure=pressure, method=method, property_temperature=property_temperature,
                   ideal_expansion=ideal_expansion, function_name=function_name)
     own_call = ONE_CALLS.get(geo.name)
     if own_call is not None:
@@ -488,21 +489,23 @@ def _h_parameters(geometry: str, first: tuple[str, str]):
 
 _H = ("float or ndarray", "Convection coefficient h = Nu k / L in W/(m²·K), gas properties at the film "
       "(mean) temperature: a float for scalar inputs, an array otherwise.")
-_H_SUMMARIES = {
-    "vplate": ("Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
-    "hplate": ("Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
+# Each h function with its geometry, summary and example (call, shown value), documented from the
+# registry below.
+_H_SUMMARIES: dict[Callable[..., Any], tuple[str, str, str, str]] = {
+    h_vplate: ("vplate", "Convection coefficient of a vertical plate in still gas.", "h_vplate(60.0, 20.0, 0.5)", "5.0"),
+    h_hplate: ("hplate", "Convection coefficient of a horizontal plate; hot or cold follows from ts and tf.",
                'h_hplate(60.0, 20.0, 0.25, "up")', "5.96"),
-    "tplate": ("Convection coefficient of a plate tilted from the vertical.",
+    h_tplate: ("tplate", "Convection coefficient of a plate tilted from the vertical.",
                'h_tplate(60.0, 20.0, 0.5, 30.0, "up")', "4.79"),
-    "hcyl": ("Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
-    "sphere": ("Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
-    "vcyl": ("Convection coefficient of a vertical cylinder, Ra on its height.",
+    h_hcyl: ("hcyl", "Convection coefficient of a long horizontal cylinder (pipe).", "h_hcyl(60.0, 20.0, 0.05)", "6.09"),
+    h_sphere: ("sphere", "Convection coefficient of a sphere.", "h_sphere(60.0, 20.0, 0.1)", "5.75"),
+    h_vcyl: ("vcyl", "Convection coefficient of a vertical cylinder, Ra on its height.",
              "h_vcyl(60.0, 20.0, 0.5, 0.05)", "5.6"),
-    "cavity": ("Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
+    h_cavity: ("cavity", "Convection coefficient across an enclosed gas layer, per unit face area (Nu k / gap).",
                "h_cavity(15.0, 5.0, 0.016, 1.2)", "1.645"),
 }
-for _geometry, (_summary, _call, _value) in _H_SUMMARIES.items():
-    document(globals()[f"h_{_geometry}"], _geometry, _summary,
+for _function, (_geometry, _summary, _call, _value) in _H_SUMMARIES.items():
+    document(_function, _geometry, _summary,
              _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
              f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
-del _geometry, _summary, _call, _value
+del _function, _geometry, _summary, _call, _value

@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 import warnings
 from dataclasses import dataclass
-from typing import Callable, Mapping
+from typing import Callable, Mapping, TypeGuard
 
 import numpy as np
 
@@ -166,6 +166,12 @@ def distinct_notes(notes) -> list[str]:
 PLAIN_NUMBERS = (float, int, np.float64)
 
 
+def is_plain_number(value: object) -> TypeGuard[float]:
+    """True for one plain number (:data:`PLAIN_NUMBERS`), the test of the scalar paths; a type
+    checker then knows the value compares as a float."""
+    return type(value) in PLAIN_NUMBERS
+
+
 def warn_out_of_range(function_name: str, in_range, notes) -> None:
     """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
     outside its correlation's range; it points at the line that called the caller."""
@@ -313,7 +319,7 @@ class Range:
         except KeyError:
             pass
         domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
-        ramps = []
+        ramps: list[tuple[float, float, float | None, float, float, float, float]] = []
         width = self.transition
         offset = _OFFSET[self.placement]
         for bound, side in ((self.low, 1.0), (self.high, -1.0)):

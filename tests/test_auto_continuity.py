@@ -17,6 +17,8 @@ import pytest
 
 from stillair.correlations import GEOMETRIES, nusselt
 
+pytestmark = pytest.mark.slow  # long sweeps of every geometry with bisection
+
 STEP = 0.01          # the largest change allowed between neighbouring points
 BISECTIONS = 40
 

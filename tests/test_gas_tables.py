@@ -169,6 +169,7 @@ def test_property_calls_with_the_shipped_table_do_not_import_coolprop():
 # The fallback: no file, a stale file, a broken file
 # --------------------------------------------------------------------------------------------
 
+@pytest.mark.slow  # tabulates every gas from CoolProp
 def test_without_the_file_values_are_the_same(same_version):
     with_file = run_python(SAMPLE_CODE)
     without = run_python(SAMPLE_CODE, **{TABLE_FILE_VARIABLE: "off"})

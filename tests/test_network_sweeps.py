@@ -16,6 +16,8 @@ import pytest
 
 from stillair.network import NetworkConvergenceError, solve_network
 
+pytestmark = pytest.mark.slow  # long sweeps of network sizes and tilts
+
 
 def assert_solved(result):
     """The solver's acceptance, checked from the reported values: every node balanced to 1e-9 of

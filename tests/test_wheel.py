@@ -25,6 +25,8 @@ import pytest
 
 import stillair
 
+pytestmark = pytest.mark.slow  # builds and installs the wheel in a fresh environment
+
 ROOT = Path(__file__).resolve().parents[1]
 TEMPLATE_NAMES = sorted(p.name for p in (ROOT / "templates").glob("*.xlsx"))
 _NOT_SOURCE = shutil.ignore_patterns(".venv*", ".git", "__pycache__", "*.egg-info", "build", "dist",

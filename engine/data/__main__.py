@@ -1,7 +1,6 @@
 """``python -m stillair.data``: write the shipped gas property tables again (gas_tables.npz).
 
-The same as ``python -m stillair.gases --rebuild-tables`` without runpy's warning about running a
-module the engine package has already imported.  Options: ``--output PATH``.
+The same as ``python -m stillair.gases --rebuild-tables``.  Options: ``--output PATH``.
 """
 
 import sys

@@ -39,6 +39,7 @@ import math
 from collections import OrderedDict
 from collections.abc import Sequence
 from types import MappingProxyType
+from typing import Any
 
 import numpy as np
 
@@ -186,7 +187,7 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
         property_temperature = _checked_option("property_temperature", property_temperature, "°C")
         if property_temperature <= ABSOLUTE_ZERO_C:
             raise InputError(FUNCTION, "property_temperature", property_temperature, "above -273.15 °C")
-    options = dict(gas=gas_key(gas), pressure=pressure, property_temperature=property_temperature,
+    options: dict[str, Any] = dict(gas=gas_key(gas), pressure=pressure, property_temperature=property_temperature,
                    ideal_expansion=bool(ideal_expansion))
     key = (parsed_branches, parsed_boundaries, *options.values())
     result = _solved(key + (band,), use_cache)

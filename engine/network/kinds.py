@@ -17,7 +17,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 from types import MappingProxyType
-from typing import Callable, Mapping
+from typing import Any, Callable, Mapping
 
 import numpy as np
 from scipy.constants import zero_Celsius
@@ -152,6 +152,10 @@ class BranchKind:
     def group_key(self, branch, gas: str) -> tuple:
         return (self.name,)
 
+    def group(self, index: np.ndarray, params: list[tuple], context: dict) -> Any:
+        """The vectorised evaluator of this kind's branches ``index`` (every kind has its own)."""
+        raise NotImplementedError(self.name)
+
     def reference(self) -> dict:
         """kind, p1..p5 texts, heat flow, from/to: one row of the reference table."""
         columns = [p.describe() for p in self.params] + [""] * (5 - len(self.params))
@@ -180,14 +184,17 @@ class _Group:
 class LinearKind(BranchKind):
     """q = G (T_from - T_to) with a constant conductance G (W/K)."""
 
-    conductance: Callable[[tuple], float] = field(default=None, compare=False)
-    coefficient: Callable[[tuple], tuple[float, float]] = field(default=None, compare=False)  # (h, area)
+    # required (a default only because the fields of BranchKind have them)
+    conductance: Callable[[tuple], float] = field(default=None, compare=False)  # type: ignore[assignment]
+    coefficient: Callable[[tuple], tuple[float, float]] = field(default=None, compare=False)  # type: ignore[assignment]  # (h, area)
 
     def group(self, index, params, context):
         return _LinearGroup(self, index, params)
 
 
 class _LinearGroup(_Group):
+    kind: LinearKind
+
     def __init__(self, kind, index, params):
         super().__init__(kind, index, params)
         self.g = np.array([kind.conductance(p) for p in params], dtype=float)
@@ -257,6 +264,11 @@ class ConvectionKind(BranchKind):
     """q = h(T_from, T_to) A (T_from - T_to), h = Nu k / length from the geometry's correlation
     with the gas properties at the branch's film temperature."""
 
+    @property
+    def geometry_name(self) -> str:
+        """The registry geometry its branches are computed with (every convection kind has one)."""
+        return str(self.geometry)
+
     def role(self, role: str) -> int | None:
         for k, p in enumerate(self.params):
             if p.role == role:
@@ -268,7 +280,7 @@ class ConvectionKind(BranchKind):
             return "auto"
         k = self.role("case")
         case = params[k] if k is not None and params else None
-        allowed = ["auto"] + methods_for(self.geometry, case)
+        allowed = ["auto"] + methods_for(self.geometry_name, case)
         if not isinstance(value, str) or value.strip().lower() not in allowed:
             raise NetworkError(FUNCTION, f"{where}, column method", value,
                                "blank or one of " + ", ".join(f'"{m}"' for m in allowed)
@@ -294,7 +306,7 @@ class ConvectionKind(BranchKind):
 
     def correlation_inputs(self, columns: Mapping[str, np.ndarray], dt: np.ndarray) -> dict:
         """The geometry's inputs other than Ra and Pr, from the parameter columns (by role)."""
-        inputs = shape_ratios(GEOMETRIES[self.geometry], columns["length"], diameter=columns.get("diameter"),
+        inputs = shape_ratios(GEOMETRIES[self.geometry_name], columns["length"], diameter=columns.get("diameter"),
                               height=columns.get("height"))
         if "tilt" in columns:
             inputs["tilt"] = columns["tilt"]
@@ -330,12 +342,12 @@ def _convection_kind(geometry) -> ConvectionKind:
     if inputs == {"aspect", "tilt"}:   # an enclosed layer: gap, height, area, tilt, its own gas
         low, high = geometry.tilt_range
         default_tilt = 90.0 if geometry.default_tilt is None else geometry.default_tilt
-        params = (_length_param(geometry), Param("height", "m", role="height"),
+        layer = (_length_param(geometry), Param("height", "m", role="height"),
                   Param("area", "m²", role="area"),
                   Param("tilt", "° from horizontal", check="angle", limits=(low, high), optional=True,
                         default=default_tilt, blank_means=f"{default_tilt:g}", role="layer-tilt"),
                   Param("gas", check="gas", optional=True, blank_means="the network's", role="gas"))
-        return ConvectionKind(geometry.name, params,
+        return ConvectionKind(geometry.name, layer,
                               flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {geometry.length}",
                               ends="from: the surface on the layer's underside; to: the other face",
                               geometry=geometry.name)
@@ -362,13 +374,15 @@ def _convection_kind(geometry) -> ConvectionKind:
 
 
 class _ConvectionGroup(_Group):
+    kind: ConvectionKind
+    facing: Any   # the row's facing ("up", "down"), or None
     """Convection branches of one kind, facing, method and gas."""
 
     needs_properties = True
 
     def __init__(self, kind: ConvectionKind, index, params, context):
         super().__init__(kind, index, params)
-        self.geometry = kind.geometry
+        self.geometry = kind.geometry_name
         self.method = context["method"]
         self.gas = context["gas"]
         facing = kind.role("facing")

@@ -113,7 +113,8 @@ def compile_network(branches: tuple[Branch, ...], boundaries: tuple[Boundary, ..
     grouped: dict[tuple, list[int]] = {}
     for position, b in enumerate(branches):
         grouped.setdefault(BRANCH_KINDS[b.kind].group_key(b, gas), []).append(position)
-    groups, convection = [], {}
+    groups: list = []
+    convection: dict = {}
     for key, members in grouped.items():
         kind = BRANCH_KINDS[key[0]]
         context = {"method": key[2], "gas": key[3]} if kind.has_correlation else {}

@@ -23,6 +23,7 @@ the worst node.
 from __future__ import annotations
 
 import math
+from typing import NoReturn
 
 import numpy as np
 from scipy.constants import zero_Celsius
@@ -53,7 +54,7 @@ class Solver:
         self.net = net
         self.max_iterations = MAX_NEWTON_ITERATIONS if max_iterations is None else max_iterations
         self.iterations = 0
-        self.best = None          # (ratio to tolerance, x, evaluation, residual): the restart
+        self.best: tuple | None = None  # (ratio to tolerance, x, evaluation, residual): the restart
         self.failure = ""         # text of the last evaluation that could not be done
         n = len(net.nodes)
         s, r = net.source, net.target
@@ -154,7 +155,7 @@ class Solver:
         t = np.full(len(net.nodes), t_mean)
         t[net.fixed] = net.fixed_t
         conductance = np.empty(len(net.branches))
-        x = None
+        x: np.ndarray | None = None
         for _ in range(START_PASSES):
             t1, t2 = t[net.source], t[net.target]
             for group in net.groups:
@@ -166,7 +167,7 @@ class Solver:
             t[net.free] = x
             if previous is not None and np.max(np.abs(x - previous)) < 1e-3 * (1.0 + np.ptp(net.fixed_t)):
                 break
-        return x
+        return x if x is not None else np.full(net.free.size, t_mean)  # START_PASSES >= 1
 
     def linear_solve(self, conductance: np.ndarray) -> np.ndarray:
         net = self.net
@@ -254,7 +255,7 @@ class Solver:
             return state, y, fine
         return None
 
-    def solve(self):
+    def solve(self) -> tuple[tuple, np.ndarray, np.ndarray, str]:
         """(evaluation, residual), x, x_fine, how."""
         net = self.net
         if net.free.size == 0:
@@ -289,7 +290,7 @@ class Solver:
         return build_result(self.net, t + t_fine, evaluation, residual, self.tolerances(evaluation),
                             self.iterations, how, strict)
 
-    def fail(self):
+    def fail(self) -> NoReturn:
         net = self.net
         if self.best is None:
             raise NetworkConvergenceError(
