@@ -244,6 +244,15 @@ def test_a_header_row_in_the_boundaries_is_not_a_series_name():
     assert result.temperatures["air"].tolist() == [15.0, 15.0]
 
 
+def test_two_heat_series_at_one_node_add_up():
+    both = solve_transient(block(), [["air", "T", 20.0], ["block", "Q", "a"], ["block", "Q", "b"]], {"block": 500.0},
+                           [0.0, 300.0, 600.0], series={"a": [(0.0, 3.0)], "b": [(0.0, 0.0), (600.0, 6.0)]})
+    one = solve_transient(block(), [["air", "T", 20.0], ["block", "Q", "ab"]], {"block": 500.0},
+                          [0.0, 300.0, 600.0], series={"ab": [(0.0, 3.0), (600.0, 9.0)]})
+    np.testing.assert_allclose(both.temperatures["block"], one.temperatures["block"], rtol=1e-12)
+    assert both.temperatures["block"][0] == pytest.approx(20.0 + 3.0 / 5.0, rel=1e-12)
+
+
 def test_results_are_read_only_and_cached():
     arguments = (block(), [["air", "T", 20.0]], {"block": 1000.0}, [0.0, 10.0])
     first = solve_transient(*arguments, initial=30.0)

@@ -33,6 +33,7 @@ exponential to 1e-6 of the initial difference.
 
 from __future__ import annotations
 
+import bisect
 import dataclasses
 import math
 from collections import OrderedDict
@@ -264,11 +265,14 @@ class _Schedule:
         self.shortest = float(min(s.min() for s in spacings)) if spacings else math.inf
         # every series on the union of their points: linear between neighbours there is each
         # series' own interpolation (held outside), so one look-up serves them all at a time
-        self.grid = np.unique(np.concatenate([times for _, times, _ in used])) if used else np.zeros(1)
-        self.table = np.array([np.interp(self.grid, times, values) for _, times, values in used]).reshape(
-            len(used), self.grid.size)
+        grid = np.unique(np.concatenate([times for _, times, _ in used])) if used else np.zeros(1)
+        table = np.array([np.interp(grid, times, values) for _, times, values in used]).reshape(len(used), grid.size)
+        self.grid = grid.tolist()
+        self.rows = table.T.copy()                                     # the series at each grid point
+        self.slopes = np.diff(self.rows, axis=0) / np.diff(grid)[:, None] if grid.size > 1 else self.rows[:0]
         self.t_positions = np.array([k for k, _, _ in self.t_series], dtype=int)
         self.q_nodes = np.array([i for i, _, _ in self.q_series], dtype=int)
+        self.q_nodes_unique = len(set(self.q_nodes.tolist())) == self.q_nodes.size
         self.n_t = len(self.t_series)
 
     @property
@@ -277,14 +281,12 @@ class _Schedule:
 
     def at(self, time: float) -> np.ndarray:
         """Every series in use at ``time`` (T series first, then Q series)."""
-        grid = self.grid
-        k = int(np.searchsorted(grid, time, side="right"))
+        k = bisect.bisect_right(self.grid, time)
         if k == 0:
-            return self.table[:, 0]
-        if k == grid.size:
-            return self.table[:, -1]
-        w = (time - grid[k - 1]) / (grid[k] - grid[k - 1])
-        return self.table[:, k - 1] + w * (self.table[:, k] - self.table[:, k - 1])
+            return self.rows[0]
+        if k == len(self.grid):
+            return self.rows[-1]
+        return self.rows[k - 1] + (time - self.grid[k - 1]) * self.slopes[k - 1]
 
     def apply(self, time: float) -> None:
         net = self.net
@@ -294,7 +296,10 @@ class _Schedule:
             return
         values = self.at(time)
         net.fixed_t[self.t_positions] = values[:self.n_t]
-        np.add.at(net.heat_input, self.q_nodes, values[self.n_t:])
+        if self.q_nodes_unique:
+            net.heat_input[self.q_nodes] += values[self.n_t:]
+        else:   # several series add at one node
+            np.add.at(net.heat_input, self.q_nodes, values[self.n_t:])
 
 
 # ----------------------------------------------------------------------------------------------
@@ -342,19 +347,29 @@ class _Reduced:
             t, t_fine = solver.temperatures(x, x_fine)
             t = t + t_fine
         else:
-            t = np.empty(len(net.nodes))
-            t[net.fixed] = net.fixed_t
-            t[self.cap] = y
-            if not np.all(t > ABSOLUTE_ZERO_C) or not np.all(np.isfinite(t)):
-                raise NetworkConvergenceError(
-                    f"{FUNCTION}: at t = {time:g} s a node temperature fell to absolute zero or is not finite; "
-                    "check the capacities, heat inputs and series", math.inf, None, self.calls)
-            try:
-                evaluation = net.evaluate(t, np.zeros(len(net.nodes)))
-            except StillairError as error:
-                raise NetworkConvergenceError(f"{FUNCTION}: at t = {time:g} s: {error}", math.inf, None,
-                                              self.calls) from None
+            t = self._all_capacitive(time, y)
+            evaluation = self._checked(time, net.evaluate, t, np.zeros(len(net.nodes)))
         return t, evaluation
+
+    def _all_capacitive(self, time, y):
+        """Every node's temperature when every free node has a capacity (boundaries applied)."""
+        net = self.net
+        t = np.empty(len(net.nodes))
+        t[net.fixed] = net.fixed_t
+        t[self.cap] = y
+        if not np.all(t > ABSOLUTE_ZERO_C) or not np.all(np.isfinite(t)):
+            raise NetworkConvergenceError(
+                f"{FUNCTION}: at t = {time:g} s a node temperature fell to absolute zero or is not finite; "
+                "check the capacities, heat inputs and series", math.inf, None, self.calls)
+        return t
+
+    def _checked(self, time, function, *arguments):
+        """The model's evaluation, a failure (a temperature outside the gas tables) named with the time."""
+        try:
+            return function(*arguments)
+        except StillairError as error:
+            raise NetworkConvergenceError(f"{FUNCTION}: at t = {time:g} s: {error}", math.inf, None,
+                                          self.calls) from None
 
     def _fail(self, time, solver):
         try:
@@ -367,9 +382,14 @@ class _Reduced:
 
     def rate(self, time, y):
         self.calls += 1
-        _, evaluation = self.state(time, y)
-        self._last = (time, y.copy(), evaluation)
-        return self.net.imbalance(evaluation.q)[self.cap] / self.capacity
+        if self.alg.size:
+            _, evaluation = self.state(time, y)
+            self._last = (time, y.copy(), evaluation)      # the Jacobian there needs no new solve
+            q = evaluation.q
+        else:   # the flows alone: no derivatives, no Newton
+            self.schedule.apply(time)
+            q = self._checked(time, self.net.flows, self._all_capacitive(time, y))
+        return self.net.imbalance(q)[self.cap] / self.capacity
 
     def jacobian(self, time, y):
         self.jacobians += 1
