@@ -253,6 +253,28 @@ def test_two_heat_series_at_one_node_add_up():
     assert both.temperatures["block"][0] == pytest.approx(20.0 + 3.0 / 5.0, rel=1e-12)
 
 
+def test_a_start_outside_the_gas_tables_names_the_time():
+    with pytest.raises(stillair.NetworkConvergenceError) as caught:
+        solve_transient([["conv", "block", "air", "vplate", 0.5, 0.5]], [["air", "T", 20.0]], {"block": 1000.0},
+                        [0.0, 10.0], initial=5000.0)
+    assert str(caught.value).startswith("solve_transient: at t = 0 s a branch could not be evaluated (t must be ")
+    assert str(caught.value).endswith("got 2510): check the capacities, start temperatures, heat inputs and series")
+
+
+def test_an_integration_that_does_not_end_is_stopped_with_a_message(monkeypatch):
+    """A huge conductance on a small capacity can make the steps vanish; a solve never runs for
+    ever (the limit lowered here so that an ordinary day meets it)."""
+    import stillair.network.transient as transient
+
+    monkeypatch.setattr(transient, "MAX_EVALUATIONS", 10)
+    monkeypatch.setattr(transient, "MAX_EVALUATIONS_PER_TIME", 0)
+    branches, boundaries, capacities, series = cabinet()
+    with pytest.raises(stillair.NetworkConvergenceError) as caught:
+        solve_transient(branches, boundaries, capacities, [0.0, 24 * HOUR], series=series, use_cache=False)
+    assert str(caught.value).startswith("solve_transient: the integration needed more than 10 evaluations "
+                                        "and stopped at t = ")
+
+
 def test_results_are_read_only_and_cached():
     arguments = (block(), [["air", "T", 20.0]], {"block": 1000.0}, [0.0, 10.0])
     first = solve_transient(*arguments, initial=30.0)
@@ -324,6 +346,9 @@ BAD = [
     (dict(times=[0.0, "#N/A"]), "solve_transient: times, entry 2 must be a time in s, got #N/A"),
     (dict(method="euler"), "solve_transient: method must be one of BDF, Radau, got 'euler'"),
     (dict(atol=0.0), "solve_transient: atol must be > 0 K and at most 0.01 K, got 0"),
+    (dict(branches=[["conv", "block", "air", "vplate", 0.5, 0.5]], gas="argn"),
+     "solve_transient: gas must be one of air, argon, krypton, xenon, sf6, co2, nitrogen or a mixture of them "
+     'such as "argon:0.9, air:0.1", got \'argn\''),
     (dict(branches=[["film", "block", "air", "film", -1.0, 0.5]]),
      "solve_transient: branch row 1 (film), column p1 (h) must be > 0 W/(m²·K), got -1"),
 ]

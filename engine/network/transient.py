@@ -44,7 +44,7 @@ from types import MappingProxyType
 import numpy as np
 
 from ..groups import DEFAULT_PRESSURE
-from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError
+from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError, format_value
 from ..correlations import methods_for
 from .errors import NetworkConvergenceError, NetworkError, Shown
 from .model import compile_network
@@ -66,6 +66,10 @@ _CACHE: "OrderedDict[tuple, TransientResult]" = OrderedDict()
 _CACHE_SIZE = 32
 PERIODIC_TOLERANCE = 1e-3   # K: a periodic start repeats the times until the end is the start
 MAX_CYCLES = 30
+# the right-hand side's evaluations a solve may take: a cabinet's day takes about 2,000; a
+# pathological network (a huge conductance on a small capacity) would otherwise run for ever
+MAX_EVALUATIONS = 100_000
+MAX_EVALUATIONS_PER_TIME = 200
 
 
 @dataclass(frozen=True)
@@ -322,6 +326,7 @@ class _Reduced:
         self.capacity = np.asarray(capacity, dtype=float)
         self.t_alg = start[self.alg].copy()
         self.calls = self.jacobians = 0
+        self.max_calls = MAX_EVALUATIONS
         self._last = None            # (time, y, evaluation) of the last rate
         if self.alg.size:
             # the quasi-steady nodes as the free nodes of a network whose capacitive nodes are fixed
@@ -367,6 +372,11 @@ class _Reduced:
         """The model's evaluation, a failure (a temperature outside the gas tables) named with the time."""
         try:
             return function(*arguments)
+        except InputError as error:
+            raise NetworkConvergenceError(
+                f"{FUNCTION}: at t = {time:g} s a branch could not be evaluated ({error.argument} must be "
+                f"{error.allowed}, got {format_value(error.value)}): check the capacities, start temperatures, "
+                "heat inputs and series", math.inf, None, self.calls) from None
         except StillairError as error:
             raise NetworkConvergenceError(f"{FUNCTION}: at t = {time:g} s: {error}", math.inf, None,
                                           self.calls) from None
@@ -382,6 +392,11 @@ class _Reduced:
 
     def rate(self, time, y):
         self.calls += 1
+        if self.calls > self.max_calls:
+            raise NetworkConvergenceError(
+                f"{FUNCTION}: the integration needed more than {self.max_calls} evaluations and stopped at t = "
+                f"{time:g} s: heat flows too large for the capacities to hold them to the tolerances (check "
+                "capacities, conductances and heat inputs many orders of magnitude apart)", math.nan, None, self.calls)
         if self.alg.size:
             _, evaluation = self.state(time, y)
             self._last = (time, y.copy(), evaluation)      # the Jacobian there needs no new solve
@@ -502,10 +517,10 @@ def solve_transient(branches: Sequence[Sequence[object]], boundaries: Sequence[S
     try:
         result = _solve(branches, boundaries, capacities, times, initial, series, gas, pressure, method,
                         rtol, atol)
-    except NetworkError as error:
+    except InputError as error:   # the steady parser's and the gas tables' own wording, our name
         if error.function == FUNCTION:
             raise
-        raise NetworkError(FUNCTION, error.argument, error.value, error.allowed) from None
+        raise type(error)(FUNCTION, error.argument, error.value, error.allowed) from None
     if key is not None:
         _CACHE[key] = result
         if len(_CACHE) > _CACHE_SIZE:
@@ -537,7 +552,12 @@ def _solve(branches, boundaries, capacities, times, initial, series, gas, pressu
     # the start: the steady network at the first time's boundaries, then the given temperatures
     schedule.apply(times[0])
     steady = Solver(net)
-    found = steady.solve()
+    try:
+        found = steady.solve()
+    except NetworkConvergenceError as error:
+        raise NetworkConvergenceError(
+            f"{FUNCTION}: the steady start at t = {times[0]:g} s: {str(error).split(': ', 1)[-1]}",
+            error.residual, error.worst_node, error.iterations) from None
     start, fine = steady.temperatures(found[1], found[2])
     start = start + fine
     index = {node: i for i, node in enumerate(nodes)}
@@ -546,6 +566,7 @@ def _solve(branches, boundaries, capacities, times, initial, series, gas, pressu
         start[index[node]] = value
 
     system = _Reduced(net, schedule, capacitive, list(capacity.values()), start)
+    system.max_calls = MAX_EVALUATIONS + MAX_EVALUATIONS_PER_TIME * times.size
     y0 = start[system.cap]
     max_step = schedule.shortest if schedule.varies else np.inf
     states, cycles = np.zeros((times.size, 0)), 0
