@@ -43,9 +43,9 @@ from types import MappingProxyType
 
 import numpy as np
 
+from ..correlations import methods_for
 from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError, StillairError, format_value
-from ..correlations import methods_for
 from .errors import NetworkConvergenceError, NetworkError, Shown
 from .model import compile_network
 from .reading import blank, error_text, gas_key, name, number
@@ -78,7 +78,7 @@ class TransientResult:
 
     ``temperatures[node]`` (°C) for every node, fixed ones included; ``heat[branch]`` (W,
     positive from ``from`` to ``to``); ``peak[node]`` and ``minimum[node]``: (°C, s) of the
-    largest and smallest value at the output times (the first time where it repeats);
+    largest and smallest value at the output times (the earliest, where the value repeats);
     ``stored_energy`` (J): sum of C (T - T_start) over the nodes with a capacity;
     ``capacities`` (node -> J/K) and ``quasi_steady`` (the free nodes without one);
     ``notes``: every correlation used outside its validity range at some output time, with the
@@ -186,10 +186,14 @@ def parse_times(times) -> np.ndarray:
     for k, value in enumerate(flat, start=1):
         if blank(value):
             raise NetworkError(FUNCTION, f"times, entry {k}", None, "a time in s (blanks only after the last time)")
-        if isinstance(value, (str, bool, np.bool_)) or error_text(value) is not None:
-            raise NetworkError(FUNCTION, f"times, entry {k}", Shown(error_text(value) or repr(value)),
-                               "a time in s")
-        checked.append(number(value, "times", f"entry {k}", "s"))
+        try:
+            time = float(value) if not isinstance(value, (str, bool, np.bool_)) else math.nan
+        except (TypeError, ValueError):
+            time = math.nan
+        if not math.isfinite(time):
+            shown = error_text(value) or (repr(value) if isinstance(value, str) else str(value))
+            raise NetworkError(FUNCTION, f"times, entry {k}", Shown(shown), "a finite time in s")
+        checked.append(time)
     if len(checked) < 2:
         raise NetworkError(FUNCTION, "times", Shown(f"{len(checked)} value(s)"), "at least two times in s")
     values = np.array(checked)
@@ -216,7 +220,7 @@ def _timed_boundaries(boundaries, series):
             if label in series:
                 named[row_number] = label
                 row = row[:2] + [float(series[label][1][0])] + row[3:]
-            elif not _looks_like_number(label) and not label.startswith("#") and label[:4] != "Err:":
+            elif not _looks_like_number(label) and error_text(label) is None:   # the parser words those
                 near = _near(label, series)
                 node = row[0] if isinstance(row[0], str) else str(row[0])
                 raise NetworkError(FUNCTION, f"boundary row {row_number} ({node.strip()}), column value", label,
