@@ -40,6 +40,10 @@ def test_results_equal_a_direct_engine_calculation(sets):
     for name, expected in pairs.items():
         assert named(evaluation, name) == pytest.approx(expected, rel=1e-9, abs=1e-12), name
     assert named(evaluation, "res_steady_excess") == pytest.approx(steady.temperatures["air_in"] - peak, rel=1e-9)
+    network = day.day_network(**_inputs(evaluation))
+    band = stillair.solve_network(network.branches, network.peak_boundaries, pressure=network.pressure, band=True)
+    assert named(evaluation, "res_t_air_steady_high") == pytest.approx(band.band["air_in"][1], rel=1e-9)
+    assert named(evaluation, "res_t_air_steady_high") > steady.temperatures["air_in"]
 
 
 def test_the_default_day_repeats_and_its_peak_lags_below_the_steady_result():

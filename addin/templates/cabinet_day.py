@@ -251,6 +251,8 @@ def build(b) -> None:
     b.step("t_air_steady", "Internal air, steady at peak sun and maximum ambient",
            f'=NET_TEMP({peak_pair}, "air_in", {fluid})', "°C")
     b.step("steady_excess", "Steady result minus the peak of the day", "=t_air_steady-t_air_peak", "K")
+    b.step("t_air_steady_high", "Steady result, top of the correlation spread (NET_BAND)",
+           f'=INDEX(NET_BAND({peak_pair}, "air_in", {fluid}), 1, 2)', "°C")
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Internal air through the day")
@@ -265,6 +267,8 @@ def build(b) -> None:
              "what a steady calculation reports")
     b.result("res_steady_excess", "Steady result above the peak of the day", "=steady_excess", "K",
              "the cabinet's mass lags the sun and ambient")
+    b.result("res_t_air_steady_high", "Steady result at the top of the correlation spread", "=t_air_steady_high",
+             "°C", "the day itself is solved at the nominal correlations (see Notes)")
     b.section("Results", "Night")
     b.result("res_side_in_min", "Side walls, inner face: minimum", "=t_side_in_min", "°C")
     b.result("res_side_in_min_hour", "Time of that minimum", "=t_side_in_min_hour", "h", number_format="0.00")
@@ -310,6 +314,10 @@ def build(b) -> None:
                 "through zero, and the horizontal-plate correlations' Rayleigh number falls below their "
                 "published range for a few minutes; stillair calc and the audit list those output times. The "
                 "heat flowing there is small and the peak does not depend on it.")
+    b.spread_note("steady result at peak sun")
+    b.paragraph("The day itself is solved with each branch's nominal correlation; the spread is shown for the "
+                "steady comparison only. The difference between the steady result and its top of the spread "
+                "is a fair guide to how much the day's peak could move with the choice of correlation.")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Vertical faces, Churchill-Chu", "vplate", "churchill-chu")
     b.cite("Top, heated facing up and the underside cooled facing down, Lloyd-Moran", "hplate", "lloyd-moran")
