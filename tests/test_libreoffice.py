@@ -184,6 +184,9 @@ TYPED = {
     "B12": ("=AIR_DENSITY(A1:A2)", ("AIR_DENSITY", [[20.0], [None]])),
     "B13": ("=STILLAIR_VERSION()", ("STILLAIR_VERSION",)),
     "B15": ("=AIR_DENSITY(A1)", ("AIR_DENSITY", 20.0)),  # formatted 0.00 (FORMATS)
+    "B16": ("=DEW_POINT(A1;0.5)", ("DEW_POINT", 20.0, 0.5)),
+    "B17": ("=DEW_POINT(A1;50)", ("DEW_POINT", 20.0, 50.0)),   # a percentage typed: the message
+    "B18": ('=NET_HEAT_FOR(D1:M2;D5:F6;"face";45)', ("NET_HEAT_FOR", BRANCHES, BOUNDARIES, "face", 45.0)),
 }
 FORMATS = {"B15": "0.00"}
 ARRAYS = {f"A20:J{19 + NET_ROWS}": "=NET_SOLVE(D1:M2;D5:F6)",

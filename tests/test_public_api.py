@@ -18,6 +18,10 @@ from stillair.addin.cells.registry import REGISTRY
 DOCUMENTED_MODULES = ("stillair.gases", "stillair.atmosphere", "stillair.groups", "stillair.external",
                       "stillair.cavity", "stillair.correlations", "stillair.convection",
                       "stillair.channel", "stillair.radiation", "stillair.network",
+                      "stillair.ventilation",
+                      "stillair.humid",
+                      "stillair.insulation",
+                      "stillair.network.inverse",
                       "stillair.network.transient")
 ENGINE_MODULES = ("validity", "correlations", "external", "cavity", "gases", "atmosphere",
                   "groups", "radiation", "convection", "network")

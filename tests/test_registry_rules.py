@@ -25,6 +25,9 @@ DESIGN_NAMES = (
        "STILLAIR_VERSION"]
     + ["NU_CHANNEL", "H_CHANNEL", "CHANNEL_SPACING", "HEATSINK_Q", "HEATSINK_TBASE"]
     + ["NU_SPREAD", "NET_BAND"]
+    + ["STACK_FLOW", "AIRFLOW_FOR", "NET_AIRFLOW"]
+    + ["SAT_PRESSURE", "VAPOUR_PRESSURE", "HUMIDITY_RATIO", "DEW_POINT", "SURFACE_RH", "TEMP_FACTOR",
+       "NET_HEAT_FOR", "INSULATION_THICKNESS"]
     + ["NET_TRANSIENT", "NET_PEAK"])
 
 # VBA keywords and the names the generated VBA wrapper itself uses (Array, XLPy, Err...): an

@@ -139,6 +139,18 @@ def test_numeric_inputs_without_a_range_are_refused_by_the_builder(tmp_path):
         build_template(Template("probe", 1, "Probe", "probe", build), tmp_path / "probe.xlsx")
 
 
+def test_a_defined_name_may_not_be_a_cell_function(tmp_path):
+    """LibreOffice reads DEW_POINT( as the defined name dew_point and a bracket: Err:509."""
+    from stillair.addin.templates.build import build_template
+    from stillair.addin.templates.spec import Template, TemplateBuildError, Valid
+
+    def build(b):
+        b.input("dew_point", "Dew point", 10.0, "°C", valid=Valid(-50.0, 50.0, "a test range"))
+
+    with pytest.raises(TemplateBuildError, match="name 'dew_point' is the cell function DEW_POINT"):
+        build_template(Template("probe", 1, "Probe", "probe", build), tmp_path / "probe.xlsx")
+
+
 # ------------------------------------------------------------------------------ verdicts
 
 def _conditional_cells(ws) -> set[str]:

@@ -17,8 +17,8 @@ TEMPLATES = all_templates()
 IDS = [t.name for t in TEMPLATES]
 
 
-def test_eight_templates_ship_with_their_files():
-    assert len(MODULES) == 8
+def test_nine_templates_ship_with_their_files():
+    assert len(MODULES) == 9
     for template in TEMPLATES:
         assert template.path.is_file(), f"{template.path} missing: run python -m stillair.addin.templates"
 

@@ -421,3 +421,32 @@ def test_linear_networks_follow_the_matrix_exponential(data):
     for k in a:
         inflow = result.heat[f"r{k}"] - result.heat[f"r{k + 1}"] + heat[k]
         assert np.max(np.abs(inflow)) <= 1e-6 * (1.0 + np.max(np.abs(result.heat[f"r{k}"])))
+
+
+# ----------------------------------------------------------------------------------------------
+# The right-hand side's flows (no derivatives) are the model's own
+
+
+def test_the_flows_alone_equal_the_full_evaluation_for_every_kind():
+    """Network.flows (the integrator's right-hand side) and Network.evaluate give the same heat
+    flows for a network holding every branch kind (a vent and a fan carry air between two air nodes)."""
+    from stillair.network import BRANCH_KINDS
+    from stillair.network.model import compile_network
+    from stillair.network.tables import parse_boundaries, parse_branches
+
+    rows = {
+        "conduction": [0.01, 0.5, 0.2], "resistance": [0.4], "film": [6.0, 0.2], "vplate": [0.5, 0.2],
+        "hplate": [0.2, 0.2, "up"], "tplate": [0.3, 0.2, 30.0, "up"], "hcyl": [0.05, 0.2], "sphere": [0.1, 0.03],
+        "vcyl": [0.5, 0.05, 0.08], "cavity": [0.02, 0.5, 0.2, 90.0, None], "radiation": [0.9, 0.8, 0.2],
+        "channel": [0.01, 0.15, 0.2, None], "vent": [0.004, 0.004, 0.6, None, None], "airflow": [0.002],
+    }
+    assert set(rows) == set(BRANCH_KINDS)      # a new kind joins this test
+    air_kinds = ("vent", "airflow")
+    branches = [[kind, "inside" if kind in air_kinds else "hot", "outside" if kind in air_kinds else "cold",
+                 kind, *columns] for kind, columns in rows.items()]
+    branches += [["warm", "hot", "inside", "resistance", 0.5]]
+    boundaries = [["hot", "Q", 60.0], ["cold", "T", 10.0], ["outside", "T", 10.0]]
+    net = compile_network(parse_branches(branches), parse_boundaries(boundaries), gas="air", pressure=101325.0,
+                          property_temperature=None, ideal_expansion=False)
+    t = np.array([{"hot": 55.0, "cold": 10.0, "inside": 35.0, "outside": 10.0}[node] for node in net.nodes])
+    np.testing.assert_allclose(net.flows(t), net.evaluate(t, np.zeros_like(t)).q, rtol=1e-12, atol=0)

@@ -33,7 +33,10 @@ from typing import Any, Sequence
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
-from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
+from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS, BRANCH_KINDS
+from stillair.network.advection import AdvectionKind
+
+from ..cells.registry import BY_NAME
 
 from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
@@ -176,6 +179,9 @@ class TemplateBook:
             raise TemplateBuildError(f"{self.template.name}: {name!r} is not a usable defined name")
         if name.lower() in (n.lower() for n in self.names):
             raise TemplateBuildError(f"{self.template.name}: name {name!r} defined twice")
+        if name.upper() in BY_NAME:
+            # LibreOffice reads NAME( as the defined name followed by a bracket (Err:509)
+            raise TemplateBuildError(f"{self.template.name}: name {name!r} is the cell function {name.upper()}")
         ref = xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)
         if last_row is not None:
             ref += ":" + xl_rowcol_to_cell(last_row, last_col, row_abs=True, col_abs=True)
@@ -454,16 +460,18 @@ class TemplateBook:
                    [[node, f'=NET_TEMP({tables}, "{node}"{tail})'] for node in nodes], formats=[None, "0.0"])
         self.blank(sheet)
         rows, picks = [], {}
-        no_ra = ("conduction", "radiation", "film", "resistance")
         for i, (branch, kind) in enumerate(((row[0], row[3]) for row in branches), start=1):
             at = 1 + len(nodes) + i          # row of the branch in NET_SOLVE's table (header first)
+            # Ra and Nu where a correlation gives h; no h for a resistance or an airflow branch
+            correlated = BRANCH_KINDS[kind].has_correlation
+            has_h = kind != "resistance" and not isinstance(BRANCH_KINDS[kind], AdvectionKind)
 
             def pick(col, applies=True):
                 return f"=INDEX({solve}, {at}, {col})" if applies else None
             picks[f"method:{branch}"] = f"INDEX({solve}, {at}, 9)"
             picks[f"h:{branch}"] = f"INDEX({solve}, {at}, 5)"
-            rows.append([branch, kind, f'=NET_HEAT({tables}, "{branch}"{tail})', pick(5, kind != "resistance"),
-                         pick(6), pick(7, kind not in no_ra), pick(8, kind not in no_ra), pick(9)])
+            rows.append([branch, kind, f'=NET_HEAT({tables}, "{branch}"{tail})', pick(5, has_h),
+                         pick(6), pick(7, correlated), pick(8, correlated), pick(9)])
         self.table(sheet, ["branch", "kind", "heat flow W", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method"], rows,
                    formats=[None, None, "0.0", SIG3, SCIENTIFIC, "0.00E+00", SIG3, None])
         return picks

@@ -104,10 +104,10 @@ def build(b: TemplateBook) -> None:
             valid=gas_pressure())
     b.section("Inputs", "Actual conditions, mode (b)")
     b.input("t_indoor", "Indoor air (and room surfaces) temperature", d["t_indoor"], "°C",
-            valid=Valid(0.0, 50.0, "an occupied room lies between 0 and 50 °C, and the dew point (Magnus) "
-                        "formula is used above 0 °C"))
+            valid=Valid(0.0, 50.0, "an occupied room lies between 0 and 50 °C"))
     b.input("t_outdoor", "Outdoor air (and surroundings) temperature", d["t_outdoor"], "°C", valid=OUTDOOR_AIR)
-    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%",
+    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%", "in per cent here; the humid-air "
+            "functions take it as a fraction (rh_indoor/100)",
             valid=Valid(0.0, 100.0, "a relative humidity lies above 0 and at most 100 %", low_open=True))
     b.input("h_outdoor", "Outdoor convective film coefficient (wind)", d["h_outdoor"], "W/(m²·K)",
             "convection only: outdoor radiation is a branch of its own",
@@ -206,13 +206,15 @@ def build(b: TemplateBook) -> None:
     b.step("act_pr_2", "Gap 2 Prandtl number (triple)",
            "=GAS_PRANDTL(gas_mix_2,(t_gap2_outer+t_gap2_inner)/2,pressure)", "-")
 
-    b.section("Calculation", "Indoor dew point (Magnus formula)")
-    b.step("magnus_a", "Magnus coefficient a", "=17.625", "-",
-           "Alduchov & Eskridge 1996, over water (from memory)")
-    b.step("magnus_b", "Magnus coefficient b", "=243.04", "°C", "Alduchov & Eskridge 1996 (from memory)")
-    b.step("magnus_gamma", "ln(RH) + a t/(b + t)", "=LN(rh_indoor/100)+magnus_a*t_indoor/(magnus_b+t_indoor)", "-")
-    b.step("t_dew", "Indoor dew point b gamma/(a - gamma)", "=magnus_b*magnus_gamma/(magnus_a-magnus_gamma)", "°C")
+    b.section("Calculation", "Indoor humidity at the indoor face")
+    b.step("t_dew", "Indoor dew point (frost point below 0 °C)", "=DEW_POINT(t_indoor,rh_indoor/100,pressure)",
+           "°C", "Hyland-Wexler saturation pressure, ASHRAE Fundamentals 2017 ch. 1")
     b.step("dew_margin", "Indoor face minus dew point", "=t_indoor_face-t_dew", "K")
+    b.step("face_rh", "Relative humidity of the room air at the indoor face",
+           "=SURFACE_RH(t_indoor,rh_indoor/100,t_indoor_face,pressure)", "-",
+           "1 or more: condensation; ISO 13788 takes 0.8 as the mould criterion")
+    b.step("face_factor", "Temperature factor of the indoor face, f_Rsi",
+           "=TEMP_FACTOR(t_indoor_face,t_indoor,t_outdoor)", "-", "ISO 13788: (face - outdoor)/(indoor - outdoor)")
 
     b.section("Calculation", "Temperature profile through the unit (air points drawn 10 mm off the faces)")
     x1, x2 = "pane_1*1000", "(pane_1+gap_1)*1000"
@@ -252,8 +254,12 @@ def build(b: TemplateBook) -> None:
     b.result("indoor_face_low", "Indoor face, correlation spread: lowest", "=t_indoor_face_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("indoor_face_high", "Indoor face, correlation spread: highest", "=t_indoor_face_high", "°C")
-    b.result("dew_point", "Indoor dew point", "=t_dew", "°C", "Magnus formula, Alduchov & Eskridge 1996")
+    b.result("indoor_dew_point", "Indoor dew point", "=t_dew", "°C", "DEW_POINT (Hyland-Wexler saturation)")
     b.result("dew_margin_result", "Margin above the dew point", "=dew_margin", "K")
+    b.result("face_rh_result", "Relative humidity at the indoor face", "=face_rh", "-",
+             "0.8 or more for long: mould likely (ISO 13788)")
+    b.result("face_factor_result", "Temperature factor of the indoor face, f_Rsi", "=face_factor", "-",
+             "compare with the f_Rsi,min of local practice")
     b.result("condensation_check", "Condensation check (centre of glass)",
              '=IF(NOT(ISNUMBER(dew_margin)),"' + FAILED + '",IF(dew_margin>0,"no condensation at the centre of '
              'glass, margin "&TEXT(dew_margin,"0.0")&" K","CONDENSATION: indoor face "&TEXT(-dew_margin,"0.0")&'
@@ -340,9 +346,13 @@ def build(b: TemplateBook) -> None:
                 "radiation between parallel faces)- face 3 ... indoor face -(natural convection of a vertical "
                 "plate of the glazed height, and radiation to a room at the indoor air temperature)- indoor air. "
                 "Gas properties at each branch's own mean temperature, re-evaluated every iteration.")
-    b.paragraph("Dew point: Magnus formula t_d = b g/(a - g), g = ln(RH) + a t/(b + t), a = 17.625, "
-                "b = 243.04 °C (O.A. Alduchov, R.E. Eskridge, J. Appl. Meteorol. 35 (1996) 601-609; "
-                "coefficients from memory), over water, good to about 0.1-0.4 K for -40...50 °C.")
+    b.paragraph("Dew point and surface humidity: DEW_POINT and SURFACE_RH with the vapour pressure of the room "
+                "air, p_w = RH p_ws(t), and the saturation pressure p_ws of Hyland and Wexler (ASHRAE Trans. "
+                "89(2A) (1983) 500-519, as printed in the ASHRAE Handbook - Fundamentals 2017 ch. 1 eqs. 5 "
+                "and 6), over ice below 0.01 °C (a frost point there). The relative humidity at the indoor face "
+                "is p_w / p_ws(face); ISO 13788 judges mould likely where it stays at 0.8 or above for some "
+                "time (from memory) and condensation at 1. The temperature factor f_Rsi = (face - outdoor) / "
+                "(indoor - outdoor) (ISO 13788) compares with the minimum local practice requires.")
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
@@ -370,7 +380,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=3, title="Insulating glass unit",
+    name="glazing-unit", version=4, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

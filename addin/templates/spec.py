@@ -79,6 +79,7 @@ UNIT_FORMATS = {
     "W": "0.0", "W/m²": "0.0", "W/m": "0.0", "W/m or W/m²": "0.0",
     "m": "0.0000", "m²": "0.000", "m or m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
     "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
+    "kg/m³": "0.0000", "J/(kg·K)": "0.0", "kg/s": SIG3, "m³/s": SIG3, "m³/h": SIG3, "1/(kg·m)": SCIENTIFIC,
 }
 
 # The Stefan-Boltzmann constant as a Calculation step writes it, W/(m²·K⁴): CODATA 2018 to the
