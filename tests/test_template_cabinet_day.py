@@ -18,6 +18,20 @@ def _inputs(evaluation):
     return {name: named(evaluation, name) for name in list(day.DEFAULTS) + ["altitude", "vplate_method"]}
 
 
+def test_the_coldest_inner_wall_is_checked_against_the_dew_point_of_the_air_sealed_in():
+    evaluation = evaluate_template(NAME)
+    network, result, _ = _engine_day(_inputs(evaluation))
+    dew = stillair.dew_point(named(evaluation, "seal_t"), named(evaluation, "seal_rh"), network.pressure)
+    coldest = min(result.minimum["side_in"][0], result.minimum["top_in"][0])
+    assert named(evaluation, "res_t_dew") == pytest.approx(dew, rel=1e-12)
+    assert named(evaluation, "res_dew_clearance") == pytest.approx(coldest - dew, rel=1e-9)
+    assert named(evaluation, "res_condensation").startswith("OK: coldest inner wall ")
+    # air sealed in warm and humid: its dew point lies above the night's coldest wall
+    humid = evaluate_template(NAME, seal_t=30, seal_rh=0.9)
+    assert named(humid, "res_dew_clearance") < 0
+    assert named(humid, "res_condensation").startswith("CONDENSATION: coldest inner wall ")
+
+
 def _engine_day(inputs):
     network = day.day_network(**inputs)
     result = stillair.solve_transient(network.branches, network.boundaries, network.capacities, day.OUTPUT_TIMES,
@@ -109,6 +123,9 @@ DIRECTIONS = {
     "sky_depression": (20.0, "res_t_air_peak", -1, "a colder sky takes more radiation from the top"),
     "altitude": (2500.0, "res_t_air_peak", +1, "thinner air convects less"),
     "max_internal_t": (60.0, "res_margin", +1, "the limit only moves the margin"),
+    "seal_t": (28.0, "res_dew_clearance", -1, "warmer air sealed in holds more water: a higher dew point"),
+    "seal_rh": (0.7, "res_dew_clearance", -1, "more humid air sealed in: a higher dew point"),
+    "dew_margin": (13.0, "res_condensation", 0, "only the verdict reads the margin"),
 }
 
 
@@ -116,7 +133,7 @@ def test_every_input_has_a_direction_test():
     assert input_names(day.TEMPLATE) == set(DIRECTIONS) | {"vplate_method"}
 
 
-@pytest.mark.parametrize("input_name", sorted(DIRECTIONS))
+@pytest.mark.parametrize("input_name", sorted(name for name in DIRECTIONS if DIRECTIONS[name][2]))
 def test_set_moves_the_result_the_expected_way(input_name):
     value, result, direction, _why = DIRECTIONS[input_name]
     assert_direction(NAME, input_name, value, result, direction)
@@ -124,6 +141,11 @@ def test_set_moves_the_result_the_expected_way(input_name):
 
 def test_the_limit_does_not_change_the_temperatures():
     assert_direction(NAME, "max_internal_t", 60.0, "res_t_air_peak", 0)
+
+
+def test_the_margin_moves_only_the_condensation_verdict():
+    assert_direction(NAME, "dew_margin", 13.0, "res_dew_clearance", 0)
+    assert named(evaluate_template(NAME, dew_margin=13.0), "res_condensation").startswith("MARGIN SHORT: ")
 
 
 def test_choosing_the_vertical_correlation_changes_the_result():

@@ -15,7 +15,8 @@ from types import SimpleNamespace
 from xlsxwriter.utility import xl_rowcol_to_cell
 
 from .book import limit_check
-from .sealed_cabinet import SIZE, SUN, VPLATE_METHODS, branch_rows
+from .sealed_cabinet import (CONDENSATION_FAILS, SIZE, SUN, VPLATE_METHODS, branch_rows, condensation_check,
+                             moisture_inputs)
 from .spec import EMISSIVITY, LIMIT_TEMPERATURE, Template, Valid, altitude
 
 NAME = "cabinet-day"
@@ -163,6 +164,8 @@ def build(b) -> None:
     b.input("sky_depression", "Sky temperature below the ambient air", d["sky_depression"], "K",
             "effective long-wave sky, all day (see Notes)",
             valid=Valid(0.0, 40.0, "the clear sky is colder than the air, by up to about 40 K"))
+    b.section("Inputs", "Moisture sealed in")
+    moisture_inputs(b)
     b.section("Inputs", "Site and limit")
     b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)", valid=altitude())
     b.input("max_internal_t", "Maximum allowed internal air temperature", 55.0, "°C",
@@ -242,6 +245,10 @@ def build(b) -> None:
     b.step("t_top_in_min", "Top inner face, minimum of the day", f"=INDEX({extreme('top_in', 'min')}, 1, 1)", "°C")
     b.step("t_top_in_min_hour", "Time of the top minimum", f"=INDEX({extreme('top_in', 'min')}, 1, 2)/3600", "h",
            number_format="0.00")
+    b.step("t_coldest_inner", "Coldest inner wall of the day", "=MIN(t_side_in_min, t_top_in_min)", "°C")
+    b.step("t_dew_sealed", "Dew point of the air sealed in (frost point below 0 °C)",
+           "=DEW_POINT(seal_t, seal_rh, air_pressure)", "°C", "the vapour pressure sealed in, at any temperature")
+    b.step("dew_clearance", "Coldest inner wall minus the dew point", "=t_coldest_inner-t_dew_sealed", "K")
     air_column = NODES.index("air_in") + 2
     b.step("cycle_gap", "Internal air at the end of the day minus at its start",
            f"=INDEX({transient}, {len(OUTPUT_TIMES) + 1}, {air_column})-INDEX({transient}, 2, {air_column})", "K",
@@ -274,6 +281,10 @@ def build(b) -> None:
     b.result("res_side_in_min_hour", "Time of that minimum", "=t_side_in_min_hour", "h", number_format="0.00")
     b.result("res_top_in_min", "Top, inner face: minimum", "=t_top_in_min", "°C")
     b.result("res_top_in_min_hour", "Time of that minimum", "=t_top_in_min_hour", "h", number_format="0.00")
+    b.result("res_t_dew", "Dew point of the air sealed in", "=t_dew_sealed", "°C", "frost point below 0 °C")
+    b.result("res_dew_clearance", "Coldest inner wall above the dew point", "=dew_clearance", "K")
+    b.result("res_condensation", "Condensation check, through the day", condensation_check("t_coldest_inner"),
+             text=True, fails=CONDENSATION_FAILS)
     b.section("Results", "Checks")
     b.result("res_cycle_gap", "Internal air, end of the day minus start", "=cycle_gap", "K",
              "within 0.001 K: the day repeats itself (see Notes)", number_format="0.0E+00")
@@ -342,13 +353,14 @@ def build(b) -> None:
                 "much higher than the mean air, and a day hotter or sunnier than the one entered. Defer to the "
                 "equipment manufacturer's temperature ratings, the enclosure maker's thermal data and the "
                 "applicable standards and licensed practice before relying on a result.", caution=True)
-    b.paragraph("Condensation: inner walls that fall below the dew point of the air inside wet the equipment. "
-                "The night minimum of the inner faces is shown for that check; the air's dew point depends on "
-                "how the cabinet was sealed and its drying means. Follow the enclosure maker's guidance.",
-                caution=True)
+    b.paragraph("Condensation and mould: inner walls that fall below the dew point of the air inside wet the "
+                "equipment. The check takes the dew point of the air as sealed in (its vapour content kept: no "
+                "leaks, no breathing through glands, no drying agent); a cabinet that breathes takes up the "
+                "outdoor moisture, and corners, fixings and cable glands run colder than the mean wall. Follow "
+                "the enclosure maker's guidance and the applicable standards.", caution=True)
 
 
 TEMPLATE = Template(NAME, 1, "Sealed outdoor cabinet through a day",
                     "Internal air and wall temperatures of a sealed outdoor cabinet through a clear day: "
                     "sun and ambient cycles, the cabinet's heat capacity, the peak against a steady result, the "
-                    "night minimum of the inner walls.", build)
+                    "night minimum of the inner walls against the dew point.", build)
