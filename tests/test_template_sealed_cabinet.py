@@ -21,14 +21,8 @@ def _inputs(evaluation):
 
 
 def engine_tables(v):
-    """The cabinet's branch and boundary rows and its air pressure, from the input values (the
-    vented cabinet's test builds on them)."""
-    branches, day, _ = _engine_tables(v)
-    return branches, day, stillair.altitude_pressure(v["altitude"])
-
-
-def _engine_tables(v):
-    """The cabinet's branch table and its day and night boundary tables, from the inputs."""
+    """The cabinet's branch and (day) boundary rows and its air pressure, from the input values
+    (the vented cabinet's test builds on them)."""
     side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
     top_area = v["cab_width"] * v["cab_depth"]
     branches = cabinet.branch_rows(
@@ -38,6 +32,12 @@ def _engine_tables(v):
     day = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
+    return branches, day, stillair.altitude_pressure(v["altitude"])
+
+
+def _engine_tables(v):
+    """The cabinet's branch table and its day and night boundary tables, from the inputs."""
+    branches, day, _ = engine_tables(v)
     night = cabinet.night_boundary_rows(dissipation=v["night_dissipation"], ambient=v["night_ambient_t"],
                                         sky=v["night_sky_t"])
     return branches, day, night

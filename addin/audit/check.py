@@ -16,6 +16,12 @@ unknown-function        a name that looks like ours (or is written as an add-in 
 cannot-evaluate         a construct the headless evaluator cannot calculate (named), or a cell
                         that depends on one
 out-of-range            a correlation was used outside its validity range (which bound)
+hand-formula            a formula typed by hand, recognised numerically (:mod:`.hand`), is wrong:
+                        a mistyped constant, a correlation outside its range, a typed property
+                        at the wrong temperature, beta or radiation in degC, a length, area or
+                        temperature difference that disagrees between the group and the flow
+iteration               iterative calculation is on and the stored values are not converged, or
+                        a loop of formulas is saved with iterative calculation off
 stale                   no cached value, or a cached error, or the template's old value after the
                         inputs changed, where the engine computes a value; the message says which
 version                 the workbook records a different STILLAIR_VERSION or template version
@@ -44,6 +50,7 @@ import time
 from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call
 from ..workbook.formulatext import _families, _registry  # the grammar's own look-ups
 from .drift import inputs_changed, pristine_template, template_drift
+from .hand import check_hand_book, hand_findings
 from .findings import (DEFAULT_ATOL, DEFAULT_RTOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, KINDS,
                        AuditError, AuditResult, CellRecord, Finding, Records, default_templates_dir,
                        differs, is_error_text, label, same_value, show)
@@ -106,6 +113,13 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
         _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine)
     if pristine is not None:
         template_drift(result, book, cells, pristine)
+    hand_started = time.perf_counter()
+    result.hand = check_hand_book(
+        path, book, exclude=seeds, model=model if evaluation is not None else None,
+        known={key: r.value for key, r in evaluation.results.items()
+               if r.status in ("value", "note")} if evaluation is not None else None)
+    findings.extend(hand_findings(result.hand, cells))
+    timing["hand"] = time.perf_counter() - hand_started
     order = {s.name: i for i, s in enumerate(book.sheets)}
 
     def position(f: Finding):
@@ -265,7 +279,8 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
         "audit", help="check a finished workbook's numbers against the engine",
         description="Recompute every formula that calls a stillair function (and every formula "
         "downstream of one) from the workbook's own inputs and compare with the values Excel "
-        "saved. BOOK is only read, never modified. Exit status: 0 all ok, 1 findings, "
+        "saved; recognise the formulas typed by hand (groups, correlations, radiation) and "
+        "check them. BOOK is only read, never modified. Exit status: 0 all ok, 1 findings, "
         "2 the file cannot be read.")
     _add_arguments(audit)
     return audit
