@@ -14,7 +14,7 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import assume, given, settings, strategies as st
 from scipy.integrate import cumulative_simpson, simpson
 from scipy.linalg import expm
 
@@ -401,6 +401,7 @@ def test_linear_networks_follow_the_matrix_exponential(data):
     b[0] += 10.0 / resistance[0]
     b[-1] += 30.0 / resistance[-1]
     steady = np.linalg.solve(laplacian, b)
+    assume(np.all(steady > -200.0))     # heat drawn out below absolute zero: no physical network
     c = np.flatnonzero(np.array(capacity) > 0)
     a = np.flatnonzero(np.array(capacity) == 0)
     reduced = laplacian[np.ix_(c, c)]
