@@ -22,7 +22,13 @@ cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillai
 (the insulation thickness for a surface temperature).
 """
 
-from .validity import *  # noqa: F401,F403
+# First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
+# line, not a traceback (only when this process is that command; see _console).
+from ._console import guard_command_start as _guard_command_start
+
+_guard_command_start()
+
+from .validity import *  # noqa: F401,F403,E402
 from .correlations import *  # noqa: F401,F403
 from .external import *  # noqa: F401,F403
 from .cavity import *  # noqa: F401,F403

@@ -272,3 +272,25 @@ def test_touch_limit_thickness_is_exact_and_within_the_table_step():
         named(evaluation, "res_first_ok_mm")
     # a bare surface within the limit needs none
     assert named(evaluate_template(NAME, touch_limit=200), "res_x_touch_mm") == 0.0
+
+
+def _unit_beside(evaluation, name):
+    """The unit cell beside a named result (the column after its value)."""
+    from openpyxl.utils.cell import column_index_from_string, get_column_letter
+
+    sheet, ref = next(n.text for n in evaluation.book.names if n.name == name).replace("$", "").split("!")
+    column = "".join(ch for ch in ref if ch.isalpha())
+    unit_ref = get_column_letter(column_index_from_string(column) + 1) + ref[len(column):]
+    return {**evaluation.book.sheet(sheet).values, **evaluation.values[sheet]}[unit_ref]
+
+
+@pytest.mark.parametrize("geometry", hot_surface.GEOMETRIES)
+def test_the_per_unit_loss_shows_the_unit_of_its_geometry(geometry):
+    """Per metre of pipe for the cylinder, per square metre for a face: never "W/m or W/m²"."""
+    evaluation = evaluate_template(NAME, geometry=geometry)
+    pipe = geometry == "horizontal cylinder"
+    assert _unit_beside(evaluation, "res_q_bare_unit") == ("W/m" if pipe else "W/m²")
+    assert _unit_beside(evaluation, "unit_size") == ("m" if pipe else "m²")
+    assert _unit_beside(evaluation, "res_q_dry_unit") == ("W/m" if pipe else "W/m²")
+    size = named(evaluation, "pipe_length") if pipe else named(evaluation, "face_height") * named(evaluation, "face_width")
+    assert named(evaluation, "res_q_bare_unit") == pytest.approx(named(evaluation, "res_q_bare") / size, rel=1e-12)

@@ -266,3 +266,16 @@ def test_condensation_verdicts(sets, verdict):
         assert named(evaluation, "res_heater_q") == 0.0      # the night load alone keeps the walls dry
     else:
         assert named(evaluation, "res_heater_q") > 0.0
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note (row 27, the sun on the sides, did) makes the sand input box twice
+    as tall, which reads as an empty second input cell under the value."""
+    import openpyxl
+
+    ws = openpyxl.load_workbook(cabinet.TEMPLATE.path)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == len(input_names(cabinet.TEMPLATE))
+    tall = [(r, ws.cell(r, 1).value) for r in inputs if (ws.row_dimensions[r].height or 13.5) > 13.5]
+    assert not tall

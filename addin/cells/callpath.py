@@ -71,7 +71,7 @@ def engine_callable(entry: CellFunction):
 def _coerce(entry: CellFunction, raw: tuple, arrays: bool = False) -> dict:
     """Keyword arguments for the engine; with ``arrays``, float arrays (already coerced
     element by element) pass through."""
-    kwargs = {}
+    kwargs: dict[str, object] = {}
     for arg, value in zip(entry.args, raw):
         default = arg.default if arg.optional else None
         if arrays and isinstance(value, np.ndarray) and value.dtype == float:

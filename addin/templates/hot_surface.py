@@ -19,6 +19,8 @@ from .book import limit_check
 from .spec import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
 
 NAME = "hot-surface"
+# The unit of a heat flow per unit size: per metre of pipe or per square metre of face, by geometry.
+PER_UNIT_LOSS = '=IF(kind="hcyl", "W/m", "W/m²")'
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
 STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
 
@@ -119,7 +121,7 @@ def build(b) -> None:
     b.step("bare_area", "Area of the bare surface",
            '=IF(kind="hcyl", PI()*pipe_od*pipe_length, face_height*face_width)', "m²")
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
-           '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
+           '=IF(kind="hcyl", pipe_length, bare_area)', '=IF(kind="hcyl", "m", "m²")', number_format="0.000")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
     b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
@@ -143,8 +145,8 @@ def build(b) -> None:
            f"={_thickness_formula('MAX(hot_t, t_dry_min)')}", "m", "0 when the bare surface is warm enough")
     b.step("q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face",
            "=IF(x_dry=0, -q_bare/unit_size, IF(kind=\"hcyl\", 2*PI()*ins_k*(t_dry_min-hot_t)/LN((pipe_od+2*x_dry)/"
-           "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", "W/m or W/m²",
-           "through the insulation; negative: a loss")
+           "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", PER_UNIT_LOSS,
+           "through the insulation; negative: a loss", number_format="0.0")
     b.step("x_touch", "Insulation keeping the outer surface at the touch limit",
            f"={_thickness_formula('MIN(hot_t, touch_limit)')}", "m", "0 when the bare surface is within the limit")
 
@@ -241,7 +243,7 @@ def build(b) -> None:
     b.result("res_h_rad_bare", "Radiation coefficient", "=h_rad_bare", "W/(m²·K)")
     b.result("res_q_bare", "Heat loss, bare", "=q_bare", "W")
     b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
-             "W/m or W/m²")
+             PER_UNIT_LOSS, number_format="0.0")
     b.result("res_bare_check", "Bare surface against the touch limit",
              '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Insulation against the touch limit")
@@ -272,7 +274,7 @@ def build(b) -> None:
     b.result("res_x_dry_mm", "Insulation thickness keeping the surface at dew point + margin", "=1000*x_dry", "mm",
              "0 when the bare surface is warm enough")
     b.result("res_q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face", "=q_dry_unit",
-             "W/m or W/m²", "negative: a loss (a hot surface)")
+             PER_UNIT_LOSS, "negative: a loss (a hot surface)", number_format="0.0")
     b.section("Results", "Validity")
     b.result("res_note_bare", "Bare-surface correlation", "=note_bare", text=True)
     b.result("res_net_check", "Insulated cases (network check)", "=hs_check", text=True)
@@ -345,7 +347,7 @@ def build(b) -> None:
                 "data, local codes and licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 4, "Hot or cold surface in still air",
+TEMPLATE = Template(NAME, 5, "Hot or cold surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit; for a cold surface "
                     "the insulation thickness that keeps it above the ambient dew point, with the heat gain.",

@@ -81,8 +81,8 @@ def cabinet_inputs(b, dissipation: float = 150.0) -> None:
     b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4",
             valid=Valid(0.0, 1.0, "an absorptance is a fraction of the incident sun, 0 to 1"))
     b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case", valid=SUN)
-    b.input("sun_sides", "Solar irradiance on the sides (mean over all four)", 120.0, "W/m²",
-            "0 for a shaded or night case", valid=SUN)
+    b.input("sun_sides", "Solar irradiance on the sides", 120.0, "W/m²",
+            "mean over all four; 0 when shaded or at night", valid=SUN)
 
 
 def surroundings_inputs(b) -> None:
@@ -90,7 +90,7 @@ def surroundings_inputs(b) -> None:
     b.section("Inputs", "Surroundings and limit")
     b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site", valid=OUTDOOR_AIR)
     b.input("sky_t", "Sky temperature (seen by the top)", 15.0, "°C",
-            "effective long-wave sky temperature, below the air temperature", valid=SKY_TEMPERATURE)
+            "long-wave sky, below the air temperature", valid=SKY_TEMPERATURE)
     b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)", valid=altitude())
     b.input("max_internal_t", "Maximum allowed internal air temperature", 55.0, "°C",
             "from the equipment maker's rating", valid=LIMIT_TEMPERATURE)
@@ -104,7 +104,7 @@ def night_inputs(b) -> None:
     b.input("night_ambient_t", "Night ambient air temperature", 8.0, "°C", "the coldest night the cabinet must "
             "ride through", valid=OUTDOOR_AIR)
     b.input("night_sky_t", "Night sky temperature (seen by the top)", -8.0, "°C",
-            "a clear night sky is often 15-25 K below the air (common practice)", valid=SKY_TEMPERATURE)
+            "clear night: 15-25 K below air (common practice)", valid=SKY_TEMPERATURE)
     b.input("night_dissipation", "Internal dissipation at night", 40.0, "W",
             "equipment idling; 0 if it may be switched off", valid=DISSIPATION)
     moisture_inputs(b)
@@ -118,7 +118,7 @@ def moisture_inputs(b) -> None:
             valid=Valid(0.0, 1.0, "a relative humidity is a fraction above 0 and at most 1 (60 % is 0.6)",
                         low_open=True))
     b.input("dew_margin", "Margin wanted above the dew point", 3.0, "K",
-            "a design choice: corners, fixings and cable glands run colder than the mean wall",
+            "design choice: corners and glands run colder",
             valid=Valid(0.0, 30.0, "a margin in kelvin from 0 to 30"))
 
 
@@ -439,7 +439,7 @@ def build(b) -> None:
                 "breathers, local practice and licensed advice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 4, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 5, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit; the "
                     "dissipation the limit allows, the cooling needed beyond it, and the night case "

@@ -191,7 +191,7 @@ def build(b) -> None:
                 "licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 1, "Ventilated outdoor cabinet",
+TEMPLATE = Template(NAME, 2, "Ventilated outdoor cabinet",
                     "Internal air temperature of an outdoor cabinet cooled by the stack airflow through a low and "
                     "a high opening, with walls, sun and radiation, against a limit, and the fan airflow needed "
                     "instead.", build)
