@@ -96,4 +96,5 @@ __all__ = [
     "HeatForTemperature",
     # insulation turned round: the thickness for an outer surface temperature
     "insulation_thickness",
+    "solve_transient", "TransientResult",
 ]

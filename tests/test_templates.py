@@ -18,8 +18,8 @@ TEMPLATES = all_templates()
 IDS = [t.name for t in TEMPLATES]
 
 
-def test_nine_templates_ship_with_their_files():
-    assert len(MODULES) == 9
+def test_ten_templates_ship_with_their_files():
+    assert len(MODULES) == 10
     for template in TEMPLATES:
         assert template.path.is_file(), f"{template.path} missing: run python -m stillair.addin.templates"
 

@@ -21,7 +21,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from .network import net_airflow, net_band, net_check, net_heat, net_heat_for, net_table, net_temp
+from .network import (net_airflow, net_band, net_check, net_heat, net_heat_for, net_peak, net_table, net_temp,
+                      net_transient)
 
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
@@ -633,6 +634,34 @@ _entries += [
                  "Insulation thickness in m at which the outer surface of an insulated pipe or face is at "
                  "t_surface (ISO 12241 surface-temperature and condensation criteria).",
                  CATEGORIES["insulation"], unit="m"),
+]
+
+# ---------------------------------------------------------------------------------------------
+# The network through time: one integration per distinct set of inputs (cached by the engine), so
+# a sheet of INDEX(NET_TRANSIENT(...)) and NET_PEAK cells integrates once.
+
+CAPACITIES = Arg("capacities", "Capacities table: node | C in J/K, one row per node that stores heat; a node "
+                 "without a row is quasi-steady (balanced at every instant).", kind="table")
+TIMES = Arg("times", "Output times in s: a column, a row or a block read row by row, increasing; the "
+            "solution starts at the first.", "s", kind="table")
+SERIES = Arg("series", "Series table: series | time s | value, for boundary rows whose value names a series "
+             "(linear between points, held outside them); blank for none.", kind="table", default=None)
+INITIAL = Arg("initial", 'Start in °C of every node with a capacity, a table node | °C, or "periodic" (the '
+              "times are one repeating cycle); blank: the steady network at the first time.",
+              kind="table", default=None)
+_TRANSIENT = (BRANCHES, BOUNDARIES, CAPACITIES, TIMES)
+_entries += [
+    CellFunction("NET_TRANSIENT", "solve_transient", _TRANSIENT + (SERIES, INITIAL, NET_GAS, P),
+                 "Solves the thermal network through time (capacities, boundaries from series); returns a "
+                 "table (spills): a header, then per output time the time in s and every node's °C.",
+                 CATEGORIES["network"], result="table", invoke=net_transient),
+    CellFunction("NET_PEAK", "solve_transient",
+                 _TRANSIENT + (Arg("node", "Name of the node whose extreme is wanted.", kind="text"),
+                               Arg("which", '"max" (blank) for the peak, "min" for the minimum.', kind="text",
+                                   default="max"), SERIES, INITIAL, NET_GAS, P),
+                 "Peak (or minimum) temperature of one node over the output times of the network through "
+                 "time: one row, °C and the time in s when it occurs.",
+                 CATEGORIES["network"], result="table", unit="°C", invoke=net_peak),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

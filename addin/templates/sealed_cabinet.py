@@ -116,6 +116,11 @@ def night_inputs(b) -> None:
     b.input("night_wind_speed", "Wind speed at night", 0.0, "m/s", "0: still air (see Notes)", valid=WIND)
     b.input("night_dissipation", "Internal dissipation at night", 40.0, "W",
             "equipment idling; 0 if it may be switched off", valid=DISSIPATION)
+    moisture_inputs(b)
+
+
+def moisture_inputs(b) -> None:
+    """The air sealed in and the margin wanted above its dew point (also the cabinet-day template's)."""
     b.input("seal_t", "Air temperature when the cabinet was sealed", 20.0, "°C", "on site or in the factory",
             valid=OUTDOOR_AIR)
     b.input("seal_rh", "Relative humidity when the cabinet was sealed", 0.4, "-", "a fraction: 40 % is 0.4",
@@ -230,6 +235,20 @@ def turned_round_steps(b, pair: str, fluid: str) -> str:
     return night
 
 
+CONDENSATION_FAILS = ("CONDENSATION", "MARGIN SHORT")
+
+
+def condensation_check(coldest: str) -> str:
+    """The verdict formula: the coldest inner wall (the name of its cell) against the dew point of
+    the air sealed in (t_dew_sealed), with the clearance (dew_clearance) and the margin wanted
+    (dew_margin) as named cells; the cabinet-day template reads it too."""
+    return (f'=IF(NOT(AND(ISNUMBER({coldest}), ISNUMBER(t_dew_sealed))), "CALC FAILED", '
+            'IF(dew_clearance<=0, "CONDENSATION: coldest inner wall "&TEXT(-dew_clearance, "0.0")&" K below the '
+            'dew point", IF(dew_clearance<dew_margin, "MARGIN SHORT: coldest inner wall "&TEXT(dew_clearance, '
+            '"0.0")&" K above the dew point, "&TEXT(dew_margin, "0.0")&" K wanted", "OK: coldest inner wall "'
+            '&TEXT(dew_clearance, "0.0")&" K above the dew point")))')
+
+
 def turned_round_results(b) -> None:
     """Allowed dissipation, cooling, and the night case's condensation check and heater."""
     b.section("Results", "Allowed dissipation and cooling")
@@ -243,13 +262,8 @@ def turned_round_results(b) -> None:
     b.result("res_t_dew", "Dew point of the air sealed in", "=t_dew_sealed", "°C",
              "frost point below 0 °C")
     b.result("res_dew_clearance", "Coldest inner wall above the dew point", "=dew_clearance", "K")
-    b.result("res_condensation", "Condensation check, night",
-             '=IF(NOT(AND(ISNUMBER(t_coldest_night), ISNUMBER(t_dew_sealed))), "CALC FAILED", '
-             'IF(dew_clearance<=0, "CONDENSATION: coldest inner wall "&TEXT(-dew_clearance, "0.0")&" K below the '
-             'dew point", IF(dew_clearance<dew_margin, "MARGIN SHORT: coldest inner wall "&TEXT(dew_clearance, '
-             '"0.0")&" K above the dew point, "&TEXT(dew_margin, "0.0")&" K wanted", "OK: coldest inner wall "'
-             '&TEXT(dew_clearance, "0.0")&" K above the dew point")))', text=True,
-             fails=("CONDENSATION", "MARGIN SHORT"))
+    b.result("res_condensation", "Condensation check, night", condensation_check("t_coldest_night"), text=True,
+             fails=CONDENSATION_FAILS)
     b.result("res_heater_q", "Heater power keeping the inner walls at dew point + margin", "=heater_q", "W",
              "in the internal air, beyond the night load")
     b.result("res_rh_air_night", "Relative humidity of the internal air at night", "=rh_air_night", "-")

@@ -80,6 +80,20 @@ class Network:
             details.append(detail)
         return Evaluation(q, d1, d2, dt, details)
 
+    def flows(self, t: np.ndarray) -> np.ndarray:
+        """Heat flows of every branch (W) at node temperatures ``t`` (°C), without derivatives:
+        what an integrator's right-hand side needs (the convection branches at their point only)."""
+        q = np.empty(len(self.branches))
+        t1, t2 = t[self.source], t[self.target]
+        dt = t1 - t2
+        for group in self.plain_groups:
+            i = group.index
+            q[i] = group.flows(t1[i], t2[i], dt[i])[0]
+        for batch in self.batches:
+            i = batch.index
+            q[i] = batch.point_flows(self, t1[i], t2[i], dt[i])
+        return q
+
     def film(self, gas, ta, tb) -> tuple:
         """(kinematic viscosity, Pr, conductivity, expansion, film temperature) at the film
         temperatures of the points (or at the one property temperature)."""
@@ -164,6 +178,20 @@ class _ConvectionBatch:
         self.length = np.concatenate([g.length_tiled for g in groups])
         self.length_cubed = self.length ** 3   # constant: not recomputed at every evaluation
         self.area = np.concatenate([g.area_tiled for g in groups])
+        # the branches alone (no difference points), group after group: point_flows
+        self.parts = [slice(s, s + len(g.index)) for s, g in zip(np.cumsum([0] + [len(g.index) for g in groups]), groups)]
+        self.point_length = np.concatenate([g.length for g in groups])
+        self.point_length_cubed = self.point_length ** 3
+        self.point_area = np.concatenate([g.area for g in groups])
+
+    def point_flows(self, net: Network, t1, t2, dt):
+        """The flows at the point alone (no derivatives), the branches in ``index`` order."""
+        kinvisc, prandtl, conductivity, expansion, _ = net.film(self.gas, t1, t2)
+        ra = STANDARD_GRAVITY * expansion * np.abs(dt) * self.point_length_cubed * prandtl / kinvisc ** 2
+        nu = np.empty(len(dt))
+        for group, part in zip(self.groups, self.parts):
+            nu[part] = group.nusselt(ra[part], prandtl[part], dt[part], tiled=False)[0].nu
+        return nu * conductivity / self.point_length * self.point_area * dt
 
     def flows(self, net: Network, t1, t2, dt):
         # a step large enough that a branch at zero difference shows its small-difference
