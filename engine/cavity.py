@@ -64,8 +64,10 @@ AUTO_RULE = (
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
     "carried to 5 deg off the horizontal), then the vertical correlations with the shared tilt "
     "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
-    "catton, macgregor-emery, wright; what is left goes to hollands below 75 deg and elsherbiny "
-    "from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
+    "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
+    "macgregor-emery, wright; what is left of a short layer (H/L < 2) stays with Catton's "
+    "short-layer form, the nearest valid correlation, and the rest goes to hollands below 75 deg "
+    "and elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
     "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
     "5 deg in tilt - so the value changes without a step and lies between the methods it "
     "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
@@ -236,10 +238,10 @@ def _catton_x(inputs):
 #: their own ranges, with Catton's aspect edge at 2 blended over a factor 1.25 centred on it
 #: (each band extrapolated by a factor 1.12) and MacGregor-Emery's laminar box handing over to
 #: the turbulent one inside both (Ra 2.5e6-1e7).
-CATTON_SHORT_WHEN = (Range("aspect", low=1.0), Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
+CATTON_SHORT_WHEN = (Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
                      Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x),
                      VERTICAL_TILT_COVERAGE)
-CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE / 1.25 ** 0.5, band=1.0), Range("aspect", high=10.0),
+CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"), Range("aspect", high=10.0),
                     Range("Pr", high=1e5), Range("Ra", 1e3, 1e10), VERTICAL_TILT_COVERAGE)
 MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("Pr", 1.0, 2e4),
                           Range("Ra", 1e4, _MACGREGOR_EDGE_RA), VERTICAL_TILT_COVERAGE)
@@ -260,6 +262,10 @@ CAVITY_AUTO = (
     AutoStep("macgregor-emery", when=MACGREGOR_LAMINAR_WHEN, form="laminar"),
     AutoStep("macgregor-emery", when=MACGREGOR_TURBULENT_WHEN, form="turbulent"),
     AutoStep("wright", when=WRIGHT_RANGES + (VERTICAL_TILT_COVERAGE,)),
+    # what is left of a short layer (aspect < 2: below Catton's Ra range, or Pr outside it)
+    # stays with Catton's short-layer form, the nearest valid correlation, rather than falling
+    # to ElSherbiny's (published from aspect 5)
+    AutoStep("catton", when=(Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),), form="short"),
     AutoStep("hollands", when=(Range("tilt", high=75.0),)),
     AutoStep("elsherbiny", when=()),
 )
