@@ -5,7 +5,6 @@ from __future__ import annotations
 import argparse
 import json
 import os
-import re
 import stat
 import sys
 import tempfile
@@ -45,7 +44,7 @@ def build_parser() -> argparse.ArgumentParser:
                       "a new file (an existing file is never replaced)")
     calc.add_argument("--json", action="store_true", help="print one JSON object")
 
-    from .audit import add_audit_parser
+    from .audit.check import add_audit_parser
     add_audit_parser(commands)
 
     functions = commands.add_parser("functions", help="list the cell functions")
@@ -83,35 +82,11 @@ def _parse_sets(items: list[str]) -> dict[str, str]:
     return sets
 
 
-def _format(value) -> str:
-    if isinstance(value, float):
-        return f"{value:.6g}"
-    if isinstance(value, list):
-        return "[" + "; ".join(", ".join(_format(v) for v in row) for row in value) + "]"
-    return "" if value is None else str(value)
-
-
-def _summary_cells(evaluation):
-    """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
-    from .headless import label
-    from .xlsx import split_ref
-
-    rows = []
-    for sheet in evaluation.book.sheets:
-        cells = evaluation.values.get(sheet.name, {})
-        if not cells:
-            continue
-        last_row = max(split_ref(ref)[0] for ref in cells)
-        for ref in sorted(cells, key=split_ref):
-            if split_ref(ref)[0] == last_row:
-                rows.append((label(sheet.name, ref), cells[ref]))
-    return rows
-
-
 def calc(args) -> int:
-    from .cachewriter import same_file
-    from .headless import evaluate_book
-    from .xlsx import BookError
+    from .workbook.cachewriter import same_file
+    from .workbook.model import evaluate_book
+    from .workbook.reader import BookError
+    from .workbook.report import evaluation_json, report_lines
 
     try:
         sets = _parse_sets(args.sets)
@@ -137,169 +112,12 @@ def calc(args) -> int:
 
     # Exit 1 when a cell is an error or cannot be evaluated (its note says why); range notes
     # alone leave the result usable.  The evaluator records each cell's status as data.
-    errors = [cell for cell, _ in evaluation.failed]
     if args.json:
-        print(json.dumps({
-            "values": evaluation.flat_values(),
-            "names": evaluation.names,
-            "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
-        }, ensure_ascii=False, indent=1))
-        return EXIT_FINDINGS if errors else 0
-
-    count = sum(len(c) for c in evaluation.values.values())
-    print(f"{args.book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
-          f"load {evaluation.load_seconds:.2f} s, calculate {evaluation.calc_seconds:.2f} s)")
-    named = [(name, value) for name, value in evaluation.names.items() if name != "stillair_template"]
-    results = _results_sheet_rows(evaluation)
-    if results:
-        print("Results:")
-        for line in render_results(results):
+        print(json.dumps(evaluation_json(evaluation), ensure_ascii=False, indent=1))
+    else:
+        for line in report_lines(evaluation, args.book, args.out):
             print(line)
-    elif named:
-        print("Named results:")
-        width = max(len(n) for n, _ in named)
-        for name, value in named:
-            print(f"  {name:<{width}}  {_format(value)}")
-    else:
-        print("Last computed cells:")
-        for label, value in _summary_cells(evaluation):
-            print(f"  {label}  {_format(value)}")
-    grouped = group_notes(evaluation.notes)
-    if grouped:
-        print(f"Notes ({len(grouped)}):")
-        for cells, message in grouped:
-            print(f"  {cells}: {message}" if cells else f"  {message}")
-    else:
-        print("Notes: none (every correlation used inside its validity range)")
-    if args.out:
-        print(f"Wrote {args.out}")
-    if errors:
-        print(f"{len(errors)} formula cell{'s' if len(errors) > 1 else ''} are errors or cannot be "
-              f"evaluated ({compress_cells(errors)}; see the notes): exit status 1")
-        return EXIT_FINDINGS
-    return 0
-
-
-
-def _split_label(label: str) -> tuple[str, str, int] | None:
-    from .xlsx import split_ref
-
-    sheet, sep, ref = label.rpartition("!")
-    try:
-        row, _ = split_ref(ref)
-    except ValueError:
-        return None
-    return (sheet, re.sub(r"\d", "", ref), row) if sep else None
-
-
-def compress_cells(labels: list[str]) -> str:
-    """"S!B3, S!B4, S!B5, S!D2" -> "S!B3:B5, S!D2": runs down one column become ranges."""
-    runs: list[list] = []  # [sheet, column, first row, last row] or [label]
-    for label in labels:
-        parts = _split_label(label)
-        last = runs[-1] if runs else None
-        if parts and last and len(last) == 4 and last[:2] == list(parts[:2]) and parts[2] == last[3] + 1:
-            last[3] = parts[2]
-        else:
-            runs.append([*parts[:2], parts[2], parts[2]] if parts else [label])
-    return ", ".join(f"{r[0]}!{r[1]}{r[2]}" + (f":{r[1]}{r[3]}" if r[3] != r[2] else "")
-                     if len(r) == 4 else r[0] for r in runs)
-
-
-def group_notes(notes) -> list[tuple[str, str]]:
-    """(cells, message) with each distinct message once, its cells listed (ranges compressed),
-    in the order the messages first occur."""
-    by_message: dict[str, list[str]] = {}
-    for cell, message in notes:
-        cells = by_message.setdefault(message, [])
-        if cell and cell not in cells:
-            cells.append(cell)
-    return [(compress_cells(cells), message) for message, cells in by_message.items()]
-
-
-def _results_sheet_rows(evaluation) -> list[list[tuple[object, bool]]]:
-    """The rows of a "Results" sheet below its title (row 3 on), each a list of
-    (value, is_formula) cells: the computed value for a formula cell, the cell's own value
-    otherwise; trailing blank cells dropped.  Read from the workbook calc has read already."""
-    if "Results" not in evaluation.values:
-        return []
-    from .xlsx import index_to_col
-
-    computed = evaluation.values["Results"]
-    sheet = evaluation.book.sheet("Results")
-    rows = []
-    for index in range(3, sheet.last_row + 1):
-        cells = []
-        for column in range(1, sheet.last_col + 1):
-            ref = f"{index_to_col(column)}{index}"
-            if ref in computed:
-                cells.append((computed[ref], True))
-            elif ref in sheet.formulas:
-                cells.append((None, True))  # a formula the evaluation did not reach
-            else:
-                cells.append((sheet.values.get(ref), False))
-        while cells and _blank(cells[-1][0]):
-            cells.pop()
-        rows.append(cells)
-    return rows
-
-
-def _blank(value) -> bool:
-    return value is None or (isinstance(value, str) and not value.strip())
-
-
-def _is_table_header(row, following) -> bool:
-    """A row of text captions only (two or more), with a computed row under it."""
-    captions = [v for v, formula in row if not _blank(v)]
-    return (len(captions) >= 2 and all(isinstance(v, str) and not f for v, f in row if not _blank(v))
-            and bool(following) and any(f for _, f in following))
-
-
-def render_results(rows) -> list[str]:
-    """The Results sheet as text: headings, label | value | unit | remark lines with the values
-    aligned, and tables (a caption row over computed rows) with every column aligned."""
-    lines: list[str] = []
-    labelled = [r for r in rows if len(r) >= 2 and not _blank(r[0][0])]
-    width = max((len(_format(r[0][0])) for r in labelled), default=0)
-    index = 0
-    while index < len(rows):
-        row = rows[index]
-        if not row:
-            index += 1
-            continue
-        following = rows[index + 1] if index + 1 < len(rows) else []
-        if _is_table_header(row, following):
-            table = [row]
-            index += 1
-            while index < len(rows) and len(rows[index]) >= 2:
-                table.append(rows[index])
-                index += 1
-            lines.extend(_render_table(table))
-            continue
-        if len(row) == 1:
-            lines.append(f"  {_format(row[0][0])}")
-        else:
-            label, (value, _), rest = _format(row[0][0]), row[1], row[2:]
-            shown = _format(value)
-            shown = f"{shown:>12}" if isinstance(value, (int, float)) and not isinstance(value, bool) \
-                else f"{shown:<12}"
-            extra = "  ".join(_format(v) for v, _ in rest if not _blank(v))
-            lines.append(f"    {label:<{width}}  {shown}  {extra}".rstrip())
-        index += 1
-    return lines
-
-
-def _render_table(table) -> list[str]:
-    cells = [[_format(v) for v, _ in row] for row in table]
-    numeric = [[isinstance(v, (int, float)) and not isinstance(v, bool) for v, _ in row] for row in table]
-    columns = max(len(r) for r in cells)
-    widths = [max((len(r[c]) for r in cells if c < len(r)), default=0) for c in range(columns)]
-    lines = []
-    for row, kinds in zip(cells, numeric):
-        parts = [text.rjust(widths[c]) if kinds[c] else text.ljust(widths[c])
-                 for c, text in enumerate(row)]
-        lines.append("    " + "  ".join(parts).rstrip())
-    return lines
+    return EXIT_FINDINGS if evaluation.failed else 0
 
 
 def _templates(args) -> int:
@@ -332,7 +150,7 @@ def _templates(args) -> int:
 def _require_regular_file(path: str) -> None:
     """Refuse at once anything that is not a regular file: reading a FIFO or a device would
     hang or never end."""
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     try:
         mode = os.stat(path).st_mode
@@ -351,7 +169,7 @@ def _require_regular_file(path: str) -> None:
 
 def _check_new_file(path: str, option: str) -> None:
     """A file name stillair may create: its folder exists, and nothing is there yet."""
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     if os.path.isdir(path):
         raise BookError(f"{path}: is a folder; {option} takes the name of a new file, "
@@ -374,8 +192,8 @@ def _default_permissions() -> int:
 def _write_copy(book, out: str, values) -> None:
     """Write the --out copy next to its target under a temporary name, give it the user's
     normal permissions, and link it into place only if nothing appeared there meanwhile."""
-    from .cachewriter import write_cached_values
-    from .xlsx import BookError
+    from .workbook.cachewriter import write_cached_values
+    from .workbook.reader import BookError
 
     folder = os.path.dirname(os.path.abspath(out))
     try:
@@ -404,7 +222,7 @@ def _write_copy(book, out: str, values) -> None:
 
 
 def _check_out_extension(book, out: str) -> None:
-    from .xlsx import BookError
+    from .workbook.reader import BookError
 
     has_vba = any(m.lower().endswith("vbaproject.bin") for m in book.members)
     if has_vba and not out.lower().endswith(".xlsm"):
@@ -428,12 +246,12 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "calc":
         return calc(args)
     if args.command == "functions":
-        from .reference import reference_markdown, reference_text
+        from .cells.reference import reference_markdown, reference_text
         sys.stdout.write(reference_markdown() if args.markdown else reference_text())
         return 0
     if args.command == "audit":
-        from .audit import run_audit
-        from .xlsx import BookError
+        from .audit.check import run_audit
+        from .workbook.reader import BookError
         try:
             _require_regular_file(args.book)
         except BookError as error:
@@ -445,7 +263,7 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "templates":
         return _templates(args)
     if args.command == "excel-setup":
-        from .excel_setup import run
+        from .excel.setup import run
         return run(dry_run=args.dry_run)
     if args.command == "libreoffice-setup":
         from .libreoffice.setup import run as libreoffice_setup

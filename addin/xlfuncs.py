@@ -1,78 +1,9 @@
-"""The xlwings UDF module: one Excel function per registry entry.
+"""The module xlwings imports for Excel (``UDF Modules: stillair.addin.xlfuncs``).
 
-Point xlwings at this module (``UDF Modules: stillair.addin.xlfuncs``, see ``stillair excel-setup``) and
-import the functions.  Nothing here is written per function: the functions, their signatures,
-docs and decorators are generated from :data:`stillair.addin.registry.REGISTRY`.
+Its name is what users' xlwings configuration and the README name, so it stays here; the
+functions are built by :mod:`stillair.addin.excel.udfs` from the cell registry.
 """
 
-from __future__ import annotations
-
-import inspect
-
-import xlwings as xw
-
-from .cells import evaluate
-from .registry import REGISTRY, CellFunction
-
-# Excel error values that reach Python as COM integer codes when they are passed directly (not
-# as a cell reference); xlwings' err_to_str covers the cell-reference case.  The codes are
-# Excel's CVErr values, as listed in xlwings._xlwindows.cell_errors.
-_EXCEL_ERROR_CODES = {
-    -2146826281: "#DIV/0!", -2146826246: "#N/A", -2146826259: "#NAME?", -2146826288: "#NULL!",
-    -2146826252: "#NUM!", -2146826265: "#REF!", -2146826273: "#VALUE!",
-}
-
-
-def _from_excel(value):
-    if isinstance(value, list):  # a range (ndim=2): its cells may hold error codes too
-        return [_from_excel(v) for v in value]
-    if type(value) is int and value in _EXCEL_ERROR_CODES:
-        return _EXCEL_ERROR_CODES[value]
-    return value
-
-
-def arg_doc(arg) -> str:
-    unit = f" [{arg.unit}]" if arg.unit and arg.unit not in arg.doc else ""
-    optional = " Optional." if arg.optional and "blank" not in arg.doc else ""
-    return f"{arg.doc}{unit}{optional}"
-
-
-def make_function(entry: CellFunction):
-    """A plain Python function NAME(arg1, arg2=None, ...) that evaluates ``entry``."""
-
-    def cell_function(*args):
-        return evaluate(entry, *(_from_excel(a) for a in args))
-
-    cell_function.__name__ = cell_function.__qualname__ = entry.name
-    cell_function.__doc__ = entry.description
-    cell_function.__module__ = __name__
-    cell_function.__signature__ = inspect.Signature([
-        inspect.Parameter(a.name, inspect.Parameter.POSITIONAL_OR_KEYWORD,
-                          default=None if a.optional else inspect.Parameter.empty)
-        for a in entry.args])
-    return cell_function
-
-
-def decorate(function, entry: CellFunction, func=xw.func, arg=xw.arg, ret=xw.ret):
-    """Apply the xlwings decorators (innermost first, as written above a def).
-
-    Numeric arguments of functions that broadcast arrive as 2-D lists (a single cell as
-    [[x]]), so a range keeps its shape; the result is then a 2-D list, which spills in
-    Excel 365 and fills an array-entered range in older Excel."""
-    for a in reversed(entry.args):
-        options = {"doc": arg_doc(a), "err_to_str": True}
-        if a.kind == "table" or (a.kind == "number" and entry.takes_arrays):
-            options["ndim"] = 2  # keeps a range's shape: a column stays a column
-        function = arg(a.name, **options)(function)
-    function = ret()(function)
-    return func(category=entry.category)(function)
-
-
-def build(namespace: dict, func=xw.func, arg=xw.arg, ret=xw.ret) -> list[str]:
-    """Put every registry function into ``namespace``; returns the names."""
-    for entry in REGISTRY:
-        namespace[entry.name] = decorate(make_function(entry), entry, func, arg, ret)
-    return [entry.name for entry in REGISTRY]
-
+from .excel.udfs import build
 
 __all__ = build(globals())

@@ -19,7 +19,7 @@ import math
 from dataclasses import dataclass
 from typing import Any, Callable
 
-from scipy.constants import zero_Celsius
+from .constants import ZERO_CELSIUS as zero_Celsius
 
 import numpy as np
 

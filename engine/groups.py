@@ -13,7 +13,7 @@ negative Rayleigh number.
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY, zero_Celsius
+from .constants import STANDARD_GRAVITY, ZERO_CELSIUS as zero_Celsius
 
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray

@@ -16,7 +16,7 @@ T1 -> T2.  Source: Incropera et al., Fundamentals of Heat and Mass Transfer, 6th
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
+from .constants import STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS as zero_Celsius
 
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray

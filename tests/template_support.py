@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import functools
 
-from stillair.addin.headless import evaluate_book
+from stillair.addin.workbook.model import evaluate_book
 from stillair.addin.templates import template_by_name
 
 

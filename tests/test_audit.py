@@ -19,8 +19,8 @@ import openpyxl
 import pytest
 import xlsxwriter
 
-import stillair.addin.audit as audit
-from stillair.addin.audit import audit_book, calls_in, main, normalise_formula, recognise_call
+import stillair.addin.audit.check as audit
+from stillair.addin.audit.check import audit_book, calls_in, main, normalise_formula, recognise_call
 
 RA, PR = 1e8, 0.71
 NU_PLATE = ht.Nu_vertical_plate_Churchill(PR, RA / PR)             # Gr = Ra / Pr
@@ -129,7 +129,7 @@ def test_worst_first_and_summary(planted_result):
 def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     """Graph only (no evaluation): whole columns and rows, a sheet-scoped name and a name that
     refers to another name all carry the dependency on a stillair cell downstream."""
-    from stillair.addin.xlsx import read_book
+    from stillair.addin.workbook.reader import read_book
     path = tmp_path / "graph.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     _inputs(wb)
@@ -146,7 +146,7 @@ def test_dependency_graph_follows_columns_rows_names_and_sheets(tmp_path):
     wb.define_name("'My calc'!local_nu", "='My calc'!$B$1")
     wb.define_name("twice", "=2*'My calc'!$C$3")
     wb.close()
-    from stillair.addin.headless import Model
+    from stillair.addin.workbook.model import Model
     model = Model(read_book(str(path)))
     seeds = {k for k, node in model.nodes.items() if k[0] != "#name" and calls_in(node.text)}
     assert sorted(model.downstream(seeds)) == sorted(
@@ -437,7 +437,7 @@ def test_calc_and_audit_share_one_prefix_grammar(tmp_path):
     for token in ("tools.xlsm!H_RAD(", "book.xlsm!H_RAD(", "ORG.STILLAIR.H_RAD("):
         assert recognise_call(token).ours
     assert audit_book(str(path)).ok == ["Calc!A1", "Calc!A2"]
-    from stillair.addin.headless import evaluate_book
+    from stillair.addin.workbook.model import evaluate_book
     assert evaluate_book(str(path)).values["Calc"] == pytest.approx(
         {"A1": NU_PLATE, "A2": NU_PLATE}, rel=1e-6)
 
@@ -465,7 +465,7 @@ def test_cannot_evaluate_is_a_finding_of_its_own_and_the_rest_is_checked(tmp_pat
 def test_audit_evaluates_only_what_it_needs(tmp_path, monkeypatch):
     """A formula that has nothing to do with our cells is neither calculated nor reported, and
     the package is opened and checked once."""
-    from stillair.addin import safezip
+    from stillair.addin.workbook import safezip
     path = tmp_path / "unrelated.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     _inputs(wb)
@@ -496,7 +496,7 @@ def test_template_drift_compares_meaning(tmp_path, templates):
 def test_quick_filter_lets_every_form_of_our_calls_through():
     """The audit tokenises only formulas that pass a quick text test; every registry name in
     any case and every add-in form must pass it (calls_in then decides)."""
-    from stillair.addin.registry import BY_NAME
+    from stillair.addin.cells.registry import BY_NAME
     maybe = audit._maybe_ours()
     for name in BY_NAME:
         for prefix in PREFIXES + ["tools.xlsm!", "ORG.STILLAIR."]:

@@ -11,7 +11,7 @@ import xlsxwriter
 
 import stillair
 from stillair.addin.cli import main
-from stillair.addin.reference import reference_markdown
+from stillair.addin.cells.reference import reference_markdown
 
 
 @pytest.fixture(scope="module")
@@ -105,7 +105,7 @@ def test_functions_reference(capsys):
 
 
 def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, capsys, monkeypatch):
-    from stillair.addin import excel_setup
+    from stillair.addin.excel import setup as excel_setup
     home = tmp_path / "home"
     conf = home / ".xlwings" / "xlwings.conf"
     conf.parent.mkdir(parents=True)
@@ -129,7 +129,7 @@ def test_excel_setup_dry_run_writes_nothing_and_keeps_user_settings(tmp_path, ca
 
 
 def test_a_formula_that_cannot_be_evaluated_is_a_note_and_exit_1(tmp_path, capsys, monkeypatch):
-    from stillair.addin import safezip
+    from stillair.addin.workbook import safezip
     path = tmp_path / "indirect.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("Gap")
@@ -163,7 +163,8 @@ def test_a_formula_that_cannot_be_evaluated_is_a_note_and_exit_1(tmp_path, capsy
 def test_work_beyond_the_limit_is_refused_before_calculating(tmp_path, capsys, monkeypatch):
     """Running totals over whole columns: each formula reads the used range, so the cells read
     grow with the square of the rows; above the limit both commands refuse with the count."""
-    from stillair.addin import audit, headless
+    from stillair.addin.audit import check as audit
+    from stillair.addin.workbook import model as headless
     path = tmp_path / "totals.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("T")

@@ -16,8 +16,8 @@ import schedula as sh
 from scipy.constants import sigma as STEFAN_BOLTZMANN  # CODATA value via scipy
 
 import stillair
-from stillair.addin.cells import NoteRecorder, call, engine_callable
-from stillair.addin.registry import BY_NAME, REGISTRY
+from stillair.addin.cells.callpath import NoteRecorder, call, engine_callable
+from stillair.addin.cells.registry import BY_NAME, REGISTRY
 
 PROPERTY_NAMES = [e.name for e in REGISTRY if e.name.startswith(("AIR_", "GAS_"))]
 
@@ -357,7 +357,7 @@ def test_network_cells_solve_the_series_wall_exactly():
 
 def test_net_solve_returns_a_padded_table():
     needs_engine("NET_SOLVE")
-    from stillair.addin.network import RESULT_HEADER
+    from stillair.addin.cells.network import RESULT_HEADER
     table = call("NET_SOLVE", BRANCHES, BOUNDARIES)
     result = stillair.solve_network([r for r in BRANCHES[:2]], BOUNDARIES[:2])
     assert table[0] == RESULT_HEADER

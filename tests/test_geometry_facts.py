@@ -6,7 +6,7 @@ import re
 
 import pytest
 
-from stillair.addin.registry import REGISTRY
+from stillair.addin.cells.registry import REGISTRY
 from stillair.correlations import CORRELATIONS, GEOMETRIES
 
 METHOD_CELLS = [(entry, entry.engine.split("_", 1)[1]) for entry in REGISTRY

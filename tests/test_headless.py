@@ -11,11 +11,11 @@ import openpyxl
 import pytest
 import xlsxwriter
 
-from stillair.addin.cells import engine_callable
-from stillair.addin.formulatext import prepare
-from stillair.addin.headless import evaluate_book
-from stillair.addin.registry import BY_NAME
-from stillair.addin.xlsx import index_to_col
+from stillair.addin.cells.callpath import engine_callable
+from stillair.addin.workbook.rewrite import prepare
+from stillair.addin.workbook.model import evaluate_book
+from stillair.addin.cells.registry import BY_NAME
+from stillair.addin.workbook.reader import index_to_col
 from test_cells import BOUNDARIES, BRANCHES, SAMPLES, direct
 
 RTOL = 1e-12
@@ -166,7 +166,7 @@ _VALUE_PARTS = re.compile(rb'<v>[^<]*</v>|\st="[^"]*"')
 
 
 def test_out_copy_changes_only_cached_values(evaluation, book, tmp_path):
-    from stillair.addin.cachewriter import write_cached_values
+    from stillair.addin.workbook.cachewriter import write_cached_values
     path, _, _ = book
     out = tmp_path / "copy.xlsx"
     write_cached_values(evaluation.book, str(out), evaluation.values)
@@ -222,7 +222,7 @@ def array_evaluation(tmp_path_factory):
 
 
 def test_array_formulas_give_the_scalar_values_elementwise(array_evaluation):
-    from stillair.addin.cells import call
+    from stillair.addin.cells.callpath import call
     temperatures, evaluation = array_evaluation
     cells = evaluation.values["Arrays"]
     for row, t in enumerate(temperatures, start=2):
@@ -237,9 +237,9 @@ def test_array_formulas_give_the_scalar_values_elementwise(array_evaluation):
 # ---------------------------------------------------------------------------------------------
 # Real workbooks: one odd formula spoils only its own cells; constructs rewritten before loading
 
-from stillair.addin.cells import call  # noqa: E402
-from stillair.addin.headless import Model  # noqa: E402
-from stillair.addin.xlsx import BookError, read_book  # noqa: E402
+from stillair.addin.cells.callpath import call  # noqa: E402
+from stillair.addin.workbook.model import Model  # noqa: E402
+from stillair.addin.workbook.reader import BookError, read_book  # noqa: E402
 
 # Each formula that the evaluator cannot calculate, and the construct its note must name.
 ODD = {
@@ -388,7 +388,7 @@ def test_status_is_data_not_the_shape_of_a_text(tmp_path):
 
 
 def test_limits_are_checked_before_the_work(tmp_path, monkeypatch, odd_book):
-    from stillair.addin import xlsx
+    from stillair.addin.workbook import reader as xlsx
     monkeypatch.setattr(xlsx.Limits, "max_cells", 10)
     with pytest.raises(BookError, match=r"refused: more than 10 cells; calc and the audit take "
                                         r"workbooks up to that size"):
@@ -412,7 +412,7 @@ def test_one_model_calculates_many_times_and_only_what_is_asked(odd_book):
 def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
     """A row copied down is prepared once; every copy still reads its own row, and the result
     equals preparing each formula on its own."""
-    from stillair.addin import headless
+    from stillair.addin.workbook import model as headless
     path = tmp_path / "rows.xlsx"
     wb = xlsxwriter.Workbook(str(path))
     ws = wb.add_worksheet("Rows")
@@ -446,7 +446,7 @@ def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_pa
     ws.write_formula("B1", "=STDEV.P(A1:A8)+MAX(A1:A8)")
     ws.write_formula("B2", "=STDEVP(A1:A8)")                  # a compatibility name
     wb.close()
-    probe = ("import sys, json; from stillair.addin.headless import evaluate_book; "
+    probe = ("import sys, json; from stillair.addin.workbook.model import evaluate_book; "
              f"e = evaluate_book({str(path)!r}); "
              "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__]))")
     done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)

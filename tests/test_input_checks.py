@@ -7,7 +7,7 @@ import math
 import pytest
 
 import stillair
-from stillair.addin.cells import call
+from stillair.addin.cells.callpath import call
 
 
 @pytest.mark.parametrize("cell, expected", [

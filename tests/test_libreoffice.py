@@ -19,7 +19,7 @@ from pathlib import Path
 import pytest
 import xlsxwriter
 
-from stillair.addin.cells import call
+from stillair.addin.cells.callpath import call
 from stillair.addin.cli import main
 from stillair.addin.libreoffice.setup import libreoffice_environment
 
@@ -128,7 +128,7 @@ def templates_in_libreoffice(installation, tmp_path_factory):
 
 @pytest.mark.parametrize("template", TEMPLATES, ids=[t.stem for t in TEMPLATES])
 def test_template_recalculated_in_libreoffice_matches_calc(template, templates_in_libreoffice):
-    from stillair.addin.headless import evaluate_book
+    from stillair.addin.workbook.model import evaluate_book
 
     calc = evaluate_book(str(template)).values
     lo = templates_in_libreoffice[template.name]["sheets"]
@@ -335,8 +335,8 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
 
 def test_function_wizard_lists_every_registry_function(installation, tmp_path):
     from stillair.addin.libreoffice.build import WIZARD_CATEGORY
-    from stillair.addin.registry import REGISTRY
-    from stillair.addin.xlfuncs import arg_doc
+    from stillair.addin.cells.registry import REGISTRY
+    from stillair.addin.cells.registry import arg_doc
 
     listed = run_session(installation, [{"functions": [f.name for f in REGISTRY]}], tmp_path)[0]["functions"]
     assert sorted(listed) == sorted(f.name for f in REGISTRY)

@@ -14,11 +14,11 @@ from pathlib import Path
 
 import pytest
 
-from stillair.addin.audit import audit_book, normalise_formula
-from stillair.addin.cells import call
+from stillair.addin.audit.check import audit_book, normalise_formula
+from stillair.addin.cells.callpath import call
 from stillair.addin.cli import main
-from stillair.addin.headless import evaluate_book
-from stillair.addin.xlsx import read_book
+from stillair.addin.workbook.model import evaluate_book
+from stillair.addin.workbook.reader import read_book
 
 DATA = Path(__file__).resolve().parent / "data" / "libreoffice"
 MANIFEST = json.loads((DATA / "manifest.json").read_text())

@@ -10,8 +10,8 @@ import pytest
 from stillair.addin.cli import main
 from stillair.addin.libreoffice import setup
 from stillair.addin.libreoffice.build import function_spec, idl_source, python_paths
-from stillair.addin.registry import REGISTRY
-from stillair.addin.xlfuncs import arg_doc
+from stillair.addin.cells.registry import REGISTRY
+from stillair.addin.cells.registry import arg_doc
 
 
 def test_oxt_never_overwrites_an_existing_file(tmp_path, capsys):

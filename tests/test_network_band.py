@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 
 import stillair
-from stillair.addin.cells import call
+from stillair.addin.cells.callpath import call
 from stillair.network import solve_network
 
 # A sealed enclosure (demo data): a 25 W board, inside air, walls and a lid to a 22 °C room.

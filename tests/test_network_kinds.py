@@ -75,7 +75,7 @@ def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
                                   "p3": "area m²", "p4": "", "p5": "", "q": "k A (T1 - T2) / L",
                                   "from": "either way round (q > 0 from from to to)"}
     assert rows["vcyl"]["from"] == "from: the solid surface; to: the still fluid"
-    from stillair.addin.reference import network_markdown
+    from stillair.addin.cells.reference import network_markdown
     assert ("| `vcyl` | q = h(T1, T2) A (T1 - T2), h = Nu k / height; from: the solid surface; to: the "
             "still fluid | height m (cylinder height) | diameter m | area m² |  |  |") in network_markdown()
 

@@ -10,7 +10,7 @@ import re
 import pytest
 
 import stillair
-from stillair.addin.registry import REGISTRY
+from stillair.addin.cells.registry import REGISTRY
 
 # The engine modules whose functions stillair.__all__ exports: every one of those functions
 # carries type hints and a full numpydoc docstring.  (The contributor mechanisms in a module's

@@ -10,8 +10,8 @@ from pathlib import Path
 
 import pytest
 
-from stillair.addin.registry import REGISTRY, Arg
-from stillair.addin.reference import reference_markdown
+from stillair.addin.cells.registry import REGISTRY, Arg
+from stillair.addin.cells.reference import reference_markdown
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -109,7 +109,7 @@ def test_no_excel_builtin_is_shadowed():
 
 @pytest.mark.parametrize("entry", REGISTRY, ids=lambda e: e.name)
 def test_texts_fit_the_function_wizard(entry):
-    from stillair.addin.xlfuncs import arg_doc
+    from stillair.addin.cells.registry import arg_doc
     assert 0 < len(entry.description) <= 255
     assert entry.category and len(entry.category) <= 255
     for arg in entry.args:
@@ -129,7 +129,7 @@ def test_shared_arguments_are_defined_once():
 
 
 def test_every_network_branch_kind_is_explained():
-    from stillair.addin.reference import network_markdown, network_text
+    from stillair.addin.cells.reference import network_markdown, network_text
     from stillair.network import BRANCH_KINDS
     for name, kind in BRANCH_KINDS.items():
         assert f"| `{name}` | q = " in network_markdown()
@@ -173,7 +173,7 @@ def xlwings_udfs(monkeypatch):
 def test_xlwings_generates_vba_for_every_function(xlwings_udfs):
     import io
 
-    from stillair.addin import xlfuncs
+    from stillair.addin.excel import udfs as xlfuncs
 
     namespace = {}
     xlfuncs.build(namespace, func=xlwings_udfs.xlfunc, arg=xlwings_udfs.xlarg, ret=xlwings_udfs.xlret)
@@ -207,3 +207,67 @@ def test_arg_kinds_and_defaults_are_consistent():
                 assert not arg.optional
             if arg.optional and arg.kind == "number":
                 assert arg.default is None or isinstance(arg.default, float)
+
+
+@pytest.fixture
+def throwaway_vplate_method():
+    """A correlation registered with the engine's own decorator for the test only, removed after.
+    The registry is a dict keyed by (geometry, method); methods_for's cached lists are renewed by
+    the next registration, so a second throw-away is registered and removed at the end."""
+    from stillair.correlations import CORRELATIONS, correlation, methods_for
+
+    def register(method):
+        correlation(geometry="vplate", method=method, title="test only", source="none (a test)",
+                    equation="Nu = 1")(lambda ra, pr: 1.0 + 0.0 * ra)
+
+    method = "throwawaytest"
+    register(method)
+    yield method
+    del CORRELATIONS[("vplate", method)]
+    register("throwawayrenewal")
+    del CORRELATIONS[("vplate", "throwawayrenewal")]
+    assert method not in methods_for("vplate")
+
+
+def test_a_method_registered_in_the_engine_is_named_in_every_cell_help(throwaway_vplate_method, xlwings_udfs,
+                                                                       capsys):
+    """The method lists of the cell help are read from the engine's registry, never retyped:
+    a new correlation appears in the cell help, the Excel function wizard's text, the
+    LibreOffice function description and `stillair functions` without editing the cell layer."""
+    from stillair.addin.cells.registry import BY_NAME, arg_doc
+    from stillair.addin.cli import main
+    from stillair.addin.excel import udfs
+    from stillair.addin.libreoffice.build import function_spec
+
+    method = throwaway_vplate_method
+    for name in ("NU_VPLATE", "H_VPLATE"):
+        entry = BY_NAME[name]
+        (arg,) = [a for a in entry.args if a.name == "method"]
+        assert method in arg.doc and len(arg_doc(arg)) <= 255
+        namespace = {}
+        udfs.build(namespace, func=xlwings_udfs.xlfunc, arg=xlwings_udfs.xlarg, ret=xlwings_udfs.xlret)
+        assert any(method in a["doc"] for a in namespace[name].__xlfunc__["args"])
+        (spec,) = [f for f in function_spec(paths={})["functions"] if f["name"] == name]
+        assert any(method in a["doc"] for a in spec["args"])
+    for argv in (["functions"], ["functions", "--markdown"]):
+        assert main(argv) == 0
+        assert method in capsys.readouterr().out
+    assert method not in BY_NAME["NU_HCYL"].args[-1].doc       # only the geometry's own list
+
+
+def test_no_user_visible_text_names_internal_modules(capsys):
+    """Users see `stillair` functions and commands, never the source folders' module names."""
+    from stillair.addin.cli import main
+
+    internal = re.compile(r"\b(engine|addin)\.")
+    texts = []
+    for entry in REGISTRY:
+        texts += [entry.description, entry.category] + [a.doc for a in entry.args]
+    for argv in (["functions"], ["functions", "--markdown"]):
+        main(argv)
+        texts.append(capsys.readouterr().out)
+    for command in ("", "calc", "audit", "templates", "functions", "excel-setup", "libreoffice-setup"):
+        with pytest.raises(SystemExit):
+            main([command, "--help"] if command else ["--help"])
+        texts.append(capsys.readouterr().out)
+    assert [t for t in texts if internal.search(t)] == []

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 import stillair
-from stillair.addin.cells import call
+from stillair.addin.cells.callpath import call
 from stillair.correlations import methods_for
 
 

@@ -11,7 +11,7 @@ import pytest
 from scipy.constants import Stefan_Boltzmann, g as GRAVITY, zero_Celsius
 
 import stillair
-from stillair.addin.templatebook import FAILED
+from stillair.addin.templates.spec import FAILED
 from stillair.addin.templates import hot_surface
 from template_support import assert_direction, evaluate_template, input_names, named
 

@@ -17,8 +17,9 @@ import openpyxl
 import pytest
 from openpyxl.utils import range_boundaries
 
-from stillair.addin.templatebook import (FAILED, GRIDS, MIN_PRINT_SCALE, PAGE, ROW_HEIGHT, SIGNOFF_FIELDS, SIG3,
-                                         UNIT_FORMATS, render_pdf)
+from stillair.addin.templates.pages import GRIDS, MIN_PRINT_SCALE, PAGE, ROW_HEIGHT
+from stillair.addin.templates.render import render_pdf
+from stillair.addin.templates.spec import FAILED, SIGNOFF_FIELDS, SIG3, UNIT_FORMATS
 from stillair.addin.templates import all_templates
 
 TEMPLATES = all_templates()
@@ -128,7 +129,8 @@ def test_inputs_are_unlocked_and_formulas_protected_without_a_password(template)
 
 
 def test_numeric_inputs_without_a_range_are_refused_by_the_builder(tmp_path):
-    from stillair.addin.templatebook import Template, TemplateBuildError, build_template
+    from stillair.addin.templates.build import build_template
+    from stillair.addin.templates.spec import Template, TemplateBuildError
 
     def build(b):
         b.input("gap", "Gap", 0.01, "m")

@@ -7,7 +7,9 @@ import zipfile
 import openpyxl
 import pytest
 
-from stillair.addin.templatebook import MARKER_NAME, build_template, is_error_value
+from stillair.addin.templates.build import build_template, is_error_value
+
+from stillair.addin.templates.spec import MARKER_NAME
 from stillair.addin.templates import MODULES, all_templates, copy_templates
 from template_support import evaluate_template
 

@@ -16,10 +16,10 @@ import zipfile
 import pytest
 import xlsxwriter
 
-from stillair.addin import safezip
-from stillair.addin.audit import audit_book, main
-from stillair.addin.headless import evaluate_book
-from stillair.addin.safezip import Limits, UnsafeWorkbook, check_archive, open_package
+from stillair.addin.workbook import safezip
+from stillair.addin.audit.check import audit_book, main
+from stillair.addin.workbook.model import evaluate_book
+from stillair.addin.workbook.safezip import Limits, UnsafeWorkbook, check_archive, open_package
 
 # The classic entity-expansion document ("billion laughs"): ten levels of ten references.
 LAUGHS = (b'<?xml version="1.0"?>\n<!DOCTYPE lolz [<!ENTITY lol "lol">'

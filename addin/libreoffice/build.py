@@ -1,6 +1,6 @@
 """Building the LibreOffice extension (.oxt) from the cell-function registry.
 
-Everything in the extension is generated here from :data:`stillair.addin.registry.REGISTRY` at
+Everything in the extension is generated here from :data:`stillair.addin.cells.registry.REGISTRY` at
 build time, except the component (``stillair_calc.py``, shipped as it is):
 
 * ``stillair.idl`` -> ``stillair.rdb``: one UNO interface with one method per cell function
@@ -27,7 +27,7 @@ from importlib import resources
 from pathlib import Path
 from xml.sax.saxutils import escape
 
-from ..registry import REGISTRY, CellFunction
+from ..cells.registry import REGISTRY, CellFunction, arg_doc  # the words Excel's wizard shows
 
 __all__ = ["IDENTIFIER", "IMPLEMENTATION", "INTERFACE", "ToolMissing",
            "returns_array", "idl_source", "function_spec", "python_paths", "find_program_dir", "find_unoidl_write",
@@ -84,11 +84,6 @@ def idl_source() -> str:
     return "\n".join(lines) + "\n"
 
 
-def _arg_doc(arg) -> str:
-    from ..xlfuncs import arg_doc  # the same argument text Excel's function wizard shows
-    return arg_doc(arg)
-
-
 def function_spec(paths: dict | None = None) -> dict:
     """The data the component reads: the Function Wizard's texts and where stillair lives."""
     import stillair
@@ -101,7 +96,7 @@ def function_spec(paths: dict | None = None) -> dict:
             "description": f"[{entry.category}] {entry.description}",
             "result": entry.result,
             "array_result": returns_array(entry),
-            "args": [{"name": a.name, "doc": _arg_doc(a), "optional": a.optional, "kind": a.kind}
+            "args": [{"name": a.name, "doc": arg_doc(a), "optional": a.optional, "kind": a.kind}
                      for a in entry.args],
         })
     return {"implementation": IMPLEMENTATION, "rebind_implementation": REBIND_IMPLEMENTATION,

@@ -36,7 +36,7 @@ for directory in reversed(setup["paths"]):
 for directory in setup["site_dirs"]:
     site.addsitedir(directory)
 import uno  # noqa: F401  (LibreOffice's Python bridge must be there)
-from stillair.addin.cells import call
+from stillair.addin.cells.callpath import call
 import stillair
 print("%d.%d.%d" % sys.version_info[:3], stillair.__version__, stillair.__file__, call("AIR_DENSITY", 20.0))
 """
@@ -187,7 +187,7 @@ def verify(program_dir: Path, options: list[str], profile: str | None, out) -> b
                        env=libreoffice_environment())
         result = Path(directory) / "check.csv"
         rows = list(csv.reader(result.open(encoding="utf-8", errors="replace"))) if result.exists() else []
-    from ..cells import call
+    from ..cells.callpath import call
 
     expected = call("AIR_DENSITY", 20.0)
     try:

@@ -5,7 +5,7 @@ LibreOffice's Python loader runs it, never the stillair package itself.  Everyth
 the functions comes from ``stillair_functions.json``, written into the same extension from the
 cell-function registry when the extension is built: the names, argument names and descriptions
 shown in the Function Wizard, and the Python paths of the environment that ran the set-up.  The
-computation goes through stillair's one call path (``stillair.addin.cells.evaluate``), so a cell
+computation goes through stillair's one call path (``stillair.addin.cells.callpath.evaluate``), so a cell
 shows the same value or the same short message as in Excel.
 """
 
@@ -60,8 +60,8 @@ def _load_stillair():
                            "stillair libreoffice-setup again" % setup["executable"])
         return
     try:
-        from stillair.addin.cells import evaluate
-        from stillair.addin.registry import BY_NAME
+        from stillair.addin.cells.callpath import evaluate
+        from stillair.addin.cells.registry import BY_NAME
     except Exception as error:  # shown in every cell instead of #NAME? with no reason
         _state["error"] = ("stillair: cannot import stillair from %s (%s: %s); run stillair "
                            "libreoffice-setup again" % (setup["executable"], type(error).__name__, error))

@@ -1,6 +1,6 @@
 """The shipped calculation templates, and listing, copying and rebuilding them.
 
-Each module here defines ``TEMPLATE`` (an :class:`stillair.addin.templatebook.Template`) whose ``build``
+Each module here defines ``TEMPLATE`` (an :class:`stillair.addin.templates.spec.Template`) whose ``build``
 function describes the workbook.  ``python -m stillair.addin.templates`` rebuilds every committed file in
 templates/ from this code; a test rebuilds them and compares formulas and values, so the files
 and the code cannot drift apart.
@@ -12,7 +12,7 @@ import shutil
 from importlib import import_module
 from pathlib import Path
 
-from ..templatebook import Template
+from .spec import Template
 
 __all__ = ["MODULES", "all_templates", "template_by_name", "copy_templates"]
 

@@ -6,12 +6,12 @@ writes the first page of its Results sheet as DIR/NAME-results.png (the README's
 import sys
 
 from . import all_templates
-from ..templatebook import build_template
+from .build import build_template
 
 
 def main(names: list[str]) -> int:
     if names[:1] == ["--pictures"]:
-        from ..templatebook import render_pictures
+        from .render import render_pictures
 
         if len(names) != 2:
             print("usage: python -m stillair.addin.templates --pictures DIR", file=sys.stderr)

@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import stillair
 
-from ..templatebook import (FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, TemplateBook, Valid,
-                            gas_pressure)
+from .book import TemplateBook
+from .spec import FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
 TILT = {"up": 0.0, "horizontal": 90.0, "down": 180.0}

@@ -11,8 +11,9 @@ with CHANNEL_SPACING's thin-plate optimum beside it.
 
 from __future__ import annotations
 
-from ..templatebook import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
-                            altitude, gas_temperature, limit_check)
+from .book import limit_check
+from .spec import (EMISSIVITY, FAILED, INK, LIMIT_TEMPERATURE, SAND_EDGE, SIG3, SIGMA_TEXT, Template, Valid,
+                   altitude, gas_temperature)
 
 NAME = "finned-heatsink"
 SWEEP_ROWS = 20

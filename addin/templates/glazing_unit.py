@@ -17,8 +17,9 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
-                            SLATE, Template, TemplateBook, Valid, gas_pressure)
+from .book import TemplateBook
+from .spec import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
+                   SLATE, Template, Valid, gas_pressure)
 
 GASES = ("air", "argon", "krypton", "xenon")
 SWEEP_GASES = ("air", "argon", "krypton")

@@ -10,7 +10,8 @@ independent sub-network per thickness), solved together by the network solver.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid, limit_check
+from .book import limit_check
+from .spec import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
 
 NAME = "hot-surface"
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]

@@ -10,7 +10,7 @@ single pass is off.
 from __future__ import annotations
 
 
-from ..templatebook import EMISSIVITY, FACE_PAIR_EMISSIVITY, Template, Valid, gas_temperature
+from .spec import EMISSIVITY, FACE_PAIR_EMISSIVITY, Template, Valid, gas_temperature
 
 NAME = "partition-cavity"
 CAVITY_METHODS = ["auto", "elsherbiny", "wright", "catton", "macgregor-emery", "conduction"]

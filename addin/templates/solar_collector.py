@@ -12,8 +12,8 @@ from __future__ import annotations
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from ..templatebook import (OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, TemplateBook, Valid,
-                            gas_pressure)
+from .book import TemplateBook
+from .spec import OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, Valid, gas_pressure
 
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
             "cavity correlations (aspect 12 and up for Hollands)", low_open=True)

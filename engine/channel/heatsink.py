@@ -7,8 +7,8 @@ from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import ArrayLike
-from scipy.constants import Stefan_Boltzmann as SIGMA, zero_Celsius
-from scipy.optimize import brentq
+from ..constants import STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS as zero_Celsius
+
 
 from ..convection import surface_convection
 from ..groups import DEFAULT_PRESSURE
@@ -241,6 +241,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
         base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
     out = np.empty(arrays[0].shape)
     notes = np.full(arrays[0].shape, "", dtype=object)
+    from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
     for index in np.ndindex(out.shape):
         q_i, ta, *rest = (float(a[index]) for a in arrays)
         *geometry, p = rest

@@ -6,7 +6,7 @@ from functools import lru_cache
 
 import numpy as np
 from numpy.typing import ArrayLike
-from scipy.optimize import brentq
+
 
 from ..groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, film_properties
 from .walls import (BAR_COHEN_ROHSENOW, CHANNEL_CASES, CHANNEL_OPTIMA, FLUX_CASES, PLATE_OPTIMUM_FRACTION,
@@ -19,6 +19,7 @@ from ..validity import InputError, require_choice, require_positive, unwrap
 
 def _flux_nu_at_el(el, case):
     """Composite Nu of a flux case for a given El on the top temperature (El* = El Nu)."""
+    from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
     return brentq(lambda nu: nu - _composite(el * nu, case), 1e-12, 1e6, xtol=1e-14, rtol=1e-14)
 
 
@@ -31,6 +32,7 @@ def optimum_elenbaas(case: str, optimum: str) -> float:
     with El* = El Nu at a fixed top temperature, closed form).
     "plate": h = 0.99 h_isolated at the same wall temperature (root found with brentq).
     """
+    from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
     c1, c2 = BAR_COHEN_ROHSENOW[case]
     if optimum == "array":
         if case not in FLUX_CASES:

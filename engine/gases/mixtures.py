@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 
 import numpy as np
-from scipy.constants import R as GAS_CONSTANT  # J/(mol K), CODATA
+from ..constants import MOLAR_GAS_CONSTANT as GAS_CONSTANT  # J/(mol K), exact since 2019
 
 from ..validity import InputError, Range
 from .data import GAS_NAMES, GASES, MIXTURE_SUM_TOLERANCE, _gas_doc

@@ -20,7 +20,7 @@ from types import MappingProxyType
 from typing import Any, Callable, Mapping
 
 import numpy as np
-from scipy.constants import zero_Celsius
+from ..constants import ZERO_CELSIUS as zero_Celsius
 
 from ..convection import layer_tilt, plate_case, shape_ratios
 from ..groups import STANDARD_GRAVITY

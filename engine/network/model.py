@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from types import SimpleNamespace
 
 import numpy as np
-from scipy.constants import zero_Celsius
+from ..constants import ZERO_CELSIUS as zero_Celsius
 
 from ..gases import gas_properties
 from ..groups import STANDARD_GRAVITY

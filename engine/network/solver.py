@@ -26,7 +26,7 @@ import math
 from typing import NoReturn
 
 import numpy as np
-from scipy.constants import zero_Celsius
+from ..constants import ZERO_CELSIUS as zero_Celsius
 
 from ..validity import ABSOLUTE_ZERO_C, StillairError
 from .errors import FUNCTION, NetworkConvergenceError

@@ -108,7 +108,7 @@ def main() -> int:
             print(f"growth: {low} -> {high} formulas ({high / low:.0f}x): best wall "
                   f"{best[low]:.2f} s -> {best[high]:.2f} s ({best[high] / best[low]:.1f}x); per "
                   f"extra formula {(best[high] - best[low]) / (high - low) * 1000:.2f} ms")
-        from stillair.addin.audit import AuditError, audit_book
+        from stillair.addin.audit.check import AuditError, audit_book
         print("refusal of hostile files, in process (target < 1 s each):")
         for label, path in hostile(directory).items():
             started = time.perf_counter()

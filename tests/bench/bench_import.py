@@ -63,6 +63,15 @@ def main() -> int:
             ("stillair calc (300 formulas)", calc),
         ]
         print(f"cold processes, {args.repeat} runs each")
+        # The target (issue 21): import stillair at most 2x import numpy, timed in the same run.
+        # In-process import time (-X importtime would add its own cost): the interpreter's own
+        # start-up is the same for both and is taken off by timing `pass` alone.
+        bare = min(wall("pass", SHIPPED, args.repeat))
+        numpy_import = min(wall("import numpy", SHIPPED, args.repeat)) - bare
+        engine_import = min(wall("import stillair", SHIPPED, args.repeat)) - bare
+        print(f"import numpy {numpy_import:.3f} s, import stillair {engine_import:.3f} s "
+              f"(interpreter start-up {bare:.3f} s taken off): ratio {engine_import / numpy_import:.2f} "
+              f"(target <= 2)")
         for label, code in cases:
             print(label)
             report("shipped tables (CoolProp not imported)", wall(code, SHIPPED, args.repeat))

@@ -15,7 +15,7 @@ import shutil
 import tempfile
 import zipfile
 
-from .xlsx import ATTR_RE, CELL_RE, F_RE, Book, BookError
+from .reader import ATTR_RE, CELL_RE, F_RE, Book, BookError
 
 __all__ = ["write_cached_values", "same_file", "ERROR_VALUES"]
 

@@ -13,13 +13,14 @@ An .xlsx/.xlsm file is a zip package of XML parts.  Before anything decompresses
   external entities) are refused after reading a few bytes of the part.
 
 The declared sizes are binding: Python's zipfile (which openpyxl, ``formulas`` and
-:mod:`stillair.addin.xlsx` all read through) never returns more than a member's declared size and fails
+:mod:`stillair.addin.workbook.reader` all read through) never returns more than a member's declared size and fails
 on the CRC when the data is longer, so checking the directory is enough to bound the work.
 
-While a workbook is evaluated, :func:`guarded` keeps two promises: no network connection is
-opened (socket connects and name look-ups raise :class:`UnsafeWorkbook`), and no other workbook
-is loaded - ``formulas`` otherwise opens the files that external links point to, which on Windows
-can be a network path.  Cells that refer to another workbook evaluate to ``#REF!`` instead.
+While a workbook is calculated, :func:`offline` keeps one promise: no network connection is
+opened (socket connects and name look-ups raise :class:`UnsafeWorkbook`).  No other workbook is
+ever loaded: stillair reads the one file itself (``formulas``' own workbook loader, which would
+open the files external links point to, is never used), and a reference into another workbook
+is a cell that cannot be evaluated.
 Macros are never run: nothing here (or in ``formulas``) executes VBA; ``vbaProject.bin`` is
 copied or ignored as bytes.
 """
@@ -27,7 +28,6 @@ copied or ignored as bytes.
 from __future__ import annotations
 
 import contextlib
-import os
 import socket
 import threading
 import zipfile
@@ -37,7 +37,7 @@ from defusedxml import DefusedXmlException
 from defusedxml.ElementTree import DefusedXMLParser, ParseError, fromstring
 
 __all__ = ["UnsafeWorkbook", "Limits", "LIMITS", "open_package", "check_package", "check_archive",
-           "parse_xml", "guarded", "offline", "single_book", "openpyxl_uses_defusedxml"]
+           "parse_xml", "offline", "openpyxl_uses_defusedxml"]
 
 MiB = 1024 * 1024
 
@@ -219,35 +219,3 @@ def offline():
                     delattr(owner, name)      # it was inherited (from _socket.socket)
                 else:
                     setattr(owner, name, original)
-
-
-@contextlib.contextmanager
-def single_book():
-    """Let ``formulas`` load one workbook (the one being evaluated) and no other.
-
-    ``formulas`` resolves external links (``[1]Sheet!A1``) by opening the linked file; with this
-    guard the attempt fails, and ``formulas`` turns the reference into ``#REF!``."""
-    from formulas.excel import xlreader
-
-    original = xlreader.load_workbook
-    loaded: list[str] = []
-
-    def load_one(filename, *args, **kwargs):
-        if loaded and os.path.abspath(str(filename)) != loaded[0]:
-            raise UnsafeWorkbook(f"refused to open linked workbook {filename}")
-        loaded.append(os.path.abspath(str(filename)))
-        return original(filename, *args, **kwargs)
-
-    with _lock:
-        xlreader.load_workbook = load_one
-        try:
-            yield
-        finally:
-            xlreader.load_workbook = original
-
-
-@contextlib.contextmanager
-def guarded():
-    """Both run-time guards: offline and one workbook only."""
-    with offline(), single_book():
-        yield

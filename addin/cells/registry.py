@@ -1,9 +1,9 @@
 """The registry of cell functions: the one place where every spreadsheet function is listed.
 
-Each :class:`CellFunction` names its engine callable by attribute name (``engine.<name>``), its
+Each :class:`CellFunction` names its engine callable by attribute name (``stillair.<name>``), its
 arguments in cell order, a one-line description and a category.  Everything spreadsheet-shaped is
 generated from this list: the xlwings functions (:mod:`stillair.addin.xlfuncs`), the headless evaluator's
-registrations (:mod:`stillair.addin.headless`) and the function reference (``stillair functions``).
+registrations (:mod:`stillair.addin.workbook.formulas_bridge`) and the function reference (``stillair functions``).
 
 Argument kinds:
 
@@ -21,7 +21,9 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-__all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "lookup"]
+from .network import net_band, net_check, net_heat, net_table, net_temp
+
+__all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
 _REQUIRED = object()
 
@@ -31,15 +33,25 @@ class Arg:
     """One argument of a cell function.
 
     ``engine_name`` is the keyword of the engine callable the value goes to (default: ``name``);
-    it differs where the natural name is a VBA keyword (``case``).
+    it differs where the natural name is a VBA keyword (``case``).  ``methods_of`` names the
+    engine geometry whose registered correlations fill ``{methods}`` in the text, read when the
+    help is shown, so a correlation registered in the engine appears in every cell help.
     """
 
     name: str
-    doc: str
+    text: str
     unit: str = ""
     kind: str = "number"
     default: Any = _REQUIRED
     engine_name: str | None = None
+    methods_of: str | None = None
+
+    @property
+    def doc(self) -> str:
+        """The argument's help text, as every host shows it."""
+        if self.methods_of is None:
+            return self.text
+        return self.text.format(methods=_method_list(self.methods_of))
 
     @property
     def optional(self) -> bool:
@@ -50,9 +62,17 @@ class Arg:
         return self.engine_name or self.name
 
 
+def arg_doc(arg: Arg) -> str:
+    """An argument's help as the spreadsheet hosts show it (Excel's and LibreOffice's function
+    wizards): the text, its unit in brackets and "Optional." where the text does not say so."""
+    unit = f" [{arg.unit}]" if arg.unit and arg.unit not in arg.doc else ""
+    optional = " Optional." if arg.optional and "blank" not in arg.doc else ""
+    return f"{arg.doc}{unit}{optional}"
+
+
 @dataclass(frozen=True)
 class CellFunction:
-    """One cell function: NAME(args...) -> result, computed by ``engine.<engine>``.
+    """One cell function: NAME(args...) -> result, computed by ``stillair.<engine>``.
 
     ``invoke(callable, kwargs)`` adapts the call where the cell does more than pass its
     arguments through (pick one value out of a network result, render a note); by default the
@@ -107,19 +127,31 @@ PR = Arg("Pr", "Prandtl number of the fluid (> 0).", engine_name="pr")
 RA_GAP = Arg("Ra", "Rayleigh number based on the gap (>= 0).", engine_name="ra")
 
 
-def _method(geometry: str, examples: str) -> Arg:
-    return Arg("method", f"Correlation for the {geometry}: {examples}; blank or \"auto\" picks the "
-               "one whose validity range covers the case.", kind="text", default="auto")
+def _method_list(geometry: str) -> str:
+    """The engine's methods of ``geometry`` in registration order, each serving only some of
+    the geometry's cases followed by those cases: "a (hot-up, cold-down), b"."""
+    from stillair import GEOMETRIES, methods_for
+    cases = GEOMETRIES[geometry].cases
+    served = {method: [case for case in cases if method in methods_for(geometry, case)]
+              for method in methods_for(geometry)}
+    return ", ".join(method if len(only) == len(cases) else
+                     f"{method} ({only[0]} only)" if len(only) == 1 else f"{method} ({', '.join(only)})"
+                     for method, only in served.items())
 
 
-M_VPLATE = _method("vertical plate", "churchill-chu, churchill-chu-laminar, mcadams")
-M_HPLATE = _method("horizontal plate", "lloyd-moran, raithby-hollands, mcadams")
-M_TPLATE = _method("tilted plate", "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
-M_HCYL = _method("horizontal cylinder", "churchill-chu, morgan")
-M_VCYL = _method("vertical cylinder", "churchill-chu, popiel")
-M_SPHERE = _method("sphere", "churchill")
-M_CAVITY = _method("cavity", "catton, macgregor-emery, elsherbiny, wright, hollands, globe-dropkin, "
-                   "en673, conduction")
+def _method(label: str, geometry: str) -> Arg:
+    return Arg("method", f"Correlation for the {label}: {{methods}}; blank or \"auto\" picks the "
+               "one whose validity range covers the case.", kind="text", default="auto",
+               methods_of=geometry)
+
+
+M_VPLATE = _method("vertical plate", "vplate")
+M_HPLATE = _method("horizontal plate", "hplate")
+M_TPLATE = _method("tilted plate", "tplate")
+M_HCYL = _method("horizontal cylinder", "hcyl")
+M_VCYL = _method("vertical cylinder", "vcyl")
+M_SPHERE = _method("sphere", "sphere")
+M_CAVITY = _method("cavity", "cavity")
 PLATE_CASE = Arg("plate_case", 'Plate case: "hot-up", "hot-down", "cold-up" or "cold-down" (the '
                  "exposed face points up or down and is hotter or colder than the fluid).",
                  kind="text", engine_name="case")
@@ -360,29 +392,7 @@ _entries += [
 
 # ---------------------------------------------------------------------------------------------
 # Thermal network.  The four cells share one solve per distinct set of inputs (cached in
-# stillair.addin.cells), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
-
-
-def _net_table(solve, kwargs):
-    from .network import result_table
-    return result_table(solve(**kwargs), kwargs["branches"])
-
-
-def _net_temp(solve, kwargs):
-    from .network import pick_temperature
-    node = kwargs.pop("node")
-    return pick_temperature(solve(**kwargs), node)
-
-
-def _net_heat(solve, kwargs):
-    from .network import pick_heat
-    branch = kwargs.pop("branch")
-    return pick_heat(solve(**kwargs), branch)
-
-
-def _net_check(solve, kwargs):
-    from .network import check_text
-    return check_text(solve(**kwargs))
+# stillair.addin.cells.callpath), so a sheet with NET_SOLVE and many NET_TEMP cells solves once.
 
 
 _NET = (BRANCHES, BOUNDARIES)
@@ -390,21 +400,21 @@ _entries += [
     CellFunction("NET_SOLVE", "solve_network", _NET + (NET_GAS, P),
                  "Solves the thermal network; returns a table (spills) of node temperatures in °C "
                  "and branch heat flows in W with h, R, Ra, Nu, method and notes.",
-                 CATEGORIES["network"], result="table", invoke=_net_table),
+                 CATEGORIES["network"], result="table", invoke=net_table),
     CellFunction("NET_TEMP", "solve_network",
                  _NET + (Arg("node", "Name of the node whose temperature is wanted.", kind="text"),
                          NET_GAS, P),
                  "Temperature in °C of one node of the solved thermal network.",
-                 CATEGORIES["network"], unit="°C", invoke=_net_temp),
+                 CATEGORIES["network"], unit="°C", invoke=net_temp),
     CellFunction("NET_HEAT", "solve_network",
                  _NET + (Arg("branch", "Name of the branch whose heat flow is wanted.", kind="text"),
                          NET_GAS, P),
                  "Heat flow in W through one branch of the solved network, positive from -> to.",
-                 CATEGORIES["network"], unit="W", invoke=_net_heat),
+                 CATEGORIES["network"], unit="W", invoke=net_heat),
     CellFunction("NET_CHECK", "solve_network", _NET + (NET_GAS, P),
                  'Check of the solved network: "OK" with iterations and energy residual, or the '
                  "validity notes of its branches.", CATEGORIES["network"], result="text",
-                 invoke=_net_check),
+                 invoke=net_check),
     CellFunction("STILLAIR_VERSION", "__version__", (),
                  "Version of the stillair engine, for traceability of a calculation.",
                  CATEGORIES["info"], result="text", call=False),
@@ -417,7 +427,7 @@ CATEGORIES["heatsinks"] = "stillair channels and heat sinks"
 CHANNEL_CASE = Arg("channel_case", 'Channel walls: "isothermal" (both, blank), "isothermal-adiabatic" '
                    '(one isothermal, one adiabatic), "flux" (uniform heat flux on both) or '
                    '"flux-adiabatic" (flux on one).', kind="text", default="isothermal", engine_name="case")
-M_CHANNEL = _method("channel", "bar-cohen-rohsenow, elenbaas (isothermal only)")
+M_CHANNEL = _method("channel", "channel")
 CHANNEL_TS = Arg("ts", "Wall temperature in °C; for the flux cases the wall temperature at the top of "
                  "the channel (the maximum).", "°C")
 CHANNEL_TF = Arg("tf", "Temperature of the still air around the channel (entering at the bottom), °C.", "°C")
@@ -476,12 +486,6 @@ def _nu_spread_row(nu_spread, kwargs):
     return [[spread.low, spread.high, spread.count, spread.text]]
 
 
-def _net_band(solve, kwargs):
-    from .network import pick_band
-    node = kwargs.pop("node")
-    return pick_band(solve(band=True, **kwargs), node)
-
-
 _entries += [
     CellFunction(
         "NU_SPREAD", "nu_spread",
@@ -495,7 +499,7 @@ _entries += [
         _NET + (Arg("node", "Name of the node whose temperature band is wanted.", kind="text"), NET_GAS, P),
         "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
         "in-range correlations: one row, low and high. The spread of published correlations, not a "
-        "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=_net_band),
+        "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=net_band),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

@@ -6,7 +6,8 @@ import math
 
 from .coerce import CellInputError
 
-__all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text"]
+__all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
+           "net_table", "net_temp", "net_heat", "net_check", "net_band"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -79,3 +80,34 @@ def check_text(result) -> str:
         return f"{len(notes)} note{'s' if len(notes) > 1 else ''}: " + "; ".join(notes)
     return f"OK: {iterations} iterations, energy residual {residual:.3g} W"
 
+
+# The cells' invoke adapters: ``solve`` is the engine's solve_network, ``kwargs`` the cell's
+# arguments; the network cells share one solve per distinct set of inputs (cached in callpath).
+
+
+def net_table(solve, kwargs):
+    """NET_SOLVE: the result table of the solved network."""
+    return result_table(solve(**kwargs), kwargs["branches"])
+
+
+def net_temp(solve, kwargs):
+    """NET_TEMP: one node's temperature."""
+    node = kwargs.pop("node")
+    return pick_temperature(solve(**kwargs), node)
+
+
+def net_heat(solve, kwargs):
+    """NET_HEAT: one branch's heat flow."""
+    branch = kwargs.pop("branch")
+    return pick_heat(solve(**kwargs), branch)
+
+
+def net_check(solve, kwargs):
+    """NET_CHECK: the solve's notes as one text."""
+    return check_text(solve(**kwargs))
+
+
+def net_band(solve, kwargs):
+    """NET_BAND: one node's correlation band (a solve with band=True)."""
+    node = kwargs.pop("node")
+    return pick_band(solve(band=True, **kwargs), node)

@@ -25,217 +25,27 @@ recognises a filled-in template by it.
 
 from __future__ import annotations
 
-import datetime as _dt
 import math
-import os
 import re
-import tempfile
 from dataclasses import dataclass, field
-from importlib import import_module
-from pathlib import Path
-from typing import Any, Callable, Sequence
+from typing import Any, Sequence
 
 import xlsxwriter
 from xlsxwriter.utility import xl_rowcol_to_cell
 
 from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
 
-__all__ = ["TemplateBook", "Template", "Valid", "TEMPLATE_DIR", "MARKER_NAME", "FAILED", "build_template",
-           "TemplateBuildError", "limit_check",
-           "is_error_value", "source_of"]
+from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
+from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
+                   MARKER_NAME, RULE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
+                   TemplateBuildError, Valid, significant_format)
 
-# The workbooks ship as the package stillair.templates (the top-level templates/ folder).
-TEMPLATE_DIR = Path(import_module("stillair.templates").__file__).resolve().parent
-MARKER_NAME = "stillair_template"
-# A fixed creation date keeps rebuilt files identical apart from what changed in the code.
-FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
+__all__ = ["TemplateBook", "limit_check", "source_of"]
 
-# Our own palette: warm sand input cells, slate headings, pale sage results; a failed check is
-# printed white on ink, which stays the darkest thing on a grey-scale page.  Charts draw their
-# series in INK, SLATE and SAND_EDGE too.
-INK = "#23313F"
-SLATE = "#3E5C76"
-_SAND = "#FBEFD5"
-SAND_EDGE = "#C98B2B"
-_SAGE = "#E3EEDF"
-_RULE = "#B8C4CE"
-_CAUTION = "#F6DCD5"
-_WHITE = "#FFFFFF"
-
-FONT_SIZE = 10            # every cell's font; with the print scale kept >= 0.8 it prints >= 8 pt
-CHART_FONT_SIZE = 10
-MIN_PRINT_SCALE = 0.8
-
-# The text a check shows when a quantity it needs did not calculate.
-FAILED = "CALC FAILED"
-
-# Column widths (characters) of each sheet's grid.  Inputs: label | value | unit | note;
-# Calculation: step | label | value | unit | note; Results: label | value | unit | note;
-# Notes: one wrapped column; Tables (network tables and sweeps): ten narrow columns.
-# LibreOffice fits a sheet to the page width by its columns (a single wide column is clipped, not
-# shrunk) and measures a character wider than Excel, so every grid stays within ~112 characters:
-# that prints at full size on A4 landscape in both.
-GRIDS = {
-    "Inputs": (42, 14, 11, 45),
-    "Calculation": (5, 40, 14, 11, 42),
-    "Results": (42, 14, 11, 45),
-    "Notes": (110,),
-    "Tables": (14, 9, 9, 11, 9, 9, 9, 9, 18, 13),
-}
 # Columns of the row layout: where the label, value, unit and note of a row go.
 _ROW_COLUMNS = {"Inputs": (0, 1, 2, 3), "Calculation": (1, 2, 3, 4), "Results": (0, 1, 2, 3)}
 
-# A4 landscape, margins in inches (left/right, top/bottom, header/footer).
-PAGE = {"width_in": 11.69, "height_in": 8.27, "side": 0.5, "top": 0.6, "bottom": 0.6, "header": 0.25,
-        "footer": 0.25}
-ROW_HEIGHT = 13.5         # points, one line of 10-pt text
-# Height a printed page holds, points: A4 landscape less margins, header and footer, and a reserve
-# for a viewer that prints slightly larger than 100 %.
-PAGE_CAPACITY = 460.0
-CHART_PX = (760, 280)     # width, height of every chart
-
-# Number formats by quantity (the unit shown beside the value).  SIG3 marks three significant
-# figures: the build evaluates the workbook once and writes each such cell with the fixed decimals
-# its value needs (a conditional format such as [>=10]0.0;... loses the minus sign in some viewers).
-SIG3 = "sig3"
-SCIENTIFIC = "0.000E+00"
-UNIT_FORMATS = {
-    "°C": "0.0", "K": "0.0", "°": "0.0", "%": "0.0", "mm": "0.0",
-    "W/(m²·K)": SIG3, "W/(m·K)": SIG3, "W/K": SIG3, "m²·K/W": SIG3, "K/W": SIG3, "-": SIG3,
-    "W": "0.0", "W/m²": "0.0", "W/m": "0.0", "W/m or W/m²": "0.0",
-    "m": "0.0000", "m²": "0.000", "m or m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
-    "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
-}
-
-# The Stefan-Boltzmann constant as a Calculation step writes it, W/(m²·K⁴): CODATA 2018 to the
-# digits the value is quoted with (scipy.constants.Stefan_Boltzmann, the engine's SIGMA).
-SIGMA_TEXT = "5.670374419E-8"
-
-# Network tables in the engine's columns: p1..p5 hold numbers (or a facing word), the rest text.
-BRANCH_FORMATS = (None, None, None, None, SIG3, SIG3, SIG3, SIG3, SIG3, None)
-BOUNDARY_FORMATS = (None, None, "0.0")
-
 _NAME_RE = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
-
-# The sign-off block at the top of the Inputs sheet: the fields a checker fills in and signs.
-SIGNOFF_FIELDS = ("Project", "Calculation number", "Subject", "Prepared by", "Checked by", "Date", "Revision")
-
-
-class TemplateBuildError(RuntimeError):
-    """A template's code produced a workbook that does not evaluate cleanly."""
-
-
-@dataclass(frozen=True)
-class Template:
-    """One shipped template: file name stem, version, one-line summary and its builder."""
-
-    name: str
-    version: int
-    title: str
-    summary: str
-    build: Callable[["TemplateBook"], None]
-
-    @property
-    def marker(self) -> str:
-        return f"{self.name} {self.version}"
-
-    @property
-    def path(self) -> Path:
-        return TEMPLATE_DIR / f"{self.name}.xlsx"
-
-
-@dataclass(frozen=True)
-class Valid:
-    """The accepted values of a numeric input and why; the input cell's data validation.
-
-    Bounds are inclusive unless ``low_open`` / ``high_open`` (a gap must be above 0, not 0).
-    ``extra`` adds conditions on other inputs to the cell's validation formula ("{cell}" stands
-    for the cell, e.g. "{cell}=INT({cell})"), ``extra_words`` says them in the message; the
-    build's own check of the default (:meth:`admits`) sees the bounds only."""
-
-    low: float | None = None
-    high: float | None = None
-    why: str = ""
-    low_open: bool = False
-    high_open: bool = False
-    extra: tuple[str, ...] = ()
-    extra_words: str = ""
-
-    def describe(self, unit: str) -> str:
-        u = f" {unit}" if unit not in ("", "-") else ""
-        low = None if self.low is None else f"{'above' if self.low_open else 'at least'} {_num(self.low)}{u}"
-        high = None if self.high is None else f"{'below' if self.high_open else 'at most'} {_num(self.high)}{u}"
-        if low and high and not self.low_open and not self.high_open:
-            words = f"from {_num(self.low)} to {_num(self.high)}{u}"
-        else:
-            words = " and ".join(part for part in (low, high) if part)
-        return words + (f", {self.extra_words}" if self.extra_words else "")
-
-    def admits(self, value: float) -> bool:
-        if self.low is not None and (value < self.low or (self.low_open and value == self.low)):
-            return False
-        return not (self.high is not None and (value > self.high or (self.high_open and value == self.high)))
-
-    def options(self, cell: str) -> dict:
-        """XlsxWriter data-validation options (without the messages)."""
-        closed = not self.low_open and not self.high_open
-        if self.low is not None and self.high is not None and closed and not self.extra:
-            return {"validate": "decimal", "criteria": "between", "minimum": self.low, "maximum": self.high}
-        if (self.low is not None and self.high is not None) or self.extra:
-            tests = [f"ISNUMBER({cell})"]
-            if self.low is not None:
-                tests.append(f"{cell}{'>' if self.low_open else '>='}{_num(self.low)}")
-            if self.high is not None:
-                tests.append(f"{cell}{'<' if self.high_open else '<='}{_num(self.high)}")
-            tests += [condition.format(cell=cell) for condition in self.extra]
-            return {"validate": "custom", "value": f"=AND({','.join(tests)})"}
-        if self.low is not None:
-            return {"validate": "decimal", "criteria": ">" if self.low_open else ">=", "value": self.low}
-        if self.high is not None:
-            return {"validate": "decimal", "criteria": "<" if self.high_open else "<=", "value": self.high}
-        raise TemplateBuildError("a Valid range needs a lower or an upper bound")
-
-
-def _num(value: float) -> str:
-    return f"{value:g}"
-
-
-def gas_temperature(gas: str = "air", why: str = "") -> Valid:
-    """Temperatures that set the properties of ``gas``: the range of the engine's gas tables."""
-    from stillair.gases import GASES
-
-    band = GASES[gas].t_range
-    return Valid(band.low, band.high, why or f"the {gas} property tables cover {_num(band.low)} to "
-                 f"{_num(band.high)} °C")
-
-
-def gas_pressure() -> Valid:
-    """Gas pressures the engine's property tables cover."""
-    from stillair.gases import GAS_PRESSURE_RANGE as band
-
-    return Valid(band.low, band.high, f"the gas property tables cover {_num(band.low)} to {_num(band.high)} Pa")
-
-
-def altitude() -> Valid:
-    """Altitudes of the standard atmosphere (ALTITUDE_PRESSURE)."""
-    from stillair.atmosphere import ALTITUDE_RANGE as band
-
-    return Valid(band.low, band.high, f"the standard atmosphere is defined from {_num(band.low)} to "
-                 f"{_num(band.high)} m")
-
-
-# Shared ranges of common inputs.
-EMISSIVITY = Valid(0.0, 1.0, "an emissivity is a fraction of black-body emission, 0 to 1")
-# one of two faces exchanging radiation: both above 0, or the exchange factor is undefined
-FACE_PAIR_EMISSIVITY = Valid(0.01, 1.0, "an emissivity is at most 1, and at least 0.01 (the exchange factor "
-                             "1/(1/e1 + 1/e2 - 1) needs both above 0)")
-ABSOLUTE_ZERO = -273.15
-SKY_TEMPERATURE = Valid(-100.0, 60.0, "an effective sky temperature lies from about -100 °C (clear, dry, cold "
-                        "sky) up to the air temperature (common practice)")
-OUTDOOR_AIR = Valid(-60.0, 60.0, "outdoor shade air temperatures lie between about -60 and +60 °C "
-                    "(common practice)")
-LIMIT_TEMPERATURE = Valid(ABSOLUTE_ZERO, 800.0, "a temperature is above absolute zero (-273.15 °C) and this "
-                          "sheet's air tables end at 800 °C", low_open=True)
 
 
 @dataclass
@@ -268,44 +78,13 @@ class TemplateBook:
         self.workbook.set_custom_property(MARKER_NAME, template.marker)
         self.workbook.define_name(MARKER_NAME, f'="{template.marker}"')
         self.names: dict[str, str] = {}
-        self.formats = self._formats()
+        self._format_cache: dict[tuple, Any] = {}
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
             self._add_sheet(name)
         self._signoff()
 
     # ---------------------------------------------------------------- formats and layout
-
-    def _formats(self) -> dict[str, Any]:
-        self._format_cache: dict[tuple, Any] = {}
-        base = {"font_name": "Calibri", "font_size": FONT_SIZE, "font_color": INK, "valign": "top"}
-        input_style = {**base, "bg_color": _SAND, "border": 1, "border_color": SAND_EDGE, "bold": True,
-                       "locked": False}
-        return {
-            "title": {**base, "bold": True, "font_size": 15, "font_color": SLATE},
-            "subtitle": {**base, "italic": True, "font_color": SLATE, "text_wrap": True},
-            "section": {**base, "bold": True, "font_color": _WHITE, "bg_color": SLATE},
-            "label": {**base, "text_wrap": True},
-            "unit": {**base, "font_color": SLATE},
-            "note": {**base, "italic": True, "font_color": "#4A5661", "text_wrap": True},
-            "input": {**input_style, "num_format": "General"},
-            "input_text": input_style,
-            "signoff": {**base, "border": 1, "border_color": SLATE, "locked": False, "text_wrap": True},
-            "value": {**base, "bottom": 1, "bottom_color": _RULE},
-            "text_value": {**base, "bottom": 1, "bottom_color": _RULE, "text_wrap": True},
-            "text_run": {**base, "bottom": 1, "bottom_color": _RULE},
-            "failed": {"bold": True, "font_color": _WHITE, "bg_color": INK},
-            "result": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE},
-            "result_text": {**base, "bold": True, "bg_color": _SAGE, "border": 1, "border_color": _RULE,
-                            "text_wrap": True},
-            "step": {**base, "font_color": SLATE, "align": "center"},
-            "header": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True},
-            "header_number": {**base, "bold": True, "bottom": 2, "bottom_color": SLATE, "text_wrap": True,
-                              "align": "right"},
-            "cell": {**base},
-            "paragraph": {**base, "text_wrap": True},
-            "caution": {**base, "text_wrap": True, "bg_color": _CAUTION, "bold": True},
-        }
 
     def fmt(self, style: str, num_format: str | None = None, at: tuple[Any, int, int] | None = None):
         """The workbook format of a named style, with a number format when given.
@@ -317,7 +96,7 @@ class TemplateBook:
             num_format = significant_format(value)
         key = (style, num_format)
         if key not in self._format_cache:
-            props = dict(self.formats[style])
+            props = dict(CELL_STYLES[style])
             if num_format is not None:
                 props["num_format"] = num_format
             self._format_cache[key] = self.workbook.add_format(props)
@@ -617,23 +396,8 @@ class TemplateBook:
         """Start a new page before a table (with its section bar) that would otherwise split."""
         if state.section_row == first - 1:
             first -= 1
-        height = sum(self._height(state, r) for r in range(first, last + 1))
-        if height <= PAGE_CAPACITY and self._page_used(state, first) + height > PAGE_CAPACITY:
+        if starts_new_page(state.lines, state.breaks, first, last):
             state.breaks.append(first)
-
-    def _height(self, state: _SheetState, row: int) -> float:
-        return ROW_HEIGHT * state.lines.get(row, 1)
-
-    def _page_used(self, state: _SheetState, row: int) -> float:
-        """Points of the current printed page filled above ``row`` (pages break automatically
-        when full, and at the manual breaks)."""
-        used = 0.0
-        for r in range(row):
-            height = self._height(state, r)
-            if r in state.breaks or used + height > PAGE_CAPACITY:
-                used = 0.0
-            used += height
-        return 0.0 if row in state.breaks else used
 
     def chart(self, sheet: str, kind: str, title: str, series: Sequence[dict], x_title: str, y_title: str,
               subtype: str | None = None, x_axis: dict | None = None, y_axis: dict | None = None) -> None:
@@ -653,7 +417,7 @@ class TemplateBook:
         chart.set_title({"name": title, "name_font": {"size": 11, "color": SLATE, "bold": True}})
         chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
         chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
-                          "major_gridlines": {"visible": True, "line": {"color": _RULE}}, **(y_axis or {})})
+                          "major_gridlines": {"visible": True, "line": {"color": RULE}}, **(y_axis or {})})
         chart.set_legend({"position": "bottom", "font": font})
         chart.set_size({"width": CHART_PX[0], "height": CHART_PX[1]})
         if not state.chart_run:
@@ -748,27 +512,6 @@ def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEE
     return f'=IF(ISNUMBER({value}), IF({value}<={limit}, "{within}", "{beyond}"), {failed})'
 
 
-def significant_format(value, figures: int = 3) -> str:
-    """A fixed-decimals number format showing ``value`` to ``figures`` significant figures
-    (three decimals when the value is unknown, zero or not a number)."""
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or not math.isfinite(value):
-        return "0.000"
-    decimals = figures - 1 - math.floor(math.log10(abs(value)))
-    return "0" if decimals <= 0 else "0." + "0" * min(decimals, 9)
-
-
-def text_lines(text: str, width: float) -> int:
-    """Lines ``text`` takes wrapped in a column of ``width`` characters.
-
-    A character of running text counts 0.9 units of column width: measured, DejaVu Sans (which
-    LibreOffice prints for Calibri where Calibri is missing) takes about 0.82, Calibri less; the
-    rest is slack for word breaks."""
-    lines = 0
-    for paragraph in str(text).split("\n"):
-        lines += max(1, math.ceil(0.9 * len(paragraph) / max(width - 1, 1)))
-    return lines
-
-
 def _clip(text: str, limit: int) -> str:
     return text if len(text) <= limit else text[:limit - 1] + "…"
 
@@ -778,114 +521,3 @@ def source_of(geometry: str, method: str) -> str:
     from stillair.correlations import CORRELATIONS
 
     return CORRELATIONS[(geometry, method)].source
-
-
-def build_template(template: Template, out_path: str | os.PathLike | None = None) -> Path:
-    """Write ``template`` to ``out_path`` (default: templates/NAME.xlsx) with cached values.
-
-    The workbook is written to a temporary file, evaluated headlessly, and the copy with cached
-    values is moved into place.  Any error value or failed evaluation aborts the build: a template
-    that does not calculate cleanly is never written.
-    """
-    from .cachewriter import write_cached_values
-    from .headless import evaluate_book
-
-    out = Path(out_path) if out_path is not None else template.path
-    out.parent.mkdir(parents=True, exist_ok=True)
-    with tempfile.TemporaryDirectory(prefix="stillair-template-") as directory:
-        raw = os.path.join(directory, f"{template.name}.raw.xlsx")
-        book = TemplateBook(template, raw)
-        template.build(book)
-        book.close()
-        evaluation = evaluate_book(raw)
-        if book.uses_sig3:
-            # the same cells again, three-significant-figure cells now with their decimals
-            book = TemplateBook(template, raw, values=evaluation.values)
-            template.build(book)
-            book.close()
-        errors = [(cell, result.value if result.status == "error" else result.messages[0])
-                  for cell, result in evaluation.failed]
-        if errors:
-            shown = ", ".join(f"{cell} = {value}" for cell, value in errors[:8])
-            raise TemplateBuildError(f"{template.name}: {len(errors)} cells evaluate to errors: {shown}")
-        staged = os.path.join(directory, f"{template.name}.xlsx")
-        write_cached_values(evaluation.book, staged, evaluation.values)
-        os.replace(staged, out) if _same_device(staged, out) else _copy(staged, out)
-    return out
-
-
-def is_error_value(value) -> bool:
-    """An Excel error (#VALUE!, ...) or one of our cell functions' error messages
-    ("NET_TEMP: node must be ..."), which arrive as text."""
-    from .registry import BY_NAME
-
-    if not isinstance(value, str):
-        return False
-    if value.startswith("#"):
-        return True
-    match = _CELL_ERROR_RE.match(value)
-    return bool(match) and match.group(1) in BY_NAME
-
-
-_CELL_ERROR_RE = re.compile(r"^([A-Z][A-Z0-9_]*): ")
-
-
-def _same_device(a: str, b: Path) -> bool:
-    try:
-        return os.stat(a).st_dev == os.stat(b.parent).st_dev
-    except OSError:
-        return False
-
-
-def _copy(source: str, target: Path) -> None:
-    import shutil
-
-    shutil.copyfile(source, target)
-
-
-def render_pdf(paths: Sequence[str | os.PathLike], out_dir: str | os.PathLike, timeout: float = 300) -> list[Path]:
-    """Print workbooks to PDF with LibreOffice headless, as a checker's printer would.
-
-    Uses a throw-away user profile, so nothing of the user's LibreOffice changes.  Raises
-    FileNotFoundError when ``soffice`` is not installed."""
-    import shutil
-    import subprocess
-
-    soffice = shutil.which("soffice") or shutil.which("libreoffice")
-    if soffice is None:
-        raise FileNotFoundError("LibreOffice (soffice) is not installed")
-    out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
-    with tempfile.TemporaryDirectory(prefix="stillair-lo-profile-") as profile:
-        subprocess.run([soffice, f"-env:UserInstallation={Path(profile).as_uri()}", "--headless", "--norestore",
-                        "--convert-to", "pdf", "--outdir", str(out)] + [str(p) for p in paths],
-                       check=True, capture_output=True, timeout=timeout)
-    return [out / (Path(p).stem + ".pdf") for p in paths]
-
-
-def render_pictures(out_dir: str | os.PathLike, dpi: int = 80) -> list[Path]:
-    """The README's pictures: the first printed page of each template's Results sheet, as PNG.
-
-    Needs LibreOffice and poppler-utils (pdftotext, pdftoppm)."""
-    import subprocess
-
-    from .templates import all_templates
-
-    out = Path(out_dir)
-    templates = all_templates()
-    pictures = []
-    with tempfile.TemporaryDirectory(prefix="stillair-render-") as directory:
-        for template, pdf in zip(templates, render_pdf([t.path for t in templates], directory)):
-            page = 1
-            while True:
-                text = subprocess.run(["pdftotext", "-f", str(page), "-l", str(page), "-layout", str(pdf), "-"],
-                                      check=True, capture_output=True, text=True).stdout
-                if f"{template.path.name} - Results" in text:
-                    break
-                page += 1
-            target = out / f"{template.name}-results"
-            subprocess.run(["pdftoppm", "-png", "-r", str(dpi), "-f", str(page), "-l", str(page), "-singlefile",
-                            str(pdf), str(target)], check=True)
-            pictures.append(target.with_suffix(".png"))
-    return pictures
-

@@ -1,7 +1,7 @@
 """Calling engine functions the way a cell does: coerce, compute, catch, shape.
 
 :func:`evaluate` is the single entry point every cell function goes through, from xlwings
-(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.headless`) alike.  It never
+(:mod:`stillair.addin.xlfuncs`) and from the headless evaluator (:mod:`stillair.addin.workbook.model`) alike.  It never
 raises: invalid input becomes a short message naming the function, the argument, the value and
 what is allowed; a correlation used outside its range still returns the number and the note is
 handed to the active :class:`NoteRecorder` (used by ``stillair calc``).
@@ -207,7 +207,7 @@ def evaluate(entry: CellFunction, *raw):
         return to_cell_value(value)
     except _Missing:
         return _short(f"{entry.name}: not available in this engine version "
-                      f"(engine.{entry.engine} is missing)")
+                      f"(stillair.{entry.engine} is missing)")
     except InputError as error:
         if type(error).render is not InputError.render:  # the error words its own value
             message = _short(error.render(entry.name))

@@ -1,0 +1,156 @@
+"""The audit's output: the terminal table, the JSON object and the report workbook."""
+
+from __future__ import annotations
+
+import math
+import os
+
+from .findings import KINDS, AuditError, AuditResult, show
+
+__all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
+
+
+def summary_line(result: AuditResult) -> str:
+    counts = result.counts()
+    parts = [f"{counts['ok']} ok"] + [f"{counts[k]} {k}" for k in KINDS if counts[k]]
+    extra = []
+    if result.follow_on:
+        extra.append(f"{result.follow_on} follow-on error{'s' if result.follow_on != 1 else ''}")
+    if result.unchecked:
+        extra.append(f"{len(result.unchecked)} not checkable")
+    tail = f" ({', '.join(extra)})" if extra else ""
+    cells = len(result.checked)
+    return (f"{cells} cell{'s' if cells != 1 else ''} checked: {', '.join(parts)}{tail}"
+            f" - {'no findings' if not result.findings else f'{len(result.findings)} findings'}")
+
+
+def format_table(result: AuditResult) -> str:
+    head = f"stillair audit {result.path} (engine {result.engine_version}"
+    head += f", template {result.template})" if result.template else ")"
+    lines = [head]
+    if result.findings:
+        rows = [(f.kind, f.cell or "(workbook)", f.message) for f in result.findings]
+        widths = [max(len(r[i]) for r in rows + [("KIND", "CELL", "")]) for i in (0, 1)]
+        lines.append(f"{'KIND':<{widths[0]}}  {'CELL':<{widths[1]}}  DETAIL")
+        for kind, cell, message in rows:
+            lines.append(f"{kind:<{widths[0]}}  {cell:<{widths[1]}}  {message}")
+    lines.append(summary_line(result))
+    if result.report:
+        lines.append(f"report: {result.report}")
+    return "\n".join(lines)
+
+
+def _jsonable(value):
+    if isinstance(value, float) and not math.isfinite(value):
+        return str(value)
+    return value
+
+
+def to_json(result: AuditResult) -> dict:
+    findings = []
+    for f in result.findings:
+        item = f.public()
+        item["cached"], item["computed"] = _jsonable(item["cached"]), _jsonable(item["computed"])
+        findings.append(item)
+    return {"book": result.path, "sha256": result.sha256, "engine_version": result.engine_version,
+            "template": result.template, "rtol": None, "atol": None, "checked": len(result.checked),
+            "counts": result.counts(), "follow_on_errors": result.follow_on,
+            "unchecked": result.unchecked, "findings": findings, "ok": result.ok,
+            "report": result.report, "timing": result.timing, "exit": result.exit_code}
+
+
+def free_report_path(requested: str) -> tuple[str, int]:
+    """Reserve a file name for the report that holds nothing yet: ``requested`` when it does not
+    exist, else ``stem-1.xlsx``, ``stem-2.xlsx``...  The name is created empty (O_EXCL), so no
+    existing file - the audited workbook included - is ever replaced.  Returns (path, fd)."""
+    stem, ext = os.path.splitext(requested)
+    for i in range(0, 1000):
+        candidate = requested if i == 0 else f"{stem}-{i}{ext}"
+        try:
+            return candidate, os.open(candidate, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
+        except FileExistsError:
+            continue
+    raise OSError(f"{requested}: no free report name (tried {stem}-1{ext} to {stem}-999{ext})")
+
+
+def _excel_text(value) -> str:
+    text = show(value) if not isinstance(value, str) else value
+    return text[:32000]
+
+
+def write_report(result: AuditResult, requested: str) -> str:
+    """Write the findings to a new .xlsx (one row per finding, a link to each cell); returns the
+    path written, which differs from ``requested`` when that file exists already."""
+    import tempfile
+
+    import xlsxwriter
+
+    if not requested.lower().endswith(".xlsx"):
+        raise AuditError(f"--report {requested}: the report is an .xlsx file; name it REPORT.xlsx")
+    target, fd = free_report_path(requested)
+    os.close(fd)
+    directory = os.path.dirname(os.path.abspath(target))
+    handle, temporary = tempfile.mkstemp(suffix=".xlsx", prefix=".stillair-report-", dir=directory)
+    os.close(handle)
+    try:
+        book_link = os.path.relpath(os.path.abspath(result.path), directory)
+        # Text from the audited workbook is written as text, never as a formula or a link.
+        wb = xlsxwriter.Workbook(temporary, {"strings_to_formulas": False, "strings_to_urls": False,
+                                             "strings_to_numbers": False})
+        bold = wb.add_format({"bold": True, "bg_color": "#DCE3EA", "border": 1})
+        link = wb.add_format({"font_color": "#1F4E79", "underline": 1})
+        sheet = wb.add_worksheet("Findings")
+        header = ["kind", "cell", "message", "workbook value", "engine value",
+                  "relative difference", "formula", "template formula"]
+        for col, title in enumerate(header):
+            sheet.write_string(0, col, title, bold)
+        for row, f in enumerate(result.findings, start=1):
+            sheet.write_string(row, 0, f.kind)
+            if f.sheet is not None:
+                location = "'" + f.sheet.replace("'", "''") + "'!" + f.ref
+                url = f"external:{book_link}#{location}"
+                if len(url) <= 2079:
+                    sheet.write_url(row, 1, url, link, string=f.cell)
+                else:
+                    sheet.write_string(row, 1, f.cell)
+            else:
+                sheet.write_string(row, 1, f.cell or "(workbook)")
+            sheet.write_string(row, 2, _excel_text(f.message))
+            for col, value in ((3, f.cached), (4, f.computed)):
+                if isinstance(value, float) and math.isfinite(value):
+                    sheet.write_number(row, col, value)
+                elif value is not None:
+                    sheet.write_string(row, col, _excel_text(value))
+            if f.rel_diff is not None:
+                sheet.write_number(row, 5, f.rel_diff)
+            if f.formula:
+                sheet.write_string(row, 6, _excel_text(f.formula))
+            if f.original_formula:
+                sheet.write_string(row, 7, _excel_text(f.original_formula))
+        sheet.set_column(0, 1, 18)
+        sheet.set_column(2, 2, 70)
+        sheet.set_column(3, 7, 18)
+        sheet.freeze_panes(1, 0)
+        if result.findings:
+            sheet.autofilter(0, 0, len(result.findings), len(header) - 1)
+        about = wb.add_worksheet("Summary")
+        rows = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
+                ("engine version", result.engine_version), ("template", result.template or ""),
+                ("summary", summary_line(result))]
+        rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]
+        for row, (key, value) in enumerate(rows):
+            about.write_string(row, 0, key, bold)
+            if isinstance(value, int):
+                about.write_number(row, 1, value)
+            else:
+                about.write_string(row, 1, value)
+        about.set_column(0, 0, 18)
+        about.set_column(1, 1, 80)
+        wb.close()
+        os.replace(temporary, target)  # onto the empty file reserved above
+    except BaseException:
+        for leftover in (temporary, target):
+            if os.path.exists(leftover) and (leftover == temporary or os.path.getsize(leftover) == 0):
+                os.unlink(leftover)
+        raise
+    return target

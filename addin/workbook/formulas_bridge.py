@@ -1,0 +1,331 @@
+"""Everything that touches the ``formulas`` library's and schedula's internals, in one module.
+
+An upgrade of ``formulas`` (or schedula, its engine) is one file to read.  Facts about formulas
+1.3.4 relied on (checked by tests/test_headless.py): custom functions are registered in
+``formulas.get_functions()`` before compiling and wrapped with ``formulas.functions.wrap_func``; a
+compiled formula takes its inputs in ``inputs`` order as 2-D object arrays with
+``schedula.EMPTY`` for blank cells; an unknown function fails only when called; a compiled
+formula's dispatcher (``dsp.nodes``, ``dsp.default_values``) is a tree of node functions, which
+:func:`straight_line` runs in order.
+"""
+
+from __future__ import annotations
+
+import functools
+import logging
+import math
+import os
+import re
+
+os.environ.setdefault("TQDM_DISABLE", "1")  # formulas shows a progress bar while compiling
+
+from ..cells.callpath import NoteRecorder, evaluate as evaluate_cell  # noqa: E402
+from ..cells.registry import REGISTRY  # noqa: E402
+from .reader import CellError  # noqa: E402
+
+__all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
+           "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
+           "run_problem"]
+
+_registered = False
+
+
+def load() -> None:
+    """Import formulas with our functions registered and its dispatcher's logging quiet."""
+    import formulas  # noqa: F401
+    register_functions()
+    logging.getLogger("schedula").setLevel(logging.CRITICAL)  # unknown functions log tracebacks
+    logging.getLogger("formulas").setLevel(logging.CRITICAL)
+
+
+_LAZY = "scipy.stats"
+
+
+def _lazy_module_type():
+    import types
+
+    class LazyModule(types.ModuleType):
+        """Stands in for a module until an attribute of it is first used."""
+
+        def __getattr__(self, attribute):
+            return getattr(_real_module(self.__name__), attribute)
+
+    return LazyModule
+
+
+def _real_module(name: str):
+    import importlib
+    import sys
+    if getattr(sys.modules.get(name), "stand_in", False):
+        del sys.modules[name]
+    return importlib.import_module(name)
+
+
+def defer_statistics() -> None:
+    """Import scipy.stats when a statistics function first needs it, not with formulas.
+
+    formulas' function table imports its statistics module, which imports scipy.stats at the
+    top (about a second of CPU in every command), although MAX, MIN, AVERAGE... never use it.
+    A stand-in module takes scipy.stats' place until one of its attributes is used; then the
+    real module is imported and answers (tests/test_headless.py checks a distribution)."""
+    import sys
+
+    if _LAZY in sys.modules:
+        return
+    stand_in = _lazy_module_type()(_LAZY)
+    stand_in.stand_in = True
+    sys.modules[_LAZY] = stand_in
+
+
+def register_functions() -> None:
+    """Register every registry function in formulas' function table (idempotent)."""
+    global _registered
+    if _registered:
+        return
+    defer_statistics()
+    import formulas
+    import numpy as np
+    from formulas.functions import wrap_func
+
+    table = formulas.get_functions()
+    for entry in REGISTRY:
+        def cell_function(*args, _entry=entry):
+            recorder = NoteRecorder._active
+            before = len(recorder.notes) if recorder is not None else 0
+            result = evaluate_cell(_entry, *args)
+            if isinstance(result, str) and recorder is not None and _is_error_result(
+                    _entry, result, recorder.notes[before:]):
+                getattr(recorder, "errors", []).append((recorder.current, result))
+            if isinstance(result, list):
+                return np.asarray(result, dtype=object)
+            return result
+
+        cell_function.__name__ = entry.name
+        table[entry.name] = wrap_func(cell_function)
+    _registered = True
+
+
+def _is_error_result(entry, result: str, new_notes) -> bool:
+    """cells.evaluate returns a message instead of a value, and notes that same message, when it
+    rejects a call; a function whose result is a number or a table never returns text otherwise."""
+    if entry.result != "text":
+        return True
+    return any(message == result for _, message in new_notes)
+
+
+@functools.lru_cache(maxsize=1)
+def builtin_names() -> frozenset:
+    """The names of the functions formulas implements (ours included once registered)."""
+    import formulas
+    return frozenset(formulas.get_functions())
+
+
+def compile_formula(text: str):
+    """A prepared formula compiled by formulas, and its inputs' reference texts in the order
+    the compiled function takes them."""
+    from formulas import Parser
+    function = Parser().ast("=" + text)[1].compile()
+    return function, [str(key) for key in function.inputs]
+
+
+def fast_runner(function):
+    """The compiled function run straight through (:func:`straight_line`) where that is
+    possible, checked against the dispatcher on its first call; else the function itself."""
+    fast = straight_line(function)
+    return _Checked(function, fast) if fast is not None else function
+
+
+def blank():
+    """The value formulas takes for a blank cell."""
+    import schedula as sh
+    return sh.EMPTY
+
+
+_FAST_OPERATORS = {"+": float.__add__, "-": float.__sub__, "*": float.__mul__,
+                   "/": float.__truediv__, "^": float.__pow__}
+
+
+def _number_of(value):
+    """A single cell holding a number (not a logical value) as a float, else None."""
+    import numpy as np
+    if isinstance(value, np.ndarray):
+        if value.shape != (1, 1):
+            return None
+        value = value[0, 0]
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, float, np.integer,
+                                                                      np.floating)):
+        return None
+    return float(value)
+
+
+def _fast_operator(operation, original):
+    """Arithmetic on two single numbers directly (IEEE doubles, as Excel and numpy compute it);
+    anything else - blanks, text, errors, ranges, division by zero, overflow - goes to the
+    library's operator, which knows Excel's rules for those."""
+    import numpy as np
+    from formulas.functions import Array
+
+    def run(a, b):
+        x, y = _number_of(a), _number_of(b)
+        if x is not None and y is not None:
+            try:
+                result = operation(x, y)
+            except (ZeroDivisionError, OverflowError, ValueError):
+                return original(a, b)
+            if type(result) is float and math.isfinite(result):
+                out = np.empty((1, 1), dtype=object)
+                out[0, 0] = result
+                return out.view(Array)
+        return original(a, b)
+
+    return run
+
+
+class _Checked:
+    """The straight-line runner, checked against the dispatcher on its first call."""
+
+    def __init__(self, function, fast):
+        self.function, self.fast, self.checked = function, fast, False
+
+    def __call__(self, *args):
+        if self.checked:
+            return self.fast(*args)
+        slow = self.function(*args)
+        try:
+            quick = self.fast(*args)
+        except Exception:
+            quick = None
+        self.checked = True
+        if quick is None or not _same_result(slow, quick):
+            self.fast = self.function
+        return slow
+
+
+def _same_result(a, b) -> bool:
+    import numpy as np
+    try:
+        return np.asarray(a, dtype=object).tolist() == np.asarray(b, dtype=object).tolist() and \
+            type(a) is type(b)
+    except Exception:
+        return False
+
+
+class _NotAvailable(Exception):
+    """A function the library names but does not implement."""
+
+
+def straight_line(function):
+    """Run a compiled formula without its dispatcher: the same node functions called in
+    dependency order.  ``formulas`` builds one small schedula dispatcher per formula, whose
+    bookkeeping costs several times the arithmetic; a formula's nodes are a tree, so running them
+    in order gives the same result.  Returns None for dispatchers that use other features."""
+    dsp = function.dsp
+    defaults = {k: v["value"] for k, v in dsp.default_values.items()}
+    available = set(defaults) | set(function.inputs)
+    steps, pending = [], []
+    filters = {}
+    for key, node in dsp.nodes.items():
+        if node["type"] == "data":
+            if set(node) - {"type", "wait_inputs", "filters", "index"}:
+                return None
+            if node.get("filters"):
+                filters[key] = tuple(node["filters"])
+        elif node["type"] == "function":
+            if set(node) - {"type", "inputs", "outputs", "function", "wait_inputs", "solve_cycle",
+                            "index"}:
+                return None
+            pending.append((key, node))
+        else:
+            return None
+    while pending:
+        ready = [(k, n) for k, n in pending if set(n["inputs"]) <= available]
+        if not ready:
+            return None
+        for key, node in ready:
+            pending.remove((key, node))
+            function_ = node["function"]
+            operator_ = _FAST_OPERATORS.get(key.split("<")[0])
+            if operator_ is not None and len(node["inputs"]) == 2:
+                function_ = _fast_operator(operator_, function_)
+            steps.append((key, function_, tuple(node["inputs"]), tuple(node["outputs"])))
+            available |= set(node["outputs"])
+    inputs = tuple(function.inputs)
+    output = function.outputs[0]
+    if output not in available:
+        return None
+
+    def run(*args):
+        data = dict(defaults)
+        for key, value in zip(inputs, args):
+            for f in filters.get(key, ()):
+                value = f(value)
+            data[key] = value
+        for name, call, ins, outs in steps:
+            try:
+                result = call(*[data[i] for i in ins])
+            except NotImplementedError:
+                raise _NotAvailable(name.split("<")[0]) from None
+            if len(outs) == 1:
+                results = (result,)
+            else:
+                results = tuple(result)
+            for key, value in zip(outs, results):
+                for f in filters.get(key, ()):
+                    value = f(value)
+                data[key] = value
+        return data[output]
+
+    return run
+
+
+def parse_problem(error: Exception, text: str) -> str:
+    detail = " ".join(str(error).split())
+    if "Not a valid formula" in detail:
+        return "the evaluator cannot parse this formula"
+    return f"the evaluator cannot compile this formula ({type(error).__name__})"
+
+
+def run_problem(error: Exception) -> str:
+    text = " ".join(str(error).split())
+    m = re.search(r"DISPATCHING '([^']+)'", text)
+    if m and "NotImplemented" in text:
+        return f"function {m.group(1)} is not available headlessly"
+    if isinstance(error, _NotAvailable):
+        return f"function {error} is not available headlessly"
+    return f"the evaluator failed on this formula ({type(error).__name__})"
+
+
+def xl_error(code: str):
+    from formulas.tokens.operand import XlError
+    return XlError(code)
+
+
+def is_xl_error(value) -> bool:
+    from formulas.tokens.operand import XlError
+    return isinstance(value, XlError)
+
+
+def to_formulas(value):
+    """A stored cell value as formulas takes it."""
+    if isinstance(value, CellError):
+        return xl_error(str(value))
+    if value is None:
+        import schedula as sh
+        return sh.EMPTY
+    return value
+
+
+def plain(value):
+    """A formulas value as a Python scalar: float, bool, str (errors as "#VALUE!"), None."""
+    import numpy as np
+    import schedula as sh
+
+    if isinstance(value, np.ndarray):
+        value = value.ravel()[0] if value.size else None
+    if value is sh.EMPTY or value is None:
+        return None
+    if isinstance(value, (bool, np.bool_)):
+        return bool(value)
+    if isinstance(value, (int, float, np.integer, np.floating)):
+        return float(value)
+    return str(value)

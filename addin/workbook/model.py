@@ -1,0 +1,510 @@
+"""The model of a workbook: its formulas prepared, their dependency graph and calculation order.
+
+The workbook is read once (:func:`stillair.addin.workbook.reader.read_book`).  Each formula is
+prepared on its own (:func:`stillair.addin.workbook.formulatext.prepare`) and compiled by the
+``formulas`` library (:mod:`stillair.addin.workbook.formulas_bridge`); formulas of the same shape
+(a row copied down) share one compiled function.  :class:`Model` then calculates the cells itself,
+in dependency order (each cell by :func:`stillair.addin.workbook.execute.calculate_node`), so that
+
+* a formula the evaluator cannot read or has no implementation for spoils only that cell and the
+  cells that depend on it: they get the status "cannot-evaluate" with the construct named, and
+  everything else is calculated;
+* only the cells a job needs are calculated (:class:`Model` takes the cells of interest; the
+  audit passes ours, their precedents and their dependents);
+* a model is built once and calculated many times (``--set`` values, sweeps);
+* whole rows and columns cost what the sheet's used range costs.
+
+Every formula cell gets a :class:`~stillair.addin.workbook.status.CellResult`: its value and
+whether that value is a plain value, a value with range notes, an error (one of our functions'
+messages, an Excel error, or a value computed over an error upstream) or could not be evaluated.
+Commands read this status; none of them infers an error from the shape of a text.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import time
+from dataclasses import dataclass, field
+
+from .execute import CellRecorder, calculate_node
+from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
+                              to_formulas, xl_error)
+from .formulatext import Reference, parse_reference
+from .rewrite import prepare
+from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
+from .sets import parse_value, resolve_target
+from .status import CellResult, Evaluation, label, quote_sheet
+
+__all__ = ["Model", "evaluate_book", "MAX_CELLS_READ"]
+
+# Bounds on the work of one calculation: the cells all formulas read together (ranges cut to
+# the used range), and the cells of the range arrays kept for reuse.
+MAX_CELLS_READ = 50_000_000
+_AREA_CACHE_CELLS = 5_000_000
+
+
+@dataclass(slots=True)
+class _Node:
+    sheet: str
+    ref: str                    # anchor ref ("" for a defined name's node)
+    row: int
+    col: int
+    text: str                   # the workbook's formula, without "="
+    prepared: object = None     # formulatext.Prepared
+    array: tuple | None = None  # (r1, c1, r2, c2) for an array formula
+    deps: set = field(default_factory=set)
+    sources: list = field(default_factory=list)  # per reference: the sheet an area is on (None:
+                                                 # no such sheet), a name's node key (None: undefined)
+    compiled: object = None
+    problem: str | None = None
+    name: str | None = None     # a defined name's node: its label
+
+
+class Model:
+    """A workbook prepared for calculation; :meth:`calculate` runs it (as often as needed).
+
+    ``cells``: the (sheet, ref) formula cells of interest, or None for all.  Only they, the cells
+    they read (transitively) and the defined names they use are prepared and calculated."""
+
+    def __init__(self, book: Book, cells=None):
+        started = time.perf_counter()
+        import stillair  # noqa: F401  (the engine: imported once, timed apart)
+        load()
+        self.engine_seconds = time.perf_counter() - started
+        started = time.perf_counter()
+        self.book = book
+        self.sheet_case = {s.name.upper(): s.name for s in book.sheets}
+        self.used = {s.name.upper(): (s.last_row, s.last_col) for s in book.sheets}
+        self.sheets = {s.name: s for s in book.sheets}
+        # Formula cells by position: sheet -> column -> sorted rows (array members point to
+        # their anchor through ``owner``).
+        self.owner: dict[tuple[str, str], tuple[str, str]] = {}
+        self.columns: dict[str, dict[int, list[int]]] = {}
+        for sheet in book.sheets:
+            columns = self.columns.setdefault(sheet.name, {})
+            for ref, cell in sheet.formulas.items():
+                self.owner[(sheet.name, ref)] = (sheet.name, ref)
+                row, col = split_ref(ref)
+                columns.setdefault(col, []).append(row)
+            for member, anchor in sheet.array_members.items():
+                self.owner[(sheet.name, member)] = (sheet.name, anchor)
+                row, col = split_ref(member)
+                columns.setdefault(col, []).append(row)
+            for rows in columns.values():
+                rows.sort()
+        self.names = {}
+        for name in book.names:
+            if name.name.startswith("_xlnm."):
+                continue
+            self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
+        self.nodes: dict[tuple, _Node] = {}
+        self._compiled: dict[tuple, tuple] = {}
+        self._templates: dict = {}     # formulas of one relative form share their preparation
+        wanted = cells if cells is not None else [
+            (s.name, ref) for s in book.sheets for ref in s.formulas]
+        todo = list(wanted)
+        while todo:
+            key = todo.pop()
+            if key in self.nodes:
+                continue
+            node = self._make_node(key)
+            if node is None:
+                continue
+            self.nodes[key] = node
+            todo.extend(d for d in node.deps if d not in self.nodes)
+        self.order = self._order()
+        self.load_seconds = time.perf_counter() - started
+
+    # -- building -------------------------------------------------------------------------
+
+    def _make_node(self, key) -> _Node | None:
+        if key[0] == "#name":
+            return self._name_node(key)
+        sheet_name, ref = key
+        sheet = self.sheets.get(sheet_name)
+        cell = sheet.formulas.get(ref) if sheet is not None else None
+        if cell is None:
+            return None
+        row, col = split_ref(ref)
+        node = _Node(sheet_name, ref, row, col, cell.formula or "")
+        if cell.array_ref:
+            first, _, last = cell.array_ref.partition(":")
+            r1, c1 = split_ref(first.replace("$", ""))
+            r2, c2 = split_ref((last or first).replace("$", ""))
+            node.array = (min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
+        if cell.formula is None:
+            node.problem = "the formula text is missing from the file (a damaged shared formula)"
+            return node
+        self._prepare(node)
+        return node
+
+    def _name_node(self, key) -> _Node | None:
+        _, scope, upper = key
+        entry = self.names.get((scope, upper))
+        if entry is None:
+            return None
+        sheet = entry.sheet or (self.book.sheets[0].name if self.book.sheets else "")
+        node = _Node(sheet, "", 1, 1, entry.text.strip().lstrip("="),
+                     name=entry.name if entry.sheet is None else f"{quote_sheet(entry.sheet)}!{entry.name}")
+        self._prepare(node)
+        return node
+
+    def _prepare(self, node: _Node) -> None:
+        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates)
+        node.prepared = prepared
+        if prepared.problem:
+            node.problem = prepared.problem
+        for reference in prepared.references:
+            source = None
+            if reference.kind == "area":
+                source = self.sheet_case.get((reference.sheet or node.sheet).upper())
+                node.deps |= self._area_deps(source, reference)
+            elif reference.kind == "name":
+                source = self._resolve_name(reference, node.sheet)
+                if source is None:
+                    node.problem = node.problem or f"the name {reference.name} is not defined"
+                else:
+                    node.deps.add(source)
+            node.sources.append(source)
+
+    def _resolve_name(self, reference: Reference, sheet: str):
+        """A name as Excel resolves it: the formula's sheet's own name first, then the
+        workbook's; ``Sheet!name`` looks only at that sheet's names."""
+        upper = reference.name.upper()
+        if reference.sheet is not None:
+            scope = reference.sheet.upper()
+            return ("#name", scope, upper) if (scope, upper) in self.names else None
+        if (sheet.upper(), upper) in self.names:
+            return ("#name", sheet.upper(), upper)
+        if (None, upper) in self.names:
+            return ("#name", None, upper)
+        return None
+
+    def _area_deps(self, target: str | None, reference: Reference) -> set:
+        from bisect import bisect_left, bisect_right
+        if target is None:
+            return set()
+        found = set()
+        for col, rows in self.columns.get(target, {}).items():
+            if reference.c1 <= col <= reference.c2:
+                for row in rows[bisect_left(rows, reference.r1):bisect_right(rows, reference.r2)]:
+                    owner = self.owner.get((target, f"{index_to_col(col)}{row}"))
+                    if owner is not None:
+                        found.add(owner)
+        return found
+
+    def _order(self) -> list:
+        """Nodes in calculation order; a cycle's cells are reported, not calculated."""
+        order, state = [], {}
+        self.cycles: set = set()
+        for start in self.nodes:
+            if start in state:
+                continue
+            stack = [(start, iter(sorted(self.nodes[start].deps & self.nodes.keys(), key=str)))]
+            state[start] = 1
+            while stack:
+                key, children = stack[-1]
+                for child in children:
+                    if state.get(child) == 1:
+                        self.cycles.add(child)
+                        self.cycles.add(key)
+                    elif child not in state:
+                        state[child] = 1
+                        stack.append((child, iter(sorted(self.nodes[child].deps & self.nodes.keys(),
+                                                          key=str))))
+                        break
+                else:
+                    stack.pop()
+                    state[key] = 2
+                    order.append(key)
+        return order
+
+    def compile(self, node: _Node, share: bool = True):
+        """The compiled function for the node's shape, and which reference feeds each input."""
+        prepared = node.prepared
+        cached = self._compiled.get(prepared.key) if share else None
+        if cached is None:
+            try:
+                function, inputs = compile_formula(prepared.text)
+            except Exception as error:
+                cached = (None, None, parse_problem(error, node.text))
+            else:
+                positions = []
+                wanted = [_reference_id(r, None) for r in prepared.references]
+                for key in inputs:
+                    ident = _reference_id(parse_reference(key), None)
+                    positions.append(wanted.index(ident) if ident in wanted else None)
+                if None in positions:
+                    cached = (None, None, "the evaluator reads this formula's references "
+                              "differently from Excel")
+                else:
+                    cached = (fast_runner(function) if share else function, positions, None)
+            if share:
+                self._compiled[prepared.key] = cached
+        return cached
+
+    # -- the dependency graph -------------------------------------------------------------
+
+    def _users(self) -> dict:
+        users = getattr(self, "_users_cache", None)
+        if users is None:
+            users = {}
+            for key, node in self.nodes.items():
+                for dep in node.deps:
+                    users.setdefault(dep, set()).add(key)
+            self._users_cache = users
+        return users
+
+    def downstream(self, seeds) -> set:
+        """The seed cells and every formula cell that depends on one (through names too)."""
+        users = self._users()
+        seen, todo = set(seeds), list(seeds)
+        while todo:
+            for user in users.get(todo.pop(), ()):
+                if user not in seen:
+                    seen.add(user)
+                    todo.append(user)
+        return {k for k in seen if k[0] != "#name"}
+
+    def upstream(self, keys) -> set:
+        """The cells and names the given cells read, transitively (the cells themselves too)."""
+        seen, todo = set(keys), list(keys)
+        while todo:
+            node = self.nodes.get(todo.pop())
+            for dep in (node.deps if node is not None else ()):
+                if dep not in seen:
+                    seen.add(dep)
+                    todo.append(dep)
+        return seen
+
+    # -- calculating ----------------------------------------------------------------------
+
+    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:
+        """Calculate the model; ``sets`` maps (sheet, ref) to a value that replaces the cell;
+        ``only`` limits the work to those cells and what they read."""
+        import numpy as np
+
+        started = time.perf_counter()
+        sets = dict(sets or {})
+        values: dict[tuple[str, str], object] = {}     # computed values, formulas' own types
+        results: dict = {}
+        recorder = CellRecorder()
+        empty = blank()
+
+        def cell_value(sheet_name, ref):
+            key = (sheet_name, ref)
+            if key in sets:
+                return to_formulas(sets[key])
+            if key in values:
+                return values[key]
+            sheet = self.sheets[sheet_name]
+            if ref in sheet.values:
+                return to_formulas(sheet.values[ref])
+            return empty
+
+        def area_values(sheet_name, reference: Reference):
+            if reference.r1 == reference.r2 and reference.c1 == reference.c2:
+                array = np.empty((1, 1), dtype=object)
+                array[0, 0] = cell_value(sheet_name, f"{index_to_col(reference.c1)}{reference.r1}")
+                return array
+            # Cells are calculated after every formula cell they read, so a range's values are
+            # final when it is first read: later readers of the same range share the array.
+            area_key = (sheet_name, reference.r1, reference.c1, reference.r2, reference.c2)
+            array = area_cache.get(area_key)
+            if array is not None:
+                return array
+            array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
+                            empty, dtype=object)
+            sheet = self.sheets[sheet_name]
+            last_row, last_col = sheet.last_row, sheet.last_col
+            letters = [index_to_col(c) for c in range(reference.c1, min(reference.c2, last_col) + 1)]
+            for r in range(reference.r1, min(reference.r2, last_row) + 1):
+                for j, column in enumerate(letters):
+                    array[r - reference.r1, j] = cell_value(sheet_name, f"{column}{r}")
+            if cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
+                cached_cells[0] += array.size
+                area_cache[area_key] = array
+            return array
+
+        area_cache: dict = {}
+        cached_cells = [0]
+        needed = self.upstream(only) if only is not None else None
+        self._check_volume(needed)
+        from .safezip import offline
+        with recorder, offline():   # nothing in a workbook may reach the network
+            for key in self.order:
+                node = self.nodes[key]
+                if key in sets or (needed is not None and key not in needed):
+                    continue
+                results_here = calculate_node(self, node, key, values, results, recorder,
+                                              area_values)
+                for member_key, result in results_here.items():
+                    results[member_key] = result
+        calculated = time.perf_counter()
+        return self._evaluation(values, results, recorder, sets, calculated - started)
+
+    def _check_volume(self, needed) -> None:
+        """Refuse, before calculating, a workbook whose formulas would read more cells in all than
+        the limit (each formula's ranges cut to the used range and counted per formula)."""
+        total = 0
+        for key, node in self.nodes.items():
+            if needed is not None and key not in needed or node.prepared is None:
+                continue
+            for reference, source in zip(node.prepared.references, node.sources):
+                if reference.kind != "area":
+                    continue
+                sheet = self.sheets.get(source)
+                if sheet is None:
+                    continue
+                rows = max(0, min(reference.r2, sheet.last_row) - reference.r1 + 1)
+                cols = max(0, min(reference.c2, sheet.last_col) - reference.c1 + 1)
+                total += rows * cols
+        if total > MAX_CELLS_READ:
+            raise BookError(f"{self.book.path}: refused: its formulas read {total:,} cells in all "
+                            f"(each formula's ranges counted), more than the limit of "
+                            f"{MAX_CELLS_READ:,} that keeps calc and the audit bounded in time")
+
+    def members(self, node) -> list:
+        """The cells a node fills: its own, or every cell of its array formula's range."""
+        if node.array is None:
+            return [(node.sheet, node.ref)]
+        r1, c1, r2, c2 = node.array
+        return [(node.sheet, f"{index_to_col(c)}{r}") for r in range(r1, r2 + 1)
+                for c in range(c1, c2 + 1)]
+
+    def name_value(self, target, values, area_values):
+        """A defined name's value as a formula reading it gets it (a range: its cells)."""
+        import numpy as np
+        if target is None:
+            return np.asarray([[xl_error("#NAME?")]], dtype=object)
+        if target in values:
+            value = values[target]
+            return value if isinstance(value, np.ndarray) else np.asarray([[value]], dtype=object)
+        node = self.nodes.get(target)
+        if node is not None and node.prepared is not None and len(node.prepared.references) == 1 \
+                and node.prepared.references[0].kind == "area" and \
+                _is_plain_reference(node.prepared.text):
+            if node.sources[0] is None:
+                return np.asarray([[xl_error("#REF!")]], dtype=object)
+            return area_values(node.sources[0], node.prepared.references[0])
+        return np.asarray([[xl_error("#NAME?")]], dtype=object)
+
+    def _evaluation(self, values, results, recorder, sets, seconds) -> Evaluation:
+
+        by_sheet: dict[str, dict[str, object]] = {}
+        ordered: dict[tuple[str, str], CellResult] = {}
+        for sheet in self.book.sheets:
+            cells = by_sheet.setdefault(sheet.name, {})
+            for ref in sheet.formula_refs():
+                key = (sheet.name, ref)
+                if key in results:
+                    cells[ref] = results[key].value
+                    ordered[key] = results[key]
+                elif key in sets:
+                    cells[ref] = sets[key]
+        names: dict[str, object] = {}
+        for name in self.book.names:
+            if name.hidden or name.name.startswith("_xlnm."):
+                continue
+            node_key = ("#name", name.sheet.upper() if name.sheet else None, name.name.upper())
+            shown = name.name if name.sheet is None else f"{quote_sheet(name.sheet)}!{name.name}"
+            names[shown] = self._named_value(name, node_key, values, by_sheet, sets)
+        notes: list[tuple[str, str]] = []
+        seen = set()
+        for key, result in ordered.items():
+            if result.status == "value":
+                continue
+            if result.messages and result.messages[0].startswith("follows from"):
+                continue   # an Excel error that follows from one listed where it happens
+            anchor = self.owner.get(key, key)
+            for message in result.messages:
+                item = (label(*anchor), message)
+                if item not in seen:
+                    seen.add(item)
+                    notes.append(item)
+        labelled = {label(*k) for k in ordered} if recorder.notes else set()
+        for cell, message in recorder.notes:
+            if cell is not None and cell not in labelled and (cell, message) not in seen:
+                seen.add((cell, message))
+                notes.append((cell, message))
+        return Evaluation(self.book, by_sheet, names, notes, self.load_seconds, seconds,
+                          sets=dict(sets), engine_seconds=self.engine_seconds, results=ordered)
+
+    def _named_value(self, name, node_key, values, by_sheet, sets):
+        text = name.text.strip().lstrip("=")
+        reference = parse_reference(text) if _is_plain_reference(text) else None
+        if reference is None or reference.kind != "area" or reference.sheet is None:
+            value = values.get(node_key)
+            return plain(value) if value is not None and not hasattr(value, "shape") else None
+        sheet = self.sheet_case.get(reference.sheet.upper())
+        if sheet is None:
+            return None
+        cells = by_sheet.get(sheet, {})
+        constants = self.sheets[sheet].values
+
+        def one(r, c):
+            ref = f"{index_to_col(c)}{r}"
+            if (sheet, ref) in sets:
+                return sets[(sheet, ref)]
+            if ref in cells:
+                return cells[ref]
+            value = constants.get(ref)
+            return str(value) if isinstance(value, CellError) else value
+
+        if reference.cells == 1:
+            return one(reference.r1, reference.c1)
+        if reference.cells > 100_000:
+            return None
+        return [[one(r, c) for c in range(reference.c1, reference.c2 + 1)]
+                for r in range(reference.r1, reference.r2 + 1)]
+
+
+def _is_plain_reference(text: str) -> bool:
+    return not re.search(r"[(),+*/&^<>=\-\"]", text.strip())
+
+
+def _reference_id(reference: Reference, default_sheet):
+    if reference.kind == "area":
+        return ("area", (reference.sheet or "").upper(), reference.r1, reference.c1, reference.r2,
+                reference.c2)
+    if reference.alias:
+        return ("name", "", reference.alias.upper())
+    return (reference.kind, (reference.sheet or "").upper(), reference.name.upper())
+
+
+def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None) -> Evaluation:
+    """Read and calculate a workbook; ``sets`` maps a cell ("Sheet!B3") or name to a new value.
+
+    ``path`` may be a :class:`Book` already read.  ``cells`` limits the work to those formula
+    cells and what they read."""
+    model = _model_of(path) if cells is None else Model(
+        path if isinstance(path, Book) else read_book(path), cells)
+    targets = {}
+    for target, text in (sets or {}).items():
+        targets[resolve_target(model.book, target)] = parse_value(text) if isinstance(text, str) else text
+    return model.calculate(targets)
+
+
+_MODELS: dict = {}
+
+
+def _model_of(path) -> Model:
+    """The model of a workbook file, built once while the file is unchanged (a sweep of --set
+    values or the template tests calculate one model many times)."""
+    if isinstance(path, Book):
+        return Model(path)
+    try:
+        stat = os.stat(path)
+        key = (os.path.realpath(path), stat.st_ino, stat.st_mtime_ns, stat.st_ctime_ns,
+               stat.st_size)
+    except OSError:
+        key = None
+    if key is not None and key in _MODELS:
+        return _MODELS[key]
+    model = Model(read_book(path))
+    if key is not None:
+        if len(_MODELS) >= 8:
+            _MODELS.pop(next(iter(_MODELS)))
+        _MODELS[key] = model
+    return model

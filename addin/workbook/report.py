@@ -1,0 +1,196 @@
+"""What ``stillair calc`` shows of an evaluation: the Results sheet as text (or the named
+results, or the last computed cells), the notes grouped by message, and the JSON form."""
+
+from __future__ import annotations
+
+import re
+
+from .reader import index_to_col, split_ref
+from .status import Evaluation, label
+
+__all__ = ["report_lines", "evaluation_json", "render_results", "group_notes", "compress_cells"]
+
+
+def evaluation_json(evaluation: Evaluation) -> dict:
+    """``calc --json``: every formula cell's value, the defined names' values and the notes."""
+    return {
+        "values": evaluation.flat_values(),
+        "names": evaluation.names,
+        "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
+    }
+
+
+def report_lines(evaluation: Evaluation, book: str, out: str | None = None) -> list[str]:
+    """The text ``calc`` prints for the workbook ``book`` (``out``: the copy it wrote)."""
+    lines: list[str] = []
+    errors = [cell for cell, _ in evaluation.failed]
+    count = sum(len(c) for c in evaluation.values.values())
+    lines.append(f"{book}: {count} formula cells (engine import {evaluation.engine_seconds:.2f} s, "
+                 f"load {evaluation.load_seconds:.2f} s, calculate {evaluation.calc_seconds:.2f} s)")
+    named = [(name, value) for name, value in evaluation.names.items() if name != "stillair_template"]
+    results = _results_sheet_rows(evaluation)
+    if results:
+        lines.append("Results:")
+        for line in render_results(results):
+            lines.append(line)
+    elif named:
+        lines.append("Named results:")
+        width = max(len(n) for n, _ in named)
+        for name, value in named:
+            lines.append(f"  {name:<{width}}  {_format(value)}")
+    else:
+        lines.append("Last computed cells:")
+        for cell, value in _summary_cells(evaluation):
+            lines.append(f"  {cell}  {_format(value)}")
+    grouped = group_notes(evaluation.notes)
+    if grouped:
+        lines.append(f"Notes ({len(grouped)}):")
+        for cells, message in grouped:
+            lines.append(f"  {cells}: {message}" if cells else f"  {message}")
+    else:
+        lines.append("Notes: none (every correlation used inside its validity range)")
+    if out:
+        lines.append(f"Wrote {out}")
+    if errors:
+        lines.append(f"{len(errors)} formula cell{'s' if len(errors) > 1 else ''} are errors or cannot be "
+                     f"evaluated ({compress_cells(errors)}; see the notes): exit status 1")
+    return lines
+
+
+def _format(value) -> str:
+    if isinstance(value, float):
+        return f"{value:.6g}"
+    if isinstance(value, list):
+        return "[" + "; ".join(", ".join(_format(v) for v in row) for row in value) + "]"
+    return "" if value is None else str(value)
+
+
+def _summary_cells(evaluation):
+    """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
+    rows = []
+    for sheet in evaluation.book.sheets:
+        cells = evaluation.values.get(sheet.name, {})
+        if not cells:
+            continue
+        last_row = max(split_ref(ref)[0] for ref in cells)
+        for ref in sorted(cells, key=split_ref):
+            if split_ref(ref)[0] == last_row:
+                rows.append((label(sheet.name, ref), cells[ref]))
+    return rows
+
+
+def _split_label(text: str) -> tuple[str, str, int] | None:
+    sheet, sep, ref = text.rpartition("!")
+    try:
+        row, _ = split_ref(ref)
+    except ValueError:
+        return None
+    return (sheet, re.sub(r"\d", "", ref), row) if sep else None
+
+
+def compress_cells(labels: list[str]) -> str:
+    """"S!B3, S!B4, S!B5, S!D2" -> "S!B3:B5, S!D2": runs down one column become ranges."""
+    runs: list[list] = []  # [sheet, column, first row, last row] or [label]
+    for text in labels:
+        parts = _split_label(text)
+        last = runs[-1] if runs else None
+        if parts and last and len(last) == 4 and last[:2] == list(parts[:2]) and parts[2] == last[3] + 1:
+            last[3] = parts[2]
+        else:
+            runs.append([*parts[:2], parts[2], parts[2]] if parts else [text])
+    return ", ".join(f"{r[0]}!{r[1]}{r[2]}" + (f":{r[1]}{r[3]}" if r[3] != r[2] else "")
+                     if len(r) == 4 else r[0] for r in runs)
+
+
+def group_notes(notes) -> list[tuple[str, str]]:
+    """(cells, message) with each distinct message once, its cells listed (ranges compressed),
+    in the order the messages first occur."""
+    by_message: dict[str, list[str]] = {}
+    for cell, message in notes:
+        cells = by_message.setdefault(message, [])
+        if cell and cell not in cells:
+            cells.append(cell)
+    return [(compress_cells(cells), message) for message, cells in by_message.items()]
+
+
+def _results_sheet_rows(evaluation) -> list[list[tuple[object, bool]]]:
+    """The rows of a "Results" sheet below its title (row 3 on), each a list of
+    (value, is_formula) cells: the computed value for a formula cell, the cell's own value
+    otherwise; trailing blank cells dropped.  Read from the workbook calc has read already."""
+    if "Results" not in evaluation.values:
+        return []
+    computed = evaluation.values["Results"]
+    sheet = evaluation.book.sheet("Results")
+    rows = []
+    for index in range(3, sheet.last_row + 1):
+        cells = []
+        for column in range(1, sheet.last_col + 1):
+            ref = f"{index_to_col(column)}{index}"
+            if ref in computed:
+                cells.append((computed[ref], True))
+            elif ref in sheet.formulas:
+                cells.append((None, True))  # a formula the evaluation did not reach
+            else:
+                cells.append((sheet.values.get(ref), False))
+        while cells and _blank(cells[-1][0]):
+            cells.pop()
+        rows.append(cells)
+    return rows
+
+
+def _blank(value) -> bool:
+    return value is None or (isinstance(value, str) and not value.strip())
+
+
+def _is_table_header(row, following) -> bool:
+    """A row of text captions only (two or more), with a computed row under it."""
+    captions = [v for v, formula in row if not _blank(v)]
+    return (len(captions) >= 2 and all(isinstance(v, str) and not f for v, f in row if not _blank(v))
+            and bool(following) and any(f for _, f in following))
+
+
+def render_results(rows) -> list[str]:
+    """The Results sheet as text: headings, label | value | unit | remark lines with the values
+    aligned, and tables (a caption row over computed rows) with every column aligned."""
+    lines: list[str] = []
+    labelled = [r for r in rows if len(r) >= 2 and not _blank(r[0][0])]
+    width = max((len(_format(r[0][0])) for r in labelled), default=0)
+    index = 0
+    while index < len(rows):
+        row = rows[index]
+        if not row:
+            index += 1
+            continue
+        following = rows[index + 1] if index + 1 < len(rows) else []
+        if _is_table_header(row, following):
+            table = [row]
+            index += 1
+            while index < len(rows) and len(rows[index]) >= 2:
+                table.append(rows[index])
+                index += 1
+            lines.extend(_render_table(table))
+            continue
+        if len(row) == 1:
+            lines.append(f"  {_format(row[0][0])}")
+        else:
+            label, (value, _), rest = _format(row[0][0]), row[1], row[2:]
+            shown = _format(value)
+            shown = f"{shown:>12}" if isinstance(value, (int, float)) and not isinstance(value, bool) \
+                else f"{shown:<12}"
+            extra = "  ".join(_format(v) for v, _ in rest if not _blank(v))
+            lines.append(f"    {label:<{width}}  {shown}  {extra}".rstrip())
+        index += 1
+    return lines
+
+
+def _render_table(table) -> list[str]:
+    cells = [[_format(v) for v, _ in row] for row in table]
+    numeric = [[isinstance(v, (int, float)) and not isinstance(v, bool) for v, _ in row] for row in table]
+    columns = max(len(r) for r in cells)
+    widths = [max((len(r[c]) for r in cells if c < len(r)), default=0) for c in range(columns)]
+    lines = []
+    for row, kinds in zip(cells, numeric):
+        parts = [text.rjust(widths[c]) if kinds[c] else text.ljust(widths[c])
+                 for c, text in enumerate(row)]
+        lines.append("    " + "  ".join(parts).rstrip())
+    return lines
