@@ -248,7 +248,10 @@ MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("
 MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0), Range("Ra", 1e6, 1e9),
                             VERTICAL_TILT_COVERAGE)
 ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7))
-WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", low=20.0))
+#: Wright's aspect reach: the correlation reads H/L through Nu_2, but no upper bound was found
+#: in a source we could read; 1e3 is our bound (glazing cavities run to H/L ~ 200), so that an
+#: aspect typed in the wrong unit (a height in mm: H/L of tens of thousands) gets the note.
+WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", 20.0, 1e3))
 
 CAVITY_AUTO = (
     AutoStep("conduction"),
@@ -449,7 +452,7 @@ def _wright_bands(ra):
     validity=WRIGHT_RANGES,
     notes="Implemented: the ISO 15099 form, the larger of Wright's three-band Nu_1 and the "
           "aspect term Nu_2 = 0.242 (Ra/A)^0.272.  Bounds (from memory, not checked against "
-          "the paper): Ra <= 1e6, A >= 20.  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
+          "the paper): Ra <= 1e6, A >= 20; the upper A <= 1e3 is ours (no published bound found).  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
           "(1.275 -> 1.268) and +0.016 at Ra = 5e4 (2.467 -> 2.483), visible where Nu_2 is "
           "smaller (tall cavities).  Nu_1 >= 1 always.")
 def wright_vertical(ra, pr, aspect):

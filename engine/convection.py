@@ -30,7 +30,8 @@ from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_pr
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .validity import (PLAIN_NUMBERS, is_plain_number, InputError, distinct_notes, require_between,
-                       require_choice, require_positive, unwrap, warn_out_of_range)
+                       require_choice, require_length, require_positive, unwrap, warn_out_of_range,
+                       is_plain_length)
 
 __all__ = [
     "ConvectionResult",
@@ -175,20 +176,25 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
         plate = f"{'hot' if delta_t >= 0 else 'cold'}-{str(facing).strip().lower()}" if geo.cases else ""
         result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
         return _scalar_result(props, t_film, gr, ra, length, result, plate)
-    length = require_positive(function_name, length_name, length, "m")
+    length = require_length(function_name, length_name, length)
+    if "tilt" in geo.inputs:
+        tilt = require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg")
+    if "slenderness" in geo.inputs:
+        diameter = require_length(function_name, "diameter", diameter)
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name,
                                           names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
-    shape = np.broadcast(ra, props.prandtl).shape
+    # every argument takes part in the shape (a range of tilts or diameters at one temperature)
+    shape = np.broadcast(ra, props.prandtl, *([tilt] if "tilt" in geo.inputs else []),
+                         *([diameter] if "slenderness" in geo.inputs else [])).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
     if "tilt" in geo.inputs:
-        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg"), shape)
+        inputs["tilt"] = _full(tilt, shape)
     if "slenderness" in geo.inputs:
-        diameter = require_positive(function_name, "diameter", diameter, "m")
         inputs.update({k: _full(v, shape) for k, v in shape_ratios(geo, length, diameter=diameter).items()})
     if geo.cases:
         facing = require_choice(function_name, "facing", facing, FACINGS)
@@ -204,7 +210,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     else:
         case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
-    h = result.nu * props.conductivity / length
+    h = _full(result.nu * props.conductivity / length, shape)
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
@@ -258,8 +264,8 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
                          tilt=layer_tilt(float(tilt), delta_t), **shape_ratios(geo, gap, height=height))
         return _scalar_result(props, t_film, gr, ra, gap, result, "")
-    gap = require_positive(function_name, "gap", gap, "m")
-    height = require_positive(function_name, "height", height, "m")
+    gap = require_length(function_name, "gap", gap)
+    height = require_length(function_name, "height", height)
     tilt = require_between(function_name, "tilt", tilt, tilt_low, tilt_high, "deg")
     props, t_film, beta = film_properties(t1, t2, gas, pressure, property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
@@ -282,7 +288,7 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
     """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
     return (property_temperature is None
-            and all(type(v) in PLAIN_NUMBERS and 0.0 < v < math.inf for v in lengths)
+            and all(is_plain_length(v) for v in lengths)
             and plain_state_accepted(gas, temperatures, pressure))
 
 

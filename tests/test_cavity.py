@@ -508,7 +508,7 @@ BOUNDS = {
     # ElSherbiny's (2e7) and Wright's (1e6) Ra ranges end below 1e8: never binds alone.
     ("elsherbiny", "Ra [tilt < critical tilt]"): None,
     ("wright", "Ra"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "ra", (2, 8)),
-    ("wright", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "aspect", (0, 3)),
+    ("wright", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "aspect", (0, 4)),
     ("wright", "tilt - critical tilt [H/L >= 12]"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "tilt", (0, 180)),
     ("wright", "Ra [tilt < critical tilt]"): None,
     ("hollands", "tilt"): (dict(ra=1e4, pr=AIR_PR, aspect=20.0, tilt=30.0), "tilt", (-1, 180)),

@@ -11,7 +11,7 @@ from numpy.typing import ArrayLike
 from ..groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, film_properties
 from .walls import (BAR_COHEN_ROHSENOW, CHANNEL_CASES, CHANNEL_OPTIMA, FLUX_CASES, PLATE_OPTIMUM_FRACTION,
                     _composite)
-from ..validity import InputError, require_choice, require_positive, unwrap
+from ..validity import InputError, require_choice, require_length, require_positive, unwrap
 
 # --------------------------------------------------------------------------------------------
 # Optimum spacing
@@ -92,7 +92,7 @@ def channel_spacing(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, case: str =
     function_name = "channel_spacing"
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
     optimum = require_choice(function_name, "optimum", optimum, CHANNEL_OPTIMA)
-    height = require_positive(function_name, "height", height, "m")
+    height = require_length(function_name, "height", height)
     props, _, beta = film_properties(ts, tf, gas, pressure, function_name=function_name)
     delta_t = np.abs(np.subtract(ts, tf, dtype=float))
     if np.any(delta_t == 0):

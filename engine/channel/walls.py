@@ -11,7 +11,7 @@ from ..correlations import (AutoStep, Geometry, Parameter, correlation, define_g
                             nusselt_at_difference, nusselt_value)
 from ..groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
 from .._docs import shared_docs
-from ..validity import Range, require_choice, require_positive
+from ..validity import Range, require_choice, require_length, require_positive
 
 CHANNEL_CASES = ("isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic")
 FLUX_CASES = ("flux", "flux-adiabatic")
@@ -205,8 +205,8 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     (4.9, 'bar-cohen-rohsenow')
     """
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
-    spacing = require_positive(function_name, "spacing", spacing, "m")
-    height = require_positive(function_name, "height", height, "m")
+    spacing = require_length(function_name, "spacing", spacing)
+    height = require_length(function_name, "height", height)
     props, t_film, beta = film_properties(ts, tf, gas, pressure, property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
     delta_t = np.subtract(ts, tf, dtype=float)
