@@ -160,8 +160,9 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     >>> round(float(result.h), 2), str(result.method)
     (5.0, 'churchill-chu')
     """
-    function_name = function_name or f"h_{geometry}"
-    geo = GEOMETRIES[geometry]
+    surfaces = tuple(name for name in GEOMETRIES if name not in ONE_CALLS)
+    function_name = function_name or (f"h_{geometry}" if geometry in surfaces else "surface_convection")
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, surfaces)]
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)

@@ -12,6 +12,7 @@ from ..constants import STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS as zero_Celsius
 
 from ..convection import surface_convection
 from ..groups import DEFAULT_PRESSURE
+from ..gases import require_gas_temperature
 from .._docs import shared_docs
 from .walls import FIN_TIPS, channel_convection
 from ..validity import (InputError, distinct_notes, require_between, require_choice, require_finite,
@@ -122,8 +123,8 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     (30.2, 21.8, 1.8, 6.5)
     """
     tip = require_choice(function_name, "tip", tip, FIN_TIPS)
-    t_base = require_finite(function_name, "t_base", t_base)
-    t_ambient = require_finite(function_name, "t_ambient", t_ambient)
+    t_base = require_gas_temperature(function_name, "t_base", t_base, gas)
+    t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
     width = require_length(function_name, "base_width", base_width, HEATSINK_SIZE_LIMITS["base_width"])
     fin_height = require_length(function_name, "fin_height", fin_height, HEATSINK_SIZE_LIMITS["fin_height"])
     length = require_length(function_name, "fin_length", fin_length, HEATSINK_SIZE_LIMITS["fin_length"])
@@ -238,7 +239,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     """
     function_name = "heatsink_tbase"
     q = require_between(function_name, "q", q, 0.0, np.inf, "W")
-    t_ambient = require_finite(function_name, "t_ambient", t_ambient)
+    t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
     # Check the geometry once, in full, so its messages name this function (and before the
     # arrays below, whose float conversion would otherwise meet a bad cell first).
     heatsink(t_ambient + 1.0, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,

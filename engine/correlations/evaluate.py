@@ -134,8 +134,8 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     >>> bool(result.in_range), str(result.note)
     (False, 'lloyd-moran: Ra = 1e+12 above 1e+11 (valid 10000 <= Ra <= 1e+11)')
     """
-    geo = GEOMETRIES[geometry]
-    function_name = function_name or f"nu_{geometry}"
+    function_name = function_name or (f"nu_{geometry}" if geometry in GEOMETRIES else "nusselt")
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
     if geo.cases:
         case = require_choice(function_name, "case", case, geo.cases)
     else:
