@@ -15,6 +15,7 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 from typing import Any, Callable
@@ -29,6 +30,7 @@ from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
+from .plausibility import length_slip, temperature_slip, warn_slips
 from .validity import (PLAIN_NUMBERS, is_plain_number, InputError, distinct_notes, require_between,
                        require_choice, require_length, require_positive, unwrap, warn_out_of_range,
                        is_plain_length)
@@ -163,6 +165,27 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     surfaces = tuple(name for name in GEOMETRIES if name not in ONE_CALLS)
     function_name = function_name or (f"h_{geometry}" if geometry in surfaces else "surface_convection")
     geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, surfaces)]
+    result = _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter, gas, pressure, method,
+                                 property_temperature, ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"ts": t_surface, "tf": t_fluid}),
+                      length_slip(geo.length, length),
+                      length_slip("diameter", diameter) if "slenderness" in geo.inputs else "", stacklevel=4)
+    return _with_slip(result, slip)
+
+
+def _with_slip(result: "ConvectionResult", slip: str) -> "ConvectionResult":
+    """The result with a unit-slip note added to every element's note (the range notes stay)."""
+    if not slip:
+        return result
+    note = np.asarray(result.note, dtype=object)
+    with_slip = np.where(note == "", slip, note + "; " + slip) if note.ndim else \
+        np.array(f"{note.item()}; {slip}" if note.item() else slip, dtype=object)
+    return dataclasses.replace(result, note=with_slip)
+
+
+def _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter, gas, pressure, method,
+                        property_temperature, ideal_expansion, function_name) -> "ConvectionResult":
+    geometry = geo.name
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
@@ -256,6 +279,15 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
+    result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                                ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"t1": t1, "t2": t2}), length_slip("gap", gap),
+                      length_slip("height", height), stacklevel=4)
+    return _with_slip(result, slip)
+
+
+def _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                       ideal_expansion, function_name) -> "ConvectionResult":
     geo = GEOMETRIES["cavity"]
     tilt_low, tilt_high = geo.tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
