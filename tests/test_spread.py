@@ -97,7 +97,7 @@ def test_errors_name_the_argument():
 def test_cell_spills_one_row():
     spread = stillair.nu_spread("hcyl", 1e6, 0.71)
     assert call("NU_SPREAD", "hcyl", 1e6, 0.71) == [
-        [spread.low, spread.high, 2.0, "churchill-chu < morgan"]]
+        [spread.low, spread.high, 3.0, "kuehn-goldstein < churchill-chu < morgan"]]
     # vertical cylinder: the aspect cell is height/diameter
     assert call("NU_SPREAD", "vcyl", 1e6, 0.71, None, None, 10.0)[0][0] == pytest.approx(
         stillair.nu_spread("vcyl", 1e6, 0.71, slenderness=10.0).low)

@@ -81,7 +81,7 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
     --------
     >>> spread = nu_spread("hcyl", 1e6, 0.71)
     >>> spread.methods, round(spread.low, 2), round(spread.high, 2)
-    (('churchill-chu', 'morgan'), 14.54, 15.18)
+    (('kuehn-goldstein', 'churchill-chu', 'morgan'), 13.63, 15.18)
     """
     geo = _geometry(function_name, geometry)
     given = _with_default_tilt(geo, {"ra": ra, "pr": pr, "tilt": tilt, "aspect": aspect,
