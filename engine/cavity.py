@@ -65,9 +65,10 @@ AUTO_RULE = (
     "carried to 5 deg off the horizontal), then the vertical correlations with the shared tilt "
     "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
     "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
-    "macgregor-emery, wright; what is left of a short layer (H/L < 2) stays with Catton's "
-    "short-layer form, the nearest valid correlation, and the rest goes to hollands below 75 deg "
-    "and elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
+    "macgregor-emery, wright; what is left stays with the nearest valid correlation - Catton's "
+    "short-layer form for H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
+    "form for liquids (Pr >= 1) to H/L = 40 - and the rest goes to hollands below 75 deg and "
+    "elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
     "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
     "5 deg in tilt - so the value changes without a step and lies between the methods it "
     "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
@@ -269,6 +270,12 @@ CAVITY_AUTO = (
     # stays with Catton's short-layer form, the nearest valid correlation, rather than falling
     # to ElSherbiny's (published from aspect 5)
     AutoStep("catton", when=(Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),), form="short"),
+    # likewise what is left of a layer up to H/L = 10 (beyond Catton's Ra range, or where its
+    # band fades with no valid neighbour) stays with Catton's tall-layer form, and of a liquid
+    # layer (Pr >= 1) up to H/L = 40 with MacGregor-Emery's turbulent form
+    AutoStep("catton", when=(Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"), Range("aspect", high=10.0)),
+             form="tall"),
+    AutoStep("macgregor-emery", when=(Range("aspect", high=40.0), Range("Pr", low=1.0)), form="turbulent"),
     AutoStep("hollands", when=(Range("tilt", high=75.0),)),
     AutoStep("elsherbiny", when=()),
 )
