@@ -173,3 +173,32 @@ def test_a_cell_in_kelvin_keeps_its_number_and_records_the_note():
         value = call("H_CAVITY", 293.15, 283.15, 0.02, 1)
     assert isinstance(value, float)
     assert any("looks like a kelvin value" in note for _, note in recorder.notes)
+
+
+# --- array arguments: every h_ function broadcasts every numeric argument ------------------------
+
+ARRAY_CALLS = {
+    "h_vplate/height": lambda a: stillair.h_vplate(50, 20, a),
+    "h_hplate/length": lambda a: stillair.h_hplate(50, 20, a, "up"),
+    "h_tplate/tilt": lambda a: stillair.h_tplate(50, 20, 0.5, [10.0, 20.0], "up") if a is None else
+    stillair.h_tplate(50, 20, a, 30.0, "up"),
+    "h_hcyl/diameter": lambda a: stillair.h_hcyl(50, 20, a),
+    "h_sphere/diameter": lambda a: stillair.h_sphere(50, 20, a),
+    "h_vcyl/diameter": lambda a: stillair.h_vcyl(50, 20, 0.5, a),
+    "h_cavity/height": lambda a: stillair.h_cavity(30, 10, 0.02, [1.0, 2.0]) if a is None else
+    stillair.h_cavity(30, 10, a, 1.0),
+    "h_channel/height": lambda a: stillair.h_channel(50, 20, 0.01, [0.1, 0.2]) if a is None else
+    stillair.h_channel(50, 20, a, 0.1),
+}
+
+
+@pytest.mark.parametrize("name", sorted(ARRAY_CALLS))
+def test_every_h_function_broadcasts_an_array_argument(name):
+    """Typed ArrayLike: a list in one argument gives one value per element, each equal to the
+    scalar call (a tilt or diameter list once failed to broadcast)."""
+    sizes = [0.02, 0.05]
+    whole = np.asarray(ARRAY_CALLS[name](sizes))
+    assert whole.shape == (2,)
+    assert [ARRAY_CALLS[name](s) for s in sizes] == pytest.approx(list(whole), rel=1e-12)
+    assert np.shape(ARRAY_CALLS[name](None) if name in ("h_tplate/tilt", "h_cavity/height",
+                                                         "h_channel/height") else whole) == (2,)
