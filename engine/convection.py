@@ -183,8 +183,10 @@ def _with_slip(result: "ConvectionResult", slip: str) -> "ConvectionResult":
     return dataclasses.replace(result, note=with_slip)
 
 
-def _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter, gas, pressure, method,
-                        property_temperature, ideal_expansion, function_name) -> "ConvectionResult":
+def _surface_convection(geo: Geometry, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike,
+                        facing: str | None, tilt: ArrayLike | None, diameter: ArrayLike | None, gas: str,
+                        pressure: ArrayLike, method: str, property_temperature: ArrayLike | None,
+                        ideal_expansion: bool, function_name: str) -> "ConvectionResult":
     geometry = geo.name
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
@@ -201,19 +203,22 @@ def _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter,
         result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
         return _scalar_result(props, t_film, gr, ra, length, result, plate)
     length = require_length(function_name, length_name, length)
+    # every argument takes part in the result's shape (a range of tilts or diameters at one
+    # temperature broadcasts like a range of temperatures)
+    extra: list[np.ndarray] = []
     if "tilt" in geo.inputs:
         tilt = require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg")
+        extra.append(tilt)
     if "slenderness" in geo.inputs:
         diameter = require_length(function_name, "diameter", diameter)
+        extra.append(diameter)
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name,
                                           names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
-    # every argument takes part in the shape (a range of tilts or diameters at one temperature)
-    shape = np.broadcast(ra, props.prandtl, *([tilt] if "tilt" in geo.inputs else []),
-                         *([diameter] if "slenderness" in geo.inputs else [])).shape
+    shape = np.broadcast(ra, props.prandtl, *extra).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
     if "tilt" in geo.inputs:
