@@ -168,6 +168,39 @@ def _hplate_raithby_hollands(ra, pr, case):
         return 2.5 / np.log1p(2.5 / thin_layer)
 
 
+def _vdi_unstable_group(inputs):
+    """Ra f2(Pr), the group of VDI's upward-facing heated plate."""
+    return inputs["ra"] * (1.0 + (0.322 / inputs["pr"]) ** 0.55) ** (20.0 / 11.0)
+
+
+def _vdi_stable_group(inputs):
+    """Ra f1(Pr), the group of VDI's downward-facing heated plate."""
+    return inputs["ra"] * (1.0 + (0.492 / inputs["pr"]) ** (9.0 / 16.0)) ** (-16.0 / 9.0)
+
+
+@correlation(
+    geometry="hplate", method="vdi", cases=PLATE_CASES,
+    title="VDI Heat Atlas, horizontal plate (Stewartson's form for the unstable face)",
+    source="VDI Heat Atlas, 2nd ed., Springer (2010), section F2; the unstable face after K. "
+           "Stewartson, ZAMP 9 (1958) 276-282; equations as transcribed in the ht library "
+           "(C. Bell), ht.conv_free_immersed.Nu_horizontal_plate_VDI (L = A/P); the Atlas itself "
+           "was not read",
+    equation="hot-up, cold-down: Nu = 0.766 (Ra f2)^(1/5) for Ra f2 <= 7e4, 0.15 (Ra f2)^(1/3) "
+             "above, f2 = [1 + (0.322/Pr)^(11/20)]^(20/11); hot-down, cold-up: Nu = 0.6 (Ra f1)^(1/5), "
+             "f1 = [1 + (0.492/Pr)^(9/16)]^(-16/9)",
+    validity=[Range("Ra*f1(Pr)", 1e3, 1e10, of=_vdi_stable_group)],
+    validity_by_case={case: (Range("Ra*f2(Pr)", 1.0, 1e11, of=_vdi_unstable_group),) for case in UNSTABLE_CASES},
+    notes="Ranges unverified (ht states none; the Atlas was not read): 1e3 to 1e10 for the stable "
+          "face and 1 to 1e11 for the unstable one are ours, from memory of the Atlas.  The "
+          "unstable face steps down by 13 % at Ra f2 = 7e4 (0.766 x^(1/5) = 7.13 against 0.15 x^(1/3) = 6.18), "
+          "as published.")
+def _hplate_vdi(ra, pr, case):
+    if case in UNSTABLE_CASES:
+        group = _vdi_unstable_group({"ra": ra, "pr": pr})
+        return where(group <= 7e4, 0.766 * group ** 0.2, 0.15 * np.cbrt(group))
+    return 0.6 * _vdi_stable_group({"ra": ra, "pr": pr}) ** 0.2
+
+
 # McAdams correlated square plates on their side length; stillair's hplate Ra is on A/P, which
 # is a quarter of the side of a square (a disk of diameter D: McAdams's 0.9 D = 3.6 A/P).
 _MCADAMS_SIDE_PER_LENGTH = 4.0

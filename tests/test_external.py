@@ -17,6 +17,7 @@ import stillair
 from stillair.external import LLOYD_MORAN_CROSSOVER
 from stillair.correlations import (
     CORRELATIONS,
+    PLATE_CASES,
     GEOMETRIES,
     STABLE_CASES,
     UNSTABLE_CASES,
@@ -232,6 +233,8 @@ BAND_EDGES = [
     ("hcyl", "morgan", None, 1e2, 0.00380521),
     ("hcyl", "morgan", None, 1e4, -0.00196429),
     ("hcyl", "morgan", None, 1e7, -0.206251),
+    # VDI's unstable face at Ra f2(Pr) = 7e4 (at Pr 0.7: f2 = 2.4537): 0.15 x^(1/3) - 0.766 x^(1/5)
+    ("hplate", "vdi", "hot-up", 7e4 / (1 + (0.322 / 0.7) ** 0.55) ** (20 / 11), -0.950681),
     # the vertical-cylinder review's two-band correlations: upper band minus lower at the edge
     ("vcyl", "mcadams", None, 1e9, 25.0815),            # 0.13*1e3 - 0.59*177.828
     ("vcyl", "jakob-linke", None, 1e8, 4.3765),         # 0.129*464.159 - 0.555*100
@@ -380,6 +383,10 @@ def _set_quantity(quantity, target, inputs):
         inputs["ra"] = target / 64.0
     elif quantity == "Ra*cos(tilt)":
         inputs["ra"] = target / math.cos(math.radians(inputs["tilt"]))
+    elif quantity == "Ra*f2(Pr)":   # VDI's unstable-face group
+        inputs["ra"] = target / (1 + (0.322 / inputs["pr"]) ** 0.55) ** (20 / 11)
+    elif quantity == "Ra*f1(Pr)":   # VDI's stable-face group
+        inputs["ra"] = target / (1 + (0.492 / inputs["pr"]) ** (9 / 16)) ** (-16 / 9)
     elif quantity == "Gr_D":   # Gr on the diameter = (Ra/Pr) / slenderness^3
         inputs["slenderness"] = (inputs["ra"] / inputs["pr"] / target) ** (1.0 / 3.0)
     elif quantity == "(D/L)*Gr^(1/4)":
@@ -541,7 +548,7 @@ def test_public_functions_keep_shapes_and_return_floats_for_scalars():
     (lambda: stillair.nu_hplate(1e6, 0.7, "sideways"),
      "nu_hplate: case must be one of \"hot-up\", \"hot-down\", \"cold-up\", \"cold-down\", got 'sideways'"),
     (lambda: stillair.nu_hplate(1e6, 0.7, "hot-up", method="raithby-hollands"),
-     "nu_hplate: method must be one of \"auto\", \"lloyd-moran\", \"mcadams\" for case \"hot-up\" "
+     "nu_hplate: method must be one of \"auto\", \"lloyd-moran\", \"vdi\", \"mcadams\" for case \"hot-up\" "
      "(raithby-hollands serves only \"hot-down\", \"cold-up\"), got 'raithby-hollands'"),
     (lambda: stillair.nu_tplate(1e6, 0.7, 30, "hot-down", method="raithby-hollands"),
      "nu_tplate: method must be one of \"auto\", \"churchill-chu-cos\" for case \"hot-down\" "
@@ -601,6 +608,15 @@ def test_al_arabi_khamis_ra_bounds_with_gr_d_held(ra, inside):
     assert result.in_range == inside
     if not inside:
         assert result.note.startswith("al-arabi-khamis: Ra = ")
+
+
+@pytest.mark.parametrize("case", PLATE_CASES)
+@pytest.mark.parametrize("pr", [0.71, 5.54, 100.0])
+def test_vdi_horizontal_plate_matches_ht(case, pr):
+    for ra in (2e3, 5e4, 3e5, 1e8, 5e9):
+        ours = nusselt("hplate", "vdi", case, ra=ra, pr=pr).nu
+        expected = ht.conv_free_immersed.Nu_horizontal_plate_VDI(pr, ra / pr, buoyancy=case in UNSTABLE_CASES)
+        assert float(ours) == pytest.approx(expected, rel=1e-9), (case, ra)
 
 
 @pytest.mark.parametrize("ra", [1e-6, 1e-2, 1.0, 1e3, 1e6, 1e9, 1e12])
