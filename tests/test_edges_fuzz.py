@@ -202,3 +202,23 @@ def test_every_h_function_broadcasts_an_array_argument(name):
     assert [ARRAY_CALLS[name](s) for s in sizes] == pytest.approx(list(whole), rel=1e-12)
     assert np.shape(ARRAY_CALLS[name](None) if name in ("h_tplate/tilt", "h_cavity/height",
                                                          "h_channel/height") else whole) == (2,)
+
+
+def test_calc_lists_the_kelvin_note_of_a_cell(tmp_path, capsys):
+    """`stillair calc` lists the unit-slip note as it lists range notes (the note travels as a
+    CorrelationRangeWarning from the cell's one call path)."""
+    import json
+
+    import xlsxwriter
+
+    from stillair.addin.cli import main
+
+    path = tmp_path / "kelvin.xlsx"
+    book = xlsxwriter.Workbook(str(path))
+    sheet = book.add_worksheet("Gap")
+    sheet.write_formula("B1", "=H_CAVITY(293.15,283.15,0.02,1)")
+    book.close()
+    assert main(["calc", str(path), "--json"]) == 0
+    notes = json.loads(capsys.readouterr().out)["notes"]
+    assert notes and notes[0]["cell"] == "Gap!B1"
+    assert "293.15 looks like a kelvin value" in notes[0]["message"]
