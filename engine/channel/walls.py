@@ -208,7 +208,8 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
     spacing = require_length(function_name, "spacing", spacing)
     height = require_length(function_name, "height", height)
-    props, t_film, beta = film_properties(ts, tf, gas, pressure, property_temperature=property_temperature,
+    props, t_film, beta = film_properties(ts, tf, gas, pressure, names=("ts", "tf"),
+                                          property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
     delta_t = np.subtract(ts, tf, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, spacing)

@@ -220,8 +220,18 @@ def merge_masked(result_type, parts, shape):
 
 
 def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inputs):
-    """Nu alone (float for scalar inputs), warning when any input is outside the range."""
-    return unwrap(nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu)
+    """Nu alone (float for scalar inputs), warning when any input is outside the range.
+
+    A correlation whose formula is infinite at Ra = 0 (Popiel's curvature term: no boundary
+    layer at all) is refused by the argument that made it so rather than returned as inf."""
+    nu = nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu
+    infinite = ~np.isfinite(nu)
+    if np.any(infinite):
+        ra = np.broadcast_to(np.asarray(inputs["ra"], dtype=float), np.shape(nu))
+        raise InputError(function_name, "Ra", ra[infinite].flat[0] if np.ndim(nu) else float(ra),
+                         f"> 0 for geometry \"{geometry}\" (its correlation is infinite at Ra = 0, "
+                         "where nothing drives the flow)")
+    return unwrap(nu)
 
 
 def nusselt_at_difference(geometry: str, method, case=None, *, function_name: str, ra, **inputs) -> NusseltResult:
