@@ -62,7 +62,7 @@ AUTO_RULE = (
     "auto weighs, in this order, each method's coverage of what the earlier ones left: "
     "conduction (heated from above, or Ra cos(tilt) <= 1708 and Ra sin(tilt) <= 1e3), hollands "
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
-    "carried to 5 deg off the horizontal), then the vertical correlations with the shared tilt "
+    "carried to 5 deg off the horizontal for H/L >= 12), then the vertical correlations with the shared tilt "
     "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
     "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
     "macgregor-emery, wright; what is left stays with the nearest valid correlation - Catton's "
@@ -258,8 +258,10 @@ CAVITY_AUTO = (
     AutoStep("conduction"),
     AutoStep("hollands", when=(Range("tilt", high=75.0), Range("aspect", low=SHORT_CAVITY),
                                Range("Ra", high=1e8))),
+    # carried 5 deg off the horizontal for tall layers only: a short one (H/L < 12) has Catton's
+    # interpolation below the critical tilt, valid there
     AutoStep("globe-dropkin", when=(Range("tilt", high=0.0, placement="outside"), Range("Ra", 3e5, 7e9),
-                                    Range("Pr", 0.02, 8750.0))),
+                                    Range("Pr", 0.02, 8750.0), Range("aspect", low=SHORT_CAVITY))),
     AutoStep("elsherbiny", when=ELSHERBINY_RANGES + (VERTICAL_TILT_COVERAGE,)),
     AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
     AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
@@ -273,9 +275,10 @@ CAVITY_AUTO = (
     # likewise what is left of a layer up to H/L = 10 (beyond Catton's Ra range, or where its
     # band fades with no valid neighbour) stays with Catton's tall-layer form, and of a liquid
     # layer (Pr >= 1) up to H/L = 40 with MacGregor-Emery's turbulent form
-    AutoStep("catton", when=(Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"), Range("aspect", high=10.0)),
-             form="tall"),
-    AutoStep("macgregor-emery", when=(Range("aspect", high=40.0), Range("Pr", low=1.0)), form="turbulent"),
+    AutoStep("catton", when=(Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"),
+                             Range("aspect", high=10.0, placement="outside")), form="tall"),
+    AutoStep("macgregor-emery", when=(Range("aspect", high=40.0, placement="outside"),
+                                      Range("Pr", low=1.0, placement="outside")), form="turbulent"),
     AutoStep("hollands", when=(Range("tilt", high=75.0),)),
     AutoStep("elsherbiny", when=()),
 )
