@@ -261,7 +261,8 @@ CAVITY_AUTO = (
     # carried 5 deg off the horizontal for tall layers only: a short one (H/L < 12) has Catton's
     # interpolation below the critical tilt, valid there
     AutoStep("globe-dropkin", when=(Range("tilt", high=0.0, placement="outside"), Range("Ra", 3e5, 7e9),
-                                    Range("Pr", 0.02, 8750.0), Range("aspect", low=SHORT_CAVITY))),
+                                    Range("Pr", 0.02, 8750.0),
+                                    Range("aspect", low=SHORT_CAVITY, placement="outside"))),
     AutoStep("elsherbiny", when=ELSHERBINY_RANGES + (VERTICAL_TILT_COVERAGE,)),
     AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
     AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
