@@ -421,9 +421,6 @@ def _thin_cylinder_group(inputs):
 #: Sparrow & Gregg's thin-cylinder criterion; auto hands over to popiel across (D/L) Gr^(1/4)
 #: = 35 .. 70 (both correlations inside their ranges there).
 THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
-#: Where popiel is out of range, the plate result keeps the whole of the criterion's range (its
-#: band carried outside the bound, 35 .. 17.5) rather than handing weight to an extrapolation.
-THIN_CYLINDER_KEPT = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0, placement="outside")
 
 define_geometry(Geometry(
     name="vcyl", title="vertical cylinder", inputs=("ra", "pr", "slenderness"),
@@ -434,13 +431,11 @@ define_geometry(Geometry(
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
                 "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
                 "1.5e4 <= Ra <= 1e9, slenderness <= 60, 0.01 <= Pr <= 100; else, with the note, "
-                "churchill-chu where the criterion holds (the nearest valid correlation: it keeps "
-                "the whole of the criterion's range, fading below it across (D/L) Gr^(1/4) = "
-                "35..17.5) and popiel where it does not. The "
+                "churchill-chu where the criterion holds and popiel where it does not. The "
                 "hand-over is blended across (D/L) Gr^(1/4) = 35..70 (a factor 2 inside the "
                 "criterion) and a factor 4 inside churchill-chu's Ra bounds, without a step.",
     auto={None: (AutoStep("churchill-chu"), AutoStep("popiel"),
-                 AutoStep("churchill-chu", when=(THIN_CYLINDER_KEPT,)), AutoStep("popiel", when=()))}))
+                 AutoStep("churchill-chu", when=(THIN_CYLINDER,)), AutoStep("popiel", when=()))}))
 
 
 @correlation(
