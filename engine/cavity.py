@@ -65,8 +65,9 @@ AUTO_RULE = (
     "carried to 5 deg off the horizontal for H/L >= 12), then the vertical correlations with the shared tilt "
     "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
     "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
-    "macgregor-emery, wright; what is left stays with the nearest valid correlation - Catton's "
-    "short-layer form for H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
+    "macgregor-emery, wright; what is left stays with the nearest valid correlation - conduction "
+    "inside its own range (fading across a factor 1.25 beyond it), Catton's short-layer form for "
+    "H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
     "form for liquids (Pr >= 1) to H/L = 40 - and the rest goes to hollands below 75 deg and "
     "elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
     "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
@@ -272,6 +273,11 @@ CAVITY_AUTO = (
     # what is left of a short layer (aspect < 2: below Catton's Ra range, or Pr outside it)
     # stays with Catton's short-layer form, the nearest valid correlation, rather than falling
     # to ElSherbiny's (published from aspect 5)
+    # conduction keeps what is left inside its own range, fading just beyond it (a factor 1.25)
+    AutoStep("conduction", when=(Range("Ra cos(tilt)", high=RAYLEIGH_ONSET, of=_ra_cos, band=1.25,
+                                       placement="outside"),
+                                 Range("Ra sin(tilt)", high=CONDUCTION_VERTICAL_RA, of=_ra_sin, band=1.25,
+                                       placement="outside"))),
     AutoStep("catton", when=(Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),), form="short"),
     # likewise what is left of a layer up to H/L = 10 (beyond Catton's Ra range, or where its
     # band fades with no valid neighbour) stays with Catton's tall-layer form, and of a liquid
