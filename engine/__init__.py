@@ -16,10 +16,19 @@ Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properti
 :mod:`stillair.atmosphere`, :mod:`stillair.groups` (Gr, Ra), :mod:`stillair.external` (plates,
 cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
 :mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
-:mod:`stillair.correlations` (the correlation registry and :func:`nusselt`).
+:mod:`stillair.correlations` (the correlation registry and :func:`nusselt`),
+:mod:`stillair.ventilation` (stack-driven and forced airflow through enclosures), :mod:`stillair.humid`
+(humid air: saturation, humidity ratio, dew point, surface humidity), :mod:`stillair.insulation`
+(the insulation thickness for a surface temperature).
 """
 
-from .validity import *  # noqa: F401,F403
+# First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
+# line, not a traceback (only when this process is that command; see _console).
+from ._console import guard_command_start as _guard_command_start
+
+_guard_command_start()
+
+from .validity import *  # noqa: F401,F403,E402
 from .correlations import *  # noqa: F401,F403
 from .external import *  # noqa: F401,F403
 from .cavity import *  # noqa: F401,F403
@@ -30,6 +39,9 @@ from .radiation import *  # noqa: F401,F403
 from .convection import *  # noqa: F401,F403
 from .channel import *  # noqa: F401,F403
 from .network import *  # noqa: F401,F403
+from .ventilation import *  # noqa: F401,F403
+from .humid import *  # noqa: F401,F403
+from .insulation import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
 
@@ -70,4 +82,18 @@ __all__ = [
     "radiation_flux", "exchange_factor", "SIGMA",
     # the thermal network
     "solve_network", "NetworkResult", "BranchResult", "BRANCH_KINDS", "clear_network_cache",
+    # ventilation: stack-driven and forced airflow
+    "stack_flow", "airflow_for", "DEFAULT_DISCHARGE_COEFFICIENT",
+    # humid air
+    "saturation_pressure",
+    "vapour_pressure",
+    "humidity_ratio",
+    "dew_point",
+    "surface_rh",
+    "temperature_factor",
+    # the network turned round: the heat input that brings a node to a temperature
+    "heat_for_temperature",
+    "HeatForTemperature",
+    # insulation turned round: the thickness for an outer surface temperature
+    "insulation_thickness",
 ]

@@ -503,3 +503,4 @@ def test_quick_filter_lets_every_form_of_our_calls_through():
             for written in (name, name.lower()):
                 assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
     assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")
+

@@ -50,6 +50,15 @@ SAMPLES.update({
     "CHANNEL_SPACING": (60.0, 20.0, 0.15, "isothermal-adiabatic", "plate"),
     "HEATSINK_Q": (60.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85),
     "HEATSINK_TBASE": (20.0, 25.0, 0.1, 0.03, 0.1, 0.0015, 10.0, 200.0, 0.85, "air", 95000.0),
+    "STACK_FLOW": (40.0, 25.0, 0.01, 0.012, 1.2, None, 3.8),
+    "AIRFLOW_FOR": (300.0, 15.0, 30.0, 95000.0),
+    "SAT_PRESSURE": (-5.0, "ice"),
+    "VAPOUR_PRESSURE": (20.0, 0.5, 95000.0),
+    "HUMIDITY_RATIO": (20.0, 0.5),
+    "DEW_POINT": (20.0, 0.5, None),
+    "SURFACE_RH": (20.0, 0.5, 12.0),
+    "TEMP_FACTOR": (15.0, 20.0, 0.0),
+    "INSULATION_THICKNESS": (6.0, 25.0, 20.0, 0.035, 0.9, "hcyl", 0.06),
 })
 DIRECT = [n for n in SAMPLES]  # functions whose cell value is the engine callable's value
 
@@ -355,6 +364,28 @@ def test_network_cells_solve_the_series_wall_exactly():
     assert call("NET_CHECK", BRANCHES, BOUNDARIES).startswith("OK: ")
 
 
+def test_net_heat_for_turns_the_series_wall_round():
+    """The heat input at the middle node that puts it at 15 °C: what leaves through the skin
+    (15 K / 0.05 K/W) minus what arrives through the wall (5 K / R_WALL), Fourier's law."""
+    bounds = [["in", "T", 20.0], ["out", "T", 0.0], [1, "Q", 7.0]]
+    expected = 15.0 / 0.05 - 5.0 / R_WALL
+    assert call("NET_HEAT_FOR", BRANCHES, bounds, 1, 15.0) == pytest.approx(expected, rel=1e-9)
+    assert call("NET_HEAT_FOR", BRANCHES, BOUNDARIES, "1", 15.0, None, None, "1") == pytest.approx(expected, rel=1e-9)
+    assert call("NET_HEAT_FOR", BRANCHES, BOUNDARIES, "in", 15.0) == (
+        "NET_HEAT_FOR: node must be a node whose temperature is solved (boundary row 1 fixes it at 20 °C), "
+        "got 'in'")
+    assert call("NET_HEAT_FOR", BRANCHES, BOUNDARIES, "1", "warm") == (
+        "NET_HEAT_FOR: temperature must be a number, not text, got 'warm'")
+
+
+def test_humid_air_cells_refuse_a_percentage_with_what_was_meant():
+    assert call("DEW_POINT", 20.0, 50) == (
+        "DEW_POINT: rh must be a fraction from 0 to 1 (50 reads as 5,000 %; for 50 % enter 0.5), got 50")
+    assert call("DEW_POINT", [[20.0], [25.0]], [0.5, 0.6]) == [
+        [stillair.dew_point(20.0, 0.5), stillair.dew_point(20.0, 0.6)],
+        [stillair.dew_point(25.0, 0.5), stillair.dew_point(25.0, 0.6)]]
+
+
 def test_net_solve_returns_a_padded_table():
     needs_engine("NET_SOLVE")
     from stillair.addin.cells.network import RESULT_HEADER
@@ -370,6 +401,19 @@ def test_net_solve_returns_a_padded_table():
     assert rows["1"][2] == pytest.approx(20.0 - Q_EXACT * R_WALL, rel=1e-9)
     assert rows["wall"][1:4] == ["conduction", pytest.approx(Q_EXACT, rel=1e-9), "W"]
     assert rows["skin"][4] == ""  # h of a bare resistance is not a number: blank, not nan
+
+
+def test_net_airflow_reads_the_vent_branch_of_the_solved_network():
+    needs_engine("NET_SOLVE")
+    branches = [["vent", "air", "outside", "vent", 0.01, 0.01, 0.8, None, None, None],
+                ["walls", "air", "outside", "film", 4.0, 2.0, None, None, None, None]]
+    boundaries = [["air", "Q", 150.0], ["outside", "T", 25.0]]
+    record = stillair.solve_network(branches, boundaries).branches["vent"]
+    assert call("NET_AIRFLOW", branches, boundaries, "vent") == pytest.approx(record.volume_flow, rel=1e-12)
+    assert call("NET_AIRFLOW", branches, boundaries, "walls") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: 'vent', got 'walls'")
+    assert call("NET_AIRFLOW", BRANCHES, BOUNDARIES, "wall") == (
+        "NET_AIRFLOW: branch must be a vent or airflow branch: the network has none, got 'wall'")
 
 
 def test_network_input_errors_name_the_cell_function():

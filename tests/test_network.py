@@ -288,7 +288,7 @@ ERRORS = [
      "solve_network: branch row 1 (wall-out), column p2 (conductivity) must be > 0 W/(m·K), got 0"),
     ([["x", "a", "b", "conduction", 0.1, 1.0, 1.0], ["y", "a", "b", "convect", 1.0]], [["b", "T", 0]],
      'solve_network: branch row 2 (y), column kind must be one of conduction, resistance, film, vplate, '
-     'hplate, tplate, hcyl, sphere, vcyl, cavity, channel, radiation, got \'convect\''),
+     'hplate, tplate, hcyl, sphere, vcyl, cavity, channel, radiation, vent, airflow, got \'convect\''),
     ([["v", "a", "b", "vplate", None, 1.0]], [["b", "T", 0]],
      "solve_network: branch row 1 (v), column p1 (height) must be a number in m, got blank"),
     ([["v", "a", "b", "vplate", "0.5", 1.0]], [["b", "T", 0]],

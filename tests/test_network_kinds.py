@@ -19,7 +19,7 @@ def test_every_registered_geometry_is_a_branch_kind_or_skipped_with_its_reason()
     for name in generated:
         kind = BRANCH_KINDS[name]
         assert isinstance(kind, ConvectionKind) and kind.geometry == name
-    assert list(BRANCH_KINDS) == ["conduction", "resistance", "film", *generated, "radiation"]
+    assert list(BRANCH_KINDS) == ["conduction", "resistance", "film", *generated, "radiation", "vent", "airflow"]
     assert {"vplate", "hplate", "tplate", "hcyl", "sphere", "vcyl", "cavity"} <= set(generated)
     for name, reason in SKIPPED_GEOMETRIES.items():
         assert name not in BRANCH_KINDS and reason

@@ -17,7 +17,11 @@ from stillair.addin.cells.registry import REGISTRY
 # own __all__, such as correlation() or require_positive(), are not held to it.)
 DOCUMENTED_MODULES = ("stillair.gases", "stillair.atmosphere", "stillair.groups", "stillair.external",
                       "stillair.cavity", "stillair.correlations", "stillair.convection",
-                      "stillair.channel", "stillair.radiation", "stillair.network")
+                      "stillair.channel", "stillair.radiation", "stillair.network",
+                      "stillair.ventilation",
+                      "stillair.humid",
+                      "stillair.insulation",
+                      "stillair.network.inverse")
 ENGINE_MODULES = ("validity", "correlations", "external", "cavity", "gases", "atmosphere",
                   "groups", "radiation", "convection", "network")
 PUBLIC_PREFIXES = ("nu_", "h_", "gas_", "air_")

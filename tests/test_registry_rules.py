@@ -24,7 +24,10 @@ DESIGN_NAMES = (
        "H_HCYL", "H_SPHERE", "H_VCYL", "H_CAVITY", "H_RAD", "NET_SOLVE", "NET_TEMP", "NET_HEAT", "NET_CHECK",
        "STILLAIR_VERSION"]
     + ["NU_CHANNEL", "H_CHANNEL", "CHANNEL_SPACING", "HEATSINK_Q", "HEATSINK_TBASE"]
-    + ["NU_SPREAD", "NET_BAND"])
+    + ["NU_SPREAD", "NET_BAND"]
+    + ["STACK_FLOW", "AIRFLOW_FOR", "NET_AIRFLOW"]
+    + ["SAT_PRESSURE", "VAPOUR_PRESSURE", "HUMIDITY_RATIO", "DEW_POINT", "SURFACE_RH", "TEMP_FACTOR",
+       "NET_HEAT_FOR", "INSULATION_THICKNESS"])
 
 # VBA keywords and the names the generated VBA wrapper itself uses (Array, XLPy, Err...): an
 # argument with one of these names would not compile.  From the VBA language specification

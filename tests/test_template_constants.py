@@ -14,7 +14,7 @@ import pytest
 
 TEMPLATES = sorted((Path(__file__).resolve().parents[1] / "templates").glob("*.xlsx"))
 #: The templates that print a standard's or a handbook's constant we could not verify.
-WITH_UNVERIFIED = {"air-layer", "glazing-unit", "solar-collector", "finned-heatsink"}
+WITH_UNVERIFIED = {"air-layer", "glazing-unit", "solar-collector", "finned-heatsink", "hot-surface", "vented-cabinet"}
 
 
 def _texts(path: Path):

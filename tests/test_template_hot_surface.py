@@ -145,6 +145,8 @@ DIRECTIONS = {
     "eps_jacket": (0.9, "res_surf_t_first_step", -1, "a jacket that radiates more runs cooler"),
     "ins_step": (0.02, "res_surf_t_first_step", -1, "more insulation lowers the surface temperature"),
     "touch_limit": (65.0, "res_first_ok_mm", -1, "a higher limit is met by thinner insulation"),
+    "ambient_rh": (0.8, "res_dew_ambient", +1, "more humid air condenses at a higher temperature"),
+    "dew_margin": (3.0, "res_t_dry_min", +1, "a larger margin wants a warmer surface"),
 }
 
 
@@ -197,3 +199,98 @@ def test_outer_surface_spread_equals_the_engine_band(geometry):
     assert named(evaluation, "res_surf_first_low") == pytest.approx(low, rel=1e-9)
     assert named(evaluation, "res_surf_first_high") == pytest.approx(high, rel=1e-9)
     assert named(evaluation, "ambient_t") < low <= high < named(evaluation, "hot_t")
+
+
+# ---------------------------------------------------------------------------------------------
+# Exact thicknesses (INSULATION_THICKNESS): the touch limit, and the cold mode's dew point
+
+COLD = {"hot_t": 6.0, "ambient_t": 25.0, "surroundings_t": 25.0, "ambient_rh": 0.7, "eps_jacket": 0.9,
+        "pipe_od": 0.0603}
+
+
+def _exact_case(evaluation, surface_t):
+    """(thickness, outer surface solved by the network at it) for the template's geometry."""
+    v = {n: named(evaluation, n) for n in ("hot_t", "ambient_t", "surroundings_t", "ins_k", "eps_jacket",
+                                           "pipe_od", "kind", "bare_length", "facing")}
+    facing = v["facing"] if v["kind"] == "hplate" else None
+    thickness = stillair.insulation_thickness(v["hot_t"], v["ambient_t"], surface_t, v["ins_k"], v["eps_jacket"],
+                                              v["kind"], v["bare_length"], facing, v["surroundings_t"])
+    if v["kind"] == "hcyl":
+        outer = v["pipe_od"] + 2 * thickness
+        area, resistance, length = math.pi * outer, math.log(outer / v["pipe_od"]) / (2 * math.pi * v["ins_k"]), outer
+    else:
+        area, resistance, length = 1.0, thickness / v["ins_k"], v["bare_length"]
+    branches = [["ins", "hot", "surf", "resistance", resistance],
+                ["conv", "surf", "ambient", v["kind"], length, area, facing],
+                ["rad", "surf", "room", "radiation", v["eps_jacket"], None, area]]
+    bounds = [["hot", "T", v["hot_t"]], ["ambient", "T", v["ambient_t"]], ["room", "T", v["surroundings_t"]]]
+    return thickness, stillair.solve_network(branches, bounds).temperatures["surf"]
+
+
+@pytest.mark.parametrize("geometry", ["horizontal cylinder", "vertical face", "horizontal bottom"])
+def test_cold_mode_thickness_keeps_the_surface_at_dew_point_plus_margin(geometry):
+    evaluation = evaluate_template(NAME, geometry=geometry, **COLD)
+    assert named(evaluation, "res_mode") == "cold surface"
+    dew = stillair.dew_point(25.0, 0.7)
+    assert named(evaluation, "res_dew_ambient") == pytest.approx(dew, rel=1e-12)
+    target = dew + named(evaluation, "dew_margin")
+    thickness, surface = _exact_case(evaluation, target)
+    assert named(evaluation, "res_x_dry_mm") == pytest.approx(1000 * thickness, rel=1e-9)
+    assert surface == pytest.approx(target, abs=1e-6)     # the network agrees at that thickness
+    assert named(evaluation, "res_bare_dry").startswith("CONDENSATION: bare surface ")
+    # the heat gain per unit is what flows through that insulation
+    if geometry == "horizontal cylinder":
+        outer = 0.0603 + 2 * thickness
+        gain = 2 * math.pi * named(evaluation, "ins_k") * (target - 6.0) / math.log(outer / 0.0603)
+    else:
+        gain = named(evaluation, "ins_k") * (target - 6.0) / thickness
+    assert named(evaluation, "res_q_dry_unit") == pytest.approx(gain, rel=1e-9)
+    assert gain > 0
+
+
+def test_cold_mode_needs_more_insulation_in_more_humid_air():
+    drier = named(evaluate_template(NAME, **{**COLD, "ambient_rh": 0.5}), "res_x_dry_mm")
+    wetter = named(evaluate_template(NAME, **{**COLD, "ambient_rh": 0.8}), "res_x_dry_mm")
+    assert 0 < drier < named(evaluate_template(NAME, **COLD), "res_x_dry_mm") < wetter
+
+
+def test_a_hot_surface_needs_no_insulation_against_condensation():
+    evaluation = evaluate_template(NAME)
+    assert named(evaluation, "res_mode") == "hot surface"
+    assert named(evaluation, "res_x_dry_mm") == 0.0
+    assert named(evaluation, "res_bare_dry").startswith("OK: bare surface ")
+    assert named(evaluation, "res_q_dry_unit") == pytest.approx(-named(evaluation, "res_q_bare_unit"), rel=1e-12)
+
+
+def test_touch_limit_thickness_is_exact_and_within_the_table_step():
+    evaluation = evaluate_template(NAME)
+    thickness, surface = _exact_case(evaluation, named(evaluation, "touch_limit"))
+    assert named(evaluation, "res_x_touch_mm") == pytest.approx(1000 * thickness, rel=1e-9)
+    assert surface == pytest.approx(named(evaluation, "touch_limit"), abs=1e-6)
+    step_mm = 1000 * named(evaluation, "ins_step")
+    assert named(evaluation, "res_first_ok_mm") - step_mm < named(evaluation, "res_x_touch_mm") <= \
+        named(evaluation, "res_first_ok_mm")
+    # a bare surface within the limit needs none
+    assert named(evaluate_template(NAME, touch_limit=200), "res_x_touch_mm") == 0.0
+
+
+def _unit_beside(evaluation, name):
+    """The unit cell beside a named result (the column after its value)."""
+    from openpyxl.utils.cell import column_index_from_string, get_column_letter
+
+    sheet, ref = next(n.text for n in evaluation.book.names if n.name == name).replace("$", "").split("!")
+    column = "".join(ch for ch in ref if ch.isalpha())
+    unit_ref = get_column_letter(column_index_from_string(column) + 1) + ref[len(column):]
+    return {**evaluation.book.sheet(sheet).values, **evaluation.values[sheet]}[unit_ref]
+
+
+@pytest.mark.parametrize("geometry", hot_surface.GEOMETRIES)
+def test_the_per_unit_loss_shows_the_unit_of_its_geometry(geometry):
+    """Per metre of pipe for the cylinder, per square metre for a face: never "W/m or W/m²"."""
+    evaluation = evaluate_template(NAME, geometry=geometry)
+    pipe = geometry == "horizontal cylinder"
+    assert _unit_beside(evaluation, "res_q_bare_unit") == ("W/m" if pipe else "W/m²")
+    assert _unit_beside(evaluation, "unit_size") == ("m" if pipe else "m²")
+    assert _unit_beside(evaluation, "res_q_dry_unit") == ("W/m" if pipe else "W/m²")
+    size = named(evaluation, "pipe_length") if pipe else named(evaluation, "face_height") * named(evaluation, "face_width")
+    assert named(evaluation, "res_q_bare_unit") == pytest.approx(named(evaluation, "res_q_bare") / size, rel=1e-12)

@@ -14,23 +14,39 @@ NAME = "sealed-cabinet"
 
 def _inputs(evaluation):
     names = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "emissivity", "dissipation",
-             "absorptance", "sun_top", "sun_sides", "ambient_t", "sky_t", "altitude", "vplate_method")
+             "absorptance", "sun_top", "sun_sides", "ambient_t", "sky_t", "altitude", "vplate_method",
+             "max_internal_t", "night_ambient_t", "night_sky_t", "night_dissipation", "seal_t", "seal_rh",
+             "dew_margin")
     return {n: named(evaluation, n) for n in names}
 
 
-def _engine_case(v, **options):
-    """The same cabinet built directly from the engine's Python API."""
+def engine_tables(v):
+    """The cabinet's branch and (day) boundary rows and its air pressure, from the input values
+    (the vented cabinet's test builds on them)."""
     side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
     top_area = v["cab_width"] * v["cab_depth"]
     branches = cabinet.branch_rows(
         height=v["cab_height"], side_area=side_area, top_area=top_area,
         top_length=top_area / (2 * (v["cab_width"] + v["cab_depth"])), wall_thickness=v["wall_thickness"],
         wall_k=v["wall_k"], emissivity=v["emissivity"], method=v["vplate_method"])
-    bounds = cabinet.boundary_rows(
+    day = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
-    return stillair.solve_network(branches, bounds, "air", pressure=stillair.altitude_pressure(v["altitude"]),
-                                  **options)
+    return branches, day, stillair.altitude_pressure(v["altitude"])
+
+
+def _engine_tables(v):
+    """The cabinet's branch table and its day and night boundary tables, from the inputs."""
+    branches, day, _ = engine_tables(v)
+    night = cabinet.night_boundary_rows(dissipation=v["night_dissipation"], ambient=v["night_ambient_t"],
+                                        sky=v["night_sky_t"])
+    return branches, day, night
+
+
+def _engine_case(v, **options):
+    """The same cabinet built directly from the engine's Python API."""
+    branches, bounds, pressure = engine_tables(v)
+    return stillair.solve_network(branches, bounds, "air", pressure=pressure, **options)
 
 
 @pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],
@@ -103,7 +119,7 @@ def test_internal_temperature_rises_monotonically_with_dissipation():
 
 
 # input -> (new value, result, direction, why)
-DIRECTIONS = {
+DAY_DIRECTIONS = {  # the inputs the vented cabinet shares (tests/test_template_vented_cabinet.py)
     "cab_height": (2.0, "res_t_air", -1, "a larger cabinet has more area to lose heat"),
     "cab_width": (1.0, "res_t_air", -1, "more area"),
     "cab_depth": (0.9, "res_t_air", -1, "more area"),
@@ -119,6 +135,15 @@ DIRECTIONS = {
     "altitude": (2500.0, "res_t_air", +1, "thinner air convects less"),
     "max_internal_t": (60.0, "res_margin", +1, "the limit only moves the margin"),
 }
+NIGHT_DIRECTIONS = {
+    "night_ambient_t": (12.0, "res_t_coldest_night", +1, "a warmer night"),
+    "night_sky_t": (0.0, "res_t_coldest_night", +1, "a cloudier, warmer sky takes less from the top"),
+    "night_dissipation": (80.0, "res_heater_q", -1, "the equipment's own heat does part of the heater's work"),
+    "seal_t": (25.0, "res_t_dew", +1, "warmer air sealed at the same RH holds more water"),
+    "seal_rh": (0.6, "res_t_dew", +1, "more moisture sealed in"),
+    "dew_margin": (5.0, "res_heater_q", +1, "a larger margin needs warmer walls"),
+}
+DIRECTIONS = {**DAY_DIRECTIONS, **NIGHT_DIRECTIONS}
 
 
 def test_every_input_has_a_direction_test():
@@ -152,3 +177,105 @@ def test_correlation_spread_equals_the_engine_band(sets):
     assert low < high
     verdict = "OK" if high <= named(evaluation, "max_internal_t") else "EXCEEDS LIMIT"
     assert named(evaluation, "res_check_high") == verdict
+
+
+# ---------------------------------------------------------------------------------------------
+# The limit turned round, and the night case
+
+
+@pytest.mark.parametrize("sets", [{}, {"dissipation": 400}, {"max_internal_t": 45, "altitude": 1500}],
+                         ids=["default", "over-the-limit", "lower-limit-altitude"])
+def test_allowed_dissipation_and_cooling_equal_the_engine(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    v = _inputs(evaluation)
+    branches, day, _ = _engine_tables(v)
+    pressure = stillair.altitude_pressure(v["altitude"])
+    answer = stillair.heat_for_temperature(branches, day, "air_in", v["max_internal_t"], "air", pressure)
+    assert named(evaluation, "res_allowed_q") == pytest.approx(answer.heat, rel=1e-9)
+    assert named(evaluation, "res_cooling_q") == pytest.approx(max(0.0, v["dissipation"] - answer.heat), abs=1e-9)
+    # the defining property: the cabinet dissipating the allowance sits at the limit
+    at_limit = [row if row[0] != "air_in" else ["air_in", "Q", named(evaluation, "res_allowed_q")] for row in day]
+    stillair.clear_network_cache()
+    reached = stillair.solve_network(branches, at_limit, "air", pressure).temperatures["air_in"]
+    assert reached == pytest.approx(v["max_internal_t"], abs=1e-6)
+
+
+def test_cooling_is_what_exceeds_the_allowance():
+    evaluation = evaluate_template(NAME, dissipation=400)
+    assert named(evaluation, "res_check") == "EXCEEDS LIMIT"
+    assert named(evaluation, "res_cooling_q") == pytest.approx(400 - named(evaluation, "res_allowed_q"), rel=1e-12)
+    assert named(evaluate_template(NAME), "res_cooling_q") == 0.0      # default: within the limit
+
+
+def test_the_allowance_rises_with_the_limit_and_falls_with_the_sun():
+    base = named(evaluate_template(NAME), "res_allowed_q")
+    assert named(evaluate_template(NAME, max_internal_t=60), "res_allowed_q") > base
+    assert named(evaluate_template(NAME, sun_top=1000), "res_allowed_q") < base
+    # the dissipation itself does not change what the limit allows
+    assert named(evaluate_template(NAME, dissipation=300), "res_allowed_q") == pytest.approx(base, rel=1e-9)
+
+
+@pytest.mark.parametrize("sets", [{}, {"seal_rh": 0.2, "night_sky_t": -20}, {"night_dissipation": 0, "seal_t": 30}],
+                         ids=["default", "dry-seal-cold-sky", "no-night-load-warm-seal"])
+def test_night_case_equals_the_engine(sets):
+    evaluation = evaluate_template(NAME, **sets)
+    v = _inputs(evaluation)
+    branches, _, night = _engine_tables(v)
+    pressure = stillair.altitude_pressure(v["altitude"])
+    solved = stillair.solve_network(branches, night, "air", pressure)
+    coldest = min(solved.temperatures["top_in"], solved.temperatures["side_in"])
+    dew = stillair.dew_point(v["seal_t"], v["seal_rh"], pressure)
+    assert named(evaluation, "res_t_air_night") == pytest.approx(solved.temperatures["air_in"], rel=1e-9)
+    assert named(evaluation, "res_t_coldest_night") == pytest.approx(coldest, rel=1e-9)
+    assert named(evaluation, "res_t_dew") == pytest.approx(dew, rel=1e-12)
+    assert named(evaluation, "res_dew_clearance") == pytest.approx(coldest - dew, rel=1e-9)
+    holds = [stillair.heat_for_temperature(branches, night, "air_in", dew + v["dew_margin"], "air", pressure,
+                                           at=wall).heat for wall in ("top_in", "side_in")]
+    heater = max(0.0, max(holds) - v["night_dissipation"])
+    assert named(evaluation, "res_heater_q") == pytest.approx(heater, rel=1e-9, abs=1e-9)
+    assert named(evaluation, "res_rh_air_night") == pytest.approx(
+        stillair.surface_rh(v["seal_t"], v["seal_rh"], solved.temperatures["air_in"], pressure), rel=1e-9)
+
+
+def test_the_heater_power_holds_every_inner_wall_at_the_target():
+    evaluation = evaluate_template(NAME)
+    v = _inputs(evaluation)
+    branches, _, night = _engine_tables(v)
+    heated = [row if row[0] != "air_in" else ["air_in", "Q", v["night_dissipation"] + named(evaluation, "res_heater_q")]
+              for row in night]
+    solved = stillair.solve_network(branches, heated, "air", stillair.altitude_pressure(v["altitude"]))
+    target = named(evaluation, "res_t_dew") + v["dew_margin"]
+    walls = [solved.temperatures["top_in"], solved.temperatures["side_in"]]
+    assert min(walls) == pytest.approx(target, abs=1e-6)        # the coldest wall sits on the target
+    assert all(t >= target - 1e-6 for t in walls)
+
+
+@pytest.mark.parametrize("sets, verdict", [
+    ({}, "CONDENSATION: coldest inner wall "),
+    ({"seal_rh": 0.3}, "MARGIN SHORT: coldest inner wall "),
+    ({"seal_rh": 0.15}, "OK: coldest inner wall "),
+])
+def test_condensation_verdicts(sets, verdict):
+    evaluation = evaluate_template(NAME, **sets)
+    clearance, margin = named(evaluation, "res_dew_clearance"), named(evaluation, "dew_margin")
+    text = named(evaluation, "res_condensation")
+    assert text.startswith(verdict), text
+    assert f"{abs(clearance):.1f} K" in text
+    if verdict.startswith("OK"):
+        assert clearance >= margin
+        assert named(evaluation, "res_heater_q") == 0.0      # the night load alone keeps the walls dry
+    else:
+        assert named(evaluation, "res_heater_q") > 0.0
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note (row 27, the sun on the sides, did) makes the sand input box twice
+    as tall, which reads as an empty second input cell under the value."""
+    import openpyxl
+
+    ws = openpyxl.load_workbook(cabinet.TEMPLATE.path)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == len(input_names(cabinet.TEMPLATE))
+    tall = [(r, ws.cell(r, 1).value) for r in inputs if (ws.row_dimensions[r].height or 13.5) > 13.5]
+    assert not tall

@@ -37,3 +37,17 @@ nu = stillair.nu_vplate(1e8, 0.71)
 network = stillair.solve_network([["wall", "in", "out", "conduction", 0.1, 0.5, 2.0, None, None, None]],
                                  [["in", "T", 20.0], ["out", "T", 0.0]])
 heat: float = network.heat["wall"]
+vented = stillair.solve_network([["vent", "air", "out", "vent", 0.01, 0.01, 0.5, None, None, None]],
+                                [["air", "Q", 50.0], ["out", "T", 20.0]])
+mass_flow: float = vented.branches["vent"].mass_flow
+stack: float | np.ndarray = stillair.stack_flow(40.0, 20.0, 0.01, 0.01, 0.5, extra_loss=3.8)
+fan_flow: float | np.ndarray = stillair.airflow_for(200.0, 10.0, t_air=25.0)
+
+dew: float | np.ndarray = stillair.dew_point(20.0, 0.5)
+humid = (stillair.saturation_pressure(-5.0, over="ice"), stillair.vapour_pressure(20.0, 0.5),
+         stillair.humidity_ratio(20.0, 0.5, 90000.0), stillair.surface_rh(20.0, 0.5, 12.0),
+         stillair.temperature_factor(15.0, 20.0, 0.0))
+answer: stillair.HeatForTemperature = stillair.heat_for_temperature(
+    [["wall", "box", "room", "resistance", 0.5]], [["room", "T", 20.0]], "box", 45.0)
+allowed: float = answer.heat
+insulation: float | np.ndarray = stillair.insulation_thickness(6.0, 25.0, 20.0, 0.035, 0.9, "hcyl", 0.06)

@@ -16,6 +16,12 @@ unknown-function        a name that looks like ours (or is written as an add-in 
 cannot-evaluate         a construct the headless evaluator cannot calculate (named), or a cell
                         that depends on one
 out-of-range            a correlation was used outside its validity range (which bound)
+hand-formula            a formula typed by hand, recognised numerically (:mod:`.hand`), is wrong:
+                        a mistyped constant, a correlation outside its range, a typed property
+                        at the wrong temperature, beta or radiation in degC, a length, area or
+                        temperature difference that disagrees between the group and the flow
+iteration               iterative calculation is on and the stored values are not converged, or
+                        a loop of formulas is saved with iterative calculation off
 stale                   no cached value, or a cached error, or the template's old value after the
                         inputs changed, where the engine computes a value; the message says which
 version                 the workbook records a different STILLAIR_VERSION or template version
@@ -44,6 +50,7 @@ import time
 from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call
 from ..workbook.formulatext import _families, _registry  # the grammar's own look-ups
 from .drift import inputs_changed, pristine_template, template_drift
+from .hand import check_hand_book, hand_findings
 from .findings import (DEFAULT_ATOL, DEFAULT_RTOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, KINDS,
                        AuditError, AuditResult, CellRecord, Finding, Records, default_templates_dir,
                        differs, is_error_text, label, same_value, show)
@@ -106,11 +113,19 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
         _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine)
     if pristine is not None:
         template_drift(result, book, cells, pristine)
+    hand_started = time.perf_counter()
+    result.hand = check_hand_book(
+        path, book, exclude=seeds, model=model if evaluation is not None else None,
+        known={key: r.value for key, r in evaluation.results.items()
+               if r.status in ("value", "note")} if evaluation is not None else None)
+    findings.extend(hand_findings(result.hand, cells))
+    timing["hand"] = time.perf_counter() - hand_started
     order = {s.name: i for i, s in enumerate(book.sheets)}
 
     def position(f: Finding):
         if f.sheet is None:
             return (-1, 0, 0)
+        assert f.ref is not None  # a finding on a sheet names its cell
         row, col = split_ref(f.ref)
         return (order.get(f.sheet, len(order)), row, col)
 
@@ -265,7 +280,8 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
         "audit", help="check a finished workbook's numbers against the engine",
         description="Recompute every formula that calls a stillair function (and every formula "
         "downstream of one) from the workbook's own inputs and compare with the values Excel "
-        "saved. BOOK is only read, never modified. Exit status: 0 all ok, 1 findings, "
+        "saved; recognise the formulas typed by hand (groups, correlations, radiation) and "
+        "check them. BOOK is only read, never modified. Exit status: 0 all ok, 1 findings, "
         "2 the file cannot be read.")
     _add_arguments(audit)
     return audit
@@ -273,9 +289,9 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
 
 def _add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
-    parser.add_argument("--rtol", type=float, default=DEFAULT_RTOL,
+    parser.add_argument("--rtol", type=_tolerance, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
-    parser.add_argument("--atol", type=float, default=DEFAULT_ATOL,
+    parser.add_argument("--atol", type=_tolerance, default=DEFAULT_ATOL,
                         help="absolute tolerance (default %(default)g); a difference must also "
                         "exceed atol + 1e-12 x the largest number the formula reads")
     parser.add_argument("--json", action="store_true", help="print one JSON object")
@@ -285,6 +301,17 @@ def _add_arguments(parser: argparse.ArgumentParser) -> None:
                         "is used instead)")
     parser.add_argument("--templates", metavar="DIR", default=None,
                         help="directory of the pristine templates (default: the installed ones)")
+
+
+def _tolerance(text: str) -> float:
+    """A tolerance as typed on the command line: a number >= 0."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"must be a number >= 0, got {text!r}") from None
+    if not value >= 0:
+        raise argparse.ArgumentTypeError(f"must be >= 0, got {text}")
+    return value
 
 
 def run_audit(args) -> int:
@@ -332,9 +359,16 @@ def _unreadable(args, reason: str) -> int:
 
 def main(argv: list[str] | None = None) -> int:
     """``stillair audit`` on its own: ``python -m stillair.addin.audit BOOK ...``."""
-    parser = argparse.ArgumentParser(prog="stillair audit", description=add_audit_parser.__doc__)
+    from stillair._console import OneLineParser, UsageError, say_line
+
+    parser = OneLineParser(prog="stillair audit", description=add_audit_parser.__doc__)
     _add_arguments(parser)
-    return run_audit(parser.parse_args(argv))
+    try:
+        args = parser.parse_args(argv)
+    except UsageError as error:
+        say_line(str(error))
+        return EXIT_UNREADABLE
+    return run_audit(args)
 
 
 if __name__ == "__main__":

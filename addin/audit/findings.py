@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
+from typing import Any
 
 from ..workbook.cachewriter import ERROR_VALUES
 from ..workbook.status import label
@@ -19,8 +20,8 @@ DEFAULT_RTOL = 1e-6
 
 # Worst first: silent wrong numbers, then changed calculations, failures, cells that cannot be
 # checked, correlations outside their range, missing recalculation, and traceability.
-KINDS = ("mismatch", "template-drift", "error", "unknown-function", "cannot-evaluate",
-         "out-of-range", "stale", "version")
+KINDS = ("mismatch", "hand-formula", "iteration", "template-drift", "error", "unknown-function",
+         "cannot-evaluate", "out-of-range", "stale", "version")
 
 
 def default_templates_dir() -> Path:
@@ -42,6 +43,8 @@ class Finding:
     computed: object = None        # the value the engine gives
     rel_diff: float | None = None  # mismatch only
     original_formula: str | None = None  # template drift only
+    recognised: str | None = None  # hand-formula: what the cell was recognised as
+    check: str | None = None       # hand-formula, iteration: which check (constant, property ...)
     sheet: str | None = field(default=None, repr=False)
     ref: str | None = field(default=None, repr=False)
 
@@ -64,6 +67,9 @@ class AuditResult:
     timing: dict[str, float] = field(default_factory=dict)
     sha256: str = ""
     report: str | None = None
+    # the hand check of the formulas typed by hand, a hand.HandCheck: hand.py imports this module
+    # and addin's modules import without a cycle (tests/test_addin_layout.py), so readers name it
+    hand: Any = None
 
     def counts(self) -> dict[str, int]:
         counts = {"ok": len(self.ok)}

@@ -4,15 +4,23 @@ from __future__ import annotations
 
 import math
 import os
+from typing import TYPE_CHECKING
 
 from .findings import KINDS, AuditError, AuditResult, show
+
+if TYPE_CHECKING:
+    from .hand import HandCheck
 
 __all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
 
 
+_HAND_KINDS = ("hand-formula", "iteration")   # counted in the hand check's own words
+
+
 def summary_line(result: AuditResult) -> str:
     counts = result.counts()
-    parts = [f"{counts['ok']} ok"] + [f"{counts[k]} {k}" for k in KINDS if counts[k]]
+    parts = [f"{counts['ok']} ok"] + [f"{counts[k]} {k}" for k in KINDS
+                                      if counts[k] and k not in _HAND_KINDS]
     extra = []
     if result.follow_on:
         extra.append(f"{result.follow_on} follow-on error{'s' if result.follow_on != 1 else ''}")
@@ -20,7 +28,11 @@ def summary_line(result: AuditResult) -> str:
         extra.append(f"{len(result.unchecked)} not checkable")
     tail = f" ({', '.join(extra)})" if extra else ""
     cells = len(result.checked)
-    return (f"{cells} cell{'s' if cells != 1 else ''} checked: {', '.join(parts)}{tail}"
+    hand: HandCheck | None = result.hand
+    # a book with nothing recognised by hand reads as before (its counts are in the JSON)
+    hand_words = f"; {hand.summary()}" if hand is not None and (
+        hand.recognised or hand.findings or hand.iteration) else ""
+    return (f"{cells} cell{'s' if cells != 1 else ''} checked: {', '.join(parts)}{tail}{hand_words}"
             f" - {'no findings' if not result.findings else f'{len(result.findings)} findings'}")
 
 
@@ -56,7 +68,18 @@ def to_json(result: AuditResult) -> dict:
             "template": result.template, "rtol": None, "atol": None, "checked": len(result.checked),
             "counts": result.counts(), "follow_on_errors": result.follow_on,
             "unchecked": result.unchecked, "findings": findings, "ok": result.ok,
-            "report": result.report, "timing": result.timing, "exit": result.exit_code}
+            "report": result.report, "timing": result.timing, "exit": result.exit_code,
+            "hand": _hand_json(result.hand)}
+
+
+def _hand_json(hand):
+    if hand is None:
+        return None
+    from .hand import hand_json
+    data = hand_json(hand)
+    data.pop("findings")   # they are the report's own findings (kinds hand-formula, iteration)
+    data.pop("book")
+    return data
 
 
 def free_report_path(requested: str) -> tuple[str, int]:
@@ -76,6 +99,35 @@ def free_report_path(requested: str) -> tuple[str, int]:
 def _excel_text(value) -> str:
     text = show(value) if not isinstance(value, str) else value
     return text[:32000]
+
+
+def _hand_sheet(wb, bold, hand) -> None:
+    """Every formula the hand check recognised: what as, its value, whether it agrees, and what
+    was stated about it (rounded constants, typed properties within the threshold)."""
+    sheet = wb.add_worksheet("Hand formulas")
+    header = ["cell", "recognised as", "value", "agrees", "inputs", "notes"]
+    for col, title in enumerate(header):
+        sheet.write_string(0, col, title, bold)
+    for row, rec in enumerate(hand.recognised, start=1):
+        sheet.write_string(row, 0, rec.cell)
+        sheet.write_string(row, 1, rec.title)
+        if math.isfinite(rec.value):
+            sheet.write_number(row, 2, rec.value)
+        sheet.write_string(row, 3, "yes" if not rec.findings else "no: see Findings")
+        sheet.write_string(row, 4, ", ".join(f"{role} {_label(key)}" for role, key in
+                                             rec.roles.items()))
+        sheet.write_string(row, 5, _excel_text("; ".join(rec.statements)))
+    sheet.write_string(len(hand.recognised) + 2, 0, hand.summary())
+    sheet.set_column(0, 0, 18)
+    sheet.set_column(1, 1, 60)
+    sheet.set_column(2, 3, 14)
+    sheet.set_column(4, 5, 60)
+    sheet.freeze_panes(1, 0)
+
+
+def _label(key) -> str:
+    from ..workbook.status import label
+    return label(*key)
 
 
 def write_report(result: AuditResult, requested: str) -> str:
@@ -107,6 +159,7 @@ def write_report(result: AuditResult, requested: str) -> str:
         for row, f in enumerate(result.findings, start=1):
             sheet.write_string(row, 0, f.kind)
             if f.sheet is not None:
+                assert f.ref is not None  # a finding on a sheet names its cell
                 location = "'" + f.sheet.replace("'", "''") + "'!" + f.ref
                 url = f"external:{book_link}#{location}"
                 if len(url) <= 2079:
@@ -133,8 +186,10 @@ def write_report(result: AuditResult, requested: str) -> str:
         sheet.freeze_panes(1, 0)
         if result.findings:
             sheet.autofilter(0, 0, len(result.findings), len(header) - 1)
+        if result.hand is not None and result.hand.recognised:
+            _hand_sheet(wb, bold, result.hand)
         about = wb.add_worksheet("Summary")
-        rows = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
+        rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
                 ("engine version", result.engine_version), ("template", result.template or ""),
                 ("summary", summary_line(result))]
         rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]

@@ -23,7 +23,7 @@ MAX_MESSAGE = 255  # a message must stay readable in a cell and in Excel's funct
 # Columns of the network tables that hold names (branch name, from, to; boundary node).
 _NAME_COLUMNS = {"branches": (0, 1, 2), "boundaries": (0,)}
 # Text arguments that are names and may be typed as numbers.
-_NAME_ARGS = {"node", "branch"}
+_NAME_ARGS = {"node", "branch", "at"}
 
 
 class NoteRecorder:

@@ -7,7 +7,8 @@ import math
 from .coerce import CellInputError
 
 __all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
-           "net_table", "net_temp", "net_heat", "net_check", "net_band"]
+           "net_table", "net_temp", "net_heat", "net_check", "net_band",
+           "pick_airflow", "net_airflow", "net_heat_for"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -53,6 +54,16 @@ def pick_heat(result, branch: str) -> float:
     if branch not in result.heat:
         raise CellInputError("branch", branch, "one of " + ", ".join(map(repr, result.heat)))
     return float(result.heat[branch])
+
+
+def pick_airflow(result, branch: str) -> float:
+    """The volume flow (m³/s of outside air) through a vent or airflow branch."""
+    pick_heat(result, branch)
+    if math.isnan(result.branches[branch].volume_flow):
+        carrying = [name for name, record in result.branches.items() if not math.isnan(record.volume_flow)]
+        raise CellInputError("branch", branch, "a vent or airflow branch: "
+                             + (", ".join(map(repr, carrying)) if carrying else "the network has none"))
+    return float(result.branches[branch].volume_flow)
 
 
 def pick_band(result, node: str) -> list[list[float]]:
@@ -102,6 +113,12 @@ def net_heat(solve, kwargs):
     return pick_heat(solve(**kwargs), branch)
 
 
+def net_airflow(solve, kwargs):
+    """NET_AIRFLOW: one vent or airflow branch's volume flow."""
+    branch = kwargs.pop("branch")
+    return pick_airflow(solve(**kwargs), branch)
+
+
 def net_check(solve, kwargs):
     """NET_CHECK: the solve's notes as one text."""
     return check_text(solve(**kwargs))
@@ -111,3 +128,9 @@ def net_band(solve, kwargs):
     """NET_BAND: one node's correlation band (a solve with band=True)."""
     node = kwargs.pop("node")
     return pick_band(solve(band=True, **kwargs), node)
+
+
+def net_heat_for(heat_for_temperature, kwargs):
+    """NET_HEAT_FOR: the heat input (W) that brings the node (or the node ``at``) to the temperature;
+    its solution's range notes are reported as every network cell's."""
+    return float(heat_for_temperature(**kwargs).heat)

@@ -21,7 +21,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from .network import net_band, net_check, net_heat, net_table, net_temp
+from .network import net_airflow, net_band, net_check, net_heat, net_heat_for, net_table, net_temp
 
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
@@ -500,6 +500,108 @@ _entries += [
         "Node temperature in °C with every convection branch at the lowest and at the highest Nu of its "
         "in-range correlations: one row, low and high. The spread of published correlations, not a "
         "confidence interval.", CATEGORIES["network"], result="table", unit="°C", invoke=net_band),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Ventilation: the stack flow through two openings, and the airflow a dissipation needs
+
+CATEGORIES["ventilation"] = "stillair ventilation"
+AREA_ARG = "Area of the {} opening in m² (> 0), as cut; a screen or grille goes in extra_loss."
+_entries += [
+    CellFunction("STACK_FLOW", "stack_flow",
+                 (Arg("t_inside", "Temperature of the well-mixed inside air in °C.", "°C"),
+                  Arg("t_outside", "Temperature of the outside air in °C.", "°C"),
+                  Arg("inlet_area", AREA_ARG.format("low (inlet)"), "m²"),
+                  Arg("outlet_area", AREA_ARG.format("high (outlet)"), "m²"),
+                  Arg("height", "Height between the openings' centres in m (> 0).", "m"),
+                  Arg("discharge", "Discharge coefficient of the openings, in (0, 1]; blank for 0.61 "
+                      "(sharp-edged).", "-", default=0.61),
+                  Arg("extra_loss", "Extra loss coefficient in the low opening (screen, grille, filter) on "
+                      "the velocity through it, >= 0; blank for 0.", "-", default=0.0),
+                  GAS, P),
+                 "Mass flow in kg/s the stack effect drives through a low and a high opening (negative: "
+                 "downward, inside air colder); divide by the outside density for the volume drawn in.",
+                 CATEGORIES["ventilation"], unit="kg/s"),
+    CellFunction("AIRFLOW_FOR", "airflow_for",
+                 (Arg("heat", "Heat in W the air must carry away (>= 0).", "W"),
+                  Arg("rise", "Allowed rise of the air from intake to exhaust in K (> 0).", "K"),
+                  Arg("t_air", "Temperature of the air drawn in, °C; blank for 20 °C.", "°C", default=20.0),
+                  P),
+                 "Volume flow in m³/s of air at t_air that carries the heat away with the rise: "
+                 "V = Q / (rho cp dT), rho at t_air, cp at the mean air temperature.",
+                 CATEGORIES["ventilation"], unit="m³/s"),
+    CellFunction("NET_AIRFLOW", "solve_network",
+                 _NET + (Arg("branch", "Name of a vent or airflow branch.", kind="text"), NET_GAS, P),
+                 "Volume flow in m³/s of outside air (at the to node's temperature) through a vent or "
+                 "airflow branch of the solved thermal network.", CATEGORIES["ventilation"], unit="m³/s",
+                 invoke=net_airflow),
+]
+
+# ---------------------------------------------------------------------------------------------
+# Humid air, and the questions turned round (the heat for a temperature, the insulation for a
+# surface temperature)
+
+CATEGORIES["humid"] = "stillair humid air"
+CATEGORIES["insulation"] = "stillair insulation"
+RH = Arg("rh", "Relative humidity as a fraction from 0 to 1 (50 % is 0.5); over ice below 0.01 °C.", "-")
+T_HUMID = Arg("t", "Air temperature in degrees Celsius.", "°C")
+
+
+_entries += [
+    CellFunction("SAT_PRESSURE", "saturation_pressure",
+                 (Arg("t", "Temperature in degrees Celsius.", "°C"),
+                  Arg("over", '"water", "ice", or blank for auto (ice below 0.01 °C, water above).', kind="text",
+                      default="auto")),
+                 "Saturation pressure of water vapour in Pa over water or ice (Hyland-Wexler, ASHRAE "
+                 "Fundamentals).", CATEGORIES["humid"], unit="Pa"),
+    CellFunction("VAPOUR_PRESSURE", "vapour_pressure", (T_HUMID, RH, P),
+                 "Partial pressure of the water vapour in humid air in Pa: rh x saturation pressure.",
+                 CATEGORIES["humid"], unit="Pa"),
+    CellFunction("HUMIDITY_RATIO", "humidity_ratio", (T_HUMID, RH, P),
+                 "Humidity ratio of humid air in kg of water vapour per kg of dry air.",
+                 CATEGORIES["humid"], unit="kg/kg"),
+    CellFunction("DEW_POINT", "dew_point", (T_HUMID, RH, P),
+                 "Dew point of humid air in °C; below 0.01 °C the frost point (saturation over ice).",
+                 CATEGORIES["humid"], unit="°C"),
+    CellFunction("SURFACE_RH", "surface_rh",
+                 (Arg("t_air", "Air temperature in degrees Celsius.", "°C"), RH,
+                  Arg("t_surface", "Surface temperature in degrees Celsius.", "°C"), P),
+                 "Relative humidity of the air at a colder or warmer surface (fraction); above 1 the surface "
+                 "is below the dew point and water condenses.", CATEGORIES["humid"], unit="-"),
+    CellFunction("TEMP_FACTOR", "temperature_factor",
+                 (Arg("t_surface", "Internal surface temperature in degrees Celsius.", "°C"),
+                  Arg("t_inside", "Internal air temperature in degrees Celsius.", "°C"),
+                  Arg("t_outside", "External air temperature in degrees Celsius (not t_inside).", "°C")),
+                 "Temperature factor f_Rsi of ISO 13788: (t_surface - t_outside)/(t_inside - t_outside).",
+                 CATEGORIES["humid"], unit="-"),
+    CellFunction("NET_HEAT_FOR", "heat_for_temperature",
+                 _NET + (Arg("node", "Name of the node whose heat input is sought (its Q rows are replaced).",
+                             kind="text"),
+                         Arg("temperature", "Target temperature in degrees Celsius.", "°C"),
+                         NET_GAS, P,
+                         Arg("at", "Node that must reach the temperature; blank for the node itself.",
+                             kind="text", default=None)),
+                 "Heat input in W at a node that brings it (or the node at) to a temperature, the whole "
+                 "network re-solved: the allowed dissipation for a limit; negative: cooling needed.",
+                 CATEGORIES["network"], unit="W", invoke=net_heat_for),
+    CellFunction("INSULATION_THICKNESS", "insulation_thickness",
+                 (Arg("t_inner", "Temperature under the insulation (pipe or face metal) in degrees Celsius.", "°C"),
+                  Arg("t_air", "Still air temperature in degrees Celsius.", "°C"),
+                  Arg("t_surface", "Outer surface temperature wanted in degrees Celsius (a touch limit, or dew "
+                      "point + margin).", "°C"),
+                  Arg("conductivity", "Insulation conductivity in W/(m·K) (> 0).", "W/(m·K)"),
+                  Arg("emissivity", "Emissivity of the outer surface (0 to 1).", "-"),
+                  Arg("geometry", '"hcyl" (horizontal pipe), "vplate" (vertical face) or "hplate" (horizontal '
+                      'face).', kind="text"),
+                  Arg("size", "Bare pipe outside diameter (hcyl), face height (vplate) or area/perimeter "
+                      "(hplate), in m.", "m"),
+                  Arg("facing", '"up" or "down" for hplate; blank otherwise.', kind="text", default=None),
+                  Arg("t_surroundings", "Temperature of the surroundings the surface radiates to, in °C; blank "
+                      "for t_air.", "°C", default=None),
+                  GAS, P),
+                 "Insulation thickness in m at which the outer surface of an insulated pipe or face is at "
+                 "t_surface (ISO 12241 surface-temperature and condensation criteria).",
+                 CATEGORIES["insulation"], unit="m"),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

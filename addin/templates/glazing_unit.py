@@ -14,6 +14,8 @@ A sweep of U against gap width for air, argon and krypton (mode a) marks the opt
 
 from __future__ import annotations
 
+from typing import Any
+
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
@@ -28,7 +30,7 @@ GAP_METHODS = ("auto", "elsherbiny", "wright", "catton", "macgregor-emery", "en6
 PASSES = 3                              # explicit passes of the standard's gap-ΔT split (triple)
 
 # Defaults: our own scenario, a 6-16-4 unit with 90 % argon and a low-e coating on face 3.
-DEFAULTS = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, gap_1=0.016, gas_1="argon",
+DEFAULTS: dict[str, Any] = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, gap_1=0.016, gas_1="argon",
                 fill_1=0.9, gap_2=0.014, gas_2="argon", fill_2=0.9, eps_outdoor_face=0.837,
                 eps_gap1_outer=0.837, eps_gap1_inner=0.04, eps_gap2_outer=0.837, eps_gap2_inner=0.04,
                 eps_indoor_face=0.837, glass_height=1.3, pressure=101325.0, t_indoor=20.0, t_outdoor=-8.0,
@@ -45,7 +47,7 @@ def network_rows(panes: int) -> list[list]:
     to the triple's length, so that CHOOSE can pick either)."""
     method = "=gap_method"
     indoor = "s6" if panes == 3 else "s4"
-    rows = [
+    rows: list[list[Any]] = [
         ["out-conv", "s1", "outdoor", "film", "=h_outdoor", 1.0, None, None, None, None],
         ["out-rad", "s1", "outdoor", "radiation", "=eps_outdoor_face", None, 1.0, None, None, None],
         ["pane-1", "s1", "s2", "conduction", "=pane_1", "=glass_k", 1.0, None, None, None],
@@ -104,10 +106,10 @@ def build(b: TemplateBook) -> None:
             valid=gas_pressure())
     b.section("Inputs", "Actual conditions, mode (b)")
     b.input("t_indoor", "Indoor air (and room surfaces) temperature", d["t_indoor"], "°C",
-            valid=Valid(0.0, 50.0, "an occupied room lies between 0 and 50 °C, and the dew point (Magnus) "
-                        "formula is used above 0 °C"))
+            valid=Valid(0.0, 50.0, "an occupied room lies between 0 and 50 °C"))
     b.input("t_outdoor", "Outdoor air (and surroundings) temperature", d["t_outdoor"], "°C", valid=OUTDOOR_AIR)
-    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%",
+    b.input("rh_indoor", "Indoor relative humidity", d["rh_indoor"], "%", "in per cent here; the humid-air "
+            "functions take it as a fraction (rh_indoor/100)",
             valid=Valid(0.0, 100.0, "a relative humidity lies above 0 and at most 100 %", low_open=True))
     b.input("h_outdoor", "Outdoor convective film coefficient (wind)", d["h_outdoor"], "W/(m²·K)",
             "convection only: outdoor radiation is a branch of its own",
@@ -209,37 +211,53 @@ def build(b: TemplateBook) -> None:
     b.step("act_pr_2", "Gap 2 Prandtl number (triple)",
            "=GAS_PRANDTL(gas_mix_2,(t_gap2_outer+t_gap2_inner)/2,pressure)", "-")
 
-    b.section("Calculation", "Indoor dew point (Magnus formula)")
-    b.step("magnus_a", "Magnus coefficient a", "=17.625", "-",
-           "Alduchov & Eskridge 1996, eq. 21, over water (see Notes)")
-    b.step("magnus_b", "Magnus coefficient b", "=243.04", "°C", "Alduchov & Eskridge 1996, eq. 21 (see Notes)")
-    b.step("magnus_gamma", "ln(RH) + a t/(b + t)", "=LN(rh_indoor/100)+magnus_a*t_indoor/(magnus_b+t_indoor)", "-")
-    b.step("t_dew", "Indoor dew point b gamma/(a - gamma)", "=magnus_b*magnus_gamma/(magnus_a-magnus_gamma)", "°C")
+    b.section("Calculation", "Indoor humidity at the indoor face")
+    b.step("t_dew", "Indoor dew point (frost point below 0 °C)", "=DEW_POINT(t_indoor,rh_indoor/100,pressure)",
+           "°C", "Hyland-Wexler saturation pressure, ASHRAE Fundamentals 2017 ch. 1")
     b.step("dew_margin", "Indoor face minus dew point", "=t_indoor_face-t_dew", "K")
+    b.step("face_rh", "Relative humidity of the room air at the indoor face",
+           "=SURFACE_RH(t_indoor,rh_indoor/100,t_indoor_face,pressure)", "-",
+           "1 or more: condensation; ISO 13788 takes 0.8 as the mould criterion")
+    b.step("face_factor", "Temperature factor of the indoor face, f_Rsi",
+           "=TEMP_FACTOR(t_indoor_face,t_indoor,t_outdoor)", "-", "ISO 13788: (face - outdoor)/(indoor - outdoor)")
 
     b.section("Calculation", "Temperature profile through the unit (air points drawn 10 mm off the faces)")
     x1, x2 = "pane_1*1000", "(pane_1+gap_1)*1000"
     x3 = "(pane_1+gap_1+pane_2)*1000"
     x4, x5 = "(pane_1+gap_1+pane_2+gap_2)*1000", "(pane_1+gap_1+pane_2+gap_2+pane_3)*1000"
     end = f"IF(panes=3,{x5},{x3})+10"
-    profile = [
-        ["outdoor air", -10.0, "=t_outdoor"],
-        ["face 1", 0.0, "=t_face_1"],
-        ["face 2", f"={x1}", "=t_gap1_outer"],
-        ["face 3", f"={x2}", "=t_gap1_inner"],
-        ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
-        ['=IF(panes=3,"face 5","indoor air")', f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
-        ['=IF(panes=3,"indoor face","indoor air")', f"=IF(panes=3,{x5},{end})",
-         "=IF(panes=3,t_indoor_face,t_indoor)"],
-        ["indoor air", f"={end}", "=t_indoor"],
-    ]
-    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], profile,
+    # The printed table names each point once; a double unit's two triple-only rows stay empty.
+    points: list[list[Any]] = [["outdoor air", -10.0, "=t_outdoor"], ["face 1", 0.0, "=t_face_1"],
+              ["face 2", f"={x1}", "=t_gap1_outer"], ["face 3", f"={x2}", "=t_gap1_inner"],
+              ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+              ['=IF(panes=3,"face 5","(triple only)")', f'=IF(panes=3,{x4},"")', '=IF(panes=3,t_gap2_inner,"")'],
+              ['=IF(panes=3,"indoor face","(triple only)")', f'=IF(panes=3,{x5},"")',
+               '=IF(panes=3,t_indoor_face,"")'],
+              ["indoor air", f"={end}", "=t_indoor"]]
+    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], points,
                                 name="glz_profile", col=1, formats=[None, "0.0", "0.0"])
+    # The chart's points, beside the table and outside the printed grid: a double unit repeats its
+    # indoor air point there, so the line has no gap in any viewer (text would plot as zero).
+    chart_points: list[list[Any]] = [[-10.0, "=t_outdoor"], [0.0, "=t_face_1"], [f"={x1}", "=t_gap1_outer"], [f"={x2}", "=t_gap1_inner"],
+                    [f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+                    [f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
+                    [f"=IF(panes=3,{x5},{end})", "=IF(panes=3,t_indoor_face,t_indoor)"], [f"={end}", "=t_indoor"]]
+    ws = b.sheet("Calculation").worksheet
+    ws.set_column(6, 7, 20)
+    for col, title in ((6, "chart: position mm"), (7, "chart: temperature °C")):
+        ws.write(first - 1, col, title, b.fmt("header_number"))
+    for row, point in enumerate(chart_points, start=first):
+        for col, value in zip((6, 7), point):
+            if isinstance(value, str):
+                ws.write_formula(row, col, value, b.fmt("cell", "0.0"))
+            else:
+                ws.write_number(row, col, value, b.fmt("cell", "0.0"))
     b.chart("Calculation", "scatter", "Temperature through the unit, actual conditions (b)",
-            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 2),
-              "values": "=" + TemplateBook.column("Calculation", first, last, 3),
+            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 6),
+              "values": "=" + TemplateBook.column("Calculation", first, last, 7),
               "marker": {"type": "circle", "size": 5}}],
-            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers")
+            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers",
+            height=370, with_previous=True)
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Centre-of-glass U-value")
@@ -255,8 +273,12 @@ def build(b: TemplateBook) -> None:
     b.result("indoor_face_low", "Indoor face, correlation spread: lowest", "=t_indoor_face_low", "°C",
              "spread of the published correlations (see Notes)")
     b.result("indoor_face_high", "Indoor face, correlation spread: highest", "=t_indoor_face_high", "°C")
-    b.result("dew_point", "Indoor dew point", "=t_dew", "°C", "Magnus formula, Alduchov & Eskridge 1996")
+    b.result("indoor_dew_point", "Indoor dew point", "=t_dew", "°C", "DEW_POINT (Hyland-Wexler saturation)")
     b.result("dew_margin_result", "Margin above the dew point", "=dew_margin", "K")
+    b.result("face_rh_result", "Relative humidity at the indoor face", "=face_rh", "-",
+             "0.8 or more for long: mould likely (ISO 13788)")
+    b.result("face_factor_result", "Temperature factor of the indoor face, f_Rsi", "=face_factor", "-",
+             "compare with the f_Rsi,min of local practice")
     b.result("condensation_check", "Condensation check (centre of glass)",
              '=IF(NOT(ISNUMBER(dew_margin)),"' + FAILED + '",IF(dew_margin>0,"no condensation at the centre of '
              'glass, margin "&TEXT(dew_margin,"0.0")&" K","CONDENSATION: indoor face "&TEXT(-dew_margin,"0.0")&'
@@ -289,11 +311,11 @@ def build(b: TemplateBook) -> None:
     start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
     sweep_rows = []
     for i, mm in enumerate(SWEEP_MM):
-        row = [float(mm)]
+        sweep_row: list[float | str] = [float(mm)]
         for gas in SWEEP_GASES:
-            row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
+            sweep_row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
                        f'std_mean-std_dt/2,A{start + i + 1}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
-        sweep_rows.append(row)
+        sweep_rows.append(sweep_row)
     first, _, last, _ = b.table("Tables", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
                                 name="gap_sweep", formats=["0", SIG3, SIG3, SIG3])
     assert first == start
@@ -313,10 +335,10 @@ def build(b: TemplateBook) -> None:
                        "values": "=" + TemplateBook.column("Tables", first, last, j),
                        "line": {"color": palette[gas], "width": 1.75}, "marker": {"type": "none"}})
     for j, gas in enumerate(SWEEP_GASES):
-        row = o_first + j
+        optimum_row = o_first + j
         series.append({"name": f"optimum {gas}",
-                       "categories": "=" + TemplateBook.column("Tables", row, row, 1),
-                       "values": "=" + TemplateBook.column("Tables", row, row, 2),
+                       "categories": "=" + TemplateBook.column("Tables", optimum_row, optimum_row, 1),
+                       "values": "=" + TemplateBook.column("Tables", optimum_row, optimum_row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
                                   "border": {"color": INK}}})
@@ -343,12 +365,15 @@ def build(b: TemplateBook) -> None:
                 "radiation between parallel faces)- face 3 ... indoor face -(natural convection of a vertical "
                 "plate of the glazed height, and radiation to a room at the indoor air temperature)- indoor air. "
                 "Gas properties at each branch's own mean temperature, re-evaluated every iteration.")
-    b.paragraph("Dew point: Magnus formula t_d = b g/(a - g), g = ln(RH) + a t/(b + t), a = 17.625, "
-                "b = 243.04 °C (O.A. Alduchov, R.E. Eskridge, Improved Magnus form approximation of saturation "
-                "vapor pressure, J. Appl. Meteorol. 35 (1996) 601-609, eq. 21, over water; the coefficients as "
-                "transcribed from the paper in the documentation of the phaselag R package, "
-                "Magnus_Alduchov1996Improved, rdrr.io; the paper's abstract read at journals.ametsoc.org). Its "
-                "accuracy over -40...50 °C is as recalled (about 0.1-0.4 K): unverified.")
+    b.paragraph("Dew point and surface humidity: DEW_POINT and SURFACE_RH with the vapour pressure of the room "
+                "air, p_w = RH p_ws(t), and the saturation pressure p_ws of Hyland and Wexler (ASHRAE Trans. "
+                "89(2A) (1983) 500-519, as printed in the ASHRAE Handbook - Fundamentals 2017 ch. 1 eqs. 5 "
+                "and 6), over ice below 0.01 °C (a frost point there). The relative humidity at the indoor face "
+                "is p_w / p_ws(face); ISO 13788 judges mould likely where it stays at 0.8 or above for some "
+                "time (unverified, listed below) and condensation at 1. The temperature factor f_Rsi = "
+                "(face - outdoor) / (indoor - outdoor) (ISO 13788) compares with the minimum local practice "
+                "requires.")
+    b.unverified("ISO 13788's mould criterion, a surface relative humidity of 0.8 held for some time")
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
@@ -376,7 +401,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=3, title="Insulating glass unit",
+    name="glazing-unit", version=5, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

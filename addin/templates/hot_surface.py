@@ -5,6 +5,11 @@ coefficients follow directly from H_VPLATE / H_HPLATE / H_HCYL and H_RAD.  Each 
 of the thickness table is a small network - hot surface, insulation, outer surface, convection to
 the air and radiation to the surroundings - and all of them are rows of one branch table (one
 independent sub-network per thickness), solved together by the network solver.
+
+A surface below the air temperature (a chilled-water pipe, a cold duct) is the cold mode: the
+ambient humidity gives the dew point, and the insulation must keep the outer surface a chosen
+margin above it (the condensation criterion of ISO 12241).  INSULATION_THICKNESS gives the exact
+thickness for that surface temperature, and for the touch limit of a hot surface.
 """
 
 from __future__ import annotations
@@ -14,6 +19,8 @@ from .book import limit_check
 from .spec import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
 
 NAME = "hot-surface"
+# The unit of a heat flow per unit size: per metre of pipe or per square metre of face, by geometry.
+PER_UNIT_LOSS = '=IF(kind="hcyl", "W/m", "W/m²")'
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
 STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
 
@@ -42,6 +49,14 @@ def _convection_formula(surface_t: str, diameter: str) -> str:
     """The convection coefficient of the chosen geometry at ``surface_t`` (a pipe of ``diameter``)."""
     return (f'=IF(kind="hcyl", H_HCYL({surface_t}, ambient_t, {diameter}), IF(kind="vplate", '
             f'H_VPLATE({surface_t}, ambient_t, face_height), H_HPLATE({surface_t}, ambient_t, bare_length, facing)))')
+
+
+def _thickness_formula(surface_t: str) -> str:
+    """INSULATION_THICKNESS of the chosen geometry for an outer surface at ``surface_t`` (0 where that is
+    the bare surface's own temperature: no IF, whose unused branch a headless evaluation would
+    still calculate)."""
+    return (f'INSULATION_THICKNESS(hot_t, ambient_t, {surface_t}, ins_k, eps_jacket, kind, bare_length, '
+            f'IF(kind="hplate", facing, ""), surroundings_t)')
 
 
 def boundary_rows(hot, ambient, surroundings):
@@ -82,6 +97,14 @@ def build(b) -> None:
     b.input("touch_limit", "Touch-temperature limit", 50.0, "°C",
             "set from ISO 13732-1 for the jacket material and contact time, or local rules",
             valid=LIMIT_TEMPERATURE)
+    b.section("Inputs", "Cold surface: ambient humidity and condensation margin")
+    b.input("ambient_rh", "Relative humidity of the still air", 0.6, "-",
+            "a fraction: 60 % is 0.6; used when the surface is colder than the air",
+            valid=Valid(0.0, 1.0, "a relative humidity is a fraction above 0 and at most 1 (60 % is 0.6)",
+                        low_open=True))
+    b.input("dew_margin", "Margin wanted above the dew point", 1.0, "K",
+            "a design choice: covers humidity peaks and jacket joints", valid=Valid(0.0, 30.0, "a margin in kelvin "
+            "from 0 to 30"))
 
     # ------------------------------------------------------------------ Calculation
     b.section("Calculation", "Geometry")
@@ -98,7 +121,7 @@ def build(b) -> None:
     b.step("bare_area", "Area of the bare surface",
            '=IF(kind="hcyl", PI()*pipe_od*pipe_length, face_height*face_width)', "m²")
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
-           '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
+           '=IF(kind="hcyl", pipe_length, bare_area)', '=IF(kind="hcyl", "m", "m²")', number_format="0.000")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
     b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
@@ -111,6 +134,21 @@ def build(b) -> None:
     b.step("note_bare", "Validity of the bare-surface correlation",
            '=NU_NOTE(IF(kind="hcyl", "hcyl", IF(kind="vplate", "vplate", "hplate")), ra_bare, pr_bare, '
            'IF(kind="hplate", IF(facing="up", "hot-up", "hot-down"), ""))', "")
+
+    b.section("Calculation", "Exact insulation thickness for a surface temperature (INSULATION_THICKNESS)")
+    b.step("mode", "Surface against the air", '=IF(hot_t<ambient_t, "cold surface", "hot surface")', "")
+    b.step("t_dew_ambient", "Dew point of the still air (frost point below 0 °C)", "=DEW_POINT(ambient_t, ambient_rh)",
+           "°C")
+    b.step("t_dry_min", "Lowest outer surface temperature kept dry (dew point + margin)", "=t_dew_ambient+dew_margin",
+           "°C")
+    b.step("x_dry", "Insulation keeping the outer surface at dew point + margin",
+           f"={_thickness_formula('MAX(hot_t, t_dry_min)')}", "m", "0 when the bare surface is warm enough")
+    b.step("q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face",
+           "=IF(x_dry=0, -q_bare/unit_size, IF(kind=\"hcyl\", 2*PI()*ins_k*(t_dry_min-hot_t)/LN((pipe_od+2*x_dry)/"
+           "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", PER_UNIT_LOSS,
+           "through the insulation; negative: a loss", number_format="0.0")
+    b.step("x_touch", "Insulation keeping the outer surface at the touch limit",
+           f"={_thickness_formula('MIN(hot_t, touch_limit)')}", "m", "0 when the bare surface is within the limit")
 
     sheet = "Tables"
     b.section(sheet, "Insulated cases: geometry of each thickness")
@@ -149,13 +187,14 @@ def build(b) -> None:
 
     b.section(sheet, "Thickness table: outer surface temperature and heat loss")
     table_header = ["thickness mm", "surface °C", "heat loss W", "loss per unit", "touch limit °C",
-                    "meets limit", "saving vs bare %"]
+                    "meets limit", "saving vs bare %", "above dew K"]
     tstart = b.sheets[sheet].row + 1
 
     def meets(row):  # a failed surface temperature must not read as "no" (or vanish from the search)
         return limit_check(b.cell(sheet, row, 2), "touch_limit", "yes", "no")
 
-    rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit", meets(tstart), "=0"]]
+    rows = [["=0", "=hot_t", "=q_bare", "=q_bare/unit_size", "=touch_limit", meets(tstart), "=0",
+             f"={b.cell(sheet, tstart, 2)}-t_dew_ambient"]]
     for k in range(1, STEPS + 1):
         r = tstart + k
         rows.append([f"=1000*{b.cell(sheet, start + k - 1, 2)}",
@@ -164,9 +203,10 @@ def build(b) -> None:
                      f"={b.cell(sheet, r, 3)}/unit_size",
                      "=touch_limit",
                      meets(r),
-                     f"=100*(1-{b.cell(sheet, r, 3)}/q_bare)"])
+                     f"=100*(1-{b.cell(sheet, r, 3)}/q_bare)",
+                     f"={b.cell(sheet, r, 2)}-t_dew_ambient"])
     tfirst, _, tlast, _ = b.table(sheet, table_header, rows, col=1,
-                                  formats=["0", "0.0", "0.0", "0.0", "0.0", None, "0.0"])
+                                  formats=["0", "0.0", "0.0", "0.0", "0.0", None, "0.0", "0.0"])
     assert tfirst == tstart
     b.verdicts(sheet, tfirst, 6, tlast, fails=("no",))
 
@@ -203,7 +243,7 @@ def build(b) -> None:
     b.result("res_h_rad_bare", "Radiation coefficient", "=h_rad_bare", "W/(m²·K)")
     b.result("res_q_bare", "Heat loss, bare", "=q_bare", "W")
     b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
-             "W/m or W/m²")
+             PER_UNIT_LOSS, number_format="0.0")
     b.result("res_bare_check", "Bare surface against the touch limit",
              '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Insulation against the touch limit")
@@ -219,11 +259,30 @@ def build(b) -> None:
     b.result("res_surf_first_high", "Outer surface, one step, correlation spread: highest", "=surf_first_high",
              "°C")
     b.result("res_q_first_step", "Heat loss with one thickness step", "=q_first_step", "W")
+    b.result("res_x_touch_mm", "Exact thickness for the touch limit", "=1000*x_touch", "mm",
+             "0 when the bare surface is within it")
+    b.section("Results", "Cold surface: condensation on the outer surface (ISO 12241 criterion)")
+    b.result("res_mode", "Surface against the air", "=mode", text=True)
+    b.result("res_dew_ambient", "Dew point of the still air", "=t_dew_ambient", "°C", "frost point below 0 °C")
+    b.result("res_t_dry_min", "Lowest outer surface temperature kept dry", "=t_dry_min", "°C",
+             "dew point + the chosen margin")
+    b.result("res_bare_dry", "Bare surface against the dew point",
+             '=IF(hot_t<=t_dew_ambient, "CONDENSATION: bare surface "&TEXT(t_dew_ambient-hot_t, "0.0")&" K below '
+             'the dew point", IF(hot_t<t_dry_min, "MARGIN SHORT: bare surface "&TEXT(hot_t-t_dew_ambient, "0.0")'
+             '&" K above the dew point", "OK: bare surface "&TEXT(hot_t-t_dew_ambient, "0.0")&" K above the dew '
+             'point"))', text=True, fails=("CONDENSATION", "MARGIN SHORT"))
+    b.result("res_x_dry_mm", "Insulation thickness keeping the surface at dew point + margin", "=1000*x_dry", "mm",
+             "0 when the bare surface is warm enough")
+    b.result("res_q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face", "=q_dry_unit",
+             PER_UNIT_LOSS, "negative: a loss (a hot surface)", number_format="0.0")
     b.section("Results", "Validity")
     b.result("res_note_bare", "Bare-surface correlation", "=note_bare", text=True)
     b.result("res_net_check", "Insulated cases (network check)", "=hs_check", text=True)
     b.caution("Results", "Caution: touch temperatures can burn - the safe value depends on the material and the "
                          "contact time (ISO 13732-1). Follow local codes, makers' ratings and licensed practice "
+                         "(see Notes).")
+    b.caution("Results", "Caution: a cold surface that sweats wets the insulation, corrodes and drips. The margin "
+                         "is a design choice; a vapour barrier is needed on cold insulation whatever its thickness "
                          "(see Notes).")
     x = f"={column(1)}"
     b.chart("Results", "scatter", "Outer surface temperature against insulation thickness",
@@ -246,6 +305,21 @@ def build(b) -> None:
                 "ln(D_out/D)/(2 pi k L) for a pipe, t/(k A) for a flat face. The outer surface temperature is "
                 "unknown until the heat flow is known, so the network solver iterates it; every thickness is "
                 "an independent sub-network in one branch table.")
+    b.paragraph("Exact thickness: INSULATION_THICKNESS solves for the thickness at which the outer surface "
+                "is at a given temperature - the touch limit of a hot surface, or the dew point plus the margin "
+                "of a cold one. With the surface temperature given, the outer convection (the geometry's "
+                "correlation at the insulated size) and radiation coefficients are known; a flat face then "
+                "gives the thickness directly, x = k (t_surface - t_hot)/q, and a pipe gives one equation in "
+                "the insulated diameter D, 2 k (t_hot - t_surface) = D ln(D/d) q(D), solved by a bracketing "
+                "root-finder. The heat gain per unit is then the conduction through that insulation.")
+    b.paragraph("Cold mode: when the surface is colder than the air, water vapour condenses on any part of the "
+                "outer surface at or below the dew point of the air (DEW_POINT with the air's temperature and "
+                "relative humidity; Hyland-Wexler saturation pressure, ASHRAE Handbook - Fundamentals 2017 ch. "
+                "1; a frost point below 0 °C). ISO 12241 sizes insulation against condensation by keeping the "
+                "outer surface temperature at or above that dew point (unverified, listed below); the margin on "
+                "top is the designer's choice. The thickness table's last column shows each case's surface above "
+                "the dew point.")
+    b.unverified("ISO 12241's criterion against condensation: the outer surface at or above the dew point")
     b.spread_note("outer surface temperature with one thickness step")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")
@@ -266,8 +340,16 @@ def build(b) -> None:
                 "this template is the user's choice. Follow local codes, the insulation and equipment "
                 "manufacturers' ratings and licensed practice; guards or warning signs may be needed even "
                 "where the calculated temperature meets the limit.", caution=True)
+    b.paragraph("Cold surfaces: condensation wets and degrades insulation, corrodes pipes and supports and drips "
+                "on what lies below. The dew point here is that of the stated air; humidity peaks, draughts of "
+                "humid air and jacket joints raise the risk, which is what the margin is for, and it is a design "
+                "choice. Cold insulation needs a continuous vapour barrier on its warm side whatever its "
+                "thickness, or moisture diffuses in and condenses inside it. Follow the insulation makers' "
+                "data, local codes and licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Hot surface in still air",
+TEMPLATE = Template(NAME, 5, "Hot or cold surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
-                    "a table of insulation thicknesses against a touch-temperature limit.", build)
+                    "a table of insulation thicknesses against a touch-temperature limit; for a cold surface "
+                    "the insulation thickness that keeps it above the ambient dew point, with the heat gain.",
+                    build)

@@ -1,4 +1,4 @@
-"""Thermal networks: nodes joined by conduction, convection, cavity and radiation branches.
+"""Thermal networks: nodes joined by conduction, convection, cavity, radiation and airflow branches.
 
 A network is two tables, exactly as a spreadsheet holds them:
 
@@ -34,13 +34,10 @@ of that difference.  At a zero difference a branch keeps its correlation's finit
 from __future__ import annotations
 
 import dataclasses
-import math
 from collections import OrderedDict
 from collections.abc import Sequence
 from types import MappingProxyType
 from typing import Any
-
-import numpy as np
 
 from ..groups import DEFAULT_PRESSURE
 from ..validity import ABSOLUTE_ZERO_C, InputError
@@ -48,10 +45,11 @@ from .band import solve_band
 from .errors import FUNCTION, NetworkConvergenceError, NetworkError
 from .kinds import BRANCH_KINDS, kind_reference
 from .model import compile_network
-from .reading import gas_key
+from .reading import gas_key, option_number
 from .results import BranchResult, NetworkResult
 from .solver import Solver
 from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
+from .inverse import HeatForTemperature, heat_for_temperature
 
 __all__ = [
     "NetworkError",
@@ -64,6 +62,8 @@ __all__ = [
     "kind_reference",
     "solve_network",
     "clear_network_cache",
+    "heat_for_temperature",
+    "HeatForTemperature",
 ]
 
 _CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()
@@ -160,7 +160,12 @@ def solve_network(branches: Sequence[Sequence[object]], boundaries: Sequence[Seq
     energy-balance method is common practice (e.g. Incropera et al., Fundamentals of Heat and
     Mass Transfer, 6th ed., sec. 4.4, from memory).  Convection branches take Nu from the
     correlation registry (:func:`stillair.nusselt`) at each branch's film temperature, each
-    method with its own source and validity; out-of-range use is listed in ``notes``.
+    method with its own source and validity; out-of-range use is listed in ``notes``.  The
+    ``vent`` and ``airflow`` branches carry outside air through an inside air node,
+    q = m cp (T_from - T_to), the vent's mass flow from the stack balance of two openings
+    (:func:`stillair.stack_flow`), always with the densities at the two node temperatures
+    (``property_temperature`` does not apply to them); their records hold ``mass_flow`` and
+    ``volume_flow``.
 
     Examples
     --------
@@ -239,12 +244,4 @@ def _raw_key(branches, boundaries, *options):
 
 
 def _checked_option(name, value, unit, positive=False) -> float:
-    if value is None or isinstance(value, (bool, np.bool_, str)):
-        raise InputError(FUNCTION, name, value, f"a number in {unit}")
-    try:
-        number = float(value)
-    except (TypeError, ValueError):
-        raise InputError(FUNCTION, name, value, f"a number in {unit}") from None
-    if not math.isfinite(number) or (positive and not number > 0):
-        raise InputError(FUNCTION, name, number, f"> 0 {unit}" if positive else "a finite number")
-    return number
+    return option_number(FUNCTION, name, value, unit, positive)

@@ -28,8 +28,9 @@ from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult
                            nusselt_at_difference_checked, nusselt_checked)
 from ..radiation import SIGMA, exchange_factor
 from ..validity import LENGTH_RANGE
+from ..ventilation import parse_fan_curve
 from .errors import FUNCTION, NetworkError
-from .reading import blank, gas_key, number
+from .reading import blank, error_text, gas_key, number
 
 __all__ = ["Param", "BranchKind", "LinearKind", "RadiationKind", "ConvectionKind", "BRANCH_KINDS",
            "SKIPPED_GEOMETRIES", "NoBranchKind",
@@ -60,7 +61,8 @@ class Param:
     label: str
     unit: str = ""
     meaning: str = ""
-    check: str = "positive"          # positive | emissivity | angle | facing | choice | gas
+    check: str = "positive"   # positive | non-negative | emissivity | fraction | angle | facing | choice | gas
+    #                           | flow-or-curve (a number > 0, or a fan curve's text: parse_fan_curve)
     limits: tuple[float, float] = (0.0, 0.0)
     choices: tuple[str, ...] = ()
     optional: bool = False
@@ -97,9 +99,15 @@ class Param:
             if not isinstance(value, str):
                 raise NetworkError(FUNCTION, here, value, "a gas name")
             return gas_key(value)
+        if self.check == "flow-or-curve" and isinstance(value, str) and error_text(value) is None:
+            try:
+                return parse_fan_curve(value)
+            except ValueError as reason:
+                raise NetworkError(FUNCTION, here, value, f'a volume flow in m³/s or a fan curve "V:dp, ..." '
+                                                          f"in m³/s:Pa ({reason})") from None
         value = number(value, where, column, self.unit)
         unit = f" {self.unit}" if self.unit else ""
-        if self.check == "positive" and not value > 0:
+        if self.check in ("positive", "flow-or-curve") and not value > 0:
             raise NetworkError(FUNCTION, here, value, f"> 0{unit}")
         if self.role in _GEOMETRY_LENGTHS:   # the lengths a correlation reads: as h_* checks them
             low, high = LENGTH_RANGE
@@ -107,8 +115,10 @@ class Param:
                 raise NetworkError(FUNCTION, here, value, f"at most {high:g} m (is it in mm?)")
             if value < low:
                 raise NetworkError(FUNCTION, here, value, f"at least {low:g} m (the gas is no continuum below)")
-        if self.check == "emissivity" and not 0 < value <= 1:
+        if self.check in ("emissivity", "fraction") and not 0 < value <= 1:
             raise NetworkError(FUNCTION, here, value, "in (0, 1]")
+        if self.check == "non-negative" and not value >= 0:
+            raise NetworkError(FUNCTION, here, value, f">= 0{unit}")
         if self.check == "angle" and not self.limits[0] <= value <= self.limits[1]:
             raise NetworkError(FUNCTION, here, value, f"in [{self.limits[0]:g}, {self.limits[1]:g}]°")
         return value
@@ -526,8 +536,11 @@ def _generated_kinds():
 
 
 _CONVECTION_KINDS, _SKIPPED = _generated_kinds()
+# the airflow kinds build on the classes above (their module imports this one)
+from .advection import AIRFLOW, VENT  # noqa: E402
 BRANCH_KINDS: Mapping[str, BranchKind] = MappingProxyType({
-    kind.name: kind for kind in (*_linear_kinds(), *_CONVECTION_KINDS, RADIATION)})
+    kind.name: kind for kind in (*_linear_kinds(), *_CONVECTION_KINDS, RADIATION,
+                                 VENT, AIRFLOW)})
 # Registered geometries that are not branch kinds, with the reason (their h can still enter a
 # network through a film branch).
 SKIPPED_GEOMETRIES: Mapping[str, str] = MappingProxyType(_SKIPPED)

@@ -117,12 +117,14 @@ def compile_network(branches: tuple[Branch, ...], boundaries: tuple[Boundary, ..
     convection: dict = {}
     for key, members in grouped.items():
         kind = BRANCH_KINDS[key[0]]
-        context = {"method": key[2], "gas": key[3]} if kind.has_correlation else {}
+        context = ({"method": key[2], "gas": key[3]} if kind.has_correlation
+                   else {"gas": gas, "pressure": pressure})   # vents and airflows read the gas
         group = kind.group(np.array(members), [branches[m].params for m in members], context)
         if group.needs_properties:
             convection.setdefault(group.gas, []).append(group)
         groups.append(group)
-    _check_gases(convection, branches, gas, pressure)
+    _check_gases(convection, branches, gas, pressure,
+                 reads_gas=any(getattr(g, "reads_gas", False) for g in groups))
     return Network(branches=branches, nodes=topology.nodes, source=topology.source, target=topology.target,
                    free=topology.free, fixed=topology.fixed, fixed_t=topology.fixed_t,
                    heat_input=topology.heat_input, groups=groups,
@@ -213,9 +215,9 @@ class _BatchDetail:
                                in_range=result.in_range[:n], flagged=None if flagged is None else flagged[:n])
 
 
-def _check_gases(convection, branches, gas, pressure):
+def _check_gases(convection, branches, gas, pressure, reads_gas=False):
     """Unknown gases are reported by the cell that names them, before any iteration."""
-    if not convection:
+    if not convection and not reads_gas:
         return
     try:
         gas_properties(gas, 10.0, pressure)

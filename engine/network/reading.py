@@ -7,9 +7,10 @@ import re
 
 import numpy as np
 
+from ..validity import InputError
 from .errors import FUNCTION, NetworkError
 
-__all__ = ["blank", "number", "name", "gas_key", "error_text"]
+__all__ = ["blank", "number", "name", "gas_key", "error_text", "option_number"]
 
 # Error values a spreadsheet shows in a cell (Excel's, and LibreOffice's Err:nnn).  A range
 # handed to a function may carry them as text; none is ever a name or a number.
@@ -80,3 +81,16 @@ _PLAIN_NUMBERS = (float, int)
 def gas_key(gas: str) -> str:
     """Gas text normalised for the cache key (case and spaces do not change the gas)."""
     return ", ".join(part.strip() for part in gas.strip().lower().split(","))
+
+
+def option_number(function: str, argument: str, value, unit: str, positive: bool = False) -> float:
+    """A plain-number option of a network function (pressure, a temperature), or an InputError."""
+    if value is None or isinstance(value, (bool, np.bool_, str)):
+        raise InputError(function, argument, value, f"a number in {unit}")
+    try:
+        result = float(value)
+    except (TypeError, ValueError):
+        raise InputError(function, argument, value, f"a number in {unit}") from None
+    if not math.isfinite(result) or (positive and not result > 0):
+        raise InputError(function, argument, result, f"> 0 {unit}" if positive else "a finite number")
+    return result

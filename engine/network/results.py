@@ -21,7 +21,8 @@ __all__ = ["BranchResult", "NetworkResult", "build_result"]
 class BranchResult:
     """One branch at the solution.  h is per unit area (nan for a resistance branch);
     R = (T_from - T_to) / q in K/W (its zero-difference limit 1/(h A) when the temperatures are
-    equal); Ra, Nu, Pr and t_film are nan for branches without a correlation."""
+    equal); Ra, Nu, Pr and t_film are nan for branches without a correlation; mass_flow (kg/s)
+    and volume_flow (m³/s, at the outside temperature) are those of a vent or airflow branch."""
 
     name: str
     kind: str
@@ -40,6 +41,8 @@ class BranchResult:
     case: str
     note: str
     in_range: bool
+    mass_flow: float = math.nan     # kg/s of air through a vent or airflow branch (nan elsewhere)
+    volume_flow: float = math.nan   # m³/s of that air at the outside (to) temperature
 
     def __getitem__(self, key):
         return getattr(self, key)

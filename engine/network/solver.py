@@ -23,6 +23,7 @@ the worst node.
 from __future__ import annotations
 
 import math
+import warnings
 from typing import NoReturn
 
 import numpy as np
@@ -39,6 +40,11 @@ RELATIVE_TOLERANCE = 1e-9     # of the heat passing through the node
 QUIET_NODE_FRACTION = 1e-3    # a node carrying less than this of the largest flow uses that floor
 SETTLED_KELVIN = 1e-11        # K: a node whose imbalance would move it less than this is settled
 MAX_NEWTON_ITERATIONS = 60
+# From this many free nodes Newton's linear systems are sparse (scipy.sparse, SuperLU): a dense
+# LU grows as n^3 and, through a threaded BLAS, costs a loaded machine far more CPU than it
+# computes (100 nodes: 40-140 ms of CPU against 9 ms on one thread).  Below it the dense LU
+# of a few dozen unknowns is cheaper than building a sparse matrix.
+SPARSE_FROM = 32
 START_PASSES = 2              # fixed-point passes of the nominal start
 
 
@@ -47,6 +53,40 @@ def _two_sum(a: np.ndarray, b: np.ndarray):
     s = a + b
     bb = s - a
     return s, (a - (s - bb)) + (b - bb)
+
+
+def sparse_matrix(matrix) -> bool:
+    return not isinstance(matrix, np.ndarray)
+
+
+class _FreePairs:
+    """Matrix entries given per branch end pair (row node, column node), kept where both are free
+    nodes, in free-node numbering; and the entries in a free row and a fixed column, which move
+    to the right-hand side."""
+
+    def __init__(self, net: Network, rows: np.ndarray, columns: np.ndarray):
+        position = np.full(len(net.nodes), -1)
+        position[net.free] = np.arange(net.free.size)
+        free_row, free_column = position[rows] >= 0, position[columns] >= 0
+        self.keep = free_row & free_column
+        self.rows, self.columns = position[rows][self.keep], position[columns][self.keep]
+        self.to_fixed = free_row & ~free_column
+        self.fixed_rows = position[rows][self.to_fixed]
+        self.fixed_columns = columns[self.to_fixed]   # node numbers (fixed)
+        self.size = net.free.size
+
+    def matrix(self, values: np.ndarray):
+        from scipy.sparse import csr_matrix
+
+        # duplicate (row, column) entries add up, as np.bincount adds them in the dense form
+        return csr_matrix((values[self.keep], (self.rows, self.columns)), shape=(self.size, self.size))
+
+    def fixed_part(self, values: np.ndarray, net: Network) -> np.ndarray:
+        """(free rows x fixed columns) @ the fixed temperatures."""
+        t = np.zeros(len(net.nodes))
+        t[net.fixed] = net.fixed_t
+        return np.bincount(self.fixed_rows, values[self.to_fixed] * t[self.fixed_columns],
+                           minlength=self.size)
 
 
 class Solver:
@@ -62,6 +102,10 @@ class Solver:
         self._laplacian_index = np.concatenate([s * n + s, r * n + r, s * n + r, r * n + s])
         self._free_block = np.ix_(net.free, net.free)
         self._free_fixed_block = np.ix_(net.free, net.fixed)
+        self.sparse = net.free.size >= SPARSE_FROM
+        if self.sparse:
+            self._jacobian_pairs = _FreePairs(net, np.concatenate([r, r, s, s]), np.concatenate([s, r, s, r]))
+            self._laplacian_pairs = _FreePairs(net, np.concatenate([s, r, s, r]), np.concatenate([s, r, r, s]))
         # every branch end, grouped by node (each node has at least one): for per-node minima
         ends = np.concatenate([s, r])
         self._incidence = np.argsort(ends, kind="stable")
@@ -152,19 +196,55 @@ class Solver:
     def converged(self, evaluation, residual) -> bool:
         return bool(np.all(np.abs(residual) <= self.tolerances(evaluation)))
 
+    @staticmethod
+    def _jacobian_values(evaluation) -> np.ndarray:
+        return np.concatenate([evaluation.d_source, evaluation.d_target,
+                               -evaluation.d_source, -evaluation.d_target])
+
     def jacobian(self, evaluation) -> np.ndarray:
+        """The free block of d(balance)/dT as a dense array (scipy's root finders take it)."""
         n = len(self.net.nodes)
-        values = np.concatenate([evaluation.d_source, evaluation.d_target,
-                                 -evaluation.d_source, -evaluation.d_target])
-        full = np.bincount(self._jacobian_index, values, minlength=n * n).reshape(n, n)
+        full = np.bincount(self._jacobian_index, self._jacobian_values(evaluation),
+                           minlength=n * n).reshape(n, n)
         return full[self._free_block]
 
+    def newton_matrix(self, evaluation):
+        """The Jacobian's free block for Newton's step: dense for small networks, sparse (CSR)
+        from SPARSE_FROM free nodes, where a dense n x n matrix and LU grow as n^2 and n^3."""
+        if self.sparse:
+            return self._jacobian_pairs.matrix(self._jacobian_values(evaluation))
+        return self.jacobian(evaluation)
+
     @staticmethod
-    def row_scale(jac: np.ndarray) -> np.ndarray:
+    def row_scale(jac) -> np.ndarray:
         """1 / (each node's total conductance): turns W into K."""
-        total = np.sum(np.abs(jac), axis=1)
+        total = np.asarray(abs(jac).sum(axis=1)).ravel()
         total[~(total > 0)] = 1.0
         return 1.0 / total
+
+    def solve_scaled(self, matrix, scale: np.ndarray, rhs: np.ndarray) -> np.ndarray:
+        """x with (diag(scale) matrix) x = rhs: LAPACK for a dense matrix, SuperLU for a sparse
+        one (no BLAS threads either way that matter: SuperLU's supernodes here are tiny); least
+        squares where the matrix is singular (a free node joined only by branches whose
+        coefficient is zero)."""
+        if not sparse_matrix(matrix):
+            try:
+                return np.linalg.solve(matrix * scale[:, None], rhs)
+            except np.linalg.LinAlgError:
+                return np.linalg.lstsq(matrix * scale[:, None], rhs, rcond=None)[0]
+        from scipy.sparse import diags
+        from scipy.sparse.linalg import MatrixRankWarning, lsqr, spsolve
+
+        scaled = (diags(scale) @ matrix).tocsc()
+        with warnings.catch_warnings():
+            warnings.simplefilter("error", MatrixRankWarning)
+            try:
+                x = spsolve(scaled, rhs)
+            except (MatrixRankWarning, RuntimeError):
+                x = None
+        if x is None or not np.all(np.isfinite(x)):
+            x = lsqr(scaled, rhs, atol=1e-14, btol=1e-14)[0]
+        return np.asarray(x, dtype=float)
 
     # ---- start ---------------------------------------------------------------------------
 
@@ -195,17 +275,16 @@ class Solver:
     def linear_solve(self, conductance: np.ndarray) -> np.ndarray:
         net = self.net
         n = len(net.nodes)
-        laplacian = np.bincount(self._laplacian_index,
-                                np.concatenate([conductance, conductance, -conductance, -conductance]),
-                                minlength=n * n).reshape(n, n)
-        rhs = net.heat_input[net.free] - laplacian[self._free_fixed_block] @ net.fixed_t
-        matrix = laplacian[self._free_block]
+        values = np.concatenate([conductance, conductance, -conductance, -conductance])
+        if self.sparse:
+            matrix = self._laplacian_pairs.matrix(values)
+            rhs = net.heat_input[net.free] - self._laplacian_pairs.fixed_part(values, net)
+        else:
+            laplacian = np.bincount(self._laplacian_index, values, minlength=n * n).reshape(n, n)
+            rhs = net.heat_input[net.free] - laplacian[self._free_fixed_block] @ net.fixed_t
+            matrix = laplacian[self._free_block]
         scale = self.row_scale(matrix)
-        try:
-            return np.linalg.solve(matrix * scale[:, None], rhs * scale)
-        except np.linalg.LinAlgError:
-            # A free node joined only by branches whose nominal coefficient is zero.
-            return np.linalg.lstsq(matrix, rhs, rcond=None)[0]
+        return self.solve_scaled(matrix, scale, rhs * scale)
 
     # ---- Newton --------------------------------------------------------------------------
 
@@ -216,13 +295,10 @@ class Solver:
         for _ in range(self.max_iterations):
             if self.converged(evaluation, residual):
                 return (evaluation, residual), x, x_fine
-            jac = self.jacobian(evaluation)
+            jac = self.newton_matrix(evaluation)
             scale = self.row_scale(jac)
             scaled = residual * scale
-            try:
-                dx = np.linalg.solve(jac * scale[:, None], -scaled)
-            except np.linalg.LinAlgError:
-                dx = np.linalg.lstsq(jac * scale[:, None], -scaled, rcond=None)[0]
+            dx = self.solve_scaled(jac, scale, -scaled)
             if not np.all(np.isfinite(dx)):
                 break
             absolute = x + zero_Celsius

@@ -139,6 +139,40 @@ def wall_chain_by_hand():
     return K_GLASS / GLASS * (solution[0] - solution[1])
 
 
+def plate_grid(side: int):
+    """A heat-spreading plate (side x side nodes): conduction between neighbours, a vertical-plate
+    film and radiation from every node, heat in at two corners (tests/test_network_sparse.py)."""
+    branches = []
+    for i in range(side):
+        for j in range(side):
+            node = f"n{i}_{j}"
+            if i + 1 < side:
+                branches.append([f"x{i}_{j}", node, f"n{i + 1}_{j}", "conduction", 0.01, 200.0, 2e-4])
+            if j + 1 < side:
+                branches.append([f"y{i}_{j}", node, f"n{i}_{j + 1}", "conduction", 0.01, 200.0, 2e-4])
+            branches.append([f"c{i}_{j}", node, "air", "vplate", 0.3, 1e-4])
+            branches.append([f"r{i}_{j}", node, "room", "radiation", 0.9, None, 1e-4])
+    boundaries = [["room", "T", 25.0], ["air", "T", 20.0], ["n0_0", "Q", 5.0],
+                  [f"n{side - 1}_{side - 1}", "Q", 3.0]]
+    return branches, boundaries
+
+
+def large_networks():
+    """Targets (issue 21): 10,000 nodes under 2 s; close to linear from 1,000 to 10,000 nodes;
+    100 nodes under 10 ms of CPU however many BLAS threads the machine offers."""
+    times = {}
+    for side, repeat in ((10, 10), (32, 3), (100, 2)):
+        branches, boundaries = plate_grid(side)
+        stillair.solve_network(branches, boundaries, use_cache=False)
+        best, median, result = timed(lambda: stillair.solve_network(branches, boundaries, use_cache=False),
+                                     repeat)
+        times[side * side] = best
+        print(f"plate grid {side * side:>6} nodes, {len(branches):>6} branches: best {best * 1e3:8.1f} ms "
+              f"CPU (median {median * 1e3:.1f}); {result.iterations} iterations")
+    print(f"10,000 against 1,024 nodes: {times[10000] / times[1024]:.1f}x the time for "
+          f"{10000 / 1024:.1f}x the nodes (linear would be {10000 / 1024:.1f}x)")
+
+
 def timed(function, repeat, inner=1):
     times = []
     for _ in range(repeat):
@@ -178,6 +212,7 @@ def main():
           f"q = {q_hand:.6f} W")
     print(f"wall chain: stillair {hand / ours:.0f}x faster (target >= 10x); answers differ by "
           f"{abs(q_ours - q_hand) / abs(q_hand):.1e} (relative)")
+    large_networks()
 
 
 if __name__ == "__main__":
