@@ -15,6 +15,7 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 from typing import Any, Callable
@@ -31,8 +32,10 @@ from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
+from .plausibility import length_slip, temperature_slip, warn_slips
 from .validity import (PLAIN_NUMBERS, is_plain_number, InputError, distinct_notes, require_between,
-                       require_choice, require_nonnegative, require_positive, unwrap, warn_out_of_range)
+                       require_choice, require_length, require_nonnegative, require_positive, unwrap,
+                       warn_out_of_range, is_plain_length)
 
 __all__ = [
     "ConvectionResult",
@@ -189,21 +192,35 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     >>> round(float(windy.h), 2), str(windy.forced_method), round(float(windy.re))
     (6.66, 'pohlhausen', 117656)
     """
-    function_name = function_name or f"h_{geometry}"
-    still = _still_surface_convection(geometry, t_surface, t_fluid, length, facing=facing, tilt=tilt,
-                                      diameter=diameter, gas=gas, pressure=pressure, method=method,
-                                      property_temperature=property_temperature,
-                                      ideal_expansion=ideal_expansion, function_name=function_name)
+    surfaces = tuple(name for name, geo in GEOMETRIES.items() if name not in ONE_CALLS and "ra" in geo.inputs)
+    function_name = function_name or (f"h_{geometry}" if geometry in surfaces else "surface_convection")
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, surfaces)]
+    still = _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter, gas, pressure, method,
+                                property_temperature, ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"ts": t_surface, "tf": t_fluid}),
+                      length_slip(geo.length, length),
+                      length_slip("diameter", diameter) if "slenderness" in geo.inputs else "", stacklevel=4)
+    still = _with_slip(still, slip)
     if wind_length is None and is_plain_number(wind) and wind == 0:
         return still    # still air, untouched (the usual call)
-    return _with_wind(geometry, still, wind, wind_length, length, diameter, gas, pressure, function_name)
+    return _with_wind(geo.name, still, wind, wind_length, length, diameter, gas, pressure, function_name)
 
 
-def _still_surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike, *,
-                              facing: str | None, tilt: ArrayLike | None, diameter: ArrayLike | None, gas: str,
-                              pressure: ArrayLike, method: str, property_temperature: ArrayLike | None,
-                              ideal_expansion: bool, function_name: str) -> ConvectionResult:
-    geo = GEOMETRIES[geometry]
+def _with_slip(result: "ConvectionResult", slip: str) -> "ConvectionResult":
+    """The result with a unit-slip note added to every element's note (the range notes stay)."""
+    if not slip:
+        return result
+    note = np.asarray(result.note, dtype=object)
+    with_slip = np.where(note == "", slip, note + "; " + slip) if note.ndim else \
+        np.array(f"{note.item()}; {slip}" if note.item() else slip, dtype=object)
+    return dataclasses.replace(result, note=with_slip)
+
+
+def _surface_convection(geo: Geometry, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike,
+                        facing: str | None, tilt: ArrayLike | None, diameter: ArrayLike | None, gas: str,
+                        pressure: ArrayLike, method: str, property_temperature: ArrayLike | None,
+                        ideal_expansion: bool, function_name: str) -> "ConvectionResult":
+    geometry = geo.name
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
@@ -218,20 +235,28 @@ def _still_surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: Arra
         plate = f"{'hot' if delta_t >= 0 else 'cold'}-{str(facing).strip().lower()}" if geo.cases else ""
         result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
         return _scalar_result(props, t_film, gr, ra, length, result, plate)
-    length = require_positive(function_name, length_name, length, "m")
+    length = require_length(function_name, length_name, length)
+    # every argument takes part in the result's shape (a range of tilts or diameters at one
+    # temperature broadcasts like a range of temperatures)
+    extra: list[np.ndarray] = []
+    if "tilt" in geo.inputs:
+        tilt = require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg")
+        extra.append(tilt)
+    if "slenderness" in geo.inputs:
+        diameter = require_length(function_name, "diameter", diameter)
+        extra.append(diameter)
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name,
                                           names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
-    shape = np.broadcast(ra, props.prandtl).shape
+    shape = np.broadcast(ra, props.prandtl, *extra).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
     if "tilt" in geo.inputs:
-        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg"), shape)
+        inputs["tilt"] = _full(tilt, shape)
     if "slenderness" in geo.inputs:
-        diameter = require_positive(function_name, "diameter", diameter, "m")
         inputs.update({k: _full(v, shape) for k, v in shape_ratios(geo, length, diameter=diameter).items()})
     if geo.cases:
         facing = require_choice(function_name, "facing", facing, FACINGS)
@@ -247,7 +272,7 @@ def _still_surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: Arra
     else:
         case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
-    h = result.nu * props.conductivity / length
+    h = _full(result.nu * props.conductivity / length, shape)
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
@@ -292,6 +317,15 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
+    result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                                ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"t1": t1, "t2": t2}), length_slip("gap", gap),
+                      length_slip("height", height), stacklevel=4)
+    return _with_slip(result, slip)
+
+
+def _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                       ideal_expansion, function_name) -> "ConvectionResult":
     geo = GEOMETRIES["cavity"]
     tilt_low, tilt_high = geo.tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
@@ -301,8 +335,8 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
                          tilt=layer_tilt(float(tilt), delta_t), **shape_ratios(geo, gap, height=height))
         return _scalar_result(props, t_film, gr, ra, gap, result, "")
-    gap = require_positive(function_name, "gap", gap, "m")
-    height = require_positive(function_name, "height", height, "m")
+    gap = require_length(function_name, "gap", gap)
+    height = require_length(function_name, "height", height)
     tilt = require_between(function_name, "tilt", tilt, tilt_low, tilt_high, "deg")
     props, t_film, beta = film_properties(t1, t2, gas, pressure, property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
@@ -400,7 +434,7 @@ def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pres
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
     """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
     return (property_temperature is None
-            and all(type(v) in PLAIN_NUMBERS and 0.0 < v < math.inf for v in lengths)
+            and all(is_plain_length(v) for v in lengths)
             and plain_state_accepted(gas, temperatures, pressure))
 
 

@@ -81,6 +81,7 @@ class TemplateBook:
         self.workbook.set_custom_property(MARKER_NAME, template.marker)
         self.workbook.define_name(MARKER_NAME, f'="{template.marker}"')
         self.names: dict[str, str] = {}
+        self.unverified_constants: list[str] = []
         self._format_cache: dict[tuple, Any] = {}
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
@@ -349,6 +350,22 @@ class TemplateBook:
         self._write_wrapped(state, state.row, 0, 0, text, "caution" if caution else "paragraph")
         state.row += 1
 
+    def unverified(self, constant: str) -> str:
+        """Record a constant whose source no one on the project could read (a standard's value
+        recalled, an equation number); the Notes sheet lists every one as unverified, and the
+        text returned ("unverified: see Notes") is all that is printed beside the result, so a
+        checker signs nothing that rests on memory alone without being told."""
+        if constant not in self.unverified_constants:
+            self.unverified_constants.append(constant)
+        return "unverified: see Notes"
+
+    def _unverified_paragraph(self) -> None:
+        if self.unverified_constants:
+            self.paragraph("UNVERIFIED CONSTANTS. The following are stated as recalled by the template's "
+                           "authors; no source they could read confirmed them. Check each against the cited "
+                           "document before signing: " + "; ".join(self.unverified_constants) + ".",
+                           caution=True)
+
     def spread_note(self, what: str) -> None:
         """The Notes paragraph saying what the correlation spread beside a key result means."""
         self.paragraph(f"Correlation spread ({what}): the same calculation with every convection "
@@ -560,6 +577,7 @@ class TemplateBook:
         return f"{sheet}!{xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)}"
 
     def close(self) -> None:
+        self._unverified_paragraph()
         for state in self.sheets.values():
             ws = state.worksheet
             for row, lines in sorted(state.lines.items()):
@@ -607,7 +625,13 @@ def _clip(text: str, limit: int) -> str:
 
 
 def source_of(geometry: str, method: str) -> str:
-    """The published source of a registered correlation, for a template's Notes sheet."""
+    """The published source of a registered correlation, for a template's Notes sheet.
+
+    The registry says "from memory" where a detail of a source (an equation number, a constant)
+    was not read; on a sheet a checker signs it reads "unverified", the word the Notes sheet's
+    list of unverified constants uses."""
     from stillair.correlations import CORRELATIONS
 
-    return CORRELATIONS[(geometry, method)].source
+    source = CORRELATIONS[(geometry, method)].source
+    return source.replace("from memory of the number", "equation number unverified").replace(
+        "from memory", "unverified")

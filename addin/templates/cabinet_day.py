@@ -344,9 +344,14 @@ def build(b) -> None:
                 "at the ambient air temperature, the top only the sky. No wind: still air gives the lowest "
                 "convective cooling. The sky is a fixed amount colder than the air all day and night, a "
                 "simplification: a clear night sky is usually further below the air than a sunny day's.")
-    b.paragraph("Unverified defaults (from memory, not from a source read for this template): steel density "
-                "7850 kg/m³ and specific heat 460 J/(kg·K), the equipment's heat capacity of 100 kJ/K (a "
-                "rack of equipment with batteries, roughly 150 kg), the sky depression of 12 K. Replace them with the project's values.")
+    for constant in ("steel density 7850 kg/m³ and specific heat 460 J/(kg·K) (handbook values as recalled)",
+                     "the equipment's heat capacity of 100 kJ/K (a rack of equipment with batteries, roughly "
+                     "150 kg; an estimate)",
+                     "the sky 12 K below the air all day (an estimate; a clear night sky is usually further "
+                     "below)"):
+        b.unverified(constant)
+    b.paragraph("The defaults for the steel, the equipment's heat capacity and the sky are not from a source "
+                "read for this template (listed as unverified below): replace them with the project's values.")
     b.section("Notes", "Cautions")
     b.paragraph("Overheating of electrical equipment: this template gives the mean internal air temperature "
                 "only. It ignores internal airflow patterns, hot spots and component temperatures, which can be "

@@ -19,7 +19,7 @@ from typing import Any
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from .book import TemplateBook
+from .book import TemplateBook, source_of
 from .spec import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
                    SLATE, Template, Valid, gas_pressure)
 
@@ -128,13 +128,16 @@ def build(b: TemplateBook) -> None:
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
 
     b.section("Calculation", "(a) EN 673 standard conditions (declared centre-of-glass U-value)")
-    b.step("std_h_e", "External coefficient h_e", "=23", "W/(m²·K)", "EN 673 value (from memory)")
+    b.step("std_h_e", "External coefficient h_e", "=23", "W/(m²·K)",
+           b.unverified("EN 673 external coefficient h_e = 23 W/(m²·K)"))
     b.step("std_h_i", "Internal coefficient h_i = 3.6 + 4.4 eps/0.837", "=3.6+4.4*eps_indoor_face/0.837",
-           "W/(m²·K)", "EN 673 (from memory): 8.0 for uncoated glass")
-    b.step("std_tm_k", "Mean gas temperature Tm", "=283", "K", "EN 673 (from memory)")
+           "W/(m²·K)", b.unverified("EN 673 internal coefficient h_i = 3.6 + 4.4 eps/0.837 W/(m²·K)"))
+    b.step("std_tm_k", "Mean gas temperature Tm", "=283", "K",
+           b.unverified("EN 673 declared mean gas temperature 283 K"))
     b.step("std_mean", "Mean gas temperature", "=std_tm_k-273.15", "°C")
     b.step("std_dt", "Temperature difference across the gas space(s), total", "=15", "K",
-           "EN 673 (from memory); split between the gaps of a triple unit below")
+           b.unverified("EN 673 declared temperature difference 15 K across the gas space(s), split "
+                        "between the gaps of a triple unit in proportion to their resistances"))
     b.step("std_hr_1", "Gap 1 radiation 4 sigma Tm³/(1/e2 + 1/e3 - 1)",
            "=4*sigma*std_tm_k^3/(1/eps_gap1_outer+1/eps_gap1_inner-1)", "W/(m²·K)")
     b.step("std_hr_2", "Gap 2 radiation 4 sigma Tm³/(1/e4 + 1/e5 - 1)",
@@ -351,10 +354,10 @@ def build(b: TemplateBook) -> None:
                 "step: 1/U = 1/h_e + 1/h_i + sum(d/k) + sum over the gaps of 1/(h_g + h_r), with h_g = Nu k/s "
                 "from the standard's Nu = A (Gr Pr)^n (vertical: A = 0.035, n = 0.38; Nu at least 1), gas "
                 "properties at the mean gas temperature 283 K, 15 K across the gas space and h_r = 4 sigma Tm³ / "
-                "(1/e1 + 1/e2 - 1); h_e = 23 and h_i = 3.6 + 4.4 eps/0.837 W/(m²·K) (all from memory of the "
-                "standard). For a triple unit the 15 K are split between the two gaps in proportion to their "
-                "resistances, iterated in explicit passes (from memory of the standard's procedure; the last "
-                "pass's change of U is shown). Gas properties are the engine's (CoolProp-based mixing rules), "
+                "(1/e1 + 1/e2 - 1); h_e = 23 and h_i = 3.6 + 4.4 eps/0.837 W/(m²·K) (the standard's constants: "
+                "unverified, listed below). For a triple unit the 15 K are split between the two gaps in "
+                "proportion to their resistances, iterated in explicit passes (the standard's procedure as "
+                "recalled: unverified; the last pass's change of U is shown). Gas properties are the engine's (CoolProp-based mixing rules), "
                 "not the standard's declared table, so U can differ from a catalogue by a few 0.01 W/(m²·K).")
     b.paragraph("(b) Actual conditions: a thermal network per m² of glass, solved to convergence by NET_SOLVE's "
                 "engine: outdoor air -(film h_outdoor, and radiation of face 1 to surroundings at the outdoor "
@@ -367,8 +370,10 @@ def build(b: TemplateBook) -> None:
                 "89(2A) (1983) 500-519, as printed in the ASHRAE Handbook - Fundamentals 2017 ch. 1 eqs. 5 "
                 "and 6), over ice below 0.01 °C (a frost point there). The relative humidity at the indoor face "
                 "is p_w / p_ws(face); ISO 13788 judges mould likely where it stays at 0.8 or above for some "
-                "time (from memory) and condensation at 1. The temperature factor f_Rsi = (face - outdoor) / "
-                "(indoor - outdoor) (ISO 13788) compares with the minimum local practice requires.")
+                "time (unverified, listed below) and condensation at 1. The temperature factor f_Rsi = "
+                "(face - outdoor) / (indoor - outdoor) (ISO 13788) compares with the minimum local practice "
+                "requires.")
+    b.unverified("ISO 13788's mould criterion, a surface relative humidity of 0.8 held for some time")
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
@@ -384,7 +389,7 @@ def build(b: TemplateBook) -> None:
                 auto_default: "mode (b) gaps, the auto choice at the default inputs"}.get(key[1], "mode (b) gaps when chosen")
         if key[0] == "vplate":
             role = "mode (b) indoor face"
-        b.paragraph(f"- {key[0]} {key[1]} ({role}): {c.title}. Source: {c.source}")
+        b.paragraph(f"- {key[0]} {key[1]} ({role}): {c.title}. Source: {source_of(key[0], key[1])}")
     b.paragraph("Radiation: grey parallel faces, exchange factor 1/(1/e1 + 1/e2 - 1); a face seeing large "
                 "surroundings, factor e. Linearised h = F sigma (T1² + T2²)(T1 + T2) (H_RAD).")
     b.paragraph("Assumptions: centre of glass, one-dimensional heat flow; vertical glazing; gaps sealed and gas "

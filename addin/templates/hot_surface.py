@@ -342,9 +342,10 @@ def build(b) -> None:
                 "outer surface at or below the dew point of the air (DEW_POINT with the air's temperature and "
                 "relative humidity; Hyland-Wexler saturation pressure, ASHRAE Handbook - Fundamentals 2017 ch. "
                 "1; a frost point below 0 °C). ISO 12241 sizes insulation against condensation by keeping the "
-                "outer surface temperature at or above that dew point (from memory); the margin on top is the "
-                "designer's choice. The thickness table's last column shows each case's surface above the dew "
-                "point.")
+                "outer surface temperature at or above that dew point (unverified, listed below); the margin on "
+                "top is the designer's choice. The thickness table's last column shows each case's surface above "
+                "the dew point.")
+    b.unverified("ISO 12241's criterion against condensation: the outer surface at or above the dew point")
     b.spread_note("outer surface temperature with one thickness step")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")

@@ -14,7 +14,7 @@ import stillair
 from stillair.forced import MIXING_EQUATION, MIXING_SOURCE
 from stillair.network import BRANCH_COLUMNS
 
-from .book import TemplateBook
+from .book import TemplateBook, source_of
 from .spec import OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, Valid, gas_pressure
 
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
@@ -76,7 +76,8 @@ def build(b: TemplateBook) -> None:
 
     b.section("Calculation", "Outside coefficients")
     b.step("h_wind", "Published wind coefficient h_w = 2.8 + 3.0 V (comparison, and Klein's)", "=2.8+3.0*wind_speed",
-           "W/(m²·K)", "Watmuff, Charters & Proctor (1977), as quoted by Duffie & Beckman (from memory)")
+           "W/(m²·K)", b.unverified("wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters & Proctor "
+                                    "1977, as quoted by Duffie & Beckman)"))
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
     b.section("Tables", "Network per m² of absorber, one cover (cover temperatures unknown; p5 of the outer "
                         "face: the wind speed)")
@@ -132,7 +133,9 @@ def build(b: TemplateBook) -> None:
            f'col_bounds_klein,"rad-1",{air}))/(t_absorber-t_ambient)', "W/(m²·K)",
            "outer face a film of the published h_w, sky node at t_ambient")
 
-    b.section("Calculation", "Klein's empirical top-loss equation (Duffie & Beckman eq. 6.4.9, from memory)")
+    b.section("Calculation", "Klein's empirical top-loss equation (Duffie & Beckman eq. 6.4.9; unverified, see Notes)")
+    b.unverified("Klein's top-loss equation and its constants as quoted by Duffie & Beckman eq. 6.4.9 "
+                 "(f, C = 520 (1 - 0.000051 beta²), e = 0.430 (1 - 100/T_pm), 0.00591, 0.133)")
     b.step("k_tp", "Absorber temperature T_pm", "=t_absorber+273.15", "K")
     b.step("k_ta", "Ambient temperature T_a", "=t_ambient+273.15", "K")
     b.step("k_f", "f = (1 + 0.089 h_w - 0.1166 h_w eps_p)(1 + 0.07866 N)",
@@ -161,7 +164,8 @@ def build(b: TemplateBook) -> None:
     b.result("outside_h", "Convection coefficient, natural and wind combined (used)", "=h_outside", "W/(m²·K)")
     b.result("outside_h_still", "The same face in still air", "=h_outside_still", "W/(m²·K)")
     b.result("outside_h_published", "Published linear wind coefficient 2.8 + 3.0 V (comparison)", "=h_wind",
-             "W/(m²·K)", "Watmuff et al. 1977, from memory; see Notes")
+             "W/(m²·K)", b.unverified("wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters & Proctor "
+                                      "1977, as quoted by Duffie & Beckman)"))
     b.section("Results", "Beside Klein's empirical equation (sky at the air temperature)")
     b.result("top_loss_u_klein_case", "U_t, network with the sky at the air temperature", "=u_top_sky_air",
              "W/(m²·K)")
@@ -170,7 +174,8 @@ def build(b: TemplateBook) -> None:
     b.result("klein_note", "Klein's stated range",
              '=IF(OR(t_absorber>200,t_absorber<t_ambient,tilt>90),"outside: plate from ambient to 200 °C",'
              '"inside its stated range (plate from ambient to 200 °C, slope 0-90°)")', text=True,
-             note="range from memory (Duffie & Beckman sec. 6.4)")
+             note=b.unverified("the stated range of Klein's equation (plate from ambient to 200 °C, "
+                               "slope 0-90°; Duffie & Beckman sec. 6.4)"))
     b.section("Results", "Checks and validity notes")
     b.result("network_check", "Network", f'=NET_CHECK({branches},col_bounds,"air",pressure)', text=True)
     b.result("gap1_method", "Gap 1 correlation", '=CAVITY_METHOD(ra_1,pr_1,collector_length/gap_1,tilt,"auto")',
@@ -208,26 +213,27 @@ def build(b: TemplateBook) -> None:
     b.cite("Natural part, upward face of a tilted plate", "tplate", "raithby-hollands")
     b.paragraph("Comparison: the published linear wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters "
                 "and Proctor 1977, as quoted by Duffie & Beckman, Solar Engineering of Thermal Processes, "
-                "sec. 3.15; from memory) is shown beside the correlation and is the h_w of Klein's equation and "
+                "sec. 3.15; unverified, see the list below) is shown beside the correlation and is the h_w of Klein's equation and "
                 "of the Klein-case network. Field coefficients of this kind include free-stream turbulence and "
                 "edge effects that the flat-plate boundary layer leaves out, and usually come out higher; the "
                 "difference between the two is a measure of how uncertain the outside coefficient is. The "
                 "top loss is sensitive to it at one cover.")
     b.paragraph("Klein's empirical equation: S.A. Klein, Calculation of flat-plate collector loss coefficients, "
                 "Solar Energy 17 (1975) 79-80, in the revised form quoted by Duffie & Beckman, Solar Engineering "
-                "of Thermal Processes, eq. 6.4.9 (from memory): U_t = {N/[(C/T_pm)((T_pm - T_a)/(N + f))^e] + "
+                "of Thermal Processes, eq. 6.4.9 (unverified): U_t = {N/[(C/T_pm)((T_pm - T_a)/(N + f))^e] + "
                 "1/h_w}^-1 + sigma (T_pm + T_a)(T_pm² + T_a²)/{(eps_p + 0.00591 N h_w)^-1 + (2N + f - 1 + 0.133 "
                 "eps_p)/eps_g - N}, f = (1 + 0.089 h_w - 0.1166 h_w eps_p)(1 + 0.07866 N), C = 520 (1 - 0.000051 "
                 "beta²) for 0-70° (70° above), e = 0.430 (1 - 100/T_pm). It takes the sky at the air temperature "
                 "and gaps of about 25 mm, so it is compared with the network solved with the sky at the air "
-                "temperature; stated accuracy about +-0.3 W/(m²·K) (from memory).")
+                "temperature; stated accuracy about +-0.3 W/(m²·K) (unverified).")
+    b.unverified("the stated accuracy of Klein's equation, about +-0.3 W/(m²·K)")
     used = sorted({str(stillair.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
                    for t in (0.0, 30.0, 45.0, 60.0)})
     b.spread_note("gap 1 convection coefficient")
     b.paragraph("Cavity correlations the automatic choice uses for tilted collector gaps:")
     for method in used:
         c = cav[("cavity", method)]
-        b.paragraph(f"- cavity {method}: {c.title}. Source: {c.source}")
+        b.paragraph(f"- cavity {method}: {c.title}. Source: {source_of('cavity', method)}")
     b.paragraph("The Results sheet names the correlation used at these inputs and whether it is in its range.")
     b.paragraph("Assumptions: steady state; absorber isothermal at its mean temperature; no edge or back losses "
                 "(add them separately); covers opaque to long-wave radiation; no solar absorption in the covers.")

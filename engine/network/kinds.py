@@ -28,6 +28,7 @@ from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult
                            nusselt_at_difference_checked, nusselt_checked)
 from ..forced import WIND_FLOWS, combine_mixed
 from ..radiation import SIGMA, exchange_factor
+from ..validity import LENGTH_RANGE
 from ..ventilation import parse_fan_curve
 from .errors import FUNCTION, NetworkError
 from .reading import blank, error_text, gas_key, number
@@ -109,6 +110,12 @@ class Param:
         unit = f" {self.unit}" if self.unit else ""
         if self.check in ("positive", "flow-or-curve") and not value > 0:
             raise NetworkError(FUNCTION, here, value, f"> 0{unit}")
+        if self.role in _GEOMETRY_LENGTHS:   # the lengths a correlation reads: as h_* checks them
+            low, high = LENGTH_RANGE
+            if value > high:
+                raise NetworkError(FUNCTION, here, value, f"at most {high:g} m (is it in mm?)")
+            if value < low:
+                raise NetworkError(FUNCTION, here, value, f"at least {low:g} m (the gas is no continuum below)")
         if self.check in ("emissivity", "fraction") and not 0 < value <= 1:
             raise NetworkError(FUNCTION, here, value, "in (0, 1]")
         if self.check == "non-negative" and not value >= 0:
@@ -117,6 +124,9 @@ class Param:
             raise NetworkError(FUNCTION, here, value, f"in [{self.limits[0]:g}, {self.limits[1]:g}]°")
         return value
 
+
+#: Parameter roles that are a convection geometry's lengths (checked against LENGTH_RANGE).
+_GEOMETRY_LENGTHS = ("length", "height", "diameter")
 
 AREA = Param("area", "m²")
 
