@@ -18,11 +18,13 @@ of t_i -> t_s (beyond the temperature an unlimited thickness would approach) is 
 from __future__ import annotations
 
 import math
+import warnings
 
 import numpy as np
 
 from ._typing import ArrayLike, FloatOrArray
 from .convection import surface_convection
+from .plausibility import UnitSlipWarning
 from .groups import DEFAULT_PRESSURE
 from .radiation import h_rad
 from .validity import (InputError, format_value, require_between, require_choice, require_finite,
@@ -156,10 +158,21 @@ def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure, wind_a
 
     def flux(length):
         """(W/m² the outer surface passes on at t_s, positive in the direction t_i -> t_s; note)."""
-        result = surface_convection(geometry, ts, ta, length, facing=facing, gas=gas, pressure=pressure,
-                                    function_name=FUNCTION, **wind_args)
+        # a trial diameter is ours, not typed: the unit-slip check (a length that looks like mm)
+        # speaks of the user's own size only, so it is taken off the trials' notes
+        with warnings.catch_warnings(record=True) as slips:
+            warnings.simplefilter("always", UnitSlipWarning)
+            result = surface_convection(geometry, ts, ta, length, facing=facing, gas=gas, pressure=pressure,
+                                        function_name=FUNCTION, **wind_args)
+        note = str(result.note)
+        for slip in slips:
+            if issubclass(slip.category, UnitSlipWarning):
+                text = str(slip.message).removeprefix(f"{FUNCTION}: ")
+                note = note.replace(f"; {text}", "").replace(text, "")
+            else:
+                warnings.warn_explicit(slip.message, slip.category, slip.filename, slip.lineno)
         passed = float(result.h) * (ts - ta) + radiation
-        return math.copysign(1.0, drive) * passed, str(result.note)
+        return math.copysign(1.0, drive) * passed, note
 
     def unreachable(how: str) -> InputError:
         return InputError(FUNCTION, "t_surface", ts,

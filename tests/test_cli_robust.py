@@ -223,6 +223,9 @@ def test_ctrl_c_while_starting_is_one_line_not_a_traceback(command):
         err = process.stderr.read()
         process.stderr.close()
         code = process.wait(timeout=120)
+        if "Traceback" in err and "/stillair/" not in err and "stillair:" not in err:
+            continue    # interrupted inside the interpreter's own start-up (site, .pth files), before
+                        # any code of ours ran: on a loaded machine 0.15 s can still be there
         assert "Traceback" not in err, f"after {delay} s: {err}"
         if code != -signal.SIGINT:      # not killed before Python had started at all
             outcomes.append((code, err))

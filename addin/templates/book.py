@@ -632,6 +632,11 @@ def source_of(geometry: str, method: str) -> str:
     list of unverified constants uses."""
     from stillair.correlations import CORRELATIONS
 
-    source = CORRELATIONS[(geometry, method)].source
+    return printed_source(CORRELATIONS[(geometry, method)].source)
+
+
+def printed_source(source: str) -> str:
+    """A source as a template prints it: the engine's "from memory" (a detail not read) reads
+    "unverified", the word of the Notes sheet's list of unverified constants."""
     return source.replace("from memory of the number", "equation number unverified").replace(
         "from memory", "unverified")

@@ -15,10 +15,12 @@ thickness for that surface temperature, and for the touch limit of a hot surface
 from __future__ import annotations
 
 
-from stillair.forced import MIXING_EQUATION, MIXING_SOURCE
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
 
-from .book import limit_check
+from .book import limit_check, printed_source
 from .spec import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
+
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
 
 NAME = "hot-surface"
 # The unit of a heat flow per unit size: per metre of pipe or per square metre of face, by geometry.

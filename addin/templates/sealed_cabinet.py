@@ -16,10 +16,12 @@ The pieces of the build (inputs, steps, tables, notes) are functions the vented 
 from __future__ import annotations
 
 
-from stillair.forced import MIXING_EQUATION, MIXING_SOURCE
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
 
-from .book import limit_check
+from .book import limit_check, printed_source
 from .spec import EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude
+
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]

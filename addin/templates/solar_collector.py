@@ -11,11 +11,13 @@ h_w = 2.8 + 3.0 V, so for a like-for-like comparison the network is solved a sec
 from __future__ import annotations
 
 import stillair
-from stillair.forced import MIXING_EQUATION, MIXING_SOURCE
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
 from stillair.network import BRANCH_COLUMNS
 
-from .book import TemplateBook, source_of
+from .book import TemplateBook, source_of, printed_source
 from .spec import OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, Valid, gas_pressure
+
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
 
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
             "cavity correlations (aspect 12 and up for Hollands)", low_open=True)
