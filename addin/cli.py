@@ -282,6 +282,9 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "audit":
         from .audit.check import run_audit
         from .workbook.reader import BookError
+        if os.path.isdir(args.book):
+            from .audit.folder import run_folder_audit
+            return run_folder_audit(args)
         try:
             _require_regular_file(args.book)
         except BookError as error:
