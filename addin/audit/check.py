@@ -338,11 +338,7 @@ def main(argv: list[str] | None = None) -> int:
     """``stillair audit`` on its own: ``python -m stillair.addin.audit BOOK ...``."""
     parser = argparse.ArgumentParser(prog="stillair audit", description=add_audit_parser.__doc__)
     _add_arguments(parser)
-    args = parser.parse_args(argv)
-    if os.path.isdir(args.book):
-        from .folder import run_folder_audit
-        return run_folder_audit(args)
-    return run_audit(args)
+    return run_audit(parser.parse_args(argv))
 
 
 if __name__ == "__main__":

@@ -24,7 +24,8 @@ from dataclasses import dataclass, field
 from .findings import DEFAULT_ATOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, AuditError, AuditResult
 from .report import new_report, summary_line, to_json, write_findings
 
-__all__ = ["find_workbooks", "BookOutcome", "audit_folder", "run_folder_audit", "WORKBOOK_SUFFIXES"]
+__all__ = ["find_workbooks", "BookOutcome", "audit_folder", "run_folder_audit", "main",
+           "WORKBOOK_SUFFIXES"]
 
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
 LIBREOFFICE_SUFFIXES = (".ods",)
@@ -217,3 +218,16 @@ def run_folder_audit(args) -> int:
         return EXIT_UNREADABLE
     return audit.exit_code
 
+
+
+def main(argv: list[str] | None = None) -> int:
+    """``python -m stillair.addin.audit BOOK|DIR ...``: a folder here, a workbook by the
+    single-book audit (this module sits above check.py, so the routing lives here)."""
+    import argparse
+
+    from .check import _add_arguments, add_audit_parser, run_audit
+
+    parser = argparse.ArgumentParser(prog="stillair audit", description=add_audit_parser.__doc__)
+    _add_arguments(parser)
+    args = parser.parse_args(argv)
+    return run_folder_audit(args) if os.path.isdir(args.book) else run_audit(args)
