@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+import sys
 from pathlib import Path
 
 import pytest
@@ -184,3 +185,25 @@ def test_two_jobs_write_what_one_job_writes(tmp_path, capsys):
     two = run(capsys, "calc", CABINET, "--cases", cases, "--jobs", "2")
     assert one == two
     assert one[0] == 2 and rows_of(one[1])[-1]["status"] == "failed"
+
+
+class _Terminal(io.StringIO):
+    def isatty(self):
+        return True
+
+
+def test_the_progress_bar_shows_on_a_terminal_only_and_after_its_delay(monkeypatch):
+    from stillair.addin.workbook import batch
+
+    # formulas_bridge sets TQDM_DISABLE for formulas' own bar; ours decides for itself.
+    monkeypatch.setenv("TQDM_DISABLE", "1")
+    monkeypatch.setattr("sys.stderr", _Terminal())
+    monkeypatch.setattr(batch, "PROGRESS_DELAY", 0.0)
+    with batch.progress_bar(4, "case") as bar:
+        bar.update(4)
+    assert "0/4 [" in sys.stderr.getvalue()   # drawn (and cleared when done: leave=False)
+    monkeypatch.setattr("sys.stderr", io.StringIO())   # a file or a pipe: no bar
+    with batch.progress_bar(4, "case") as bar:
+        assert bar.disable
+        bar.update(4)
+    assert sys.stderr.getvalue() == ""
