@@ -143,6 +143,9 @@ def _calc_cases(args) -> int:
         _require_regular_file(args.book)
         _require_regular_file(args.cases)
         if args.out:
+            if not args.out.lower().endswith(".csv"):
+                raise ValueError(f"--out {args.out}: with --cases the results are CSV; "
+                                 "name the file RESULTS.csv")
             _check_new_file(args.out, "--out")
         return cases_command(args)
     except (BookError, ValueError) as error:

@@ -155,6 +155,7 @@ def test_results_go_to_a_new_file_only(plate_book, tmp_path, capsys):
     (["--jobs", "0"], "--jobs must be a whole number from 1 to"),
     (["--set", "ra=1"], "--cases takes neither --set nor --json"),
     (["--json"], "--cases takes neither --set nor --json"),
+    (["--out", "results.xlsx"], "--out results.xlsx: with --cases the results are CSV"),
 ])
 def test_options_that_do_not_go_with_cases(plate_book, tmp_path, capsys, argv, message):
     cases = write_cases(tmp_path, "ra\n1e6\n")
@@ -207,3 +208,21 @@ def test_the_progress_bar_shows_on_a_terminal_only_and_after_its_delay(monkeypat
         assert bar.disable
         bar.update(4)
     assert sys.stderr.getvalue() == ""
+
+
+def test_text_from_the_workbook_stays_text_in_a_spreadsheet(tmp_path, capsys):
+    path = tmp_path / "texts.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("S")
+    ws.write("A1", "x")
+    ws.write_formula("B1", '="=HYPERLINK(""http://example.invalid"")"&A1')
+    ws.write_formula("B2", "=-2*LEN(A1)")
+    wb.define_name("link", "=S!$B$1")
+    wb.define_name("minus", "=S!$B$2")
+    wb.close()
+    cases = write_cases(tmp_path, "S!A1\nab\n")
+    code, out, _ = run(capsys, "calc", path, "--cases", cases)
+    (row,) = rows_of(out)
+    assert row["link"] == "'=HYPERLINK(\"http://example.invalid\")ab"   # shown as text
+    assert row["minus"] == "-4.0"                                        # a number stays a number
+    assert code == 0

@@ -252,15 +252,24 @@ def run_cases(book_path: str, cases_path: str, jobs: int = 1) -> tuple[CaseRun, 
     return _RUN, outcomes
 
 
+# A text field starting with one of these is read as a formula when the CSV is opened in a
+# spreadsheet; text from a workbook (perhaps someone else's) must stay text.
+_FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
+
+
+def _text(text: str) -> str:
+    return "'" + text if text.startswith(_FORMULA_STARTS) else text
+
+
 def _field(value) -> str:
     if value is None:
         return ""
     if isinstance(value, bool):
         return "TRUE" if value else "FALSE"
-    if isinstance(value, float):
+    if isinstance(value, (int, float)):
         # repr: the shortest text that reads back as the same float (results compare exactly).
-        return repr(value) if math.isfinite(value) else "#NUM!"
-    return str(value)
+        return repr(float(value)) if math.isfinite(value) else "#NUM!"
+    return _text(str(value))
 
 
 def write_results(run: CaseRun, outcomes: list[CaseOutcome], stream) -> None:
@@ -272,7 +281,7 @@ def write_results(run: CaseRun, outcomes: list[CaseOutcome], stream) -> None:
     for outcome in outcomes:
         inputs = list(outcome.fields[:width]) + [""] * (width - len(outcome.fields[:width]))
         values = [_field(v) for v in outcome.values] or [""] * len(result_names)
-        writer.writerow([outcome.line, *inputs, *values, outcome.status, outcome.notes])
+        writer.writerow([outcome.line, *inputs, *values, outcome.status, _text(outcome.notes)])
 
 
 def summary(outcomes: list[CaseOutcome]) -> str:
