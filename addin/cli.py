@@ -41,8 +41,16 @@ def build_parser() -> argparse.ArgumentParser:
                       help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable)")
     calc.add_argument("--out", metavar="OUT.xlsx",
                       help="write a copy with formulas kept and cached values filled in; OUT must be "
-                      "a new file (an existing file is never replaced)")
+                      "a new file (an existing file is never replaced). With --cases: RESULTS.csv")
     calc.add_argument("--json", action="store_true", help="print one JSON object")
+    calc.add_argument("--cases", metavar="CASES.csv",
+                      help="calculate BOOK once per row of CASES.csv: the header names inputs as "
+                      "--set does, each row gives their values (an empty field keeps the "
+                      "workbook's value); prints, or writes to --out, a CSV of the inputs, every "
+                      "named result, a status and the notes per row. Exit status: the worst row's "
+                      "(2 for a row that failed)")
+    calc.add_argument("--jobs", type=int, default=1, metavar="N",
+                      help="with --cases: spread the rows over N processes (default 1)")
 
     from .audit.check import add_audit_parser
     add_audit_parser(commands)
@@ -88,6 +96,8 @@ def calc(args) -> int:
     from .workbook.reader import BookError
     from .workbook.report import evaluation_json, report_lines
 
+    if args.cases:
+        return _calc_cases(args)
     try:
         sets = _parse_sets(args.sets)
         _require_regular_file(args.book)
@@ -118,6 +128,29 @@ def calc(args) -> int:
         for line in report_lines(evaluation, args.book, args.out):
             print(line)
     return EXIT_FINDINGS if evaluation.failed else 0
+
+
+def _calc_cases(args) -> int:
+    from .workbook.batch import check_jobs
+    from .workbook.cases import cases_command
+    from .workbook.reader import BookError
+
+    try:
+        if args.sets or args.json:
+            raise ValueError(f"--cases takes neither --set nor --json: give every input a column "
+                             f"of {args.cases} (the results are CSV)")
+        check_jobs(args.jobs)
+        _require_regular_file(args.book)
+        _require_regular_file(args.cases)
+        if args.out:
+            if not args.out.lower().endswith(".csv"):
+                raise ValueError(f"--out {args.out}: with --cases the results are CSV; "
+                                 "name the file RESULTS.csv")
+            _check_new_file(args.out, "--out")
+        return cases_command(args)
+    except (BookError, ValueError) as error:
+        say("stillair calc", str(error))
+        return EXIT_BAD_INPUT
 
 
 def _templates(args) -> int:
@@ -265,6 +298,9 @@ def _dispatch(argv: list[str] | None) -> int:
     if args.command == "audit":
         from .audit.check import run_audit
         from .workbook.reader import BookError
+        if os.path.isdir(args.book):
+            from .audit.folder import run_folder_audit
+            return run_folder_audit(args)
         try:
             _require_regular_file(args.book)
         except BookError as error:

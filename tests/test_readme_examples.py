@@ -6,6 +6,8 @@ import os
 import re
 from pathlib import Path
 
+import pytest
+
 from stillair.addin.cli import main
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -77,3 +79,34 @@ def test_the_contents_list_reaches_every_section_in_one_jump():
     assert set(sections) <= set(linked), sorted(set(sections) - set(linked))  # every section
     # the contents list comes right after the opening paragraph, before the set-up
     assert readme.index("**Contents**") < readme.index("## Getting the code") < readme.index("## Set-up")
+
+
+def test_cases_example(capsys, monkeypatch, tmp_path):
+    shown = _shown_after("The repository's example: four operating points of the sealed cabinet.")
+    command = shown[0].lstrip("$ ").split()
+    monkeypatch.chdir(tmp_path)
+    for folder in ("templates", "docs"):
+        os.symlink(ROOT / folder, tmp_path / folder)
+    code, printed = _run(capsys, *command[1:])
+    assert code == 0 and printed == shown[1:], STALE.format(shown[0])
+
+    import csv
+    columns = _shown_after("Some of the columns of cabinet-results.csv (temperatures rounded here "
+                           "to 0.1 K):")
+    names = columns[0].split()
+    rows = list(csv.DictReader(open(tmp_path / "cabinet-results.csv", encoding="utf-8")))
+    table = [names] + [[f"{float(r[n]):.1f}" if n.startswith("t_") else r[n] for n in names]
+                       for r in rows]
+    widths = [max(len(row[i]) for row in table) for i in range(len(names))]
+    rendered = ["  ".join(cell.ljust(widths[i]) for i, cell in enumerate(row)).rstrip()
+                for row in table]
+    assert rendered == columns, STALE.format(shown[0])
+
+
+@pytest.mark.slow  # audits the eight templates (several seconds)
+def test_audit_folder_example(capsys, monkeypatch):
+    monkeypatch.chdir(ROOT)
+    shown = _shown_after("The shipped templates, as a folder:")
+    code, printed = _run(capsys, *shown[0].lstrip("$ ").split()[1:])
+    # exit 1: the cabinet day's dawn-and-dusk range notes are findings (tests/test_audit.py)
+    assert code == 1 and printed == shown[1:], STALE.format(shown[0])

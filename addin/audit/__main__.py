@@ -1,7 +1,7 @@
-"""``python -m stillair.addin.audit BOOK ...``: the audit on its own (as ``stillair audit``)."""
+"""``python -m stillair.addin.audit BOOK|DIR ...``: the audit on its own (as ``stillair audit``)."""
 
 import sys
 
-from .check import main
+from .folder import main
 
 sys.exit(main())

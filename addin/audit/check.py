@@ -288,7 +288,9 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
 
 
 def _add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
+    parser.add_argument("book", metavar="BOOK|DIR", help=".xlsx or .xlsm workbook (never modified), "
+                        "or a folder: every workbook in it and below, one summary line each, the "
+                        "exit status the worst of them")
     parser.add_argument("--rtol", type=_tolerance, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
     parser.add_argument("--atol", type=_tolerance, default=DEFAULT_ATOL,
@@ -299,6 +301,8 @@ def _add_arguments(parser: argparse.ArgumentParser) -> None:
                         help="also write the findings to a new workbook, one row per finding with "
                         "a link to the cell; an existing file is never replaced (REPORT-1.xlsx... "
                         "is used instead)")
+    parser.add_argument("--jobs", type=int, default=1, metavar="N",
+                        help="with a folder: audit N workbooks at a time, in N processes (default 1)")
     parser.add_argument("--templates", metavar="DIR", default=None,
                         help="directory of the pristine templates (default: the installed ones)")
 

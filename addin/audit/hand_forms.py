@@ -113,6 +113,13 @@ class Form:
     # count: a sum of two numbers is a series resistance only when both are resistances.
     context: dict = field(default_factory=dict)
 
+    def __getstate__(self) -> dict:
+        """What crosses a process boundary (audit DIR --jobs): everything but the function,
+        which is a lambda more often than not; a report needs the names, never the formula."""
+        state = dict(self.__dict__)
+        state["function"] = None
+        return state
+
 
 def with_typed(form: Form, role: str, value: float) -> Form:
     """``form`` with ``role`` taken as a number typed in the formula itself (Pr = 0.71 written

@@ -11,7 +11,8 @@ from .findings import KINDS, AuditError, AuditResult, show
 if TYPE_CHECKING:
     from .hand import HandCheck
 
-__all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
+__all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report",
+           "write_findings", "new_report"]
 
 
 _HAND_KINDS = ("hand-formula", "iteration")   # counted in the hand check's own words
@@ -133,6 +134,83 @@ def _label(key) -> str:
 def write_report(result: AuditResult, requested: str) -> str:
     """Write the findings to a new .xlsx (one row per finding, a link to each cell); returns the
     path written, which differs from ``requested`` when that file exists already."""
+
+    def fill(wb, styles, directory):
+        book_link = os.path.relpath(os.path.abspath(result.path), directory)
+        sheet = wb.add_worksheet("Findings")
+        write_findings(sheet, styles, [(book_link, f) for f in result.findings])
+        if result.hand is not None and result.hand.recognised:
+            _hand_sheet(wb, styles["bold"], result.hand)
+        about = wb.add_worksheet("Summary")
+        rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
+                ("engine version", result.engine_version), ("template", result.template or ""),
+                ("summary", summary_line(result))]
+        rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]
+        for row, (key, value) in enumerate(rows):
+            about.write_string(row, 0, key, styles["bold"])
+            if isinstance(value, int):
+                about.write_number(row, 1, value)
+            else:
+                about.write_string(row, 1, value)
+        about.set_column(0, 0, 18)
+        about.set_column(1, 1, 80)
+
+    return new_report(requested, fill)
+
+
+FINDING_HEADER = ["kind", "cell", "message", "workbook value", "engine value",
+                  "relative difference", "formula", "template formula"]
+
+
+def write_findings(sheet, styles, findings, book_column: bool = False) -> None:
+    """One row per finding under a header: kind, the cell (a link into its workbook), message,
+    both values, the difference, the formulas; ``book_column`` puts the workbook first (a
+    report of many workbooks).  ``findings``: (link to the workbook, Finding) pairs."""
+    header = (["workbook"] if book_column else []) + FINDING_HEADER
+    first = 1 if book_column else 0
+    for col, title in enumerate(header):
+        sheet.write_string(0, col, title, styles["bold"])
+    for row, (book_link, f) in enumerate(findings, start=1):
+        if book_column:
+            sheet.write_string(row, 0, book_link)
+        sheet.write_string(row, first, f.kind)
+        if f.sheet is not None:
+            assert f.ref is not None  # a finding on a sheet names its cell
+            location = "'" + f.sheet.replace("'", "''") + "'!" + f.ref
+            url = f"external:{book_link}#{location}"
+            if len(url) <= 2079:
+                sheet.write_url(row, first + 1, url, styles["link"], string=f.cell)
+            else:
+                sheet.write_string(row, first + 1, f.cell)
+        else:
+            sheet.write_string(row, first + 1, f.cell or "(workbook)")
+        sheet.write_string(row, first + 2, _excel_text(f.message))
+        for col, value in ((first + 3, f.cached), (first + 4, f.computed)):
+            if isinstance(value, float) and math.isfinite(value):
+                sheet.write_number(row, col, value)
+            elif value is not None:
+                sheet.write_string(row, col, _excel_text(value))
+        if f.rel_diff is not None:
+            sheet.write_number(row, first + 5, f.rel_diff)
+        if f.formula:
+            sheet.write_string(row, first + 6, _excel_text(f.formula))
+        if f.original_formula:
+            sheet.write_string(row, first + 7, _excel_text(f.original_formula))
+    if book_column:
+        sheet.set_column(0, 0, 40)
+    sheet.set_column(first, first + 1, 18)
+    sheet.set_column(first + 2, first + 2, 70)
+    sheet.set_column(first + 3, first + 7, 18)
+    sheet.freeze_panes(1, 0)
+    if findings:
+        sheet.autofilter(0, 0, len(findings), len(header) - 1)
+
+
+def new_report(requested: str, fill) -> str:
+    """A new report workbook at ``requested`` (or the next free REPORT-n.xlsx): ``fill(wb,
+    styles, directory)`` writes its sheets into a temporary file in the same folder, which then
+    takes the reserved name.  Text from audited workbooks is written as text, never as a
+    formula or a link.  Returns the path written."""
     import tempfile
 
     import xlsxwriter
@@ -145,62 +223,11 @@ def write_report(result: AuditResult, requested: str) -> str:
     handle, temporary = tempfile.mkstemp(suffix=".xlsx", prefix=".stillair-report-", dir=directory)
     os.close(handle)
     try:
-        book_link = os.path.relpath(os.path.abspath(result.path), directory)
-        # Text from the audited workbook is written as text, never as a formula or a link.
         wb = xlsxwriter.Workbook(temporary, {"strings_to_formulas": False, "strings_to_urls": False,
                                              "strings_to_numbers": False})
-        bold = wb.add_format({"bold": True, "bg_color": "#DCE3EA", "border": 1})
-        link = wb.add_format({"font_color": "#1F4E79", "underline": 1})
-        sheet = wb.add_worksheet("Findings")
-        header = ["kind", "cell", "message", "workbook value", "engine value",
-                  "relative difference", "formula", "template formula"]
-        for col, title in enumerate(header):
-            sheet.write_string(0, col, title, bold)
-        for row, f in enumerate(result.findings, start=1):
-            sheet.write_string(row, 0, f.kind)
-            if f.sheet is not None:
-                assert f.ref is not None  # a finding on a sheet names its cell
-                location = "'" + f.sheet.replace("'", "''") + "'!" + f.ref
-                url = f"external:{book_link}#{location}"
-                if len(url) <= 2079:
-                    sheet.write_url(row, 1, url, link, string=f.cell)
-                else:
-                    sheet.write_string(row, 1, f.cell)
-            else:
-                sheet.write_string(row, 1, f.cell or "(workbook)")
-            sheet.write_string(row, 2, _excel_text(f.message))
-            for col, value in ((3, f.cached), (4, f.computed)):
-                if isinstance(value, float) and math.isfinite(value):
-                    sheet.write_number(row, col, value)
-                elif value is not None:
-                    sheet.write_string(row, col, _excel_text(value))
-            if f.rel_diff is not None:
-                sheet.write_number(row, 5, f.rel_diff)
-            if f.formula:
-                sheet.write_string(row, 6, _excel_text(f.formula))
-            if f.original_formula:
-                sheet.write_string(row, 7, _excel_text(f.original_formula))
-        sheet.set_column(0, 1, 18)
-        sheet.set_column(2, 2, 70)
-        sheet.set_column(3, 7, 18)
-        sheet.freeze_panes(1, 0)
-        if result.findings:
-            sheet.autofilter(0, 0, len(result.findings), len(header) - 1)
-        if result.hand is not None and result.hand.recognised:
-            _hand_sheet(wb, bold, result.hand)
-        about = wb.add_worksheet("Summary")
-        rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
-                ("engine version", result.engine_version), ("template", result.template or ""),
-                ("summary", summary_line(result))]
-        rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]
-        for row, (key, value) in enumerate(rows):
-            about.write_string(row, 0, key, bold)
-            if isinstance(value, int):
-                about.write_number(row, 1, value)
-            else:
-                about.write_string(row, 1, value)
-        about.set_column(0, 0, 18)
-        about.set_column(1, 1, 80)
+        styles = {"bold": wb.add_format({"bold": True, "bg_color": "#DCE3EA", "border": 1}),
+                  "link": wb.add_format({"font_color": "#1F4E79", "underline": 1})}
+        fill(wb, styles, directory)
         wb.close()
         os.replace(temporary, target)  # onto the empty file reserved above
     except BaseException:

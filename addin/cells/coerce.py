@@ -100,6 +100,14 @@ def to_text(argument: str, value, optional: bool, default, allow_numbers: bool =
 
 def _cell(value):
     """One table cell as the engine takes it: None for blank, float or stripped text."""
+    # Plain floats and text first: the ABC checks below (numbers.Real) cost several times the
+    # rest, and a network's tables are read by every cell that uses its solution.
+    kind = type(value)
+    if kind is float:
+        return value
+    if kind is str:
+        stripped = value.strip()
+        return stripped if stripped else None
     if is_blank(value):
         return None
     if isinstance(value, (bool, np.bool_)):
@@ -163,6 +171,13 @@ def to_cell_table(rows) -> list[list]:
     for row in rows:
         cells = []
         for v in row:
+            kind = type(v)
+            if kind is float:   # the common cases first, as in _cell
+                cells.append(v if math.isfinite(v) else "")
+                continue
+            if kind is str:
+                cells.append(v)
+                continue
             if v is None or (isinstance(v, numbers.Real) and not isinstance(v, (bool, np.bool_))
                              and not math.isfinite(float(v))):
                 cells.append("")

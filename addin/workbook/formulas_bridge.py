@@ -190,8 +190,11 @@ def _fast_operator(operation, original):
             except (ZeroDivisionError, OverflowError, ValueError):
                 return original(a, b)
             if type(result) is float and math.isfinite(result):
-                out = np.empty((1, 1), dtype=object)
-                out[0, 0] = result
+                # The library's shape: a single cell's (1, 1) where an operand was a cell, 0-d
+                # where both were plain numbers (a SUM's result divided by a constant).
+                cell = isinstance(a, np.ndarray) or isinstance(b, np.ndarray)
+                out = np.empty((1, 1) if cell else (), dtype=object)
+                out[(0, 0) if cell else ()] = result
                 return out.view(Array)
         return original(a, b)
 
@@ -248,8 +251,10 @@ def straight_line(function):
             if node.get("filters"):
                 filters[key] = tuple(node["filters"])
         elif node["type"] == "function":
+            # extra_inputs (INDEX's and a few others' compile-time flags) are already at the
+            # head of the node's inputs, their values among the defaults.
             if set(node) - {"type", "inputs", "outputs", "function", "wait_inputs", "solve_cycle",
-                            "index"}:
+                            "index", "extra_inputs"}:
                 return None
             pending.append((key, node))
         else:

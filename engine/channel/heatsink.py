@@ -253,12 +253,24 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
         q_i, ta, *rest = (float(a[index]) for a in arrays)
         *geometry, p = rest
 
+        # Each base temperature is evaluated once: brentq asks again for the bracket's end the
+        # search below found, and the notes are read at the root brentq evaluated last.  At
+        # t_base = t_ambient the sink rejects nothing (every term carries the difference or the
+        # difference of fourth powers), so that end costs no evaluation.
+        evaluated: dict = {}
+        excess: dict = {ta: -q_i}
+
         def rejected(t_base):
-            # the seven geometry arguments, which a type checker cannot count in *geometry
-            return heatsink(t_base, ta, *geometry, gas, p, tip=tip, function_name=function_name)  # type: ignore[misc, arg-type]
+            if t_base not in evaluated:
+                # the seven geometry arguments, which a type checker cannot count in *geometry
+                evaluated[t_base] = heatsink(t_base, ta, *geometry, gas, p, tip=tip,  # type: ignore[misc, arg-type]
+                                             function_name=function_name)
+            return evaluated[t_base]
 
         def excess_heat(t_base):
-            return float(rejected(t_base).q) - q_i
+            if t_base not in excess:
+                excess[t_base] = float(rejected(t_base).q) - q_i
+            return excess[t_base]
 
         if q_i == 0.0:
             out[index] = ta
