@@ -20,12 +20,17 @@ The networks are invented demo data.
 from __future__ import annotations
 
 import statistics
+import sys
 import time
+from pathlib import Path
 
 import numpy as np
 
 import stillair
 from stillair.network import clear_network_cache
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+from test_network_sparse import plate_grid  # noqa: E402  (the same invented grid as the test)
 
 
 def cabinet():
@@ -137,24 +142,6 @@ def wall_chain_by_hand():
     start = np.linspace(T_ROOM, T_OUT, 6)[1:-1]
     solution = fsolve(balances, start, xtol=1e-12)
     return K_GLASS / GLASS * (solution[0] - solution[1])
-
-
-def plate_grid(side: int):
-    """A heat-spreading plate (side x side nodes): conduction between neighbours, a vertical-plate
-    film and radiation from every node, heat in at two corners (tests/test_network_sparse.py)."""
-    branches = []
-    for i in range(side):
-        for j in range(side):
-            node = f"n{i}_{j}"
-            if i + 1 < side:
-                branches.append([f"x{i}_{j}", node, f"n{i + 1}_{j}", "conduction", 0.01, 200.0, 2e-4])
-            if j + 1 < side:
-                branches.append([f"y{i}_{j}", node, f"n{i}_{j + 1}", "conduction", 0.01, 200.0, 2e-4])
-            branches.append([f"c{i}_{j}", node, "air", "vplate", 0.3, 1e-4])
-            branches.append([f"r{i}_{j}", node, "room", "radiation", 0.9, None, 1e-4])
-    boundaries = [["room", "T", 25.0], ["air", "T", 20.0], ["n0_0", "Q", 5.0],
-                  [f"n{side - 1}_{side - 1}", "Q", 3.0]]
-    return branches, boundaries
 
 
 def large_networks():
