@@ -263,8 +263,14 @@ def _rebind_block(sheet, address):
             if not any(f is not None for row in chunk for f in row):
                 continue
             bottom = min(top + CHUNK_ROWS, len(rows)) - 1
-            sheet.getCellRangeByPosition(address.StartColumn, address.StartRow + top, address.EndColumn,
-                                         address.StartRow + bottom).setFormulaArray(tuple(rows[top:bottom + 1]))
+            try:
+                sheet.getCellRangeByPosition(address.StartColumn, address.StartRow + top, address.EndColumn,
+                                             address.StartRow + bottom).setFormulaArray(tuple(rows[top:bottom + 1]))
+            except Exception:  # refused on a protected sheet (measured), where setFormula works
+                for r, row in enumerate(chunk, start=top):
+                    for c, formula in enumerate(row):
+                        if formula is not None:
+                            block.getCellByPosition(c, r).setFormula(formula)
         return count
     changed, arrays_done = 0, set()
     for r, row in enumerate(new):
