@@ -9,7 +9,7 @@ import stat
 import sys
 import tempfile
 
-from stillair._console import run_command, say
+from stillair._console import OneLineParser, UsageError, run_command, say, say_line
 
 
 EXIT_FINDINGS = 1   # done, with error cells (calc) or findings (audit)
@@ -25,7 +25,7 @@ def _version() -> str:
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(prog="stillair", description="Still-air heat transfer for spreadsheets.")
+    parser = OneLineParser(prog="stillair", description="Still-air heat transfer for spreadsheets.")
     parser.add_argument("--version", action="version", version=f"stillair {_version()}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND")
 
@@ -123,9 +123,13 @@ def calc(args) -> int:
 def _templates(args) -> int:
     from .templates import all_templates, copy_templates
 
+    templates = all_templates()
     if not args.copy:
-        for template in all_templates():
-            print(f"{template.path.name:<24} {template.summary}")
+        print(f"Templates in {templates[0].path.parent}:")
+        for template in templates:
+            print(f"  {template.path.name:<24} {template.summary}")
+        print("Next: stillair templates --copy DIR copies them into a folder of yours to fill in (a file "
+              "already there is never replaced; the installed ones stay as shipped for the audit).")
         return 0
     target_dir = args.copy
     if os.path.exists(target_dir) and not os.path.isdir(target_dir):
@@ -136,14 +140,19 @@ def _templates(args) -> int:
     except OSError as error:
         say("stillair templates", f"{target_dir}: cannot create the folder ({error.strerror or error})")
         return EXIT_BAD_INPUT
-    skipped = 0
+    skipped, copied = 0, []
     for target, outcome in copy_templates(target_dir):
         if outcome == "copied":
             print(f"copied  {target}")
+            copied.append(target)
         else:
             say("stillair templates", f"{target}: " + (
                 "exists; left as it is (not copied)" if outcome == "kept existing file" else outcome))
             skipped += 1
+    example = os.path.join(target_dir, templates[0].path.name)
+    print(f"Next: open a copy in Excel (set up by stillair excel-setup) or LibreOffice Calc (stillair "
+          f"libreoffice-setup), fill in the sand-coloured input cells, then check the finished "
+          f"workbook: stillair audit {example}")
     return EXIT_BAD_INPUT if skipped else 0
 
 
@@ -239,7 +248,11 @@ def main(argv: list[str] | None = None) -> int:
 
 def _dispatch(argv: list[str] | None) -> int:
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except UsageError as error:
+        say_line(str(error))
+        return EXIT_BAD_INPUT
     if args.command is None:
         parser.print_help()
         return 0

@@ -15,14 +15,20 @@ otherwise.  The public names mirror the spreadsheet cell functions in snake_case
 Modules, one per physical topic: :mod:`stillair.gases` (gas and mixture properties),
 :mod:`stillair.atmosphere`, :mod:`stillair.groups` (Gr, Ra), :mod:`stillair.external` (plates,
 cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillair.radiation`,
-:mod:`stillair.convection` (h in one call), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
+:mod:`stillair.convection` (h in one call, still or in a wind: :mod:`stillair.forced`), :mod:`stillair.channel` (open channels, heat sinks), :mod:`stillair.network` (the thermal network),
 :mod:`stillair.correlations` (the correlation registry and :func:`nusselt`),
 :mod:`stillair.ventilation` (stack-driven and forced airflow through enclosures), :mod:`stillair.humid`
 (humid air: saturation, humidity ratio, dew point, surface humidity), :mod:`stillair.insulation`
 (the insulation thickness for a surface temperature).
 """
 
-from .validity import *  # noqa: F401,F403
+# First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
+# line, not a traceback (only when this process is that command; see _console).
+from ._console import guard_command_start as _guard_command_start
+
+_guard_command_start()
+
+from .validity import *  # noqa: F401,F403,E402
 from .correlations import *  # noqa: F401,F403
 from .external import *  # noqa: F401,F403
 from .cavity import *  # noqa: F401,F403
@@ -90,4 +96,5 @@ __all__ = [
     "HeatForTemperature",
     # insulation turned round: the thickness for an outer surface temperature
     "insulation_thickness",
+    "solve_transient", "TransientResult",
 ]

@@ -8,17 +8,21 @@ Two everyday situations must not end in a traceback:
 - a console whose encoding cannot show °C, ² or · (``PYTHONIOENCODING=ascii``, old Windows code
   pages): such characters are written in plain ASCII ("degC", "m2") instead of failing;
 - output piped into a reader that stops early (``stillair functions | head``): the command stops
-  with one line on stderr and exit status 2.
+  with one line on stderr and exit status 2;
+- Ctrl-C, also while the command is still importing (``guard_command_start``, called by the
+  package's ``__init__`` before its heavy imports): one line, exit status 2.
 """
 
 from __future__ import annotations
 
+import argparse
 import codecs
 import os
 import sys
 from typing import Callable
 
-__all__ = ["EXIT_CANNOT_RUN", "ascii_fallback", "run_command", "say"]
+__all__ = ["EXIT_CANNOT_RUN", "OneLineParser", "UsageError", "ascii_fallback", "guard_command_start",
+           "run_command", "say", "say_line"]
 
 EXIT_CANNOT_RUN = 2
 
@@ -62,9 +66,77 @@ def _discard_stdout() -> None:
 
 def say(prog: str, message: str) -> None:
     """One line on stderr: ``prog: message``."""
+    say_line(f"{prog}: {message}")
+
+
+def say_line(message: str) -> None:
+    """``message`` as one line on stderr (its white space, new lines too, made single spaces)."""
     try:
-        print(f"{prog}: {' '.join(str(message).split())}", file=sys.stderr)
+        print(" ".join(str(message).split()), file=sys.stderr)
     except (OSError, ValueError):
+        pass
+
+
+class UsageError(Exception):
+    """A command line the parser refused; the message names the option and the value."""
+
+
+class OneLineParser(argparse.ArgumentParser):
+    """An argument parser that reports a bad command line in one line, like every other bad
+    input, instead of printing the usage text (``--help`` still shows it); the command catches
+    :class:`UsageError`, says it and exits 2."""
+
+    def error(self, message: str):
+        # argparse words it "argument --rtol: must be ..."; ours reads "--rtol must be ..." as
+        # every input check does
+        text = message[len("argument "):] if message.startswith("argument ") else message
+        text = text.replace(": must be ", " must be ", 1)
+        raise UsageError(f"{self.prog}: {text} ({self.prog} --help shows the usage)")
+
+
+def _started_as_command() -> bool:
+    """Whether this process is the ``stillair`` command: its console script (``stillair``,
+    ``stillair.exe``, ``stillair-script.py``) or ``python -m stillair[.…]``."""
+    name = os.path.basename(sys.argv[0]).lower() if sys.argv and sys.argv[0] else ""
+    for suffix in (".exe", "-script.pyw", "-script.py"):
+        name = name.removesuffix(suffix)
+    if name == "stillair":
+        return True
+    argv = getattr(sys, "orig_argv", [])
+    return any(flag == "-m" and (module == "stillair" or module.startswith("stillair."))
+               for flag, module in zip(argv, argv[1:]))
+
+
+def _interrupted_while_starting(signum, frame):
+    say("stillair", "interrupted")
+    raise SystemExit(EXIT_CANNOT_RUN)
+
+
+def guard_command_start() -> None:
+    """Ctrl-C while the ``stillair`` command is still importing (numpy, scipy and the engine take
+    a good part of a second) ends as a Ctrl-C later does: one line, exit status 2, no traceback.
+
+    The package's ``__init__`` calls this before its heavy imports; ``run_command`` hands
+    Ctrl-C back to Python once the command runs.  A program that imports stillair as a library
+    keeps Python's own Ctrl-C."""
+    if not _started_as_command():
+        return
+    import signal
+
+    try:
+        if signal.getsignal(signal.SIGINT) is signal.default_int_handler:
+            signal.signal(signal.SIGINT, _interrupted_while_starting)
+    except (ValueError, OSError):      # not the main thread: leave Ctrl-C alone
+        pass
+
+
+def _release_start_guard() -> None:
+    import signal
+
+    try:
+        if signal.getsignal(signal.SIGINT) is _interrupted_while_starting:
+            signal.signal(signal.SIGINT, signal.default_int_handler)
+    except (ValueError, OSError):
         pass
 
 
@@ -76,6 +148,7 @@ def run_command(prog: str, main: Callable[[], int | None]) -> int:
     """
     ascii_fallback()
     try:
+        _release_start_guard()         # from here a Ctrl-C is a KeyboardInterrupt, handled below
         code = main() or 0
         sys.stdout.flush()
         return code

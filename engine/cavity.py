@@ -62,10 +62,14 @@ AUTO_RULE = (
     "auto weighs, in this order, each method's coverage of what the earlier ones left: "
     "conduction (heated from above, or Ra cos(tilt) <= 1708 and Ra sin(tilt) <= 1e3), hollands "
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
-    "carried to 5 deg off the horizontal), then the vertical correlations with the shared tilt "
+    "carried to 5 deg off the horizontal for H/L >= 12), then the vertical correlations with the shared tilt "
     "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
-    "catton, macgregor-emery, wright; what is left goes to hollands below 75 deg and elsherbiny "
-    "from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
+    "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
+    "macgregor-emery, wright; what is left stays with the nearest valid correlation - conduction "
+    "inside its own range (fading across a factor 1.25 beyond it), Catton's short-layer form for "
+    "H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
+    "form for liquids (Pr >= 1) to H/L = 40 - and the rest goes to hollands below 75 deg and "
+    "elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
     "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
     "5 deg in tilt - so the value changes without a step and lies between the methods it "
     "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
@@ -236,30 +240,52 @@ def _catton_x(inputs):
 #: their own ranges, with Catton's aspect edge at 2 blended over a factor 1.25 centred on it
 #: (each band extrapolated by a factor 1.12) and MacGregor-Emery's laminar box handing over to
 #: the turbulent one inside both (Ra 2.5e6-1e7).
-CATTON_SHORT_WHEN = (Range("aspect", low=1.0), Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
+CATTON_SHORT_WHEN = (Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
                      Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x),
                      VERTICAL_TILT_COVERAGE)
-CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE / 1.25 ** 0.5, band=1.0), Range("aspect", high=10.0),
+CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"), Range("aspect", high=10.0),
                     Range("Pr", high=1e5), Range("Ra", 1e3, 1e10), VERTICAL_TILT_COVERAGE)
 MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("Pr", 1.0, 2e4),
                           Range("Ra", 1e4, _MACGREGOR_EDGE_RA), VERTICAL_TILT_COVERAGE)
 MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0), Range("Ra", 1e6, 1e9),
                             VERTICAL_TILT_COVERAGE)
 ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7))
-WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", low=20.0))
+#: Wright's aspect reach: the correlation reads H/L through Nu_2, but no upper bound was found
+#: in a source we could read; 1e3 is our bound (glazing cavities run to H/L ~ 200), so that an
+#: aspect typed in the wrong unit (a height in mm: H/L of tens of thousands) gets the note.
+WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", 20.0, 1e3))
 
 CAVITY_AUTO = (
     AutoStep("conduction"),
     AutoStep("hollands", when=(Range("tilt", high=75.0), Range("aspect", low=SHORT_CAVITY),
                                Range("Ra", high=1e8))),
+    # carried 5 deg off the horizontal for tall layers only: a short one (H/L < 12) has Catton's
+    # interpolation below the critical tilt, valid there
     AutoStep("globe-dropkin", when=(Range("tilt", high=0.0, placement="outside"), Range("Ra", 3e5, 7e9),
-                                    Range("Pr", 0.02, 8750.0))),
+                                    Range("Pr", 0.02, 8750.0),
+                                    Range("aspect", low=SHORT_CAVITY, placement="outside"))),
     AutoStep("elsherbiny", when=ELSHERBINY_RANGES + (VERTICAL_TILT_COVERAGE,)),
     AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
     AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
     AutoStep("macgregor-emery", when=MACGREGOR_LAMINAR_WHEN, form="laminar"),
     AutoStep("macgregor-emery", when=MACGREGOR_TURBULENT_WHEN, form="turbulent"),
     AutoStep("wright", when=WRIGHT_RANGES + (VERTICAL_TILT_COVERAGE,)),
+    # what is left of a short layer (aspect < 2: below Catton's Ra range, or Pr outside it)
+    # stays with Catton's short-layer form, the nearest valid correlation, rather than falling
+    # to ElSherbiny's (published from aspect 5)
+    # conduction keeps what is left inside its own range, fading just beyond it (a factor 1.25)
+    AutoStep("conduction", when=(Range("Ra cos(tilt)", high=RAYLEIGH_ONSET, of=_ra_cos, band=1.25,
+                                       placement="outside"),
+                                 Range("Ra sin(tilt)", high=CONDUCTION_VERTICAL_RA, of=_ra_sin, band=1.25,
+                                       placement="outside"))),
+    AutoStep("catton", when=(Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),), form="short"),
+    # likewise what is left of a layer up to H/L = 10 (beyond Catton's Ra range, or where its
+    # band fades with no valid neighbour) stays with Catton's tall-layer form, and of a liquid
+    # layer (Pr >= 1) up to H/L = 40 with MacGregor-Emery's turbulent form
+    AutoStep("catton", when=(Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"),
+                             Range("aspect", high=10.0, placement="outside")), form="tall"),
+    AutoStep("macgregor-emery", when=(Range("aspect", high=40.0, placement="outside"),
+                                      Range("Pr", low=1.0, placement="outside")), form="turbulent"),
     AutoStep("hollands", when=(Range("tilt", high=75.0),)),
     AutoStep("elsherbiny", when=()),
 )
@@ -443,7 +469,7 @@ def _wright_bands(ra):
     validity=WRIGHT_RANGES,
     notes="Implemented: the ISO 15099 form, the larger of Wright's three-band Nu_1 and the "
           "aspect term Nu_2 = 0.242 (Ra/A)^0.272.  Bounds (from memory, not checked against "
-          "the paper): Ra <= 1e6, A >= 20.  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
+          "the paper): Ra <= 1e6, A >= 20; the upper A <= 1e3 is ours (no published bound found).  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
           "(1.275 -> 1.268) and +0.016 at Ra = 5e4 (2.467 -> 2.483), visible where Nu_2 is "
           "smaller (tall cavities).  Nu_1 >= 1 always.")
 def wright_vertical(ra, pr, aspect):

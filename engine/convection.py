@@ -15,6 +15,7 @@ layer is the same either way.  This keeps a roof cavity right when summer revers
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 from typing import Any, Callable
@@ -25,12 +26,16 @@ import numpy as np
 
 from ._select import where
 from .correlations import GEOMETRIES, Geometry, NusseltResult, document, merge_masked, nusselt, uniform
+from .correlations.docs import _indent
+from .forced import WIND_FLOWS, combine_mixed, forced_length, wind_notes
 from .gases import gas_properties, plain_state_accepted
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
+from .plausibility import length_slip, temperature_slip, warn_slips
 from .validity import (PLAIN_NUMBERS, is_plain_number, InputError, distinct_notes, require_between,
-                       require_choice, require_positive, unwrap, warn_out_of_range)
+                       require_choice, require_length, require_nonnegative, require_positive, unwrap,
+                       warn_out_of_range, is_plain_length)
 
 __all__ = [
     "ConvectionResult",
@@ -69,6 +74,12 @@ class ConvectionResult:
     in_range: np.ndarray
     note: np.ndarray
     blend: np.ndarray | None = None   # "" or "auto blend of A and B" (see NusseltResult)
+    # With a wind (stillair.forced): Re on the length along the wind, the natural and forced
+    # coefficients that h combines, and the forced correlation; None in still air.
+    re: np.ndarray | None = None
+    h_natural: np.ndarray | None = None
+    h_forced: np.ndarray | None = None
+    forced_method: np.ndarray | None = None
 
     @property
     def notes(self) -> list[str]:
@@ -113,14 +124,28 @@ def _full(array, shape):
     return array if array.shape == shape else np.broadcast_to(array, shape)
 
 
-@shared_docs
+WIND_DOC = '''    wind : array_like, default 0
+        Wind speed in m/s (>= 0), taken horizontal; 0 is still air (the result is then the
+        still-air one exactly).
+    wind_length : array_like, optional
+        Length of a plate along the wind in m (> 0); blank: the plate's own length (required
+        for hplate, whose area/perimeter is no length along the wind).  Cylinders and spheres
+        take their diameter and no wind_length.'''
+
+
+def _wind_docs(function):
+    return shared_docs(function, {"wind": WIND_DOC})
+
+
+@_wind_docs
 def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike, *,
                        facing: str | None = None, tilt: ArrayLike | None = None,
                        diameter: ArrayLike | None = None, gas: str = "air",
                        pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
                        property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
-                       function_name: str | None = None) -> ConvectionResult:
-    """Convection from a surface at ``t_surface`` to still fluid at ``t_fluid`` (°C).
+                       function_name: str | None = None, wind: ArrayLike = 0.0,
+                       wind_length: ArrayLike | None = None) -> ConvectionResult:
+    """Convection from a surface at ``t_surface`` to fluid at ``t_fluid`` (°C), still or in a wind.
 
     Parameters
     ----------
@@ -143,6 +168,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     {gas_and_pressure}
     {method}
     {property_options}
+    {wind}
 
     {convection_result}
 
@@ -152,15 +178,49 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     temperature (:func:`stillair.film_properties`); Nu from the correlation registry
     (:func:`stillair.nusselt`; each method's source and validity in the ``nu_<geometry>``
     docstrings); h = Nu k / L.  Out-of-range inputs are reported in ``note``, not raised.
+    With a wind, Re = V L_w / nu at the same film temperature, Nu_F from the forced correlation
+    of :data:`stillair.forced.WIND_FLOWS` (flat plate, cylinder in cross-flow, sphere) and
+    h = (h_N^3 + h_F^3)^(1/3) (Churchill and Usagi); ``nu`` is then h L / k on the geometry's
+    own length, ``re``, ``h_natural``, ``h_forced`` and ``forced_method`` tell the parts.
 
     Examples
     --------
     >>> result = surface_convection("vplate", 60.0, 20.0, 0.5)
     >>> round(float(result.h), 2), str(result.method)
     (5.0, 'churchill-chu')
+    >>> windy = surface_convection("vplate", 60.0, 20.0, 0.5, wind=2.0, wind_length=1.0)
+    >>> round(float(windy.h), 2), str(windy.forced_method), round(float(windy.re))
+    (6.66, 'pohlhausen', 117656)
     """
-    function_name = function_name or f"h_{geometry}"
-    geo = GEOMETRIES[geometry]
+    surfaces = tuple(name for name, geo in GEOMETRIES.items() if name not in ONE_CALLS and "ra" in geo.inputs)
+    function_name = function_name or (f"h_{geometry}" if geometry in surfaces else "surface_convection")
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, surfaces)]
+    still = _surface_convection(geo, t_surface, t_fluid, length, facing, tilt, diameter, gas, pressure, method,
+                                property_temperature, ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"ts": t_surface, "tf": t_fluid}),
+                      length_slip(geo.length, length),
+                      length_slip("diameter", diameter) if "slenderness" in geo.inputs else "", stacklevel=4)
+    still = _with_slip(still, slip)
+    if wind_length is None and is_plain_number(wind) and wind == 0:
+        return still    # still air, untouched (the usual call)
+    return _with_wind(geo.name, still, wind, wind_length, length, diameter, gas, pressure, function_name)
+
+
+def _with_slip(result: "ConvectionResult", slip: str) -> "ConvectionResult":
+    """The result with a unit-slip note added to every element's note (the range notes stay)."""
+    if not slip:
+        return result
+    note = np.asarray(result.note, dtype=object)
+    with_slip = np.where(note == "", slip, note + "; " + slip) if note.ndim else \
+        np.array(f"{note.item()}; {slip}" if note.item() else slip, dtype=object)
+    return dataclasses.replace(result, note=with_slip)
+
+
+def _surface_convection(geo: Geometry, t_surface: ArrayLike, t_fluid: ArrayLike, length: ArrayLike,
+                        facing: str | None, tilt: ArrayLike | None, diameter: ArrayLike | None, gas: str,
+                        pressure: ArrayLike, method: str, property_temperature: ArrayLike | None,
+                        ideal_expansion: bool, function_name: str) -> "ConvectionResult":
+    geometry = geo.name
     length_name = geo.length
     if (_plain_case(gas, pressure, (t_surface, t_fluid),
                     (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
@@ -175,20 +235,28 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
         plate = f"{'hot' if delta_t >= 0 else 'cold'}-{str(facing).strip().lower()}" if geo.cases else ""
         result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
         return _scalar_result(props, t_film, gr, ra, length, result, plate)
-    length = require_positive(function_name, length_name, length, "m")
+    length = require_length(function_name, length_name, length)
+    # every argument takes part in the result's shape (a range of tilts or diameters at one
+    # temperature broadcasts like a range of temperatures)
+    extra: list[np.ndarray] = []
+    if "tilt" in geo.inputs:
+        tilt = require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg")
+        extra.append(tilt)
+    if "slenderness" in geo.inputs:
+        diameter = require_length(function_name, "diameter", diameter)
+        extra.append(diameter)
     props, t_film, beta = film_properties(t_surface, t_fluid, gas, pressure,
                                           property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name,
                                           names=("ts", "tf"))
     delta_t = np.subtract(t_surface, t_fluid, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, length)
-    shape = np.broadcast(ra, props.prandtl).shape
+    shape = np.broadcast(ra, props.prandtl, *extra).shape
     ra, pr = _full(ra, shape), _full(props.prandtl, shape)
     inputs = {"ra": ra, "pr": pr}
     if "tilt" in geo.inputs:
-        inputs["tilt"] = _full(require_between(function_name, "tilt", tilt, *geo.tilt_range, "deg"), shape)
+        inputs["tilt"] = _full(tilt, shape)
     if "slenderness" in geo.inputs:
-        diameter = require_positive(function_name, "diameter", diameter, "m")
         inputs.update({k: _full(v, shape) for k, v in shape_ratios(geo, length, diameter=diameter).items()})
     if geo.cases:
         facing = require_choice(function_name, "facing", facing, FACINGS)
@@ -204,7 +272,7 @@ def surface_convection(geometry: str, t_surface: ArrayLike, t_fluid: ArrayLike, 
     else:
         case = uniform("", shape)
         result = nusselt(geometry, method, function_name=function_name, **inputs)
-    h = result.nu * props.conductivity / length
+    h = _full(result.nu * props.conductivity / length, shape)
     return ConvectionResult(h=h, nu=result.nu, ra=ra, gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape),
                             conductivity=_full(props.conductivity, shape),
@@ -249,6 +317,15 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
+    result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                                ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"t1": t1, "t2": t2}), length_slip("gap", gap),
+                      length_slip("height", height), stacklevel=4)
+    return _with_slip(result, slip)
+
+
+def _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                       ideal_expansion, function_name) -> "ConvectionResult":
     geo = GEOMETRIES["cavity"]
     tilt_low, tilt_high = geo.tilt_range
     if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
@@ -258,8 +335,8 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
         result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
                          tilt=layer_tilt(float(tilt), delta_t), **shape_ratios(geo, gap, height=height))
         return _scalar_result(props, t_film, gr, ra, gap, result, "")
-    gap = require_positive(function_name, "gap", gap, "m")
-    height = require_positive(function_name, "height", height, "m")
+    gap = require_length(function_name, "gap", gap)
+    height = require_length(function_name, "height", height)
     tilt = require_between(function_name, "tilt", tilt, tilt_low, tilt_high, "deg")
     props, t_film, beta = film_properties(t1, t2, gas, pressure, property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
@@ -279,10 +356,85 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
                             case=uniform("", shape), in_range=result.in_range, note=result.note, blend=result.blend)
 
 
+def _with_wind(geometry, still: ConvectionResult, wind, wind_length, length, diameter, gas, pressure,
+               function_name) -> ConvectionResult:
+    """``still`` with the wind's forced convection combined in (see :mod:`stillair.forced`);
+    where the wind is 0 every field keeps its still-air value exactly."""
+    flow = WIND_FLOWS[geometry]
+    if (is_plain_number(wind) and 0.0 < wind < math.inf and still.h.ndim == 0
+            and (wind_length is None or is_plain_number(wind_length) and 0.0 < wind_length < math.inf)
+            and not (wind_length is None and flow.wind_length_required)
+            and (wind_length is None or flow.along == "wind_length")):
+        return _with_plain_wind(flow, still, float(wind), wind_length, length, diameter, gas, pressure,
+                                function_name)
+    wind = require_nonnegative(function_name, "wind", wind, "m/s")
+    if wind_length is not None:
+        if flow.along != "wind_length":
+            raise InputError(function_name, "wind_length", wind_length,
+                             f"blank for {geometry} (the wind crosses its diameter)")
+        wind_length = require_positive(function_name, "wind_length", wind_length, "m")
+    blowing = wind > 0.0
+    if not np.any(blowing):
+        return still
+    if wind_length is None and flow.wind_length_required:
+        raise InputError(function_name, "wind_length", None,
+                         "the plate's length along the wind in m (> 0) when wind > 0 (area/perimeter "
+                         "is not a length along the wind)")
+    along = forced_length(flow, length, wind_length=wind_length, diameter=diameter)
+    kinvisc = gas_properties(gas, still.t_film, pressure, function_name=function_name).kinvisc
+    shape = np.broadcast(still.h, wind, along).shape
+    re = _full(wind * along / kinvisc, shape)
+    blowing = _full(blowing, shape) & (re > 0.0)   # a wind so light that Re underflows to 0 is still air
+    # Re = 0 where still: the forced correlation is not evaluated there (1 is a stand-in)
+    forced = nusselt(flow.geometry, "auto", function_name=function_name,
+                     re=np.where(blowing, re, 1.0), pr=_full(still.pr, shape))
+    conductivity = _full(still.conductivity, shape)
+    h_natural = _full(still.h, shape)
+    h_forced = np.where(blowing, forced.nu * conductivity / along, 0.0)
+    h = np.where(blowing, combine_mixed(h_natural, h_forced), h_natural)
+    still_note = _full(still.note, shape)
+    forced_note = np.where(blowing, forced.note, "")
+    note = np.where((still_note != "") & (forced_note != ""), still_note + "; " + forced_note,
+                    np.where(still_note != "", still_note, forced_note))
+    own_length = _full(still.length, shape)
+    return ConvectionResult(
+        h=h, nu=np.where(blowing, h * own_length / conductivity, _full(still.nu, shape)),
+        ra=_full(still.ra, shape), gr=_full(still.gr, shape), pr=_full(still.pr, shape),
+        t_film=_full(still.t_film, shape), conductivity=conductivity, length=own_length,
+        method=_full(still.method, shape), case=_full(still.case, shape),
+        in_range=_full(still.in_range, shape) & (forced.in_range | ~blowing), note=note.astype(object),
+        blend=None if still.blend is None else _full(still.blend, shape),
+        re=np.where(blowing, re, 0.0), h_natural=h_natural, h_forced=h_forced,
+        forced_method=np.where(blowing, forced.method, "").astype(object))
+
+
+def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pressure, function_name):
+    """:func:`_with_wind` for one case in plain numbers (the registry's scalar path, the same
+    formulas)."""
+    along = float(forced_length(flow, length, wind_length=wind_length, diameter=diameter))
+    t_film = float(still.t_film)
+    kinvisc = gas_properties(gas, t_film, pressure, function_name=function_name).kinvisc
+    re = wind * along / float(kinvisc)
+    if not re > 0.0:    # a wind so light that Re underflows to 0: still air
+        return still
+    forced = nusselt(flow.geometry, "auto", function_name=function_name, re=re, pr=float(still.pr))
+    conductivity = float(still.conductivity)
+    h_natural = float(still.h)
+    h_forced = float(forced.nu) * conductivity / along
+    h = combine_mixed(h_natural, h_forced)
+    notes = [str(n) for n in (still.note, forced.note) if str(n)]
+    return ConvectionResult(
+        h=np.asarray(h), nu=np.asarray(h * float(still.length) / conductivity), ra=still.ra, gr=still.gr,
+        pr=still.pr, t_film=still.t_film, conductivity=still.conductivity, length=still.length,
+        method=still.method, case=still.case, in_range=np.asarray(bool(still.in_range) and bool(forced.in_range)),
+        note=np.asarray("; ".join(notes), dtype=object), blend=still.blend, re=np.asarray(re),
+        h_natural=np.asarray(h_natural), h_forced=np.asarray(h_forced), forced_method=forced.method)
+
+
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
     """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
     return (property_temperature is None
-            and all(type(v) in PLAIN_NUMBERS and 0.0 < v < math.inf for v in lengths)
+            and all(is_plain_length(v) for v in lengths)
             and plain_state_accepted(gas, temperatures, pressure))
 
 
@@ -343,11 +495,12 @@ def _h_cavity_call(t1, t2, *, gap, height, tilt, **common) -> ConvectionResult:
 ONE_CALLS: dict = {"cavity": _h_cavity_call}
 
 
-@shared_docs
+@_wind_docs
 def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str = "air",
                         pressure: ArrayLike = DEFAULT_PRESSURE, method: str = "auto",
                         property_temperature: ArrayLike | None = None, ideal_expansion: bool = False,
-                        function_name: str | None = None, **parameters: ArrayLike | str) -> ConvectionResult:
+                        function_name: str | None = None, wind: ArrayLike = 0.0,
+                        wind_length: ArrayLike | None = None, **parameters: ArrayLike | str) -> ConvectionResult:
     """Convection of any geometry by name, its parameters as keywords (``geometry.parameters``).
 
     ``t1`` is the surface (or the cavity's underside face) and ``t2`` the fluid (or the other
@@ -366,6 +519,8 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
     {gas_and_pressure}
     {method}
     {property_options}
+    {wind}
+        Only for the exposed surfaces (vplate, hplate, tplate, hcyl, sphere, vcyl).
     parameters : array_like or str
         The geometry's own parameters by name (``length``, ``height``, ``facing``, ``tilt``,
         ``diameter``, ``gap`` ... as ``geometry.parameters`` lists them, lengths in m, angles
@@ -402,9 +557,12 @@ def geometry_convection(geometry: str, t1: ArrayLike, t2: ArrayLike, *, gas: str
                   ideal_expansion=ideal_expansion, function_name=function_name)
     own_call = ONE_CALLS.get(geo.name)
     if own_call is not None:
+        if wind_length is not None or not (is_plain_number(wind) and wind == 0):
+            raise InputError(function_name, "wind", wind, f"0 for {geo.name} (wind acts on exposed surfaces: "
+                                                          f"{', '.join(WIND_FLOWS)})")
         return own_call(t1, t2, **values, **common)
     length = values.pop(geo.length)
-    return surface_convection(geo.name, t1, t2, length, **values, **common)
+    return surface_convection(geo.name, t1, t2, length, **values, **common, wind=wind, wind_length=wind_length)
 
 
 def _h_only(result: ConvectionResult, function_name: str):
@@ -414,50 +572,52 @@ def _h_only(result: ConvectionResult, function_name: str):
 
 def h_vplate(ts: ArrayLike, tf: ArrayLike, height: ArrayLike,
              gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-             method: str = "auto") -> FloatOrArray:
-    """h of a vertical plate of ``height`` (m) at ts in still gas at tf (°C)."""
+             method: str = "auto", wind: ArrayLike = 0.0, wind_length: ArrayLike | None = None) -> FloatOrArray:
+    """h of a vertical plate of ``height`` (m) at ts in gas at tf (°C), still or in a wind."""
     return _h_only(surface_convection("vplate", ts, tf, height, gas=gas, pressure=pressure, method=method,
-                                      function_name="h_vplate"), "h_vplate")
+                                      function_name="h_vplate", wind=wind, wind_length=wind_length), "h_vplate")
 
 
 def h_hplate(ts: ArrayLike, tf: ArrayLike, length: ArrayLike, facing: str,
              gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-             method: str = "auto") -> FloatOrArray:
+             method: str = "auto", wind: ArrayLike = 0.0, wind_length: ArrayLike | None = None) -> FloatOrArray:
     """h of a horizontal plate, ``length`` = area/perimeter (m), face looking "up" or "down"."""
     return _h_only(surface_convection("hplate", ts, tf, length, facing=facing, gas=gas, pressure=pressure,
-                                      method=method, function_name="h_hplate"), "h_hplate")
+                                      method=method, function_name="h_hplate", wind=wind,
+                                      wind_length=wind_length), "h_hplate")
 
 
 def h_tplate(ts: ArrayLike, tf: ArrayLike, length: ArrayLike, tilt: ArrayLike,
              facing: str, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-             method: str = "auto") -> FloatOrArray:
+             method: str = "auto", wind: ArrayLike = 0.0, wind_length: ArrayLike | None = None) -> FloatOrArray:
     """h of a plate tilted ``tilt`` degrees from vertical, face looking "up" or "down"."""
     return _h_only(surface_convection("tplate", ts, tf, length, facing=facing, tilt=tilt, gas=gas,
-                                      pressure=pressure, method=method, function_name="h_tplate"), "h_tplate")
+                                      pressure=pressure, method=method, function_name="h_tplate", wind=wind,
+                                      wind_length=wind_length), "h_tplate")
 
 
 def h_hcyl(ts: ArrayLike, tf: ArrayLike, diameter: ArrayLike,
            gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-           method: str = "auto") -> FloatOrArray:
-    """h of a long horizontal cylinder (pipe) of outside ``diameter`` (m)."""
+           method: str = "auto", wind: ArrayLike = 0.0) -> FloatOrArray:
+    """h of a long horizontal cylinder (pipe) of outside ``diameter`` (m), wind across its axis."""
     return _h_only(surface_convection("hcyl", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
-                                      function_name="h_hcyl"), "h_hcyl")
+                                      function_name="h_hcyl", wind=wind), "h_hcyl")
 
 
 def h_sphere(ts: ArrayLike, tf: ArrayLike, diameter: ArrayLike,
              gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-             method: str = "auto") -> FloatOrArray:
+             method: str = "auto", wind: ArrayLike = 0.0) -> FloatOrArray:
     """h of a sphere of ``diameter`` (m)."""
     return _h_only(surface_convection("sphere", ts, tf, diameter, gas=gas, pressure=pressure, method=method,
-                                      function_name="h_sphere"), "h_sphere")
+                                      function_name="h_sphere", wind=wind), "h_sphere")
 
 
 def h_vcyl(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, diameter: ArrayLike,
            gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
-           method: str = "auto") -> FloatOrArray:
-    """h of a vertical cylinder of ``height`` and ``diameter`` (m), Ra on the height."""
+           method: str = "auto", wind: ArrayLike = 0.0) -> FloatOrArray:
+    """h of a vertical cylinder of ``height`` and ``diameter`` (m), Ra on the height, wind across it."""
     return _h_only(surface_convection("vcyl", ts, tf, height, diameter=diameter, gas=gas, pressure=pressure,
-                                      method=method, function_name="h_vcyl"), "h_vcyl")
+                                      method=method, function_name="h_vcyl", wind=wind), "h_vcyl")
 
 
 def h_cavity(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: ArrayLike,
@@ -484,6 +644,14 @@ def _h_parameters(geometry: str, first: tuple[str, str]):
     entries += [("gas", 'str, default "air"', 'Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).'),
                 ("pressure", "array_like, default 101325", "Absolute pressure in Pa."),
                 ("method", 'str, default "auto"', f'One of {geo.method_help()}, or "auto" (see Notes).')]
+    if geometry in WIND_FLOWS:
+        entries.append(("wind", "array_like, default 0", "Wind speed in m/s (>= 0), taken horizontal; 0 is "
+                                                         "still air, the value without wind exactly."))
+        if WIND_FLOWS[geometry].along == "wind_length":
+            blank = ("required when wind > 0 (area/perimeter is no length along the wind)"
+                     if WIND_FLOWS[geometry].wind_length_required else f"blank: the plate's {geo.length}")
+            entries.append(("wind_length", "array_like, optional",
+                            f"Length of the plate along the wind in m (> 0); {blank}."))
     return entries
 
 
@@ -508,4 +676,7 @@ for _function, (_geometry, _summary, _call, _value) in _H_SUMMARIES.items():
     document(_function, _geometry, _summary,
              _h_parameters(_geometry, ("t1", "t2") if _geometry == "cavity" else ("ts", "tf")), _H,
              f">>> round({_call}, {len(_value.split('.')[1])})\n{_value}")
+    if _geometry in WIND_FLOWS:   # the wind's correlations and the combination, before Examples
+        _wind = "\n".join(["``wind``"] + [_indent(part, 4) + "\n" for part in wind_notes(_geometry).split("\n\n")])
+        _function.__doc__ = (_function.__doc__ or "").replace("\nExamples\n--------\n", f"\n{_wind}\nExamples\n--------\n", 1)
 del _function, _geometry, _summary, _call, _value

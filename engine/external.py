@@ -168,6 +168,39 @@ def _hplate_raithby_hollands(ra, pr, case):
         return 2.5 / np.log1p(2.5 / thin_layer)
 
 
+def _vdi_unstable_group(inputs):
+    """Ra f2(Pr), the group of VDI's upward-facing heated plate."""
+    return inputs["ra"] * (1.0 + (0.322 / inputs["pr"]) ** 0.55) ** (20.0 / 11.0)
+
+
+def _vdi_stable_group(inputs):
+    """Ra f1(Pr), the group of VDI's downward-facing heated plate."""
+    return inputs["ra"] * (1.0 + (0.492 / inputs["pr"]) ** (9.0 / 16.0)) ** (-16.0 / 9.0)
+
+
+@correlation(
+    geometry="hplate", method="vdi", cases=PLATE_CASES,
+    title="VDI Heat Atlas, horizontal plate (Stewartson's form for the unstable face)",
+    source="VDI Heat Atlas, 2nd ed., Springer (2010), section F2; the unstable face after K. "
+           "Stewartson, ZAMP 9 (1958) 276-282; equations as transcribed in the ht library "
+           "(C. Bell), ht.conv_free_immersed.Nu_horizontal_plate_VDI (L = A/P); the Atlas itself "
+           "was not read",
+    equation="hot-up, cold-down: Nu = 0.766 (Ra f2)^(1/5) for Ra f2 <= 7e4, 0.15 (Ra f2)^(1/3) "
+             "above, f2 = [1 + (0.322/Pr)^(11/20)]^(20/11); hot-down, cold-up: Nu = 0.6 (Ra f1)^(1/5), "
+             "f1 = [1 + (0.492/Pr)^(9/16)]^(-16/9)",
+    validity=[Range("Ra*f1(Pr)", 1e3, 1e10, of=_vdi_stable_group)],
+    validity_by_case={case: (Range("Ra*f2(Pr)", 1.0, 1e11, of=_vdi_unstable_group),) for case in UNSTABLE_CASES},
+    notes="Ranges unverified (ht states none; the Atlas was not read): 1e3 to 1e10 for the stable "
+          "face and 1 to 1e11 for the unstable one are ours, from memory of the Atlas.  The "
+          "unstable face steps down by 13 % at Ra f2 = 7e4 (0.766 x^(1/5) = 7.13 against 0.15 x^(1/3) = 6.18), "
+          "as published.")
+def _hplate_vdi(ra, pr, case):
+    if case in UNSTABLE_CASES:
+        group = _vdi_unstable_group({"ra": ra, "pr": pr})
+        return where(group <= 7e4, 0.766 * group ** 0.2, 0.15 * np.cbrt(group))
+    return 0.6 * _vdi_stable_group({"ra": ra, "pr": pr}) ** 0.2
+
+
 # McAdams correlated square plates on their side length; stillair's hplate Ra is on A/P, which
 # is a quarter of the side of a square (a disk of diameter D: McAdams's 0.9 D = 3.6 A/P).
 _MCADAMS_SIDE_PER_LENGTH = 4.0
@@ -321,6 +354,24 @@ def _hcyl_morgan(ra, pr):
     return _power_bands(ra, _MORGAN_EDGES, _MORGAN_C, _MORGAN_N)
 
 
+@correlation(
+    geometry="hcyl", method="kuehn-goldstein", title="Kuehn and Goldstein, horizontal cylinder, all Ra",
+    source="T.H. Kuehn, R.J. Goldstein, Correlating equations for natural convection heat transfer "
+           "between horizontal circular cylinders, Int. J. Heat Mass Transfer 19 (1976) 1127-1134; "
+           "equation as transcribed in the ht library (C. Bell), "
+           "ht.conv_free_immersed.Nu_horizontal_cylinder_Kuehn_Goldstein",
+    equation="2/Nu = ln(1 + 2 / [ (0.518 Ra^(1/4) [1 + (0.559/Pr)^(3/5)]^(-5/12))^15 "
+             "+ (0.1 Ra^(1/3))^15 ]^(1/15))",
+    validity=[Range("Ra", 1e-10, 1e12), Range("Pr", low=0.7)],
+    notes="The authors give it for all Ra except low-Pr fluids (as ht notes); the bounds here are "
+          "ours: Ra as Morgan's table (1e-10 to 1e12), Pr >= 0.7 (gases and liquids).")
+def _hcyl_kuehn_goldstein(ra, pr):
+    laminar = 0.518 * ra ** 0.25 * (1.0 + (0.559 / pr) ** 0.6) ** (-5.0 / 12.0)
+    turbulent = 0.1 * np.cbrt(ra)
+    with np.errstate(divide="ignore"):  # Ra = 0: the conduction limit, Nu = 2/ln(inf) = 0
+        return 2.0 / np.log1p(2.0 / (laminar ** 15 + turbulent ** 15) ** (1.0 / 15.0))
+
+
 def nu_hcyl(ra: ArrayLike, pr: ArrayLike, method: str = "auto") -> FloatOrArray:
     """Nusselt number of a long horizontal cylinder (Ra on the diameter).
 
@@ -413,6 +464,126 @@ def _vcyl_popiel(ra, pr, slenderness):
     with np.errstate(divide="ignore"):  # Ra = 0: no boundary layer, the curvature term is infinite
         curvature = np.sqrt(32.0) * slenderness / (ra / pr) ** 0.25
     return _vplate_churchill_chu(ra, pr) * (1.0 + b * curvature ** c)
+
+
+# The vertical-cylinder correlations of the literature's review (Morgan 1975; Popiel 2008;
+# Boetcher 2014), each for the data's own Ra range: the spread of the trade's correlations.  The
+# equations and ranges as transcribed with their references in the ht library (C. Bell,
+# ht.conv_free_immersed, Nu_vertical_cylinder_*), read there; they are checked against it to
+# 1e-9 in tests/test_external.py.  Ra and Nu on the height; a named method keeps its published
+# step between bands (an edge value belongs to the lower band, as published "Ra > edge").
+_VCYL_REVIEW = ("as reviewed by V.T. Morgan, Advances in Heat Transfer 11 (1975) 199-264, "
+                "C.O. Popiel, Heat Transfer Eng. 29 (2008) 521-536 and S.K.S. Boetcher, Natural "
+                "Convection from Circular Cylinders, Springer (2014) 23-42; equation and range as "
+                "transcribed in the ht library (C. Bell), ht.conv_free_immersed")
+
+
+@correlation(
+    geometry="vcyl", method="mcadams", title="McAdams (Weise, Saunders), vertical cylinder as a plate",
+    source="R. Weise, Forsch. Ing.-Wes. A 6 (1935) 281-292; O.A. Saunders, Proc. R. Soc. A 157 "
+           "(1936) 278-291; W.H. McAdams, Heat Transmission, 3rd ed. (1954); " + _VCYL_REVIEW,
+    equation="Nu = 0.59 Ra^(1/4) (1e4 < Ra <= 1e9); 0.13 Ra^(1/3) (1e9 < Ra < 1e12)",
+    validity=[Range("Ra", 1e4, 1e12)])
+def _vcyl_mcadams(ra, pr, slenderness):
+    return _power_bands(ra, (1e9,), (0.59, 0.13), (0.25, 1.0 / 3.0))
+
+
+@correlation(
+    geometry="vcyl", method="jakob-linke", title="Jakob and Linke, vertical cylinder in air",
+    source="M. Jakob, W. Linke, Phys. Z. 36 (1935) 267-280, correlated by Morgan (1975); " + _VCYL_REVIEW,
+    equation="Nu = 0.555 Ra^(1/4) (1e4 < Ra <= 1e8); 0.129 Ra^(1/3) (1e8 < Ra < 1e12)",
+    validity=[Range("Ra", 1e4, 1e12)],
+    notes="Air; one cylinder of 3.5 cm diameter, L/D = 4.3.")
+def _vcyl_jakob_linke(ra, pr, slenderness):
+    return _power_bands(ra, (1e8,), (0.555, 0.129), (0.25, 1.0 / 3.0))
+
+
+@correlation(
+    geometry="vcyl", method="griffiths-davis", title="Griffiths and Davis, vertical cylinder in air",
+    source="E. Griffiths, A.H. Davis, The Transmission of Heat by Radiation and Convection, HMSO "
+           "(1922), correlated by Morgan (1975); " + _VCYL_REVIEW,
+    equation="Nu = 0.67 Ra^(1/4) (1e7 < Ra <= 1e9); 0.0782 Ra^0.357 (1e9 < Ra < 1e11)",
+    validity=[Range("Ra", 1e7, 1e11), Range("slenderness", 0.26, 15.2)],
+    notes="Air; a cylinder of 17.43 cm diameter, 4.65 to 263.5 cm long (L/D 0.27 to 15.1).")
+def _vcyl_griffiths_davis(ra, pr, slenderness):
+    return _power_bands(ra, (1e9,), (0.67, 0.0782), (0.25, 0.357))
+
+
+@correlation(
+    geometry="vcyl", method="carne", title="Carne, vertical cylinder in air",
+    source="J.B. Carne, Phil. Mag. 24 (1937) 634-653, correlated by Morgan (1975); " + _VCYL_REVIEW,
+    equation="Nu = 1.07 Ra^0.28 (2e6 < Ra <= 2e8); 0.152 Ra^0.38 (2e8 < Ra < 2e11)",
+    validity=[Range("Ra", 2e6, 2e11), Range("slenderness", 8.0, 127.0)],
+    notes="Cylinders of 0.475 to 7.62 cm diameter, L/D 8 to 127.")
+def _vcyl_carne(ra, pr, slenderness):
+    return _power_bands(ra, (2e8,), (1.07, 0.152), (0.28, 0.38))
+
+
+@correlation(
+    geometry="vcyl", method="kreith-eckert", title="Kreith (Eckert and Jackson), vertical cylinder as a plate",
+    source="E.R.G. Eckert, T.W. Jackson, NACA Report 1015 / TN 2207 (1950); F. Kreith, R. Manglik, "
+           "M. Bohn, Principles of Heat Transfer (2010); " + _VCYL_REVIEW,
+    equation="Nu = 0.555 Ra^(1/4) (1e5 < Ra <= 1e9); 0.021 Ra^0.4 (1e9 < Ra < 1e12)",
+    validity=[Range("Ra", 1e5, 1e12)])
+def _vcyl_kreith_eckert(ra, pr, slenderness):
+    return _power_bands(ra, (1e9,), (0.555, 0.021), (0.25, 0.4))
+
+
+@correlation(
+    geometry="vcyl", method="hanesian-kalish", title="Hanesian and Kalish, vertical cylinder, laminar",
+    source="D. Hanesian, R. Kalish, IEEE Trans. Parts, Materials and Packaging 6 (1970) 147-148, "
+           "correlated by Morgan (1975); " + _VCYL_REVIEW,
+    equation="Nu = 0.48 Ra^0.23",
+    validity=[Range("Ra", 1e6, 1e8)],
+    notes="Air and fluorocarbon gases; laminar range only.")
+def _vcyl_hanesian_kalish(ra, pr, slenderness):
+    return 0.48 * ra ** 0.23
+
+
+@correlation(
+    geometry="vcyl", method="touloukian", title="Touloukian, Hawkins and Jakob, vertical cylinder in liquids",
+    source="Y.S. Touloukian, G.A. Hawkins, M. Jakob, Trans. ASME 70 (1948) 13-18, correlated by "
+           "Morgan (1975); " + _VCYL_REVIEW,
+    equation="Nu = 0.726 Ra^(1/4) (2e8 < Ra <= 4e10); 0.0674 (Gr Pr^1.29)^(1/3) (4e10 < Ra < 9e11), "
+             "Gr = Ra/Pr",
+    validity=[Range("Ra", 2e8, 9e11), Range("Pr", 2.0, 200.0)],
+    notes="Water and ethylene glycol on a 2.75 in cylinder 6 to 36.25 in high.  The Pr range "
+          "(the two liquids' over the tests' temperatures) is ours, from memory: unverified.")
+def _vcyl_touloukian(ra, pr, slenderness):
+    return where(ra > 4e10, 0.0674 * np.cbrt(ra * pr ** 0.29), 0.726 * ra ** 0.25)
+
+
+@correlation(
+    geometry="vcyl", method="eigenson", title="Eigenson, vertical cylinder in diatomic gases",
+    source="L. Eigenson, Dokl. Akad. Nauk SSSR 26 (1940) 440-444, correlated by Morgan (1975); "
+           "the transition band as given by Boetcher (2014); " + _VCYL_REVIEW,
+    equation="Nu = 0.48 Ra^(1/4) (Ra <= 1e9); 51.5 + 0.0000726 Ra^0.63 (1e9 < Ra <= 1.69e10); "
+             "0.148 Ra^(1/3) - 127.6 (Ra > 1.69e10)",
+    validity=[Range("Ra", high=1e12), Range("slenderness", 40.0, 1050.0)],
+    notes="Air; 2.5 m high cylinders of 2.4 to 50 mm diameter and one of 58 mm, 6.5 m high "
+          "(L/D about 43 to 1040).  The lower Ra limit is not stated; the upper (1e12) is ours.")
+def _vcyl_eigenson(ra, pr, slenderness):
+    return where(ra > 1.69e10, 0.148 * np.cbrt(ra) - 127.6,
+                 where(ra > 1e9, 51.5 + 0.0000726 * ra ** 0.63, 0.48 * ra ** 0.25))
+
+
+def _diameter_grashof(inputs):
+    """Gr on the diameter, Gr_D = Gr_H (D/H)^3 = (Ra/Pr) / slenderness^3."""
+    return inputs["ra"] / inputs["pr"] / inputs["slenderness"] ** 3
+
+
+@correlation(
+    geometry="vcyl", method="al-arabi-khamis", title="Al-Arabi and Khamis, vertical cylinder in air",
+    source="M. Al-Arabi, M. Khamis, Int. J. Heat Mass Transfer 25 (1982) 3-15; " + _VCYL_REVIEW,
+    equation="Nu = 2.9 Ra^(1/4) / Gr_D^(1/12) (9.88e7 <= Ra <= 2.7e9); 0.47 Ra^(1/3) / Gr_D^(1/12) "
+             "(2.7e9 < Ra <= 2.95e10); Gr_D = Gr (D/H)^3",
+    validity=[Range("Ra", 9.88e7, 2.95e10), Range("Gr_D", 1.08e4, 6.9e5, of=_diameter_grashof)],
+    notes="Air; D 12.75 to 51 mm, H 300 to 2000 mm, walls held isothermal by condensing steam.  "
+          "ht's code switches bands at Ra = 2.6e9 while its equations state 2.7e9; the stated "
+          "2.7e9 is used here (the paper itself was not read).")
+def _vcyl_al_arabi_khamis(ra, pr, slenderness):
+    gr_d = ra / pr / slenderness ** 3
+    return where(ra > 2.7e9, 0.47 * np.cbrt(ra), 2.9 * ra ** 0.25) / gr_d ** (1.0 / 12.0)
 
 
 def nu_vcyl(ra: ArrayLike, pr: ArrayLike, slenderness: ArrayLike, method: str = "auto") -> FloatOrArray:

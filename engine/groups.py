@@ -18,7 +18,8 @@ from .constants import STANDARD_GRAVITY, ZERO_CELSIUS as zero_Celsius
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
 from .gases import GasProperties, gas_properties, require_gas_temperature
-from .validity import require_positive, unwrap
+from .plausibility import length_slip, temperature_slip, warn_slips
+from .validity import require_length, require_positive, unwrap
 
 __all__ = ["STANDARD_GRAVITY", "grashof", "rayleigh", "film_properties", "buoyancy_groups"]
 
@@ -98,7 +99,9 @@ def buoyancy_groups(props, expansion, delta_t, length):
 
 
 def _groups(function_name, t1, t2, length, gas, pressure, ideal_expansion):
-    length = require_positive(function_name, "length", length, "m")
+    length = require_length(function_name, "length", length)
+    warn_slips(function_name, temperature_slip({"t1": t1, "t2": t2}), length_slip("length", length),
+               stacklevel=4)
     props, _, beta = film_properties(t1, t2, gas, pressure, ideal_expansion=ideal_expansion,
                                      function_name=function_name)
     return buoyancy_groups(props, beta, np.subtract(t1, t2, dtype=float), length)

@@ -18,15 +18,17 @@ of t_i -> t_s (beyond the temperature an unlimited thickness would approach) is 
 from __future__ import annotations
 
 import math
+import warnings
 
 import numpy as np
 
 from ._typing import ArrayLike, FloatOrArray
 from .convection import surface_convection
+from .plausibility import UnitSlipWarning
 from .groups import DEFAULT_PRESSURE
 from .radiation import h_rad
 from .validity import (InputError, format_value, require_between, require_choice, require_finite,
-                       require_positive, unwrap, warn_out_of_range)
+                       require_nonnegative, require_positive, unwrap, warn_out_of_range)
 
 __all__ = ["insulation_thickness", "INSULATION_GEOMETRIES"]
 
@@ -44,7 +46,8 @@ MAX_DIAMETER_RATIO = 1e4
 def insulation_thickness(t_inner: ArrayLike, t_air: ArrayLike, t_surface: ArrayLike, conductivity: ArrayLike,
                          emissivity: ArrayLike, geometry: str, size: ArrayLike, facing: str | None = None,
                          t_surroundings: ArrayLike | None = None, gas: str = "air",
-                         pressure: ArrayLike = DEFAULT_PRESSURE) -> FloatOrArray:
+                         pressure: ArrayLike = DEFAULT_PRESSURE, wind: ArrayLike = 0.0,
+                         wind_length: ArrayLike | None = None) -> FloatOrArray:
     """Insulation thickness at which the outer surface of an insulated pipe or face is at a temperature.
 
     Parameters
@@ -73,6 +76,13 @@ def insulation_thickness(t_inner: ArrayLike, t_air: ArrayLike, t_surface: ArrayL
         The surrounding gas.
     pressure : array_like, default 101325
         Absolute pressure in Pa.
+    wind : array_like, default 0
+        Wind speed in m/s (>= 0) over the outer surface, taken horizontal (across a pipe, along a
+        face); 0 is still air.  With a wind the outer convection combines natural and forced
+        convection, h = (h_N^3 + h_F^3)^(1/3) (:func:`stillair.surface_convection`).
+    wind_length : array_like, optional
+        A face's length along the wind in m (> 0); blank: the face height (vplate), required for
+        hplate with a wind.  A pipe takes its insulated diameter.
 
     Returns
     -------
@@ -120,19 +130,26 @@ def insulation_thickness(t_inner: ArrayLike, t_air: ArrayLike, t_surface: ArrayL
     emissivity = require_between(FUNCTION, "emissivity", emissivity, 0.0, 1.0)
     size = require_positive(FUNCTION, "size", size, "m")
     pressure = require_positive(FUNCTION, "pressure", pressure, "Pa")
+    wind = require_nonnegative(FUNCTION, "wind", wind, "m/s")
+    if wind_length is not None:
+        if geometry == "hcyl":
+            raise InputError(FUNCTION, "wind_length", wind_length, "blank for hcyl (the wind crosses the pipe)")
+        wind_length = require_positive(FUNCTION, "wind_length", wind_length, "m")
+    along = np.nan if wind_length is None else wind_length     # nan: blank (the face's own length)
     arrays = np.broadcast_arrays(t_inner, t_air, t_surface, conductivity, emissivity, size, t_surroundings,
-                                 pressure)
+                                 pressure, wind, along)
     thickness = np.empty(arrays[0].shape)
     notes = []
     for index in np.ndindex(thickness.shape):
-        ti, ta, ts, k, eps, d, tsur, p = (float(a[index]) for a in arrays)
-        thickness[index], note = _one(ti, ta, ts, k, eps, geometry, d, facing, tsur, gas, p)
+        ti, ta, ts, k, eps, d, tsur, p, v, lw = (float(a[index]) for a in arrays)
+        wind_args = {"wind": v, "wind_length": None if math.isnan(lw) else lw}
+        thickness[index], note = _one(ti, ta, ts, k, eps, geometry, d, facing, tsur, gas, p, wind_args)
         notes.append(note)
     warn_out_of_range(FUNCTION, [not n for n in notes], [n for n in notes if n])
     return unwrap(thickness)
 
 
-def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure) -> tuple[float, str]:
+def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure, wind_args) -> tuple[float, str]:
     """(thickness, range note) for one case."""
     drive = ti - ts                     # the flow through the insulation is k * drive / ...
     if drive == 0.0:
@@ -141,10 +158,21 @@ def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure) -> tup
 
     def flux(length):
         """(W/m² the outer surface passes on at t_s, positive in the direction t_i -> t_s; note)."""
-        result = surface_convection(geometry, ts, ta, length, facing=facing, gas=gas, pressure=pressure,
-                                    function_name=FUNCTION)
+        # a trial diameter is ours, not typed: the unit-slip check (a length that looks like mm)
+        # speaks of the user's own size only, so it is taken off the trials' notes
+        with warnings.catch_warnings(record=True) as slips:
+            warnings.simplefilter("always", UnitSlipWarning)
+            result = surface_convection(geometry, ts, ta, length, facing=facing, gas=gas, pressure=pressure,
+                                        function_name=FUNCTION, **wind_args)
+        note = str(result.note)
+        for slip in slips:
+            if issubclass(slip.category, UnitSlipWarning):
+                text = str(slip.message).removeprefix(f"{FUNCTION}: ")
+                note = note.replace(f"; {text}", "").replace(text, "")
+            else:
+                warnings.warn_explicit(slip.message, slip.category, slip.filename, slip.lineno)
         passed = float(result.h) * (ts - ta) + radiation
-        return math.copysign(1.0, drive) * passed, str(result.note)
+        return math.copysign(1.0, drive) * passed, note
 
     def unreachable(how: str) -> InputError:
         return InputError(FUNCTION, "t_surface", ts,

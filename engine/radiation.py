@@ -93,11 +93,20 @@ def exchange_factor(eps1: ArrayLike, eps2: ArrayLike | None = None,
     return unwrap(1.0 / (1.0 / eps1 + 1.0 / eps2 - 1.0))
 
 
+#: The hottest surface temperature a radiation call takes, °C: hotter than any surface in still
+#: air (the sun's photosphere is about 5,500 °C); beyond it a value is typed in the wrong unit
+#: or is no temperature at all, and T^4 would overflow.
+HOTTEST_SURFACE_C = 1e4
+
+
 def _kelvin(function_name: str, argument: str, t_celsius):
     t = require_finite(function_name, argument, t_celsius)
     if np.any(t < ABSOLUTE_ZERO_C):
         bad = t[t < ABSOLUTE_ZERO_C].flat[0] if t.ndim else t.item()
         raise InputError(function_name, argument, bad, "above -273.15 °C")
+    if np.any(t > HOTTEST_SURFACE_C):
+        bad = t[t > HOTTEST_SURFACE_C].flat[0] if t.ndim else t.item()
+        raise InputError(function_name, argument, bad, f"at most {HOTTEST_SURFACE_C:g} °C")
     return t + zero_Celsius
 
 

@@ -32,6 +32,8 @@ __all__ = [
     "require_nonnegative",
     "require_between",
     "require_choice",
+    "require_length",
+    "LENGTH_RANGE",
     "format_value",
     "unwrap",
     "distinct_notes",
@@ -146,6 +148,29 @@ def require_between(function: str, argument: str, value, low: float, high: float
         allowed = f"in {left}{format_value(low)}, {format_value(high)}{right}{_unit(unit)}"
         raise InputError(function, argument, _first_bad(array, bad), allowed)
     return array
+
+
+#: The lengths a geometry argument may take, in m.  Below 1 um the gas is no continuum for any
+#: correlation here (the mean free path of air at 1 atm is about 0.07 um, from memory; the
+#: correlations are continuum results); above 1 km no still-air geometry of this trade exists,
+#: and a length there is almost surely a value typed in the wrong unit.  Outside: an error.
+LENGTH_RANGE = (1e-6, 1e3)
+
+
+def require_length(function: str, argument: str, value, high: float = LENGTH_RANGE[1]) -> np.ndarray:
+    """A geometry length in m, finite and inside [1e-6 m, ``high``] (:data:`LENGTH_RANGE`)."""
+    array = require_positive(function, argument, value, "m")
+    low = LENGTH_RANGE[0]
+    for bad, allowed in ((array > high, f"at most {format_value(high)} m (is it in mm?)"),
+                         (array < low, f"at least {format_value(low)} m (the gas is no continuum below)")):
+        if np.any(bad):
+            raise InputError(function, argument, _first_bad(array, bad), allowed)
+    return array
+
+
+def is_plain_length(value, high: float = LENGTH_RANGE[1]) -> bool:
+    """The scalar paths' plain test of :func:`require_length`."""
+    return type(value) in PLAIN_NUMBERS and LENGTH_RANGE[0] <= value <= high
 
 
 def require_choice(function: str, argument: str, value, choices) -> str:

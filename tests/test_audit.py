@@ -362,7 +362,15 @@ COMMITTED = sorted(audit.default_templates_dir().glob("*.xlsx"))
 @pytest.mark.parametrize("template", COMMITTED, ids=lambda p: p.stem)
 def test_every_committed_template_audits_clean(template):
     result = audit_book(str(template))
-    assert result.findings == [] and result.checked
+    if template.stem == "cabinet-day":
+        # A day passes dawn and dusk, where a horizontal face's temperature difference crosses
+        # zero: at one output time its Ra falls below the correlation's published range.  That
+        # is reported, never hidden (the template's Notes explain it); nothing else may appear.
+        assert result.findings and all(f.kind == "out-of-range" and "output times)" in f.message
+                                       for f in result.findings)
+    else:
+        assert result.findings == []
+    assert result.checked
     assert result.template.startswith(template.stem + " ")
 
 
@@ -503,3 +511,4 @@ def test_quick_filter_lets_every_form_of_our_calls_through():
             for written in (name, name.lower()):
                 assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
     assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")
+

@@ -25,9 +25,10 @@ BISECTIONS = 40
 LATTICE = {
     "ra": np.logspace(-4, 12, 17),
     "pr": (0.01, 0.71, 1.1, 7.0, 100.0, 1e4),
-    "aspect": (0.5, 1.0, 1.5, 1.9, 2.0, 3.0, 5.0, 8.0, 9.5, 10.0, 11.0, 12.0, 13.0, 15.0, 20.0, 40.0,
+    "aspect": (0.5, 1.0, 1.25, 1.5, 1.79, 1.9, 2.0, 3.0, 5.0, 8.0, 9.5, 10.0, 11.0, 12.0, 13.0, 15.0, 20.0, 40.0,
                100.0, 150.0),
     "slenderness": (0.1, 1.0, 10.0, 60.0, 100.0, 1e3),
+    "re": np.logspace(-2, 9, 12),   # the wind's forced flows (engine/forced.py)
 }
 LATTICE_TILT = {"cavity": (0.0, 0.01, 3.0, 10.0, 30.0, 60.0, 67.0, 69.0, 70.0, 72.0, 75.0, 80.0, 90.0,
                            120.0, 170.0, 180.0),
@@ -39,6 +40,7 @@ FINE = {
     "pr": lambda geo: np.logspace(-2.3, 4.3, 1600),
     "aspect": lambda geo: np.logspace(np.log10(0.3), 3, 2000),
     "slenderness": lambda geo: np.logspace(-1.5, 3.5, 1500),
+    "re": lambda geo: np.logspace(-3, 9.5, 12 * 250),
     # The stable face of a tilted plate reads Ra cos(tilt): continuous at 90 deg, but with a
     # slope that no finite grid resolves there, so the sweep stops 0.1 deg short of it.
     "tilt": lambda geo: np.linspace(0.0, 180.0, 3601) if geo == "cavity" else np.linspace(0.0, 89.9, 1800),
@@ -116,7 +118,7 @@ def test_the_scalar_path_gives_the_array_path_result(geometry):
     n = 400
     draws = {"ra": 10 ** rng.uniform(-6, 12, n), "pr": 10 ** rng.uniform(-1.5, 3, n),
              "aspect": 10 ** rng.uniform(-0.5, 2.5, n), "slenderness": 10 ** rng.uniform(-1, 3, n),
-             "tilt": rng.uniform(*geo.tilt_range, n)}
+             "tilt": rng.uniform(*geo.tilt_range, n), "re": 10 ** rng.uniform(-2, 9, n)}
     inputs = {name: draws[name] for name in geo.inputs}
     for case in geo.cases or (None,):
         for method in ["auto"] + geo.case_methods(case):

@@ -184,3 +184,34 @@ def test_work_beyond_the_limit_is_refused_before_calculating(tmp_path, capsys, m
     code, out, _ = run(capsys, "calc", path, "--json")
     assert code == 0 and json.loads(out)["values"]["T!B200"] == pytest.approx(
         sum(range(1, 200)) + stillair.h_rad(20, 10, 0.9), rel=1e-12)
+
+
+def test_a_note_many_cells_share_names_them_as_ranges(tmp_path, capsys):
+    """A block of cells with one message (a table row by row) is printed as rectangles, not one
+    cell after another; the exact message is the cell function's own."""
+    path = tmp_path / "block.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Tables")
+    for row in range(33, 36):                      # D34:F36, nine cells with the same bad gap
+        for col in range(3, 6):
+            ws.write_formula(row, col, "=H_CAVITY(20, 10, -0.01, 1)")
+    ws.write_formula("H2", "=H_CAVITY(20, 10, -0.01, 1)")
+    wb.close()
+    code, out, _ = run(capsys, "calc", path)
+    assert code == 1
+    assert "  Tables!H2, Tables!D34:F36: H_CAVITY: gap must be > 0 m, got -0.01" in out.splitlines()
+    assert out.splitlines()[-1].startswith("10 formula cells are errors or cannot be evaluated "
+                                           "(Tables!H2, Tables!D34:F36; see the notes)")
+
+
+@pytest.mark.parametrize("cells, shown", [
+    (["S!D34", "S!E34", "S!F34", "S!D35", "S!E35", "S!F35"], "S!D34:F35"),
+    (["S!B3", "S!B4", "S!B5", "S!D2"], "S!D2, S!B3:B5"),
+    (["S!B3", "T!A1", "S!B4", "(workbook)", "S!C3"], "S!B3:C3, S!B4, T!A1, (workbook)"),
+    (["'My sheet'!AA10", "'My sheet'!AB10", "S!A1"], "'My sheet'!AA10:AB10, S!A1"),
+    (["S!A1", "S!A1"], "S!A1"),
+])
+def test_cells_compress_to_rectangles_in_reading_order(cells, shown):
+    from stillair.addin.workbook.report import compress_cells
+
+    assert compress_cells(cells) == shown

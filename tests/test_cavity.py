@@ -508,7 +508,7 @@ BOUNDS = {
     # ElSherbiny's (2e7) and Wright's (1e6) Ra ranges end below 1e8: never binds alone.
     ("elsherbiny", "Ra [tilt < critical tilt]"): None,
     ("wright", "Ra"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "ra", (2, 8)),
-    ("wright", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "aspect", (0, 3)),
+    ("wright", "aspect"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "aspect", (0, 4)),
     ("wright", "tilt - critical tilt [H/L >= 12]"): (dict(ra=1e5, pr=AIR_PR, aspect=50.0, tilt=90.0), "tilt", (0, 180)),
     ("wright", "Ra [tilt < critical tilt]"): None,
     ("hollands", "tilt"): (dict(ra=1e4, pr=AIR_PR, aspect=20.0, tilt=30.0), "tilt", (-1, 180)),
@@ -620,8 +620,10 @@ AUTO_CASES = [  # (ra, pr, aspect, tilt, chosen, note) per the written rule
     (5e7, 2.0, 30.0, 90.0, "macgregor-emery", ""),           # a liquid-like Pr, Ra above ElSherbiny's
     (1e4, AIR_PR, 150.0, 90.0, "wright", ""),                # a tall glazing cavity
     (1e5, AIR_PR, 3.0, 30.0, "catton", ""),                  # H/L < 12 below t*: Catton's interpolation
-    (1e5, AIR_PR, 0.5, 30.0, "hollands",                     # fallback below 75 deg
-     "hollands: aspect = 0.5 below 12 (valid aspect >= 12)"),
+    (1e5, AIR_PR, 0.5, 30.0, "catton",                       # below H/L 1: the nearest range is Catton's
+     "catton: aspect = 0.5 below 1 (valid 1 <= aspect <= 10)"),
+    (1e5, AIR_PR, 15.0, 30.0, "hollands",                    # H/L >= 12 below t*: Hollands
+     ""),
     (1e7, AIR_PR, 150.0, 90.0, "elsherbiny",                 # fallback from 75 deg
      "elsherbiny: aspect = 150 above 110 (valid 5 <= aspect <= 110)"),
 ]

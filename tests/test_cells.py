@@ -431,11 +431,12 @@ def test_network_input_errors_name_the_cell_function():
 
 
 def test_nu_note_names_both_correlations_inside_an_auto_blend():
-    # Ra 2e7 at aspect 9 lies in the band where auto hands ElSherbiny over to Catton (the
-    # geometry's stated transition band); the note names both, as the engine's blend does.
-    blend = stillair.nusselt("cavity", "auto", ra=2e7, pr=0.71, aspect=9.0, tilt=90.0).scalar().blend
+    # Ra 1e7 at aspect 9 lies in the band where auto hands ElSherbiny over to Catton (the
+    # geometry's stated transition band, 5e6..2e7 inside ElSherbiny's bound, both in range);
+    # the note names both, as the engine's blend does.
+    blend = stillair.nusselt("cavity", "auto", ra=1e7, pr=0.71, aspect=9.0, tilt=90.0).scalar().blend
     assert blend == "auto blend of elsherbiny and catton"
-    assert call("NU_NOTE", "cavity", 2e7, 0.71, None, 90.0, 9.0) == f"in range ({blend})"
+    assert call("NU_NOTE", "cavity", 1e7, 0.71, None, 90.0, 9.0) == f"in range ({blend})"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -473,12 +474,18 @@ def test_an_int_is_passed_as_the_float_the_general_coercion_gives():
     assert call("AIR_DENSITY", 20) == call("AIR_DENSITY", 20.0)
 
 
-@pytest.mark.parametrize("name, raw", [("NU_VPLATE", (1e14, 0.71)), ("H_CAVITY", (15.0, 5.0, 0.05, 0.06)),
-                                       ("NU_CAVITY", (1e3, 0.71, 1.2))])
+@pytest.mark.parametrize("name, raw", [
+    ("NU_VPLATE", (1e14, 0.71)),
+    ("H_CAVITY", (15.0, 5.0, 0.016, 1.2, 90.0, "air", None, "catton")),  # aspect 75 > 10
+    ("NU_CAVITY", (1e3, 0.71, 1.2, None, " elsherbiny")),                  # aspect 1.2 < 5
+])
 def test_out_of_range_notes_are_the_same_on_both_paths(name, raw):
     """A plain call (fast path) and the same call through formulas-style 1x1 arrays (general
     coercion) record the same note, and nothing escapes as a warning."""
+    from stillair.addin.cells.callpath import _plain_kwargs
+
     wrapped = tuple(np.asarray([[v]], dtype=object) for v in raw)
+    assert _plain_kwargs(BY_NAME[name].plain, raw) is not None
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         with NoteRecorder() as fast:

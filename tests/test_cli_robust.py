@@ -137,6 +137,37 @@ def test_templates_copy_keeps_existing_files_and_names_them(tmp_path):
     assert (target / names[0]).read_bytes() == b"filled in by the user"
 
 
+def test_templates_says_where_they_are_and_what_to_do_next(tmp_path):
+    done = stillair_cmd("templates")
+    assert done.returncode == 0 and done.stderr == ""
+    lines = done.stdout.splitlines()
+    # the folder as the user can open it: the strict editable install reaches it through a
+    # link tree, which the command resolves
+    shown = lines[0].removeprefix("Templates in ").removesuffix(":")
+    assert (Path(shown) / "sealed-cabinet.xlsx").resolve() == (TEMPLATES / "sealed-cabinet.xlsx").resolve()
+    assert sorted(line.split()[0] for line in lines[1:-1]) == sorted(p.name for p in TEMPLATES.glob("*.xlsx"))
+    assert lines[-1].startswith("Next: stillair templates --copy DIR copies them")
+    done = stillair_cmd("templates", "--copy", tmp_path / "mine")
+    assert done.returncode == 0
+    next_step = done.stdout.splitlines()[-1]
+    assert next_step.startswith("Next: open a copy") and \
+        next_step.endswith(f"stillair audit {tmp_path / 'mine' / 'sealed-cabinet.xlsx'}")
+
+
+@pytest.mark.parametrize("args, words", [
+    (("audit", AIR_LAYER, "--rtol", "abc"), ("stillair audit: --rtol must be a number >= 0, got 'abc'",)),
+    (("audit", AIR_LAYER, "--atol", "-1"), ("stillair audit: --atol must be >= 0, got -1",)),
+    (("calc",), ("stillair calc: the following arguments are required: BOOK",)),
+    (("calc", AIR_LAYER, "--frobnicate"), ("stillair: unrecognized arguments: --frobnicate",)),
+    (("tabulate",), ("stillair: COMMAND: invalid choice: 'tabulate'",)),
+])
+def test_a_bad_command_line_is_one_line_naming_the_option_and_value(args, words):
+    """Not the whole usage text: one line, exit 2, like every other bad input."""
+    done = stillair_cmd(*args)
+    assert_one_line(done, *words)
+    assert "usage:" not in done.stderr and done.stdout == ""
+
+
 def test_templates_copy_onto_a_file(tmp_path):
     plain = tmp_path / "plain"
     plain.write_text("x")
@@ -174,3 +205,28 @@ def test_calc_prints_every_column_of_a_results_table(capsys):
 def test_version():
     done = stillair_cmd("--version")
     assert done.returncode == 0 and done.stdout.strip() == f"stillair {stillair.__version__}"
+
+
+@pytest.mark.parametrize("command", [COMMAND, [sys.executable, "-m", "stillair"]], ids=["stillair", "python-m"])
+def test_ctrl_c_while_starting_is_one_line_not_a_traceback(command):
+    """Ctrl-C in the first moments, while numpy, scipy and the engine are still importing, ends
+    like a Ctrl-C later: "stillair: interrupted", exit status 2, no traceback."""
+    import signal
+    import time
+
+    outcomes = []
+    for delay in (0.15, 0.3, 0.5):
+        process = subprocess.Popen([*command, "functions"] if command is COMMAND else command,
+                                   stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+        time.sleep(delay)
+        process.send_signal(signal.SIGINT)
+        err = process.stderr.read()
+        process.stderr.close()
+        code = process.wait(timeout=120)
+        if "Traceback" in err and "/stillair/" not in err and "stillair:" not in err:
+            continue    # interrupted inside the interpreter's own start-up (site, .pth files), before
+                        # any code of ours ran: on a loaded machine 0.15 s can still be there
+        assert "Traceback" not in err, f"after {delay} s: {err}"
+        if code != -signal.SIGINT:      # not killed before Python had started at all
+            outcomes.append((code, err))
+    assert outcomes and all(outcome == (2, "stillair: interrupted\n") for outcome in outcomes), outcomes

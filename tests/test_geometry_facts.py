@@ -25,7 +25,7 @@ def test_cell_method_help_lists_exactly_the_geometrys_methods(entry, geometry):
 def test_method_help_names_the_cases_a_method_serves():
     assert GEOMETRIES["tplate"].method_help() == (
         "churchill-chu-cos (hot-down, cold-up), raithby-hollands (hot-up, cold-down)")
-    assert GEOMETRIES["hcyl"].method_help() == "churchill-chu, morgan"
+    assert GEOMETRIES["hcyl"].method_help() == "churchill-chu, morgan, kuehn-goldstein"
 
 
 def test_every_auto_step_names_a_registered_method_and_form():

@@ -487,3 +487,49 @@ def test_cells_and_rows_without_positions(tmp_path):
     book = read_book(str(path))
     assert book.sheet("P").values == {"A1": 20.0, "B1": 10.0, "C1": 0.9}
     assert evaluate_book(book).values["P"] == {"A2": call("H_RAD", 20.0, 10.0, 0.9)}
+
+
+def test_rows_and_columns_count_a_computed_array_as_excel_does(tmp_path):
+    """ROWS(NET_SOLVE(...)) is the solved table's row count (header, nodes, branches) in Excel and
+    LibreOffice; formulas counted references only and gave #VALUE!."""
+    path = tmp_path / "count.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("S")
+    for r, row in enumerate(BRANCHES):
+        for c, value in enumerate(row):
+            if value is not None:
+                ws.write(r, c, value)
+    for r, row in enumerate(BOUNDARIES):
+        for c, value in enumerate(row):
+            ws.write(20 + r, c, value)
+    ws.write(0, 11, "the used range reaches past the branch table's ten columns")
+    wb.define_name("br", f"=S!$A$1:$J${len(BRANCHES)}")
+    wb.define_name("bd", f"=S!$A$21:$C${20 + len(BOUNDARIES)}")
+    ws.write_formula("M1", "=ROWS(NET_SOLVE(br, bd))")
+    ws.write_formula("M2", "=COLUMNS(NET_SOLVE(br, bd))")
+    ws.write_formula("M3", "=ROWS(A1:B7)+COLUMNS(A1:C1)")
+    wb.close()
+    import stillair
+
+    result = stillair.solve_network(BRANCHES, BOUNDARIES)
+    values = evaluate_book(str(path)).values["S"]
+    assert values["M1"] == 1 + len(result.temperatures) + len(result.heat)
+    assert values["M2"] == 10 and values["M3"] == 10
+
+
+def test_cells_past_the_used_range_are_blank_in_every_range(tmp_path):
+    """A range reaching past the last written row and column reads blank cells there (they read
+    as the text "empty": COUNTA counted them, a network refused its own trailing blank rows)."""
+    path = tmp_path / "past.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("S")
+    ws.write_row("A1", ["wall", "in", "out", "conduction", 0.1, 0.5, 2.0])   # used range ends at G
+    ws.write_row("A5", ["in", "T", 20.0])
+    ws.write_row("A6", ["out", "T", 0.0])
+    ws.write_formula("A12", '=NET_HEAT(A1:J3, A5:C9, "wall")')                # rows and columns past it
+    ws.write_formula("B12", "=COUNTA(H1:J11)")
+    ws.write_formula("C12", '=SUMPRODUCT((A13:A30<>"")*1)')
+    wb.close()
+    values = evaluate_book(str(path)).values["S"]
+    assert values["A12"] == pytest.approx(0.5 * 2.0 * 20.0 / 0.1, rel=1e-12)  # k A dT / L, Fourier's law
+    assert values["B12"] == 0 and values["C12"] == 0

@@ -362,7 +362,7 @@ def test_a_plate_method_that_does_not_serve_the_final_case_is_an_error():
         solve_network(branches, [["air", "T", 20.0], ["base", "T", -20.0]])
     assert str(caught.value) == (
         "solve_network: branch row 1 (top), column method must be a method for case cold-up at the "
-        "solution (the surface is colder than the fluid); allowed: raithby-hollands, mcadams or blank, "
+        "solution (the surface is colder than the fluid); allowed: raithby-hollands, vdi, mcadams or blank, "
         "got 'lloyd-moran'")
 
 

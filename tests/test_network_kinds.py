@@ -40,23 +40,24 @@ def test_a_vertical_cylinder_branch_is_the_one_call_coefficient_at_the_solution(
 
 def test_kind_columns_follow_the_geometry_inputs():
     shapes = {name: [p.describe() for p in kind.params] for name, kind in BRANCH_KINDS.items()}
-    assert shapes["vcyl"] == ["height m (cylinder height)", "diameter m", "area m²"]
-    assert shapes["tplate"][2:] == ["tilt ° from vertical", "facing (up or down)"]
+    wind = "wind m/s (horizontal wind speed; mixed convection) (blank: 0, still air)"
+    assert shapes["vcyl"] == ["height m (cylinder height)", "diameter m", "area m²", wind]
+    assert shapes["tplate"][2:] == ["tilt ° from vertical", "facing (up or down)", wind]
     assert shapes["cavity"] == ["gap m (gap L between the two faces)", "height m", "area m²", "tilt ° from horizontal (blank: 90)",
                                 "gas (blank: the network's)"]
     # a geometry registered later gets its columns by the same rules, without network code
-    fin = Geometry(name="vplate", inputs=("ra", "pr", "tilt"), description="", cases=PLATE_CASES,
+    fin = Geometry(name="fin", inputs=("ra", "pr", "tilt"), description="", cases=PLATE_CASES,
                    tilt_range=(0.0, 45.0), length="height", length_doc="fin height, m")
     kind = _convection_kind(fin)
     assert [p.describe() for p in kind.params] == ["height m (fin height)", "area m²", "tilt ° from vertical",
                                                    "facing (up or down)"]
     assert kind.params[2].limits == (0.0, 45.0)
     with pytest.raises(NoBranchKind) as caught:
-        _convection_kind(Geometry(name="vplate", inputs=("ra", "pr", "roughness"), description=""))
+        _convection_kind(Geometry(name="fin", inputs=("ra", "pr", "roughness"), description=""))
     assert str(caught.value) == "no column rule for its input(s) roughness"
     # cases other than the plate cases are a column of their own, required where the geometry
     # gives no default case
-    wet = _convection_kind(Geometry(name="vplate", inputs=("ra", "pr"), description="", cases=("wet", "dry")))
+    wet = _convection_kind(Geometry(name="fin", inputs=("ra", "pr"), description="", cases=("wet", "dry")))
     assert [p.describe() for p in wet.params] == ["length m", "area m²", "case (one of wet, dry)"]
     assert not wet.params[2].optional
     with pytest.raises(NetworkError) as caught:
@@ -74,10 +75,14 @@ def test_the_kind_reference_is_one_row_per_kind_with_its_heat_flow():
     assert rows["conduction"] == {"kind": "conduction", "p1": "thickness m", "p2": "conductivity W/(m·K)",
                                   "p3": "area m²", "p4": "", "p5": "", "q": "k A (T1 - T2) / L",
                                   "from": "either way round (q > 0 from from to to)"}
-    assert rows["vcyl"]["from"] == "from: the solid surface; to: the still fluid"
+    assert rows["vcyl"]["from"] == "from: the solid surface; to: the fluid far from it (still, or moving at the wind speed)"
+    assert rows["cavity"]["from"] == "from: the surface on the layer's underside; to: the other face"
     from stillair.addin.cells.reference import network_markdown
-    assert ("| `vcyl` | q = h(T1, T2) A (T1 - T2), h = Nu k / height; from: the solid surface; to: the "
-            "still fluid | height m (cylinder height) | diameter m | area m² |  |  |") in network_markdown()
+    assert ("| `vcyl` | q = h(T1, T2) A (T1 - T2), h = Nu k / height; in a wind h = (h_N^3 + h_F^3)^(1/3), "
+            "h_F forced; from: the solid surface; to: the fluid far from it (still, or moving at the wind speed) "
+            "| height m (cylinder height) | diameter m "
+            "| area m² | wind m/s (horizontal wind speed; mixed convection) (blank: 0, still air) |  |") \
+        in network_markdown()
 
 
 def test_a_tilt_outside_the_geometry_range_names_the_range():

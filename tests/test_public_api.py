@@ -21,7 +21,8 @@ DOCUMENTED_MODULES = ("stillair.gases", "stillair.atmosphere", "stillair.groups"
                       "stillair.ventilation",
                       "stillair.humid",
                       "stillair.insulation",
-                      "stillair.network.inverse")
+                      "stillair.network.inverse",
+                      "stillair.network.transient")
 ENGINE_MODULES = ("validity", "correlations", "external", "cavity", "gases", "atmosphere",
                   "groups", "radiation", "convection", "network")
 PUBLIC_PREFIXES = ("nu_", "h_", "gas_", "air_")

@@ -58,3 +58,22 @@ def test_python_examples_run():
     for block in blocks:  # in order: later blocks use the names of earlier ones
         exec(compile(block, "README.md", "exec"), namespace)
     assert namespace["result"].branches["conv"].method == "churchill-chu"
+
+
+def _anchor(heading: str) -> str:
+    """GitHub's anchor for a heading: lower case, punctuation but hyphens and underscores dropped,
+    spaces as hyphens."""
+    text = re.sub(r"[^\w\- ]", "", heading.strip().lower())
+    return text.replace(" ", "-")
+
+
+def test_the_contents_list_reaches_every_section_in_one_jump():
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    contents = readme.split("**Contents**", 1)[1].split("\n\n", 1)[0]
+    linked = re.findall(r"\]\(#([^)]+)\)", contents)
+    headings = {_anchor(h) for h in re.findall(r"^#{2,3} (.+)$", readme, re.M)}
+    sections = [_anchor(h) for h in re.findall(r"^## (.+)$", readme, re.M)]
+    assert set(linked) <= headings, sorted(set(linked) - headings)      # no dead link
+    assert set(sections) <= set(linked), sorted(set(sections) - set(linked))  # every section
+    # the contents list comes right after the opening paragraph, before the set-up
+    assert readme.index("**Contents**") < readme.index("## Getting the code") < readme.index("## Set-up")

@@ -43,7 +43,7 @@ def test_spread_is_the_lowest_and_highest_covering_correlation(geometry, case, i
 
 
 def test_no_covering_correlation_gives_nan_and_count_zero():
-    spread = stillair.nu_spread("hplate", 1e3, 0.71, case="hot-up")   # every method starts >= 1e4
+    spread = stillair.nu_spread("hplate", 0.1, 0.71, case="hot-up")   # below every method (VDI from Ra f2 = 1)
     assert spread.count == 0 and spread.methods == ()
     assert math.isnan(spread.low) and math.isnan(spread.high)
 
@@ -97,10 +97,10 @@ def test_errors_name_the_argument():
 def test_cell_spills_one_row():
     spread = stillair.nu_spread("hcyl", 1e6, 0.71)
     assert call("NU_SPREAD", "hcyl", 1e6, 0.71) == [
-        [spread.low, spread.high, 2.0, "churchill-chu < morgan"]]
+        [spread.low, spread.high, 3.0, "kuehn-goldstein < churchill-chu < morgan"]]
     # vertical cylinder: the aspect cell is height/diameter
     assert call("NU_SPREAD", "vcyl", 1e6, 0.71, None, None, 10.0)[0][0] == pytest.approx(
         stillair.nu_spread("vcyl", 1e6, 0.71, slenderness=10.0).low)
-    assert call("NU_SPREAD", "hplate", 1e3, 0.71, "hot-up") == [["", "", 0.0, ""]]
+    assert call("NU_SPREAD", "hplate", 0.1, 0.71, "hot-up") == [["", "", 0.0, ""]]
     assert call("NU_SPREAD", "cavity", 1e5, 0.71) == (
         'NU_SPREAD: aspect must be a number for geometry "cavity", got an empty cell')

@@ -262,3 +262,55 @@ def test_indoor_face_spread_equals_the_engine_band(sets):
     assert named(evaluation, "indoor_face_high") == pytest.approx(high, rel=1e-9)
     assert named(evaluation, "condensation_check_low").startswith(
         "no condensation" if low > named(evaluation, "t_dew") else "CONDENSATION")
+
+
+def _profile(evaluation):
+    """The printed profile table (point, position, temperature) and the chart's points."""
+    from openpyxl.utils.cell import range_boundaries
+
+    ref = next(name.text for name in evaluation.book.names if name.name == "glz_profile")
+    sheet, cells = ref.split("!")
+    first_col, first_row, _, last_row = range_boundaries(cells.replace("$", ""))
+    values = {**evaluation.book.sheet(sheet).values, **evaluation.values[sheet]}   # constants, formulas
+
+    def column(col):
+        letter = chr(ord("A") + col - 1)
+        return [values.get(f"{letter}{row}") for row in range(first_row, last_row + 1)]
+    table = list(zip(column(first_col), column(first_col + 1), column(first_col + 2)))
+    chart = list(zip(column(7), column(8)))    # G and H: the chart's points beside the table
+    return table, chart
+
+
+@pytest.mark.parametrize("panes", [2, 3])
+def test_the_profile_table_names_every_point_once_and_the_chart_draws_them(panes):
+    """The table printed a double unit's indoor air three times; it shows each point once, the two
+    triple-only rows empty, and the chart's points are the table's (a double unit repeating its
+    last point, so the line has no gap)."""
+    table, chart = _profile(evaluate_template(NAME, panes=panes))
+    labels = [label for label, _, _ in table]
+    assert labels.count("indoor air") == 1 and labels.count("indoor face") == 1
+    assert labels.count("(triple only)") == (2 if panes == 2 else 0)
+    shown = [(x, t) for label, x, t in table if label != "(triple only)"]
+    assert all(x == "" and t == "" for label, x, t in table if label == "(triple only)")
+    assert [point for point in chart if point not in shown] == []
+    assert chart[:len(shown) - 1] == shown[:-1] and chart[-1] == shown[-1]
+    positions = [x for x, _ in shown]
+    assert positions == sorted(positions)              # outdoor to indoor
+
+
+def test_the_profile_chart_prints_on_the_page_of_its_table():
+    """The chart had a page of its own, two thirds blank: it now starts its page with the profile
+    table it draws (the page break is at the table's section bar, none before the chart)."""
+    import openpyxl
+
+    from stillair.addin.templates.glazing_unit import TEMPLATE
+    from stillair.addin.templates.pages import PAGE_CAPACITY, ROW_HEIGHT
+
+    ws = openpyxl.load_workbook(TEMPLATE.path)["Calculation"]
+    chart = next(c for c in ws._charts if "Temperature through the unit" in str(c.title.tx.rich.p[0].r[0].t))
+    top, bottom = chart.anchor._from.row, chart.anchor.to.row          # 0-based
+    section = next(r for r in range(top, 0, -1) if str(ws.cell(r, 1).value or "").startswith("Temperature profile"))
+    breaks = {brk.id for brk in ws.row_breaks.brk}
+    assert section - 1 in breaks and not any(section - 1 < b <= top for b in breaks)
+    height = sum(ws.row_dimensions[r].height or ROW_HEIGHT for r in range(section, bottom + 2))
+    assert PAGE_CAPACITY / 2 < height <= PAGE_CAPACITY       # the page is mostly used, and holds both

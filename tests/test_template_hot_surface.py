@@ -35,17 +35,20 @@ def _table(evaluation):
 def _engine_case(evaluation, **options):
     v = {n: named(evaluation, n) for n in ("geometry", "hot_t", "pipe_od", "pipe_length", "face_height",
                                           "face_width", "eps_bare", "ambient_t", "surroundings_t", "ins_k",
-                                          "eps_jacket", "ins_step")}
+                                          "eps_jacket", "ins_step", "wind_speed")}
     kind = KIND[v["geometry"]]
     facing = "down" if v["geometry"] == "horizontal bottom" else "up"
     h, w, d, length = v["face_height"], v["face_width"], v["pipe_od"], v["pipe_length"]
     plate_length = h * w / (2 * (h + w))
+    wind = v["wind_speed"]
+    along = {} if wind == 0 else {"wind_length": w}    # a face: the wind along its width
     if kind == "hcyl":
-        bare_area, h_conv = math.pi * d * length, stillair.h_hcyl(v["hot_t"], v["ambient_t"], d)
+        bare_area, h_conv = math.pi * d * length, stillair.h_hcyl(v["hot_t"], v["ambient_t"], d, wind=wind)
     elif kind == "vplate":
-        bare_area, h_conv = h * w, stillair.h_vplate(v["hot_t"], v["ambient_t"], h)
+        bare_area, h_conv = h * w, stillair.h_vplate(v["hot_t"], v["ambient_t"], h, wind=wind, **along)
     else:
-        bare_area, h_conv = h * w, stillair.h_hplate(v["hot_t"], v["ambient_t"], plate_length, facing)
+        bare_area, h_conv = h * w, stillair.h_hplate(v["hot_t"], v["ambient_t"], plate_length, facing, wind=wind,
+                                                     **along)
     h_rad = stillair.h_rad(v["hot_t"], v["surroundings_t"], v["eps_bare"])
     q_bare = bare_area * (h_conv * (v["hot_t"] - v["ambient_t"]) + h_rad * (v["hot_t"] - v["surroundings_t"]))
     rows = []
@@ -58,7 +61,7 @@ def _engine_case(evaluation, **options):
         else:
             size = h if kind == "vplate" else plate_length
             area, resistance = bare_area, t / (v["ins_k"] * bare_area)
-        rows.append((resistance, kind, size, area, facing if kind == "hplate" else None, v["eps_jacket"]))
+        rows.append((resistance, kind, size, area, hot_surface.outer_columns(kind, facing, wind, w), v["eps_jacket"]))
     result = stillair.solve_network(hot_surface.insulated_branch_rows(rows),
                                   hot_surface.boundary_rows(v["hot_t"], v["ambient_t"], v["surroundings_t"]),
                                   **options)
@@ -133,6 +136,7 @@ def test_handbook_example_hot_horizontal_pipe_in_still_air():
 
 # input -> (new value, result, direction, why)
 DIRECTIONS = {
+    "wind_speed": (3.0, "res_surf_t_first_step", -1, "a wind cools the jacket (mixed convection)"),
     "hot_t": (200.0, "res_surf_t_first_step", +1, "a hotter pipe warms the jacket"),
     "pipe_od": (0.2, "res_q_bare", +1, "a larger pipe has more area"),
     "pipe_length": (20.0, "res_q_bare", +1, "a longer pipe has more area"),
@@ -211,17 +215,20 @@ COLD = {"hot_t": 6.0, "ambient_t": 25.0, "surroundings_t": 25.0, "ambient_rh": 0
 def _exact_case(evaluation, surface_t):
     """(thickness, outer surface solved by the network at it) for the template's geometry."""
     v = {n: named(evaluation, n) for n in ("hot_t", "ambient_t", "surroundings_t", "ins_k", "eps_jacket",
-                                           "pipe_od", "kind", "bare_length", "facing")}
+                                           "pipe_od", "kind", "bare_length", "facing", "wind_speed", "face_width")}
     facing = v["facing"] if v["kind"] == "hplate" else None
+    along = None if v["kind"] == "hcyl" else v["face_width"]
     thickness = stillair.insulation_thickness(v["hot_t"], v["ambient_t"], surface_t, v["ins_k"], v["eps_jacket"],
-                                              v["kind"], v["bare_length"], facing, v["surroundings_t"])
+                                              v["kind"], v["bare_length"], facing, v["surroundings_t"],
+                                              wind=v["wind_speed"], wind_length=along)
     if v["kind"] == "hcyl":
         outer = v["pipe_od"] + 2 * thickness
         area, resistance, length = math.pi * outer, math.log(outer / v["pipe_od"]) / (2 * math.pi * v["ins_k"]), outer
     else:
         area, resistance, length = 1.0, thickness / v["ins_k"], v["bare_length"]
     branches = [["ins", "hot", "surf", "resistance", resistance],
-                ["conv", "surf", "ambient", v["kind"], length, area, facing],
+                ["conv", "surf", "ambient", v["kind"], length, area,
+                 *hot_surface.outer_columns(v["kind"], facing, v["wind_speed"], along)],
                 ["rad", "surf", "room", "radiation", v["eps_jacket"], None, area]]
     bounds = [["hot", "T", v["hot_t"]], ["ambient", "T", v["ambient_t"]], ["room", "T", v["surroundings_t"]]]
     return thickness, stillair.solve_network(branches, bounds).temperatures["surf"]
@@ -272,3 +279,44 @@ def test_touch_limit_thickness_is_exact_and_within_the_table_step():
         named(evaluation, "res_first_ok_mm")
     # a bare surface within the limit needs none
     assert named(evaluate_template(NAME, touch_limit=200), "res_x_touch_mm") == 0.0
+
+
+@pytest.mark.parametrize("geometry", hot_surface.GEOMETRIES)
+def test_in_a_wind_the_results_equal_the_engine(geometry):
+    """The bare coefficient, the thickness table and the exact thickness with a wind (mixed
+    convection: a pipe in cross-flow, a face with the wind along its width) equal the engine."""
+    evaluation = evaluate_template(NAME, geometry=geometry, wind_speed=2.5)
+    h_conv, _, q_bare, result = _engine_case(evaluation)
+    assert named(evaluation, "res_h_conv_bare") == pytest.approx(h_conv, rel=1e-9)
+    assert named(evaluation, "res_q_bare") == pytest.approx(q_bare, rel=1e-9)
+    for k, (surface, heat) in _table(evaluation).items():
+        assert surface == pytest.approx(result.temperatures[f"surf_{k}"], rel=1e-9)
+        assert heat == pytest.approx(result.heat[f"ins_{k}"], rel=1e-9)
+    thickness, surface = _exact_case(evaluation, named(evaluation, "touch_limit"))
+    assert named(evaluation, "res_x_touch_mm") == pytest.approx(1000 * thickness, rel=1e-9)
+    assert surface == pytest.approx(named(evaluation, "touch_limit"), abs=1e-6)
+    still = evaluate_template(NAME, geometry=geometry)
+    assert named(evaluation, "res_h_conv_bare") > named(still, "res_h_conv_bare")
+    assert named(evaluate_template(NAME, geometry=geometry, wind_speed=0.0), "res_q_bare") == named(still, "res_q_bare")
+
+
+def _unit_beside(evaluation, name):
+    """The unit cell beside a named result (the column after its value)."""
+    from openpyxl.utils.cell import column_index_from_string, get_column_letter
+
+    sheet, ref = next(n.text for n in evaluation.book.names if n.name == name).replace("$", "").split("!")
+    column = "".join(ch for ch in ref if ch.isalpha())
+    unit_ref = get_column_letter(column_index_from_string(column) + 1) + ref[len(column):]
+    return {**evaluation.book.sheet(sheet).values, **evaluation.values[sheet]}[unit_ref]
+
+
+@pytest.mark.parametrize("geometry", hot_surface.GEOMETRIES)
+def test_the_per_unit_loss_shows_the_unit_of_its_geometry(geometry):
+    """Per metre of pipe for the cylinder, per square metre for a face: never "W/m or W/m²"."""
+    evaluation = evaluate_template(NAME, geometry=geometry)
+    pipe = geometry == "horizontal cylinder"
+    assert _unit_beside(evaluation, "res_q_bare_unit") == ("W/m" if pipe else "W/m²")
+    assert _unit_beside(evaluation, "unit_size") == ("m" if pipe else "m²")
+    assert _unit_beside(evaluation, "res_q_dry_unit") == ("W/m" if pipe else "W/m²")
+    size = named(evaluation, "pipe_length") if pipe else named(evaluation, "face_height") * named(evaluation, "face_width")
+    assert named(evaluation, "res_q_bare_unit") == pytest.approx(named(evaluation, "res_q_bare") / size, rel=1e-12)

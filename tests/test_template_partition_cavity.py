@@ -65,7 +65,7 @@ def _h_rad(t1, t2, factor):
 def test_single_pass_equals_the_published_correlations_evaluated_by_hand():
     evaluation = evaluate_template(NAME)
     v = _v(evaluation)
-    tp = v["g_prop_t"]  # properties from the engine at the one guessed temperature, as the brief says
+    tp = v["g_prop_t"]  # every property at the one guessed temperature, as the Notes sheet's single-pass paragraph says
     k, nu, alpha = stillair.air_conductivity(tp), stillair.air_kinvisc(tp), stillair.air_diffusivity(tp)
     beta, pr = stillair.air_expansion(tp), stillair.air_prandtl(tp)
     group = GRAVITY * beta / (nu * alpha)

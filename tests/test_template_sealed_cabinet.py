@@ -16,28 +16,30 @@ def _inputs(evaluation):
     names = ("cab_height", "cab_width", "cab_depth", "wall_thickness", "wall_k", "emissivity", "dissipation",
              "absorptance", "sun_top", "sun_sides", "ambient_t", "sky_t", "altitude", "vplate_method",
              "max_internal_t", "night_ambient_t", "night_sky_t", "night_dissipation", "seal_t", "seal_rh",
-             "dew_margin")
+             "dew_margin", "wind_speed", "night_wind_speed")
     return {n: named(evaluation, n) for n in names}
 
 
-def engine_tables(v):
+def engine_tables(v, wind="wind_speed"):
     """The cabinet's branch and (day) boundary rows and its air pressure, from the input values
-    (the vented cabinet's test builds on them)."""
+    (the vented cabinet's test builds on them); the outer faces in the wind named by ``wind``."""
     side_area = 2 * (v["cab_width"] + v["cab_depth"]) * v["cab_height"]
     top_area = v["cab_width"] * v["cab_depth"]
     branches = cabinet.branch_rows(
         height=v["cab_height"], side_area=side_area, top_area=top_area,
         top_length=top_area / (2 * (v["cab_width"] + v["cab_depth"])), wall_thickness=v["wall_thickness"],
-        wall_k=v["wall_k"], emissivity=v["emissivity"], method=v["vplate_method"])
+        wall_k=v["wall_k"], emissivity=v["emissivity"], method=v["vplate_method"],
+        wind=v.get(wind, 0.0), wind_length=max(v["cab_width"], v["cab_depth"]))
     day = cabinet.boundary_rows(
         dissipation=v["dissipation"], sun_side=v["absorptance"] * v["sun_sides"] * side_area,
         sun_top=v["absorptance"] * v["sun_top"] * top_area, ambient=v["ambient_t"], sky=v["sky_t"])
     return branches, day, stillair.altitude_pressure(v["altitude"])
 
 
-def _engine_tables(v):
-    """The cabinet's branch table and its day and night boundary tables, from the inputs."""
-    branches, day, _ = engine_tables(v)
+def _engine_tables(v, night=False):
+    """The cabinet's branch table (in the day's wind, or with ``night`` the night's) and its day
+    and night boundary tables, from the inputs."""
+    branches, day, _ = engine_tables(v, "night_wind_speed" if night else "wind_speed")
     night = cabinet.night_boundary_rows(dissipation=v["night_dissipation"], ambient=v["night_ambient_t"],
                                         sky=v["night_sky_t"])
     return branches, day, night
@@ -49,8 +51,9 @@ def _engine_case(v, **options):
     return stillair.solve_network(branches, bounds, "air", pressure=pressure, **options)
 
 
-@pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300}],
-                         ids=["default", "mcadams-altitude"])
+@pytest.mark.parametrize("sets", [{}, {"vplate_method": "mcadams", "altitude": 1500, "dissipation": 300},
+                                  {"wind_speed": 4.0, "cab_depth": 1.1}],
+                         ids=["default", "mcadams-altitude", "windy"])
 def test_results_equal_a_direct_engine_network(sets):
     evaluation = evaluate_template(NAME, **sets)
     result = _engine_case(_inputs(evaluation))
@@ -134,6 +137,7 @@ DAY_DIRECTIONS = {  # the inputs the vented cabinet shares (tests/test_template_
     "sky_t": (25.0, "res_t_air", +1, "a warmer sky takes less radiation from the top"),
     "altitude": (2500.0, "res_t_air", +1, "thinner air convects less"),
     "max_internal_t": (60.0, "res_margin", +1, "the limit only moves the margin"),
+    "wind_speed": (3.0, "res_t_air", -1, "a wind cools the outer faces (mixed convection)"),
 }
 NIGHT_DIRECTIONS = {
     "night_ambient_t": (12.0, "res_t_coldest_night", +1, "a warmer night"),
@@ -142,6 +146,7 @@ NIGHT_DIRECTIONS = {
     "seal_t": (25.0, "res_t_dew", +1, "warmer air sealed at the same RH holds more water"),
     "seal_rh": (0.6, "res_t_dew", +1, "more moisture sealed in"),
     "dew_margin": (5.0, "res_heater_q", +1, "a larger margin needs warmer walls"),
+    "night_wind_speed": (3.0, "res_t_coldest_night", +1, "a wind ties the sky-cooled top to the warmer air"),
 }
 DIRECTIONS = {**DAY_DIRECTIONS, **NIGHT_DIRECTIONS}
 
@@ -215,12 +220,13 @@ def test_the_allowance_rises_with_the_limit_and_falls_with_the_sun():
     assert named(evaluate_template(NAME, dissipation=300), "res_allowed_q") == pytest.approx(base, rel=1e-9)
 
 
-@pytest.mark.parametrize("sets", [{}, {"seal_rh": 0.2, "night_sky_t": -20}, {"night_dissipation": 0, "seal_t": 30}],
-                         ids=["default", "dry-seal-cold-sky", "no-night-load-warm-seal"])
+@pytest.mark.parametrize("sets", [{}, {"seal_rh": 0.2, "night_sky_t": -20}, {"night_dissipation": 0, "seal_t": 30},
+                                  {"night_wind_speed": 2.5, "wind_speed": 6.0}],
+                         ids=["default", "dry-seal-cold-sky", "no-night-load-warm-seal", "night-wind"])
 def test_night_case_equals_the_engine(sets):
     evaluation = evaluate_template(NAME, **sets)
     v = _inputs(evaluation)
-    branches, _, night = _engine_tables(v)
+    branches, _, night = _engine_tables(v, night=True)
     pressure = stillair.altitude_pressure(v["altitude"])
     solved = stillair.solve_network(branches, night, "air", pressure)
     coldest = min(solved.temperatures["top_in"], solved.temperatures["side_in"])
@@ -240,7 +246,7 @@ def test_night_case_equals_the_engine(sets):
 def test_the_heater_power_holds_every_inner_wall_at_the_target():
     evaluation = evaluate_template(NAME)
     v = _inputs(evaluation)
-    branches, _, night = _engine_tables(v)
+    branches, _, night = _engine_tables(v, night=True)
     heated = [row if row[0] != "air_in" else ["air_in", "Q", v["night_dissipation"] + named(evaluation, "res_heater_q")]
               for row in night]
     solved = stillair.solve_network(branches, heated, "air", stillair.altitude_pressure(v["altitude"]))
@@ -266,3 +272,38 @@ def test_condensation_verdicts(sets, verdict):
         assert named(evaluation, "res_heater_q") == 0.0      # the night load alone keeps the walls dry
     else:
         assert named(evaluation, "res_heater_q") > 0.0
+
+
+def test_still_air_by_default_and_the_wind_is_the_engine_s():
+    """Wind 0 is the still-air network exactly; a wind gives the one-call coefficients of the faces
+    in it (mixed convection), the longer side the length along the wind; at night a wind warms the
+    sky-cooled walls but takes more heater power to hold them at the target."""
+    evaluation = evaluate_template(NAME, wind_speed=3.0)
+    v = _inputs(evaluation)
+    pressure = stillair.altitude_pressure(v["altitude"])
+    along = max(v["cab_width"], v["cab_depth"])
+    h_sides = stillair.h_vplate(named(evaluation, "t_side_out"), v["ambient_t"], v["cab_height"], "air", pressure,
+                                wind=3.0, wind_length=along)
+    assert named(evaluation, "h_out_sides") == pytest.approx(h_sides, rel=1e-9)
+    h_top = stillair.h_hplate(named(evaluation, "t_top_out"), v["ambient_t"], named(evaluation, "top_length"), "up",
+                              "air", pressure, wind=3.0, wind_length=along)
+    assert named(evaluation, "h_out_top") == pytest.approx(h_top, rel=1e-9)
+    assert named(evaluation, "res_method_sides") == "churchill-chu + pohlhausen (wind)"
+    still = evaluate_template(NAME)
+    assert named(still, "res_method_sides") == "churchill-chu"
+    assert named(evaluate_template(NAME, wind_speed=0.0), "t_air") == named(still, "t_air")
+    windy_night = evaluate_template(NAME, night_wind_speed=3.0)
+    assert named(windy_night, "res_heater_q") > named(still, "res_heater_q")
+
+
+def test_every_input_row_is_one_line_high():
+    """A wrapped label or note (row 27, the sun on the sides, did) makes the sand input box twice
+    as tall, which reads as an empty second input cell under the value."""
+    import openpyxl
+
+    ws = openpyxl.load_workbook(cabinet.TEMPLATE.path)["Inputs"]
+    inputs = [row[0].row for row in ws.iter_rows(min_col=2, max_col=2)
+              if row[0].fill.fgColor.rgb == "FFFBEFD5" and row[0].value is not None]
+    assert len(inputs) == len(input_names(cabinet.TEMPLATE))
+    tall = [(r, ws.cell(r, 1).value) for r in inputs if (ws.row_dimensions[r].height or 13.5) > 13.5]
+    assert not tall

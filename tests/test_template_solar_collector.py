@@ -17,13 +17,17 @@ from test_network_references import klein_top_loss
 NAME = "solar-collector"
 
 
-def direct_network(v, sky=None):
-    """The template's network rebuilt from the inputs as stillair.solve_network rows."""
+def direct_network(v, sky=None, published=False):
+    """The template's network rebuilt from the inputs as stillair.solve_network rows: the outer
+    face a tilted plate facing up in the wind, or (``published``, Klein's case) a film of the
+    published h_w = 2.8 + 3.0 V."""
     h_w = 2.8 + 3.0 * v["wind_speed"]
     top = "cover-2" if v["covers"] == 2 else "cover-1"
+    outer = (["wind", top, "ambient", "film", h_w, 1.0] if published else
+             ["wind", top, "ambient", "tplate", v["collector_length"], 1.0, 90.0 - v["tilt"], "up", v["wind_speed"]])
     rows = [["gap-1", "absorber", "cover-1", "cavity", v["gap_1"], v["collector_length"], 1.0, v["tilt"], None],
             ["rad-1", "absorber", "cover-1", "radiation", v["eps_absorber"], v["eps_cover"], 1.0],
-            ["wind", top, "ambient", "film", h_w, 1.0],
+            outer,
             ["sky", top, "sky", "radiation", v["eps_cover"], None, 1.0]]
     if v["covers"] == 2:
         rows += [["gap-2", "cover-1", "cover-2", "cavity", v["gap_2"], v["collector_length"], 1.0, v["tilt"], None],
@@ -50,7 +54,7 @@ def test_results_equal_a_direct_engine_calculation(sets):
         assert named(evaluation, "cover_2_t") == f'{result.temperatures["cover-2"]:.1f} °C'
     else:
         assert named(evaluation, "cover_2_t") == "no second cover"
-    klein_case, _ = direct_network(v, sky=v["t_ambient"])
+    klein_case, _ = direct_network(v, sky=v["t_ambient"], published=True)
     u_klein_case = (klein_case.heat["gap-1"] + klein_case.heat["rad-1"]) / (v["t_absorber"] - v["t_ambient"])
     assert named(evaluation, "top_loss_u_klein_case") == pytest.approx(u_klein_case, rel=1e-9)
     # Klein's equation as written in the sheet equals the independent transcription
@@ -62,6 +66,14 @@ def test_results_equal_a_direct_engine_calculation(sets):
     assert q == pytest.approx(result.heat["wind"] + result.heat["sky"], rel=1e-9)
     assert named(evaluation, "network_check").startswith("OK")
     assert evaluation.notes == []
+    # the outer face: the one-call coefficient with the wind at the solved cover temperature
+    t_top = result.temperatures["cover-2" if v["covers"] == 2 else "cover-1"]
+    h_out = stillair.h_tplate(t_top, v["t_ambient"], v["collector_length"], 90.0 - v["tilt"], "up",
+                              pressure=v["pressure"], wind=v["wind_speed"])
+    assert named(evaluation, "outside_h") == pytest.approx(h_out, rel=1e-9)
+    assert named(evaluation, "outside_h") == pytest.approx(result.branches["wind"].h, rel=1e-9)
+    assert named(evaluation, "outside_h_published") == pytest.approx(h_w, rel=1e-12)
+    assert named(evaluation, "outside_check") == pytest.approx(0.0, abs=1e-6)
 
 
 KLEIN_CASES = [dict(gap_1=0.025, gap_2=0.025, **c) for c in (
@@ -81,11 +93,13 @@ def test_network_within_kleins_stated_accuracy(sets):
 
 def test_duffie_beckman_worked_example():
     """D&B Example 6.4.2 (from memory): one cover, 25 mm, plate 100 °C, eps_p 0.95, glass 0.88,
-    ambient 10 °C, slope 45°, h_w 10 W/(m²·K) (V = 2.4 m/s here): U_t about 6.6 W/(m²·K)."""
+    ambient 10 °C, slope 45°, h_w 10 W/(m²·K) (V = 2.4 m/s here): U_t about 6.6 W/(m²·K).  The
+    example states h_w, so the network compared is the one with the published coefficient (the
+    sky at the air temperature, as here)."""
     evaluation = evaluate_template(NAME, t_absorber=100, t_ambient=10, t_sky=10, covers=1, eps_absorber=0.95,
                                    eps_cover=0.88, tilt=45, wind_speed=2.4, gap_1=0.025)
     assert named(evaluation, "klein_u") == pytest.approx(6.6, abs=0.05)
-    assert named(evaluation, "top_loss_u") == pytest.approx(6.6, abs=0.1)
+    assert named(evaluation, "top_loss_u_klein_case") == pytest.approx(6.6, abs=0.1)
 
 
 DIRECTIONS = [
@@ -94,7 +108,10 @@ DIRECTIONS = [
     ("t_ambient", 25.0, "top_loss_q", -1, "smaller difference to the air"),
     ("t_sky", -15.0, "top_loss_q", +1, "colder sky, more radiation from the cover"),
     ("t_sky", -15.0, "klein_u", 0, "Klein's equation takes the sky at the air temperature"),
-    ("wind_speed", 6.0, "top_loss_u", +1, "larger wind film h_w"),
+    ("wind_speed", 6.0, "top_loss_u", +1, "more forced convection on the outer face"),
+    ("wind_speed", 6.0, "outside_h", +1, "more forced convection on the outer face"),
+    ("wind_speed", 6.0, "outside_h_published", +1, "the published h_w grows with V"),
+    ("wind_speed", 6.0, "klein_u", +1, "Klein's h_w grows with V"),
     ("tilt", 60.0, "top_loss_u", -1, "a steeper gap convects less (tilted-layer correlations)"),
     ("tilt", 60.0, "klein_u", -1, "C = 520 (1 - 0.000051 beta²) falls with the slope"),
     ("covers", 2, "top_loss_u", -1, "a second gas layer"),
@@ -145,3 +162,12 @@ def test_gap_spread_equals_the_engine_spread(sets):
         return
     assert named(evaluation, "gap_h_low") == pytest.approx(h * spread.low / nu, rel=1e-9)
     assert named(evaluation, "gap_h_high") == pytest.approx(h * spread.high / nu, rel=1e-9)
+
+
+def test_still_air_outer_face_is_the_natural_coefficient():
+    """Wind 0: the combined coefficient is the still-air one exactly (the wind adds nothing)."""
+    evaluation = evaluate_template(NAME, wind_speed=0.0)
+    assert named(evaluation, "outside_h") == named(evaluation, "outside_h_still")
+    result, _ = direct_network(dict(DEFAULTS, wind_speed=0.0))
+    assert named(evaluation, "top_loss_u") == pytest.approx(
+        (result.heat["gap-1"] + result.heat["rad-1"]) / (DEFAULTS["t_absorber"] - DEFAULTS["t_ambient"]), rel=1e-9)

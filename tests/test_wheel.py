@@ -152,9 +152,9 @@ def test_version(installed):
 
 def test_templates_copy_calc_and_audit(installed):
     user, command = installed["user"], installed["stillair"]
-    listed = _check(_in_user_folder(installed, command, "templates")).stdout
-    assert [line.split()[0] for line in listed.splitlines()] != [] and \
-        sorted(line.split()[0] for line in listed.splitlines()) == TEMPLATE_NAMES
+    listed = _check(_in_user_folder(installed, command, "templates")).stdout.splitlines()
+    assert listed[0].startswith("Templates in ") and listed[-1].startswith("Next: ")
+    assert sorted(line.split()[0] for line in listed[1:-1]) == TEMPLATE_NAMES
     _check(_in_user_folder(installed, command, "templates", "--copy", "work"))
     copied = user / "work"
     assert sorted(p.name for p in copied.iterdir()) == TEMPLATE_NAMES

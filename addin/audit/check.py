@@ -125,6 +125,7 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     def position(f: Finding):
         if f.sheet is None:
             return (-1, 0, 0)
+        assert f.ref is not None  # a finding on a sheet names its cell
         row, col = split_ref(f.ref)
         return (order.get(f.sheet, len(order)), row, col)
 
@@ -288,9 +289,9 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
 
 def _add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
-    parser.add_argument("--rtol", type=float, default=DEFAULT_RTOL,
+    parser.add_argument("--rtol", type=_tolerance, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
-    parser.add_argument("--atol", type=float, default=DEFAULT_ATOL,
+    parser.add_argument("--atol", type=_tolerance, default=DEFAULT_ATOL,
                         help="absolute tolerance (default %(default)g); a difference must also "
                         "exceed atol + 1e-12 x the largest number the formula reads")
     parser.add_argument("--json", action="store_true", help="print one JSON object")
@@ -300,6 +301,17 @@ def _add_arguments(parser: argparse.ArgumentParser) -> None:
                         "is used instead)")
     parser.add_argument("--templates", metavar="DIR", default=None,
                         help="directory of the pristine templates (default: the installed ones)")
+
+
+def _tolerance(text: str) -> float:
+    """A tolerance as typed on the command line: a number >= 0."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"must be a number >= 0, got {text!r}") from None
+    if not value >= 0:
+        raise argparse.ArgumentTypeError(f"must be >= 0, got {text}")
+    return value
 
 
 def run_audit(args) -> int:
@@ -347,9 +359,16 @@ def _unreadable(args, reason: str) -> int:
 
 def main(argv: list[str] | None = None) -> int:
     """``stillair audit`` on its own: ``python -m stillair.addin.audit BOOK ...``."""
-    parser = argparse.ArgumentParser(prog="stillair audit", description=add_audit_parser.__doc__)
+    from stillair._console import OneLineParser, UsageError, say_line
+
+    parser = OneLineParser(prog="stillair audit", description=add_audit_parser.__doc__)
     _add_arguments(parser)
-    return run_audit(parser.parse_args(argv))
+    try:
+        args = parser.parse_args(argv)
+    except UsageError as error:
+        say_line(str(error))
+        return EXIT_UNREADABLE
+    return run_audit(args)
 
 
 if __name__ == "__main__":

@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
+from typing import Any
 
 from ..workbook.cachewriter import ERROR_VALUES
 from ..workbook.status import label
@@ -66,7 +67,9 @@ class AuditResult:
     timing: dict[str, float] = field(default_factory=dict)
     sha256: str = ""
     report: str | None = None
-    hand: object = None            # the hand check of the formulas typed by hand (hand.HandCheck)
+    # the hand check of the formulas typed by hand, a hand.HandCheck: hand.py imports this module
+    # and addin's modules import without a cycle (tests/test_addin_layout.py), so readers name it
+    hand: Any = None
 
     def counts(self) -> dict[str, int]:
         counts = {"ok": len(self.ok)}

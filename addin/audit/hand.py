@@ -185,8 +185,8 @@ class _Formula:
             raw = self.function(*args)
         except Exception:
             return None
-        value = np.asarray(raw, dtype=object).ravel()
-        value = value[0] if value.size else None
+        flat = np.asarray(raw, dtype=object).ravel()
+        value = flat[0] if flat.size else None
         if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, float, np.number)):
             return None
         value = float(value)
@@ -349,9 +349,11 @@ class _Checker:
         self.formulas: dict = {}
         self.recognised: dict = {}
         self.findings: list[HandFinding] = []
-        self.unrecognised, self.too_large, self.unsearched = [], [], []
-        self.not_numeric = []
-        self.iteration = None
+        self.unrecognised: list[str] = []
+        self.too_large: list[str] = []
+        self.unsearched: list[str] = []
+        self.not_numeric: list[str] = []
+        self.iteration: dict | None = None
 
     # -- values ---------------------------------------------------------------------------
 
@@ -385,7 +387,7 @@ class _Checker:
     def iterate(self) -> None:
         """With iterative calculation on: the cells in or after a cycle, re-iterated from the
         stored values to the workbook's delta; whether the stored values were converged."""
-        cycles = getattr(self.model, "cycles", set())
+        cycles: set[tuple] = getattr(self.model, "cycles", set())
         if not cycles:
             return
         affected = self.model.downstream(cycles)
@@ -467,7 +469,8 @@ class _Checker:
         shapes: dict = {}   # a formula's relative form (a row copied down) -> its first outcome
         for key in keys:
             formula = self.formula(key)
-            shape = self.model.nodes[key].prepared.key if not formula.problem else None
+            prepared = self.model.nodes[key].prepared
+            shape = prepared.key if not formula.problem and prepared is not None else None
             first = shapes.get(shape)
             if first is not None and first[0] is None:
                 # A copy of a formula that was not recognised is not recognised either: the
@@ -525,7 +528,7 @@ class _Checker:
         cell was, when that form and assignment hold at this cell's own probes (a mistyped
         constant: the same constant solved again); False: identify it in full."""
         positions = {k: i for i, k in enumerate(inputs)}
-        order = []
+        places: list[int] = []
         for role in first.form.roles:
             original = first.roles[role]
             # a relative reference moved with the copy, or an absolute one where it was
@@ -533,8 +536,8 @@ class _Checker:
                           if k in positions), None)
             if place is None:
                 return False
-            order.append(place)
-        order = tuple(order)
+            places.append(place)
+        order = tuple(places)
         match = _Match(first.form, order, first.ratio)
         with np.errstate(all="ignore"), warnings.catch_warnings():
             warnings.simplefilter("ignore")
@@ -791,7 +794,7 @@ class _Checker:
                        f"{right:.6g}"
                 if abs(_rel(rec.value, engine) or 0.0) <= ROUNDING:
                     rec.statements.append(f"{text}: a rounded constant, moving the cell by "
-                                          f"{_rel(rec.value, engine) * 100:+.3f} %")
+                                          f"{(_rel(rec.value, engine) or 0.0) * 100:+.3f} %")
                 else:
                     self._add(rec, "constant", f"{text}: one constant mistyped", engine)
             elif rec.ratio != 1.0:
@@ -922,7 +925,7 @@ class _Checker:
                 form = form.base
             with_engine = self._form_value(form, changed) * rec.ratio
             as_typed = self._form_value(form, rec.values) * rec.ratio
-            moves = _rel(as_typed, with_engine)   # the property's own effect, nothing else's
+            moves = _rel(as_typed, with_engine) or 0.0   # the property's own effect, nothing else's
             right_at = _temperature_where(gas, attribute, typed, t_film)
             at = f"right at {right_at:.1f} degC" if right_at is not None else \
                 "not the gas's value at any temperature from -50 to 400 degC"
@@ -932,7 +935,7 @@ class _Checker:
             message = (f"typed {_PROPERTY_WORDS[attribute]} {typed:.5g} {where} is {at}; the "
                        f"sheet's film temperature{read} is "
                        f"{t_film:.1f} degC (mean of {t1:.4g} and {t2:.4g}), where {gas} has "
-                       f"{engine_property:.5g} ({_rel(typed, engine_property) * 100:+.2f} %)")
+                       f"{engine_property:.5g} ({(_rel(typed, engine_property) or 0.0) * 100:+.2f} %)")
             if abs(moves) > PROPERTY_THRESHOLD:
                 self._add(rec, "property", message + f"; this moves the cell by "
                           f"{moves * 100:+.2f} % (threshold {PROPERTY_THRESHOLD * 100:g} %)",

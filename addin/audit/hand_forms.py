@@ -44,6 +44,7 @@ _CLASS_RANGES = {
     "solid_conductivity": (1e-3, 500.0),
     "expansion": (1e-5, 1.0),         # 1/T in degC included (a mistake we report)
     "rayleigh": (1e-6, 1e20),
+    "reynolds": (1e-3, 1e9),            # the wind's forced correlations (stillair.forced)
     "prandtl": (0.5, 20.0),
     "nusselt": (0.05, 1e5),
     "coefficient": (0.01, 5000.0),      # h, W/(m2 K)
@@ -64,7 +65,7 @@ ROLE_CLASS = {
     "length": "length", "area": "area", "thickness": "length",
     "kinvisc": "kinvisc", "diffusivity": "diffusivity", "conductivity": "conductivity",
     "solid_conductivity": "solid_conductivity", "expansion": "expansion",
-    "ra": "rayleigh", "pr": "prandtl", "nusselt": "nusselt", "h": "coefficient",
+    "ra": "rayleigh", "re": "reynolds", "pr": "prandtl", "nusselt": "nusselt", "h": "coefficient",
     "eps": "emissivity", "eps1": "emissivity", "eps2": "emissivity",
     "aspect": "aspect", "slenderness": "slenderness", "tilt": "tilt",
     "r1": "resistance", "r2": "resistance", "r3": "resistance", "h2": "coefficient",

@@ -4,8 +4,12 @@ from __future__ import annotations
 
 import math
 import os
+from typing import TYPE_CHECKING
 
 from .findings import KINDS, AuditError, AuditResult, show
+
+if TYPE_CHECKING:
+    from .hand import HandCheck
 
 __all__ = ["summary_line", "format_table", "to_json", "free_report_path", "write_report"]
 
@@ -24,11 +28,11 @@ def summary_line(result: AuditResult) -> str:
         extra.append(f"{len(result.unchecked)} not checkable")
     tail = f" ({', '.join(extra)})" if extra else ""
     cells = len(result.checked)
-    hand = result.hand
+    hand: HandCheck | None = result.hand
     # a book with nothing recognised by hand reads as before (its counts are in the JSON)
-    hand = f"; {hand.summary()}" if hand is not None and (
+    hand_words = f"; {hand.summary()}" if hand is not None and (
         hand.recognised or hand.findings or hand.iteration) else ""
-    return (f"{cells} cell{'s' if cells != 1 else ''} checked: {', '.join(parts)}{tail}{hand}"
+    return (f"{cells} cell{'s' if cells != 1 else ''} checked: {', '.join(parts)}{tail}{hand_words}"
             f" - {'no findings' if not result.findings else f'{len(result.findings)} findings'}")
 
 
@@ -155,6 +159,7 @@ def write_report(result: AuditResult, requested: str) -> str:
         for row, f in enumerate(result.findings, start=1):
             sheet.write_string(row, 0, f.kind)
             if f.sheet is not None:
+                assert f.ref is not None  # a finding on a sheet names its cell
                 location = "'" + f.sheet.replace("'", "''") + "'!" + f.ref
                 url = f"external:{book_link}#{location}"
                 if len(url) <= 2079:
@@ -184,7 +189,7 @@ def write_report(result: AuditResult, requested: str) -> str:
         if result.hand is not None and result.hand.recognised:
             _hand_sheet(wb, bold, result.hand)
         about = wb.add_worksheet("Summary")
-        rows = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
+        rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
                 ("engine version", result.engine_version), ("template", result.template or ""),
                 ("summary", summary_line(result))]
         rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]

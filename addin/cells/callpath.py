@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .coerce import CellInputError, describe, to_cell_table, to_cell_value, to_number, to_table, to_text
+from .coerce import CellInputError, describe, is_blank, to_cell_table, to_cell_value, to_number, to_table, to_text
 from .registry import BY_NAME, CellFunction
 
 __all__ = ["evaluate", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
@@ -19,7 +19,7 @@ __all__ = ["evaluate", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
 MAX_MESSAGE = 255  # a message must stay readable in a cell and in Excel's function wizard
 
 # Columns of the network tables that hold names (branch name, from, to; boundary node).
-_NAME_COLUMNS = {"branches": (0, 1, 2), "boundaries": (0,)}
+_NAME_COLUMNS = {"branches": (0, 1, 2), "boundaries": (0,), "capacities": (0,), "series": (0,)}
 # Text arguments that are names and may be typed as numbers.
 _NAME_ARGS = {"node", "branch", "at"}
 
@@ -79,7 +79,7 @@ def engine_callable(entry: CellFunction):
 def _coerce(entry: CellFunction, raw: tuple, arrays: bool = False) -> dict:
     """Keyword arguments for the engine; with ``arrays``, float arrays (already coerced
     element by element) pass through."""
-    kwargs = {}
+    kwargs: dict[str, object] = {}
     for arg, value in zip(entry.args, raw):
         default = arg.default if arg.optional else None
         if arrays and isinstance(value, np.ndarray) and value.dtype == float:
@@ -90,10 +90,16 @@ def _coerce(entry: CellFunction, raw: tuple, arrays: bool = False) -> dict:
             kwargs[arg.keyword] = to_text(arg.name, value, arg.optional, default,
                                           allow_numbers=arg.name in _NAME_ARGS)
         elif arg.kind == "table":
-            kwargs[arg.keyword] = to_table(arg.name, value, _NAME_COLUMNS.get(arg.name, ()))
+            kwargs[arg.keyword] = default if arg.optional and _blank_range(value) else \
+                to_table(arg.name, value, _NAME_COLUMNS.get(arg.name, ()))
         else:  # pragma: no cover - the registry tests forbid other kinds
             raise RuntimeError(f"unknown argument kind {arg.kind!r}")
     return kwargs
+
+
+def _blank_range(value) -> bool:
+    """A blank cell, or a range of blank cells (an optional table left empty)."""
+    return all(is_blank(v) for v in np.asarray(value, dtype=object).ravel())
 
 
 def _noting_result_notes(function, sink: list):

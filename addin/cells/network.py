@@ -1,14 +1,16 @@
-"""Shaping a solved thermal network (stillair.solve_network's result) for cells."""
+"""Shaping a solved thermal network for cells: stillair.solve_network's result, and
+stillair.solve_transient's (the network through time)."""
 
 from __future__ import annotations
 
 import math
 
-from .coerce import CellInputError
+from .coerce import CellInputError, _name_text
 
 __all__ = ["RESULT_HEADER", "result_table", "pick_temperature", "pick_heat", "pick_band", "check_text",
            "net_table", "net_temp", "net_heat", "net_check", "net_band",
-           "pick_airflow", "net_airflow", "net_heat_for"]
+           "pick_airflow", "net_airflow", "net_heat_for",
+           "start_temperatures", "transient_table", "pick_extreme", "net_transient", "net_peak"]
 
 RESULT_HEADER = ["item", "kind", "value", "unit", "h W/(m²·K)", "R K/W", "Ra", "Nu", "method", "note"]
 
@@ -134,3 +136,53 @@ def net_heat_for(heat_for_temperature, kwargs):
     """NET_HEAT_FOR: the heat input (W) that brings the node (or the node ``at``) to the temperature;
     its solution's range notes are reported as every network cell's."""
     return float(heat_for_temperature(**kwargs).heat)
+
+
+# ---------------------------------------------------------------------------------------------
+# The network through time (stillair.solve_transient's result)
+
+
+def start_temperatures(cells):
+    """The initial argument as a cell gives it: blank, one number, "periodic", or rows node | °C."""
+    if cells is None:
+        return None
+    if len(cells) == 1 and len(cells[0]) == 1:
+        return cells[0][0]
+    start = {}
+    for row in cells:
+        if len(row) != 2 or row[0] is None:
+            raise CellInputError("initial", cells, 'one number, "periodic" or rows of node | °C')
+        start[_name_text(row[0])] = row[1]
+    return start
+
+
+def transient_table(result) -> list[list]:
+    """Header (time s, then every node in the network's order), one row per output time (°C)."""
+    nodes = list(result.temperatures)
+    columns = [result.times] + [result.temperatures[node] for node in nodes]
+    return [["time s"] + nodes] + [[float(value) for value in row] for row in zip(*columns)]
+
+
+def pick_extreme(result, node: str, which: str) -> list[list[float]]:
+    """One row: the node's largest ("max") or smallest ("min") temperature at the output times,
+    °C, and its time, s."""
+    if node not in result.temperatures:
+        raise CellInputError("node", node, "one of " + ", ".join(map(repr, result.temperatures)))
+    choice = which.strip().lower()
+    if choice not in ("max", "min"):
+        raise CellInputError("which", which, '"max" (blank) or "min"')
+    value, time = (result.peak if choice == "max" else result.minimum)[node]
+    return [[float(value), float(time)]]
+
+
+def net_transient(solve, kwargs):
+    """NET_TRANSIENT: the temperature table over the output times (``solve`` is solve_transient)."""
+    kwargs["initial"] = start_temperatures(kwargs["initial"])
+    return transient_table(solve(**kwargs))
+
+
+def net_peak(solve, kwargs):
+    """NET_PEAK: one node's peak or minimum and its time."""
+    node, which = kwargs.pop("node"), kwargs.pop("which")
+    kwargs["initial"] = start_temperatures(kwargs["initial"])
+    return pick_extreme(solve(**kwargs), node, which)

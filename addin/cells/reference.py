@@ -98,6 +98,22 @@ def _conventions() -> list[str]:
     ]
 
 
+def _through_time() -> list[str]:
+    """The extra tables of the network through time (NET_TRANSIENT, NET_PEAK)."""
+    from stillair.network import CAPACITY_COLUMNS, SERIES_COLUMNS
+    return [
+        "Through time (NET_TRANSIENT, NET_PEAK): the capacities range, one row per node that stores "
+        "heat: " + " | ".join(f"`{c}`" for c in CAPACITY_COLUMNS) + " (C in J/K); a solved node without a "
+        "row is quasi-steady (balanced at every instant), a fixed node has none.",
+        "The series range: " + " | ".join(f"`{c}`" for c in SERIES_COLUMNS) + " (time in s; value in °C "
+        "for a T row, W for a Q row). A boundary row whose value is a series name follows the series: "
+        "linear between its points, held at its first and last values outside them.",
+        "The output times (s): a column, a row or a block read row by row, increasing; the solution "
+        "starts at the first time, from the steady network there unless a start is given "
+        '(one °C for every node with a capacity, rows node | °C, or "periodic").',
+    ]
+
+
 def network_markdown() -> str:
     """The network tables' reference as markdown (README and `stillair functions --markdown`)."""
     from stillair.network import BOUNDARY_COLUMNS, BRANCH_COLUMNS
@@ -116,8 +132,10 @@ def network_markdown() -> str:
               "| `T` | °C | fixes the node's temperature |",
               "| `Q` | W | adds a heat input at a node whose temperature is solved (several Q rows "
               "at a node add up; a Q row on a fixed node is an error) |", "",
-              "Every node that is not fixed is solved from its energy balance.", "",
-              "Conventions:", ""]
+              "Every node that is not fixed is solved from its energy balance.", ""]
+    for line in _through_time():
+        lines += [_cell(line), ""]
+    lines += ["Conventions:", ""]
     lines += [f"- {line}" for line in _conventions()]
     lines.append("")
     return "\n".join(lines)
@@ -142,8 +160,9 @@ def network_text() -> str:
               "    - T: value in °C fixes the node's temperature",
               "    - Q: value in W adds a heat input at a node whose temperature is solved "
               "(several Q rows at a node add up)",
-              "Every node that is not fixed is solved from its energy balance.",
-              "Conventions:"]
+              "Every node that is not fixed is solved from its energy balance."]
+    lines += [_plain(line) for line in _through_time()]
+    lines += ["Conventions:"]
     lines += [f"    - {_plain(line)}" for line in _conventions()]
     return "\n".join(lines) + "\n"
 

@@ -21,7 +21,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
-from .network import net_airflow, net_band, net_check, net_heat, net_heat_for, net_table, net_temp
+from .network import (net_airflow, net_band, net_check, net_heat, net_heat_for, net_peak, net_table, net_temp,
+                      net_transient)
 
 __all__ = ["Arg", "CellFunction", "REGISTRY", "BY_NAME", "CATEGORIES", "arg_doc", "lookup"]
 
@@ -246,16 +247,30 @@ _entries += [
 # Nusselt numbers and the validity information that goes with them
 
 
+def _buoyancy_geometries() -> dict:
+    """The geometries whose correlations read Ra (every one but the wind's forced flows, which
+    read Re and enter through the H_ functions' wind argument): those NU_NOTE and NU_SPREAD take."""
+    from stillair.correlations import GEOMETRIES
+    return {name: geometry for name, geometry in GEOMETRIES.items() if "ra" in geometry.inputs}
+
+
+def _any_geometry(function_name: str, value) -> str:
+    """The geometry cell of NU_NOTE / NU_SPREAD, checked against the geometries that read Ra."""
+    from stillair import InputError
+    names = _buoyancy_geometries()
+    geometry = str(value).strip().lower()
+    if geometry not in names:
+        raise InputError(function_name, "geometry", value, "one of " + ", ".join(f'"{name}"' for name in names))
+    return geometry
+
+
 def _nu_note(nusselt, kwargs):
     """Render stillair.nusselt's validity information as one line of text."""
     from stillair import GEOMETRIES  # the geometry's inputs decide which arguments matter
 
     from stillair import InputError
 
-    geometry = str(kwargs.pop("geometry")).strip().lower()
-    if geometry not in GEOMETRIES:
-        raise InputError("nu_note", "geometry", kwargs.get("geometry", geometry),
-                         "one of " + ", ".join(f'"{name}"' for name in GEOMETRIES))
+    geometry = _any_geometry("nu_note", kwargs.pop("geometry"))
     method = kwargs.pop("method")
     case = kwargs.pop("case")
     _aspect_as_slenderness(geometry, kwargs)
@@ -277,9 +292,8 @@ def _nu_note(nusselt, kwargs):
 # The case and tilt of a function that takes any geometry (NU_NOTE, NU_SPREAD).
 def _case_choices() -> str:
     """The cases of every geometry that has some, as "a, b for g1 and g2; c, d for g3"."""
-    from stillair.correlations import GEOMETRIES
     by_cases: dict[tuple, list[str]] = {}
-    for geometry in GEOMETRIES.values():
+    for geometry in _buoyancy_geometries().values():
         if geometry.cases:
             by_cases.setdefault(geometry.cases, []).append(geometry.name)
     return "; ".join(f"{', '.join(cases)} for {' and '.join(names)}" for cases, names in by_cases.items())
@@ -301,8 +315,7 @@ def _aspect_as_slenderness(geometry, kwargs) -> None:
 
 
 def _geometry_choices() -> str:
-    from stillair.correlations import GEOMETRIES
-    names = list(GEOMETRIES)
+    names = list(_buoyancy_geometries())
     return ", ".join(names[:-1]) + " or " + names[-1]
 
 
@@ -361,33 +374,50 @@ _LENGTH_DOC = {
     "diameter": "Outside diameter in m (> 0).",
 }
 DIAMETER = Arg("diameter", _LENGTH_DOC["diameter"], "m")
+# The wind on an exposed surface (stillair.forced): optional, after every earlier argument.
+WIND = Arg("wind", "Wind speed in m/s (>= 0), taken horizontal; blank or 0 for still air (the "
+           "still-air value exactly). With a wind h = (h_N³ + h_F³)^(1/3), the forced part from the "
+           "flat-plate, cross-flow cylinder or sphere correlation.", "m/s", default=0.0)
+
+
+def _wind_length(blank: str) -> Arg:
+    return Arg("wind_length", f"Plate length in m along the wind (> 0); {blank}.", "m", default=None)
+
+
 _entries += [
     CellFunction("H_VPLATE", "h_vplate",
-                 (TS, TF, Arg("height", _LENGTH_DOC["height"], "m"), GAS, P, M_VPLATE),
-                 "Convection coefficient in W/(m²·K) of a vertical plate in still gas, properties "
-                 "at the film temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+                 (TS, TF, Arg("height", _LENGTH_DOC["height"], "m"), GAS, P, M_VPLATE,
+                  WIND, _wind_length("blank: the plate height (a horizontal wind across a vertical face "
+                                     "usually runs along its width: give that)")),
+                 "Convection coefficient in W/(m²·K) of a vertical plate in still gas or in a wind, "
+                 "properties at the film temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_HPLATE", "h_hplate",
-                 (TS, TF, Arg("length", _LENGTH_DOC["length"], "m"), FACING, GAS, P, M_HPLATE),
-                 "Convection coefficient in W/(m²·K) of a horizontal plate; hot/cold follows from "
-                 "ts and tf.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+                 (TS, TF, Arg("length", _LENGTH_DOC["length"], "m"), FACING, GAS, P, M_HPLATE,
+                  WIND, _wind_length("required with a wind (area/perimeter is no length along the wind)")),
+                 "Convection coefficient in W/(m²·K) of a horizontal plate, still air or in a wind; "
+                 "hot/cold follows from ts and tf.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_TPLATE", "h_tplate",
                  (TS, TF, Arg("length", "Plate length in m along the slope (> 0).", "m"),
-                  PLATE_TILT, FACING, GAS, P, M_TPLATE),
-                 "Convection coefficient in W/(m²·K) of a tilted plate; tilt in degrees from the "
-                 "vertical (0 vertical, 90 horizontal).",
+                  PLATE_TILT, FACING, GAS, P, M_TPLATE, WIND,
+                  _wind_length("blank: the length along the slope")),
+                 "Convection coefficient in W/(m²·K) of a tilted plate, still air or in a wind; tilt "
+                 "in degrees from the vertical (0 vertical, 90 horizontal).",
                  CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_HCYL", "h_hcyl",
-                 (TS, TF, DIAMETER, GAS, P, M_HCYL),
-                 "Convection coefficient in W/(m²·K) of a horizontal cylinder or pipe.",
+                 (TS, TF, DIAMETER, GAS, P, M_HCYL, WIND),
+                 "Convection coefficient in W/(m²·K) of a horizontal cylinder or pipe, still air or a "
+                 "wind across its axis.",
                  CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_SPHERE", "h_sphere",
-                 (TS, TF, DIAMETER, GAS, P, M_SPHERE),
-                 "Convection coefficient in W/(m²·K) of a sphere.",
+                 (TS, TF, DIAMETER, GAS, P, M_SPHERE, WIND),
+                 "Convection coefficient in W/(m²·K) of a sphere, still air or in a wind.",
                  CATEGORIES["coefficients"], unit="W/(m²·K)"),
     CellFunction("H_VCYL", "h_vcyl",
-                 (TS, TF, Arg("height", "Cylinder height in m (> 0).", "m"), DIAMETER, GAS, P, M_VCYL),
-                 "Convection coefficient in W/(m²·K) of the side of a vertical cylinder, properties "
-                 "at the film temperature.", CATEGORIES["coefficients"], unit="W/(m²·K)"),
+                 (TS, TF, Arg("height", "Cylinder height in m (> 0).", "m"), DIAMETER, GAS, P, M_VCYL,
+                  WIND),
+                 "Convection coefficient in W/(m²·K) of the side of a vertical cylinder, still air or "
+                 "a wind across it, properties at the film temperature.", CATEGORIES["coefficients"],
+                 unit="W/(m²·K)"),
     CellFunction("H_CAVITY", "h_cavity",
                  (Arg("t1", "Temperature of one cavity face in degrees Celsius.", "°C"),
                   Arg("t2", "Temperature of the other cavity face in degrees Celsius.", "°C"),
@@ -498,6 +528,7 @@ _entries += [
 def _nu_spread_row(nu_spread, kwargs):
     """One row: low, high, count, the covering methods (lowest Nu first).  For a vertical
     cylinder the aspect cell is its slenderness height/diameter."""
+    kwargs["geometry"] = _any_geometry("nu_spread", kwargs["geometry"])
     _aspect_as_slenderness(kwargs["geometry"], kwargs)
     spread = nu_spread(**kwargs)
     return [[spread.low, spread.high, spread.count, spread.text]]
@@ -615,10 +646,39 @@ _entries += [
                   Arg("facing", '"up" or "down" for hplate; blank otherwise.', kind="text", default=None),
                   Arg("t_surroundings", "Temperature of the surroundings the surface radiates to, in °C; blank "
                       "for t_air.", "°C", default=None),
-                  GAS, P),
+                  GAS, P, WIND,
+                  _wind_length("faces only; blank: the face height (vplate), required for hplate with a wind")),
                  "Insulation thickness in m at which the outer surface of an insulated pipe or face is at "
                  "t_surface (ISO 12241 surface-temperature and condensation criteria).",
                  CATEGORIES["insulation"], unit="m"),
+]
+
+# ---------------------------------------------------------------------------------------------
+# The network through time: one integration per distinct set of inputs (cached by the engine), so
+# a sheet of INDEX(NET_TRANSIENT(...)) and NET_PEAK cells integrates once.
+
+CAPACITIES = Arg("capacities", "Capacities table: node | C in J/K, one row per node that stores heat; a node "
+                 "without a row is quasi-steady (balanced at every instant).", kind="table")
+TIMES = Arg("times", "Output times in s: a column, a row or a block read row by row, increasing; the "
+            "solution starts at the first.", "s", kind="table")
+SERIES = Arg("series", "Series table: series | time s | value, for boundary rows whose value names a series "
+             "(linear between points, held outside them); blank for none.", kind="table", default=None)
+INITIAL = Arg("initial", 'Start in °C of every node with a capacity, a table node | °C, or "periodic" (the '
+              "times are one repeating cycle); blank: the steady network at the first time.",
+              kind="table", default=None)
+_TRANSIENT = (BRANCHES, BOUNDARIES, CAPACITIES, TIMES)
+_entries += [
+    CellFunction("NET_TRANSIENT", "solve_transient", _TRANSIENT + (SERIES, INITIAL, NET_GAS, P),
+                 "Solves the thermal network through time (capacities, boundaries from series); returns a "
+                 "table (spills): a header, then per output time the time in s and every node's °C.",
+                 CATEGORIES["network"], result="table", invoke=net_transient),
+    CellFunction("NET_PEAK", "solve_transient",
+                 _TRANSIENT + (Arg("node", "Name of the node whose extreme is wanted.", kind="text"),
+                               Arg("which", '"max" (blank) for the peak, "min" for the minimum.', kind="text",
+                                   default="max"), SERIES, INITIAL, NET_GAS, P),
+                 "Peak (or minimum) temperature of one node over the output times of the network through "
+                 "time: one row, °C and the time in s when it occurs.",
+                 CATEGORIES["network"], result="table", unit="°C", invoke=net_peak),
 ]
 
 REGISTRY: tuple[CellFunction, ...] = tuple(_entries)

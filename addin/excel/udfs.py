@@ -40,10 +40,11 @@ def make_function(entry: CellFunction, module: str = __name__):
     cell_function.__name__ = cell_function.__qualname__ = entry.name
     cell_function.__doc__ = entry.description
     cell_function.__module__ = module
-    cell_function.__signature__ = inspect.Signature([
+    # inspect.signature (and so xlwings) reads __signature__, which functions do not declare
+    setattr(cell_function, "__signature__", inspect.Signature([
         inspect.Parameter(a.name, inspect.Parameter.POSITIONAL_OR_KEYWORD,
                           default=None if a.optional else inspect.Parameter.empty)
-        for a in entry.args])
+        for a in entry.args]))
     return cell_function
 
 

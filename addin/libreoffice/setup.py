@@ -72,9 +72,9 @@ def libreoffice_python(program_dir: Path) -> Path | None:
         candidate = program_dir / name
         if candidate.is_file():
             return candidate
-    for candidate in ("/usr/bin/python3", "/usr/local/bin/python3"):
-        if os.path.isfile(candidate):
-            return Path(candidate)
+    for system_python in ("/usr/bin/python3", "/usr/local/bin/python3"):
+        if os.path.isfile(system_python):
+            return Path(system_python)
     return None
 
 

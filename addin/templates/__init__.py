@@ -18,8 +18,7 @@ __all__ = ["MODULES", "all_templates", "template_by_name", "copy_templates"]
 
 # The order templates are listed in; one module per template.
 MODULES = ("sealed_cabinet", "glazing_unit", "air_layer", "solar_collector", "hot_surface", "partition_cavity",
-           "finned_heatsink",
-           "vented_cabinet")
+           "finned_heatsink", "vented_cabinet", "own_network", "cabinet_day")
 
 
 def all_templates() -> tuple[Template, ...]:

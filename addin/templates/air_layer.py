@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import stillair
 
-from .book import TemplateBook
+from .book import TemplateBook, source_of
 from .spec import FACE_PAIR_EMISSIVITY, SAND_EDGE, SIG3, SIGMA_TEXT, SLATE, Template, Valid, gas_pressure
 
 DIRECTIONS = ("up", "horizontal", "down")
@@ -23,7 +23,8 @@ DEFAULTS = dict(thickness=0.035, direction="horizontal", eps_warm=0.9, eps_cold=
 
 
 def iso_h_a_formula(d: str) -> str:
-    """The standard's convective coefficient by direction, d the thickness reference (from memory)."""
+    """The standard's convective coefficient by direction, d the thickness reference (as recalled:
+    unverified, listed on the Notes sheet)."""
     return (f'IF(direction="up",MAX(1.95,0.025/{d}),IF(direction="horizontal",MAX(1.25,0.025/{d}),'
             f"MAX(0.12*{d}^-0.44,0.025/{d})))")
 
@@ -79,7 +80,9 @@ def build(b: TemplateBook) -> None:
            "=IF(spread_count>0,1/(h_conv*nu_low/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
     b.step("r_spread_low", "Resistance with the highest Nu 1/(h_conv Nu_high/Nu + h_rad)",
            "=IF(spread_count>0,1/(h_conv*nu_high/nu+h_radiation),\"no correlation covers the case\")", "m²·K/W")
-    b.section("Calculation", "Simplified value of the building standard (ISO 6946 annex, from memory)")
+    b.section("Calculation", "Simplified value of the building standard (ISO 6946 annex; unverified, see Notes)")
+    b.unverified("ISO 6946 annex on unventilated air layers: h_a = max(1.25, 0.025/d) W/(m²·K) horizontal "
+                 "heat flow, max(1.95, 0.025/d) upward, max(0.12 d^-0.44, 0.025/d) downward (d in m, dT <= 5 K)")
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018",
            number_format="0.0000E+00")
     b.step("iso_h_a", "h_a: up max(1.95, 0.025/d); horizontal max(1.25, 0.025/d); down max(0.12 d^-0.44, 0.025/d)",
@@ -96,7 +99,7 @@ def build(b: TemplateBook) -> None:
              "spread of the published correlations (see Notes)")
     b.result("r_layer_high", "R, correlation spread: highest", "=r_spread_high", "m²·K/W")
     b.result("r_standard", "R, the standard's simplified formulas", "=r_simplified", "m²·K/W",
-             "ISO 6946 annex formulas (from memory)")
+             b.unverified("ISO 6946 annex formulas for h_a (see the Calculation sheet)"))
     b.result("r_standard_rounded", "R, simplified, rounded as the standard's table", "=ROUND(r_simplified,2)",
              "m²·K/W", number_format="0.00")
     b.result("r_difference", "Difference, correlation - simplified", "=r_layer-r_standard", "m²·K/W",
@@ -142,7 +145,7 @@ def build(b: TemplateBook) -> None:
                 "exact T⁴ law; R = 1/(h_conv + h_rad), air properties at the mean temperature.")
     b.paragraph("Simplified value: the annex of ISO 6946 (Building components and building elements - Thermal "
                 "resistance and thermal transmittance - Calculation methods) on unventilated air layers, as "
-                "recalled (from memory, not checked against the text): h_a = max(1.25, 0.025/d) for horizontal "
+                "recalled (unverified: not checked against the text): h_a = max(1.25, 0.025/d) for horizontal "
                 "heat flow, max(1.95, 0.025/d) upward, max(0.12 d^-0.44, 0.025/d) downward (d in m, dT <= 5 K); "
                 "h_r = E h_r0 with E = 1/(1/e1 + 1/e2 - 1) and h_r0 = 4 sigma Tm³; R = 1/(h_a + h_r). The "
                 "standard's table of R for high-emissivity faces (e = 0.9, 10 °C mean) follows from these.")
@@ -154,7 +157,7 @@ def build(b: TemplateBook) -> None:
         used.append((direction, method))
     for direction, method in used:
         c = cav[("cavity", method)]
-        b.paragraph(f"- heat flow {direction}: cavity {method}: {c.title}. Source: {c.source}")
+        b.paragraph(f"- heat flow {direction}: cavity {method}: {c.title}. Source: {source_of('cavity', method)}")
     b.paragraph("The auto choice depends on Ra and the aspect ratio; the Results sheet names the one used and "
                 "whether the case lies inside its validity range.")
     b.paragraph("Assumptions: unventilated, airtight layer; faces isothermal, parallel and large compared with "

@@ -38,9 +38,9 @@ from stillair.network.advection import AdvectionKind
 
 from ..cells.registry import BY_NAME
 
-from .pages import CHART_PX, GRIDS, PAGE, ROW_HEIGHT, starts_new_page, text_lines
+from .pages import CHART_PX, GRIDS, PAGE, PAGE_CAPACITY, ROW_HEIGHT, row_height, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
-                   MARKER_NAME, RULE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
+                   MARKER_NAME, RULE, SAND_EDGE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
                    TemplateBuildError, Valid, significant_format)
 
 __all__ = ["TemplateBook", "limit_check", "source_of"]
@@ -81,6 +81,7 @@ class TemplateBook:
         self.workbook.set_custom_property(MARKER_NAME, template.marker)
         self.workbook.define_name(MARKER_NAME, f'="{template.marker}"')
         self.names: dict[str, str] = {}
+        self.unverified_constants: list[str] = []
         self._format_cache: dict[tuple, Any] = {}
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
@@ -190,6 +191,11 @@ class TemplateBook:
         self.names[name] = address
         return name
 
+    def name_range(self, name: str, sheet: str, first_row: int, first_col: int, last_row: int | None = None,
+                   last_col: int | None = None) -> str:
+        """A workbook-scoped name for a cell or a block (0-based rows and columns)."""
+        return self._define(name, sheet, first_row, first_col, last_row, last_col)
+
     # ---------------------------------------------------------------- rows
 
     def section(self, sheet: str, title: str) -> None:
@@ -210,8 +216,10 @@ class TemplateBook:
         ws = state.worksheet
         ws.write(row, label_col, label, self.fmt("label"))
         self._need_lines(state, row, label, state.widths[label_col])
-        if unit:
-            ws.write(row, unit_col, unit, self.fmt("unit"))
+        if unit.startswith("="):      # a unit that follows an input (W/m for a pipe, W/m² for a face)
+            ws.write_formula(row, unit_col, unit, self.fmt("unit"))
+        elif unit:
+            ws.write_string(row, unit_col, unit, self.fmt("unit"))
         if note:
             ws.write(row, note_col, note, self.fmt("note"))
             self._need_lines(state, row, note, state.widths[note_col])
@@ -328,6 +336,9 @@ class TemplateBook:
             return number_format
         if not unit:
             return None
+        if unit.startswith("="):
+            raise TemplateBuildError(f"{self.template.name}: {what!r}: a unit given by a formula needs "
+                                     "number_format")
         if unit not in UNIT_FORMATS:
             raise TemplateBuildError(f"{self.template.name}: {what!r}: no number format for the unit {unit!r}; "
                                      "give number_format")
@@ -338,6 +349,22 @@ class TemplateBook:
         state = self.sheets["Notes"]
         self._write_wrapped(state, state.row, 0, 0, text, "caution" if caution else "paragraph")
         state.row += 1
+
+    def unverified(self, constant: str) -> str:
+        """Record a constant whose source no one on the project could read (a standard's value
+        recalled, an equation number); the Notes sheet lists every one as unverified, and the
+        text returned ("unverified: see Notes") is all that is printed beside the result, so a
+        checker signs nothing that rests on memory alone without being told."""
+        if constant not in self.unverified_constants:
+            self.unverified_constants.append(constant)
+        return "unverified: see Notes"
+
+    def _unverified_paragraph(self) -> None:
+        if self.unverified_constants:
+            self.paragraph("UNVERIFIED CONSTANTS. The following are stated as recalled by the template's "
+                           "authors; no source they could read confirmed them. Check each against the cited "
+                           "document before signing: " + "; ".join(self.unverified_constants) + ".",
+                           caution=True)
 
     def spread_note(self, what: str) -> None:
         """The Notes paragraph saying what the correlation spread beside a key result means."""
@@ -398,6 +425,45 @@ class TemplateBook:
             self._define(name, sheet, first, col, last, col + width - 1)
         return first, col, last, col + width - 1
 
+    def input_table(self, sheet: str, header: Sequence[str], rows: Sequence[Sequence[Any]], count: int, name: str,
+                    formats: Sequence[str | None], col: int = 0, lines: float = 1,
+                    validations: dict[int, dict] | None = None) -> tuple[int, int]:
+        """A table the user fills in: ``count`` rows of unlocked input cells under ``header``, the
+        first filled from ``rows`` (None: blank), the rest blank; the data rows named ``name``.
+
+        ``formats`` marks the number columns (None: text); ``lines`` is each row's height in lines;
+        ``validations`` maps a column to its XlsxWriter data-validation options (blanks allowed),
+        a custom rule written with {cell} and {left} (the row's cell and the one on its left) for
+        the first row.  Returns the first and last data row."""
+        state = self.sheet(sheet)
+        state.chart_run = False
+        ws = state.worksheet
+        for j, title in enumerate(header):
+            ws.write(state.row, col + j, title, self.fmt("header" if formats[j] is None else "header_number"))
+            self._need_lines(state, state.row, title, state.widths[col + j])
+        state.row += 1
+        first = state.row
+        for i in range(count):
+            row = rows[i] if i < len(rows) else [None] * len(header)
+            for j, value in enumerate(row):
+                if isinstance(value, str):
+                    ws.write_string(state.row, col + j, value, self.fmt("input_text"))
+                elif value is None:
+                    ws.write_blank(state.row, col + j, None, self.fmt("input" if formats[j] else "input_text"))
+                else:
+                    ws.write_number(state.row, col + j, value, self.fmt("input"))
+            if lines > 1:
+                state.lines[state.row] = lines
+            state.row += 1
+        last = state.row - 1
+        for j, options in (validations or {}).items():
+            if options.get("validate") == "custom":
+                options = {**options, "value": options["value"].format(
+                    cell=xl_rowcol_to_cell(first, col + j), left=xl_rowcol_to_cell(first, col + j - 1))}
+            ws.data_validation(first, col + j, last, col + j, {"ignore_blank": True, **options})
+        self._define(name, sheet, first, col, last, col + len(header) - 1)
+        return first, last
+
     def _keep_together(self, state: _SheetState, first: int, last: int) -> None:
         """Start a new page before a table (with its section bar) that would otherwise split."""
         if state.section_row == first - 1:
@@ -406,30 +472,42 @@ class TemplateBook:
             state.breaks.append(first)
 
     def chart(self, sheet: str, kind: str, title: str, series: Sequence[dict], x_title: str, y_title: str,
-              subtype: str | None = None, x_axis: dict | None = None, y_axis: dict | None = None) -> None:
+              subtype: str | None = None, x_axis: dict | None = None, y_axis: dict | None = None,
+              height: int = CHART_PX[1], with_previous: bool = False) -> None:
         """An XlsxWriter chart placed below the sheet's rows, never beside or over another block.
 
         A run of charts starts on a new printed page and each chart reserves the rows it covers,
         so charts neither overlap nor split across pages.  Each series dict holds name,
-        categories and values references; ``x_axis`` / ``y_axis`` add XlsxWriter axis options."""
+        categories and values references; a series that names no colour is drawn in the next of
+        the palette's colours (``SERIES_COLOURS``), never the viewer's own.  The axes cross at
+        their lowest values and carry their tick labels there, outside the plot, wherever zero
+        lies; ``x_axis`` / ``y_axis`` add or override XlsxWriter axis options.  ``height`` (px)
+        sets its size; ``with_previous`` prints a chart on one page with the section just above it
+        (the table it draws): the page starts at that section's bar instead of at the chart."""
         state = self.sheet(sheet)
         options = {"type": kind}
         if subtype:
             options["subtype"] = subtype
         chart = self.workbook.add_chart(options)
-        for entry in series:
-            chart.add_series(entry)
+        for k, entry in enumerate(series):
+            chart.add_series(_in_palette(entry, SERIES_COLOURS[k % len(SERIES_COLOURS)]))
         font = {"size": CHART_FONT_SIZE, "color": INK}
+        edge = {"crossing": "min", "label_position": "low"}
         chart.set_title({"name": title, "name_font": {"size": 11, "color": SLATE, "bold": True}})
-        chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **(x_axis or {})})
-        chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font,
+        chart.set_x_axis({"name": x_title, "name_font": font, "num_font": font, **edge, **(x_axis or {})})
+        chart.set_y_axis({"name": y_title, "name_font": font, "num_font": font, **edge,
                           "major_gridlines": {"visible": True, "line": {"color": RULE}}, **(y_axis or {})})
         chart.set_legend({"position": "bottom", "font": font})
-        chart.set_size({"width": CHART_PX[0], "height": CHART_PX[1]})
+        chart.set_size({"width": CHART_PX[0], "height": height})
+        rows = math.ceil(height / (ROW_HEIGHT * 4 / 3)) + 1
         if not state.chart_run:
             state.row += 1
-            state.breaks.append(state.row)
-        rows = math.ceil(CHART_PX[1] / (ROW_HEIGHT * 4 / 3)) + 1
+            first = state.section_row if with_previous else state.row
+            height_pt = sum(row_height(state.lines, r) for r in range(first, state.row)) + rows * ROW_HEIGHT
+            if height_pt > PAGE_CAPACITY:
+                raise TemplateBuildError(f"{self.template.name}: chart {title!r} and the section above it "
+                                         f"take {height_pt:.0f} pt, more than a page ({PAGE_CAPACITY:.0f} pt)")
+            state.breaks.append(first)
         state.worksheet.insert_chart(state.row, 0, chart, {"x_offset": 4, "y_offset": 4, "object_position": 1})
         state.row += rows
         state.chart_run = True
@@ -499,6 +577,7 @@ class TemplateBook:
         return f"{sheet}!{xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)}"
 
     def close(self) -> None:
+        self._unverified_paragraph()
         for state in self.sheets.values():
             ws = state.worksheet
             for row, lines in sorted(state.lines.items()):
@@ -513,6 +592,27 @@ class TemplateBook:
         self.workbook.close()
 
 
+# The colours of chart series that name none, in order.
+SERIES_COLOURS = (INK, SAND_EDGE, SLATE)   # neighbours that differ in grey too
+
+
+def _in_palette(entry: dict, colour: str) -> dict:
+    """A chart series with its line and markers in ``colour`` where the builder gave no colour."""
+    entry = dict(entry)
+    line = entry.get("line", {})
+    if not line.get("none") and "color" not in line:
+        entry["line"] = {**line, "color": colour}
+    marker = entry.get("marker")
+    if marker and marker.get("type") != "none":
+        marker = dict(marker)
+        if "fill" not in marker:
+            marker["fill"] = {"color": colour}
+        if "border" not in marker:
+            marker["border"] = {"color": colour}
+        entry["marker"] = marker
+    return entry
+
+
 def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEEDS LIMIT",
                 failed: str = f'"{FAILED}"') -> str:
     """Formula text of the check "``value`` at most ``limit``": ``within`` or ``beyond``, and
@@ -525,7 +625,18 @@ def _clip(text: str, limit: int) -> str:
 
 
 def source_of(geometry: str, method: str) -> str:
-    """The published source of a registered correlation, for a template's Notes sheet."""
+    """The published source of a registered correlation, for a template's Notes sheet.
+
+    The registry says "from memory" where a detail of a source (an equation number, a constant)
+    was not read; on a sheet a checker signs it reads "unverified", the word the Notes sheet's
+    list of unverified constants uses."""
     from stillair.correlations import CORRELATIONS
 
-    return CORRELATIONS[(geometry, method)].source
+    return printed_source(CORRELATIONS[(geometry, method)].source)
+
+
+def printed_source(source: str) -> str:
+    """A source as a template prints it: the engine's "from memory" (a detail not read) reads
+    "unverified", the word of the Notes sheet's list of unverified constants."""
+    return source.replace("from memory of the number", "equation number unverified").replace(
+        "from memory", "unverified")

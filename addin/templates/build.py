@@ -58,7 +58,7 @@ def is_error_value(value) -> bool:
     if value.startswith("#"):
         return True
     match = _CELL_ERROR_RE.match(value)
-    return bool(match) and match.group(1) in BY_NAME
+    return match is not None and match.group(1) in BY_NAME
 
 
 _CELL_ERROR_RE = re.compile(r"^([A-Z][A-Z0-9_]*): ")

@@ -290,7 +290,9 @@ def build(b) -> None:
     b.paragraph("Fins: straight rectangular fins, efficiency tanh(m Lc)/(m Lc) with m = sqrt(h P/(k A_c)), "
                 "P = 2 (L + t), A_c = L t, the tip's convection folded into the corrected length Lc = H + t/2 "
                 "(Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 3.89, 3.92 and "
-                "3.94; equation numbers from memory).")
+                "3.94; the equation numbers unverified).")
+    b.unverified("the equation numbers 3.89, 3.92 and 3.94 of Incropera et al., 6th ed., for the fin "
+                 "efficiency and the corrected length")
     b.paragraph("Radiation: from the sink's envelope (the fin tips, the two outer fin faces and the openings "
                 "of the channels at the front, top and bottom) to surroundings at the ambient temperature, the "
                 "whole sink taken at the base temperature. A channel's openings radiate with the apparent "

@@ -14,10 +14,12 @@ A sweep of U against gap width for air, argon and krypton (mode a) marks the opt
 
 from __future__ import annotations
 
+from typing import Any
+
 import stillair
 from stillair.network import BRANCH_COLUMNS
 
-from .book import TemplateBook
+from .book import TemplateBook, source_of
 from .spec import (EMISSIVITY, FACE_PAIR_EMISSIVITY, FAILED, INK, OUTDOOR_AIR, SAND_EDGE, SIG3, SIGMA_TEXT,
                    SLATE, Template, Valid, gas_pressure)
 
@@ -28,7 +30,7 @@ GAP_METHODS = ("auto", "elsherbiny", "wright", "catton", "macgregor-emery", "en6
 PASSES = 3                              # explicit passes of the standard's gap-ΔT split (triple)
 
 # Defaults: our own scenario, a 6-16-4 unit with 90 % argon and a low-e coating on face 3.
-DEFAULTS = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, gap_1=0.016, gas_1="argon",
+DEFAULTS: dict[str, Any] = dict(panes=2, pane_1=0.006, pane_2=0.004, pane_3=0.004, glass_k=1.0, gap_1=0.016, gas_1="argon",
                 fill_1=0.9, gap_2=0.014, gas_2="argon", fill_2=0.9, eps_outdoor_face=0.837,
                 eps_gap1_outer=0.837, eps_gap1_inner=0.04, eps_gap2_outer=0.837, eps_gap2_inner=0.04,
                 eps_indoor_face=0.837, glass_height=1.3, pressure=101325.0, t_indoor=20.0, t_outdoor=-8.0,
@@ -45,7 +47,7 @@ def network_rows(panes: int) -> list[list]:
     to the triple's length, so that CHOOSE can pick either)."""
     method = "=gap_method"
     indoor = "s6" if panes == 3 else "s4"
-    rows = [
+    rows: list[list[Any]] = [
         ["out-conv", "s1", "outdoor", "film", "=h_outdoor", 1.0, None, None, None, None],
         ["out-rad", "s1", "outdoor", "radiation", "=eps_outdoor_face", None, 1.0, None, None, None],
         ["pane-1", "s1", "s2", "conduction", "=pane_1", "=glass_k", 1.0, None, None, None],
@@ -126,13 +128,16 @@ def build(b: TemplateBook) -> None:
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
 
     b.section("Calculation", "(a) EN 673 standard conditions (declared centre-of-glass U-value)")
-    b.step("std_h_e", "External coefficient h_e", "=23", "W/(m²·K)", "EN 673 value (from memory)")
+    b.step("std_h_e", "External coefficient h_e", "=23", "W/(m²·K)",
+           b.unverified("EN 673 external coefficient h_e = 23 W/(m²·K)"))
     b.step("std_h_i", "Internal coefficient h_i = 3.6 + 4.4 eps/0.837", "=3.6+4.4*eps_indoor_face/0.837",
-           "W/(m²·K)", "EN 673 (from memory): 8.0 for uncoated glass")
-    b.step("std_tm_k", "Mean gas temperature Tm", "=283", "K", "EN 673 (from memory)")
+           "W/(m²·K)", b.unverified("EN 673 internal coefficient h_i = 3.6 + 4.4 eps/0.837 W/(m²·K)"))
+    b.step("std_tm_k", "Mean gas temperature Tm", "=283", "K",
+           b.unverified("EN 673 declared mean gas temperature 283 K"))
     b.step("std_mean", "Mean gas temperature", "=std_tm_k-273.15", "°C")
     b.step("std_dt", "Temperature difference across the gas space(s), total", "=15", "K",
-           "EN 673 (from memory); split between the gaps of a triple unit below")
+           b.unverified("EN 673 declared temperature difference 15 K across the gas space(s), split "
+                        "between the gaps of a triple unit in proportion to their resistances"))
     b.step("std_hr_1", "Gap 1 radiation 4 sigma Tm³/(1/e2 + 1/e3 - 1)",
            "=4*sigma*std_tm_k^3/(1/eps_gap1_outer+1/eps_gap1_inner-1)", "W/(m²·K)")
     b.step("std_hr_2", "Gap 2 radiation 4 sigma Tm³/(1/e4 + 1/e5 - 1)",
@@ -221,24 +226,38 @@ def build(b: TemplateBook) -> None:
     x3 = "(pane_1+gap_1+pane_2)*1000"
     x4, x5 = "(pane_1+gap_1+pane_2+gap_2)*1000", "(pane_1+gap_1+pane_2+gap_2+pane_3)*1000"
     end = f"IF(panes=3,{x5},{x3})+10"
-    profile = [
-        ["outdoor air", -10.0, "=t_outdoor"],
-        ["face 1", 0.0, "=t_face_1"],
-        ["face 2", f"={x1}", "=t_gap1_outer"],
-        ["face 3", f"={x2}", "=t_gap1_inner"],
-        ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
-        ['=IF(panes=3,"face 5","indoor air")', f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
-        ['=IF(panes=3,"indoor face","indoor air")', f"=IF(panes=3,{x5},{end})",
-         "=IF(panes=3,t_indoor_face,t_indoor)"],
-        ["indoor air", f"={end}", "=t_indoor"],
-    ]
-    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], profile,
+    # The printed table names each point once; a double unit's two triple-only rows stay empty.
+    points: list[list[Any]] = [["outdoor air", -10.0, "=t_outdoor"], ["face 1", 0.0, "=t_face_1"],
+              ["face 2", f"={x1}", "=t_gap1_outer"], ["face 3", f"={x2}", "=t_gap1_inner"],
+              ['=IF(panes=3,"face 4","indoor face")', f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+              ['=IF(panes=3,"face 5","(triple only)")', f'=IF(panes=3,{x4},"")', '=IF(panes=3,t_gap2_inner,"")'],
+              ['=IF(panes=3,"indoor face","(triple only)")', f'=IF(panes=3,{x5},"")',
+               '=IF(panes=3,t_indoor_face,"")'],
+              ["indoor air", f"={end}", "=t_indoor"]]
+    first, _, last, _ = b.table("Calculation", ["point", "position mm", "temperature °C"], points,
                                 name="glz_profile", col=1, formats=[None, "0.0", "0.0"])
+    # The chart's points, beside the table and outside the printed grid: a double unit repeats its
+    # indoor air point there, so the line has no gap in any viewer (text would plot as zero).
+    chart_points: list[list[Any]] = [[-10.0, "=t_outdoor"], [0.0, "=t_face_1"], [f"={x1}", "=t_gap1_outer"], [f"={x2}", "=t_gap1_inner"],
+                    [f"={x3}", "=IF(panes=3,t_gap2_outer,t_indoor_face)"],
+                    [f"=IF(panes=3,{x4},{end})", "=IF(panes=3,t_gap2_inner,t_indoor)"],
+                    [f"=IF(panes=3,{x5},{end})", "=IF(panes=3,t_indoor_face,t_indoor)"], [f"={end}", "=t_indoor"]]
+    ws = b.sheet("Calculation").worksheet
+    ws.set_column(6, 7, 20)
+    for col, title in ((6, "chart: position mm"), (7, "chart: temperature °C")):
+        ws.write(first - 1, col, title, b.fmt("header_number"))
+    for row, point in enumerate(chart_points, start=first):
+        for col, value in zip((6, 7), point):
+            if isinstance(value, str):
+                ws.write_formula(row, col, value, b.fmt("cell", "0.0"))
+            else:
+                ws.write_number(row, col, value, b.fmt("cell", "0.0"))
     b.chart("Calculation", "scatter", "Temperature through the unit, actual conditions (b)",
-            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 2),
-              "values": "=" + TemplateBook.column("Calculation", first, last, 3),
+            [{"name": "temperature", "categories": "=" + TemplateBook.column("Calculation", first, last, 6),
+              "values": "=" + TemplateBook.column("Calculation", first, last, 7),
               "marker": {"type": "circle", "size": 5}}],
-            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers")
+            "position from the outdoor face, mm", "temperature, °C", subtype="straight_with_markers",
+            height=370, with_previous=True)
 
     # ------------------------------------------------------------------ Results
     b.section("Results", "Centre-of-glass U-value")
@@ -292,11 +311,11 @@ def build(b: TemplateBook) -> None:
     start = b.sheets["Tables"].row + 1     # first data row (0-based) after the header
     sweep_rows = []
     for i, mm in enumerate(SWEEP_MM):
-        row = [float(mm)]
+        sweep_row: list[float | str] = [float(mm)]
         for gas in SWEEP_GASES:
-            row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
+            sweep_row.append(f"=1/(1/std_h_e+1/std_h_i+(pane_1+pane_2)/glass_k+1/(H_CAVITY(std_mean+std_dt/2,"
                        f'std_mean-std_dt/2,A{start + i + 1}/1000,glass_height,90,"{gas}",pressure,"en673")+std_hr_1))')
-        sweep_rows.append(row)
+        sweep_rows.append(sweep_row)
     first, _, last, _ = b.table("Tables", ["gap mm"] + [f"U {g}, W/(m²·K)" for g in SWEEP_GASES], sweep_rows,
                                 name="gap_sweep", formats=["0", SIG3, SIG3, SIG3])
     assert first == start
@@ -316,10 +335,10 @@ def build(b: TemplateBook) -> None:
                        "values": "=" + TemplateBook.column("Tables", first, last, j),
                        "line": {"color": palette[gas], "width": 1.75}, "marker": {"type": "none"}})
     for j, gas in enumerate(SWEEP_GASES):
-        row = o_first + j
+        optimum_row = o_first + j
         series.append({"name": f"optimum {gas}",
-                       "categories": "=" + TemplateBook.column("Tables", row, row, 1),
-                       "values": "=" + TemplateBook.column("Tables", row, row, 2),
+                       "categories": "=" + TemplateBook.column("Tables", optimum_row, optimum_row, 1),
+                       "values": "=" + TemplateBook.column("Tables", optimum_row, optimum_row, 2),
                        "line": {"none": True},
                        "marker": {"type": "diamond", "size": 8, "fill": {"color": palette[gas]},
                                   "border": {"color": INK}}})
@@ -335,10 +354,10 @@ def build(b: TemplateBook) -> None:
                 "step: 1/U = 1/h_e + 1/h_i + sum(d/k) + sum over the gaps of 1/(h_g + h_r), with h_g = Nu k/s "
                 "from the standard's Nu = A (Gr Pr)^n (vertical: A = 0.035, n = 0.38; Nu at least 1), gas "
                 "properties at the mean gas temperature 283 K, 15 K across the gas space and h_r = 4 sigma Tm³ / "
-                "(1/e1 + 1/e2 - 1); h_e = 23 and h_i = 3.6 + 4.4 eps/0.837 W/(m²·K) (all from memory of the "
-                "standard). For a triple unit the 15 K are split between the two gaps in proportion to their "
-                "resistances, iterated in explicit passes (from memory of the standard's procedure; the last "
-                "pass's change of U is shown). Gas properties are the engine's (CoolProp-based mixing rules), "
+                "(1/e1 + 1/e2 - 1); h_e = 23 and h_i = 3.6 + 4.4 eps/0.837 W/(m²·K) (the standard's constants: "
+                "unverified, listed below). For a triple unit the 15 K are split between the two gaps in "
+                "proportion to their resistances, iterated in explicit passes (the standard's procedure as "
+                "recalled: unverified; the last pass's change of U is shown). Gas properties are the engine's (CoolProp-based mixing rules), "
                 "not the standard's declared table, so U can differ from a catalogue by a few 0.01 W/(m²·K).")
     b.paragraph("(b) Actual conditions: a thermal network per m² of glass, solved to convergence by NET_SOLVE's "
                 "engine: outdoor air -(film h_outdoor, and radiation of face 1 to surroundings at the outdoor "
@@ -351,8 +370,10 @@ def build(b: TemplateBook) -> None:
                 "89(2A) (1983) 500-519, as printed in the ASHRAE Handbook - Fundamentals 2017 ch. 1 eqs. 5 "
                 "and 6), over ice below 0.01 °C (a frost point there). The relative humidity at the indoor face "
                 "is p_w / p_ws(face); ISO 13788 judges mould likely where it stays at 0.8 or above for some "
-                "time (from memory) and condensation at 1. The temperature factor f_Rsi = (face - outdoor) / "
-                "(indoor - outdoor) (ISO 13788) compares with the minimum local practice requires.")
+                "time (unverified, listed below) and condensation at 1. The temperature factor f_Rsi = "
+                "(face - outdoor) / (indoor - outdoor) (ISO 13788) compares with the minimum local practice "
+                "requires.")
+    b.unverified("ISO 13788's mould criterion, a surface relative humidity of 0.8 held for some time")
     b.paragraph("The U-against-gap table uses mode (a) for a double unit built from panes 1 and 2 with the "
                 "gap-1 coatings, pure air, argon and krypton; the optimum is the gap of the lowest tabulated U "
                 "(1 mm steps). Below the optimum the gas conducts; above it, convection starts and U rises again.")
@@ -368,7 +389,7 @@ def build(b: TemplateBook) -> None:
                 auto_default: "mode (b) gaps, the auto choice at the default inputs"}.get(key[1], "mode (b) gaps when chosen")
         if key[0] == "vplate":
             role = "mode (b) indoor face"
-        b.paragraph(f"- {key[0]} {key[1]} ({role}): {c.title}. Source: {c.source}")
+        b.paragraph(f"- {key[0]} {key[1]} ({role}): {c.title}. Source: {source_of(key[0], key[1])}")
     b.paragraph("Radiation: grey parallel faces, exchange factor 1/(1/e1 + 1/e2 - 1); a face seeing large "
                 "surroundings, factor e. Linearised h = F sigma (T1² + T2²)(T1 + T2) (H_RAD).")
     b.paragraph("Assumptions: centre of glass, one-dimensional heat flow; vertical glazing; gaps sealed and gas "
@@ -380,7 +401,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="glazing-unit", version=4, title="Insulating glass unit",
+    name="glazing-unit", version=5, title="Insulating glass unit",
     summary="Centre-of-glass U-value of double or triple glazing: EN 673 conditions and actual conditions, "
             "condensation check, U against gap width.",
     build=build)

@@ -1,4 +1,4 @@
-"""Template: heat loss and surface temperature of a hot equipment face or pipe in still air.
+"""Template: heat loss and surface temperature of a hot equipment face or pipe in still air or a wind.
 
 The bare surface (temperature known) needs no iteration: its convection and radiation
 coefficients follow directly from H_VPLATE / H_HPLATE / H_HCYL and H_RAD.  Each insulated case
@@ -15,10 +15,16 @@ thickness for that surface temperature, and for the touch limit of a hot surface
 from __future__ import annotations
 
 
-from .book import limit_check
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
+
+from .book import limit_check, printed_source
 from .spec import EMISSIVITY, FAILED, LIMIT_TEMPERATURE, SIG3, Template, Valid
 
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
+
 NAME = "hot-surface"
+# The unit of a heat flow per unit size: per metre of pipe or per square metre of face, by geometry.
+PER_UNIT_LOSS = '=IF(kind="hcyl", "W/m", "W/m²")'
 GEOMETRIES = ["horizontal cylinder", "vertical face", "horizontal top", "horizontal bottom"]
 STEPS = 8  # insulated rows of the thickness table: 1..8 times the thickness step
 
@@ -27,17 +33,33 @@ SIZE = Valid(0.0, 10.0, "a size above 0 and at most 10 m (taller faces leave the
 ROOM_AIR = Valid(-60.0, 60.0, "still air around equipment lies between about -60 and +60 °C (common practice)")
 
 
+def outer_columns(kind, facing, wind, wind_length):
+    """p3..p5 of an outer convection branch: the facing (hplate), the wind speed and a face's length
+    along the wind, in the columns the kind has them (hcyl: wind in p3; vplate: wind, length in
+    p3, p4; hplate: facing, wind, length in p3..p5).  Numbers for the tests."""
+    return {"hcyl": (wind, None, None), "vplate": (wind, wind_length, None),
+            "hplate": (facing, wind, wind_length)}[kind]
+
+
+#: The same as cell formulas on the sheet's names, where the kind is chosen by a formula (a space
+#: reads as blank in the network and shows a cached value in every viewer).
+OUTER_COLUMN_FORMULAS = ('=IF(kind="hplate", facing, wind_speed)',
+                         '=IF(kind="hplate", wind_speed, IF(kind="vplate", face_width, " "))',
+                         '=IF(kind="hplate", face_width, " ")')
+
+
 def insulated_branch_rows(rows):
     """Branch rows for the insulated cases.
 
-    ``rows`` holds (resistance, kind, length, area, facing, emissivity) per thickness; facing is
-    blank (None or "") unless the kind is hplate.  Used by the template (cell formulas) and by
-    the tests (numbers), so both build the same network.
+    ``rows`` holds (resistance, kind, length, area, outer, emissivity) per thickness; ``outer``
+    is the p3..p5 of the outer convection branch (:func:`outer_columns`, or
+    :data:`OUTER_COLUMN_FORMULAS`).  Used by the template (cell formulas) and by the tests
+    (numbers), so both build the same network.
     """
     table = []
-    for k, (resistance, kind, length, area, facing, emissivity) in enumerate(rows, start=1):
+    for k, (resistance, kind, length, area, outer, emissivity) in enumerate(rows, start=1):
         table.append([f"ins_{k}", "hot", f"surf_{k}", "resistance", resistance, None, None, None, None, None])
-        table.append([f"conv_{k}", f"surf_{k}", "ambient", kind, length, area, facing, None, None, None])
+        table.append([f"conv_{k}", f"surf_{k}", "ambient", kind, length, area, *outer, None])
         table.append([f"rad_{k}", f"surf_{k}", "surroundings", "radiation", emissivity, None, area, None, None,
                       None])
     return table
@@ -45,8 +67,10 @@ def insulated_branch_rows(rows):
 
 def _convection_formula(surface_t: str, diameter: str) -> str:
     """The convection coefficient of the chosen geometry at ``surface_t`` (a pipe of ``diameter``)."""
-    return (f'=IF(kind="hcyl", H_HCYL({surface_t}, ambient_t, {diameter}), IF(kind="vplate", '
-            f'H_VPLATE({surface_t}, ambient_t, face_height), H_HPLATE({surface_t}, ambient_t, bare_length, facing)))')
+    air = '"air", 101325, "auto", wind_speed'
+    return (f'=IF(kind="hcyl", H_HCYL({surface_t}, ambient_t, {diameter}, {air}), IF(kind="vplate", '
+            f'H_VPLATE({surface_t}, ambient_t, face_height, {air}, face_width), '
+            f'H_HPLATE({surface_t}, ambient_t, bare_length, facing, {air}, face_width)))')
 
 
 def _thickness_formula(surface_t: str) -> str:
@@ -54,7 +78,8 @@ def _thickness_formula(surface_t: str) -> str:
     the bare surface's own temperature: no IF, whose unused branch a headless evaluation would
     still calculate)."""
     return (f'INSULATION_THICKNESS(hot_t, ambient_t, {surface_t}, ins_k, eps_jacket, kind, bare_length, '
-            f'IF(kind="hplate", facing, ""), surroundings_t)')
+            f'IF(kind="hplate", facing, ""), surroundings_t, "air", 101325, wind_speed, '
+            f'IF(kind="hcyl", "", face_width))')
 
 
 def boundary_rows(hot, ambient, surroundings):
@@ -81,7 +106,11 @@ def build(b) -> None:
     b.input("face_width", "Face width", 1.5, "m", "used for the faces", valid=SIZE)
     b.input("eps_bare", "Emissivity of the bare surface", 0.8, "-", "oxidised steel about 0.8", valid=EMISSIVITY)
     b.section("Inputs", "Surroundings")
-    b.input("ambient_t", "Still air temperature", 20.0, "°C", valid=ROOM_AIR)
+    b.input("ambient_t", "Air temperature", 20.0, "°C", valid=ROOM_AIR)
+    b.input("wind_speed", "Wind or draught speed over the surface", 0.0, "m/s",
+            "0: still air (see Notes)",
+            valid=Valid(0.0, 30.0, "not negative; up to 30 m/s (a storm), inside the forced correlations' ranges "
+                        "for these sizes"))
     b.input("surroundings_t", "Temperature of the surroundings (radiation)", 20.0, "°C",
             "walls and objects the surface sees", valid=ROOM_AIR)
     b.section("Inputs", "Insulation and touch limit")
@@ -96,7 +125,7 @@ def build(b) -> None:
             "set from ISO 13732-1 for the jacket material and contact time, or local rules",
             valid=LIMIT_TEMPERATURE)
     b.section("Inputs", "Cold surface: ambient humidity and condensation margin")
-    b.input("ambient_rh", "Relative humidity of the still air", 0.6, "-",
+    b.input("ambient_rh", "Relative humidity of the air", 0.6, "-",
             "a fraction: 60 % is 0.6; used when the surface is colder than the air",
             valid=Valid(0.0, 1.0, "a relative humidity is a fraction above 0 and at most 1 (60 % is 0.6)",
                         low_open=True))
@@ -119,7 +148,7 @@ def build(b) -> None:
     b.step("bare_area", "Area of the bare surface",
            '=IF(kind="hcyl", PI()*pipe_od*pipe_length, face_height*face_width)', "m²")
     b.step("unit_size", "Unit of the 'per unit' results (pipe length or face area)",
-           '=IF(kind="hcyl", pipe_length, bare_area)', "m or m²")
+           '=IF(kind="hcyl", pipe_length, bare_area)', '=IF(kind="hcyl", "m", "m²")', number_format="0.000")
     b.section("Calculation", "Bare surface (temperature known: no iteration)")
     b.step("h_conv_bare", "Convection coefficient, bare", _convection_formula("hot_t", "pipe_od"), "W/(m²·K)")
     b.step("h_rad_bare", "Radiation coefficient, bare", "=H_RAD(hot_t, surroundings_t, eps_bare)", "W/(m²·K)")
@@ -135,7 +164,7 @@ def build(b) -> None:
 
     b.section("Calculation", "Exact insulation thickness for a surface temperature (INSULATION_THICKNESS)")
     b.step("mode", "Surface against the air", '=IF(hot_t<ambient_t, "cold surface", "hot surface")', "")
-    b.step("t_dew_ambient", "Dew point of the still air (frost point below 0 °C)", "=DEW_POINT(ambient_t, ambient_rh)",
+    b.step("t_dew_ambient", "Dew point of the air (frost point below 0 °C)", "=DEW_POINT(ambient_t, ambient_rh)",
            "°C")
     b.step("t_dry_min", "Lowest outer surface temperature kept dry (dew point + margin)", "=t_dew_ambient+dew_margin",
            "°C")
@@ -143,8 +172,8 @@ def build(b) -> None:
            f"={_thickness_formula('MAX(hot_t, t_dry_min)')}", "m", "0 when the bare surface is warm enough")
     b.step("q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face",
            "=IF(x_dry=0, -q_bare/unit_size, IF(kind=\"hcyl\", 2*PI()*ins_k*(t_dry_min-hot_t)/LN((pipe_od+2*x_dry)/"
-           "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", "W/m or W/m²",
-           "through the insulation; negative: a loss")
+           "pipe_od), ins_k*(t_dry_min-hot_t)/x_dry))", PER_UNIT_LOSS,
+           "through the insulation; negative: a loss", number_format="0.0")
     b.step("x_touch", "Insulation keeping the outer surface at the touch limit",
            f"={_thickness_formula('MIN(hot_t, touch_limit)')}", "m", "0 when the bare surface is within the limit")
 
@@ -176,7 +205,8 @@ def build(b) -> None:
     b.blank(sheet)
     b.section(sheet, "Insulated cases: network branches (one sub-network per thickness)")
     b.branch_table(sheet, insulated_branch_rows(
-        [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), geo(k, 6), "=eps_jacket") for k in range(1, STEPS + 1)]),
+        [(geo(k, 5), "=kind", geo(k, 3), geo(k, 4), OUTER_COLUMN_FORMULAS, "=eps_jacket")
+         for k in range(1, STEPS + 1)]),
         "hs_branches")
     b.section(sheet, "Insulated cases: boundaries")
     b.boundary_table(sheet, boundary_rows("=hot_t", "=ambient_t", "=surroundings_t"), "hs_bounds")
@@ -241,7 +271,7 @@ def build(b) -> None:
     b.result("res_h_rad_bare", "Radiation coefficient", "=h_rad_bare", "W/(m²·K)")
     b.result("res_q_bare", "Heat loss, bare", "=q_bare", "W")
     b.result("res_q_bare_unit", "Heat loss, bare, per m of pipe or per m² of face", "=q_bare/unit_size",
-             "W/m or W/m²")
+             PER_UNIT_LOSS, number_format="0.0")
     b.result("res_bare_check", "Bare surface against the touch limit",
              '=IF(hot_t<=touch_limit, "OK", "EXCEEDS LIMIT")', text=True, fails=("EXCEEDS LIMIT",))
     b.section("Results", "Insulation against the touch limit")
@@ -261,7 +291,7 @@ def build(b) -> None:
              "0 when the bare surface is within it")
     b.section("Results", "Cold surface: condensation on the outer surface (ISO 12241 criterion)")
     b.result("res_mode", "Surface against the air", "=mode", text=True)
-    b.result("res_dew_ambient", "Dew point of the still air", "=t_dew_ambient", "°C", "frost point below 0 °C")
+    b.result("res_dew_ambient", "Dew point of the air", "=t_dew_ambient", "°C", "frost point below 0 °C")
     b.result("res_t_dry_min", "Lowest outer surface temperature kept dry", "=t_dry_min", "°C",
              "dew point + the chosen margin")
     b.result("res_bare_dry", "Bare surface against the dew point",
@@ -272,7 +302,7 @@ def build(b) -> None:
     b.result("res_x_dry_mm", "Insulation thickness keeping the surface at dew point + margin", "=1000*x_dry", "mm",
              "0 when the bare surface is warm enough")
     b.result("res_q_dry_unit", "Heat gain at that thickness, per m of pipe or per m² of face", "=q_dry_unit",
-             "W/m or W/m²", "negative: a loss (a hot surface)")
+             PER_UNIT_LOSS, "negative: a loss (a hot surface)", number_format="0.0")
     b.section("Results", "Validity")
     b.result("res_note_bare", "Bare-surface correlation", "=note_bare", text=True)
     b.result("res_net_check", "Insulated cases (network check)", "=hs_check", text=True)
@@ -314,9 +344,10 @@ def build(b) -> None:
                 "outer surface at or below the dew point of the air (DEW_POINT with the air's temperature and "
                 "relative humidity; Hyland-Wexler saturation pressure, ASHRAE Handbook - Fundamentals 2017 ch. "
                 "1; a frost point below 0 °C). ISO 12241 sizes insulation against condensation by keeping the "
-                "outer surface temperature at or above that dew point (from memory); the margin on top is the "
-                "designer's choice. The thickness table's last column shows each case's surface above the dew "
-                "point.")
+                "outer surface temperature at or above that dew point (unverified, listed below); the margin on "
+                "top is the designer's choice. The thickness table's last column shows each case's surface above "
+                "the dew point.")
+    b.unverified("ISO 12241's criterion against condensation: the outer surface at or above the dew point")
     b.spread_note("outer surface temperature with one thickness step")
     b.section("Notes", "Correlations used (sources from the stillair registry)")
     b.cite("Horizontal cylinder, Churchill-Chu", "hcyl", "churchill-chu")
@@ -325,8 +356,17 @@ def build(b) -> None:
     b.cite("Horizontal bottom (hot, facing down), Raithby-Hollands", "hplate", "raithby-hollands")
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7.")
+    b.paragraph("Wind: with a wind speed above 0 the outer convection (bare, insulated and in the exact "
+                "thickness) combines natural and forced convection as " + MIXING_EQUATION + " (source: "
+                + MIXING_SOURCE + "); a pipe in cross-flow, a face with the wind along its width. Still air is "
+                "the cautious case for the touch limit and for condensation on a cold surface (a wind brings "
+                "the surface closer to the air); it is not for the heat loss, which a wind raises.")
+    b.cite("Wind on a pipe, Churchill-Bernstein", "cylinder-crossflow", "churchill-bernstein")
+    b.cite("Wind along a face, laminar boundary layer (up to Re 5e5)", "plate-flow", "pohlhausen")
+    b.cite("Wind along a face, laminar then turbulent (above Re 5e5)", "plate-flow", "mixed-boundary-layer")
     b.section("Notes", "Assumptions")
-    b.paragraph("Still air, no wind or forced draught. The metal under the insulation is at the hot surface "
+    b.paragraph("The wind (or a draught; 0 by default: still air) is steady and horizontal, across a pipe and "
+                "along a face's width. The metal under the insulation is at the hot surface "
                 "temperature (the inside film and the metal wall are neglected). The insulation conductivity "
                 "is one value (take it at the insulation's mean temperature from the maker's data). Flat faces "
                 "keep their area when insulated (edge losses ignored); a pipe's outer diameter grows with the "
@@ -345,8 +385,8 @@ def build(b) -> None:
                 "data, local codes and licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 4, "Hot or cold surface in still air",
-                    "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
+TEMPLATE = Template(NAME, 6, "Hot or cold surface in still air or wind",
+                    "Heat loss and surface temperature of a hot face or pipe in still air or a wind, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit; for a cold surface "
                     "the insulation thickness that keeps it above the ambient dew point, with the heat gain.",
                     build)

@@ -12,7 +12,8 @@ MIN_PRINT_SCALE = 0.8
 
 # Column widths (characters) of each sheet's grid.  Inputs: label | value | unit | note;
 # Calculation: step | label | value | unit | note; Results: label | value | unit | note;
-# Notes: one wrapped column; Tables (network tables and sweeps): ten narrow columns.
+# Notes: one wrapped column; Tables (network tables and sweeps): ten narrow columns; Network:
+# below.
 # LibreOffice fits a sheet to the page width by its columns (a single wide column is clipped, not
 # shrunk) and measures a character wider than Excel, so every grid stays within ~112 characters:
 # that prints at full size on A4 landscape in both.
@@ -22,6 +23,9 @@ GRIDS = {
     "Results": (42, 14, 11, 45),
     "Notes": (110,),
     "Tables": (14, 9, 9, 11, 9, 9, 9, 9, 18, 13),
+    # Network (a network the user types, own-network): the ten table columns and, beside them,
+    # what p1..p5 hold for the row's kind; the solution tables reuse the columns
+    "Network": (11, 9, 9, 11, 7, 7, 7, 7, 7, 12, 25),
 }
 
 # A4 landscape, margins in inches (left/right, top/bottom, header/footer).

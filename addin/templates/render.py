@@ -40,6 +40,7 @@ def render_pictures(out_dir: str | os.PathLike, dpi: int = 80) -> list[Path]:
     from . import all_templates
 
     out = Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)     # pdftoppm writes into it, and does not create it
     templates = all_templates()
     pictures = []
     with tempfile.TemporaryDirectory(prefix="stillair-render-") as directory:

@@ -16,23 +16,29 @@ The pieces of the build (inputs, steps, tables, notes) are functions the vented 
 from __future__ import annotations
 
 
-from .book import limit_check
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
+
+from .book import limit_check, printed_source
 from .spec import EMISSIVITY, LIMIT_TEMPERATURE, OUTDOOR_AIR, SKY_TEMPERATURE, Template, Valid, altitude
+
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
 
 NAME = "sealed-cabinet"
 VPLATE_METHODS = ["auto", "churchill-chu", "churchill-chu-laminar", "mcadams"]
 
 
-def branch_rows(*, height, side_area, top_area, top_length, wall_thickness, wall_k, emissivity, method):
-    """The branch table, as cell formulas (names) or as numbers (tests pass numbers)."""
+def branch_rows(*, height, side_area, top_area, top_length, wall_thickness, wall_k, emissivity, method,
+                wind=None, wind_length=None):
+    """The branch table, as cell formulas (names) or as numbers (tests pass numbers).  The outer
+    faces take the wind speed and their length along the wind (blank wind: still air)."""
     return [
         ["conv_side_in", "side_in", "air_in", "vplate", height, side_area, None, None, None, method],
         ["conv_top_in", "top_in", "air_in", "hplate", top_length, top_area, "down", None, None, None],
         ["cond_side", "side_in", "side_out", "conduction", wall_thickness, wall_k, side_area, None, None, None],
         ["cond_top", "top_in", "top_out", "conduction", wall_thickness, wall_k, top_area, None, None, None],
-        ["conv_side_out", "side_out", "ambient", "vplate", height, side_area, None, None, None, method],
+        ["conv_side_out", "side_out", "ambient", "vplate", height, side_area, wind, wind_length, None, method],
         ["rad_side", "side_out", "ambient", "radiation", emissivity, None, side_area, None, None, None],
-        ["conv_top_out", "top_out", "ambient", "hplate", top_length, top_area, "up", None, None, None],
+        ["conv_top_out", "top_out", "ambient", "hplate", top_length, top_area, "up", wind, wind_length, None],
         ["rad_top", "top_out", "sky", "radiation", emissivity, None, top_area, None, None, None],
     ]
 
@@ -54,6 +60,8 @@ def boundary_rows(*, dissipation, sun_side, sun_top, ambient, sky):
 
 SIZE = Valid(0.0, 6.0, "above 0; faces taller than about 6 m leave the vertical-plate correlations' range "
              "(Ra up to 1e12)", low_open=True)
+WIND = Valid(0.0, 30.0, "not negative; up to 30 m/s (a storm), inside the flat-plate correlations' range "
+             "for a cabinet's faces (Re up to 1e8)")
 SUN = Valid(0.0, 1400.0, "sun is a heat gain, not negative, and the solar constant (about 1361 W/m²) bounds it")
 DISSIPATION = Valid(0.0, 20000.0, "a dissipation is not negative; above 20 kW a sealed cabinet cannot lose it by "
                     "natural convection")
@@ -81,8 +89,8 @@ def cabinet_inputs(b, dissipation: float = 150.0) -> None:
     b.input("absorptance", "Solar absorptance of the outer finish", 0.3, "-", "light, clean finishes about 0.2-0.4",
             valid=Valid(0.0, 1.0, "an absorptance is a fraction of the incident sun, 0 to 1"))
     b.input("sun_top", "Solar irradiance on the top", 800.0, "W/m²", "0 for a shaded or night case", valid=SUN)
-    b.input("sun_sides", "Solar irradiance on the sides (mean over all four)", 120.0, "W/m²",
-            "0 for a shaded or night case", valid=SUN)
+    b.input("sun_sides", "Solar irradiance on the sides", 120.0, "W/m²",
+            "mean over all four; 0 when shaded or at night", valid=SUN)
 
 
 def surroundings_inputs(b) -> None:
@@ -90,7 +98,9 @@ def surroundings_inputs(b) -> None:
     b.section("Inputs", "Surroundings and limit")
     b.input("ambient_t", "Ambient air temperature", 30.0, "°C", "shade temperature at the site", valid=OUTDOOR_AIR)
     b.input("sky_t", "Sky temperature (seen by the top)", 15.0, "°C",
-            "effective long-wave sky temperature, below the air temperature", valid=SKY_TEMPERATURE)
+            "long-wave sky, below the air temperature", valid=SKY_TEMPERATURE)
+    b.input("wind_speed", "Wind speed at the cabinet", 0.0, "m/s", "0: still air (cautious for overheating)",
+            valid=WIND)
     b.input("altitude", "Site altitude", 0.0, "m", "sets the air pressure (standard atmosphere)", valid=altitude())
     b.input("max_internal_t", "Maximum allowed internal air temperature", 55.0, "°C",
             "from the equipment maker's rating", valid=LIMIT_TEMPERATURE)
@@ -104,16 +114,22 @@ def night_inputs(b) -> None:
     b.input("night_ambient_t", "Night ambient air temperature", 8.0, "°C", "the coldest night the cabinet must "
             "ride through", valid=OUTDOOR_AIR)
     b.input("night_sky_t", "Night sky temperature (seen by the top)", -8.0, "°C",
-            "a clear night sky is often 15-25 K below the air (common practice)", valid=SKY_TEMPERATURE)
+            "clear night: 15-25 K below air (common practice)", valid=SKY_TEMPERATURE)
+    b.input("night_wind_speed", "Wind speed at night", 0.0, "m/s", "0: still air (see Notes)", valid=WIND)
     b.input("night_dissipation", "Internal dissipation at night", 40.0, "W",
             "equipment idling; 0 if it may be switched off", valid=DISSIPATION)
+    moisture_inputs(b)
+
+
+def moisture_inputs(b) -> None:
+    """The air sealed in and the margin wanted above its dew point (also the cabinet-day template's)."""
     b.input("seal_t", "Air temperature when the cabinet was sealed", 20.0, "°C", "on site or in the factory",
             valid=OUTDOOR_AIR)
     b.input("seal_rh", "Relative humidity when the cabinet was sealed", 0.4, "-", "a fraction: 40 % is 0.4",
             valid=Valid(0.0, 1.0, "a relative humidity is a fraction above 0 and at most 1 (60 % is 0.6)",
                         low_open=True))
     b.input("dew_margin", "Margin wanted above the dew point", 3.0, "K",
-            "a design choice: corners, fixings and cable glands run colder than the mean wall",
+            "design choice: corners and glands run colder",
             valid=Valid(0.0, 30.0, "a margin in kelvin from 0 to 30"))
 
 
@@ -125,18 +141,21 @@ def geometry_steps(b) -> None:
     b.step("top_length", "Characteristic length of the top (area/perimeter)",
            "=top_area/(2*(cab_width+cab_depth))", "m")
     b.step("air_pressure", "Air pressure at the site", "=ALTITUDE_PRESSURE(altitude)", "Pa")
+    b.step("wind_length", "Length of the outer faces along the wind", "=MAX(cab_width, cab_depth)", "m",
+           "the longer side: the lower forced coefficient (cautious)")
     b.section("Calculation", "Heat inputs")
     b.step("sun_top_w", "Absorbed sun on the top", "=absorptance*sun_top*top_area", "W")
     b.step("sun_sides_w", "Absorbed sun on the sides", "=absorptance*sun_sides*side_area", "W")
     b.step("heat_in", "Total heat input (dissipation + sun)", "=dissipation+sun_top_w+sun_sides_w", "W")
 
 
-def network_branches(extra=()) -> list:
-    """The branch table as formulas on the inputs' names, with ``extra`` rows after it."""
+def network_branches(extra=(), wind="=wind_speed") -> list:
+    """The branch table as formulas on the inputs' names, the outer faces in ``wind``, with
+    ``extra`` rows after it."""
     return branch_rows(
         height="=cab_height", side_area="=side_area", top_area="=top_area", top_length="=top_length",
         wall_thickness="=wall_thickness", wall_k="=wall_k", emissivity="=emissivity",
-        method="=vplate_method") + list(extra)
+        method="=vplate_method", wind=wind, wind_length="=wind_length") + list(extra)
 
 
 def network_tables(b, extra=(), title="Thermal network: branches (from = surface, to = fluid for convection)"):
@@ -190,8 +209,10 @@ def turned_round_steps(b, pair: str, fluid: str) -> str:
     b.section("Tables", "Night case: boundaries (no sun, night ambient and sky, night load)")
     b.boundary_table("Tables", night_boundary_rows(dissipation="=night_dissipation", ambient="=night_ambient_t",
                                                    sky="=night_sky_t"), "cab_bounds_night")
-    night = "cab_branches, cab_bounds_night"
-    b.section("Calculation", "Night case: the same cabinet, no sun, cold sky, still air (sheet Tables)")
+    b.section("Tables", "Night case: branches (the same cabinet in the night wind)")
+    b.branch_table("Tables", network_branches(wind="=night_wind_speed"), "cab_branches_night")
+    night = "cab_branches_night, cab_bounds_night"
+    b.section("Calculation", "Night case: the same cabinet, no sun, cold sky, the night wind (sheet Tables)")
     b.step("t_air_night", "Internal air at night", f'=NET_TEMP({night}, "air_in", {fluid})', "°C")
     for node, words in INNER_WALLS.items():
         b.step(f"t_{node}_night", f"{words[0].upper()}{words[1:]} at night", f'=NET_TEMP({night}, "{node}", {fluid})',
@@ -216,6 +237,20 @@ def turned_round_steps(b, pair: str, fluid: str) -> str:
     return night
 
 
+CONDENSATION_FAILS = ("CONDENSATION", "MARGIN SHORT")
+
+
+def condensation_check(coldest: str) -> str:
+    """The verdict formula: the coldest inner wall (the name of its cell) against the dew point of
+    the air sealed in (t_dew_sealed), with the clearance (dew_clearance) and the margin wanted
+    (dew_margin) as named cells; the cabinet-day template reads it too."""
+    return (f'=IF(NOT(AND(ISNUMBER({coldest}), ISNUMBER(t_dew_sealed))), "CALC FAILED", '
+            'IF(dew_clearance<=0, "CONDENSATION: coldest inner wall "&TEXT(-dew_clearance, "0.0")&" K below the '
+            'dew point", IF(dew_clearance<dew_margin, "MARGIN SHORT: coldest inner wall "&TEXT(dew_clearance, '
+            '"0.0")&" K above the dew point, "&TEXT(dew_margin, "0.0")&" K wanted", "OK: coldest inner wall "'
+            '&TEXT(dew_clearance, "0.0")&" K above the dew point")))')
+
+
 def turned_round_results(b) -> None:
     """Allowed dissipation, cooling, and the night case's condensation check and heater."""
     b.section("Results", "Allowed dissipation and cooling")
@@ -224,18 +259,13 @@ def turned_round_results(b) -> None:
     b.result("res_cooling_q", "Cooling power needed to hold the limit", "=cooling_q", "W",
              "for choosing a heat exchanger or cooler; 0 within the limit")
     b.section("Results", "Night case: condensation inside")
-    b.result("res_t_air_night", "Internal air at night", "=t_air_night", "°C", "no sun, night sky, still air")
+    b.result("res_t_air_night", "Internal air at night", "=t_air_night", "°C", "no sun, night sky, the night wind")
     b.result("res_t_coldest_night", "Coldest inner wall at night", "=t_coldest_night", "°C")
     b.result("res_t_dew", "Dew point of the air sealed in", "=t_dew_sealed", "°C",
              "frost point below 0 °C")
     b.result("res_dew_clearance", "Coldest inner wall above the dew point", "=dew_clearance", "K")
-    b.result("res_condensation", "Condensation check, night",
-             '=IF(NOT(AND(ISNUMBER(t_coldest_night), ISNUMBER(t_dew_sealed))), "CALC FAILED", '
-             'IF(dew_clearance<=0, "CONDENSATION: coldest inner wall "&TEXT(-dew_clearance, "0.0")&" K below the '
-             'dew point", IF(dew_clearance<dew_margin, "MARGIN SHORT: coldest inner wall "&TEXT(dew_clearance, '
-             '"0.0")&" K above the dew point, "&TEXT(dew_margin, "0.0")&" K wanted", "OK: coldest inner wall "'
-             '&TEXT(dew_clearance, "0.0")&" K above the dew point")))', text=True,
-             fails=("CONDENSATION", "MARGIN SHORT"))
+    b.result("res_condensation", "Condensation check, night", condensation_check("t_coldest_night"), text=True,
+             fails=CONDENSATION_FAILS)
     b.result("res_heater_q", "Heater power keeping the inner walls at dew point + margin", "=heater_q", "W",
              "in the internal air, beyond the night load")
     b.result("res_rh_air_night", "Relative humidity of the internal air at night", "=rh_air_night", "-")
@@ -250,10 +280,10 @@ def turned_round_notes(b) -> None:
                 "power is the dissipation minus that allowance: the heat a heat exchanger or cooler must take "
                 "from the internal air to hold the limit (choose the unit with its makers' margin on top).")
     b.paragraph("Night case: the same network with no sun, the night ambient air, the night sky seen by the top "
-                "and the equipment's night load. Still air at night: wind is not modelled in this version. With "
-                "little internal heat a wind ties the walls closer to the air, which is warmer than the clear sky, "
-                "so still air is the cautious case for condensation; with a large night load a wind cools the "
-                "walls and the heater power here would be low.")
+                "and the equipment's night load, in the night wind. With little internal heat a wind ties the walls "
+                "closer to the air, which is warmer than the clear sky, so still air is the cautious case for the "
+                "condensation check; but a wind takes more heat from the walls, so the heater power that holds "
+                "them at the target grows with it: size the heater for the windiest night you expect.")
     b.paragraph("Moisture sealed in: the air closed in at the sealing temperature and relative humidity keeps "
                 "its humidity ratio and, at constant total pressure, its vapour pressure, so its dew point "
                 "(DEW_POINT, Hyland-Wexler saturation, ASHRAE Handbook - Fundamentals 2017 ch. 1; a frost point "
@@ -277,9 +307,11 @@ def coefficient_steps(b) -> None:
     b.step("h_in_top", "Inside convection, underside of the top",
            '=H_HPLATE(t_top_in, t_air, top_length, "down", "air", air_pressure)', "W/(m²·K)")
     b.step("h_out_sides", "Outside convection, side walls",
-           '=H_VPLATE(t_side_out, ambient_t, cab_height, "air", air_pressure, vplate_method)', "W/(m²·K)")
+           '=H_VPLATE(t_side_out, ambient_t, cab_height, "air", air_pressure, vplate_method, wind_speed, wind_length)',
+           "W/(m²·K)", "natural and wind combined: (h_N³ + h_F³)^(1/3)")
     b.step("h_out_top", "Outside convection, top",
-           '=H_HPLATE(t_top_out, ambient_t, top_length, "up", "air", air_pressure)', "W/(m²·K)")
+           '=H_HPLATE(t_top_out, ambient_t, top_length, "up", "air", air_pressure, "auto", wind_speed, wind_length)',
+           "W/(m²·K)")
     b.step("h_rad_sides", "Radiation, side walls to ambient", "=H_RAD(t_side_out, ambient_t, emissivity)",
            "W/(m²·K)")
     b.step("h_rad_top", "Radiation, top to sky", "=H_RAD(t_top_out, sky_t, emissivity)", "W/(m²·K)")
@@ -322,6 +354,15 @@ def correlation_notes(b) -> None:
     b.paragraph("Radiation: grey surface seeing large surroundings, q = eps sigma (T^4 - Tsurr^4); "
                 "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 1.7 and 13.27 "
                 "(small surface in a large enclosure).")
+    b.paragraph("Wind: the outer faces (sides and top) take the wind speed. Natural convection and forced "
+                "convection over a flat plate are combined as " + MIXING_EQUATION + ", the wind horizontal and "
+                "along the faces, their length along the wind the longer side of the cabinet (the lower forced "
+                "coefficient, cautious for overheating). Source of the combination: " + MIXING_SOURCE + ". Wind 0 "
+                "is still air exactly, the cautious case for overheating; a real site is gusty and sheltered in "
+                "turn, so count only on a wind you can rely on.")
+    b.cite("Wind, forced part, laminar boundary layer (up to Re 5e5)", "plate-flow", "pohlhausen")
+    b.cite("Wind, forced part, laminar then turbulent boundary layer (above Re 5e5)", "plate-flow",
+           "mixed-boundary-layer")
 
 
 def build(b) -> None:
@@ -408,8 +449,8 @@ def build(b) -> None:
                 "temperature; radiation from the equipment to the walls is ignored (this puts the air "
                 "temperature on the high side). The floor is adiabatic (cabinet on a plinth). The walls are "
                 "thin and isothermal over each face; the inner and outer areas are taken equal. The sides "
-                "see surroundings at the ambient air temperature; the top sees only the sky. No wind: still "
-                "air gives the lowest convective cooling. Sun on the sides is the mean over all four faces.")
+                "see surroundings at the ambient air temperature; the top sees only the sky. The wind (0 by "
+                "default: still air gives the lowest convective cooling) is steady and horizontal. Sun on the sides is the mean over all four faces.")
     b.paragraph("Results are steady state; the cabinet's thermal mass and the daily cycle of sun and "
                 "ambient are not modelled.")
     b.section("Notes", "Cautions")
@@ -425,7 +466,7 @@ def build(b) -> None:
                 "breathers, local practice and licensed advice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 4, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 6, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit; the "
                     "dissipation the limit allows, the cooling needed beyond it, and the night case "

@@ -1,19 +1,23 @@
 """solar-collector: top-loss coefficient of a flat-plate solar collector with one or two covers.
 
 Network per m² of absorber: absorber -(gas layer: tilted-cavity convection + grey radiation)-
-cover 1 [-(gas layer)- cover 2] -(wind film h_w to ambient air, and radiation to the sky)-.
-Klein's empirical top-loss equation stands beside it as a plain formula; since Klein's equation
-takes the sky at the air temperature, the network is solved a second time that way (same
-branches, other boundaries) for a like-for-like comparison.
+cover 1 [-(gas layer)- cover 2] -(outer face in the wind: natural and forced convection combined,
+and radiation to the sky)-.  Klein's empirical top-loss equation stands beside it as a plain
+formula; it takes the sky at the air temperature and the published linear wind coefficient
+h_w = 2.8 + 3.0 V, so for a like-for-like comparison the network is solved a second time that way
+(the outer face a film of that h_w, the sky node at the air temperature).
 """
 
 from __future__ import annotations
 
 import stillair
+from stillair.forced import MIXING_EQUATION, MIXING_SOURCE as _MIXING_SOURCE
 from stillair.network import BRANCH_COLUMNS
 
-from .book import TemplateBook
+from .book import TemplateBook, source_of, printed_source
 from .spec import OUTDOOR_AIR, SIGMA_TEXT, SKY_TEMPERATURE, Template, Valid, gas_pressure
+
+MIXING_SOURCE = printed_source(_MIXING_SOURCE)  # as the Notes sheet prints it
 
 GAP = Valid(0.0, 0.2, "a gap above 0; at most 0.2 m keeps the collector length / gap ratio within the tilted-"
             "cavity correlations (aspect 12 and up for Hollands)", low_open=True)
@@ -26,9 +30,11 @@ DEFAULTS = dict(t_absorber=75.0, t_ambient=12.0, t_sky=0.0, wind_speed=2.5, tilt
                 pressure=101325.0)
 
 
-def network_rows(covers: int) -> list[list]:
+def network_rows(covers: int, outside: str = "wind") -> list[list]:
     """Branch rows for one or two covers (the one-cover table padded with blank rows to the same
-    length, so that CHOOSE can pick either)."""
+    length, so that CHOOSE can pick either).  ``outside`` "wind": the outer face is a tilted plate
+    facing up in the wind (mixed convection, length along the slope); "published": a film of the
+    published linear coefficient h_w, as Klein's equation assumes."""
     top = "cover-2" if covers == 2 else "cover-1"
     rows = [
         ["gap-1", "absorber", "cover-1", "cavity", "=gap_1", "=collector_length", 1.0, "=tilt", None, None],
@@ -37,7 +43,9 @@ def network_rows(covers: int) -> list[list]:
     if covers == 2:
         rows += [["gap-2", "cover-1", "cover-2", "cavity", "=gap_2", "=collector_length", 1.0, "=tilt", None, None],
                  ["rad-2", "cover-1", "cover-2", "radiation", "=eps_cover", "=eps_cover", 1.0, None, None, None]]
-    rows += [["wind", top, "ambient", "film", "=h_wind", 1.0, None, None, None, None],
+    outer = (["wind", top, "ambient", "tplate", "=collector_length", 1.0, "=90-tilt", "up", "=wind_speed", None]
+             if outside == "wind" else ["wind", top, "ambient", "film", "=h_wind", 1.0, None, None, None, None])
+    rows += [outer,
              ["sky", top, "sky", "radiation", "=eps_cover", None, 1.0, None, None, None]]
     return rows + [[None] * len(BRANCH_COLUMNS)] * (6 - len(rows))
 
@@ -52,7 +60,8 @@ def build(b: TemplateBook) -> None:
     b.input("t_sky", "Effective sky temperature", d["t_sky"], "°C", "clear night sky: 10-30 K below the air",
             valid=SKY_TEMPERATURE)
     b.input("wind_speed", "Wind speed over the cover", d["wind_speed"], "m/s",
-            valid=Valid(0.0, 15.0, "not negative; the linear wind coefficient is not used beyond about 15 m/s"))
+            valid=Valid(0.0, 15.0, "not negative; up to 15 m/s (a strong breeze), the range the published linear "
+                        "wind coefficient shown beside the correlation was fitted for"))
     b.section("Inputs", "Collector")
     b.input("tilt", "Collector slope from the horizontal", d["tilt"], "°", "0 flat ... 90 vertical",
             valid=Valid(0.0, 90.0, "a collector slope lies from 0 (flat) to 90° (vertical)"))
@@ -68,13 +77,19 @@ def build(b: TemplateBook) -> None:
     b.input("pressure", "Air pressure", d["pressure"], "Pa", "101325 at sea level", valid=gas_pressure())
 
     b.section("Calculation", "Outside coefficients")
-    b.step("h_wind", "Wind coefficient h_w = 2.8 + 3.0 V", "=2.8+3.0*wind_speed", "W/(m²·K)",
-           "Watmuff, Charters & Proctor (1977), as quoted by Duffie & Beckman (from memory)")
+    b.step("h_wind", "Published wind coefficient h_w = 2.8 + 3.0 V (comparison, and Klein's)", "=2.8+3.0*wind_speed",
+           "W/(m²·K)", b.unverified("wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters & Proctor "
+                                    "1977, as quoted by Duffie & Beckman)"))
     b.step("sigma", "Stefan-Boltzmann constant", f"={SIGMA_TEXT}", "W/(m²·K⁴)", "CODATA 2018")
-    b.section("Tables", "Network per m² of absorber, one cover (cover temperatures unknown)")
+    b.section("Tables", "Network per m² of absorber, one cover (cover temperatures unknown; p5 of the outer "
+                        "face: the wind speed)")
     b.branch_table("Tables", network_rows(1), "col_one_cover")
     b.section("Tables", "The same with two covers (the Number of glass covers picks the table)")
     b.branch_table("Tables", network_rows(2), "col_two_covers")
+    b.section("Tables", "Klein's assumptions: the outer face a film of the published h_w, one and two covers")
+    b.branch_table("Tables", network_rows(1, "published"), "col_one_cover_klein")
+    b.blank("Tables")
+    b.branch_table("Tables", network_rows(2, "published"), "col_two_covers_klein")
     b.section("Tables", "Boundaries: this sky, and the sky at the air temperature (Klein's assumption)")
     b.boundary_table("Tables", [["absorber", "T", "=t_absorber"], ["ambient", "T", "=t_ambient"],
                                ["sky", "T", "=t_sky"]], "col_bounds")
@@ -84,6 +99,7 @@ def build(b: TemplateBook) -> None:
     b.section("Calculation", "Network solution (network tables on the sheet Tables)")
     air = '"air",pressure'
     branches = "CHOOSE(covers,col_one_cover,col_two_covers)"
+    klein_branches = "CHOOSE(covers,col_one_cover_klein,col_two_covers_klein)"
     b.step("t_cover_1", "Cover 1 temperature", f'=NET_TEMP({branches},col_bounds,"cover-1",{air})', "°C")
     b.step("t_cover_top", "Outer cover temperature (cover 2, or cover 1 alone)",
            f'=NET_TEMP({branches},col_bounds,IF(covers=2,"cover-2","cover-1"),{air})', "°C")
@@ -91,7 +107,12 @@ def build(b: TemplateBook) -> None:
     b.step("q_rad_1", "Radiation absorber - cover 1", f'=NET_HEAT({branches},col_bounds,"rad-1",{air})', "W/m²")
     b.step("q_top", "Top loss per m² of absorber", "=q_gap_1+q_rad_1", "W/m²")
     b.step("u_top", "Top-loss coefficient U_t = q/(T_p - T_a)", "=q_top/(t_absorber-t_ambient)", "W/(m²·K)")
-    b.step("q_wind", "Loss to the air by the wind film", f'=NET_HEAT({branches},col_bounds,"wind",{air})', "W/m²")
+    b.step("q_wind", "Loss to the air from the outer face", f'=NET_HEAT({branches},col_bounds,"wind",{air})', "W/m²")
+    b.step("h_outside", "Outer face convection, natural and wind combined, at the solved cover temperature",
+           '=H_TPLATE(t_cover_top,t_ambient,collector_length,90-tilt,"up","air",pressure,"auto",wind_speed)',
+           "W/(m²·K)", "tilted plate facing up, length along the slope; h = (h_N³ + h_F³)^(1/3)")
+    b.step("h_outside_still", "The same face in still air", '=H_TPLATE(t_cover_top,t_ambient,collector_length,'
+           '90-tilt,"up","air",pressure,"auto")', "W/(m²·K)", "the natural part h_N alone")
     b.step("q_sky", "Loss to the sky by radiation", f'=NET_HEAT({branches},col_bounds,"sky",{air})', "W/m²")
     b.step("ra_1", "Gap 1 Rayleigh number", "=RAYLEIGH(t_absorber,t_cover_1,gap_1,\"air\",pressure)", "-",
            number_format="0.00E+00")
@@ -110,10 +131,13 @@ def build(b: TemplateBook) -> None:
            f'=IF(spread_count>0,h_gap_1*INDEX({spread},1,2)/nu_gap_1,'
            '"no correlation covers the case")', "W/(m²·K)")
     b.step("u_top_sky_air", "U_t with the sky at the air temperature (Klein's assumption)",
-           f'=(NET_HEAT({branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({branches},col_bounds_klein,'
-           f'"rad-1",{air}))/(t_absorber-t_ambient)', "W/(m²·K)", "same branches, sky node at t_ambient")
+           f'=(NET_HEAT({klein_branches},col_bounds_klein,"gap-1",{air})+NET_HEAT({klein_branches},'
+           f'col_bounds_klein,"rad-1",{air}))/(t_absorber-t_ambient)', "W/(m²·K)",
+           "outer face a film of the published h_w, sky node at t_ambient")
 
-    b.section("Calculation", "Klein's empirical top-loss equation (Duffie & Beckman eq. 6.4.9, from memory)")
+    b.section("Calculation", "Klein's empirical top-loss equation (Duffie & Beckman eq. 6.4.9; unverified, see Notes)")
+    b.unverified("Klein's top-loss equation and its constants as quoted by Duffie & Beckman eq. 6.4.9 "
+                 "(f, C = 520 (1 - 0.000051 beta²), e = 0.430 (1 - 100/T_pm), 0.00591, 0.133)")
     b.step("k_tp", "Absorber temperature T_pm", "=t_absorber+273.15", "K")
     b.step("k_ta", "Ambient temperature T_a", "=t_ambient+273.15", "K")
     b.step("k_f", "f = (1 + 0.089 h_w - 0.1166 h_w eps_p)(1 + 0.07866 N)",
@@ -138,6 +162,12 @@ def build(b: TemplateBook) -> None:
     b.result("cover_2_t", "Cover 2 temperature", '=IF(covers=2,TEXT(t_cover_top,"0.0")&" °C","no second cover")',
              text=True)
     b.result("sky_share", "Share of the outside loss radiated to the sky", "=100*q_sky/(q_wind+q_sky)", "%")
+    b.section("Results", "Outer face in the wind")
+    b.result("outside_h", "Convection coefficient, natural and wind combined (used)", "=h_outside", "W/(m²·K)")
+    b.result("outside_h_still", "The same face in still air", "=h_outside_still", "W/(m²·K)")
+    b.result("outside_h_published", "Published linear wind coefficient 2.8 + 3.0 V (comparison)", "=h_wind",
+             "W/(m²·K)", b.unverified("wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters & Proctor "
+                                      "1977, as quoted by Duffie & Beckman)"))
     b.section("Results", "Beside Klein's empirical equation (sky at the air temperature)")
     b.result("top_loss_u_klein_case", "U_t, network with the sky at the air temperature", "=u_top_sky_air",
              "W/(m²·K)")
@@ -146,7 +176,8 @@ def build(b: TemplateBook) -> None:
     b.result("klein_note", "Klein's stated range",
              '=IF(OR(t_absorber>200,t_absorber<t_ambient,tilt>90),"outside: plate from ambient to 200 °C",'
              '"inside its stated range (plate from ambient to 200 °C, slope 0-90°)")', text=True,
-             note="range from memory (Duffie & Beckman sec. 6.4)")
+             note=b.unverified("the stated range of Klein's equation (plate from ambient to 200 °C, "
+                               "slope 0-90°; Duffie & Beckman sec. 6.4)"))
     b.section("Results", "Checks and validity notes")
     b.result("network_check", "Network", f'=NET_CHECK({branches},col_bounds,"air",pressure)', text=True)
     b.result("gap1_method", "Gap 1 correlation", '=CAVITY_METHOD(ra_1,pr_1,collector_length/gap_1,tilt,"auto")',
@@ -155,6 +186,13 @@ def build(b: TemplateBook) -> None:
              text=True)
     b.result("gap1_check", "Gap 1: h ΔT minus the network's convection", "=h_gap_1*(t_absorber-t_cover_1)-q_gap_1",
              "W/m²", "0 when consistent")
+    b.result("outside_check", "Outer face: h ΔT minus the network's convection",
+             "=h_outside*(t_cover_top-t_ambient)-q_wind", "W/m²", "0 when consistent (round-off shows)",
+             number_format="0.0E+00")
+    b.result("outside_note", "Outer face validity",
+             '=NU_NOTE("tplate",RAYLEIGH(t_cover_top,t_ambient,collector_length,"air",pressure),'
+             'AIR_PRANDTL((t_cover_top+t_ambient)/2,pressure),IF(t_cover_top>=t_ambient,"hot-up","cold-up"),'
+             '90-tilt,"","auto")', text=True, note="natural part; NET_CHECK above covers the wind part too")
     b.caution("Results", "Caution: absorber and cover surfaces can be hot enough to burn, and a collector "
                          "without flow (stagnation) gets far hotter than in operation. Use the manufacturer's "
                          "ratings, local codes and licensed practice for design and safety.")
@@ -163,27 +201,41 @@ def build(b: TemplateBook) -> None:
     b.paragraph("Method. A thermal network per m² of absorber, solved to convergence: the absorber at its mean "
                 "plate temperature; each gas layer is a cavity branch (convection across an air layer tilted at "
                 "the collector slope, heated from below) in parallel with grey radiation between parallel faces; "
-                "the outer cover loses heat by a wind film h_w to the ambient air and by radiation (emittance of "
-                "glass) to the sky. U_t = top loss / (T_plate - T_ambient). Covers are thin glass: no conduction "
-                "resistance and opaque to long-wave radiation.")
-    b.paragraph("Wind: h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters and Proctor 1977, as quoted by Duffie & "
-                "Beckman, Solar Engineering of Thermal Processes, sec. 3.15; from memory). Other wind "
-                "correlations give different h_w; the result is sensitive to it at one cover.")
+                "the outer cover loses heat to the ambient air by convection (a tilted plate facing up, natural "
+                "convection and the wind combined) and by radiation (emittance of glass) to the sky. U_t = top "
+                "loss / (T_plate - T_ambient). Covers are thin glass: no conduction resistance and opaque to "
+                "long-wave radiation.")
+    b.paragraph("Wind: the outer face is a plate tilted (90° - slope) from the vertical, facing up, in a wind "
+                "blowing along it over the collector length. Natural convection (the tilted-plate correlation "
+                "below) and forced convection over a flat plate are combined as "
+                f"{MIXING_EQUATION}. Source of the combination: {MIXING_SOURCE}. "
+                "Wind 0 gives the still-air value.")
+    b.cite("Forced part, laminar boundary layer (up to Re 5e5)", "plate-flow", "pohlhausen")
+    b.cite("Forced part, laminar then turbulent boundary layer (Re above 5e5)", "plate-flow", "mixed-boundary-layer")
+    b.cite("Natural part, upward face of a tilted plate", "tplate", "raithby-hollands")
+    b.paragraph("Comparison: the published linear wind coefficient h_w = 2.8 + 3.0 V W/(m²·K) (Watmuff, Charters "
+                "and Proctor 1977, as quoted by Duffie & Beckman, Solar Engineering of Thermal Processes, "
+                "sec. 3.15; unverified, see the list below) is shown beside the correlation and is the h_w of Klein's equation and "
+                "of the Klein-case network. Field coefficients of this kind include free-stream turbulence and "
+                "edge effects that the flat-plate boundary layer leaves out, and usually come out higher; the "
+                "difference between the two is a measure of how uncertain the outside coefficient is. The "
+                "top loss is sensitive to it at one cover.")
     b.paragraph("Klein's empirical equation: S.A. Klein, Calculation of flat-plate collector loss coefficients, "
                 "Solar Energy 17 (1975) 79-80, in the revised form quoted by Duffie & Beckman, Solar Engineering "
-                "of Thermal Processes, eq. 6.4.9 (from memory): U_t = {N/[(C/T_pm)((T_pm - T_a)/(N + f))^e] + "
+                "of Thermal Processes, eq. 6.4.9 (unverified): U_t = {N/[(C/T_pm)((T_pm - T_a)/(N + f))^e] + "
                 "1/h_w}^-1 + sigma (T_pm + T_a)(T_pm² + T_a²)/{(eps_p + 0.00591 N h_w)^-1 + (2N + f - 1 + 0.133 "
                 "eps_p)/eps_g - N}, f = (1 + 0.089 h_w - 0.1166 h_w eps_p)(1 + 0.07866 N), C = 520 (1 - 0.000051 "
                 "beta²) for 0-70° (70° above), e = 0.430 (1 - 100/T_pm). It takes the sky at the air temperature "
                 "and gaps of about 25 mm, so it is compared with the network solved with the sky at the air "
-                "temperature; stated accuracy about +-0.3 W/(m²·K) (from memory).")
+                "temperature; stated accuracy about +-0.3 W/(m²·K) (unverified).")
+    b.unverified("the stated accuracy of Klein's equation, about +-0.3 W/(m²·K)")
     used = sorted({str(stillair.cavity_method(ra, 0.7, 60.0, t)) for ra in (3.0e3, 3.0e4, 1.0e5)
                    for t in (0.0, 30.0, 45.0, 60.0)})
     b.spread_note("gap 1 convection coefficient")
     b.paragraph("Cavity correlations the automatic choice uses for tilted collector gaps:")
     for method in used:
         c = cav[("cavity", method)]
-        b.paragraph(f"- cavity {method}: {c.title}. Source: {c.source}")
+        b.paragraph(f"- cavity {method}: {c.title}. Source: {source_of('cavity', method)}")
     b.paragraph("The Results sheet names the correlation used at these inputs and whether it is in its range.")
     b.paragraph("Assumptions: steady state; absorber isothermal at its mean temperature; no edge or back losses "
                 "(add them separately); covers opaque to long-wave radiation; no solar absorption in the covers.")
@@ -193,7 +245,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="solar-collector", version=3, title="Flat-plate collector top loss",
+    name="solar-collector", version=4, title="Flat-plate collector top loss",
     summary="Top-loss coefficient of a flat-plate solar collector with one or two covers, beside Klein's "
             "empirical equation.",
     build=build)

@@ -9,13 +9,15 @@ import math
 from dataclasses import dataclass
 from importlib import import_module
 from pathlib import Path
-from typing import Callable
+from typing import Any, Callable
 
 __all__ = ["Template", "Valid", "TemplateBuildError", "TEMPLATE_DIR", "MARKER_NAME", "FAILED",
            "CELL_STYLES", "significant_format", "gas_temperature", "gas_pressure", "altitude"]
 
 # The workbooks ship as the package stillair.templates (the top-level templates/ folder).
-TEMPLATE_DIR = Path(import_module("stillair.templates").__file__).resolve().parent
+_TEMPLATES_PACKAGE = import_module("stillair.templates")
+assert _TEMPLATES_PACKAGE.__file__ is not None, "stillair.templates is a regular package (has __init__.py)"
+TEMPLATE_DIR = Path(_TEMPLATES_PACKAGE.__file__).resolve().parent
 MARKER_NAME = "stillair_template"
 # A fixed creation date keeps rebuilt files identical apart from what changed in the code.
 FIXED_DATE = _dt.datetime(2026, 1, 1, 0, 0, 0)
@@ -76,8 +78,8 @@ SCIENTIFIC = "0.000E+00"
 UNIT_FORMATS = {
     "°C": "0.0", "K": "0.0", "°": "0.0", "%": "0.0", "mm": "0.0",
     "W/(m²·K)": SIG3, "W/(m·K)": SIG3, "W/K": SIG3, "m²·K/W": SIG3, "K/W": SIG3, "-": SIG3,
-    "W": "0.0", "W/m²": "0.0", "W/m": "0.0", "W/m or W/m²": "0.0",
-    "m": "0.0000", "m²": "0.000", "m or m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
+    "W": "0.0", "W/m²": "0.0", "W/m": "0.0",
+    "m": "0.0000", "m²": "0.000", "Pa": "0", "m/s": "0.00", "m/s²": "0.00000",
     "W/(m²·K⁴)": SCIENTIFIC, "m²/s": SCIENTIFIC, "1/K": SCIENTIFIC, "1/(K·m³)": SCIENTIFIC,
     "kg/m³": "0.0000", "J/(kg·K)": "0.0", "kg/s": SIG3, "m³/s": SIG3, "m³/h": SIG3, "1/(kg·m)": SCIENTIFIC,
 }
@@ -106,7 +108,9 @@ class Template:
     version: int
     title: str
     summary: str
-    build: Callable[["TemplateBook"], None]  # noqa: F821  (templates.book, which imports this)
+    # takes a book.TemplateBook; book.py imports this module and addin's modules import without a
+    # cycle (tests/test_addin_layout.py), so the type is not named here
+    build: Callable[[Any], None]
 
     @property
     def marker(self) -> str:
@@ -138,7 +142,7 @@ class Valid:
         u = f" {unit}" if unit not in ("", "-") else ""
         low = None if self.low is None else f"{'above' if self.low_open else 'at least'} {_num(self.low)}{u}"
         high = None if self.high is None else f"{'below' if self.high_open else 'at most'} {_num(self.high)}{u}"
-        if low and high and not self.low_open and not self.high_open:
+        if self.low is not None and self.high is not None and not self.low_open and not self.high_open:
             words = f"from {_num(self.low)} to {_num(self.high)}{u}"
         else:
             words = " and ".join(part for part in (low, high) if part)

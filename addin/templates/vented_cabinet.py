@@ -148,9 +148,12 @@ def build(b) -> None:
                 "that of the air passing the opening. The Calculation sheet re-computes m from the solved "
                 "temperatures so a checker can follow it. Sources: the orifice equation and the stack pressure "
                 "as in BS 5925:1991, clauses 9 and 12, and ASHRAE Handbook - Fundamentals, chapter Ventilation "
-                "and Infiltration (both from memory); for equal openings and small temperature differences it "
+                "and Infiltration (both unverified, listed below); for equal openings and small temperature differences it "
                 "is their Q = Cd A* (2 g H dT / T)^(1/2), 1/A*² = 1/A_low² + 1/A_high².")
-    b.paragraph("Discharge coefficient 0.61 (UNVERIFIED, from memory): the value the ventilation codes take for "
+    b.unverified("the orifice equation and stack pressure as in BS 5925:1991 clauses 9 and 12 and the ASHRAE "
+                 "Handbook - Fundamentals, Ventilation and Infiltration")
+    b.unverified("the discharge coefficient 0.61 of sharp-edged openings (BS 5925:1991)")
+    b.paragraph("Discharge coefficient 0.61 (UNVERIFIED, listed below): the value the ventilation codes take for "
                 "sharp-edged openings (BS 5925:1991); Kirchhoff's free-streamline contraction of a slot, "
                 "pi/(pi+2) = 0.611, gives the same two digits. Rounded or deep openings pass more; at low "
                 "velocities (small openings, small temperature differences) the coefficient falls. Use a "
@@ -179,7 +182,8 @@ def build(b) -> None:
     b.section("Notes", "Assumptions")
     b.paragraph("The internal air is well mixed at one temperature and leaves at it; real cabinets stratify, "
                 "the air near the top and at the outlet is warmer than the mean. All dissipation is released to "
-                "the air. No wind: wind on the openings can help or oppose the stack flow. The openings are "
+                "the air. The wind speed acts on the outer faces only (mixed convection, see the wind note above); "
+                "wind pressure on the openings, which can help or oppose the stack flow, is not modelled. The openings are "
                 "small against the walls; the walls keep their full areas. The floor is adiabatic. Results are "
                 "steady state.")
     b.section("Notes", "Cautions")
@@ -191,7 +195,7 @@ def build(b) -> None:
                 "licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 1, "Ventilated outdoor cabinet",
+TEMPLATE = Template(NAME, 3, "Ventilated outdoor cabinet",
                     "Internal air temperature of an outdoor cabinet cooled by the stack airflow through a low and "
                     "a high opening, with walls, sun and radiation, against a limit, and the fan airflow needed "
                     "instead.", build)

@@ -61,7 +61,9 @@ def encode(value) -> tuple[str | None, bytes]:
 
 def _rewrite_cell(match: re.Match, value) -> bytes:
     whole, start_attrs, body = match.group(0), match.group(1), match.group(2)
-    prefix = re.match(rb"<((?:[A-Za-z_][\w.-]*:)?)c", whole).group(1)
+    opening = re.match(rb"<((?:[A-Za-z_][\w.-]*:)?)c", whole)
+    assert opening is not None  # CELL_RE matched this text, which starts with the same <c
+    prefix = opening.group(1)
     t, content = encode(value)
     if t is None:
         start_attrs = _T_ATTR_RE.sub(b"", start_attrs)

@@ -52,6 +52,7 @@ def judge(value, raw, scale: float, where: str, own_errors, own_notes, upstream_
     """The status of one computed value.  ``raw`` is the library's value, ``value`` its plain
     form; ``upstream_error`` the first error among the cells the formula read.  A defined
     name's value keeps its notes under "value": only an error upstream matters to its readers."""
+    messages: tuple[str, ...]
     if name:
         if upstream_error is not None:
             status, messages, cause = ("error", (f"depends on an error in {upstream_error.cause}",),
@@ -119,6 +120,7 @@ def calculate_node(model, node, key, values, results, recorder, area_values) -> 
     if failed is not None:
         return cannot_evaluate(members, values, f"depends on {failed.cause}, which cannot be evaluated",
                                failed.cause)
+    assert function is not None and positions is not None  # compile gives both when no problem
     args = []
     scale = 0.0
     for position in positions:

@@ -102,7 +102,24 @@ def register_functions() -> None:
 
         cell_function.__name__ = entry.name
         table[entry.name] = wrap_func(cell_function)
+    for name, axis in (("ROWS", 0), ("COLUMNS", 1)):
+        table[name] = _counting_arrays_too(table[name], axis)
     _registered = True
+
+
+def _counting_arrays_too(original, axis: int):
+    """ROWS / COLUMNS that also count a computed array, as Excel and LibreOffice do
+    (``ROWS(NET_SOLVE(...))`` is the rows of the solved table); formulas counts references only."""
+    import numpy as np
+
+    def count(value, *rest):
+        if isinstance(value, np.ndarray) and not rest:
+            shape = value.shape if value.ndim == 2 else (1, value.size)
+            return shape[axis]
+        return original(value, *rest)
+
+    count.__name__ = getattr(original, "__name__", "count")
+    return count
 
 
 def _is_error_result(entry, result: str, new_notes) -> bool:

@@ -31,7 +31,7 @@ from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
                               to_formulas, xl_error)
 from .formulatext import Reference, parse_reference
-from .rewrite import prepare
+from .rewrite import Prepared, prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
 from .status import CellResult, Evaluation, label, quote_sheet
@@ -51,7 +51,7 @@ class _Node:
     row: int
     col: int
     text: str                   # the workbook's formula, without "="
-    prepared: object = None     # formulatext.Prepared
+    prepared: Prepared | None = None
     array: tuple | None = None  # (r1, c1, r2, c2) for an array formula
     deps: set = field(default_factory=set)
     sources: list = field(default_factory=list)  # per reference: the sheet an area is on (None:
@@ -75,7 +75,7 @@ class Model:
         started = time.perf_counter()
         self.book = book
         self.sheet_case = {s.name.upper(): s.name for s in book.sheets}
-        self.used = {s.name.upper(): (s.last_row, s.last_col) for s in book.sheets}
+        self.used: dict[str | None, tuple[int, int]] = {s.name.upper(): (s.last_row, s.last_col) for s in book.sheets}
         self.sheets = {s.name: s for s in book.sheets}
         # Formula cells by position: sheet -> column -> sorted rows (array members point to
         # their anchor through ``owner``).
@@ -223,6 +223,7 @@ class Model:
     def compile(self, node: _Node, share: bool = True):
         """The compiled function for the node's shape, and which reference feeds each input."""
         prepared = node.prepared
+        assert prepared is not None  # only prepared nodes are compiled
         cached = self._compiled.get(prepared.key) if share else None
         if cached is None:
             try:
@@ -305,17 +306,19 @@ class Model:
 
         def area_values(sheet_name, reference: Reference):
             if reference.r1 == reference.r2 and reference.c1 == reference.c2:
-                array = np.empty((1, 1), dtype=object)
-                array[0, 0] = cell_value(sheet_name, f"{index_to_col(reference.c1)}{reference.r1}")
-                return array
+                one_cell = np.empty((1, 1), dtype=object)
+                one_cell[0, 0] = cell_value(sheet_name, f"{index_to_col(reference.c1)}{reference.r1}")
+                return one_cell
             # Cells are calculated after every formula cell they read, so a range's values are
             # final when it is first read: later readers of the same range share the array.
             area_key = (sheet_name, reference.r1, reference.c1, reference.r2, reference.c2)
             array = area_cache.get(area_key)
             if array is not None:
                 return array
-            array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
-                            empty, dtype=object)
+            # fill(), not np.full: np.full converts the blank sentinel (a str subclass) into the
+            # text "empty", so cells past the used range read as text, not blank
+            array = np.empty((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1), dtype=object)
+            array.fill(empty)
             sheet = self.sheets[sheet_name]
             last_row, last_col = sheet.last_row, sheet.last_col
             letters = [index_to_col(c) for c in range(reference.c1, min(reference.c2, last_col) + 1)]

@@ -11,6 +11,7 @@ import posixpath
 import re
 import zipfile
 from dataclasses import dataclass, field
+from typing import Any, Iterator
 
 from defusedxml import ElementTree
 
@@ -258,7 +259,7 @@ class _NoPosition(Exception):
     """A cell without an r attribute: the sheet is read again row by row."""
 
 
-def _cells_by_row(xml: bytes):
+def _cells_by_row(xml: bytes) -> Iterator[tuple[re.Match[bytes], bytes, bytes]]:
     """Every <c> with its position; the r attributes of rows and cells are optional in the file
     format (some writers leave them out): then a cell follows the one before it in its row, and
     a row the row before it."""
@@ -302,6 +303,7 @@ def _scan_cells(sheet: Sheet, xml: bytes, shared: list[str], counts: list[int], 
     columns: dict[bytes, int] = {}
     formulas, values = sheet.formulas, sheet.values
     search = _R_ATTR_RE.search
+    item: Any  # a (match, column, row) triple by row, else a bare match: `by_row` tells which
     for item in (_cells_by_row(xml) if by_row else CELL_RE.finditer(xml)):
         if by_row:
             match, letters, digits = item

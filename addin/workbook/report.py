@@ -3,8 +3,6 @@ results, or the last computed cells), the notes grouped by message, and the JSON
 
 from __future__ import annotations
 
-import re
-
 from .reader import index_to_col, split_ref
 from .status import Evaluation, label
 
@@ -79,27 +77,56 @@ def _summary_cells(evaluation):
     return rows
 
 
-def _split_label(text: str) -> tuple[str, str, int] | None:
-    sheet, sep, ref = text.rpartition("!")
-    try:
-        row, _ = split_ref(ref)
-    except ValueError:
-        return None
-    return (sheet, re.sub(r"\d", "", ref), row) if sep else None
-
-
 def compress_cells(labels: list[str]) -> str:
-    """"S!B3, S!B4, S!B5, S!D2" -> "S!B3:B5, S!D2": runs down one column become ranges."""
-    runs: list[list] = []  # [sheet, column, first row, last row] or [label]
+    """Cells named one by one as ranges: "S!D34, S!E34, S!D35, S!E35, S!B3" -> "S!B3, S!D34:E35".
+
+    Per sheet (in the order the sheets first occur), runs along a row are joined first, then
+    equal runs on consecutive rows into one rectangle; each sheet's ranges in reading order.
+    A label that is not a cell ("(workbook)") is kept as it is, where it first occurs."""
+    cells: dict[str, set[tuple[int, int]]] = {}
+    order: list[tuple[str, str | None]] = []       # (sheet, None) or ("", a label kept as is)
     for text in labels:
-        parts = _split_label(text)
-        last = runs[-1] if runs else None
-        if parts and last and len(last) == 4 and last[:2] == list(parts[:2]) and parts[2] == last[3] + 1:
-            last[3] = parts[2]
+        sheet, sep, ref = text.rpartition("!")
+        try:
+            at = split_ref(ref) if sep else None
+        except ValueError:
+            at = None
+        if at is None:
+            order.append(("", text))
+            continue
+        if sheet not in cells:
+            cells[sheet] = set()
+            order.append((sheet, None))
+        cells[sheet].add(at)
+    parts = []
+    for sheet, kept in order:
+        parts += [kept] if kept is not None else [f"{sheet}!{block}" for block in _rectangles(cells[sheet])]
+    return ", ".join(parts)
+
+
+def _rectangles(cells: set[tuple[int, int]]) -> list[str]:
+    """(row, column) cells as "A1" / "B2:D5" blocks: row runs, stacked where they repeat."""
+    runs: list[list[int]] = []                      # [row, first column, last column]
+    for row, col in sorted(cells):
+        if runs and runs[-1][0] == row and runs[-1][2] == col - 1:
+            runs[-1][2] = col
         else:
-            runs.append([*parts[:2], parts[2], parts[2]] if parts else [text])
-    return ", ".join(f"{r[0]}!{r[1]}{r[2]}" + (f":{r[1]}{r[3]}" if r[3] != r[2] else "")
-                     if len(r) == 4 else r[0] for r in runs)
+            runs.append([row, col, col])
+    blocks: list[list[int]] = []                    # [first row, last row, first column, last column]
+    open_blocks: dict[tuple[int, int], list[int]] = {}
+    for row, first, last in runs:
+        block = open_blocks.get((first, last))
+        if block is not None and block[1] == row - 1:
+            block[1] = row
+        else:
+            block = [row, row, first, last]
+            blocks.append(block)
+            open_blocks[(first, last)] = block
+    names = []
+    for top, bottom, left, right in blocks:
+        start, end = f"{index_to_col(left)}{top}", f"{index_to_col(right)}{bottom}"
+        names.append(start if start == end else f"{start}:{end}")
+    return names
 
 
 def group_notes(notes) -> list[tuple[str, str]]:

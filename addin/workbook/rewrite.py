@@ -113,7 +113,7 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
     and columns are cut there, so they cost what the used range costs.  A formula of the same
     relative form as one prepared before (a row copied down) reuses that one's work."""
     relative = _relative_form(formula.lstrip("="), row, col) if cache is not None else None
-    if relative is None:
+    if relative is None or cache is None:
         return _prepare(formula, row, col, used, own_sheet)
     form, cells = relative
     cache_key = (form, own_sheet.upper())
@@ -151,11 +151,16 @@ class _LazyPrepared(Prepared):
             self._text = _prepare(*self._source).text
         return self._text
 
+    @text.setter  # Prepared's text is a writable field; so is this one
+    def text(self, value: str) -> None:
+        self._text = value
+
 
 def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
     """For each reference of ``prepared``, the indices in ``cells`` of its written corners
     (none for names and whole rows or columns); None when they cannot be matched up."""
-    corners, at = [], 0
+    corners: list[tuple[int, ...]] = []
+    at = 0
     for reference in prepared.references:
         if reference.kind != "area" or reference.whole:
             corners.append(())
@@ -229,7 +234,7 @@ def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int,
                 out.append('""')            # F(a,) : the last argument is missing
                 key.append('""')
             opened = stack.pop() if stack else None
-            lambda_closed = bool(opened) and opened[2].upper().endswith("LAMBDA(")
+            lambda_closed = opened is not None and opened[2].upper().endswith("LAMBDA(")
             if opened and opened[2].upper() in ("ROW(", "COLUMN(") and out and out[-1] == opened[2]:
                 # ROW() / COLUMN() without an argument: this cell's own row or column.
                 out[-1] = str(row if opened[2].upper() == "ROW(" else col)

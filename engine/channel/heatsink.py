@@ -12,10 +12,11 @@ from ..constants import STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS as zero_Celsius
 
 from ..convection import surface_convection
 from ..groups import DEFAULT_PRESSURE
+from ..gases import require_gas_temperature
 from .._docs import shared_docs
 from .walls import FIN_TIPS, channel_convection
 from ..validity import (InputError, distinct_notes, require_between, require_choice, require_finite,
-                        require_positive, unwrap, warn_out_of_range)
+                        require_length, require_positive, unwrap, warn_out_of_range)
 
 # --------------------------------------------------------------------------------------------
 # Plate-fin heat sink
@@ -44,6 +45,12 @@ class HeatSinkResult:
 
     def scalar(self) -> "HeatSinkResult":
         return HeatSinkResult(**{name: unwrap(getattr(self, name)) for name in self.__dataclass_fields__})
+
+#: The largest dimensions of a plate-fin heat sink this model takes, in m (our judgement: no
+#: plate-fin sink cooled by still air is larger; beyond them a dimension is almost surely
+#: typed in mm, and the call is refused with the value): base width and fin length (its
+#: height along the flow) 3 m, fin height (out from the base) 1 m, fin thickness 0.1 m.
+HEATSINK_SIZE_LIMITS = {"base_width": 3.0, "fin_length": 3.0, "fin_height": 1.0, "fin_thickness": 0.1}
 
 
 def _fin_efficiency(h, conductivity, thickness, length, fin_height, tip):
@@ -116,12 +123,12 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     (30.2, 21.8, 1.8, 6.5)
     """
     tip = require_choice(function_name, "tip", tip, FIN_TIPS)
-    t_base = require_finite(function_name, "t_base", t_base)
-    t_ambient = require_finite(function_name, "t_ambient", t_ambient)
-    width = require_positive(function_name, "base_width", base_width, "m")
-    fin_height = require_positive(function_name, "fin_height", fin_height, "m")
-    length = require_positive(function_name, "fin_length", fin_length, "m")
-    thickness = require_positive(function_name, "fin_thickness", fin_thickness, "m")
+    t_base = require_gas_temperature(function_name, "t_base", t_base, gas)
+    t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
+    width = require_length(function_name, "base_width", base_width, HEATSINK_SIZE_LIMITS["base_width"])
+    fin_height = require_length(function_name, "fin_height", fin_height, HEATSINK_SIZE_LIMITS["fin_height"])
+    length = require_length(function_name, "fin_length", fin_length, HEATSINK_SIZE_LIMITS["fin_length"])
+    thickness = require_length(function_name, "fin_thickness", fin_thickness, HEATSINK_SIZE_LIMITS["fin_thickness"])
     count = require_finite(function_name, "fin_count", fin_count)
     bad = (count < 2) | (count != np.floor(count))
     if np.any(bad):
@@ -232,7 +239,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     """
     function_name = "heatsink_tbase"
     q = require_between(function_name, "q", q, 0.0, np.inf, "W")
-    t_ambient = require_finite(function_name, "t_ambient", t_ambient)
+    t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
     # Check the geometry once, in full, so its messages name this function (and before the
     # arrays below, whose float conversion would otherwise meet a bad cell first).
     heatsink(t_ambient + 1.0, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,

@@ -11,7 +11,8 @@ from numpy.typing import ArrayLike
 from ..groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, film_properties
 from .walls import (BAR_COHEN_ROHSENOW, CHANNEL_CASES, CHANNEL_OPTIMA, FLUX_CASES, PLATE_OPTIMUM_FRACTION,
                     _composite)
-from ..validity import InputError, require_choice, require_positive, unwrap
+from ..plausibility import length_slip, temperature_slip, warn_slips
+from ..validity import InputError, require_choice, require_length, require_positive, unwrap
 
 # --------------------------------------------------------------------------------------------
 # Optimum spacing
@@ -92,8 +93,9 @@ def channel_spacing(ts: ArrayLike, tf: ArrayLike, height: ArrayLike, case: str =
     function_name = "channel_spacing"
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
     optimum = require_choice(function_name, "optimum", optimum, CHANNEL_OPTIMA)
-    height = require_positive(function_name, "height", height, "m")
-    props, _, beta = film_properties(ts, tf, gas, pressure, function_name=function_name)
+    height = require_length(function_name, "height", height)
+    props, _, beta = film_properties(ts, tf, gas, pressure, function_name=function_name, names=("ts", "tf"))
+    warn_slips(function_name, temperature_slip({"ts": ts, "tf": tf}), length_slip("height", height))
     delta_t = np.abs(np.subtract(ts, tf, dtype=float))
     if np.any(delta_t == 0):
         raise InputError(function_name, "ts", ts, "different from tf (no buoyancy, no optimum)")

@@ -11,7 +11,8 @@ from ..correlations import (AutoStep, Geometry, Parameter, correlation, define_g
                             nusselt_at_difference, nusselt_value)
 from ..groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
 from .._docs import shared_docs
-from ..validity import Range, require_choice, require_positive
+from ..plausibility import length_slip, temperature_slip, warn_slips
+from ..validity import Range, require_choice, require_length, require_positive
 
 CHANNEL_CASES = ("isothermal", "isothermal-adiabatic", "flux", "flux-adiabatic")
 FLUX_CASES = ("flux", "flux-adiabatic")
@@ -205,9 +206,10 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     (4.9, 'bar-cohen-rohsenow')
     """
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
-    spacing = require_positive(function_name, "spacing", spacing, "m")
-    height = require_positive(function_name, "height", height, "m")
-    props, t_film, beta = film_properties(ts, tf, gas, pressure, property_temperature=property_temperature,
+    spacing = require_length(function_name, "spacing", spacing)
+    height = require_length(function_name, "height", height)
+    props, t_film, beta = film_properties(ts, tf, gas, pressure, names=("ts", "tf"),
+                                          property_temperature=property_temperature,
                                           ideal_expansion=ideal_expansion, function_name=function_name)
     delta_t = np.subtract(ts, tf, dtype=float)
     gr, ra = buoyancy_groups(props, beta, delta_t, spacing)
@@ -218,6 +220,11 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
                                    aspect=aspect)
     ra = CHANNEL.correlation_rayleigh(ra, result.nu, case)
     h = result.nu * props.conductivity / spacing
+    slip = warn_slips(function_name, temperature_slip({"ts": ts, "tf": tf}), length_slip("spacing", spacing),
+                      length_slip("height", height), stacklevel=4)
+    if slip:
+        note = np.asarray(result.note, dtype=object)
+        result.note = np.where(note == "", slip, note + "; " + slip)
     return ConvectionResult(h=_full(h, shape), nu=result.nu, ra=_full(ra, shape), gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape), conductivity=_full(props.conductivity, shape),
                             length=_full(spacing, shape),

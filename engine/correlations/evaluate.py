@@ -10,12 +10,19 @@ from typing import Mapping
 import numpy as np
 
 from .._typing import ArrayLike
-from ..validity import (InputError, PLAIN_NUMBERS, require_between, require_choice, require_nonnegative,
+from ..validity import (InputError, PLAIN_NUMBERS, format_value, require_between, require_choice, require_nonnegative,
                         require_positive, unwrap, warn_out_of_range)
 from .auto import auto_arrays, auto_scalar
 from .registry import CORRELATIONS, GEOMETRIES, methods_for
 from .single import _evaluate_one, _first, _scalar_note, _scalar_result
 from .types import Geometry, NusseltResult
+
+#: The largest value of each dimensionless input that any physics of still fluids admits: Ra
+#: 1e30 (beyond the atmosphere's own scale), Pr 1e7 (the most viscous oils are near 1e5-1e6),
+#: a shape ratio 1e9 (two lengths of the allowed 1 um-1 km).  Beyond: an error naming the
+#: value; inside but outside every correlation's range: the out-of-range note.
+INPUT_LIMITS = {"ra": 1e30, "pr": 1e7, "aspect": 1e9, "slenderness": 1e9}
+
 
 def _input_domain(name: str, geo: Geometry) -> tuple[float, float, bool]:
     """Where :func:`nusselt` accepts a geometry input: (low, high, low end open), finite always.
@@ -23,7 +30,7 @@ def _input_domain(name: str, geo: Geometry) -> tuple[float, float, bool]:
     read it."""
     if name == "tilt":
         return geo.tilt_range[0], geo.tilt_range[1], False
-    return 0.0, math.inf, name != "ra"     # Ra >= 0; Pr, aspect, slenderness > 0
+    return 0.0, INPUT_LIMITS.get(name, math.inf), name != "ra"     # Ra >= 0; Pr, aspect, slenderness > 0
 
 
 _INPUT_LABELS = {"ra": "Ra", "pr": "Pr"}   # the other inputs are named as typed
@@ -32,9 +39,14 @@ _INPUT_LABELS = {"ra": "Ra", "pr": "Pr"}   # the other inputs are named as typed
 def _check_input(function_name: str, name: str, value, geo: Geometry) -> np.ndarray:
     low, high, low_open = _input_domain(name, geo)
     label = _INPUT_LABELS.get(name, name)
-    if not math.isinf(high):
-        return require_between(function_name, label, value, low, high, "deg")  # tilt
-    return (require_positive if low_open else require_nonnegative)(function_name, label, value)
+    if name == "tilt":
+        return require_between(function_name, label, value, low, high, "deg")
+    array = (require_positive if low_open else require_nonnegative)(function_name, label, value)
+    too_large = array > high
+    if np.any(too_large):
+        raise InputError(function_name, label, array[too_large].flat[0] if array.ndim else array.item(),
+                         f"at most {format_value(high)} (no still fluid reaches more)")
+    return array
 
 
 def _with_default_tilt(geo: Geometry, inputs: dict) -> dict:
@@ -122,8 +134,8 @@ def nusselt(geometry: str, method: str | None = "auto", case: str | None = None,
     >>> bool(result.in_range), str(result.note)
     (False, 'lloyd-moran: Ra = 1e+12 above 1e+11 (valid 10000 <= Ra <= 1e+11)')
     """
-    geo = GEOMETRIES[geometry]
-    function_name = function_name or f"nu_{geometry}"
+    function_name = function_name or (f"nu_{geometry}" if geometry in GEOMETRIES else "nusselt")
+    geo = GEOMETRIES[require_choice(function_name, "geometry", geometry, tuple(GEOMETRIES))]
     if geo.cases:
         case = require_choice(function_name, "case", case, geo.cases)
     else:
@@ -208,8 +220,18 @@ def merge_masked(result_type, parts, shape):
 
 
 def nusselt_value(geometry: str, method, case=None, *, function_name: str, **inputs):
-    """Nu alone (float for scalar inputs), warning when any input is outside the range."""
-    return unwrap(nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu)
+    """Nu alone (float for scalar inputs), warning when any input is outside the range.
+
+    A correlation whose formula is infinite at Ra = 0 (Popiel's curvature term: no boundary
+    layer at all) is refused by the argument that made it so rather than returned as inf."""
+    nu = nusselt(geometry, method, case, function_name=function_name, warn=True, **inputs).nu
+    infinite = ~np.isfinite(nu)
+    if np.any(infinite):
+        ra = np.broadcast_to(np.asarray(inputs["ra"], dtype=float), np.shape(nu))
+        raise InputError(function_name, "Ra", ra[infinite].flat[0] if np.ndim(nu) else float(ra),
+                         f"> 0 for geometry \"{geometry}\" (its correlation is infinite at Ra = 0, "
+                         "where nothing drives the flow)")
+    return unwrap(nu)
 
 
 def nusselt_at_difference(geometry: str, method, case=None, *, function_name: str, ra, **inputs) -> NusseltResult:

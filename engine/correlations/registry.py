@@ -81,7 +81,7 @@ def methods_for(geometry: str, case: str | None = None) -> list[str]:
     Examples
     --------
     >>> methods_for("hplate", "hot-up")
-    ['lloyd-moran', 'mcadams']
+    ['lloyd-moran', 'vdi', 'mcadams']
     """
     key = (geometry, case)
     if key not in _METHODS_CACHE:

@@ -81,7 +81,7 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
     --------
     >>> spread = nu_spread("hcyl", 1e6, 0.71)
     >>> spread.methods, round(spread.low, 2), round(spread.high, 2)
-    (('churchill-chu', 'morgan'), 14.54, 15.18)
+    (('kuehn-goldstein', 'churchill-chu', 'morgan'), 13.63, 15.18)
     """
     geo = _geometry(function_name, geometry)
     given = _with_default_tilt(geo, {"ra": ra, "pr": pr, "tilt": tilt, "aspect": aspect,
@@ -98,8 +98,17 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
         nu = np.broadcast_to(np.asarray(corr.function(**args), dtype=float), flat["ra"].shape)
         if geo.floor is not None:
             nu = np.maximum(nu, geo.floor)
+        inside = corr.inside(flat, case)
         names.append(method)
-        values.append(np.where(corr.inside(flat, case), nu, np.nan))
+        values.append(np.where(inside, nu, np.nan))
+        for form, coverage in _form_coverage(geo, case, method, flat):
+            # a piecewise correlation's other band, where auto blends the two across their
+            # published edge: the literature's own step is part of its spread
+            form_nu = np.broadcast_to(np.asarray(corr.forms[form](**args), dtype=float), nu.shape)
+            if geo.floor is not None:
+                form_nu = np.maximum(form_nu, geo.floor)
+            names.append(f"{method} ({form} form)")
+            values.append(np.where(inside & (coverage > 0.0) & (form_nu != nu), form_nu, np.nan))
     table = np.array(values).reshape(len(names), -1)            # (methods, points)
     covered = ~np.isnan(table)
     count = covered.sum(axis=0)
@@ -115,6 +124,19 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
                              methods=methods[0])
     return NusseltSpread(low=low.reshape(shape), high=high.reshape(shape), count=count.reshape(shape),
                          methods=methods.reshape(shape))
+
+
+def _form_coverage(geo: Geometry, case, method: str, inputs):
+    """(form, auto's coverage of that form) for each published band of ``method`` that auto's
+    rule blends by its own ranges."""
+    forms: dict[str, np.ndarray] = {}
+    for step in geo.auto.get(case, ()):
+        if step.method == method and step.form and step.when:
+            coverage = np.ones(next(iter(inputs.values())).shape)
+            for bound in step.when:
+                coverage = coverage * bound.weight(inputs)
+            forms[step.form] = np.maximum(forms.get(step.form, 0.0), coverage)
+    return forms.items()
 
 
 def _geometry(function_name: str, geometry) -> Geometry:

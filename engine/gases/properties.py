@@ -8,6 +8,7 @@ import textwrap
 from dataclasses import dataclass
 from typing import Callable, TypeVar
 
+from ..plausibility import temperature_slip, warn_slips
 from .._typing import ArrayLike, FloatOrArray
 from ..validity import ABSOLUTE_ZERO_C
 from .data import GAS_PRESSURE_RANGE, GASES, STANDARD_PRESSURE, _gas_doc, _range_lines, _source_lines
@@ -122,6 +123,7 @@ def _property_of(function_name: str, name: str, gas: str, t: ArrayLike, pressure
                  ideal: bool = False) -> FloatOrArray:
     """The shared implementation: one state, one attribute (or the ideal-gas beta 1/T)."""
     state = _state(function_name, gas, t, pressure)
+    warn_slips(function_name, temperature_slip({"t": t}), stacklevel=4)  # at the user's line
     if ideal:
         return 1.0 / (state.t - ABSOLUTE_ZERO_C)
     return getattr(state, name)

@@ -23,7 +23,8 @@ The package, by concern:
 * :mod:`.kinds`: the branch kinds (columns, heat flow, derivatives);
 * :mod:`.model`: the compiled network and its evaluation;
 * :mod:`.solver`: Newton with scaled residuals, scipy fallbacks, the acceptance test;
-* :mod:`.results`: what the user reads; :mod:`.band`: the correlation band.
+* :mod:`.results`: what the user reads; :mod:`.band`: the correlation band;
+* :mod:`.transient`: the network through time (node capacities, boundaries from series).
 
 Every evaluation re-computes each convection branch's gas properties at its own film
 temperature (or at ``property_temperature``) and its correlation at its own temperature
@@ -50,6 +51,7 @@ from .results import BranchResult, NetworkResult
 from .solver import Solver
 from .tables import BOUNDARY_COLUMNS, BRANCH_COLUMNS, parse_boundaries, parse_branches
 from .inverse import HeatForTemperature, heat_for_temperature
+from .transient import CAPACITY_COLUMNS, SERIES_COLUMNS, TransientResult, solve_transient
 
 __all__ = [
     "NetworkError",
@@ -64,6 +66,8 @@ __all__ = [
     "clear_network_cache",
     "heat_for_temperature",
     "HeatForTemperature",
+    # the network through time (transient.py)
+    "solve_transient", "TransientResult", "CAPACITY_COLUMNS", "SERIES_COLUMNS",
 ]
 
 _CACHE: "OrderedDict[tuple, NetworkResult]" = OrderedDict()

@@ -26,7 +26,9 @@ from ..convection import layer_tilt, plate_case, shape_ratios
 from ..groups import STANDARD_GRAVITY
 from ..correlations import (CORRELATIONS, GEOMETRIES, PLATE_CASES, NusseltResult, merge_masked, methods_for,
                            nusselt_at_difference_checked, nusselt_checked)
+from ..forced import WIND_FLOWS, combine_mixed
 from ..radiation import SIGMA, exchange_factor
+from ..validity import LENGTH_RANGE
 from ..ventilation import parse_fan_curve
 from .errors import FUNCTION, NetworkError
 from .reading import blank, error_text, gas_key, number
@@ -53,8 +55,8 @@ class Param:
     "area", "tilt" (a correlation input as typed), "layer-tilt" (a cavity's tilt, seen as
     180 - tilt when the layer is heated from above), "diameter" (slenderness = length/diameter),
     "height" (aspect = height/length), "facing" (with the sign of the difference, the plate
-    case), "case" (the geometry's case, one of ``choices``), "gas".  Linear and radiation kinds
-    leave it blank.
+    case), "case" (the geometry's case, one of ``choices``), "gas", "wind" (wind speed, m/s) and
+    "wind-length" (a plate's length along the wind).  Linear and radiation kinds leave it blank.
     """
 
     label: str
@@ -108,6 +110,12 @@ class Param:
         unit = f" {self.unit}" if self.unit else ""
         if self.check in ("positive", "flow-or-curve") and not value > 0:
             raise NetworkError(FUNCTION, here, value, f"> 0{unit}")
+        if self.role in _GEOMETRY_LENGTHS:   # the lengths a correlation reads: as h_* checks them
+            low, high = LENGTH_RANGE
+            if value > high:
+                raise NetworkError(FUNCTION, here, value, f"at most {high:g} m (is it in mm?)")
+            if value < low:
+                raise NetworkError(FUNCTION, here, value, f"at least {low:g} m (the gas is no continuum below)")
         if self.check in ("emissivity", "fraction") and not 0 < value <= 1:
             raise NetworkError(FUNCTION, here, value, "in (0, 1]")
         if self.check == "non-negative" and not value >= 0:
@@ -116,6 +124,9 @@ class Param:
             raise NetworkError(FUNCTION, here, value, f"in [{self.limits[0]:g}, {self.limits[1]:g}]°")
         return value
 
+
+#: Parameter roles that are a convection geometry's lengths (checked against LENGTH_RANGE).
+_GEOMETRY_LENGTHS = ("length", "height", "diameter")
 
 AREA = Param("area", "m²")
 
@@ -297,6 +308,16 @@ class ConvectionKind(BranchKind):
                                + (f' for case "{case}"' if case is not None else ""))
         return value.strip().lower()
 
+    def read_params(self, row_values, where: str) -> tuple:
+        values = super().read_params(row_values, where)
+        wind, along = self.role("wind"), self.role("wind-length")
+        if (wind is not None and values[wind] > 0 and along is not None and values[along] is None
+                and WIND_FLOWS[self.geometry or ""].wind_length_required):
+            raise NetworkError(FUNCTION, f"{where}, column p{along + 1} (wind length)", None,
+                               "the plate's length along the wind in m (> 0) when the wind is > 0 "
+                               "(area/perimeter is not a length along the wind)")
+        return values
+
     def gas_of(self, params: tuple, network_gas: str) -> str:
         k = self.role("gas")
         return (params[k] or network_gas) if k is not None else network_gas
@@ -341,6 +362,21 @@ def _length_param(geometry) -> Param:
     return Param(geometry.length, "m", meaning, role="length")
 
 
+def _wind_params(geometry, free: int) -> list[Param]:
+    """The wind columns of an exposed surface (stillair.forced.WIND_FLOWS), in the columns left
+    free: the wind speed first, then a plate's length along the wind where one is left."""
+    flow = WIND_FLOWS.get(geometry.name)
+    if flow is None or free < 1:
+        return []
+    params = [Param("wind", "m/s", "horizontal wind speed; mixed convection", check="non-negative",
+                    optional=True, default=0.0, blank_means="0, still air", role="wind")]
+    if flow.along == "wind_length" and free >= 2:
+        blank = "required with a wind" if flow.wind_length_required else f"the {geometry.length}"
+        params.append(Param("wind length", "m", "plate length along the wind", optional=True,
+                            blank_means=blank, role="wind-length"))
+    return params
+
+
 class NoBranchKind(Exception):
     """A geometry whose inputs no column rule covers (the reason is the message)."""
 
@@ -377,9 +413,14 @@ def _convection_kind(geometry) -> ConvectionKind:
     unknown = inputs - {"tilt", "slenderness", "aspect"}
     if unknown:
         raise NoBranchKind(f"no column rule for its input(s) {', '.join(sorted(unknown))}")
+    wind = _wind_params(geometry, free=5 - len(params))
+    params += wind
+    mixed = "; in a wind h = (h_N^3 + h_F^3)^(1/3), h_F forced" if wind else ""
     return ConvectionKind(geometry.name, tuple(params),
-                          flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}",
-                          ends=geometry.branch_ends or "from: the solid surface; to: the still fluid",
+                          flow=f"h(T1, T2) A (T1 - T2), h = Nu k / {label}{mixed}",
+                          ends=geometry.branch_ends or ("from: the solid surface; to: the fluid far from it "
+                                                        "(still, or moving at the wind speed)" if wind else
+                                                        "from: the solid surface; to: the still fluid"),
                           geometry=geometry.name)
 
 
@@ -403,6 +444,16 @@ class _ConvectionGroup(_Group):
                         if p.role not in ("", "facing", "case", "gas")}
         self.length = self.columns.pop("length")
         self.area = self.columns.pop("area")
+        self.wind: np.ndarray | None = self.columns.pop("wind", None)
+        along = self.columns.pop("wind-length", None)
+        if self.wind is not None and not np.any(self.wind > 0):
+            self.wind = None      # still air: the forced part is never evaluated
+        self.wind_along: np.ndarray = self.length     # the length the forced correlation reads
+        if self.wind is not None:
+            flow = WIND_FLOWS[self.geometry]
+            own = self.columns["diameter"] if flow.along == "diameter" else self.length
+            self.wind_along = own if along is None or flow.along != "wind_length" else \
+                np.where(np.isnan(along), own, along)
         self.cases = GEOMETRIES[self.geometry].cases
         served = CORRELATIONS[(self.geometry, self.method)].cases if self.method != "auto" else ()
         # a method named for a plate may serve only some cases (hot-up...); while the solution
@@ -428,6 +479,22 @@ class _ConvectionGroup(_Group):
         self.length_tiled = np.tile(self.length, copies)
         self.area_tiled = np.tile(self.area, copies)
         self.columns_tiled = {k: np.tile(v, copies) for k, v in self.columns.items()}
+        if self.wind is not None:
+            self.wind_tiled = np.tile(self.wind, copies)
+            self.wind_along_tiled = np.tile(self.wind_along, copies)
+
+    def with_wind(self, h, kinvisc, pr, conductivity, tiled=True, notes=False):
+        """(h with the wind's forced convection combined in, the forced NusseltResult or None,
+        Re or None): h^3 = h_N^3 + h_F^3 where the wind blows, h unchanged where it is 0."""
+        if self.wind is None:
+            return h, None, None
+        wind, along = (self.wind_tiled, self.wind_along_tiled) if tiled else (self.wind, self.wind_along)
+        re = wind * along / kinvisc
+        blowing = re > 0.0     # wind > 0 (a wind so light that Re underflows to 0 is still air)
+        forced = nusselt_checked(GEOMETRIES[WIND_FLOWS[self.geometry].geometry], "auto", None,
+                                 {"re": np.where(blowing, re, 1.0), "pr": pr}, notes, ranges=notes)
+        h_forced = forced.nu * conductivity / along
+        return np.where(blowing, combine_mixed(h, h_forced), h), forced, np.where(blowing, re, 0.0)
 
     def nusselt(self, ra, pr, dt, tiled=True, notes=False):
         """(NusseltResult, plate case or None, flagged or None) at the tiled points (or, with
@@ -472,12 +539,20 @@ class _ConvectionGroup(_Group):
             case = str(detail.case[k]) if detail.case is not None else ""
             # Ra as the correlation read it (a flux case's Ra*), as the one-call functions report it
             ra = geometry.correlation_rayleigh(detail.ra[k], detail.nu[k], case)
-            yield int(self.index[k]), dict(
+            record = dict(
                 h=float(detail.h[k]), R=(1.0 / conductance) if conductance > 0 else math.inf,
                 area=float(self.area[k]), Ra=float(ra), Nu=float(detail.nu[k]),
                 Pr=float(detail.pr[k]), t_film=float(detail.t_film[k]), method=str(detail.method[k]),
                 case=case,
                 note=str(detail.note[k] or ""), in_range=bool(detail.in_range[k]))
+            if detail.forced is not None and self.wind is not None and self.wind[k] > 0:
+                # mixed convection: Nu = h L / k on the geometry's own length, both notes
+                notes = (str(detail.note[k] or ""), str(detail.forced.note[k] or ""))
+                record.update(Re=float(detail.re[k]), Nu=float(detail.h[k] * self.length[k] / detail.conductivity[k]),
+                              method=f"{record['method']} + {detail.forced.method[k]} (wind)",
+                              note="; ".join(n for n in notes if n),
+                              in_range=record["in_range"] and bool(detail.forced.in_range[k]))
+            yield int(self.index[k]), record
 
     def spread_inputs(self, records) -> tuple[dict, list]:
         """Correlation inputs of the group's branches at a solution (for the correlation spread):
@@ -515,9 +590,16 @@ RADIATION = RadiationKind(
     flow="A F sigma (T1^4 - T2^4), F = 1/(1/eps1 + 1/eps2 - 1), or eps1 to large surroundings",
     ends="either way round")
 
+_FORCED_FLOWS = {flow.geometry for flow in WIND_FLOWS.values()}
+
+
 def _generated_kinds():
     kinds, skipped = [], {}
     for geometry in GEOMETRIES.values():
+        if geometry.name in _FORCED_FLOWS:
+            skipped[geometry.name] = ("the wind's forced flow over an exposed surface: it enters a network "
+                                      "through the wind column of that surface's kind")
+            continue
         try:
             kinds.append(_convection_kind(geometry))
         except NoBranchKind as reason:

@@ -80,6 +80,20 @@ class Network:
             details.append(detail)
         return Evaluation(q, d1, d2, dt, details)
 
+    def flows(self, t: np.ndarray) -> np.ndarray:
+        """Heat flows of every branch (W) at node temperatures ``t`` (°C), without derivatives:
+        what an integrator's right-hand side needs (the convection branches at their point only)."""
+        q = np.empty(len(self.branches))
+        t1, t2 = t[self.source], t[self.target]
+        dt = t1 - t2
+        for group in self.plain_groups:
+            i = group.index
+            q[i] = group.flows(t1[i], t2[i], dt[i])[0]
+        for batch in self.batches:
+            i = batch.index
+            q[i] = batch.point_flows(self, t1[i], t2[i], dt[i])
+        return q
+
     def film(self, gas, ta, tb) -> tuple:
         """(kinematic viscosity, Pr, conductivity, expansion, film temperature) at the film
         temperatures of the points (or at the one property temperature)."""
@@ -164,6 +178,20 @@ class _ConvectionBatch:
         self.length = np.concatenate([g.length_tiled for g in groups])
         self.length_cubed = self.length ** 3   # constant: not recomputed at every evaluation
         self.area = np.concatenate([g.area_tiled for g in groups])
+        # the branches alone (no difference points), group after group: point_flows
+        self.parts = [slice(s, s + len(g.index)) for s, g in zip(np.cumsum([0] + [len(g.index) for g in groups]), groups)]
+        self.point_length = np.concatenate([g.length for g in groups])
+        self.point_length_cubed = self.point_length ** 3
+        self.point_area = np.concatenate([g.area for g in groups])
+
+    def point_flows(self, net: Network, t1, t2, dt):
+        """The flows at the point alone (no derivatives), the branches in ``index`` order."""
+        kinvisc, prandtl, conductivity, expansion, _ = net.film(self.gas, t1, t2)
+        ra = STANDARD_GRAVITY * expansion * np.abs(dt) * self.point_length_cubed * prandtl / kinvisc ** 2
+        nu = np.empty(len(dt))
+        for group, part in zip(self.groups, self.parts):
+            nu[part] = group.nusselt(ra[part], prandtl[part], dt[part], tiled=False)[0].nu
+        return nu * conductivity / self.point_length * self.point_area * dt
 
     def flows(self, net: Network, t1, t2, dt):
         # a step large enough that a branch at zero difference shows its small-difference
@@ -182,9 +210,12 @@ class _ConvectionBatch:
             nu[part] = result[0].nu
             results.append(result)
         h = nu * conductivity / self.length
+        for group, part in zip(self.groups, self.slices):
+            if group.wind is not None:   # mixed convection: the wind's forced part combined in
+                h[part] = group.with_wind(h[part], kinvisc[part], prandtl[part], conductivity[part])[0]
         heat = h * self.area * dtt
         q = heat[self.at_point]
-        detail = _BatchDetail(self, results, h, ra, prandtl, t_film, dtt)
+        detail = _BatchDetail(self, results, h, ra, prandtl, t_film, dtt, kinvisc, conductivity)
         return q, (heat[self.from_raised] - q) / step, (heat[self.to_raised] - q) / step, detail
 
 
@@ -199,6 +230,8 @@ class _BatchDetail:
     pr: np.ndarray
     t_film: np.ndarray
     dt: np.ndarray
+    kinvisc: np.ndarray
+    conductivity: np.ndarray
 
     def for_group(self, k: int) -> SimpleNamespace:
         """Group k's values at the point (the first third of its block), with the notes: the
@@ -208,8 +241,12 @@ class _BatchDetail:
         n = (part.stop - part.start) // 3
         at = slice(part.start, part.start + n)
         iterated, case, flagged = self.results[k]
-        result = self.batch.groups[k].nusselt(self.ra[at], self.pr[at], self.dt[at], tiled=False, notes=True)[0]
+        group = self.batch.groups[k]
+        result = group.nusselt(self.ra[at], self.pr[at], self.dt[at], tiled=False, notes=True)[0]
+        _, forced, re = group.with_wind(self.h[at], self.kinvisc[at], self.pr[at], self.conductivity[at],
+                                        tiled=False, notes=True)
         return SimpleNamespace(h=self.h[at], nu=iterated.nu[:n], ra=self.ra[at], pr=self.pr[at],
+                               forced=forced, re=re, conductivity=self.conductivity[at],
                                t_film=self.t_film[at], method=result.method[:n],
                                case=None if case is None else case[:n], note=result.note[:n],
                                in_range=result.in_range[:n], flagged=None if flagged is None else flagged[:n])

@@ -9,6 +9,7 @@ from typing import Mapping
 
 import numpy as np
 
+from ..plausibility import temperature_slip
 from ..correlations import methods_for
 from .errors import FUNCTION, NetworkError
 from .model import Evaluation, Network
@@ -40,6 +41,7 @@ class BranchResult:
     case: str
     note: str
     in_range: bool
+    Re: float = 0.0        # on the length along the wind; 0 in still air (and for other kinds)
     mass_flow: float = math.nan     # kg/s of air through a vent or airflow branch (nan elsewhere)
     volume_flow: float = math.nan   # m³/s of that air at the outside (to) temperature
 
@@ -114,6 +116,10 @@ def build_result(net: Network, t: np.ndarray, evaluation: Evaluation, residual: 
                  tolerance: np.ndarray, iterations: int, how: str, strict: bool = True) -> NetworkResult:
     records = branch_records(net, t, evaluation, strict)
     notes = tuple(f"branch {r['name']}: {r['note']}" for r in records if r["note"])
+    # a fixed temperature typed in kelvin moves every node: the boundaries' note comes first
+    slip = temperature_slip({f"the boundary T of node {net.nodes[i]}": t[i] for i in net.fixed})
+    if slip:
+        notes = (f"boundaries: {slip}",) + notes
     branches = {r["name"]: BranchResult(**r) for r in records}
     return NetworkResult(
         temperatures=MappingProxyType({node: float(t[i]) for i, node in enumerate(net.nodes)}),

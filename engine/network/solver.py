@@ -127,22 +127,45 @@ class Solver:
         """(evaluation, free-node residual) or None where the branches cannot be evaluated
         (a temperature outside the gas-property range, for instance)."""
         t, fine = self.temperatures(x, x_fine)
-        if np.any(t <= ABSOLUTE_ZERO_C) or not np.all(np.isfinite(t)):
-            self.failure = "a node temperature fell to absolute zero"
+        bad = (t <= ABSOLUTE_ZERO_C) | ~np.isfinite(t)
+        if np.any(bad):
+            node = int(np.flatnonzero(bad)[0])
+            self.failure = (f"node {self.net.nodes[node]!r} fell to {t[node]:.6g} °C, at or below absolute zero")
             return None
         try:
-            evaluation = self.net.evaluate(t, fine)
+            # a trial far from the answer may overflow (T^4 of radiation, a correlation's power):
+            # the flows are checked below and the failure is worded, so numpy stays quiet
+            with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
+                evaluation = self.net.evaluate(t, fine)
         except StillairError as error:
-            self.failure = str(error)
+            self.failure = self._where(t, error)
             return None
-        if not np.all(np.isfinite(evaluation.q)):
-            self.failure = "a heat flow is not finite"
+        finite = np.isfinite(evaluation.q)
+        if not np.all(finite):
+            branch = self.net.branches[int(np.flatnonzero(~finite)[0])]
+            self.failure = (f"the heat flow of branch {branch.name!r} ({branch.source!r} to {branch.target!r}) "
+                            "is not finite")
             return None
         residual = self.net.imbalance(evaluation.q)[self.net.free]
         ratio = self.worst_ratio(evaluation, residual)
         if self.best is None or ratio < self.best[0]:
             self.best = (ratio, x.copy(), evaluation, residual)
         return evaluation, residual
+
+    def _where(self, t: np.ndarray, error: StillairError) -> str:
+        """The error of an evaluation with the branch it arose at: a property look-up refused
+        a film temperature, found again among the branches' mean end temperatures."""
+        text = str(error)
+        value = getattr(error, "value", None)
+        if isinstance(value, (int, float, np.floating)) and math.isfinite(float(value)):
+            index = {name: i for i, name in enumerate(self.net.nodes)}
+            for branch in self.net.branches:
+                ends = t[index[branch.source]], t[index[branch.target]]
+                for guess in (0.5 * (ends[0] + ends[1]), ends[0], ends[1]):
+                    if abs(guess - float(value)) <= 1e-9 * max(1.0, abs(float(value))):
+                        return (f"branch {branch.name!r} between {branch.source!r} ({ends[0]:.6g} °C) and "
+                                f"{branch.target!r} ({ends[1]:.6g} °C): {text}")
+        return text
 
     def tolerances(self, evaluation) -> np.ndarray:
         """Largest acceptable imbalance (W) at every free node (worked out once per evaluation)."""
@@ -370,7 +393,8 @@ class Solver:
         net = self.net
         if self.best is None:
             raise NetworkConvergenceError(
-                f"{FUNCTION}: the branches could not be evaluated at any trial temperature ({self.failure})",
+                f"{FUNCTION}: the branches could not be evaluated at any trial temperature: {self.failure}. "
+                "Check the heat inputs and the coefficients around that branch.",
                 math.inf, None, self.iterations)
         _, _, evaluation, residual = self.best
         tolerance = self.tolerances(evaluation)

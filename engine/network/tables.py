@@ -63,7 +63,7 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
         rows = list(table)
     except TypeError:
         raise NetworkError(FUNCTION, table_name, table, "a table of rows (a list of lists)") from None
-    singular = {"branches": "branch", "boundaries": "boundary"}[table_name]
+    singular = {"branches": "branch", "boundaries": "boundary", "capacities": "capacity"}.get(table_name, table_name)
     result: list = []
     for number_, row in enumerate(rows, start=1):
         if isinstance(row, np.ndarray):

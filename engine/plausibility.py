@@ -1,0 +1,83 @@
+"""A word on a likely unit slip: values that are allowed but look typed in another unit.
+
+Not errors - the number is computed - but a note where notes show (the Python warning
+:class:`UnitSlipWarning`, the cells' notes, ``stillair calc`` and ``audit``, NET_CHECK):
+
+* **Temperatures that look like kelvin.**  Every temperature is in °C.  When every temperature
+  argument of a call lies between 230 and 400 - where kelvin values of everyday conditions
+  (-43 °C to 127 °C) fall, and no argument lies in a normal °C range below 230 - the note says
+  "temperatures are in °C; t = 293.15 looks like a kelvin value".  A real case of every
+  temperature above 230 °C (an oven, a flue) gets the note too; it asks, it does not refuse.
+* **Lengths that look like millimetres.**  Each geometry length has a largest plausible value
+  (:data:`PLAUSIBLE_LENGTHS`, our judgement of the trade's largest such part: a cavity gap of
+  0.5 m, a plate 20 m high); above it the note says "gap = 20 m is large for this geometry;
+  lengths are in m: is it in mm?".  Lengths no physics admits are errors
+  (:data:`stillair.validity.LENGTH_RANGE`).
+"""
+
+from __future__ import annotations
+
+import warnings
+from typing import Mapping
+
+import numpy as np
+
+from .validity import CorrelationRangeWarning, format_value
+
+__all__ = ["UnitSlipWarning", "KELVIN_LOOKING", "PLAUSIBLE_LENGTHS", "temperature_slip", "length_slip",
+           "warn_slips"]
+
+
+class UnitSlipWarning(CorrelationRangeWarning):
+    """A value allowed but unusual where it is, most likely typed in another unit (a kelvin
+    temperature, a length in mm).  A subclass of :class:`CorrelationRangeWarning`, so that it
+    travels wherever range notes travel."""
+
+
+#: Where every temperature of a call lying inside suggests kelvin values typed as °C.
+KELVIN_LOOKING = (230.0, 400.0)
+
+#: The largest plausible value of each geometry length, m (our judgement; above it a note, not
+#: an error): by argument name, and by geometry where one name means different sizes.
+PLAUSIBLE_LENGTHS = {
+    "height": 50.0,         # a plate, a cylinder, a cavity or a channel: a tall facade
+    "length": 50.0,         # a horizontal or tilted plate's characteristic length
+    "diameter": 10.0,       # a pipe, a tank, a sphere
+    "gap": 0.5,             # an enclosed layer: beyond it a room, not a cavity
+    "spacing": 2.0,         # the plates of an open channel (a wide one is an isolated plate)
+}
+
+
+def temperature_slip(temperatures: Mapping[str, object]) -> str:
+    """The kelvin note for a call's temperature arguments (name -> value), or ""."""
+    low, high = KELVIN_LOOKING
+    first = None
+    for name, value in temperatures.items():
+        array = np.asarray(value, dtype=float)
+        if array.size == 0 or not np.all((array >= low) & (array <= high)):
+            return ""
+        if first is None:
+            first = (name, array.flat[0])
+    if first is None:
+        return ""
+    return (f"temperatures are in °C; {first[0]} = {format_value(float(first[1]))} looks like a kelvin "
+            f"value (°C = K - 273.15)")
+
+
+def length_slip(name: str, value, plausible: float | None = None) -> str:
+    """The millimetre note for one length argument, or ""."""
+    limit = PLAUSIBLE_LENGTHS.get(name) if plausible is None else plausible
+    array = np.asarray(value, dtype=float)
+    if limit is None or array.size == 0 or not np.any(array > limit):
+        return ""
+    largest = float(np.max(array))
+    return f"{name} = {format_value(largest)} m is large for this geometry; lengths are in m: is it in mm?"
+
+
+def warn_slips(function_name: str, *notes: str, stacklevel: int = 3) -> str:
+    """Issue a :class:`UnitSlipWarning` with the non-empty notes (``stacklevel`` as
+    :func:`warnings.warn` counts from the caller of this function, plus one); return the text."""
+    text = "; ".join(note for note in notes if note)
+    if text:
+        warnings.warn(f"{function_name}: {text}", UnitSlipWarning, stacklevel=stacklevel)
+    return text
