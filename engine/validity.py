@@ -13,6 +13,7 @@ network result).
 
 from __future__ import annotations
 
+import contextvars
 import math
 import warnings
 from dataclasses import dataclass
@@ -36,6 +37,7 @@ __all__ = [
     "format_value",
     "unwrap",
     "distinct_notes",
+    "collect_range_notes",
     "TRANSITION_BANDS",
 ]
 
@@ -197,12 +199,30 @@ def is_plain_number(value: object) -> TypeGuard[float]:
     return type(value) in PLAIN_NUMBERS
 
 
+# Where range notes go instead of warnings while a caller collects them (collect_range_notes).
+_NOTE_SINK: contextvars.ContextVar[list | None] = contextvars.ContextVar("stillair_range_notes",
+                                                                         default=None)
+
+
+def collect_range_notes(sink: list | None) -> contextvars.Token:
+    """Until ``_NOTE_SINK.reset(token)`` with the token returned, the range notes this thread's
+    calls would warn as :class:`CorrelationRangeWarning` are appended to ``sink`` (their text)
+    instead; ``None`` warns again.  A caller that wants every note as data (the cell layer, once
+    per call) pays a context variable instead of ``warnings.catch_warnings`` (several µs)."""
+    return _NOTE_SINK.set(sink)
+
+
 def warn_out_of_range(function_name: str, in_range, notes) -> None:
     """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
-    outside its correlation's range; it points at the line that called the caller."""
+    outside its correlation's range; it points at the line that called the caller.  While a
+    caller collects the notes (:func:`collect_range_notes`) the text goes to its list instead."""
     if not np.all(in_range):
-        warnings.warn(f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes)),
-                      CorrelationRangeWarning, stacklevel=4)
+        message = f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes))
+        sink = _NOTE_SINK.get()
+        if sink is not None:
+            sink.append(message)
+        else:
+            warnings.warn(message, CorrelationRangeWarning, stacklevel=4)
 
 
 def unwrap(array):

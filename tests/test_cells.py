@@ -437,3 +437,83 @@ def test_nu_note_names_both_correlations_inside_an_auto_blend():
     blend = stillair.nusselt("cavity", "auto", ra=1e7, pr=0.71, aspect=9.0, tilt=90.0).scalar().blend
     assert blend == "auto blend of elsherbiny and catton"
     assert call("NU_NOTE", "cavity", 1e7, 0.71, None, 90.0, 9.0) == f"in range ({blend})"
+
+
+# ---------------------------------------------------------------------------------------------
+# The call path's fast path for plain values (callpath._plain_kwargs) and the range notes the
+# engine hands over as data (validity.collect_range_notes)
+
+
+@pytest.mark.parametrize("name", [n for n in DIRECT if BY_NAME[n].plain is not None])
+def test_plain_values_take_the_fast_path_with_the_general_coercions_arguments(name):
+    from stillair.addin.cells.callpath import _coerce, _plain_kwargs
+
+    entry = BY_NAME[name]
+    raw = SAMPLES[name]
+    fast = _plain_kwargs(entry.plain, raw)
+    assert fast is not None
+    padded = tuple(raw) + (None,) * (len(entry.args) - len(raw))
+    general = _coerce(entry, padded)
+    assert fast == general and {k: type(v) for k, v in fast.items()} == {k: type(v) for k, v in general.items()}
+    # what only the general coercion may handle goes there
+    wrapped = tuple(np.asarray([[v]], dtype=object) if v is not None else v for v in raw)
+    assert _plain_kwargs(entry.plain, wrapped) is None
+
+
+@pytest.mark.parametrize("raw", [(True,), (np.float64(20.0),), ("  ",), ("20",), (20.0, 1e5, 3.0)])
+def test_values_the_fast_path_leaves_to_the_general_coercion(raw):
+    from stillair.addin.cells.callpath import _plain_kwargs
+
+    assert _plain_kwargs(BY_NAME["AIR_DENSITY"].plain, raw) is None
+
+
+def test_an_int_is_passed_as_the_float_the_general_coercion_gives():
+    from stillair.addin.cells.callpath import _plain_kwargs
+
+    assert _plain_kwargs(BY_NAME["AIR_DENSITY"].plain, (20,)) == {"t": 20.0, "pressure": 101325.0}
+    assert call("AIR_DENSITY", 20) == call("AIR_DENSITY", 20.0)
+
+
+@pytest.mark.parametrize("name, raw", [
+    ("NU_VPLATE", (1e14, 0.71)),
+    ("H_CAVITY", (15.0, 5.0, 0.016, 1.2, 90.0, "air", None, "catton")),  # aspect 75 > 10
+    ("NU_CAVITY", (1e3, 0.71, 1.2, None, " elsherbiny")),                  # aspect 1.2 < 5
+])
+def test_out_of_range_notes_are_the_same_on_both_paths(name, raw):
+    """A plain call (fast path) and the same call through formulas-style 1x1 arrays (general
+    coercion) record the same note, and nothing escapes as a warning."""
+    from stillair.addin.cells.callpath import _plain_kwargs
+
+    wrapped = tuple(np.asarray([[v]], dtype=object) for v in raw)
+    assert _plain_kwargs(BY_NAME[name].plain, raw) is not None
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        with NoteRecorder() as fast:
+            value = call(name, *raw)
+        with NoteRecorder() as general:
+            again = call(name, *wrapped)
+    assert value == again and isinstance(value, float)
+    assert fast.notes == general.notes and len(fast.notes) == 1
+    assert fast.notes[0][1].startswith(f"{name}: outside validity range: ")
+
+
+def test_the_engine_hands_range_notes_to_a_collector_and_warns_again_after():
+    from stillair.validity import _NOTE_SINK, collect_range_notes
+
+    notes: list[str] = []
+    token = collect_range_notes(notes)
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("error")
+            stillair.nu_vplate(1e14, 0.71)
+    finally:
+        _NOTE_SINK.reset(token)
+    assert len(notes) == 1 and notes[0].startswith("nu_vplate: outside validity range: ")
+    with pytest.warns(stillair.CorrelationRangeWarning, match="outside validity range"):
+        stillair.nu_vplate(1e14, 0.71)
+
+
+def test_no_note_is_recorded_for_a_call_that_fails():
+    with NoteRecorder() as recorder:
+        message = call("H_CAVITY", 15.0, 5.0, 0.001, -1.2)
+    assert recorder.notes == [(None, message)] and "height" in message

@@ -333,6 +333,34 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
             assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (result["path"], prefix, cells[f"C{row}"])
 
 
+def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
+    """The load job writes rectangles of formulas in chunks of rows from the bottom up
+    (stillair_calc.CHUNK_ROWS = 256): every row of a block longer than two chunks is rebound,
+    built-in formulas inside the block keep their values, and a block holding part of an array
+    formula is rebound cell by cell, the array once."""
+    rows = 600
+    path = tmp_path / "long.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for r in range(rows):
+        n = r + 1
+        ws.write(r, 0, 10.0 + 0.05 * r)
+        ws.write_formula(r, 1, f"=AIR_DENSITY(A{n})", None, 0)
+        ws.write_formula(r, 2, f"=A{n}*2", None, 0)  # built-in, inside the same rectangle
+        ws.write_formula(r, 3, f'=H_CAVITY(A{n},5,0.016,1.2,,"air")', None, 0)
+    ws.write_formula(0, 5, "=AIR_CONDUCTIVITY(A1)", None, 0)
+    ws.write_array_formula("F2:F3", "{=AIR_CONDUCTIVITY(A2:A3)}")
+    wb.close()
+    cells = run_session(installation, [{"open": str(path)}], tmp_path)[0]["sheets"]["Calc"]
+    for r in range(rows):
+        n, t = r + 1, 10.0 + 0.05 * r
+        assert same(call("AIR_DENSITY", t), lo_value(cells[f"B{n}"]))[0], (n, cells[f"B{n}"])
+        assert same(2 * t, lo_value(cells[f"C{n}"]))[0], (n, cells[f"C{n}"])
+        assert same(call("H_CAVITY", t, 5.0, 0.016, 1.2), lo_value(cells[f"D{n}"]))[0], (n, cells[f"D{n}"])
+    for n in (1, 2, 3):
+        assert same(call("AIR_CONDUCTIVITY", 10.0 + 0.05 * (n - 1)), lo_value(cells[f"F{n}"]))[0], cells[f"F{n}"]
+
+
 # ---------------------------------------------------------------------------------------------
 # The Function Wizard
 

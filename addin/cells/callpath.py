@@ -9,8 +9,6 @@ handed to the active :class:`NoteRecorder` (used by ``stillair calc``).
 
 from __future__ import annotations
 
-import warnings
-
 import numpy as np
 
 from .coerce import CellInputError, describe, is_blank, to_cell_table, to_cell_value, to_number, to_table, to_text
@@ -58,14 +56,24 @@ def _note(message: str) -> None:
         NoteRecorder._active.add(message)
 
 
+_engine: dict = {}  # the engine module and its validity module, once imported (engine_callable)
+
+
+def _engine_modules():
+    if not _engine:
+        import stillair
+        import stillair.validity
+        _engine.update(stillair=stillair, validity=stillair.validity)
+    return _engine
+
+
 def engine_callable(entry: CellFunction):
     """The engine attribute the entry names, or None while the engine does not provide it.
 
     ``stillair`` (the engine) is imported here, on first use, not with this module: importing it takes about
     0.2 s (numpy, scipy), which `stillair functions` and `excel-setup` do not need.  CoolProp
     itself loads only if a gas table has to be computed."""
-    import stillair
-    return getattr(stillair, entry.engine, None)
+    return getattr(_engine.get("stillair") or _engine_modules()["stillair"], entry.engine, None)
 
 
 def _coerce(entry: CellFunction, raw: tuple, arrays: bool = False) -> dict:
@@ -94,16 +102,14 @@ def _blank_range(value) -> bool:
     return all(is_blank(v) for v in np.asarray(value, dtype=object).ravel())
 
 
-def _noting_result_notes(function):
-    """Report a network result's range notes like a correlation's warnings, so every cell that
-    uses the solve (NET_SOLVE, NET_TEMP, ...) carries them.  The engine caches the solve itself:
-    the cells of one network share it."""
-    from stillair.validity import CorrelationRangeWarning
+def _noting_result_notes(function, sink: list):
+    """Report a network result's range notes like a correlation's, so every cell that uses the
+    solve (NET_SOLVE, NET_TEMP, ...) carries them.  The engine caches the solve itself: the
+    cells of one network share it."""
 
     def solve(**kwargs):
         result = function(**kwargs)
-        for note in getattr(result, "notes", ()):
-            warnings.warn(str(note), CorrelationRangeWarning, stacklevel=2)
+        sink.extend(str(note) for note in getattr(result, "notes", ()))
         return result
 
     return solve
@@ -125,23 +131,27 @@ class _Missing(Exception):
 
 
 def _compute(entry: CellFunction, kwargs: dict):
-    """Call the engine with coerced arguments; the range notes it warns are recorded."""
-    from stillair.validity import CorrelationRangeWarning  # see engine_callable
+    """Call the engine with coerced arguments; the range notes it gives are recorded.
 
+    The engine hands its range notes to a list while the call runs
+    (``stillair.validity.collect_range_notes``: the notes it would warn as
+    CorrelationRangeWarning, each one as issued); they are recorded only if the call returns."""
     target = engine_callable(entry)
     if target is None:
         raise _Missing()
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", CorrelationRangeWarning)
+    notes: list[str] = []
+    token = _engine["validity"].collect_range_notes(notes)
+    try:
         if not entry.call:
             value = target
         else:
-            if any(a.kind == "table" for a in entry.args):
-                target = _noting_result_notes(target)
+            if entry.has_table:
+                target = _noting_result_notes(target, notes)
             value = entry.invoke(target, kwargs) if entry.invoke else target(**kwargs)
-    for warning in caught:
-        if issubclass(warning.category, CorrelationRangeWarning):
-            _note(_short(f"{entry.name}: {_strip_function(str(warning.message))}"))
+    finally:
+        _engine["validity"]._NOTE_SINK.reset(token)
+    for message in notes:
+        _note(_short(f"{entry.name}: {_strip_function(message)}"))
     return value
 
 
@@ -195,27 +205,59 @@ def _evaluate_ranges(entry: CellFunction, raw: tuple, ranges: dict[int, np.ndarr
     return cells
 
 
+def _plain_kwargs(plain: tuple, raw: tuple) -> dict | None:
+    """The engine's keyword arguments, equal to what :func:`_coerce` gives, when every value is
+    one the cell passes on as it is: a float or int (not a logical value) for a number, a text
+    that is not blank for a text, None (omitted) for an optional argument.  None when anything
+    else arrives (a range, a blank text, a wrong type, a missing required value): the general
+    coercion handles it and words any message.  ``plain`` is ``CellFunction.plain``."""
+    required, defaults, args = plain
+    if not required <= len(raw) <= len(args):
+        return None
+    kwargs = dict(defaults)
+    for (keyword, text), value in zip(args, raw):
+        kind = type(value)
+        if kind is float and not text:
+            kwargs[keyword] = value
+        elif value is None:
+            if keyword not in kwargs:  # a required argument left blank
+                return None
+        elif text:
+            if kind is not str or not value.strip():
+                return None
+            kwargs[keyword] = value.strip()
+        elif kind is int:
+            kwargs[keyword] = float(value)
+        else:
+            return None
+    return kwargs
+
+
 def evaluate(entry: CellFunction, *raw):
     """Compute one cell function call; returns a cell value, a 2-D list (a table, or an array
     when numeric arguments are ranges) or an error message (str)."""
-    from stillair.validity import InputError  # see engine_callable
-
+    validity = _engine.get("validity") or _engine_modules()["validity"]  # see engine_callable
     try:
-        if len(raw) > len(entry.args):
-            raise ValueError(f"takes at most {len(entry.args)} arguments, got {len(raw)}")
-        raw = tuple(raw) + (None,) * (len(entry.args) - len(raw))
-        ranges = _ranges(entry, raw)
-        if ranges:
-            return _evaluate_ranges(entry, raw, ranges)
-        value = _compute(entry, _coerce(entry, raw))
+        kwargs = _plain_kwargs(entry.plain, raw) if entry.plain is not None else None
+        if kwargs is None:  # anything but plain numbers and texts: the general coercion
+            if len(raw) > len(entry.args):
+                raise ValueError(f"takes at most {len(entry.args)} arguments, got {len(raw)}")
+            raw = tuple(raw) + (None,) * (len(entry.args) - len(raw))
+            ranges = _ranges(entry, raw)
+            if ranges:
+                return _evaluate_ranges(entry, raw, ranges)
+            kwargs = _coerce(entry, raw)
+        value = _compute(entry, kwargs)
         if entry.result == "table":
             return to_cell_table(value)
+        if type(value) is float and value - value == 0.0:  # finite: to_cell_value's own answer
+            return value
         return to_cell_value(value)
     except _Missing:
         return _short(f"{entry.name}: not available in this engine version "
                       f"(stillair.{entry.engine} is missing)")
-    except InputError as error:
-        if type(error).render is not InputError.render:  # the error words its own value
+    except validity.InputError as error:
+        if type(error).render is not validity.InputError.render:  # the error words its own value
             message = _short(error.render(entry.name))
         else:
             message = _short(_message(entry, error.argument, error.allowed, error.value))

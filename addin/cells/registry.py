@@ -90,15 +90,32 @@ class CellFunction:
     unit: str = ""
     invoke: Callable[[Any, dict], Any] | None = field(default=None, compare=False)
     call: bool = True
+    # Derived once from the fields above (__post_init__), read on every call of the cell.
+    #: True when every numeric argument may be a range or array (the result is then an array of
+    #: the broadcast shape): every computing function without a table argument.  Functions that
+    #: pass their arguments straight to a broadcasting engine callable are computed in one call;
+    #: those with ``invoke`` element by element.
+    takes_arrays: bool = field(init=False, compare=False, repr=False)
+    #: True when an argument is a table (the network functions).
+    has_table: bool = field(init=False, compare=False, repr=False)
+    #: For a function that passes its arguments straight through (no table, no ``invoke``), what
+    #: the call path's plain-value fast path reads (``callpath._plain_kwargs``): the count of
+    #: required arguments, the optional ones' (keyword, default) pairs, and per argument
+    #: (keyword, is text); None for the others.
+    plain: tuple[int, tuple[tuple[str, Any], ...], tuple[tuple[str, bool], ...]] | None = field(
+        init=False, compare=False, repr=False)
 
-    @property
-    def takes_arrays(self) -> bool:
-        """True when every numeric argument may be a range or array (the result is then an
-        array of the broadcast shape): every computing function without a table argument.
-        Functions that pass their arguments straight to a broadcasting engine callable are
-        computed in one call; those with ``invoke`` element by element."""
-        return (self.call and any(a.kind == "number" for a in self.args)
-                and not any(a.kind == "table" for a in self.args))
+    def __post_init__(self):
+        has_table = any(a.kind == "table" for a in self.args)
+        object.__setattr__(self, "has_table", has_table)
+        object.__setattr__(self, "takes_arrays", self.call and not has_table
+                           and any(a.kind == "number" for a in self.args))
+        plain = None
+        if self.call and self.invoke is None and all(a.kind in ("number", "text") for a in self.args):
+            plain = (sum(1 for a in self.args if not a.optional),
+                     tuple((a.keyword, a.default) for a in self.args if a.optional),
+                     tuple((a.keyword, a.kind == "text") for a in self.args))
+        object.__setattr__(self, "plain", plain)
 
     def signature(self) -> str:
         parts = [f"[{a.name}]" if a.optional else a.name for a in self.args]

@@ -6,7 +6,12 @@ extension is installed there with ``unopkg add --shared``), and a list of jobs:
 
 ``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
 report every formula cell (formula, value or text, error code) and the load and recalculation
-times.  ``{"type": {"Sheet1": {"A1": 1.5, "B1": "=F(A1)"}}, "arrays": {"Sheet1": {"A9:J20":
+times (wall, and the CPU time soffice spent: ``load_cpu_seconds``); ``"report": false`` leaves
+the cells out.  ``{"recalc": {"inputs": [[...], ...], "formulas": {"E": [...], ...}}, "repeat":
+3}``: a new sheet with the inputs from A1 and each column of formulas (API grammar) from row 1;
+reports, per column alone, the best of ``repeat`` full recalculations (each sample repeated
+to at least 20,000 cells) (wall and soffice CPU) and
+the first column's last value.  ``{"type": {"Sheet1": {"A1": 1.5, "B1": "=F(A1)"}}, "arrays": {"Sheet1": {"A9:J20":
 "=F(..)"}}, "formats": {"Sheet1": {"B1": "0.00"}}}``: type cells (and number formats) into a
 new spreadsheet through the API and report them likewise.  Every reported cell also has
 ``shown``, the text the cell displays.
@@ -75,6 +80,21 @@ class Session:
         self.desktop = self.ctx.ServiceManager.createInstanceWithContext(
             "com.sun.star.frame.Desktop", self.ctx)
 
+    def cpu(self):
+        """CPU seconds (user + system) of every process of soffice's group (Linux /proc)."""
+        total = 0
+        for entry in os.listdir("/proc"):
+            if not entry.isdigit():
+                continue
+            try:
+                with open(f"/proc/{entry}/stat", encoding="ascii") as file:
+                    fields = file.read().rsplit(")", 1)[1].split()
+            except OSError:
+                continue
+            if int(fields[2]) == self.process.pid:  # pgrp
+                total += int(fields[11]) + int(fields[12])
+        return total / os.sysconf("SC_CLK_TCK")
+
     def close(self):
         try:
             self.desktop.terminate()
@@ -126,18 +146,50 @@ def read_formula_cells(doc):
     return out
 
 
-def open_and_recalculate(desktop, path):
-    started = time.perf_counter()
+def open_and_recalculate(desktop, path, cpu=lambda: 0.0, report=True):
+    started, cpu_started = time.perf_counter(), cpu()
     doc = desktop.loadComponentFromURL(_url(path), "_blank", 0, _props(Hidden=True))
     if doc is None:  # the first load after an extension was installed can come back empty
-        started = time.perf_counter()
+        started, cpu_started = time.perf_counter(), cpu()
         doc = desktop.loadComponentFromURL(_url(path), "_blank", 0, _props(Hidden=True))
-    loaded = time.perf_counter()
+    loaded, cpu_loaded = time.perf_counter(), cpu()
     doc.calculateAll()
     calculated = time.perf_counter()
     try:
         return {"path": path, "load_seconds": loaded - started,
-                "calculate_seconds": calculated - loaded, "sheets": read_formula_cells(doc)}
+                "load_cpu_seconds": cpu_loaded - cpu_started,
+                "calculate_seconds": calculated - loaded,
+                "sheets": read_formula_cells(doc) if report else {}}
+    finally:
+        doc.close(True)
+
+
+def time_recalculation(desktop, inputs, formulas, repeat=3, cpu=lambda: 0.0):
+    """Best full recalculation (wall, soffice CPU) of each column of formulas, one at a time."""
+    doc = desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0, _props(Hidden=True))
+    try:
+        sheet = doc.getSheets().getByIndex(0)
+        width = len(inputs[0])
+        sheet.getCellRangeByPosition(0, 0, width - 1, len(inputs) - 1).setDataArray(
+            tuple(tuple(row) for row in inputs))
+        out = {}
+        for column, texts in formulas.items():
+            index = ord(column) - ord("A")
+            target = sheet.getCellRangeByPosition(index, 0, index, len(texts) - 1)
+            target.setFormulaArray(tuple((t,) for t in texts))
+            doc.calculateAll()  # first call: imports, caches
+            walls, cpus = [], []
+            inner = max(1, 20000 // len(texts))  # each sample long enough for the CPU clock's tick
+            for _ in range(repeat):
+                started, cpu_started = time.perf_counter(), cpu()
+                for _ in range(inner):
+                    doc.calculateAll()
+                walls.append((time.perf_counter() - started) / inner)
+                cpus.append((cpu() - cpu_started) / inner)
+            last = sheet.getCellByPosition(index, len(texts) - 1)
+            out[column] = {"wall": min(walls), "cpu": min(cpus), "last": last.getString()}
+            target.clearContents(FORMULA_CELLS)
+        return out
     finally:
         doc.close(True)
 
@@ -210,7 +262,12 @@ def main(request_path):
                 if "functions" in job:
                     results.append(function_descriptions(session.ctx, set(job["functions"])))
                 elif "open" in job:
-                    results.append(open_and_recalculate(session.desktop, job["open"]))
+                    results.append(open_and_recalculate(session.desktop, job["open"], session.cpu,
+                                                        job.get("report", True)))
+                elif "recalc" in job:
+                    results.append(time_recalculation(session.desktop, job["recalc"]["inputs"],
+                                                      job["recalc"]["formulas"], job.get("repeat", 3),
+                                                      session.cpu))
                 else:
                     results.append(type_workbook(session.desktop, job.get("type", {}),
                                                  job.get("arrays", {}), job.get("formats"),
