@@ -11,6 +11,8 @@ import stillair
 from stillair.addin.templates import cabinet_day as day
 from template_support import assert_direction, evaluate_template, input_names, named
 
+pytestmark = pytest.mark.slow  # every test solves the cabinet through a whole day (1-3 s each)
+
 NAME = "cabinet-day"
 
 

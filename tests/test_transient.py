@@ -118,6 +118,7 @@ def test_stored_energy_equals_the_heat_exchanged_with_the_boundaries(quasi_stead
     assert result.quasi_steady == (("air",) if quasi_steady_air else ())
 
 
+@pytest.mark.slow  # solves the same day three times, once 1,000x tighter
 def test_the_default_tolerances_are_converged_to_two_ten_thousandths_of_a_kelvin():
     branches, boundaries, capacities, series = cabinet()
     times = np.arange(0.0, 24 * HOUR + 1, 300.0)
