@@ -17,7 +17,7 @@ import contextvars
 import math
 import warnings
 from dataclasses import dataclass
-from typing import Callable, Mapping, TypeGuard
+from typing import Any, Callable, Mapping, TypeGuard
 
 import numpy as np
 
@@ -268,6 +268,11 @@ class Range:
     of: Callable[[Mapping[str, np.ndarray]], np.ndarray] | None = None
     band: float | None = None
     placement: str = "inside"
+    #: False for a bound that holds in one band of a piecewise range only (a published jump of
+    #: the range, such as Catton's Pr bound below H/L = 2): auto does not read it, because a
+    #: weight that jumps would make its value jump; the auto rule states that band's bounds in
+    #: its own steps instead.  Notes and the spread read it as published.
+    in_auto: bool = True
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         if self.of is not None:
@@ -346,6 +351,47 @@ class Range:
             if weight == 0.0:
                 break
         return weight
+
+    def shortfall(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        """How far the values lie short of the range's full weight, in transition bands: 0 where
+        :meth:`weight` is 1, 1 - weight across the band, 1 + the bands beyond where it reaches
+        0; the larger of its two bounds'.  Auto weighs its steps by it
+        (:func:`stillair.correlations.auto.weigh_steps`)."""
+        values = self.values(inputs)
+        shortfall: Any = 0.0
+        for position in self._positions(values, np):
+            shortfall = np.maximum(shortfall, 1.0 - position)
+        return np.broadcast_to(shortfall, np.shape(values))
+
+    def shortfall_of(self, value: float) -> float:
+        """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic)."""
+        shortfall = 0.0
+        for position in self._positions(value, math):
+            shortfall = max(shortfall, 1.0 - position)
+        return shortfall
+
+    def _positions(self, values, lib):
+        """Each bound's ramp before clipping: 1 where its full weight begins, 0 where it ends,
+        linear between (in log for log quantities), above 1 inside that.  Beyond the zero end
+        it goes below 0 by the distance counted in the default band of the scale (a factor 4,
+        5 deg), whatever the bound's own band, so that "how far outside" means the same for
+        every quantity; a bound without a band (a step) counts its distance the same way."""
+        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+            if log_bound is None:
+                along = values - bound
+            elif lib is math:
+                along = math.log(values if values > 1e-300 else 1e-300) - log_bound
+            else:
+                along = np.log(np.maximum(values, 1e-300)) - log_bound
+            if scale == 0.0:   # a step: full weight on its side, the distance beyond it
+                unit = math.log(DEFAULT_LOG_BAND) if log_bound is not None else DEFAULT_TILT_BAND
+                yield lib.where(side * along >= 0, 1.0, side * along / unit) if lib is np else \
+                    (1.0 if side * along >= 0 else side * along / unit)
+            else:   # beyond the band's zero end, counted in the scale's default band
+                position = side * along / scale + offset
+                unit = math.log(DEFAULT_LOG_BAND) if log_bound is not None else DEFAULT_TILT_BAND
+                yield lib.where(position < 0.0, position * (scale / unit), position) if lib is np else \
+                    (position * (scale / unit) if position < 0.0 else position)
 
     @property
     def _ramps(self):

@@ -1,12 +1,29 @@
 """The "auto" rule, written once for the scalar path and the array path.
 
-With c_k the continuous coverage of step k (the product of its ranges' transition weights,
-:meth:`~stillair.validity.Range.weight`), step k's weight is c_k (1 - c_1) ... (1 - c_(k-1)); the
-weights add up to 1 because the last step covers everything.  The value is the weighted sum of
-the methods' values, each floored like a named method, so it lies between them.  The scalar path
-(one case, numpy scalars) and the array path (1-D arrays) run the same loop, :func:`weigh_steps`,
-with the same arithmetic; they differ only in how a range's weight is read (``Range.weight_of``
-on a plain number, ``Range.weight`` on an array) and in how the result's notes are worded.
+Each step of a geometry's rule reads its ranges: its own ``when`` (or none: the correlation's
+published ranges) and the correlation's published ranges (:attr:`Range.in_auto` ones).  Its
+shortfall d_k (:meth:`~stillair.validity.Range.shortfall`, the largest over its ranges) says how
+far it lies from full coverage, in transition bands: 0 well inside every range, 0 to 1 across the
+band inside a bound, above 1 beyond it.  d_min is the least shortfall of the rule's steps.
+
+In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_min) / D clipped to
+0..1, with D = max(1 - d_min, 0) + NEAREST_MARGIN d_min:
+
+* where a correlation covers fully (d_min = 0), D is one band and b_k = 1 - d_k is the step's
+  coverage: a correlation hands weight to the next across the band inside its bound, and only
+  to correlations inside their ranges (a step with d_k >= 1 takes nothing);
+* where the correlation in use reaches the end of its range and none covers fully, it keeps its
+  weight (it is the nearest, b = 1) rather than fading into another's extrapolation; beyond
+  every range the nearest valid correlation is kept, extrapolated with its note;
+* two ranges that only touch (no band inside both) hand over across NEAREST_MARGIN of a band on
+  either side of the touch, the one place a correlation outside its range takes a share.
+
+The first step of least shortfall takes all that is left, so the weights add up to 1; they are
+continuous, because the shortfalls are.  The value is the weighted sum of the methods' values,
+each floored like a named method, so it lies between them.  The scalar path (one case, numpy
+scalars) and the array path (1-D arrays) run the same rule, :func:`weigh_steps`, with the same
+arithmetic; they differ only in how a range is read (``Range.shortfall_of`` on a plain number,
+``Range.shortfall`` on an array) and in how the result's notes are worded.
 """
 
 from __future__ import annotations
@@ -21,6 +38,11 @@ from .registry import CORRELATIONS
 from .single import _evaluate_one, _first, _range_notes, _scalar_note, _scalar_result
 from .types import Geometry, NusseltResult, uniform
 
+#: Where no correlation covers fully, how close (relative) another step's shortfall must come to
+#: the least for it to take a share: the width, in bands, of the hand-over between two ranges
+#: that only touch.
+NEAREST_MARGIN = 0.1
+
 #: One compiled step: (method, ((range, input name or None where the range computes its
 #: quantity), ...), the function evaluated: the correlation or one published form of it).
 CompiledStep = tuple[str, tuple[tuple[Range, Any], ...], Callable[..., Any]]
@@ -28,13 +50,16 @@ CompiledStep = tuple[str, tuple[tuple[Range, Any], ...], Callable[..., Any]]
 
 def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]:
     """The auto rule of ``case`` as :data:`CompiledStep` tuples, built once per geometry and case
-    (a cache, not a field of the frozen Geometry)."""
+    (a cache, not a field of the frozen Geometry).  A step's ranges: its ``when`` and the
+    correlation's published ranges that auto reads, each once."""
     cache = geo.__dict__.setdefault("_compiled_steps", {})
     if case not in cache:
         compiled = []
         for step in geo.auto[case]:
             corr = CORRELATIONS[(geo.name, step.method)]
-            ranges = corr.ranges(case) if step.when is None else step.when
+            published = tuple(bound for bound in corr.ranges(case) if bound.in_auto)
+            ranges = published if step.when is None else \
+                tuple(step.when) + tuple(bound for bound in published if bound not in step.when)
             compiled.append((step.method,
                              tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
                              corr.forms[step.form] if step.form else corr.function))
@@ -42,26 +67,43 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
     return cache[case]
 
 
-def _coverage(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-              plain: Mapping[str, float] | None) -> Any:
-    """A step's coverage 0..1: the product of its ranges' weights, in their order.
-
-    ``plain`` (the scalar path) holds the inputs as floats: each weight is then
-    ``Range.weight_of`` (the same arithmetic on one number), stopping at the first 0.  Without
-    it the inputs are arrays, and a step without ranges gives None: it covers everything.
-    """
+def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+               plain: Mapping[str, float] | None) -> Any:
+    """A step's shortfall: the largest of its ranges' (:meth:`Range.shortfall`).  ``plain``
+    (the scalar path) holds the inputs as floats, read by ``Range.shortfall_of``; without it
+    the inputs are arrays."""
     if plain is None:
-        weight = None
-        for bound, _ in ranges:
-            part = bound.weight(inputs)
-            weight = part if weight is None else weight * part
-        return weight
-    coverage = 1.0
-    for bound, key in ranges:
-        coverage *= bound.weight_of(plain[key] if key else _first(bound.values(inputs)))
-        if coverage == 0.0:
-            break
-    return coverage
+        return np.maximum.reduce([bound.shortfall(inputs) for bound, _ in ranges]) if ranges else 0.0
+    return max((bound.shortfall_of(plain[key] if key else _first(bound.values(inputs)))
+                for bound, key in ranges), default=0.0)
+
+
+def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
+                  plain: Mapping[str, float] | None) -> list[Any]:
+    """Each step's weight by the rule (module text); they add up to 1."""
+    scalar = plain is not None
+    shortfalls = [_shortfall(ranges, inputs, plain) for _, ranges, _ in _compiled_steps(geo, case)]
+    if scalar:
+        nearest = min(shortfalls)
+        width = max(1.0 - nearest, 0.0) + NEAREST_MARGIN * nearest
+        left, weights = 1.0, []
+        for short in shortfalls:
+            share = min(max(1.0 - (short - nearest) / width, 0.0), 1.0)
+            weights.append(left * share)
+            left *= 1.0 - share
+            if left == 0.0:
+                return weights + [0.0] * (len(shortfalls) - len(weights))
+        return weights
+    size = next(iter(inputs.values())).shape
+    shortfalls = [np.broadcast_to(short, size) for short in shortfalls]
+    nearest = np.minimum.reduce(shortfalls)
+    width = np.maximum(1.0 - nearest, 0.0) + NEAREST_MARGIN * nearest
+    left, weights = np.ones(size), []
+    for short in shortfalls:
+        share = np.minimum(np.maximum(1.0 - (short - nearest) / width, 0.0), 1.0)
+        weights.append(left * share)
+        left = left * (1.0 - share)
+    return weights
 
 
 def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
@@ -75,33 +117,28 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     scalar = plain is not None
     floor = -math.inf if geo.floor is None else geo.floor
     size = () if scalar else next(iter(inputs.values())).shape
-    left: Any = 1.0 if scalar else np.ones(size)
     nu: Any = 0.0 if scalar else np.zeros(size)
     weights: dict[str, Any] = {}        # method -> total weight (its forms together)
-    for method, ranges, function in _compiled_steps(geo, case):
-        coverage = _coverage(ranges, inputs, plain)
-        if coverage is None:  # covers everything: takes all that is left
-            weight, left = left, np.zeros(size)
-        else:
-            weight, left = left * coverage, left * (1.0 - coverage)
+    for (method, _, function), weight in zip(_compiled_steps(geo, case),
+                                             _step_weights(geo, case, inputs, plain)):
         used = weight > 0.0
-        if used if scalar else used.any():
-            everywhere = scalar or used.all()
-            part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
-            raw = function(**(dict(part, case=case) if geo.cases else part))
-            if scalar:
-                nu += weight * max(_first(raw), floor)
+        if not (used if scalar else np.any(used)):
+            continue
+        weight = weight if scalar else np.broadcast_to(weight, size)
+        everywhere = scalar or used.all()
+        part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
+        raw = function(**(dict(part, case=case) if geo.cases else part))
+        if scalar:
+            nu += weight * max(_first(raw), floor)
+        else:
+            value = np.asarray(raw, dtype=float)
+            if geo.floor is not None:
+                value = np.maximum(value, geo.floor)
+            if everywhere:
+                nu += weight * value
             else:
-                value = np.asarray(raw, dtype=float)
-                if geo.floor is not None:
-                    value = np.maximum(value, geo.floor)
-                if everywhere:
-                    nu += weight * value
-                else:
-                    nu[used] += weight[used] * value
-            weights[method] = weights.get(method, 0.0) + weight
-        if not (left > 0.0 if scalar else left.any()):
-            break
+                nu[used] += weight[used] * value
+        weights[method] = weights.get(method, 0.0) + weight
     return nu, weights
 
 
