@@ -39,6 +39,7 @@ from functools import lru_cache
 import numpy as np
 
 from .correlations import (
+    AUTO_PRINCIPLE,
     AutoStep,
     Geometry,
     Parameter,
@@ -59,22 +60,18 @@ __all__ = ["nu_cavity", "cavity_method", "cavity_critical_tilt", "tilt_from_vert
            "CRITICAL_TILT_TABLE", "AUTO_RULE"]
 
 AUTO_RULE = (
-    "auto weighs, in this order, each method's coverage of what the earlier ones left: "
-    "conduction (heated from above, or Ra cos(tilt) <= 1708 and Ra sin(tilt) <= 1e3), hollands "
-    "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
-    "carried to 5 deg off the horizontal for H/L >= 12), then the vertical correlations with the shared tilt "
-    "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
-    "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
-    "macgregor-emery, wright; what is left stays with the nearest valid correlation - conduction "
-    "inside its own range (fading across a factor 1.25 beyond it), Catton's short-layer form for "
-    "H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
-    "form for liquids (Pr >= 1) to H/L = 40 - and the rest goes to hollands below 75 deg and "
-    "elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
-    "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
-    "5 deg in tilt - so the value changes without a step and lies between the methods it "
-    "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
-    "explicitly keeps its published form.  en673 is never chosen by auto (it is the glazing "
-    "standard's own procedure; ask for it).")
+    "auto's order among the correlations valid at a point: conduction (Ra cos(tilt) <= 1708 and "
+    "Ra sin(tilt) <= 1e3: heated from above, or below the onset of convection), hollands "
+    "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8 horizontal and Ra cos(tilt) <= 1e5 tilted, that bound "
+    "reached over the first degree), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
+    "vertical correlations with the shared tilt treatment (Catton's interpolation below the "
+    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its two "
+    "forms blended across a factor 1.25 centred on H/L = 2), macgregor-emery (its laminar and "
+    "turbulent boxes; Pr >= 1), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
+    "layer keeps Catton's short-layer form (H/L 1 is its bound, nothing else is published "
+    "there), extrapolated below H/L 1 with the note.  A method named explicitly keeps its "
+    "published form.  en673 is never chosen by auto (it is the glazing standard's own "
+    "procedure; ask for it).")
 
 #: Critical tilt t* (deg from horizontal, heated from below) against aspect H/L, below which the
 #: vertical-layer flow gives way to the Benard cells of the heated-from-below layer.
