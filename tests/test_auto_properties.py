@@ -8,14 +8,28 @@
 (3) Inside in-range regions Nu never decreases as Ra increases at fixed other inputs (every
     registered correlation rises with Ra; physical law: more buoyancy, more heat transfer).
 
-Points the sweep checks are counted and printed (pytest -s shows them).  Measured when written
-(issue 19): (1) holds for every geometry but vcyl (105 of 2,532 covered points outside) and
-cavity (1,874 of 105,217), where a correlation fading across the band inside its bound still
-hands weight to an extrapolation (Hollands' aspect band, Catton's low-Ra band, points on a
-bound of the lattice); (3) holds but for hcyl (4 falls), vcyl (15) and cavity (6)
-of 194,452 in-range neighbour pairs.  The sweep evaluates 294,147 points (every geometry and
-case, 161 Ra values per line), 208,967 of them covered by a correlation auto uses.  Those counts are held as a ratchet (KNOWN): the
-test fails if they grow, and the entry is lowered as the rule is mended.
+The sweep evaluates 294,147 points (every natural-convection geometry and case, 161 Ra values
+per line); the points each test checks are counted and printed (pytest -s shows them).
+
+What is left, measured when the rule of issue 19 was written (stillair.correlations.auto), is
+held as a ratchet: the test fails if a count grows, and the entry is lowered as it is mended.
+(1) Two published ranges that only touch (conduction's Ra sin(tilt) <= 1e3 and Catton's
+    Ra >= 1e3; Hollands' H/L >= 12 and the vertical methods' H/L < 12 below the critical tilt)
+    have no band inside both, so a value without a step must give a correlation just outside
+    its range a share there: the rule does so only where every valid correlation lies within
+    NEAREST_MARGIN of a band of its bound (``_at_an_edge``; the lattice lines H/L = 1, 10, 12, 40
+    and Pr = 0.01 lie on bounds).  Those points are counted apart (KNOWN_BRIDGED: cavity 46 of
+    105,217 covered points, vcyl 2 of 2,532); elsewhere auto leaves the spread at one cavity point
+    (KNOWN_OUTSIDE), where Catton's published range jumps at H/L = 2 (its short band reads
+    Ra Pr/(0.2+Pr) >= 1e3, its tall band Ra >= 1e3) and auto reads each band's own range.
+(3) Falls of one correlation by itself (KNOWN_OWN_FALLS, vcyl 14: Popiel's curvature term at
+    Pr 0.01-0.02, slenderness 35-60 falls faster than the plate term rises; ht's
+    Nu_vertical_cylinder_Popiel_Churchill gives the same numbers) are the literature's; the
+    others (KNOWN_FALLS: cavity 96 of 104,253 in-range neighbour pairs, vcyl 1) are hand-overs to a correlation itself in the band
+    inside one of its bounds (MacGregor-Emery at Pr 1.1, Catton at H/L 10), which the rule
+    compresses into the part of the band where the giver lies deeper inside its range: where
+    the giver lies well above the receiver (ElSherbiny 27 % above MacGregor-Emery at Ra 2e7),
+    Nu falls across it; and the touches of (1).
 """
 
 from __future__ import annotations
@@ -26,6 +40,7 @@ import numpy as np
 import pytest
 
 from stillair.correlations import GEOMETRIES, nu_spread, nusselt
+from stillair.correlations.auto import NEAREST_MARGIN, _compiled_steps, _shortfall
 
 # Grids: every geometry and case, in Ra, Pr, aspect, slenderness and tilt, with low Ra and
 # short cavities at every tilt.
@@ -38,9 +53,11 @@ GRID = {
 }
 TILT = {"cavity": (0.0, 2.0, 10.0, 25.0, 45.0, 53.0, 60.0, 70.0, 75.0, 80.0, 90.0, 120.0, 180.0),
         "tplate": (0.0, 10.0, 30.0, 45.0, 60.0, 75.0, 89.0)}
-#: Points outside the spread / falls with Ra, as measured when written (see the module text).
-KNOWN_OUTSIDE = {"vcyl": 105, "cavity": 1874}
-KNOWN_FALLS = {"hcyl": 4, "vcyl": 15, "cavity": 6}
+#: Points outside the spread, at an edge / elsewhere, and falls with Ra, by reason (module text).
+KNOWN_BRIDGED = {"vcyl": 2, "cavity": 46}
+KNOWN_OUTSIDE = {"cavity": 1}
+KNOWN_OWN_FALLS = {"vcyl": 14}
+KNOWN_FALLS = {"vcyl": 1, "cavity": 96}
 
 # For the spread property a point counts as covered when a method auto may use covers it; a
 # point covered only by a method auto never picks (en673: the glazing standard's own
@@ -82,12 +99,25 @@ def test_auto_lies_inside_the_spread_wherever_a_correlation_it_uses_covers(geome
                            otypes=[bool])(spread.methods)
     tolerance = 1e-9 * np.abs(spread.high)
     outside = covered & ((auto.nu < spread.low - tolerance) | (auto.nu > spread.high + tolerance))
-    print(f"{geometry} {case}: {covered.sum()} covered points of {covered.size}")
+    edge = _at_an_edge(geometry, case, inputs)
+    print(f"{geometry} {case}: {covered.sum()} covered points of {covered.size}, "
+          f"{(outside & edge).sum()} outside at an edge, {(outside & ~edge).sum()} elsewhere")
     where = [(float(inputs["ra"][i]), {k: float(v[i]) for k, v in inputs.items() if k != "ra"},
               float(auto.nu[i]), float(spread.low[i]), float(spread.high[i]))
-             for i in zip(*np.nonzero(outside))][:5]
-    assert outside.sum() <= KNOWN_OUTSIDE.get(geometry, 0), \
-        f"{outside.sum()} points outside the spread, e.g. {where}"
+             for i in zip(*np.nonzero(outside & ~edge))][:5]
+    assert (outside & ~edge).sum() <= KNOWN_OUTSIDE.get(geometry, 0), \
+        f"{(outside & ~edge).sum()} points outside the spread, e.g. {where}"
+    assert (outside & edge).sum() <= KNOWN_BRIDGED.get(geometry, 0)
+
+
+def _at_an_edge(geometry, case, inputs):
+    """Where every step of the rule lies within NEAREST_MARGIN of a band of its bound: the only
+    points where the rule gives a correlation outside its range a share (the least shortfall
+    d_min > 1/(1 + NEAREST_MARGIN); stillair.correlations.auto)."""
+    flat = {k: np.ravel(v) for k, v in inputs.items()}
+    shortfalls = [np.broadcast_to(_shortfall(ranges, flat, None), flat["ra"].shape)
+                  for _, ranges, _ in _compiled_steps(GEOMETRIES[geometry], case)]
+    return (np.minimum.reduce(shortfalls) > 1.0 / (1.0 + NEAREST_MARGIN)).reshape(inputs["ra"].shape)
 
 
 @pytest.mark.slow  # a few seconds of sweeps
@@ -97,10 +127,21 @@ def test_auto_never_falls_as_ra_rises_in_range(geometry, case):
     checked = nusselt(geometry, "auto", case, **inputs)
     in_range = checked.in_range[:, :-1] & checked.in_range[:, 1:]
     falls = in_range & (auto.nu[:, 1:] < auto.nu[:, :-1] * (1 - 1e-12))
-    print(f"{geometry} {case}: {in_range.sum()} in-range neighbour pairs")
+    # one correlation falling by itself: auto is that correlation at both points, and the
+    # correlation named explicitly falls there too
+    alone = (checked.blend[:, 1:] == "") & (checked.blend[:, :-1] == "") & \
+        (checked.method[:, 1:] == checked.method[:, :-1])
+    own = np.zeros_like(falls)
+    for i, j in zip(*np.nonzero(falls & alone)):
+        named = nusselt(geometry, str(checked.method[i, j]), case,
+                        **{k: v[i, j:j + 2] for k, v in inputs.items()}).nu
+        own[i, j] = named[1] < named[0]
+    print(f"{geometry} {case}: {in_range.sum()} in-range neighbour pairs, {own.sum()} falls of one "
+          f"correlation by itself, {(falls & ~own).sum()} others")
     where = [(float(inputs["ra"][i, j]), {k: float(v[i, j]) for k, v in inputs.items() if k != "ra"})
-             for i, j in zip(*np.nonzero(falls))][:5]
-    assert falls.sum() <= KNOWN_FALLS.get(geometry, 0), f"{falls.sum()} falls, e.g. {where}"
+             for i, j in zip(*np.nonzero(falls & ~own))][:5]
+    assert (falls & ~own).sum() <= KNOWN_FALLS.get(geometry, 0), f"{(falls & ~own).sum()} falls, e.g. {where}"
+    assert own.sum() <= KNOWN_OWN_FALLS.get(geometry, 0)
 
 
 # --- the square cavity ------------------------------------------------------------------------

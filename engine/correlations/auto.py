@@ -7,7 +7,7 @@ far it lies from full coverage, in transition bands: 0 well inside every range, 
 band inside a bound, above 1 beyond it.  d_min is the least shortfall of the rule's steps.
 
 In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_min) / D clipped to
-0..1, with D = max(1 - d_min, 0) + NEAREST_MARGIN d_min:
+0..1, with D = max(1 - d_min, NEAREST_MARGIN d_min):
 
 * where a correlation covers fully (d_min = 0), D is one band and b_k = 1 - d_k is the step's
   coverage: a correlation hands weight to the next across the band inside its bound, and only
@@ -85,7 +85,7 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     shortfalls = [_shortfall(ranges, inputs, plain) for _, ranges, _ in _compiled_steps(geo, case)]
     if scalar:
         nearest = min(shortfalls)
-        width = max(1.0 - nearest, 0.0) + NEAREST_MARGIN * nearest
+        width = max(1.0 - nearest, NEAREST_MARGIN * nearest)
         left, weights = 1.0, []
         for short in shortfalls:
             share = min(max(1.0 - (short - nearest) / width, 0.0), 1.0)
@@ -97,7 +97,7 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     size = next(iter(inputs.values())).shape
     shortfalls = [np.broadcast_to(short, size) for short in shortfalls]
     nearest = np.minimum.reduce(shortfalls)
-    width = np.maximum(1.0 - nearest, 0.0) + NEAREST_MARGIN * nearest
+    width = np.maximum(1.0 - nearest, NEAREST_MARGIN * nearest)
     left, weights = np.ones(size), []
     for short in shortfalls:
         share = np.minimum(np.maximum(1.0 - (short - nearest) / width, 0.0), 1.0)
