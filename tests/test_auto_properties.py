@@ -28,7 +28,7 @@ held as a ratchet: the test fails if a count grows, and the entry is lowered as 
     others (KNOWN_FALLS: cavity 96 of 104,253 in-range neighbour pairs, vcyl 1) are hand-overs to a correlation itself in the band
     inside one of its bounds (MacGregor-Emery at Pr 1.1, Catton at H/L 10), which the rule
     compresses into the part of the band where the giver lies deeper inside its range: where
-    the giver lies well above the receiver (ElSherbiny 27 % above MacGregor-Emery at Ra 2e7),
+    the giver lies well above the receiver (ElSherbiny 32 % above MacGregor-Emery at Ra 2e7, H/L 10, Pr 1.1),
     Nu falls across it; and the touches of (1).
 """
 
