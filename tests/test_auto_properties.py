@@ -34,12 +34,13 @@ held as a ratchet: the test fails if a count grows, and the entry is lowered as 
 
 from __future__ import annotations
 
+import dataclasses
 import itertools
 
 import numpy as np
 import pytest
 
-from stillair.correlations import GEOMETRIES, nu_spread, nusselt
+from stillair.correlations import CORRELATIONS, GEOMETRIES, nu_spread, nusselt
 from stillair.correlations.auto import NEAREST_MARGIN, _compiled_steps, _shortfall
 
 # Grids: every geometry and case, in Ra, Pr, aspect, slenderness and tilt, with low Ra and
@@ -182,3 +183,52 @@ def test_no_step_where_catton_tall_form_begins(ra, tilt):
     aspect = np.linspace(1.7, 1.9, 4001)
     nu = nusselt("cavity", "auto", ra=ra, pr=0.71, aspect=aspect, tilt=tilt, notes=False).nu
     assert np.max(np.abs(np.diff(nu)) / nu[:-1]) < 1e-3
+
+
+# --- the rule's arithmetic on one number is the array's ------------------------------------------
+
+def _rule_ranges():
+    """Every distinct Range the auto rules read (their whens and the published ranges)."""
+    seen = {}
+    for geo in GEOMETRIES.values():
+        for case in geo.cases or (None,):
+            for _, ranges, _ in _compiled_steps(geo, case):
+                for bound, _ in ranges:
+                    seen[id(bound)] = bound
+    return list(seen.values())
+
+
+@pytest.mark.parametrize("bound", _rule_ranges(), ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
+def test_shortfall_of_one_number_is_the_array_shortfall(bound):
+    """The scalar path reads Range.shortfall_of, the array path Range.shortfall: the same
+    arithmetic (math.log and numpy's vectorised log may differ in the last bits)."""
+    values = np.concatenate([np.geomspace(1e-8, 1e14, 300) if bound.log_scale else np.linspace(-10.0, 190.0, 300),
+                             [bound.low, bound.high] if np.isfinite([bound.low, bound.high]).all() else [], [0.0]])
+    plain = dataclasses.replace(bound, of=None)
+    whole = plain.shortfall({bound.quantity.lower(): values})
+    one = np.array([plain.shortfall_of(float(v)) for v in values])
+    np.testing.assert_allclose(one, whole, rtol=1e-12, atol=1e-12)
+    # 0 where the range's weight is 1, 1 - weight across the band, above 1 beyond it
+    weight = plain.weight({bound.quantity.lower(): values})
+    inside_band = (whole > 0.0) & (whole < 1.0)
+    np.testing.assert_allclose(whole[inside_band], 1.0 - weight[inside_band], atol=1e-12)
+    assert (weight[whole == 0.0] == 1.0).all() and (weight[whole >= 1.0] == 0.0).all()
+
+
+def test_the_weights_add_up_to_one_and_reach_only_valid_correlations_off_the_edges():
+    """The rule's two guarantees on random cavities: the weights add up to 1, and a correlation
+    outside its published ranges (those auto reads: Range.in_auto) weighs nothing unless every
+    step lies at an edge."""
+    from stillair.correlations.auto import _step_weights
+    rng = np.random.default_rng(19)
+    n = 20000
+    inputs = {"ra": 10 ** rng.uniform(-2, 12, n), "pr": 10 ** rng.uniform(-1, 2, n),
+              "aspect": 10 ** rng.uniform(-0.5, 2.5, n), "tilt": rng.uniform(0.0, 180.0, n)}
+    geo = GEOMETRIES["cavity"]
+    weights = _step_weights(geo, None, inputs, None)
+    np.testing.assert_allclose(np.sum(weights, axis=0), 1.0, rtol=0, atol=1e-12)
+    edge = _at_an_edge("cavity", None, inputs)
+    for (method, _, _), weight in zip(_compiled_steps(geo, None), weights):
+        published = [bound for bound in CORRELATIONS[("cavity", method)].ranges(None) if bound.in_auto]
+        inside = np.all([bound.inside(inputs) for bound in published], axis=0)
+        assert not ((weight > 0.0) & ~inside & ~edge).any(), method
