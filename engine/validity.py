@@ -354,44 +354,40 @@ class Range:
 
     def shortfall(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         """How far the values lie short of the range's full weight, in transition bands: 0 where
-        :meth:`weight` is 1, 1 - weight across the band, 1 + the bands beyond where it reaches
-        0; the larger of its two bounds'.  Auto weighs its steps by it
-        (:func:`stillair.correlations.auto.weigh_steps`)."""
+        :meth:`weight` is 1, 1 - weight across the band, and beyond where it reaches 0, 1 + the
+        distance counted in the default band of the scale (a factor 4, 5 deg) whatever the
+        bound's own band, so that "how far outside" means the same for every quantity; the
+        larger of its two bounds'.  A bound without a band (a step) counts its distance the
+        same way.  Auto weighs its steps by it (:func:`stillair.correlations.auto.weigh_steps`)."""
         values = self.values(inputs)
         shortfall: Any = 0.0
-        for position in self._positions(values, np):
+        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+            along = values - bound if log_bound is None else np.log(np.maximum(values, 1e-300)) - log_bound
+            unit = _DEFAULT_UNIT[log_bound is not None]
+            if scale == 0.0:   # a step: full weight on its side, the distance beyond it
+                position = np.where(side * along >= 0, 1.0, side * along / unit)
+            else:              # the ramp, and beyond its zero end the distance in default bands
+                position = side * along / scale + offset
+                position = np.where(position < 0.0, position * (scale / unit), position)
             shortfall = np.maximum(shortfall, 1.0 - position)
         return np.broadcast_to(shortfall, np.shape(values))
 
     def shortfall_of(self, value: float) -> float:
         """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic)."""
         shortfall = 0.0
-        for position in self._positions(value, math):
-            shortfall = max(shortfall, 1.0 - position)
-        return shortfall
-
-    def _positions(self, values, lib):
-        """Each bound's ramp before clipping: 1 where its full weight begins, 0 where it ends,
-        linear between (in log for log quantities), above 1 inside that.  Beyond the zero end
-        it goes below 0 by the distance counted in the default band of the scale (a factor 4,
-        5 deg), whatever the bound's own band, so that "how far outside" means the same for
-        every quantity; a bound without a band (a step) counts its distance the same way."""
         for bound, side, log_bound, scale, offset, _, _ in self._ramps:
-            if log_bound is None:
-                along = values - bound
-            elif lib is math:
-                along = math.log(values if values > 1e-300 else 1e-300) - log_bound
+            along = value - bound if log_bound is None else \
+                math.log(value if value > 1e-300 else 1e-300) - log_bound
+            unit = _DEFAULT_UNIT[log_bound is not None]
+            if scale == 0.0:
+                position = 1.0 if side * along >= 0 else side * along / unit
             else:
-                along = np.log(np.maximum(values, 1e-300)) - log_bound
-            if scale == 0.0:   # a step: full weight on its side, the distance beyond it
-                unit = math.log(DEFAULT_LOG_BAND) if log_bound is not None else DEFAULT_TILT_BAND
-                yield lib.where(side * along >= 0, 1.0, side * along / unit) if lib is np else \
-                    (1.0 if side * along >= 0 else side * along / unit)
-            else:   # beyond the band's zero end, counted in the scale's default band
                 position = side * along / scale + offset
-                unit = math.log(DEFAULT_LOG_BAND) if log_bound is not None else DEFAULT_TILT_BAND
-                yield lib.where(position < 0.0, position * (scale / unit), position) if lib is np else \
-                    (position * (scale / unit) if position < 0.0 else position)
+                if position < 0.0:
+                    position *= scale / unit
+            if 1.0 - position > shortfall:
+                shortfall = 1.0 - position
+        return shortfall
 
     @property
     def _ramps(self):
@@ -436,3 +432,5 @@ class Range:
 
 
 _OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}
+#: The default band on each scale, by "is it a log scale": 5 deg, or the log of a factor 4.
+_DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}

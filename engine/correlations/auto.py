@@ -68,42 +68,52 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
 
 
 def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-               plain: Mapping[str, float] | None) -> Any:
+               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None) -> Any:
     """A step's shortfall: the largest of its ranges' (:meth:`Range.shortfall`).  ``plain``
     (the scalar path) holds the inputs as floats, read by ``Range.shortfall_of``; without it
-    the inputs are arrays."""
-    if plain is None:
-        return np.maximum.reduce([bound.shortfall(inputs) for bound, _ in ranges]) if ranges else 0.0
-    return max((bound.shortfall_of(plain[key] if key else _first(bound.values(inputs)))
-                for bound, key in ranges), default=0.0)
+    the inputs are arrays.  ``read`` keeps each range's shortfall for the other steps that read
+    the same range (the cavity's vertical methods share their tilt ranges)."""
+    largest: Any = 0.0
+    read = {} if read is None else read
+    for bound, key in ranges:
+        short = read.get(id(bound))
+        if short is None:
+            short = bound.shortfall(inputs) if plain is None else \
+                bound.shortfall_of(plain[key] if key else _first(bound.values(inputs)))
+            read[id(bound)] = short
+        largest = np.maximum(largest, short) if plain is None else max(largest, short)
+    return largest
 
 
 def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
                   plain: Mapping[str, float] | None) -> list[Any]:
-    """Each step's weight by the rule (module text); they add up to 1."""
+    """Each step's weight by the rule (module text); they add up to 1.  The scalar path runs
+    the same arithmetic on floats (``max``/``min``) as the array path on arrays."""
     scalar = plain is not None
-    shortfalls = [_shortfall(ranges, inputs, plain) for _, ranges, _ in _compiled_steps(geo, case)]
-    if scalar:
-        nearest = min(shortfalls)
-        width = max(1.0 - nearest, NEAREST_MARGIN * nearest)
-        left, weights = 1.0, []
-        for short in shortfalls:
-            share = min(max(1.0 - (short - nearest) / width, 0.0), 1.0)
-            weights.append(left * share)
-            left *= 1.0 - share
-            if left == 0.0:
-                return weights + [0.0] * (len(shortfalls) - len(weights))
-        return weights
-    size = next(iter(inputs.values())).shape
-    shortfalls = [np.broadcast_to(short, size) for short in shortfalls]
-    nearest = np.minimum.reduce(shortfalls)
-    width = np.maximum(1.0 - nearest, NEAREST_MARGIN * nearest)
-    left, weights = np.ones(size), []
+    steps = _compiled_steps(geo, case)
+    larger, smaller = (max, min) if scalar else (np.maximum, np.minimum)
+    size = () if scalar else next(iter(inputs.values())).shape
+    shortfalls: list[Any] = []
+    nearest: Any = math.inf
+    read: dict[int, Any] = {}
+    for _, ranges, _ in steps:
+        short = _shortfall(ranges, inputs, plain, read)
+        shortfalls.append(short if scalar else np.broadcast_to(short, size))
+        nearest = smaller(nearest, short)
+        # a step that covers fully takes all that is left: the later ones weigh nothing, and
+        # need not be read (d_min is 0 wherever this holds)
+        if not (nearest > 0.0 if scalar else np.any(nearest > 0.0)):
+            break
+    width = larger(1.0 - nearest, NEAREST_MARGIN * nearest)
+    left: Any = 1.0
+    weights: list[Any] = []
     for short in shortfalls:
-        share = np.minimum(np.maximum(1.0 - (short - nearest) / width, 0.0), 1.0)
+        share = smaller(larger(1.0 - (short - nearest) / width, 0.0), 1.0)
         weights.append(left * share)
         left = left * (1.0 - share)
-    return weights
+        if scalar and left == 0.0:   # the rest weigh nothing
+            break
+    return weights + [0.0] * (len(steps) - len(weights))
 
 
 def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
