@@ -358,11 +358,15 @@ class Range:
         distance counted in the default band of the scale (a factor 4, 5 deg) whatever the
         bound's own band, so that "how far outside" means the same for every quantity; the
         larger of its two bounds'.  A bound without a band (a step) counts its distance the
-        same way.  Auto weighs its steps by it (:func:`stillair.correlations.auto.weigh_steps`)."""
+        same way; on a log scale a value <= 0 lies infinitely far below every bound.  Auto weighs its steps by it (:func:`stillair.correlations.auto.weigh_steps`)."""
         values = self.values(inputs)
         shortfall: Any = 0.0
+        positive = values > 0.0
         for bound, side, log_bound, scale, offset, _, _ in self._ramps:
-            along = values - bound if log_bound is None else np.log(np.maximum(values, 1e-300)) - log_bound
+            # on a log scale a value <= 0 (Ra = 0, Ra cos(tilt) heated from above) lies infinitely
+            # far below every bound: beyond any lower bound, deep inside any upper one
+            along = values - bound if log_bound is None else \
+                np.where(positive, np.log(np.where(positive, values, 1.0)), -np.inf) - log_bound
             unit = _DEFAULT_UNIT[log_bound is not None]
             if scale == 0.0:   # a step: full weight on its side, the distance beyond it
                 position = np.where(side * along >= 0, 1.0, side * along / unit)
@@ -377,7 +381,7 @@ class Range:
         shortfall = 0.0
         for bound, side, log_bound, scale, offset, _, _ in self._ramps:
             along = value - bound if log_bound is None else \
-                math.log(value if value > 1e-300 else 1e-300) - log_bound
+                (math.log(value) if value > 0.0 else -math.inf) - log_bound
             unit = _DEFAULT_UNIT[log_bound is not None]
             if scale == 0.0:
                 position = 1.0 if side * along >= 0 else side * along / unit

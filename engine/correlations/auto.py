@@ -7,7 +7,7 @@ far it lies from full coverage, in transition bands: 0 well inside every range, 
 band inside a bound, above 1 beyond it.  d_min is the least shortfall of the rule's steps.
 
 In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_min) / D clipped to
-0..1, with D = max(1 - d_min, NEAREST_MARGIN d_min):
+0..1, with D = max(1 - d_min, NEAREST_MARGIN min(d_min, 1)):
 
 * where a correlation covers fully (d_min = 0), D is one band and b_k = 1 - d_k is the step's
   coverage: a correlation hands weight to the next across the band inside its bound, and only
@@ -16,7 +16,9 @@ In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_mi
   weight (it is the nearest, b = 1) rather than fading into another's extrapolation; beyond
   every range the nearest valid correlation is kept, extrapolated with its note;
 * two ranges that only touch (no band inside both) hand over across NEAREST_MARGIN of a band on
-  either side of the touch, the one place a correlation outside its range takes a share.
+  either side of the touch, the one place a correlation outside its range takes a share where
+  another is valid; beyond every range, two extrapolations share only where they lie within
+  NEAREST_MARGIN of a band of each other.
 
 The first step of least shortfall takes all that is left, so the weights add up to 1; they are
 continuous, because the shortfalls are.  The value is the weighted sum of the methods' values,
@@ -38,9 +40,9 @@ from .registry import CORRELATIONS
 from .single import _evaluate_one, _first, _range_notes, _scalar_note, _scalar_result
 from .types import Geometry, NusseltResult, uniform
 
-#: Where no correlation covers fully, how close (relative) another step's shortfall must come to
-#: the least for it to take a share: the width, in bands, of the hand-over between two ranges
-#: that only touch.
+#: Where no correlation covers fully, how close another step's shortfall must come to the least
+#: for it to take a share, in bands (relative to the least below one band): the width of the
+#: hand-over between two ranges that only touch, and between two extrapolations.
 NEAREST_MARGIN = 0.1
 
 #: One compiled step: (method, ((range, input name or None where the range computes its
@@ -104,11 +106,14 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
         # need not be read (d_min is 0 wherever this holds)
         if not (nearest > 0.0 if scalar else np.any(nearest > 0.0)):
             break
-    width = larger(1.0 - nearest, NEAREST_MARGIN * nearest)
+    width = larger(1.0 - nearest, NEAREST_MARGIN * smaller(nearest, 1.0))
     left: Any = 1.0
     weights: list[Any] = []
     for short in shortfalls:
-        share = smaller(larger(1.0 - (short - nearest) / width, 0.0), 1.0)
+        # (inf - inf where two steps are infinitely far, as at Ra = 0: a tie, the first keeps it)
+        beyond = (short - nearest if short != nearest else 0.0) if scalar else \
+            np.where(short == nearest, 0.0, short - nearest)
+        share = smaller(larger(1.0 - beyond / width, 0.0), 1.0)
         weights.append(left * share)
         left = left * (1.0 - share)
         if scalar and left == 0.0:   # the rest weigh nothing
