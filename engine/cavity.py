@@ -65,8 +65,9 @@ AUTO_RULE = (
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8 horizontal and Ra cos(tilt) <= 1e5 tilted, that bound "
     "reached over the first degree), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
     "vertical correlations with the shared tilt treatment (Catton's interpolation below the "
-    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its two "
-    "forms blended across a factor 1.25 centred on H/L = 2), macgregor-emery (its laminar and "
+    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its "
+    "short-layer form to H/L = 2, handed over to its tall-layer form from 2 to 2.24, the short "
+    "form extrapolated by at most a factor 1.12 there), macgregor-emery (its laminar and "
     "turbulent boxes; Pr >= 1), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
     "layer keeps Catton's short-layer form (H/L 1 is its bound, nothing else is published "
     "there), extrapolated below H/L 1 with the note.  A method named explicitly keeps its "
@@ -256,8 +257,9 @@ def _catton_x(inputs):
 
 
 #: Auto's coverage of the two published bands of Catton's and MacGregor-Emery's correlations:
-#: each band's own published range, with Catton's aspect edge at 2 blended over a factor 1.25
-#: centred on it (each band extrapolated by a factor 1.12, both inside Catton's range) and
+#: each band's own published range, with Catton's aspect edge at 2 in a band of a factor 1.25
+#: centred on it (each band's coverage may reach a factor 1.12 past the edge; auto, preferring
+#: the short form where both are equally deep, hands it over from 2 to 2.24) and
 #: MacGregor-Emery's laminar box handing over to the turbulent one inside both (Ra 2.5e6-1e7).
 CATTON_SHORT_WHEN = (Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
                      Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x)) + VERTICAL_TILT_COVERAGE
