@@ -25,7 +25,7 @@ from .reader import CellError  # noqa: E402
 
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
-           "run_problem"]
+           "run_problem", "reads_references", "as_reference"]
 
 _registered = False
 
@@ -126,6 +126,28 @@ def compile_formula(text: str):
     from formulas import Parser
     function = Parser().ast("=" + text)[1].compile()
     return function, [str(key) for key in function.inputs]
+
+
+# Functions formulas implements on the reference itself (its rows, columns, areas), not on the
+# values: a compiled formula calling one must be given ``Ranges`` inputs, or they answer #VALUE!.
+_REFERENCE_FUNCTIONS = re.compile(
+    r"(?i)(?<![\w.])(?:_XLFN\.)?(?:ROW|COLUMN|ROWS|COLUMNS|AREAS|ISREF|INDEX|SINGLE)\(")
+
+
+def reads_references(text: str) -> bool:
+    """Whether a prepared formula calls a function that reads its argument as a reference."""
+    return bool(_REFERENCE_FUNCTIONS.search(text))
+
+
+def as_reference(key: str, values):
+    """An input of a compiled formula as the library's reference object (``Ranges``): where it
+    lies and its cells' values; None when the library cannot read ``key`` as a reference."""
+    from formulas.errors import BaseError
+    from formulas.ranges import Ranges
+    try:
+        return Ranges().push(key, values)
+    except (BaseError, ValueError, AttributeError):
+        return None
 
 
 def fast_runner(function):

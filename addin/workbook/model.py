@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
-                              to_formulas, xl_error)
+                              reads_references, to_formulas, xl_error)
 from .formulatext import Reference, parse_reference
 from .rewrite import prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
@@ -151,7 +151,8 @@ class Model:
         return node
 
     def _prepare(self, node: _Node) -> None:
-        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates)
+        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates,
+                           is_formula=self._is_formula)
         node.prepared = prepared
         if prepared.problem:
             node.problem = prepared.problem
@@ -167,6 +168,10 @@ class Model:
                 else:
                     node.deps.add(source)
             node.sources.append(source)
+
+    def _is_formula(self, sheet: str, row: int, col: int) -> bool:
+        name = self.sheet_case.get(sheet.upper())
+        return name is not None and (name, f"{index_to_col(col)}{row}") in self.owner
 
     def _resolve_name(self, reference: Reference, sheet: str):
         """A name as Excel resolves it: the formula's sheet's own name first, then the
@@ -221,14 +226,16 @@ class Model:
         return order
 
     def compile(self, node: _Node, share: bool = True):
-        """The compiled function for the node's shape, and which reference feeds each input."""
+        """The compiled function for the node's shape, which reference feeds each input, the
+        problem, and the inputs' texts where the formula reads its arguments as references
+        (ROW, ROWS, AREAS...: the inputs are then passed as the library's reference objects)."""
         prepared = node.prepared
         cached = self._compiled.get(prepared.key) if share else None
         if cached is None:
             try:
                 function, inputs = compile_formula(prepared.text)
             except Exception as error:
-                cached = (None, None, parse_problem(error, node.text))
+                cached = (None, None, parse_problem(error, node.text), None)
             else:
                 positions = []
                 wanted = [_reference_id(r, None) for r in prepared.references]
@@ -237,9 +244,10 @@ class Model:
                     positions.append(wanted.index(ident) if ident in wanted else None)
                 if None in positions:
                     cached = (None, None, "the evaluator reads this formula's references "
-                              "differently from Excel")
+                              "differently from Excel", None)
                 else:
-                    cached = (fast_runner(function) if share else function, positions, None)
+                    keys = list(inputs) if reads_references(prepared.text) else None
+                    cached = (fast_runner(function) if share else function, positions, None, keys)
             if share:
                 self._compiled[prepared.key] = cached
         return cached
@@ -314,8 +322,11 @@ class Model:
             array = area_cache.get(area_key)
             if array is not None:
                 return array
-            array = np.full((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
-                            empty, dtype=object)
+            # ndarray.fill keeps the blank marker itself: np.full would turn it (a str subclass)
+            # into the plain text 'empty', which COUNTA counts and our functions refuse.
+            array = np.empty((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
+                             dtype=object)
+            array.fill(empty)
             sheet = self.sheets[sheet_name]
             last_row, last_col = sheet.last_row, sheet.last_col
             letters = [index_to_col(c) for c in range(reference.c1, min(reference.c2, last_col) + 1)]
