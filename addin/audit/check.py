@@ -165,6 +165,8 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     calls_of = {k: calls_in(model.nodes[k].text) for k in ordered}
     unknown_cells = {k for k, calls in calls_of.items() if any(c.unknown for c in calls)}
     edited_inputs = pristine is not None and inputs_changed(book, pristine)
+    # A cell of an iterated loop is as exact as the workbook's delta allows, no more.
+    loop_delta = {cell: loop.delta for loop in evaluation.loops for cell in loop.cells}
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
@@ -219,7 +221,8 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
                     add("stale", key[0], ref, advice, formula=formula, cached=cached,
                         computed=value)
                 continue
-            same, rel = same_value(cached, value, rtol, atol, scale)
+            same, rel = same_value(cached, value, rtol,
+                                   max(atol, loop_delta.get(label(key[0], ref), 0.0)), scale)
             if same:
                 continue
             if calls_version:
@@ -253,6 +256,13 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     for cell, message in evaluation.notes:
         if not cell:
             result.findings.append(Finding("out-of-range", "", message))
+    for loop in evaluation.loops:
+        if loop.converged and not loop.stored_converged:
+            sheet, _, ref = loop.cells[0].rpartition("!")
+            add("stale", sheet.strip("'"), ref, f"the values saved for the circular loop "
+                f"{', '.join(loop.cells[:8])} were not converged: one sweep of the workbook's "
+                f"iterative calculation from them changed a value by more than its delta "
+                f"{loop.delta:g}; recalculate (F9) until it settles and save")
 
 
 # ---------------------------------------------------------------------------------------------

@@ -106,9 +106,11 @@ def _member_value(array, i: int, j: int):
     return xl_error("#N/A")
 
 
-def calculate_node(model, node, key, values, results, recorder, area_values) -> dict:
+def calculate_node(model, node, key, values, results, recorder, area_values, *,
+                   in_loop: bool = False) -> dict:
     """Calculate one node of ``model``; returns the CellResult of each cell it fills and puts
-    the library's values in ``values`` for the formulas that read them."""
+    the library's values in ``values`` for the formulas that read them.  ``in_loop``: the node
+    is one sweep's step of an iterated circular loop (else a loop's cell is not calculated)."""
     import numpy as np
 
     where = label(node.sheet, node.ref) if node.name is None else node.name
@@ -116,8 +118,10 @@ def calculate_node(model, node, key, values, results, recorder, area_values) -> 
     upstream = [results.get(d) for d in node.deps if d in results]
     failed = next((r for r in upstream if r.status == "cannot-evaluate"), None)
     problem = node.problem
-    if key in model.cycles and problem is None:
-        problem = "circular reference: the formula depends on its own value"
+    if key in model.cycles and problem is None and not in_loop:
+        problem = (f"circular reference: the formula depends on its own value through the loop "
+                   f"{model.loop_text(model.cycles[key])} (the workbook does not enable "
+                   f"iterative calculation)")
     function = positions = reference_keys = None
     notes_before, errors_before = len(recorder.notes), len(recorder.errors)
     if problem is None and failed is None:

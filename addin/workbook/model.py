@@ -22,6 +22,7 @@ Commands read this status; none of them infers an error from the shape of a text
 
 from __future__ import annotations
 
+import math
 import os
 import re
 import time
@@ -34,7 +35,7 @@ from .formulatext import Reference, parse_reference
 from .rewrite import prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
-from .status import CellResult, Evaluation, label, quote_sheet
+from .status import CellResult, Evaluation, LoopReport, label, quote_sheet
 
 __all__ = ["Model", "evaluate_book", "MAX_CELLS_READ"]
 
@@ -59,6 +60,10 @@ class _Node:
     compiled: object = None
     problem: str | None = None
     name: str | None = None     # a defined name's node: its label
+
+
+class _Loop(tuple):
+    """The keys of one circular loop, in sweep order (a step of :attr:`Model.order`)."""
 
 
 class Model:
@@ -200,30 +205,75 @@ class Model:
         return found
 
     def _order(self) -> list:
-        """Nodes in calculation order; a cycle's cells are reported, not calculated."""
-        order, state = [], {}
-        self.cycles: set = set()
+        """Calculation steps in dependency order: a cell's key, or a tuple of the keys of one
+        circular loop (a strongly connected component, Tarjan's algorithm), which is iterated
+        when the workbook enables iterative calculation and reported otherwise.  Components are
+        emitted after every component they read, so each step's inputs are final."""
+        keys = self.nodes.keys()
+
+        def deps_of(key):
+            return iter(sorted(self.nodes[key].deps & keys, key=str))
+
+        order: list = []
+        self.cycles: dict = {}          # key -> the loop (tuple of keys) it belongs to
+        index: dict = {}
+        low: dict = {}
+        stack: list = []
+        on_stack: set = set()
         for start in self.nodes:
-            if start in state:
+            if start in index:
                 continue
-            stack = [(start, iter(sorted(self.nodes[start].deps & self.nodes.keys(), key=str)))]
-            state[start] = 1
-            while stack:
-                key, children = stack[-1]
+            index[start] = low[start] = len(index)
+            stack.append(start)
+            on_stack.add(start)
+            work = [(start, deps_of(start))]
+            while work:
+                key, children = work[-1]
                 for child in children:
-                    if state.get(child) == 1:
-                        self.cycles.add(child)
-                        self.cycles.add(key)
-                    elif child not in state:
-                        state[child] = 1
-                        stack.append((child, iter(sorted(self.nodes[child].deps & self.nodes.keys(),
-                                                          key=str))))
+                    if child not in index:
+                        index[child] = low[child] = len(index)
+                        stack.append(child)
+                        on_stack.add(child)
+                        work.append((child, deps_of(child)))
                         break
+                    if child in on_stack:
+                        low[key] = min(low[key], index[child])
                 else:
-                    stack.pop()
-                    state[key] = 2
-                    order.append(key)
+                    work.pop()
+                    if work:
+                        parent = work[-1][0]
+                        low[parent] = min(low[parent], low[key])
+                    if low[key] != index[key]:
+                        continue
+                    component = []
+                    while True:
+                        member = stack.pop()
+                        on_stack.discard(member)
+                        component.append(member)
+                        if member == key:
+                            break
+                    if len(component) == 1 and key not in self.nodes[key].deps:
+                        order.append(key)
+                        continue
+                    loop = _Loop(sorted(component, key=self._sweep_position))
+                    for member in loop:
+                        self.cycles[member] = loop
+                    order.append(loop)
         return order
+
+    def _sweep_position(self, key):
+        """Where a loop's cell comes in a sweep: sheet by sheet, row by row (names first)."""
+        if key[0] == "#name":
+            return (-1, 0, 0, str(key))
+        sheet_index = next((i for i, s in enumerate(self.book.sheets) if s.name == key[0]), 0)
+        row, col = split_ref(key[1])
+        return (sheet_index, row, col, "")
+
+    def loop_text(self, loop) -> str:
+        """A loop's cells for a message: 'S!A1, S!A2' (the first eight, then how many more)."""
+        shown = [self.nodes[k].name or label(k[0], k[1]) for k in loop[:8]]
+        more = f" and {len(loop) - 8} more" if len(loop) > 8 else ""
+        return ", ".join(shown) + more
 
     def compile(self, node: _Node, share: bool = True):
         """The compiled function for the node's shape, which reference feeds each input, the
@@ -333,27 +383,91 @@ class Model:
             for r in range(reference.r1, min(reference.r2, last_row) + 1):
                 for j, column in enumerate(letters):
                     array[r - reference.r1, j] = cell_value(sheet_name, f"{column}{r}")
-            if cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
+            if caching[0] and cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
                 cached_cells[0] += array.size
                 area_cache[area_key] = array
             return array
 
         area_cache: dict = {}
         cached_cells = [0]
+        caching = [True]
+        loops: list = []
         needed = self.upstream(only) if only is not None else None
         self._check_volume(needed)
         from .safezip import offline
         with recorder, offline():   # nothing in a workbook may reach the network
-            for key in self.order:
-                node = self.nodes[key]
-                if key in sets or (needed is not None and key not in needed):
-                    continue
-                results_here = calculate_node(self, node, key, values, results, recorder,
-                                              area_values)
-                for member_key, result in results_here.items():
-                    results[member_key] = result
+            for step in self.order:
+                if isinstance(step, _Loop):
+                    if needed is not None and not any(k in needed for k in step):
+                        continue
+                    if self.book.iteration is not None:
+                        caching[0] = False   # a loop's ranges change from sweep to sweep
+                        loops.append(self._iterate(step, sets, values, results, recorder,
+                                                   area_values))
+                        caching[0] = True
+                        continue
+                    keys = step
+                else:
+                    keys = (step,)
+                for key in keys:
+                    if key in sets or (needed is not None and key not in needed):
+                        continue
+                    results.update(calculate_node(self, self.nodes[key], key, values, results,
+                                                  recorder, area_values))
         calculated = time.perf_counter()
-        return self._evaluation(values, results, recorder, sets, calculated - started)
+        evaluation = self._evaluation(values, results, recorder, sets, calculated - started)
+        evaluation.loops = loops
+        return evaluation
+
+    def _iterate(self, loop, sets, values, results, recorder, area_values) -> LoopReport:
+        """A circular loop calculated as Excel's iterative calculation does it: starting from
+        the values the file stores for its cells (0 where none), sweeps over the loop's cells in
+        sheet order (each sweep reads the newest values), at most the workbook's count, stopping
+        when no number changed by more than its delta.  A loop still changing after the count
+        keeps its last values with the status error and the last change named."""
+        iteration = self.book.iteration
+        members = []
+        for key in loop:
+            node = self.nodes[key]
+            if node.name is not None:
+                continue
+            for member in self.members(node):
+                members.append(member)
+                if member in sets:
+                    continue
+                sheet = self.sheets[member[0]]
+                cell = sheet.formulas.get(member[1])
+                stored = cell.cached if cell is not None and cell.has_cached else \
+                    sheet.cached.get(member[1])
+                if stored is None or isinstance(stored, CellError):
+                    stored = 0.0
+                values[member] = to_formulas(stored)
+        computed = [k for k in loop if k not in sets]
+        sweeps, change, first_change = 0, math.inf, None
+        while sweeps < iteration.count:
+            before = {m: plain(values.get(m)) for m in members}
+            for key in computed:
+                results.update(calculate_node(self, self.nodes[key], key, values, results,
+                                              recorder, area_values, in_loop=True))
+            sweeps += 1
+            change = max((_change(before[m], plain(values.get(m))) for m in members), default=0.0)
+            if first_change is None:
+                first_change = change
+            if change <= iteration.delta:
+                break
+        converged = change <= iteration.delta
+        cells = tuple(label(*m) for m in members)
+        if not converged:
+            message = (f"iterative calculation did not converge: after {sweeps} sweeps (the "
+                       f"workbook's limit) the loop {self.loop_text(loop)} still changed by "
+                       f"{change:.3g}, more than its delta {iteration.delta:g}")
+            for member in members:
+                result = results.get(member)
+                if result is not None and result.status in ("value", "note"):
+                    results[member] = CellResult(result.value, "error", (message,),
+                                                 label(*members[0]), result.scale)
+        return LoopReport(cells, sweeps, change, iteration.delta, converged,
+                          first_change is not None and first_change <= iteration.delta)
 
     def _check_volume(self, needed) -> None:
         """Refuse, before calculating, a workbook whose formulas would read more cells in all than
@@ -469,6 +583,17 @@ class Model:
             return None
         return [[one(r, c) for c in range(reference.c1, reference.c2 + 1)]
                 for r in range(reference.r1, reference.r2 + 1)]
+
+
+def _change(before, after) -> float:
+    """How much one cell changed in a sweep: the difference of numbers; any other change
+    (text, an error appearing) counts as not settled."""
+    if before == after:
+        return 0.0
+    if isinstance(before, float) and isinstance(after, float):
+        difference = abs(after - before)
+        return difference if math.isfinite(difference) else math.inf
+    return math.inf
 
 
 def _is_plain_reference(text: str) -> bool:

@@ -118,6 +118,15 @@ class DefinedName:
     hidden: bool
 
 
+@dataclass(frozen=True)
+class Iteration:
+    """The workbook's iterative calculation (``calcPr iterate="1"``): at most ``count`` sweeps,
+    stopping when no value changes by more than ``delta`` (Excel's defaults 100 and 0.001)."""
+
+    count: int = 100
+    delta: float = 0.001
+
+
 @dataclass
 class Book:
     path: str
@@ -125,6 +134,7 @@ class Book:
     names: list[DefinedName]
     members: list[str]
     application: str = ""   # docProps/app.xml: the program that saved the file
+    iteration: Iteration | None = None   # None: iterative calculation is off (cycles are errors)
 
     def sheet(self, name: str) -> Sheet:
         for sheet in self.sheets:
@@ -170,8 +180,10 @@ def read_book(path: str) -> Book:
             if part not in present:
                 continue  # a chart sheet or a dangling relationship
             sheet = Sheet(element.get("name"), part)
+            data = archive.read(part)
+            _require_well_formed(data, path, sheet.name, part)
             try:
-                _scan_sheet(sheet, archive.read(part), shared, counts, path)
+                _scan_sheet(sheet, data, shared, counts, path)
             except (UnicodeDecodeError, ValueError) as error:
                 raise BookError(f"{path}: damaged sheet {sheet.name!r} ({error})") from None
             sheets.append(sheet)
@@ -188,7 +200,38 @@ def read_book(path: str) -> Book:
         if "docProps/app.xml" in present:
             m = re.search(rb"<(?:\w+:)?Application>([^<]*)<", archive.read("docProps/app.xml"))
             application = _unescape(m.group(1).decode("utf-8", "replace")) if m else ""
-        return Book(path, sheets, names, members, application)
+        return Book(path, sheets, names, members, application, _iteration(workbook))
+
+
+def _iteration(workbook) -> Iteration | None:
+    """The calcPr element's iteration settings, or None when iteration is off."""
+    element = workbook.find(f"{{{_NS_MAIN}}}calcPr")
+    if element is None or element.get("iterate") not in ("1", "true"):
+        return None
+    try:
+        count = int(element.get("iterateCount", "100"))
+    except ValueError:
+        count = 100
+    try:
+        delta = float(element.get("iterateDelta", "0.001"))
+    except ValueError:
+        delta = 0.001
+    return Iteration(max(count, 1), abs(delta))
+
+
+def _require_well_formed(data: bytes, path: str, sheet: str, part: str) -> None:
+    """A sheet part that is not well-formed XML (a truncated or damaged file) is refused by
+    name: read leniently, it would look like an empty sheet and spoil every formula that
+    reads it.  The prolog was checked by safezip (no DTD), so expat only checks the syntax."""
+    from xml.parsers import expat
+    parser = expat.ParserCreate()
+    try:
+        parser.Parse(data, True)
+    except expat.ExpatError as error:
+        raise BookError(f"{path}: damaged file: sheet {sheet!r} (part {part}) is not well-formed "
+                        f"XML ({expat.errors.messages[error.code]} at line {error.lineno}, column "
+                        f"{error.offset}); open it in the spreadsheet program that made it and "
+                        f"save it again, or use a backup") from None
 
 
 def _shared_strings(archive: zipfile.ZipFile, path: str) -> list[str]:
