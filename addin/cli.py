@@ -38,7 +38,11 @@ def build_parser() -> argparse.ArgumentParser:
                                "text), listed in the notes; 2 could not run (one line on stderr).")
     calc.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
     calc.add_argument("--set", dest="sets", action="append", default=[], metavar="REF=VALUE",
-                      help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable)")
+                      help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable); the "
+                      "value must pass the cell's data-validation rule; an empty value clears the "
+                      "cell")
+    calc.add_argument("--replace-formula", action="store_true",
+                      help="let --set replace a formula cell with a value (refused otherwise)")
     calc.add_argument("--out", metavar="OUT.xlsx",
                       help="write a copy with formulas kept and cached values filled in; OUT must be "
                       "a new file (an existing file is never replaced)")
@@ -95,13 +99,14 @@ def calc(args) -> int:
             if os.path.exists(args.book) and same_file(args.book, args.out):
                 raise BookError(f"{args.out}: refusing to write over the input workbook")
             _check_new_file(args.out, "--out")
-        evaluation = evaluate_book(args.book, sets)
+        evaluation = evaluate_book(args.book, sets,
+                                   replace_formulas=getattr(args, "replace_formula", False))
         if args.out:
             _check_out_extension(evaluation.book, args.out)
             values = evaluation.writable_values()
             for (sheet, ref), value in evaluation.sets.items():
                 formula = ref in evaluation.book.sheet(sheet).formulas
-                if isinstance(value, str) and not formula:
+                if (isinstance(value, str) or value is None) and not formula:
                     raise BookError(f"--set {sheet}!{ref}: only numbers or TRUE/FALSE can be written "
                                     "into an input cell of the --out copy")
                 values.setdefault(sheet, {})[ref] = value

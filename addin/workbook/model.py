@@ -609,17 +609,26 @@ def _reference_id(reference: Reference, default_sheet):
     return (reference.kind, (reference.sheet or "").upper(), reference.name.upper())
 
 
-def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None) -> Evaluation:
+def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None, *,
+                  replace_formulas: bool = False) -> Evaluation:
     """Read and calculate a workbook; ``sets`` maps a cell ("Sheet!B3") or name to a new value.
 
     ``path`` may be a :class:`Book` already read.  ``cells`` limits the work to those formula
-    cells and what they read."""
+    cells and what they read.  A set value must pass the cell's data-validation rule, and a
+    formula cell is replaced only with ``replace_formulas`` (else BookError)."""
+    from .rules import check_sets
     model = _model_of(path) if cells is None else Model(
         path if isinstance(path, Book) else read_book(path), cells)
-    targets = {}
+    targets, shown = {}, {}
     for target, text in (sets or {}).items():
-        targets[resolve_target(model.book, target)] = parse_value(text) if isinstance(text, str) else text
-    return model.calculate(targets)
+        key = resolve_target(model.book, target, replace_formulas, typed=f"{target}={text}")
+        targets[key] = parse_value(text) if isinstance(text, str) else text
+        shown[key] = f"{target}={text}"
+    evaluation = model.calculate(targets)
+    if targets:
+        for message in check_sets(model, evaluation, targets, shown):
+            evaluation.notes.append(("", message))
+    return evaluation
 
 
 _MODELS: dict = {}
