@@ -114,10 +114,57 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
         row, col = split_ref(f.ref)
         return (order.get(f.sheet, len(order)), row, col)
 
-    findings.sort(key=lambda f: (_SEVERITY[f.kind], -(f.rel_diff or 0.0), position(f)))
+    causes = _causes(model, findings) if evaluation is not None else {}
+
+    def rank(f: Finding):
+        if f.kind == "template-drift":
+            return 0
+        return 2 if id(f) in causes else 1
+
+    findings.sort(key=lambda f: (rank(f), _SEVERITY[f.kind], -(f.rel_diff or 0.0), position(f)))
     timing["classify"] = time.perf_counter() - classify_started
     result.timing = timing
     return result
+
+
+def _causes(model, findings) -> dict:
+    """Cause first: for each finding that follows from another (a finding in a cell it reads,
+    directly or not), that cell, by ``id`` of the finding.  A typed-over or drifted formula and a
+    changed input have no finding upstream; everything downstream of them follows.  Their
+    messages say so: a root mismatch whose inputs all agree was typed over."""
+    anchors: dict = {}
+    for finding in findings:
+        if finding.sheet is not None:
+            key = model.owner.get((finding.sheet, finding.ref), (finding.sheet, finding.ref))
+            anchors.setdefault(key, finding)
+    if not anchors:
+        return {}
+    first_cause: dict = {}          # node -> the first finding cell upstream of it
+    for key in model.keys_in_order():
+        node = model.nodes[key]
+        for dep in sorted(node.deps, key=str):
+            cause = dep if dep in anchors and dep != key else first_cause.get(dep)
+            if cause is not None and cause != key:
+                first_cause[key] = cause
+                break
+    follows = {}
+    for finding in findings:
+        if finding.sheet is None:
+            continue
+        key = model.owner.get((finding.sheet, finding.ref), (finding.sheet, finding.ref))
+        cause = first_cause.get(key)
+        seen = {key}
+        while cause is not None and cause in first_cause and cause not in seen:
+            seen.add(cause)                 # the finding at the start of the chain
+            cause = first_cause[cause]
+        if cause is not None:
+            follows[id(finding)] = cause
+            if finding.kind == "mismatch":
+                finding.message += f" (follows from {label(*cause)})"
+        elif finding.kind == "mismatch" and key in model.nodes:
+            finding.message += (" (the cells it reads agree, so the saved value does not follow "
+                                 "from its formula: typed over, or saved without recalculation?)")
+    return follows
 
 
 def _maybe_ours():

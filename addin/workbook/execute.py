@@ -173,6 +173,7 @@ def calculate_node(model, node, key, values, results, recorder, area_values, *,
                            name=True)}
     out = {}
     empty = blank()
+    ours = any(call.ours for call in calls_in(node.text))
     r0, c0 = (node.array[0], node.array[1]) if node.array else (node.row, node.col)
     for member in members:
         row, col = split_ref(member[1])
@@ -181,8 +182,12 @@ def calculate_node(model, node, key, values, results, recorder, area_values, *,
             raw_value = 0.0      # =A1 of a blank cell shows 0, and its readers see a 0, not a blank
         values[member] = raw_value
         value = plain(raw_value)
-        member_scale = max(scale, abs(value) if isinstance(value, float) and math.isfinite(value)
-                           else 0.0)
+        own = abs(value) if isinstance(value, float) and math.isfinite(value) else 0.0
+        # Each value against its own scale where the formula calls our functions (a spilled
+        # table's 1e-5 K/W beside a Ra of 1e9; our results are not differences of their
+        # inputs); a built-in formula can cancel what it reads (a balance residual), so its
+        # round-off floor scales with the largest number it reads.
+        member_scale = own if ours else max(scale, own)
         out[member] = judge(value, raw_value, member_scale, where, own_errors, own_notes,
                             upstream_error)
     return out

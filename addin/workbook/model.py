@@ -261,6 +261,11 @@ class Model:
                     order.append(loop)
         return order
 
+    def keys_in_order(self):
+        """Every node's key in calculation order (a loop's cells in sweep order)."""
+        for step in self.order:
+            yield from (step if isinstance(step, _Loop) else (step,))
+
     def _sweep_position(self, key):
         """Where a loop's cell comes in a sweep: sheet by sheet, row by row (names first)."""
         if key[0] == "#name":
