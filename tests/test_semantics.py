@@ -99,3 +99,17 @@ def test_a_user_network_with_a_wider_range_than_filled(tmp_path):
     assert heat.value == pytest.approx(Q_EXACT, rel=1e-9)
     assert heat.value == call("NET_HEAT", BRANCHES, BOUNDARIES, "wall")
     assert evaluation.results[("Net", "E20")].value.startswith("OK")
+
+
+def test_a_whole_row_in_an_array_formula_fills_its_range_with_zeros_past_the_data(tmp_path):
+    """{=Data!1:1} over A1:J1: the blank cells of the row show 0 (Excel's rule for a blank
+    reference), not #N/A (which is for cells beyond a smaller result)."""
+    import xlsxwriter
+    path = tmp_path / "row.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    data = wb.add_worksheet("Data")
+    data.write_row("A1", [1.0, 2.0, 3.0])
+    wb.add_worksheet("Out").write_array_formula("A1:J1", "{=Data!1:1}")
+    wb.close()
+    row = evaluate_book(str(path)).values["Out"]
+    assert [row[f"{c}1"] for c in "ABCDEFGHIJ"] == [1.0, 2.0, 3.0] + [0.0] * 7

@@ -25,7 +25,7 @@ from .reader import CellError  # noqa: E402
 
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
-           "run_problem", "reads_references", "as_reference"]
+           "run_problem", "reads_references", "as_reference", "input_reference_text"]
 
 _registered = False
 
@@ -118,6 +118,24 @@ def builtin_names() -> frozenset:
     """The names of the functions formulas implements (ours included once registered)."""
     import formulas
     return frozenset(formulas.get_functions())
+
+
+_OPEN_ENDED = re.compile(r"^(?P<head>.*?\$?[A-Za-z]{1,3}\$?\d+):(?P<tail>\$?[A-Za-z]{0,3}\$?\d*)$")
+
+
+def input_reference_text(key: str) -> str:
+    """A compiled formula's input name in A1 notation: formulas shortens an area reaching the
+    grid's last column or row ("A1:XFD3" -> "A1:3", "C5:C1048576" -> "C5:C", "B2:XFD1048576"
+    -> "B2:")."""
+    m = _OPEN_ENDED.match(key)
+    if not m:
+        return key
+    tail = m.group("tail")
+    letters = re.sub(r"[^A-Za-z]", "", tail)
+    digits = re.sub(r"[^0-9]", "", tail)
+    if letters and digits:
+        return key
+    return f"{m.group('head')}:{letters or 'XFD'}{digits or '1048576'}"
 
 
 def compile_formula(text: str):

@@ -30,7 +30,7 @@ from dataclasses import dataclass, field
 
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
-                              reads_references, to_formulas, xl_error)
+                              input_reference_text, reads_references, to_formulas, xl_error)
 from .formulatext import Reference, parse_reference
 from .rewrite import prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
@@ -156,7 +156,14 @@ class Model:
         return node
 
     def _prepare(self, node: _Node) -> None:
-        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates,
+        used, templates = self.used, self._templates
+        if node.array is not None:
+            # A whole row or column in an array formula is cut no shorter than the formula's own
+            # range: {=First!1:1} over A1:XFD1 shows 0 for the blank cells, not #N/A.
+            used = {sheet: (max(rows, node.array[2]), max(cols, node.array[3]))
+                    for sheet, (rows, cols) in self.used.items()}
+            templates = None
+        prepared = prepare(node.text, node.row, node.col, used, node.sheet, templates,
                            is_formula=self._is_formula)
         node.prepared = prepared
         if prepared.problem:
@@ -295,7 +302,7 @@ class Model:
                 positions = []
                 wanted = [_reference_id(r, None) for r in prepared.references]
                 for key in inputs:
-                    ident = _reference_id(parse_reference(key), None)
+                    ident = _reference_id(parse_reference(input_reference_text(key)), None)
                     positions.append(wanted.index(ident) if ident in wanted else None)
                 if None in positions:
                     cached = (None, None, "the evaluator reads this formula's references "
