@@ -205,6 +205,26 @@ def _reference_operators(items: tuple, own_sheet: str, is_formula) -> list:
                 out[i:i + 3] = [merged]
                 continue
         i += 1
+    i = 0
+    while i + 2 < len(out):
+        # Functions of where a reference lies, not of its cells' values, with an area typed as
+        # their argument: worked out here, so the cells they name are not read (ROWS(A1:C50)
+        # in C7 is no circular reference, in LibreOffice as in Excel).
+        f, arg, close = out[i], out[i + 1], out[i + 2]
+        if f.type == "FUNC" and f.subtype == "OPEN" and _is_area(arg) and \
+                close.type == "FUNC" and close.subtype == "CLOSE":
+            reference = parse_reference(arg.value)
+            name = bare_name(f.value[:-1])
+            single = reference.r1 == reference.r2 and reference.c1 == reference.c2
+            answer = {"ROWS": reference.r2 - reference.r1 + 1,
+                      "COLUMNS": reference.c2 - reference.c1 + 1, "AREAS": 1,
+                      "ROW": reference.r1 if single else None,
+                      "COLUMN": reference.c1 if single else None}.get(name)
+            if name == "ISREF":
+                out[i:i + 3] = [Token("TRUE", "OPERAND", "LOGICAL")]
+            elif answer is not None and not reference.whole:
+                out[i:i + 3] = [Token(str(answer), "OPERAND", "NUMBER")]
+        i += 1
     if is_formula is not None:
         i = 0
         while i + 2 < len(out):
