@@ -329,7 +329,7 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
 
 
 def _add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
+    parser.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook, or .ods where LibreOffice is installed (never modified)")
     parser.add_argument("--rtol", type=float, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
     parser.add_argument("--atol", type=float, default=DEFAULT_ATOL,
@@ -348,6 +348,7 @@ def run_audit(args) -> int:
     try:
         result = audit_book(args.book, args.rtol, getattr(args, "templates", None),
                             atol=getattr(args, "atol", DEFAULT_ATOL))
+        result.path = getattr(args, "shown_as", None) or result.path
     except AuditError as error:
         return _unreadable(args, str(error))
     except Exception as error:  # a damaged file must not show a traceback
