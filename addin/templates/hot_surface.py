@@ -268,6 +268,6 @@ def build(b) -> None:
                 "where the calculated temperature meets the limit.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Hot surface in still air",
+TEMPLATE = Template(NAME, 4, "Hot surface in still air",
                     "Heat loss and surface temperature of a hot face or pipe in still air, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit.", build)

@@ -235,6 +235,6 @@ def build(b) -> None:
                 "standards and licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 4, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit.", build)

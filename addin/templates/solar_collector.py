@@ -193,7 +193,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="solar-collector", version=3, title="Flat-plate collector top loss",
+    name="solar-collector", version=4, title="Flat-plate collector top loss",
     summary="Top-loss coefficient of a flat-plate solar collector with one or two covers, beside Klein's "
             "empirical equation.",
     build=build)

@@ -622,12 +622,13 @@ def _reference_id(reference: Reference, default_sheet):
 
 
 def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None, *,
-                  replace_formulas: bool = False) -> Evaluation:
+                  replace_formulas: bool = False, validate: bool = True) -> Evaluation:
     """Read and calculate a workbook; ``sets`` maps a cell ("Sheet!B3") or name to a new value.
 
     ``path`` may be a :class:`Book` already read.  ``cells`` limits the work to those formula
     cells and what they read.  A set value must pass the cell's data-validation rule, and a
-    formula cell is replaced only with ``replace_formulas`` (else BookError)."""
+    formula cell is replaced only with ``replace_formulas`` (else BookError).  ``validate=False``
+    skips the data-validation rules (what the sheet computes from a value pasted over them)."""
     from .rules import check_sets
     model = _model_of(path) if cells is None else Model(
         path if isinstance(path, Book) else read_book(path), cells)
@@ -637,7 +638,7 @@ def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=No
         targets[key] = parse_value(text) if isinstance(text, str) else text
         shown[key] = f"{target}={text}"
     evaluation = model.calculate(targets)
-    if targets:
+    if targets and validate:
         for message in check_sets(model, evaluation, targets, shown):
             evaluation.notes.append(("", message))
     return evaluation
