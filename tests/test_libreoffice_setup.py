@@ -72,3 +72,16 @@ def test_root_installs_shared_and_a_user_installs_for_himself(monkeypatch, root)
     assert ("every user" in where) == root
     options, where = setup.install_options("/p", "/c")
     assert options == ["--shared", "-env:UserInstallation=file:///p", "-env:UNO_SHARED_PACKAGES_CACHE=file:///c"]
+
+
+def test_setup_warns_when_run_from_an_activated_virtual_environment():
+    """LibreOffice started with a virtual environment first on PATH takes that environment's
+    standard library and silently fails to load documents: the set-up says so, loudly."""
+    from stillair.addin.libreoffice.setup import virtual_environment_warning
+    venv = "/home/u/proj/.venv"
+    env = {"PATH": f"{venv}/bin:/usr/bin:/bin", "VIRTUAL_ENV": venv}
+    warning = virtual_environment_warning(env, prefix=venv, base_prefix="/usr")
+    assert warning.startswith("WARNING") and venv in warning and "deactivate" in warning
+    assert virtual_environment_warning({"PATH": "/usr/bin"}, prefix="/usr", base_prefix="/usr") is None
+    assert virtual_environment_warning({"PATH": "/usr/bin:/bin"}, prefix=venv,
+                                       base_prefix="/usr") is None
