@@ -112,3 +112,32 @@ def test_a_truncated_sheet_part_is_reported_as_damaged_naming_it(tmp_path, capsy
     assert code == 2
     assert "damaged file" in err and "xl/worksheets/sheet2.xml" in err
     assert "not well-formed XML" in err and err.count("\n") == 1
+
+
+def _cleared_copy(source, target, sheet_name, ref):
+    """The workbook as a spreadsheet saves it after the Delete key on one input cell: the cell
+    keeps its style and loses its value; every other byte as it was."""
+    import re
+    from stillair.addin.workbook.reader import read_book
+    part = read_book(str(source)).sheet(sheet_name).part
+    with zipfile.ZipFile(source) as zin, zipfile.ZipFile(target, "w") as zout:
+        for item in zin.infolist():
+            data = zin.read(item.filename)
+            if item.filename == part:
+                data, count = re.subn(rb'<c r="' + ref.encode() + rb'"([^>]*?)(?: t="[^"]*")?([^>]*)>.*?</c>',
+                                      rb'<c r="' + ref.encode() + rb'"\1\2/>', data, count=1,
+                                      flags=re.S)
+                assert count == 1
+            zout.writestr(item, data)
+
+
+def test_the_audit_names_a_cleared_required_input_first(tmp_path):
+    """The cabinet with its dissipation cleared (Inputs!B24) and saved without recalculation:
+    the audit's first finding is the blank input, by name; what follows from it comes after."""
+    from stillair.addin.audit.check import audit_book
+    cleared = tmp_path / "cleared.xlsx"
+    _cleared_copy(CABINET, cleared, "Inputs", "B24")
+    result = audit_book(str(cleared))
+    first = result.findings[0]
+    assert first.cell == "Inputs!B24" and "required input dissipation is blank" in first.message
+    assert len(result.findings) > 1

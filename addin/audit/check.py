@@ -43,7 +43,7 @@ import time
 
 from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call
 from ..workbook.formulatext import _families, _registry  # the grammar's own look-ups
-from .drift import inputs_changed, pristine_template, template_drift
+from .drift import blank_inputs, inputs_changed, pristine_template, template_drift
 from .findings import (DEFAULT_ATOL, DEFAULT_RTOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, KINDS,
                        AuditError, AuditResult, CellRecord, Finding, Records, default_templates_dir,
                        differs, is_error_text, label, same_value, show)
@@ -104,8 +104,10 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     pristine = pristine_template(result, book, templates_dir)
     if evaluation is not None:
         _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine)
+    blanks: list = []
     if pristine is not None:
         template_drift(result, book, cells, pristine)
+        blanks = blank_inputs(result, book, pristine)
     order = {s.name: i for i, s in enumerate(book.sheets)}
 
     def position(f: Finding):
@@ -115,9 +117,10 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
         return (order.get(f.sheet, len(order)), row, col)
 
     causes = _causes(model, findings) if evaluation is not None else {}
+    inputs_first = {id(f) for f in blanks}
 
     def rank(f: Finding):
-        if f.kind == "template-drift":
+        if f.kind == "template-drift" or id(f) in inputs_first:
             return 0
         return 2 if id(f) in causes else 1
 
