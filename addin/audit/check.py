@@ -136,15 +136,31 @@ def _causes(model, findings) -> dict:
     changed input have no finding upstream; everything downstream of them follows.  Their
     messages say so: a root mismatch whose inputs all agree was typed over."""
     anchors: dict = {}
+    first_cause: dict = {}          # node -> the first finding cell upstream of it
     for finding in findings:
         if finding.sheet is not None:
             key = model.owner.get((finding.sheet, finding.ref), (finding.sheet, finding.ref))
             anchors.setdefault(key, finding)
     if not anchors:
         return {}
-    first_cause: dict = {}          # node -> the first finding cell upstream of it
+    from ..workbook.reader import split_ref
+    inputs = [(f.sheet, f.ref, *split_ref(f.ref)) for f in findings
+              if f.sheet is not None and (f.sheet, f.ref) not in model.nodes
+              and (f.sheet, f.ref) not in model.owner]
+    for finding in findings:
+        if (finding.sheet, finding.ref) in {(i[0], i[1]) for i in inputs}:
+            anchors.setdefault((finding.sheet, finding.ref), finding)
     for key in model.keys_in_order():
         node = model.nodes[key]
+        read = next(((sheet, ref) for sheet, ref, row, col in inputs
+                     for reference, source in zip(node.prepared.references if node.prepared
+                                                  else (), node.sources)
+                     if reference.kind == "area" and source == sheet
+                     and reference.r1 <= row <= reference.r2
+                     and reference.c1 <= col <= reference.c2), None) if inputs else None
+        if read is not None:
+            first_cause[key] = read
+            continue
         for dep in sorted(node.deps, key=str):
             cause = dep if dep in anchors and dep != key else first_cause.get(dep)
             if cause is not None and cause != key:
