@@ -123,7 +123,7 @@ def calc(args) -> int:
         for line in report_lines(evaluation, getattr(args, "shown_as", None) or args.book,
                                  args.out):
             print(line)
-    return EXIT_FINDINGS if evaluation.failed else 0
+    return EXIT_FINDINGS if evaluation.failed or evaluation.input_missing else 0
 
 
 def _via_opendocument(args, prog: str, run) -> int:

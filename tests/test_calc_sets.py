@@ -142,3 +142,11 @@ def test_the_audit_names_a_cleared_required_input_first(tmp_path):
     assert first.cell == "Inputs!B24" and "required input dissipation is blank" in first.message
     mismatches = [f for f in result.findings if f.kind == "mismatch"]
     assert mismatches and all("follows from Inputs!B24" in f.message for f in mismatches)
+
+
+def test_calc_on_a_template_with_a_cleared_input_says_which_and_exits_1(cabinet, capsys):
+    code, out, _ = _run(capsys, cabinet, "--set", "dissipation=")
+    assert code == 1
+    assert "INPUT MISSING: 1 required input is blank: Inputs!B24 (dissipation)" in out
+    results = out.split("Results:")[1].split("Notes")[0]
+    assert "INPUT MISSING" in results and "°C" in results

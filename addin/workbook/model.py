@@ -638,10 +638,41 @@ def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=No
         targets[key] = parse_value(text) if isinstance(text, str) else text
         shown[key] = f"{target}={text}"
     evaluation = model.calculate(targets)
+    _note_blank_inputs(model, evaluation, targets)
     if targets and validate:
         for message in check_sets(model, evaluation, targets, shown):
             evaluation.notes.append(("", message))
     return evaluation
+
+
+# The count of blank required inputs a template keeps (templates/spec.py MISSING_NAME).
+_MISSING_NAME = "inputs_missing"
+
+
+def _note_blank_inputs(model, evaluation, targets) -> None:
+    """A template whose count of blank required inputs is above 0 shows INPUT MISSING in its
+    results; the note names the blank cells (by their defined names) and calc exits 1."""
+    count = evaluation.names.get(_MISSING_NAME)
+    if not isinstance(count, float) or count <= 0:
+        return
+    blank = []
+    for name in model.book.names:
+        m = re.match(r"^'?Inputs'?!\$?([A-Z]{1,3})\$?(\d+)$", name.text.strip().lstrip("="))
+        if name.sheet is not None or not m or name.name == _MISSING_NAME:
+            continue
+        ref = f"{m.group(1)}{m.group(2)}"
+        sheet = model.sheets.get("Inputs")
+        if sheet is None or ref in sheet.formulas:
+            continue
+        value = targets.get(("Inputs", ref), sheet.values.get(ref)) \
+            if ("Inputs", ref) in targets else sheet.values.get(ref)
+        if value is None or (isinstance(value, str) and not value.strip()):
+            blank.append(f"Inputs!{ref} ({name.name})")
+    message = (f"INPUT MISSING: {int(count)} required input{'s are' if count > 1 else ' is'} "
+               f"blank{': ' + ', '.join(blank) if blank else ''}; the results are not computed "
+               f"until {'they are' if count > 1 else 'it is'} filled in")
+    evaluation.notes.insert(0, ("", message))
+    evaluation.input_missing = message
 
 
 _MODELS: dict = {}

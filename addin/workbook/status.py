@@ -62,6 +62,7 @@ class Evaluation:
     engine_seconds: float = 0.0                 # importing the engine and formulas
     results: dict[tuple[str, str], CellResult] = field(default_factory=dict)
     loops: list[LoopReport] = field(default_factory=list)   # iterated loops
+    input_missing: str | None = None            # a template's blank required inputs, in words
 
     def flat_values(self) -> dict[str, object]:
         return {label(sheet, ref): value for sheet, cells in self.values.items()
