@@ -5,10 +5,10 @@ reproduces on its own, and more.
 Source: the source distribution of xlcalculator 0.5.0 on PyPI, tests/resources/ (MIT licence),
 only the files whose docProps/app.xml names Microsoft Excel; downloaded at test time into
 pytest's cache folder (see tests/corpus.py), skipped with the reason when it cannot be had.
-Measured when written (issue 20): 57 workbooks, 19,819 formula cells; stillair 94.20 %, the
-library alone 94.20 %, no cell the library gets right that stillair gets wrong.  What neither
-reproduces is the library's own (BIN2OCT's #NUM! cases answered #VALUE!, VDB, YEAR of text,
---TRUE as FALSE).
+Measured when written (issue 20): 57 workbooks, 19,819 formula cells; stillair 94.21 %
+(18,671), the library alone 94.20 % (18,670), no cell the library gets right that stillair gets
+wrong (stillair adds --(logical) as a number).  What neither reproduces is the library's own
+(BIN2OCT's #NUM! cases answered #VALUE!, VDB, YEAR of text).
 """
 
 from __future__ import annotations
@@ -50,5 +50,5 @@ def test_calc_reproduces_everything_the_library_does_and_more(excel_books, capsy
               f"{len(excel_books)} workbooks, {total} formula cells; stillair "
               f"{ours_count / total:.2%}, formulas alone {library_count / total:.2%}")
     assert worse == {}, "cells the library reproduces and stillair does not"
-    assert ours_count >= library_count
+    assert ours_count > library_count
     assert ours_count / total >= FLOOR

@@ -59,6 +59,7 @@ CASES = {
     "G21": ("=ISBLANK(G20)", False, "a formula cell is never blank, whatever it shows"),
     "G22": ("=COUNTA(Z1:Z2000)", 0.0, "COUNTA of a range wholly past the used range"),
     "G23": ("=ROWS(Z1:Z2000)", 2000.0, "ROWS of a range wholly past the used range"),
+    "G25": ('=--(A3="x")+--(A5=3)', 1.0, "--TRUE is 1 and --FALSE is 0 (numbers, not logicals)"),
     "G24": ("=ROWS(G1:G30)+COLUMNS(A24:G24)", 37.0,
             "ROWS/COLUMNS of a range holding the cell itself: no circular reference (no value "
             "is read; LibreOffice agrees, tests/test_differential.py)"),

@@ -186,9 +186,17 @@ def _reference_operators(items: tuple, own_sheet: str, is_formula) -> list:
 
     * the intersection operator (a space between two areas, ``B2:E5 C3:D4``): the common area,
       or #NULL! where they do not meet (Excel's rule; formulas reads the pair as one operand);
-    * ``ISFORMULA(cell)``: TRUE or FALSE from the workbook (formulas asks its own dispatcher)."""
+    * ``ISFORMULA(cell)``: TRUE or FALSE from the workbook (formulas asks its own dispatcher);
+    * ``--X`` as ``0+X`` (formulas cancels the two minus signs and keeps a logical)."""
     from openpyxl.formula.tokenizer import Token
     out = list(items)
+    i = 0
+    while i + 1 < len(out):
+        # "--X" (a logical made a number, --(A1=B1)): formulas drops the pair and keeps TRUE or
+        # FALSE; Excel gives 1 or 0.  0+X has the value and type of --X in every case.
+        if all(t.type == "OPERATOR-PREFIX" and t.value == "-" for t in out[i:i + 2]):
+            out[i:i + 2] = [Token("0", "OPERAND", "NUMBER"), Token("+", "OPERATOR-INFIX", "")]
+        i += 1
     i = 0
     while i + 2 < len(out):
         a, gap, b = out[i], out[i + 1], out[i + 2]
