@@ -100,9 +100,14 @@ def _own_workbook_lines(evaluation, named) -> list[str]:
             result = evaluation.results.get((sheet.name, ref))
             value = cells[ref]
             unit = function.unit if function is not None and isinstance(value, float) else ""
-            note = "; ".join(result.messages) if result is not None and result.status != "value" \
-                and not (result.status == "error" and result.messages == (value,)) else ""
-            rows.append((ref, _caption(sheet, ref), _format(value), unit, note))
+            shown = _format(value)
+            note = ""
+            if result is not None and result.status in ("error", "cannot-evaluate"):
+                shown = value if isinstance(value, str) and value.startswith("#") else "error"
+                note = "(see the notes)"      # each message once, under Notes
+            elif result is not None and result.status == "note":
+                note = "; ".join(result.messages)
+            rows.append((ref, _caption(sheet, ref), shown, unit, note))
         if not rows:
             continue
         lines.append(f"{sheet.name}:")
