@@ -98,3 +98,19 @@ def test_findings_come_cause_first(tmp_path, capsys):
     first, rest = result.findings[0], result.findings[1:]
     assert first.cell == "Calculation!C15" and "typed over" in first.message
     assert rest and all("follows from Calculation!C15" in f.message for f in rest)
+
+
+@pytest.mark.slow  # one audit per printed number of the template (about 120)
+def test_every_one_percent_change_in_a_template_is_found(tmp_path):
+    """The cabinet template: each number a formula prints, changed by 1 % in the saved file,
+    is a finding at that cell."""
+    book = read_book(str(TEMPLATE_DIR / "sealed-cabinet.xlsx"))
+    evaluation = evaluate_book(book)
+    missed = []
+    numbers = _numbers(evaluation)
+    for sheet, ref, value in numbers:
+        result = audit_book(str(_edited(tmp_path, book, evaluation, sheet, ref, 1.01)))
+        if f"{sheet}!{ref}" not in [f.cell for f in result.findings]:
+            missed.append((sheet, ref, value))
+    assert len(numbers) > 80
+    assert missed == []

@@ -3,7 +3,8 @@
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
 headlessly from its own inputs (:class:`stillair.addin.workbook.model.Model`, calculating only our
 cells, what they read and what reads them) and classifies every cell that calls one of our
-functions and every cell downstream of one, built-in formulas included:
+functions, every cell downstream of one, built-in formulas included, and every formula those
+read (in a template: every formula cell):
 
 ======================  ==========================================================================
 ok                      the cached value is what the engine gives (within the tolerance)
@@ -43,7 +44,8 @@ import time
 
 from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call
 from ..workbook.formulatext import _families, _registry  # the grammar's own look-ups
-from .drift import blank_inputs, inputs_changed, pristine_template, template_drift
+from .drift import (blank_inputs, inputs_changed, pristine_template, template_drift,
+                    template_marker)
 from .findings import (DEFAULT_ATOL, DEFAULT_RTOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, KINDS,
                        AuditError, AuditResult, CellRecord, Finding, Records, default_templates_dir,
                        differs, is_error_text, label, same_value, show)
@@ -88,7 +90,15 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     if seeds:   # a workbook without our functions has nothing to recompute
         try:
             model = Model(book)
-            checked = model.downstream(seeds)
+            # ours, what follows from them, and the formulas they read: a typed-over formula
+            # upstream (an area, a film temperature) would otherwise be recomputed silently
+            following = model.downstream(seeds)
+            checked = following | {k for k in model.upstream(following)
+                                   if k[0] != "#name" and k in model.nodes}
+            if template_marker(book) is not None:
+                # a template: every number it prints is checked (an input echoed on Results,
+                # a chart's data), so a changed saved value anywhere is found
+                checked |= {k for k in model.nodes if k[0] != "#name"}
             evaluation = model.calculate(only=checked)
         except BookError as error:
             raise AuditError(str(error)) from None

@@ -34,6 +34,11 @@ class _Pristine:
         return self.cells.get(key)
 
 
+def template_marker(book) -> str | None:
+    """The template name and version a workbook says it was made from, or None."""
+    return _marker(book)
+
+
 def pristine_template(result, book, templates_dir):
     """The pristine template a filled-in workbook names in its marker (None when it names none,
     or names one that is not installed, or another version: each said in a finding)."""
