@@ -22,7 +22,7 @@ from typing import Mapping
 
 import numpy as np
 
-from .validity import CorrelationRangeWarning, format_value
+from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value
 
 __all__ = ["UnitSlipWarning", "KELVIN_LOOKING", "PLAUSIBLE_LENGTHS", "temperature_slip", "length_slip",
            "warn_slips"]
@@ -79,5 +79,11 @@ def warn_slips(function_name: str, *notes: str, stacklevel: int = 3) -> str:
     :func:`warnings.warn` counts from the caller of this function, plus one); return the text."""
     text = "; ".join(note for note in notes if note)
     if text:
-        warnings.warn(f"{function_name}: {text}", UnitSlipWarning, stacklevel=stacklevel)
+        # the cell layer collects notes as data (validity.collect_range_notes): a unit slip is a
+        # note like a range note and goes the same way
+        sink = _NOTE_SINK.get()
+        if sink is not None:
+            sink.append(f"{function_name}: {text}")
+        else:
+            warnings.warn(f"{function_name}: {text}", UnitSlipWarning, stacklevel=stacklevel)
     return text

@@ -45,9 +45,13 @@ def test_a_template_saved_unedited_is_no_drift(name):
             rewritten += saved != cell.formula
     result = audit_book(str(DATA / name), templates_dir=SOURCES)
     kinds = {f.kind for f in result.findings}
-    assert kinds <= {"stale"}, [(f.kind, f.cell, f.message) for f in result.findings]
+    # the cabinet day's dawn-and-dusk range notes are reported like any range note (test_audit.py)
+    allowed = {"stale", "out-of-range"} if name == "saved-cabinet-day.xlsx" else {"stale"}
+    assert kinds <= allowed, [(f.kind, f.cell, f.message) for f in result.findings]
     # The only findings: array formulas LibreOffice recalculated without the add-in (#NAME?).
     for finding in result.findings:
+        if finding.kind == "out-of-range":
+            continue
         anchor = saved_book.sheet(finding.sheet).formulas[finding.ref]
         assert anchor.array_ref and anchor.cached == "#NAME?"
         assert "LibreOffice recalculates array formulas whenever it opens a file" in finding.message

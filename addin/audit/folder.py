@@ -42,7 +42,8 @@ def find_workbooks(folder: str, ods: bool | None = None) -> tuple[list[str], lis
     path, found in ``folder`` and every folder below it."""
     if ods is None:
         ods = libreoffice_installed()
-    books, skipped = [], []
+    books: list[str] = []
+    skipped: list[str] = []
     for root, folders, files in os.walk(folder):
         folders.sort()
         for name in files:

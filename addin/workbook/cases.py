@@ -18,6 +18,8 @@ note), "error" (a formula cell is an error or cannot be evaluated: what makes ``
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import csv
 import io
 import math
@@ -28,6 +30,9 @@ from .reader import Book, BookError, split_ref
 from .report import group_notes
 from .sets import parse_value, resolve_target
 from .status import label
+
+if TYPE_CHECKING:
+    from .model import Model
 
 __all__ = ["CaseTable", "CaseOutcome", "CaseRun", "read_cases", "result_columns", "run_cases",
            "write_results", "summary", "exit_status", "cases_command", "ROW_STATUSES", "MAX_CASES"]
@@ -114,7 +119,7 @@ def _delimiter(header_line: str) -> str:
     """The header's separator: the one of comma, semicolon, tab it uses (Excel writes ';' where
     the decimal sign is a comma); a one-column header has none, so comma."""
     counts = {d: header_line.count(d) for d in (",", ";", "\t")}
-    best = max(counts, key=counts.get)
+    best = max(counts, key=lambda delimiter: counts[delimiter])
     return best if counts[best] else ","
 
 
@@ -150,11 +155,11 @@ def result_columns(book: Book, inputs=()) -> list[tuple[str, tuple[str, str]]]:
             continue
         try:
             # a result is a formula cell: found, not refused as a --set target would be
-            sheet, ref = resolve_target(book, name.name, replace_formulas=True)
+            sheet_name, ref = resolve_target(book, name.name, replace_formulas=True)
         except BookError:
             continue   # a name of a range, a constant or a formula: not one cell's result
-        if ref in book.sheet(sheet).formulas and (sheet, ref) not in inputs:
-            columns.append((name.name, (sheet, ref)))
+        if ref in book.sheet(sheet_name).formulas and (sheet_name, ref) not in inputs:
+            columns.append((name.name, (sheet_name, ref)))
     if columns:
         return columns
     for sheet in book.sheets:
@@ -172,7 +177,7 @@ class CaseRun:
 
     book_path: str
     table: CaseTable
-    model: object
+    model: "Model"
     targets: tuple[tuple[str, str], ...]
     columns: list[tuple[str, tuple[str, str]]]
 
