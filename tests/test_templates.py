@@ -107,7 +107,9 @@ def _cleared_results(template, name):
     from stillair.addin.templates.spec import MISSING
     from stillair.addin.workbook.model import evaluate_book
     evaluation = evaluate_book(str(template.path), {name: ""})
-    shown = [v for v in evaluation.values["Results"].values() if v is not None]
+    # Results: label | value | unit | note; a unit worked out by formula (W/m for a pipe, W/m² for
+    # a plate) is a label, not a result
+    shown = [v for ref, v in evaluation.values["Results"].items() if v is not None and not ref.startswith("C")]
     return evaluation, shown, MISSING
 
 
