@@ -1,8 +1,8 @@
 """Workbooks saved by real spreadsheet programs, with the values they cached, for the corpus test.
 
-The Excel-made set comes from the source distribution of xlcalculator 0.5.0 on PyPI (MIT
-licence; its tests/resources folder: workbooks whose docProps/app.xml names Microsoft Excel),
-downloaded at test time with ``pip download`` into a cache folder and never committed.  Each
+The Excel-made set is tests/data/excel-made/: the workbooks of the source distribution of
+xlcalculator 0.5.0 on PyPI whose docProps/app.xml names Microsoft Excel (its tests/resources
+folder; MIT licence, kept beside them with SOURCE.md), committed so that CI needs no network.  Each
 formula cell's cached value is compared with what ``stillair calc`` computes and with what the
 ``formulas`` library computes on its own (its ``ExcelModel``), under one rule (:func:`agrees`).
 """
@@ -11,38 +11,11 @@ from __future__ import annotations
 
 import math
 import re
-import subprocess
-import sys
-import tarfile
 import zipfile
 from pathlib import Path
 
 SOURCE = ("xlcalculator", "0.5.0")        # MIT licence (PKG-INFO: "License: MIT")
-RESOURCES = "tests/resources/"
-
-
-def download(cache: Path) -> Path | str:
-    """The unpacked folder of the Excel-made workbooks, or the reason it cannot be had."""
-    name, version = SOURCE
-    folder = cache / f"{name}-{version}"
-    if (folder / "done").exists():
-        return folder
-    cache.mkdir(parents=True, exist_ok=True)
-    done = subprocess.run([sys.executable, "-m", "pip", "download", "--no-deps", "--no-binary",
-                           ":all:", f"{name}=={version}", "-d", str(cache)],
-                          capture_output=True, text=True, timeout=600)
-    archive = cache / f"{name}-{version}.tar.gz"
-    if done.returncode or not archive.exists():
-        return f"pip download {name}=={version} failed: {done.stderr.strip()[-300:]}"
-    folder.mkdir(exist_ok=True)
-    with tarfile.open(archive) as tar:
-        for member in tar.getmembers():
-            inner = member.name.partition("/")[2]
-            if inner.startswith(RESOURCES) and inner.endswith((".xlsx", ".xlsm")) and member.isfile():
-                data = tar.extractfile(member).read()
-                (folder / Path(inner).name).write_bytes(data)
-    (folder / "done").write_text("ok")
-    return folder
+EXCEL_MADE = Path(__file__).parent / "data" / "excel-made"
 
 
 def application(path: Path) -> str:

@@ -88,7 +88,7 @@ def blank_inputs(result, book, pristine) -> list:
     that follow would look plausible).  Returns the findings added."""
     from ..workbook.reader import split_ref
 
-    added = []
+    added: list = []
     pristine_inputs = {s.name: s for s in pristine.book.sheets}.get("Inputs")
     try:
         inputs = book.sheet("Inputs")
@@ -113,7 +113,7 @@ def blank_inputs(result, book, pristine) -> list:
                               ref=ref)
             result.findings.append(finding)
             added.append(finding)
-    added.sort(key=lambda f: split_ref(f.ref))
+    added.sort(key=lambda f: split_ref(f.ref or "A1"))
     return added
 
 

@@ -156,7 +156,8 @@ class Model:
         return node
 
     def _prepare(self, node: _Node) -> None:
-        used, templates = self.used, self._templates
+        used = self.used
+        templates: dict | None = self._templates
         if node.array is not None:
             # A whole row or column in an array formula is cut no shorter than the formula's own
             # range: {=First!1:1} over A1:XFD1 shows 0 for the blank cells, not #N/A.
@@ -419,7 +420,7 @@ class Model:
                                                    area_values))
                         caching[0] = True
                         continue
-                    keys = step
+                    keys: tuple = step
                 else:
                     keys = (step,)
                 for key in keys:
@@ -439,6 +440,7 @@ class Model:
         when no number changed by more than its delta.  A loop still changing after the count
         keeps its last values with the status error and the last change named."""
         iteration = self.book.iteration
+        assert iteration is not None   # called only when the workbook enables iteration
         members = []
         for key in loop:
             node = self.nodes[key]

@@ -255,11 +255,11 @@ def _reference_operators(items: tuple, own_sheet: str, is_formula) -> list:
 
 def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
              own_sheet: str, is_formula=None) -> Prepared:
-    items = tokens(formula)
-    if not items:
+    read = tokens(formula)
+    if not read:
         text = formula.lstrip("=")
         return Prepared(text, [], ("?", text), "the formula cannot be read")
-    items = _reference_operators(items, own_sheet, is_formula)
+    items = _reference_operators(read, own_sheet, is_formula)
     out: list[str] = []
     references: list[Reference] = []
     key: list = []

@@ -131,6 +131,7 @@ def check_sets(model, evaluation, sets: dict, shown: dict) -> list[str]:
         blank_text = isinstance(value, str) and value == ""
         if blank_text and rule.allow_blank:
             continue
+        allowed: bool | None
         if rule.type == "list":
             items = _list_items(model, evaluation, sets, rule, sheet, ref)
             if items is None:
