@@ -36,9 +36,13 @@ def build_parser() -> argparse.ArgumentParser:
                                "computed; 1 done, but some formula cell evaluates to an error "
                                "(an Excel error such as #VALUE! or a stillair function's error "
                                "text), listed in the notes; 2 could not run (one line on stderr).")
-    calc.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook (never modified)")
+    calc.add_argument("book", metavar="BOOK", help=".xlsx or .xlsm workbook, or .ods where LibreOffice is installed (never modified)")
     calc.add_argument("--set", dest="sets", action="append", default=[], metavar="REF=VALUE",
-                      help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable)")
+                      help="change an input first: Sheet!B3=0.02 or name=0.02 (repeatable); the "
+                      "value must pass the cell's data-validation rule; an empty value clears the "
+                      "cell")
+    calc.add_argument("--replace-formula", action="store_true",
+                      help="let --set replace a formula cell with a value (refused otherwise)")
     calc.add_argument("--out", metavar="OUT.xlsx",
                       help="write a copy with formulas kept and cached values filled in; OUT must be "
                       "a new file (an existing file is never replaced). With --cases: RESULTS.csv")
@@ -105,13 +109,14 @@ def calc(args) -> int:
             if os.path.exists(args.book) and same_file(args.book, args.out):
                 raise BookError(f"{args.out}: refusing to write over the input workbook")
             _check_new_file(args.out, "--out")
-        evaluation = evaluate_book(args.book, sets)
+        evaluation = evaluate_book(args.book, sets,
+                                   replace_formulas=getattr(args, "replace_formula", False))
         if args.out:
             _check_out_extension(evaluation.book, args.out)
             values = evaluation.writable_values()
             for (sheet, ref), value in evaluation.sets.items():
                 formula = ref in evaluation.book.sheet(sheet).formulas
-                if isinstance(value, str) and not formula:
+                if (isinstance(value, str) or value is None) and not formula:
                     raise BookError(f"--set {sheet}!{ref}: only numbers or TRUE/FALSE can be written "
                                     "into an input cell of the --out copy")
                 values.setdefault(sheet, {})[ref] = value
@@ -125,9 +130,39 @@ def calc(args) -> int:
     if args.json:
         print(json.dumps(evaluation_json(evaluation), ensure_ascii=False, indent=1))
     else:
-        for line in report_lines(evaluation, args.book, args.out):
+        for line in report_lines(evaluation, getattr(args, "shown_as", None) or args.book,
+                                 args.out):
             print(line)
-    return EXIT_FINDINGS if evaluation.failed else 0
+    return EXIT_FINDINGS if evaluation.failed or evaluation.input_missing else 0
+
+
+def _via_opendocument(args, prog: str, run) -> int:
+    """Run a command on BOOK; an .ods is first converted by LibreOffice into a temporary .xlsx
+    (the .ods itself is only copied), and the command says so."""
+    from .libreoffice.convert import (ConversionError, converted_to_xlsx, is_opendocument, remove,
+                                      temporary_folder)
+    from .workbook.reader import BookError
+
+    if not is_opendocument(args.book):
+        return run(args)
+    try:
+        _require_regular_file(args.book)
+    except BookError as error:
+        say(prog, str(error))
+        return EXIT_BAD_INPUT
+    folder = temporary_folder()
+    try:
+        try:
+            converted = converted_to_xlsx(args.book, folder)
+        except ConversionError as error:
+            say(prog, str(error))
+            return EXIT_BAD_INPUT
+        print(f"{prog}: {args.book}: an OpenDocument spreadsheet, converted by LibreOffice into a "
+              f"temporary .xlsx (the .ods is not changed)", file=sys.stderr)
+        args.shown_as, args.book = args.book, converted
+        return run(args)
+    finally:
+        remove(folder)
 
 
 def _calc_cases(args) -> int:
@@ -290,7 +325,7 @@ def _dispatch(argv: list[str] | None) -> int:
         parser.print_help()
         return 0
     if args.command == "calc":
-        return calc(args)
+        return _via_opendocument(args, "stillair calc", calc)
     if args.command == "functions":
         from .cells.reference import reference_markdown, reference_text
         sys.stdout.write(reference_markdown() if args.markdown else reference_text())
@@ -308,7 +343,7 @@ def _dispatch(argv: list[str] | None) -> int:
             if args.json:
                 print(json.dumps({"book": args.book, "error": str(error), "exit": EXIT_BAD_INPUT}))
             return EXIT_BAD_INPUT
-        return run_audit(args)
+        return _via_opendocument(args, "stillair audit", run_audit)
     if args.command == "templates":
         return _templates(args)
     if args.command == "excel-setup":

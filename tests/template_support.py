@@ -10,7 +10,10 @@ from stillair.addin.templates import template_by_name
 
 @functools.lru_cache(maxsize=None)
 def _evaluate(name: str, sets: tuple[tuple[str, object], ...]):
-    return evaluate_book(str(template_by_name(name).path), {k: str(v) for k, v in sets})
+    # The template tests drive a sheet where no typed value may go (a formula's result, a value
+    # the input rule refuses, as pasting does in the spreadsheet): neither is refused here.
+    return evaluate_book(str(template_by_name(name).path), {k: str(v) for k, v in sets},
+                         replace_formulas=True, validate=False)
 
 
 def evaluate_template(name: str, **sets):
@@ -19,12 +22,16 @@ def evaluate_template(name: str, **sets):
 
 
 def input_names(template) -> set[str]:
-    """The defined names of a template's input cells (those on its Inputs sheet)."""
+    """The defined names of a template's input cells (those on its Inputs sheet; the count of
+    blank inputs under them is not an input)."""
     import openpyxl
+
+    from stillair.addin.templates.spec import MISSING_NAME
 
     workbook = openpyxl.load_workbook(template.path)
     return {name for name, definition in workbook.defined_names.items()
-            if any(sheet == "Inputs" for sheet, _ in definition.destinations)}
+            if any(sheet == "Inputs" for sheet, _ in definition.destinations)
+            and name != MISSING_NAME}
 
 
 def named(evaluation, name: str):

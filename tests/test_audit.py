@@ -430,7 +430,9 @@ def test_built_in_cells_downstream_are_checked(tmp_path):
     assert _kinds(result) == sorted([("error", "Calc!B3"), ("error", "Calc!B4"),
                                      ("mismatch", "Calc!B2")])
     by = {f.cell: f for f in result.findings}
-    assert by["Calc!B2"].message == "workbook 'OK', engine 'too low'"
+    assert by["Calc!B2"].message == ("workbook 'OK', engine 'too low' (the cells it reads agree, "
+                                     "so the saved value does not follow from its formula: typed "
+                                     "over, or saved without recalculation?)")
     assert by["Calc!B4"].message == "depends on an error in Calc!B3"
 
 

@@ -30,7 +30,7 @@ def folder(tmp_path_factory):
     for template in TEMPLATES:
         shutil.copy(template, base / template.name)
     (base / "jobs").mkdir()
-    assert main(["calc", str(ROOT / "templates" / "air-layer.xlsx"), "--set", "h_conv=2.5",
+    assert main(["calc", str(ROOT / "templates" / "air-layer.xlsx"), "--set", "h_conv=2.5", "--replace-formula",
                  "--out", str(base / "jobs" / "edited-air-layer.xlsx")]) == 0
     (base / "jobs" / "notes.xlsx").write_bytes(b"not a zip at all")
     (base / "jobs" / "~$edited-air-layer.xlsx").write_bytes(b"\x00lock")

@@ -50,8 +50,25 @@ def test_json_shape_and_set_by_name_and_by_cell(small_book, capsys):
 def test_text_output_lists_names_and_notes(small_book, capsys):
     code, out, _ = run(capsys, "calc", small_book)
     assert code == 0
-    assert "Named results:" in out and "nu" in out
+    assert "Defined names:" in out and "nu" in out
     assert "Notes: none" in out
+
+
+def test_an_own_workbook_prints_every_cell_of_ours_by_sheet_then_the_names(tmp_path, capsys):
+    """Not a template: each cell calling one of our functions with its caption, value, unit
+    and note, grouped by sheet; then the defined names."""
+    import sys
+    from pathlib import Path
+    sys.path.insert(0, str(Path(__file__).parent))
+    from iterative_books import plate_loop
+    path = plate_loop(tmp_path / "plate.xlsx", 100, 1e-9)
+    code, out, _ = run(capsys, "calc", path)
+    assert code == 0
+    lines = out.splitlines()
+    start = lines.index("Plate:")
+    assert lines[start + 1].split()[:3] == ["B8", "h", "conv"]
+    assert lines[start + 1].endswith("W/(m²·K)")
+    assert lines[start + 2].split()[:3] == ["B9", "h", "rad"]
 
 
 def test_out_copy_and_refusals(small_book, tmp_path, capsys):

@@ -427,7 +427,7 @@ def test_formulas_of_one_relative_form_share_their_preparation(tmp_path):
     shared = model.calculate().values["Rows"]
     prepare = headless.prepare
     try:
-        headless.prepare = lambda *args: prepare(*args[:5])     # no sharing
+        headless.prepare = lambda *args, **kw: prepare(*args[:5], **kw)     # no sharing
         alone = Model(book).calculate().values["Rows"]
     finally:
         headless.prepare = prepare

@@ -22,7 +22,8 @@ def test_calc_values_equal_the_snapshot(template, capsys):
     assert main(["calc", str(ROOT / "templates" / template), "--json"]) == 0
     values = json.loads(capsys.readouterr().out)["values"]
     before = SNAPSHOT["values"][template]
-    assert set(values) == set(before)
+    # a template may gain cells after the snapshot (the INPUT MISSING count); none may go
+    assert set(before) <= set(values)
     for cell, old in before.items():
         new = values[cell]
         if isinstance(old, float) and isinstance(new, float):

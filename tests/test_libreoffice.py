@@ -380,6 +380,9 @@ def test_function_wizard_lists_every_registry_function(installation, tmp_path):
         assert shown["category"] == add_in
         assert [a["name"] for a in shown["arguments"]] == [a.name for a in entry.args]
         assert [a["description"] for a in shown["arguments"]] == [arg_doc(a) for a in entry.args]
+        # required arguments are not optional in the Wizard (H_CAVITY's t1, t2, gap, height)
+        assert [a["optional"] for a in shown["arguments"]] == [a.optional for a in entry.args], \
+            entry.name
 
 
 def _lo_version() -> str:

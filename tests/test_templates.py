@@ -101,3 +101,32 @@ def test_copy_never_overwrites(tmp_path):
     for template in TEMPLATES[1:]:
         assert outcomes[template.path.name] == "copied"
         assert zipfile.is_zipfile(tmp_path / template.path.name)
+
+
+def _cleared_results(template, name):
+    from stillair.addin.templates.spec import MISSING
+    from stillair.addin.workbook.model import evaluate_book
+    evaluation = evaluate_book(str(template.path), {name: ""})
+    # Results: label | value | unit | note; a unit worked out by formula (W/m for a pipe, W/m² for
+    # a plate) is a label, not a result
+    shown = [v for ref, v in evaluation.values["Results"].items() if v is not None and not ref.startswith("C")]
+    return evaluation, shown, MISSING
+
+
+@pytest.mark.parametrize("template", all_templates(), ids=lambda t: t.name)
+def test_a_cleared_required_input_shows_input_missing_in_every_result(template):
+    """A blank reads as 0 in every spreadsheet program (LibreOffice computed a cabinet at
+    35.5 degC with its dissipation cleared); each template guards its inputs instead: every key
+    result shows INPUT MISSING, and the count under the inputs says how many are blank."""
+    from template_support import input_names
+    name = sorted(input_names(template))[0]
+    evaluation, shown, missing = _cleared_results(template, name)
+    assert shown and all(v == missing for v in shown), shown
+    assert evaluation.names["inputs_missing"] == 1.0
+    untouched = evaluate_book_names(template)
+    assert untouched["inputs_missing"] == 0.0
+
+
+def evaluate_book_names(template):
+    from stillair.addin.workbook.model import evaluate_book
+    return evaluate_book(str(template.path)).names

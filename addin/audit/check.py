@@ -3,7 +3,8 @@
 The audit reads every formula and the value Excel cached for it, recomputes the workbook
 headlessly from its own inputs (:class:`stillair.addin.workbook.model.Model`, calculating only our
 cells, what they read and what reads them) and classifies every cell that calls one of our
-functions and every cell downstream of one, built-in formulas included:
+functions, every cell downstream of one, built-in formulas included, and every formula those
+read (in a template: every formula cell):
 
 ======================  ==========================================================================
 ok                      the cached value is what the engine gives (within the tolerance)
@@ -49,7 +50,8 @@ import time
 
 from ..workbook.formulatext import Call, calls_in, normalise_formula, recognise_call
 from ..workbook.formulatext import _families, _registry  # the grammar's own look-ups
-from .drift import inputs_changed, pristine_template, template_drift
+from .drift import (blank_inputs, inputs_changed, pristine_template, template_drift,
+                    template_marker)
 from .hand import check_hand_book, hand_findings
 from .findings import (DEFAULT_ATOL, DEFAULT_RTOL, EXIT_FINDINGS, EXIT_OK, EXIT_UNREADABLE, KINDS,
                        AuditError, AuditResult, CellRecord, Finding, Records, default_templates_dir,
@@ -95,7 +97,15 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     if seeds:   # a workbook without our functions has nothing to recompute
         try:
             model = Model(book)
-            checked = model.downstream(seeds)
+            # ours, what follows from them, and the formulas they read: a typed-over formula
+            # upstream (an area, a film temperature) would otherwise be recomputed silently
+            following = model.downstream(seeds)
+            checked = following | {k for k in model.upstream(following)
+                                   if k[0] != "#name" and k in model.nodes}
+            if template_marker(book) is not None:
+                # a template: every number it prints is checked (an input echoed on Results,
+                # a chart's data), so a changed saved value anywhere is found
+                checked |= {k for k in model.nodes if k[0] != "#name"}
             evaluation = model.calculate(only=checked)
         except BookError as error:
             raise AuditError(str(error)) from None
@@ -111,8 +121,10 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
     pristine = pristine_template(result, book, templates_dir)
     if evaluation is not None:
         _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine)
+    blanks: list = []
     if pristine is not None:
         template_drift(result, book, cells, pristine)
+        blanks = blank_inputs(result, book, pristine)
     hand_started = time.perf_counter()
     result.hand = check_hand_book(
         path, book, exclude=seeds, model=model if evaluation is not None else None,
@@ -129,10 +141,74 @@ def audit_book(path: str, rtol: float = DEFAULT_RTOL, templates_dir: str | os.Pa
         row, col = split_ref(f.ref)
         return (order.get(f.sheet, len(order)), row, col)
 
-    findings.sort(key=lambda f: (_SEVERITY[f.kind], -(f.rel_diff or 0.0), position(f)))
+    causes = _causes(model, findings) if evaluation is not None else {}
+    inputs_first = {id(f) for f in blanks}
+
+    def rank(f: Finding):
+        if f.kind == "template-drift" or id(f) in inputs_first:
+            return 0
+        return 2 if id(f) in causes else 1
+
+    findings.sort(key=lambda f: (rank(f), _SEVERITY[f.kind], -(f.rel_diff or 0.0), position(f)))
     timing["classify"] = time.perf_counter() - classify_started
     result.timing = timing
     return result
+
+
+def _causes(model, findings) -> dict:
+    """Cause first: for each finding that follows from another (a finding in a cell it reads,
+    directly or not), that cell, by ``id`` of the finding.  A typed-over or drifted formula and a
+    changed input have no finding upstream; everything downstream of them follows.  Their
+    messages say so: a root mismatch whose inputs all agree was typed over."""
+    anchors: dict = {}
+    first_cause: dict = {}          # node -> the first finding cell upstream of it
+    for finding in findings:
+        if finding.sheet is not None:
+            key = model.owner.get((finding.sheet, finding.ref), (finding.sheet, finding.ref))
+            anchors.setdefault(key, finding)
+    if not anchors:
+        return {}
+    from ..workbook.reader import split_ref
+    inputs = [(f.sheet, f.ref, *split_ref(f.ref)) for f in findings
+              if f.sheet is not None and (f.sheet, f.ref) not in model.nodes
+              and (f.sheet, f.ref) not in model.owner]
+    for finding in findings:
+        if (finding.sheet, finding.ref) in {(i[0], i[1]) for i in inputs}:
+            anchors.setdefault((finding.sheet, finding.ref), finding)
+    for key in model.keys_in_order():
+        node = model.nodes[key]
+        read = next(((sheet, ref) for sheet, ref, row, col in inputs
+                     for reference, source in zip(node.prepared.references if node.prepared
+                                                  else (), node.sources)
+                     if reference.kind == "area" and source == sheet
+                     and reference.r1 <= row <= reference.r2
+                     and reference.c1 <= col <= reference.c2), None) if inputs else None
+        if read is not None:
+            first_cause[key] = read
+            continue
+        for dep in sorted(node.deps, key=str):
+            cause = dep if dep in anchors and dep != key else first_cause.get(dep)
+            if cause is not None and cause != key:
+                first_cause[key] = cause
+                break
+    follows = {}
+    for finding in findings:
+        if finding.sheet is None:
+            continue
+        key = model.owner.get((finding.sheet, finding.ref), (finding.sheet, finding.ref))
+        cause = first_cause.get(key)
+        seen = {key}
+        while cause is not None and cause in first_cause and cause not in seen:
+            seen.add(cause)                 # the finding at the start of the chain
+            cause = first_cause[cause]
+        if cause is not None:
+            follows[id(finding)] = cause
+            if finding.kind == "mismatch":
+                finding.message += f" (follows from {label(*cause)})"
+        elif finding.kind == "mismatch" and key in model.nodes:
+            finding.message += (" (the cells it reads agree, so the saved value does not follow "
+                                 "from its formula: typed over, or saved without recalculation?)")
+    return follows
 
 
 def _maybe_ours():
@@ -180,6 +256,8 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     calls_of = {k: calls_in(model.nodes[k].text) for k in ordered}
     unknown_cells = {k for k, calls in calls_of.items() if any(c.unknown for c in calls)}
     edited_inputs = pristine is not None and inputs_changed(book, pristine)
+    # A cell of an iterated loop is as exact as the workbook's delta allows, no more.
+    loop_delta = {cell: loop.delta for loop in evaluation.loops for cell in loop.cells}
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
@@ -234,7 +312,8 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
                     add("stale", key[0], ref, advice, formula=formula, cached=cached,
                         computed=value)
                 continue
-            same, rel = same_value(cached, value, rtol, atol, scale)
+            same, rel = same_value(cached, value, rtol,
+                                   max(atol, loop_delta.get(label(key[0], ref), 0.0)), scale)
             if same:
                 continue
             if calls_version:
@@ -268,6 +347,13 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     for cell, message in evaluation.notes:
         if not cell:
             result.findings.append(Finding("out-of-range", "", message))
+    for loop in evaluation.loops:
+        if loop.converged and not loop.stored_converged:
+            sheet, _, ref = loop.cells[0].rpartition("!")
+            add("stale", sheet.strip("'"), ref, f"the values saved for the circular loop "
+                f"{', '.join(loop.cells[:8])} were not converged: one sweep of the workbook's "
+                f"iterative calculation from them changed a value by more than its delta "
+                f"{loop.delta:g}; recalculate (F9) until it settles and save")
 
 
 # ---------------------------------------------------------------------------------------------
@@ -288,9 +374,9 @@ def add_audit_parser(subparsers) -> argparse.ArgumentParser:
 
 
 def _add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("book", metavar="BOOK|DIR", help=".xlsx or .xlsm workbook (never modified), "
-                        "or a folder: every workbook in it and below, one summary line each, the "
-                        "exit status the worst of them")
+    parser.add_argument("book", metavar="BOOK|DIR", help=".xlsx or .xlsm workbook, or .ods where LibreOffice is "
+                        "installed (never modified), or a folder: every workbook in it and below, one "
+                        "summary line each, the exit status the worst of them")
     parser.add_argument("--rtol", type=_tolerance, default=DEFAULT_RTOL,
                         help="relative tolerance for cached values (default %(default)g)")
     parser.add_argument("--atol", type=_tolerance, default=DEFAULT_ATOL,
@@ -322,6 +408,7 @@ def run_audit(args) -> int:
     try:
         result = audit_book(args.book, args.rtol, getattr(args, "templates", None),
                             atol=getattr(args, "atol", DEFAULT_ATOL))
+        result.path = getattr(args, "shown_as", None) or result.path
     except AuditError as error:
         return _unreadable(args, str(error))
     except Exception as error:  # a damaged file must not show a traceback

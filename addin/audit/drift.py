@@ -34,6 +34,11 @@ class _Pristine:
         return self.cells.get(key)
 
 
+def template_marker(book) -> str | None:
+    """The template name and version a workbook says it was made from, or None."""
+    return _marker(book)
+
+
 def pristine_template(result, book, templates_dir):
     """The pristine template a filled-in workbook names in its marker (None when it names none,
     or names one that is not installed, or another version: each said in a finding)."""
@@ -75,6 +80,41 @@ def inputs_changed(book, pristine) -> bool:
             if ref in now and now[ref] != value:
                 return True
     return False
+
+
+def blank_inputs(result, book, pristine) -> list:
+    """Each input of the template (a named constant on its Inputs sheet) left blank in the
+    workbook: a finding at the cell (every spreadsheet computes a blank as 0, so the results
+    that follow would look plausible).  Returns the findings added."""
+    from ..workbook.reader import split_ref
+
+    added: list = []
+    pristine_inputs = {s.name: s for s in pristine.book.sheets}.get("Inputs")
+    try:
+        inputs = book.sheet("Inputs")
+    except KeyError:
+        return added
+    if pristine_inputs is None:
+        return added
+    for name in pristine.book.names:
+        text = name.text.strip().lstrip("=")
+        m = re.match(r"^'?Inputs'?!\$?([A-Z]{1,3})\$?(\d+)$", text)
+        if name.sheet is not None or not m:
+            continue
+        ref = f"{m.group(1)}{m.group(2)}"
+        if ref not in pristine_inputs.values or ref in inputs.formulas:
+            continue
+        now = inputs.values.get(ref)
+        if now is None or (isinstance(now, str) and not now.strip()):
+            finding = Finding("error", label("Inputs", ref),
+                              f"required input {name.name} is blank (the template holds "
+                              f"{show(pristine_inputs.values[ref])}); a blank is computed as 0 "
+                              f"in every spreadsheet program: fill it in", sheet="Inputs",
+                              ref=ref)
+            result.findings.append(finding)
+            added.append(finding)
+    added.sort(key=lambda f: split_ref(f.ref or "A1"))
+    return added
 
 
 def template_drift(result, book, cells, pristine) -> None:

@@ -151,9 +151,13 @@ class _Formula:
         if node is None or node.prepared is None or node.problem or node.array or node.name:
             self.problem = "not a single-cell formula the evaluator reads"
             return
-        function, positions, problem = model.compile(node)
+        function, positions, problem, reference_keys = model.compile(node)
         if problem:
             self.problem = problem
+            return
+        if reference_keys is not None:
+            # ROW, INDEX...: it reads where its arguments lie, not only their numbers
+            self.problem = "reads its arguments as references (ROW, INDEX...), not as numbers"
             return
         self.function = function
         for position in positions:

@@ -182,9 +182,11 @@ TS = Arg("ts", "Surface temperature in degrees Celsius.", "°C")
 TF = Arg("tf", "Temperature of the still fluid far from the surface, in degrees Celsius.", "°C")
 FACING = Arg("facing", 'Which way the exposed face points: "up" or "down".', kind="text")
 BRANCHES = Arg("branches", "Branches table, one row per branch: name | from | to | kind | p1 | p2 | "
-               "p3 | p4 | p5 | method (no header row; trailing blank rows are ignored).", kind="table")
+               "p3 | p4 | p5 | method (a header row above them is allowed; blank rows are skipped).",
+               kind="table")
 BOUNDARIES = Arg("boundaries", "Boundaries table, one row per condition: node | T or Q | value "
-                 "(T fixes a temperature in °C, Q adds a heat input in W).", kind="table")
+                 "(T fixes a temperature in °C, Q adds a heat input in W; a header row above them "
+                 "is allowed; blank rows are skipped).", kind="table")
 NET_GAS = Arg("gas", "Gas of the convection branches (name or mixture); blank for air.",
               kind="text", default="air")
 

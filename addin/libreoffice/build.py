@@ -65,6 +65,18 @@ def _idl_type(entry: CellFunction) -> str:
     return "sequence< sequence< any > >" if returns_array(entry) else "any"
 
 
+# Calc marks an add-in argument declared ``any`` optional in the Function Wizard, whatever the
+# add-in says (sc/source/core/tool/addincol.cxx: optional exactly for "value or array" and
+# varargs arguments).  A required argument is declared ``sequence< sequence< any > >`` (a mixed
+# array: a single value arrives as 1x1, a range as itself), which the Wizard shows as required;
+# the component unwraps the 1x1 (stillair_calc._unwrap_required).
+REQUIRED_ARGUMENT_TYPE = "sequence< sequence< any > >"
+
+
+def _argument_type(arg) -> str:
+    return "any" if arg.optional else REQUIRED_ARGUMENT_TYPE
+
+
 def idl_source() -> str:
     """The UNO IDL of the add-in's interface: one method per registry entry.
 
@@ -77,7 +89,7 @@ def idl_source() -> str:
     lines.append(f"interface {interface} : com::sun::star::uno::XInterface")
     lines.append("{")
     for entry in REGISTRY:
-        args = ", ".join(f"[in] any a{i}" for i in range(len(entry.args)))
+        args = ", ".join(f"[in] {_argument_type(a)} a{i}" for i, a in enumerate(entry.args))
         lines.append(f"    {_idl_type(entry)} {entry.name}({args});")
     lines.append("};")
     lines.append(" ".join("};" for _ in parts))

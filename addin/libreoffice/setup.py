@@ -66,6 +66,24 @@ def libreoffice_environment(environ=None) -> dict:
     return env
 
 
+def virtual_environment_warning(environ=None, prefix=None, base_prefix=None) -> str | None:
+    """What to say when the set-up runs from an activated virtual environment: a LibreOffice
+    started from this shell would find this environment's python3 first on PATH, take its
+    standard library (another build of Python) and fail to load documents without a word."""
+    env = os.environ if environ is None else environ
+    prefix = sys.prefix if prefix is None else prefix
+    base_prefix = sys.base_prefix if base_prefix is None else base_prefix
+    bin_dir = os.path.join(prefix, "bin")
+    on_path = any(os.path.abspath(d) == os.path.abspath(bin_dir)
+                  for d in env.get("PATH", "").split(os.pathsep) if d)
+    if prefix == base_prefix or not (on_path or env.get("VIRTUAL_ENV")):
+        return None
+    return (f"WARNING: this shell has the virtual environment {prefix} on PATH. Do not start "
+            f"LibreOffice from it: LibreOffice's Python would load that environment's standard "
+            f"library and then fail to open documents without any message. Run `deactivate` "
+            f"first, or start it as: env -u VIRTUAL_ENV PATH=/usr/bin:/bin soffice")
+
+
 def libreoffice_python(program_dir: Path) -> Path | None:
     """The Python LibreOffice runs: its own (Windows, macOS, TDF builds) or the system's."""
     for name in ("python", "python.exe", "python3"):
@@ -251,6 +269,9 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
             return EXIT_PROBLEM
         print("In LibreOffice Calc the functions are listed under the Add-In category of the "
               "Function Wizard; Excel workbooks (.xlsx) that call them are rebound when opened.", file=out)
+        warning = virtual_environment_warning()
+        if warning:
+            print(warning, file=out)
         return 0
     except (ToolMissing, FileExistsError) as error:
         print(f"stillair libreoffice-setup: {error}", file=sys.stderr)

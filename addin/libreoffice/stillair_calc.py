@@ -79,6 +79,20 @@ def _blank_text(name, args):
                  for i, value in enumerate(args))
 
 
+def _unwrap_required(name, args):
+    """A required argument is declared as a mixed array (so that the Function Wizard shows it
+    as required): a single value or cell arrives as a 1x1 array and is passed on as that value;
+    a range stays a range."""
+    specs = FUNCTIONS[name]["args"]
+    out = []
+    for i, value in enumerate(args):
+        if i < len(specs) and not specs[i]["optional"] and isinstance(value, tuple) and \
+                len(value) == 1 and isinstance(value[0], tuple) and len(value[0]) == 1:
+            value = value[0][0]
+        out.append(value)
+    return tuple(out)
+
+
 def _as_declared(name, result):
     """The result in the form the method is declared with: a function that may return an array
     (a table, or ranges given to its numeric arguments) always returns a 2-D array, a single
@@ -98,7 +112,8 @@ def _call(name, args):
     if entry is None:
         return _as_declared(name, "%s: not in the installed stillair; run stillair "
                                   "libreoffice-setup again" % name)
-    return _as_declared(name, _state["evaluate"](entry, *_blank_text(name, args)))
+    return _as_declared(name, _state["evaluate"](entry,
+                                                 *_blank_text(name, _unwrap_required(name, args))))
 
 
 def _function_method(name):

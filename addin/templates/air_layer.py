@@ -169,7 +169,7 @@ def build(b: TemplateBook) -> None:
 
 
 TEMPLATE = Template(
-    name="air-layer", version=3, title="Unventilated air layer",
+    name="air-layer", version=4, title="Unventilated air layer",
     summary="Thermal resistance of an unventilated air layer from correlations + radiation, beside the "
             "building standard's simplified value.",
     build=build)

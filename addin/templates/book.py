@@ -40,6 +40,7 @@ from ..cells.registry import BY_NAME
 
 from .pages import CHART_PX, GRIDS, PAGE, PAGE_CAPACITY, ROW_HEIGHT, row_height, starts_new_page, text_lines
 from .spec import (BOUNDARY_FORMATS, BRANCH_FORMATS, CELL_STYLES, CHART_FONT_SIZE, FAILED, FIXED_DATE, INK,
+                   MISSING, MISSING_NAME,
                    MARKER_NAME, RULE, SAND_EDGE, SCIENTIFIC, SIG3, SIGNOFF_FIELDS, SLATE, UNIT_FORMATS, Template,
                    TemplateBuildError, Valid, significant_format)
 
@@ -82,6 +83,7 @@ class TemplateBook:
         self.workbook.define_name(MARKER_NAME, f'="{template.marker}"')
         self.names: dict[str, str] = {}
         self.unverified_constants: list[str] = []
+        self.required: list[str] = []       # every input cell ("B16"): a blank one is missing
         self._format_cache: dict[tuple, Any] = {}
         self.sheets: dict[str, _SheetState] = {}
         for name in self.SHEETS:
@@ -262,6 +264,7 @@ class TemplateBook:
                 "error_title": "Value outside the allowed range",
                 "error_message": _clip(f"{label} must be {allowed}. Why: {valid.why}.", 255)})
         state.row += 1
+        self.required.append(cell)
         return self._define(name, "Inputs", row, value_col)
 
     def step(self, name: str | None, label: str, formula: str, unit: str = "", note: str = "",
@@ -299,6 +302,7 @@ class TemplateBook:
         ws, row = state.worksheet, state.row
         state.chart_run = False
         label_col, value_col, unit_col, note_col = _ROW_COLUMNS["Results"]
+        formula = guarded(formula)
         if text:
             full = f"{label} ({note})" if note else label
             self._row("Results", row, full, "", "")
@@ -317,7 +321,7 @@ class TemplateBook:
         """Conditional formats: a failing verdict or a failed calculation prints white on ink."""
         failed = self.fmt("failed")
         cell = xl_rowcol_to_cell(first_row, col)
-        tests = [f'LEFT({cell},{len(text)})="{text}"' for text in (FAILED, *fails)]
+        tests = [f'LEFT({cell},{len(text)})="{text}"' for text in (FAILED, MISSING, *fails)]
         # a number expected and text or an error value came back: the engine reported a failure
         if numeric:
             tests.append(f"NOT(ISNUMBER({cell}))")
@@ -559,6 +563,8 @@ class TemplateBook:
         if value is None:
             return
         if isinstance(value, str) and value.startswith("="):
+            if ws.name == "Results":      # what the checker reads: never computed from a blank
+                value = guarded(value)
             ws.write_formula(row, col, value, self.fmt(style, number_format, (ws, row, col)))
         elif isinstance(value, str):
             ws.write_string(row, col, value, self.fmt(style))
@@ -576,8 +582,21 @@ class TemplateBook:
         """An absolute reference "Sheet!$B$4" for use in formulas and charts."""
         return f"{sheet}!{xl_rowcol_to_cell(row, col, row_abs=True, col_abs=True)}"
 
+    def _missing_count(self) -> None:
+        """The row under the inputs counting those left blank (the name ``inputs_missing``):
+        every key result reads it and shows INPUT MISSING instead of computing with 0, as
+        Excel, LibreOffice and stillair calc all would."""
+        state = self.sheets["Inputs"]
+        row = state.row
+        value_col, _ = self._row("Inputs", row, "Required inputs left blank (must be 0)", "", "")
+        count = "+".join(f"COUNTBLANK({cell})" for cell in self.required) or "0"
+        state.worksheet.write_formula(row, value_col, f"={count}", self.fmt("value", "0"))
+        state.row += 1
+        self._define(MISSING_NAME, "Inputs", row, value_col)
+
     def close(self) -> None:
         self._unverified_paragraph()
+        self._missing_count()
         for state in self.sheets.values():
             ws = state.worksheet
             for row, lines in sorted(state.lines.items()):
@@ -611,6 +630,12 @@ def _in_palette(entry: dict, colour: str) -> dict:
             marker["border"] = {"color": colour}
         entry["marker"] = marker
     return entry
+
+
+def guarded(formula: str) -> str:
+    """A key result's formula that shows INPUT MISSING while a required input is blank."""
+    body = formula[1:] if formula.startswith("=") else formula
+    return f'=IF({MISSING_NAME}>0,"{MISSING}",{body})'
 
 
 def limit_check(value: str, limit: str, within: str = "OK", beyond: str = "EXCEEDS LIMIT",

@@ -340,6 +340,6 @@ def build(b) -> None:
                 "the applicable standards and licensed practice before relying on a result.", caution=True)
 
 
-TEMPLATE = Template(NAME, 2, "Finned heat sink",
+TEMPLATE = Template(NAME, 3, "Finned heat sink",
                     "Base temperature of a natural-convection plate-fin heat sink with vertical fins for a "
                     "given dissipation and ambient, with the heat split and a fin-count sweep.", build)

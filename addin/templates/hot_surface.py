@@ -385,7 +385,7 @@ def build(b) -> None:
                 "data, local codes and licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 6, "Hot or cold surface in still air or wind",
+TEMPLATE = Template(NAME, 7, "Hot or cold surface in still air or wind",
                     "Heat loss and surface temperature of a hot face or pipe in still air or a wind, bare and with "
                     "a table of insulation thicknesses against a touch-temperature limit; for a cold surface "
                     "the insulation thickness that keeps it above the ambient dew point, with the heat gain.",

@@ -234,6 +234,6 @@ def build(b) -> None:
                 "licensed practice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 3, "Partition with a closed air cavity",
+TEMPLATE = Template(NAME, 4, "Partition with a closed air cavity",
                     "Heat flow through a partition with a closed air cavity between two air spaces: "
                     "converged network against the single-pass hand estimate.", build)

@@ -466,7 +466,7 @@ def build(b) -> None:
                 "breathers, local practice and licensed advice.", caution=True)
 
 
-TEMPLATE = Template(NAME, 6, "Sealed outdoor cabinet",
+TEMPLATE = Template(NAME, 7, "Sealed outdoor cabinet",
                     "Internal air and wall temperatures of a sealed outdoor cabinet with internal "
                     "dissipation, sun, convection and radiation, against a temperature limit; the "
                     "dissipation the limit allows, the cooling needed beyond it, and the night case "

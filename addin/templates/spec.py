@@ -69,6 +69,11 @@ CELL_STYLES = {
 
 # The text a check shows when a quantity it needs did not calculate.
 FAILED = "CALC FAILED"
+# The text every key result shows while a required input is blank (a blank reads as 0 in every
+# spreadsheet program, which would compute a plausible wrong answer), and the defined name of
+# the count of blank required inputs.
+MISSING = "INPUT MISSING"
+MISSING_NAME = "inputs_missing"
 
 # Number formats by quantity (the unit shown beside the value).  SIG3 marks three significant
 # figures: the build evaluates the workbook once and writes each such cell with the fixed decimals

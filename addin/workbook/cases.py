@@ -154,7 +154,8 @@ def result_columns(book: Book, inputs=()) -> list[tuple[str, tuple[str, str]]]:
         if name.hidden or name.name.startswith("_xlnm.") or name.sheet is not None:
             continue
         try:
-            sheet_name, ref = resolve_target(book, name.name)
+            # a result is a formula cell: found, not refused as a --set target would be
+            sheet_name, ref = resolve_target(book, name.name, replace_formulas=True)
         except BookError:
             continue   # a name of a range, a constant or a formula: not one cell's result
         if ref in book.sheet(sheet_name).formulas and (sheet_name, ref) not in inputs:

@@ -11,8 +11,8 @@ from __future__ import annotations
 import math
 
 from ..cells.callpath import NoteRecorder
-from .formulas_bridge import is_xl_error, plain, run_problem, xl_error
-from .formulatext import calls_in
+from .formulas_bridge import as_reference, blank, is_xl_error, plain, run_problem, xl_error
+from .formulatext import area_text, calls_in
 from .reader import split_ref
 from .status import CellResult, label
 
@@ -77,6 +77,25 @@ def judge(value, raw, scale: float, where: str, own_errors, own_notes, upstream_
     return CellResult(value, status, messages, cause, scale)
 
 
+def _as_reference(model, key: str, reference, source, values):
+    """An input as the library's reference object, for formulas that read where their
+    arguments lie (ROW, ROWS, AREAS, ISREF, INDEX); a defined name of a plain area becomes that
+    area.  Anything the library cannot read as a reference stays values."""
+    if reference.kind == "area":
+        # this cell's own area: ``key`` is the input's text in the formula the shape was compiled
+        # from, and a row copied down shares that compiled function (its own rows differ)
+        key = area_text(source, reference.r1, reference.c1, reference.r2, reference.c2)
+    else:
+        node = model.nodes.get(source) if source is not None else None
+        if node is None or node.prepared is None or len(node.prepared.references) != 1 or \
+                node.prepared.references[0].kind != "area" or node.sources[0] is None:
+            return values
+        area = node.prepared.references[0]
+        key = area_text(node.sources[0], area.r1, area.c1, area.r2, area.c2)
+    found = as_reference(key, values)
+    return values if found is None else found
+
+
 def _member_value(array, i: int, j: int):
     """The value an array formula's member (row i, column j of its range) shows, as Excel
     spreads a result over the range: a single value everywhere, a row or column repeated,
@@ -92,9 +111,11 @@ def _member_value(array, i: int, j: int):
     return xl_error("#N/A")
 
 
-def calculate_node(model, node, key, values, results, recorder, area_values) -> dict:
+def calculate_node(model, node, key, values, results, recorder, area_values, *,
+                   in_loop: bool = False) -> dict:
     """Calculate one node of ``model``; returns the CellResult of each cell it fills and puts
-    the library's values in ``values`` for the formulas that read them."""
+    the library's values in ``values`` for the formulas that read them.  ``in_loop``: the node
+    is one sweep's step of an iterated circular loop (else a loop's cell is not calculated)."""
     import numpy as np
 
     where = label(node.sheet, node.ref) if node.name is None else node.name
@@ -102,16 +123,18 @@ def calculate_node(model, node, key, values, results, recorder, area_values) -> 
     upstream = [results.get(d) for d in node.deps if d in results]
     failed = next((r for r in upstream if r.status == "cannot-evaluate"), None)
     problem = node.problem
-    if key in model.cycles and problem is None:
-        problem = "circular reference: the formula depends on its own value"
-    function = positions = None
+    if key in model.cycles and problem is None and not in_loop:
+        problem = (f"circular reference: the formula depends on its own value through the loop "
+                   f"{model.loop_text(model.cycles[key])} (the workbook does not enable "
+                   f"iterative calculation)")
+    function = positions = reference_keys = None
     notes_before, errors_before = len(recorder.notes), len(recorder.errors)
     if problem is None and failed is None:
         # formulas computes a formula without references while compiling it: the notes of
         # such a call belong to this cell, so it is compiled for each cell.
         recorder.current = where
         try:
-            function, positions, problem = model.compile(
+            function, positions, problem, reference_keys = model.compile(
                 node, share=bool(node.prepared.references) or not calls_in(node.text))
         finally:
             recorder.current = None
@@ -133,6 +156,8 @@ def calculate_node(model, node, key, values, results, recorder, area_values) -> 
         else:
             arg = model.name_value(source, values, area_values)
         scale = max(scale, magnitude(arg))
+        if reference_keys is not None:
+            arg = _as_reference(model, reference_keys[len(args)], reference, source, arg)
         args.append(arg)
     recorder.current = where
     try:
@@ -153,14 +178,22 @@ def calculate_node(model, node, key, values, results, recorder, area_values) -> 
         return {key: judge(value, None, scale, where, own_errors, own_notes, upstream_error,
                            name=True)}
     out = {}
+    empty = blank()
+    ours = any(call.ours for call in calls_in(node.text))
     r0, c0 = (node.array[0], node.array[1]) if node.array else (node.row, node.col)
     for member in members:
         row, col = split_ref(member[1])
         raw_value = _member_value(array, row - r0, col - c0)
+        if raw_value is empty:
+            raw_value = 0.0      # =A1 of a blank cell shows 0, and its readers see a 0, not a blank
         values[member] = raw_value
         value = plain(raw_value)
-        member_scale = max(scale, abs(value) if isinstance(value, float) and math.isfinite(value)
-                           else 0.0)
+        own = abs(value) if isinstance(value, float) and math.isfinite(value) else 0.0
+        # Each value against its own scale where the formula calls our functions (a spilled
+        # table's 1e-5 K/W beside a Ra of 1e9; our results are not differences of their
+        # inputs); a built-in formula can cancel what it reads (a balance residual), so its
+        # round-off floor scales with the largest number it reads.
+        member_scale = own if ours else max(scale, own)
         out[member] = judge(value, raw_value, member_scale, where, own_errors, own_notes,
                             upstream_error)
     return out

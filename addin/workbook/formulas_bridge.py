@@ -25,7 +25,7 @@ from .reader import CellError  # noqa: E402
 
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
-           "run_problem"]
+           "run_problem", "reads_references", "as_reference", "input_reference_text"]
 
 _registered = False
 
@@ -137,12 +137,52 @@ def builtin_names() -> frozenset:
     return frozenset(formulas.get_functions())
 
 
+_OPEN_ENDED = re.compile(r"^(?P<head>.*?\$?[A-Za-z]{1,3}\$?\d+):(?P<tail>\$?[A-Za-z]{0,3}\$?\d*)$")
+
+
+def input_reference_text(key: str) -> str:
+    """A compiled formula's input name in A1 notation: formulas shortens an area reaching the
+    grid's last column or row ("A1:XFD3" -> "A1:3", "C5:C1048576" -> "C5:C", "B2:XFD1048576"
+    -> "B2:")."""
+    m = _OPEN_ENDED.match(key)
+    if not m:
+        return key
+    tail = m.group("tail")
+    letters = re.sub(r"[^A-Za-z]", "", tail)
+    digits = re.sub(r"[^0-9]", "", tail)
+    if letters and digits:
+        return key
+    return f"{m.group('head')}:{letters or 'XFD'}{digits or '1048576'}"
+
+
 def compile_formula(text: str):
     """A prepared formula compiled by formulas, and its inputs' reference texts in the order
     the compiled function takes them."""
     from formulas import Parser
     function = Parser().ast("=" + text)[1].compile()
     return function, [str(key) for key in function.inputs]
+
+
+# Functions formulas implements on the reference itself (its rows, columns, areas), not on the
+# values: a compiled formula calling one must be given ``Ranges`` inputs, or they answer #VALUE!.
+_REFERENCE_FUNCTIONS = re.compile(
+    r"(?i)(?<![\w.])(?:_XLFN\.)?(?:ROW|COLUMN|ROWS|COLUMNS|AREAS|ISREF|INDEX|SINGLE)\(")
+
+
+def reads_references(text: str) -> bool:
+    """Whether a prepared formula calls a function that reads its argument as a reference."""
+    return bool(_REFERENCE_FUNCTIONS.search(text))
+
+
+def as_reference(key: str, values):
+    """An input of a compiled formula as the library's reference object (``Ranges``): where it
+    lies and its cells' values; None when the library cannot read ``key`` as a reference."""
+    from formulas.errors import BaseError
+    from formulas.ranges import Ranges
+    try:
+        return Ranges().push(key, values)
+    except (BaseError, ValueError, AttributeError):
+        return None
 
 
 def fast_runner(function):

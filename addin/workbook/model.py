@@ -22,6 +22,7 @@ Commands read this status; none of them infers an error from the shape of a text
 
 from __future__ import annotations
 
+import math
 import os
 import re
 import time
@@ -29,12 +30,12 @@ from dataclasses import dataclass, field
 
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
-                              to_formulas, xl_error)
+                              input_reference_text, reads_references, to_formulas, xl_error)
 from .formulatext import Reference, parse_reference
 from .rewrite import Prepared, prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
-from .status import CellResult, Evaluation, label, quote_sheet
+from .status import CellResult, Evaluation, LoopReport, label, quote_sheet
 
 __all__ = ["Model", "evaluate_book", "MAX_CELLS_READ"]
 
@@ -59,6 +60,10 @@ class _Node:
     compiled: object = None
     problem: str | None = None
     name: str | None = None     # a defined name's node: its label
+
+
+class _Loop(tuple):
+    """The keys of one circular loop, in sweep order (a step of :attr:`Model.order`)."""
 
 
 class Model:
@@ -151,7 +156,16 @@ class Model:
         return node
 
     def _prepare(self, node: _Node) -> None:
-        prepared = prepare(node.text, node.row, node.col, self.used, node.sheet, self._templates)
+        used = self.used
+        templates: dict | None = self._templates
+        if node.array is not None:
+            # A whole row or column in an array formula is cut no shorter than the formula's own
+            # range: {=First!1:1} over A1:XFD1 shows 0 for the blank cells, not #N/A.
+            used = {sheet: (max(rows, node.array[2]), max(cols, node.array[3]))
+                    for sheet, (rows, cols) in self.used.items()}
+            templates = None
+        prepared = prepare(node.text, node.row, node.col, used, node.sheet, templates,
+                           is_formula=self._is_formula)
         node.prepared = prepared
         if prepared.problem:
             node.problem = prepared.problem
@@ -167,6 +181,10 @@ class Model:
                 else:
                     node.deps.add(source)
             node.sources.append(source)
+
+    def _is_formula(self, sheet: str, row: int, col: int) -> bool:
+        name = self.sheet_case.get(sheet.upper())
+        return name is not None and (name, f"{index_to_col(col)}{row}") in self.owner
 
     def _resolve_name(self, reference: Reference, sheet: str):
         """A name as Excel resolves it: the formula's sheet's own name first, then the
@@ -195,33 +213,85 @@ class Model:
         return found
 
     def _order(self) -> list:
-        """Nodes in calculation order; a cycle's cells are reported, not calculated."""
-        order, state = [], {}
-        self.cycles: set = set()
+        """Calculation steps in dependency order: a cell's key, or a tuple of the keys of one
+        circular loop (a strongly connected component, Tarjan's algorithm), which is iterated
+        when the workbook enables iterative calculation and reported otherwise.  Components are
+        emitted after every component they read, so each step's inputs are final."""
+        keys = self.nodes.keys()
+
+        def deps_of(key):
+            return iter(sorted(self.nodes[key].deps & keys, key=str))
+
+        order: list = []
+        self.cycles: dict = {}          # key -> the loop (tuple of keys) it belongs to
+        index: dict = {}
+        low: dict = {}
+        stack: list = []
+        on_stack: set = set()
         for start in self.nodes:
-            if start in state:
+            if start in index:
                 continue
-            stack = [(start, iter(sorted(self.nodes[start].deps & self.nodes.keys(), key=str)))]
-            state[start] = 1
-            while stack:
-                key, children = stack[-1]
+            index[start] = low[start] = len(index)
+            stack.append(start)
+            on_stack.add(start)
+            work = [(start, deps_of(start))]
+            while work:
+                key, children = work[-1]
                 for child in children:
-                    if state.get(child) == 1:
-                        self.cycles.add(child)
-                        self.cycles.add(key)
-                    elif child not in state:
-                        state[child] = 1
-                        stack.append((child, iter(sorted(self.nodes[child].deps & self.nodes.keys(),
-                                                          key=str))))
+                    if child not in index:
+                        index[child] = low[child] = len(index)
+                        stack.append(child)
+                        on_stack.add(child)
+                        work.append((child, deps_of(child)))
                         break
+                    if child in on_stack:
+                        low[key] = min(low[key], index[child])
                 else:
-                    stack.pop()
-                    state[key] = 2
-                    order.append(key)
+                    work.pop()
+                    if work:
+                        parent = work[-1][0]
+                        low[parent] = min(low[parent], low[key])
+                    if low[key] != index[key]:
+                        continue
+                    component = []
+                    while True:
+                        member = stack.pop()
+                        on_stack.discard(member)
+                        component.append(member)
+                        if member == key:
+                            break
+                    if len(component) == 1 and key not in self.nodes[key].deps:
+                        order.append(key)
+                        continue
+                    loop = _Loop(sorted(component, key=self._sweep_position))
+                    for member in loop:
+                        self.cycles[member] = loop
+                    order.append(loop)
         return order
 
+    def keys_in_order(self):
+        """Every node's key in calculation order (a loop's cells in sweep order)."""
+        for step in self.order:
+            yield from (step if isinstance(step, _Loop) else (step,))
+
+    def _sweep_position(self, key):
+        """Where a loop's cell comes in a sweep: sheet by sheet, row by row (names first)."""
+        if key[0] == "#name":
+            return (-1, 0, 0, str(key))
+        sheet_index = next((i for i, s in enumerate(self.book.sheets) if s.name == key[0]), 0)
+        row, col = split_ref(key[1])
+        return (sheet_index, row, col, "")
+
+    def loop_text(self, loop) -> str:
+        """A loop's cells for a message: 'S!A1, S!A2' (the first eight, then how many more)."""
+        shown = [self.nodes[k].name or label(k[0], k[1]) for k in loop[:8]]
+        more = f" and {len(loop) - 8} more" if len(loop) > 8 else ""
+        return ", ".join(shown) + more
+
     def compile(self, node: _Node, share: bool = True):
-        """The compiled function for the node's shape, and which reference feeds each input."""
+        """The compiled function for the node's shape, which reference feeds each input, the
+        problem, and the inputs' texts where the formula reads its arguments as references
+        (ROW, ROWS, AREAS...: the inputs are then passed as the library's reference objects)."""
         prepared = node.prepared
         assert prepared is not None  # only prepared nodes are compiled
         cached = self._compiled.get(prepared.key) if share else None
@@ -229,18 +299,19 @@ class Model:
             try:
                 function, inputs = compile_formula(prepared.text)
             except Exception as error:
-                cached = (None, None, parse_problem(error, node.text))
+                cached = (None, None, parse_problem(error, node.text), None)
             else:
                 positions = []
                 wanted = [_reference_id(r, None) for r in prepared.references]
                 for key in inputs:
-                    ident = _reference_id(parse_reference(key), None)
+                    ident = _reference_id(parse_reference(input_reference_text(key)), None)
                     positions.append(wanted.index(ident) if ident in wanted else None)
                 if None in positions:
                     cached = (None, None, "the evaluator reads this formula's references "
-                              "differently from Excel")
+                              "differently from Excel", None)
                 else:
-                    cached = (fast_runner(function) if share else function, positions, None)
+                    keys = list(inputs) if reads_references(prepared.text) else None
+                    cached = (fast_runner(function) if share else function, positions, None, keys)
             if share:
                 self._compiled[prepared.key] = cached
         return cached
@@ -315,9 +386,10 @@ class Model:
             array = area_cache.get(area_key)
             if array is not None:
                 return array
-            # fill(), not np.full: np.full converts the blank sentinel (a str subclass) into the
-            # text "empty", so cells past the used range read as text, not blank
-            array = np.empty((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1), dtype=object)
+            # ndarray.fill keeps the blank marker itself: np.full would turn it (a str subclass)
+            # into the plain text 'empty', which COUNTA counts and our functions refuse.
+            array = np.empty((reference.r2 - reference.r1 + 1, reference.c2 - reference.c1 + 1),
+                             dtype=object)
             array.fill(empty)
             sheet = self.sheets[sheet_name]
             last_row, last_col = sheet.last_row, sheet.last_col
@@ -325,27 +397,92 @@ class Model:
             for r in range(reference.r1, min(reference.r2, last_row) + 1):
                 for j, column in enumerate(letters):
                     array[r - reference.r1, j] = cell_value(sheet_name, f"{column}{r}")
-            if cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
+            if caching[0] and cached_cells[0] + array.size <= _AREA_CACHE_CELLS:
                 cached_cells[0] += array.size
                 area_cache[area_key] = array
             return array
 
         area_cache: dict = {}
         cached_cells = [0]
+        caching = [True]
+        loops: list = []
         needed = self.upstream(only) if only is not None else None
         self._check_volume(needed)
         from .safezip import offline
         with recorder, offline():   # nothing in a workbook may reach the network
-            for key in self.order:
-                node = self.nodes[key]
-                if key in sets or (needed is not None and key not in needed):
-                    continue
-                results_here = calculate_node(self, node, key, values, results, recorder,
-                                              area_values)
-                for member_key, result in results_here.items():
-                    results[member_key] = result
+            for step in self.order:
+                if isinstance(step, _Loop):
+                    if needed is not None and not any(k in needed for k in step):
+                        continue
+                    if self.book.iteration is not None:
+                        caching[0] = False   # a loop's ranges change from sweep to sweep
+                        loops.append(self._iterate(step, sets, values, results, recorder,
+                                                   area_values))
+                        caching[0] = True
+                        continue
+                    keys: tuple = step
+                else:
+                    keys = (step,)
+                for key in keys:
+                    if key in sets or (needed is not None and key not in needed):
+                        continue
+                    results.update(calculate_node(self, self.nodes[key], key, values, results,
+                                                  recorder, area_values))
         calculated = time.perf_counter()
-        return self._evaluation(values, results, recorder, sets, calculated - started)
+        evaluation = self._evaluation(values, results, recorder, sets, calculated - started)
+        evaluation.loops = loops
+        return evaluation
+
+    def _iterate(self, loop, sets, values, results, recorder, area_values) -> LoopReport:
+        """A circular loop calculated as Excel's iterative calculation does it: starting from
+        the values the file stores for its cells (0 where none), sweeps over the loop's cells in
+        sheet order (each sweep reads the newest values), at most the workbook's count, stopping
+        when no number changed by more than its delta.  A loop still changing after the count
+        keeps its last values with the status error and the last change named."""
+        iteration = self.book.iteration
+        assert iteration is not None   # called only when the workbook enables iteration
+        members = []
+        for key in loop:
+            node = self.nodes[key]
+            if node.name is not None:
+                continue
+            for member in self.members(node):
+                members.append(member)
+                if member in sets:
+                    continue
+                sheet = self.sheets[member[0]]
+                cell = sheet.formulas.get(member[1])
+                stored = cell.cached if cell is not None and cell.has_cached else \
+                    sheet.cached.get(member[1])
+                if stored is None or isinstance(stored, CellError):
+                    stored = 0.0
+                values[member] = to_formulas(stored)
+        computed = [k for k in loop if k not in sets]
+        sweeps, change, first_change = 0, math.inf, None
+        while sweeps < iteration.count:
+            before = {m: plain(values.get(m)) for m in members}
+            for key in computed:
+                results.update(calculate_node(self, self.nodes[key], key, values, results,
+                                              recorder, area_values, in_loop=True))
+            sweeps += 1
+            change = max((_change(before[m], plain(values.get(m))) for m in members), default=0.0)
+            if first_change is None:
+                first_change = change
+            if change <= iteration.delta:
+                break
+        converged = change <= iteration.delta
+        cells = tuple(label(*m) for m in members)
+        if not converged:
+            message = (f"iterative calculation did not converge: after {sweeps} sweeps (the "
+                       f"workbook's limit) the loop {self.loop_text(loop)} still changed by "
+                       f"{change:.3g}, more than its delta {iteration.delta:g}")
+            for member in members:
+                result = results.get(member)
+                if result is not None and result.status in ("value", "note"):
+                    results[member] = CellResult(result.value, "error", (message,),
+                                                 label(*members[0]), result.scale)
+        return LoopReport(cells, sweeps, change, iteration.delta, converged,
+                          first_change is not None and first_change <= iteration.delta)
 
     def _check_volume(self, needed) -> None:
         """Refuse, before calculating, a workbook whose formulas would read more cells in all than
@@ -463,6 +600,17 @@ class Model:
                 for r in range(reference.r1, reference.r2 + 1)]
 
 
+def _change(before, after) -> float:
+    """How much one cell changed in a sweep: the difference of numbers; any other change
+    (text, an error appearing) counts as not settled."""
+    if before == after:
+        return 0.0
+    if isinstance(before, float) and isinstance(after, float):
+        difference = abs(after - before)
+        return difference if math.isfinite(difference) else math.inf
+    return math.inf
+
+
 def _is_plain_reference(text: str) -> bool:
     return not re.search(r"[(),+*/&^<>=\-\"]", text.strip())
 
@@ -476,17 +624,58 @@ def _reference_id(reference: Reference, default_sheet):
     return (reference.kind, (reference.sheet or "").upper(), reference.name.upper())
 
 
-def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None) -> Evaluation:
+def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=None, *,
+                  replace_formulas: bool = False, validate: bool = True) -> Evaluation:
     """Read and calculate a workbook; ``sets`` maps a cell ("Sheet!B3") or name to a new value.
 
     ``path`` may be a :class:`Book` already read.  ``cells`` limits the work to those formula
-    cells and what they read."""
+    cells and what they read.  A set value must pass the cell's data-validation rule, and a
+    formula cell is replaced only with ``replace_formulas`` (else BookError).  ``validate=False``
+    skips the data-validation rules (what the sheet computes from a value pasted over them)."""
+    from .rules import check_sets
     model = _model_of(path) if cells is None else Model(
         path if isinstance(path, Book) else read_book(path), cells)
-    targets = {}
+    targets, shown = {}, {}
     for target, text in (sets or {}).items():
-        targets[resolve_target(model.book, target)] = parse_value(text) if isinstance(text, str) else text
-    return model.calculate(targets)
+        key = resolve_target(model.book, target, replace_formulas, typed=f"{target}={text}")
+        targets[key] = parse_value(text) if isinstance(text, str) else text
+        shown[key] = f"{target}={text}"
+    evaluation = model.calculate(targets)
+    _note_blank_inputs(model, evaluation, targets)
+    if targets and validate:
+        for message in check_sets(model, evaluation, targets, shown):
+            evaluation.notes.append(("", message))
+    return evaluation
+
+
+# The count of blank required inputs a template keeps (templates/spec.py MISSING_NAME).
+_MISSING_NAME = "inputs_missing"
+
+
+def _note_blank_inputs(model, evaluation, targets) -> None:
+    """A template whose count of blank required inputs is above 0 shows INPUT MISSING in its
+    results; the note names the blank cells (by their defined names) and calc exits 1."""
+    count = evaluation.names.get(_MISSING_NAME)
+    if not isinstance(count, float) or count <= 0:
+        return
+    blank = []
+    for name in model.book.names:
+        m = re.match(r"^'?Inputs'?!\$?([A-Z]{1,3})\$?(\d+)$", name.text.strip().lstrip("="))
+        if name.sheet is not None or not m or name.name == _MISSING_NAME:
+            continue
+        ref = f"{m.group(1)}{m.group(2)}"
+        sheet = model.sheets.get("Inputs")
+        if sheet is None or ref in sheet.formulas:
+            continue
+        value = targets.get(("Inputs", ref), sheet.values.get(ref)) \
+            if ("Inputs", ref) in targets else sheet.values.get(ref)
+        if value is None or (isinstance(value, str) and not value.strip()):
+            blank.append(f"Inputs!{ref} ({name.name})")
+    message = (f"INPUT MISSING: {int(count)} required input{'s are' if count > 1 else ' is'} "
+               f"blank{': ' + ', '.join(blank) if blank else ''}; the results are not computed "
+               f"until {'they are' if count > 1 else 'it is'} filled in")
+    evaluation.notes.insert(0, ("", message))
+    evaluation.input_missing = message
 
 
 _MODELS: dict = {}

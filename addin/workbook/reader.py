@@ -91,6 +91,21 @@ class FormulaCell:
     has_cached: bool = False      # False when the file holds no value (never calculated)
 
 
+@dataclass(frozen=True)
+class Validation:
+    """One data-validation rule of a sheet (ECMA-376 Part 1, 18.3.1.32 dataValidation): the
+    cells it covers, its type and operator, its formulas (relative to the top-left cell of its
+    first area), whether blanks pass, and the message the spreadsheet shows on a refusal."""
+
+    areas: tuple[str, ...]          # "B5", "C3:C9"
+    type: str                       # custom, decimal, whole, list, textLength, date, time, any
+    operator: str                   # between (default), notBetween, equal, greaterThan ...
+    formula1: str | None
+    formula2: str | None
+    allow_blank: bool
+    error: str                      # errorTitle and error, as the spreadsheet shows them
+
+
 @dataclass
 class Sheet:
     name: str
@@ -101,6 +116,22 @@ class Sheet:
     cached: dict[str, object] = field(default_factory=dict)      # array member ref -> cached value
     last_row: int = 0                             # the used range: last row and column with content
     last_col: int = 0
+    validations: list[Validation] = field(default_factory=list)
+
+    def validation_of(self, ref: str) -> Validation | None:
+        """The data-validation rule that covers a cell, if any."""
+        row, col = split_ref(ref)
+        for rule in self.validations:
+            for area in rule.areas:
+                first, _, last = area.partition(":")
+                try:
+                    r1, c1 = split_ref(first.replace("$", ""))
+                    r2, c2 = split_ref((last or first).replace("$", ""))
+                except ValueError:
+                    continue
+                if min(r1, r2) <= row <= max(r1, r2) and min(c1, c2) <= col <= max(c1, c2):
+                    return rule
+        return None
 
     def formula_refs(self) -> list[str]:
         """Every cell whose value a formula computes (array ranges expanded), row-major."""
@@ -119,6 +150,15 @@ class DefinedName:
     hidden: bool
 
 
+@dataclass(frozen=True)
+class Iteration:
+    """The workbook's iterative calculation (``calcPr iterate="1"``): at most ``count`` sweeps,
+    stopping when no value changes by more than ``delta`` (Excel's defaults 100 and 0.001)."""
+
+    count: int = 100
+    delta: float = 0.001
+
+
 @dataclass
 class Book:
     path: str
@@ -126,6 +166,7 @@ class Book:
     names: list[DefinedName]
     members: list[str]
     application: str = ""   # docProps/app.xml: the program that saved the file
+    iteration: Iteration | None = None   # None: iterative calculation is off (cycles are errors)
 
     def sheet(self, name: str) -> Sheet:
         for sheet in self.sheets:
@@ -171,8 +212,11 @@ def read_book(path: str) -> Book:
             if part not in present:
                 continue  # a chart sheet or a dangling relationship
             sheet = Sheet(element.get("name"), part)
+            data = archive.read(part)
+            _require_well_formed(data, path, sheet.name, part)
+            sheet.validations = _validations(data)
             try:
-                _scan_sheet(sheet, archive.read(part), shared, counts, path)
+                _scan_sheet(sheet, data, shared, counts, path)
             except (UnicodeDecodeError, ValueError) as error:
                 raise BookError(f"{path}: damaged sheet {sheet.name!r} ({error})") from None
             sheets.append(sheet)
@@ -189,7 +233,73 @@ def read_book(path: str) -> Book:
         if "docProps/app.xml" in present:
             m = re.search(rb"<(?:\w+:)?Application>([^<]*)<", archive.read("docProps/app.xml"))
             application = _unescape(m.group(1).decode("utf-8", "replace")) if m else ""
-        return Book(path, sheets, names, members, application)
+        return Book(path, sheets, names, members, application, _iteration(workbook))
+
+
+_VALIDATIONS_RE = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?dataValidations\b.*?</(?:[A-Za-z_][\w.-]*:)?"
+                             rb"dataValidations>", re.S)
+
+
+def _validations(xml: bytes) -> list[Validation]:
+    """The sheet's data-validation rules (the block is small: parsed on its own)."""
+    from .safezip import parse_xml
+    found = _VALIDATIONS_RE.search(xml)
+    if found is None:
+        return []
+    block = found.group(0)
+    if not block.startswith(b"<dataValidations") or b"xmlns" not in block[:200]:
+        block = re.sub(rb"^<(?:[A-Za-z_][\w.-]*:)?dataValidations\b",
+                       b'<dataValidations xmlns="' + _NS_MAIN.encode() + b'"', block)
+        block = re.sub(rb"(</?)[A-Za-z_][\w.-]*:", rb"\1", block)
+    try:
+        root = parse_xml(block)
+    except Exception:
+        return []
+    rules = []
+    for element in root:
+        if not element.tag.endswith("dataValidation"):
+            continue
+        texts = {}
+        for child in element:
+            texts[child.tag.rpartition("}")[2]] = (child.text or "").strip()
+        title, message = element.get("errorTitle") or "", element.get("error") or ""
+        rules.append(Validation(
+            tuple((element.get("sqref") or "").split()), element.get("type") or "any",
+            element.get("operator") or "between", texts.get("formula1"), texts.get("formula2"),
+            element.get("allowBlank") in ("1", "true"),
+            f"{title}: {message}" if title and message else (message or title)))
+    return rules
+
+
+def _iteration(workbook) -> Iteration | None:
+    """The calcPr element's iteration settings, or None when iteration is off."""
+    element = workbook.find(f"{{{_NS_MAIN}}}calcPr")
+    if element is None or element.get("iterate") not in ("1", "true"):
+        return None
+    try:
+        count = int(element.get("iterateCount", "100"))
+    except ValueError:
+        count = 100
+    try:
+        delta = float(element.get("iterateDelta", "0.001"))
+    except ValueError:
+        delta = 0.001
+    return Iteration(max(count, 1), abs(delta))
+
+
+def _require_well_formed(data: bytes, path: str, sheet: str, part: str) -> None:
+    """A sheet part that is not well-formed XML (a truncated or damaged file) is refused by
+    name: read leniently, it would look like an empty sheet and spoil every formula that
+    reads it.  The prolog was checked by safezip (no DTD), so expat only checks the syntax."""
+    from xml.parsers import expat
+    parser = expat.ParserCreate()
+    try:
+        parser.Parse(data, True)
+    except expat.ExpatError as error:
+        raise BookError(f"{path}: damaged file: sheet {sheet!r} (part {part}) is not well-formed "
+                        f"XML ({expat.errors.messages[error.code]} at line {error.lineno}, column "
+                        f"{error.offset}); open it in the spreadsheet program that made it and "
+                        f"save it again, or use a backup") from None
 
 
 def _shared_strings(archive: zipfile.ZipFile, path: str) -> list[str]:

@@ -15,6 +15,10 @@ def evaluation_json(evaluation: Evaluation) -> dict:
         "values": evaluation.flat_values(),
         "names": evaluation.names,
         "notes": [{"cell": cell, "message": message} for cell, message in evaluation.notes],
+        **({"loops": [{"cells": list(loop.cells), "sweeps": loop.sweeps,
+                       "last_change": loop.last_change, "delta": loop.delta,
+                       "converged": loop.converged} for loop in evaluation.loops]}
+           if evaluation.loops else {}),
     }
 
 
@@ -31,15 +35,17 @@ def report_lines(evaluation: Evaluation, book: str, out: str | None = None) -> l
         lines.append("Results:")
         for line in render_results(results):
             lines.append(line)
-    elif named:
-        lines.append("Named results:")
-        width = max(len(n) for n, _ in named)
-        for name, value in named:
-            lines.append(f"  {name:<{width}}  {_format(value)}")
     else:
-        lines.append("Last computed cells:")
-        for cell, value in _summary_cells(evaluation):
-            lines.append(f"  {cell}  {_format(value)}")
+        lines.extend(_own_workbook_lines(evaluation, named))
+    for loop in evaluation.loops:
+        cells = compress_cells(list(loop.cells))
+        if loop.converged:
+            lines.append(f"Circular loop {cells}: iterated as the workbook asks, settled after "
+                         f"{loop.sweeps} sweeps (last change {loop.last_change:.3g} <= delta "
+                         f"{loop.delta:g})")
+        else:
+            lines.append(f"Circular loop {cells}: NOT converged after {loop.sweeps} sweeps (last "
+                         f"change {loop.last_change:.3g} > delta {loop.delta:g})")
     grouped = group_notes(evaluation.notes)
     if grouped:
         lines.append(f"Notes ({len(grouped)}):")
@@ -63,18 +69,61 @@ def _format(value) -> str:
     return "" if value is None else str(value)
 
 
-def _summary_cells(evaluation):
-    """Cells to print when the workbook has no names: the last row of formulas of each sheet."""
-    rows = []
+def _caption(sheet, ref: str) -> str:
+    """The nearest text typed to the left of a cell in its row (what the user called it)."""
+    row, col = split_ref(ref)
+    for column in range(col - 1, 0, -1):
+        value = sheet.values.get(f"{index_to_col(column)}{row}")
+        if isinstance(value, str) and value.strip():
+            return value.strip()
+    return ""
+
+
+def _own_workbook_lines(evaluation, named) -> list[str]:
+    """A workbook that is not a template: every cell that calls one of our functions (sheet by
+    sheet: cell, value, unit where the function has one, its note), then the defined names."""
+    from .formulatext import calls_in
+    from ..cells.registry import BY_NAME
+
+    lines = []
     for sheet in evaluation.book.sheets:
         cells = evaluation.values.get(sheet.name, {})
-        if not cells:
-            continue
-        last_row = max(split_ref(ref)[0] for ref in cells)
+        rows = []
         for ref in sorted(cells, key=split_ref):
-            if split_ref(ref)[0] == last_row:
-                rows.append((label(sheet.name, ref), cells[ref]))
-    return rows
+            anchor = sheet.formulas.get(ref) or sheet.formulas.get(sheet.array_members.get(ref, ""))
+            calls = [c for c in calls_in(anchor.formula or "") if c.ours] if anchor else []
+            if not calls:
+                continue
+            function = BY_NAME.get(calls[0].canonical)
+            result = evaluation.results.get((sheet.name, ref))
+            value = cells[ref]
+            unit = function.unit if function is not None and isinstance(value, float) else ""
+            shown = _format(value)
+            note = ""
+            if result is not None and result.status in ("error", "cannot-evaluate"):
+                shown = value if isinstance(value, str) and value.startswith("#") else "error"
+                note = "(see the notes)"      # each message once, under Notes
+            elif result is not None and result.status == "note":
+                note = "; ".join(result.messages)
+            rows.append((ref, _caption(sheet, ref), shown, unit, note))
+        if not rows:
+            continue
+        lines.append(f"{sheet.name}:")
+        ref_width = max(len(r[0]) for r in rows)
+        caption_width = min(max(len(r[1]) for r in rows), 40)
+        value_width = min(max(len(r[2]) for r in rows), 40)
+        unit_width = max(len(r[3]) for r in rows)
+        for ref, caption, value, unit, note in rows:
+            lines.append(f"  {ref:<{ref_width}}  {caption[:40]:<{caption_width}}  "
+                         f"{value:>{value_width}}  {unit:<{unit_width}}  {note}".rstrip())
+    if not lines:
+        lines.append("No cell calls a stillair function.")
+    if named:
+        lines.append("Defined names:")
+        width = max(len(n) for n, _ in named)
+        for name, value in named:
+            lines.append(f"  {name:<{width}}  {_format(value)}")
+    return lines
 
 
 def compress_cells(labels: list[str]) -> str:

@@ -78,7 +78,7 @@ def _relative_form(formula: str, row: int, col: int):
     """The formula with its cell references made relative to the cell, and the references'
     positions (column, row) in order; None when the text has quoted sheet names or functions
     whose value depends on the cell."""
-    if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN)\s*\(", formula):
+    if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN|ISFORMULA)\s*\(", formula):
         return None
     parts, cells = [], []
     for index, piece in enumerate(_STRING.split(formula)):
@@ -106,15 +106,17 @@ class _Template:
 
 
 def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
-            own_sheet: str, cache: dict | None = None) -> Prepared:
+            own_sheet: str, cache: dict | None = None, is_formula=None) -> Prepared:
     """Rewrite ``formula`` (with or without "=") of the cell at ``row``/``col`` of ``own_sheet``.
 
     ``used`` maps a sheet name (upper case) to its used range's last (row, column): whole rows
     and columns are cut there, so they cost what the used range costs.  A formula of the same
-    relative form as one prepared before (a row copied down) reuses that one's work."""
+    relative form as one prepared before (a row copied down) reuses that one's work.
+    ``is_formula(sheet, row, col)`` says whether a cell holds a formula (ISFORMULA reads it;
+    without it ISFORMULA is left to the library)."""
     relative = _relative_form(formula.lstrip("="), row, col) if cache is not None else None
     if relative is None or cache is None:
-        return _prepare(formula, row, col, used, own_sheet)
+        return _prepare(formula, row, col, used, own_sheet, is_formula)
     form, cells = relative
     cache_key = (form, own_sheet.upper())
     template = cache.get(cache_key)
@@ -179,12 +181,85 @@ def _corners(prepared: Prepared, cells: list) -> list[tuple[int, ...]] | None:
     return corners if at == len(cells) else None
 
 
+def _is_area(token) -> bool:
+    return token.type == "OPERAND" and token.subtype == "RANGE" and \
+        parse_reference(token.value).kind == "area"
+
+
+def _reference_operators(items: tuple, own_sheet: str, is_formula) -> list:
+    """Tokens with what depends on the reference itself, not on values, worked out here:
+
+    * the intersection operator (a space between two areas, ``B2:E5 C3:D4``): the common area,
+      or #NULL! where they do not meet (Excel's rule; formulas reads the pair as one operand);
+    * ``ISFORMULA(cell)``: TRUE or FALSE from the workbook (formulas asks its own dispatcher);
+    * ``--X`` as ``0+X`` (formulas cancels the two minus signs and keeps a logical)."""
+    from openpyxl.formula.tokenizer import Token
+    out = list(items)
+    i = 0
+    while i + 1 < len(out):
+        # "--X" (a logical made a number, --(A1=B1)): formulas drops the pair and keeps TRUE or
+        # FALSE; Excel gives 1 or 0.  0+X has the value and type of --X in every case.
+        if all(t.type == "OPERATOR-PREFIX" and t.value == "-" for t in out[i:i + 2]):
+            out[i:i + 2] = [Token("0", "OPERAND", "NUMBER"), Token("+", "OPERATOR-INFIX", "")]
+        i += 1
+    i = 0
+    while i + 2 < len(out):
+        a, gap, b = out[i], out[i + 1], out[i + 2]
+        if gap.type == "WHITE-SPACE" and _is_area(a) and _is_area(b):
+            ra, rb = parse_reference(a.value), parse_reference(b.value)
+            if (ra.sheet or own_sheet).upper() == (rb.sheet or own_sheet).upper() and \
+                    not ra.whole and not rb.whole:
+                r1, c1 = max(ra.r1, rb.r1), max(ra.c1, rb.c1)
+                r2, c2 = min(ra.r2, rb.r2), min(ra.c2, rb.c2)
+                if r1 <= r2 and c1 <= c2:
+                    merged = Token(area_text(ra.sheet, r1, c1, r2, c2), "OPERAND", "RANGE")
+                else:
+                    merged = Token("#NULL!", "OPERAND", "ERROR")
+                out[i:i + 3] = [merged]
+                continue
+        i += 1
+    i = 0
+    while i + 2 < len(out):
+        # Functions of where a reference lies, not of its cells' values, with an area typed as
+        # their argument: worked out here, so the cells they name are not read (ROWS(A1:C50)
+        # in C7 is no circular reference, in LibreOffice as in Excel).
+        f, arg, close = out[i], out[i + 1], out[i + 2]
+        if f.type == "FUNC" and f.subtype == "OPEN" and _is_area(arg) and \
+                close.type == "FUNC" and close.subtype == "CLOSE":
+            reference = parse_reference(arg.value)
+            name = bare_name(f.value[:-1])
+            single = reference.r1 == reference.r2 and reference.c1 == reference.c2
+            answer = {"ROWS": reference.r2 - reference.r1 + 1,
+                      "COLUMNS": reference.c2 - reference.c1 + 1, "AREAS": 1,
+                      "ROW": reference.r1 if single else None,
+                      "COLUMN": reference.c1 if single else None}.get(name)
+            if name == "ISREF":
+                out[i:i + 3] = [Token("TRUE", "OPERAND", "LOGICAL")]
+            elif answer is not None and not reference.whole:
+                out[i:i + 3] = [Token(str(answer), "OPERAND", "NUMBER")]
+        i += 1
+    if is_formula is not None:
+        i = 0
+        while i + 2 < len(out):
+            f, arg, close = out[i], out[i + 1], out[i + 2]
+            if f.type == "FUNC" and f.subtype == "OPEN" and \
+                    bare_name(f.value[:-1]) == "ISFORMULA" and _is_area(arg) and \
+                    close.type == "FUNC" and close.subtype == "CLOSE":
+                reference = parse_reference(arg.value)
+                if reference.cells == 1:
+                    answer = is_formula(reference.sheet or own_sheet, reference.r1, reference.c1)
+                    out[i:i + 3] = [Token("TRUE" if answer else "FALSE", "OPERAND", "LOGICAL")]
+            i += 1
+    return out
+
+
 def _prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
-             own_sheet: str) -> Prepared:
-    items = tokens(formula)
-    if not items:
+             own_sheet: str, is_formula=None) -> Prepared:
+    read = tokens(formula)
+    if not read:
         text = formula.lstrip("=")
         return Prepared(text, [], ("?", text), "the formula cannot be read")
+    items = _reference_operators(read, own_sheet, is_formula)
     out: list[str] = []
     references: list[Reference] = []
     key: list = []

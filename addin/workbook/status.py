@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 
 from .reader import Book
 
-__all__ = ["STATUSES", "CellResult", "Evaluation", "label", "quote_sheet"]
+__all__ = ["STATUSES", "CellResult", "Evaluation", "LoopReport", "label", "quote_sheet"]
 
 # What a formula cell's value is: a plain value, a value with validity notes, an error, or
 # nothing because the evaluator cannot calculate the formula (or one it depends on).
@@ -33,6 +33,21 @@ class CellResult:
     scale: float = 0.0                    # largest magnitude among the numbers the formula read
 
 
+@dataclass(frozen=True)
+class LoopReport:
+    """One circular loop calculated by iteration (the workbook enables it): its cells, the
+    sweeps made, the largest change in the last sweep, whether that met the workbook's delta,
+    and whether the values stored in the file were already converged (the first sweep from
+    them changed nothing by more than the delta)."""
+
+    cells: tuple[str, ...]
+    sweeps: int
+    last_change: float
+    delta: float
+    converged: bool
+    stored_converged: bool
+
+
 @dataclass
 class Evaluation:
     """Result of evaluating a workbook headlessly."""
@@ -46,6 +61,8 @@ class Evaluation:
     sets: dict[tuple[str, str], object] = field(default_factory=dict)
     engine_seconds: float = 0.0                 # importing the engine and formulas
     results: dict[tuple[str, str], CellResult] = field(default_factory=dict)
+    loops: list[LoopReport] = field(default_factory=list)   # iterated loops
+    input_missing: str | None = None            # a template's blank required inputs, in words
 
     def flat_values(self) -> dict[str, object]:
         return {label(sheet, ref): value for sheet, cells in self.values.items()

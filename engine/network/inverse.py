@@ -282,8 +282,15 @@ class _Search:
             return found[0]
 
         span = abs(high - low)
-        root = optimize.brentq(error, min(low, high), max(low, high),
-                               xtol=max(1e-12 * span, 1e-300), rtol=4 * np.finfo(float).eps, maxiter=100)
+        ends = sorted((low, high))
+        errors = [error(end) for end in ends]
+        if errors[0] * errors[1] > 0:
+            # Within the solver's own tolerance of the target the error's sign is noise (a target
+            # 6e-8 K from the no-heat temperature, found by the property sweep): the bracket's
+            # better end is the answer, which final() still has to confirm within ACCEPTANCE.
+            return float(ends[int(abs(errors[1]) < abs(errors[0]))])
+        root = optimize.brentq(error, *ends, xtol=max(1e-12 * span, 1e-300), rtol=4 * np.finfo(float).eps,
+                               maxiter=100)
         return float(root)
 
     def final(self, heat: float) -> NetworkResult:

@@ -202,13 +202,23 @@ def _number_format(doc, code):
     return key if key != -1 else formats.addNew(code, Locale())
 
 
-def type_workbook(desktop, cells, arrays, formats=None, save=None):
+def type_workbook(desktop, cells, arrays, formats=None, save=None, names=None, iterate=None):
+    """``names``: {name: "$Sheet1.$A$1"} workbook names; ``iterate``: [count, delta] switches
+    iterative calculation on (saved as calcPr iterate in .xlsx)."""
     doc = desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0, _props(Hidden=True))
     try:
+        if iterate:
+            doc.setPropertyValue("IsIterationEnabled", True)
+            doc.setPropertyValue("IterationCount", int(iterate[0]))
+            doc.setPropertyValue("IterationEpsilon", float(iterate[1]))
         sheets = doc.getSheets()
         for name in list(cells) + [n for n in arrays if n not in cells]:
             if not sheets.hasByName(name):
                 sheets.insertNewByName(name, sheets.getCount())
+        if names:
+            from com.sun.star.table import CellAddress
+            for name, content in names.items():
+                doc.NamedRanges.addNewByName(name, content, CellAddress(0, 0, 0), 0)
         for name, values in cells.items():
             sheet = sheets.getByName(name)
             for ref, value in values.items():
@@ -271,7 +281,8 @@ def main(request_path):
                 else:
                     results.append(type_workbook(session.desktop, job.get("type", {}),
                                                  job.get("arrays", {}), job.get("formats"),
-                                                 job.get("save")))
+                                                 job.get("save"), job.get("names"),
+                                                 job.get("iterate")))
             except Exception as error:  # reported per job; the session goes on
                 results.append({"failed": f"{type(error).__name__}: {error}"})
     finally:
