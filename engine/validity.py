@@ -257,9 +257,8 @@ class Range:
     inside, none outside, and linear in between over the transition band ``band`` (a factor on
     a log scale, degrees for tilts; default :data:`TRANSITION_BANDS`).  ``placement`` puts the
     band inside the range ("inside", the default: the correlation is never weighted outside
-    its published range), centred on the bound ("centred": the two bands of one piecewise
-    correlation, each extrapolated by half the band), or outside it ("outside": a range of a
-    single point, such as a horizontal-only correlation, extended by the band).
+    its published range) or centred on the bound ("centred": the two bands of one piecewise
+    correlation, each extrapolated by half the band).
     """
 
     quantity: str
@@ -309,15 +308,14 @@ class Range:
         """The band in words, for the auto rule text."""
         unit = f"a factor {format_value(self.transition)}" if self.log_scale else \
             f"{format_value(self.transition)} deg"
-        where = {"inside": "inside the bound", "centred": "centred on the bound",
-                 "outside": "outside the bound"}[self.placement]
+        where = {"inside": "inside the bound", "centred": "centred on the bound"}[self.placement]
         return f"{self.quantity} over {unit} {where}"
 
     def weight(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         """1 well inside the range, 0 outside, linear (in log for log quantities) across the band."""
         values = self.values(inputs)
         weight = None
-        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+        for bound, side, log_bound, scale, offset in self._ramps:
             if scale == 0.0:  # no band: a step at the bound
                 ramp = (side * (values - bound) >= 0).astype(float)
             else:
@@ -330,28 +328,6 @@ class Range:
             return np.ones(np.shape(values))
         return weight
 
-    def weight_of(self, value: float) -> float:
-        """:meth:`weight` of one plain number (the scalar path; the same arithmetic).
-
-        A value beyond a ramp's ends skips the arithmetic: the clip would give the same 0 or 1.
-        """
-        weight = 1.0
-        for bound, side, log_bound, scale, offset, full_from, none_from in self._ramps:
-            if side * (value - full_from) >= 0.0:
-                continue
-            if side * (value - none_from) <= 0.0:
-                return 0.0
-            if scale == 0.0:
-                ramp = 1.0 if side * (value - bound) >= 0 else 0.0
-            else:
-                along = value - bound if log_bound is None else \
-                    math.log(value if value > 1e-300 else 1e-300) - log_bound
-                ramp = min(max(side * along / scale + offset, 0.0), 1.0)
-            weight *= ramp
-            if weight == 0.0:
-                break
-        return weight
-
     def shortfall(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         """How far the values lie short of the range's full weight, in transition bands: 0 where
         :meth:`weight` is 1, 1 - weight across the band, and beyond where it reaches 0, 1 + the
@@ -362,7 +338,7 @@ class Range:
         values = self.values(inputs)
         shortfall: Any = 0.0
         positive = values > 0.0
-        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+        for bound, side, log_bound, scale, offset in self._ramps:
             # on a log scale a value <= 0 (Ra = 0, Ra cos(tilt) heated from above) lies infinitely
             # far below every bound: beyond any lower bound, deep inside any upper one
             along = values - bound if log_bound is None else \
@@ -379,7 +355,7 @@ class Range:
     def shortfall_of(self, value: float) -> float:
         """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic)."""
         shortfall = 0.0
-        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+        for bound, side, log_bound, scale, offset in self._ramps:
             along = value - bound if log_bound is None else \
                 (math.log(value) if value > 0.0 else -math.inf) - log_bound
             unit = _DEFAULT_UNIT[log_bound is not None]
@@ -396,21 +372,19 @@ class Range:
     @property
     def _ramps(self):
         """The bounds that have a transition, computed once: (bound, side, log of the bound or
-        None for a linear quantity, scale, offset, full_from, none_from).
+        None for a linear quantity, scale, offset).
 
         ``side`` is +1 for a lower bound, -1 for an upper one.  ``scale`` is the band's width on
         the quantity's scale (the log of the factor, or degrees), 0 for a step at the bound;
-        ``offset`` places the band (:data:`_OFFSET`).  ``full_from`` and ``none_from`` are where
-        the ramp reaches 1 and 0, each moved a hair outwards (1e-9 relative) so that a value
-        past them is surely clipped to that end.  A bound at the end of the input's domain, and
-        a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
+        ``offset`` places the band (:data:`_OFFSET`).  A bound at the end of the input's domain,
+        and a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
         """
         try:
             return self.__dict__["_ramp_constants"]
         except KeyError:
             pass
         domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
-        ramps: list[tuple[float, float, float | None, float, float, float, float]] = []
+        ramps: list[tuple[float, float, float | None, float, float]] = []
         width = self.transition
         offset = _OFFSET[self.placement]
         for bound, side in ((self.low, 1.0), (self.high, -1.0)):
@@ -419,22 +393,13 @@ class Range:
             if self.log_scale:
                 if side > 0 and bound <= 0.0:
                     continue
-                scale = math.log(width) if width > 1.0 else 0.0
-                full_from = bound * width ** (side * (1.0 - offset)) if scale else bound
-                none_from = bound * width ** (-side * offset) if scale else bound
-                hair = 1e-9 * bound
-                ramps.append((bound, side, math.log(bound), scale, offset,
-                              full_from + side * hair, none_from - side * hair))
+                ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0, offset))
             else:
-                scale = max(width, 0.0)
-                hair = 1e-9 * max(abs(bound), scale, 1.0)
-                ramps.append((bound, side, None, scale, offset,
-                              bound + side * (1.0 - offset) * scale + side * hair,
-                              bound - side * offset * scale - side * hair))
+                ramps.append((bound, side, None, max(width, 0.0), offset))
         self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
         return self.__dict__["_ramp_constants"]
 
 
-_OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}
+_OFFSET = {"inside": 0.0, "centred": 0.5}
 #: The default band on each scale, by "is it a log scale": 5 deg, or the log of a factor 4.
 _DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}

@@ -199,15 +199,13 @@ def _rule_ranges():
 
 
 @pytest.mark.parametrize("bound", _rule_ranges(), ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
-def test_shortfall_of_one_number_is_the_array_shortfall(bound):
-    """The scalar path reads Range.shortfall_of, the array path Range.shortfall: the same
-    arithmetic (math.log and numpy's vectorised log may differ in the last bits)."""
+def test_shortfall_is_what_the_weight_lacks_inside_the_band(bound):
+    """The rule's shortfall and the spread's weight read one band (the scalar shortfall against
+    the array's: tests/test_scalar_path.py)."""
     values = np.concatenate([np.geomspace(1e-8, 1e14, 300) if bound.log_scale else np.linspace(-10.0, 190.0, 300),
                              [bound.low, bound.high] if np.isfinite([bound.low, bound.high]).all() else [], [0.0]])
     plain = dataclasses.replace(bound, of=None)
     whole = plain.shortfall({bound.quantity.lower(): values})
-    one = np.array([plain.shortfall_of(float(v)) for v in values])
-    np.testing.assert_allclose(one, whole, rtol=1e-12, atol=1e-12)
     # 0 where the range's weight is 1, 1 - weight across the band, above 1 beyond it
     weight = plain.weight({bound.quantity.lower(): values})
     inside_band = (whole > 0.0) & (whole < 1.0)
