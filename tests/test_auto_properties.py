@@ -237,3 +237,24 @@ def test_the_weights_add_up_to_one_and_reach_only_valid_correlations_off_the_edg
         published = [bound for bound in CORRELATIONS[("cavity", method)].ranges(None) if bound.in_auto]
         inside = np.all([bound.inside(inputs) for bound in published], axis=0)
         assert not ((weight > 0.0) & ~inside & ~edge).any(), method
+
+
+def test_the_scalar_paths_early_stop_leaves_every_weight_as_the_arrays_give_it():
+    """The scalar path stops reading a step's ranges once it surely weighs nothing (and reads no
+    step past one that covers fully); on random cavities and on the property lattice (bounds,
+    bands and their corners) its weights are the array path's, which reads every range."""
+    from stillair.correlations.auto import _step_weights
+    geo = GEOMETRIES["cavity"]
+    rng = np.random.default_rng(23)
+    n = 4000
+    random = {"ra": 10 ** rng.uniform(-1, 11, n), "pr": 10 ** rng.uniform(-0.5, 1.5, n),
+              "aspect": 10 ** rng.uniform(-0.2, 2.3, n), "tilt": rng.uniform(0.0, 180.0, n)}
+    others, combos = _lines("cavity")
+    lattice = [dict(zip(others, combo), ra=ra) for combo in combos[::3] for ra in RA[::4]][::5]
+    arrays = {k: np.concatenate([random[k], [p[k] for p in lattice]]) for k in random}
+    whole = np.array([np.broadcast_to(w, arrays["ra"].shape) for w in _step_weights(geo, None, arrays, None)])
+    for index in range(arrays["ra"].size):
+        plain = {k: float(v[index]) for k, v in arrays.items()}
+        one = _step_weights(geo, None, {k: np.float64(v) for k, v in plain.items()}, plain)
+        np.testing.assert_allclose(one, whole[:, index], rtol=0, atol=1e-12, err_msg=str(plain))
+    print(f"{arrays['ra'].size} points compared")

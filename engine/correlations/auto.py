@@ -62,6 +62,10 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
             published = tuple(bound for bound in corr.ranges(case) if bound.in_auto)
             ranges = published if step.when is None else \
                 tuple(step.when) + tuple(bound for bound in published if bound not in step.when)
+            # ranges read straight from an input first: the scalar path stops reading a step once
+            # it surely weighs nothing (_shortfall's cut), so the computed quantities (the tilt
+            # coverage's critical tilt) are then often never computed
+            ranges = tuple(sorted(ranges, key=lambda bound: bound.of is not None))
             compiled.append((step.method,
                              tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
                              corr.forms[step.form] if step.form else corr.function))
@@ -70,11 +74,14 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
 
 
 def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None) -> Any:
+               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None,
+               cut: float = math.inf) -> Any:
     """A step's shortfall: the largest of its ranges' (:meth:`Range.shortfall`).  ``plain``
     (the scalar path) holds the inputs as floats, read by ``Range.shortfall_of``; without it
     the inputs are arrays.  ``read`` keeps each range's shortfall for the other steps that read
-    the same range (the cavity's vertical methods share their tilt ranges)."""
+    the same range (the cavity's vertical methods share their tilt ranges).  The scalar path
+    stops at the first range whose shortfall reaches ``cut`` (:func:`_weightless_from`): the
+    step weighs nothing whatever the rest, and that lower bound serves the rule as well."""
     largest: Any = 0.0
     read = {} if read is None else read
     for bound, key in ranges:
@@ -83,8 +90,21 @@ def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
             short = bound.shortfall(inputs) if plain is None else \
                 bound.shortfall_of(plain[key] if key else _first(bound.values(inputs)))
             read[id(bound)] = short
-        largest = np.maximum(largest, short) if plain is None else max(largest, short)
+        if plain is None:
+            largest = np.maximum(largest, short)
+        elif short > largest:
+            largest = short
+            if largest >= cut:
+                break
     return largest
+
+
+def _weightless_from(nearest: float) -> float:
+    """The shortfall from which a step weighs nothing while the least shortfall is ``nearest``
+    or less: nearest + the rule's width there (1 up to 1/1.1, then 1.1 nearest, then nearest +
+    NEAREST_MARGIN), which never falls as ``nearest`` falls, so a cut by the steps read so far
+    holds for the final least shortfall too."""
+    return nearest + max(1.0 - nearest, NEAREST_MARGIN * min(nearest, 1.0))
 
 
 def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
@@ -99,7 +119,8 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     nearest: Any = math.inf
     read: dict[int, Any] = {}
     for _, ranges, _ in steps:
-        short = _shortfall(ranges, inputs, plain, read)
+        short = _shortfall(ranges, inputs, plain, read, _weightless_from(nearest)) if scalar else \
+            _shortfall(ranges, inputs, plain, read)
         shortfalls.append(short if scalar else np.broadcast_to(short, size))
         nearest = smaller(nearest, short)
         # a step that covers fully takes all that is left: the later ones weigh nothing, and
