@@ -74,25 +74,35 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
 
 
 def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None,
-               cut: float = math.inf) -> Any:
+               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None) -> Any:
     """A step's shortfall: the largest of its ranges' (:meth:`Range.shortfall`).  ``plain``
-    (the scalar path) holds the inputs as floats, read by ``Range.shortfall_of``; without it
-    the inputs are arrays.  ``read`` keeps each range's shortfall for the other steps that read
-    the same range (the cavity's vertical methods share their tilt ranges).  The scalar path
-    stops at the first range whose shortfall reaches ``cut`` (:func:`_weightless_from`): the
-    step weighs nothing whatever the rest, and that lower bound serves the rule as well."""
+    (the scalar path) holds the inputs as floats (:func:`_shortfall_of`); without it the inputs
+    are arrays.  ``read`` keeps each range's shortfall for the other steps that read the same
+    range (the cavity's vertical methods share their tilt ranges)."""
+    if plain is not None:
+        return _shortfall_of(ranges, inputs, plain, {} if read is None else read)
     largest: Any = 0.0
     read = {} if read is None else read
+    for bound, _ in ranges:
+        short = read.get(id(bound))
+        if short is None:
+            short = read[id(bound)] = bound.shortfall(inputs)
+        largest = np.maximum(largest, short)
+    return largest
+
+
+def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+                  plain: Mapping[str, float], read: dict[int, float], cut: float = math.inf) -> float:
+    """:func:`_shortfall` on the scalar path (``Range.shortfall_of`` of each range's value as a
+    float), stopping at the first range whose shortfall reaches ``cut``
+    (:func:`_weightless_from`): the step weighs nothing whatever the rest, and that lower bound
+    serves the rule as well."""
+    largest = 0.0
     for bound, key in ranges:
         short = read.get(id(bound))
         if short is None:
-            short = bound.shortfall(inputs) if plain is None else \
-                bound.shortfall_of(plain[key] if key else _first(bound.values(inputs)))
-            read[id(bound)] = short
-        if plain is None:
-            largest = np.maximum(largest, short)
-        elif short > largest:
+            short = read[id(bound)] = bound.shortfall_of(plain[key] if key else float(bound.of(inputs)))
+        if short > largest:
             largest = short
             if largest >= cut:
                 break
@@ -118,15 +128,27 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     shortfalls: list[Any] = []
     nearest: Any = math.inf
     read: dict[int, Any] = {}
-    for _, ranges, _ in steps:
-        short = _shortfall(ranges, inputs, plain, read, _weightless_from(nearest)) if scalar else \
-            _shortfall(ranges, inputs, plain, read)
+    # the scalar path first reads the step that was nearest at the last call of this rule (a
+    # hint only: its shortfall bounds the least from above, so the steps before it in order
+    # are cut sooner; the weights are the same whichever step is read first)
+    hints = geo.__dict__.setdefault("_nearest_step", {})
+    hint = hints.get(case) if scalar else None
+    known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)  # type: ignore[arg-type]
+    for index, (_, ranges, _) in enumerate(steps):
+        if not scalar:
+            short = _shortfall(ranges, inputs, plain, read)
+        elif index == hint:
+            short = known
+        else:
+            short = _shortfall_of(ranges, inputs, plain, read, _weightless_from(min(nearest, known)))  # type: ignore[arg-type]
         shortfalls.append(short if scalar else np.broadcast_to(short, size))
         nearest = smaller(nearest, short)
         # a step that covers fully takes all that is left: the later ones weigh nothing, and
         # need not be read (d_min is 0 wherever this holds)
         if not (nearest > 0.0 if scalar else np.any(nearest > 0.0)):
             break
+    if scalar:
+        hints[case] = shortfalls.index(nearest)
     width = larger(1.0 - nearest, NEAREST_MARGIN * smaller(nearest, 1.0))
     left: Any = 1.0
     weights: list[Any] = []
