@@ -45,8 +45,9 @@ from .types import Geometry, NusseltResult, uniform
 #: hand-over between two ranges that only touch, and between two extrapolations.
 NEAREST_MARGIN = 0.1
 
-#: One compiled step: (method, ((range, input name or None where the range computes its
-#: quantity), ...), the function evaluated: the correlation or one published form of it).
+#: One compiled step: (method, ((range, the input it reads: its name, or the range's ``of``
+#: where it computes its quantity), ...), the function evaluated: the correlation or one
+#: published form of it).
 CompiledStep = tuple[str, tuple[tuple[Range, Any], ...], Callable[..., Any]]
 
 
@@ -67,7 +68,7 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
             # coverage's critical tilt) are then often never computed
             ranges = tuple(sorted(ranges, key=lambda bound: bound.of is not None))
             compiled.append((step.method,
-                             tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
+                             tuple((bound, bound.of or bound.quantity.lower()) for bound in ranges),
                              corr.forms[step.form] if step.form else corr.function))
         cache[case] = tuple(compiled)
     return cache[case]
@@ -101,7 +102,7 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     for bound, key in ranges:
         short = read.get(id(bound))
         if short is None:
-            short = read[id(bound)] = bound.shortfall_of(plain[key] if key else float(bound.of(inputs)))
+            short = read[id(bound)] = bound.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
         if short > largest:
             largest = short
             if largest >= cut:
