@@ -135,6 +135,8 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     hints = geo.__dict__.setdefault("_nearest_step", {})
     hint = hints.get(case) if scalar else None
     known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)  # type: ignore[arg-type]
+    if known == 0.0:
+        return _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
     for index, (_, ranges, _) in enumerate(steps):
         if not scalar:
             short = _shortfall(ranges, inputs, plain, read)
@@ -161,6 +163,26 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
         weights.append(left * share)
         left = left * (1.0 - share)
         if scalar and left == 0.0:   # the rest weigh nothing
+            break
+    return weights + [0.0] * (len(steps) - len(weights))
+
+
+def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hints: dict,
+                              case: str | None, inputs: Mapping[str, Any], plain: Mapping[str, float],
+                              read: dict[int, float]) -> list[Any]:
+    """:func:`_step_weights` on the scalar path where step ``covering`` covers fully (d = 0, the
+    usual case): the rule's arithmetic with d_min = 0 and a width of one band, written out (a
+    step before it takes 1 - d of what is left, the first that covers fully takes the rest, the
+    later ones nothing); a step is read only until its shortfall reaches 1."""
+    left = 1.0
+    weights: list[Any] = []
+    for index in range(covering + 1):
+        short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
+        share = min(max(1.0 - short / 1.0, 0.0), 1.0)
+        weights.append(left * share)
+        left = left * (1.0 - share)
+        if left == 0.0:
+            hints[case] = index
             break
     return weights + [0.0] * (len(steps) - len(weights))
 
