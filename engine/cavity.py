@@ -65,11 +65,10 @@ AUTO_RULE = (
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8 horizontal and Ra cos(tilt) <= 1e5 tilted, that bound "
     "reached over the first degree), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
     "vertical correlations with the shared tilt treatment (Catton's interpolation below the "
-    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): catton (its short-layer "
-    "form to H/L = 2, handed over to its tall-layer form from 2 to 2.24, the short form "
-    "extrapolated by at most a factor 1.12 there), macgregor-emery (its laminar and turbulent "
-    "boxes; Pr >= 1), elsherbiny (after the two that stay in range past its Ra 2e7, so fewer "
-    "hand-overs), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
+    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its "
+    "short-layer form to H/L = 2, handed over to its tall-layer form from 2 to 2.24, the short "
+    "form extrapolated by at most a factor 1.12 there), macgregor-emery (its laminar and "
+    "turbulent boxes; Pr >= 1), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
     "layer keeps Catton's short-layer form (H/L 1 is its bound, nothing else is published "
     "there), extrapolated below H/L 1 with the note.  A method named explicitly keeps its "
     "published form.  en673 is never chosen by auto (it is the glazing standard's own "
@@ -283,16 +282,11 @@ CAVITY_AUTO = (
     AutoStep("conduction"),
     AutoStep("hollands", when=(HOLLANDS_TILTED_RA,)),
     AutoStep("globe-dropkin"),
+    AutoStep("elsherbiny", when=VERTICAL_TILT_COVERAGE),
     AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
     AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
     AutoStep("macgregor-emery", when=MACGREGOR_LAMINAR_WHEN, form="laminar"),
     AutoStep("macgregor-emery", when=MACGREGOR_TURBULENT_WHEN, form="turbulent"),
-    # ElSherbiny's range ends at Ra 2e7, Catton's tall form and MacGregor-Emery's run on to 1e10
-    # and 1e9: preferring the neighbour that stays in range longest leaves fewer hand-overs, and
-    # fewer squeezed into the top of ElSherbiny's band where the taker lies in its own band (the
-    # property sweep's falls of Nu with Ra: 96 with ElSherbiny first, 48 with it here).  So an
-    # air layer of H/L 5-10 takes Catton's tall form (3-12 % below ElSherbiny's, both in range)
-    AutoStep("elsherbiny", when=VERTICAL_TILT_COVERAGE),
     AutoStep("wright", when=VERTICAL_TILT_COVERAGE),
 )
 

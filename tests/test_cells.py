@@ -431,13 +431,12 @@ def test_network_input_errors_name_the_cell_function():
 
 
 def test_nu_note_names_both_correlations_inside_an_auto_blend():
-    # Ra 1e5 at aspect 9 lies in the band where auto hands Catton's tall form over to ElSherbiny
-    # (the band inside Catton's H/L <= 10 bound, 8..10, both in range; issue 19's rule prefers
-    # Catton, which stays in range longer, so aspect 7 is no longer a blend); the note names
-    # both, as the engine's blend does.
-    blend = stillair.nusselt("cavity", "auto", ra=1e5, pr=0.71, aspect=9.0, tilt=90.0).scalar().blend
-    assert blend == "auto blend of catton and elsherbiny"
-    assert call("NU_NOTE", "cavity", 1e5, 0.71, None, 90.0, 9.0) == f"in range ({blend})"
+    # Ra 1e7 at aspect 9 lies in the band where auto hands ElSherbiny over to Catton (the
+    # geometry's stated transition band, 5e6..2e7 inside ElSherbiny's bound, both in range);
+    # the note names both, as the engine's blend does.
+    blend = stillair.nusselt("cavity", "auto", ra=1e7, pr=0.71, aspect=9.0, tilt=90.0).scalar().blend
+    assert blend == "auto blend of elsherbiny and catton"
+    assert call("NU_NOTE", "cavity", 1e7, 0.71, None, 90.0, 9.0) == f"in range ({blend})"
 
 
 # ---------------------------------------------------------------------------------------------
