@@ -31,9 +31,9 @@ Two models, chosen by the ``model`` argument of the functions of a humid mixture
   over -40..+80 °C, 5-100 % RH, 1-200 kPa (measured; tests/test_humid.py).
 
 The ideal model is the default because it is the engineering convention of the ASHRAE chapter,
-the results of the two models differ by far less than the uncertainty of any RH a designer
-knows (a 2 % RH sensor tolerance is about 0.3 K of dew point at 50 % RH), and the templates'
-dew points stay the same.
+the results of the two models differ by far less than the uncertainty of any RH a designer knows
+(a tolerance of 2 % RH is 0.6 K of dew point at 20 °C, 50 % RH), and the templates' dew points
+stay the same.
 
 Temperatures are in °C at the interface and kelvin inside.
 """

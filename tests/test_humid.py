@@ -295,3 +295,19 @@ def test_out_of_range_use_is_reported():
         warnings.simplefilter("error")
         stillair.dew_point(T_GRID, RH_GRID)      # inside every range: silent
         stillair.dew_point(T_GRID, RH_GRID, model="enhanced")
+
+
+# ---------------------------------------------------------------------------------------------
+# The cells: the model argument reaches the engine, blank is the ideal model
+
+
+def test_the_cells_take_the_model():
+    from stillair.addin.cells.callpath import call
+    assert call("DEW_POINT", 20.0, 0.5) == call("DEW_POINT", 20.0, 0.5, None, None) == stillair.dew_point(20.0, 0.5)
+    assert call("DEW_POINT", 20.0, 0.5, None, "enhanced") == stillair.dew_point(20.0, 0.5, model="enhanced")
+    assert call("SURFACE_RH", 20.0, 0.5, 12.0, 90000.0, "Enhanced") == stillair.surface_rh(
+        20.0, 0.5, 12.0, 90000.0, model="enhanced")
+    assert call("HUMIDITY_RATIO", [20.0, 30.0], 0.5, None, "enhanced") == [     # a row in, a row out
+        [stillair.humidity_ratio(20.0, 0.5, model="enhanced"), stillair.humidity_ratio(30.0, 0.5, model="enhanced")]]
+    assert call("VAPOUR_PRESSURE", 20.0, 0.5, None, "real") == (
+        'VAPOUR_PRESSURE: model must be one of "ideal", "enhanced", got \'real\'')
