@@ -614,8 +614,8 @@ _entries += [
                  CATEGORIES["humid"], unit="kg/kg"),
     CellFunction("DEW_POINT", "dew_point", (T_HUMID, RH, P, HUMID_MODEL),
                  "Dew point of humid air in °C; below 0.01 °C the frost point (saturation over ice). Ideal "
-                 "gases by default; the enhanced model is up to 0.05 K higher (within 0.006 K of real-gas "
-                 "formulations).",
+                 "gases by default; the enhanced model differs by at most 0.05 K (and is within 0.006 K of "
+                 "real-gas formulations).",
                  CATEGORIES["humid"], unit="°C"),
     CellFunction("SURFACE_RH", "surface_rh",
                  (Arg("t_air", "Air temperature in degrees Celsius.", "°C"), RH,
