@@ -1,8 +1,8 @@
 """Humid air: saturation vapour pressure over water and over ice, humidity ratio, dew and frost
 point, the relative humidity at a colder or warmer surface, and the surface temperature factor.
 
-Humid air is treated as a mixture of ideal gases, the relations of the ASHRAE Handbook --
-Fundamentals (2017), ch. 1 (perfect-gas relations for moist air):
+The relations are those of the ASHRAE Handbook -- Fundamentals (2017), ch. 1 (perfect-gas
+relations for moist air):
 
 * saturation pressure p_ws(T): the Hyland-Wexler (1983) formulas, over ice below the triple
   point of water and over liquid water above it (:data:`SATURATION_FORMULAS`);
@@ -27,13 +27,14 @@ Two models, chosen by the ``model`` argument of the functions of a humid mixture
   Greenspan's (1976) equation with Hardy's (1998) ITS-90 coefficients
   (:data:`ENHANCEMENT_FORMULAS`); RH is then the mole fraction of vapour over its saturation
   value, x_w / (f p_ws / p), as in real-gas formulations (CoolProp's HAPropsSI).  It raises W
-  by 0.4-0.6 % and moves the dew point at a given RH by at most 0.05 K from the ideal model
+  by 0.4-1.1 % and moves the dew point at a given RH by at most 0.05 K from the ideal model
   over -40..+80 °C, 5-100 % RH, 1-200 kPa (measured; tests/test_humid.py).
 
 The ideal model is the default because it is the engineering convention of the ASHRAE chapter,
 the results of the two models differ by far less than the uncertainty of any RH a designer knows
 (a tolerance of 2 % RH is 0.6 K of dew point at 20 °C, 50 % RH), and the templates' dew points
-stay the same.
+stay the same.  ISO 13788's calculations use a saturation-pressure formula without an
+enhancement factor too (from memory, not read).
 
 Temperatures are in °C at the interface and kelvin inside.
 """
@@ -57,7 +58,7 @@ __all__ = [
     "SATURATION_FORMULAS",
     "EnhancementFormula",
     "ENHANCEMENT_FORMULAS",
-    "MODELS",
+    "HUMID_MODELS",
     "TRIPLE_POINT_C",
     "MOLAR_MASS_RATIO",
     "saturation_pressure",
@@ -175,7 +176,7 @@ ENHANCEMENT_FORMULAS = {
 }
 
 #: The humid-air models: "ideal" (perfect-gas relations, no enhancement factor) and "enhanced".
-MODELS = ("ideal", "enhanced")
+HUMID_MODELS = ("ideal", "enhanced")
 
 
 # ---------------------------------------------------------------------------------------------
@@ -282,7 +283,7 @@ def _vapour(function: str, t, rh, pressure, model: str, t_name: str = "t"):
 
 
 def _model(function: str, model) -> str:
-    return require_choice(function, "model", model, MODELS)
+    return require_choice(function, "model", model, HUMID_MODELS)
 
 
 # ---------------------------------------------------------------------------------------------
