@@ -141,10 +141,13 @@ class EnhancementFormula:
 
     def log_factor(self, t_kelvin, saturation, pressure):
         """ln f at ``t_kelvin`` where the saturation pressure is ``saturation`` (Pa), at the
-        total pressure ``pressure`` (Pa)."""
+        total pressure ``pressure`` (Pa).  Where water boils (saturation >= pressure) no air can
+        be saturated and f is taken as 1, which the form itself gives at saturation = pressure
+        (past it the beta term would fall steeply below 1)."""
         alpha = polynomial.polyval(t_kelvin, self.alpha)
         beta = np.exp(polynomial.polyval(t_kelvin, self.log_beta))
-        return alpha * (1.0 - saturation / pressure) + beta * (pressure / saturation - 1.0)
+        log_f = alpha * (1.0 - saturation / pressure) + beta * (pressure / saturation - 1.0)
+        return np.where(saturation < pressure, log_f, 0.0)
 
     @property
     def equation(self) -> str:
@@ -250,7 +253,7 @@ def _enhancement(function: str, t: np.ndarray, saturated: np.ndarray, p, argumen
     below_boiling = np.broadcast_to(saturated < p, np.shape(log_f))
     notes = [f"at {argument} = {format_value(np.broadcast_to(t, log_f.shape)[~below_boiling].flat[0])} °C "
              f"water boils at the pressure {format_value(np.broadcast_to(p, log_f.shape)[~below_boiling].flat[0])} "
-             f"Pa: the enhancement factor does not hold there"] if not np.all(below_boiling) else []
+             f"Pa: the enhancement factor is taken as 1 there"] if not np.all(below_boiling) else []
     warn_out_of_range(function, below_boiling, notes)
     return np.exp(log_f)
 

@@ -121,6 +121,8 @@ def test_enhancement_factor_laws():
         f_1, f_2 = (np.exp(formula.log_factor(t_kelvin, saturated, p))[below] for p in (101325.0, 202650.0))
         assert np.all(f_1 > 1.0) and np.all(f_2 > f_1)
         assert np.all(f_1 < 1.01)
+        # where water boils no air is saturated: f = 1, continuous with the form's 1 at p = p_ws
+        assert np.all(formula.log_factor(t_kelvin, saturated, 0.5 * saturated) == 0.0)
     # the factor at 20 °C and atmospheric pressure: 1.0040 (CoolProp's 1.0041, note in the test
     # above; Hardy's coefficients as transcribed)
     water = ENHANCEMENT_FORMULAS["water"]
@@ -290,7 +292,7 @@ def test_out_of_range_use_is_reported():
         "surface_rh: outside validity range: t_surface = 120 °C is outside the enhancement factor (Greenspan, "
         "Hardy) over water (0 to 100 °C)",
         "surface_rh: outside validity range: at t_surface = 120 °C water boils at the pressure 101325 Pa: the "
-        "enhancement factor does not hold there"]
+        "enhancement factor is taken as 1 there"]
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         stillair.dew_point(T_GRID, RH_GRID)      # inside every range: silent
