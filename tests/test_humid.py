@@ -19,7 +19,7 @@ import warnings
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 import stillair
@@ -90,6 +90,15 @@ def test_the_two_models_differ_by_the_enhancement_factor_only(pressure):
     # and the enhanced model is the closer to the real-gas formulation wherever the gap shows
     shows = np.abs(ideal - theirs) > 0.01
     assert np.all(np.abs(enhanced - theirs)[shows] < np.abs(ideal - theirs)[shows])
+
+
+@settings(max_examples=150, deadline=None)
+@given(t=st.floats(-40.0, 80.0), rh=st.floats(0.05, 1.0), pressure=st.floats(1000.0, 200000.0))
+def test_enhanced_dew_point_against_coolprop_between_the_grid_points(t, rh, pressure):
+    assume(stillair.saturation_pressure(t) < 0.95 * pressure)    # else water boils: no saturated air
+    enhanced = stillair.dew_point(t, rh, pressure, model="enhanced")
+    assert enhanced == pytest.approx(_coolprop_dew(t, rh, pressure), abs=0.02)
+    assert enhanced == pytest.approx(stillair.dew_point(t, rh, pressure), abs=0.05)
 
 
 def test_ideal_dew_point_against_coolprop_humid_air():
