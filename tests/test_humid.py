@@ -5,8 +5,9 @@ References:
   relations, as ours): saturation pressure, humidity ratio and dew point to round-off.
 * CoolProp's humid-air functions (HAPropsSI: the real-gas formulation of Herrmann et al. 2009,
   with the enhancement factor) for the dew point of the enhanced model: 0.02 K over -40..+80 °C,
-  5-100 % RH, 1-200 kPa (measured worst 0.0055 K); the ideal model is up to 0.05 K from it
-  (measured 0.029 K at 101325 Pa, 0.043 K at 30 kPa), the enhancement factor it leaves out.
+  5-100 % RH, 1-200 kPa (measured worst 0.0055 K); the ideal model is up to 0.07 K from it
+  (measured 0.029 K at 101325 Pa, 0.068 K near boiling at low pressure), the enhancement
+  factor it leaves out.
 * CoolProp's IAPWS-95 water saturation pressure (PropsSI, Q=0), 0.01-99 °C.
 * Published tables: the vapour pressure over ice of the GE Panametrics PM880 hygrometer manual,
   Table A-1 (mmHg, 4/9/98), and the water table of the "Vapour pressure of water" article
@@ -84,9 +85,9 @@ def test_the_two_models_differ_by_the_enhancement_factor_only(pressure):
     ideal = stillair.dew_point(t, rh, pressure)
     enhanced = stillair.dew_point(t, rh, pressure, model="enhanced")
     theirs = np.vectorize(_coolprop_dew)(t, rh, pressure)
-    # the documented gap: at most 0.05 K between the models (measured 0.047 K, 200 kPa, 80 °C;
-    # 0.033 K at 101325 Pa)
-    assert np.max(np.abs(enhanced - ideal)) <= 0.05
+    # the documented gap: at most 0.07 K between the models (on this grid 0.047 K, 200 kPa,
+    # 80 °C; 0.033 K at 101325 Pa; the sweep below finds 0.066 K near boiling)
+    assert np.max(np.abs(enhanced - ideal)) <= (0.035 if pressure == 101325.0 else 0.07)
     # and the enhanced model is the closer to the real-gas formulation wherever the gap shows
     shows = np.abs(ideal - theirs) > 0.01
     assert np.all(np.abs(enhanced - theirs)[shows] < np.abs(ideal - theirs)[shows])
@@ -95,10 +96,11 @@ def test_the_two_models_differ_by_the_enhancement_factor_only(pressure):
 @settings(max_examples=150, deadline=None)
 @given(t=st.floats(-40.0, 80.0), rh=st.floats(0.05, 1.0), pressure=st.floats(1000.0, 200000.0))
 def test_enhanced_dew_point_against_coolprop_between_the_grid_points(t, rh, pressure):
-    assume(stillair.saturation_pressure(t) < 0.95 * pressure)    # else water boils: no saturated air
+    # near boiling CoolProp refuses a vapour mole fraction above 0.94
+    assume(stillair.saturation_pressure(t) < 0.9 * pressure)
     enhanced = stillair.dew_point(t, rh, pressure, model="enhanced")
     assert enhanced == pytest.approx(_coolprop_dew(t, rh, pressure), abs=0.02)
-    assert enhanced == pytest.approx(stillair.dew_point(t, rh, pressure), abs=0.05)
+    assert enhanced == pytest.approx(stillair.dew_point(t, rh, pressure), abs=0.07)
 
 
 def test_ideal_dew_point_against_coolprop_humid_air():

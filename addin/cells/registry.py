@@ -595,7 +595,7 @@ RH = Arg("rh", "Relative humidity as a fraction from 0 to 1 (50 % is 0.5); over 
 T_HUMID = Arg("t", "Air temperature in degrees Celsius.", "°C")
 HUMID_MODEL = Arg("model", '"ideal" or blank: perfect-gas relations (ASHRAE Fundamentals ch. 1); "enhanced": with '
                   "the enhancement factor of Greenspan and Hardy, as real-gas formulations (dew points differ by "
-                  "at most 0.05 K).", kind="text", default="ideal")
+                  "at most 0.07 K).", kind="text", default="ideal")
 
 
 _entries += [
@@ -614,7 +614,7 @@ _entries += [
                  CATEGORIES["humid"], unit="kg/kg"),
     CellFunction("DEW_POINT", "dew_point", (T_HUMID, RH, P, HUMID_MODEL),
                  "Dew point of humid air in °C; below 0.01 °C the frost point (saturation over ice). Ideal "
-                 "gases by default; the enhanced model differs by at most 0.05 K (and is within 0.006 K of "
+                 "gases by default; the enhanced model differs by at most 0.07 K (and is within 0.006 K of "
                  "real-gas formulations).",
                  CATEGORIES["humid"], unit="°C"),
     CellFunction("SURFACE_RH", "surface_rh",
