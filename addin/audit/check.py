@@ -32,7 +32,8 @@ Tolerance: a numeric difference counts only when ``|a-b| > rtol*max(|a|,|b|)`` a
 ``|a-b| > atol + 1e-12*S``, S being the largest magnitude among the numbers the formula reads and
 the two results: round-off around zero (a balance residual of -5.7e-14 against 1e-15) is ok.
 
-Findings are listed worst first in that order.  The audited file is only ever read, through the
+Counts are cells (ok, and per kind the cells whose worst finding is of that kind); a range note
+shown by many cells is one finding naming them.  Findings are listed worst first in that order.  The audited file is only ever read, through the
 checks of :mod:`stillair.addin.workbook.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
 file cannot be read (one line on stderr).
 """

@@ -147,7 +147,7 @@ def write_report(result: AuditResult, requested: str) -> str:
         rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
                 ("engine version", result.engine_version), ("template", result.template or ""),
                 ("summary", summary_line(result))]
-        rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]
+        rows += [(f"{kind} (cells)", result.counts()[kind]) for kind in ("ok",) + KINDS]
         for row, (key, value) in enumerate(rows):
             about.write_string(row, 0, key, styles["bold"])
             if isinstance(value, int):
