@@ -278,8 +278,9 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
             return EXIT_PROBLEM
         print("In LibreOffice Calc the functions are listed under the Add-In category of the "
               "Function Wizard; Excel workbooks (.xlsx) that call them are rebound when opened.", file=out)
-        warning = launcher.shell_report(libreoffice_python(program_dir), program_dir,
-                                        dict(os.environ), shutil.which)
+        python = libreoffice_python(program_dir)   # found: check_import ran it
+        warning = python and launcher.shell_report(python, program_dir, dict(os.environ),
+                                                   shutil.which)
         if warning:
             print(warning, file=out)
         return 0
