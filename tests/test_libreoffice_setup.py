@@ -61,10 +61,11 @@ def test_libreoffice_starts_without_the_virtual_environment(tmp_path):
     venv = tmp_path / "venv"
     (venv / "bin").mkdir(parents=True)
     (venv / "pyvenv.cfg").write_text("home = /somewhere\n")
+    tools = tmp_path / "tools"      # a folder without a python3: nothing is put before it
     env = setup.libreoffice_environment({
-        "PATH": f"{venv / 'bin'}:/usr/local/bin:/usr/bin", "VIRTUAL_ENV": str(venv),
+        "PATH": f"{venv / 'bin'}:{tools}", "VIRTUAL_ENV": str(venv),
         "PYTHONPATH": "/x", "PYTHONHOME": "/y", "HOME": "/home/someone"})
-    assert env["PATH"] == "/usr/local/bin:/usr/bin"
+    assert env["PATH"] == str(tools)
     assert not {"VIRTUAL_ENV", "PYTHONPATH", "PYTHONHOME"} & set(env)
     assert env["HOME"] == "/home/someone"
 
@@ -147,3 +148,23 @@ def test_a_shell_not_covered_by_a_launcher_gets_a_warning_naming_its_python3(tmp
     launcher.write_launchers(venv, SYSTEM_PYTHON, PROGRAM_DIR)
     assert launcher.shell_report(SYSTEM_PYTHON, PROGRAM_DIR, shell, lambda name: str(venv / "bin" / name)) is None
     assert launcher.shell_report(SYSTEM_PYTHON, PROGRAM_DIR, {"PATH": "/usr/bin:/bin"}, lambda name: None) is None
+
+
+@needs_system_uno
+def test_our_own_libreoffice_runs_put_its_python_first_past_any_other_python(tmp_path):
+    """Not only a venv: any other python3 first on PATH (pyenv's, conda's) takes LibreOffice's
+    Python's place.  The environment every LibreOffice program of ours starts with puts
+    LibreOffice's Python's folder first then, and the probe shows uno importable again."""
+    # another installation's python3, not recognised as a venv by its folder (CPython reads a
+    # pyvenv.cfg beside the program too), whose prefix is not LibreOffice's
+    other = tmp_path / "other" / "bin"
+    other.mkdir(parents=True)
+    (other / "python3").symlink_to(SYSTEM_PYTHON)
+    (other / "pyvenv.cfg").write_text("home = /usr/bin\ninclude-system-site-packages = false\n")
+    shell = {"PATH": f"{other}:/usr/bin:/bin", "HOME": "/home/someone"}
+    assert not launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, shell).ok
+    env = setup.libreoffice_environment(shell)
+    assert env["PATH"] == f"{SYSTEM_PYTHON.parent}:{other}:/usr/bin:/bin"
+    assert launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, env).ok
+    # LibreOffice's Python already first: PATH is left as it is
+    assert setup.libreoffice_environment({"PATH": "/usr/bin:/bin"})["PATH"] == "/usr/bin:/bin"

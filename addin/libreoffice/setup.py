@@ -20,6 +20,7 @@
 
 from __future__ import annotations
 
+import functools
 import os
 import shutil
 import subprocess
@@ -52,8 +53,9 @@ def libreoffice_environment(environ=None) -> dict:
     """The environment to start LibreOffice's programs with: without this virtual environment.
 
     LibreOffice's embedded Python takes the first python3 on PATH for itself (see launcher.py):
-    a virtual environment's would hide python3-uno from it.  PYTHONHOME and PYTHONPATH would
-    mislead it too; the extension sets up its own paths."""
+    a virtual environment's would hide python3-uno from it, so its folders go, and when another
+    python3 still comes first, LibreOffice's Python's folder goes first.  PYTHONHOME and
+    PYTHONPATH would mislead it too; the extension sets up its own paths."""
     env = dict(os.environ if environ is None else environ)
     venvs = {os.path.abspath(sys.prefix)} if sys.prefix != sys.base_prefix else set()
     if env.get("VIRTUAL_ENV"):
@@ -68,7 +70,26 @@ def libreoffice_environment(environ=None) -> dict:
 
     env["PATH"] = os.pathsep.join(d for d in env.get("PATH", "").split(os.pathsep)
                                   if d and not inside_venv(d))
+    # Another Python first on PATH (pyenv's, conda's) would mislead it the same way.  Folders
+    # are compared, not programs: a venv's python3 is a link to the very same program.
+    python = _distribution_python()
+    first = shutil.which("python3", path=env["PATH"])
+    if python is not None and first is not None and \
+            os.path.realpath(os.path.dirname(first)) != os.path.realpath(python.parent):
+        env["PATH"] = os.pathsep.join([str(python.parent), env["PATH"]])
     return env
+
+
+@functools.lru_cache(maxsize=1)
+def _distribution_python() -> Path | None:
+    """LibreOffice's Python when LibreOffice runs one from outside its own folder (a Linux
+    distribution's python3-uno), which is when the first python3 on PATH matters."""
+    try:
+        program_dir = find_program_dir()
+    except ToolMissing:
+        return None
+    python = libreoffice_python(program_dir)
+    return python if python is not None and python.parent != program_dir else None
 
 
 def libreoffice_python(program_dir: Path) -> Path | None:
@@ -210,12 +231,21 @@ def verify(program_dir: Path, options: list[str], profile: str | None, out,
     return False
 
 
+def _launchers_needed(program_dir: Path) -> Path | None:
+    """LibreOffice's Python, when the set-up runs from a virtual environment and LibreOffice
+    runs a Python from outside its own folder (then the launchers are written)."""
+    python = libreoffice_python(program_dir)
+    if sys.prefix == sys.base_prefix or python is None or python.parent == program_dir:
+        return None
+    return python
+
+
 def write_launchers(program_dir: Path, out) -> Path | None:
     """Run from a virtual environment, with LibreOffice on a Python outside its own folder (a
     distribution's): write the launchers into the environment's bin (launcher.py says why) and
     return the soffice one; None when not needed or not written."""
-    python = libreoffice_python(program_dir)
-    if sys.prefix == sys.base_prefix or python is None or python.parent == program_dir:
+    python = _launchers_needed(program_dir)
+    if python is None:
         return None
     written, refused = launcher.write_launchers(sys.prefix, python, program_dir)
     if written:
@@ -260,6 +290,9 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
         if dry_run:
             print(f"would {verb} {IDENTIFIER} as a {where}", file=out)
             print(f"    {unopkg} add --force {' '.join(options)} stillair.oxt", file=out)
+            if _launchers_needed(program_dir):
+                print(f"would write {', '.join(launcher.LAUNCHERS)} into {Path(sys.prefix) / 'bin'} "
+                      f"(a file of the same name that is not stillair's is kept)", file=out)
             return 0
         with tempfile.TemporaryDirectory(prefix="stillair-lo-") as directory:
             path = Path(directory) / "stillair.oxt"
