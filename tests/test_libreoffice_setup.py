@@ -168,3 +168,24 @@ def test_our_own_libreoffice_runs_put_its_python_first_past_any_other_python(tmp
     assert launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, env).ok
     # LibreOffice's Python already first: PATH is left as it is
     assert setup.libreoffice_environment({"PATH": "/usr/bin:/bin"})["PATH"] == "/usr/bin:/bin"
+
+
+@needs_system_uno
+def test_the_setup_run_from_a_venv_writes_the_launchers_and_says_so(tmp_path, monkeypatch):
+    import io
+    import sys
+
+    venv = fake_venv(tmp_path / "venv")
+    (venv / "bin" / "localc").write_text("mine\n")
+    monkeypatch.setattr(sys, "prefix", str(venv))
+    out = io.StringIO()
+    assert setup.write_launchers(PROGRAM_DIR, out) == venv / "bin" / "soffice"
+    lines = out.getvalue().splitlines()
+    assert lines[0].startswith(f"Wrote soffice, libreoffice into {venv / 'bin'}: with this "
+                               f"environment active they start LibreOffice with its own Python "
+                               f"({SYSTEM_PYTHON}) first on PATH")
+    assert lines[1] == f"Not written: {venv / 'bin' / 'localc'} exists and is not stillair's (never overwritten)."
+    assert (venv / "bin" / "localc").read_text() == "mine\n"
+    # not from a virtual environment: nothing is written
+    monkeypatch.setattr(sys, "prefix", sys.base_prefix)
+    assert setup.write_launchers(PROGRAM_DIR, io.StringIO()) is None
