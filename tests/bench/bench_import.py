@@ -8,6 +8,11 @@ Each case is a fresh Python process, timed from outside (wall clock, best and me
 * ``import stillair`` alone, and ``import stillair; stillair.air_conductivity(20.0)``;
 * ``stillair calc`` on the 300-formula bench workbook of bench_calc.py.
 
+Byte code is cached as an installed package has it (pip compiles a wheel's modules): the
+processes run without PYTHONDONTWRITEBYTECODE, and one untimed run of each case writes the
+.pyc files first.  Compiling the engine's ~50 modules from source would otherwise add about
+0.15 s to every start and measure the machine's environment rather than the package.
+
 Each is run twice: as shipped (the gas tables from engine/data/gas_tables.npz, CoolProp never
 imported), and "as before" -- CoolProp imported at start-up and every gas tabulated from it
 (STILLAIR_GAS_TABLES=off), which is what the engine did before the tables were shipped.
@@ -33,8 +38,10 @@ PRELOAD_COOLPROP = "import CoolProp; "  # the old engine imported it with itself
 
 
 def wall(code: str, environment: dict, repeat: int) -> list[float]:
-    env = {key: value for key, value in os.environ.items() if key != "STILLAIR_GAS_TABLES"}
+    env = {key: value for key, value in os.environ.items()
+           if key not in ("STILLAIR_GAS_TABLES", "PYTHONDONTWRITEBYTECODE")}
     env.update(environment)
+    subprocess.run([sys.executable, "-c", code], env=env, check=True, stdout=subprocess.DEVNULL)  # .pyc
     times = []
     for _ in range(repeat):
         started = time.perf_counter()
@@ -72,6 +79,11 @@ def main() -> int:
         print(f"import numpy {numpy_import:.3f} s, import stillair {engine_import:.3f} s "
               f"(interpreter start-up {bare:.3f} s taken off): ratio {engine_import / numpy_import:.2f} "
               f"(target <= 2)")
+        # The first property call reads the shipped table and its stored spline (numpy only).
+        first_call = min(wall("import stillair; stillair.air_conductivity(20.0)", SHIPPED, args.repeat)) \
+            - bare - engine_import
+        print(f"first property call (air_conductivity, table read from the file): {first_call:.3f} s, "
+              f"{first_call / numpy_import:.2f}x import numpy")
         for label, code in cases:
             print(label)
             report("shipped tables (CoolProp not imported)", wall(code, SHIPPED, args.repeat))
