@@ -216,7 +216,7 @@ def warn_out_of_range(function_name: str, in_range, notes) -> None:
     """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
     outside its correlation's range; it points at the line that called the caller.  While a
     caller collects the notes (:func:`collect_range_notes`) the text goes to its list instead."""
-    if not np.all(in_range):
+    if not (bool(in_range) if getattr(in_range, "ndim", None) == 0 else np.all(in_range)):  # np.all: 2 us on one
         message = f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes))
         sink = _NOTE_SINK.get()
         if sink is not None:
@@ -270,9 +270,10 @@ class Range:
     placement: str = "inside"
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
-        if self.of is not None:
-            return np.asarray(self.of(inputs), dtype=float)
-        return np.asarray(inputs[self.quantity.lower()], dtype=float)
+        value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
+        if type(value) is np.float64:   # the scalar path: a numpy scalar already (no 0-d array)
+            return value  # type: ignore[return-value]  # reads as an array of no dimensions
+        return np.asarray(value, dtype=float)
 
     def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         values = self.values(inputs)
