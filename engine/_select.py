@@ -25,8 +25,8 @@ def where(condition, if_true, if_false):
 
 
 def any_true(condition) -> bool:
-    """``np.any(condition)``, cheap for a single boolean."""
-    if type(condition) in _SINGLE_BOOLEANS:
+    """``np.any(condition)``, cheap for a single boolean (a numpy or Python one, or a 0-d array)."""
+    if type(condition) in _SINGLE_BOOLEANS or type(condition) is np.ndarray and condition.ndim == 0:
         return bool(condition)
     return bool(np.any(condition))
 

@@ -93,6 +93,7 @@ def test_where_on_a_numpy_boolean_makes_no_array():
 @pytest.mark.parametrize("condition, expected", [
     (np.bool_(True), True), (np.bool_(False), False), (True, True), (False, False),
     (np.array([False, False]), False), (np.array([False, True]), True), (np.array([], dtype=bool), False),
+    (np.array(True), True), (np.array(False), False),
 ])
 def test_any_true_is_numpy_any(condition, expected):
     assert any_true(condition) is expected
