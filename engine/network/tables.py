@@ -72,24 +72,43 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
             raise NetworkError(FUNCTION, f"{singular} row {number_}", row,
                                f"a row of up to {width} values ({' | '.join(columns)})")
         row = list(row)
-        if all(blank(v) for v in row):
-            continue
-        extra = [v for v in row[width:] if not blank(v)]
-        if extra:
+        if len(row) > width and any(not blank(v) for v in row[width:]):
             raise NetworkError(FUNCTION, f"{singular} row {number_}", Shown(f"{len(row)} columns"),
                                f"at most {width} columns ({' | '.join(columns)})")
         row = (row + [None] * width)[:width]
-        for column, value in zip(columns, row):
-            text = error_text(value)
-            if text is not None:
-                raise NetworkError(FUNCTION, f"{singular} row {number_}, column {column}", Shown(text),
-                                   f"{_WHAT.get(column, 'a value')}, not a spreadsheet error value "
-                                   "(correct the cell the error comes from)")
+        if not _plain_cells(row):   # the usual row (numbers, names): one test, no call per cell
+            if all(blank(v) for v in row):
+                continue
+            for column, value in zip(columns, row):
+                text = error_text(value)
+                if text is not None:
+                    raise NetworkError(FUNCTION, f"{singular} row {number_}, column {column}", Shown(text),
+                                       f"{_WHAT.get(column, 'a value')}, not a spreadsheet error value "
+                                       "(correct the cell the error comes from)")
         if not result and _is_header(row, columns):
             continue
         result.append((number_, row))
     return result
 
+
+def _plain_cells(row) -> bool:
+    """Every cell a number, None or text that cannot be a spreadsheet error value (nor starts
+    like one), and at least one not blank: a row :func:`_rows` need not look at cell by cell."""
+    filled = False
+    for value in row:
+        kind = type(value)
+        if kind is float or kind is int:
+            filled = True
+        elif kind is str:
+            if value[:1] in _ERROR_STARTS or value.lstrip()[:1] in _ERROR_STARTS:
+                return False
+            filled = filled or not value.isspace() and value != ""
+        elif value is not None:
+            return False
+    return filled
+
+
+_ERROR_STARTS = ("#", "E", "e")   # how error values start (reading.error_text)
 
 _WHAT = {"name": "a branch name", "from": "a node name", "to": "a node name", "node": "a node name"}
 
@@ -100,9 +119,53 @@ def _is_header(row, columns) -> bool:
 
 
 def parse_branches(table) -> tuple[Branch, ...]:
+    rows = _rows(table, "branches", BRANCH_COLUMNS)
+    return _branches_by_column(rows) or _branches_by_row(rows)
+
+
+def _branches_by_column(rows) -> tuple[Branch, ...] | None:
+    """The branch rows read column by column: names and kinds as lists, each kind's parameter
+    columns at once (:meth:`BranchKind.read_columns`).  None as soon as any cell is not plainly
+    good -- a number typed as a name, a blank, a duplicate, a value out of range -- and then
+    :func:`_branches_by_row` reads the table and words the first problem, so a message never
+    depends on which reader found it."""
+    if not rows:
+        return None
+    names, sources, targets, kinds, *parameters, methods = zip(*[row for _, row in rows])
+    if not set(map(type, names + sources + targets + kinds)) == {str}:
+        return None
+    names, sources, targets = ([v.strip() for v in column] for column in (names, sources, targets))
+    if (not all(names) or not all(sources) or not all(targets) or len(set(names)) < len(names)
+            or any(a == b for a, b in zip(sources, targets))):
+        return None
+    members: dict[str, list[int]] = {}
+    for position, kind_cell in enumerate(kinds):
+        members.setdefault(kind_cell.strip().lower(), []).append(position)
+    if not all(kind_name in BRANCH_KINDS for kind_name in members):
+        return None
+    params: list = [None] * len(rows)
+    method_names: list = [None] * len(rows)
+    for kind_name, positions in members.items():
+        kind = BRANCH_KINDS[kind_name]
+        read = kind.read_columns([[column[i] for i in positions] for column in parameters])
+        if read is None:
+            return None
+        blank_method = kind.read_method(None, "", ())    # a blank method cell reads the same in every row
+        try:
+            for position, values in zip(positions, read):
+                params[position] = values
+                cell = methods[position]
+                method_names[position] = blank_method if cell is None else kind.read_method(cell, "", values)
+        except NetworkError:
+            return None
+    return tuple(Branch(row_number, names[i], sources[i], targets[i], kinds[i].strip().lower(), params[i],
+                        method_names[i]) for i, (row_number, _) in enumerate(rows))
+
+
+def _branches_by_row(rows) -> tuple[Branch, ...]:
     branches: list[Branch] = []
     seen: dict[str, int] = {}
-    for row_number, row in _rows(table, "branches", BRANCH_COLUMNS):
+    for row_number, row in rows:
         where = f"branch row {row_number}"
         branch_name = name(row[0], where, "name")
         where = f"branch row {row_number} ({branch_name})"
