@@ -13,6 +13,7 @@ connected group of nodes needs a fixed temperature.
 from __future__ import annotations
 
 import difflib
+import re
 from dataclasses import dataclass
 
 import numpy as np
@@ -20,7 +21,7 @@ import numpy as np
 from ..validity import ABSOLUTE_ZERO_C
 from .errors import FUNCTION, NetworkError, Shown
 from .kinds import BRANCH_KINDS
-from .reading import blank, error_text, name, number
+from .reading import _ERROR_TEXT, blank, error_text, name, number
 
 __all__ = ["BRANCH_COLUMNS", "BOUNDARY_COLUMNS", "Branch", "Boundary", "parse_branches",
            "parse_boundaries", "Topology", "check_topology"]
@@ -63,6 +64,9 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
         rows = list(table)
     except TypeError:
         raise NetworkError(FUNCTION, table_name, table, "a table of rows (a list of lists)") from None
+    plain = _plain_table(rows, columns)
+    if plain is not None:
+        return plain
     singular = {"branches": "branch", "boundaries": "boundary", "capacities": "capacity"}.get(table_name, table_name)
     result: list = []
     for number_, row in enumerate(rows, start=1):
@@ -76,39 +80,51 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
             raise NetworkError(FUNCTION, f"{singular} row {number_}", Shown(f"{len(row)} columns"),
                                f"at most {width} columns ({' | '.join(columns)})")
         row = (row + [None] * width)[:width]
-        if not _plain_cells(row):   # the usual row (numbers, names): one test, no call per cell
-            if all(blank(v) for v in row):
-                continue
-            for column, value in zip(columns, row):
-                text = error_text(value)
-                if text is not None:
-                    raise NetworkError(FUNCTION, f"{singular} row {number_}, column {column}", Shown(text),
-                                       f"{_WHAT.get(column, 'a value')}, not a spreadsheet error value "
-                                       "(correct the cell the error comes from)")
+        if all(blank(v) for v in row):
+            continue
+        for column, value in zip(columns, row):
+            text = error_text(value)
+            if text is not None:
+                raise NetworkError(FUNCTION, f"{singular} row {number_}, column {column}", Shown(text),
+                                   f"{_WHAT.get(column, 'a value')}, not a spreadsheet error value "
+                                   "(correct the cell the error comes from)")
         if not result and _is_header(row, columns):
             continue
         result.append((number_, row))
     return result
 
 
-def _plain_cells(row) -> bool:
-    """Every cell a number, None or text that cannot be a spreadsheet error value (nor starts
-    like one), and at least one not blank: a row :func:`_rows` need not look at cell by cell."""
-    filled = False
-    for value in row:
-        kind = type(value)
-        if kind is float or kind is int:
-            filled = True
-        elif kind is str:
-            if value[:1] in _ERROR_STARTS or value.lstrip()[:1] in _ERROR_STARTS:
-                return False
-            filled = filled or not value.isspace() and value != ""
-        elif value is not None:
-            return False
-    return filled
+def _plain_table(rows, columns) -> list | None:
+    """:func:`_rows`'s answer for a table that needs no look at any one cell: rows of numbers,
+    None and text no spreadsheet error value is (one regular-expression search over all the
+    text), no filled cell past the last column, every row's first cell filled.  None for any
+    other table, which the loop of :func:`_rows` then reads row by row, wording the first problem."""
+    width = len(columns)
+    padded = []
+    for row in rows:
+        if type(row) is not list and type(row) is not tuple:
+            return None
+        size = len(row)
+        if size > width and list(row[width:]).count(None) < size - width:
+            return None
+        row = list(row[:width]) + [None] * (width - size) if size != width else list(row)
+        first = row[0]
+        if not (type(first) is str and not first.isspace() and first or type(first) in (float, int)):
+            return None
+        padded.append(row)
+    cells = [value for row in padded for value in row]
+    if not set(map(type, cells)) <= _PLAIN_CELL_TYPES:
+        return None
+    if _ERROR_LINE.search("\n".join([value for value in cells if type(value) is str])):
+        return None
+    numbered = list(enumerate(padded, start=1))
+    return numbered[1:] if numbered and _is_header(numbered[0][1], columns) else numbered
 
 
-_ERROR_STARTS = ("#", "E", "e")   # how error values start (reading.error_text)
+_PLAIN_CELL_TYPES = {float, int, str, type(None)}
+#: A line holding a spreadsheet error value (reading.error_text's pattern, one per line), to
+#: search all the text of a table at once.
+_ERROR_LINE = re.compile(r"(?m)^[^\S\n]*" + _ERROR_TEXT.pattern.strip("^$") + r"[^\S\n]*$", re.IGNORECASE)
 
 _WHAT = {"name": "a branch name", "from": "a node name", "to": "a node name", "node": "a node name"}
 
