@@ -30,7 +30,7 @@ BRANCH_COLUMNS = ("name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "m
 BOUNDARY_COLUMNS = ("node", "T or Q", "value")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)   # slots: no dict per row (fewer objects for the collector)
 class Branch:
     row: int
     name: str
