@@ -283,7 +283,7 @@ class Range:
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
         if type(value) is np.float64:   # the scalar path: a numpy scalar already (no 0-d array)
-            return value  # type: ignore[return-value]  # reads as an array of no dimensions
+            return value     # reads as an array of no dimensions
         return np.asarray(value, dtype=float)
 
     def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:

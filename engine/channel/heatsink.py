@@ -127,11 +127,13 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     t_base = require_gas_temperature(function_name, "t_base", t_base, gas)
     checked = _checked_sink(function_name, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
                             conductivity, emissivity, gas, pressure)
-    return _sink_model(t_base, *checked, gas, pressure, tip, function_name)
+    t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity, spacing = checked
+    return _sink_model(t_base, t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity,
+                       spacing, gas, pressure, tip, function_name)
 
 
 def _checked_sink(function_name, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
-                  conductivity, emissivity, gas, pressure):
+                  conductivity, emissivity, gas, pressure) -> tuple:
     """Every argument of the model but the base temperature and the tip, checked under
     ``function_name``: (t_ambient, width, fin_height, length, thickness, count, conductivity,
     emissivity, spacing) as arrays."""
@@ -200,7 +202,7 @@ def _sink_result(heat: tuple) -> HeatSinkResult:
     q, q_fins, q_base, q_radiation, spacing, h_in, h_out, eta_in, eta_out, eps_a, channel, outer = heat
     shape = np.shape(q)
     if shape == ():   # one case (heatsink_tbase's evaluations): 0-d arrays, no broadcasting machinery
-        full = np.asarray
+        full = lambda a: np.asarray(a)  # noqa: E731
         in_range = np.asarray(bool(channel.in_range) and bool(outer.in_range))
         note = np.asarray(channel.note.item() or outer.note.item(), dtype=object)   # str(0-d array) formats it
         q = np.asarray(q)
@@ -291,8 +293,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     notes = np.full(arrays[0].shape, "", dtype=object)
     from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
     for index in np.ndindex(out.shape):
-        q_i, ta, *rest = (float(a[index]) for a in arrays)
-        *geometry, p = rest     # width, fin_height, length, thickness, count, conductivity, emissivity, spacing
+        q_i, ta, width, height, length, thickness, count, fin_k, eps, spacing, p = (float(a[index]) for a in arrays)
 
         # Each base temperature is evaluated once: brentq asks again for the bracket's end the
         # search below found, and the notes are read at the root brentq evaluated last.  At
@@ -305,7 +306,8 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             if t_base not in evaluated:
                 # the model on the arguments checked above, in plain floats: the channel and the
                 # outer faces take the registry's scalar path, and no argument is checked again
-                evaluated[t_base] = _sink_heat(t_base, ta, *geometry, gas, p, tip, function_name)
+                evaluated[t_base] = _sink_heat(t_base, ta, width, height, length, thickness, count, fin_k, eps,
+                                               spacing, gas, p, tip, function_name)
             return evaluated[t_base]
 
         def excess_heat(t_base):

@@ -150,9 +150,9 @@ def _branches_by_column(rows) -> tuple[Branch, ...] | None:
     names, sources, targets, kinds, *parameters, methods = zip(*[row for _, row in rows])
     if not set(map(type, names + sources + targets + kinds)) == {str}:
         return None
-    names, sources, targets = ([v.strip() for v in column] for column in (names, sources, targets))
-    if (not all(names) or not all(sources) or not all(targets) or len(set(names)) < len(names)
-            or any(a == b for a, b in zip(sources, targets))):
+    name_of, source_of, target_of = ([v.strip() for v in column] for column in (names, sources, targets))
+    if (not all(name_of) or not all(source_of) or not all(target_of) or len(set(name_of)) < len(name_of)
+            or any(a == b for a, b in zip(source_of, target_of))):
         return None
     members: dict[str, list[int]] = {}
     for position, kind_cell in enumerate(kinds):
@@ -174,7 +174,7 @@ def _branches_by_column(rows) -> tuple[Branch, ...] | None:
                 method_names[position] = blank_method if cell is None else kind.read_method(cell, "", values)
         except NetworkError:
             return None
-    return tuple(Branch(row_number, names[i], sources[i], targets[i], kinds[i].strip().lower(), params[i],
+    return tuple(Branch(row_number, name_of[i], source_of[i], target_of[i], kinds[i].strip().lower(), params[i],
                         method_names[i]) for i, (row_number, _) in enumerate(rows))
 
 
