@@ -90,6 +90,14 @@ def test_the_column_reader_reads_every_kind_as_the_row_reader_does():
     assert _branches_by_column(rows) == _branches_by_row(rows)   # and does not step aside
 
 
+@pytest.mark.parametrize("table", [
+    [tuple(row) for row in TABLE], np.array([row + [None] * (10 - len(row)) for row in TABLE], dtype=object),
+    [["name", "from", "to", "kind"], *TABLE], [*TABLE, [None] * 10, ["", " "]], [row + [None, None] for row in TABLE],
+])
+def test_tables_of_tuples_arrays_headers_and_blank_rows_read_alike(table):
+    readers_agree(table)
+
+
 @pytest.mark.parametrize("row", range(len(TABLE)))
 def test_any_one_changed_cell_gives_the_same_branches_or_the_row_readers_error(row):
     for column in range(len(BRANCH_COLUMNS)):
