@@ -3,6 +3,8 @@ package docstring)."""
 
 from __future__ import annotations
 
+import functools
+import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -204,7 +206,7 @@ def _sink_result(heat: tuple) -> HeatSinkResult:
     if shape == ():   # one case (heatsink_tbase's evaluations): 0-d arrays, no broadcasting machinery
         full = lambda a: np.asarray(a)  # noqa: E731
         in_range = np.asarray(bool(channel.in_range) and bool(outer.in_range))
-        note = np.asarray(channel.note.item() or outer.note.item(), dtype=object)   # str(0-d array) formats it
+        note = np.asarray(_sink_note(heat), dtype=object)
         q = np.asarray(q)
     else:
         in_range = np.broadcast_to(channel.in_range & outer.in_range, shape)
@@ -214,6 +216,21 @@ def _sink_result(heat: tuple) -> HeatSinkResult:
                           spacing=full(spacing), h_channel=full(h_in), h_outer=full(h_out),
                           fin_efficiency=full(eta_in), outer_fin_efficiency=full(eta_out),
                           emissivity_effective=full(eps_a), in_range=in_range, note=note)
+
+
+def _sink_note(heat: tuple) -> str:
+    """The note of one case of :func:`_sink_heat`'s numbers: the channel's, else the outer
+    faces' (as plain text: str() of a 0-d array would format it)."""
+    channel, outer = heat[-2], heat[-1]
+    return str(channel.note.item() or outer.note.item())
+
+
+@functools.cache
+def _brentq():
+    """scipy's brentq, imported on first use (scipy.optimize takes 0.4 s to load), then at
+    the cost of a call rather than an import statement per solve."""
+    from scipy.optimize import brentq
+    return brentq
 
 
 def heatsink_q(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin_height: ArrayLike,
@@ -290,9 +307,9 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     if any(array.ndim for array in arrays):
         arrays = tuple(np.broadcast_arrays(*arrays))
     out = np.empty(arrays[0].shape)
-    notes = np.full(arrays[0].shape, "", dtype=object)
-    from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
-    for index in np.ndindex(out.shape):
+    notes = np.empty(arrays[0].shape, dtype=object)
+    brentq = _brentq()
+    for index in itertools.product(*map(range, out.shape)):   # np.ndindex, without its set-up cost
         q_i, ta, width, height, length, thickness, count, fin_k, eps, spacing, p = (float(a[index]) for a in arrays)
 
         # Each base temperature is evaluated once: brentq asks again for the bracket's end the
@@ -316,7 +333,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             return excess[t_base]
 
         if q_i == 0.0:
-            out[index] = ta
+            out[index], notes[index] = ta, ""
             continue
         span = 10.0
         try:
@@ -332,8 +349,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             # the bracket ran past the gas data: the heat is more than the sink can reject there
             raise InputError(function_name, "q", q_i, "small enough that the base temperature stays "
                              f"inside the gas data ({error.allowed})") from None
-        # a scalar solve carries its note as a 0-d array; the notes array holds plain text
-        notes[index] = str(np.asarray(_sink_result(rejected(out[index])).note).item())
+        notes[index] = _sink_note(rejected(out[index]))
     warn_out_of_range(function_name, notes == "", notes)
     return unwrap(out)
 
