@@ -51,6 +51,14 @@ def wall(code: str, environment: dict, repeat: int) -> list[float]:
     return times
 
 
+def in_process(code: str, repeat: int) -> list[float]:
+    """What ``code`` prints (a time it measured itself), from ``repeat`` fresh processes."""
+    env = {key: value for key, value in os.environ.items()
+           if key not in ("STILLAIR_GAS_TABLES", "PYTHONDONTWRITEBYTECODE")}
+    return [float(subprocess.run([sys.executable, "-c", code], env=env, check=True, capture_output=True,
+                                 text=True).stdout) for _ in range(repeat)]
+
+
 def report(label: str, times: list[float]) -> None:
     print(f"  {label:<58} best {min(times):5.2f} s   median {statistics.median(times):5.2f} s")
 
@@ -73,15 +81,20 @@ def main() -> int:
         # The target (issue 21): import stillair at most 2x import numpy, timed in the same run.
         # In-process import time (-X importtime would add its own cost): the interpreter's own
         # start-up is the same for both and is taken off by timing `pass` alone.
-        bare = min(wall("pass", SHIPPED, args.repeat))
-        numpy_import = min(wall("import numpy", SHIPPED, args.repeat)) - bare
-        engine_import = min(wall("import stillair", SHIPPED, args.repeat)) - bare
+        # the three timed in alternation, one process each per round, so that a change of load
+        # during the run weighs on all three alike (blocks of one case each made the ratio swing)
+        rounds = [[min(wall(code, SHIPPED, 1)) for code in ("pass", "import numpy", "import stillair")]
+                  for _ in range(max(args.repeat, 7))]
+        bare, numpy_import, engine_import = (min(times) for times in zip(*rounds))
+        numpy_import, engine_import = numpy_import - bare, engine_import - bare
         print(f"import numpy {numpy_import:.3f} s, import stillair {engine_import:.3f} s "
               f"(interpreter start-up {bare:.3f} s taken off): ratio {engine_import / numpy_import:.2f} "
               f"(target <= 2)")
-        # The first property call reads the shipped table and its stored spline (numpy only).
-        first_call = min(wall("import stillair; stillair.air_conductivity(20.0)", SHIPPED, args.repeat)) \
-            - bare - engine_import
+        # The first property call reads the shipped table and its stored spline (numpy only),
+        # timed inside the process (a difference of two cold-process minima is mostly noise).
+        first_call = min(in_process("import time, stillair\nstarted = time.perf_counter()\n"
+                                    "stillair.air_conductivity(20.0)\nprint(time.perf_counter() - started)",
+                                    args.repeat))
         print(f"first property call (air_conductivity, table read from the file): {first_call:.3f} s, "
               f"{first_call / numpy_import:.2f}x import numpy")
         for label, code in cases:
