@@ -51,7 +51,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
-from ._select import any_true, where
+from ._select import any_true, ignoring_division_by, maximum, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -218,7 +218,7 @@ def _vertical_tilt_margin(inputs):
     """How far (deg) the vertical methods' tilt treatment is inside its reach: any tilt for
     H/L <= 12, tilt - t* from H/L 15, and continuously between, so auto never switches on it."""
     reach = (CRITICAL_TILT_TALL_FROM - inputs["aspect"]) * (5.0 / (CRITICAL_TILT_TALL_FROM - SHORT_CAVITY))
-    return np.maximum(_tilt_past_critical(inputs), reach)
+    return maximum(_tilt_past_critical(inputs), reach)
 
 
 VERTICAL_TILT_COVERAGE = Range("tilt past the vertical methods' reach", low=0.0, of=_vertical_tilt_margin)
@@ -444,11 +444,11 @@ def macgregor_emery_vertical(ra, pr, aspect):
           "goes below conduction.")
 def elsherbiny_vertical(ra, pr, aspect):
     """ElSherbiny, Raithby & Hollands (1982), vertical layers: the largest of three regimes."""
-    with np.errstate(divide="ignore"):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
+    with ignoring_division_by(ra):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
         conduction_transition = (1.0 + (0.104 * ra ** 0.293 / (1.0 + (6310.0 / ra) ** 1.36)) ** 3) ** (1.0 / 3.0)
     laminar_boundary_layer = 0.242 * (ra / aspect) ** 0.273
     turbulent = 0.0605 * ra ** (1.0 / 3.0)
-    return np.maximum(conduction_transition, np.maximum(laminar_boundary_layer, turbulent))
+    return maximum(conduction_transition, maximum(laminar_boundary_layer, turbulent))
 
 
 def _wright_bands(ra):

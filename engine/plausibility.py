@@ -24,7 +24,7 @@ from typing import Iterator, Mapping
 
 import numpy as np
 
-from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value
+from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value, is_plain_number
 
 __all__ = ["UnitSlipWarning", "KELVIN_LOOKING", "PLAUSIBLE_LENGTHS", "temperature_slip", "length_slip",
            "warn_slips", "trial_sizes"]
@@ -55,6 +55,12 @@ def temperature_slip(temperatures: Mapping[str, object]) -> str:
     low, high = KELVIN_LOOKING
     first = None
     for name, value in temperatures.items():
+        if is_plain_number(value):   # one plain number: plain comparisons, no array (scalar path)
+            if not low <= value <= high:
+                return ""
+            if first is None:
+                first = (name, value)
+            continue
         array = np.asarray(value, dtype=float)
         if array.size == 0 or not np.all((array >= low) & (array <= high)):
             return ""
@@ -69,10 +75,17 @@ def temperature_slip(temperatures: Mapping[str, object]) -> str:
 def length_slip(name: str, value, plausible: float | None = None) -> str:
     """The millimetre note for one length argument, or ""."""
     limit = PLAUSIBLE_LENGTHS.get(name) if plausible is None else plausible
-    array = np.asarray(value, dtype=float)
-    if limit is None or array.size == 0 or not np.any(array > limit):
+    if limit is None:
         return ""
-    largest = float(np.max(array))
+    if is_plain_number(value):       # one plain number (the scalar path): no array
+        if not value > limit:
+            return ""
+        largest = float(value)
+    else:
+        array = np.asarray(value, dtype=float)
+        if array.size == 0 or not np.any(array > limit):
+            return ""
+        largest = float(np.max(array))
     return f"{name} = {format_value(largest)} m is large for this geometry; lengths are in m: is it in mm?"
 
 
