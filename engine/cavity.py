@@ -52,7 +52,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
-from ._select import any_true, where
+from ._select import any_true, ignoring_division_by, maximum, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -220,7 +220,7 @@ def _vertical_tilt_margin(inputs):
     H/L = 12 (by (12 - H/L) x 5/3 deg, so the 5 deg band fades from H/L 9 to 12), tilt - t*
     from there, continuously; the published range jumps at H/L = 12."""
     reach = (SHORT_CAVITY - inputs["aspect"]) * (5.0 / 3.0)
-    return np.maximum(_tilt_past_critical(inputs), reach)
+    return maximum(_tilt_past_critical(inputs), reach)
 
 
 def _horizontal_value_ra(inputs):
@@ -444,11 +444,11 @@ def macgregor_emery_vertical(ra, pr, aspect):
           "goes below conduction.")
 def elsherbiny_vertical(ra, pr, aspect):
     """ElSherbiny, Raithby & Hollands (1982), vertical layers: the largest of three regimes."""
-    with np.errstate(divide="ignore"):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
+    with ignoring_division_by(ra):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
         conduction_transition = (1.0 + (0.104 * ra ** 0.293 / (1.0 + (6310.0 / ra) ** 1.36)) ** 3) ** (1.0 / 3.0)
     laminar_boundary_layer = 0.242 * (ra / aspect) ** 0.273
     turbulent = 0.0605 * ra ** (1.0 / 3.0)
-    return np.maximum(conduction_transition, np.maximum(laminar_boundary_layer, turbulent))
+    return maximum(conduction_transition, maximum(laminar_boundary_layer, turbulent))
 
 
 def _wright_bands(ra):

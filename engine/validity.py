@@ -109,6 +109,8 @@ def as_float_array(function: str, argument: str, value) -> np.ndarray:
 
 
 def require_finite(function: str, argument: str, value) -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and -math.inf < value < math.inf:   # one plain number: no array tests
+        return np.asarray(value, dtype=float)
     array = as_float_array(function, argument, value)
     finite = np.isfinite(array)
     if not np.all(finite):
@@ -121,6 +123,8 @@ def _first_bad(array: np.ndarray, bad: np.ndarray):
 
 
 def require_positive(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and 0.0 < value < math.inf:
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     bad = ~(array > 0)
     if np.any(bad):
@@ -129,6 +133,8 @@ def require_positive(function: str, argument: str, value, unit: str = "") -> np.
 
 
 def require_nonnegative(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and 0.0 <= value < math.inf:
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     bad = ~(array >= 0)
     if np.any(bad):
@@ -138,6 +144,9 @@ def require_nonnegative(function: str, argument: str, value, unit: str = "") -> 
 
 def require_between(function: str, argument: str, value, low: float, high: float,
                     unit: str = "", low_open: bool = False, high_open: bool = False) -> np.ndarray:
+    if (type(value) in PLAIN_NUMBERS and -math.inf < value < math.inf
+            and (low < value if low_open else low <= value) and (value < high if high_open else value <= high)):
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     above_low = array > low if low_open else array >= low
     below_high = array < high if high_open else array <= high
@@ -159,6 +168,8 @@ LENGTH_RANGE = (1e-6, 1e3)
 
 def require_length(function: str, argument: str, value, high: float = LENGTH_RANGE[1]) -> np.ndarray:
     """A geometry length in m, finite and inside [1e-6 m, ``high``] (:data:`LENGTH_RANGE`)."""
+    if is_plain_length(value, high):
+        return np.asarray(value, dtype=float)
     array = require_positive(function, argument, value, "m")
     low = LENGTH_RANGE[0]
     for bad, allowed in ((array > high, f"at most {format_value(high)} m (is it in mm?)"),
@@ -216,7 +227,7 @@ def warn_out_of_range(function_name: str, in_range, notes) -> None:
     """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
     outside its correlation's range; it points at the line that called the caller.  While a
     caller collects the notes (:func:`collect_range_notes`) the text goes to its list instead."""
-    if not np.all(in_range):
+    if not (bool(in_range) if getattr(in_range, "ndim", None) == 0 else np.all(in_range)):  # np.all: 2 us on one
         message = f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes))
         sink = _NOTE_SINK.get()
         if sink is not None:
@@ -274,9 +285,10 @@ class Range:
     in_auto: bool = True
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
-        if self.of is not None:
-            return np.asarray(self.of(inputs), dtype=float)
-        return np.asarray(inputs[self.quantity.lower()], dtype=float)
+        value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
+        if type(value) is np.float64:   # the scalar path: a numpy scalar already (no 0-d array)
+            return value     # reads as an array of no dimensions
+        return np.asarray(value, dtype=float)
 
     def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         values = self.values(inputs)

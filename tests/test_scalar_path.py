@@ -15,7 +15,7 @@ import math
 import numpy as np
 import pytest
 
-from stillair._select import any_true, where
+from stillair._select import any_true, ignoring_division_by, maximum, where
 from stillair.correlations import CORRELATIONS, GEOMETRIES
 
 EPS = np.finfo(float).eps
@@ -100,6 +100,37 @@ def test_where_on_a_numpy_boolean_makes_no_array():
 @pytest.mark.parametrize("condition, expected", [
     (np.bool_(True), True), (np.bool_(False), False), (True, True), (False, False),
     (np.array([False, False]), False), (np.array([False, True]), True), (np.array([], dtype=bool), False),
+    (np.array(True), True), (np.array(False), False),
 ])
 def test_any_true_is_numpy_any(condition, expected):
     assert any_true(condition) is expected
+
+
+@pytest.mark.parametrize("a, b", [
+    (1.0, 2.0), (2.0, 1.0), (-0.5, -0.5), (math.nan, 1.0), (1.0, math.nan), (math.inf, 3.0), (-math.inf, -1e300),
+])
+def test_maximum_of_two_numpy_scalars_is_numpy_maximum(a, b):
+    got, expected = maximum(np.float64(a), np.float64(b)), np.maximum(np.float64(a), np.float64(b))
+    assert type(got) is np.float64
+    np.testing.assert_array_equal(got, expected)   # NaN propagates from either side
+
+
+@pytest.mark.parametrize("a, b", [(np.array([1.0, 5.0]), np.float64(2.0)), (2.0, np.array([1.0, 3.0])), (1.0, 2.0)])
+def test_maximum_of_anything_else_is_numpy_maximum(a, b):
+    np.testing.assert_array_equal(maximum(a, b), np.maximum(a, b))
+    assert type(maximum(a, b)) is type(np.maximum(a, b))
+
+
+@pytest.mark.parametrize("denominator", [np.float64(0.0), np.array([0.0, 1.0]), 0.0])
+def test_a_division_that_can_warn_is_still_silenced(denominator, recwarn):
+    with np.errstate(divide="raise"), ignoring_division_by(denominator):
+        np.divide(1.0, np.asarray(denominator))
+    assert not recwarn
+
+
+def test_a_nonzero_numpy_scalar_needs_no_error_state():
+    with np.errstate(divide="raise"):
+        assert not isinstance(ignoring_division_by(np.float64(2.0)), np.errstate)
+        with pytest.raises(FloatingPointError):   # the state outside is left as it was
+            with ignoring_division_by(np.float64(2.0)):
+                np.divide(1.0, np.float64(0.0))
