@@ -17,6 +17,7 @@ import pytest
 
 import stillair
 from stillair.addin.cells.callpath import NoteRecorder, call
+from stillair.correlations import GEOMETRIES
 from stillair.plausibility import UnitSlipWarning
 from stillair.validity import CorrelationRangeWarning, InputError, format_value
 
@@ -222,3 +223,21 @@ def test_calc_lists_the_kelvin_note_of_a_cell(tmp_path, capsys):
     notes = json.loads(capsys.readouterr().out)["notes"]
     assert notes and notes[0]["cell"] == "Gap!B1"
     assert "293.15 looks like a kelvin value" in notes[0]["message"]
+
+
+@pytest.mark.parametrize("geometry", sorted(g for g in GEOMETRIES if "ra" in GEOMETRIES[g].inputs))
+def test_no_numpy_warning_at_ra_zero_in_an_array(geometry):
+    """Ra = 0 beside an ordinary Ra in one array: auto's weights meet inf - inf (every step
+    infinitely far below its bound), which must stay a tie and never reach stderr as a numpy
+    RuntimeWarning (issue 19: no numpy warning leaves a public function).  Found by the
+    network property sweep."""
+    geo = GEOMETRIES[geometry]
+    extra = {"aspect": 20.0, "tilt": 90.0, "slenderness": 20.0}
+    inputs = {name: extra[name] for name in geo.inputs if name in extra}
+    for case in (geo.cases or (None,)):
+        with warnings.catch_warnings():
+            warnings.simplefilter("error", RuntimeWarning)
+            warnings.simplefilter("ignore", stillair.CorrelationRangeWarning)
+            result = stillair.nusselt(geometry, "auto", ra=np.array([0.0, 1e5]), pr=0.71, case=case,
+                                      **inputs)
+        assert np.all(np.isfinite(result.nu))

@@ -157,8 +157,11 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     weights: list[Any] = []
     for short in shortfalls:
         # (inf - inf where two steps are infinitely far, as at Ra = 0: a tie, the first keeps it)
-        beyond = (short - nearest if short != nearest else 0.0) if scalar else \
-            np.where(short == nearest, 0.0, short - nearest)
+        if scalar:
+            beyond = short - nearest if short != nearest else 0.0
+        else:
+            with np.errstate(invalid="ignore"):    # inf - inf, replaced by the tie's 0
+                beyond = np.where(short == nearest, 0.0, short - nearest)
         share = smaller(larger(1.0 - beyond / width, 0.0), 1.0)
         weights.append(left * share)
         left = left * (1.0 - share)
