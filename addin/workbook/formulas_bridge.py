@@ -25,7 +25,8 @@ from .reader import CellError  # noqa: E402
 
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
-           "run_problem", "reads_references", "as_reference", "input_reference_text"]
+           "run_problem", "reads_references", "as_reference", "input_reference_text", "call_steps",
+           "step_name", "compiled_function", "is_identity_filter"]
 
 _registered = False
 
@@ -274,11 +275,13 @@ class _NotAvailable(Exception):
     """A function the library names but does not implement."""
 
 
-def straight_line(function):
-    """Run a compiled formula without its dispatcher: the same node functions called in
-    dependency order.  ``formulas`` builds one small schedula dispatcher per formula, whose
-    bookkeeping costs several times the arithmetic; a formula's nodes are a tree, so running them
-    in order gives the same result.  Returns None for dispatchers that use other features."""
+def call_steps(function):
+    """A compiled formula's node functions in dependency order, read from its dispatcher:
+    ``(defaults, filters, steps, inputs, output)`` with ``steps`` as (node key, function, input
+    names, output names), or None for dispatchers that use other features.  ``formulas`` builds
+    one small schedula dispatcher per formula; its nodes are a tree, so running them in this
+    order gives the dispatcher's result (:func:`straight_line`; the batches of
+    :mod:`stillair.addin.workbook.vectorised`)."""
     dsp = function.dsp
     defaults = {k: v["value"] for k, v in dsp.default_values.items()}
     available = set(defaults) | set(function.inputs)
@@ -305,16 +308,40 @@ def straight_line(function):
             return None
         for key, node in ready:
             pending.remove((key, node))
-            function_ = node["function"]
-            operator_ = _FAST_OPERATORS.get(key.split("<")[0])
-            if operator_ is not None and len(node["inputs"]) == 2:
-                function_ = _fast_operator(operator_, function_)
-            steps.append((key, function_, tuple(node["inputs"]), tuple(node["outputs"])))
+            steps.append((key, node["function"], tuple(node["inputs"]), tuple(node["outputs"])))
             available |= set(node["outputs"])
-    inputs = tuple(function.inputs)
     output = function.outputs[0]
     if output not in available:
         return None
+    return defaults, filters, steps, tuple(function.inputs), output
+
+
+def is_identity_filter(function) -> bool:
+    """Whether a dispatcher's filter is schedula's ``bypass``, the identity formulas puts on a
+    compiled formula's output (compared by name: the dispatcher may hold a copy of it)."""
+    return getattr(function, "__module__", None) == "schedula.utils.dsp" and \
+        getattr(function, "__qualname__", None) == "bypass"
+
+
+def step_name(key: str) -> str:
+    """The function or operator a dispatcher node calls: "+<0>" -> "+", "H_CAVITY<1>" -> "H_CAVITY"."""
+    return key.split("<")[0]
+
+
+def straight_line(function):
+    """Run a compiled formula without its dispatcher: the same node functions called in
+    dependency order (:func:`call_steps`).  The dispatcher's bookkeeping costs several times
+    the arithmetic.  Returns None for dispatchers that use other features."""
+    found = call_steps(function)
+    if found is None:
+        return None
+    defaults, filters, calls, inputs, output = found
+    steps = []
+    for key, function_, ins, outs in calls:
+        operator_ = _FAST_OPERATORS.get(step_name(key))
+        if operator_ is not None and len(ins) == 2:
+            function_ = _fast_operator(operator_, function_)
+        steps.append((key, function_, ins, outs))
 
     def run(*args):
         data = dict(defaults)
@@ -326,7 +353,7 @@ def straight_line(function):
             try:
                 result = call(*[data[i] for i in ins])
             except NotImplementedError:
-                raise _NotAvailable(name.split("<")[0]) from None
+                raise _NotAvailable(step_name(name)) from None
             if len(outs) == 1:
                 results = (result,)
             else:
@@ -338,6 +365,11 @@ def straight_line(function):
         return data[output]
 
     return run
+
+
+def compiled_function(function):
+    """The library's compiled formula behind what :func:`fast_runner` gave."""
+    return function.function if isinstance(function, _Checked) else function
 
 
 def parse_problem(error: Exception, text: str) -> str:

@@ -31,11 +31,12 @@ from dataclasses import dataclass, field
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
                               input_reference_text, reads_references, to_formulas, xl_error)
-from .formulatext import Reference, parse_reference
+from .formulatext import Reference, calls_in, parse_reference
 from .rewrite import Prepared, prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
 from .status import CellResult, Evaluation, LoopReport, label, quote_sheet
+from .vectorised import calculate_batch, plan_of
 
 __all__ = ["Model", "evaluate_book", "MAX_CELLS_READ"]
 
@@ -64,6 +65,11 @@ class _Node:
 
 class _Loop(tuple):
     """The keys of one circular loop, in sweep order (a step of :attr:`Model.order`)."""
+
+
+class _Batch(list):
+    """The keys of cells of one shape that read none of one another, in calculation order:
+    calculated together (:mod:`stillair.addin.workbook.vectorised`)."""
 
 
 class Model:
@@ -105,6 +111,8 @@ class Model:
             self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
         self.nodes: dict[tuple, _Node] = {}
         self._compiled: dict[tuple, tuple] = {}
+        self._plans: dict[tuple, tuple] = {}
+        self._steps: list | None = None
         self._templates: dict = {}     # formulas of one relative form share their preparation
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
@@ -316,6 +324,63 @@ class Model:
                 self._compiled[prepared.key] = cached
         return cached
 
+    def plan(self, node: _Node):
+        """The array plan of the node's shape and the reference feeding each of its inputs,
+        or (None, None) when the shape is calculated cell by cell."""
+        key = node.prepared.key
+        found = self._plans.get(key)
+        if found is None:
+            function, positions, problem, reference_keys = self.compile(node)
+            plan = None
+            if problem is None and reference_keys is None:
+                plan = plan_of(function, any(call.ours for call in calls_in(node.text)))
+            found = self._plans[key] = (plan, positions) if plan is not None else (None, None)
+        return found
+
+    def _batchable(self, key) -> bool:
+        """Whether a cell may be calculated in a batch of its shape: a plain cell formula
+        outside any loop whose every reference is one cell of a sheet that exists."""
+        node = self.nodes[key]
+        if node.name is not None or node.array is not None or node.problem is not None or \
+                key in self.cycles or not node.prepared.references:
+            return False
+        return all(reference.kind == "area" and reference.cells == 1 and not reference.whole
+                   and source is not None
+                   for reference, source in zip(node.prepared.references, node.sources))
+
+    def _schedule(self) -> list:
+        """:attr:`order` by dependency depth (a step after every step it reads, in their order
+        within a depth), the cells of one shape and depth gathered in a :class:`_Batch`."""
+        if self._steps is not None:
+            return self._steps
+        depth: dict = {}
+        deepened = []
+        for step in self.order:
+            keys = step if isinstance(step, _Loop) else (step,)
+            level = 1 + max((depth.get(d, 0) for k in keys for d in self.nodes[k].deps
+                             if d not in keys), default=0)
+            for k in keys:
+                depth[k] = level
+            deepened.append((level, step))
+        deepened.sort(key=lambda item: item[0])     # stable: the order within a depth stays
+        steps: list = []
+        batches: dict = {}
+        for level, step in deepened:
+            if not isinstance(step, _Loop) and self._batchable(step):
+                shape = (level, self.nodes[step].prepared.key)
+                batch = batches.get(shape)
+                if batch is None:
+                    batch = batches[shape] = _Batch()
+                    steps.append(batch)
+                batch.append(step)
+            else:
+                steps.append(step)
+        if all(len(b) == 1 for b in batches.values()):
+            self._steps = self.order       # nothing to gather: the order as it was
+        else:
+            self._steps = [s[0] if isinstance(s, _Batch) and len(s) == 1 else s for s in steps]
+        return self._steps
+
     # -- the dependency graph -------------------------------------------------------------
 
     def _users(self) -> dict:
@@ -410,7 +475,12 @@ class Model:
         self._check_volume(needed)
         from .safezip import offline
         with recorder, offline():   # nothing in a workbook may reach the network
-            for step in self.order:
+            for step in self._schedule():
+                if isinstance(step, _Batch):
+                    batch = [k for k in step if k not in sets and (needed is None or k in needed)]
+                    if batch:
+                        calculate_batch(self, batch, values, results, recorder, area_values)
+                    continue
                 if isinstance(step, _Loop):
                     if needed is not None and not any(k in needed for k in step):
                         continue
