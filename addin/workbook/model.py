@@ -72,6 +72,45 @@ class _Batch(list):
     calculated together (:mod:`stillair.addin.workbook.vectorised`)."""
 
 
+def _keys_of(step) -> tuple:
+    return tuple(step) if isinstance(step, (_Loop, _Batch)) else (step,)
+
+
+# Functions whose result does not follow from the references a formula names: a cell calling
+# one is calculated again in every case (Model._reached).
+_VOLATILE = re.compile(r"(?i)(?<![\w.])(?:_XLFN\.)?(?:NOW|TODAY|RAND|RANDBETWEEN|RANDARRAY|OFFSET|"
+                       r"INDIRECT|CELL|INFO)\s*\(")
+
+
+@dataclass(slots=True)
+class _Stored:
+    """What one calculation step left: its cells' values and results, and the notes and error
+    messages it recorded (replayed in order, as if the step had been calculated again)."""
+
+    values: dict
+    results: dict
+    notes: list
+    errors: list
+
+    @classmethod
+    def of(cls, model, step, values, results, recorder, notes: int, errors: int) -> "_Stored":
+        members = []
+        for key in _keys_of(step):
+            node = model.nodes[key]
+            members.extend([key] if node.name is not None else model.members(node))
+        return cls({k: values[k] for k in members if k in values},
+                   {k: results[k] for k in members if k in results},
+                   recorder.notes[notes:], recorder.errors[errors:])
+
+    def replay(self, values, results, recorder) -> None:
+        values.update(self.values)
+        results.update(self.results)
+        for item in self.notes:
+            if item not in recorder.notes:
+                recorder.notes.append(item)
+        recorder.errors.extend(self.errors)
+
+
 class Model:
     """A workbook prepared for calculation; :meth:`calculate` runs it (as often as needed).
 
@@ -113,6 +152,8 @@ class Model:
         self._compiled: dict[tuple, tuple] = {}
         self._plans: dict[tuple, tuple] = {}
         self._steps: list | None = None
+        self._base_steps: list | None = None    # the workbook's own calculation, by step (keep_base)
+        self._reach_cache: dict = {}
         self._templates: dict = {}     # formulas of one relative form share their preparation
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
@@ -417,9 +458,61 @@ class Model:
 
     # -- calculating ----------------------------------------------------------------------
 
-    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:
+    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None, *,
+                  reuse: bool = False) -> Evaluation:
         """Calculate the model; ``sets`` maps (sheet, ref) to a value that replaces the cell;
-        ``only`` limits the work to those cells and what they read."""
+        ``only`` limits the work to those cells and what they read.  ``reuse``: calculate only
+        the cells the set cells reach and take every other cell's value, status and notes from
+        one calculation of the workbook as it is, made once (many cases of one workbook)."""
+        base = self.keep_base() if reuse and sets and only is None else None
+        return self._calculate(sets, only, base)
+
+    def keep_base(self) -> list:
+        """Each step of :meth:`_schedule` as the workbook's own calculation left it (None for a
+        loop, which is always calculated again): made once, on first use."""
+        if self._base_steps is None:
+            record: list = []
+            self._calculate(None, None, None, record)
+            self._base_steps = record
+        return self._base_steps
+
+    def _reached(self, set_keys) -> set:
+        """The formula cells and names whose value can change when ``set_keys`` are set: those
+        that read a set cell (or a replaced formula), what reads them, and every formula with a
+        function whose result does not follow from its references (NOW, RAND, OFFSET...)."""
+        set_keys = frozenset(set_keys)
+        found = self._reach_cache.get(set_keys)
+        if found is not None:
+            return found
+        users = self._users()
+        seeds = set(self._volatile())
+        for key in set_keys:
+            seeds.add(key)
+            seeds |= users.get(key, set())
+            sheet, ref = key
+            row, col = split_ref(ref)
+            for node_key, node in self.nodes.items():
+                for reference, source in zip(node.prepared.references if node.prepared else (),
+                                             node.sources):
+                    if reference.kind == "area" and source == sheet and \
+                            reference.r1 <= row <= reference.r2 and reference.c1 <= col <= reference.c2:
+                        seeds.add(node_key)
+        seen, todo = set(seeds), list(seeds)
+        while todo:
+            for user in users.get(todo.pop(), ()):
+                if user not in seen:
+                    seen.add(user)
+                    todo.append(user)
+        if len(self._reach_cache) < 64:
+            self._reach_cache[set_keys] = seen
+        return seen
+
+    def _volatile(self) -> list:
+        return [key for key, node in self.nodes.items() if _VOLATILE.search(node.text)]
+
+    def _calculate(self, sets, only, base, record=None) -> Evaluation:
+        """:meth:`calculate`; ``base``: the steps to take from :meth:`keep_base` where no set cell
+        reaches them; ``record``: a list that gets each step's :class:`_Stored`."""
         import numpy as np
 
         started = time.perf_counter()
@@ -474,30 +567,37 @@ class Model:
         needed = self.upstream(only) if only is not None else None
         self._check_volume(needed)
         from .safezip import offline
+        reached = self._reached(sets) if base is not None else None
         with recorder, offline():   # nothing in a workbook may reach the network
-            for step in self._schedule():
+            for index, step in enumerate(self._schedule()):
+                if base is not None and base[index] is not None and \
+                        not any(k in reached for k in _keys_of(step)):
+                    base[index].replay(values, results, recorder)
+                    continue
+                notes, errors = len(recorder.notes), len(recorder.errors)
                 if isinstance(step, _Batch):
                     batch = [k for k in step if k not in sets and (needed is None or k in needed)]
                     if batch:
                         calculate_batch(self, batch, values, results, recorder, area_values)
-                    continue
-                if isinstance(step, _Loop):
+                elif isinstance(step, _Loop):
                     if needed is not None and not any(k in needed for k in step):
-                        continue
-                    if self.book.iteration is not None:
+                        pass
+                    elif self.book.iteration is not None:
                         caching[0] = False   # a loop's ranges change from sweep to sweep
                         loops.append(self._iterate(step, sets, values, results, recorder,
                                                    area_values))
                         caching[0] = True
-                        continue
-                    keys: tuple = step
-                else:
-                    keys = (step,)
-                for key in keys:
-                    if key in sets or (needed is not None and key not in needed):
-                        continue
-                    results.update(calculate_node(self, self.nodes[key], key, values, results,
+                    else:
+                        for key in step:
+                            if key not in sets and (needed is None or key in needed):
+                                results.update(calculate_node(self, self.nodes[key], key, values,
+                                                              results, recorder, area_values))
+                elif step not in sets and (needed is None or step in needed):
+                    results.update(calculate_node(self, self.nodes[step], step, values, results,
                                                   recorder, area_values))
+                if record is not None:
+                    record.append(None if isinstance(step, _Loop) else _Stored.of(
+                        self, step, values, results, recorder, notes, errors))
         calculated = time.perf_counter()
         evaluation = self._evaluation(values, results, recorder, sets, calculated - started)
         evaluation.loops = loops

@@ -33,9 +33,11 @@ from .status import label
 
 __all__ = ["Plan", "plan_of", "calculate_batch", "SMALLEST_BATCH"]
 
-# Parts of a batch smaller than this are calculated cell by cell: below it one engine call per
-# cell costs about what splitting further would.
-SMALLEST_BATCH = 4
+# Parts of a batch smaller than this are calculated cell by cell, and a part that fails is
+# halved only while its halves are at least this long: an array call costs about as much as a
+# few dozen single calls (H_CAVITY: ~1 ms against ~50 us), so trying smaller parts, where notes
+# crowd, costs more than it saves.
+SMALLEST_BATCH = 32
 
 # The operators a plan computes on arrays: IEEE doubles, as the single-cell path computes them
 # (formulas_bridge._fast_operator); a non-finite element leaves the batch (Excel's #DIV/0!, #NUM!).
@@ -165,7 +167,7 @@ def calculate_batch(model, keys, values, results, recorder, area_values) -> None
         if size >= SMALLEST_BATCH:
             out = _run(plan, [table[start:stop, p] for p in positions], size)
         if out is None:
-            if size >= SMALLEST_BATCH:
+            if size >= 2 * SMALLEST_BATCH:
                 middle = (start + stop) // 2
                 parts.extend(((middle, stop), (start, middle)))
                 continue
