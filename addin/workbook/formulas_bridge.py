@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import functools
 import logging
+from collections import OrderedDict
 import math
 import os
 import re
@@ -92,11 +93,28 @@ def register_functions() -> None:
     for entry in REGISTRY:
         def cell_function(*args, _entry=entry):
             recorder = NoteRecorder._active
-            before = len(recorder.notes) if recorder is not None else 0
-            result = evaluate_cell(_entry, *args)
-            if isinstance(result, str) and recorder is not None and _is_error_result(
-                    _entry, result, recorder.notes[before:]):
-                getattr(recorder, "errors", []).append((recorder.current, result))
+            key = _table_call_key(_entry, args) if _entry.has_table else None
+            stored = _TABLE_CALLS.get(key) if key is not None else None
+            if stored is not None:
+                result, messages, error = stored
+                _TABLE_CALLS.move_to_end(key)
+                if recorder is not None:   # the call's notes, on this cell
+                    for message in messages:
+                        recorder.add(message)
+                    if error:
+                        getattr(recorder, "errors", []).append((recorder.current, result))
+            else:
+                before = len(recorder.notes) if recorder is not None else 0
+                result = evaluate_cell(_entry, *args)
+                messages = tuple(m for _, m in recorder.notes[before:]) if recorder else ()
+                error = isinstance(result, str) and recorder is not None and _is_error_result(
+                    _entry, result, recorder.notes[before:])
+                if error:
+                    getattr(recorder, "errors", []).append((recorder.current, result))
+                if key is not None:
+                    _TABLE_CALLS[key] = (result, messages, error)
+                    if len(_TABLE_CALLS) > _TABLE_CALLS_KEPT:
+                        _TABLE_CALLS.popitem(last=False)
             if isinstance(result, list):
                 return np.asarray(result, dtype=object)
             return result
@@ -106,6 +124,31 @@ def register_functions() -> None:
     for name, axis in (("ROWS", 0), ("COLUMNS", 1)):
         table[name] = _counting_arrays_too(table[name], axis)
     _registered = True
+
+
+# Calls of the functions that take tables (the network's), by their arguments' values: the
+# cells of one network call NET_SOLVE on the same tables dozens of times, and reading the tables
+# costs more than the engine's own cached solve.  A repeated call gives the stored result and
+# records the stored notes on the new cell; values of other types are not kept.
+_TABLE_CALLS: OrderedDict = OrderedDict()
+_TABLE_CALLS_KEPT = 64
+_KEY_TYPES = frozenset((float, int, bool, str, type(None)))
+
+
+def _table_call_key(entry, args):
+    """The key of a call by its arguments' values and types (1, 1.0 and TRUE differ), or None
+    when an argument holds something else (a reference object, an Excel error)."""
+    import numpy as np
+    import schedula as sh
+
+    parts: list = [entry.name]
+    for arg in args:
+        flat = arg.ravel().tolist() if isinstance(arg, np.ndarray) else [arg]
+        kinds = tuple(map(type, flat))
+        if not all(kind in _KEY_TYPES or value is sh.EMPTY for kind, value in zip(kinds, flat)):
+            return None
+        parts.append((np.shape(arg), tuple(flat), kinds))
+    return tuple(parts)
 
 
 def _counting_arrays_too(original, axis: int):
