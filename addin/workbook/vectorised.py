@@ -8,8 +8,8 @@ it gets alone (:func:`stillair.addin.workbook.execute.calculate_node`), notes an
 the cell that caused them, so a batch is only a shortcut for the plain case:
 
 * a shape qualifies (:func:`plan_of`) when its formula is arithmetic (+ - * / ^, unary minus) on
-  numbers and calls of our functions that take numbers and give a number or a text, every input
-  a single cell;
+  numbers, the library's element-by-element functions (ROUND, SQRT...) and calls of our
+  functions that take numbers and give a number or a text, every input a single cell;
 * a cell joins the batch when every input it reads is a finite number and nothing upstream is an
   error or could not be calculated;
 * the part of a batch whose call gives a range note, a warning, an exception or a non-finite
@@ -43,6 +43,11 @@ SMALLEST_BATCH = 32
 # (formulas_bridge._fast_operator); a non-finite element leaves the batch (Excel's #DIV/0!, #NUM!).
 _OPERATORS = {"+": np.add, "-": np.subtract, "*": np.multiply, "/": np.divide, "^": np.power}
 _UNARY = {"u-": np.negative}
+# The library's functions that compute element by element (formulas' wrap_ufunc): given a column
+# they give each cell's own result, and an error anywhere makes the whole column an error, which
+# sends it back to single cells.
+_ELEMENTWISE = frozenset(("ROUND", "ROUNDUP", "ROUNDDOWN", "ABS", "SQRT", "EXP", "LN", "LOG10",
+                          "POWER", "SIN", "COS", "TAN", "RADIANS", "DEGREES"))
 
 
 @dataclass(frozen=True, slots=True)
@@ -68,11 +73,13 @@ def plan_of(function, ours: bool) -> Plan | None:
         return None     # a filter that changes a value (the output's own is an identity)
     constants = []
     for key, value in defaults.items():
+        if isinstance(value, np.ndarray) and value.shape == ():
+            value = value.item()    # a negative constant: the library's 0-d array
         if type(value) not in (int, float) or not math.isfinite(value):
             return None     # a text, a logical value or a precomputed message
         constants.append((key, float(value)))
     steps = []
-    for key, _, ins, outs in calls:
+    for key, function, ins, outs in calls:
         name = step_name(key)
         if len(outs) != 1:
             return None
@@ -82,6 +89,9 @@ def plan_of(function, ours: bool) -> Plan | None:
         if name in _UNARY and len(ins) == 1:
             steps.append((_UNARY[name], ins, outs[0]))
             continue
+        if name.upper() in _ELEMENTWISE:
+            steps.append((_Library(function), ins, outs[0]))
+            continue
         entry = BY_NAME.get(name.upper())
         if entry is None or entry.plain is None or not entry.takes_arrays or \
                 entry.result not in ("number", "text") or \
@@ -90,6 +100,19 @@ def plan_of(function, ours: bool) -> Plan | None:
             return None
         steps.append((entry, ins, outs[0]))
     return Plan(tuple(constants), tuple(steps), tuple(inputs), output, ours)
+
+
+@dataclass(frozen=True, slots=True)
+class _Library:
+    """One of the library's element-by-element functions (:data:`_ELEMENTWISE`) on columns."""
+
+    function: object
+
+    def __call__(self, args, size: int):
+        cells = np.asarray(self.function(*args), dtype=object).ravel().tolist()
+        if len(cells) != size or any(type(cell) is not float for cell in cells):
+            raise ValueError("not a number in every cell")   # the cells, one by one
+        return np.array(cells, dtype=float)
 
 
 def _run(plan: Plan, columns: list, size: int):
@@ -106,6 +129,9 @@ def _run(plan: Plan, columns: list, size: int):
                     args = [data[i] for i in ins]
                     if isinstance(step, np.ufunc):
                         data[out] = step(*args)
+                        continue
+                    if isinstance(step, _Library):
+                        data[out] = step(args, size)
                         continue
                     value, notes = evaluate_arrays(step, *[np.broadcast_to(np.asarray(a, dtype=float), (size,))
                                                            for a in args])
