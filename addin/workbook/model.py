@@ -154,6 +154,7 @@ class Model:
         self._steps: list | None = None
         self._base_steps: list | None = None    # the workbook's own calculation, by step (keep_base)
         self._reach_cache: dict = {}
+        self._single_cells: dict = {}
         self._templates: dict = {}     # formulas of one relative form share their preparation
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
@@ -378,6 +379,15 @@ class Model:
             found = self._plans[key] = (plan, positions) if plan is not None else (None, None)
         return found
 
+    def single_cells(self, node: _Node) -> list:
+        """(sheet, ref) of each reference of a node whose references are single cells."""
+        found = self._single_cells.get((node.sheet, node.ref))
+        if found is None:
+            found = self._single_cells[(node.sheet, node.ref)] = [
+                (source, f"{index_to_col(reference.c1)}{reference.r1}")
+                for reference, source in zip(node.prepared.references, node.sources)]
+        return found
+
     def _batchable(self, key) -> bool:
         """Whether a cell may be calculated in a batch of its shape: a plain cell formula
         outside any loop whose every reference is one cell of a sheet that exists."""
@@ -578,7 +588,8 @@ class Model:
                 if isinstance(step, _Batch):
                     batch = [k for k in step if k not in sets and (needed is None or k in needed)]
                     if batch:
-                        calculate_batch(self, batch, values, results, recorder, area_values)
+                        calculate_batch(self, batch, values, results, recorder, area_values,
+                                        cell_value)
                 elif isinstance(step, _Loop):
                     if needed is not None and not any(k in needed for k in step):
                         pass

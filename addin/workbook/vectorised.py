@@ -149,7 +149,7 @@ def _run(plan: Plan, columns: list, size: int):
     return cells if all(type(cell) is str for cell in cells) else None
 
 
-def _inputs_of(model, node, key, results, area_values):
+def _inputs_of(model, node, results, cell_value):
     """A cell's input numbers in the order of its references, or None when it must go the usual
     way (an input that is not a finite number, an error or a failure upstream)."""
     for dep in node.deps:
@@ -157,18 +157,19 @@ def _inputs_of(model, node, key, results, area_values):
         if found is not None and found.status not in ("value", "note"):
             return None
     numbers = []
-    for reference, source in zip(node.prepared.references, node.sources):
-        value = area_values(source, reference)[0, 0]
+    for source, ref in model.single_cells(node):
+        value = cell_value(source, ref)
         if type(value) not in (float, int) or not math.isfinite(value):
             return None
         numbers.append(float(value))
     return numbers
 
 
-def calculate_batch(model, keys, values, results, recorder, area_values) -> None:
+def calculate_batch(model, keys, values, results, recorder, area_values, cell_value) -> None:
     """Calculate cells of one shape that do not read one another (``keys``, in calculation
     order): together where :mod:`this module <stillair.addin.workbook.vectorised>` allows, else
-    each on its own; results and values land as :func:`calculate_node` puts them."""
+    each on its own; results and values land as :func:`calculate_node` puts them.
+    ``cell_value(sheet, ref)``: a cell's value as the formulas read it."""
     first, rest = keys[0], keys[1:]
     # The first cell goes the usual way: it compiles the shape (a note of the compile is its).
     results.update(calculate_node(model, model.nodes[first], first, values, results, recorder,
@@ -176,7 +177,7 @@ def calculate_batch(model, keys, values, results, recorder, area_values) -> None
     plan, positions = model.plan(model.nodes[first]) if rest else (None, None)
     batched, alone = [], []
     for key in rest:
-        numbers = _inputs_of(model, model.nodes[key], key, results, area_values) if plan else None
+        numbers = _inputs_of(model, model.nodes[key], results, cell_value) if plan else None
         (alone if numbers is None else batched).append((key, numbers))
     for key, _ in alone:
         results.update(calculate_node(model, model.nodes[key], key, values, results, recorder,
