@@ -253,6 +253,9 @@ class Model:
         from bisect import bisect_left, bisect_right
         if target is None:
             return set()
+        if reference.r1 == reference.r2 and reference.c1 == reference.c2:   # one cell: most
+            owner = self.owner.get((target, f"{index_to_col(reference.c1)}{reference.r1}"))
+            return {owner} if owner is not None else set()
         found = set()
         for col, rows in self.columns.get(target, {}).items():
             if reference.c1 <= col <= reference.c2:
