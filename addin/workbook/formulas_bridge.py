@@ -40,19 +40,46 @@ def load() -> None:
     logging.getLogger("formulas").setLevel(logging.CRITICAL)
 
 
-_LAZY = "scipy.stats"
+# The scipy modules formulas' statistics module imports at its top; none of them is needed
+# until a statistics function runs (interp1d by PERCENTILE..., linalg by LINEST...).
+_LAZY = ("scipy.stats", "scipy.interpolate", "scipy.linalg")
+_deferring = False   # True while formulas' function table is imported (register_functions)
 
 
 def _lazy_module_type():
     import types
 
     class LazyModule(types.ModuleType):
-        """Stands in for a module until an attribute of it is first used."""
+        """Stands in for a module until an attribute of it is first used.  While formulas'
+        function table is imported, a name taken from it (``from scipy.interpolate import
+        interp1d``) is a stand-in too, fetched when first called."""
 
         def __getattr__(self, attribute):
+            if _deferring:
+                if attribute.startswith("__"):   # the import system asking for __path__...
+                    raise AttributeError(attribute)
+                return _LazyAttribute(self.__name__, attribute)
             return getattr(_real_module(self.__name__), attribute)
 
     return LazyModule
+
+
+class _LazyAttribute:
+    """A function or class of a deferred module, taken by name at import; the real one is
+    fetched when it is first called or read."""
+
+    def __init__(self, module: str, name: str):
+        self._where = (module, name)
+
+    def _real(self):
+        module, name = self._where
+        return getattr(_real_module(module), name)
+
+    def __call__(self, *args, **kwargs):
+        return self._real()(*args, **kwargs)
+
+    def __getattr__(self, attribute):
+        return getattr(self._real(), attribute)
 
 
 def _real_module(name: str):
@@ -64,19 +91,23 @@ def _real_module(name: str):
 
 
 def defer_statistics() -> None:
-    """Import scipy.stats when a statistics function first needs it, not with formulas.
+    """Import scipy.stats, scipy.interpolate and scipy.linalg when a statistics function first
+    needs them, not with formulas.
 
-    formulas' function table imports its statistics module, which imports scipy.stats at the
-    top (about a second of CPU in every command), although MAX, MIN, AVERAGE... never use it.
-    A stand-in module takes scipy.stats' place until one of its attributes is used; then the
-    real module is imported and answers (tests/test_headless.py checks a distribution)."""
+    formulas' function table imports its statistics module, which imports those at the top
+    (about a second of CPU in every command for scipy.stats, a third of a second for the other
+    two, which bring scipy.optimize), although MAX, MIN, AVERAGE... never use them.  A stand-in
+    module takes each one's place (one already imported is left alone) until one of its
+    attributes is used; then the real module is imported and answers (tests/test_headless.py
+    checks a distribution and an interpolated percentile)."""
     import sys
 
-    if _LAZY in sys.modules:
-        return
-    stand_in = _lazy_module_type()(_LAZY)
-    stand_in.stand_in = True
-    sys.modules[_LAZY] = stand_in
+    for name in _LAZY:
+        if name in sys.modules:
+            continue
+        stand_in = _lazy_module_type()(name)
+        stand_in.stand_in = True
+        sys.modules[name] = stand_in
 
 
 def register_functions() -> None:
@@ -84,12 +115,17 @@ def register_functions() -> None:
     global _registered
     if _registered:
         return
+    global _deferring
     defer_statistics()
     import formulas
     import numpy as np
     from formulas.functions import wrap_func
 
-    table = formulas.get_functions()
+    _deferring = True
+    try:
+        table = formulas.get_functions()
+    finally:
+        _deferring = False
     for entry in REGISTRY:
         def cell_function(*args, _entry=entry):
             recorder = NoteRecorder._active
