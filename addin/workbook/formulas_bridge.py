@@ -27,7 +27,7 @@ from .reader import CellError  # noqa: E402
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
            "run_problem", "reads_references", "as_reference", "input_reference_text", "call_steps",
-           "step_name", "compiled_function", "is_identity_filter"]
+           "step_name", "compiled_function", "is_identity_filter", "call_registered"]
 
 _registered = False
 
@@ -112,13 +112,11 @@ def defer_statistics() -> None:
 
 def register_functions() -> None:
     """Register every registry function in formulas' function table (idempotent)."""
-    global _registered
+    global _registered, _deferring
     if _registered:
         return
-    global _deferring
     defer_statistics()
     import formulas
-    import numpy as np
     from formulas.functions import wrap_func
 
     _deferring = True
@@ -128,32 +126,7 @@ def register_functions() -> None:
         _deferring = False
     for entry in REGISTRY:
         def cell_function(*args, _entry=entry):
-            recorder = NoteRecorder._active
-            key = _table_call_key(_entry, args) if _entry.has_table else None
-            stored = _TABLE_CALLS.get(key) if key is not None else None
-            if stored is not None:
-                result, messages, error = stored
-                _TABLE_CALLS.move_to_end(key)
-                if recorder is not None:   # the call's notes, on this cell
-                    for message in messages:
-                        recorder.add(message)
-                    if error:
-                        getattr(recorder, "errors", []).append((recorder.current, result))
-            else:
-                before = len(recorder.notes) if recorder is not None else 0
-                result = evaluate_cell(_entry, *args)
-                messages = tuple(m for _, m in recorder.notes[before:]) if recorder else ()
-                error = isinstance(result, str) and recorder is not None and _is_error_result(
-                    _entry, result, recorder.notes[before:])
-                if error:
-                    getattr(recorder, "errors", []).append((recorder.current, result))
-                if key is not None:
-                    _TABLE_CALLS[key] = (result, messages, error)
-                    if len(_TABLE_CALLS) > _TABLE_CALLS_KEPT:
-                        _TABLE_CALLS.popitem(last=False)
-            if isinstance(result, list):
-                return np.asarray(result, dtype=object)
-            return result
+            return call_registered(_entry, *args)
 
         cell_function.__name__ = entry.name
         table[entry.name] = wrap_func(cell_function)
@@ -185,6 +158,40 @@ def _table_call_key(entry, args):
             return None
         parts.append((np.shape(arg), tuple(flat), kinds))
     return tuple(parts)
+
+
+def call_registered(entry, *args):
+    """A registry function called as a formula cell calls it (what formulas runs for our
+    functions): the cell path's result, a table as an array; its notes go to the active
+    recorder and a rejection to the recorder's errors, both under its current cell."""
+    import numpy as np
+
+    recorder = NoteRecorder._active
+    key = _table_call_key(entry, args) if entry.has_table else None
+    stored = _TABLE_CALLS.get(key) if key is not None else None
+    if stored is not None:
+        result, messages, error = stored
+        _TABLE_CALLS.move_to_end(key)
+        if recorder is not None:   # the call's notes, on this cell
+            for message in messages:
+                recorder.add(message)
+            if error:
+                getattr(recorder, "errors", []).append((recorder.current, result))
+    else:
+        before = len(recorder.notes) if recorder is not None else 0
+        result = evaluate_cell(entry, *args)
+        messages = tuple(m for _, m in recorder.notes[before:]) if recorder else ()
+        error = isinstance(result, str) and recorder is not None and _is_error_result(
+            entry, result, recorder.notes[before:])
+        if error:
+            getattr(recorder, "errors", []).append((recorder.current, result))
+        if key is not None:
+            _TABLE_CALLS[key] = (result, messages, error)
+            if len(_TABLE_CALLS) > _TABLE_CALLS_KEPT:
+                _TABLE_CALLS.popitem(last=False)
+    if isinstance(result, list):
+        return np.asarray(result, dtype=object)
+    return result
 
 
 def _counting_arrays_too(original, axis: int):

@@ -28,7 +28,8 @@ import numpy as np
 from ..cells.callpath import evaluate_arrays
 from ..cells.registry import BY_NAME
 from .execute import calculate_node, judge
-from .formulas_bridge import call_steps, compiled_function, is_identity_filter, step_name
+from .formulas_bridge import (call_registered, call_steps, compiled_function, is_identity_filter,
+                              plain, step_name)
 from .status import label
 
 __all__ = ["Plan", "plan_of", "calculate_batch", "SMALLEST_BATCH"]
@@ -60,6 +61,7 @@ class Plan:
     inputs: tuple
     output: str
     ours: bool          # the formula calls one of our functions (the scale rule of execute)
+    single: object = None   # the registry entry when the formula is one call of its inputs
 
 
 def plan_of(function, ours: bool) -> Plan | None:
@@ -99,7 +101,9 @@ def plan_of(function, ours: bool) -> Plan | None:
                 any(arg.kind != "number" for arg in entry.args[:len(ins)]):
             return None
         steps.append((entry, ins, outs[0]))
-    return Plan(tuple(constants), tuple(steps), tuple(inputs), output, ours)
+    single = steps[0][0] if len(steps) == 1 and not constants and \
+        steps[0][1] == tuple(inputs) and not callable(steps[0][0]) else None
+    return Plan(tuple(constants), tuple(steps), tuple(inputs), output, ours, single)
 
 
 @dataclass(frozen=True, slots=True)
@@ -165,6 +169,27 @@ def _inputs_of(model, node, results, cell_value):
     return numbers
 
 
+def _calculate_call(plan: Plan, key, numbers, scale: float, values, results, recorder) -> None:
+    """One cell whose formula is one call of our function on its inputs, which are finite
+    numbers: the call a formula cell makes (``formulas_bridge.call_registered``) and the status
+    :func:`calculate_node` gives it, without the library's wrappers around the call."""
+    where = label(*key)
+    notes, errors = len(recorder.notes), len(recorder.errors)
+    recorder.current = where
+    try:
+        raw = call_registered(plan.single, *numbers)
+    finally:
+        recorder.current = None
+    array = np.asarray(raw, dtype=object).reshape(-1)
+    value = array[0] if array.size else raw
+    values[key] = value
+    plain_value = plain(value)
+    own = abs(plain_value) if isinstance(plain_value, float) and math.isfinite(plain_value) else 0.0
+    results[key] = judge(plain_value, value, own if plan.ours else max(scale, own), where,
+                         tuple(m for _, m in recorder.errors[errors:]),
+                         tuple(m for _, m in recorder.notes[notes:]), None)
+
+
 def calculate_batch(model, keys, values, results, recorder, area_values, cell_value) -> None:
     """Calculate cells of one shape that do not read one another (``keys``, in calculation
     order): together where :mod:`this module <stillair.addin.workbook.vectorised>` allows, else
@@ -198,9 +223,13 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
                 middle = (start + stop) // 2
                 parts.extend(((middle, stop), (start, middle)))
                 continue
-            for key, _ in batched[start:stop]:
-                results.update(calculate_node(model, model.nodes[key], key, values, results,
-                                              recorder, area_values))
+            for (key, numbers), scale in zip(batched[start:stop], scales[start:stop].tolist()):
+                if plan.single is not None:
+                    _calculate_call(plan, key, [numbers[p] for p in positions], scale, values,
+                                    results, recorder)
+                else:
+                    results.update(calculate_node(model, model.nodes[key], key, values, results,
+                                                  recorder, area_values))
             continue
         for (key, _), value, scale in zip(batched[start:stop], out, scales[start:stop].tolist()):
             values[key] = value
