@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import json
 import math
 import re
@@ -551,3 +552,28 @@ def test_cells_past_the_used_range_are_blank_in_every_range(tmp_path):
     values = evaluate_book(str(path)).values["S"]
     assert values["A12"] == pytest.approx(0.5 * 2.0 * 20.0 / 0.1, rel=1e-12)  # k A dT / L, Fourier's law
     assert values["B12"] == 0 and values["C12"] == 0
+
+
+def test_the_cause_a_reader_names_does_not_follow_the_hash_seed(tmp_path):
+    """A cell reading two failing cells names one cause, the same in every run (a set's order
+    follows PYTHONHASHSEED, so the first failure found used to change between runs)."""
+    import subprocess
+    import sys
+
+    import openpyxl
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.title = "Calc"
+    for row in range(1, 13):
+        sheet[f"A{row}"] = f"=AIR_DENSITY(-{400 + row})"     # below absolute zero: an error
+    sheet["B1"] = "=" + "+".join(f"A{row}" for row in range(12, 0, -1))
+    path = tmp_path / "two_causes.xlsx"
+    book.save(path)
+    probe = ("from stillair.addin.workbook.model import evaluate_book; import sys; "
+             "print(evaluate_book(sys.argv[1]).results[('Calc', 'B1')].cause)")
+    causes = set()
+    for seed in ("1", "2", "3", "4", "5", "6"):
+        done = subprocess.run([sys.executable, "-c", probe, str(path)], capture_output=True, text=True,
+                              env={**os.environ, "PYTHONHASHSEED": seed})
+        causes.add(done.stdout.strip() or done.stderr)
+    assert causes == {"Calc!A1"}     # the first in reading order
