@@ -29,6 +29,7 @@ from dataclasses import dataclass
 
 from .reader import Book, BookError, split_ref
 from .report import group_notes
+from .rules import check_sets
 from .sets import parse_value, resolve_target
 from .status import label
 
@@ -200,12 +201,17 @@ class CaseRun:
             if len(fields) > len(headers):
                 raise BookError(f"line {line} has {len(fields)} fields, the header names "
                                 f"{len(headers)} inputs")
-            sets = {}
+            sets, shown = {}, {}
             for header, text in zip(headers, fields):
                 if not text.strip():
                     continue   # an empty field: the workbook's own value
-                sets[resolve_target(self.model.book, header)] = parse_value(text)
+                key = resolve_target(self.model.book, header)
+                sets[key] = parse_value(text)
+                shown[key] = f"{header}={text.strip()}"
             evaluation = self.model.calculate(sets, reuse=True)
+            # the workbook's input rules apply to every row's values, as to --set
+            unchecked = check_sets(self.model, evaluation, sets, shown, command="")
+            evaluation.notes.extend(("", message) for message in unchecked)
         except Exception as error:  # noqa: BLE001  a failing row must not stop the others
             reason = " ".join(str(error).split()) or type(error).__name__
             if not isinstance(error, (BookError, ValueError)):
