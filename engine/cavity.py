@@ -39,6 +39,7 @@ from functools import lru_cache
 import numpy as np
 
 from .correlations import (
+    AUTO_PRINCIPLE,
     AutoStep,
     Geometry,
     Parameter,
@@ -51,7 +52,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
-from ._select import any_true, where
+from ._select import any_true, ignoring_division_by, maximum, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -59,22 +60,19 @@ __all__ = ["nu_cavity", "cavity_method", "cavity_critical_tilt", "tilt_from_vert
            "CRITICAL_TILT_TABLE", "AUTO_RULE"]
 
 AUTO_RULE = (
-    "auto weighs, in this order, each method's coverage of what the earlier ones left: "
-    "conduction (heated from above, or Ra cos(tilt) <= 1708 and Ra sin(tilt) <= 1e3), hollands "
-    "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9, "
-    "carried to 5 deg off the horizontal for H/L >= 12), then the vertical correlations with the shared tilt "
-    "treatment (Catton's interpolation below the critical tilt for H/L < 12): elsherbiny, "
-    "catton (its short-layer form carried below H/L = 1, the nearest range, with the note), "
-    "macgregor-emery, wright; what is left stays with the nearest valid correlation - conduction "
-    "inside its own range (fading across a factor 1.25 beyond it), Catton's short-layer form for "
-    "H/L < 2, its tall-layer form to H/L = 10, MacGregor-Emery's turbulent "
-    "form for liquids (Pr >= 1) to H/L = 40 - and the rest goes to hollands below 75 deg and "
-    "elsherbiny from 75 deg, with the out-of-range note.  Each coverage falls from 1 to 0 across a "
-    "transition band inside the published bound - a factor 4 in Ra, 1.25 in aspect and Pr, "
-    "5 deg in tilt - so the value changes without a step and lies between the methods it "
-    "blends; Catton's and MacGregor-Emery's own bands are blended the same way.  A method named "
-    "explicitly keeps its published form.  en673 is never chosen by auto (it is the glazing "
-    "standard's own procedure; ask for it).")
+    "auto's order among the correlations valid at a point: conduction (Ra cos(tilt) <= 1708 and "
+    "Ra sin(tilt) <= 1e3: heated from above, or below the onset of convection), hollands "
+    "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8 horizontal and Ra cos(tilt) <= 1e5 tilted, that bound "
+    "reached over the first degree), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
+    "vertical correlations with the shared tilt treatment (Catton's interpolation below the "
+    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its "
+    "short-layer form to H/L = 2, handed over to its tall-layer form from 2 to 2.24, the short "
+    "form extrapolated by at most a factor 1.12 there), macgregor-emery (its laminar and "
+    "turbulent boxes; Pr >= 1), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
+    "layer keeps Catton's short-layer form (H/L 1 is its bound, nothing else is published "
+    "there), extrapolated below H/L 1 with the note.  A method named explicitly keeps its "
+    "published form.  en673 is never chosen by auto (it is the glazing standard's own "
+    "procedure; ask for it).")
 
 #: Critical tilt t* (deg from horizontal, heated from below) against aspect H/L, below which the
 #: vertical-layer flow gives way to the Benard cells of the heated-from-below layer.
@@ -202,28 +200,50 @@ def _tilt_past_critical(inputs):
 
 
 TILT_FROM_CRITICAL = Range(
-    "tilt - critical tilt [H/L >= 12]", low=0.0,
+    "tilt - critical tilt [H/L >= 12]", low=0.0, in_auto=False,
     of=_only_in_band(lambda i: i["aspect"] >= SHORT_CAVITY, _tilt_past_critical, 0.0))
 """Tall layers: the vertical methods' tilt range starts at the critical tilt t*(aspect)."""
 
 HORIZONTAL_VALUE_RA = Range(
-    "Ra [tilt < critical tilt]", high=1e8,
+    "Ra [tilt < critical tilt]", high=1e8, in_auto=False,
     of=_only_in_band(lambda i: i["tilt"] < _critical_tilt(i["aspect"]), _input("ra"), 0.0))
 """Below t*, Catton's interpolation takes Nu(0) from Hollands' horizontal form (Ra <= 1e8)."""
 
 VERTICAL_TILT_RANGES = (TILT_FROM_CRITICAL, HORIZONTAL_VALUE_RA)
 
 
+# Auto reads continuous versions of the ranges above, which jump (Range.in_auto): a weight
+# that jumps would make auto's value jump.  Each reaches the published bound where it binds.
+
 def _vertical_tilt_margin(inputs):
-    """How far (deg) the vertical methods' tilt treatment is inside its reach: any tilt for
-    H/L <= 12, tilt - t* from H/L 15, and continuously between, so auto never switches on it."""
-    reach = (CRITICAL_TILT_TALL_FROM - inputs["aspect"]) * (5.0 / (CRITICAL_TILT_TALL_FROM - SHORT_CAVITY))
-    return np.maximum(_tilt_past_critical(inputs), reach)
+    """How far (deg) the vertical methods' tilt treatment is inside its reach: any tilt below
+    H/L = 12 (by (12 - H/L) x 5/3 deg, so the 5 deg band fades from H/L 9 to 12), tilt - t*
+    from there, continuously; the published range jumps at H/L = 12."""
+    reach = (SHORT_CAVITY - inputs["aspect"]) * (5.0 / 3.0)
+    return maximum(_tilt_past_critical(inputs), reach)
 
 
-VERTICAL_TILT_COVERAGE = Range("tilt past the vertical methods' reach", low=0.0, of=_vertical_tilt_margin)
-"""Auto's coverage of the vertical methods in tilt: full for short layers, from t* + 5 deg for
-tall ones (the band inside t*, while hollands hands over across 70-75 deg)."""
+def _horizontal_value_ra(inputs):
+    """Ra where Catton's interpolation reads Hollands' horizontal value, faded out over the
+    5 deg below t*: the horizontal value's share of the interpolation, 1 - tilt/t*, is small
+    there and vanishes at t*, where the published bound stops at once."""
+    share = np.clip((_critical_tilt(inputs["aspect"]) - inputs["tilt"]) / 5.0, 0.0, 1.0)
+    return inputs["ra"] * share
+
+
+VERTICAL_TILT_COVERAGE = (
+    Range("tilt past the vertical methods' reach", low=0.0, of=_vertical_tilt_margin),
+    Range("Ra [tilt < critical tilt, faded over 5 deg]", high=1e8, of=_horizontal_value_ra))
+"""Auto's reading of :data:`VERTICAL_TILT_RANGES`, continuous in tilt and aspect."""
+
+
+def _hollands_tilted_ra(inputs):
+    """Ra cos(tilt) x 1000^(tilt/1 deg, at most 1): the published bound Ra cos(tilt) <= 1e5 once
+    tilted, Ra <= 1e8 horizontal, reached over the first degree instead of at once."""
+    return _ra_cos(inputs) * 1e3 ** np.minimum(inputs["tilt"], 1.0)
+
+
+HOLLANDS_TILTED_RA = Range("Ra cos(tilt) [tilt > 0], over the first degree", high=1e8, of=_hollands_tilted_ra)
 
 
 # --- geometry ---------------------------------------------------------------------------------
@@ -237,57 +257,37 @@ def _catton_x(inputs):
 
 
 #: Auto's coverage of the two published bands of Catton's and MacGregor-Emery's correlations:
-#: their own ranges, with Catton's aspect edge at 2 blended over a factor 1.25 centred on it
-#: (each band extrapolated by a factor 1.12) and MacGregor-Emery's laminar box handing over to
-#: the turbulent one inside both (Ra 2.5e6-1e7).
+#: each band's own published range, with Catton's aspect edge at 2 in a band of a factor 1.25
+#: centred on it (each band's coverage may reach a factor 1.12 past the edge; auto, preferring
+#: the short form where both are equally deep, hands it over from 2 to 2.24) and
+#: MacGregor-Emery's laminar box handing over to the turbulent one inside both (Ra 2.5e6-1e7).
 CATTON_SHORT_WHEN = (Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),
-                     Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x),
-                     VERTICAL_TILT_COVERAGE)
+                     Range("Pr", 1e-3, 1e5), Range("Ra*Pr/(0.2+Pr)", low=1e3, of=_catton_x)) + VERTICAL_TILT_COVERAGE
 CATTON_TALL_WHEN = (Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"), Range("aspect", high=10.0),
-                    Range("Pr", high=1e5), Range("Ra", 1e3, 1e10), VERTICAL_TILT_COVERAGE)
+                    Range("Pr", high=1e5), Range("Ra", 1e3, 1e10)) + VERTICAL_TILT_COVERAGE
 MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("Pr", 1.0, 2e4),
-                          Range("Ra", 1e4, _MACGREGOR_EDGE_RA), VERTICAL_TILT_COVERAGE)
-MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0), Range("Ra", 1e6, 1e9),
-                            VERTICAL_TILT_COVERAGE)
+                          Range("Ra", 1e4, _MACGREGOR_EDGE_RA)) + VERTICAL_TILT_COVERAGE
+MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0),
+                            Range("Ra", 1e6, 1e9)) + VERTICAL_TILT_COVERAGE
 ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7))
 #: Wright's aspect reach: the correlation reads H/L through Nu_2, but no upper bound was found
 #: in a source we could read; 1e3 is our bound (glazing cavities run to H/L ~ 200), so that an
 #: aspect typed in the wrong unit (a height in mm: H/L of tens of thousands) gets the note.
 WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", 20.0, 1e3))
 
+#: The order auto prefers among the correlations valid at a point (stillair.correlations.auto
+#: weighs them; each step also reads its correlation's published ranges).  Beyond every range
+#: the rule keeps the nearest valid correlation by itself, so no step here extends a range.
 CAVITY_AUTO = (
     AutoStep("conduction"),
-    AutoStep("hollands", when=(Range("tilt", high=75.0), Range("aspect", low=SHORT_CAVITY),
-                               Range("Ra", high=1e8))),
-    # carried 5 deg off the horizontal for tall layers only: a short one (H/L < 12) has Catton's
-    # interpolation below the critical tilt, valid there
-    AutoStep("globe-dropkin", when=(Range("tilt", high=0.0, placement="outside"), Range("Ra", 3e5, 7e9),
-                                    Range("Pr", 0.02, 8750.0),
-                                    Range("aspect", low=SHORT_CAVITY, placement="outside"))),
-    AutoStep("elsherbiny", when=ELSHERBINY_RANGES + (VERTICAL_TILT_COVERAGE,)),
+    AutoStep("hollands", when=(HOLLANDS_TILTED_RA,)),
+    AutoStep("globe-dropkin"),
+    AutoStep("elsherbiny", when=VERTICAL_TILT_COVERAGE),
     AutoStep("catton", when=CATTON_SHORT_WHEN, form="short"),
     AutoStep("catton", when=CATTON_TALL_WHEN, form="tall"),
     AutoStep("macgregor-emery", when=MACGREGOR_LAMINAR_WHEN, form="laminar"),
     AutoStep("macgregor-emery", when=MACGREGOR_TURBULENT_WHEN, form="turbulent"),
-    AutoStep("wright", when=WRIGHT_RANGES + (VERTICAL_TILT_COVERAGE,)),
-    # what is left of a short layer (aspect < 2: below Catton's Ra range, or Pr outside it)
-    # stays with Catton's short-layer form, the nearest valid correlation, rather than falling
-    # to ElSherbiny's (published from aspect 5)
-    # conduction keeps what is left inside its own range, fading just beyond it (a factor 1.25)
-    AutoStep("conduction", when=(Range("Ra cos(tilt)", high=RAYLEIGH_ONSET, of=_ra_cos, band=1.25,
-                                       placement="outside"),
-                                 Range("Ra sin(tilt)", high=CONDUCTION_VERTICAL_RA, of=_ra_sin, band=1.25,
-                                       placement="outside"))),
-    AutoStep("catton", when=(Range("aspect", high=_CATTON_BAND_EDGE, placement="centred"),), form="short"),
-    # likewise what is left of a layer up to H/L = 10 (beyond Catton's Ra range, or where its
-    # band fades with no valid neighbour) stays with Catton's tall-layer form, and of a liquid
-    # layer (Pr >= 1) up to H/L = 40 with MacGregor-Emery's turbulent form
-    AutoStep("catton", when=(Range("aspect", low=_CATTON_BAND_EDGE, placement="centred"),
-                             Range("aspect", high=10.0, placement="outside")), form="tall"),
-    AutoStep("macgregor-emery", when=(Range("aspect", high=40.0, placement="outside"),
-                                      Range("Pr", low=1.0, placement="outside")), form="turbulent"),
-    AutoStep("hollands", when=(Range("tilt", high=75.0),)),
-    AutoStep("elsherbiny", when=()),
+    AutoStep("wright", when=VERTICAL_TILT_COVERAGE),
 )
 
 define_geometry(Geometry(
@@ -369,10 +369,10 @@ def _catton_tall(ra, pr, aspect):
     validity=[
         Range("aspect", 1.0, 10.0),
         Range("Pr", high=1e5),
-        Range("Pr [H/L < 2]", low=1e-3, of=_only_in_band(_CATTON_SHORT, _input("pr"), 1e-3)),
-        Range("Ra [H/L >= 2]", 1e3, 1e10,
+        Range("Pr [H/L < 2]", low=1e-3, in_auto=False, of=_only_in_band(_CATTON_SHORT, _input("pr"), 1e-3)),
+        Range("Ra [H/L >= 2]", 1e3, 1e10, in_auto=False,
               of=_only_in_band(lambda i: ~_CATTON_SHORT(i), _input("ra"), 1e3)),
-        Range("Ra*Pr/(0.2+Pr) [H/L < 2]", low=1e3, of=_only_in_band(_CATTON_SHORT, _catton_x, 1e3)),
+        Range("Ra*Pr/(0.2+Pr) [H/L < 2]", low=1e3, in_auto=False, of=_only_in_band(_CATTON_SHORT, _catton_x, 1e3)),
     ],
     notes="One method, band chosen by aspect: eq. 9.53 for H/L < 2, eq. 9.52 from H/L = 2 up "
           "(the bands meet at 2, where the value steps up by about 9 % at Ra ~ 1e5).  The "
@@ -413,14 +413,14 @@ def _macgregor_turbulent(ra, pr, aspect):
         Range("aspect", 1.0, 40.0),
         Range("Pr", 1.0, 2e4),
         Range("Ra", 1e4, 1e9),
-        Range("Pr [0.046 Ra^(1/3) band]", high=20.0,
+        Range("Pr [0.046 Ra^(1/3) band]", high=20.0, in_auto=False,
               of=_only_in_band(lambda i: ~_macgregor_laminar_band(i), _input("pr"), 20.0)),
-        Range("Ra [0.046 Ra^(1/3) band]", low=1e6,
+        Range("Ra [0.046 Ra^(1/3) band]", low=1e6, in_auto=False,
               of=_only_in_band(lambda i: ~_macgregor_laminar_band(i), _input("ra"), 1e6)),
     ],
     notes="The published Prandtl range starts at Pr = 1: air (Pr ~ 0.71) and the other fill "
-          "gases are OUTSIDE it and always carry a note (auto therefore never picks this method "
-          "for gases).  Where the two published boxes overlap (10 <= H/L <= 40, 1e6 <= Ra <= "
+          "gases are OUTSIDE it and always carry a note (auto uses it for a gas only where no "
+          "correlation covers the case and it is the nearest, extrapolated).  Where the two published boxes overlap (10 <= H/L <= 40, 1e6 <= Ra <= "
           "1e7) eq. 9.54 is used; the value steps at Ra = 1e7 (-16 % at H/L = 10, +27 % at "
           "H/L = 40) and at H/L = 10 (+45 % at Ra = 1e6).  The formulas stay above 1 inside "
           "the published ranges.")
@@ -444,11 +444,11 @@ def macgregor_emery_vertical(ra, pr, aspect):
           "goes below conduction.")
 def elsherbiny_vertical(ra, pr, aspect):
     """ElSherbiny, Raithby & Hollands (1982), vertical layers: the largest of three regimes."""
-    with np.errstate(divide="ignore"):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
+    with ignoring_division_by(ra):  # Ra = 0: 6310/Ra = inf, and the term is 1 (conduction)
         conduction_transition = (1.0 + (0.104 * ra ** 0.293 / (1.0 + (6310.0 / ra) ** 1.36)) ** 3) ** (1.0 / 3.0)
     laminar_boundary_layer = 0.242 * (ra / aspect) ** 0.273
     turbulent = 0.0605 * ra ** (1.0 / 3.0)
-    return np.maximum(conduction_transition, np.maximum(laminar_boundary_layer, turbulent))
+    return maximum(conduction_transition, maximum(laminar_boundary_layer, turbulent))
 
 
 def _wright_bands(ra):
@@ -493,7 +493,7 @@ def wright_vertical(ra, pr, aspect):
         Range("tilt", 0.0, 75.0),
         Range("aspect", low=12.0),
         Range("Ra", high=1e8),
-        Range("Ra cos(tilt) [tilt > 0]", high=1e5,
+        Range("Ra cos(tilt) [tilt > 0]", high=1e5, in_auto=False,
               of=_only_in_band(lambda i: i["tilt"] > 0.0, _ra_cos, 0.0)),
     ],
     notes="Air (and gases of similar Pr).  Ra < 1e8 for the horizontal layer (1975), "

@@ -18,6 +18,7 @@ from __future__ import annotations
 import numpy as np
 
 from .correlations import (
+    AUTO_PRINCIPLE,
     PLATE_CASES,
     STABLE_CASES,
     UNSTABLE_CASES,
@@ -318,11 +319,12 @@ define_geometry(Geometry(
     name="hcyl", title="horizontal cylinder", inputs=("ra", "pr"),
     length="diameter", length_doc="outside diameter, m",
     parameters=(Parameter("diameter", "m", "outside diameter (> 0)"),),
-    description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu where "
-                "1e-5 <= Ra <= 1e12, else morgan where 1e-10 <= Ra <= 1e12, else churchill-chu "
-                "with the note; churchill-chu hands over to morgan across a factor 4 inside its "
-                "bounds (Ra 1e-5..4e-5 and 2.5e11..1e12), without a step.",
-    auto={None: (AutoStep("churchill-chu"), AutoStep("morgan"), AutoStep("churchill-chu", when=()))}))
+    description="Long horizontal cylinder, Ra on the diameter. Auto rule: churchill-chu "
+                "(1e-5 <= Ra <= 1e12), then morgan (1e-10 <= Ra <= 1e12): churchill-chu hands over "
+                "to morgan across a factor 4 inside its lower bound (Ra 1e-5..4e-5); at their "
+                "common upper bound churchill-chu keeps its weight and is used beyond it with "
+                "the note. " + AUTO_PRINCIPLE,
+    auto={None: (AutoStep("churchill-chu"), AutoStep("morgan"))}))
 
 
 @correlation(
@@ -419,7 +421,7 @@ def _thin_cylinder_group(inputs):
 
 
 #: Sparrow & Gregg's thin-cylinder criterion; auto hands over to popiel across (D/L) Gr^(1/4)
-#: = 35 .. 70 (both correlations inside their ranges there).
+#: = 35 .. 70 where popiel is inside its range.
 THIN_CYLINDER = Range("(D/L)*Gr^(1/4)", low=35.0, of=_thin_cylinder_group, band=2.0)
 
 define_geometry(Geometry(
@@ -429,13 +431,12 @@ define_geometry(Geometry(
                 Parameter("diameter", "m", "outside diameter (> 0)")),
     description="Vertical cylinder, Ra on the height, slenderness = height/diameter. Auto rule: "
                 "churchill-chu (the vertical-plate result) where the thin-cylinder criterion "
-                "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12; else popiel where "
-                "1.5e4 <= Ra <= 1e9, slenderness <= 60, 0.01 <= Pr <= 100; else, with the note, "
-                "churchill-chu where the criterion holds and popiel where it does not. The "
-                "hand-over is blended across (D/L) Gr^(1/4) = 35..70 (a factor 2 inside the "
-                "criterion) and a factor 4 inside churchill-chu's Ra bounds, without a step.",
-    auto={None: (AutoStep("churchill-chu"), AutoStep("popiel"),
-                 AutoStep("churchill-chu", when=(THIN_CYLINDER,)), AutoStep("popiel", when=()))}))
+                "(D/L) Gr^(1/4) >= 35 holds and 0.1 <= Ra <= 1e12, then popiel (1.5e4 <= Ra <= "
+                "1e9, slenderness <= 60, 0.01 <= Pr <= 100); the plate result hands over to "
+                "popiel across (D/L) Gr^(1/4) = 35..70 (a factor 2 inside the criterion) where "
+                "popiel is in range; outside both ranges the nearer is used, with the note. "
+                + AUTO_PRINCIPLE,
+    auto={None: (AutoStep("churchill-chu"), AutoStep("popiel"))}))
 
 
 @correlation(

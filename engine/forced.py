@@ -34,7 +34,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._select import where
-from .correlations import AutoStep, Geometry, correlation, define_geometry
+from .correlations import AUTO_PRINCIPLE, AutoStep, Geometry, correlation, define_geometry
 from .validity import Range
 
 __all__ = ["MIXING_EXPONENT", "MIXING_SOURCE", "MIXING_EQUATION", "WindFlow", "WIND_FLOWS",
@@ -68,9 +68,10 @@ def combine_mixed(h_natural, h_forced):
 
 #: The critical Reynolds number of the mixed boundary layer; 871 = 0.037 Re_c^0.8 - 0.664 Re_c^0.5.
 PLATE_CRITICAL_RE = 5e5
-#: auto switches at Re_c without a band: the two forms meet there within 0.1 %, while a blend
-#: below Re_c would read the mixed form where it falls away steeply (a 1 % dip).
-_PLATE_SWITCH = Range("Re", high=PLATE_CRITICAL_RE, band=1.0)
+#: The published bound Re_c of both forms carries no transition band (band=1: a switch): the two
+#: forms meet there within 0.1 %, while a band inside either bound would read the mixed form
+#: below Re_c, where it falls away steeply (a 1 % dip), or hand the laminar form past it.
+_PLATE_SWITCH_BAND = 1.0
 
 define_geometry(Geometry(
     name="plate-flow", title="flat plate in parallel flow (wind)", inputs=("re", "pr"),
@@ -78,9 +79,8 @@ define_geometry(Geometry(
     description="Flat plate in a parallel flow, Re on the length along the flow, properties at the "
                 "film temperature. Auto rule: pohlhausen (laminar boundary layer) up to Re = 5e5, "
                 "mixed-boundary-layer above it; the two meet within 0.1 % at 5e5, where auto "
-                "switches from one to the other.",
-    auto={None: (AutoStep("pohlhausen", when=(_PLATE_SWITCH,)),
-                 AutoStep("mixed-boundary-layer", when=()))}))
+                "switches from one to the other (their common bound has no transition band). " + AUTO_PRINCIPLE,
+    auto={None: (AutoStep("pohlhausen"), AutoStep("mixed-boundary-layer"))}))
 
 
 @correlation(
@@ -89,7 +89,7 @@ define_geometry(Geometry(
            "Fundamentals of Heat and Mass Transfer, 6th ed., eq. 7.30 (laminar, Pr >= 0.6); the same form "
            "in Baehr and Stephan, Heat and Mass Transfer (as implemented in ht)",
     equation="Nu = 0.664 Re^(1/2) Pr^(1/3)",
-    validity=[Range("Re", high=PLATE_CRITICAL_RE), Range("Pr", low=0.6)])
+    validity=[Range("Re", high=PLATE_CRITICAL_RE, band=_PLATE_SWITCH_BAND), Range("Pr", low=0.6)])
 def _plate_pohlhausen(re, pr):
     return 0.664 * re ** 0.5 * pr ** (1.0 / 3.0)
 
@@ -101,7 +101,7 @@ def _plate_pohlhausen(re, pr):
            "(turbulent part after Schlichting's 0.0296 Re_x^(4/5) Pr^(1/3), eq. 7.36; equation numbers "
            "and ranges from memory)",
     equation="Nu = (0.037 Re^(4/5) - 871) Pr^(1/3)",
-    validity=[Range("Re", PLATE_CRITICAL_RE, 1e8), Range("Pr", 0.6, 60.0)],
+    validity=[Range("Re", PLATE_CRITICAL_RE, 1e8, band=_PLATE_SWITCH_BAND), Range("Pr", 0.6, 60.0)],
     notes="871 = 0.037 Re_c^(4/5) - 0.664 Re_c^(1/2) at Re_c = 5e5: the laminar value is carried to "
           "the transition point.  Below Re_c the formula has no meaning (it goes negative near 1e5).")
 def _plate_mixed_boundary_layer(re, pr):

@@ -18,13 +18,12 @@ of t_i -> t_s (beyond the temperature an unlimited thickness would approach) is 
 from __future__ import annotations
 
 import math
-import warnings
 
 import numpy as np
 
 from ._typing import ArrayLike, FloatOrArray
 from .convection import surface_convection
-from .plausibility import UnitSlipWarning
+from .plausibility import PLAUSIBLE_LENGTHS, length_slip, temperature_slip, trial_sizes, warn_slips
 from .groups import DEFAULT_PRESSURE
 from .radiation import h_rad
 from .validity import (InputError, format_value, require_between, require_choice, require_finite,
@@ -136,6 +135,10 @@ def insulation_thickness(t_inner: ArrayLike, t_air: ArrayLike, t_surface: ArrayL
             raise InputError(FUNCTION, "wind_length", wind_length, "blank for hcyl (the wind crosses the pipe)")
         wind_length = require_positive(FUNCTION, "wind_length", wind_length, "m")
     along = np.nan if wind_length is None else wind_length     # nan: blank (the face's own length)
+    # the user's own sizes and temperatures are checked for unit slips here, once; the sizes the
+    # search then tries are its own (trial_sizes in _one)
+    warn_slips(FUNCTION, temperature_slip({"t_inner": t_inner, "t_air": t_air, "t_surface": t_surface}),
+               length_slip("size", size, PLAUSIBLE_SIZE[geometry]))
     arrays = np.broadcast_arrays(t_inner, t_air, t_surface, conductivity, emissivity, size, t_surroundings,
                                  pressure, wind, along)
     thickness = np.empty(arrays[0].shape)
@@ -149,6 +152,12 @@ def insulation_thickness(t_inner: ArrayLike, t_air: ArrayLike, t_surface: ArrayL
     return unwrap(thickness)
 
 
+#: The largest plausible ``size`` per geometry, m: a pipe's diameter, a face's height or length
+#: (plausibility.PLAUSIBLE_LENGTHS).
+PLAUSIBLE_SIZE = {"hcyl": PLAUSIBLE_LENGTHS["diameter"], "vplate": PLAUSIBLE_LENGTHS["height"],
+                  "hplate": PLAUSIBLE_LENGTHS["length"]}
+
+
 def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure, wind_args) -> tuple[float, str]:
     """(thickness, range note) for one case."""
     drive = ti - ts                     # the flow through the insulation is k * drive / ...
@@ -159,18 +168,11 @@ def _one(ti, ta, ts, k, eps, geometry, size, facing, tsur, gas, pressure, wind_a
     def flux(length):
         """(W/m² the outer surface passes on at t_s, positive in the direction t_i -> t_s; note)."""
         # a trial diameter is ours, not typed: the unit-slip check (a length that looks like mm)
-        # speaks of the user's own size only, so it is taken off the trials' notes
-        with warnings.catch_warnings(record=True) as slips:
-            warnings.simplefilter("always", UnitSlipWarning)
+        # speaks of the user's own size only, which was checked where it was taken
+        with trial_sizes():
             result = surface_convection(geometry, ts, ta, length, facing=facing, gas=gas, pressure=pressure,
                                         function_name=FUNCTION, **wind_args)
         note = str(result.note)
-        for slip in slips:
-            if issubclass(slip.category, UnitSlipWarning):
-                text = str(slip.message).removeprefix(f"{FUNCTION}: ")
-                note = note.replace(f"; {text}", "").replace(text, "")
-            else:
-                warnings.warn_explicit(slip.message, slip.category, slip.filename, slip.lineno)
         passed = float(result.h) * (ts - ta) + radiation
         return math.copysign(1.0, drive) * passed, note
 

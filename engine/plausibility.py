@@ -17,15 +17,17 @@ Not errors - the number is computed - but a note where notes show (the Python wa
 
 from __future__ import annotations
 
+import contextlib
+import contextvars
 import warnings
-from typing import Mapping
+from typing import Iterator, Mapping
 
 import numpy as np
 
-from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value
+from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value, is_plain_number
 
 __all__ = ["UnitSlipWarning", "KELVIN_LOOKING", "PLAUSIBLE_LENGTHS", "temperature_slip", "length_slip",
-           "warn_slips"]
+           "warn_slips", "trial_sizes"]
 
 
 class UnitSlipWarning(CorrelationRangeWarning):
@@ -53,6 +55,12 @@ def temperature_slip(temperatures: Mapping[str, object]) -> str:
     low, high = KELVIN_LOOKING
     first = None
     for name, value in temperatures.items():
+        if is_plain_number(value):   # one plain number: plain comparisons, no array (scalar path)
+            if not low <= value <= high:
+                return ""
+            if first is None:
+                first = (name, value)
+            continue
         array = np.asarray(value, dtype=float)
         if array.size == 0 or not np.all((array >= low) & (array <= high)):
             return ""
@@ -67,16 +75,42 @@ def temperature_slip(temperatures: Mapping[str, object]) -> str:
 def length_slip(name: str, value, plausible: float | None = None) -> str:
     """The millimetre note for one length argument, or ""."""
     limit = PLAUSIBLE_LENGTHS.get(name) if plausible is None else plausible
-    array = np.asarray(value, dtype=float)
-    if limit is None or array.size == 0 or not np.any(array > limit):
+    if limit is None:
         return ""
-    largest = float(np.max(array))
+    if is_plain_number(value):       # one plain number (the scalar path): no array
+        if not value > limit:
+            return ""
+        largest = float(value)
+    else:
+        array = np.asarray(value, dtype=float)
+        if array.size == 0 or not np.any(array > limit):
+            return ""
+        largest = float(np.max(array))
     return f"{name} = {format_value(largest)} m is large for this geometry; lengths are in m: is it in mm?"
+
+
+#: Set while a function tries sizes of its own (an insulation thickness search): those sizes
+#: were not typed, so no unit-slip note may speak of them.
+_TRIALS: contextvars.ContextVar[bool] = contextvars.ContextVar("stillair_trial_sizes", default=False)
+
+
+@contextlib.contextmanager
+def trial_sizes() -> Iterator[None]:
+    """Inside, calls check no unit slips: the caller's own inputs were checked where it took
+    them, and the sizes it now tries are its own."""
+    token = _TRIALS.set(True)
+    try:
+        yield
+    finally:
+        _TRIALS.reset(token)
 
 
 def warn_slips(function_name: str, *notes: str, stacklevel: int = 3) -> str:
     """Issue a :class:`UnitSlipWarning` with the non-empty notes (``stacklevel`` as
-    :func:`warnings.warn` counts from the caller of this function, plus one); return the text."""
+    :func:`warnings.warn` counts from the caller of this function, plus one); return the text
+    ("" inside :func:`trial_sizes`)."""
+    if _TRIALS.get():
+        return ""
     text = "; ".join(note for note in notes if note)
     if text:
         # the cell layer collects notes as data (validity.collect_range_notes): a unit slip is a

@@ -17,7 +17,7 @@ import contextvars
 import math
 import warnings
 from dataclasses import dataclass
-from typing import Callable, Mapping, TypeGuard
+from typing import Any, Callable, Mapping, TypeGuard
 
 import numpy as np
 
@@ -109,6 +109,8 @@ def as_float_array(function: str, argument: str, value) -> np.ndarray:
 
 
 def require_finite(function: str, argument: str, value) -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and -math.inf < value < math.inf:   # one plain number: no array tests
+        return np.asarray(value, dtype=float)
     array = as_float_array(function, argument, value)
     finite = np.isfinite(array)
     if not np.all(finite):
@@ -121,6 +123,8 @@ def _first_bad(array: np.ndarray, bad: np.ndarray):
 
 
 def require_positive(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and 0.0 < value < math.inf:
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     bad = ~(array > 0)
     if np.any(bad):
@@ -129,6 +133,8 @@ def require_positive(function: str, argument: str, value, unit: str = "") -> np.
 
 
 def require_nonnegative(function: str, argument: str, value, unit: str = "") -> np.ndarray:
+    if type(value) in PLAIN_NUMBERS and 0.0 <= value < math.inf:
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     bad = ~(array >= 0)
     if np.any(bad):
@@ -138,6 +144,9 @@ def require_nonnegative(function: str, argument: str, value, unit: str = "") -> 
 
 def require_between(function: str, argument: str, value, low: float, high: float,
                     unit: str = "", low_open: bool = False, high_open: bool = False) -> np.ndarray:
+    if (type(value) in PLAIN_NUMBERS and -math.inf < value < math.inf
+            and (low < value if low_open else low <= value) and (value < high if high_open else value <= high)):
+        return np.asarray(value, dtype=float)
     array = require_finite(function, argument, value)
     above_low = array > low if low_open else array >= low
     below_high = array < high if high_open else array <= high
@@ -159,6 +168,8 @@ LENGTH_RANGE = (1e-6, 1e3)
 
 def require_length(function: str, argument: str, value, high: float = LENGTH_RANGE[1]) -> np.ndarray:
     """A geometry length in m, finite and inside [1e-6 m, ``high``] (:data:`LENGTH_RANGE`)."""
+    if is_plain_length(value, high):
+        return np.asarray(value, dtype=float)
     array = require_positive(function, argument, value, "m")
     low = LENGTH_RANGE[0]
     for bad, allowed in ((array > high, f"at most {format_value(high)} m (is it in mm?)"),
@@ -216,7 +227,7 @@ def warn_out_of_range(function_name: str, in_range, notes) -> None:
     """Issue a :class:`CorrelationRangeWarning` listing the distinct notes when any element is
     outside its correlation's range; it points at the line that called the caller.  While a
     caller collects the notes (:func:`collect_range_notes`) the text goes to its list instead."""
-    if not np.all(in_range):
+    if not (bool(in_range) if getattr(in_range, "ndim", None) == 0 else np.all(in_range)):  # np.all: 2 us on one
         message = f"{function_name}: outside validity range: " + "; ".join(distinct_notes(notes))
         sink = _NOTE_SINK.get()
         if sink is not None:
@@ -257,9 +268,8 @@ class Range:
     inside, none outside, and linear in between over the transition band ``band`` (a factor on
     a log scale, degrees for tilts; default :data:`TRANSITION_BANDS`).  ``placement`` puts the
     band inside the range ("inside", the default: the correlation is never weighted outside
-    its published range), centred on the bound ("centred": the two bands of one piecewise
-    correlation, each extrapolated by half the band), or outside it ("outside": a range of a
-    single point, such as a horizontal-only correlation, extended by the band).
+    its published range) or centred on the bound ("centred": the two bands of one piecewise
+    correlation, each extrapolated by half the band).
     """
 
     quantity: str
@@ -268,11 +278,17 @@ class Range:
     of: Callable[[Mapping[str, np.ndarray]], np.ndarray] | None = None
     band: float | None = None
     placement: str = "inside"
+    #: False for a bound that holds in one band of a piecewise range only (a published jump of
+    #: the range, such as Catton's Pr bound below H/L = 2): auto does not read it, because a
+    #: weight that jumps would make its value jump; the auto rule states that band's bounds in
+    #: its own steps instead.  Notes and the spread read it as published.
+    in_auto: bool = True
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
-        if self.of is not None:
-            return np.asarray(self.of(inputs), dtype=float)
-        return np.asarray(inputs[self.quantity.lower()], dtype=float)
+        value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
+        if type(value) is np.float64:   # the scalar path: a numpy scalar already (no 0-d array)
+            return value     # reads as an array of no dimensions
+        return np.asarray(value, dtype=float)
 
     def inside(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         values = self.values(inputs)
@@ -304,15 +320,14 @@ class Range:
         """The band in words, for the auto rule text."""
         unit = f"a factor {format_value(self.transition)}" if self.log_scale else \
             f"{format_value(self.transition)} deg"
-        where = {"inside": "inside the bound", "centred": "centred on the bound",
-                 "outside": "outside the bound"}[self.placement]
+        where = {"inside": "inside the bound", "centred": "centred on the bound"}[self.placement]
         return f"{self.quantity} over {unit} {where}"
 
     def weight(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         """1 well inside the range, 0 outside, linear (in log for log quantities) across the band."""
         values = self.values(inputs)
         weight = None
-        for bound, side, log_bound, scale, offset, _, _ in self._ramps:
+        for bound, side, log_bound, scale, offset in self._ramps:
             if scale == 0.0:  # no band: a step at the bound
                 ramp = (side * (values - bound) >= 0).astype(float)
             else:
@@ -325,46 +340,63 @@ class Range:
             return np.ones(np.shape(values))
         return weight
 
-    def weight_of(self, value: float) -> float:
-        """:meth:`weight` of one plain number (the scalar path; the same arithmetic).
+    def shortfall(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
+        """How far the values lie short of the range's full weight, in transition bands: 0 where
+        :meth:`weight` is 1, 1 - weight across the band, and beyond where it reaches 0, 1 + the
+        distance counted in the default band of the scale (a factor 4, 5 deg) whatever the
+        bound's own band, so that "how far outside" means the same for every quantity; the
+        larger of its two bounds'.  A bound without a band (a step) counts its distance the
+        same way; on a log scale a value <= 0 lies infinitely far below every bound.  Auto weighs its steps by it (:func:`stillair.correlations.auto.weigh_steps`)."""
+        values = self.values(inputs)
+        shortfall: Any = 0.0
+        positive = values > 0.0
+        for bound, side, log_bound, scale, offset in self._ramps:
+            # on a log scale a value <= 0 (Ra = 0, Ra cos(tilt) heated from above) lies infinitely
+            # far below every bound: beyond any lower bound, deep inside any upper one
+            along = values - bound if log_bound is None else \
+                np.where(positive, np.log(np.where(positive, values, 1.0)), -np.inf) - log_bound
+            unit = _DEFAULT_UNIT[log_bound is not None]
+            if scale == 0.0:   # a step: full weight on its side, the distance beyond it
+                position = np.where(side * along >= 0, 1.0, side * along / unit)
+            else:              # the ramp, and beyond its zero end the distance in default bands
+                position = side * along / scale + offset
+                position = np.where(position < 0.0, position * (scale / unit), position)
+            shortfall = np.maximum(shortfall, 1.0 - position)
+        return np.broadcast_to(shortfall, np.shape(values))
 
-        A value beyond a ramp's ends skips the arithmetic: the clip would give the same 0 or 1.
-        """
-        weight = 1.0
-        for bound, side, log_bound, scale, offset, full_from, none_from in self._ramps:
-            if side * (value - full_from) >= 0.0:
-                continue
-            if side * (value - none_from) <= 0.0:
-                return 0.0
+    def shortfall_of(self, value: float) -> float:
+        """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic)."""
+        shortfall = 0.0
+        for bound, side, log_bound, scale, offset in self._ramps:
+            along = value - bound if log_bound is None else \
+                (math.log(value) if value > 0.0 else -math.inf) - log_bound
+            unit = _DEFAULT_UNIT[log_bound is not None]
             if scale == 0.0:
-                ramp = 1.0 if side * (value - bound) >= 0 else 0.0
+                position = 1.0 if side * along >= 0 else side * along / unit
             else:
-                along = value - bound if log_bound is None else \
-                    math.log(value if value > 1e-300 else 1e-300) - log_bound
-                ramp = min(max(side * along / scale + offset, 0.0), 1.0)
-            weight *= ramp
-            if weight == 0.0:
-                break
-        return weight
+                position = side * along / scale + offset
+                if position < 0.0:
+                    position *= scale / unit
+            if 1.0 - position > shortfall:
+                shortfall = 1.0 - position
+        return shortfall
 
     @property
     def _ramps(self):
         """The bounds that have a transition, computed once: (bound, side, log of the bound or
-        None for a linear quantity, scale, offset, full_from, none_from).
+        None for a linear quantity, scale, offset).
 
         ``side`` is +1 for a lower bound, -1 for an upper one.  ``scale`` is the band's width on
         the quantity's scale (the log of the factor, or degrees), 0 for a step at the bound;
-        ``offset`` places the band (:data:`_OFFSET`).  ``full_from`` and ``none_from`` are where
-        the ramp reaches 1 and 0, each moved a hair outwards (1e-9 relative) so that a value
-        past them is surely clipped to that end.  A bound at the end of the input's domain, and
-        a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
+        ``offset`` places the band (:data:`_OFFSET`).  A bound at the end of the input's domain,
+        and a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
         """
         try:
             return self.__dict__["_ramp_constants"]
         except KeyError:
             pass
         domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
-        ramps: list[tuple[float, float, float | None, float, float, float, float]] = []
+        ramps: list[tuple[float, float, float | None, float, float]] = []
         width = self.transition
         offset = _OFFSET[self.placement]
         for bound, side in ((self.low, 1.0), (self.high, -1.0)):
@@ -373,20 +405,13 @@ class Range:
             if self.log_scale:
                 if side > 0 and bound <= 0.0:
                     continue
-                scale = math.log(width) if width > 1.0 else 0.0
-                full_from = bound * width ** (side * (1.0 - offset)) if scale else bound
-                none_from = bound * width ** (-side * offset) if scale else bound
-                hair = 1e-9 * bound
-                ramps.append((bound, side, math.log(bound), scale, offset,
-                              full_from + side * hair, none_from - side * hair))
+                ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0, offset))
             else:
-                scale = max(width, 0.0)
-                hair = 1e-9 * max(abs(bound), scale, 1.0)
-                ramps.append((bound, side, None, scale, offset,
-                              bound + side * (1.0 - offset) * scale + side * hair,
-                              bound - side * offset * scale - side * hair))
+                ramps.append((bound, side, None, max(width, 0.0), offset))
         self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
         return self.__dict__["_ramp_constants"]
 
 
-_OFFSET = {"inside": 0.0, "centred": 0.5, "outside": 1.0}
+_OFFSET = {"inside": 0.0, "centred": 0.5}
+#: The default band on each scale, by "is it a log scale": 5 deg, or the log of a factor 4.
+_DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}

@@ -514,3 +514,59 @@ def test_quick_filter_lets_every_form_of_our_calls_through():
                 assert maybe.search(f"=1+{prefix}{written}(A1)"), (prefix, written)
     assert maybe.search("=[1]!OTHER(2)") and not maybe.search("=SUM(A1:A3)*2")
 
+
+
+# ---------------------------------------------------------------------------------------------
+# Counts in one unit; a range note told once for the cells it covers
+
+
+def test_a_note_repeated_over_a_table_is_one_finding_naming_its_cells(tmp_path):
+    """Three cells of one beyond-range Nusselt number and a 3-cell array formula of it:
+    the note (Ra = 1e14 above Churchill & Chu's 1e12) is one fact, so one finding names all six
+    cells; the counts are cells, each cell once; a value typed over in one of them is still a
+    mismatch of its own (the per-value comparison stays)."""
+    path = tmp_path / "table.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    _inputs(wb)
+    calc = wb.add_worksheet("Calc")
+    nu = ht.Nu_vertical_plate_Churchill(PR, 1e14 / PR)   # ht computes past the range: the value
+    for row in (1, 2, 3):
+        calc.write_formula(f"A{row}", "=NU_VPLATE(Inputs!A4,Inputs!A2)", None,
+                           nu * (1.01 if row == 3 else 1.0))
+    calc.write_array_formula("C1:C3", "{=NU_VPLATE(Inputs!A4,Inputs!A2)*{1;1;1}}", None, nu)
+    for row in (2, 3):   # the array's other cells, as a spreadsheet saves them
+        calc.write_number(f"C{row}", nu)
+    wb.close()
+    result = audit_book(str(path))
+    notes = [f for f in result.findings if f.kind == "out-of-range"]
+    assert len(notes) == 1, [f.message for f in notes]
+    (note,) = notes
+    assert note.cell == "Calc!A1" and sorted(note.cells) == sorted(
+        f"Calc!{c}{r}" for c in "AC" for r in (1, 2, 3))
+    assert note.message.endswith("(in 6 cells: Calc!A1:A3, Calc!C1:C3)")
+    assert [(f.kind, f.cell) for f in result.findings if f.kind != "out-of-range"] == [
+        ("mismatch", "Calc!A3")]
+    counts = result.counts()
+    # A3 is counted once, under its worst finding (mismatch); the five others as out-of-range
+    assert (counts["ok"], counts["mismatch"], counts["out-of-range"]) == (0, 1, 5)
+    assert len(result.checked) == 6
+    assert audit.summary_line(result) == "6 cells checked: 0 ok, 1 mismatch, 5 out-of-range - 2 findings"
+    assert audit.to_json(result)["findings"][-1]["cells"] == note.cells
+
+
+@pytest.mark.skipif(not COMMITTED, reason="no committed templates yet")
+@pytest.mark.slow  # a whole simulated day (the cabinet-day template)
+def test_the_cabinet_day_counts_add_up_in_cells():
+    """The cabinet day's dawn and dusk range notes (one per branch, from NET_PEAK and from
+    NET_TRANSIENT) were one finding per cell and per note (504 for 418 cells checked): now each
+    note is one finding naming its cells, and ok plus the cells with findings are the cells
+    checked."""
+    result = audit_book(str(audit.default_templates_dir() / "cabinet-day.xlsx"))
+    messages = [f.message for f in result.findings]
+    assert len(messages) == len(set(messages)) == 4
+    counts = result.counts()
+    assert counts["ok"] + sum(counts[k] for k in audit.KINDS) + result.follow_on + \
+        len(result.unchecked) == len(result.checked)
+    assert set().union(*(f.cells for f in result.findings)) <= set(result.checked)
+    line = audit.summary_line(result)
+    assert re.fullmatch(r"(\d+) cells checked: (\d+) ok, (\d+) out-of-range - 4 findings", line)

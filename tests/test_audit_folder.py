@@ -60,7 +60,10 @@ def test_one_line_per_book_a_total_and_the_worst_exit_status(folder, tmp_path, c
     for template in TEMPLATES:
         line = by_book[str(folder / template.name)]
         if template.stem == "cabinet-day":   # its dawn-and-dusk range notes (tests/test_audit.py)
-            assert line.startswith("findings ") and "out-of-range" in line and "mismatch" not in line
+            # counted in cells, each note once for the cells it covers (it was "166 ok, 504
+            # out-of-range - 504 findings": findings counted as cells, one per cell and note)
+            assert line.startswith("findings ") and "mismatch" not in line
+            assert line.endswith(" cells checked: 166 ok, 252 out-of-range - 4 findings"), line
             continue
         assert line.startswith("clean ") and line.endswith("- no findings")
     edited = by_book[str(folder / "jobs" / "edited-air-layer.xlsx")]
@@ -82,6 +85,7 @@ def test_one_line_per_book_a_total_and_the_worst_exit_status(folder, tmp_path, c
     assert len(edited_rows) == 11
     others = [row[:2] for row in findings[1:] if not str(row[0]).endswith("edited-air-layer.xlsx")]
     assert all(row == (others[0][0], "out-of-range") and str(row[0]).endswith("cabinet-day.xlsx") for row in others), others[:3]
+    assert len(others) == 4   # the cabinet day's two notes, from NET_PEAK and NET_TRANSIENT
     assert all(row[1] == "mismatch" for row in edited_rows)
 
     # Without the unreadable file the worst is the findings: 1; --json carries each book's own

@@ -472,12 +472,14 @@ def test_auto_has_no_step_at_the_vertical_onset_of_short_cavities():
 
 
 def test_auto_blend_between_elsherbiny_and_catton_lies_between_them():
-    # H/L = 9 at Ra 1e7: ElSherbiny's Ra <= 2e7 hands over to Catton across Ra 5e6..2e7.
-    result = nusselt("cavity", "auto", ra=1e7, pr=AIR_PR, aspect=9.0, tilt=90.0).scalar()
-    values = sorted(float(nu_of(m, 1e7, AIR_PR, 9.0)) for m in ("elsherbiny", "catton"))
+    # H/L = 7 at Ra 1e7: ElSherbiny's Ra <= 2e7 hands over to Catton across Ra 5e6..2e7.  (At
+    # H/L 8-10 Catton is itself in the band inside its aspect bound 10: ElSherbiny then keeps
+    # its weight while it lies deeper inside its range than Catton, issue 19's rule.)
+    result = nusselt("cavity", "auto", ra=1e7, pr=AIR_PR, aspect=7.0, tilt=90.0).scalar()
+    values = sorted(float(nu_of(m, 1e7, AIR_PR, 7.0)) for m in ("elsherbiny", "catton"))
     assert values[0] < result.nu < values[1]
     assert result.blend == "auto blend of elsherbiny and catton" and result.in_range and result.note == ""
-    assert stillair.nusselt("cavity", "auto", ra=3e6, pr=AIR_PR, aspect=9.0, tilt=90.0).scalar().blend == ""
+    assert stillair.nusselt("cavity", "auto", ra=3e6, pr=AIR_PR, aspect=7.0, tilt=90.0).scalar().blend == ""
 
 
 # --- validity: just inside and just outside every published bound ------------------------------
@@ -649,11 +651,17 @@ def test_auto_arrays_choose_per_element():
     assert stillair.cavity_method(1e5, AIR_PR, 20, 90, method="wright") == "wright"
 
 
-def test_auto_never_picks_en673_or_macgregor_for_air():
+def test_auto_never_picks_en673_and_picks_macgregor_for_air_only_as_the_nearest_extrapolation():
+    """MacGregor-Emery's range starts at Pr = 1: for air auto may use it only where no
+    correlation covers the point and it is the nearest (issue 19's rule), always with its note."""
     ras, aspects, tilts = np.meshgrid(np.geomspace(1, 1e10, 30), np.geomspace(0.5, 300, 15),
                                       np.linspace(0, 180, 19))
-    methods = set(stillair.cavity_method(ras.ravel(), AIR_PR, aspects.ravel(), tilts.ravel()))
-    assert "en673" not in methods and "macgregor-emery" not in methods
+    result = nusselt("cavity", "auto", ra=ras.ravel(), pr=AIR_PR, aspect=aspects.ravel(), tilt=tilts.ravel())
+    methods = set(result.method)
+    assert "en673" not in methods
+    macgregor = result.method == "macgregor-emery"
+    assert all("macgregor-emery: " in note for note in result.note[macgregor])
+    assert not result.in_range[macgregor].any()
     assert {"conduction", "hollands", "globe-dropkin", "elsherbiny", "catton", "wright"} <= methods
 
 

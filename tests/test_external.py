@@ -491,12 +491,16 @@ def test_auto_hcyl_prefers_churchill_chu_then_morgan_then_falls_back():
     assert list(result.note) == ["", "", "churchill-chu: Ra = 1e+13 above 1e+12 (valid 1e-05 <= Ra <= 1e+12)"]
 
 
-def test_auto_vcyl_plate_for_thick_popiel_for_slender_and_fallback_by_criterion():
-    result = nusselt("vcyl", "auto", ra=np.array([1e8, 1e8, 1e11, 1e13]), pr=0.7,
-                     slenderness=np.array([1.0, 30.0, 1000.0, 1.0]))
-    assert list(result.method) == ["churchill-chu", "popiel", "popiel", "churchill-chu"]
-    assert list(result.in_range) == [True, True, False, False]
-    assert result.note[2] == "popiel: Ra = 1e+11 above 1e+09 (valid 15000 <= Ra <= 1e+09)"
+def test_auto_vcyl_plate_for_thick_popiel_for_slender_and_the_nearest_outside_both():
+    """Outside both ranges auto keeps the nearer (issue 19's rule): at Ra 1e11, L/D 1000 the
+    plate result misses Sparrow-Gregg's criterion by a factor 57, Popiel its Ra bound by 100;
+    at L/D 80 Popiel misses its slenderness bound by a factor 1.33 only."""
+    result = nusselt("vcyl", "auto", ra=np.array([1e8, 1e8, 1e11, 1e13, 1e8]), pr=0.7,
+                     slenderness=np.array([1.0, 30.0, 1000.0, 1.0, 80.0]))
+    assert list(result.method) == ["churchill-chu", "popiel", "churchill-chu", "churchill-chu", "popiel"]
+    assert list(result.in_range) == [True, True, False, False, False]
+    assert result.note[2].startswith("churchill-chu: (D/L)*Gr^(1/4) = ")
+    assert result.note[4] == "popiel: slenderness = 80 above 60 (valid 0 <= slenderness <= 60)"
 
 
 @pytest.mark.parametrize("case,method", [("hot-up", "lloyd-moran"), ("cold-down", "lloyd-moran"),

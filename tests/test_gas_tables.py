@@ -140,7 +140,75 @@ def test_file_records_its_source_and_grid(shipped):
 
 
 def test_file_is_small():
-    assert TABLE_FILE.stat().st_size < 3_000_000
+    # the tabulated values (1 MB) and their spline coefficients (4 per interval: 4.4 MB, which
+    # deflate hardly shrinks), read per gas as it is first used
+    assert TABLE_FILE.stat().st_size < 6_000_000
+
+
+# --------------------------------------------------------------------------------------------
+# The stored spline coefficients: numpy evaluates them, scipy fitted them
+# --------------------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("name", GAS_NAMES)
+def test_stored_splines_reproduce_the_scipy_spline(shipped, name):
+    """Each gas's ``<gas>.spline`` against scipy's CubicSpline fitted now from the file's values
+    (the Chebyshev series in pressure first), evaluated by scipy's PPoly, to 1e-12."""
+    from scipy.interpolate import CubicSpline
+
+    from stillair.gases.tables import chebyshev_columns, piecewise_cubic
+
+    t, values, stored = shipped[f"{name}.t_kelvin"], shipped[f"{name}.values"], shipped[f"{name}.spline"]
+    spline = CubicSpline(t, chebyshev_columns(values), axis=0)
+    assert stored.shape == spline.c.shape
+    scale = np.abs(spline.c).max(axis=1, keepdims=True)   # per power, pressure term and primary
+    assert np.all(np.abs(stored - spline.c) <= 1e-12 * scale)
+    points = np.concatenate([t, np.random.default_rng(5).uniform(t[0], t[-1], 2000)])
+    np.testing.assert_allclose(piecewise_cubic(t, stored, points), spline(points), rtol=1e-12, atol=0)
+
+
+def test_the_numpy_evaluation_gives_scipys_bits(shipped):
+    """piecewise_cubic sums as PPoly does: equal bit for bit, at breaks, between them and at the ends."""
+    from scipy.interpolate import PPoly
+
+    from stillair.gases.tables import piecewise_cubic
+
+    t, stored = shipped["air.t_kelvin"], shipped["air.spline"]
+    points = np.concatenate([t, np.random.default_rng(6).uniform(t[0], t[-1], 5000), [t[0], t[-1]]])
+    assert np.array_equal(piecewise_cubic(t, stored, points), PPoly(stored, t)(points))
+
+
+def test_first_property_call_imports_no_scipy_interpolate():
+    code = ("import stillair, json, sys\n"
+            "stillair.air_conductivity(20.0)\n"
+            "stillair.gas_properties('krypton', [0.0, 30.0], [5.0e4, 1.0e5])\n"
+            "print(json.dumps(sorted(m for m in sys.modules if m.startswith('scipy'))))")
+    assert run_python(code) == []
+
+
+def test_a_file_without_splines_gives_the_same_values(shipped, reset_tables, tmp_path):
+    """A table file written before the splines were stored: scipy fits them, the same numbers."""
+    t = [-20.0, 0.37, 55.5]
+    expected = gases.gas_properties("argon", t, 4.7e4)
+    gases._reset_tables()
+    older = tmp_path / "older.npz"
+    np.savez(older, **{key: value for key, value in shipped.items() if not key.endswith(".spline")})
+    reset_tables.setenv(TABLE_FILE_VARIABLE, str(older))
+    got = gases.gas_properties("argon", t, 4.7e4)
+    for field in ("density", "viscosity", "conductivity", "cp", "expansion"):
+        np.testing.assert_allclose(getattr(got, field), getattr(expected, field), rtol=1e-12, atol=0)
+
+
+def test_a_spline_that_does_not_fit_its_values_is_fitted_again(shipped, reset_tables, tmp_path):
+    expected = gases.air_viscosity([0.0, 40.0])
+    gases._reset_tables()
+    spline = shipped["air.spline"].copy()
+    spline[3] *= 1.0 + 1e-9     # no longer the values' own spline
+    foreign = write_modified(shipped, tmp_path / "foreign.npz", **{"air.spline": spline})
+    reset_tables.setenv(TABLE_FILE_VARIABLE, str(foreign))
+    with pytest.warns(RuntimeWarning, match=r"the spline of air in gas table file .*foreign\.npz does "
+                                            r"not fit its values; fitted again"):
+        got = gases.air_viscosity([0.0, 40.0])
+    np.testing.assert_allclose(got, expected, rtol=1e-12, atol=0)
 
 
 # --------------------------------------------------------------------------------------------

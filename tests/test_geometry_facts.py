@@ -32,7 +32,10 @@ def test_every_auto_step_names_a_registered_method_and_form():
     for geometry in GEOMETRIES.values():
         for case in geometry.cases or (None,):
             steps = geometry.auto[case]
-            assert steps[-1].when == ()
+            # issue 19: no catch-all last step any more (the rule's nearest-valid part keeps a
+            # correlation beyond every range); an unconditional step (when=()) is a rule of one
+            # correlation, never one step among several
+            assert len(steps) == 1 or all(step.when != () for step in steps), (geometry.name, case)
             for step in steps:
                 corr = CORRELATIONS[(geometry.name, step.method)]
                 assert step.form is None or step.form in corr.forms
@@ -40,9 +43,29 @@ def test_every_auto_step_names_a_registered_method_and_form():
                 assert step.method in geometry.description
 
 
-def test_define_geometry_refuses_a_rule_without_a_last_step_covering_everything():
+@pytest.mark.parametrize("ra", [0.0, 1e-20, 1e29])
+def test_auto_gives_every_case_a_value_beyond_every_range(ra):
+    """What the catch-all step used to guarantee, the rule now does (issue 19): beyond every
+    range the nearest correlation is kept, extrapolated with its out-of-range note."""
+    import math
+    from stillair.correlations import nusselt
+    inputs = {"pr": 0.71, "aspect": 1e6, "slenderness": 1e6, "tilt": 90.0, "re": 1e-9}
+    for geometry in GEOMETRIES.values():
+        for case in geometry.cases or (None,):
+            args = {k: v for k, v in inputs.items() if k in geometry.inputs}
+            if "ra" in geometry.inputs:
+                args["ra"] = ra
+            result = nusselt(geometry.name, "auto", case, **args).scalar()
+            assert math.isfinite(result.nu) and result.nu >= 0.0 and result.method in geometry.methods, (geometry.name, case)
+            # (the sphere's Ra and the plate's laminar Re have no lower bound: in range there)
+            assert result.in_range or result.note, (geometry.name, case)
+
+
+def test_define_geometry_refuses_a_case_without_an_auto_rule():
+    # the rule needs at least one step per case (a catch-all last step is no longer required:
+    # issue 19's rule keeps the nearest correlation beyond every range)
     from stillair.correlations import AutoStep, Geometry, define_geometry
-    with pytest.raises(RuntimeError, match="must end with a step that covers everything"):
+    with pytest.raises(RuntimeError, match="case 'hot-up' has no auto rule"):
         define_geometry(Geometry(name="test-only", inputs=("ra", "pr"), description="",
-                                 auto={None: (AutoStep("churchill-chu"),)}))
+                                 cases=("hot-up",), auto={None: (AutoStep("churchill-chu"),)}))
     assert "test-only" not in GEOMETRIES

@@ -18,6 +18,7 @@ from hypothesis import strategies as st
 
 import stillair
 from stillair import InputError, insulation_thickness
+from stillair.plausibility import UnitSlipWarning
 
 ht_conduction = pytest.importorskip("ht.conduction")
 
@@ -109,3 +110,23 @@ def test_any_pipe_reaches_its_target_through_the_network(t_inner, t_air, fractio
         warnings.simplefilter("ignore", stillair.CorrelationRangeWarning)
         thickness = insulation_thickness(t_inner, t_air, t_surface, k, eps, "hcyl", diameter)
     assert _surface_with(thickness, t_inner, t_air, k, eps, diameter) == pytest.approx(t_surface, abs=1e-6)
+
+
+def test_unit_slips_speak_of_what_the_user_typed_only():
+    """A pipe diameter typed in mm and kelvin temperatures get the unit-slip note; the search's
+    own trial diameters (up to metres of insulation) never do (engine/plausibility.py rules)."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        insulation_thickness(150.0, 20.0, 50.0, 0.04, 0.3, "hcyl", 0.1143)
+        insulation_thickness(150.0, 20.0, 20.5, 0.04, 0.3, "hcyl", 0.1143)   # a thick layer
+        insulation_thickness(150.0, 20.0, 40.0, 0.04, 0.3, "vplate", 2.0)
+    assert not [w for w in caught if issubclass(w.category, UnitSlipWarning)]
+    for args, expected in [((150.0, 20.0, 50.0, 0.04, 0.3, "hcyl", 114.3),
+                            "size = 114.3 m is large for this geometry"),
+                           ((373.15, 293.15, 313.15, 0.04, 0.3, "vplate", 1.0),
+                            "t_inner = 373.15 looks like a kelvin value")]:
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            insulation_thickness(*args)
+        slips = [str(w.message) for w in caught if issubclass(w.category, UnitSlipWarning)]
+        assert len(slips) == 1 and expected in slips[0], slips

@@ -2,13 +2,15 @@
 
 from __future__ import annotations
 
+import os
 import re
 import sysconfig
+from pathlib import Path
 
 import pytest
 
 from stillair.addin.cli import main
-from stillair.addin.libreoffice import setup
+from stillair.addin.libreoffice import launcher, setup
 from stillair.addin.libreoffice.build import function_spec, idl_source, python_paths
 from stillair.addin.cells.registry import REGISTRY
 from stillair.addin.cells.registry import arg_doc
@@ -59,10 +61,11 @@ def test_libreoffice_starts_without_the_virtual_environment(tmp_path):
     venv = tmp_path / "venv"
     (venv / "bin").mkdir(parents=True)
     (venv / "pyvenv.cfg").write_text("home = /somewhere\n")
+    tools = tmp_path / "tools"      # a folder without a python3: nothing is put before it
     env = setup.libreoffice_environment({
-        "PATH": f"{venv / 'bin'}:/usr/local/bin:/usr/bin", "VIRTUAL_ENV": str(venv),
+        "PATH": f"{venv / 'bin'}:{tools}", "VIRTUAL_ENV": str(venv),
         "PYTHONPATH": "/x", "PYTHONHOME": "/y", "HOME": "/home/someone"})
-    assert env["PATH"] == "/usr/local/bin:/usr/bin"
+    assert env["PATH"] == str(tools)
     assert not {"VIRTUAL_ENV", "PYTHONPATH", "PYTHONHOME"} & set(env)
     assert env["HOME"] == "/home/someone"
 
@@ -77,14 +80,112 @@ def test_root_installs_shared_and_a_user_installs_for_himself(monkeypatch, root)
     assert options == ["--shared", "-env:UserInstallation=file:///p", "-env:UNO_SHARED_PACKAGES_CACHE=file:///c"]
 
 
-def test_setup_warns_when_run_from_an_activated_virtual_environment():
-    """LibreOffice started with a virtual environment first on PATH takes that environment's
-    standard library and silently fails to load documents: the set-up says so, loudly."""
-    from stillair.addin.libreoffice.setup import virtual_environment_warning
-    venv = "/home/u/proj/.venv"
-    env = {"PATH": f"{venv}/bin:/usr/bin:/bin", "VIRTUAL_ENV": venv}
-    warning = virtual_environment_warning(env, prefix=venv, base_prefix="/usr")
-    assert warning.startswith("WARNING") and venv in warning and "deactivate" in warning
-    assert virtual_environment_warning({"PATH": "/usr/bin"}, prefix="/usr", base_prefix="/usr") is None
-    assert virtual_environment_warning({"PATH": "/usr/bin:/bin"}, prefix=venv,
-                                       base_prefix="/usr") is None
+# LibreOffice's Python as a distribution ships it (Debian: /usr/bin/python3 with python3-uno)
+SYSTEM_PYTHON = Path("/usr/bin/python3")
+PROGRAM_DIR = Path("/usr/lib/libreoffice/program")
+needs_system_uno = pytest.mark.skipif(
+    not (SYSTEM_PYTHON.is_file() and (PROGRAM_DIR / "pythonloader.py").is_file()),
+    reason="needs LibreOffice on the system Python (Debian/Ubuntu: apt-get install "
+           "libreoffice-calc python3-uno libreoffice-script-provider-python)")
+
+
+def fake_venv(where: Path) -> Path:
+    """A virtual environment as `python -m venv` lays it out, on the system's Python."""
+    (where / "bin").mkdir(parents=True)
+    (where / "bin" / "python3").symlink_to(SYSTEM_PYTHON)
+    (where / "pyvenv.cfg").write_text(f"home = {SYSTEM_PYTHON.parent}\ninclude-system-site-packages = false\n")
+    return where
+
+
+@needs_system_uno
+def test_a_venv_first_on_path_hides_uno_from_libreoffices_python(tmp_path):
+    """The root cause, measured: started as LibreOffice starts it, its Python takes the first
+    python3 on PATH for itself; a venv's makes the venv its prefix and python3-uno's module is
+    gone.  PYTHONHOME does not help (site.py still reads the venv's pyvenv.cfg); LibreOffice's
+    Python first on PATH does."""
+    venv = fake_venv(tmp_path / "venv")
+    shell = {"PATH": f"{venv / 'bin'}:/usr/bin:/bin", "VIRTUAL_ENV": str(venv)}
+    found = launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, shell)
+    assert (found.ok, found.executable, found.prefix) == (False, str(venv / "bin" / "python3"), str(venv))
+    assert found.error == "ModuleNotFoundError: No module named 'uno'"
+    assert not launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, dict(shell, PYTHONHOME="/usr")).ok
+    launcher.write_launchers(venv, SYSTEM_PYTHON, PROGRAM_DIR)
+    folder = launcher.python_folder(venv)
+    fixed = launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, dict(shell, PATH=f"{folder}:{shell['PATH']}"))
+    assert (fixed.ok, fixed.prefix, fixed.error) == (True, "/usr", "")
+    assert launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, {"PATH": "/usr/bin:/bin"}).ok
+
+
+def test_launchers_put_libreoffices_python_first_and_keep_a_foreign_file(tmp_path):
+    venv = tmp_path / "venv"
+    (venv / "bin").mkdir(parents=True)
+    mine = venv / "bin" / "libreoffice"
+    mine.write_text("#!/bin/sh\necho the user's own\n")
+    python, program = Path("/opt/lo-python/python3"), Path("/opt/lo/program")
+    written, refused = launcher.write_launchers(venv, python, program)
+    assert [p.name for p in written] == ["soffice", "localc"] and refused == [mine]
+    assert mine.read_text() == "#!/bin/sh\necho the user's own\n"
+    folder = venv / "share" / "stillair" / "libreoffice-python"
+    assert os.readlink(folder / "python3") == str(python)
+    assert not (folder / "pyvenv.cfg").exists() and not (folder.parent / "pyvenv.cfg").exists()
+    assert (venv / "bin" / "localc").read_text().splitlines()[-1] == (
+        f'PATH={folder}:"$PATH" exec /opt/lo/program/soffice --calc "$@"')
+    assert os.access(venv / "bin" / "soffice", os.X_OK)
+    # a second set-up rewrites its own launchers (another LibreOffice or Python now), never the user's
+    written, refused = launcher.write_launchers(venv, Path("/usr/bin/python3"), program)
+    assert [p.name for p in written] == ["soffice", "localc"] and refused == [mine]
+    assert os.readlink(folder / "python3") == "/usr/bin/python3"
+
+
+@needs_system_uno
+def test_a_shell_not_covered_by_a_launcher_gets_a_warning_naming_its_python3(tmp_path):
+    venv = fake_venv(tmp_path / "venv")
+    shell = {"PATH": f"{venv / 'bin'}:/usr/bin:/bin"}
+    warning = launcher.shell_report(SYSTEM_PYTHON, PROGRAM_DIR, shell, lambda name: None)
+    assert warning.startswith("WARNING: a LibreOffice started from this shell cannot load its Python bridge")
+    assert f"the first python3 on PATH, {venv}/bin/python3, for itself, which makes {venv} its prefix" in warning
+    assert f'Start it as PATH={SYSTEM_PYTHON.parent}:"$PATH" soffice' in warning
+    launcher.write_launchers(venv, SYSTEM_PYTHON, PROGRAM_DIR)
+    assert launcher.shell_report(SYSTEM_PYTHON, PROGRAM_DIR, shell, lambda name: str(venv / "bin" / name)) is None
+    assert launcher.shell_report(SYSTEM_PYTHON, PROGRAM_DIR, {"PATH": "/usr/bin:/bin"}, lambda name: None) is None
+
+
+@needs_system_uno
+def test_our_own_libreoffice_runs_put_its_python_first_past_any_other_python(tmp_path):
+    """Not only a venv: any other python3 first on PATH (pyenv's, conda's) takes LibreOffice's
+    Python's place.  The environment every LibreOffice program of ours starts with puts
+    LibreOffice's Python's folder first then, and the probe shows uno importable again."""
+    # another installation's python3, not recognised as a venv by its folder (CPython reads a
+    # pyvenv.cfg beside the program too), whose prefix is not LibreOffice's
+    other = tmp_path / "other" / "bin"
+    other.mkdir(parents=True)
+    (other / "python3").symlink_to(SYSTEM_PYTHON)
+    (other / "pyvenv.cfg").write_text("home = /usr/bin\ninclude-system-site-packages = false\n")
+    shell = {"PATH": f"{other}:/usr/bin:/bin", "HOME": "/home/someone"}
+    assert not launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, shell).ok
+    env = setup.libreoffice_environment(shell)
+    assert env["PATH"] == f"{SYSTEM_PYTHON.parent}:{other}:/usr/bin:/bin"
+    assert launcher.probe(SYSTEM_PYTHON, PROGRAM_DIR, env).ok
+    # LibreOffice's Python already first: PATH is left as it is
+    assert setup.libreoffice_environment({"PATH": "/usr/bin:/bin"})["PATH"] == "/usr/bin:/bin"
+
+
+@needs_system_uno
+def test_the_setup_run_from_a_venv_writes_the_launchers_and_says_so(tmp_path, monkeypatch):
+    import io
+    import sys
+
+    venv = fake_venv(tmp_path / "venv")
+    (venv / "bin" / "localc").write_text("mine\n")
+    monkeypatch.setattr(sys, "prefix", str(venv))
+    out = io.StringIO()
+    assert setup.write_launchers(PROGRAM_DIR, out) == venv / "bin" / "soffice"
+    lines = out.getvalue().splitlines()
+    assert lines[0].startswith(f"Wrote soffice, libreoffice into {venv / 'bin'}: with this "
+                               f"environment active they start LibreOffice with its own Python "
+                               f"({SYSTEM_PYTHON}) first on PATH")
+    assert lines[1] == f"Not written: {venv / 'bin' / 'localc'} exists and is not stillair's (never overwritten)."
+    assert (venv / "bin" / "localc").read_text() == "mine\n"
+    # not from a virtual environment: nothing is written
+    monkeypatch.setattr(sys, "prefix", sys.base_prefix)
+    assert setup.write_launchers(PROGRAM_DIR, io.StringIO()) is None

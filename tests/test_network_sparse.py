@@ -53,3 +53,29 @@ def test_a_long_conduction_chain_is_linear_between_its_fixed_ends():
     assert np.max(np.abs(got - expected)) < 1e-9
     assert result.heat["k0"] == pytest.approx(100.0 / (count * 0.01), rel=1e-9)  # the acceptance
 
+
+
+def test_the_collector_is_paused_for_a_large_network_only_and_always_resumed(monkeypatch):
+    import gc
+
+    import stillair.network as network
+
+    seen = []
+    real_compile = network.compile_network
+
+    def compile_and_look(*args, **kwargs):
+        seen.append(gc.isenabled())
+        return real_compile(*args, **kwargs)
+
+    monkeypatch.setattr(network, "compile_network", compile_and_look)
+    monkeypatch.setattr(network, "LARGE_NETWORK", 500)
+    small, large = plate_grid(5), plate_grid(12)      # 90 and 552 branch rows
+    assert gc.isenabled()
+    stillair.solve_network(*small, use_cache=False)
+    stillair.solve_network(*large, use_cache=False)
+    assert seen == [True, False] and gc.isenabled()
+    broken = [row[:] for row in large[0]]
+    broken[-1][4] = -1.0                                # a bad emissivity in the last row
+    with pytest.raises(stillair.NetworkError, match="emissivity"):
+        stillair.solve_network(broken, large[1], use_cache=False)
+    assert gc.isenabled()

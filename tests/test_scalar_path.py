@@ -1,7 +1,7 @@
 """The scalar path's shortcuts give what the array path gives.
 
 One case in plain numbers is evaluated on numpy scalars, with a per-number form of the auto
-rule's transition weights (:meth:`Range.weight_of`) and element choice that makes no arrays
+rule's shortfalls (:meth:`Range.shortfall_of`) and element choice that makes no arrays
 (:mod:`stillair._select`).  These are exact identities of the code, checked here against the
 array forms they stand in for; the end-to-end agreement of every geometry and method is in
 test_auto_continuity.py.
@@ -15,7 +15,7 @@ import math
 import numpy as np
 import pytest
 
-from stillair._select import any_true, where
+from stillair._select import any_true, ignoring_division_by, maximum, where
 from stillair.correlations import CORRELATIONS, GEOMETRIES
 
 EPS = np.finfo(float).eps
@@ -56,21 +56,28 @@ RANGES = _auto_ranges()
 
 
 @pytest.mark.parametrize("bound", RANGES, ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
-def test_weight_of_one_number_is_the_array_weight(bound):
+def test_shortfall_of_one_number_is_the_array_shortfall(bound):
+    """The scalar path reads Range.shortfall_of, the array path Range.shortfall (issue 19's rule
+    weighs steps by shortfall; the per-number weight it replaced is gone)."""
     values = _probe_values(bound)
-    # the weight of the quantity's value, however it is derived from the inputs
-    whole = dataclasses.replace(bound, of=None).weight({bound.quantity.lower(): values})
-    one = np.array([bound.weight_of(float(v)) for v in values])
-    # the same ramps; math.log and numpy's vectorised log may differ in the last bit
-    np.testing.assert_allclose(one, whole, rtol=0, atol=4 * EPS)
-    # past the band's ends both give exactly 0 or 1, never a hair off
-    ends = (whole == 0.0) | (whole == 1.0)
-    np.testing.assert_array_equal(one[ends], whole[ends])
+    # the shortfall of the quantity's value, however it is derived from the inputs
+    whole = dataclasses.replace(bound, of=None).shortfall({bound.quantity.lower(): values})
+    one = np.array([bound.shortfall_of(float(v)) for v in values])
+    # the same arithmetic; math.log and numpy's vectorised log may differ in the last bits, which
+    # a band's width (log 1.25 = 0.22) magnifies a few times; a value <= 0 is infinitely far
+    # below a log-scale lower bound on both paths
+    finite = np.isfinite(whole)
+    np.testing.assert_array_equal(one[~finite], whole[~finite])
+    np.testing.assert_allclose(one[finite], whole[finite], rtol=0, atol=64 * EPS)
+    # well inside, both give exactly 0 (the step then covers fully: the rule reads no further)
+    np.testing.assert_array_equal(one == 0.0, whole == 0.0)
 
 
 def test_the_ranges_probed_include_every_kind_of_band():
+    # the band "outside" a bound is gone with issue 19 (auto never weighs a correlation outside
+    # its range there), so the rules read bands inside a bound and centred on one
     placements = {bound.placement for bound in RANGES}
-    assert placements == {"inside", "centred", "outside"}
+    assert placements == {"inside", "centred"}
     assert any(bound.log_scale for bound in RANGES) and any(not bound.log_scale for bound in RANGES)
 
 
@@ -93,6 +100,37 @@ def test_where_on_a_numpy_boolean_makes_no_array():
 @pytest.mark.parametrize("condition, expected", [
     (np.bool_(True), True), (np.bool_(False), False), (True, True), (False, False),
     (np.array([False, False]), False), (np.array([False, True]), True), (np.array([], dtype=bool), False),
+    (np.array(True), True), (np.array(False), False),
 ])
 def test_any_true_is_numpy_any(condition, expected):
     assert any_true(condition) is expected
+
+
+@pytest.mark.parametrize("a, b", [
+    (1.0, 2.0), (2.0, 1.0), (-0.5, -0.5), (math.nan, 1.0), (1.0, math.nan), (math.inf, 3.0), (-math.inf, -1e300),
+])
+def test_maximum_of_two_numpy_scalars_is_numpy_maximum(a, b):
+    got, expected = maximum(np.float64(a), np.float64(b)), np.maximum(np.float64(a), np.float64(b))
+    assert type(got) is np.float64
+    np.testing.assert_array_equal(got, expected)   # NaN propagates from either side
+
+
+@pytest.mark.parametrize("a, b", [(np.array([1.0, 5.0]), np.float64(2.0)), (2.0, np.array([1.0, 3.0])), (1.0, 2.0)])
+def test_maximum_of_anything_else_is_numpy_maximum(a, b):
+    np.testing.assert_array_equal(maximum(a, b), np.maximum(a, b))
+    assert type(maximum(a, b)) is type(np.maximum(a, b))
+
+
+@pytest.mark.parametrize("denominator", [np.float64(0.0), np.array([0.0, 1.0]), 0.0])
+def test_a_division_that_can_warn_is_still_silenced(denominator, recwarn):
+    with np.errstate(divide="raise"), ignoring_division_by(denominator):
+        np.divide(1.0, np.asarray(denominator))
+    assert not recwarn
+
+
+def test_a_nonzero_numpy_scalar_needs_no_error_state():
+    with np.errstate(divide="raise"):
+        assert not isinstance(ignoring_division_by(np.float64(2.0)), np.errstate)
+        with pytest.raises(FloatingPointError):   # the state outside is left as it was
+            with ignoring_division_by(np.float64(2.0)):
+                np.divide(1.0, np.float64(0.0))

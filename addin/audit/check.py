@@ -32,7 +32,8 @@ Tolerance: a numeric difference counts only when ``|a-b| > rtol*max(|a|,|b|)`` a
 ``|a-b| > atol + 1e-12*S``, S being the largest magnitude among the numbers the formula reads and
 the two results: round-off around zero (a balance residual of -5.7e-14 against 1e-15) is ok.
 
-Findings are listed worst first in that order.  The audited file is only ever read, through the
+Counts are cells (ok, and per kind the cells whose worst finding is of that kind); a range note
+shown by many cells is one finding naming them.  Findings are listed worst first in that order.  The audited file is only ever read, through the
 checks of :mod:`stillair.addin.workbook.safezip`; it is never written.  Exit status: 0 all ok, 1 findings, 2 the
 file cannot be read (one line on stderr).
 """
@@ -242,6 +243,24 @@ def _stale_advice(book, record, value, pristine_value, array: bool) -> str:
             "add-in before it was saved)")
 
 
+def _add_notes(result, notes: dict) -> None:
+    """One out-of-range finding per distinct note, naming every cell it covers.
+
+    A correlation used outside its range is one fact about the calculation, however many cells
+    show its table (every element of a spilled table, every INDEX into a transient's rows): it
+    is reported once, at the first of those cells, with the cells it covers compressed into
+    ranges.  The values themselves are still compared one by one."""
+    from ..workbook.report import compress_cells
+
+    for message, carriers in notes.items():
+        (sheet, ref), _, formula, value = carriers[0]
+        covered = [label(s, m) for (s, _), members, _, _ in carriers for m in members]
+        if len(covered) > 1:
+            message = f"{message} (in {len(covered)} cells: {compress_cells(covered)})"
+        result.findings.append(Finding("out-of-range", label(sheet, ref), message, formula=formula,
+                                       computed=value, sheet=sheet, ref=ref, cells=covered))
+
+
 def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pristine) -> None:
     from ..workbook.reader import expand_range, split_ref
 
@@ -258,6 +277,7 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
     edited_inputs = pristine is not None and inputs_changed(book, pristine)
     # A cell of an iterated loop is as exact as the workbook's delta allows, no more.
     loop_delta = {cell: loop.delta for loop in evaluation.loops for cell in loop.cells}
+    notes: dict[str, list] = {}     # range note -> the cells (formulas) that carry it
     for key in ordered:
         node = model.nodes[key]
         record = cells.get(key)
@@ -337,13 +357,13 @@ def _classify(result, model, cells, checked, evaluation, rtol, atol, version, pr
             advice = re.sub(r"; the engine gives [^(]*\(", "; the engine gives values (", advice, count=1)
             add("stale", key[0], key[1], f"{len(stale_members)} of the {len(members)} cells of "
                 f"the array {record.array_ref}: {advice}", formula=formula, cached=cached,
-                computed=value)
+                computed=value, cells=[label(key[0], m[0]) for m in stale_members])
         if outcome.status == "note":
             for message in outcome.messages:
-                add("out-of-range", key[0], key[1], message, formula=formula,
-                    computed=outcome.value)
-        if len(result.findings) == before:
+                notes.setdefault(message, []).append((key, members, formula, outcome.value))
+        if len(result.findings) == before and not (outcome.status == "note" and outcome.messages):
             result.ok.extend(label(key[0], m) for m in members)
+    _add_notes(result, notes)
     for cell, message in evaluation.notes:
         if not cell:
             result.findings.append(Finding("out-of-range", "", message))

@@ -45,6 +45,7 @@ class Finding:
     original_formula: str | None = None  # template drift only
     recognised: str | None = None  # hand-formula: what the cell was recognised as
     check: str | None = None       # hand-formula, iteration: which check (constant, property ...)
+    cells: list[str] | None = None  # every cell it covers (a note over a table); None: ``cell``
     sheet: str | None = field(default=None, repr=False)
     ref: str | None = field(default=None, repr=False)
 
@@ -71,11 +72,28 @@ class AuditResult:
     # and addin's modules import without a cycle (tests/test_addin_layout.py), so readers name it
     hand: Any = None
 
+    def covered(self) -> dict[str, str]:
+        """Each cell a finding names -> the worst kind among its findings."""
+        worst: dict[str, str] = {}
+        for f in self.findings:
+            for cell in f.cells or ([f.cell] if f.cell else []):
+                if cell not in worst or KINDS.index(f.kind) < KINDS.index(worst[cell]):
+                    worst[cell] = f.kind
+        return worst
+
     def counts(self) -> dict[str, int]:
-        counts = {"ok": len(self.ok)}
-        for kind in KINDS:
-            counts[kind] = sum(1 for f in self.findings if f.kind == kind)
+        """Cells, in one unit: ``ok`` and, per kind, the cells whose worst finding is of that
+        kind (a cell is counted once; findings about the whole workbook name no cell)."""
+        counts = dict.fromkeys(("ok",) + KINDS, 0)
+        counts["ok"] = len(self.ok)
+        for kind in self.covered().values():
+            counts[kind] += 1
         return counts
+
+    @property
+    def workbook_findings(self) -> int:
+        """Findings about the workbook as a whole (a template marker, a note with no cell)."""
+        return sum(1 for f in self.findings if not f.cell and not f.cells)
 
     @property
     def exit_code(self) -> int:

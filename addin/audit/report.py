@@ -27,8 +27,10 @@ def summary_line(result: AuditResult) -> str:
         extra.append(f"{result.follow_on} follow-on error{'s' if result.follow_on != 1 else ''}")
     if result.unchecked:
         extra.append(f"{len(result.unchecked)} not checkable")
+    if result.workbook_findings:
+        extra.append(f"{result.workbook_findings} about the whole workbook")
     tail = f" ({', '.join(extra)})" if extra else ""
-    cells = len(result.checked)
+    cells = len(result.checked)    # the counts before the dash are cells; after it, findings
     hand: HandCheck | None = result.hand
     # a book with nothing recognised by hand reads as before (its counts are in the JSON)
     hand_words = f"; {hand.summary()}" if hand is not None and (
@@ -145,7 +147,7 @@ def write_report(result: AuditResult, requested: str) -> str:
         rows: list[tuple[str, str | int]] = [("workbook", os.path.abspath(result.path)), ("sha256", result.sha256),
                 ("engine version", result.engine_version), ("template", result.template or ""),
                 ("summary", summary_line(result))]
-        rows += [(kind, result.counts()[kind]) for kind in ("ok",) + KINDS]
+        rows += [(f"{kind} (cells)", result.counts()[kind]) for kind in ("ok",) + KINDS]
         for row, (key, value) in enumerate(rows):
             about.write_string(row, 0, key, styles["bold"])
             if isinstance(value, int):

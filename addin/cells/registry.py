@@ -595,6 +595,9 @@ CATEGORIES["humid"] = "stillair humid air"
 CATEGORIES["insulation"] = "stillair insulation"
 RH = Arg("rh", "Relative humidity as a fraction from 0 to 1 (50 % is 0.5); over ice below 0.01 °C.", "-")
 T_HUMID = Arg("t", "Air temperature in degrees Celsius.", "°C")
+HUMID_MODEL = Arg("model", '"ideal" or blank: perfect-gas relations (ASHRAE Fundamentals ch. 1); "enhanced": with '
+                  "the enhancement factor of Greenspan and Hardy, as real-gas formulations (dew points differ by "
+                  "at most 0.07 K).", kind="text", default="ideal")
 
 
 _entries += [
@@ -604,18 +607,21 @@ _entries += [
                       default="auto")),
                  "Saturation pressure of water vapour in Pa over water or ice (Hyland-Wexler, ASHRAE "
                  "Fundamentals).", CATEGORIES["humid"], unit="Pa"),
-    CellFunction("VAPOUR_PRESSURE", "vapour_pressure", (T_HUMID, RH, P),
-                 "Partial pressure of the water vapour in humid air in Pa: rh x saturation pressure.",
+    CellFunction("VAPOUR_PRESSURE", "vapour_pressure", (T_HUMID, RH, P, HUMID_MODEL),
+                 "Partial pressure of the water vapour in humid air in Pa: rh x saturation pressure (x the "
+                 "enhancement factor in the enhanced model).",
                  CATEGORIES["humid"], unit="Pa"),
-    CellFunction("HUMIDITY_RATIO", "humidity_ratio", (T_HUMID, RH, P),
+    CellFunction("HUMIDITY_RATIO", "humidity_ratio", (T_HUMID, RH, P, HUMID_MODEL),
                  "Humidity ratio of humid air in kg of water vapour per kg of dry air.",
                  CATEGORIES["humid"], unit="kg/kg"),
-    CellFunction("DEW_POINT", "dew_point", (T_HUMID, RH, P),
-                 "Dew point of humid air in °C; below 0.01 °C the frost point (saturation over ice).",
+    CellFunction("DEW_POINT", "dew_point", (T_HUMID, RH, P, HUMID_MODEL),
+                 "Dew point of humid air in °C; below 0.01 °C the frost point (saturation over ice). Ideal "
+                 "gases by default; the enhanced model differs by at most 0.07 K (and is within 0.006 K of "
+                 "real-gas formulations).",
                  CATEGORIES["humid"], unit="°C"),
     CellFunction("SURFACE_RH", "surface_rh",
                  (Arg("t_air", "Air temperature in degrees Celsius.", "°C"), RH,
-                  Arg("t_surface", "Surface temperature in degrees Celsius.", "°C"), P),
+                  Arg("t_surface", "Surface temperature in degrees Celsius.", "°C"), P, HUMID_MODEL),
                  "Relative humidity of the air at a colder or warmer surface (fraction); above 1 the surface "
                  "is below the dew point and water condenses.", CATEGORIES["humid"], unit="-"),
     CellFunction("TEMP_FACTOR", "temperature_factor",

@@ -11,10 +11,16 @@
   headless (when it is not running on that profile), and the set-up checks the computed values.
   That is also the profile's first start with the extension, which LibreOffice needs before it
   rebinds the calls in the Excel workbooks a user opens.
+* Run from a virtual environment, with LibreOffice on the distribution's Python, the set-up
+  writes launchers (soffice, libreoffice, localc) into the environment's bin that put
+  LibreOffice's Python first on PATH (launcher.py: the environment's python3 would hide
+  python3-uno from LibreOffice), and verifies through them.  A shell that would still start
+  LibreOffice on a foreign python3 gets a warning naming it.
 """
 
 from __future__ import annotations
 
+import functools
 import os
 import shutil
 import subprocess
@@ -22,6 +28,7 @@ import sys
 import tempfile
 from pathlib import Path
 
+from . import launcher
 from .build import IDENTIFIER, ToolMissing, build_oxt, find_program_dir, python_paths
 
 EXIT_PROBLEM = 2
@@ -45,10 +52,10 @@ print("%d.%d.%d" % sys.version_info[:3], stillair.__version__, stillair.__file__
 def libreoffice_environment(environ=None) -> dict:
     """The environment to start LibreOffice's programs with: without this virtual environment.
 
-    LibreOffice's embedded Python looks for its standard library through PATH; with an activated
-    virtual environment's bin folder first it takes that environment's (another build of
-    Python), and LibreOffice then fails to load documents.  PYTHONHOME and PYTHONPATH would
-    mislead it the same way; the extension sets up its own paths."""
+    LibreOffice's embedded Python takes the first python3 on PATH for itself (see launcher.py):
+    a virtual environment's would hide python3-uno from it, so its folders go, and when another
+    python3 still comes first, LibreOffice's Python's folder goes first.  PYTHONHOME and
+    PYTHONPATH would mislead it too; the extension sets up its own paths."""
     env = dict(os.environ if environ is None else environ)
     venvs = {os.path.abspath(sys.prefix)} if sys.prefix != sys.base_prefix else set()
     if env.get("VIRTUAL_ENV"):
@@ -63,25 +70,26 @@ def libreoffice_environment(environ=None) -> dict:
 
     env["PATH"] = os.pathsep.join(d for d in env.get("PATH", "").split(os.pathsep)
                                   if d and not inside_venv(d))
+    # Another Python first on PATH (pyenv's, conda's) would mislead it the same way.  Folders
+    # are compared, not programs: a venv's python3 is a link to the very same program.
+    python = _distribution_python()
+    first = shutil.which("python3", path=env["PATH"])
+    if python is not None and first is not None and \
+            os.path.realpath(os.path.dirname(first)) != os.path.realpath(python.parent):
+        env["PATH"] = os.pathsep.join([str(python.parent), env["PATH"]])
     return env
 
 
-def virtual_environment_warning(environ=None, prefix=None, base_prefix=None) -> str | None:
-    """What to say when the set-up runs from an activated virtual environment: a LibreOffice
-    started from this shell would find this environment's python3 first on PATH, take its
-    standard library (another build of Python) and fail to load documents without a word."""
-    env = os.environ if environ is None else environ
-    prefix = sys.prefix if prefix is None else prefix
-    base_prefix = sys.base_prefix if base_prefix is None else base_prefix
-    bin_dir = os.path.join(prefix, "bin")
-    on_path = any(os.path.abspath(d) == os.path.abspath(bin_dir)
-                  for d in env.get("PATH", "").split(os.pathsep) if d)
-    if prefix == base_prefix or not (on_path or env.get("VIRTUAL_ENV")):
+@functools.lru_cache(maxsize=1)
+def _distribution_python() -> Path | None:
+    """LibreOffice's Python when LibreOffice runs one from outside its own folder (a Linux
+    distribution's python3-uno), which is when the first python3 on PATH matters."""
+    try:
+        program_dir = find_program_dir()
+    except ToolMissing:
         return None
-    return (f"WARNING: this shell has the virtual environment {prefix} on PATH. Do not start "
-            f"LibreOffice from it: LibreOffice's Python would load that environment's standard "
-            f"library and then fail to open documents without any message. Run `deactivate` "
-            f"first, or start it as: env -u VIRTUAL_ENV PATH=/usr/bin:/bin soffice")
+    python = libreoffice_python(program_dir)
+    return python if python is not None and python.parent != program_dir else None
 
 
 def libreoffice_python(program_dir: Path) -> Path | None:
@@ -177,9 +185,11 @@ def _profile_dir(profile: str | None) -> Path:
     return Path(os.environ.get("XDG_CONFIG_HOME", "~/.config")).expanduser() / "libreoffice" / "4"
 
 
-def verify(program_dir: Path, options: list[str], profile: str | None, out) -> bool | None:
+def verify(program_dir: Path, options: list[str], profile: str | None, out,
+           soffice: Path | None = None) -> bool | None:
     """Open a small Excel workbook that calls our functions in headless LibreOffice and read
-    the results back (True: computed, False: not, None: not tried).
+    the results back (True: computed, False: not, None: not tried).  ``soffice``: a launcher
+    to start it with, in this process's own environment (what the user's shell will run).
 
     This is also the profile's first start with the extension: until LibreOffice has once
     loaded a document with the extension installed, Excel workbooks' calls are not rebound."""
@@ -199,10 +209,10 @@ def verify(program_dir: Path, options: list[str], profile: str | None, out) -> b
         sheet.write_formula("A1", "=AIR_DENSITY(20)", None, 0)
         sheet.write_formula("B1", "=STILLAIR_VERSION()", None, "")
         workbook.close()
-        subprocess.run([str(program_dir / "soffice"), *env_options, "--headless", "--norestore",
-                        "--convert-to", "csv", "--outdir", directory, str(book)],
+        subprocess.run([str(soffice or program_dir / "soffice"), *env_options, "--headless",
+                        "--norestore", "--convert-to", "csv", "--outdir", directory, str(book)],
                        stdin=subprocess.DEVNULL, capture_output=True, timeout=600, cwd=directory,
-                       env=libreoffice_environment())
+                       env=dict(os.environ) if soffice else libreoffice_environment())
         result = Path(directory) / "check.csv"
         rows = list(csv.reader(result.open(encoding="utf-8", errors="replace"))) if result.exists() else []
     from ..cells.callpath import call
@@ -219,6 +229,34 @@ def verify(program_dir: Path, options: list[str], profile: str | None, out) -> b
     print(f"Not verified: LibreOffice did not compute the check workbook (got {rows[:1]!r}); open "
           "a workbook in LibreOffice once, then try again.", file=out)
     return False
+
+
+def _launchers_needed(program_dir: Path) -> Path | None:
+    """LibreOffice's Python, when the set-up runs from a virtual environment and LibreOffice
+    runs a Python from outside its own folder (then the launchers are written)."""
+    python = libreoffice_python(program_dir)
+    if sys.prefix == sys.base_prefix or python is None or python.parent == program_dir:
+        return None
+    return python
+
+
+def write_launchers(program_dir: Path, out) -> Path | None:
+    """Run from a virtual environment, with LibreOffice on a Python outside its own folder (a
+    distribution's): write the launchers into the environment's bin (launcher.py says why) and
+    return the soffice one; None when not needed or not written."""
+    python = _launchers_needed(program_dir)
+    if python is None:
+        return None
+    written, refused = launcher.write_launchers(sys.prefix, python, program_dir)
+    if written:
+        print(f"Wrote {', '.join(p.name for p in written)} into {written[0].parent}: with this "
+              f"environment active they start LibreOffice with its own Python ({python}) first "
+              f"on PATH; this environment's python3 would otherwise hide LibreOffice's Python "
+              f"bridge from it.", file=out)
+    for path in refused:
+        print(f"Not written: {path} exists and is not stillair's (never overwritten).", file=out)
+    soffice = Path(sys.prefix) / "bin" / "soffice"
+    return soffice if soffice in written else None
 
 
 def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = None,
@@ -252,6 +290,9 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
         if dry_run:
             print(f"would {verb} {IDENTIFIER} as a {where}", file=out)
             print(f"    {unopkg} add --force {' '.join(options)} stillair.oxt", file=out)
+            if _launchers_needed(program_dir):
+                print(f"would write {', '.join(launcher.LAUNCHERS)} into {Path(sys.prefix) / 'bin'} "
+                      f"(a file of the same name that is not stillair's is kept)", file=out)
             return 0
         with tempfile.TemporaryDirectory(prefix="stillair-lo-") as directory:
             path = Path(directory) / "stillair.oxt"
@@ -265,11 +306,14 @@ def run(dry_run: bool = False, oxt: str | None = None, profile: str | None = Non
             return EXIT_PROBLEM
         print(f"{'Updated' if update else 'Installed'} {IDENTIFIER} {spec['stillair_version']} "
               f"({len(spec['functions'])} functions) as a {where}", file=out)
-        if verify(program_dir, options, profile, out) is False:
+        started_by = write_launchers(program_dir, out)
+        if verify(program_dir, options, profile, out, soffice=started_by) is False:
             return EXIT_PROBLEM
         print("In LibreOffice Calc the functions are listed under the Add-In category of the "
               "Function Wizard; Excel workbooks (.xlsx) that call them are rebound when opened.", file=out)
-        warning = virtual_environment_warning()
+        python = libreoffice_python(program_dir)   # found: check_import ran it
+        warning = python and launcher.shell_report(python, program_dir, dict(os.environ),
+                                                   shutil.which)
         if warning:
             print(warning, file=out)
         return 0

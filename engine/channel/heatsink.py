@@ -3,6 +3,8 @@ package docstring)."""
 
 from __future__ import annotations
 
+import functools
+import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -12,8 +14,9 @@ from ..constants import STEFAN_BOLTZMANN as SIGMA, ZERO_CELSIUS as zero_Celsius
 
 from ..convection import surface_convection
 from ..groups import DEFAULT_PRESSURE
-from ..gases import require_gas_temperature
+from ..gases import _checked_pressure, require_gas_temperature
 from .._docs import shared_docs
+from .._select import any_true, where
 from .walls import FIN_TIPS, channel_convection
 from ..validity import (InputError, distinct_notes, require_between, require_choice, require_finite,
                         require_length, require_positive, unwrap, warn_out_of_range)
@@ -59,8 +62,8 @@ def _fin_efficiency(h, conductivity, thickness, length, fin_height, tip):
     m = np.sqrt(h * 2.0 * (length + thickness) / (conductivity * length * thickness))
     lc = fin_height + (thickness / 2.0 if tip == "corrected" else 0.0)
     mlc = m * lc
-    with np.errstate(invalid="ignore", divide="ignore"):
-        eta = np.where(mlc > 0, np.tanh(mlc) / np.where(mlc > 0, mlc, 1.0), 1.0)
+    # no error state to set: h >= 0, and the divisor is never 0
+    eta = where(mlc > 0, np.tanh(mlc) / where(mlc > 0, mlc, 1.0), 1.0)
     return eta, lc
 
 
@@ -124,6 +127,18 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     """
     tip = require_choice(function_name, "tip", tip, FIN_TIPS)
     t_base = require_gas_temperature(function_name, "t_base", t_base, gas)
+    checked = _checked_sink(function_name, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
+                            conductivity, emissivity, gas, pressure)
+    t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity, spacing = checked
+    return _sink_model(t_base, t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity,
+                       spacing, gas, pressure, tip, function_name)
+
+
+def _checked_sink(function_name, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
+                  conductivity, emissivity, gas, pressure) -> tuple:
+    """Every argument of the model but the base temperature and the tip, checked under
+    ``function_name``: (t_ambient, width, fin_height, length, thickness, count, conductivity,
+    emissivity, spacing) as arrays."""
     t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
     width = require_length(function_name, "base_width", base_width, HEATSINK_SIZE_LIMITS["base_width"])
     fin_height = require_length(function_name, "fin_height", fin_height, HEATSINK_SIZE_LIMITS["fin_height"])
@@ -131,23 +146,40 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
     thickness = require_length(function_name, "fin_thickness", fin_thickness, HEATSINK_SIZE_LIMITS["fin_thickness"])
     count = require_finite(function_name, "fin_count", fin_count)
     bad = (count < 2) | (count != np.floor(count))
-    if np.any(bad):
+    if any_true(bad):
         raise InputError(function_name, "fin_count", count[bad].flat[0] if count.ndim else count.item(),
                          "a whole number >= 2")
     conductivity = require_positive(function_name, "conductivity", conductivity, "W/(m·K)")
     emissivity = require_between(function_name, "emissivity", emissivity, 0.0, 1.0)
     spacing = (width - count * thickness) / (count - 1.0)
-    if np.any(spacing <= 0):
+    if any_true(spacing <= 0):
         bad = np.broadcast_to(count, spacing.shape)[spacing <= 0].flat[0] if spacing.ndim else count.item()
         raise InputError(function_name, "fin_count", bad,
                          "small enough that the fins fit on the base (fin_count × fin_thickness < base_width)")
+    _checked_pressure(function_name, pressure)
+    return t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity, spacing
 
+
+def _sink_model(t_base, t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity, spacing,
+                gas, pressure, tip, function_name) -> HeatSinkResult:
+    """:func:`heatsink`'s model on arguments :func:`_checked_sink` checked (arrays, or plain
+    floats: then the channel and the outer faces take the correlation registry's scalar path)."""
+    return _sink_result(_sink_heat(t_base, t_ambient, width, fin_height, length, thickness, count, conductivity,
+                                   emissivity, spacing, gas, pressure, tip, function_name))
+
+
+def _sink_heat(t_base, t_ambient, width, fin_height, length, thickness, count, conductivity, emissivity, spacing,
+               gas, pressure, tip, function_name) -> tuple:
+    """The model's numbers, ``(q, q_fins, q_base, q_radiation, spacing, h_in, h_out, eta_in,
+    eta_out, eps_a, channel, outer)``, before :func:`_sink_result` dresses them (a solve reads
+    only q, and the result of the root)."""
     channel = channel_convection(t_base, t_ambient, spacing, length, case="isothermal", gas=gas,
                                  pressure=pressure, function_name=function_name)
     outer = surface_convection("vplate", t_base, t_ambient, length, gas=gas, pressure=pressure,
                                function_name=function_name)
-    excess = np.subtract(t_base, t_ambient, dtype=float)
-    h_in, h_out = channel.h, outer.h
+    excess = t_base - t_ambient     # checked floats (or float arrays)
+    # plain floats for one case: numpy's 0-d arrays cost ten times a float in the arithmetic below
+    h_in, h_out = unwrap(channel.h), unwrap(outer.h)
     h_outer_fin = 0.5 * (h_in + h_out)
     eta_in, lc = _fin_efficiency(h_in, conductivity, thickness, length, fin_height, tip)
     eta_out, _ = _fin_efficiency(h_outer_fin, conductivity, thickness, length, fin_height, tip)
@@ -157,21 +189,48 @@ def heatsink(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin
 
     opening = spacing * length + 2.0 * spacing * fin_height
     walls = (2.0 * fin_height + spacing) * length
-    with np.errstate(invalid="ignore", divide="ignore"):
-        eps_a = np.where(emissivity > 0, emissivity / (emissivity + (1.0 - emissivity) * opening / walls), 0.0)
+    # the walls' area is > 0, and the denominator >= the opening's share, > 0: nothing can warn
+    eps_a = where(emissivity > 0, emissivity / (emissivity + (1.0 - emissivity) * opening / walls), 0.0)
     grey_area = emissivity * (count * thickness * length + 2.0 * fin_height * length)
     t_b, t_a = t_base + zero_Celsius, t_ambient + zero_Celsius
     q_radiation = SIGMA * (grey_area + eps_a * (count - 1.0) * opening) * (t_b ** 4 - t_a ** 4)
 
     q = q_fins + q_base + q_radiation
+    return q, q_fins, q_base, q_radiation, spacing, h_in, h_out, eta_in, eta_out, eps_a, channel, outer
+
+
+def _sink_result(heat: tuple) -> HeatSinkResult:
+    """:func:`_sink_heat`'s numbers as a :class:`HeatSinkResult` of their broadcast shape."""
+    q, q_fins, q_base, q_radiation, spacing, h_in, h_out, eta_in, eta_out, eps_a, channel, outer = heat
     shape = np.shape(q)
-    in_range = np.broadcast_to(channel.in_range & outer.in_range, shape)
-    note = np.broadcast_to(np.where(channel.note != "", channel.note, outer.note), shape)
-    full = lambda a: np.broadcast_to(a, shape)  # noqa: E731
+    if shape == ():   # one case (heatsink_tbase's evaluations): 0-d arrays, no broadcasting machinery
+        full = lambda a: np.asarray(a)  # noqa: E731
+        in_range = np.asarray(bool(channel.in_range) and bool(outer.in_range))
+        note = np.asarray(_sink_note(heat), dtype=object)
+        q = np.asarray(q)
+    else:
+        in_range = np.broadcast_to(channel.in_range & outer.in_range, shape)
+        note = np.broadcast_to(np.where(channel.note != "", channel.note, outer.note), shape)
+        full = lambda a: np.broadcast_to(a, shape)  # noqa: E731
     return HeatSinkResult(q=q, q_fins=full(q_fins), q_base=full(q_base), q_radiation=full(q_radiation),
                           spacing=full(spacing), h_channel=full(h_in), h_outer=full(h_out),
                           fin_efficiency=full(eta_in), outer_fin_efficiency=full(eta_out),
                           emissivity_effective=full(eps_a), in_range=in_range, note=note)
+
+
+def _sink_note(heat: tuple) -> str:
+    """The note of one case of :func:`_sink_heat`'s numbers: the channel's, else the outer
+    faces' (as plain text: str() of a 0-d array would format it)."""
+    channel, outer = heat[-2], heat[-1]
+    return str(channel.note.item() or outer.note.item())
+
+
+@functools.cache
+def _brentq():
+    """scipy's brentq, imported on first use (scipy.optimize takes 0.4 s to load), then at
+    the cost of a call rather than an import statement per solve."""
+    from scipy.optimize import brentq
+    return brentq
 
 
 def heatsink_q(t_base: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fin_height: ArrayLike,
@@ -239,19 +298,19 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
     """
     function_name = "heatsink_tbase"
     q = require_between(function_name, "q", q, 0.0, np.inf, "W")
-    t_ambient = require_gas_temperature(function_name, "t_ambient", t_ambient, gas)
-    # Check the geometry once, in full, so its messages name this function (and before the
-    # arrays below, whose float conversion would otherwise meet a bad cell first).
-    heatsink(t_ambient + 1.0, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
-             conductivity, emissivity, gas, pressure, tip=tip, function_name=function_name)
-    arrays = np.broadcast_arrays(q, t_ambient, *[np.asarray(a, dtype=float) for a in (
-        base_width, fin_height, fin_length, fin_thickness, fin_count, conductivity, emissivity, pressure)])
+    tip = require_choice(function_name, "tip", tip, FIN_TIPS)
+    # Every argument checked once, in full, so that the messages name this function; the solve
+    # below evaluates the model on them, element by element in plain floats.
+    checked = _checked_sink(function_name, t_ambient, base_width, fin_height, fin_length, fin_thickness, fin_count,
+                            conductivity, emissivity, gas, pressure)
+    arrays = (q, *checked, np.asarray(pressure, dtype=float))
+    if any(array.ndim for array in arrays):
+        arrays = tuple(np.broadcast_arrays(*arrays))
     out = np.empty(arrays[0].shape)
-    notes = np.full(arrays[0].shape, "", dtype=object)
-    from scipy.optimize import brentq  # here, not at import: scipy.optimize takes 0.4 s to load
-    for index in np.ndindex(out.shape):
-        q_i, ta, *rest = (float(a[index]) for a in arrays)
-        *geometry, p = rest
+    notes = np.empty(arrays[0].shape, dtype=object)
+    brentq = _brentq()
+    for index in itertools.product(*map(range, out.shape)):   # np.ndindex, without its set-up cost
+        q_i, ta, width, height, length, thickness, count, fin_k, eps, spacing, p = (float(a[index]) for a in arrays)
 
         # Each base temperature is evaluated once: brentq asks again for the bracket's end the
         # search below found, and the notes are read at the root brentq evaluated last.  At
@@ -262,18 +321,19 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
 
         def rejected(t_base):
             if t_base not in evaluated:
-                # the seven geometry arguments, which a type checker cannot count in *geometry
-                evaluated[t_base] = heatsink(t_base, ta, *geometry, gas, p, tip=tip,  # type: ignore[misc, arg-type]
-                                             function_name=function_name)
+                # the model on the arguments checked above, in plain floats: the channel and the
+                # outer faces take the registry's scalar path, and no argument is checked again
+                evaluated[t_base] = _sink_heat(t_base, ta, width, height, length, thickness, count, fin_k, eps,
+                                               spacing, gas, p, tip, function_name)
             return evaluated[t_base]
 
         def excess_heat(t_base):
             if t_base not in excess:
-                excess[t_base] = float(rejected(t_base).q) - q_i
+                excess[t_base] = float(rejected(t_base)[0]) - q_i
             return excess[t_base]
 
         if q_i == 0.0:
-            out[index] = ta
+            out[index], notes[index] = ta, ""
             continue
         span = 10.0
         try:
@@ -289,8 +349,7 @@ def heatsink_tbase(q: ArrayLike, t_ambient: ArrayLike, base_width: ArrayLike, fi
             # the bracket ran past the gas data: the heat is more than the sink can reject there
             raise InputError(function_name, "q", q_i, "small enough that the base temperature stays "
                              f"inside the gas data ({error.allowed})") from None
-        # a scalar solve carries its note as a 0-d array; the notes array holds plain text
-        notes[index] = str(np.asarray(rejected(out[index]).note).item())
+        notes[index] = _sink_note(rejected(out[index]))
     warn_out_of_range(function_name, notes == "", notes)
     return unwrap(out)
 

@@ -6,9 +6,10 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike
 
-from ..convection import ONE_CALLS, ConvectionResult, _full, _h_only, shape_ratios
+from ..convection import (ONE_CALLS, ConvectionResult, _full, _h_only, _plain_case, _scalar_groups, _scalar_result,
+                          _with_slip, shape_ratios)
 from ..correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry,
-                            nusselt_at_difference, nusselt_value)
+                            nusselt, nusselt_at_difference, nusselt_value)
 from ..groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
 from .._docs import shared_docs
 from ..plausibility import length_slip, temperature_slip, warn_slips
@@ -206,6 +207,23 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
     (4.9, 'bar-cohen-rohsenow')
     """
     case = require_choice(function_name, "case", case, CHANNEL_CASES)
+    result = _channel_convection(ts, tf, spacing, height, case, gas, pressure, method, property_temperature,
+                                 ideal_expansion, function_name)
+    slip = warn_slips(function_name, temperature_slip({"ts": ts, "tf": tf}), length_slip("spacing", spacing),
+                      length_slip("height", height), stacklevel=4)
+    return _with_slip(result, slip)
+
+
+def _channel_convection(ts, tf, spacing, height, case, gas, pressure, method, property_temperature,
+                        ideal_expansion, function_name) -> ConvectionResult:
+    if case not in CHANNEL.flux_cases and _plain_case(gas, pressure, (ts, tf), (spacing, height),
+                                                      property_temperature):
+        # one isothermal case in plain numbers: the scalar path (the registry's, as the cavity's)
+        props, t_film, _, _, gr, ra = _scalar_groups(ts, tf, spacing, gas, pressure, ideal_expansion,
+                                                     function_name)
+        result = nusselt("channel", method, case, function_name=function_name, ra=ra, pr=props.prandtl,
+                         **shape_ratios(CHANNEL, spacing, height=height))
+        return _scalar_result(props, t_film, gr, ra, spacing, result, case)
     spacing = require_length(function_name, "spacing", spacing)
     height = require_length(function_name, "height", height)
     props, t_film, beta = film_properties(ts, tf, gas, pressure, names=("ts", "tf"),
@@ -220,11 +238,6 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
                                    aspect=aspect)
     ra = CHANNEL.correlation_rayleigh(ra, result.nu, case)
     h = result.nu * props.conductivity / spacing
-    slip = warn_slips(function_name, temperature_slip({"ts": ts, "tf": tf}), length_slip("spacing", spacing),
-                      length_slip("height", height), stacklevel=4)
-    if slip:
-        note = np.asarray(result.note, dtype=object)
-        result.note = np.where(note == "", slip, note + "; " + slip)
     return ConvectionResult(h=_full(h, shape), nu=result.nu, ra=_full(ra, shape), gr=_full(gr, shape), pr=pr,
                             t_film=_full(t_film, shape), conductivity=_full(props.conductivity, shape),
                             length=_full(spacing, shape),

@@ -48,7 +48,7 @@ from .evaluate import (merge_masked, nusselt, nusselt_at_difference, nusselt_at_
                        nusselt_checked, nusselt_value)
 from .registry import CORRELATIONS, GEOMETRIES, correlation, define_geometry, get_correlation, methods_for
 from .spread import NusseltSpread, nu_spread
-from .types import (PLATE_CASES, STABLE_CASES, UNSTABLE_CASES, AutoStep, Correlation, Geometry,
+from .types import (AUTO_PRINCIPLE, PLATE_CASES, STABLE_CASES, UNSTABLE_CASES, AutoStep, Correlation, Geometry,
                     NusseltResult, Parameter, uniform)
 
 __all__ = [

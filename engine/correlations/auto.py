@@ -1,12 +1,31 @@
 """The "auto" rule, written once for the scalar path and the array path.
 
-With c_k the continuous coverage of step k (the product of its ranges' transition weights,
-:meth:`~stillair.validity.Range.weight`), step k's weight is c_k (1 - c_1) ... (1 - c_(k-1)); the
-weights add up to 1 because the last step covers everything.  The value is the weighted sum of
-the methods' values, each floored like a named method, so it lies between them.  The scalar path
-(one case, numpy scalars) and the array path (1-D arrays) run the same loop, :func:`weigh_steps`,
-with the same arithmetic; they differ only in how a range's weight is read (``Range.weight_of``
-on a plain number, ``Range.weight`` on an array) and in how the result's notes are worded.
+Each step of a geometry's rule reads its ranges: its own ``when`` (or none: the correlation's
+published ranges) and the correlation's published ranges (:attr:`Range.in_auto` ones).  Its
+shortfall d_k (:meth:`~stillair.validity.Range.shortfall`, the largest over its ranges) says how
+far it lies from full coverage, in transition bands: 0 well inside every range, 0 to 1 across the
+band inside a bound, above 1 beyond it.  d_min is the least shortfall of the rule's steps.
+
+In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_min) / D clipped to
+0..1, with D = max(1 - d_min, NEAREST_MARGIN min(d_min, 1)):
+
+* where a correlation covers fully (d_min = 0), D is one band and b_k = 1 - d_k is the step's
+  coverage: a correlation hands weight to the next across the band inside its bound, and only
+  to correlations inside their ranges (a step with d_k >= 1 takes nothing);
+* where the correlation in use reaches the end of its range and none covers fully, it keeps its
+  weight (it is the nearest, b = 1) rather than fading into another's extrapolation; beyond
+  every range the nearest valid correlation is kept, extrapolated with its note;
+* two ranges that only touch (no band inside both) hand over across NEAREST_MARGIN of a band on
+  either side of the touch, the one place a correlation outside its range takes a share where
+  another is valid; beyond every range, two extrapolations share only where they lie within
+  NEAREST_MARGIN of a band of each other.
+
+The first step of least shortfall takes all that is left, so the weights add up to 1; they are
+continuous, because the shortfalls are.  The value is the weighted sum of the methods' values,
+each floored like a named method, so it lies between them.  The scalar path (one case, numpy
+scalars) and the array path (1-D arrays) run the same rule, :func:`weigh_steps`, with the same
+arithmetic; they differ only in how a range is read (``Range.shortfall_of`` on a plain number,
+``Range.shortfall`` on an array) and in how the result's notes are worded.
 """
 
 from __future__ import annotations
@@ -21,47 +40,151 @@ from .registry import CORRELATIONS
 from .single import _evaluate_one, _first, _range_notes, _scalar_note, _scalar_result
 from .types import Geometry, NusseltResult, uniform
 
-#: One compiled step: (method, ((range, input name or None where the range computes its
-#: quantity), ...), the function evaluated: the correlation or one published form of it).
+#: Where no correlation covers fully, how close another step's shortfall must come to the least
+#: for it to take a share, in bands (relative to the least below one band): the width of the
+#: hand-over between two ranges that only touch, and between two extrapolations.
+NEAREST_MARGIN = 0.1
+
+#: One compiled step: (method, ((range, the input it reads: its name, or the range's ``of``
+#: where it computes its quantity), ...), the function evaluated: the correlation or one
+#: published form of it).
 CompiledStep = tuple[str, tuple[tuple[Range, Any], ...], Callable[..., Any]]
 
 
 def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]:
     """The auto rule of ``case`` as :data:`CompiledStep` tuples, built once per geometry and case
-    (a cache, not a field of the frozen Geometry)."""
+    (a cache, not a field of the frozen Geometry).  A step's ranges: its ``when`` and the
+    correlation's published ranges that auto reads, each once."""
     cache = geo.__dict__.setdefault("_compiled_steps", {})
     if case not in cache:
         compiled = []
         for step in geo.auto[case]:
             corr = CORRELATIONS[(geo.name, step.method)]
-            ranges = corr.ranges(case) if step.when is None else step.when
+            published = tuple(bound for bound in corr.ranges(case) if bound.in_auto)
+            ranges = published if step.when is None else \
+                tuple(step.when) + tuple(bound for bound in published if bound not in step.when)
+            # ranges read straight from an input first: the scalar path stops reading a step once
+            # it surely weighs nothing (_shortfall's cut), so the computed quantities (the tilt
+            # coverage's critical tilt) are then often never computed
+            ranges = tuple(sorted(ranges, key=lambda bound: bound.of is not None))
             compiled.append((step.method,
-                             tuple((bound, None if bound.of else bound.quantity.lower()) for bound in ranges),
+                             tuple((bound, bound.of or bound.quantity.lower()) for bound in ranges),
                              corr.forms[step.form] if step.form else corr.function))
         cache[case] = tuple(compiled)
     return cache[case]
 
 
-def _coverage(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-              plain: Mapping[str, float] | None) -> Any:
-    """A step's coverage 0..1: the product of its ranges' weights, in their order.
+def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+               plain: Mapping[str, float] | None, read: dict[int, Any] | None = None) -> Any:
+    """A step's shortfall: the largest of its ranges' (:meth:`Range.shortfall`).  ``plain``
+    (the scalar path) holds the inputs as floats (:func:`_shortfall_of`); without it the inputs
+    are arrays.  ``read`` keeps each range's shortfall for the other steps that read the same
+    range (the cavity's vertical methods share their tilt ranges)."""
+    if plain is not None:
+        return _shortfall_of(ranges, inputs, plain, {} if read is None else read)
+    largest: Any = 0.0
+    read = {} if read is None else read
+    for bound, _ in ranges:
+        short = read.get(id(bound))
+        if short is None:
+            short = read[id(bound)] = bound.shortfall(inputs)
+        largest = np.maximum(largest, short)
+    return largest
 
-    ``plain`` (the scalar path) holds the inputs as floats: each weight is then
-    ``Range.weight_of`` (the same arithmetic on one number), stopping at the first 0.  Without
-    it the inputs are arrays, and a step without ranges gives None: it covers everything.
-    """
-    if plain is None:
-        weight = None
-        for bound, _ in ranges:
-            part = bound.weight(inputs)
-            weight = part if weight is None else weight * part
-        return weight
-    coverage = 1.0
+
+def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+                  plain: Mapping[str, float], read: dict[int, float], cut: float = math.inf) -> float:
+    """:func:`_shortfall` on the scalar path (``Range.shortfall_of`` of each range's value as a
+    float), stopping at the first range whose shortfall reaches ``cut``
+    (:func:`_weightless_from`): the step weighs nothing whatever the rest, and that lower bound
+    serves the rule as well."""
+    largest = 0.0
     for bound, key in ranges:
-        coverage *= bound.weight_of(plain[key] if key else _first(bound.values(inputs)))
-        if coverage == 0.0:
+        short = read.get(id(bound))
+        if short is None:
+            short = read[id(bound)] = bound.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
+        if short > largest:
+            largest = short
+            if largest >= cut:
+                break
+    return largest
+
+
+def _weightless_from(nearest: float) -> float:
+    """The shortfall from which a step weighs nothing while the least shortfall is ``nearest``
+    or less: nearest + the rule's width there (1 up to 1/1.1, then 1.1 nearest, then nearest +
+    NEAREST_MARGIN), which never falls as ``nearest`` falls, so a cut by the steps read so far
+    holds for the final least shortfall too."""
+    return nearest + max(1.0 - nearest, NEAREST_MARGIN * min(nearest, 1.0))
+
+
+def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
+                  plain: Mapping[str, float] | None) -> list[Any]:
+    """Each step's weight by the rule (module text); they add up to 1.  The scalar path runs
+    the same arithmetic on floats (``max``/``min``) as the array path on arrays."""
+    scalar = plain is not None
+    steps = _compiled_steps(geo, case)
+    larger, smaller = (max, min) if scalar else (np.maximum, np.minimum)
+    size = () if scalar else next(iter(inputs.values())).shape
+    shortfalls: list[Any] = []
+    nearest: Any = math.inf
+    read: dict[int, Any] = {}
+    # the scalar path first reads the step that was nearest at the last call of this rule (a
+    # hint only: its shortfall bounds the least from above, so the steps before it in order
+    # are cut sooner; the weights are the same whichever step is read first)
+    hints = geo.__dict__.setdefault("_nearest_step", {})
+    hint = hints.get(case) if scalar else None
+    known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)  # type: ignore[arg-type]
+    if known == 0.0:
+        return _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
+    for index, (_, ranges, _) in enumerate(steps):
+        if not scalar:
+            short = _shortfall(ranges, inputs, plain, read)
+        elif index == hint:
+            short = known
+        else:
+            short = _shortfall_of(ranges, inputs, plain, read, _weightless_from(min(nearest, known)))  # type: ignore[arg-type]
+        shortfalls.append(short if scalar else np.broadcast_to(short, size))
+        nearest = smaller(nearest, short)
+        # a step that covers fully takes all that is left: the later ones weigh nothing, and
+        # need not be read (d_min is 0 wherever this holds)
+        if not (nearest > 0.0 if scalar else np.any(nearest > 0.0)):
             break
-    return coverage
+    if scalar:
+        hints[case] = shortfalls.index(nearest)
+    width = larger(1.0 - nearest, NEAREST_MARGIN * smaller(nearest, 1.0))
+    left: Any = 1.0
+    weights: list[Any] = []
+    for short in shortfalls:
+        # (inf - inf where two steps are infinitely far, as at Ra = 0: a tie, the first keeps it)
+        beyond = (short - nearest if short != nearest else 0.0) if scalar else \
+            np.where(short == nearest, 0.0, short - nearest)
+        share = smaller(larger(1.0 - beyond / width, 0.0), 1.0)
+        weights.append(left * share)
+        left = left * (1.0 - share)
+        if scalar and left == 0.0:   # the rest weigh nothing
+            break
+    return weights + [0.0] * (len(steps) - len(weights))
+
+
+def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hints: dict,
+                              case: str | None, inputs: Mapping[str, Any], plain: Mapping[str, float],
+                              read: dict[int, float]) -> list[Any]:
+    """:func:`_step_weights` on the scalar path where step ``covering`` covers fully (d = 0, the
+    usual case): the rule's arithmetic with d_min = 0 and a width of one band, written out (a
+    step before it takes 1 - d of what is left, the first that covers fully takes the rest, the
+    later ones nothing); a step is read only until its shortfall reaches 1."""
+    left = 1.0
+    weights: list[Any] = []
+    for index in range(covering + 1):
+        short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
+        share = min(max(1.0 - short / 1.0, 0.0), 1.0)
+        weights.append(left * share)
+        left = left * (1.0 - share)
+        if left == 0.0:
+            hints[case] = index
+            break
+    return weights + [0.0] * (len(steps) - len(weights))
 
 
 def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
@@ -75,33 +198,28 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     scalar = plain is not None
     floor = -math.inf if geo.floor is None else geo.floor
     size = () if scalar else next(iter(inputs.values())).shape
-    left: Any = 1.0 if scalar else np.ones(size)
     nu: Any = 0.0 if scalar else np.zeros(size)
     weights: dict[str, Any] = {}        # method -> total weight (its forms together)
-    for method, ranges, function in _compiled_steps(geo, case):
-        coverage = _coverage(ranges, inputs, plain)
-        if coverage is None:  # covers everything: takes all that is left
-            weight, left = left, np.zeros(size)
-        else:
-            weight, left = left * coverage, left * (1.0 - coverage)
+    for (method, _, function), weight in zip(_compiled_steps(geo, case),
+                                             _step_weights(geo, case, inputs, plain)):
         used = weight > 0.0
-        if used if scalar else used.any():
-            everywhere = scalar or used.all()
-            part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
-            raw = function(**(dict(part, case=case) if geo.cases else part))
-            if scalar:
-                nu += weight * max(_first(raw), floor)
+        if not (used if scalar else np.any(used)):
+            continue
+        weight = weight if scalar else np.broadcast_to(weight, size)
+        everywhere = scalar or used.all()
+        part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
+        raw = function(**(dict(part, case=case) if geo.cases else part))
+        if scalar:
+            nu += weight * max(_first(raw), floor)
+        else:
+            value = np.asarray(raw, dtype=float)
+            if geo.floor is not None:
+                value = np.maximum(value, geo.floor)
+            if everywhere:
+                nu += weight * value
             else:
-                value = np.asarray(raw, dtype=float)
-                if geo.floor is not None:
-                    value = np.maximum(value, geo.floor)
-                if everywhere:
-                    nu += weight * value
-                else:
-                    nu[used] += weight[used] * value
-            weights[method] = weights.get(method, 0.0) + weight
-        if not (left > 0.0 if scalar else left.any()):
-            break
+                nu[used] += weight[used] * value
+        weights[method] = weights.get(method, 0.0) + weight
     return nu, weights
 
 

@@ -19,9 +19,8 @@ def define_geometry(geometry: Geometry) -> Geometry:
         raise RuntimeError(f"{geometry.name}: the first parameter must be the length {geometry.length!r}")
     for case in geometry.cases or (None,):
         steps = geometry.auto.get(case)
-        if not steps or steps[-1].when != ():
-            raise RuntimeError(f"{geometry.name}: the auto rule of case {case!r} must end with a "
-                               "step that covers everything (when=())")
+        if not steps:
+            raise RuntimeError(f"{geometry.name}: case {case!r} has no auto rule")
     GEOMETRIES[geometry.name] = geometry
     return geometry
 

@@ -69,7 +69,8 @@ def nu_spread(geometry: str, ra: ArrayLike, pr: ArrayLike, *, case: str | None =
     NusseltSpread
         ``.low``, ``.high`` (floats for scalar input; NaN where ``.count`` is 0), ``.count``
         and ``.methods`` (covering methods, ascending Nu).  Where "auto" is in range, its value
-        lies between ``low`` and ``high``.
+        lies between ``low`` and ``high``, but within a tenth of a transition band of a point
+        where two published ranges only touch (auto's hand-over there has no step; README).
 
     Notes
     -----

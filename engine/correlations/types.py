@@ -18,17 +18,30 @@ UNSTABLE_CASES = ("hot-up", "cold-down")
 STABLE_CASES = ("hot-down", "cold-up")
 
 
+#: The auto rule in words, the same for every geometry (stillair.correlations.auto computes it);
+#: each geometry's description gives its order and ranges and then this.
+AUTO_PRINCIPLE = (
+    "Auto prefers what is valid: it weighs the rule's correlations in order, each by how far it "
+    "lies inside its published ranges; a correlation hands its weight to the next across the "
+    "transition band inside its bound (a factor 4 in Ra, 1.25 in aspect, Pr and slenderness, "
+    "5 deg in tilt) only where the next is inside its own range; where the correlation in use "
+    "reaches the end of its range and no valid neighbour takes over, it keeps its weight, and "
+    "outside every range the nearest valid correlation is used, extrapolated, with the note. "
+    "Where two ranges only touch, the two share a tenth of a band either side of the touch, so "
+    "the value has no step.")
+
+
 @dataclass(frozen=True)
 class AutoStep:
     """One step of a geometry's "auto" rule: use ``method`` where ``when`` holds.
 
-    ``when`` defaults to the method's published validity ranges; a rule states its own where
-    the auto choice differs from the published range (a horizontal-only correlation carried a
-    few degrees off the horizontal, a fallback that takes whatever is left).  An empty ``when``
-    covers everything (the last step of every rule).  ``form`` names one published band of a
+    The step always reads the method's published validity ranges (those with
+    ``Range.in_auto``); ``when`` adds auto's own where its choice is narrower (one band of a
+    piecewise correlation, a continuous stand-in for a published range that jumps).  An empty
+    ``when`` adds nothing (a rule of one correlation).  ``form`` names one published band of a
     piecewise correlation (:attr:`Correlation.forms`), so that auto can blend across the band
-    edge while the named method keeps its published step.  Its coverage is the product of its
-    ranges' transition weights (:func:`stillair.correlations.auto.weigh_steps`).
+    edge while the named method keeps its published step.  Its weight follows from the largest
+    of its ranges' shortfalls (:func:`stillair.correlations.auto.weigh_steps`).
     """
 
     method: str
@@ -57,10 +70,8 @@ class Geometry:
     """A family of correlations sharing inputs, and every fact about it the layers above read.
 
     ``auto`` maps a case (or ``None`` for geometries without cases) to the ordered
-    :class:`AutoStep` list of its "auto" rule; the last step covers everything.  Auto weighs the
-    steps continuously: each step takes its coverage of what the earlier steps left, so where
-    one correlation's range ends the value passes to the next across the transition band of
-    that bound, with no step.  ``floor`` is the smallest physical Nusselt number (1 for
+    :class:`AutoStep` list of its "auto" rule, in the order auto prefers the correlations valid
+    at a point (:data:`AUTO_PRINCIPLE`; :mod:`stillair.correlations.auto`).  ``floor`` is the smallest physical Nusselt number (1 for
     conduction across a cavity), or None where a formula may legitimately go below 1 (external
     flows, where Nu is based on an arbitrary length).
 

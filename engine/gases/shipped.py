@@ -16,7 +16,7 @@ import numpy as np
 
 from .data import GAS_NAMES, GAS_PRESSURE_RANGE, GASES, GasData
 from .tables import (_PRESSURE_NODES, _PRIMARY, _T_STEP, _TABLES_LOCK, _PropertyTable, _coolprop,
-                     _tabulate, _temperature_grid)
+                     _tabulate, _temperature_grid, chebyshev_columns, spline_coefficients)
 
 TABLE_FILE = Path(__file__).parent.parent / "data" / "gas_tables.npz"
 TABLE_FILE_VARIABLE = "STILLAIR_GAS_TABLES"  # another file, or "off"
@@ -40,6 +40,7 @@ class _ShippedGas:
     t_kelvin: np.ndarray
     values: np.ndarray       # (temperatures, pressure nodes, primaries)
     molar_mass: float        # kg/mol
+    spline: bool = False     # the file carries the table's spline coefficients (<gas>.spline)
 
 
 @dataclass
@@ -69,7 +70,9 @@ def _table_path() -> Path | None:
 def _read_table_file(path: Path) -> _ShippedFile:
     """The file's fresh entries; raises ValueError if the whole file does not fit this code."""
     with np.load(path, allow_pickle=False) as data:
-        arrays = {key: data[key] for key in data.files}
+        # the spline coefficients (4x the values) are read per gas, when its table is first used
+        arrays = {key: data[key] for key in data.files if not key.endswith(".spline")}
+        splines = {key for key in data.files if key.endswith(".spline")}
     if int(arrays["format"]) != _TABLE_FORMAT:
         raise ValueError(f"format {int(arrays['format'])}, expected {_TABLE_FORMAT}")
     if not np.array_equal(arrays["grid"], _grid_parameters()):
@@ -91,7 +94,8 @@ def _read_table_file(path: Path) -> _ShippedFile:
         else:
             shipped.gases[gas.name] = _ShippedGas(arrays[f"{gas.name}.t_kelvin"],
                                                   arrays[f"{gas.name}.values"],
-                                                  float(arrays[f"{gas.name}.molar_mass"]))
+                                                  float(arrays[f"{gas.name}.molar_mass"]),
+                                                  f"{gas.name}.spline" in splines)
     return shipped
 
 
@@ -186,7 +190,33 @@ def table_file_arrays() -> dict[str, np.ndarray]:
         arrays[f"{gas.name}.values"] = _tabulate(gas)
         arrays[f"{gas.name}.molar_mass"] = np.array(
             coolprop.AbstractState("HEOS", gas.coolprop_fluid).molar_mass())
+    return with_splines(arrays)
+
+
+def with_splines(arrays: dict[str, np.ndarray]) -> dict[str, np.ndarray]:
+    """The table file's arrays with each gas's spline coefficients (``<gas>.spline``, fitted
+    with scipy from its ``<gas>.values``) added or replaced: evaluating a shipped table then
+    needs numpy only (no scipy.interpolate at the first property call)."""
+    arrays = dict(arrays)
+    for name in arrays["gases"].tolist():
+        arrays[f"{name}.spline"] = spline_coefficients(arrays[f"{name}.t_kelvin"], arrays[f"{name}.values"])
     return arrays
+
+
+def _stored_spline(path: Path, name: str, shipped: _ShippedGas) -> np.ndarray | None:
+    """The spline coefficients the file stores for one gas, if they belong to its values: the
+    right shape, and the constant terms (a spline's values at its breaks) equal to the values'
+    Chebyshev series to 1e-12 -- a stale or foreign set is refused (warned; scipy fits it)."""
+    with np.load(path, allow_pickle=False) as data:
+        coefficients = data[f"{name}.spline"]
+    knots = chebyshev_columns(shipped.values)
+    expected = (4, len(shipped.t_kelvin) - 1) + knots.shape[1:]
+    if coefficients.shape == expected and coefficients.dtype == np.float64 and \
+            np.allclose(coefficients[3], knots[:-1], rtol=1e-12, atol=0.0):
+        return coefficients
+    warnings.warn(f"stillair.gases: the spline of {name} in gas table file {path} does not fit its "
+                  f"values; fitted again ({_REBUILD_HINT})", RuntimeWarning, stacklevel=3)
+    return None
 
 
 def write_table_file(path: Path | str = TABLE_FILE, arrays: dict | None = None) -> Path:
@@ -195,7 +225,9 @@ def write_table_file(path: Path | str = TABLE_FILE, arrays: dict | None = None) 
     A ``numpy.load``-able .npz; written with fixed zip dates, so that the same CoolProp gives
     the same bytes (a rebuild shows in version control only when a number changed).
     """
-    path = Path(path)
+    # resolved: in a development install the package's file is a link into the source tree, and
+    # replacing the link would leave the source file as it was
+    path = Path(path).resolve()
     arrays = table_file_arrays() if arrays is None else arrays
     path.parent.mkdir(parents=True, exist_ok=True)
     partial = path.with_name(path.name + ".partial")
@@ -223,7 +255,9 @@ def _pure_table(gas: GasData) -> _PropertyTable:
     """The table of a pure gas: shipped values if the file has them, else from CoolProp."""
     shipped = _shipped_gas(gas.name)
     if shipped is not None:
-        return _PropertyTable(shipped.t_kelvin, shipped.values)
+        file = _shipped()
+        coefficients = _stored_spline(file.path, gas.name, shipped) if shipped.spline and file else None
+        return _PropertyTable(shipped.t_kelvin, shipped.values, coefficients)
     return _PropertyTable(_temperature_grid(gas.t_range), _tabulate(gas))
 
 

@@ -84,6 +84,8 @@ def _assemble(mixture: _Mixture, t, pressure, density_per_pressure, viscosity, c
 
 
 def _checked_temperature(function: str, argument: str, mixture: _Mixture, t) -> np.ndarray:
+    if type(t) in PLAIN_NUMBERS and mixture.t_range.low <= t <= mixture.t_range.high:   # above absolute zero too
+        return np.asarray(t, dtype=float)
     t = require_finite(function, argument, t)
     below_zero = ~(t > ABSOLUTE_ZERO_C)
     if np.any(below_zero):
@@ -155,9 +157,13 @@ def _plain_inside(mixture: _Mixture, temperatures, pressure) -> bool:
 def _checked_state(function: str, mixture: _Mixture, t, pressure):
     """Check t (degC) and pressure (Pa) against the gas's ranges; broadcast them."""
     t = _checked_temperature(function, "t", mixture, t)
-    pressure = require_positive(function, "pressure", pressure, "Pa")
-    require_between(function, "pressure", pressure, GAS_PRESSURE_RANGE.low, GAS_PRESSURE_RANGE.high, "Pa")
-    return np.broadcast_arrays(t, pressure)
+    return np.broadcast_arrays(t, _checked_pressure(function, pressure))
+
+
+def _checked_pressure(function: str, pressure) -> np.ndarray:
+    """The pressure argument (Pa) checked: positive, inside the gas tables' pressure band."""
+    require_positive(function, "pressure", pressure, "Pa")   # its own message below the band
+    return require_between(function, "pressure", pressure, GAS_PRESSURE_RANGE.low, GAS_PRESSURE_RANGE.high, "Pa")
 
 
 @lru_cache(maxsize=4096)

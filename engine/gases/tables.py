@@ -11,8 +11,8 @@ import numpy as np
 from numpy.polynomial import chebyshev
 
 # CoolProp is imported only where a table is computed (_coolprop below): importing it takes
-# about 2 s, and the shipped tables make it unnecessary.  scipy.interpolate (0.2 s) is imported
-# where the first table is built, so that importing the engine stays light.
+# about 2 s, and the shipped tables make it unnecessary.  scipy.interpolate (0.1-0.2 s) is
+# imported only where a spline is fitted (spline_coefficients): the shipped tables carry theirs.
 
 from ..validity import ABSOLUTE_ZERO_C, Range
 from .data import GAS_PRESSURE_RANGE, GasData
@@ -34,32 +34,78 @@ _PRESSURE_NODE_VALUES = (0.5 * (GAS_PRESSURE_RANGE.high + GAS_PRESSURE_RANGE.low
                          + 0.5 * (GAS_PRESSURE_RANGE.high - GAS_PRESSURE_RANGE.low) * _PRESSURE_NODE_X)
 
 
+def spline_coefficients(t_kelvin: np.ndarray, values: np.ndarray) -> np.ndarray:
+    """The table's interpolant as piecewise-cubic coefficients, fitted with scipy.
+
+    ``values[i, j, :]``: the primaries at ``t_kelvin[i]`` and the j-th pressure node.  In
+    pressure each column becomes a Chebyshev series through the nodes; in temperature the
+    series' coefficients get a not-a-knot cubic spline (``scipy.interpolate.CubicSpline``).
+    Returns its ``c``, shape ``(4, intervals, pressure nodes, primaries)``, highest power
+    first: what the shipped file stores (``<gas>.spline``), so that evaluating a shipped table
+    needs numpy only.
+    """
+    from scipy.interpolate import CubicSpline  # 0.1-0.2 s to import: only where a table is fitted
+
+    return CubicSpline(t_kelvin, chebyshev_columns(values), axis=0).c
+
+
+def chebyshev_columns(values: np.ndarray) -> np.ndarray:
+    """The values at the pressure nodes turned into Chebyshev series in pressure: ``[i, k, :]``
+    the k-th series coefficient of the primaries at the i-th temperature."""
+    flat = values.transpose(1, 0, 2).reshape(_PRESSURE_NODES, -1)
+    coefficients = chebyshev.chebfit(_PRESSURE_NODE_X, flat, _PRESSURE_NODES - 1)
+    return coefficients.reshape(_PRESSURE_NODES, len(values), len(_PRIMARY)).transpose(1, 0, 2)
+
+
+def piecewise_cubic(breaks: np.ndarray, coefficients: np.ndarray, t) -> np.ndarray:
+    """A piecewise cubic at ``t``: ``coefficients[:, k]`` (highest power first) on
+    ``breaks[k] <= t < breaks[k + 1]``, the last piece closed and both end pieces extended, as
+    ``scipy.interpolate.PPoly`` evaluates it -- the same sum in the same order
+    ((c3 + c2 s) + c1 s^2) + c0 s^3, so the same bits.  Shape ``shape(t) + coefficients.shape[2:]``.
+    """
+    t = np.asarray(t, dtype=float)
+    interval = np.clip(np.searchsorted(breaks, t, side="right") - 1, 0, len(breaks) - 2)
+    s = (t - breaks[interval]).reshape(t.shape + (1,) * (coefficients.ndim - 2))
+    s2 = s * s
+    piece = coefficients[:, interval]
+    return ((piece[3] + piece[2] * s) + piece[1] * s2) + piece[0] * (s2 * s)
+
+
+class _PiecewiseCubic:
+    """A piecewise cubic in T (:func:`piecewise_cubic`): the table at one pressure."""
+
+    __slots__ = ("x", "c")
+
+    def __init__(self, breaks: np.ndarray, coefficients: np.ndarray):
+        self.x, self.c = breaks, coefficients
+
+    def __call__(self, t) -> np.ndarray:
+        return piecewise_cubic(self.x, self.c, t)
+
+
 class _PropertyTable:
     """The primary properties of one gas or mixture on a (T, p) grid, interpolated.
 
     In temperature a not-a-knot cubic spline on a 1 K grid; in pressure a Chebyshev series
-    through ``_PRESSURE_NODES`` Chebyshev points of the pressure band.  Density is tabulated as
-    rho/p, which is nearly constant in p, so that its relative error stays small down to 1 kPa.
-    For one pressure the series is summed once into a plain piecewise cubic in T
-    (:meth:`at_pressure`, cached), which is what scalar calls and arrays at one pressure use.
+    through ``_PRESSURE_NODES`` Chebyshev points of the pressure band (:func:`spline_coefficients`).
+    Density is tabulated as rho/p, which is nearly constant in p, so that its relative error
+    stays small down to 1 kPa.  For one pressure the series is summed once into a plain
+    piecewise cubic in T (:meth:`at_pressure`, cached), which is what scalar calls and arrays
+    at one pressure use.  Evaluation is numpy only; scipy fits the spline where no stored
+    coefficients are given (a mixture, a gas computed from CoolProp).
 
     Largest interpolation error found (tests): 6e-7 relative, in SF6 conductivity at 200 kPa
     next to 478 K, where CoolProp's critical-enhancement term ends with a slope discontinuity
     the spline rounds off; elsewhere below 5e-8.
     """
 
-    def __init__(self, t_kelvin: np.ndarray, values: np.ndarray):
-        """``values[i, j, :]``: primaries at ``t_kelvin[i]`` and the j-th pressure node."""
-        from scipy.interpolate import CubicSpline  # see the imports at the top
-
+    def __init__(self, t_kelvin: np.ndarray, values: np.ndarray, coefficients: np.ndarray | None = None):
+        """``values[i, j, :]``: primaries at ``t_kelvin[i]`` and the j-th pressure node;
+        ``coefficients``: their :func:`spline_coefficients` if stored (else fitted here)."""
         self.t_kelvin = t_kelvin
-        count = len(t_kelvin)
-        flat = values.transpose(1, 0, 2).reshape(_PRESSURE_NODES, -1)
-        coefficients = chebyshev.chebfit(_PRESSURE_NODE_X, flat, _PRESSURE_NODES - 1)
-        coefficients = coefficients.reshape(_PRESSURE_NODES, count, len(_PRIMARY))
-        self.spline = CubicSpline(t_kelvin, coefficients.transpose(1, 0, 2), axis=0)
-        self._slices: dict = {}  # pressure -> scipy.interpolate.PPoly
-        self._breaks = self.spline.x.tolist()  # for bisect in :meth:`at_point`
+        self.coefficients = spline_coefficients(t_kelvin, values) if coefficients is None else coefficients
+        self._slices: dict = {}  # pressure -> _PiecewiseCubic
+        self._breaks = t_kelvin.tolist()  # for bisect in :meth:`at_point`
         self._point_coefficients: dict = {}    # pressure -> nested lists, for :meth:`at_point`
 
     def evaluate(self, t_kelvin, pressure) -> np.ndarray:
@@ -70,19 +116,16 @@ class _PropertyTable:
             shape = np.broadcast_shapes(np.shape(t_kelvin), pressure.shape)
             return np.broadcast_to(values, shape + (len(_PRIMARY),))
         basis = chebyshev.chebvander(_pressure_variable(pressure), _PRESSURE_NODES - 1)
-        coefficients = self.spline(t_kelvin)
+        coefficients = piecewise_cubic(self.t_kelvin, self.coefficients, t_kelvin)
         return np.einsum("...k,...kq->...q", basis, coefficients)
 
-    def at_pressure(self, pressure: float):
-        """The table at one pressure: a piecewise cubic in T (a ``scipy.interpolate.PPoly``,
-        exactly the spline's values)."""
+    def at_pressure(self, pressure: float) -> _PiecewiseCubic:
+        """The table at one pressure: a piecewise cubic in T (exactly the spline's values)."""
         piece = self._slices.get(pressure)
         if piece is None:
-            from scipy.interpolate import PPoly  # loaded with the spline already
-
             x = float(_pressure_variable(pressure))
             basis = chebyshev.chebvander(x, _PRESSURE_NODES - 1)[0]
-            piece = PPoly(np.tensordot(self.spline.c, basis, axes=([2], [0])), self.spline.x)
+            piece = _PiecewiseCubic(self.t_kelvin, np.tensordot(self.coefficients, basis, axes=([2], [0])))
             if len(self._slices) >= 64:  # a bounded cache; pressures rarely vary much
                 self._slices.clear()
             self._slices[pressure] = piece
@@ -102,8 +145,8 @@ class _PropertyTable:
 
     def at_point(self, t_kelvin: float, pressure: float) -> list[float]:
         """The primaries at one in-range point, as floats: :meth:`at_pressure`'s cubic summed in
-        plain Python in the same order as ``PPoly`` does (the same values), without the
-        call overhead of scipy's array machinery, which costs more than the cubic for one
+        plain Python in the same order as :func:`piecewise_cubic` (the same values), without
+        the call overhead of numpy's array machinery, which costs more than the cubic for one
         point."""
         breaks = self._breaks
         # PPoly's interval: the last breakpoint <= t, the right end belonging to the last piece

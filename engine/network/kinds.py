@@ -124,6 +124,34 @@ class Param:
             raise NetworkError(FUNCTION, here, value, f"in [{self.limits[0]:g}, {self.limits[1]:g}]°")
         return value
 
+    def read_column(self, values: list) -> list | None:
+        """:meth:`read` of a whole column at once, when every cell is a plain number (float or
+        int) that :meth:`read` accepts: the same floats, checked by array comparisons.  None
+        when any cell is anything else (blank, text, out of range): :meth:`read` then takes
+        the cells one by one and words the problem."""
+        if self.optional and values.count(None) == len(values):
+            return [self.default] * len(values)
+        if self.check not in _NUMBER_CHECKS or not set(map(type, values)) <= _PLAIN_TYPES:
+            return None
+        array = np.array(values, dtype=float)
+        good = np.isfinite(array)
+        if self.check in ("positive", "flow-or-curve"):
+            good &= array > 0
+        if self.role in _GEOMETRY_LENGTHS:
+            good &= (array >= LENGTH_RANGE[0]) & (array <= LENGTH_RANGE[1])
+        if self.check in ("emissivity", "fraction"):
+            good &= (array > 0) & (array <= 1)
+        if self.check == "non-negative":
+            good &= array >= 0
+        if self.check == "angle":
+            good &= (array >= self.limits[0]) & (array <= self.limits[1])
+        return array.tolist() if good.all() else None
+
+
+#: The checks :meth:`Param.read_column` does with arrays (a number and a condition on it).
+_NUMBER_CHECKS = ("positive", "non-negative", "emissivity", "fraction", "angle", "flow-or-curve")
+_PLAIN_TYPES = {float, int}     # a plain number (a bool is neither: read() refuses it by name)
+
 
 #: Parameter roles that are a convection geometry's lengths (checked against LENGTH_RANGE).
 _GEOMETRY_LENGTHS = ("length", "height", "diameter")
@@ -161,6 +189,35 @@ class BranchKind:
                 continue
             values.append(self.params[position].read(value, where, column))
         return tuple(values)
+
+    def read_columns(self, columns: list[list]) -> list[tuple] | None:
+        """The p1..p5 columns of many rows of this kind (``columns[k]``: column p(k+1)), read
+        as :meth:`read_params` reads each row -- a column of plain numbers in one array check
+        (:meth:`Param.read_column`), other columns cell by cell -- or None at the first cell
+        :meth:`read_params` would refuse (the caller then reads row by row, which words it).
+        A kind with its own :meth:`read_params` and no ``read_columns`` is read row by row."""
+        if type(self).read_params is not BranchKind.read_params and type(self).read_columns is BranchKind.read_columns:
+            return self._read_rows(columns)
+        read = []
+        try:
+            for position, column in enumerate(columns):
+                if position >= len(self.params):
+                    if column.count(None) < len(column) and not all(blank(value) for value in column):
+                        return None
+                    continue
+                param = self.params[position]
+                values = param.read_column(column)
+                read.append(values if values is not None else
+                            [param.read(value, "", f"p{position + 1}") for value in column])
+        except NetworkError:
+            return None
+        return list(zip(*read)) if read else [()] * len(columns[0])
+
+    def _read_rows(self, columns: list[list]) -> list[tuple] | None:
+        try:
+            return [self.read_params(list(row), "") for row in zip(*columns)]
+        except NetworkError:
+            return None
 
     def read_method(self, value, where: str, params: tuple = ()) -> str:
         """The method column; ``params`` are the row's parameters as read (a case column
@@ -308,12 +365,25 @@ class ConvectionKind(BranchKind):
                                + (f' for case "{case}"' if case is not None else ""))
         return value.strip().lower()
 
+    def read_columns(self, columns: list[list]) -> list[tuple] | None:
+        rows = super().read_columns(columns)
+        wind, along = self.role("wind"), self.role("wind-length")
+        if rows is None or (wind is not None and along is not None
+                            and any(self._wind_without_length(values) for values in rows
+                                    if values[along] is None)):
+            return None
+        return rows
+
+    def _wind_without_length(self, values: tuple) -> bool:
+        wind, along = self.role("wind"), self.role("wind-length")
+        return bool(wind is not None and values[wind] > 0 and along is not None and values[along] is None
+                    and WIND_FLOWS[self.geometry or ""].wind_length_required)
+
     def read_params(self, row_values, where: str) -> tuple:
         values = super().read_params(row_values, where)
-        wind, along = self.role("wind"), self.role("wind-length")
-        if (wind is not None and values[wind] > 0 and along is not None and values[along] is None
-                and WIND_FLOWS[self.geometry or ""].wind_length_required):
-            raise NetworkError(FUNCTION, f"{where}, column p{along + 1} (wind length)", None,
+        if self._wind_without_length(values):
+            along = self.role("wind-length")
+            raise NetworkError(FUNCTION, f"{where}, column p{(along or 0) + 1} (wind length)", None,
                                "the plate's length along the wind in m (> 0) when the wind is > 0 "
                                "(area/perimeter is not a length along the wind)")
         return values

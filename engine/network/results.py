@@ -17,7 +17,7 @@ from .model import Evaluation, Network
 __all__ = ["BranchResult", "NetworkResult", "build_result"]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)   # slots: no dict per branch (a large network's result holds 10^4-10^5)
 class BranchResult:
     """One branch at the solution.  h is per unit area (nan for a resistance branch);
     R = (T_from - T_to) / q in K/W (its zero-difference limit 1/(h A) when the temperatures are

@@ -74,12 +74,20 @@ class _FreePairs:
         self.fixed_rows = position[rows][self.to_fixed]
         self.fixed_columns = columns[self.to_fixed]   # node numbers (fixed)
         self.size = net.free.size
+        # The compressed-column pattern, found once per network: every kept entry's slot among
+        # the distinct (row, column) pairs, ordered by column then row.  Each matrix is then one
+        # bincount into the slots (duplicates add up, as in the dense form), with no sorting or
+        # format conversion per Newton step.
+        pairs, self.slot = np.unique(self.columns.astype(np.int64) * self.size + self.rows, return_inverse=True)
+        self.indices = pairs % self.size                                  # the row of each slot
+        self.indptr = np.concatenate([[0], np.cumsum(np.bincount(pairs // self.size, minlength=self.size))])
 
     def matrix(self, values: np.ndarray):
-        from scipy.sparse import csr_matrix
+        """The free block with these entry values, a CSC matrix (what SuperLU factors)."""
+        from scipy.sparse import csc_matrix
 
-        # duplicate (row, column) entries add up, as np.bincount adds them in the dense form
-        return csr_matrix((values[self.keep], (self.rows, self.columns)), shape=(self.size, self.size))
+        data = np.bincount(self.slot, values[self.keep], minlength=self.indices.size)
+        return csc_matrix((data, self.indices, self.indptr), shape=(self.size, self.size))
 
     def fixed_part(self, values: np.ndarray, net: Network) -> np.ndarray:
         """(free rows x fixed columns) @ the fixed temperatures."""
@@ -218,7 +226,10 @@ class Solver:
     @staticmethod
     def row_scale(jac) -> np.ndarray:
         """1 / (each node's total conductance): turns W into K."""
-        total = np.asarray(abs(jac).sum(axis=1)).ravel()
+        if sparse_matrix(jac) and jac.format == "csc":   # the row sums straight from the stored entries
+            total = np.bincount(jac.indices, np.abs(jac.data), minlength=jac.shape[0])
+        else:
+            total = np.asarray(abs(jac).sum(axis=1)).ravel()
         total[~(total > 0)] = 1.0
         return 1.0 / total
 
@@ -232,10 +243,11 @@ class Solver:
                 return np.linalg.solve(matrix * scale[:, None], rhs)
             except np.linalg.LinAlgError:
                 return np.linalg.lstsq(matrix * scale[:, None], rhs, rcond=None)[0]
-        from scipy.sparse import diags
+        from scipy.sparse import csc_matrix
         from scipy.sparse.linalg import MatrixRankWarning, lsqr, spsolve
 
-        scaled = (diags(scale) @ matrix).tocsc()
+        matrix = csc_matrix(matrix)   # (the solver's own matrices are CSC already: no copy)
+        scaled = csc_matrix((matrix.data * scale[matrix.indices], matrix.indices, matrix.indptr), shape=matrix.shape)
         with warnings.catch_warnings():
             warnings.simplefilter("error", MatrixRankWarning)
             try:

@@ -13,6 +13,7 @@ connected group of nodes needs a fixed temperature.
 from __future__ import annotations
 
 import difflib
+import re
 from dataclasses import dataclass
 
 import numpy as np
@@ -20,7 +21,7 @@ import numpy as np
 from ..validity import ABSOLUTE_ZERO_C
 from .errors import FUNCTION, NetworkError, Shown
 from .kinds import BRANCH_KINDS
-from .reading import blank, error_text, name, number
+from .reading import _ERROR_TEXT, blank, error_text, name, number
 
 __all__ = ["BRANCH_COLUMNS", "BOUNDARY_COLUMNS", "Branch", "Boundary", "parse_branches",
            "parse_boundaries", "Topology", "check_topology"]
@@ -29,7 +30,7 @@ BRANCH_COLUMNS = ("name", "from", "to", "kind", "p1", "p2", "p3", "p4", "p5", "m
 BOUNDARY_COLUMNS = ("node", "T or Q", "value")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)   # slots: no dict per row (fewer objects for the collector)
 class Branch:
     row: int
     name: str
@@ -63,6 +64,9 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
         rows = list(table)
     except TypeError:
         raise NetworkError(FUNCTION, table_name, table, "a table of rows (a list of lists)") from None
+    plain = _plain_table(rows, columns)
+    if plain is not None:
+        return plain
     singular = {"branches": "branch", "boundaries": "boundary", "capacities": "capacity"}.get(table_name, table_name)
     result: list = []
     for number_, row in enumerate(rows, start=1):
@@ -72,13 +76,12 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
             raise NetworkError(FUNCTION, f"{singular} row {number_}", row,
                                f"a row of up to {width} values ({' | '.join(columns)})")
         row = list(row)
-        if all(blank(v) for v in row):
-            continue
-        extra = [v for v in row[width:] if not blank(v)]
-        if extra:
+        if len(row) > width and any(not blank(v) for v in row[width:]):
             raise NetworkError(FUNCTION, f"{singular} row {number_}", Shown(f"{len(row)} columns"),
                                f"at most {width} columns ({' | '.join(columns)})")
         row = (row + [None] * width)[:width]
+        if all(blank(v) for v in row):
+            continue
         for column, value in zip(columns, row):
             text = error_text(value)
             if text is not None:
@@ -91,6 +94,38 @@ def _rows(table, table_name: str, columns: tuple[str, ...]):
     return result
 
 
+def _plain_table(rows, columns) -> list | None:
+    """:func:`_rows`'s answer for a table that needs no look at any one cell: rows of numbers,
+    None and text no spreadsheet error value is (one regular-expression search over all the
+    text), no filled cell past the last column, every row's first cell filled.  None for any
+    other table, which the loop of :func:`_rows` then reads row by row, wording the first problem."""
+    width = len(columns)
+    padded = []
+    for row in rows:
+        if type(row) is not list and type(row) is not tuple:
+            return None
+        size = len(row)
+        if size > width and list(row[width:]).count(None) < size - width:
+            return None
+        row = list(row[:width]) + [None] * (width - size) if size != width else list(row)
+        first = row[0]
+        if not (type(first) is str and not first.isspace() and first or type(first) in (float, int)):
+            return None
+        padded.append(row)
+    cells = [value for row in padded for value in row]
+    if not set(map(type, cells)) <= _PLAIN_CELL_TYPES:
+        return None
+    if _ERROR_LINE.search("\n".join([value for value in cells if type(value) is str])):
+        return None
+    numbered = list(enumerate(padded, start=1))
+    return numbered[1:] if numbered and _is_header(numbered[0][1], columns) else numbered
+
+
+_PLAIN_CELL_TYPES = {float, int, str, type(None)}
+#: A line holding a spreadsheet error value (reading.error_text's pattern, one per line), to
+#: search all the text of a table at once.
+_ERROR_LINE = re.compile(r"(?m)^[^\S\n]*" + _ERROR_TEXT.pattern.strip("^$") + r"[^\S\n]*$", re.IGNORECASE)
+
 _WHAT = {"name": "a branch name", "from": "a node name", "to": "a node name", "node": "a node name"}
 
 
@@ -100,9 +135,53 @@ def _is_header(row, columns) -> bool:
 
 
 def parse_branches(table) -> tuple[Branch, ...]:
+    rows = _rows(table, "branches", BRANCH_COLUMNS)
+    return _branches_by_column(rows) or _branches_by_row(rows)
+
+
+def _branches_by_column(rows) -> tuple[Branch, ...] | None:
+    """The branch rows read column by column: names and kinds as lists, each kind's parameter
+    columns at once (:meth:`BranchKind.read_columns`).  None as soon as any cell is not plainly
+    good -- a number typed as a name, a blank, a duplicate, a value out of range -- and then
+    :func:`_branches_by_row` reads the table and words the first problem, so a message never
+    depends on which reader found it."""
+    if not rows:
+        return None
+    names, sources, targets, kinds, *parameters, methods = zip(*[row for _, row in rows])
+    if not set(map(type, names + sources + targets + kinds)) == {str}:
+        return None
+    name_of, source_of, target_of = ([v.strip() for v in column] for column in (names, sources, targets))
+    if (not all(name_of) or not all(source_of) or not all(target_of) or len(set(name_of)) < len(name_of)
+            or any(a == b for a, b in zip(source_of, target_of))):
+        return None
+    members: dict[str, list[int]] = {}
+    for position, kind_cell in enumerate(kinds):
+        members.setdefault(kind_cell.strip().lower(), []).append(position)
+    if not all(kind_name in BRANCH_KINDS for kind_name in members):
+        return None
+    params: list = [None] * len(rows)
+    method_names: list = [None] * len(rows)
+    for kind_name, positions in members.items():
+        kind = BRANCH_KINDS[kind_name]
+        read = kind.read_columns([[column[i] for i in positions] for column in parameters])
+        if read is None:
+            return None
+        blank_method = kind.read_method(None, "", ())    # a blank method cell reads the same in every row
+        try:
+            for position, values in zip(positions, read):
+                params[position] = values
+                cell = methods[position]
+                method_names[position] = blank_method if cell is None else kind.read_method(cell, "", values)
+        except NetworkError:
+            return None
+    return tuple(Branch(row_number, name_of[i], source_of[i], target_of[i], kinds[i].strip().lower(), params[i],
+                        method_names[i]) for i, (row_number, _) in enumerate(rows))
+
+
+def _branches_by_row(rows) -> tuple[Branch, ...]:
     branches: list[Branch] = []
     seen: dict[str, int] = {}
-    for row_number, row in _rows(table, "branches", BRANCH_COLUMNS):
+    for row_number, row in rows:
         where = f"branch row {row_number}"
         branch_name = name(row[0], where, "name")
         where = f"branch row {row_number} ({branch_name})"

@@ -8,6 +8,11 @@ Each case is a fresh Python process, timed from outside (wall clock, best and me
 * ``import stillair`` alone, and ``import stillair; stillair.air_conductivity(20.0)``;
 * ``stillair calc`` on the 300-formula bench workbook of bench_calc.py.
 
+Byte code is cached as an installed package has it (pip compiles a wheel's modules): the
+processes run without PYTHONDONTWRITEBYTECODE, and one untimed run of each case writes the
+.pyc files first.  Compiling the engine's ~50 modules from source would otherwise add about
+0.15 s to every start and measure the machine's environment rather than the package.
+
 Each is run twice: as shipped (the gas tables from engine/data/gas_tables.npz, CoolProp never
 imported), and "as before" -- CoolProp imported at start-up and every gas tabulated from it
 (STILLAIR_GAS_TABLES=off), which is what the engine did before the tables were shipped.
@@ -33,8 +38,10 @@ PRELOAD_COOLPROP = "import CoolProp; "  # the old engine imported it with itself
 
 
 def wall(code: str, environment: dict, repeat: int) -> list[float]:
-    env = {key: value for key, value in os.environ.items() if key != "STILLAIR_GAS_TABLES"}
+    env = {key: value for key, value in os.environ.items()
+           if key not in ("STILLAIR_GAS_TABLES", "PYTHONDONTWRITEBYTECODE")}
     env.update(environment)
+    subprocess.run([sys.executable, "-c", code], env=env, check=True, stdout=subprocess.DEVNULL)  # .pyc
     times = []
     for _ in range(repeat):
         started = time.perf_counter()
@@ -42,6 +49,14 @@ def wall(code: str, environment: dict, repeat: int) -> list[float]:
                        stdout=subprocess.DEVNULL)
         times.append(time.perf_counter() - started)
     return times
+
+
+def in_process(code: str, repeat: int) -> list[float]:
+    """What ``code`` prints (a time it measured itself), from ``repeat`` fresh processes."""
+    env = {key: value for key, value in os.environ.items()
+           if key not in ("STILLAIR_GAS_TABLES", "PYTHONDONTWRITEBYTECODE")}
+    return [float(subprocess.run([sys.executable, "-c", code], env=env, check=True, capture_output=True,
+                                 text=True).stdout) for _ in range(repeat)]
 
 
 def report(label: str, times: list[float]) -> None:
@@ -66,12 +81,22 @@ def main() -> int:
         # The target (issue 21): import stillair at most 2x import numpy, timed in the same run.
         # In-process import time (-X importtime would add its own cost): the interpreter's own
         # start-up is the same for both and is taken off by timing `pass` alone.
-        bare = min(wall("pass", SHIPPED, args.repeat))
-        numpy_import = min(wall("import numpy", SHIPPED, args.repeat)) - bare
-        engine_import = min(wall("import stillair", SHIPPED, args.repeat)) - bare
+        # the three timed in alternation, one process each per round, so that a change of load
+        # during the run weighs on all three alike (blocks of one case each made the ratio swing)
+        rounds = [[min(wall(code, SHIPPED, 1)) for code in ("pass", "import numpy", "import stillair")]
+                  for _ in range(max(args.repeat, 7))]
+        bare, numpy_import, engine_import = (min(times) for times in zip(*rounds))
+        numpy_import, engine_import = numpy_import - bare, engine_import - bare
         print(f"import numpy {numpy_import:.3f} s, import stillair {engine_import:.3f} s "
               f"(interpreter start-up {bare:.3f} s taken off): ratio {engine_import / numpy_import:.2f} "
               f"(target <= 2)")
+        # The first property call reads the shipped table and its stored spline (numpy only),
+        # timed inside the process (a difference of two cold-process minima is mostly noise).
+        first_call = min(in_process("import time, stillair\nstarted = time.perf_counter()\n"
+                                    "stillair.air_conductivity(20.0)\nprint(time.perf_counter() - started)",
+                                    args.repeat))
+        print(f"first property call (air_conductivity, table read from the file): {first_call:.3f} s, "
+              f"{first_call / numpy_import:.2f}x import numpy")
         for label, code in cases:
             print(label)
             report("shipped tables (CoolProp not imported)", wall(code, SHIPPED, args.repeat))
