@@ -334,10 +334,10 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
 
 
 def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
-    """The load job writes rectangles of formulas in chunks of rows from the bottom up
-    (stillair_calc.CHUNK_ROWS = 256): every row of a block longer than two chunks is rebound,
-    built-in formulas inside the block keep their values, and a block holding part of an array
-    formula is rebound cell by cell, the array once."""
+    """The load job writes the columns of a rectangle that hold our calls in chunks of rows
+    from the bottom up (stillair_calc.chunk_rows(600) = 97 rows): every row of a block longer
+    than two chunks is rebound, a built-in column between two of ours keeps its values, and a
+    block holding part of an array formula is rebound cell by cell, the array once."""
     rows = 600
     path = tmp_path / "long.xlsx"
     wb = xlsxwriter.Workbook(str(path))
