@@ -135,3 +135,11 @@ def test_column_runs_and_chunk_rows(component):
     assert component._column_runs([[None, None]]) == []
     assert component.chunk_rows(100) == component.MIN_CHUNK_ROWS
     assert component.chunk_rows(3200) == 226  # 4 * sqrt(3200) = 226.3
+
+
+def test_the_copied_form_sees_relative_rows_only(component):
+    form = component._copied_form
+    # copied down one row: relative rows move, absolute rows and function names do not
+    assert form("=F(A1;$B$1;C$1;LOG10(2);Q1_a)", 0) == form("=F(A2;$B$1;C$1;LOG10(2);Q1_a)", 1)
+    assert form("=F(A1;$B$1)", 0) != form("=F(A2;$B$2)", 1)  # an absolute row that moved
+    assert form("=F($Sheet2.A1)", 0) != form("=F($Sheet2.A2)", 1)  # another sheet: not guessed
