@@ -107,6 +107,21 @@ def test_a_value_the_workbook_cannot_use_is_an_error_row_naming_the_cell(tmp_pat
     assert code in (1, 2)
 
 
+def test_the_workbooks_input_rules_apply_to_every_row(tmp_path, capsys):
+    """A row whose value the input cell's data-validation rule refuses (the cabinet allows
+    -60..60 degC of ambient; 303.15 is a kelvin value) fails in its row with the rule's own
+    message, as --set does; the other rows go on (issue 21)."""
+    cases = write_cases(tmp_path, "ambient_t\n25\n303.15\n30\n")
+    code, out, err = run(capsys, "calc", CABINET, "--cases", cases)
+    first, kelvin, last = rows_of(out)
+    assert first["status"] == last["status"] == "ok"
+    assert kelvin["status"] == "failed"
+    assert kelvin["notes"].startswith("ambient_t=303.15: Inputs!") and "refuses 303.15" in kelvin["notes"]
+    code_set, _, err_set = run(capsys, "calc", CABINET, "--set", "ambient_t=303.15")
+    assert code_set == 2 and err_set.split("refuses 303.15: ")[1].strip() == \
+        kelvin["notes"].split("refuses 303.15: ")[1].strip()
+
+
 def test_without_names_the_results_sheet_is_reported(tmp_path):
     path = tmp_path / "unnamed.xlsx"
     wb = xlsxwriter.Workbook(str(path))

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import json
 import math
 import re
@@ -448,20 +449,38 @@ def test_scipy_stats_is_imported_only_when_a_statistics_function_needs_it(tmp_pa
     wb.close()
     probe = ("import sys, json; from stillair.addin.workbook.model import evaluate_book; "
              f"e = evaluate_book({str(path)!r}); "
-             "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__]))")
+             "print(json.dumps([e.values['S'], type(sys.modules['scipy.stats']).__name__, "
+             "[type(sys.modules[m]).__name__ for m in ('scipy.interpolate', 'scipy.linalg')]]))")
     done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
-    values, kind = json.loads(done.stdout)
+    values, kind, others = json.loads(done.stdout)
     # population SD of 2,4,4,4,5,5,7,9 is 2 (common practice: the textbook example)
     assert values == {"B1": 11.0, "B2": 2.0} and kind == "LazyModule"
+    assert others == ["LazyModule", "LazyModule"]   # formulas' statistics imports them unused
     with_dist = tmp_path / "dist.xlsx"
     wb = xlsxwriter.Workbook(str(with_dist))
     wb.add_worksheet("S").write_formula("A1", "=_xlfn.WEIBULL.DIST(1,1,1,TRUE)")
     wb.close()
     probe = probe.replace(repr(str(path)), repr(str(with_dist)))
     done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
-    values, kind = json.loads(done.stdout)
+    values, kind, _ = json.loads(done.stdout)
     # Weibull CDF 1 - exp(-(x/scale)^shape) at x = scale: 1 - 1/e (common practice)
     assert values["A1"] == pytest.approx(1 - math.exp(-1), rel=1e-12) and kind == "module"
+    # a name formulas took from a deferred module at import (interp1d, linalg) works when used
+    fitted = tmp_path / "fit.xlsx"
+    wb = xlsxwriter.Workbook(str(fitted))
+    ws = wb.add_worksheet("S")
+    ws.write_column("A1", [1.0, 2.0, 3.0, 4.0])
+    ws.write_column("B1", [2.0, 4.1, 5.9, 8.2])
+    ws.write_formula("C1", "=PERCENTILE(A1:A4,0.4)")
+    ws.write_formula("C2", "=INDEX(LINEST(B1:B4,A1:A4),1)")
+    wb.close()
+    probe = probe.replace(repr(str(with_dist)), repr(str(fitted)))
+    done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True)
+    values, _, _ = json.loads(done.stdout)
+    # by hand: rank 0.4 * (4 - 1) = 1.2 between 2 and 3 gives 2.2; the least-squares slope
+    # sum((x - 2.5)(y - 5.05)) / sum((x - 2.5)^2) = 10.2 / 5 = 2.04
+    assert values["C1"] == pytest.approx(2.2, rel=1e-12)
+    assert values["C2"] == pytest.approx(2.04, rel=1e-12)
 
 
 def test_cells_and_rows_without_positions(tmp_path):
@@ -533,3 +552,28 @@ def test_cells_past_the_used_range_are_blank_in_every_range(tmp_path):
     values = evaluate_book(str(path)).values["S"]
     assert values["A12"] == pytest.approx(0.5 * 2.0 * 20.0 / 0.1, rel=1e-12)  # k A dT / L, Fourier's law
     assert values["B12"] == 0 and values["C12"] == 0
+
+
+def test_the_cause_a_reader_names_does_not_follow_the_hash_seed(tmp_path):
+    """A cell reading two failing cells names one cause, the same in every run (a set's order
+    follows PYTHONHASHSEED, so the first failure found used to change between runs)."""
+    import subprocess
+    import sys
+
+    import openpyxl
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.title = "Calc"
+    for row in range(1, 13):
+        sheet[f"A{row}"] = f"=AIR_DENSITY(-{400 + row})"     # below absolute zero: an error
+    sheet["B1"] = "=" + "+".join(f"A{row}" for row in range(12, 0, -1))
+    path = tmp_path / "two_causes.xlsx"
+    book.save(path)
+    probe = ("from stillair.addin.workbook.model import evaluate_book; import sys; "
+             "print(evaluate_book(sys.argv[1]).results[('Calc', 'B1')].cause)")
+    causes = set()
+    for seed in ("1", "2", "3", "4", "5", "6"):
+        done = subprocess.run([sys.executable, "-c", probe, str(path)], capture_output=True, text=True,
+                              env={**os.environ, "PYTHONHASHSEED": seed})
+        causes.add(done.stdout.strip() or done.stderr)
+    assert causes == {"Calc!A1"}     # the first in reading order

@@ -334,10 +334,10 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
 
 
 def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
-    """The load job writes rectangles of formulas in chunks of rows from the bottom up
-    (stillair_calc.CHUNK_ROWS = 256): every row of a block longer than two chunks is rebound,
-    built-in formulas inside the block keep their values, and a block holding part of an array
-    formula is rebound cell by cell, the array once."""
+    """The load job writes the columns of a rectangle that hold our calls in chunks of rows
+    from the bottom up (stillair_calc.chunk_rows(600) = 97 rows): every row of a block longer
+    than two chunks is rebound, a built-in column between two of ours keeps its values, and a
+    block holding part of an array formula is rebound cell by cell, the array once."""
     rows = 600
     path = tmp_path / "long.xlsx"
     wb = xlsxwriter.Workbook(str(path))
@@ -359,6 +359,35 @@ def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
         assert same(call("H_CAVITY", t, 5.0, 0.016, 1.2), lo_value(cells[f"D{n}"]))[0], (n, cells[f"D{n}"])
     for n in (1, 2, 3):
         assert same(call("AIR_CONDUCTIVITY", 10.0 + 0.05 * (n - 1)), lo_value(cells[f"F{n}"]))[0], cells[f"F{n}"]
+
+
+def test_a_long_column_copied_down_keeps_formats_and_is_checked(installation, tmp_path):
+    """Columns of 256 rows or more whose formulas are the first copied down are written by
+    copying (stillair_calc._copy_down): a column with one cell formatted differently is written
+    in chunks instead, so that format stays; a column that only looks copied (a text "A1" in
+    row 1, "A2" in row 2 ...) reads back wrong after the copy and is rewritten in chunks; every
+    cell shows its own value."""
+    rows = 300
+    path = tmp_path / "copied.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    three = wb.add_format({"num_format": "0.000"})
+    for r in range(rows):
+        n = r + 1
+        ws.write(r, 0, 10.0 + 0.05 * r)
+        ws.write_formula(r, 1, f"=AIR_DENSITY(A{n})", None, 0)  # copied down
+        ws.write_formula(r, 2, f"=AIR_DENSITY(A{n})", three if r == 150 else None, 0)
+        ws.write_formula(r, 3, f'=AIR_DENSITY(A{n})&"A{n}"', None, 0)  # looks copied, is not
+    wb.close()
+    cells = run_session(installation, [{"open": str(path)}], tmp_path)[0]["sheets"]["Calc"]
+    for r in range(rows):
+        n, density = r + 1, call("AIR_DENSITY", 10.0 + 0.05 * r)
+        assert same(density, lo_value(cells[f"B{n}"]))[0], (n, cells[f"B{n}"])
+        assert same(density, lo_value(cells[f"C{n}"]))[0], (n, cells[f"C{n}"])
+        text = cells[f"D{n}"].get("text", "")
+        assert text.endswith(f"A{n}") and same(density, float(text[:-len(f"A{n}")]))[0], (n, cells[f"D{n}"])
+    assert cells["C151"]["shown"] == f"{call('AIR_DENSITY', 10.0 + 0.05 * 150):.3f}", cells["C151"]
+    assert cells["C150"]["shown"] != f"{call('AIR_DENSITY', 10.0 + 0.05 * 149):.3f}", cells["C150"]
 
 
 # ---------------------------------------------------------------------------------------------

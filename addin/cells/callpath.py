@@ -14,7 +14,7 @@ import numpy as np
 from .coerce import CellInputError, describe, is_blank, to_cell_table, to_cell_value, to_number, to_table, to_text
 from .registry import BY_NAME, CellFunction
 
-__all__ = ["evaluate", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
+__all__ = ["evaluate", "evaluate_arrays", "call", "NoteRecorder", "engine_callable", "MAX_MESSAGE"]
 
 MAX_MESSAGE = 255  # a message must stay readable in a cell and in Excel's function wizard
 
@@ -268,6 +268,17 @@ def evaluate(entry: CellFunction, *raw):
                          if not str(error) else f"{entry.name}: {error}")
     _note(message)
     return message
+
+
+def evaluate_arrays(entry: CellFunction, *raw) -> tuple:
+    """One engine call over float arrays given for number arguments (the headless evaluator's
+    batch of cells of one shape): the engine's result and the notes the call gave, worded as
+    :func:`evaluate` words them.  Raises where a cell would show a message; the caller then
+    evaluates cell by cell, so every message keeps its cell."""
+    with NoteRecorder() as trial:
+        value = _compute(entry, _coerce(entry, tuple(raw) + (None,) * (len(entry.args) - len(raw)),
+                                        arrays=True))
+    return value, [message for _, message in trial.notes]
 
 
 def _strip_function(message: str) -> str:

@@ -69,7 +69,7 @@ def _idl_type(entry: CellFunction) -> str:
 # add-in says (sc/source/core/tool/addincol.cxx: optional exactly for "value or array" and
 # varargs arguments).  A required argument is declared ``sequence< sequence< any > >`` (a mixed
 # array: a single value arrives as 1x1, a range as itself), which the Wizard shows as required;
-# the component unwraps the 1x1 (stillair_calc._unwrap_required).
+# the component unwraps the 1x1 (stillair_calc._arguments).
 REQUIRED_ARGUMENT_TYPE = "sequence< sequence< any > >"
 
 

@@ -1,8 +1,9 @@
 """``calc BOOK --cases CASES.csv``: one workbook calculated once per row of a table of inputs.
 
 The header of CASES.csv names the inputs as ``--set`` does (a defined name or Sheet!B3); each
-row gives their values.  The workbook is read and prepared once; every row is then one
-``Model.calculate(sets=...)`` with each header resolved by ``sets.resolve_target`` and each value
+row gives their values.  The workbook is read, prepared and calculated as it is once; every row
+is then one ``Model.calculate(sets=..., reuse=True)``, which calculates only the cells the row's
+inputs reach and takes the others from that first calculation, with each header resolved by ``sets.resolve_target`` and each value
 read by ``sets.parse_value`` — the very path of ``--set``, so every rule ``--set`` applies to a
 value applies to every case.  An empty field leaves that input as the workbook has it.
 
@@ -28,6 +29,7 @@ from dataclasses import dataclass
 
 from .reader import Book, BookError, split_ref
 from .report import group_notes
+from .rules import check_sets
 from .sets import parse_value, resolve_target
 from .status import label
 
@@ -187,6 +189,7 @@ class CaseRun:
 
         model = _model_of(book_path)
         targets = _resolve_headers(model.book, table)
+        model.keep_base()   # before the workers fork: each row calculates only what it reaches
         return cls(book_path, table, model, targets, result_columns(model.book, targets))
 
     def run(self, row: tuple[int, tuple[str, ...]]) -> CaseOutcome:
@@ -198,12 +201,17 @@ class CaseRun:
             if len(fields) > len(headers):
                 raise BookError(f"line {line} has {len(fields)} fields, the header names "
                                 f"{len(headers)} inputs")
-            sets = {}
+            sets, shown = {}, {}
             for header, text in zip(headers, fields):
                 if not text.strip():
                     continue   # an empty field: the workbook's own value
-                sets[resolve_target(self.model.book, header)] = parse_value(text)
-            evaluation = self.model.calculate(sets)
+                key = resolve_target(self.model.book, header)
+                sets[key] = parse_value(text)
+                shown[key] = f"{header}={text.strip()}"
+            evaluation = self.model.calculate(sets, reuse=True)
+            # the workbook's input rules apply to every row's values, as to --set
+            unchecked = check_sets(self.model, evaluation, sets, shown, command="")
+            evaluation.notes.extend(("", message) for message in unchecked)
         except Exception as error:  # noqa: BLE001  a failing row must not stop the others
             reason = " ".join(str(error).split()) or type(error).__name__
             if not isinstance(error, (BookError, ValueError)):

@@ -111,6 +111,15 @@ def _member_value(array, i: int, j: int):
     return xl_error("#N/A")
 
 
+def _reading_order(key) -> tuple:
+    """A sort key: cells by sheet, row, column; defined names after them, by name."""
+    try:
+        row, col = split_ref(key[1])
+        return (0, str(key[0]), row, col, "")
+    except (ValueError, TypeError, IndexError):
+        return (1, "", 0, 0, str(key))
+
+
 def calculate_node(model, node, key, values, results, recorder, area_values, *,
                    in_loop: bool = False) -> dict:
     """Calculate one node of ``model``; returns the CellResult of each cell it fills and puts
@@ -120,8 +129,12 @@ def calculate_node(model, node, key, values, results, recorder, area_values, *,
 
     where = label(node.sheet, node.ref) if node.name is None else node.name
     members = [key] if node.name is not None else model.members(node)
-    upstream = [results.get(d) for d in node.deps if d in results]
-    failed = next((r for r in upstream if r.status == "cannot-evaluate"), None)
+    # the cells read that failed, in reading order (deps is a set: its order follows the hash
+    # seed, and the cause a reader names must not change from run to run)
+    upstream = sorted(((_reading_order(d), results[d]) for d in node.deps
+                       if d in results and results[d].status in ("error", "cannot-evaluate")),
+                      key=lambda found: found[0])
+    failed = next((r for _, r in upstream if r.status == "cannot-evaluate"), None)
     problem = node.problem
     if key in model.cycles and problem is None and not in_loop:
         problem = (f"circular reference: the formula depends on its own value through the loop "
@@ -171,7 +184,7 @@ def calculate_node(model, node, key, values, results, recorder, area_values, *,
     array = np.asarray(raw, dtype=object)
     if array.ndim < 2:
         array = array.reshape(1, -1) if array.ndim == 1 else array.reshape(1, 1)
-    upstream_error = next((r for r in upstream if r.status == "error"), None)
+    upstream_error = next((r for _, r in upstream if r.status == "error"), None)
     if node.name is not None:
         values[key] = array if array.size > 1 else array[0, 0]
         value = plain(array[0, 0]) if array.size else None

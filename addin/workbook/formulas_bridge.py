@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import functools
 import logging
+from collections import OrderedDict
 import math
 import os
 import re
@@ -25,7 +26,8 @@ from .reader import CellError  # noqa: E402
 
 __all__ = ["load", "register_functions", "defer_statistics", "builtin_names", "compile_formula", "fast_runner",
            "blank", "xl_error", "is_xl_error", "to_formulas", "plain", "parse_problem",
-           "run_problem", "reads_references", "as_reference", "input_reference_text"]
+           "run_problem", "reads_references", "as_reference", "input_reference_text", "call_steps",
+           "step_name", "compiled_function", "is_identity_filter", "call_registered"]
 
 _registered = False
 
@@ -38,19 +40,46 @@ def load() -> None:
     logging.getLogger("formulas").setLevel(logging.CRITICAL)
 
 
-_LAZY = "scipy.stats"
+# The scipy modules formulas' statistics module imports at its top; none of them is needed
+# until a statistics function runs (interp1d by PERCENTILE..., linalg by LINEST...).
+_LAZY = ("scipy.stats", "scipy.interpolate", "scipy.linalg")
+_deferring = False   # True while formulas' function table is imported (register_functions)
 
 
 def _lazy_module_type():
     import types
 
     class LazyModule(types.ModuleType):
-        """Stands in for a module until an attribute of it is first used."""
+        """Stands in for a module until an attribute of it is first used.  While formulas'
+        function table is imported, a name taken from it (``from scipy.interpolate import
+        interp1d``) is a stand-in too, fetched when first called."""
 
         def __getattr__(self, attribute):
+            if _deferring:
+                if attribute.startswith("__"):   # the import system asking for __path__...
+                    raise AttributeError(attribute)
+                return _LazyAttribute(self.__name__, attribute)
             return getattr(_real_module(self.__name__), attribute)
 
     return LazyModule
+
+
+class _LazyAttribute:
+    """A function or class of a deferred module, taken by name at import; the real one is
+    fetched when it is first called or read."""
+
+    def __init__(self, module: str, name: str):
+        self._where = (module, name)
+
+    def _real(self):
+        module, name = self._where
+        return getattr(_real_module(module), name)
+
+    def __call__(self, *args, **kwargs):
+        return self._real()(*args, **kwargs)
+
+    def __getattr__(self, attribute):
+        return getattr(self._real(), attribute)
 
 
 def _real_module(name: str):
@@ -62,49 +91,107 @@ def _real_module(name: str):
 
 
 def defer_statistics() -> None:
-    """Import scipy.stats when a statistics function first needs it, not with formulas.
+    """Import scipy.stats, scipy.interpolate and scipy.linalg when a statistics function first
+    needs them, not with formulas.
 
-    formulas' function table imports its statistics module, which imports scipy.stats at the
-    top (about a second of CPU in every command), although MAX, MIN, AVERAGE... never use it.
-    A stand-in module takes scipy.stats' place until one of its attributes is used; then the
-    real module is imported and answers (tests/test_headless.py checks a distribution)."""
+    formulas' function table imports its statistics module, which imports those at the top
+    (about a second of CPU in every command for scipy.stats, a third of a second for the other
+    two, which bring scipy.optimize), although MAX, MIN, AVERAGE... never use them.  A stand-in
+    module takes each one's place (one already imported is left alone) until one of its
+    attributes is used; then the real module is imported and answers (tests/test_headless.py
+    checks a distribution and an interpolated percentile)."""
     import sys
 
-    if _LAZY in sys.modules:
-        return
-    stand_in = _lazy_module_type()(_LAZY)
-    stand_in.stand_in = True
-    sys.modules[_LAZY] = stand_in
+    for name in _LAZY:
+        if name in sys.modules:
+            continue
+        stand_in = _lazy_module_type()(name)
+        stand_in.stand_in = True
+        sys.modules[name] = stand_in
 
 
 def register_functions() -> None:
     """Register every registry function in formulas' function table (idempotent)."""
-    global _registered
+    global _registered, _deferring
     if _registered:
         return
     defer_statistics()
     import formulas
-    import numpy as np
     from formulas.functions import wrap_func
 
-    table = formulas.get_functions()
+    _deferring = True
+    try:
+        table = formulas.get_functions()
+    finally:
+        _deferring = False
     for entry in REGISTRY:
         def cell_function(*args, _entry=entry):
-            recorder = NoteRecorder._active
-            before = len(recorder.notes) if recorder is not None else 0
-            result = evaluate_cell(_entry, *args)
-            if isinstance(result, str) and recorder is not None and _is_error_result(
-                    _entry, result, recorder.notes[before:]):
-                getattr(recorder, "errors", []).append((recorder.current, result))
-            if isinstance(result, list):
-                return np.asarray(result, dtype=object)
-            return result
+            return call_registered(_entry, *args)
 
         cell_function.__name__ = entry.name
         table[entry.name] = wrap_func(cell_function)
     for name, axis in (("ROWS", 0), ("COLUMNS", 1)):
         table[name] = _counting_arrays_too(table[name], axis)
     _registered = True
+
+
+# Calls of the functions that take tables (the network's), by their arguments' values: the
+# cells of one network call NET_SOLVE on the same tables dozens of times, and reading the tables
+# costs more than the engine's own cached solve.  A repeated call gives the stored result and
+# records the stored notes on the new cell; values of other types are not kept.
+_TABLE_CALLS: OrderedDict = OrderedDict()
+_TABLE_CALLS_KEPT = 64
+_KEY_TYPES = frozenset((float, int, bool, str, type(None)))
+
+
+def _table_call_key(entry, args):
+    """The key of a call by its arguments' values and types (1, 1.0 and TRUE differ), or None
+    when an argument holds something else (a reference object, an Excel error)."""
+    import numpy as np
+    import schedula as sh
+
+    parts: list = [entry.name]
+    for arg in args:
+        flat = arg.ravel().tolist() if isinstance(arg, np.ndarray) else [arg]
+        kinds = tuple(map(type, flat))
+        if not all(kind in _KEY_TYPES or value is sh.EMPTY for kind, value in zip(kinds, flat)):
+            return None
+        parts.append((np.shape(arg), tuple(flat), kinds))
+    return tuple(parts)
+
+
+def call_registered(entry, *args):
+    """A registry function called as a formula cell calls it (what formulas runs for our
+    functions): the cell path's result, a table as an array; its notes go to the active
+    recorder and a rejection to the recorder's errors, both under its current cell."""
+    import numpy as np
+
+    recorder = NoteRecorder._active
+    key = _table_call_key(entry, args) if entry.has_table else None
+    stored = _TABLE_CALLS.get(key) if key is not None else None
+    if stored is not None:
+        result, messages, error = stored
+        _TABLE_CALLS.move_to_end(key)
+        if recorder is not None:   # the call's notes, on this cell
+            for message in messages:
+                recorder.add(message)
+            if error:
+                getattr(recorder, "errors", []).append((recorder.current, result))
+    else:
+        before = len(recorder.notes) if recorder is not None else 0
+        result = evaluate_cell(entry, *args)
+        messages = tuple(m for _, m in recorder.notes[before:]) if recorder else ()
+        error = isinstance(result, str) and recorder is not None and _is_error_result(
+            entry, result, recorder.notes[before:])
+        if error:
+            getattr(recorder, "errors", []).append((recorder.current, result))
+        if key is not None:
+            _TABLE_CALLS[key] = (result, messages, error)
+            if len(_TABLE_CALLS) > _TABLE_CALLS_KEPT:
+                _TABLE_CALLS.popitem(last=False)
+    if isinstance(result, list):
+        return np.asarray(result, dtype=object)
+    return result
 
 
 def _counting_arrays_too(original, axis: int):
@@ -274,11 +361,13 @@ class _NotAvailable(Exception):
     """A function the library names but does not implement."""
 
 
-def straight_line(function):
-    """Run a compiled formula without its dispatcher: the same node functions called in
-    dependency order.  ``formulas`` builds one small schedula dispatcher per formula, whose
-    bookkeeping costs several times the arithmetic; a formula's nodes are a tree, so running them
-    in order gives the same result.  Returns None for dispatchers that use other features."""
+def call_steps(function):
+    """A compiled formula's node functions in dependency order, read from its dispatcher:
+    ``(defaults, filters, steps, inputs, output)`` with ``steps`` as (node key, function, input
+    names, output names), or None for dispatchers that use other features.  ``formulas`` builds
+    one small schedula dispatcher per formula; its nodes are a tree, so running them in this
+    order gives the dispatcher's result (:func:`straight_line`; the batches of
+    :mod:`stillair.addin.workbook.vectorised`)."""
     dsp = function.dsp
     defaults = {k: v["value"] for k, v in dsp.default_values.items()}
     available = set(defaults) | set(function.inputs)
@@ -305,16 +394,40 @@ def straight_line(function):
             return None
         for key, node in ready:
             pending.remove((key, node))
-            function_ = node["function"]
-            operator_ = _FAST_OPERATORS.get(key.split("<")[0])
-            if operator_ is not None and len(node["inputs"]) == 2:
-                function_ = _fast_operator(operator_, function_)
-            steps.append((key, function_, tuple(node["inputs"]), tuple(node["outputs"])))
+            steps.append((key, node["function"], tuple(node["inputs"]), tuple(node["outputs"])))
             available |= set(node["outputs"])
-    inputs = tuple(function.inputs)
     output = function.outputs[0]
     if output not in available:
         return None
+    return defaults, filters, steps, tuple(function.inputs), output
+
+
+def is_identity_filter(function) -> bool:
+    """Whether a dispatcher's filter is schedula's ``bypass``, the identity formulas puts on a
+    compiled formula's output (compared by name: the dispatcher may hold a copy of it)."""
+    return getattr(function, "__module__", None) == "schedula.utils.dsp" and \
+        getattr(function, "__qualname__", None) == "bypass"
+
+
+def step_name(key: str) -> str:
+    """The function or operator a dispatcher node calls: "+<0>" -> "+", "H_CAVITY<1>" -> "H_CAVITY"."""
+    return key.split("<")[0]
+
+
+def straight_line(function):
+    """Run a compiled formula without its dispatcher: the same node functions called in
+    dependency order (:func:`call_steps`).  The dispatcher's bookkeeping costs several times
+    the arithmetic.  Returns None for dispatchers that use other features."""
+    found = call_steps(function)
+    if found is None:
+        return None
+    defaults, filters, calls, inputs, output = found
+    steps = []
+    for key, function_, ins, outs in calls:
+        operator_ = _FAST_OPERATORS.get(step_name(key))
+        if operator_ is not None and len(ins) == 2:
+            function_ = _fast_operator(operator_, function_)
+        steps.append((key, function_, ins, outs))
 
     def run(*args):
         data = dict(defaults)
@@ -326,7 +439,7 @@ def straight_line(function):
             try:
                 result = call(*[data[i] for i in ins])
             except NotImplementedError:
-                raise _NotAvailable(name.split("<")[0]) from None
+                raise _NotAvailable(step_name(name)) from None
             if len(outs) == 1:
                 results = (result,)
             else:
@@ -338,6 +451,11 @@ def straight_line(function):
         return data[output]
 
     return run
+
+
+def compiled_function(function):
+    """The library's compiled formula behind what :func:`fast_runner` gave."""
+    return function.function if isinstance(function, _Checked) else function
 
 
 def parse_problem(error: Exception, text: str) -> str:

@@ -31,11 +31,12 @@ from dataclasses import dataclass, field
 from .execute import CellRecorder, calculate_node
 from .formulas_bridge import (blank, compile_formula, fast_runner, load, parse_problem, plain,
                               input_reference_text, reads_references, to_formulas, xl_error)
-from .formulatext import Reference, parse_reference
+from .formulatext import Reference, calls_in, parse_reference
 from .rewrite import Prepared, prepare
 from .reader import Book, BookError, CellError, index_to_col, read_book, split_ref
 from .sets import parse_value, resolve_target
 from .status import CellResult, Evaluation, LoopReport, label, quote_sheet
+from .vectorised import calculate_batch, plan_of
 
 __all__ = ["Model", "evaluate_book", "MAX_CELLS_READ"]
 
@@ -64,6 +65,50 @@ class _Node:
 
 class _Loop(tuple):
     """The keys of one circular loop, in sweep order (a step of :attr:`Model.order`)."""
+
+
+class _Batch(list):
+    """The keys of cells of one shape that read none of one another, in calculation order:
+    calculated together (:mod:`stillair.addin.workbook.vectorised`)."""
+
+
+def _keys_of(step) -> tuple:
+    return tuple(step) if isinstance(step, (_Loop, _Batch)) else (step,)
+
+
+# Functions whose result does not follow from the references a formula names: a cell calling
+# one is calculated again in every case (Model._reached).
+_VOLATILE = re.compile(r"(?i)(?<![\w.])(?:_XLFN\.)?(?:NOW|TODAY|RAND|RANDBETWEEN|RANDARRAY|OFFSET|"
+                       r"INDIRECT|CELL|INFO)\s*\(")
+
+
+@dataclass(slots=True)
+class _Stored:
+    """What one calculation step left: its cells' values and results, and the notes and error
+    messages it recorded (replayed in order, as if the step had been calculated again)."""
+
+    values: dict
+    results: dict
+    notes: list
+    errors: list
+
+    @classmethod
+    def of(cls, model, step, values, results, recorder, notes: int, errors: int) -> "_Stored":
+        members = []
+        for key in _keys_of(step):
+            node = model.nodes[key]
+            members.extend([key] if node.name is not None else model.members(node))
+        return cls({k: values[k] for k in members if k in values},
+                   {k: results[k] for k in members if k in results},
+                   recorder.notes[notes:], recorder.errors[errors:])
+
+    def replay(self, values, results, recorder) -> None:
+        values.update(self.values)
+        results.update(self.results)
+        for item in self.notes:
+            if item not in recorder.notes:
+                recorder.notes.append(item)
+        recorder.errors.extend(self.errors)
 
 
 class Model:
@@ -105,6 +150,11 @@ class Model:
             self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
         self.nodes: dict[tuple, _Node] = {}
         self._compiled: dict[tuple, tuple] = {}
+        self._plans: dict[tuple, tuple] = {}
+        self._steps: list | None = None
+        self._base_steps: list | None = None    # the workbook's own calculation, by step (keep_base)
+        self._reach_cache: dict = {}
+        self._single_cells: dict = {}
         self._templates: dict = {}     # formulas of one relative form share their preparation
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
@@ -203,6 +253,9 @@ class Model:
         from bisect import bisect_left, bisect_right
         if target is None:
             return set()
+        if reference.r1 == reference.r2 and reference.c1 == reference.c2:   # one cell: most
+            owner = self.owner.get((target, f"{index_to_col(reference.c1)}{reference.r1}"))
+            return {owner} if owner is not None else set()
         found = set()
         for col, rows in self.columns.get(target, {}).items():
             if reference.c1 <= col <= reference.c2:
@@ -316,6 +369,72 @@ class Model:
                 self._compiled[prepared.key] = cached
         return cached
 
+    def plan(self, node: _Node):
+        """The array plan of the node's shape and the reference feeding each of its inputs,
+        or (None, None) when the shape is calculated cell by cell."""
+        key = node.prepared.key
+        found = self._plans.get(key)
+        if found is None:
+            function, positions, problem, reference_keys = self.compile(node)
+            plan = None
+            if problem is None and reference_keys is None:
+                plan = plan_of(function, any(call.ours for call in calls_in(node.text)))
+            found = self._plans[key] = (plan, positions) if plan is not None else (None, None)
+        return found
+
+    def single_cells(self, node: _Node) -> list:
+        """(sheet, ref) of each reference of a node whose references are single cells."""
+        found = self._single_cells.get((node.sheet, node.ref))
+        if found is None:
+            found = self._single_cells[(node.sheet, node.ref)] = [
+                (source, f"{index_to_col(reference.c1)}{reference.r1}")
+                for reference, source in zip(node.prepared.references, node.sources)]
+        return found
+
+    def _batchable(self, key) -> bool:
+        """Whether a cell may be calculated in a batch of its shape: a plain cell formula
+        outside any loop whose every reference is one cell of a sheet that exists."""
+        node = self.nodes[key]
+        if node.name is not None or node.array is not None or node.problem is not None or \
+                key in self.cycles or not node.prepared.references:
+            return False
+        return all(reference.kind == "area" and reference.cells == 1 and not reference.whole
+                   and source is not None
+                   for reference, source in zip(node.prepared.references, node.sources))
+
+    def _schedule(self) -> list:
+        """:attr:`order` by dependency depth (a step after every step it reads, in their order
+        within a depth), the cells of one shape and depth gathered in a :class:`_Batch`."""
+        if self._steps is not None:
+            return self._steps
+        depth: dict = {}
+        deepened = []
+        for step in self.order:
+            keys = step if isinstance(step, _Loop) else (step,)
+            level = 1 + max((depth.get(d, 0) for k in keys for d in self.nodes[k].deps
+                             if d not in keys), default=0)
+            for k in keys:
+                depth[k] = level
+            deepened.append((level, step))
+        deepened.sort(key=lambda item: item[0])     # stable: the order within a depth stays
+        steps: list = []
+        batches: dict = {}
+        for level, step in deepened:
+            if not isinstance(step, _Loop) and self._batchable(step):
+                shape = (level, self.nodes[step].prepared.key)
+                batch = batches.get(shape)
+                if batch is None:
+                    batch = batches[shape] = _Batch()
+                    steps.append(batch)
+                batch.append(step)
+            else:
+                steps.append(step)
+        if all(len(b) == 1 for b in batches.values()):
+            self._steps = self.order       # nothing to gather: the order as it was
+        else:
+            self._steps = [s[0] if isinstance(s, _Batch) and len(s) == 1 else s for s in steps]
+        return self._steps
+
     # -- the dependency graph -------------------------------------------------------------
 
     def _users(self) -> dict:
@@ -352,9 +471,61 @@ class Model:
 
     # -- calculating ----------------------------------------------------------------------
 
-    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None) -> Evaluation:
+    def calculate(self, sets: dict[tuple[str, str], object] | None = None, only=None, *,
+                  reuse: bool = False) -> Evaluation:
         """Calculate the model; ``sets`` maps (sheet, ref) to a value that replaces the cell;
-        ``only`` limits the work to those cells and what they read."""
+        ``only`` limits the work to those cells and what they read.  ``reuse``: calculate only
+        the cells the set cells reach and take every other cell's value, status and notes from
+        one calculation of the workbook as it is, made once (many cases of one workbook)."""
+        base = self.keep_base() if reuse and sets and only is None else None
+        return self._calculate(sets, only, base)
+
+    def keep_base(self) -> list:
+        """Each step of :meth:`_schedule` as the workbook's own calculation left it (None for a
+        loop, which is always calculated again): made once, on first use."""
+        if self._base_steps is None:
+            record: list = []
+            self._calculate(None, None, None, record)
+            self._base_steps = record
+        return self._base_steps
+
+    def _reached(self, set_keys) -> set:
+        """The formula cells and names whose value can change when ``set_keys`` are set: those
+        that read a set cell (or a replaced formula), what reads them, and every formula with a
+        function whose result does not follow from its references (NOW, RAND, OFFSET...)."""
+        set_keys = frozenset(set_keys)
+        found = self._reach_cache.get(set_keys)
+        if found is not None:
+            return found
+        users = self._users()
+        seeds = set(self._volatile())
+        for key in set_keys:
+            seeds.add(key)
+            seeds |= users.get(key, set())
+            sheet, ref = key
+            row, col = split_ref(ref)
+            for node_key, node in self.nodes.items():
+                for reference, source in zip(node.prepared.references if node.prepared else (),
+                                             node.sources):
+                    if reference.kind == "area" and source == sheet and \
+                            reference.r1 <= row <= reference.r2 and reference.c1 <= col <= reference.c2:
+                        seeds.add(node_key)
+        seen, todo = set(seeds), list(seeds)
+        while todo:
+            for user in users.get(todo.pop(), ()):
+                if user not in seen:
+                    seen.add(user)
+                    todo.append(user)
+        if len(self._reach_cache) < 64:
+            self._reach_cache[set_keys] = seen
+        return seen
+
+    def _volatile(self) -> list:
+        return [key for key, node in self.nodes.items() if _VOLATILE.search(node.text)]
+
+    def _calculate(self, sets, only, base, record=None) -> Evaluation:
+        """:meth:`calculate`; ``base``: the steps to take from :meth:`keep_base` where no set cell
+        reaches them; ``record``: a list that gets each step's :class:`_Stored`."""
         import numpy as np
 
         started = time.perf_counter()
@@ -409,25 +580,38 @@ class Model:
         needed = self.upstream(only) if only is not None else None
         self._check_volume(needed)
         from .safezip import offline
+        reached = self._reached(sets) if base is not None else None
         with recorder, offline():   # nothing in a workbook may reach the network
-            for step in self.order:
-                if isinstance(step, _Loop):
+            for index, step in enumerate(self._schedule()):
+                if base is not None and base[index] is not None and \
+                        not any(k in reached for k in _keys_of(step)):
+                    base[index].replay(values, results, recorder)
+                    continue
+                notes, errors = len(recorder.notes), len(recorder.errors)
+                if isinstance(step, _Batch):
+                    batch = [k for k in step if k not in sets and (needed is None or k in needed)]
+                    if batch:
+                        calculate_batch(self, batch, values, results, recorder, area_values,
+                                        cell_value)
+                elif isinstance(step, _Loop):
                     if needed is not None and not any(k in needed for k in step):
-                        continue
-                    if self.book.iteration is not None:
+                        pass
+                    elif self.book.iteration is not None:
                         caching[0] = False   # a loop's ranges change from sweep to sweep
                         loops.append(self._iterate(step, sets, values, results, recorder,
                                                    area_values))
                         caching[0] = True
-                        continue
-                    keys: tuple = step
-                else:
-                    keys = (step,)
-                for key in keys:
-                    if key in sets or (needed is not None and key not in needed):
-                        continue
-                    results.update(calculate_node(self, self.nodes[key], key, values, results,
+                    else:
+                        for key in step:
+                            if key not in sets and (needed is None or key in needed):
+                                results.update(calculate_node(self, self.nodes[key], key, values,
+                                                              results, recorder, area_values))
+                elif step not in sets and (needed is None or step in needed):
+                    results.update(calculate_node(self, self.nodes[step], step, values, results,
                                                   recorder, area_values))
+                if record is not None:
+                    record.append(None if isinstance(step, _Loop) else _Stored.of(
+                        self, step, values, results, recorder, notes, errors))
         calculated = time.perf_counter()
         evaluation = self._evaluation(values, results, recorder, sets, calculated - started)
         evaluation.loops = loops

@@ -81,7 +81,7 @@ def _relative_form(formula: str, row: int, col: int):
     if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN|ISFORMULA)\s*\(", formula):
         return None
     parts, cells = [], []
-    for index, piece in enumerate(_STRING.split(formula)):
+    for index, piece in enumerate(_STRING.split(formula) if '"' in formula else (formula,)):
         if index % 2:                      # a string literal, kept as written
             parts.append(piece)
             continue

@@ -117,9 +117,10 @@ def _evaluate(model, evaluation, sets, sheet: str, ref: str, formula: str):
     return value is True or (isinstance(value, float) and value != 0.0)
 
 
-def check_sets(model, evaluation, sets: dict, shown: dict) -> list[str]:
+def check_sets(model, evaluation, sets: dict, shown: dict, command: str = "--set ") -> list[str]:
     """Apply each set cell's data-validation rule; raise BookError with the rule's message for
-    a refused value.  Returns the rules that could not be checked headlessly (in words)."""
+    a refused value (``command`` starts it: what set the value).  Returns the rules that could
+    not be checked headlessly (in words)."""
     unchecked = []
     for (sheet, ref), value in sets.items():
         if value is None:
@@ -151,7 +152,7 @@ def check_sets(model, evaluation, sets: dict, shown: dict) -> list[str]:
             message = rule.error or f"the cell's data-validation rule ({rule.type} " \
                 f"{rule.operator} {rule.formula1}{', ' + rule.formula2 if rule.formula2 else ''})" \
                 " refuses it"
-            raise BookError(f"--set {typed}: {label(sheet, ref)} refuses {_show(value)}: {message}")
+            raise BookError(f"{command}{typed}: {label(sheet, ref)} refuses {_show(value)}: {message}")
     return unchecked
 
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 import re
 from dataclasses import dataclass, field
 
@@ -14,6 +15,7 @@ __all__ = ["STATUSES", "CellResult", "Evaluation", "LoopReport", "label", "quote
 STATUSES = ("value", "note", "error", "cannot-evaluate")
 
 
+@functools.lru_cache(maxsize=1024)   # asked for every cell's label; a book has few sheets
 def quote_sheet(sheet: str) -> str:
     return f"'{sheet}'" if re.search(r"[^A-Za-z0-9_.]", sheet) or sheet[:1].isdigit() else sheet
 

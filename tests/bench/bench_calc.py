@@ -14,6 +14,7 @@ calculation; then how the wall time grows from the smallest to the largest workb
 from __future__ import annotations
 
 import argparse
+import os
 import re
 import resource
 import subprocess
@@ -63,6 +64,7 @@ def main() -> int:
     parser.add_argument("--formulas", type=int, nargs="+", default=[300, 4800, 19200])
     args = parser.parse_args()
     best, best_cpu = {}, {}
+    print(f"load average at start: {' '.join(f'{x:.2f}' for x in os.getloadavg())}")
     with tempfile.TemporaryDirectory() as directory:
         for count in args.formulas:
             book = Path(directory) / f"bench-{count}.xlsx"
@@ -84,6 +86,7 @@ def main() -> int:
     print(f"CPU of the {largest}-formula calc: {best_cpu[largest]:.2f} s = "
           f"{best_cpu[largest] / largest * 1000:.3f} ms per formula, start-up included "
           f"(issue 21's target at 19,200 formulas: 2 s, 0.1 ms per formula)")
+    print(f"load average at end: {' '.join(f'{x:.2f}' for x in os.getloadavg())}")
     if len(best) > 1:
         low, high = min(best), max(best)
         print(f"growth: {low} -> {high} formulas ({high / low:.0f}x): best wall {best[low]:.2f} s -> "
