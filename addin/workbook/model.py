@@ -94,7 +94,7 @@ class _Stored:
 
     @classmethod
     def of(cls, model, step, values, results, recorder, notes: int, errors: int) -> "_Stored":
-        members = []
+        members: list = []
         for key in _keys_of(step):
             node = model.nodes[key]
             members.extend([key] if node.name is not None else model.members(node))
@@ -372,6 +372,7 @@ class Model:
     def plan(self, node: _Node):
         """The array plan of the node's shape and the reference feeding each of its inputs,
         or (None, None) when the shape is calculated cell by cell."""
+        assert node.prepared is not None   # prepared when the model was built
         key = node.prepared.key
         found = self._plans.get(key)
         if found is None:
@@ -386,6 +387,7 @@ class Model:
         """(sheet, ref) of each reference of a node whose references are single cells."""
         found = self._single_cells.get((node.sheet, node.ref))
         if found is None:
+            assert node.prepared is not None
             found = self._single_cells[(node.sheet, node.ref)] = [
                 (source, f"{index_to_col(reference.c1)}{reference.r1}")
                 for reference, source in zip(node.prepared.references, node.sources)]
@@ -396,7 +398,7 @@ class Model:
         outside any loop whose every reference is one cell of a sheet that exists."""
         node = self.nodes[key]
         if node.name is not None or node.array is not None or node.problem is not None or \
-                key in self.cycles or not node.prepared.references:
+                key in self.cycles or node.prepared is None or not node.prepared.references:
             return False
         return all(reference.kind == "area" and reference.cells == 1 and not reference.whole
                    and source is not None
@@ -421,7 +423,7 @@ class Model:
         batches: dict = {}
         for level, step in deepened:
             if not isinstance(step, _Loop) and self._batchable(step):
-                shape = (level, self.nodes[step].prepared.key)
+                shape = (level, self.nodes[step].prepared.key)  # type: ignore[union-attr]  # _batchable: prepared
                 batch = batches.get(shape)
                 if batch is None:
                     batch = batches[shape] = _Batch()
@@ -583,7 +585,7 @@ class Model:
         reached = self._reached(sets) if base is not None else None
         with recorder, offline():   # nothing in a workbook may reach the network
             for index, step in enumerate(self._schedule()):
-                if base is not None and base[index] is not None and \
+                if base is not None and base[index] is not None and reached is not None and \
                         not any(k in reached for k in _keys_of(step)):
                     base[index].replay(values, results, recorder)
                     continue

@@ -19,6 +19,8 @@ the cell that caused them, so a batch is only a shortcut for the plain case:
 
 from __future__ import annotations
 
+from typing import Any
+
 import math
 import warnings
 from dataclasses import dataclass
@@ -80,7 +82,7 @@ def plan_of(function, ours: bool) -> Plan | None:
         if type(value) not in (int, float) or not math.isfinite(value):
             return None     # a text, a logical value or a precomputed message
         constants.append((key, float(value)))
-    steps = []
+    steps: list[tuple[Any, Any, Any]] = []
     for key, function, ins, outs in calls:
         name = step_name(key)
         if len(outs) != 1:
@@ -110,10 +112,10 @@ def plan_of(function, ours: bool) -> Plan | None:
 class _Library:
     """One of the library's element-by-element functions (:data:`_ELEMENTWISE`) on columns."""
 
-    function: object
+    function: Any
 
     def __call__(self, args, size: int):
-        cells = np.asarray(self.function(*args), dtype=object).ravel().tolist()
+        cells: list = np.asarray(self.function(*args), dtype=object).ravel().tolist()
         if len(cells) != size or any(type(cell) is not float for cell in cells):
             raise ValueError("not a number in every cell")   # the cells, one by one
         return np.array(cells, dtype=float)
@@ -200,7 +202,8 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
     results.update(calculate_node(model, model.nodes[first], first, values, results, recorder,
                                   area_values))
     plan, positions = model.plan(model.nodes[first]) if rest else (None, None)
-    batched, alone = [], []
+    batched: list[tuple[Any, Any]] = []
+    alone: list[tuple[Any, Any]] = []
     for key in rest:
         numbers = _inputs_of(model, model.nodes[key], results, cell_value) if plan else None
         (alone if numbers is None else batched).append((key, numbers))
@@ -209,7 +212,8 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
                                       area_values))
     if not batched:
         return
-    table = np.array([numbers for _, numbers in batched], dtype=float)   # cells x references
+    assert plan is not None and positions is not None   # batched only with a plan
+    table = np.array([numbers for _, numbers in batched], dtype=np.float64)   # cells x references
     scales = np.abs(table).max(axis=1)
     parts = [(0, len(batched))]
     while parts:
