@@ -7,6 +7,7 @@ other byte as it was.  workbook.xml and its relationships are small and parsed w
 
 from __future__ import annotations
 
+import functools
 import posixpath
 import re
 import zipfile
@@ -41,6 +42,9 @@ def attrs(raw: bytes) -> dict[str, str]:
     return {k.decode(): v[1:-1].decode() for k, v in ATTR_RE.findall(raw)}
 
 
+# Both conversions are cached: a workbook names the same few columns hundreds of thousands of
+# times (every reference of every formula), and a cached call costs a tenth of spelling it out.
+@functools.lru_cache(maxsize=1 << 16)
 def col_to_index(col: str) -> int:
     n = 0
     for ch in col.upper():
@@ -48,6 +52,7 @@ def col_to_index(col: str) -> int:
     return n
 
 
+@functools.lru_cache(maxsize=1 << 15)
 def index_to_col(n: int) -> str:
     s = ""
     while n:

@@ -69,14 +69,28 @@ def _format(value) -> str:
     return "" if value is None else str(value)
 
 
-def _caption(sheet, ref: str) -> str:
+def _captions(sheet) -> dict[int, list[tuple[int, str]]]:
+    """The texts typed on a sheet, by row: (column, text) in column order (read once per sheet;
+    looking left of each of thousands of cells cell by cell costs more than the calculation)."""
+    by_row: dict[int, list[tuple[int, str]]] = {}
+    for ref, value in sheet.values.items():
+        if isinstance(value, str) and value.strip():
+            row, col = split_ref(ref)
+            by_row.setdefault(row, []).append((col, value.strip()))
+    for texts in by_row.values():
+        texts.sort()
+    return by_row
+
+
+def _caption(captions: dict[int, list[tuple[int, str]]], ref: str) -> str:
     """The nearest text typed to the left of a cell in its row (what the user called it)."""
     row, col = split_ref(ref)
-    for column in range(col - 1, 0, -1):
-        value = sheet.values.get(f"{index_to_col(column)}{row}")
-        if isinstance(value, str) and value.strip():
-            return value.strip()
-    return ""
+    found = ""
+    for column, text in captions.get(row, ()):
+        if column >= col:
+            break
+        found = text
+    return found
 
 
 def _own_workbook_lines(evaluation, named) -> list[str]:
@@ -89,6 +103,7 @@ def _own_workbook_lines(evaluation, named) -> list[str]:
     for sheet in evaluation.book.sheets:
         cells = evaluation.values.get(sheet.name, {})
         rows = []
+        captions = _captions(sheet)
         for ref in sorted(cells, key=split_ref):
             anchor = sheet.formulas.get(ref) or sheet.formulas.get(sheet.array_members.get(ref, ""))
             calls = [c for c in calls_in(anchor.formula or "") if c.ours] if anchor else []
@@ -105,7 +120,7 @@ def _own_workbook_lines(evaluation, named) -> list[str]:
                 note = "(see the notes)"      # each message once, under Notes
             elif result is not None and result.status == "note":
                 note = "; ".join(result.messages)
-            rows.append((ref, _caption(sheet, ref), shown, unit, note))
+            rows.append((ref, _caption(captions, ref), shown, unit, note))
         if not rows:
             continue
         lines.append(f"{sheet.name}:")

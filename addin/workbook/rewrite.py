@@ -72,28 +72,30 @@ def _problem_of_function(name: str) -> str:
 
 
 _STRING = re.compile(r'("(?:[^"]|"")*")')
+_CELL_DEPENDENT = re.compile(r"(?i)\b(?:ROW|COLUMN|ISFORMULA)\s*\(")
 
 
 def _relative_form(formula: str, row: int, col: int):
     """The formula with its cell references made relative to the cell, and the references'
     positions (column, row) in order; None when the text has quoted sheet names or functions
     whose value depends on the cell."""
-    if "'" in formula or re.search(r"(?i)\b(?:ROW|COLUMN|ISFORMULA)\s*\(", formula):
+    if "'" in formula or _CELL_DEPENDENT.search(formula):
         return None
     parts, cells = [], []
     for index, piece in enumerate(_STRING.split(formula) if '"' in formula else (formula,)):
         if index % 2:                      # a string literal, kept as written
             parts.append(piece)
             continue
-        last = 0
-        for m in CELL_IN_TEXT.finditer(piece):
-            c, r = col_to_index(m.group(2)), int(m.group(4))
+        # split gives the text before each reference, then the reference's four groups
+        # ($, letters, $, digits): one C call per piece instead of one match object per reference
+        bits = CELL_IN_TEXT.split(piece)
+        parts.append(bits[0])
+        for at in range(1, len(bits), 5):
+            fixed_col, letters, fixed_row, digits, after = bits[at:at + 5]
+            c, r = col_to_index(letters), int(digits)
             cells.append((c, r))
-            parts.append(piece[last:m.start()])
-            parts.append(f"{'$' + str(c) if m.group(1) else 'C' + str(c - col)}"
-                         f"{'$' + str(r) if m.group(3) else 'R' + str(r - row)}\x00")
-            last = m.end()
-        parts.append(piece[last:])
+            parts.append(f"{'$' + str(c) if fixed_col else 'C' + str(c - col)}"
+                         f"{'$' + str(r) if fixed_row else 'R' + str(r - row)}\x00{after}")
     return "".join(parts), cells
 
 
