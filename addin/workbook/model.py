@@ -130,16 +130,20 @@ class Model:
         # Formula cells by position: sheet -> column -> sorted rows (array members point to
         # their anchor through ``owner``).
         self.owner: dict[tuple[str, str], tuple[str, str]] = {}
+        # the same by (sheet, row, column): a reference's cells are found without spelling refs
+        self._owner_at: dict[tuple[str, int, int], tuple[str, str]] = {}
         self.columns: dict[str, dict[int, list[int]]] = {}
         for sheet in book.sheets:
             columns = self.columns.setdefault(sheet.name, {})
             for ref, cell in sheet.formulas.items():
                 self.owner[(sheet.name, ref)] = (sheet.name, ref)
                 row, col = split_ref(ref)
+                self._owner_at[(sheet.name, row, col)] = (sheet.name, ref)
                 columns.setdefault(col, []).append(row)
             for member, anchor in sheet.array_members.items():
                 self.owner[(sheet.name, member)] = (sheet.name, anchor)
                 row, col = split_ref(member)
+                self._owner_at[(sheet.name, row, col)] = (sheet.name, anchor)
                 columns.setdefault(col, []).append(row)
             for rows in columns.values():
                 rows.sort()
@@ -156,6 +160,7 @@ class Model:
         self._reach_cache: dict = {}
         self._single_cells: dict = {}
         self._templates: dict = {}     # formulas of one relative form share their preparation
+        self._digit_forms: dict = {}   # ... found by their text outside the digits (rewrite.prepare)
         wanted = cells if cells is not None else [
             (s.name, ref) for s in book.sheets for ref in s.formulas]
         todo = list(wanted)
@@ -215,7 +220,7 @@ class Model:
                     for sheet, (rows, cols) in self.used.items()}
             templates = None
         prepared = prepare(node.text, node.row, node.col, used, node.sheet, templates,
-                           is_formula=self._is_formula)
+                           is_formula=self._is_formula, digits=self._digit_forms)
         node.prepared = prepared
         if prepared.problem:
             node.problem = prepared.problem
@@ -254,13 +259,13 @@ class Model:
         if target is None:
             return set()
         if reference.r1 == reference.r2 and reference.c1 == reference.c2:   # one cell: most
-            owner = self.owner.get((target, f"{index_to_col(reference.c1)}{reference.r1}"))
+            owner = self._owner_at.get((target, reference.r1, reference.c1))
             return {owner} if owner is not None else set()
         found = set()
         for col, rows in self.columns.get(target, {}).items():
             if reference.c1 <= col <= reference.c2:
                 for row in rows[bisect_left(rows, reference.r1):bisect_right(rows, reference.r2)]:
-                    owner = self.owner.get((target, f"{index_to_col(col)}{row}"))
+                    owner = self._owner_at.get((target, row, col))
                     if owner is not None:
                         found.add(owner)
         return found
@@ -674,18 +679,19 @@ class Model:
         """Refuse, before calculating, a workbook whose formulas would read more cells in all than
         the limit (each formula's ranges cut to the used range and counted per formula)."""
         total = 0
+        used = {name: (sheet.last_row, sheet.last_col) for name, sheet in self.sheets.items()}
         for key, node in self.nodes.items():
             if needed is not None and key not in needed or node.prepared is None:
                 continue
             for reference, source in zip(node.prepared.references, node.sources):
-                if reference.kind != "area":
+                if reference.kind != "area" or source not in used:
                     continue
-                sheet = self.sheets.get(source)
-                if sheet is None:
+                last_row, last_col = used[source]
+                r1, c1, r2, c2 = reference.r1, reference.c1, reference.r2, reference.c2
+                if r1 == r2 and c1 == c2:        # one cell (most): inside the used range or not
+                    total += r1 <= last_row and c1 <= last_col
                     continue
-                rows = max(0, min(reference.r2, sheet.last_row) - reference.r1 + 1)
-                cols = max(0, min(reference.c2, sheet.last_col) - reference.c1 + 1)
-                total += rows * cols
+                total += max(0, min(r2, last_row) - r1 + 1) * max(0, min(c2, last_col) - c1 + 1)
         if total > MAX_CELLS_READ:
             raise BookError(f"{self.book.path}: refused: its formulas read {total:,} cells in all "
                             f"(each formula's ranges counted), more than the limit of "

@@ -13,8 +13,10 @@ Formulas of one relative form (a row copied down) share one preparation.
 from __future__ import annotations
 
 import functools
+import operator
 import re
 from dataclasses import dataclass
+from typing import Any
 
 from .formulas_bridge import builtin_names
 from .formulatext import (CELL_IN_TEXT, QUALIFIED_RE, Reference, area_text, bare_name,
@@ -107,28 +109,119 @@ class _Template:
         self.prepared, self.corners = prepared, corners
 
 
+_DIGITS = re.compile(r"(\d+)")
+
+
+def _picker(indices: list[int]):
+    """A function giving the items at ``indices`` of a sequence as a tuple (itemgetter gives a
+    bare item for one index)."""
+    if len(indices) == 1:
+        only = indices[0]
+        return lambda items: (items[only],)
+    return operator.itemgetter(*indices) if indices else (lambda items: ())
+
+
+@dataclass(frozen=True)
+class _DigitRoles:
+    """What each run of digits of a formula's text is, for :func:`_by_digits`: the runs that
+    must read as written (constants and $-fixed rows), the relative rows (their offsets from
+    the formula's row) and, for every reference in order, its column and its row's run."""
+
+    template: _Template
+    fixed: Any            # picks the runs that must read as written
+    written: tuple        # what they read
+    relative: Any         # picks the relative rows' runs
+    offsets: tuple        # their offsets from the formula's row
+    rows: Any             # picks every reference's row run, in order
+    columns: tuple        # every reference's column, in order
+
+
+def _digit_roles(text: str, row: int, template: _Template, cells: list) -> _DigitRoles | bool:
+    """The roles of the runs of digits in ``text`` (a formula of the cell in ``row``, prepared
+    as ``template`` with the relative form's ``cells``).  A formula whose text matches
+    ``text`` outside its digit runs has its references at the same places (the pattern of a
+    reference reads letters, $ and the characters around the digits, never which digits), so
+    it shares ``template`` when every run checks out.  False when the runs do not line up with
+    the relative form's cells."""
+    references: dict[int, tuple] = {}
+    offset = 0
+    for index, piece in enumerate(_STRING.split(text) if '"' in text else (text,)):
+        if not index % 2:                  # outside string literals, as _relative_form reads
+            for m in CELL_IN_TEXT.finditer(piece):
+                references[offset + m.start(4)] = (col_to_index(m.group(2)), bool(m.group(3)))
+        offset += len(piece)
+    fixed, written, relative, offsets, rows, columns, found = [], [], [], [], [], [], []
+    for index, m in enumerate(_DIGITS.finditer(text)):
+        reference = references.get(m.start())
+        if reference is None or reference[1]:
+            fixed.append(index)
+            written.append(m.group())
+        else:
+            relative.append(index)
+            offsets.append(int(m.group()) - row)
+        if reference is not None:
+            rows.append(index)
+            columns.append(reference[0])
+            found.append((reference[0], int(m.group())))
+    if found != cells:
+        return False
+    return _DigitRoles(template, _picker(fixed), tuple(written), _picker(relative),
+                       tuple(offsets), _picker(rows), tuple(columns))
+
+
+def _by_digits(formula: str, row: int, col: int, own_sheet: str, digits: dict):
+    """The template and cells of a formula whose text differs from one seen before in this
+    column only in the digits of its rows (a row copied down): a regex split and a few
+    comparisons of tuples instead of the relative form's rewrite; (key, None) when not seen."""
+    pieces = _DIGITS.split(formula)
+    key = (tuple(pieces[0::2]), own_sheet.upper(), col)
+    roles = digits.get(key)
+    if not roles:                          # not seen, or seen with runs that do not line up
+        return key, None
+    runs = pieces[1::2]
+    # rows written with leading zeros (A02) read differently here: the relative form decides
+    if roles.fixed(runs) != roles.written or \
+            roles.relative(runs) != tuple(map(str, map(row.__add__, roles.offsets))):
+        return key, None
+    return key, (roles.template, list(zip(roles.columns, map(int, roles.rows(runs)))))
+
+
 def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, int]],
-            own_sheet: str, cache: dict | None = None, is_formula=None) -> Prepared:
+            own_sheet: str, cache: dict | None = None, is_formula=None,
+            digits: dict | None = None) -> Prepared:
     """Rewrite ``formula`` (with or without "=") of the cell at ``row``/``col`` of ``own_sheet``.
 
     ``used`` maps a sheet name (upper case) to its used range's last (row, column): whole rows
     and columns are cut there, so they cost what the used range costs.  A formula of the same
     relative form as one prepared before (a row copied down) reuses that one's work.
     ``is_formula(sheet, row, col)`` says whether a cell holds a formula (ISFORMULA reads it;
-    without it ISFORMULA is left to the library)."""
-    relative = _relative_form(formula.lstrip("="), row, col) if cache is not None else None
-    if relative is None or cache is None:
+    without it ISFORMULA is left to the library).  ``digits`` (with ``cache``) remembers, per
+    column, the text of each form outside its digits: a copy that differs only in its rows'
+    digits finds its template without the relative form's rewrite."""
+    if cache is None:
         return _prepare(formula, row, col, used, own_sheet, is_formula)
-    form, cells = relative
-    cache_key = (form, own_sheet.upper())
-    template = cache.get(cache_key)
-    if template is None:
-        prepared = _prepare(formula, row, col, used, own_sheet)
-        corners = _corners(prepared, cells)
-        if corners is None:
+    text = formula.lstrip("=")
+    if digits is None:
+        digits = {}
+    digits_key, known = _by_digits(text, row, col, own_sheet, digits)
+    if known is not None:
+        template, cells = known
+    else:
+        relative = _relative_form(text, row, col)
+        if relative is None:
+            return _prepare(formula, row, col, used, own_sheet, is_formula)
+        form, cells = relative
+        cache_key = (form, own_sheet.upper())
+        template = cache.get(cache_key)
+        if template is None:
+            prepared = _prepare(formula, row, col, used, own_sheet)
+            corners = _corners(prepared, cells)
+            if corners is None:
+                return prepared
+            template = cache[cache_key] = _Template(prepared, corners)
+            digits[digits_key] = _digit_roles(text, row, template, cells)
             return prepared
-        cache[cache_key] = _Template(prepared, corners)
-        return prepared
+        digits[digits_key] = _digit_roles(text, row, template, cells)
     references = []
     for reference, corner in zip(template.prepared.references, template.corners):
         if corner:
