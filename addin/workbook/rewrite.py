@@ -224,13 +224,22 @@ def prepare(formula: str, row: int, col: int, used: dict[str | None, tuple[int, 
         digits[digits_key] = _digit_roles(text, row, template, cells)
     references = []
     for reference, corner in zip(template.prepared.references, template.corners):
-        if corner:
-            (c1, r1), (c2, r2) = cells[corner[0]], cells[corner[-1]]
-            reference = Reference("area", reference.sheet, min(r1, r2), min(c1, c2),
-                                  max(r1, r2), max(c1, c2))
+        if len(corner) == 1:
+            c, r = cells[corner[0]]
+            reference = _area(reference.sheet, r, c, r, c)
+        elif corner:
+            (c1, r1), (c2, r2) = cells[corner[0]], cells[corner[1]]
+            reference = _area(reference.sheet, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
         references.append(reference)
     return _LazyPrepared(formula, row, col, used, own_sheet, references, template.prepared.key,
                          template.prepared.problem)
+
+
+@functools.lru_cache(maxsize=1 << 16)
+def _area(sheet: str | None, r1: int, c1: int, r2: int, c2: int) -> Reference:
+    """An area reference, shared (a reference is immutable): the cells of a row are read by
+    several formulas of the row, and making a frozen Reference costs several lookups' worth."""
+    return Reference("area", sheet, r1, c1, r2, c2)
 
 
 class _LazyPrepared(Prepared):
