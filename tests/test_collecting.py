@@ -1,0 +1,52 @@
+"""The cycle collector runs rarely while a model is built and calculated, and the process's own
+thresholds come back afterwards, also when the calculation fails."""
+
+from __future__ import annotations
+
+import gc
+
+import pytest
+
+from stillair.addin.workbook.model import _RARE_COLLECTIONS, collecting_rarely
+
+
+def test_thresholds_are_raised_inside_and_restored_after():
+    before = gc.get_threshold()
+    try:
+        gc.set_threshold(700, 10, 10)
+        with collecting_rarely():
+            assert gc.get_threshold() == (_RARE_COLLECTIONS, 10, 10)
+        assert gc.get_threshold() == (700, 10, 10)
+        with pytest.raises(ZeroDivisionError):
+            with collecting_rarely():
+                1 / 0
+        assert gc.get_threshold() == (700, 10, 10)
+    finally:
+        gc.set_threshold(*before)
+
+
+def test_a_caller_who_collects_more_rarely_still_does():
+    before = gc.get_threshold()
+    try:
+        gc.set_threshold(10 * _RARE_COLLECTIONS, 5, 5)
+        with collecting_rarely():
+            assert gc.get_threshold() == (10 * _RARE_COLLECTIONS, 5, 5)
+    finally:
+        gc.set_threshold(*before)
+
+
+def test_cyclic_garbage_made_while_calculating_is_still_collected():
+    """Rarely is not never: a cycle made inside is freed once enough is allocated."""
+    import weakref
+
+    class Cell:
+        pass
+
+    with collecting_rarely():
+        cell = Cell()
+        cell.self = cell
+        alive = weakref.ref(cell)
+        del cell
+        kept = [[] for _ in range(2 * _RARE_COLLECTIONS)]   # what a calculation keeps
+        assert alive() is None
+        del kept
