@@ -437,9 +437,11 @@ class Model:
         if node.name is not None or node.array is not None or node.problem is not None or \
                 key in self.cycles or node.prepared is None or not node.prepared.references:
             return False
-        return all(reference.kind == "area" and reference.cells == 1 and not reference.whole
-                   and source is not None
-                   for reference, source in zip(node.prepared.references, node.sources))
+        for reference, source in zip(node.prepared.references, node.sources):
+            if source is None or reference.kind != "area" or reference.whole or \
+                    reference.cells != 1:
+                return False
+        return True
 
     def _schedule(self) -> list:
         """:attr:`order` by dependency depth (a step after every step it reads, in their order
@@ -449,10 +451,14 @@ class Model:
         depth: dict = {}
         deepened = []
         for step in self.order:
-            keys = step if isinstance(step, _Loop) else (step,)
-            level = 1 + max((depth.get(d, 0) for k in keys for d in self.nodes[k].deps
-                             if d not in keys), default=0)
-            for k in keys:
+            if not isinstance(step, _Loop):     # a cell (most): it is not among its own deps
+                level = depth[step] = 1 + max([depth.get(d, 0) for d in self.nodes[step].deps],
+                                              default=0)
+                deepened.append((level, step))
+                continue
+            level = 1 + max((depth.get(d, 0) for k in step for d in self.nodes[k].deps
+                             if d not in step), default=0)
+            for k in step:
                 depth[k] = level
             deepened.append((level, step))
         deepened.sort(key=lambda item: item[0])     # stable: the order within a depth stays
@@ -858,8 +864,9 @@ def evaluate_book(path: str | Book, sets: dict[str, str] | None = None, cells=No
     formula cell is replaced only with ``replace_formulas`` (else BookError).  ``validate=False``
     skips the data-validation rules (what the sheet computes from a value pasted over them)."""
     from .rules import check_sets
-    model = _model_of(path) if cells is None else Model(
-        path if isinstance(path, Book) else read_book(path), cells)
+    with collecting_rarely():       # reading too: what it keeps is not rescanned while preparing
+        model = _model_of(path) if cells is None else Model(
+            path if isinstance(path, Book) else read_book(path), cells)
     targets, shown = {}, {}
     for target, text in (sets or {}).items():
         key = resolve_target(model.book, target, replace_formulas, typed=f"{target}={text}")
