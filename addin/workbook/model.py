@@ -256,7 +256,8 @@ class Model:
             if reference.kind == "area":
                 source = self.sheet_case.get((reference.sheet or node.sheet).upper())
                 if reference.r1 == reference.r2 and reference.c1 == reference.c2:  # most
-                    owner = owner_at.get((source, reference.r1, reference.c1))
+                    owner = owner_at.get((source, reference.r1, reference.c1)) \
+                        if source is not None else None
                     if owner is not None:
                         node.deps.add(owner)
                 else:
