@@ -50,3 +50,20 @@ def test_cyclic_garbage_made_while_calculating_is_still_collected():
         kept = [[] for _ in range(2 * _RARE_COLLECTIONS)]   # what a calculation keeps
         assert alive() is None
         del kept
+
+
+def test_nested_and_overlapping_uses_restore_the_thresholds_once_all_have_left():
+    """Two uses that do not leave in the order they came (two threads calculating) leave the
+    process's thresholds as they found them."""
+    before = gc.get_threshold()
+    try:
+        gc.set_threshold(700, 10, 10)
+        first, second = collecting_rarely(), collecting_rarely()
+        first.__enter__()
+        second.__enter__()
+        first.__exit__(None, None, None)
+        assert gc.get_threshold() == (_RARE_COLLECTIONS, 10, 10)    # the second is still inside
+        second.__exit__(None, None, None)
+        assert gc.get_threshold() == (700, 10, 10)
+    finally:
+        gc.set_threshold(*before)

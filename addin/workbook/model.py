@@ -27,6 +27,7 @@ import gc
 import math
 import os
 import re
+import threading
 import time
 from dataclasses import dataclass, field
 from typing import Iterator
@@ -121,16 +122,27 @@ class _Stored:
 _RARE_COLLECTIONS = 50_000
 
 
+_rarely_lock = threading.Lock()
+_rarely_state: dict = {"inside": 0, "thresholds": None}   # nested or concurrent uses share one
+
+
 @contextlib.contextmanager
 def collecting_rarely() -> Iterator[None]:
     """While inside, the cycle collector runs at most every :data:`_RARE_COLLECTIONS`
-    allocations (never more rarely than the caller asked); the thresholds are restored after."""
-    thresholds = gc.get_threshold()
-    gc.set_threshold(max(thresholds[0], _RARE_COLLECTIONS), *thresholds[1:])
+    allocations (never more rarely than the caller asked); the thresholds are restored when
+    the last of nested (or concurrent, in threads) uses leaves."""
+    with _rarely_lock:
+        if _rarely_state["inside"] == 0:
+            thresholds = _rarely_state["thresholds"] = gc.get_threshold()
+            gc.set_threshold(max(thresholds[0], _RARE_COLLECTIONS), *thresholds[1:])
+        _rarely_state["inside"] += 1
     try:
         yield
     finally:
-        gc.set_threshold(*thresholds)
+        with _rarely_lock:
+            _rarely_state["inside"] -= 1
+            if _rarely_state["inside"] == 0:
+                gc.set_threshold(*_rarely_state["thresholds"])
 
 
 class Model:
