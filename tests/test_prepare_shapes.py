@@ -1,5 +1,7 @@
-"""Copied-down formulas found by their text outside the digits (rewrite.prepare's digit index):
-every formula gets the references, key and problem that preparing it on its own gives."""
+"""calc's shortcuts for big books give what the long way gives: copied-down formulas found by
+their text outside the digits (rewrite.prepare's digit index) get the references, key and
+problem that preparing each on its own gives; captions read once per sheet are the nearest
+text left of each cell."""
 
 from __future__ import annotations
 
@@ -62,3 +64,19 @@ def test_a_copy_in_another_column_or_sheet_is_checked_again():
     for formula, row, col, sheet in (("=A2+B2", 2, 4, "Cases"), ("=A5+B5", 5, 3, "Other")):
         _same(prepare(formula, row, col, USED, sheet, cache, digits=digits),
               prepare(formula, row, col, USED, sheet))
+
+
+def test_a_cells_caption_is_the_nearest_text_typed_to_its_left():
+    """calc's listing names a cell by the nearest non-blank text left of it in its row (read
+    once per sheet): not a number, not a blank text, nothing right of it or in another row."""
+    from types import SimpleNamespace
+
+    from stillair.addin.workbook.report import _caption, _captions
+    sheet = SimpleNamespace(values={"A2": "gap", "B2": 0.02, "C2": " width ", "D2": "  ",
+                                    "F2": "after", "A3": "other row", "B4": 3.0})
+    captions = _captions(sheet)
+    assert _caption(captions, "E2") == "width"     # C2, past the blank D2; F2 is to the right
+    assert _caption(captions, "C2") == "gap"       # its own text does not count
+    assert _caption(captions, "A2") == ""
+    assert _caption(captions, "C4") == ""          # a number only
+    assert _caption(captions, "Z3") == "other row"
