@@ -22,7 +22,6 @@ Commands read this status; none of them infers an error from the shape of a text
 
 from __future__ import annotations
 
-import atexit
 import contextlib
 import gc
 import math
@@ -122,11 +121,6 @@ class _Stored:
 # per 50,000 allocations keeps cyclic garbage bounded (memory stays linear) at a fraction of it.
 _RARE_COLLECTIONS = 50_000
 
-
-# When the interpreter shuts down, it runs the cycle collector over every object still alive
-# (a model of 19,200 formulas and its results: ~0.25 s of CPU, measured, for a process that is
-# ending).  Frozen objects are skipped; reference counting still frees them as modules go.
-atexit.register(gc.freeze)
 
 _rarely_lock = threading.Lock()
 _rarely_state: dict = {"inside": 0, "thresholds": None}   # nested or concurrent uses share one
