@@ -25,6 +25,22 @@ pytestmark = pytest.mark.slow  # the library alone is slow
 FLOOR = 0.94
 
 
+def _tally(books):
+    """(formula cells with a cached value, how many stillair reproduces, how many the library
+    alone reproduces, {book: cells the library gets and stillair does not})."""
+    total = ours_count = library_count = 0
+    worse = {}
+    for path in books:
+        ours, cells = corpus.reproduced(path, corpus.ours)
+        library, _ = corpus.reproduced(path, corpus.library)
+        total += cells
+        ours_count += len(ours)
+        library_count += len(library)
+        if library - ours:
+            worse[path.name] = sorted(library - ours)[:10]
+    return total, ours_count, library_count, worse
+
+
 @pytest.fixture(scope="module")
 def excel_books():
     books = corpus.excel_made(corpus.EXCEL_MADE)
@@ -33,16 +49,7 @@ def excel_books():
 
 
 def test_calc_reproduces_everything_the_library_does_and_more(excel_books, capsys):
-    total = ours_count = library_count = 0
-    worse = {}
-    for path in excel_books:
-        ours, cells = corpus.reproduced(path, corpus.ours)
-        library, _ = corpus.reproduced(path, corpus.library)
-        total += cells
-        ours_count += len(ours)
-        library_count += len(library)
-        if library - ours:
-            worse[path.name] = sorted(library - ours)[:10]
+    total, ours_count, library_count, worse = _tally(excel_books)
     with capsys.disabled():
         print(f"\nExcel-made corpus ({corpus.SOURCE[0]} {corpus.SOURCE[1]}, MIT): "
               f"{len(excel_books)} workbooks, {total} formula cells; stillair "
@@ -63,16 +70,7 @@ def test_libreoffice_saved_books_are_reproduced_at_least_as_often_as_by_the_libr
     folder = Path(__file__).parent / "data" / "libreoffice"
     books = sorted(p for p in folder.glob("saved-*.xlsx"))
     assert len(books) == 10
-    total = ours_count = library_count = 0
-    worse = {}
-    for path in books:
-        ours, cells = corpus.reproduced(path, corpus.ours)
-        library, _ = corpus.reproduced(path, corpus.library)
-        total += cells
-        ours_count += len(ours)
-        library_count += len(library)
-        if library - ours:
-            worse[path.name] = sorted(library - ours)[:10]
+    total, ours_count, library_count, worse = _tally(books)
     print(f"\nLibreOffice-saved corpus: {len(books)} workbooks, {total} formula cells; stillair "
           f"{ours_count / total:.2%}, formulas alone {library_count / total:.2%}")
     assert worse == {}, "cells the library reproduces and stillair does not"
