@@ -274,7 +274,11 @@ class _Search:
     def _bracketed(self, low: float, high: float) -> float:
         from scipy import optimize  # here, not at import: scipy.optimize costs 0.4 s of start-up
 
+        known: dict[float, float] = {}     # the two ends: read here, then again by brentq
+
         def error(heat):
+            if heat in known:
+                return known[heat]
             found = self._safe(heat)
             if found is None:
                 raise self._unreachable(f"the network could not be solved at {format_value(heat)} W inside the "
@@ -284,6 +288,7 @@ class _Search:
         span = abs(high - low)
         ends = sorted((low, high))
         errors = [error(end) for end in ends]
+        known.update(zip(ends, errors))
         if errors[0] * errors[1] > 0:
             # Within the solver's own tolerance of the target the error's sign is noise (a target
             # 6e-8 K from the no-heat temperature, found by the property sweep): the bracket's
