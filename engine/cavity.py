@@ -63,12 +63,13 @@ AUTO_RULE = (
     "auto's order among the correlations valid at a point: conduction (Ra cos(tilt) <= 1708 and "
     "Ra sin(tilt) <= 1e3: heated from above, or below the onset of convection), hollands "
     "(tilt <= 75 deg, H/L >= 12, Ra <= 1e8 horizontal and Ra cos(tilt) <= 1e5 tilted, that bound "
-    "reached over the first degree), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
+    "reached over the first degree; air and gases, 0.5 <= Pr <= 0.9), globe-dropkin (horizontal, 3e5 <= Ra <= 7e9), then the "
     "vertical correlations with the shared tilt treatment (Catton's interpolation below the "
-    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny, catton (its "
+    "critical tilt for H/L < 12, faded from H/L 9 to 12 for auto): elsherbiny (air and gases, "
+    "0.5 <= Pr <= 0.9), catton (its "
     "short-layer form to H/L = 2, handed over to its tall-layer form from 2 to 2.24, the short "
     "form extrapolated by at most a factor 1.12 there), macgregor-emery (its laminar and "
-    "turbulent boxes; Pr >= 1), wright.  " + AUTO_PRINCIPLE + "  So a square or near-square "
+    "turbulent boxes; Pr >= 1), wright (air and gases, 0.5 <= Pr <= 0.9).  " + AUTO_PRINCIPLE + "  So a square or near-square "
     "layer keeps Catton's short-layer form (H/L 1 is its bound, nothing else is published "
     "there), extrapolated below H/L 1 with the note.  A method named explicitly keeps its "
     "published form.  en673 is never chosen by auto (it is the glazing standard's own "
@@ -269,11 +270,20 @@ MACGREGOR_LAMINAR_WHEN = (Range("aspect", _MACGREGOR_EDGE_ASPECT, 40.0), Range("
                           Range("Ra", 1e4, _MACGREGOR_EDGE_RA)) + VERTICAL_TILT_COVERAGE
 MACGREGOR_TURBULENT_WHEN = (Range("aspect", 1.0, 40.0), Range("Pr", 1.0, 20.0),
                             Range("Ra", 1e6, 1e9)) + VERTICAL_TILT_COVERAGE
-ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7))
+#: The air-layer correlations (ElSherbiny et al. 1982 and Hollands et al. 1975/1976: "air
+#: layers" in their titles; Wright 1996: window glazing cavities) were fitted to air and fill
+#: gases, Pr ~ 0.7.  0.5-0.9 is our bound (no published Pr range: the gases of glazing and
+#: enclosures, air, argon, krypton, CO2, lie within it; water and oils far above), with a
+#: band of a factor 1.1 so that air at any temperature (Pr 0.69-0.73) is fully inside.  A
+#: liquid-filled layer goes to the correlations measured in liquids (MacGregor-Emery, Globe-
+#: Dropkin, Catton's Pr-dependent form), and an air correlation asked for by name there says
+#: it is out of range.
+AIR_LAYER_PR = Range("Pr", 0.5, 0.9, band=1.1)
+ELSHERBINY_RANGES = (Range("aspect", 5.0, 110.0), Range("Ra", 1e2, 2e7), AIR_LAYER_PR)
 #: Wright's aspect reach: the correlation reads H/L through Nu_2, but no upper bound was found
 #: in a source we could read; 1e3 is our bound (glazing cavities run to H/L ~ 200), so that an
 #: aspect typed in the wrong unit (a height in mm: H/L of tens of thousands) gets the note.
-WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", 20.0, 1e3))
+WRIGHT_RANGES = (Range("Ra", high=1e6), Range("aspect", 20.0, 1e3), AIR_LAYER_PR)
 
 #: The order auto prefers among the correlations valid at a point (stillair.correlations.auto
 #: weighs them; each step also reads its correlation's published ranges).  Beyond every range
@@ -438,7 +448,7 @@ def macgregor_emery_vertical(ra, pr, aspect):
     equation="Nu(90) = max(Nu_ct, Nu_l, Nu_t); Nu_ct = [1 + (0.104 Ra^0.293/(1 + (6310/Ra)^1.36))^3]"
              "^(1/3), Nu_l = 0.242 (Ra/A)^0.273, Nu_t = 0.0605 Ra^(1/3)",
     validity=ELSHERBINY_RANGES,
-    notes="Data for air.  The exponent of Nu_l is written 0.273 here (the Raithby-Hollands "
+    notes="Data for air (Pr 0.5-0.9 is our bound: gases near air's Pr).  The exponent of Nu_l is written 0.273 here (the Raithby-Hollands "
           "handbook form, from memory); ISO 15099 transcribes the same term with 0.272 (from "
           "memory) - the two differ by < 1 % in range.  Nu_ct >= 1 always, so the formula never "
           "goes below conduction.")
@@ -469,7 +479,7 @@ def _wright_bands(ra):
     validity=WRIGHT_RANGES,
     notes="Implemented: the ISO 15099 form, the larger of Wright's three-band Nu_1 and the "
           "aspect term Nu_2 = 0.242 (Ra/A)^0.272.  Bounds (from memory, not checked against "
-          "the paper): Ra <= 1e6, A >= 20; the upper A <= 1e3 is ours (no published bound found).  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
+          "the paper): Ra <= 1e6, A >= 20; Pr 0.5-0.9 (air and fill gases) and the upper A <= 1e3 are ours (no published bound found).  Nu_1 steps at its band edges: -0.007 at Ra = 1e4 "
           "(1.275 -> 1.268) and +0.016 at Ra = 5e4 (2.467 -> 2.483), visible where Nu_2 is "
           "smaller (tall cavities).  Nu_1 >= 1 always.")
 def wright_vertical(ra, pr, aspect):
@@ -493,10 +503,11 @@ def wright_vertical(ra, pr, aspect):
         Range("tilt", 0.0, 75.0),
         Range("aspect", low=12.0),
         Range("Ra", high=1e8),
+        AIR_LAYER_PR,
         Range("Ra cos(tilt) [tilt > 0]", high=1e5, in_auto=False,
               of=_only_in_band(lambda i: i["tilt"] > 0.0, _ra_cos, 0.0)),
     ],
-    notes="Air (and gases of similar Pr).  Ra < 1e8 for the horizontal layer (1975), "
+    notes="Air (and gases of similar Pr: 0.5-0.9 is our bound).  Ra < 1e8 for the horizontal layer (1975), "
           "Ra cos t < 1e5 once tilted (1976): the upper Ra bound drops as soon as tilt > 0, as "
           "published.  The formula is 1 exactly below Ra cos t = 1708 (never below 1).  Out of "
           "range above 90 deg it gives conduction (Ra cos t <= 0).")

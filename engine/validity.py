@@ -13,6 +13,8 @@ network result).
 
 from __future__ import annotations
 
+import dataclasses
+
 import contextvars
 import math
 import warnings
@@ -302,6 +304,22 @@ class Range:
         return f"{format_value(self.low)} <= {self.quantity} <= {format_value(self.high)}"
 
     # --- the transition band of "auto" ---------------------------------------------------------
+
+    @property
+    def driven(self) -> bool:
+        """True where the range bounds the flow's driving group (Ra, Re, Gr and groups made of
+        them), the input along which Nu rises; auto hands over along it over whole bands."""
+        return self.quantity.startswith(("Ra", "Re")) or "Gr" in self.quantity
+
+    def placed_inside(self) -> "Range":
+        """This range with its bands inside its bounds (itself unless it is "centred"): where it
+        gives weight, the values lie inside the published range."""
+        if self.placement == "inside":
+            return self
+        inner = self.__dict__.get("_placed_inside")
+        if inner is None:
+            inner = self.__dict__["_placed_inside"] = dataclasses.replace(self, placement="inside")
+        return inner
 
     @property
     def log_scale(self) -> bool:

@@ -4,25 +4,41 @@ Each step of a geometry's rule reads its ranges: its own ``when`` (or none: the 
 published ranges) and the correlation's published ranges (:attr:`Range.in_auto` ones).  Its
 shortfall d_k (:meth:`~stillair.validity.Range.shortfall`, the largest over its ranges) says how
 far it lies from full coverage, in transition bands: 0 well inside every range, 0 to 1 across the
-band inside a bound, above 1 beyond it.  d_min is the least shortfall of the rule's steps.
+band inside a bound, above 1 beyond it.  Its coverage is c_k = 1 - d_k clipped to 0..1, and its
+claim k_k = min(c_k along the driving group, c_k elsewhere / NEAREST_MARGIN), clipped to 0..1
+and read inside the published ranges (:meth:`Range.driven`: the ranges of Ra, Re, Gr and their
+groups, the input along which Nu rises; a "centred" band placed inside its bound).
 
-In order, step k takes b_k of what the earlier steps left, b_k = 1 - (d_k - d_min) / D clipped to
-0..1, with D = max(1 - d_min, NEAREST_MARGIN min(d_min, 1)):
+The weights, in three passes over the steps in order:
 
-* where a correlation covers fully (d_min = 0), D is one band and b_k = 1 - d_k is the step's
-  coverage: a correlation hands weight to the next across the band inside its bound, and only
-  to correlations inside their ranges (a step with d_k >= 1 takes nothing);
-* where the correlation in use reaches the end of its range and none covers fully, it keeps its
-  weight (it is the nearest, b = 1) rather than fading into another's extrapolation; beyond
-  every range the nearest valid correlation is kept, extrapolated with its note;
-* two ranges that only touch (no band inside both) hand over across NEAREST_MARGIN of a band on
-  either side of the touch, the one place a correlation outside its range takes a share where
-  another is valid; beyond every range, two extrapolations share only where they lie within
-  NEAREST_MARGIN of a band of each other.
+1. Step k takes s_k of what the earlier steps left, s_k = c_k / max(c_k, K_k, NEAREST_MARGIN),
+   K_k the largest claim of the later steps: a step hands on the fall of its coverage only as
+   far as a later step inside its range can claim it (where a later step covers fully, K_k = 1
+   and s_k = c_k: the band hand-over, and where none can, it keeps its weight), and across the
+   last NEAREST_MARGIN of its band it hands on what nothing later can take to the passes below,
+   so its weight never jumps.  The forms of one correlation (consecutive steps of one method)
+   share its coverage: the earlier hands all its fall to the later (K = 1), which takes its
+   coverage of what was left before the earlier form, past its own published edge only as far
+   as it stands in for the earlier (:func:`_form_share`).
+2. What is left is claimed in order: step k takes k_k of it.  So where a correlation leaves its
+   Ra range while the one taking over lies inside the band of another bound (MacGregor-Emery
+   near Pr 1, Catton near H/L 10), the first hands over across its whole Ra band rather than
+   across the part of it where it lies deeper inside its range than the taker (the squeeze that
+   made Nu fall with Ra at such points).
+3. What nothing claims (where every step lies within NEAREST_MARGIN of a band of a bound, or
+   beyond) goes by nearness: d_min is the least shortfall, D = max(1 - d_min, NEAREST_MARGIN
+   min(d_min, 1)), and in order step k takes clip(1 - (d_k - d_min) / D, 0, 1) of what is left.
+   Beyond every range the nearest valid correlation is kept, extrapolated with its note; two
+   ranges that only touch (no band inside both) hand over across NEAREST_MARGIN of a band on
+   either side of the touch, the one place a correlation outside its range takes a share where
+   another is valid; two extrapolations share only where they lie within NEAREST_MARGIN of a
+   band of each other.
 
-The first step of least shortfall takes all that is left, so the weights add up to 1; they are
-continuous, because the shortfalls are.  The value is the weighted sum of the methods' values,
-each floored like a named method, so it lies between them.  The scalar path (one case, numpy
+The first step of least shortfall takes all that is left in pass 3, so the weights add up to 1;
+they are continuous, because the coverages, claims and shortfalls are.  Where a step covers
+fully nothing is left after pass 1, which is then the sequential hand-over (each step before it
+takes its coverage of what is left).  The value is the weighted sum of the methods' values, each
+floored like a named method, so it lies between them.  The scalar path (one case, numpy
 scalars) and the array path (1-D arrays) run the same rule, :func:`weigh_steps`, with the same
 arithmetic; they differ only in how a range is read (``Range.shortfall_of`` on a plain number,
 ``Range.shortfall`` on an array) and in how the result's notes are worded.
@@ -152,6 +168,108 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
             break
     if scalar:
         hints[case] = shortfalls.index(nearest)
+    coverage = [smaller(larger(1.0 - short, 0.0), 1.0) for short in shortfalls]
+    reach = [_reach_past_edge(steps[index][1], inputs, plain, read) for index in range(len(coverage))]
+    claims = [_claim(steps[index][1], inputs, plain, read, cover) for index, cover in enumerate(coverage)]
+    weights, left, aside = _taken_in_order(steps, coverage, reach, claims, scalar)
+    if not (left + aside > 0.0 if scalar else np.any(left + aside > 0.0)):   # one covers fully
+        return weights + [0.0] * (len(steps) - len(weights))
+    # what no step covered: claimed by the steps inside their ranges, in order, each as far as
+    # it covers along the driving group (its claim fades over its own whole band there) and
+    # holds at least NEAREST_MARGIN of a band inside its other bounds; only what nothing
+    # claims goes by nearness
+    for index in range(len(coverage)):
+        claim = claims[index]
+        weights[index] = weights[index] + left * claim
+        left = left * (1.0 - claim)
+    left = left + aside
+    for index, share in enumerate(_nearest_shares(shortfalls, nearest, scalar)):
+        weights[index] = weights[index] + left * share
+    return weights + [0.0] * (len(steps) - len(weights))
+
+
+def _taken_in_order(steps: tuple[CompiledStep, ...], coverage: list[Any], reach: list[Any],
+                    claims: list[Any], scalar: bool) -> tuple[list[Any], Any, Any]:
+    """Pass 1 of the rule (module text): each step in order takes s = c / max(c, K) of what the
+    earlier left, K the largest claim of the later steps (1 before another form of its own
+    correlation, which takes :func:`_form_share`); of that it keeps min(1, max(c, K) /
+    NEAREST_MARGIN) and sets the rest aside for the nearest (pass 3), so that a step which no
+    later step can take from keeps its weight to the end of its band and then hands it on
+    without a jump.  Returns the weights, what is left and what is set aside."""
+    larger, smaller = (max, min) if scalar else (np.maximum, np.minimum)
+    left: Any = 1.0
+    aside: Any = 0.0
+    weights: list[Any] = []
+    later: list[Any] = [0.0] * len(coverage)     # the largest claim of the steps after each
+    for index in range(len(coverage) - 2, -1, -1):
+        later[index] = larger(later[index + 1], claims[index + 1])
+    for index, cover in enumerate(coverage):
+        if index and steps[index][0] == steps[index - 1][0]:
+            share, kept = _form_share(cover, coverage[index - 1], reach[index], smaller, larger), 1.0
+        else:
+            # a step hands on its coverage's fall as far as a later step can claim it (a form
+            # of one correlation hands all of it on to its next form)
+            taker = 1.0 if index + 1 < len(coverage) and steps[index + 1][0] == steps[index][0] else later[index]
+            reference = larger(cover, taker)
+            share = cover / larger(reference, 1e-300)
+            kept = smaller(reference / NEAREST_MARGIN, 1.0)
+        weights.append(left * share * kept)
+        aside = aside + left * share * (1.0 - kept)
+        left = left * (1.0 - share)
+        if scalar and left == 0.0:
+            break
+    return weights + [0.0] * (len(coverage) - len(weights)), left, aside
+
+
+def _form_share(cover: Any, previous: Any, reach: Any, smaller: Callable, larger: Callable) -> Any:
+    """The share a later form of one correlation takes of what its earlier form left: its
+    coverage of what was left before the earlier form (the forms share one coverage), and past
+    its own published edge (``reach`` < 1) only as far as it stands in for the earlier form."""
+    return smaller(smaller(cover, previous + reach) / larger(1.0 - previous, 1e-300), 1.0)
+
+
+def _reach_past_edge(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+                     plain: Mapping[str, float] | None, read: dict[int, Any]) -> Any:
+    """1 inside a form's published range, falling to 0 across the half band a "centred" range
+    reaches past its edge (1 for a step without one): how far a form stands by itself there."""
+    centred = tuple((bound, key) for bound, key in ranges if bound.placement == "centred")
+    if not centred:
+        return 1.0
+    shortfall = _shortfall(centred, inputs, plain, read)
+    if plain is None:
+        return np.clip(2.0 * (1.0 - shortfall), 0.0, 1.0)
+    return min(max(2.0 * (1.0 - shortfall), 0.0), 1.0)
+
+
+def _claim(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
+           plain: Mapping[str, float] | None, read: dict[int, Any], coverage: Any) -> Any:
+    """How much of what no step covered a step claims: its coverage along the driving group,
+    limited by its other coverage counted in NEAREST_MARGIN of a band (full from there inward),
+    all read inside the published ranges (a "centred" band placed inside its bound)."""
+    if plain is not None and coverage == 0.0:
+        return 0.0
+    driven: Any = 0.0
+    other: Any = 0.0
+    for bound, key in ranges:
+        inner = bound.placed_inside()
+        short = read.get(id(inner))
+        if short is None:
+            short = read[id(inner)] = inner.shortfall(inputs) if plain is None else \
+                inner.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
+        if inner.driven:
+            driven = np.maximum(driven, short) if plain is None else max(driven, short)
+        else:
+            other = np.maximum(other, short) if plain is None else max(other, short)
+    if plain is None:
+        return np.clip(np.minimum(1.0 - driven, (1.0 - other) / NEAREST_MARGIN), 0.0, 1.0)
+    return min(max(min(1.0 - driven, (1.0 - other) / NEAREST_MARGIN), 0.0), 1.0)
+
+
+def _nearest_shares(shortfalls: list[Any], nearest: Any, scalar: bool) -> list[Any]:
+    """How what nothing claimed is shared: the step of least shortfall d_min, and the others
+    within the width D = max(1 - d_min, NEAREST_MARGIN min(d_min, 1)) of it, in order, each
+    taking 1 - (d - d_min) / D of what is left."""
+    larger, smaller = (max, min) if scalar else (np.maximum, np.minimum)
     width = larger(1.0 - nearest, NEAREST_MARGIN * smaller(nearest, 1.0))
     left: Any = 1.0
     weights: list[Any] = []
@@ -167,7 +285,7 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
         left = left * (1.0 - share)
         if scalar and left == 0.0:   # the rest weigh nothing
             break
-    return weights + [0.0] * (len(steps) - len(weights))
+    return weights + [0.0] * (len(shortfalls) - len(weights))
 
 
 def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hints: dict,
@@ -179,9 +297,13 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
     later ones nothing); a step is read only until its shortfall reaches 1."""
     left = 1.0
     weights: list[Any] = []
+    previous = 0.0
     for index in range(covering + 1):
         short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
-        share = min(max(1.0 - short / 1.0, 0.0), 1.0)
+        cover = share = min(max(1.0 - short, 0.0), 1.0)
+        if index and steps[index][0] == steps[index - 1][0]:
+            share = _form_share(cover, previous, _reach_past_edge(steps[index][1], inputs, plain, read), min, max)
+        previous = cover
         weights.append(left * share)
         left = left * (1.0 - share)
         if left == 0.0:

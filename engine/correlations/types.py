@@ -22,13 +22,16 @@ STABLE_CASES = ("hot-down", "cold-up")
 #: each geometry's description gives its order and ranges and then this.
 AUTO_PRINCIPLE = (
     "Auto prefers what is valid: it weighs the rule's correlations in order, each by how far it "
-    "lies inside its published ranges; a correlation hands its weight to the next across the "
-    "transition band inside its bound (a factor 4 in Ra, 1.25 in aspect, Pr and slenderness, "
-    "5 deg in tilt) only where the next is inside its own range; where the correlation in use "
-    "reaches the end of its range and no valid neighbour takes over, it keeps its weight, and "
-    "outside every range the nearest valid correlation is used, extrapolated, with the note. "
-    "Where two ranges only touch, the two share a tenth of a band either side of the touch, so "
-    "the value has no step.")
+    "lies inside its published ranges (its coverage, falling to 0 across the transition band "
+    "inside a bound: a factor 4 in Ra, 1.25 in aspect, Pr and slenderness, 5 deg in tilt).  A "
+    "correlation hands its weight on across its band only as far as a later one inside its own "
+    "range can take it, and what no correlation covers is taken, in order, by those inside their "
+    "ranges (each as far as it covers along Ra and lies a tenth of a band inside its other "
+    "bounds), so a correlation whose Ra range ends hands over across its whole band.  Where the "
+    "correlation in use reaches the end of its range and no valid neighbour takes over, it keeps "
+    "its weight, and outside every range the nearest valid correlation is used, extrapolated, "
+    "with the note.  Where two ranges only touch, the two share a tenth of a band either side of "
+    "the touch, so the value has no step.")
 
 
 @dataclass(frozen=True)
