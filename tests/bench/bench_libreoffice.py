@@ -18,6 +18,9 @@ smallest to the largest size (linear growth: the CPU ratio equals the size ratio
 ours within 2x of the twin, growing linearly.  Measured (LibreOffice 7.4): the twin's formulas
 are not computed when it opens (the .xlsx's cached values are kept), ours are (the load job
 rebinds them and recalculates once), so ours' load holds the computation of every call.
+Then, from the extension's timing marks (STILLAIR_LIBREOFFICE_TIMING), where each book's
+least-CPU load went: LibreOffice reading the file until the load job starts, the job's
+rebinding and calculation (and importing stillair, on the session's first call), what follows.
 
 ``--cells 1000 10000``: the cost per cell of recalculating N cells of ``=H_CAVITY(A;B;C;D)`` and
 of ``=AIR_CONDUCTIVITY(A)`` (inputs varying per row) against a built-in formula of the arithmetic
