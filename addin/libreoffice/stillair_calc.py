@@ -374,10 +374,10 @@ def _rebind_block(sheet, address):
 
     The rectangle is read at once.  A long column whose formulas are the first copied down is
     rebound by filling its rewritten first formula down (``_copy_down``); the other column runs
-    holding our calls are written in chunks of rows (``getFormulaArray`` / ``setFormulaArray``, the API grammar both ways, as
-    ``getFormula`` / ``setFormula``), not one call per cell.  A rectangle holding part of an
-    array formula cannot be written so (an array formula is changed only as a whole), and is
-    rebound cell by cell, each array once."""
+    holding our calls are written in chunks of rows (``getFormulaArray`` / ``setFormulaArray``,
+    the API grammar both ways, as ``getFormula`` / ``setFormula``), not one call per cell.  A
+    rectangle holding part of an array formula cannot be written so (an array formula is changed
+    only as a whole), and is rebound cell by cell, each array once."""
     block = sheet.getCellRangeByPosition(address.StartColumn, address.StartRow,
                                          address.EndColumn, address.EndRow)
     formulas = block.getFormulaArray()
