@@ -362,11 +362,11 @@ def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
 
 
 def test_a_long_column_copied_down_keeps_formats_and_is_checked(installation, tmp_path):
-    """Columns of 256 rows or more whose formulas are the first copied down are written by
-    copying (stillair_calc._copy_down): a column with one cell formatted differently is written
-    in chunks instead, so that format stays; a column that only looks copied (a text "A1" in
-    row 1, "A2" in row 2 ...) reads back wrong after the copy and is rewritten in chunks; every
-    cell shows its own value."""
+    """Columns of 256 rows or more whose formulas are the first copied down are rebound by
+    filling the first down (stillair_calc._copy_down): a column with one cell formatted
+    differently is written in chunks instead, so that format stays; a column that only looks
+    copied (a text "A1" in row 1, "A2" in row 2 ...) reads back wrong after the fill and is
+    rewritten in chunks; every cell shows its own value."""
     rows = 300
     path = tmp_path / "copied.xlsx"
     wb = xlsxwriter.Workbook(str(path))

@@ -143,3 +143,81 @@ def test_the_copied_form_sees_relative_rows_only(component):
     assert form("=F(A1;$B$1;C$1;LOG10(2);Q1_a)", 0) == form("=F(A2;$B$1;C$1;LOG10(2);Q1_a)", 1)
     assert form("=F(A1;$B$1)", 0) != form("=F(A2;$B$2)", 1)  # an absolute row that moved
     assert form("=F($Sheet2.A1)", 0) != form("=F($Sheet2.A2)", 1)  # another sheet: not guessed
+
+
+class _FilledColumn:
+    """One column of a sheet as _copy_down sees it: ``fillAuto`` copies the top formula down,
+    moving the row numbers of its references and not its texts, as LibreOffice does."""
+
+    def __init__(self, component, formulas, formats=1):
+        self.component, self.formulas, self.formats = component, list(formulas), formats
+        self.set_first, self.filled = None, False
+
+    # the range
+    def getCellFormatRanges(self):
+        return types.SimpleNamespace(getCount=lambda: self.formats)
+
+    def getCellByPosition(self, column, row):
+        assert (column, row) == (0, 0)
+        return types.SimpleNamespace(setFormula=self._set_first)
+
+    def _set_first(self, formula):
+        self.set_first = formula
+        self.formulas[0] = formula.replace("=", "=" + self.component._RESOLVED % "", 1)
+
+    def fillAuto(self, direction, count):
+        assert count == 1
+        self.filled = True
+        pattern, texts = self.component._ROW_REFERENCE, self.component._STRING
+        parts = texts.split(self.formulas[0])  # odd parts are texts: a fill leaves them alone
+        self.formulas = ["".join(part if k % 2 else pattern.sub(
+            lambda m, i=i: m.group(1) + str(int(m.group(2)) + i), part) for k, part in enumerate(parts))
+            for i in range(len(self.formulas))]
+
+    def getFormulaArray(self):
+        return tuple((f,) for f in self.formulas)
+
+    # the sheet
+    def getCellRangeByPosition(self, *corners):
+        return self
+
+    def getAnnotations(self):
+        return types.SimpleNamespace(getCount=lambda: 0)
+
+
+def _copy_down(component, column, monkeypatch):
+    monkeypatch.setattr(component.uno, "Enum", lambda *names: names, raising=False)
+    address = types.SimpleNamespace(StartColumn=0, StartRow=0, EndRow=len(column.formulas) - 1)
+    return component._copy_down(column, address, 0, list(column.formulas))
+
+
+def test_a_copied_down_column_is_filled_from_its_one_rewritten_first_formula(component, monkeypatch):
+    rows = 300
+    column = _FilledColumn(component, [f"=h_cavity(A{n};B{n};0.016;1.2)" for n in range(1, rows + 1)])
+    assert _copy_down(component, column, monkeypatch) == rows
+    assert column.set_first == "=H_CAVITY(A1;B1;0.016;1.2)" and column.filled
+    assert column.formulas[-1] == f"={component._RESOLVED % 'H_CAVITY'}(A{rows};B{rows};0.016;1.2)"
+
+
+def test_a_column_that_only_looks_copied_is_left_to_the_rows(component, monkeypatch):
+    # "A1" in a text looks like a reference: the forms agree, the fill reads back wrong
+    column = _FilledColumn(component, [f'=air_density(A{n})&"A{n}"' for n in range(1, 301)])
+    assert _copy_down(component, column, monkeypatch) is None and column.filled
+    # not copied down (a row differs), or one format does not cover it: never filled
+    for formulas, formats in (([f"=air_density(A{n})" for n in range(1, 300)] + ["=air_density(A1)"], 1),
+                              ([f"=air_density(A{n})" for n in range(1, 301)], 2),
+                              ([f"=SUM(A{n};1)" for n in range(1, 301)], 1)):  # none of ours
+        column = _FilledColumn(component, formulas, formats)
+        assert _copy_down(component, column, monkeypatch) is None
+        assert not column.filled and column.set_first is None
+
+
+def test_timing_marks_are_written_only_when_asked(component, tmp_path, monkeypatch):
+    log = tmp_path / "timing.jsonl"
+    monkeypatch.setattr(component, "TIMING_LOG", None)
+    component._timing("job_started")
+    assert not log.exists()
+    monkeypatch.setattr(component, "TIMING_LOG", str(log))
+    component._timing("rebound", formulas=12)
+    mark = json.loads(log.read_text())
+    assert mark["event"] == "rebound" and mark["formulas"] == 12 and mark["cpu"] >= 0 and mark["wall"] > 0

@@ -6,7 +6,8 @@ extension is installed there with ``unopkg add --shared``), and a list of jobs:
 
 ``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
 report every formula cell (formula, value or text, error code) and the load and recalculation
-times (wall, and the CPU time soffice spent: ``load_cpu_seconds``); ``"report": false`` leaves
+times (wall, and the CPU time soffice spent: ``load_cpu_seconds``; ``load_started`` and
+``load_finished``, time.perf_counter, to place the extension's timing marks); ``"report": false`` leaves
 the cells out.  ``{"recalc": {"inputs": [[...], ...], "formulas": {"E": [...], ...}}, "repeat":
 3}``: a new sheet with the inputs from A1 and each column of formulas (API grammar) from row 1;
 reports, per column alone, the best of ``repeat`` full recalculations (each sample repeated
@@ -156,7 +157,8 @@ def open_and_recalculate(desktop, path, cpu=lambda: 0.0, report=True):
     doc.calculateAll()
     calculated = time.perf_counter()
     try:
-        return {"path": path, "load_seconds": loaded - started,
+        return {"path": path, "load_seconds": loaded - started, "load_started": started,
+                "load_finished": loaded,
                 "load_cpu_seconds": cpu_loaded - cpu_started,
                 "calculate_seconds": calculated - loaded,
                 "sheets": read_formula_cells(doc) if report else {}}
