@@ -37,7 +37,7 @@ import numpy as np
 
 from ..validity import Range
 from .registry import CORRELATIONS
-from .single import _evaluate_one, _first, _range_notes, _scalar_note, _scalar_result
+from .single import _evaluate_one, _first, _range_notes, _scalar_note
 from .types import Geometry, NusseltResult, uniform
 
 #: Where no correlation covers fully, how close another step's shortfall must come to the least
@@ -234,9 +234,10 @@ def _rule_order(geo: Geometry, case: str | None, weights: Mapping[str, Any]) -> 
 
 
 def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
-                plain: Mapping[str, float]) -> NusseltResult:
-    """The auto rule for one case in numpy scalars (``plain``: the same as floats); notes
-    formatted only for a bound crossed."""
+                plain: Mapping[str, float]) -> tuple[float, str, str, str]:
+    """The auto rule for one case in numpy scalars (``plain``: the same as floats): (Nu, the
+    method of the largest weight, the note, the blend) as plain values; notes formatted only
+    for a bound crossed."""
     floor = -math.inf if geo.floor is None else geo.floor
     nu, weights = weigh_steps(geo, case, inputs, plain)
     names = _rule_order(geo, case, weights)
@@ -246,7 +247,7 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     note = "; ".join(notes)
     if note and blend:
         note = f"{blend}: {note}"
-    return _scalar_result(max(nu, floor), max(names, key=weights.__getitem__), note, blend)
+    return max(nu, floor), max(names, key=weights.__getitem__), note, blend
 
 
 def auto_arrays(geo: Geometry, case: str | None, arrays: Mapping[str, np.ndarray], notes: bool = True,

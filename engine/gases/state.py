@@ -138,11 +138,24 @@ def plain_state_accepted(gas: str, temperatures: tuple, pressure: float) -> bool
     """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
     numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
     raises (the full checks word the message)."""
+    return plain_mixture(gas, temperatures, pressure) is not None
+
+
+def plain_mixture(gas: str, temperatures: tuple, pressure: float) -> _Mixture | None:
+    """The parsed gas where :func:`plain_state_accepted` holds, else None: a state of it at a
+    temperature between those checked is then :func:`plain_state` with no check repeated."""
     try:
         mixture = _mixture("", gas)
     except InputError:
-        return False
-    return _plain_inside(mixture, temperatures, pressure)
+        return None
+    return mixture if _plain_inside(mixture, temperatures, pressure) else None
+
+
+def plain_state(mixture: _Mixture, t: float, pressure: float) -> GasProperties:
+    """The state at ``t`` (°C) and ``pressure`` (Pa) of a gas :func:`plain_mixture` accepted, at
+    a temperature and pressure inside the ranges it checked (the film temperature between two
+    that it checked): :func:`gas_properties` without its checks."""
+    return _scalar_state(mixture, float(t), float(pressure))
 
 
 def _plain_inside(mixture: _Mixture, temperatures, pressure) -> bool:
