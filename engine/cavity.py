@@ -122,7 +122,9 @@ def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
 
 
 def _critical_tilt(aspect):
-    if not isinstance(aspect, np.ndarray):  # the scalar path asks for the same t* several times per case
+    if type(aspect) is np.float64 or type(aspect) is float:   # the scalar path asks for the same t* several times per case
+        return _critical_tilt_of(aspect)
+    if not isinstance(aspect, np.ndarray):
         return _critical_tilt_of(float(aspect))
     table_aspect, table_tilt = _CRITICAL_TILT_POINTS
     return np.interp(aspect, table_aspect, table_tilt)

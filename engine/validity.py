@@ -277,6 +277,10 @@ class Range:
     band inside the range ("inside", the default: the correlation is never weighted outside
     its published range) or centred on the bound ("centred": the two bands of one piecewise
     correlation, each extrapolated by half the band).
+
+    ``full_weight`` (an attribute, not a field) is the open interval of values the range weighs
+    fully with a margin (:func:`_full_weight_interval`): the scalar path takes the shortfall
+    there as 0 without the arithmetic, which would give 0 exactly.
     """
 
     quantity: str
@@ -372,12 +376,7 @@ class Range:
         return np.broadcast_to(shortfall, np.shape(values))
 
     def shortfall_of(self, value: float) -> float:
-        """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic).  A value
-        well inside ``_full_weight`` (:func:`_full_weight_interval`) is 0 at once: the
-        arithmetic would give 0 exactly."""
-        low, high = self._full_weight
-        if low < value < high:
-            return 0.0
+        """:meth:`shortfall` of one plain number (the scalar path; the same arithmetic)."""
         shortfall = 0.0
         for bound, side, log_bound, scale, offset in self._ramps:
             along = value - bound if log_bound is None else \
@@ -397,7 +396,7 @@ class Range:
         # the band's constants, computed once (attributes, not fields: frozen stays frozen)
         ramps = self._ramp_constants_of()
         object.__setattr__(self, "_ramps", ramps)
-        object.__setattr__(self, "_full_weight", _full_weight_interval(ramps))
+        object.__setattr__(self, "full_weight", _full_weight_interval(ramps))
 
     def _ramp_constants_of(self):
         """The bounds that have a transition: (bound, side, log of the bound or None for a

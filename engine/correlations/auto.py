@@ -97,17 +97,29 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     """:func:`_shortfall` on the scalar path (``Range.shortfall_of`` of each range's value as a
     float), stopping at the first range whose shortfall reaches ``cut``
     (:func:`_weightless_from`): the step weighs nothing whatever the rest, and that lower bound
-    serves the rule as well."""
+    serves the rule as well.  The range that reached the cut last time is read first (the
+    largest of all is the same in any order, and any range that reaches the cut gives such a
+    lower bound), so a step that weighs nothing is mostly told by one range."""
+    order = _READ_ORDER.get(id(ranges), (None, ranges))[1]
     largest = 0.0
-    for bound, key in ranges:
+    for bound, key in order:
         short = read.get(id(bound))
         if short is None:
-            short = read[id(bound)] = bound.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
+            value = plain[key] if type(key) is str else float(key(inputs))
+            low, high = bound.full_weight
+            short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
         if short > largest:
             largest = short
             if largest >= cut:
+                if order[0][0] is not bound:
+                    _READ_ORDER[id(ranges)] = (ranges, ((bound, key),) + tuple(r for r in ranges if r[0] is not bound))
                 break
     return largest
+
+
+#: The scalar path's order of reading each step's ranges: id(ranges) -> (ranges, the order, the
+#: range that reached the cut last time first).  The ranges are held, so their id stays theirs.
+_READ_ORDER: dict[int, tuple] = {}
 
 
 def _weightless_from(nearest: float) -> float:
@@ -181,6 +193,9 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
     weights: list[Any] = []
     for index in range(covering + 1):
         short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
+        if short >= 1.0:        # the usual step before the one that covers: it takes nothing
+            weights.append(0.0)
+            continue
         share = min(max(1.0 - short / 1.0, 0.0), 1.0)
         weights.append(left * share)
         left = left * (1.0 - share)
@@ -198,31 +213,44 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     of one length (``plain`` None).  Returns the weighted Nu (a float or an array) and
     ``{method: total weight}`` for the methods that carry weight, in the order they first do.
     """
-    scalar = plain is not None
-    floor = -math.inf if geo.floor is None else geo.floor
-    size = () if scalar else next(iter(inputs.values())).shape
-    nu: Any = 0.0 if scalar else np.zeros(size)
+    if plain is not None:
+        return _weigh_plain(geo, case, inputs, plain)
+    size = next(iter(inputs.values())).shape
+    nu: Any = np.zeros(size)
     weights: dict[str, Any] = {}        # method -> total weight (its forms together)
     for (method, _, function), weight in zip(_compiled_steps(geo, case),
                                              _step_weights(geo, case, inputs, plain)):
         used = weight > 0.0
-        if not (used if scalar else np.any(used)):
+        if not np.any(used):
             continue
-        weight = weight if scalar else np.broadcast_to(weight, size)
-        everywhere = scalar or used.all()
+        weight = np.broadcast_to(weight, size)
+        everywhere = used.all()
         part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
-        raw = function(**(dict(part, case=case) if geo.cases else part))
-        if scalar:
-            nu += weight * max(_first(raw), floor)
+        value = np.asarray(function(**(dict(part, case=case) if geo.cases else part)), dtype=float)
+        if geo.floor is not None:
+            value = np.maximum(value, geo.floor)
+        if everywhere:
+            nu += weight * value
         else:
-            value = np.asarray(raw, dtype=float)
-            if geo.floor is not None:
-                value = np.maximum(value, geo.floor)
-            if everywhere:
-                nu += weight * value
-            else:
-                nu[used] += weight[used] * value
+            nu[used] += weight[used] * value
         weights[method] = weights.get(method, 0.0) + weight
+    return nu, weights
+
+
+def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
+                 plain: Mapping[str, float]) -> tuple[float, dict[str, float]]:
+    """:func:`weigh_steps` for one case: the same sum, each weighted method's value (a numpy
+    scalar) floored as a float."""
+    floor = -math.inf if geo.floor is None else geo.floor
+    steps = _compiled_steps(geo, case)
+    nu = 0.0
+    weights: dict[str, float] = {}
+    for index, weight in enumerate(_step_weights(geo, case, inputs, plain)):
+        if weight > 0.0:
+            method, _, function = steps[index]
+            raw = function(case=case, **inputs) if geo.cases else function(**inputs)
+            nu += weight * max(_first(raw), floor)
+            weights[method] = weights.get(method, 0.0) + weight
     return nu, weights
 
 
@@ -239,7 +267,10 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     method of the largest weight, the note, the blend) as plain values; notes formatted only
     for a bound crossed."""
     floor = -math.inf if geo.floor is None else geo.floor
-    nu, weights = weigh_steps(geo, case, inputs, plain)
+    nu, weights = _weigh_plain(geo, case, inputs, plain)
+    if len(weights) == 1:    # the usual case: one method, its own note, no blend
+        (name,) = weights
+        return max(nu, floor), name, _scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case), ""
     names = _rule_order(geo, case, weights)
     notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case)
                                for name in names) if note]
