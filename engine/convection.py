@@ -455,8 +455,11 @@ def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pres
 def _plain_case(gas, pressure, temperatures, lengths, property_temperature):
     """One case in plain numbers, every check passed by plain comparisons (the scalar path): the
     parsed gas (for :func:`_scalar_groups`), else None."""
-    if property_temperature is not None or not all(is_plain_length(v) for v in lengths):
+    if property_temperature is not None:
         return None
+    for length in lengths:
+        if not is_plain_length(length):
+            return None
     return plain_mixture(gas, temperatures, pressure)
 
 

@@ -103,11 +103,16 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     order = _READ_ORDER.get(id(ranges), (None, ranges))[1]
     largest = 0.0
     for bound, key in order:
-        short = read.get(id(bound))
-        if short is None:
-            value = plain[key] if type(key) is str else float(key(inputs))
+        if type(key) is str:    # an input's value: read at once (cheaper than keeping it)
+            value = plain[key]
             low, high = bound.full_weight
-            short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
+            short = 0.0 if low < value < high else bound.shortfall_of(value)
+        else:                   # a computed quantity: once per call, whichever step reads it
+            short = read.get(id(bound))
+            if short is None:
+                value = float(key(inputs))
+                low, high = bound.full_weight
+                short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
         if short > largest:
             largest = short
             if largest >= cut:

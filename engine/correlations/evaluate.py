@@ -201,6 +201,8 @@ def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
     return values
 
 
+_NUMPY_FLOAT = np.float64     # bound once: the module attribute look-up is a third of the scalar path's conversion
+
 #: Nu of one case as plain values: (Nu, the method used, its note or "", the blend or "").
 PlainNusselt = tuple[float, str, str, str]
 
@@ -209,7 +211,7 @@ def _scalar_parts(geo: Geometry, method: str, case: str | None, values: dict[str
     """Nu for one case in plain numbers: a named method, or the auto rule (:func:`auto_scalar`)."""
     # numpy scalars, not Python floats: comparisons then give numpy booleans, which the
     # correlations combine with ~ and & as they do arrays
-    arrays = {k: np.float64(v) for k, v in values.items()}
+    arrays = {k: _NUMPY_FLOAT(v) for k, v in values.items()}
     if method == "auto":
         return auto_scalar(geo, case, arrays, values)
     corr = CORRELATIONS[(geo.name, method)]
