@@ -100,7 +100,8 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     serves the rule as well.  The range that reached the cut last time is read first (the
     largest of all is the same in any order, and any range that reaches the cut gives such a
     lower bound), so a step that weighs nothing is mostly told by one range."""
-    order = _READ_ORDER.get(id(ranges), (None, ranges))[1]
+    learned = _READ_ORDER.get(id(ranges))
+    order = ranges if learned is None else learned[1]
     largest = 0.0
     for bound, key in order:
         if type(key) is str:    # an input's value: read at once (cheaper than keeping it)

@@ -192,9 +192,10 @@ def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
     values = {}
     for name, low, high, low_open in _plain_domains(geo):
         value = inputs.get(name)
-        if type(value) not in PLAIN_NUMBERS:
-            return None
-        value = float(value)
+        if type(value) is not float:
+            if type(value) not in PLAIN_NUMBERS:
+                return None
+            value = float(value)
         if not ((low < value if low_open else low <= value) and value <= high and value < math.inf):
             return None
         values[name] = value
