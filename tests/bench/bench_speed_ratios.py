@@ -18,6 +18,7 @@ is kept, so load from other processes on the machine affects both alike.
 
 from __future__ import annotations
 
+import os
 import time
 
 import numpy as np
@@ -74,7 +75,12 @@ def scalar_h_cavity():
     by_hand(), with_stillair()
     hand, ours = alternate(by_hand, with_stillair, 30, rounds=40)
     print(f"scalar h_cavity: stillair {ours * 1e6:7.1f} us, by hand with PropsSI {hand * 1e6:7.1f} us"
-          f"  ->  stillair {hand / ours:5.1f}x faster (target >= 20x)")
+          f"  ->  stillair {hand / ours:5.1f}x faster (target >= 20x); load {_load()}")
+
+
+def _load() -> str:
+    """The machine's 1-minute load average, printed beside a figure (2 cores shared)."""
+    return f"{os.getloadavg()[0]:.2f}" if hasattr(os, "getloadavg") else "unknown"
 
 
 def vectorised():
