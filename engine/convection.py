@@ -322,7 +322,8 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     plain = _plain_cavity(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
                           ideal_expansion, function_name)
     if plain is not None:
-        result = _scalar_result(*plain, "")
+        props, t_film, gr, ra, length, parts = plain
+        result = _scalar_result(props, t_film, gr, ra, length, parts, "")
     else:
         result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
                                     ideal_expansion, function_name)

@@ -16,7 +16,7 @@ from __future__ import annotations
 import contextvars
 import math
 import warnings
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any, Callable, Mapping, TypeGuard
 
 import numpy as np
@@ -294,6 +294,9 @@ class Range:
     #: weight that jumps would make its value jump; the auto rule states that band's bounds in
     #: its own steps instead.  Notes and the spread read it as published.
     in_auto: bool = True
+    # made once by __post_init__ from the fields above (not arguments, not compared)
+    _ramps: tuple = field(init=False, repr=False, compare=False)
+    full_weight: tuple[float, float] = field(init=False, repr=False, compare=False)
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
