@@ -100,31 +100,38 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     serves the rule as well.  The range that reached the cut last time is read first (the
     largest of all is the same in any order, and any range that reaches the cut gives such a
     lower bound), so a step that weighs nothing is mostly told by one range."""
-    learned = _READ_ORDER.get(id(ranges))
-    order = ranges if learned is None else learned[1]
+    entry = _READ_ORDER.get(id(ranges))
+    order = _plain_reading(ranges) if entry is None else entry[1]
     largest = 0.0
-    for bound, key in order:
+    for bound, key, low, high in order:
         if type(key) is str:    # an input's value: read at once (cheaper than keeping it)
             value = plain[key]
-            low, high = bound.full_weight
             short = 0.0 if low < value < high else bound.shortfall_of(value)
         else:                   # a computed quantity: once per call, whichever step reads it
             short = read.get(id(bound))
             if short is None:
                 value = float(key(inputs))
-                low, high = bound.full_weight
                 short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
         if short > largest:
             largest = short
             if largest >= cut:
-                if order[0][0] is not bound:
-                    _READ_ORDER[id(ranges)] = (ranges, ((bound, key),) + tuple(r for r in ranges if r[0] is not bound))
+                if order[0][0] is not bound:    # read it first next time
+                    _READ_ORDER[id(ranges)] = (ranges, tuple(sorted(order, key=lambda entry: entry[0] is not bound)))
                 break
     return largest
 
 
-#: The scalar path's order of reading each step's ranges: id(ranges) -> (ranges, the order, the
-#: range that reached the cut last time first).  The ranges are held, so their id stays theirs.
+def _plain_reading(ranges: tuple[tuple[Range, Any], ...]) -> tuple[tuple[Range, Any, float, float], ...]:
+    """A step's ranges as the scalar path reads them: (range, input name or ``of``, and the
+    ends of the range's ``full_weight``), kept in :data:`_READ_ORDER`."""
+    order = tuple((bound, key, *bound.full_weight) for bound, key in ranges)
+    _READ_ORDER[id(ranges)] = (ranges, order)
+    return order
+
+
+#: The scalar path's reading of each step's ranges: id(ranges) -> (ranges, their reading in the
+#: order to read them, the range that reached the cut last time first).  The ranges are held,
+#: so their id stays theirs.
 _READ_ORDER: dict[int, tuple] = {}
 
 
