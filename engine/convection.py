@@ -609,7 +609,7 @@ def _h_of_plain(function_name: str, h: float, note: str, slip: str) -> float:
     :func:`_with_slip` adds it), without the result's 0-d arrays."""
     if note:
         warn_out_of_range(function_name, False, f"{note}; {slip}" if slip else note)
-    return h
+    return float(h)     # a Python float, as unwrap gives, whatever numbers came in
 
 
 def h_vplate(ts: ArrayLike, tf: ArrayLike, height: ArrayLike,

@@ -251,6 +251,9 @@ def test_h_cavity_on_its_scalar_path_is_the_full_result_with_its_warnings():
             warnings.simplefilter("always")
             expected = _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt), "h_cavity")
         assert h == expected and type(h) is float
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            assert type(h_cavity(np.float64(t1), t2, np.float64(gap), height, tilt)) is float
         assert [(w.category, str(w.message)) for w in fast] == [(w.category, str(w.message)) for w in full]
         assert all(w.filename == __file__ for w in fast)
         counts.append(len(fast))
