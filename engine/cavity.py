@@ -52,7 +52,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
-from ._select import any_true, ignoring_division_by, maximum, where
+from ._select import any_true, clip, ignoring_division_by, maximum, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -123,7 +123,9 @@ def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
 
 
 def _critical_tilt(aspect):
-    if not isinstance(aspect, np.ndarray):  # the scalar path asks for the same t* several times per case
+    if type(aspect) is np.float64 or type(aspect) is float:   # the scalar path asks for the same t* several times per case
+        return _critical_tilt_of(aspect)
+    if not isinstance(aspect, np.ndarray):
         return _critical_tilt_of(float(aspect))
     table_aspect, table_tilt = _CRITICAL_TILT_POINTS
     return np.interp(aspect, table_aspect, table_tilt)
@@ -228,7 +230,7 @@ def _horizontal_value_ra(inputs):
     """Ra where Catton's interpolation reads Hollands' horizontal value, faded out over the
     5 deg below t*: the horizontal value's share of the interpolation, 1 - tilt/t*, is small
     there and vanishes at t*, where the published bound stops at once."""
-    share = np.clip((_critical_tilt(inputs["aspect"]) - inputs["tilt"]) / 5.0, 0.0, 1.0)
+    share = clip((_critical_tilt(inputs["aspect"]) - inputs["tilt"]) / 5.0, 0.0, 1.0)
     return inputs["ra"] * share
 
 

@@ -25,10 +25,11 @@ from .constants import ZERO_CELSIUS as zero_Celsius
 import numpy as np
 
 from ._select import where
-from .correlations import GEOMETRIES, Geometry, NusseltResult, document, merge_masked, nusselt, uniform
+from .correlations import (GEOMETRIES, Geometry, NusseltResult, document, merge_masked, nusselt, nusselt_plain,
+                           uniform)
 from .correlations.docs import _indent
 from .forced import WIND_FLOWS, combine_mixed, forced_length, wind_notes
-from .gases import gas_properties, plain_state_accepted
+from .gases import gas_properties, plain_mixture, plain_state
 from .groups import DEFAULT_PRESSURE, STANDARD_GRAVITY, buoyancy_groups, film_properties
 from ._docs import shared_docs
 from ._typing import ArrayLike, FloatOrArray
@@ -222,19 +223,20 @@ def _surface_convection(geo: Geometry, t_surface: ArrayLike, t_fluid: ArrayLike,
                         ideal_expansion: bool, function_name: str) -> "ConvectionResult":
     geometry = geo.name
     length_name = geo.length
-    if (_plain_case(gas, pressure, (t_surface, t_fluid),
-                    (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
+    mixture = _plain_case(gas, pressure, (t_surface, t_fluid),
+                          (length,) + ((diameter,) if "slenderness" in geo.inputs else ()), property_temperature)
+    if (mixture is not None
             and (not geo.cases or isinstance(facing, str) and facing.strip().lower() in FACINGS)
             and ("tilt" not in geo.inputs or is_plain_number(tilt) and geo.tilt_range[0] <= tilt <= geo.tilt_range[1])):
-        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, gas, pressure,
-                                                              ideal_expansion, function_name)
+        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t_surface, t_fluid, length, mixture, pressure,
+                                                              ideal_expansion)
         inputs = {"ra": ra, "pr": props.prandtl}
         if "tilt" in geo.inputs:
             inputs["tilt"] = float(tilt)  # type: ignore[arg-type]  # a plain number: tested above
         inputs.update(shape_ratios(geo, length, diameter=diameter))
         plate = f"{'hot' if delta_t >= 0 else 'cold'}-{str(facing).strip().lower()}" if geo.cases else ""
-        result = nusselt(geometry, method, plate or None, function_name=function_name, **inputs)
-        return _scalar_result(props, t_film, gr, ra, length, result, plate)
+        parts = nusselt_plain(geo, method, plate or None, function_name, inputs)
+        return _scalar_result(props, t_film, gr, ra, length, parts, plate)
     length = require_length(function_name, length_name, length)
     # every argument takes part in the result's shape (a range of tilts or diameters at one
     # temperature broadcasts like a range of temperatures)
@@ -317,24 +319,44 @@ def cavity_convection(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: Arra
     >>> round(float(cavity_convection(15.0, 5.0, 0.016, 1.2).h), 3)
     1.645
     """
-    result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
-                                ideal_expansion, function_name)
-    slip = warn_slips(function_name, temperature_slip({"t1": t1, "t2": t2}), length_slip("gap", gap),
-                      length_slip("height", height), stacklevel=4)
+    plain = _plain_cavity(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                          ideal_expansion, function_name)
+    if plain is not None:
+        props, t_film, gr, ra, length, parts = plain
+        result = _scalar_result(props, t_film, gr, ra, length, parts, "")
+    else:
+        result = _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
+                                    ideal_expansion, function_name)
+    slip = warn_slips(function_name, *_cavity_slips(t1, t2, gap, height), stacklevel=4)
     return _with_slip(result, slip)
+
+
+def _cavity_slips(t1, t2, gap, height) -> tuple[str, str, str]:
+    """The unit-slip notes of a cavity's arguments (:mod:`stillair.plausibility`)."""
+    return temperature_slip({"t1": t1, "t2": t2}), length_slip("gap", gap), length_slip("height", height)
+
+
+def _plain_cavity(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature, ideal_expansion,
+                  function_name):
+    """The cavity's scalar path: (props, t_film, gr, ra, gap, Nu's plain parts) for one case in
+    plain numbers, None for anything else (the array path checks it and words the message)."""
+    geo = GEOMETRIES["cavity"]
+    tilt_low, tilt_high = geo.tilt_range
+    mixture = _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature)
+    if mixture is None or not (is_plain_number(tilt) and tilt_low <= tilt <= tilt_high):
+        return None
+    props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, mixture, pressure, ideal_expansion)
+    parts = nusselt_plain(geo, method, None, function_name,
+                          {"ra": ra, "pr": props.prandtl, "tilt": layer_tilt(float(tilt), delta_t),
+                           **shape_ratios(geo, gap, height=height)})
+    return props, t_film, gr, ra, gap, parts
 
 
 def _cavity_convection(t1, t2, gap, height, tilt, gas, pressure, method, property_temperature,
                        ideal_expansion, function_name) -> "ConvectionResult":
+    """The cavity on arrays (:func:`_plain_cavity` serves one case in plain numbers)."""
     geo = GEOMETRIES["cavity"]
     tilt_low, tilt_high = geo.tilt_range
-    if _plain_case(gas, pressure, (t1, t2), (gap, height), property_temperature) \
-            and is_plain_number(tilt) and tilt_low <= tilt <= tilt_high:
-        props, t_film, beta, delta_t, gr, ra = _scalar_groups(t1, t2, gap, gas, pressure, ideal_expansion,
-                                                              function_name)
-        result = nusselt("cavity", method, function_name=function_name, ra=ra, pr=props.prandtl,
-                         tilt=layer_tilt(float(tilt), delta_t), **shape_ratios(geo, gap, height=height))
-        return _scalar_result(props, t_film, gr, ra, gap, result, "")
     gap = require_length(function_name, "gap", gap)
     height = require_length(function_name, "height", height)
     tilt = require_between(function_name, "tilt", tilt, tilt_low, tilt_high, "deg")
@@ -431,30 +453,42 @@ def _with_plain_wind(flow, still, wind, wind_length, length, diameter, gas, pres
         h_natural=np.asarray(h_natural), h_forced=np.asarray(h_forced), forced_method=forced.method)
 
 
-def _plain_case(gas, pressure, temperatures, lengths, property_temperature) -> bool:
-    """One case in plain numbers, every check passed by plain comparisons: the scalar path."""
-    return (property_temperature is None
-            and all(is_plain_length(v) for v in lengths)
-            and plain_state_accepted(gas, temperatures, pressure))
+def _plain_case(gas, pressure, temperatures, lengths, property_temperature):
+    """One case in plain numbers, every check passed by plain comparisons (the scalar path): the
+    parsed gas (for :func:`_scalar_groups`), else None."""
+    if property_temperature is not None:
+        return None
+    for length in lengths:
+        if not is_plain_length(length):
+            return None
+    return plain_mixture(gas, temperatures, pressure)
 
 
-def _scalar_groups(t1, t2, length, gas, pressure, ideal_expansion, function_name):
-    """(props, t_film, beta, delta_t, gr, ra) for plain numbers, the arithmetic of the array path."""
+def _scalar_groups(t1, t2, length, mixture, pressure, ideal_expansion):
+    """(props, t_film, beta, delta_t, gr, ra) for plain numbers :func:`_plain_case` accepted,
+    the arithmetic of the array path."""
     t_film = 0.5 * (t1 + t2)
-    props = gas_properties(gas, t_film, pressure, function_name=function_name)
+    props = plain_state(mixture, t_film, pressure)   # between two checked temperatures: inside
     beta = 1.0 / (t_film + zero_Celsius) if ideal_expansion else props.expansion
     delta_t = float(t1) - float(t2)
     gr = STANDARD_GRAVITY * beta * abs(delta_t) * length ** 3 / props.kinvisc ** 2
     return props, t_film, beta, delta_t, gr, gr * props.prandtl
 
 
-def _scalar_result(props, t_film, gr, ra, length, result, case) -> ConvectionResult:
-    h = float(result.nu) * props.conductivity / length
-    return ConvectionResult(h=np.asarray(h), nu=result.nu, ra=np.asarray(ra), gr=np.asarray(gr),
-                            pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
+def _plain_h(parts, props, length) -> float:
+    """h = Nu k / L of the scalar path, from Nu's plain parts (:func:`nusselt_plain`)."""
+    return parts[0] * props.conductivity / length
+
+
+def _scalar_result(props, t_film, gr, ra, length, parts, case) -> ConvectionResult:
+    """The scalar path's :class:`ConvectionResult` (0-d arrays) from Nu's plain parts."""
+    nu, method, note, blend = parts
+    return ConvectionResult(h=np.asarray(_plain_h(parts, props, length)), nu=np.array(nu), ra=np.asarray(ra),
+                            gr=np.asarray(gr), pr=np.asarray(props.prandtl), t_film=np.asarray(t_film),
                             conductivity=np.asarray(props.conductivity), length=np.asarray(float(length)),
-                            method=result.method, case=np.asarray(case, dtype=object),
-                            in_range=result.in_range, note=result.note, blend=result.blend)
+                            method=np.array(method, dtype=object), case=np.asarray(case, dtype=object),
+                            in_range=np.array(note == ""), note=np.array(note, dtype=object),
+                            blend=np.array(blend, dtype=object))
 
 
 def convection_geometries() -> tuple[Geometry, ...]:
@@ -570,6 +604,14 @@ def _h_only(result: ConvectionResult, function_name: str):
     return unwrap(result.h)
 
 
+def _h_of_plain(function_name: str, h: float, note: str, slip: str) -> float:
+    """:func:`_h_only` of a scalar path's h and range note (the unit-slip note added as
+    :func:`_with_slip` adds it), without the result's 0-d arrays."""
+    if note:
+        warn_out_of_range(function_name, False, f"{note}; {slip}" if slip else note)
+    return float(h)     # a Python float, as unwrap gives, whatever numbers came in
+
+
 def h_vplate(ts: ArrayLike, tf: ArrayLike, height: ArrayLike,
              gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
              method: str = "auto", wind: ArrayLike = 0.0, wind_length: ArrayLike | None = None) -> FloatOrArray:
@@ -624,6 +666,11 @@ def h_cavity(t1: ArrayLike, t2: ArrayLike, gap: ArrayLike, height: ArrayLike,
              tilt: ArrayLike = 90.0, gas: str = "air", pressure: ArrayLike = DEFAULT_PRESSURE,
              method: str = "auto") -> FloatOrArray:
     """h across a closed gas layer of ``gap`` and ``height`` (m); t1 on the layer's underside."""
+    plain = _plain_cavity(t1, t2, gap, height, tilt, gas, pressure, method, None, False, "h_cavity")
+    if plain is not None:   # one case in plain numbers (the usual call, and every cell's)
+        props, _, _, _, _, parts = plain
+        slip = warn_slips("h_cavity", *_cavity_slips(t1, t2, gap, height), stacklevel=3)
+        return _h_of_plain("h_cavity", _plain_h(parts, props, gap), parts[2], slip)
     return _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt, gas=gas, pressure=pressure, method=method,
                                      function_name="h_cavity"), "h_cavity")
 

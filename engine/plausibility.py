@@ -109,7 +109,7 @@ def warn_slips(function_name: str, *notes: str, stacklevel: int = 3) -> str:
     """Issue a :class:`UnitSlipWarning` with the non-empty notes (``stacklevel`` as
     :func:`warnings.warn` counts from the caller of this function, plus one); return the text
     ("" inside :func:`trial_sizes`)."""
-    if _TRIALS.get():
+    if not any(notes) or _TRIALS.get():    # the usual call: nothing to say
         return ""
     text = "; ".join(note for note in notes if note)
     if text:

@@ -18,7 +18,7 @@ import dataclasses
 import contextvars
 import math
 import warnings
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any, Callable, Mapping, TypeGuard
 
 import numpy as np
@@ -255,6 +255,13 @@ DEFAULT_LOG_BAND = 4.0      # a factor of two either side of the band's middle
 DEFAULT_TILT_BAND = 5.0     # degrees
 #: Bounds that coincide with the end of an input's allowed domain need no transition.
 _DOMAIN = {"tilt": (0.0, 180.0)}
+_OFFSET = {"inside": 0.0, "centred": 0.5}
+#: The default band on each scale, by "is it a log scale": 5 deg, or the log of a factor 4.
+_DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}
+#: How far inside the ends of the full-weight interval (:func:`_full_weight_interval`) a value
+#: must lie, relative, to be taken as fully weighted without the arithmetic: far above the
+#: round-off of that arithmetic (~1e-16), far below any band (a factor 1.25 or 5 deg).
+_FULL_WEIGHT_MARGIN = 1e-9
 
 
 @dataclass(frozen=True)
@@ -272,6 +279,10 @@ class Range:
     band inside the range ("inside", the default: the correlation is never weighted outside
     its published range) or centred on the bound ("centred": the two bands of one piecewise
     correlation, each extrapolated by half the band).
+
+    ``full_weight`` (an attribute, not a field) is the open interval of values the range weighs
+    fully with a margin (:func:`_full_weight_interval`): the scalar path takes the shortfall
+    there as 0 without the arithmetic, which would give 0 exactly.
     """
 
     quantity: str
@@ -285,6 +296,9 @@ class Range:
     #: weight that jumps would make its value jump; the auto rule states that band's bounds in
     #: its own steps instead.  Notes and the spread read it as published.
     in_auto: bool = True
+    # made once by __post_init__ from the fields above (not arguments, not compared)
+    _ramps: tuple = field(init=False, repr=False, compare=False)
+    full_weight: tuple[float, float] = field(init=False, repr=False, compare=False)
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
@@ -399,20 +413,21 @@ class Range:
                 shortfall = 1.0 - position
         return shortfall
 
-    @property
-    def _ramps(self):
-        """The bounds that have a transition, computed once: (bound, side, log of the bound or
-        None for a linear quantity, scale, offset).
+    def __post_init__(self):
+        # the band's constants, computed once (attributes, not fields: frozen stays frozen)
+        ramps = self._ramp_constants_of()
+        object.__setattr__(self, "_ramps", ramps)
+        object.__setattr__(self, "full_weight", _full_weight_interval(ramps))
+
+    def _ramp_constants_of(self):
+        """The bounds that have a transition: (bound, side, log of the bound or None for a
+        linear quantity, scale, offset), kept as ``_ramps``.
 
         ``side`` is +1 for a lower bound, -1 for an upper one.  ``scale`` is the band's width on
         the quantity's scale (the log of the factor, or degrees), 0 for a step at the bound;
         ``offset`` places the band (:data:`_OFFSET`).  A bound at the end of the input's domain,
         and a lower bound <= 0 on a log scale, bind nowhere and have no ramp.
         """
-        try:
-            return self.__dict__["_ramp_constants"]
-        except KeyError:
-            pass
         domain_low, domain_high = _DOMAIN.get(self.quantity, (-math.inf, math.inf))
         ramps: list[tuple[float, float, float | None, float, float]] = []
         width = self.transition
@@ -426,10 +441,24 @@ class Range:
                 ramps.append((bound, side, math.log(bound), math.log(width) if width > 1.0 else 0.0, offset))
             else:
                 ramps.append((bound, side, None, max(width, 0.0), offset))
-        self.__dict__["_ramp_constants"] = tuple(ramps)   # a cache, not a field: frozen stays frozen
-        return self.__dict__["_ramp_constants"]
+        return tuple(ramps)
 
 
-_OFFSET = {"inside": 0.0, "centred": 0.5}
-#: The default band on each scale, by "is it a log scale": 5 deg, or the log of a factor 4.
-_DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}
+def _full_weight_interval(ramps) -> tuple[float, float]:
+    """The open interval of values a range weighs fully with a margin (shortfall exactly 0):
+    each ramp's position side * along / scale + offset reaches 1 where the value passes
+    bound x exp((1 - offset) scale) on a log scale, bound + (1 - offset) scale on a linear one;
+    the ends are moved inward by :data:`_FULL_WEIGHT_MARGIN` so that round-off in that
+    arithmetic cannot matter.  Values outside are read by the arithmetic itself."""
+    low, high = -math.inf, math.inf
+    for bound, side, log_bound, scale, offset in ramps:
+        reach = (1.0 - offset) * scale
+        if log_bound is not None:
+            end = bound * math.exp(side * reach) * (1.0 + side * _FULL_WEIGHT_MARGIN)
+        else:
+            end = bound + side * (reach + _FULL_WEIGHT_MARGIN * max(1.0, abs(bound)))
+        if side > 0:
+            low = max(low, end)
+        else:
+            high = min(high, end)
+    return low, high

@@ -425,6 +425,18 @@ def test_gas_properties_is_frozen_with_the_documented_fields():
     assert state.molar_mass == pytest.approx(0.0289647, rel=1e-4)   # CoolProp Air, kg/mol
 
 
+def test_a_state_filled_without_its_init_is_the_record_its_init_makes():
+    """The scalar path fills GasProperties through its __dict__ (the frozen __init__'s twelve
+    setattr calls cost more than the look-up): exactly the dataclass's fields, equal to the
+    record its own __init__ makes from them, and still frozen."""
+    state = gas_properties("argon:0.9, air:0.1", 12.5, 90000.0)
+    names = [f.name for f in dataclasses.fields(state)]
+    assert list(vars(state)) == names
+    assert state == type(state)(**{name: getattr(state, name) for name in names})
+    with pytest.raises(dataclasses.FrozenInstanceError):
+        state.t = 0.0
+
+
 def test_signatures_show_the_real_arguments():
     for info in GAS_PROPERTY_TABLE:
         gas_fn = getattr(gases, f"gas_{info.name}")

@@ -134,3 +134,127 @@ def test_a_nonzero_numpy_scalar_needs_no_error_state():
         with pytest.raises(FloatingPointError):   # the state outside is left as it was
             with ignoring_division_by(np.float64(2.0)):
                 np.divide(1.0, np.float64(0.0))
+
+
+# --- issue 21: the scalar path's shortcuts (full-weight interval, read order, plain parts) ------
+
+@pytest.mark.parametrize("bound", RANGES, ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
+def test_inside_the_full_weight_interval_the_arithmetic_gives_zero_exactly(bound):
+    """The scalar path takes the shortfall as 0 inside Range.full_weight without the arithmetic;
+    the arithmetic must give exactly 0 there (else auto's weights would differ in the last bit,
+    and a blend could be named that the array path does not name)."""
+    low, high = bound.full_weight
+    values = _probe_values(bound)
+    edges = [edge * (1 + k * 1e-12) for edge in (low, high) if math.isfinite(edge) for k in (-3, -1, 1, 3)]
+    for value in np.concatenate([values, edges]).tolist():
+        if low < value < high:
+            assert bound.shortfall_of(value) == 0.0, value
+    # the interval is no wider than the full weight: a value just past its ends still weighs
+    # fully or lies inside the band (the margin is 1e-9, far below any band)
+    for edge in (low, high):
+        if math.isfinite(edge):
+            assert bound.shortfall_of(edge) < 1e-6
+
+
+def test_the_full_weight_interval_is_the_bands_inner_ends():
+    # Range("Ra", 1e4, 1e9): a factor-4 band inside each bound (validity.DEFAULT_LOG_BAND),
+    # so full weight from 4e4 to 2.5e8
+    from stillair.validity import Range
+    low, high = Range("Ra", 1e4, 1e9).full_weight
+    assert low == pytest.approx(4e4, rel=1e-8) and high == pytest.approx(2.5e8, rel=1e-8)
+    # a tilt bound of 5 deg inside (DEFAULT_TILT_BAND); 0 is the end of the tilt domain
+    assert Range("tilt", 0.0, 75.0).full_weight == pytest.approx((-math.inf, 70.0), rel=1e-8)
+    # centred: half the band inside
+    low, _ = Range("aspect", low=2.0, placement="centred").full_weight
+    assert low == pytest.approx(2.0 * 1.25 ** 0.5, rel=1e-8)
+
+
+def _cavity_inputs(rng, n):
+    return [{"ra": 10 ** rng.uniform(-2, 12), "pr": 10 ** rng.uniform(-1, 3), "aspect": 10 ** rng.uniform(-0.5, 2.5),
+             "tilt": rng.uniform(0.0, 180.0)} for _ in range(n)]
+
+
+def test_a_steps_shortfall_does_not_depend_on_the_order_its_ranges_are_read():
+    """The scalar path reads first the range that cut a step last time (auto._READ_ORDER): the
+    largest shortfall is the same in any order, and under a cut each order tells alike whether
+    the step reaches it."""
+    from stillair.correlations import auto
+    rng = np.random.default_rng(21)
+    geo = GEOMETRIES["cavity"]
+    steps = auto._compiled_steps(geo, None)
+    for plain in _cavity_inputs(rng, 150):
+        inputs = {k: np.float64(v) for k, v in plain.items()}
+        for _, ranges, _ in steps:
+            saved = auto._READ_ORDER.pop(id(ranges), None)
+            try:
+                whole = auto._shortfall_of(ranges, inputs, plain, {})
+                cut = auto._shortfall_of(ranges, inputs, plain, {}, 1.0)
+                reading = auto._plain_reading(ranges)
+                for first in range(len(ranges)):
+                    order = (reading[first],) + reading[:first] + reading[first + 1:]
+                    auto._READ_ORDER[id(ranges)] = (ranges, order)
+                    assert auto._shortfall_of(ranges, inputs, plain, {}) == whole
+                    reordered = auto._shortfall_of(ranges, inputs, plain, {}, 1.0)
+                    assert (reordered >= 1.0) == (cut >= 1.0)
+                    if cut < 1.0:
+                        assert reordered == cut == whole
+            finally:
+                auto._READ_ORDER.pop(id(ranges), None)
+                if saved is not None:
+                    auto._READ_ORDER[id(ranges)] = saved
+
+
+@pytest.mark.parametrize("value", [-0.5, 0.0, 0.3, 1.0, 1.7, math.nan, math.inf, -math.inf])
+def test_clip_of_one_number_is_numpy_clip(value):
+    from stillair._select import clip
+    got, expected = clip(np.float64(value), 0.0, 1.0), np.clip(np.float64(value), 0.0, 1.0)
+    assert type(got) is np.float64
+    np.testing.assert_array_equal(got, expected)
+    np.testing.assert_array_equal(clip(np.array([value, 0.5]), 0.0, 1.0), np.clip(np.array([value, 0.5]), 0.0, 1.0))
+
+
+def test_plain_parts_are_the_nusselt_result():
+    """nusselt_plain (the h functions' scalar path) gives what nusselt gives, plain values
+    instead of 0-d arrays, for inputs plain or not (a 0-d array goes the array path)."""
+    from stillair.correlations import nusselt, nusselt_plain
+    rng = np.random.default_rng(5)
+    geo = GEOMETRIES["cavity"]
+    for plain in _cavity_inputs(rng, 60):
+        for method in ("auto", "elsherbiny", "hollands"):
+            whole = nusselt("cavity", method, function_name="h_cavity", **plain)
+            expected = (float(whole.nu), str(whole.method), str(whole.note), str(whole.blend))
+            assert nusselt_plain(geo, method, None, "h_cavity", dict(plain)) == expected
+            # the array path's pow may differ from the scalar one in the last bit (test_auto_continuity)
+            nu, *words = nusselt_plain(geo, method, None, "h_cavity", dict(plain, ra=np.array(plain["ra"])))
+            assert nu == pytest.approx(expected[0], rel=1e-14, abs=0) and type(nu) is float
+            assert tuple(words) == expected[1:]
+
+
+def test_h_cavity_on_its_scalar_path_is_the_full_result_with_its_warnings():
+    """h_cavity's scalar path skips the ConvectionResult; h, the range warning (with the unit-slip
+    note added) and the slip warning are those of cavity_convection, and both warnings point at
+    the caller's line."""
+    import warnings
+    from stillair import h_cavity
+    from stillair.convection import _h_only, cavity_convection
+    cases = [(15.0, 5.0, 0.016, 1.2, 90.0),       # in range: no warning
+             (15.0, 5.0, 0.6, 1.2, 90.0),         # gap 0.6 m: the mm note alone
+             (60.0, 5.0, 0.6, 0.3, 90.0),         # the mm note, and H/L 0.5 out of range (both warned)
+             (15.0, 5.0, 0.016, 0.012, 90.0),     # out of range alone
+             (5.0, 15.0, 0.016, 1.2, 45.0)]       # heated from above
+    counts = []
+    for t1, t2, gap, height, tilt in cases:
+        with warnings.catch_warnings(record=True) as fast:
+            warnings.simplefilter("always")
+            h = h_cavity(t1, t2, gap, height, tilt)
+        with warnings.catch_warnings(record=True) as full:
+            warnings.simplefilter("always")
+            expected = _h_only(cavity_convection(t1, t2, gap, height, tilt=tilt), "h_cavity")
+        assert h == expected and type(h) is float
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            assert type(h_cavity(np.float64(t1), t2, np.float64(gap), height, tilt)) is float
+        assert [(w.category, str(w.message)) for w in fast] == [(w.category, str(w.message)) for w in full]
+        assert all(w.filename == __file__ for w in fast)
+        counts.append(len(fast))
+    assert counts == [0, 1, 2, 1, 0]

@@ -9,7 +9,7 @@ from numpy.typing import ArrayLike
 from ..convection import (ONE_CALLS, ConvectionResult, _full, _h_only, _plain_case, _scalar_groups, _scalar_result,
                           _with_slip, shape_ratios)
 from ..correlations import (AutoStep, Geometry, Parameter, correlation, define_geometry,
-                            nusselt, nusselt_at_difference, nusselt_value)
+                            nusselt_at_difference, nusselt_plain, nusselt_value)
 from ..groups import DEFAULT_PRESSURE, buoyancy_groups, film_properties
 from .._docs import shared_docs
 from ..plausibility import length_slip, temperature_slip, warn_slips
@@ -216,14 +216,14 @@ def channel_convection(ts: ArrayLike, tf: ArrayLike, spacing: ArrayLike, height:
 
 def _channel_convection(ts, tf, spacing, height, case, gas, pressure, method, property_temperature,
                         ideal_expansion, function_name) -> ConvectionResult:
-    if case not in CHANNEL.flux_cases and _plain_case(gas, pressure, (ts, tf), (spacing, height),
-                                                      property_temperature):
+    mixture = None if case in CHANNEL.flux_cases else \
+        _plain_case(gas, pressure, (ts, tf), (spacing, height), property_temperature)
+    if mixture is not None:
         # one isothermal case in plain numbers: the scalar path (the registry's, as the cavity's)
-        props, t_film, _, _, gr, ra = _scalar_groups(ts, tf, spacing, gas, pressure, ideal_expansion,
-                                                     function_name)
-        result = nusselt("channel", method, case, function_name=function_name, ra=ra, pr=props.prandtl,
-                         **shape_ratios(CHANNEL, spacing, height=height))
-        return _scalar_result(props, t_film, gr, ra, spacing, result, case)
+        props, t_film, _, _, gr, ra = _scalar_groups(ts, tf, spacing, mixture, pressure, ideal_expansion)
+        parts = nusselt_plain(CHANNEL, method, case, function_name,
+                              {"ra": ra, "pr": props.prandtl, **shape_ratios(CHANNEL, spacing, height=height)})
+        return _scalar_result(props, t_film, gr, ra, spacing, parts, case)
     spacing = require_length(function_name, "spacing", spacing)
     height = require_length(function_name, "height", height)
     props, t_film, beta = film_properties(ts, tf, gas, pressure, names=("ts", "tf"),

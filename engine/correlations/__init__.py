@@ -45,7 +45,7 @@ from __future__ import annotations
 # modules use (nusselt_checked, nusselt_parameters, uniform, the plate case groups ...).
 from .docs import INPUT_DOCS, document, methods_section, nusselt_parameters
 from .evaluate import (merge_masked, nusselt, nusselt_at_difference, nusselt_at_difference_checked,
-                       nusselt_checked, nusselt_value)
+                       nusselt_checked, nusselt_plain, nusselt_value)
 from .registry import CORRELATIONS, GEOMETRIES, correlation, define_geometry, get_correlation, methods_for
 from .spread import NusseltSpread, nu_spread
 from .types import (AUTO_PRINCIPLE, PLATE_CASES, STABLE_CASES, UNSTABLE_CASES, AutoStep, Correlation, Geometry,

@@ -53,7 +53,7 @@ import numpy as np
 
 from ..validity import Range
 from .registry import CORRELATIONS
-from .single import _evaluate_one, _first, _range_notes, _scalar_note, _scalar_result
+from .single import _evaluate_one, _first, _range_notes, _scalar_note
 from .types import Geometry, NusseltResult, uniform
 
 #: Where no correlation covers fully, how close another step's shortfall must come to the least
@@ -113,17 +113,42 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     """:func:`_shortfall` on the scalar path (``Range.shortfall_of`` of each range's value as a
     float), stopping at the first range whose shortfall reaches ``cut``
     (:func:`_weightless_from`): the step weighs nothing whatever the rest, and that lower bound
-    serves the rule as well."""
+    serves the rule as well.  The range that reached the cut last time is read first (the
+    largest of all is the same in any order, and any range that reaches the cut gives such a
+    lower bound), so a step that weighs nothing is mostly told by one range."""
+    entry = _READ_ORDER.get(id(ranges))
+    order = _plain_reading(ranges) if entry is None else entry[1]
     largest = 0.0
-    for bound, key in ranges:
-        short = read.get(id(bound))
-        if short is None:
-            short = read[id(bound)] = bound.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
+    for bound, key, low, high in order:
+        if type(key) is str:    # an input's value: read at once (cheaper than keeping it)
+            value = plain[key]
+            short = 0.0 if low < value < high else bound.shortfall_of(value)
+        else:                   # a computed quantity: once per call, whichever step reads it
+            short = read.get(id(bound))
+            if short is None:
+                value = float(key(inputs))
+                short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
         if short > largest:
             largest = short
             if largest >= cut:
+                if order[0][0] is not bound:    # read it first next time
+                    _READ_ORDER[id(ranges)] = (ranges, tuple(sorted(order, key=lambda entry: entry[0] is not bound)))
                 break
     return largest
+
+
+def _plain_reading(ranges: tuple[tuple[Range, Any], ...]) -> tuple[tuple[Range, Any, float, float], ...]:
+    """A step's ranges as the scalar path reads them: (range, input name or ``of``, and the
+    ends of the range's ``full_weight``), kept in :data:`_READ_ORDER`."""
+    order = tuple((bound, key, *bound.full_weight) for bound, key in ranges)
+    _READ_ORDER[id(ranges)] = (ranges, order)
+    return order
+
+
+#: The scalar path's reading of each step's ranges: id(ranges) -> (ranges, their reading in the
+#: order to read them, the range that reached the cut last time first).  The ranges are held,
+#: so their id stays theirs.
+_READ_ORDER: dict[int, tuple] = {}
 
 
 def _weightless_from(nearest: float) -> float:
@@ -300,6 +325,10 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
     previous = 0.0
     for index in range(covering + 1):
         short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
+        if short >= 1.0:        # the usual step before the one that covers: it takes nothing
+            weights.append(0.0)
+            previous = 0.0
+            continue
         cover = share = min(max(1.0 - short, 0.0), 1.0)
         if index and steps[index][0] == steps[index - 1][0]:
             share = _form_share(cover, previous, _reach_past_edge(steps[index][1], inputs, plain, read), min, max)
@@ -320,31 +349,44 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     of one length (``plain`` None).  Returns the weighted Nu (a float or an array) and
     ``{method: total weight}`` for the methods that carry weight, in the order they first do.
     """
-    scalar = plain is not None
-    floor = -math.inf if geo.floor is None else geo.floor
-    size = () if scalar else next(iter(inputs.values())).shape
-    nu: Any = 0.0 if scalar else np.zeros(size)
+    if plain is not None:
+        return _weigh_plain(geo, case, inputs, plain)
+    size = next(iter(inputs.values())).shape
+    nu: Any = np.zeros(size)
     weights: dict[str, Any] = {}        # method -> total weight (its forms together)
     for (method, _, function), weight in zip(_compiled_steps(geo, case),
                                              _step_weights(geo, case, inputs, plain)):
         used = weight > 0.0
-        if not (used if scalar else np.any(used)):
+        if not np.any(used):
             continue
-        weight = weight if scalar else np.broadcast_to(weight, size)
-        everywhere = scalar or used.all()
+        weight = np.broadcast_to(weight, size)
+        everywhere = used.all()
         part = inputs if everywhere else {k: v[used] for k, v in inputs.items()}
-        raw = function(**(dict(part, case=case) if geo.cases else part))
-        if scalar:
-            nu += weight * max(_first(raw), floor)
+        value = np.asarray(function(**(dict(part, case=case) if geo.cases else part)), dtype=float)
+        if geo.floor is not None:
+            value = np.maximum(value, geo.floor)
+        if everywhere:
+            nu += weight * value
         else:
-            value = np.asarray(raw, dtype=float)
-            if geo.floor is not None:
-                value = np.maximum(value, geo.floor)
-            if everywhere:
-                nu += weight * value
-            else:
-                nu[used] += weight[used] * value
+            nu[used] += weight[used] * value
         weights[method] = weights.get(method, 0.0) + weight
+    return nu, weights
+
+
+def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
+                 plain: Mapping[str, float]) -> tuple[float, dict[str, float]]:
+    """:func:`weigh_steps` for one case: the same sum, each weighted method's value (a numpy
+    scalar) floored as a float."""
+    floor = -math.inf if geo.floor is None else geo.floor
+    steps = _compiled_steps(geo, case)
+    nu = 0.0
+    weights: dict[str, float] = {}
+    for index, weight in enumerate(_step_weights(geo, case, inputs, plain)):
+        if weight > 0.0:
+            method, _, function = steps[index]
+            raw = function(case=case, **inputs) if geo.cases else function(**inputs)
+            nu += weight * max(_first(raw), floor)
+            weights[method] = weights.get(method, 0.0) + weight
     return nu, weights
 
 
@@ -356,11 +398,15 @@ def _rule_order(geo: Geometry, case: str | None, weights: Mapping[str, Any]) -> 
 
 
 def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
-                plain: Mapping[str, float]) -> NusseltResult:
-    """The auto rule for one case in numpy scalars (``plain``: the same as floats); notes
-    formatted only for a bound crossed."""
+                plain: Mapping[str, float]) -> tuple[float, str, str, str]:
+    """The auto rule for one case in numpy scalars (``plain``: the same as floats): (Nu, the
+    method of the largest weight, the note, the blend) as plain values; notes formatted only
+    for a bound crossed."""
     floor = -math.inf if geo.floor is None else geo.floor
-    nu, weights = weigh_steps(geo, case, inputs, plain)
+    nu, weights = _weigh_plain(geo, case, inputs, plain)
+    if len(weights) == 1:    # the usual case: one method, its own note, no blend
+        (name,) = weights
+        return max(nu, floor), name, _scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case), ""
     names = _rule_order(geo, case, weights)
     notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case)
                                for name in names) if note]
@@ -368,7 +414,7 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     note = "; ".join(notes)
     if note and blend:
         note = f"{blend}: {note}"
-    return _scalar_result(max(nu, floor), max(names, key=weights.__getitem__), note, blend)
+    return max(nu, floor), max(names, key=weights.__getitem__), note, blend
 
 
 def auto_arrays(geo: Geometry, case: str | None, arrays: Mapping[str, np.ndarray], notes: bool = True,

@@ -177,33 +177,68 @@ def nusselt_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.nd
     return result
 
 
+def _plain_domains(geo: Geometry) -> tuple[tuple[str, float, float, bool], ...]:
+    """(name, low, high, low end open) of each input, from :func:`_input_domain`, made once per
+    geometry (a cache, not a field of the frozen Geometry): the scalar path reads it per call."""
+    domains = geo.__dict__.get("_plain_domains")
+    if domains is None:
+        domains = geo.__dict__["_plain_domains"] = tuple((name, *_input_domain(name, geo)) for name in geo.inputs)
+    return domains
+
+
 def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
     """The inputs as floats when each is a plain number the geometry accepts; else None (the
     array path then checks them and words the message)."""
     values = {}
-    for name in geo.inputs:
+    for name, low, high, low_open in _plain_domains(geo):
         value = inputs.get(name)
-        if type(value) not in PLAIN_NUMBERS:
-            return None
-        value = float(value)
-        low, high, low_open = _input_domain(name, geo)
+        if type(value) is not float:
+            if type(value) not in PLAIN_NUMBERS:
+                return None
+            value = float(value)
         if not ((low < value if low_open else low <= value) and value <= high and value < math.inf):
             return None
         values[name] = value
     return values
 
 
-def _scalar(geo: Geometry, method: str, case: str | None, values: dict[str, float]) -> NusseltResult:
+_NUMPY_FLOAT = np.float64     # bound once: the module attribute look-up is a third of the scalar path's conversion
+
+#: Nu of one case as plain values: (Nu, the method used, its note or "", the blend or "").
+PlainNusselt = tuple[float, str, str, str]
+
+
+def _scalar_parts(geo: Geometry, method: str, case: str | None, values: dict[str, float]) -> PlainNusselt:
     """Nu for one case in plain numbers: a named method, or the auto rule (:func:`auto_scalar`)."""
     # numpy scalars, not Python floats: comparisons then give numpy booleans, which the
     # correlations combine with ~ and & as they do arrays
-    arrays = {k: np.float64(v) for k, v in values.items()}
+    arrays = {k: _NUMPY_FLOAT(v) for k, v in values.items()}
     if method == "auto":
         return auto_scalar(geo, case, arrays, values)
     corr = CORRELATIONS[(geo.name, method)]
     floor = -math.inf if geo.floor is None else geo.floor
     nu = max(_first(corr.function(**(dict(arrays, case=case) if geo.cases else arrays))), floor)
-    return _scalar_result(nu, method, _scalar_note(corr, arrays, values, case), "")
+    return nu, method, _scalar_note(corr, arrays, values, case), ""
+
+
+def _scalar(geo: Geometry, method: str, case: str | None, values: dict[str, float]) -> NusseltResult:
+    """:func:`_scalar_parts` as a :class:`NusseltResult` of 0-d arrays."""
+    return _scalar_result(*_scalar_parts(geo, method, case, values))
+
+
+def nusselt_plain(geo: Geometry, method: str | None, case: str | None, function_name: str,
+                  inputs: dict) -> PlainNusselt:
+    """:func:`nusselt` of one case for a caller that has its inputs as plain numbers (the h
+    functions' scalar paths): the method is resolved and the inputs checked as there, and Nu
+    comes as plain values, without the 0-d arrays of a :class:`NusseltResult`.  ``case`` is
+    one of the geometry's cases already (or None).  Inputs that are not plain numbers inside
+    their domains go the array path, whose checks word the message."""
+    method = _resolve_method(function_name, geo, method, case)
+    values = _plain_inputs(geo, _with_default_tilt(geo, inputs))
+    if values is not None:
+        return _scalar_parts(geo, method, case, values)
+    result = nusselt(geo.name, method, case, function_name=function_name, **inputs)
+    return float(result.nu), str(result.method), str(result.note), str(result.blend)
 
 
 def merge_masked(result_type, parts, shape):

@@ -8,8 +8,13 @@ import numpy as np
 from .registry import CORRELATIONS
 from .types import Correlation, Geometry, NusseltResult, _violation_notes, uniform
 
+_ONE_NUMBER = (np.float64, float)
+
+
 def _first(values) -> float:
-    if getattr(values, "ndim", 0) == 0:
+    """The value of a scalar path's result as a float (a numpy or Python float, the usual case,
+    or an array holding one element)."""
+    if type(values) in _ONE_NUMBER or getattr(values, "ndim", 0) == 0:
         return float(values)
     return float(np.ravel(values)[0])
 

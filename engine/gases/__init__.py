@@ -98,7 +98,7 @@ from .properties import (GAS_PROPERTY_TABLE, GasPropertyInfo, air_conductivity, 
 from .shipped import (TABLE_FILE, TABLE_FILE_VARIABLE, _definition, gas_table_provenance,
                       table_file_arrays, write_table_file)
 from .state import (GasProperties, _checked_pressure, _reset_tables, _scalar_state, gas_properties,
-                    plain_state_accepted, require_gas_temperature)
+                    plain_mixture, plain_state, plain_state_accepted, require_gas_temperature)
 from .tables import _PRESSURE_NODE_VALUES, _PRIMARY, _coolprop
 
 __all__ = [

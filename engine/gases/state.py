@@ -47,7 +47,7 @@ def _mixture_table(mixture: _Mixture) -> _PropertyTable:
     return _PropertyTable(t_kelvin, _mix(mixture, parts, p_mesh))
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True)
 class GasProperties:
     """Every property of a gas at one state (or arrays of states), SI units.
 
@@ -74,13 +74,23 @@ class GasProperties:
 
 def _assemble(mixture: _Mixture, t, pressure, density_per_pressure, viscosity, conductivity,
               cp, expansion) -> GasProperties:
-    """Form the derived properties; works alike on floats and on arrays."""
+    """Form the derived properties; works alike on floats and on arrays.
+
+    The record is filled through its ``__dict__``, not the generated ``__init__``: a frozen
+    dataclass's ``__init__`` sets each of the twelve fields through ``object.__setattr__``,
+    which cost more than the look-up itself on the scalar path (every h function's call).
+    The fields are exactly the dataclass's (test_gases checks it); the record stays frozen."""
     density = density_per_pressure * pressure
-    return GasProperties(
+    properties = _new_record(GasProperties)
+    properties.__dict__.update(
         gas=mixture.label, t=t, pressure=pressure, density=density, viscosity=viscosity,
         kinvisc=viscosity / density, conductivity=conductivity, cp=cp,
         diffusivity=conductivity / (density * cp), prandtl=viscosity * cp / conductivity,
         expansion=expansion, molar_mass=mixture.molar_mass)
+    return properties
+
+
+_new_record = object.__new__
 
 
 def _checked_temperature(function: str, argument: str, mixture: _Mixture, t) -> np.ndarray:
@@ -138,20 +148,36 @@ def plain_state_accepted(gas: str, temperatures: tuple, pressure: float) -> bool
     """True when ``gas`` is valid and every temperature (°C) and the pressure (Pa) are plain
     numbers inside its ranges: a caller's scalar path may then skip the array checks.  Never
     raises (the full checks word the message)."""
+    return plain_mixture(gas, temperatures, pressure) is not None
+
+
+def plain_mixture(gas: str, temperatures: tuple, pressure: float) -> _Mixture | None:
+    """The parsed gas where :func:`plain_state_accepted` holds, else None: a state of it at a
+    temperature between those checked is then :func:`plain_state` with no check repeated."""
     try:
         mixture = _mixture("", gas)
     except InputError:
-        return False
-    return _plain_inside(mixture, temperatures, pressure)
+        return None
+    return mixture if _plain_inside(mixture, temperatures, pressure) else None
+
+
+def plain_state(mixture: _Mixture, t: float, pressure: float) -> GasProperties:
+    """The state at ``t`` (°C) and ``pressure`` (Pa) of a gas :func:`plain_mixture` accepted, at
+    a temperature and pressure inside the ranges it checked (the film temperature between two
+    that it checked): :func:`gas_properties` without its checks."""
+    return _scalar_state(mixture, float(t), float(pressure))
 
 
 def _plain_inside(mixture: _Mixture, temperatures, pressure) -> bool:
     """Every temperature and the pressure plain numbers inside the ranges (NaN fails the
     comparisons)."""
+    if not (type(pressure) in PLAIN_NUMBERS and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high):
+        return False
     low, high = mixture.t_range.low, mixture.t_range.high
-    return (type(pressure) in PLAIN_NUMBERS
-            and GAS_PRESSURE_RANGE.low <= pressure <= GAS_PRESSURE_RANGE.high
-            and all(type(t) in PLAIN_NUMBERS and low <= t <= high for t in temperatures))
+    for t in temperatures:      # a loop, not all(...): this runs on every scalar call
+        if not (type(t) in PLAIN_NUMBERS and low <= t <= high):
+            return False
+    return True
 
 
 def _checked_state(function: str, mixture: _Mixture, t, pressure):

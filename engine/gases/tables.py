@@ -132,12 +132,12 @@ class _PropertyTable:
         return piece
 
     def _coefficient_lists(self, pressure: float) -> list:
-        """:meth:`at_pressure`'s coefficients as nested lists, ``[interval][power][primary]``
+        """:meth:`at_pressure`'s coefficients as nested lists, ``[interval][primary][power]``
         (highest power first), made once per pressure: indexing a list costs far less than
         slicing the array for one point."""
         lists = self._point_coefficients.get(pressure)
         if lists is None:
-            lists = self.at_pressure(pressure).c.transpose(1, 0, 2).tolist()
+            lists = self.at_pressure(pressure).c.transpose(1, 2, 0).tolist()
             if len(self._point_coefficients) >= 64:
                 self._point_coefficients.clear()
             self._point_coefficients[pressure] = lists
@@ -152,11 +152,10 @@ class _PropertyTable:
         # PPoly's interval: the last breakpoint <= t, the right end belonging to the last piece
         interval = min(max(bisect.bisect_right(breaks, t_kelvin) - 1, 0), len(breaks) - 2)
         s = t_kelvin - breaks[interval]
-        cubic, square, linear, constant = self._coefficient_lists(pressure)[interval]
         s2 = s * s
         s3 = s2 * s
         return [((c0 + c1 * s) + c2 * s2) + c3 * s3
-                for c3, c2, c1, c0 in zip(cubic, square, linear, constant)]
+                for c3, c2, c1, c0 in self._coefficient_lists(pressure)[interval]]
 
 
 def _temperature_grid(t_range: Range) -> np.ndarray:
