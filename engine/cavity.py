@@ -123,8 +123,13 @@ def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
 
 
 def _critical_tilt(aspect):
-    if type(aspect) is np.float64 or type(aspect) is float:   # the scalar path asks for the same t* several times per case
-        return _critical_tilt_of(aspect)
+    if aspect is _LAST_CRITICAL[0]:    # the scalar path asks for t* of one aspect object ~5 times per case
+        return _LAST_CRITICAL[1]
+    if type(aspect) is np.float64 or type(aspect) is float:
+        tilt = _critical_tilt_of(aspect)
+        # the object is held, so its identity cannot pass to another number while kept here
+        _LAST_CRITICAL[:] = (aspect, tilt)
+        return tilt
     if not isinstance(aspect, np.ndarray):
         return _critical_tilt_of(float(aspect))
     table_aspect, table_tilt = _CRITICAL_TILT_POINTS
@@ -132,6 +137,10 @@ def _critical_tilt(aspect):
 
 
 _CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),))))
+
+
+#: The last scalar aspect asked for and its t* (one slot, compared by identity).
+_LAST_CRITICAL: list = [None, None]
 
 
 @lru_cache(maxsize=1024)

@@ -178,12 +178,12 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     """Each step's weight by the rule (module text); they add up to 1.  The scalar path runs
     the same arithmetic on floats (``max``/``min``) as the array path on arrays."""
     if plain is not None:
-        return _plain_step_weights(geo, case, inputs, plain)[0]
+        return _plain_step_weights(geo, case, _compiled_steps(geo, case), inputs, plain)[0]
     return _weights_by_rule(geo, case, inputs, None, {}, None, math.inf)
 
 
-def _plain_step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
-                        plain: Mapping[str, float]) -> tuple[list[float], int | None]:
+def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...],
+                        inputs: Mapping[str, Any], plain: Mapping[str, float]) -> tuple[list[float], int | None]:
     """:func:`_step_weights` on the scalar path, and the step that covers fully (shortfall 0)
     and takes what is left, where the weights come from :func:`_weights_where_one_covers`
     (else None): every range that step reads holds, and the note need not read them again
@@ -192,7 +192,6 @@ def _plain_step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, An
     The step that was nearest at the last call of this rule is read first (a hint only: its
     shortfall bounds the least from above, so the steps before it in order are cut sooner; the
     weights are the same whichever step is read first)."""
-    steps = _compiled_steps(geo, case)
     hints = geo.__dict__.setdefault("_nearest_step", {})
     hint = hints.get(case)
     read: dict[int, Any] = {}
@@ -421,7 +420,7 @@ def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     steps = _compiled_steps(geo, case)
     nu = 0.0
     weights: dict[str, float] = {}
-    step_weights, covering = _plain_step_weights(geo, case, inputs, plain)
+    step_weights, covering = _plain_step_weights(geo, case, steps, inputs, plain)
     for index, weight in enumerate(step_weights):
         if weight > 0.0:
             method, _, function = steps[index]
@@ -446,22 +445,25 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     did not settle (:func:`_unsettled_ranges`)."""
     floor = -math.inf if geo.floor is None else geo.floor
     nu, weights, settled = _weigh_plain(geo, case, inputs, plain)
-
-    def note_of(name: str) -> str:
-        corr = CORRELATIONS[(geo.name, name)]
-        ranges = _unsettled_ranges(corr, case) if name == settled else corr.ranges(case)
-        return _scalar_note(corr, inputs, plain, case, ranges) if ranges else ""
-
     if len(weights) == 1:    # the usual case: one method, its own note, no blend
         (name,) = weights
-        return max(nu, floor), name, note_of(name), ""
+        return max(nu, floor), name, _plain_note(geo, case, name, settled, inputs, plain), ""
     names = _rule_order(geo, case, weights)
-    notes = [note for note in map(note_of, names) if note]
+    notes = [note for note in (_plain_note(geo, case, name, settled, inputs, plain) for name in names) if note]
     blend = "auto blend of " + " and ".join(names) if len(names) > 1 else ""
     note = "; ".join(notes)
     if note and blend:
         note = f"{blend}: {note}"
     return max(nu, floor), max(names, key=weights.__getitem__), note, blend
+
+
+def _plain_note(geo: Geometry, case: str | None, name: str, settled: str | None,
+                inputs: Mapping[str, Any], plain: Mapping[str, float]) -> str:
+    """The note of method ``name`` for one case: its published ranges, or only those the step
+    that covered fully left unread where ``name`` is its method (``settled``)."""
+    corr = CORRELATIONS[(geo.name, name)]
+    ranges = _unsettled_ranges(corr, case) if name == settled else corr.ranges(case)
+    return _scalar_note(corr, inputs, plain, case, ranges) if ranges else ""
 
 
 def _unsettled_ranges(corr: Correlation, case: str | None) -> tuple[Range, ...]:
