@@ -421,9 +421,8 @@ def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     nu = 0.0
     weights: dict[str, float] = {}
     step_weights, covering = _plain_step_weights(geo, case, steps, inputs, plain)
-    for index, weight in enumerate(step_weights):
+    for (method, _, function), weight in zip(steps, step_weights):
         if weight > 0.0:
-            method, _, function = steps[index]
             raw = function(case=case, **inputs) if geo.cases else function(**inputs)
             nu += weight * max(_first(raw), floor)
             weights[method] = weights.get(method, 0.0) + weight
