@@ -178,14 +178,16 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     """Each step's weight by the rule (module text); they add up to 1.  The scalar path runs
     the same arithmetic on floats (``max``/``min``) as the array path on arrays."""
     if plain is not None:
-        return _plain_step_weights(geo, case, _compiled_steps(geo, case), inputs, plain)[0]
+        steps = _compiled_steps(geo, case)
+        weights = _plain_step_weights(geo, case, steps, inputs, plain)[0]
+        return weights + [0.0] * (len(steps) - len(weights))
     return _weights_by_rule(geo, case, inputs, None, {}, None, math.inf)
 
 
 def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...],
                         inputs: Mapping[str, Any], plain: Mapping[str, float]) -> tuple[list[float], int | None]:
-    """:func:`_step_weights` on the scalar path, and the step that covers fully (shortfall 0)
-    and takes what is left, where the weights come from :func:`_weights_where_one_covers`
+    """:func:`_step_weights` on the scalar path (the steps past the end of the list weigh
+    nothing), and the step that covers fully (shortfall 0) and takes what is left, where the weights come from :func:`_weights_where_one_covers`
     (else None): every range that step reads holds, and the note need not read them again
     (:func:`auto_scalar`).
 
@@ -354,19 +356,22 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
     usual case): the rule's arithmetic with d_min = 0 and a width of one band, written out (a
     step before it takes 1 - d of what is left, the first that covers fully takes the rest, the
     later ones nothing); a step is read only until its shortfall reaches 1, and a range read
-    past its weightless end tells that at once (``weighs_only``).  Returns the weights and the
-    step that took the rest with shortfall 0 (None where a later form of one correlation took
-    it by its shared coverage)."""
+    past its weightless end tells that at once (``weighs_only``).  Returns the weights of the
+    steps up to the one that took the rest (the later ones weigh nothing) and that step where it
+    took it with shortfall 0 (None where a later form of one correlation took it by its shared
+    coverage)."""
     left = 1.0
     weights: list[Any] = []
     previous = 0.0
     for index in range(covering + 1):
-        short = 0.0 if index == covering else \
-            _shortfall_of(steps[index][1], inputs, plain, read, 1.0, weighs_only=True)
-        if short >= 1.0:        # the usual step before the one that covers: it takes nothing
-            weights.append(0.0)
-            previous = 0.0
-            continue
+        if index < covering:
+            short = _shortfall_of(steps[index][1], inputs, plain, read, 1.0, True)
+            if short >= 1.0:    # the usual step before the one that covers: it takes nothing
+                weights.append(0.0)
+                previous = 0.0
+                continue
+        else:
+            short = 0.0
         cover = share = min(max(1.0 - short, 0.0), 1.0)
         if index and steps[index][0] == steps[index - 1][0]:
             share = _form_share(cover, previous, _reach_past_edge(steps[index][1], inputs, plain, read), min, max)
@@ -375,8 +380,8 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
         left = left * (1.0 - share)
         if left == 0.0:
             hints[case] = index
-            return weights + [0.0] * (len(steps) - len(weights)), index if short == 0.0 else None
-    return weights + [0.0] * (len(steps) - len(weights)), None
+            return weights, index if short == 0.0 else None
+    return weights, None
 
 
 def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
