@@ -71,6 +71,9 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
     """The auto rule of ``case`` as :data:`CompiledStep` tuples, built once per geometry and case
     (a cache, not a field of the frozen Geometry).  A step's ranges: its ``when`` and the
     correlation's published ranges that auto reads, each once."""
+    compiled_rules = geo.__dict__.get("_compiled_steps")   # read on every scalar call: no dict made
+    if compiled_rules is not None and case in compiled_rules:
+        return compiled_rules[case]
     cache = geo.__dict__.setdefault("_compiled_steps", {})
     if case not in cache:
         compiled = []
@@ -194,7 +197,9 @@ def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledSt
     The step that was nearest at the last call of this rule is read first (a hint only: its
     shortfall bounds the least from above, so the steps before it in order are cut sooner; the
     weights are the same whichever step is read first)."""
-    hints = geo.__dict__.setdefault("_nearest_step", {})
+    hints = geo.__dict__.get("_nearest_step")
+    if hints is None:
+        hints = geo.__dict__["_nearest_step"] = {}
     hint = hints.get(case)
     read: dict[int, Any] = {}
     known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)
@@ -479,6 +484,9 @@ def _unsettled_ranges(corr: Correlation, case: str | None) -> tuple[Range, ...]:
     0 does not tell that the value is inside.  Every other published range, read by that step
     with shortfall 0, holds (:attr:`Range.bands_every_bound`), so the note reads only these
     (none: the note is "" at once).  Made once per correlation and case."""
+    made = corr.__dict__.get("_unsettled_ranges")   # read on every scalar call: no dict made
+    if made is not None and case in made:
+        return made[case]
     cache = corr.__dict__.setdefault("_unsettled_ranges", {})
     if case not in cache:
         cache[case] = tuple(bound for bound in corr.ranges(case)
