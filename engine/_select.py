@@ -9,6 +9,7 @@ values without that.
 from __future__ import annotations
 
 import contextlib
+import math
 
 import numpy as np
 
@@ -37,6 +38,19 @@ def maximum(a, b):
     if type(a) is np.float64 and type(b) is np.float64:
         return a if a >= b or a != a else b
     return np.maximum(a, b)
+
+
+#: numpy's degrees-to-radians factor: np.radians is defined as degrees x (pi / 180) (npy_deg2rad
+#: in numpy's C math library), this product in double precision.
+_RADIANS_PER_DEGREE = math.pi / 180.0
+
+
+def radians(degrees):
+    """``np.radians(degrees)``; for one float (numpy's or Python's), the same product without
+    the ufunc call (0.2 us on one number), a numpy float for a numpy float."""
+    if type(degrees) is np.float64 or type(degrees) is float:
+        return degrees * _RADIANS_PER_DEGREE
+    return np.radians(degrees)
 
 
 def clip(a, low: float, high: float):

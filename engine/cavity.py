@@ -52,7 +52,7 @@ from .correlations import (
 )
 from numpy.typing import NDArray
 
-from ._select import any_true, clip, ignoring_division_by, maximum, where
+from ._select import any_true, clip, ignoring_division_by, maximum, radians, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range, require_positive, unwrap
 
@@ -123,8 +123,13 @@ def cavity_critical_tilt(aspect: ArrayLike) -> FloatOrArray:
 
 
 def _critical_tilt(aspect):
-    if type(aspect) is np.float64 or type(aspect) is float:   # the scalar path asks for the same t* several times per case
-        return _critical_tilt_of(aspect)
+    if aspect is _LAST_CRITICAL[0]:    # the scalar path asks for t* of one aspect object ~5 times per case
+        return _LAST_CRITICAL[1]
+    if type(aspect) is np.float64 or type(aspect) is float:
+        tilt = _critical_tilt_of(aspect)
+        # the object is held, so its identity cannot pass to another number while kept here
+        _LAST_CRITICAL[:] = (aspect, tilt)
+        return tilt
     if not isinstance(aspect, np.ndarray):
         return _critical_tilt_of(float(aspect))
     table_aspect, table_tilt = _CRITICAL_TILT_POINTS
@@ -132,6 +137,10 @@ def _critical_tilt(aspect):
 
 
 _CRITICAL_TILT_POINTS = tuple(zip(*(CRITICAL_TILT_TABLE + ((CRITICAL_TILT_TALL_FROM, CRITICAL_TILT_TALL),))))
+
+
+#: The last scalar aspect asked for and its t* (one slot, compared by identity).
+_LAST_CRITICAL: list = [None, None]
 
 
 @lru_cache(maxsize=1024)
@@ -154,8 +163,7 @@ def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None
     The three meet without a step: Nu(0) at 0, Nu(90) (sin t*)^(1/4) at t*, Nu(90) at 90,
     conduction at 180.
     """
-    radians = np.radians(tilt)
-    sine = np.sin(radians)
+    sine = np.sin(radians(tilt))
     tilted = where(tilt <= 90.0, nu_vertical * sine ** 0.25, 1.0 + (nu_vertical - 1.0) * sine)
     if nu_horizontal is None:
         return tilted
@@ -163,7 +171,7 @@ def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None
     if not any_true(below):
         return tilted
     with np.errstate(divide="ignore", invalid="ignore"):
-        at_critical = nu_vertical * np.sin(np.radians(critical_tilt)) ** 0.25
+        at_critical = nu_vertical * np.sin(radians(critical_tilt)) ** 0.25
         interpolated = nu_horizontal * (at_critical / nu_horizontal) ** (tilt / critical_tilt)
     return where(below, interpolated, tilted)
 
@@ -171,11 +179,11 @@ def tilt_from_vertical(nu_vertical, tilt, nu_horizontal=None, critical_tilt=None
 # --- validity quantities (Range(of=...)) ------------------------------------------------------
 
 def _ra_cos(inputs):
-    return inputs["ra"] * np.cos(np.radians(inputs["tilt"]))
+    return inputs["ra"] * np.cos(radians(inputs["tilt"]))
 
 
 def _ra_sin(inputs):
-    return inputs["ra"] * np.sin(np.radians(inputs["tilt"]))
+    return inputs["ra"] * np.sin(radians(inputs["tilt"]))
 
 
 def _only_in_band(band, quantity, stand_in):
@@ -515,12 +523,12 @@ def wright_vertical(ra, pr, aspect):
           "range above 90 deg it gives conduction (Ra cos t <= 0).")
 def hollands(ra, pr, aspect, tilt):
     """Hollands et al. (1976) tilted-layer form; at tilt 0 exactly the 1975 horizontal form."""
-    radians = np.radians(tilt)
-    ra_normal = ra * np.cos(radians)
+    angle = radians(tilt)
+    ra_normal = ra * np.cos(angle)
     with np.errstate(divide="ignore", invalid="ignore"):
         onset = where(ra_normal > RAYLEIGH_ONSET, 1.0 - RAYLEIGH_ONSET / ra_normal, 0.0)
         # sin(1.8 t) < 0 only above 100 deg, out of range, where onset is 0 anyway.
-        tilt_factor = 1.0 - RAYLEIGH_ONSET * np.clip(np.sin(1.8 * radians), 0.0, None) ** 1.6 / ra_normal
+        tilt_factor = 1.0 - RAYLEIGH_ONSET * np.clip(np.sin(1.8 * angle), 0.0, None) ** 1.6 / ra_normal
         cells = where(ra_normal > 0.0, np.cbrt(np.maximum(ra_normal, 0.0) / 5830.0) - 1.0, 0.0)
         return 1.0 + 1.44 * where(onset > 0.0, onset * tilt_factor, 0.0) + np.maximum(cells, 0.0)
 

@@ -31,7 +31,7 @@ from .correlations import (
     nusselt_parameters,
     nusselt_value,
 )
-from ._select import where
+from ._select import radians, where
 from ._typing import ArrayLike, FloatOrArray
 from .validity import Range
 
@@ -54,7 +54,7 @@ def _power_bands(ra, edges, coefficients, exponents):
 
 
 def _cos_tilt(inputs):
-    return inputs["ra"] * np.cos(np.radians(inputs["tilt"]))
+    return inputs["ra"] * np.cos(radians(inputs["tilt"]))
 
 
 # --------------------------------------------------------------------------------------------
@@ -276,7 +276,7 @@ define_geometry(Geometry(
     equation="Nu = Nu_vplate,churchill-chu(Ra cos(tilt), Pr)",
     validity=[Range("tilt", 0.0, 60.0), Range("Ra*cos(tilt)", 1e-1, 1e12, of=_cos_tilt)])
 def _tplate_churchill_chu_cos(ra, pr, tilt, case):
-    return _vplate_churchill_chu(ra * np.cos(np.radians(tilt)), pr)
+    return _vplate_churchill_chu(ra * np.cos(radians(tilt)), pr)
 
 
 @correlation(
@@ -290,11 +290,11 @@ def _tplate_churchill_chu_cos(ra, pr, tilt, case):
     validity=[Range("tilt", 0.0, 90.0), Range("Ra", 1e4, 1e11),
               Range("Pr [laminar band of the horizontal term]", low=0.7,
                     of=lambda inputs: LLOYD_MORAN_LAMINAR_PR.values(
-                        dict(inputs, ra=inputs["ra"] * np.sin(np.radians(inputs["tilt"])))))],
+                        dict(inputs, ra=inputs["ra"] * np.sin(radians(inputs["tilt"])))))],
     notes="Range: the intersection of the two components' ranges (Lloyd-Moran's Pr >= 0.7 "
           "binds in its laminar band only, on Ra sin(tilt)).")
 def _tplate_raithby_hollands(ra, pr, tilt, case):
-    theta = np.radians(tilt)
+    theta = radians(tilt)
     along_slope = _vplate_churchill_chu(ra * np.cos(theta), pr)
     normal_to_face = _hplate_lloyd_moran(ra * np.sin(theta), pr, case)
     return np.maximum(along_slope, normal_to_face)

@@ -260,7 +260,8 @@ _OFFSET = {"inside": 0.0, "centred": 0.5}
 _DEFAULT_UNIT = {False: DEFAULT_TILT_BAND, True: math.log(DEFAULT_LOG_BAND)}
 #: How far inside the ends of the full-weight interval (:func:`_full_weight_interval`) a value
 #: must lie, relative, to be taken as fully weighted without the arithmetic: far above the
-#: round-off of that arithmetic (~1e-16), far below any band (a factor 1.25 or 5 deg).
+#: round-off of that arithmetic (~1e-16), far below any band (a factor 1.25 or 5 deg); and how
+#: far outside the weightless ends (:func:`_weightless_interval`) it must lie to weigh nothing.
 _FULL_WEIGHT_MARGIN = 1e-9
 
 
@@ -282,7 +283,10 @@ class Range:
 
     ``full_weight`` (an attribute, not a field) is the open interval of values the range weighs
     fully with a margin (:func:`_full_weight_interval`): the scalar path takes the shortfall
-    there as 0 without the arithmetic, which would give 0 exactly.
+    there as 0 without the arithmetic, which would give 0 exactly.  ``weightless`` (likewise)
+    is the closed interval outside which the range weighs nothing with a margin
+    (:func:`_weightless_interval`): a value below its low end or above its high end has a
+    shortfall above 1, told by a comparison where a caller only asks whether it weighs anything.
     """
 
     quantity: str
@@ -299,6 +303,7 @@ class Range:
     # made once by __post_init__ from the fields above (not arguments, not compared)
     _ramps: tuple = field(init=False, repr=False, compare=False)
     full_weight: tuple[float, float] = field(init=False, repr=False, compare=False)
+    weightless: tuple[float, float] = field(init=False, repr=False, compare=False)
 
     def values(self, inputs: Mapping[str, np.ndarray]) -> np.ndarray:
         value = self.of(inputs) if self.of is not None else inputs[self.quantity.lower()]
@@ -334,6 +339,15 @@ class Range:
         if inner is None:
             inner = self.__dict__["_placed_inside"] = dataclasses.replace(self, placement="inside")
         return inner
+
+    @property
+    def bands_every_bound(self) -> bool:
+        """True where each finite bound has a band (a ramp, or a step): a shortfall of 0 then
+        means the value lies inside (each band lies inside its bound, or a centred one reaches
+        past it only where the shortfall is above 0).  A bound at the end of the input's domain
+        or a lower bound <= 0 on a log scale has none."""
+        ramped = {(bound, side) for bound, side, *_ in self._ramps}
+        return all(math.isinf(bound) or (bound, side) in ramped for bound, side in ((self.low, 1.0), (self.high, -1.0)))
 
     @property
     def log_scale(self) -> bool:
@@ -418,6 +432,7 @@ class Range:
         ramps = self._ramp_constants_of()
         object.__setattr__(self, "_ramps", ramps)
         object.__setattr__(self, "full_weight", _full_weight_interval(ramps))
+        object.__setattr__(self, "weightless", _weightless_interval(ramps))
 
     def _ramp_constants_of(self):
         """The bounds that have a transition: (bound, side, log of the bound or None for a
@@ -457,6 +472,27 @@ def _full_weight_interval(ramps) -> tuple[float, float]:
             end = bound * math.exp(side * reach) * (1.0 + side * _FULL_WEIGHT_MARGIN)
         else:
             end = bound + side * (reach + _FULL_WEIGHT_MARGIN * max(1.0, abs(bound)))
+        if side > 0:
+            low = max(low, end)
+        else:
+            high = min(high, end)
+    return low, high
+
+
+def _weightless_interval(ramps) -> tuple[float, float]:
+    """The closed interval outside which a range weighs nothing with a margin (shortfall above
+    1): each ramp's position side * along / scale + offset reaches 0 where the value passes
+    bound x exp(-side offset scale) on a log scale, bound - side offset scale on a linear one
+    (the bound itself for a step, scale 0); the ends are moved outward by
+    :data:`_FULL_WEIGHT_MARGIN`.  The largest lower end and the least upper end: past either,
+    that one ramp alone gives a shortfall above 1.  Values inside are read by the arithmetic."""
+    low, high = -math.inf, math.inf
+    for bound, side, log_bound, scale, offset in ramps:
+        reach = offset * scale
+        if log_bound is not None:
+            end = bound * math.exp(-side * reach) * (1.0 - side * _FULL_WEIGHT_MARGIN)
+        else:
+            end = bound - side * (reach + _FULL_WEIGHT_MARGIN * max(1.0, abs(bound)))
         if side > 0:
             low = max(low, end)
         else:

@@ -258,3 +258,90 @@ def test_h_cavity_on_its_scalar_path_is_the_full_result_with_its_warnings():
         assert all(w.filename == __file__ for w in fast)
         counts.append(len(fast))
     assert counts == [0, 1, 2, 1, 0]
+
+
+# --- issue 21, second round: the weightless ends, the settled note, radians -------------------
+
+@pytest.mark.parametrize("bound", RANGES, ids=lambda b: f"{b.quantity}[{b.low:g},{b.high:g}]{b.placement}")
+def test_past_the_weightless_ends_the_shortfall_is_above_one(bound):
+    """The covering hand-over takes a value past Range.weightless as weightless (shortfall 1)
+    without the arithmetic; the arithmetic must give more than 1 there, and the ends must be
+    the zero ends of the bands (a value just inside still lies within the band or at its end)."""
+    low, high = bound.weightless
+    values = _probe_values(bound)
+    edges = [edge * (1 + k * 1e-12) for edge in (low, high) if math.isfinite(edge) for k in (-3, -1, 1, 3)]
+    for value in np.concatenate([values, edges]).tolist():
+        if value < low or value > high:
+            assert bound.shortfall_of(value) > 1.0, value
+    for edge in (low, high):
+        if math.isfinite(edge):
+            assert bound.shortfall_of(edge) == pytest.approx(1.0, abs=1e-6)
+
+
+def test_the_weightless_interval_is_the_bands_outer_ends():
+    from stillair.validity import Range
+    # bands inside the bounds: weight reaches 0 at the published bounds themselves
+    low, high = Range("Ra", 1e4, 1e9).weightless
+    assert low == pytest.approx(1e4, rel=1e-8) and high == pytest.approx(1e9, rel=1e-8)
+    assert Range("tilt", 0.0, 75.0).weightless == pytest.approx((-math.inf, 75.0), rel=1e-8)
+    # centred: half the band (a factor 1.25) past the bound
+    low, _ = Range("aspect", low=2.0, placement="centred").weightless
+    assert low == pytest.approx(2.0 / 1.25 ** 0.5, rel=1e-8)
+    # NaN is never past an end: the arithmetic reads it (as the array path does)
+    assert not (math.nan < low or math.nan > high)
+
+
+def test_reading_only_whether_a_step_weighs_tells_the_same_as_the_full_reading():
+    """weighs_only (the covering hand-over's reading) gives >= 1 exactly where the reading with
+    the cut at 1 does, the same shortfall below 1, and keeps no lower bound in ``read``."""
+    from stillair.correlations import auto
+    rng = np.random.default_rng(31)
+    geo = GEOMETRIES["cavity"]
+    for plain in _cavity_inputs(rng, 300):
+        inputs = {k: np.float64(v) for k, v in plain.items()}
+        for _, ranges, _ in auto._compiled_steps(geo, None):
+            exact: dict = {}
+            full = auto._shortfall_of(ranges, inputs, plain, exact, 1.0)
+            kept: dict = {}
+            quick = auto._shortfall_of(ranges, inputs, plain, kept, 1.0, True)
+            assert (quick >= 1.0) == (full >= 1.0)
+            if full < 1.0:
+                assert quick == full
+            for key, short in kept.items():     # whatever it kept is the exact shortfall
+                assert short == exact.get(key, short)
+
+
+def test_a_covering_steps_note_reads_only_what_it_left_unsettled():
+    """Where one step covers fully, the note reads only the ranges that step did not read with
+    shortfall 0 (auto._unsettled_ranges); the notes are those of the array path, which reads
+    every range, on random cases and on cases at the bounds of the settled ranges."""
+    from stillair.correlations import auto, nusselt
+    for (geometry, method), corr in CORRELATIONS.items():
+        for case in corr.cases or (None,):
+            unsettled = auto._unsettled_ranges(corr, case)
+            assert set(map(id, unsettled)) <= set(map(id, corr.ranges(case)))
+            for bound in corr.ranges(case):
+                if bound not in unsettled:   # settled: auto reads the input itself, banded at each bound
+                    assert bound.in_auto and bound.of is None and bound.bands_every_bound
+    rng = np.random.default_rng(37)
+    cases = _cavity_inputs(rng, 300) + [
+        {"ra": ra, "pr": pr, "aspect": aspect, "tilt": tilt}
+        for ra in (1e2, 1e2 * 4.0000001, 2e7 / 4, 2e7) for pr in (0.5 * 1.1, 0.71, 0.9 / 1.1)
+        for aspect in (5.0 * 1.25, 40.0, 110.0 / 1.25) for tilt in (90.0, 120.0)]
+    arrays = {k: np.array([case[k] for case in cases]) for k in cases[0]}
+    whole = nusselt("cavity", "auto", **arrays)
+    for index, case in enumerate(cases):
+        one = nusselt("cavity", "auto", **case)
+        assert (one.note, one.in_range, one.method) == (whole.note[index], whole.in_range[index], whole.method[index])
+
+
+def test_radians_of_one_number_is_numpy_radians_bit_for_bit():
+    from stillair._select import radians
+    rng = np.random.default_rng(41)
+    values = np.concatenate([rng.uniform(-360.0, 360.0, 20_000), [0.0, 90.0, 180.0, 45.0, 1e-300, -0.0]])
+    expected = np.radians(values)
+    for value, want in zip(values.tolist(), expected.tolist()):
+        got = radians(np.float64(value))
+        assert type(got) is np.float64 and got == want
+        assert radians(value) == want
+    np.testing.assert_array_equal(radians(values), expected)      # arrays: numpy itself

@@ -54,7 +54,7 @@ import numpy as np
 from ..validity import Range
 from .registry import CORRELATIONS
 from .single import _evaluate_one, _first, _range_notes, _scalar_note
-from .types import Geometry, NusseltResult, uniform
+from .types import Correlation, Geometry, NusseltResult, uniform
 
 #: Where no correlation covers fully, how close another step's shortfall must come to the least
 #: for it to take a share, in bands (relative to the least below one band): the width of the
@@ -71,6 +71,9 @@ def _compiled_steps(geo: Geometry, case: str | None) -> tuple[CompiledStep, ...]
     """The auto rule of ``case`` as :data:`CompiledStep` tuples, built once per geometry and case
     (a cache, not a field of the frozen Geometry).  A step's ranges: its ``when`` and the
     correlation's published ranges that auto reads, each once."""
+    compiled_rules = geo.__dict__.get("_compiled_steps")   # read on every scalar call: no dict made
+    if compiled_rules is not None and case in compiled_rules:
+        return compiled_rules[case]
     cache = geo.__dict__.setdefault("_compiled_steps", {})
     if case not in cache:
         compiled = []
@@ -109,25 +112,39 @@ def _shortfall(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
 
 
 def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
-                  plain: Mapping[str, float], read: dict[int, float], cut: float = math.inf) -> float:
+                  plain: Mapping[str, float], read: dict[int, float], cut: float = math.inf,
+                  weighs_only: bool = False) -> float:
     """:func:`_shortfall` on the scalar path (``Range.shortfall_of`` of each range's value as a
     float), stopping at the first range whose shortfall reaches ``cut``
     (:func:`_weightless_from`): the step weighs nothing whatever the rest, and that lower bound
     serves the rule as well.  The range that reached the cut last time is read first (the
     largest of all is the same in any order, and any range that reaches the cut gives such a
-    lower bound), so a step that weighs nothing is mostly told by one range."""
+    lower bound), so a step that weighs nothing is mostly told by one range.
+
+    ``weighs_only`` (with ``cut`` 1: the caller asks only whether the step weighs anything,
+    and the exact shortfall below 1) takes a value past a range's :attr:`~Range.weightless`
+    ends as a shortfall of 1 without the arithmetic (its own is larger); such a lower bound is
+    not kept in ``read``, where the other passes read exact shortfalls."""
     entry = _READ_ORDER.get(id(ranges))
     order = _plain_reading(ranges) if entry is None else entry[1]
     largest = 0.0
-    for bound, key, low, high in order:
+    for bound, key, low, high, none_below, none_above in order:
         if type(key) is str:    # an input's value: read at once (cheaper than keeping it)
             value = plain[key]
-            short = 0.0 if low < value < high else bound.shortfall_of(value)
+            if low < value < high:
+                continue
+            short = 1.0 if weighs_only and (value < none_below or value > none_above) else bound.shortfall_of(value)
         else:                   # a computed quantity: once per call, whichever step reads it
             short = read.get(id(bound))
             if short is None:
                 value = float(key(inputs))
-                short = read[id(bound)] = 0.0 if low < value < high else bound.shortfall_of(value)
+                if low < value < high:
+                    read[id(bound)] = 0.0
+                    continue
+                if weighs_only and (value < none_below or value > none_above):
+                    short = 1.0
+                else:
+                    short = read[id(bound)] = bound.shortfall_of(value)
         if short > largest:
             largest = short
             if largest >= cut:
@@ -137,10 +154,10 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     return largest
 
 
-def _plain_reading(ranges: tuple[tuple[Range, Any], ...]) -> tuple[tuple[Range, Any, float, float], ...]:
-    """A step's ranges as the scalar path reads them: (range, input name or ``of``, and the
-    ends of the range's ``full_weight``), kept in :data:`_READ_ORDER`."""
-    order = tuple((bound, key, *bound.full_weight) for bound, key in ranges)
+def _plain_reading(ranges: tuple[tuple[Range, Any], ...]) -> tuple[tuple[Range, Any, float, float, float, float], ...]:
+    """A step's ranges as the scalar path reads them: (range, input name or ``of``, the ends of
+    the range's ``full_weight`` and of its ``weightless``), kept in :data:`_READ_ORDER`."""
+    order = tuple((bound, key, *bound.full_weight, *bound.weightless) for bound, key in ranges)
     _READ_ORDER[id(ranges)] = (ranges, order)
     return order
 
@@ -163,21 +180,45 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
                   plain: Mapping[str, float] | None) -> list[Any]:
     """Each step's weight by the rule (module text); they add up to 1.  The scalar path runs
     the same arithmetic on floats (``max``/``min``) as the array path on arrays."""
+    if plain is not None:
+        steps = _compiled_steps(geo, case)
+        weights = _plain_step_weights(geo, case, steps, inputs, plain)[0]
+        return weights + [0.0] * (len(steps) - len(weights))
+    return _weights_by_rule(geo, case, inputs, None, {}, None, math.inf)
+
+
+def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...],
+                        inputs: Mapping[str, Any], plain: Mapping[str, float]) -> tuple[list[float], int | None]:
+    """:func:`_step_weights` on the scalar path (the steps past the end of the list weigh
+    nothing), and the step that covers fully (shortfall 0) and takes what is left, where the weights come from :func:`_weights_where_one_covers`
+    (else None): every range that step reads holds, and the note need not read them again
+    (:func:`auto_scalar`).
+
+    The step that was nearest at the last call of this rule is read first (a hint only: its
+    shortfall bounds the least from above, so the steps before it in order are cut sooner; the
+    weights are the same whichever step is read first)."""
+    hints = geo.__dict__.get("_nearest_step")
+    if hints is None:
+        hints = geo.__dict__["_nearest_step"] = {}
+    hint = hints.get(case)
+    read: dict[int, Any] = {}
+    known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)
+    if known == 0.0:
+        return _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
+    return _weights_by_rule(geo, case, inputs, plain, read, hint, known), None
+
+
+def _weights_by_rule(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
+                     plain: Mapping[str, float] | None, read: dict[int, Any], hint: int | None,
+                     known: float) -> list[Any]:
+    """The three passes of the rule (module text): on arrays (``plain`` None), or on the
+    scalar path with step ``hint``'s shortfall ``known`` read already."""
     scalar = plain is not None
     steps = _compiled_steps(geo, case)
     larger, smaller = (max, min) if scalar else (np.maximum, np.minimum)
     size = () if scalar else next(iter(inputs.values())).shape
     shortfalls: list[Any] = []
     nearest: Any = math.inf
-    read: dict[int, Any] = {}
-    # the scalar path first reads the step that was nearest at the last call of this rule (a
-    # hint only: its shortfall bounds the least from above, so the steps before it in order
-    # are cut sooner; the weights are the same whichever step is read first)
-    hints = geo.__dict__.setdefault("_nearest_step", {})
-    hint = hints.get(case) if scalar else None
-    known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)  # type: ignore[arg-type]
-    if known == 0.0:
-        return _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
     for index, (_, ranges, _) in enumerate(steps):
         if not scalar:
             short = _shortfall(ranges, inputs, plain, read)
@@ -192,7 +233,7 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
         if not (nearest > 0.0 if scalar else np.any(nearest > 0.0)):
             break
     if scalar:
-        hints[case] = shortfalls.index(nearest)
+        geo.__dict__["_nearest_step"][case] = shortfalls.index(nearest)
     coverage = [smaller(larger(1.0 - short, 0.0), 1.0) for short in shortfalls]
     reach = [_reach_past_edge(steps[index][1], inputs, plain, read) for index in range(len(coverage))]
     claims = [_claim(steps[index][1], inputs, plain, read, cover) for index, cover in enumerate(coverage)]
@@ -315,20 +356,27 @@ def _nearest_shares(shortfalls: list[Any], nearest: Any, scalar: bool) -> list[A
 
 def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hints: dict,
                               case: str | None, inputs: Mapping[str, Any], plain: Mapping[str, float],
-                              read: dict[int, float]) -> list[Any]:
+                              read: dict[int, float]) -> tuple[list[Any], int | None]:
     """:func:`_step_weights` on the scalar path where step ``covering`` covers fully (d = 0, the
     usual case): the rule's arithmetic with d_min = 0 and a width of one band, written out (a
     step before it takes 1 - d of what is left, the first that covers fully takes the rest, the
-    later ones nothing); a step is read only until its shortfall reaches 1."""
+    later ones nothing); a step is read only until its shortfall reaches 1, and a range read
+    past its weightless end tells that at once (``weighs_only``).  Returns the weights of the
+    steps up to the one that took the rest (the later ones weigh nothing) and that step where it
+    took it with shortfall 0 (None where a later form of one correlation took it by its shared
+    coverage)."""
     left = 1.0
     weights: list[Any] = []
     previous = 0.0
     for index in range(covering + 1):
-        short = 0.0 if index == covering else _shortfall_of(steps[index][1], inputs, plain, read, 1.0)
-        if short >= 1.0:        # the usual step before the one that covers: it takes nothing
-            weights.append(0.0)
-            previous = 0.0
-            continue
+        if index < covering:
+            short = _shortfall_of(steps[index][1], inputs, plain, read, 1.0, True)
+            if short >= 1.0:    # the usual step before the one that covers: it takes nothing
+                weights.append(0.0)
+                previous = 0.0
+                continue
+        else:
+            short = 0.0
         cover = share = min(max(1.0 - short, 0.0), 1.0)
         if index and steps[index][0] == steps[index - 1][0]:
             share = _form_share(cover, previous, _reach_past_edge(steps[index][1], inputs, plain, read), min, max)
@@ -337,8 +385,8 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
         left = left * (1.0 - share)
         if left == 0.0:
             hints[case] = index
-            break
-    return weights + [0.0] * (len(steps) - len(weights))
+            return weights, index if short == 0.0 else None
+    return weights, None
 
 
 def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
@@ -350,7 +398,7 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     ``{method: total weight}`` for the methods that carry weight, in the order they first do.
     """
     if plain is not None:
-        return _weigh_plain(geo, case, inputs, plain)
+        return _weigh_plain(geo, case, inputs, plain)[:2]
     size = next(iter(inputs.values())).shape
     nu: Any = np.zeros(size)
     weights: dict[str, Any] = {}        # method -> total weight (its forms together)
@@ -374,20 +422,21 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
 
 
 def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
-                 plain: Mapping[str, float]) -> tuple[float, dict[str, float]]:
+                 plain: Mapping[str, float]) -> tuple[float, dict[str, float], str | None]:
     """:func:`weigh_steps` for one case: the same sum, each weighted method's value (a numpy
-    scalar) floored as a float."""
+    scalar) floored as a float; and the method of the step that covered fully and took what
+    was left (:func:`_plain_step_weights`), or None."""
     floor = -math.inf if geo.floor is None else geo.floor
     steps = _compiled_steps(geo, case)
     nu = 0.0
     weights: dict[str, float] = {}
-    for index, weight in enumerate(_step_weights(geo, case, inputs, plain)):
+    step_weights, covering = _plain_step_weights(geo, case, steps, inputs, plain)
+    for (method, _, function), weight in zip(steps, step_weights):
         if weight > 0.0:
-            method, _, function = steps[index]
             raw = function(case=case, **inputs) if geo.cases else function(**inputs)
             nu += weight * max(_first(raw), floor)
             weights[method] = weights.get(method, 0.0) + weight
-    return nu, weights
+    return nu, weights, None if covering is None else steps[covering][0]
 
 
 def _rule_order(geo: Geometry, case: str | None, weights: Mapping[str, Any]) -> list[str]:
@@ -401,20 +450,48 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
                 plain: Mapping[str, float]) -> tuple[float, str, str, str]:
     """The auto rule for one case in numpy scalars (``plain``: the same as floats): (Nu, the
     method of the largest weight, the note, the blend) as plain values; notes formatted only
-    for a bound crossed."""
+    for a bound crossed.  The method whose step covered fully reads only the ranges that step
+    did not settle (:func:`_unsettled_ranges`)."""
     floor = -math.inf if geo.floor is None else geo.floor
-    nu, weights = _weigh_plain(geo, case, inputs, plain)
+    nu, weights, settled = _weigh_plain(geo, case, inputs, plain)
     if len(weights) == 1:    # the usual case: one method, its own note, no blend
         (name,) = weights
-        return max(nu, floor), name, _scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case), ""
+        return max(nu, floor), name, _plain_note(geo, case, name, settled, inputs, plain), ""
     names = _rule_order(geo, case, weights)
-    notes = [note for note in (_scalar_note(CORRELATIONS[(geo.name, name)], inputs, plain, case)
-                               for name in names) if note]
+    notes = [note for note in (_plain_note(geo, case, name, settled, inputs, plain) for name in names) if note]
     blend = "auto blend of " + " and ".join(names) if len(names) > 1 else ""
     note = "; ".join(notes)
     if note and blend:
         note = f"{blend}: {note}"
     return max(nu, floor), max(names, key=weights.__getitem__), note, blend
+
+
+def _plain_note(geo: Geometry, case: str | None, name: str, settled: str | None,
+                inputs: Mapping[str, Any], plain: Mapping[str, float]) -> str:
+    """The note of method ``name`` for one case: its published ranges, or only those the step
+    that covered fully left unread where ``name`` is its method (``settled``)."""
+    corr = CORRELATIONS[(geo.name, name)]
+    ranges = _unsettled_ranges(corr, case) if name == settled else corr.ranges(case)
+    return _scalar_note(corr, inputs, plain, case, ranges) if ranges else ""
+
+
+def _unsettled_ranges(corr: Correlation, case: str | None) -> tuple[Range, ...]:
+    """The published ranges of ``corr`` for ``case`` that a step of it covering fully (shortfall
+    0) leaves unread, in their order: those auto does not read (``in_auto`` False), those of a
+    computed quantity (``of``: it could be NaN, whose shortfall is 0 and which lies inside no
+    range; the inputs are finite numbers, checked), and those with a bound that has no band (a
+    bound at the end of the input's domain, a lower bound <= 0 on a log scale), where shortfall
+    0 does not tell that the value is inside.  Every other published range, read by that step
+    with shortfall 0, holds (:attr:`Range.bands_every_bound`), so the note reads only these
+    (none: the note is "" at once).  Made once per correlation and case."""
+    made = corr.__dict__.get("_unsettled_ranges")   # read on every scalar call: no dict made
+    if made is not None and case in made:
+        return made[case]
+    cache = corr.__dict__.setdefault("_unsettled_ranges", {})
+    if case not in cache:
+        cache[case] = tuple(bound for bound in corr.ranges(case)
+                            if not (bound.in_auto and bound.of is None and bound.bands_every_bound))
+    return cache[case]
 
 
 def auto_arrays(geo: Geometry, case: str | None, arrays: Mapping[str, np.ndarray], notes: bool = True,

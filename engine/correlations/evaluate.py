@@ -186,10 +186,15 @@ def _plain_domains(geo: Geometry) -> tuple[tuple[str, float, float, bool], ...]:
     return domains
 
 
-def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
-    """The inputs as floats when each is a plain number the geometry accepts; else None (the
-    array path then checks them and words the message)."""
+_NUMPY_FLOAT = np.float64     # bound once: the module attribute look-up is a third of the scalar path's conversion
+
+
+def _plain_inputs(geo: Geometry, inputs) -> tuple[dict[str, float], dict[str, np.float64]] | None:
+    """The inputs as floats, and as numpy floats (the scalar path evaluates the correlations on
+    these), when each is a plain number the geometry accepts; else None (the array path then
+    checks them and words the message)."""
     values = {}
+    scalars = {}
     for name, low, high, low_open in _plain_domains(geo):
         value = inputs.get(name)
         if type(value) is not float:
@@ -199,20 +204,21 @@ def _plain_inputs(geo: Geometry, inputs) -> dict[str, float] | None:
         if not ((low < value if low_open else low <= value) and value <= high and value < math.inf):
             return None
         values[name] = value
-    return values
+        scalars[name] = _NUMPY_FLOAT(value)
+    return values, scalars
 
-
-_NUMPY_FLOAT = np.float64     # bound once: the module attribute look-up is a third of the scalar path's conversion
 
 #: Nu of one case as plain values: (Nu, the method used, its note or "", the blend or "").
 PlainNusselt = tuple[float, str, str, str]
 
 
-def _scalar_parts(geo: Geometry, method: str, case: str | None, values: dict[str, float]) -> PlainNusselt:
-    """Nu for one case in plain numbers: a named method, or the auto rule (:func:`auto_scalar`)."""
+def _scalar_parts(geo: Geometry, method: str, case: str | None,
+                  plain: tuple[dict[str, float], dict[str, np.float64]]) -> PlainNusselt:
+    """Nu for one case in plain numbers (:func:`_plain_inputs`): a named method, or the auto
+    rule (:func:`auto_scalar`)."""
     # numpy scalars, not Python floats: comparisons then give numpy booleans, which the
     # correlations combine with ~ and & as they do arrays
-    arrays = {k: _NUMPY_FLOAT(v) for k, v in values.items()}
+    values, arrays = plain
     if method == "auto":
         return auto_scalar(geo, case, arrays, values)
     corr = CORRELATIONS[(geo.name, method)]
@@ -221,7 +227,8 @@ def _scalar_parts(geo: Geometry, method: str, case: str | None, values: dict[str
     return nu, method, _scalar_note(corr, arrays, values, case), ""
 
 
-def _scalar(geo: Geometry, method: str, case: str | None, values: dict[str, float]) -> NusseltResult:
+def _scalar(geo: Geometry, method: str, case: str | None,
+            values: tuple[dict[str, float], dict[str, np.float64]]) -> NusseltResult:
     """:func:`_scalar_parts` as a :class:`NusseltResult` of 0-d arrays."""
     return _scalar_result(*_scalar_parts(geo, method, case, values))
 

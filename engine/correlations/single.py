@@ -19,8 +19,11 @@ def _first(values) -> float:
     return float(np.ravel(values)[0])
 
 
-def _scalar_note(corr: Correlation, arrays, values, case) -> str:
-    for bound in corr.ranges(case):
+def _scalar_note(corr: Correlation, arrays, values, case, ranges=None) -> str:
+    """The note of one case in numpy scalars (``values``: the same as floats): the first of
+    ``ranges`` (default: the correlation's published ranges for ``case``) it lies outside, or
+    "" (formatted only for a bound crossed)."""
+    for bound in corr.ranges(case) if ranges is None else ranges:
         value = values[bound.quantity.lower()] if bound.of is None else _first(bound.of(arrays))
         if not bound.low <= value <= bound.high:
             return str(_violation_notes(corr.method, bound, np.array([value]))[0])

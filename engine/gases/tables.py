@@ -106,6 +106,7 @@ class _PropertyTable:
         self.coefficients = spline_coefficients(t_kelvin, values) if coefficients is None else coefficients
         self._slices: dict = {}  # pressure -> _PiecewiseCubic
         self._breaks = t_kelvin.tolist()  # for bisect in :meth:`at_point`
+        self._last_interval = len(self._breaks) - 2
         self._point_coefficients: dict = {}    # pressure -> nested lists, for :meth:`at_point`
 
     def evaluate(self, t_kelvin, pressure) -> np.ndarray:
@@ -148,9 +149,13 @@ class _PropertyTable:
         plain Python in the same order as :func:`piecewise_cubic` (the same values), without
         the call overhead of numpy's array machinery, which costs more than the cubic for one
         point."""
-        breaks = self._breaks
         # PPoly's interval: the last breakpoint <= t, the right end belonging to the last piece
-        interval = min(max(bisect.bisect_right(breaks, t_kelvin) - 1, 0), len(breaks) - 2)
+        breaks = self._breaks
+        interval = bisect.bisect_right(breaks, t_kelvin) - 1
+        if interval < 0:        # comparisons, not min(max(...)): two calls fewer on every state
+            interval = 0
+        elif interval > self._last_interval:
+            interval = self._last_interval
         s = t_kelvin - breaks[interval]
         s2 = s * s
         s3 = s2 * s

@@ -9,10 +9,17 @@
    The temperatures change from call to call (stillair caches recent gas states; a fresh
    state each call keeps the comparison honest).
    Measured (issue 21, one run each, this 2-core machine at load 4.4): before the scalar-path
-   work 40.0-40.5 us against 253 us by hand, 6.3x; after it 18.6-18.9 us, 13.3-13.6x.  Left:
-   the auto rule's reading of its ranges (~6 us of it: seven ranges, three of them computed
-   quantities), the gas state (~3 us), the correlation on numpy scalars (~2.3 us), the note
-   (~1.4 us) and the layers' plain checks.
+   work 40.0-40.5 us against 253 us by hand, 6.3x; after it 18.6-18.9 us, 13.3-13.6x.
+   Second round (one run each, load 1.6): 19.3 us against 250.7 us, 13.0x, before; 16.8 us
+   against 250.2 us, 14.9x, after (the steps before the covering one told weightless by a
+   comparison past their ranges' zero ends, the covering method's note reading only the
+   ranges its step left unsettled, t* once per call, radians without the ufunc call).  Left
+   (measured by leaving each out): the auto rule's weights ~4 us (the hint step's five
+   ranges ~1.5 us, two of them computed quantities; the three steps before it ~1.3 us, one
+   a computed Ra sin(tilt); the rest call overhead), the gas state ~3 us, the correlation on
+   numpy scalars ~2.2 us (np.sin alone 0.26 us), the note ~1 us (two computed published
+   tilt ranges auto does not read), the unit-slip notes ~0.6 us, and some 4 us of calls
+   between the layers.
 2. A vectorised correlation over 1e6 points through ``stillair.nusselt`` (argument checks,
    validity notes, all included) against the bare numpy formula.  Target: within 6x.
    Named methods and auto (in range, so the notes are empty strings) are both shown.
