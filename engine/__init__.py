@@ -25,8 +25,10 @@ cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillai
 # First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
 # line, not a traceback (only when this process is that command; see _console).
 from ._console import guard_command_start as _guard_command_start
+from ._console import one_blas_thread_for_command as _one_blas_thread_for_command
 
 _guard_command_start()
+_one_blas_thread_for_command()      # before numpy loads its BLAS (see _console)
 
 from .validity import *  # noqa: F401,F403,E402
 from .correlations import *  # noqa: F401,F403
