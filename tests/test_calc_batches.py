@@ -152,3 +152,29 @@ def test_the_schedule_keeps_every_cell_after_what_it_reads(book):
         done |= set(keys)
     assert done == set(model.nodes)
     assert any(isinstance(step, model_module._Batch) for step in model._schedule())
+
+
+def test_a_cell_that_looks_like_kelvin_keeps_its_note_among_cells_that_do_not(tmp_path):
+    """The kelvin note is worded for a whole call (every temperature of it between 230 and 400,
+    stillair.plausibility): a column of everyday °C rows with a few at 300/290 must note exactly
+    those few, as each gets alone."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Cases"
+    kelvin_rows = {9, 70, 131}
+    for r in range(2, 2 + ROWS):
+        hot, cold = (300.0, 290.0) if r in kelvin_rows else (20.0 + 0.01 * r, 10.0)
+        for column, value in zip("ABCD", (hot, cold, 0.02, 1.0)):
+            ws[f"{column}{r}"] = value
+        ws[f"E{r}"] = f"=H_CAVITY(A{r},B{r},C{r},D{r})"
+        ws[f"F{r}"] = f"=AIR_DENSITY(A{r})"
+    wb.save(tmp_path / "kelvin.xlsx")
+    book = read_book(str(tmp_path / "kelvin.xlsx"))
+    batched = Model(book).calculate()
+    noted = {ref for (_, ref), result in batched.results.items() if result.status == "note"}
+    assert noted == {f"{column}{r}" for r in kelvin_rows for column in "EF"}
+    alone_model = Model(book)
+    alone_model._steps = alone_model.order
+    alone = alone_model.calculate()
+    _same(_results(batched), _results(alone))
+    assert batched.notes == alone.notes

@@ -14,7 +14,11 @@ the cell that caused them, so a batch is only a shortcut for the plain case:
   error or could not be calculated;
 * the part of a batch whose call gives a range note, a warning, an exception or a non-finite
   value is split in halves and tried again, down to single cells, which go the usual way, so
-  each note and each message lands on its own cell.
+  each note and each message lands on its own cell;
+* one note is worded for a whole call, not for any of its elements: temperatures that all look
+  like kelvin (:data:`stillair.plausibility.KELVIN_LOOKING`).  An array call mixing such a cell
+  with others gives no note, where the cell alone gives one; so a cell of a shape that calls a
+  function of temperatures (°C arguments), with any input in that span, goes on its own.
 """
 
 from __future__ import annotations
@@ -26,6 +30,8 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
+
+from stillair.plausibility import KELVIN_LOOKING
 
 from ..cells.callpath import evaluate_arrays
 from ..cells.registry import BY_NAME
@@ -64,6 +70,7 @@ class Plan:
     output: str
     ours: bool          # the formula calls one of our functions (the scale rule of execute)
     single: object = None   # the registry entry when the formula is one call of its inputs
+    temperatures: bool = False   # it calls a function with a temperature (°C) argument
 
 
 def plan_of(function, ours: bool) -> Plan | None:
@@ -83,6 +90,7 @@ def plan_of(function, ours: bool) -> Plan | None:
             return None     # a text, a logical value or a precomputed message
         constants.append((key, float(value)))
     steps: list[tuple[Any, Any, Any]] = []
+    temperatures = False
     for key, function, ins, outs in calls:
         name = step_name(key)
         if len(outs) != 1:
@@ -103,9 +111,10 @@ def plan_of(function, ours: bool) -> Plan | None:
                 any(arg.kind != "number" for arg in entry.args[:len(ins)]):
             return None
         steps.append((entry, ins, outs[0]))
+        temperatures = temperatures or any(arg.unit == "°C" for arg in entry.args)
     single = steps[0][0] if len(steps) == 1 and not constants and \
         steps[0][1] == tuple(inputs) and not callable(steps[0][0]) else None
-    return Plan(tuple(constants), tuple(steps), tuple(inputs), output, ours, single)
+    return Plan(tuple(constants), tuple(steps), tuple(inputs), output, ours, single, temperatures)
 
 
 @dataclass(frozen=True, slots=True)
@@ -204,8 +213,12 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
     plan, positions = model.plan(model.nodes[first]) if rest else (None, None)
     batched: list[tuple[Any, Any]] = []
     alone: list[tuple[Any, Any]] = []
+    low, high = KELVIN_LOOKING
     for key in rest:
         numbers = _inputs_of(model, model.nodes[key], results, cell_value) if plan else None
+        if numbers is not None and plan is not None and plan.temperatures and \
+                any(low <= number <= high for number in numbers):
+            numbers = None      # it may look like kelvin alone, and not in a batch (docstring)
         (alone if numbers is None else batched).append((key, numbers))
     for key, _ in alone:
         results.update(calculate_node(model, model.nodes[key], key, values, results, recorder,
