@@ -9,7 +9,8 @@ import stat
 import sys
 import tempfile
 
-from stillair._console import OneLineParser, UsageError, run_command, say, say_line
+from stillair._console import UsageError, run_command, say, say_line
+from stillair._parser import OneLineParser
 
 
 EXIT_FINDINGS = 1   # done, with error cells (calc) or findings (audit)

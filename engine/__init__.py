@@ -22,11 +22,17 @@ cylinders, spheres), :mod:`stillair.cavity` (enclosed gas layers), :mod:`stillai
 (the insulation thickness for a surface temperature).
 """
 
+import time as _time
+
+_import_started = _time.perf_counter()   # the command reports what importing the engine took
+
 # First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
 # line, not a traceback (only when this process is that command; see _console).
 from ._console import guard_command_start as _guard_command_start
+from ._console import one_blas_thread_for_command as _one_blas_thread_for_command
 
 _guard_command_start()
+_one_blas_thread_for_command()      # before numpy loads its BLAS (see _console)
 
 from .validity import *  # noqa: F401,F403,E402
 from .correlations import *  # noqa: F401,F403
@@ -44,6 +50,11 @@ from .humid import *  # noqa: F401,F403
 from .insulation import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
+
+#: Seconds this process spent importing the engine (the first ``import stillair``, which a
+#: ``stillair`` command pays before it runs): ``stillair calc`` reports it under "engine import".
+_IMPORT_SECONDS = _time.perf_counter() - _import_started
+del _time, _import_started
 
 # The public API, listed by hand so that help(stillair) and IDEs show exactly this.  The
 # submodules' own __all__ also carry the mechanisms contributors use (correlation(),

@@ -10,9 +10,45 @@ docstring (``{"up", "down"}``) stay as they are.
 from __future__ import annotations
 
 import re
+import textwrap
 from typing import Callable, Mapping, TypeVar
 
 F = TypeVar("F", bound=Callable)
+
+
+def fill(text: str, width: int, initial_indent: str = "", subsequent_indent: str = "") -> str:
+    """``textwrap.fill(text, width, initial_indent=..., subsequent_indent=...)``, character for
+    character, without textwrap's regular expressions where they cannot change the result.
+
+    The engine's docstrings are written when it is imported, some 550 paragraphs, and textwrap
+    (a regular expression splitting every paragraph into chunks, then the chunks laid out) was
+    about a fifth of ``import stillair``.  For text of single-space-separated words textwrap's
+    chunks are the words themselves, except that it may break a word at a hyphen, and breaks a
+    word longer than a line: so the words are laid out greedily here (textwrap's own rule: the
+    next word goes on the line while the line stays within ``width``), and the text goes to
+    textwrap itself whenever it holds other whitespace, or a word longer than a line, or a line
+    must end before a word with a hyphen in it.  tests/test_docs.py compares the two over the
+    engine's docstrings and over generated text."""
+    words = text.split(" ")
+    first_room, later_room = width - len(initial_indent), width - len(subsequent_indent)
+    # Any whitespace but single spaces between words (textwrap expands, replaces or drops it).
+    if text.split() != words or first_room <= 0 or later_room <= 0:
+        return textwrap.fill(text, width, initial_indent=initial_indent, subsequent_indent=subsequent_indent)
+    lines: list[str] = []
+    line, used, room, indent = [words[0]], len(words[0]), first_room, initial_indent
+    if used > room:
+        return textwrap.fill(text, width, initial_indent=initial_indent, subsequent_indent=subsequent_indent)
+    for word in words[1:]:
+        if used + 1 + len(word) <= room:
+            line.append(word)
+            used += 1 + len(word)
+            continue
+        if "-" in word or len(word) > min(room, later_room):   # textwrap would split this word
+            return textwrap.fill(text, width, initial_indent=initial_indent, subsequent_indent=subsequent_indent)
+        lines.append(indent + " ".join(line))
+        line, used, room, indent = [word], len(word), later_room, subsequent_indent
+    lines.append(indent + " ".join(line))
+    return "\n".join(lines)
 
 GAS_AND_PRESSURE = '''    gas : str, default "air"
         Gas name or mixture such as "argon:0.9, air:0.1" (mole fractions).

@@ -152,3 +152,54 @@ def test_the_schedule_keeps_every_cell_after_what_it_reads(book):
         done |= set(keys)
     assert done == set(model.nodes)
     assert any(isinstance(step, model_module._Batch) for step in model._schedule())
+
+
+def test_a_cell_that_looks_like_kelvin_keeps_its_note_among_cells_that_do_not(tmp_path):
+    """The kelvin note is worded for a whole call (every temperature of it between 230 and 400,
+    stillair.plausibility): a column of everyday °C rows with a few at 300/290 must note exactly
+    those few, as each gets alone."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Cases"
+    kelvin_rows = {9, 70, 131}
+    for r in range(2, 2 + ROWS):
+        hot, cold = (300.0, 290.0) if r in kelvin_rows else (20.0 + 0.01 * r, 10.0)
+        for column, value in zip("ABCD", (hot, cold, 0.02, 1.0)):
+            ws[f"{column}{r}"] = value
+        ws[f"E{r}"] = f"=H_CAVITY(A{r},B{r},C{r},D{r})"
+        ws[f"F{r}"] = f"=AIR_DENSITY(A{r})"
+    wb.save(tmp_path / "kelvin.xlsx")
+    book = read_book(str(tmp_path / "kelvin.xlsx"))
+    batched = Model(book).calculate()
+    noted = {ref for (_, ref), result in batched.results.items() if result.status == "note"}
+    assert noted == {f"{column}{r}" for r in kelvin_rows for column in "EF"}
+    alone_model = Model(book)
+    alone_model._steps = alone_model.order
+    alone = alone_model.calculate()
+    _same(_results(batched), _results(alone))
+    assert batched.notes == alone.notes
+
+
+def test_a_second_half_is_not_tried_when_the_first_went_through(tmp_path, monkeypatch):
+    """128 cavities whose first 10 gaps are above the plausible 0.5 m (a note each; the batch
+    runs up the column, E128 first): the whole fails, its first half goes through, so its second
+    half holds the notes and is split untried; again for that half's halves.  Three array calls,
+    not five; results as alone."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    for r in range(1, 129):
+        for column, value in zip("ABCD", (20.0, 10.0, 0.6 if r <= 10 else 0.02, 1.0)):
+            ws[f"{column}{r}"] = value
+        ws[f"E{r}"] = f"=H_CAVITY(A{r},B{r},C{r},D{r})"
+    wb.save(tmp_path / "tail.xlsx")
+    book = read_book(str(tmp_path / "tail.xlsx"))
+    sizes = []
+    run = vectorised._run
+    monkeypatch.setattr(vectorised, "_run", lambda plan, columns, size: sizes.append(size) or run(plan, columns, size))
+    batched = Model(book).calculate()
+    assert vectorised.SMALLEST_BATCH == 32 and sizes == [127, 63, 32]   # E128 goes first, alone
+    alone_model = Model(book)
+    alone_model._steps = alone_model.order
+    alone = alone_model.calculate()
+    _same(_results(batched), _results(alone))
+    assert len(alone.notes) == 10

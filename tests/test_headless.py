@@ -577,3 +577,27 @@ def test_the_cause_a_reader_names_does_not_follow_the_hash_seed(tmp_path):
                               env={**os.environ, "PYTHONHASHSEED": seed})
         causes.add(done.stdout.strip() or done.stderr)
     assert causes == {"Calc!A1"}     # the first in reading order
+
+
+def test_the_reported_times_hold_what_their_names_say(tmp_path, monkeypatch):
+    """calc's "engine import" is what importing the engine took (it happened when the command
+    started, before the model is built), and "load" counts reading the file."""
+    import time
+
+    import stillair
+    from stillair.addin.workbook import model as model_module
+
+    path = tmp_path / "timed.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    wb.add_worksheet("S").write_formula("A1", "=AIR_DENSITY(20)")
+    wb.close()
+    real_read = model_module.read_book
+
+    def slow_read(where):
+        time.sleep(0.05)
+        return real_read(where)
+
+    monkeypatch.setattr(model_module, "read_book", slow_read)
+    evaluation = evaluate_book(str(path))
+    assert evaluation.load_seconds >= 0.05
+    assert evaluation.engine_seconds >= stillair._IMPORT_SECONDS > 0

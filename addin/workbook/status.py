@@ -58,7 +58,7 @@ class Evaluation:
     values: dict[str, dict[str, object]]       # sheet -> ref -> value (formula cells only)
     names: dict[str, object]                    # defined name -> value
     notes: list[tuple[str, str]]                # (cell "Sheet!B3" or "", message)
-    load_seconds: float
+    load_seconds: float                         # reading the file (where read here) and preparing
     calc_seconds: float
     sets: dict[tuple[str, str], object] = field(default_factory=dict)
     engine_seconds: float = 0.0                 # importing the engine and formulas

@@ -14,7 +14,13 @@ the cell that caused them, so a batch is only a shortcut for the plain case:
   error or could not be calculated;
 * the part of a batch whose call gives a range note, a warning, an exception or a non-finite
   value is split in halves and tried again, down to single cells, which go the usual way, so
-  each note and each message lands on its own cell.
+  each note and each message lands on its own cell;
+* one note is worded for a whole call, not for any of its elements: temperatures that all look
+  like kelvin (:data:`stillair.plausibility.KELVIN_LOOKING`).  An array call mixing a cell that
+  gets it alone with cells that do not gives no note; so a call of a function of temperatures
+  (°C arguments) is trusted only where every element has the same of those arguments inside
+  that span (then the call notes exactly when each of its cells alone would, whichever of them
+  the function checks), and a part that mixes them is split like a part with a note.
 """
 
 from __future__ import annotations
@@ -26,6 +32,8 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
+
+from stillair.plausibility import KELVIN_LOOKING
 
 from ..cells.callpath import evaluate_arrays
 from ..cells.registry import BY_NAME
@@ -121,6 +129,30 @@ class _Library:
         return np.array(cells, dtype=float)
 
 
+def _temperature_positions(entry) -> tuple[int, ...]:
+    """Where ``entry`` takes temperatures (its °C arguments), from the cell registry."""
+    found = _TEMPERATURES.get(entry.name)
+    if found is None:
+        found = _TEMPERATURES[entry.name] = tuple(i for i, arg in enumerate(entry.args) if arg.unit == "°C")
+    return found
+
+
+_TEMPERATURES: dict[str, tuple[int, ...]] = {}
+
+
+def _mixes_kelvin_looking(entry, columns) -> bool:
+    """Whether the elements of a call differ in which of their temperatures look like kelvin
+    (the module docstring says why such a call is not trusted): the same pattern in every
+    element is each temperature column wholly inside the span or wholly outside."""
+    low, high = KELVIN_LOOKING
+    for i in _temperature_positions(entry):
+        if i < len(columns):
+            inside = (columns[i] >= low) & (columns[i] <= high)
+            if inside.any() and not inside.all():
+                return True
+    return False
+
+
 def _run(plan: Plan, columns: list, size: int):
     """The plan on input columns: the output (one element per cell), or None when any part of
     the call gave a note, a warning or an exception, or an element is not a finite number or a
@@ -139,8 +171,10 @@ def _run(plan: Plan, columns: list, size: int):
                     if isinstance(step, _Library):
                         data[out] = step(args, size)
                         continue
-                    value, notes = evaluate_arrays(step, *[np.broadcast_to(np.asarray(a, dtype=float), (size,))
-                                                           for a in args])
+                    columns = [np.broadcast_to(np.asarray(a, dtype=float), (size,)) for a in args]
+                    if _mixes_kelvin_looking(step, columns):
+                        return None
+                    value, notes = evaluate_arrays(step, *columns)
                     if notes:
                         return None
                     data[out] = value
@@ -214,18 +248,30 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
         return
     assert plan is not None and positions is not None   # batched only with a plan
     table = np.array([numbers for _, numbers in batched], dtype=np.float64)   # cells x references
+    # Cells alike in which inputs look like kelvin side by side (stable, else as calculated):
+    # a part mixing them is not trusted (_mixes_kelvin_looking), so the parts that must be
+    # split are the few at the seams, not every part of a column where they alternate.
+    low, high = KELVIN_LOOKING
+    inside = (table >= low) & (table <= high)
+    if inside.any():
+        order = np.lexsort(inside.T[::-1]).tolist()
+        batched, table = [batched[i] for i in order], table[order]
     scales = np.abs(table).max(axis=1)
-    parts = [(0, len(batched))]
+    # (start, stop, sibling): a half of a part that failed names its first half's start, so
+    # that once the first half went through, the second is known to fail untried (what failed
+    # the whole is in it); the whole batch and first halves have no sibling (None).
+    parts: list[tuple[int, int, int | None]] = [(0, len(batched), None)]
+    known_to_fail: set[tuple[int, int]] = set()     # such second halves
     while parts:
-        start, stop = parts.pop()
+        start, stop, _ = parts.pop()
         size = stop - start
         out = None
-        if size >= SMALLEST_BATCH:
+        if size >= SMALLEST_BATCH and (start, stop) not in known_to_fail:
             out = _run(plan, [table[start:stop, p] for p in positions], size)
         if out is None:
             if size >= 2 * SMALLEST_BATCH:
                 middle = (start + stop) // 2
-                parts.extend(((middle, stop), (start, middle)))
+                parts.extend(((middle, stop, start), (start, middle, None)))
                 continue
             for (key, numbers), scale in zip(batched[start:stop], scales[start:stop].tolist()):
                 if plan.single is not None:
@@ -240,3 +286,5 @@ def calculate_batch(model, keys, values, results, recorder, area_values, cell_va
             own = abs(value) if type(value) is float else 0.0
             results[key] = judge(value, value, own if plan.ours else max(scale, own),
                                  label(*key), (), (), None)
+        if parts and parts[-1][2] == start and parts[-1][0] == stop:   # this was a first half
+            known_to_fail.add(parts[-1][:2])

@@ -3,9 +3,10 @@ the registered methods with title, equation, validity and source, and the auto r
 
 from __future__ import annotations
 
-import textwrap
+from functools import lru_cache
 from typing import Any, Callable, Sequence, TypeVar
 
+from .._docs import fill
 from .registry import CORRELATIONS, GEOMETRIES
 
 F = TypeVar("F", bound=Callable[..., Any])
@@ -21,10 +22,12 @@ INPUT_DOCS = {
 
 
 def _indent(text: str, spaces: int = 4) -> str:
-    return textwrap.fill(" ".join(text.split()), width=96, initial_indent=" " * spaces,
-                         subsequent_indent=" " * spaces)
+    return fill(" ".join(text.split()), 96, " " * spaces, " " * spaces)
 
 
+# Read once per geometry: its nu_ and h_ functions (and cavity_method) share the section, and
+# writing it is most of what documenting costs at import.
+@lru_cache(maxsize=None)
 def methods_section(geometry: str) -> str:
     """The Notes section of a geometry's public functions: every registered method with its
     title, equation, validity and source, and the auto rule, read from the registry."""

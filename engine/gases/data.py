@@ -3,11 +3,11 @@ and the docstring text generated from them (every docstring that lists gases rea
 
 from __future__ import annotations
 
-import textwrap
 from dataclasses import dataclass
 
 import numpy as np
 
+from .._docs import fill
 from ..validity import Range
 
 STANDARD_PRESSURE = 101325.0  # Pa, 1 standard atmosphere
@@ -93,14 +93,12 @@ def _source_lines(indent: str, names: tuple[str, ...] | None = None) -> str:
     lines = [f"{gas.name}: {gas.source}." for gas in GASES.values() if names is None or gas.name in names]
     if names is None:
         lines.append("Mixtures: ISO 15099:2003, Annex B.")
-    return "\n".join(textwrap.fill(line, 92, initial_indent=indent,
-                                   subsequent_indent=indent + "    ") for line in lines)
+    return "\n".join(fill(line, 92, indent, indent + "    ") for line in lines)
 
 
 def _gas_doc(indent: str) -> str:
     """How a gas argument is written, for every docstring that takes one."""
-    return textwrap.fill(
+    return fill(
         "One of " + ", ".join(GAS_NAMES) + ', or a mixture of them written "argon:0.9, '
         'air:0.1" (mole fractions summing to 1 within '
-        f"{MIXTURE_SUM_TOLERANCE:g}); case and spaces are free.", 92,
-        initial_indent=indent, subsequent_indent=indent).lstrip()
+        f"{MIXTURE_SUM_TOLERANCE:g}); case and spaces are free.", 92, indent, indent).lstrip()

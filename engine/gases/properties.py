@@ -4,10 +4,10 @@ tables), its body one call of the shared implementation."""
 
 from __future__ import annotations
 
-import textwrap
 from dataclasses import dataclass
 from typing import Callable, TypeVar
 
+from .._docs import fill
 from ..plausibility import temperature_slip, warn_slips
 from .._typing import ArrayLike, FloatOrArray
 from ..validity import ABSOLUTE_ZERO_C
@@ -77,7 +77,7 @@ def _docstring(info: GasPropertyInfo, for_air: bool) -> str:
                  "    components are valid):\n\n" + _range_lines("        "))
         sources = _source_lines("")
         call, shown = f"stillair.{name}('argon', 10.0)", info.examples[1]
-    method = textwrap.fill(
+    method = fill(
         f"Method: {info.definition} Interpolated in tables computed from the reference "
         "formulations (error below 1e-6 relative); see the stillair.gases module docstring.", 92)
     quantity = info.quantity.split(" = ")[0]

@@ -6,7 +6,6 @@ from __future__ import annotations
 import os
 import sys
 import warnings
-import zipfile
 from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
@@ -109,6 +108,7 @@ def _shipped() -> _ShippedFile | None:
                 if path is None:
                     _shipped_file, _shipped_reason = None, f"{TABLE_FILE_VARIABLE} is off"
                 else:
+                    import zipfile   # here, not at import: the file is read at the first property call
                     try:
                         _shipped_file = _read_table_file(path)
                     except (OSError, ValueError, KeyError, TypeError, zipfile.BadZipFile) as error:
@@ -227,6 +227,8 @@ def write_table_file(path: Path | str = TABLE_FILE, arrays: dict | None = None) 
     """
     # resolved: in a development install the package's file is a link into the source tree, and
     # replacing the link would leave the source file as it was
+    import zipfile
+
     path = Path(path).resolve()
     arrays = table_file_arrays() if arrays is None else arrays
     path.parent.mkdir(parents=True, exist_ok=True)

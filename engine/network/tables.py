@@ -12,7 +12,6 @@ connected group of nodes needs a fixed temperature.
 
 from __future__ import annotations
 
-import difflib
 import re
 from dataclasses import dataclass
 
@@ -243,6 +242,8 @@ class Topology:
 
 def _near(word: str, candidates) -> str | None:
     """The name ``word`` was most likely meant to be (same letters in another case first)."""
+    import difflib   # only for a misspelt name: not worth its import time on every start
+
     lower = {c.lower(): c for c in candidates if c != word}
     near = difflib.get_close_matches(word.lower(), list(lower), n=1, cutoff=0.6)
     return lower[near[0]] if near else None
