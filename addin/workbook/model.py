@@ -508,13 +508,7 @@ class Model:
 
     def downstream(self, seeds) -> set:
         """The seed cells and every formula cell that depends on one (through names too)."""
-        users = self._users()
-        seen, todo = set(seeds), list(seeds)
-        while todo:
-            for user in users.get(todo.pop(), ()):
-                if user not in seen:
-                    seen.add(user)
-                    todo.append(user)
+        seen = _closure(seeds, self._users())
         return {k for k in seen if k[0] != "#name"}
 
     def upstream(self, keys) -> set:
@@ -570,12 +564,7 @@ class Model:
                     if reference.kind == "area" and source == sheet and \
                             reference.r1 <= row <= reference.r2 and reference.c1 <= col <= reference.c2:
                         seeds.add(node_key)
-        seen, todo = set(seeds), list(seeds)
-        while todo:
-            for user in users.get(todo.pop(), ()):
-                if user not in seen:
-                    seen.add(user)
-                    todo.append(user)
+        seen = _closure(seeds, users)
         if len(self._reach_cache) < 64:
             self._reach_cache[set_keys] = seen
         return seen
@@ -958,3 +947,15 @@ def _model_of(path) -> Model:
             _MODELS.pop(next(iter(_MODELS)))
         _MODELS[key] = model
     return model
+
+
+def _closure(seeds, users: dict) -> set:
+    """The seeds and everything that reads them, directly or through others (``users``: each
+    key's readers)."""
+    seen, todo = set(seeds), list(seeds)
+    while todo:
+        for user in users.get(todo.pop(), ()):
+            if user not in seen:
+                seen.add(user)
+                todo.append(user)
+    return seen
