@@ -103,9 +103,7 @@ def _sweep(geometry, case):
     inputs = {name: np.repeat(combos[:, i][:, None], RA.size, axis=1) for i, name in enumerate(others)}
     inputs["ra"] = np.broadcast_to(RA, (len(combos), RA.size))
     auto = nusselt(geometry, "auto", case, notes=False, **inputs)
-    spread = nu_spread(geometry, inputs["ra"], inputs["pr"], case=case, tilt=inputs.get("tilt"),
-                       aspect=inputs.get("aspect"), slenderness=inputs.get("slenderness"))
-    return inputs, auto, spread
+    return inputs, auto, _spread_of(geometry, case, inputs)
 
 
 def _spread_of(geometry, case, inputs):
@@ -141,20 +139,15 @@ def test_auto_lies_inside_the_spread_on_random_lines(geometry, case):
 @pytest.mark.parametrize("geometry, case", CASES, ids=str)
 def test_auto_lies_inside_the_spread_wherever_a_correlation_it_uses_covers(geometry, case):
     inputs, auto, spread = _sweep(geometry, case)
-    usable = set(GEOMETRIES[geometry].auto_methods(case))
-    covered = np.vectorize(lambda methods: any(m.split(" (")[0] in usable for m in methods),
-                           otypes=[bool])(spread.methods)
-    tolerance = 1e-9 * np.abs(spread.high)
-    outside = covered & ((auto.nu < spread.low - tolerance) | (auto.nu > spread.high + tolerance))
-    edge = _at_an_edge(geometry, case, inputs)
+    covered, at_edge, elsewhere = _outside(geometry, case, inputs, auto, spread)
     print(f"{geometry} {case}: {covered.sum()} covered points of {covered.size}, "
-          f"{(outside & edge).sum()} outside at an edge, {(outside & ~edge).sum()} elsewhere")
+          f"{at_edge.sum()} outside at an edge, {elsewhere.sum()} elsewhere")
     where = [(float(inputs["ra"][i]), {k: float(v[i]) for k, v in inputs.items() if k != "ra"},
               float(auto.nu[i]), float(spread.low[i]), float(spread.high[i]))
-             for i in zip(*np.nonzero(outside & ~edge))][:5]
-    assert (outside & ~edge).sum() <= KNOWN_OUTSIDE.get(geometry, 0), \
-        f"{(outside & ~edge).sum()} points outside the spread, e.g. {where}"
-    assert (outside & edge).sum() <= KNOWN_BRIDGED.get(geometry, 0)
+             for i in zip(*np.nonzero(elsewhere))][:5]
+    assert elsewhere.sum() <= KNOWN_OUTSIDE.get(geometry, 0), \
+        f"{elsewhere.sum()} points outside the spread, e.g. {where}"
+    assert at_edge.sum() <= KNOWN_BRIDGED.get(geometry, 0)
 
 
 def _at_an_edge(geometry, case, inputs):

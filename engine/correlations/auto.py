@@ -235,7 +235,8 @@ def _weights_by_rule(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     if scalar:
         geo.__dict__["_nearest_step"][case] = shortfalls.index(nearest)
     coverage = [smaller(larger(1.0 - short, 0.0), 1.0) for short in shortfalls]
-    reach = [_reach_past_edge(steps[index][1], inputs, plain, read) for index in range(len(coverage))]
+    reach = [_reach_past_edge(steps[index][1], inputs, plain, read) if _later_form(steps, index) else 1.0
+             for index in range(len(coverage))]
     claims = [_claim(steps[index][1], inputs, plain, read, cover) for index, cover in enumerate(coverage)]
     weights, left, aside = _taken_in_order(steps, coverage, reach, claims, scalar)
     if not (left + aside > 0.0 if scalar else np.any(left + aside > 0.0)):   # one covers fully
@@ -270,12 +271,12 @@ def _taken_in_order(steps: tuple[CompiledStep, ...], coverage: list[Any], reach:
     for index in range(len(coverage) - 2, -1, -1):
         later[index] = larger(later[index + 1], claims[index + 1])
     for index, cover in enumerate(coverage):
-        if index and steps[index][0] == steps[index - 1][0]:
+        if _later_form(steps, index):
             share, kept = _form_share(cover, coverage[index - 1], reach[index], smaller, larger), 1.0
         else:
             # a step hands on its coverage's fall as far as a later step can claim it (a form
             # of one correlation hands all of it on to its next form)
-            taker = 1.0 if index + 1 < len(coverage) and steps[index + 1][0] == steps[index][0] else later[index]
+            taker = 1.0 if index + 1 < len(coverage) and _later_form(steps, index + 1) else later[index]
             reference = larger(cover, taker)
             share = cover / larger(reference, 1e-300)
             kept = smaller(reference / NEAREST_MARGIN, 1.0)
@@ -285,6 +286,12 @@ def _taken_in_order(steps: tuple[CompiledStep, ...], coverage: list[Any], reach:
         if scalar and left == 0.0:
             break
     return weights + [0.0] * (len(coverage) - len(weights)), left, aside
+
+
+def _later_form(steps: tuple[CompiledStep, ...], index: int) -> bool:
+    """Whether step ``index`` is a later form of the correlation of the step before it (the
+    forms of one correlation are consecutive steps of one method)."""
+    return index > 0 and steps[index][0] == steps[index - 1][0]
 
 
 def _form_share(cover: Any, previous: Any, reach: Any, smaller: Callable, larger: Callable) -> Any:
@@ -378,7 +385,7 @@ def _weights_where_one_covers(steps: tuple[CompiledStep, ...], covering: int, hi
         else:
             short = 0.0
         cover = share = min(max(1.0 - short, 0.0), 1.0)
-        if index and steps[index][0] == steps[index - 1][0]:
+        if _later_form(steps, index):
             share = _form_share(cover, previous, _reach_past_edge(steps[index][1], inputs, plain, read), min, max)
         previous = cover
         weights.append(left * share)
