@@ -200,12 +200,78 @@ def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledSt
     hints = geo.__dict__.get("_nearest_step")
     if hints is None:
         hints = geo.__dict__["_nearest_step"] = {}
+    certificates = geo.__dict__.get("_certificates")
+    if certificates is None:
+        certificates = geo.__dict__["_certificates"] = {}
+    certificate = certificates.get(case)
+    if certificate is not None and certificate[0] is steps and _certified(certificate, inputs, plain):
+        covering = certificate[1]
+        return [0.0] * covering + [1.0], covering
     hint = hints.get(case)
     read: dict[int, Any] = {}
     known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)
     if known == 0.0:
-        return _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
+        weights, covering = _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
+        if covering is not None and not any(weights[:covering]) and not _later_form(steps, covering):
+            certificates[case] = _certificate(steps, covering, inputs, plain)
+        return weights, covering
     return _weights_by_rule(geo, case, inputs, plain, read, hint, known), None
+
+
+#: A certificate of the scalar path's usual outcome (:func:`_certificate`): (the compiled steps
+#: it was made for, the covering step, ((input or ``of``, weightless ends) that rules out each
+#: step before it, ...), ((input or ``of``, full-weight ends) of each range of the covering
+#: step, ...)).
+Certificate = tuple[tuple[CompiledStep, ...], int, tuple[tuple[Any, float, float], ...], tuple[tuple[Any, float, float], ...]]
+
+
+def _certificate(steps: tuple[CompiledStep, ...], covering: int, inputs: Mapping[str, Any],
+                 plain: Mapping[str, float]) -> Certificate | None:
+    """Why step ``covering`` took everything at this point, as bounds to test the next point
+    against: each step before it has a range whose value lies past its weightless ends
+    (shortfall >= 1: it weighs nothing), and every range of the covering step holds its value
+    inside its full-weight interval (shortfall 0), which is not a later form of a correlation.
+    Where a point meets the same bounds the rule gives the same weights (nothing before, all to
+    the covering step) whatever the exact shortfalls, so :func:`_plain_step_weights` tests them
+    (:func:`_certified`) before running the rule: a spreadsheet column or a solver's iteration
+    mostly stays in one correlation's range.  None where a step before is ruled out only by the
+    exact arithmetic (no certificate: the rule runs every time)."""
+    outside = []
+    for _, ranges, _ in steps[:covering]:
+        for _, key, _, _, below, above in _reading(ranges):
+            if not below <= _value(key, inputs, plain) <= above:   # (NaN lies past neither end)
+                outside.append((key, below, above))
+                break
+        else:
+            return None
+    inside = tuple((key, low, high) for _, key, low, high, _, _ in _reading(steps[covering][1]))
+    if not all(low < _value(key, inputs, plain) < high for key, low, high in inside):
+        return None     # covered by the exact arithmetic at an end: a certificate would rarely hold
+    return steps, covering, tuple(outside), inside
+
+
+def _certified(certificate: Certificate, inputs: Mapping[str, Any], plain: Mapping[str, float]) -> bool:
+    """Whether a point meets the bounds of ``certificate`` (:func:`_certificate`)."""
+    for key, below, above in certificate[2]:
+        value = plain[key] if type(key) is str else float(key(inputs))
+        if not (value < below or value > above):
+            return False
+    for key, low, high in certificate[3]:
+        value = plain[key] if type(key) is str else float(key(inputs))
+        if not low < value < high:
+            return False
+    return True
+
+
+def _value(key: Any, inputs: Mapping[str, Any], plain: Mapping[str, float]) -> float:
+    """The value a range reads on the scalar path: an input's, or its computed quantity's."""
+    return plain[key] if type(key) is str else float(key(inputs))
+
+
+def _reading(ranges: tuple[tuple[Range, Any], ...]) -> tuple[tuple[Range, Any, float, float, float, float], ...]:
+    """A step's ranges as the scalar path reads them (:func:`_plain_reading`), in their order."""
+    entry = _READ_ORDER.get(id(ranges))
+    return _plain_reading(ranges) if entry is None else entry[1]
 
 
 def _weights_by_rule(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
