@@ -26,12 +26,59 @@ import time as _time
 
 _import_started = _time.perf_counter()   # the command reports what importing the engine took
 
-# First, before the heavy imports below: Ctrl-C while the `stillair` command starts ends in one
-# line, not a traceback (only when this process is that command; see _console).
-from ._console import guard_command_start as _guard_command_start
-from ._console import one_blas_thread_for_command as _one_blas_thread_for_command
+
+
+# First, before any import of ours: Ctrl-C while the `stillair` command starts ends in one line,
+# not a traceback (only when this process is that command).  Written here, not in _console:
+# importing even that small module (compiling it, where no bytecode is kept) left milliseconds
+# in which Ctrl-C still printed a traceback.  _console hands Ctrl-C back once the command runs.
+
+def _started_as_command() -> bool:
+    """Whether this process is the ``stillair`` command: its console script (``stillair``,
+    ``stillair.exe``, ``stillair-script.py``) or ``python -m stillair[.…]``."""
+    import os
+    import sys      # both loaded by the interpreter's own start-up: no import time
+
+    name = os.path.basename(sys.argv[0]).lower() if sys.argv and sys.argv[0] else ""
+    for suffix in (".exe", "-script.pyw", "-script.py"):
+        name = name.removesuffix(suffix)
+    if name == "stillair":
+        return True
+    argv = getattr(sys, "orig_argv", [])
+    return any(flag == "-m" and (module == "stillair" or module.startswith("stillair."))
+               for flag, module in zip(argv, argv[1:]))
+
+
+def _interrupted_while_starting(signum, frame):
+    """Ctrl-C while the command is still importing: one line, exit status 2 (EXIT_CANNOT_RUN).
+    Ended here, not by raising: an exception raised inside a C extension's import (numpy's own)
+    comes out as that library's ImportError with a traceback; nothing is open yet to be flushed
+    or closed.  Written with os.write: _console (say) may itself be half imported."""
+    import os
+
+    try:
+        os.write(2, b"stillair: interrupted\n")
+    finally:
+        os._exit(2)
+
+
+def _guard_command_start() -> None:
+    if not _started_as_command():
+        return      # a program that imports stillair as a library keeps Python's own Ctrl-C
+    # signal's C module: the signal module itself imports enum (a few ms under ``python -m``)
+    import _signal  # type: ignore[import-not-found]  # (typeshed has no stub for the C module)
+
+    try:
+        if _signal.getsignal(_signal.SIGINT) is _signal.default_int_handler:
+            _signal.signal(_signal.SIGINT, _interrupted_while_starting)
+    except (ValueError, OSError):      # not the main thread: leave Ctrl-C alone
+        pass
+
 
 _guard_command_start()
+
+from ._console import one_blas_thread_for_command as _one_blas_thread_for_command  # noqa: E402
+
 _one_blas_thread_for_command()      # before numpy loads its BLAS (see _console)
 
 from .validity import *  # noqa: F401,F403,E402

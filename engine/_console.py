@@ -9,8 +9,8 @@ Two everyday situations must not end in a traceback:
   pages): such characters are written in plain ASCII ("degC", "m2") instead of failing;
 - output piped into a reader that stops early (``stillair functions | head``): the command stops
   with one line on stderr and exit status 2;
-- Ctrl-C, also while the command is still importing (``guard_command_start``, called by the
-  package's ``__init__`` before its heavy imports): one line, exit status 2.
+- Ctrl-C, also while the command is still importing (the package's ``__init__`` installs that
+  guard before any import of ours; ``run_command`` hands Ctrl-C back): one line, exit status 2.
 """
 
 from __future__ import annotations
@@ -19,17 +19,12 @@ import codecs
 import os
 import sys
 
-# Not typing's TYPE_CHECKING: importing typing (~8 ms) here, before the package's __init__ has
-# installed the start-up Ctrl-C guard, left a window where Ctrl-C gave a traceback; type
-# checkers take a module's own TYPE_CHECKING as true all the same.
-TYPE_CHECKING = False
-if TYPE_CHECKING:
-    from typing import Callable
+from typing import TYPE_CHECKING, Callable
 
+if TYPE_CHECKING:
     from ._parser import OneLineParser
 
-__all__ = ["EXIT_CANNOT_RUN", "OneLineParser", "UsageError", "ascii_fallback", "guard_command_start",
-           "run_command", "say", "say_line"]
+__all__ = ["EXIT_CANNOT_RUN", "OneLineParser", "UsageError", "ascii_fallback", "run_command", "say", "say_line"]
 
 EXIT_CANNOT_RUN = 2
 
@@ -98,48 +93,6 @@ def __getattr__(name: str) -> type[OneLineParser]:
     raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
-def _started_as_command() -> bool:
-    """Whether this process is the ``stillair`` command: its console script (``stillair``,
-    ``stillair.exe``, ``stillair-script.py``) or ``python -m stillair[.…]``."""
-    name = os.path.basename(sys.argv[0]).lower() if sys.argv and sys.argv[0] else ""
-    for suffix in (".exe", "-script.pyw", "-script.py"):
-        name = name.removesuffix(suffix)
-    if name == "stillair":
-        return True
-    argv = getattr(sys, "orig_argv", [])
-    return any(flag == "-m" and (module == "stillair" or module.startswith("stillair."))
-               for flag, module in zip(argv, argv[1:]))
-
-
-def _interrupted_while_starting(signum, frame):
-    say("stillair", "interrupted")
-    # Ended here, not by raising: an exception raised inside a C extension's import (numpy's
-    # own) comes out as that library's ImportError with a traceback.  Nothing is open yet to
-    # be flushed or closed: the command has only been importing.
-    try:
-        sys.stderr.flush()
-    finally:
-        os._exit(EXIT_CANNOT_RUN)
-
-
-def guard_command_start() -> None:
-    """Ctrl-C while the ``stillair`` command is still importing (numpy, scipy and the engine take
-    a good part of a second) ends as a Ctrl-C later does: one line, exit status 2, no traceback.
-
-    The package's ``__init__`` calls this before its heavy imports; ``run_command`` hands
-    Ctrl-C back to Python once the command runs.  A program that imports stillair as a library
-    keeps Python's own Ctrl-C."""
-    if not _started_as_command():
-        return
-    import signal
-
-    try:
-        if signal.getsignal(signal.SIGINT) is signal.default_int_handler:
-            signal.signal(signal.SIGINT, _interrupted_while_starting)
-    except (ValueError, OSError):      # not the main thread: leave Ctrl-C alone
-        pass
-
-
 #: The variables OpenBLAS (numpy's BLAS) takes its thread count from, in its order.
 _BLAS_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS")
 
@@ -152,12 +105,18 @@ def one_blas_thread_for_command() -> None:
     (``--jobs`` spreads work over processes instead).  Called before numpy is first imported,
     when the library reads the variable; a program that imports stillair keeps its own threads.
     """
+    from . import _started_as_command
+
     if _started_as_command() and not any(os.environ.get(name) for name in _BLAS_THREAD_VARIABLES):
         os.environ["OPENBLAS_NUM_THREADS"] = "1"
 
 
 def _release_start_guard() -> None:
+    """Hand Ctrl-C back to Python (a KeyboardInterrupt) once the command runs; the package's
+    ``__init__`` took it over while the command was importing (``_guard_command_start``)."""
     import signal
+
+    from . import _interrupted_while_starting
 
     try:
         if signal.getsignal(signal.SIGINT) is _interrupted_while_starting:
