@@ -333,6 +333,43 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
             assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (result["path"], prefix, cells[f"C{row}"])
 
 
+def test_an_opened_book_shows_every_value_without_a_recalculation(installation, tmp_path):
+    """The load job rebinds our calls and computes nothing itself: LibreOffice computes a
+    rebound cell when its value is read (shown, saved, printed or read through the API), as it
+    does any formula it has to recompute.  Read with no recalculation at all, every cell of a
+    book written with stale cached values (xlsxwriter stores 0) shows its own value: ours, a
+    built-in formula that reads ours (in the same row and across rows), ours reading ours, and a
+    named formula."""
+    rows = 300
+    path = tmp_path / "lazy.xlsx"
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for r in range(rows):
+        n = r + 1
+        ws.write(r, 0, 10.0 + 0.05 * r)
+        ws.write_formula(r, 1, f"=AIR_DENSITY(A{n})", None, 0)
+        ws.write_formula(r, 2, f"=B{n}*2", None, 0)                       # built-in reading ours
+        ws.write_formula(r, 3, f'=H_CAVITY(A{n},5,0.016,1.2,,"air")', None, 0)
+        ws.write_formula(r, 4, f"=AIR_CONDUCTIVITY(B{n})", None, 0)       # ours reading ours
+    ws.write_formula(0, 6, f"=SUM(D1:D{rows})", None, 0)                   # across every row
+    ws.write_formula(1, 6, "=2*Gap_h", None, 0)
+    wb.define_name("Gap_h", '=H_CAVITY(15,5,0.016,1.2,,"air")')
+    wb.close()
+    result = run_session(installation, [{"open": str(path), "recalculate": False}], tmp_path)[0]
+    cells = result["sheets"]["Calc"]
+    total = 0.0
+    for r in range(rows):
+        n, t = r + 1, 10.0 + 0.05 * r
+        density, h = call("AIR_DENSITY", t), call("H_CAVITY", t, 5.0, 0.016, 1.2)
+        total += h
+        assert same(density, lo_value(cells[f"B{n}"]))[0], (n, cells[f"B{n}"])
+        assert same(2 * density, lo_value(cells[f"C{n}"]))[0], (n, cells[f"C{n}"])
+        assert same(h, lo_value(cells[f"D{n}"]))[0], (n, cells[f"D{n}"])
+        assert same(call("AIR_CONDUCTIVITY", density), lo_value(cells[f"E{n}"]))[0], (n, cells[f"E{n}"])
+    assert same(total, lo_value(cells["G1"]))[0], cells["G1"]
+    assert same(2 * call("H_CAVITY", 15.0, 5.0, 0.016, 1.2), lo_value(cells["G2"]))[0], cells["G2"]
+
+
 def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
     """The load job writes the columns of a rectangle that hold our calls in chunks of rows
     from the bottom up (stillair_calc.chunk_rows(600) = 97 rows): every row of a block longer

@@ -4,7 +4,8 @@ Run as a script by the tests and the benchmark: ``python3 session.py REQUEST.jso
 JSON object.  The request names an isolated user profile and shared-extension cache (the
 extension is installed there with ``unopkg add --shared``), and a list of jobs:
 
-``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``) and
+``{"functions": [NAME, ...]}``: what the Function Wizard lists for them.  ``{"open": PATH}``: load the workbook hidden, recalculate everything (``calculateAll``; not with
+``"recalculate": false``: the cells then show what the load left, computed as they are read) and
 report every formula cell (formula, value or text, error code) and the load and recalculation
 times (wall, and the CPU time soffice spent: ``load_cpu_seconds``; ``load_started`` and
 ``load_finished``, time.perf_counter, to place the extension's timing marks); ``"report": false`` leaves
@@ -147,14 +148,15 @@ def read_formula_cells(doc):
     return out
 
 
-def open_and_recalculate(desktop, path, cpu=lambda: 0.0, report=True):
+def open_and_recalculate(desktop, path, cpu=lambda: 0.0, report=True, recalculate=True):
     started, cpu_started = time.perf_counter(), cpu()
     doc = desktop.loadComponentFromURL(_url(path), "_blank", 0, _props(Hidden=True))
     if doc is None:  # the first load after an extension was installed can come back empty
         started, cpu_started = time.perf_counter(), cpu()
         doc = desktop.loadComponentFromURL(_url(path), "_blank", 0, _props(Hidden=True))
     loaded, cpu_loaded = time.perf_counter(), cpu()
-    doc.calculateAll()
+    if recalculate:
+        doc.calculateAll()
     calculated = time.perf_counter()
     try:
         return {"path": path, "load_seconds": loaded - started, "load_started": started,
@@ -275,7 +277,7 @@ def main(request_path):
                     results.append(function_descriptions(session.ctx, set(job["functions"])))
                 elif "open" in job:
                     results.append(open_and_recalculate(session.desktop, job["open"], session.cpu,
-                                                        job.get("report", True)))
+                                                        job.get("report", True), job.get("recalculate", True)))
                 elif "recalc" in job:
                     results.append(time_recalculation(session.desktop, job["recalc"]["inputs"],
                                                       job["recalc"]["formulas"], job.get("repeat", 3),
