@@ -352,18 +352,24 @@ def test_radians_of_one_number_is_numpy_radians_bit_for_bit():
 @pytest.mark.parametrize("geometry", sorted(GEOMETRIES))
 def test_a_certified_point_is_weighed_as_the_rule_weighs_it(geometry, monkeypatch):
     """The scalar path first tests a point against the certificate of the last covering outcome
-    (auto._certified: the steps before the covering one each past a weightless end, every range
+    (auto._met_certificate: the steps before the covering one each past a weightless end, every range
     of the covering one inside its full-weight interval) and then gives all the weight to that
     step without running the rule.  On random walks (small steps, which mostly stay in one
     correlation's range, and jumps anywhere) every point's weights are the rule's own, run
     from scratch with no hint and no certificate; where the certificate held they are 0 but
     one 1, exactly."""
-    from stillair.correlations import auto
+    from stillair.correlations import auto, nusselt
     rng = np.random.default_rng(43)
     geo = GEOMETRIES[geometry]
     told = []
-    real = auto._certified
-    monkeypatch.setattr(auto, "_certified", lambda *args: told.append(real(*args)) or told[-1])
+    real = auto._met_certificate
+
+    def counted(*args):
+        met = real(*args)
+        told.append(met is not None)
+        return met
+
+    monkeypatch.setattr(auto, "_met_certificate", counted)
     logs = {"ra": (-6.0, 12.0), "pr": (-1.5, 3.0), "aspect": (-0.5, 2.5), "slenderness": (-1.0, 3.0),
             "re": (-2.0, 9.0)}
 
@@ -395,6 +401,12 @@ def test_a_certified_point_is_weighed_as_the_rule_weighs_it(geometry, monkeypatc
                 assert sorted(rule) == [0.0] * (len(steps) - 1) + [1.0] and weights == rule, (case, plain)
             else:
                 np.testing.assert_allclose(weights, rule, rtol=0, atol=1e-12, err_msg=str((case, plain)))
+            # the whole scalar result (auto_scalar: met certificates take a shorter way to the
+            # value and the note) is the array path's
+            nu, method, note, blend = auto.auto_scalar(geo, case, inputs, plain)
+            whole = nusselt(geometry, "auto", case, **{name: np.array([value]) for name, value in plain.items()})
+            assert nu == pytest.approx(whole.nu[0], rel=1e-14, abs=0), (case, plain)
+            assert (method, note, blend) == (whole.method[0], whole.note[0], whole.blend[0]), (case, plain)
     # the walks reach the certificate's both answers (a test of it must see it used)
     # (seed 43: from 50 certified points of 402 tests on sphere-flow to 1,322 of 1,860 on channel)
     assert certified_points > 25 and not all(told)

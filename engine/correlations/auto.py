@@ -188,52 +188,74 @@ def _step_weights(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
 
 
 def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...],
-                        inputs: Mapping[str, Any], plain: Mapping[str, float]) -> tuple[list[float], int | None]:
+                        inputs: Mapping[str, Any], plain: Mapping[str, float],
+                        tested: bool = False) -> tuple[list[float], int | None]:
     """:func:`_step_weights` on the scalar path (the steps past the end of the list weigh
-    nothing), and the step that covers fully (shortfall 0) and takes what is left, where the weights come from :func:`_weights_where_one_covers`
-    (else None): every range that step reads holds, and the note need not read them again
-    (:func:`auto_scalar`).
+    nothing), and the step that covers fully (shortfall 0) and takes what is left, where the
+    weights come from :func:`_weights_where_one_covers` or the last certificate (else None):
+    every range that step reads holds, and the note need not read them again
+    (:func:`auto_scalar`).  ``tested``: the caller found already that the point does not meet
+    the last certificate (:func:`_certified_step`).
 
     The step that was nearest at the last call of this rule is read first (a hint only: its
     shortfall bounds the least from above, so the steps before it in order are cut sooner; the
     weights are the same whichever step is read first)."""
+    if not tested:
+        certificate = _met_certificate(geo, case, steps, inputs, plain)
+        if certificate is not None:
+            covering = certificate[1]
+            return [0.0] * covering + [1.0], covering
     hints = geo.__dict__.get("_nearest_step")
     if hints is None:
         hints = geo.__dict__["_nearest_step"] = {}
-    certificates = geo.__dict__.get("_certificates")
-    if certificates is None:
-        certificates = geo.__dict__["_certificates"] = {}
-    certificate = certificates.get(case)
-    if certificate is not None and certificate[0] is steps and _certified(certificate, inputs, plain):
-        covering = certificate[1]
-        return [0.0] * covering + [1.0], covering
     hint = hints.get(case)
     read: dict[int, Any] = {}
     known = math.inf if hint is None else _shortfall_of(steps[hint][1], inputs, plain, read)
     if known == 0.0:
         weights, covering = _weights_where_one_covers(steps, hint, hints, case, inputs, plain, read)  # type: ignore[arg-type]
         if covering is not None and not any(weights[:covering]) and not _later_form(steps, covering):
-            certificates[case] = _certificate(steps, covering, inputs, plain)
+            geo.__dict__.setdefault("_certificates", {})[case] = _certificate(geo, case, steps, covering, inputs, plain)
         return weights, covering
     return _weights_by_rule(geo, case, inputs, plain, read, hint, known), None
+
+
+def _met_certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...],
+                     inputs: Mapping[str, Any], plain: Mapping[str, float]) -> Certificate | None:
+    """The last certificate of this rule and case (:func:`_certificate`) where the point meets
+    its bounds: the rule would give its covering step all the weight.  Else None."""
+    certificates = geo.__dict__.get("_certificates")
+    certificate = None if certificates is None else certificates.get(case)
+    if certificate is None or certificate[0] is not steps:
+        return None
+    for key, below, above in certificate[2]:
+        value = plain[key] if type(key) is str else float(key(inputs))
+        if not (value < below or value > above):
+            return None
+    for key, low, high in certificate[3]:
+        value = plain[key] if type(key) is str else float(key(inputs))
+        if not low < value < high:
+            return None
+    return certificate
 
 
 #: A certificate of the scalar path's usual outcome (:func:`_certificate`): (the compiled steps
 #: it was made for, the covering step, ((input or ``of``, weightless ends) that rules out each
 #: step before it, ...), ((input or ``of``, full-weight ends) of each range of the covering
-#: step, ...)).
-Certificate = tuple[tuple[CompiledStep, ...], int, tuple[tuple[Any, float, float], ...], tuple[tuple[Any, float, float], ...]]
+#: step, ...), and for :func:`auto_scalar`: the covering step's method, the function it
+#: evaluates, its correlation and the ranges its note reads (:func:`_unsettled_ranges`)).
+Certificate = tuple[tuple[CompiledStep, ...], int, tuple[tuple[Any, float, float], ...],
+                    tuple[tuple[Any, float, float], ...], str, Callable[..., Any], Correlation, tuple[Range, ...]]
 
 
-def _certificate(steps: tuple[CompiledStep, ...], covering: int, inputs: Mapping[str, Any],
-                 plain: Mapping[str, float]) -> Certificate | None:
+def _certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...], covering: int,
+                 inputs: Mapping[str, Any], plain: Mapping[str, float]) -> Certificate | None:
     """Why step ``covering`` took everything at this point, as bounds to test the next point
     against: each step before it has a range whose value lies past its weightless ends
     (shortfall >= 1: it weighs nothing), and every range of the covering step holds its value
     inside its full-weight interval (shortfall 0), which is not a later form of a correlation.
     Where a point meets the same bounds the rule gives the same weights (nothing before, all to
-    the covering step) whatever the exact shortfalls, so :func:`_plain_step_weights` tests them
-    (:func:`_certified`) before running the rule: a spreadsheet column or a solver's iteration
+    the covering step) whatever the exact shortfalls, so the scalar path tests them
+    (:func:`_met_certificate`) before running the rule: a spreadsheet column or a solver's iteration
     mostly stays in one correlation's range.  None where a step before is ruled out only by the
     exact arithmetic (no certificate: the rule runs every time)."""
     outside = []
@@ -247,20 +269,9 @@ def _certificate(steps: tuple[CompiledStep, ...], covering: int, inputs: Mapping
     inside = tuple((key, low, high) for _, key, low, high, _, _ in _reading(steps[covering][1]))
     if not all(low < _value(key, inputs, plain) < high for key, low, high in inside):
         return None     # covered by the exact arithmetic at an end: a certificate would rarely hold
-    return steps, covering, tuple(outside), inside
-
-
-def _certified(certificate: Certificate, inputs: Mapping[str, Any], plain: Mapping[str, float]) -> bool:
-    """Whether a point meets the bounds of ``certificate`` (:func:`_certificate`)."""
-    for key, below, above in certificate[2]:
-        value = plain[key] if type(key) is str else float(key(inputs))
-        if not (value < below or value > above):
-            return False
-    for key, low, high in certificate[3]:
-        value = plain[key] if type(key) is str else float(key(inputs))
-        if not low < value < high:
-            return False
-    return True
+    method, _, function = steps[covering]
+    corr = CORRELATIONS[(geo.name, method)]
+    return steps, covering, tuple(outside), inside, method, function, corr, _unsettled_ranges(corr, case)
 
 
 def _value(key: Any, inputs: Mapping[str, Any], plain: Mapping[str, float]) -> float:
@@ -495,15 +506,15 @@ def weigh_steps(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
 
 
 def _weigh_plain(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
-                 plain: Mapping[str, float]) -> tuple[float, dict[str, float], str | None]:
+                 plain: Mapping[str, float], tested: bool = False) -> tuple[float, dict[str, float], str | None]:
     """:func:`weigh_steps` for one case: the same sum, each weighted method's value (a numpy
     scalar) floored as a float; and the method of the step that covered fully and took what
-    was left (:func:`_plain_step_weights`), or None."""
+    was left (:func:`_plain_step_weights`, ``tested`` as there), or None."""
     floor = -math.inf if geo.floor is None else geo.floor
     steps = _compiled_steps(geo, case)
     nu = 0.0
     weights: dict[str, float] = {}
-    step_weights, covering = _plain_step_weights(geo, case, steps, inputs, plain)
+    step_weights, covering = _plain_step_weights(geo, case, steps, inputs, plain, tested)
     for (method, _, function), weight in zip(steps, step_weights):
         if weight > 0.0:
             raw = function(case=case, **inputs) if geo.cases else function(**inputs)
@@ -526,8 +537,14 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     for a bound crossed.  The method whose step covered fully reads only the ranges that step
     did not settle (:func:`_unsettled_ranges`)."""
     floor = -math.inf if geo.floor is None else geo.floor
-    nu, weights, settled = _weigh_plain(geo, case, inputs, plain)
-    if len(weights) == 1:    # the usual case: one method, its own note, no blend
+    steps = _compiled_steps(geo, case)
+    certificate = _met_certificate(geo, case, steps, inputs, plain)
+    if certificate is not None:    # the usual case: the last point's covering step takes all again
+        _, _, _, _, name, function, corr, unsettled = certificate
+        nu = max(_first(function(case=case, **inputs) if geo.cases else function(**inputs)), floor)
+        return nu, name, _scalar_note(corr, inputs, plain, case, unsettled) if unsettled else "", ""
+    nu, weights, settled = _weigh_plain(geo, case, inputs, plain, tested=True)
+    if len(weights) == 1:    # one method, its own note, no blend
         (name,) = weights
         return max(nu, floor), name, _plain_note(geo, case, name, settled, inputs, plain), ""
     names = _rule_order(geo, case, weights)

@@ -5,6 +5,7 @@ the flux cases."""
 from __future__ import annotations
 
 import math
+import sys
 from typing import Mapping
 
 import numpy as np
@@ -178,11 +179,15 @@ def nusselt_checked(geo: Geometry, method: str, case, inputs: Mapping[str, np.nd
 
 
 def _plain_domains(geo: Geometry) -> tuple[tuple[str, float, float, bool], ...]:
-    """(name, low, high, low end open) of each input, from :func:`_input_domain`, made once per
+    """(name, low, high, low end open) of each input, from :func:`_input_domain` (high finite), made once per
     geometry (a cache, not a field of the frozen Geometry): the scalar path reads it per call."""
     domains = geo.__dict__.get("_plain_domains")
     if domains is None:
-        domains = geo.__dict__["_plain_domains"] = tuple((name, *_input_domain(name, geo)) for name in geo.inputs)
+        # an infinite upper end as the largest float: the one comparison value <= high then
+        # refuses inf too (no plain number), where it took a second
+        domains = geo.__dict__["_plain_domains"] = tuple(
+            (name, low, min(high, sys.float_info.max), low_open)
+            for name, low, high, low_open in ((name, *_input_domain(name, geo)) for name in geo.inputs))
     return domains
 
 
@@ -195,13 +200,14 @@ def _plain_inputs(geo: Geometry, inputs) -> tuple[dict[str, float], dict[str, np
     checks them and words the message)."""
     values = {}
     scalars = {}
-    for name, low, high, low_open in _plain_domains(geo):
+    domains = geo.__dict__.get("_plain_domains") or _plain_domains(geo)   # (the call only the first time)
+    for name, low, high, low_open in domains:
         value = inputs.get(name)
         if type(value) is not float:
             if type(value) not in PLAIN_NUMBERS:
                 return None
             value = float(value)
-        if not ((low < value if low_open else low <= value) and value <= high and value < math.inf):
+        if not ((low < value if low_open else low <= value) and value <= high):
             return None
         values[name] = value
         scalars[name] = _NUMPY_FLOAT(value)
@@ -243,6 +249,8 @@ def nusselt_plain(geo: Geometry, method: str | None, case: str | None, function_
     method = _resolve_method(function_name, geo, method, case)
     values = _plain_inputs(geo, _with_default_tilt(geo, inputs))
     if values is not None:
+        if method == "auto":    # the usual call: the rule at once
+            return auto_scalar(geo, case, values[1], values[0])
         return _scalar_parts(geo, method, case, values)
     result = nusselt(geo.name, method, case, function_name=function_name, **inputs)
     return float(result.nu), str(result.method), str(result.note), str(result.blend)

@@ -159,8 +159,8 @@ class _PropertyTable:
         s = t_kelvin - breaks[interval]
         s2 = s * s
         s3 = s2 * s
-        return [((c0 + c1 * s) + c2 * s2) + c3 * s3
-                for c3, c2, c1, c0 in self._coefficient_lists(pressure)[interval]]
+        lists = self._point_coefficients.get(pressure) or self._coefficient_lists(pressure)
+        return [((c0 + c1 * s) + c2 * s2) + c3 * s3 for c3, c2, c1, c0 in lists[interval]]
 
 
 def _temperature_grid(t_range: Range) -> np.ndarray:
