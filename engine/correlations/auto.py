@@ -203,8 +203,7 @@ def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledSt
     if not tested:
         certificate = _met_certificate(geo, case, steps, inputs, plain)
         if certificate is not None:
-            covering = certificate[1]
-            return [0.0] * covering + [1.0], covering
+            return [0.0] * certificate[1] + [1.0], certificate[1]
     hints = geo.__dict__.get("_nearest_step")
     if hints is None:
         hints = geo.__dict__["_nearest_step"] = {}
