@@ -203,3 +203,21 @@ def test_a_second_half_is_not_tried_when_the_first_went_through(tmp_path, monkey
     alone = alone_model.calculate()
     _same(_results(batched), _results(alone))
     assert len(alone.notes) == 10
+
+
+def test_the_scale_of_an_argument_is_its_largest_finite_number():
+    """execute.magnitude, the scale a result is judged against: one cell (a 1x1 array, most
+    arguments) read directly gives what the cell-by-cell reading of a larger area gives."""
+    import math
+
+    import numpy as np
+
+    from stillair.addin.workbook.execute import magnitude
+
+    one = lambda value: np.array([[value]], dtype=object)   # noqa: E731
+    assert magnitude(one(-3.5)) == 3.5 and magnitude(one(2)) == 2.0
+    for nothing in (True, np.bool_(False), math.inf, -math.inf, math.nan, "12", None):
+        assert magnitude(one(nothing)) == 0.0, nothing
+    area = np.array([[1.0, -7.0, True], [math.inf, "x", np.float64(6.5)]], dtype=object)
+    assert magnitude(area) == 7.0 == max(magnitude(one(v)) for v in area.ravel())
+    assert magnitude(-4.0) == 4.0 and magnitude([[2.0, -9.0]]) == 9.0

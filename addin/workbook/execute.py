@@ -30,14 +30,22 @@ class CellRecorder(NoteRecorder):
 def magnitude(arg) -> float:
     """The largest finite number among (the first 10,000 of) a formula's argument's cells."""
     import numpy as np
-    array = np.asarray(arg, dtype=object).ravel()
+    if type(arg) is np.ndarray and arg.size == 1:    # one cell, most arguments: no object copy
+        return _finite_size(arg.flat[0])
     best = 0.0
-    for v in array[:10_000]:
-        if isinstance(v, (int, float, np.integer, np.floating)) and not isinstance(v, (bool, np.bool_)):
-            f = abs(float(v))
-            if math.isfinite(f) and f > best:
-                best = f
+    for v in np.asarray(arg, dtype=object).ravel()[:10_000]:
+        best = max(best, _finite_size(v))
     return best
+
+
+def _finite_size(value) -> float:
+    """abs(value) for a finite number (not a boolean), else 0."""
+    import numpy as np
+    if isinstance(value, (int, float, np.integer, np.floating)) and not isinstance(value, (bool, np.bool_)):
+        size = abs(float(value))
+        if math.isfinite(size):
+            return size
+    return 0.0
 
 
 def cannot_evaluate(members, values, message: str, cause: str) -> dict:
