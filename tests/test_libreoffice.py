@@ -338,8 +338,8 @@ def test_an_opened_book_shows_every_value_without_a_recalculation(installation, 
     rebound cell when its value is read (shown, saved, printed or read through the API), as it
     does any formula it has to recompute.  Read with no recalculation at all, every cell of a
     book written with stale cached values (xlsxwriter stores 0) shows its own value: ours, a
-    built-in formula that reads ours (in the same row and across rows), ours reading ours, and a
-    named formula."""
+    built-in formula that reads ours (in the same row and across rows), ours reading ours, a
+    named formula and an array formula."""
     rows = 300
     path = tmp_path / "lazy.xlsx"
     wb = xlsxwriter.Workbook(str(path))
@@ -354,6 +354,7 @@ def test_an_opened_book_shows_every_value_without_a_recalculation(installation, 
     ws.write_formula(0, 6, f"=SUM(D1:D{rows})", None, 0)                   # across every row
     ws.write_formula(1, 6, "=2*Gap_h", None, 0)
     wb.define_name("Gap_h", '=H_CAVITY(15,5,0.016,1.2,,"air")')
+    ws.write_array_formula("H1:H2", "{=AIR_CONDUCTIVITY(A1:A2)}")            # an array formula
     wb.close()
     result = run_session(installation, [{"open": str(path), "recalculate": False}], tmp_path)[0]
     cells = result["sheets"]["Calc"]
@@ -368,6 +369,8 @@ def test_an_opened_book_shows_every_value_without_a_recalculation(installation, 
         assert same(call("AIR_CONDUCTIVITY", density), lo_value(cells[f"E{n}"]))[0], (n, cells[f"E{n}"])
     assert same(total, lo_value(cells["G1"]))[0], cells["G1"]
     assert same(2 * call("H_CAVITY", 15.0, 5.0, 0.016, 1.2), lo_value(cells["G2"]))[0], cells["G2"]
+    for n in (1, 2):
+        assert same(call("AIR_CONDUCTIVITY", 10.0 + 0.05 * (n - 1)), lo_value(cells[f"H{n}"]))[0], cells[f"H{n}"]
 
 
 def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
