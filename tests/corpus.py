@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 import re
+import warnings
 import zipfile
 from pathlib import Path
 
@@ -82,7 +83,11 @@ def library(path: Path) -> dict[tuple[str, str], object]:
 
     from stillair.addin.workbook.reader import read_book
     sheets = {s.name.upper(): s.name for s in read_book(str(path)).sheets}
-    model = formulas.ExcelModel().loads(str(path)).finish()
+    with warnings.catch_warnings():
+        # openpyxl, under the library, on a worksheet extension it does not know (it would drop it
+        # on saving; nothing is saved here); stillair's own reader reads these files silently
+        warnings.filterwarnings("ignore", "Unknown extension is not supported", UserWarning)
+        model = formulas.ExcelModel().loads(str(path)).finish()
     solution = model.calculate()
     from stillair.addin.workbook.formulas_bridge import input_reference_text
     from stillair.addin.workbook.reader import index_to_col, split_ref
