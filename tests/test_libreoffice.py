@@ -333,6 +333,18 @@ def test_excel_prefixed_calls_are_rebound(installation, tmp_path):
             assert same(2 * h, lo_value(cells[f"C{row}"]))[0], (result["path"], prefix, cells[f"C{row}"])
 
 
+def _rows_book(path, rows: int, formulas: list[str]):
+    """An open xlsxwriter book: sheet Calc, row n holding 10 + 0.05 (n - 1) in column A and the
+    ``formulas`` (``{n}`` the row) in the columns from B on, each cached as 0."""
+    wb = xlsxwriter.Workbook(str(path))
+    ws = wb.add_worksheet("Calc")
+    for r in range(rows):
+        ws.write(r, 0, 10.0 + 0.05 * r)
+        for c, formula in enumerate(formulas, start=1):
+            ws.write_formula(r, c, formula.format(n=r + 1), None, 0)
+    return wb, ws
+
+
 def test_an_opened_book_shows_every_value_without_a_recalculation(installation, tmp_path):
     """The load job rebinds our calls and computes nothing itself: LibreOffice computes a
     rebound cell when its value is read (shown, saved, printed or read through the API), as it
@@ -342,15 +354,9 @@ def test_an_opened_book_shows_every_value_without_a_recalculation(installation, 
     named formula and an array formula."""
     rows = 300
     path = tmp_path / "lazy.xlsx"
-    wb = xlsxwriter.Workbook(str(path))
-    ws = wb.add_worksheet("Calc")
-    for r in range(rows):
-        n = r + 1
-        ws.write(r, 0, 10.0 + 0.05 * r)
-        ws.write_formula(r, 1, f"=AIR_DENSITY(A{n})", None, 0)
-        ws.write_formula(r, 2, f"=B{n}*2", None, 0)                       # built-in reading ours
-        ws.write_formula(r, 3, f'=H_CAVITY(A{n},5,0.016,1.2,,"air")', None, 0)
-        ws.write_formula(r, 4, f"=AIR_CONDUCTIVITY(B{n})", None, 0)       # ours reading ours
+    wb, ws = _rows_book(path, rows, ["=AIR_DENSITY(A{n})", "=B{n}*2",       # a built-in reading ours
+                                     '=H_CAVITY(A{n},5,0.016,1.2,,"air")',
+                                     "=AIR_CONDUCTIVITY(B{n})"])              # ours reading ours
     ws.write_formula(0, 6, f"=SUM(D1:D{rows})", None, 0)                   # across every row
     ws.write_formula(1, 6, "=2*Gap_h", None, 0)
     wb.define_name("Gap_h", '=H_CAVITY(15,5,0.016,1.2,,"air")')
@@ -380,14 +386,8 @@ def test_a_long_block_is_rebound_in_every_row(installation, tmp_path):
     block holding part of an array formula is rebound cell by cell, the array once."""
     rows = 600
     path = tmp_path / "long.xlsx"
-    wb = xlsxwriter.Workbook(str(path))
-    ws = wb.add_worksheet("Calc")
-    for r in range(rows):
-        n = r + 1
-        ws.write(r, 0, 10.0 + 0.05 * r)
-        ws.write_formula(r, 1, f"=AIR_DENSITY(A{n})", None, 0)
-        ws.write_formula(r, 2, f"=A{n}*2", None, 0)  # built-in, inside the same rectangle
-        ws.write_formula(r, 3, f'=H_CAVITY(A{n},5,0.016,1.2,,"air")', None, 0)
+    wb, ws = _rows_book(path, rows, ["=AIR_DENSITY(A{n})", "=A{n}*2",       # built-in, in the same rectangle
+                                     '=H_CAVITY(A{n},5,0.016,1.2,,"air")'])
     ws.write_formula(0, 5, "=AIR_CONDUCTIVITY(A1)", None, 0)
     ws.write_array_formula("F2:F3", "{=AIR_CONDUCTIVITY(A2:A3)}")
     wb.close()
