@@ -195,7 +195,7 @@ def _plain_step_weights(geo: Geometry, case: str | None, steps: tuple[CompiledSt
     weights come from :func:`_weights_where_one_covers` or the last certificate (else None):
     every range that step reads holds, and the note need not read them again
     (:func:`auto_scalar`).  ``tested``: the caller found already that the point does not meet
-    the last certificate (:func:`_certified_step`).
+    the last certificate (:func:`_met_certificate`).
 
     The step that was nearest at the last call of this rule is read first (a hint only: its
     shortfall bounds the least from above, so the steps before it in order are cut sooner; the
@@ -226,6 +226,7 @@ def _met_certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep,
     certificate = None if certificates is None else certificates.get(case)
     if certificate is None or certificate[0] is not steps:
         return None
+    # (_value written out: this runs on every scalar call)
     for key, below, above in certificate[2]:
         value = plain[key] if type(key) is str else float(key(inputs))
         if not (value < below or value > above):
@@ -260,7 +261,8 @@ def _certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...
     outside = []
     for _, ranges, _ in steps[:covering]:
         for _, key, _, _, below, above in _reading(ranges):
-            if not below <= _value(key, inputs, plain) <= above:   # (NaN lies past neither end)
+            value = _value(key, inputs, plain)
+            if value < below or value > above:    # the test _met_certificate makes (NaN fails it)
                 outside.append((key, below, above))
                 break
         else:
