@@ -24,7 +24,7 @@ from typing import Iterator, Mapping
 
 import numpy as np
 
-from .validity import _NOTE_SINK, CorrelationRangeWarning, format_value, is_plain_number
+from .validity import _NOTE_SINK, PLAIN_NUMBERS, CorrelationRangeWarning, format_value, is_plain_number
 
 __all__ = ["UnitSlipWarning", "KELVIN_LOOKING", "PLAUSIBLE_LENGTHS", "temperature_slip", "length_slip",
            "warn_slips", "trial_sizes"]
@@ -77,7 +77,7 @@ def length_slip(name: str, value, plausible: float | None = None) -> str:
     limit = PLAUSIBLE_LENGTHS.get(name) if plausible is None else plausible
     if limit is None:
         return ""
-    if is_plain_number(value):       # one plain number (the scalar path): no array
+    if type(value) in PLAIN_NUMBERS:       # one plain number (is_plain_number, written out): no array
         if not value > limit:
             return ""
         largest = float(value)

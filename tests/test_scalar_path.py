@@ -410,3 +410,33 @@ def test_a_certified_point_is_weighed_as_the_rule_weighs_it(geometry, monkeypatc
     # the walks reach the certificate's both answers (a test of it must see it used)
     # (seed 43: from 50 certified points of 402 tests on sphere-flow to 1,322 of 1,860 on channel)
     assert certified_points > 25 and not all(told)
+
+
+def test_a_certificate_holds_the_published_ranges_the_covering_note_reads():
+    """Where the covering method's note would read ranges the rule does not (auto._unsettled_ranges:
+    here ElSherbiny's published tilt ranges, which jump), the certificate holds their published
+    ends too, so that wherever it is met the note is "" without reading them; a point outside one
+    of them does not meet it (and takes the rule and the note in full)."""
+    from stillair.correlations import auto
+    geo = GEOMETRIES["cavity"]
+    steps = auto._compiled_steps(geo, None)
+    plain = {"ra": 5e3, "pr": 0.71, "aspect": 75.0, "tilt": 90.0}
+    inputs = {name: np.float64(value) for name, value in plain.items()}
+    saved = geo.__dict__.pop("_certificates", None)
+    try:
+        for _ in range(2):   # the rule finds the nearest step, then the step that covers from it
+            auto._plain_step_weights(geo, None, steps, inputs, plain, tested=True)
+        certificate = geo.__dict__["_certificates"][None]
+        unsettled = auto._unsettled_ranges(certificate[7], None)
+        assert certificate[5] == "elsherbiny" and len(unsettled) == 2 and certificate[8] == ()
+        assert [(low, high) for _, low, high in certificate[4]] == [(b.low, b.high) for b in unsettled]
+        assert auto._met_certificate(geo, None, steps, inputs, plain) is certificate
+        assert auto.auto_scalar(geo, None, inputs, plain)[2] == ""
+        key, low, _ = certificate[4][0]
+        geo.__dict__["_certificates"][None] = certificate[:4] + (((key, low, low - 1.0),) + certificate[4][1:],) \
+            + certificate[5:]
+        assert auto._met_certificate(geo, None, steps, inputs, plain) is None
+    finally:
+        geo.__dict__.pop("_certificates", None)
+        if saved is not None:
+            geo.__dict__["_certificates"] = saved

@@ -235,16 +235,23 @@ def _met_certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep,
         value = plain[key] if type(key) is str else float(key(inputs))
         if not low < value < high:
             return None
+    for key, low, high in certificate[4]:
+        value = plain[key] if type(key) is str else float(key(inputs))
+        if not low <= value <= high:
+            return None
     return certificate
 
 
 #: A certificate of the scalar path's usual outcome (:func:`_certificate`): (the compiled steps
 #: it was made for, the covering step, ((input or ``of``, weightless ends) that rules out each
 #: step before it, ...), ((input or ``of``, full-weight ends) of each range of the covering
-#: step, ...), and for :func:`auto_scalar`: the covering step's method, the function it
-#: evaluates, its correlation and the ranges its note reads (:func:`_unsettled_ranges`)).
+#: step, ...), ((input or ``of``, published ends) of each range its note reads, where all held
+#: when it was made, else ()), and for :func:`auto_scalar`: the covering step's method, the
+#: function it evaluates, its correlation and the ranges its note still reads where the
+#: certificate is met (() where the published ends are in the certificate)).
 Certificate = tuple[tuple[CompiledStep, ...], int, tuple[tuple[Any, float, float], ...],
-                    tuple[tuple[Any, float, float], ...], str, Callable[..., Any], Correlation, tuple[Range, ...]]
+                    tuple[tuple[Any, float, float], ...], tuple[tuple[Any, float, float], ...], str,
+                    Callable[..., Any], Correlation, tuple[Range, ...]]
 
 
 def _certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...], covering: int,
@@ -272,7 +279,13 @@ def _certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...
         return None     # covered by the exact arithmetic at an end: a certificate would rarely hold
     method, _, function = steps[covering]
     corr = CORRELATIONS[(geo.name, method)]
-    return steps, covering, tuple(outside), inside, method, function, corr, _unsettled_ranges(corr, case)
+    unsettled = _unsettled_ranges(corr, case)
+    # the ranges the covering method's note reads, as published (closed): where each holds here,
+    # the certificate asks them too, and wherever it is met the note is "" without a reading
+    held = tuple((bound.of or bound.quantity.lower(), bound.low, bound.high) for bound in unsettled)
+    if all(bound.low <= _value(key, inputs, plain) <= bound.high for bound, (key, _, _) in zip(unsettled, held)):
+        return steps, covering, tuple(outside), inside, held, method, function, corr, ()
+    return steps, covering, tuple(outside), inside, (), method, function, corr, unsettled
 
 
 def _value(key: Any, inputs: Mapping[str, Any], plain: Mapping[str, float]) -> float:
@@ -541,7 +554,7 @@ def auto_scalar(geo: Geometry, case: str | None, inputs: Mapping[str, Any],
     steps = _compiled_steps(geo, case)
     certificate = _met_certificate(geo, case, steps, inputs, plain)
     if certificate is not None:    # the usual case: the last point's covering step takes all again
-        _, _, _, _, name, function, corr, unsettled = certificate
+        _, _, _, _, _, name, function, corr, unsettled = certificate
         nu = max(_first(function(case=case, **inputs) if geo.cases else function(**inputs)), floor)
         return nu, name, _scalar_note(corr, inputs, plain, case, unsettled) if unsettled else "", ""
     nu, weights, settled = _weigh_plain(geo, case, inputs, plain, tested=True)
