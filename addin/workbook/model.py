@@ -193,6 +193,9 @@ class Model:
             self.names[(name.sheet.upper() if name.sheet else None, name.name.upper())] = name
         self.nodes: dict[tuple, _Node] = {}
         self._compiled: dict[tuple, tuple] = {}
+        # data-validation rules' formulas compiled by rules.py, by (sheet, cell, formula): --cases
+        # checks the same rules on every row
+        self._compiled_rules: dict[tuple, tuple | None] = {}
         self._plans: dict[tuple, tuple] = {}
         self._steps: list | None = None
         self._base_steps: list | None = None    # the workbook's own calculation, by step (keep_base)

@@ -76,9 +76,9 @@ def _plain_cell(model, evaluation, sets, sheet: str, ref: str):
 
 def _compiled(model, sheet: str, ref: str, formula: str):
     """The rule's formula at ``ref`` compiled (the function and its inputs' references), or
-    None where it cannot be; made once per model and kept on it: ``--cases`` checks the same
-    rules on every row (compiling them took a tenth of a row's time)."""
-    cache = model.__dict__.setdefault("_compiled_rules", {})
+    None where it cannot be; made once per model and kept on it (``Model._compiled_rules``):
+    ``--cases`` checks the same rules on every row (compiling them took a tenth of a row's time)."""
+    cache = model._compiled_rules
     key = (sheet, ref, formula)
     if key not in cache:
         row, col = split_ref(ref)

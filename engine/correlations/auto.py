@@ -125,8 +125,7 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
     and the exact shortfall below 1) takes a value past a range's :attr:`~Range.weightless`
     ends as a shortfall of 1 without the arithmetic (its own is larger); such a lower bound is
     not kept in ``read``, where the other passes read exact shortfalls."""
-    entry = _READ_ORDER.get(id(ranges))
-    order = _plain_reading(ranges) if entry is None else entry[1]
+    order = _reading(ranges)
     largest = 0.0
     for bound, key, low, high, none_below, none_above in order:
         if type(key) is str:    # an input's value: read at once (cheaper than keeping it)
@@ -135,8 +134,10 @@ def _shortfall_of(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, An
                 continue
             short = 1.0 if weighs_only and (value < none_below or value > none_above) else bound.shortfall_of(value)
         else:                   # a computed quantity: once per call, whichever step reads it
-            short = read.get(id(bound))
-            if short is None:
+            kept = read.get(id(bound))
+            if kept is not None:
+                short = kept
+            else:
                 value = float(key(inputs))
                 if low < value < high:
                     read[id(bound)] = 0.0
@@ -283,7 +284,7 @@ def _certificate(geo: Geometry, case: str | None, steps: tuple[CompiledStep, ...
     # the ranges the covering method's note reads, as published (closed): where each holds here,
     # the certificate asks them too, and wherever it is met the note is "" without a reading
     held = tuple((bound.of or bound.quantity.lower(), bound.low, bound.high) for bound in unsettled)
-    if all(bound.low <= _value(key, inputs, plain) <= bound.high for bound, (key, _, _) in zip(unsettled, held)):
+    if all(low <= _value(key, inputs, plain) <= high for key, low, high in held):
         return steps, covering, tuple(outside), inside, held, method, function, corr, ()
     return steps, covering, tuple(outside), inside, (), method, function, corr, unsettled
 
@@ -419,7 +420,7 @@ def _claim(ranges: tuple[tuple[Range, Any], ...], inputs: Mapping[str, Any],
         short = read.get(id(inner))
         if short is None:
             short = read[id(inner)] = inner.shortfall(inputs) if plain is None else \
-                inner.shortfall_of(plain[key] if type(key) is str else float(key(inputs)))
+                inner.shortfall_of(_value(key, inputs, plain))
         if inner.driven:
             driven = np.maximum(driven, short) if plain is None else max(driven, short)
         else:
